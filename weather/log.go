@@ -1,0 +1,317 @@
+package weather
+
+import (
+	"encoding/csv"
+	"errors"
+	"fmt"
+	"io"
+	"sort"
+	"strconv"
+	"strings"
+	"time"
+)
+
+// The weather log is weather.csv: one reading per row, in the columns below.
+// Units are in the names. Imperial columns are written; the metric columns
+// are accepted on reading in their place.
+//
+//	date, time      local date (2006-01-02) and time (15:04 or 15:04:05)
+//	temp_f          air temperature (or temp_c)
+//	baro_inhg       barometer figure (or baro_hpa), of the kind in baro_kind
+//	baro_kind       station (default) or altimeter
+//	humidity_pct    relative humidity, or blank when dewpoint_f is given
+//	dewpoint_f      dew point (or dewpoint_c), or blank
+//	wind_mph        wind speed (or wind_kmh), blank = calm
+//	wind_from_deg   compass direction the wind blows from, blank = 0
+//	track_temp_f    track surface temperature (or track_temp_c), blank = not read
+//	notes           free text
+var LogColumns = []string{"date", "time", "temp_f", "baro_inhg", "baro_kind", "humidity_pct",
+	"dewpoint_f", "wind_mph", "wind_from_deg", "track_temp_f", "notes"}
+
+// metric alternatives: column → the canonical column it stands for.
+var logAlternatives = map[string]string{
+	"temp_c": "temp_f", "baro_hpa": "baro_inhg", "dewpoint_c": "dewpoint_f",
+	"wind_kmh": "wind_mph", "track_temp_c": "track_temp_f",
+}
+
+// Timestamps in pitcard's files: ISO date and 24-hour time.
+const (
+	DateLayout = "2006-01-02"
+	TimeLayout = "15:04"
+)
+
+// ParseClock reads a time of day, "21:40" or "21:40:30", on the date of day in
+// loc.
+func ParseClock(s string, day time.Time, loc *time.Location) (time.Time, error) {
+	for _, layout := range []string{"15:04", "15:04:05"} {
+		if t, err := time.ParseInLocation(layout, strings.TrimSpace(s), loc); err == nil {
+			y, m, d := day.In(loc).Date()
+			return time.Date(y, m, d, t.Hour(), t.Minute(), t.Second(), 0, loc), nil
+		}
+	}
+	return time.Time{}, inputErr("time", s, "is not a time of day (use 24-hour HH:MM, e.g. 21:40)")
+}
+
+// ParseDateTime reads a date and a time of day in loc.
+func ParseDateTime(date, clock string, loc *time.Location) (time.Time, error) {
+	d, err := time.ParseInLocation(DateLayout, strings.TrimSpace(date), loc)
+	if err != nil {
+		return time.Time{}, inputErr("date", date, "is not a date (use YYYY-MM-DD, e.g. 2026-06-13)")
+	}
+	return ParseClock(clock, d, loc)
+}
+
+// ReadLog reads a weather log from r. name is the file's name for messages,
+// elev the track's elevation (to check altimeter settings), loc the zone its
+// times are in. Every row is validated; the first bad row is an *InputError
+// naming the file, line, column, value and range. The readings come back in
+// time order.
+func ReadLog(r io.Reader, name string, elev Length, loc *time.Location) ([]Reading, error) {
+	cr := csv.NewReader(r)
+	cr.FieldsPerRecord = -1
+	cr.Comment = '#'
+	header, err := cr.Read()
+	if errors.Is(err, io.EOF) {
+		return nil, nil
+	}
+	if err != nil {
+		return nil, csvErr(name, err)
+	}
+	col, err := logHeader(header, name)
+	if err != nil {
+		return nil, err
+	}
+	var out []Reading
+	for {
+		rec, err := cr.Read()
+		if errors.Is(err, io.EOF) {
+			break
+		}
+		if err != nil {
+			return nil, csvErr(name, err)
+		}
+		line, _ := cr.FieldPos(0)
+		if len(rec) != len(header) {
+			return nil, &InputError{File: name, Line: line, Field: "row",
+				Reason: fmt.Sprintf("has %d fields, the header has %d", len(rec), len(header))}
+		}
+		rd, err := logRow(rec, col, elev, loc)
+		if err != nil {
+			var ie *InputError
+			if errors.As(err, &ie) {
+				return nil, ie.At(name, line)
+			}
+			return nil, err
+		}
+		out = append(out, rd)
+	}
+	sort.SliceStable(out, func(i, j int) bool { return out[i].Time.Before(out[j].Time) })
+	return out, nil
+}
+
+func csvErr(name string, err error) error {
+	var pe *csv.ParseError
+	if errors.As(err, &pe) {
+		return &InputError{File: name, Line: pe.Line, Field: "row", Reason: "is not valid CSV: " + pe.Err.Error()}
+	}
+	return fmt.Errorf("%s: %w", name, err)
+}
+
+// logColumns maps a canonical column to its index and whether it is metric.
+type logColumns map[string]struct {
+	i      int
+	metric bool
+	name   string
+}
+
+func logHeader(header []string, name string) (logColumns, error) {
+	col := logColumns{}
+	known := map[string]bool{}
+	for _, c := range LogColumns {
+		known[c] = true
+	}
+	for i, h := range header {
+		h = strings.ToLower(strings.TrimSpace(strings.TrimPrefix(h, "\ufeff")))
+		canon, metric := h, false
+		if alt, ok := logAlternatives[h]; ok {
+			canon, metric = alt, true
+		}
+		if !known[canon] {
+			return nil, &InputError{File: name, Line: 1, Field: "column", Value: h,
+				Reason: "is not a weather-log column (columns: " + strings.Join(LogColumns, ", ") + "; metric: temp_c, baro_hpa, dewpoint_c, wind_kmh, track_temp_c)"}
+		}
+		if _, dup := col[canon]; dup {
+			return nil, &InputError{File: name, Line: 1, Field: "column", Value: h, Reason: "appears twice (or with its metric twin)"}
+		}
+		col[canon] = struct {
+			i      int
+			metric bool
+			name   string
+		}{i, metric, h}
+	}
+	for _, need := range []string{"date", "time", "temp_f", "baro_inhg"} {
+		if _, ok := col[need]; !ok {
+			return nil, &InputError{File: name, Line: 1, Field: "column", Value: need, Reason: "is missing from the header"}
+		}
+	}
+	_, rh := col["humidity_pct"]
+	_, dp := col["dewpoint_f"]
+	if !rh && !dp {
+		return nil, &InputError{File: name, Line: 1, Field: "column", Value: "humidity_pct", Reason: "is missing (give humidity_pct or dewpoint_f)"}
+	}
+	return col, nil
+}
+
+func logRow(rec []string, col logColumns, elev Length, loc *time.Location) (Reading, error) {
+	get := func(c string) (string, string, bool) {
+		x, ok := col[c]
+		if !ok {
+			return "", c, false
+		}
+		return strings.TrimSpace(rec[x.i]), x.name, x.metric
+	}
+	var r Reading
+	date, _, _ := get("date")
+	clock, _, _ := get("time")
+	t, err := ParseDateTime(date, clock, loc)
+	if err != nil {
+		return r, err
+	}
+	r.Time = t
+
+	v, name, metric := get("temp_f")
+	if r.Temp, err = ParseTemperature(v, unitIf(metric, DegC, DegF)); err != nil {
+		return r, err.(*InputError).Named(name)
+	}
+	v, name, metric = get("baro_inhg")
+	if r.Baro, err = ParsePressure(v, unitIf(metric, UnitHPa, UnitInHg)); err != nil {
+		return r, err.(*InputError).Named(name)
+	}
+	if v, _, _ := get("baro_kind"); v != "" {
+		if r.BaroKind, err = ParsePressureKind(strings.ToLower(v)); err != nil {
+			return r, err.(*InputError).Named("baro_kind")
+		}
+	}
+	rh, _, _ := get("humidity_pct")
+	dp, dpName, dpMetric := get("dewpoint_f")
+	switch {
+	case dp != "":
+		r.DewPointSet = true
+		if r.DewPoint, err = ParseTemperature(dp, unitIf(dpMetric, DegC, DegF)); err != nil {
+			return r, err.(*InputError).Named(dpName)
+		}
+	case rh != "":
+		if r.RH, err = ParsePercent(rh); err != nil {
+			return r, err.(*InputError).Named("humidity_pct")
+		}
+	default:
+		return r, inputErr("humidity_pct", "", "is blank, and so is dewpoint_f (give one)")
+	}
+	if v, name, metric := get("wind_mph"); v != "" {
+		if r.Wind, err = ParseSpeed(v, unitIf(metric, UnitKMH, UnitMPH)); err != nil {
+			return r, err.(*InputError).Named(name)
+		}
+	}
+	if v, _, _ := get("wind_from_deg"); v != "" {
+		if r.WindFrom, err = parsePlain(v); err != nil {
+			return r, err.(*InputError).Named("wind_from_deg")
+		}
+	}
+	if v, name, metric := get("track_temp_f"); v != "" {
+		r.HasTrack = true
+		if r.TrackTemp, err = ParseTemperature(v, unitIf(metric, DegC, DegF)); err != nil {
+			return r, err.(*InputError).Named(name)
+		}
+	}
+	r.Note, _, _ = get("notes")
+	if err := r.Validate(elev); err != nil {
+		var ie *InputError
+		if errors.As(err, &ie) {
+			return r, ie.Named(fileColumn(ie.Field))
+		}
+		return r, err
+	}
+	return r, nil
+}
+
+// fileColumn names, in weather.csv's terms, a field Validate names in flag terms.
+func fileColumn(field string) string {
+	switch field {
+	case "temp":
+		return "temp_f"
+	case "baro":
+		return "baro_inhg"
+	case "humidity":
+		return "humidity_pct"
+	case "dewpoint":
+		return "dewpoint_f"
+	case "wind":
+		return "wind_mph"
+	case "wind-from":
+		return "wind_from_deg"
+	case "track-temp":
+		return "track_temp_f"
+	}
+	return field
+}
+
+func unitIf[U any](metric bool, m, imperial U) U {
+	if metric {
+		return m
+	}
+	return imperial
+}
+
+func parsePlain(s string) (float64, error) {
+	v, unit, err := splitNumber("number", s)
+	if err != nil {
+		return 0, err
+	}
+	if unit != "" && unit != "°" && unit != "deg" {
+		return 0, inputErr("number", s, "should be a plain number")
+	}
+	return v, nil
+}
+
+// WriteLog writes readings as a weather log with its header, in time order as
+// given, in imperial columns. Values keep enough digits to come back as typed.
+func WriteLog(w io.Writer, readings []Reading) error {
+	cw := csv.NewWriter(w)
+	if err := cw.Write(LogColumns); err != nil {
+		return err
+	}
+	for _, r := range readings {
+		rh, dp := "", ""
+		if r.DewPointSet {
+			dp = num(r.DewPoint.Fahrenheit(), 2)
+		} else {
+			rh = num(r.RH*100, 2)
+		}
+		track := ""
+		if r.HasTrack {
+			track = num(r.TrackTemp.Fahrenheit(), 2)
+		}
+		rec := []string{
+			r.Time.Format(DateLayout), r.Time.Format("15:04:05"),
+			num(r.Temp.Fahrenheit(), 2), num(r.Baro.InHg(), 4), r.BaroKind.String(),
+			rh, dp, num(r.Wind.MPH(), 2), num(r.WindFrom, 1), track, r.Note,
+		}
+		if err := cw.Write(rec); err != nil {
+			return err
+		}
+	}
+	cw.Flush()
+	return cw.Error()
+}
+
+// num prints v rounded to at most decimals places, without trailing zeros.
+func num(v float64, decimals int) string {
+	s := strconv.FormatFloat(v, 'f', decimals, 64)
+	if strings.Contains(s, ".") {
+		s = strings.TrimRight(strings.TrimRight(s, "0"), ".")
+	}
+	if s == "-0" {
+		s = "0"
+	}
+	return s
+}

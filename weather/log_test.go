@@ -1,0 +1,256 @@
+package weather
+
+import (
+	"bytes"
+	"errors"
+	"math"
+	"strings"
+	"testing"
+	"time"
+)
+
+var day = time.Date(2026, 6, 13, 0, 0, 0, 0, time.UTC)
+
+func at(hhmm string) time.Time {
+	t, err := ParseClock(hhmm, day, time.UTC)
+	if err != nil {
+		panic(err)
+	}
+	return t
+}
+
+func TestValidateRanges(t *testing.T) {
+	ok := Reading{Temp: Fahrenheit(88), Baro: InHg(28.9), RH: 0.4, Wind: MPH(5), WindFrom: 200, TrackTemp: Fahrenheit(120), HasTrack: true}
+	if err := ok.Validate(Feet(900)); err != nil {
+		t.Fatalf("good reading refused: %v", err)
+	}
+	cases := []struct {
+		name string
+		edit func(*Reading)
+		elev float64
+		want []string
+	}{
+		{"hot", func(r *Reading) { r.Temp = Fahrenheit(150) }, 900, []string{"temp", "150 °F", "-40..140 °F"}},
+		{"cold", func(r *Reading) { r.Temp = Fahrenheit(-41) }, 900, []string{"temp", "-41"}},
+		{"baro high", func(r *Reading) { r.Baro = InHg(33) }, 900, []string{"baro", "33 inHg", "15..32.5 inHg"}},
+		{"baro low", func(r *Reading) { r.Baro = InHg(14) }, 900, []string{"baro", "15..32.5"}},
+		{"rh", func(r *Reading) { r.RH = 1.2 }, 900, []string{"humidity", "120 %", "0..100 %"}},
+		{"dew above air", func(r *Reading) { r.DewPointSet, r.DewPoint = true, Fahrenheit(90) }, 900, []string{"dewpoint", "90.0 °F", "above the air temperature"}},
+		{"elevation", func(r *Reading) {}, 16000, []string{"elevation", "16000 ft", "-1500..15000 ft"}},
+		{"wind", func(r *Reading) { r.Wind = MPH(70) }, 900, []string{"wind", "70 mph", "0..60 mph"}},
+		{"track", func(r *Reading) { r.TrackTemp = Fahrenheit(210) }, 900, []string{"track-temp", "210 °F", "-20..200 °F"}},
+		{"nan", func(r *Reading) { r.Temp = Temperature(math.NaN()) }, 900, []string{"temp", "-40..140"}},
+	}
+	for _, tc := range cases {
+		r := ok
+		tc.edit(&r)
+		err := r.Validate(Feet(tc.elev))
+		var ie *InputError
+		if !errors.As(err, &ie) {
+			t.Errorf("%s: got %v, want an InputError", tc.name, err)
+			continue
+		}
+		for _, w := range tc.want {
+			if !strings.Contains(err.Error(), w) {
+				t.Errorf("%s: %q lacks %q", tc.name, err, w)
+			}
+		}
+	}
+}
+
+// Common practice (no source): at a track well above sea level, a figure
+// near 29.9 inHg entered as station pressure is almost always an airport's
+// altimeter setting, and one near 25 entered as altimeter is a station reading.
+func TestPressureKindWarning(t *testing.T) {
+	elev := Feet(4300)
+	station := Reading{Temp: Fahrenheit(80), Baro: InHg(29.95), RH: 0.3}
+	if w := station.PressureWarning(elev); !strings.Contains(w, "looks like an altimeter") {
+		t.Errorf("29.95 station at 4300 ft: warning %q", w)
+	}
+	alt := Reading{Temp: Fahrenheit(80), Baro: InHg(25.6), BaroKind: AltimeterSetting, RH: 0.3}
+	if w := alt.PressureWarning(elev); !strings.Contains(w, "looks like a station") {
+		t.Errorf("25.6 altimeter: warning %q", w)
+	}
+	fine := Reading{Temp: Fahrenheit(80), Baro: InHg(25.6), RH: 0.3}
+	if w := fine.PressureWarning(elev); w != "" {
+		t.Errorf("25.6 station at 4300 ft: unexpected warning %q", w)
+	}
+	if w := station.PressureWarning(Feet(300)); w != "" {
+		t.Errorf("near sea level the kinds cannot be told apart, got %q", w)
+	}
+}
+
+func TestLogRoundTrip(t *testing.T) {
+	in := []Reading{
+		{Time: at("18:30"), Temp: Fahrenheit(91.5), Baro: InHg(28.93), RH: 0.38, Wind: MPH(6), WindFrom: 210, TrackTemp: Fahrenheit(128), HasTrack: true},
+		{Time: at("18:45"), Temp: Celsius(32.1), Baro: HPa(979.4), DewPointSet: true, DewPoint: Fahrenheit(60.2), Note: "cloud, \"light\" breeze"},
+		{Time: at("19:00"), Temp: Fahrenheit(88), Baro: InHg(29.95), BaroKind: AltimeterSetting, RH: 0.41},
+	}
+	var buf bytes.Buffer
+	if err := WriteLog(&buf, in); err != nil {
+		t.Fatal(err)
+	}
+	out, err := ReadLog(&buf, "weather.csv", Feet(900), time.UTC)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(out) != len(in) {
+		t.Fatalf("read %d readings, wrote %d", len(out), len(in))
+	}
+	for i := range in {
+		a, b := in[i].Derive(Feet(900)), out[i].Derive(Feet(900))
+		if math.Abs(a.DensityAltitude.Feet()-b.DensityAltitude.Feet()) > 1 || !out[i].Time.Equal(in[i].Time) ||
+			out[i].Note != in[i].Note || out[i].BaroKind != in[i].BaroKind {
+			t.Errorf("row %d: wrote %+v, read %+v", i, in[i], out[i])
+		}
+	}
+}
+
+func TestReadLogMetricColumns(t *testing.T) {
+	csv := "date,time,temp_c,baro_hpa,humidity_pct,wind_kmh,track_temp_c\n2026-06-13,18:30,31,980,40,10,50\n"
+	out, err := ReadLog(strings.NewReader(csv), "weather.csv", Feet(900), time.UTC)
+	if err != nil {
+		t.Fatal(err)
+	}
+	r := out[0]
+	if math.Abs(r.Temp.Celsius()-31) > 1e-9 || math.Abs(r.Baro.HPa()-980) > 1e-9 || math.Abs(r.Wind.KMH()-10) > 1e-9 || math.Abs(r.TrackTemp.Celsius()-50) > 1e-9 {
+		t.Errorf("metric row read as %+v", r)
+	}
+}
+
+func TestReadLogErrorsNameFileLineColumn(t *testing.T) {
+	head := "date,time,temp_f,baro_inhg,humidity_pct\n"
+	cases := []struct {
+		csv  string
+		want []string
+	}{
+		{head + "2026-06-13,18:30,88,28.9,40\n2026-06-13,18:45,190,28.9,40\n", []string{"weather.csv line 3", "temp_f", "190", "-40..140 °F"}},
+		{head + "2026-06-13,18:30,88,28.9,140\n", []string{"line 2", "humidity", "0..100 %"}},
+		{head + "2026-13-13,18:30,88,28.9,40\n", []string{"line 2", "date", "YYYY-MM-DD"}},
+		{head + "2026-06-13,6pm,88,28.9,40\n", []string{"line 2", "time", "HH:MM"}},
+		{head + "2026-06-13,18:30,88K,28.9,40\n", []string{"line 2", "temp_f", "unknown unit"}},
+		{head + "2026-06-13,18:30,88,28.9\n", []string{"line 2", "fields"}},
+		{"date,time,temp_f,pressure,humidity_pct\n", []string{"line 1", "pressure", "not a weather-log column"}},
+		{"date,time,temp_f,humidity_pct\n", []string{"baro_inhg", "missing"}},
+		{head + "2026-06-13,18:30,88,\"28.9,40\n", []string{"line 2", "CSV"}},
+		{head + "2026-06-13,18:30,88,28.9,\n", []string{"line 2", "humidity_pct", "blank"}},
+	}
+	for _, tc := range cases {
+		_, err := ReadLog(strings.NewReader(tc.csv), "weather.csv", Feet(900), time.UTC)
+		if err == nil {
+			t.Errorf("%q: no error", tc.csv)
+			continue
+		}
+		for _, w := range tc.want {
+			if !strings.Contains(err.Error(), w) {
+				t.Errorf("%q: %q lacks %q", tc.csv, err, w)
+			}
+		}
+	}
+}
+
+func FuzzReadLog(f *testing.F) {
+	f.Add("date,time,temp_f,baro_inhg,humidity_pct\n2026-06-13,18:30,88,28.9,40\n")
+	f.Add("date,time,temp_c,baro_hpa,dewpoint_c,baro_kind,notes\n2026-06-13,18:30,31,980,12,altimeter,\"a,b\"\n")
+	f.Add("date,time,temp_f,baro_inhg,humidity_pct,track_temp_f,wind_mph,wind_from_deg\n2026-06-13,18:30:05,88,28.9,40,,3,\n")
+	f.Add("\ufeffdate,time\n")
+	f.Fuzz(func(t *testing.T, s string) {
+		rs, err := ReadLog(strings.NewReader(s), "weather.csv", Feet(900), time.UTC)
+		if err != nil {
+			var ie *InputError
+			if errors.As(err, &ie) {
+				if ie.Field == "" || ie.File != "weather.csv" {
+					t.Fatalf("error %q does not name its field and file", err)
+				}
+			}
+			return
+		}
+		for _, r := range rs {
+			if r.Validate(Feet(900)) != nil {
+				t.Fatalf("accepted an invalid reading %+v", r)
+			}
+		}
+	})
+}
+
+// The forecast of a log that follows a straight line is the line (definition
+// of a linear trend); the spread of a clean line is ~0.
+func TestForecastFollowsLinearTrend(t *testing.T) {
+	var log []Reading
+	for i := 0; i <= 6; i++ { // 18:00..19:30 every 15 min: cooling 2 °F per 15 min
+		log = append(log, Reading{Time: at("18:00").Add(time.Duration(i) * 15 * time.Minute),
+			Temp: Fahrenheit(92 - 2*float64(i)), Baro: InHg(28.90 + 0.01*float64(i)), DewPointSet: true, DewPoint: Fahrenheit(60),
+			TrackTemp: Fahrenheit(130 - 4*float64(i)), HasTrack: true})
+	}
+	f, err := ForecastAt(log, at("20:30"), Feet(900))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if math.Abs(f.Reading.Temp.Fahrenheit()-(92-2*10)) > 1e-6 || math.Abs(f.Reading.Baro.InHg()-29.00) > 1e-6 ||
+		math.Abs(f.Reading.TrackTemp.Fahrenheit()-(130-40)) > 1e-6 {
+		t.Errorf("forecast %+v", f.Reading)
+	}
+	if f.Used != 7 || f.Span != 90*time.Minute || f.Ahead != time.Hour || !f.Trusted {
+		t.Errorf("used %d span %v ahead %v trusted %v", f.Used, f.Span, f.Ahead, f.Trusted)
+	}
+	if !strings.Contains(strings.Join(f.Notes, " "), "7 readings over 1 h 30 min") {
+		t.Errorf("notes %q", f.Notes)
+	}
+	// inside the log: interpolation
+	g, err := ForecastAt(log, at("18:07"), Feet(900))
+	if err != nil || !g.Interval || math.Abs(g.Reading.Temp.Fahrenheit()-(92-2*7.0/15)) > 1e-9 {
+		t.Errorf("interpolated %+v, %v", g.Reading, err)
+	}
+}
+
+func TestForecastRefusesAndDoubts(t *testing.T) {
+	log := []Reading{
+		{Time: at("18:00"), Temp: Fahrenheit(90), Baro: InHg(28.9), RH: 0.4},
+		{Time: at("18:15"), Temp: Fahrenheit(89), Baro: InHg(28.9), RH: 0.4},
+	}
+	if _, err := ForecastAt(log, at("21:16"), Feet(900)); err == nil || !strings.Contains(err.Error(), "at most 3 h") {
+		t.Errorf("3 h 1 min ahead: %v", err)
+	}
+	if _, err := ForecastAt(log, at("17:00"), Feet(900)); err == nil || !strings.Contains(err.Error(), "before the first") {
+		t.Errorf("before the log: %v", err)
+	}
+	if _, err := ForecastAt(nil, at("17:00"), Feet(900)); err == nil {
+		t.Error("empty log gave no error")
+	}
+	f, err := ForecastAt(log, at("19:00"), Feet(900))
+	if err != nil || f.Trusted || !strings.Contains(f.Notes[0], "too short") || f.Reading.Temp != log[1].Temp {
+		t.Errorf("short log: %+v %v", f, err)
+	}
+	noisy := []Reading{}
+	for i, temp := range []float64{90, 70, 95, 65, 92, 68} {
+		noisy = append(noisy, Reading{Time: at("18:00").Add(time.Duration(i) * 10 * time.Minute), Temp: Fahrenheit(temp), Baro: InHg(28.9), RH: 0.4})
+	}
+	f, err = ForecastAt(noisy, at("19:30"), Feet(900))
+	if err != nil || f.Trusted || !strings.Contains(strings.Join(f.Notes, " "), "too noisy") {
+		t.Errorf("noisy log: %+v %v", f, err)
+	}
+}
+
+func BenchmarkDeriveAir(b *testing.B) {
+	r := Reading{Temp: Fahrenheit(88), Baro: InHg(28.91), RH: 0.42, Wind: MPH(6), WindFrom: 200}
+	elev := Feet(1850)
+	var da float64
+	for b.Loop() {
+		da += r.Derive(elev).DensityAltitude.Feet()
+	}
+	_ = da
+}
+
+func BenchmarkForecast2000(b *testing.B) {
+	log := make([]Reading, 2000)
+	for i := range log {
+		log[i] = Reading{Time: at("00:00").Add(time.Duration(i) * 30 * time.Second), Temp: Fahrenheit(90 - float64(i)/200),
+			Baro: InHg(28.9), RH: 0.4, TrackTemp: Fahrenheit(120), HasTrack: true}
+	}
+	target := log[len(log)-1].Time.Add(time.Hour)
+	for b.Loop() {
+		if _, err := ForecastAt(log, target, Feet(900)); err != nil {
+			b.Fatal(err)
+		}
+	}
+}

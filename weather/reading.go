@@ -1,0 +1,232 @@
+package weather
+
+import (
+	"fmt"
+	"math"
+	"time"
+)
+
+// PressureKind says what a barometer figure is. Handheld track meters read
+// station pressure (the real pressure where the car runs, "uncorrected");
+// airport reports and phone apps give the altimeter setting (station pressure
+// reduced to sea level), which needs the track's elevation to undo. Mixing the
+// two is the most common weather mistake at a track, so the kind is explicit.
+type PressureKind int
+
+// Pressure kinds.
+const (
+	StationPressure PressureKind = iota
+	AltimeterSetting
+)
+
+func (k PressureKind) String() string {
+	if k == AltimeterSetting {
+		return "altimeter"
+	}
+	return "station"
+}
+
+// ParsePressureKind reads "station" (also "uncorrected", "stn") or "altimeter"
+// (also "sea-level", "corrected", "alt").
+func ParsePressureKind(s string) (PressureKind, error) {
+	switch s {
+	case "station", "stn", "uncorrected", "":
+		return StationPressure, nil
+	case "altimeter", "alt", "sea-level", "sealevel", "corrected":
+		return AltimeterSetting, nil
+	}
+	return 0, inputErr("baro-kind", s, "is not a pressure kind (use station or altimeter)")
+}
+
+// Reading is one set of readings at the track.
+type Reading struct {
+	Time     time.Time
+	Temp     Temperature  // air temperature; valid −40..140 °F
+	Baro     Pressure     // as read, of kind BaroKind
+	BaroKind PressureKind // station pressure or altimeter setting
+	// Humidity: either the relative humidity (fraction 0..1) or the dew point.
+	RH          float64
+	DewPointSet bool        // true: DewPoint is given and RH is ignored
+	DewPoint    Temperature // not above Temp
+	Wind        Speed       // valid 0..60 mph
+	WindFrom    float64     // compass degrees the wind blows from, 0..360
+	TrackTemp   Temperature // track surface; valid −20..200 °F when HasTrackTemp
+	HasTrack    bool
+	Note        string // free text
+}
+
+// Valid ranges of a reading (pitcard's limits: the extremes a drag strip sees,
+// with room to spare).
+var (
+	TempRange      = [2]float64{-40, 140}     // °F
+	StationRange   = [2]float64{15, 32.5}     // inHg
+	ElevationRange = [2]float64{-1500, 15000} // ft
+	WindRange      = [2]float64{0, 60}        // mph
+	TrackTempRange = [2]float64{-20, 200}     // °F
+)
+
+func outside(v float64, r [2]float64) bool { return !(v >= r[0] && v <= r[1]) } // NaN is outside
+
+func rangeErr(field string, v float64, unit string, r [2]float64) *InputError {
+	return inputErr(field, trimFloat(v)+" "+unit, "is outside %s..%s %s", trimFloat(r[0]), trimFloat(r[1]), unit)
+}
+
+func trimFloat(v float64) string {
+	s := fmt.Sprintf("%.2f", v)
+	for len(s) > 1 && s[len(s)-1] == '0' {
+		s = s[:len(s)-1]
+	}
+	if s[len(s)-1] == '.' {
+		s = s[:len(s)-1]
+	}
+	return s
+}
+
+// CheckElevation reports an elevation outside −1500..15000 ft.
+func CheckElevation(h Length) error {
+	if outside(h.Feet(), ElevationRange) {
+		return rangeErr("elevation", h.Feet(), "ft", ElevationRange)
+	}
+	return nil
+}
+
+// Station is the station pressure of the reading at elevation h.
+func (r Reading) Station(h Length) Pressure {
+	if r.BaroKind == AltimeterSetting {
+		return StationFromAltimeter(r.Baro, h)
+	}
+	return r.Baro
+}
+
+// Validate checks every field of the reading taken at elevation h against its
+// valid range and returns the first that fails, naming the field, the value,
+// its unit and the range.
+func (r Reading) Validate(h Length) error {
+	if err := CheckElevation(h); err != nil {
+		return err
+	}
+	if f := r.Temp.Fahrenheit(); outside(f, TempRange) {
+		return rangeErr("temp", f, "°F", TempRange)
+	}
+	if r.BaroKind == AltimeterSetting && outside(r.Baro.InHg(), StationRange) {
+		return rangeErr("baro", r.Baro.InHg(), "inHg", StationRange)
+	}
+	if p := r.Station(h).InHg(); outside(p, StationRange) {
+		if r.BaroKind == AltimeterSetting {
+			return inputErr("baro", trimFloat(r.Baro.InHg())+" inHg",
+				"gives station pressure %s inHg at %s ft, outside %s..%s inHg", trimFloat(p),
+				trimFloat(h.Feet()), trimFloat(StationRange[0]), trimFloat(StationRange[1]))
+		}
+		return rangeErr("baro", p, "inHg", StationRange)
+	}
+	if r.DewPointSet {
+		if r.DewPoint > r.Temp+1e-9 {
+			return inputErr("dewpoint", r.DewPoint.Format(DegF, 1),
+				"is above the air temperature %s (the dew point can be at most the air temperature)", r.Temp.Format(DegF, 1))
+		}
+		if f := r.DewPoint.Fahrenheit(); outside(f, [2]float64{-100, TempRange[1]}) {
+			return rangeErr("dewpoint", f, "°F", [2]float64{-100, TempRange[1]})
+		}
+	} else if pct := r.RH * 100; outside(pct, [2]float64{0, 100}) {
+		return rangeErr("humidity", pct, "%", [2]float64{0, 100})
+	}
+	if w := r.Wind.MPH(); outside(w, WindRange) {
+		return rangeErr("wind", w, "mph", WindRange)
+	}
+	if outside(r.WindFrom, [2]float64{0, 360}) {
+		return rangeErr("wind-from", r.WindFrom, "°", [2]float64{0, 360})
+	}
+	if r.HasTrack {
+		if f := r.TrackTemp.Fahrenheit(); outside(f, TrackTempRange) {
+			return rangeErr("track-temp", f, "°F", TrackTempRange)
+		}
+	}
+	return nil
+}
+
+// PressureWarning returns a warning when the barometer figure looks like the
+// other kind for a track at elevation h, or "" when it is believable. Sea-level
+// reduced pressure (altimeter setting) stays within about 28.0..31.3 inHg
+// anywhere people race; a true station pressure at elevation is lower by about
+// 1 inHg per 1000 ft.
+func (r Reading) PressureWarning(h Length) string {
+	const lo, hi = 28.0, 31.3 // inHg, the band of believable altimeter settings
+	if math.Abs(h.Feet()) < 700 {
+		return "" // the two kinds differ by less than the weather does
+	}
+	v := r.Baro.InHg()
+	switch r.BaroKind {
+	case StationPressure:
+		a := AltimeterFromStation(r.Baro, h).InHg()
+		if (a < lo || a > hi) && v >= lo && v <= hi {
+			return fmt.Sprintf("baro %.2f inHg is entered as station pressure, but at %.0f ft it would mean "+
+				"a sea-level altimeter setting of %.2f inHg, which the weather does not do; "+
+				"it looks like an altimeter (sea-level) setting: use --baro-kind altimeter if it came from an airport report or app",
+				v, h.Feet(), a)
+		}
+	case AltimeterSetting:
+		if v < lo || v > hi {
+			return fmt.Sprintf("baro %.2f inHg is entered as an altimeter setting, but sea-level settings stay within %.1f..%.1f inHg; "+
+				"it looks like a station (uncorrected) pressure: use --baro-kind station if it came from a handheld meter",
+				v, lo, hi)
+		}
+	}
+	return ""
+}
+
+// Air is every figure pitcard derives from one reading.
+type Air struct {
+	Station          Pressure    // station pressure
+	Altimeter        Pressure    // the altimeter setting equivalent at the track's elevation
+	Saturation       Pressure    // saturation vapor pressure at the air temperature
+	Vapor            Pressure    // partial pressure of water vapor
+	Dry              Pressure    // partial pressure of dry air, station − vapor
+	DewPoint         Temperature // dew point
+	RH               float64     // relative humidity, fraction 0..1
+	Density          float64     // kg/m³
+	RelativeDensity  float64     // percent of standard dry air at 15 °C, 1013.25 hPa
+	VirtualTemp      Temperature // virtual temperature
+	PressureAltitude Length
+	DensityAltitude  Length
+	Grains           float64 // grains of water per lb of dry air
+	CFJ1349          float64 // SAE J1349 (1990)
+	CFJ1349v2004     float64 // SAE J1349 (2004 revision)
+	CFSTD            float64 // SAE J607 "STD"
+	CFDIN            float64 // DIN 70020
+}
+
+// Derive computes every air figure of reading r taken at elevation h. It does
+// not validate; call Validate first for input a person typed.
+func (r Reading) Derive(h Length) Air {
+	var a Air
+	a.Station = r.Station(h)
+	a.Altimeter = AltimeterFromStation(a.Station, h)
+	a.Saturation = SaturationVaporPressure(r.Temp)
+	if r.DewPointSet {
+		a.Vapor = SaturationVaporPressure(r.DewPoint)
+		a.DewPoint = r.DewPoint
+		a.RH = float64(a.Vapor / a.Saturation)
+	} else {
+		a.Vapor = Pressure(r.RH * float64(a.Saturation))
+		a.RH = r.RH
+		a.DewPoint = DewPoint(a.Vapor)
+	}
+	a.Dry = a.Station - a.Vapor
+	a.Density = AirDensity(a.Station, r.Temp, a.Vapor)
+	a.RelativeDensity = 100 * a.Density / StandardDensity
+	a.VirtualTemp = VirtualTemperature(a.Station, r.Temp, a.Vapor)
+	a.PressureAltitude = PressureAltitude(a.Station)
+	a.DensityAltitude = DensityAltitude(a.Density)
+	a.Grains = GrainsPerLb(a.Vapor, a.Station)
+	a.CFJ1349 = CFSAEJ1349(r.Temp, a.Dry)
+	a.CFJ1349v2004 = CFSAEJ1349v2004(r.Temp, a.Dry)
+	a.CFSTD = CFSTD(r.Temp, a.Dry)
+	a.CFDIN = CFDIN70020(r.Temp, a.Station)
+	return a
+}
+
+// HeadwindComponent is the part of the wind blowing against a car running on
+// compass heading heading (degrees): positive is a headwind, negative a tailwind.
+func (r Reading) HeadwindComponent(heading float64) Speed {
+	return Speed(float64(r.Wind) * math.Cos((r.WindFrom-heading)*math.Pi/180))
+}
