@@ -73,9 +73,9 @@ func ForecastAt(log []Reading, at time.Time, elev Length) (Forecast, error) {
 		f.Reading.Time = at
 		f.Air = f.Reading.Derive(elev)
 		f.Used = 1
-		f.Notes = append(f.Notes, fmt.Sprintf("too short to trend: %d reading(s) over %s in the last %s; "+
+		f.Notes = append(f.Notes, fmt.Sprintf("too short to trend: %d reading%s over %s in the last %s; "+
 			"the %s reading is carried forward unchanged (a trend needs %d readings over %s)",
-			len(win), roundMin(f.Span), roundMin(TrendWindow), last.Time.Format("15:04"), MinTrendReadings, roundMin(MinTrendSpan)))
+			len(win), map[bool]string{true: "", false: "s"}[len(win) == 1], roundMin(f.Span), roundMin(TrendWindow), last.Time.Format("15:04"), MinTrendReadings, roundMin(MinTrendSpan)))
 		return f, nil
 	}
 

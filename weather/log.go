@@ -213,7 +213,7 @@ func logRow(rec []string, col logColumns, elev Length, loc *time.Location) (Read
 		}
 	}
 	if v, _, _ := get("wind_from_deg"); v != "" {
-		if r.WindFrom, err = parsePlain(v); err != nil {
+		if r.WindFrom, err = ParseDirection(v); err != nil {
 			return r, err.(*InputError).Named("wind_from_deg")
 		}
 	}
@@ -260,17 +260,6 @@ func unitIf[U any](metric bool, m, imperial U) U {
 		return m
 	}
 	return imperial
-}
-
-func parsePlain(s string) (float64, error) {
-	v, unit, err := splitNumber("number", s)
-	if err != nil {
-		return 0, err
-	}
-	if unit != "" && unit != "°" && unit != "deg" {
-		return 0, inputErr("number", s, "should be a plain number")
-	}
-	return v, nil
 }
 
 // WriteLog writes readings as a weather log with its header, in time order as

@@ -146,12 +146,13 @@ func (r Reading) Validate(h Length) error {
 
 // PressureWarning returns a warning when the barometer figure looks like the
 // other kind for a track at elevation h, or "" when it is believable. Sea-level
-// reduced pressure (altimeter setting) stays within about 28.0..31.3 inHg
-// anywhere people race; a true station pressure at elevation is lower by about
+// reduced pressure (altimeter setting) stays within about 28.5..30.85 inHg
+// almost always (common practice, from memory: the records are about 25.7
+// and 32.1); a true station pressure at elevation is lower by about
 // 1 inHg per 1000 ft.
 func (r Reading) PressureWarning(h Length) string {
-	const lo, hi = 28.0, 31.3 // inHg, the band of believable altimeter settings
-	if math.Abs(h.Feet()) < 700 {
+	const lo, hi = 28.5, 30.85 // inHg (965..1045 hPa): altimeter settings outside it are rare
+	if math.Abs(h.Feet()) < 500 {
 		return "" // the two kinds differ by less than the weather does
 	}
 	v := r.Baro.InHg()
@@ -160,13 +161,13 @@ func (r Reading) PressureWarning(h Length) string {
 		a := AltimeterFromStation(r.Baro, h).InHg()
 		if (a < lo || a > hi) && v >= lo && v <= hi {
 			return fmt.Sprintf("baro %.2f inHg is entered as station pressure, but at %.0f ft it would mean "+
-				"a sea-level altimeter setting of %.2f inHg, which the weather does not do; "+
+				"a sea-level altimeter setting of %.2f inHg, which is rare; "+
 				"it looks like an altimeter (sea-level) setting: use --baro-kind altimeter if it came from an airport report or app",
 				v, h.Feet(), a)
 		}
 	case AltimeterSetting:
 		if v < lo || v > hi {
-			return fmt.Sprintf("baro %.2f inHg is entered as an altimeter setting, but sea-level settings stay within %.1f..%.1f inHg; "+
+			return fmt.Sprintf("baro %.2f inHg is entered as an altimeter setting, but sea-level settings are rarely outside %.2f..%.2f inHg; "+
 				"it looks like a station (uncorrected) pressure: use --baro-kind station if it came from a handheld meter",
 				v, lo, hi)
 		}

@@ -354,6 +354,26 @@ func ParsePercent(s string) (float64, error) {
 	return 0, inputErr("humidity", s, "has unknown unit %q (give percent, e.g. 45%%)", unit)
 }
 
+// ParseDirection reads a compass direction: degrees 0..360 ("200", "200°",
+// "200deg") or a 16-point compass name ("SW", "nne").
+func ParseDirection(s string) (float64, error) {
+	if d, ok := compassPoints[strings.ToUpper(strings.TrimSpace(s))]; ok {
+		return d, nil
+	}
+	v, unit, err := splitNumber("direction", s)
+	if err == nil && unit != "" && unit != "°" && unit != "deg" {
+		err = inputErr("direction", s, "has unknown unit %q", unit)
+	}
+	if err != nil {
+		return 0, inputErr("direction", s, "is not a compass direction (degrees 0..360, or N, NE, SW ...)")
+	}
+	return v, nil
+}
+
+var compassPoints = map[string]float64{"N": 0, "NNE": 22.5, "NE": 45, "ENE": 67.5, "E": 90, "ESE": 112.5,
+	"SE": 135, "SSE": 157.5, "S": 180, "SSW": 202.5, "SW": 225, "WSW": 247.5, "W": 270, "WNW": 292.5,
+	"NW": 315, "NNW": 337.5}
+
 // splitNumber splits "29.12 inHg" into 29.12 and the lower-cased unit "inhg".
 // The number is plain decimal notation: an optional sign, digits, an optional
 // fraction. Exponents, hex, NaN and Inf are refused.

@@ -1,0 +1,228 @@
+package main
+
+import (
+	"errors"
+	"fmt"
+	"io/fs"
+	"time"
+
+	"github.com/jedib0t/go-pretty/v6/table"
+	"github.com/spf13/cobra"
+
+	"pitcard/event"
+	"pitcard/weather"
+)
+
+type airOptions struct {
+	g       *globalOptions
+	s       *IOStreams
+	reading readingFlags
+	Latest  bool
+	Format  string
+}
+
+func newAirCmd(s *IOStreams, g *globalOptions) *cobra.Command {
+	o := &airOptions{g: g, s: s}
+	cmd := &cobra.Command{
+		Use:   "air",
+		Short: "Every figure of the air from one reading: density altitude, air density, correction factors",
+		Long: `Turns one weather reading into the figures a crew reasons with: density and
+pressure altitude, air density and relative air density, vapor pressure, dew
+point, grains of water, and the engine correction factors SAE J1349 (1990 and
+2004), STD (SAE J607) and DIN 70020.
+
+Give the reading with flags, or --latest for the weather log's last reading
+(flags then replace single fields of it). Bare numbers take the units of the
+'units' setting; a number with a unit (88F, 31C, 986hPa) is read as typed.
+Pressure is station pressure, as handheld meters read it, unless
+--baro-kind altimeter says it is an airport's sea-level setting.`,
+		Example: `  pitcard air --temp 88F --baro 28.92inHg --humidity 40% --elevation 1850ft
+  pitcard air --latest --track-temp 118F
+  pitcard air --demo --format json`,
+		Args: cobra.NoArgs,
+		RunE: func(cmd *cobra.Command, _ []string) error { return airRun(cmd, o) },
+	}
+	o.reading.bind(cmd)
+	cmd.Flags().BoolVar(&o.Latest, "latest", false, "use the weather log's last reading")
+	cmd.Flags().StringVar(&o.Format, "format", "text", "text, markdown or json")
+	return cmd
+}
+
+func airRun(cmd *cobra.Command, o *airOptions) error {
+	if err := checkFormat(o.Format, "text", "markdown", "json"); err != nil {
+		return err
+	}
+	e, err := o.g.open(cmd)
+	if err != nil {
+		return err
+	}
+	trk, trkErr := e.track()
+	if trkErr != nil && !errors.Is(trkErr, fs.ErrNotExist) && o.reading.Elevation == "" {
+		return trkErr
+	}
+	elev, err := o.reading.elevation(e.Settings.Units, trk.Elevation(), trkErr == nil)
+	if err != nil {
+		return err
+	}
+	var base *weather.Reading
+	if o.Latest || (e.Demo && !o.reading.given()) {
+		log, err := e.weatherLog(elev)
+		if err != nil {
+			return err
+		}
+		if len(log) == 0 {
+			return userErrf("%s has no readings: add one with 'pitcard weather add'", e.name(event.WeatherFile))
+		}
+		base = &log[len(log)-1]
+	}
+	r, err := o.reading.reading(e.Settings.Units, o.s.Now(), base)
+	if err != nil {
+		return err
+	}
+	if err := validateFlags(r, elev); err != nil {
+		return err
+	}
+	if w := r.PressureWarning(elev); w != "" {
+		fmt.Fprintln(o.s.Err, "pitcard: warning:", w)
+	}
+	rep := newAirReport(r, elev, trk.HeadingDeg, trk.Name != "")
+	if o.Format == "json" {
+		return writeJSON(o.s.Out, rep)
+	}
+	title := "Air"
+	if trk.Name != "" {
+		title += " at " + trk.Name
+	}
+	title += ", " + r.Time.Format("2006-01-02 15:04")
+	t := newTable(o.s, title)
+	airRows(t, r, r.Derive(elev), elev, trk.HeadingDeg, trk.Name != "", e.Settings.Units)
+	render(o.s.Out, t, o.Format)
+	return nil
+}
+
+// airReport is the JSON form of `pitcard air`. The first block of keys is
+// documented in the README and stays stable; scripts rely on them.
+type airReport struct {
+	DensityAltitudeFt     float64 `json:"density_altitude_ft"`
+	PressureAltitudeFt    float64 `json:"pressure_altitude_ft"`
+	AirDensityKgM3        float64 `json:"air_density_kg_m3"`
+	RelativeAirDensityPct float64 `json:"relative_air_density_pct"`
+	VaporPressureHPa      float64 `json:"vapor_pressure_hpa"`
+	DewPointF             float64 `json:"dew_point_f"`
+	GrainsPerLb           float64 `json:"grains_per_lb"`
+	CFSAEJ1349            float64 `json:"cf_sae_j1349"`
+	CFSAEJ13492004        float64 `json:"cf_sae_j1349_2004"`
+	CFSTD                 float64 `json:"cf_std"`
+	CFDIN70020            float64 `json:"cf_din70020"`
+	VirtualTempF          float64 `json:"virtual_temp_f"`
+	StationPressureInHg   float64 `json:"station_pressure_inhg"`
+
+	Time                  string   `json:"time"`
+	TempF                 float64  `json:"temp_f"`
+	HumidityPct           float64  `json:"humidity_pct"`
+	AltimeterSettingInHg  float64  `json:"altimeter_setting_inhg"`
+	SaturationPressureHPa float64  `json:"saturation_vapor_pressure_hpa"`
+	DryAirPressureHPa     float64  `json:"dry_air_pressure_hpa"`
+	ElevationFt           float64  `json:"elevation_ft"`
+	WindMph               float64  `json:"wind_mph"`
+	WindFromDeg           float64  `json:"wind_from_deg"`
+	HeadwindMph           *float64 `json:"headwind_mph"`
+	TrackTempF            *float64 `json:"track_temp_f"`
+	Warnings              []string `json:"warnings"`
+}
+
+func newAirReport(r weather.Reading, elev weather.Length, heading float64, haveHeading bool) airReport {
+	a := r.Derive(elev)
+	rep := airReport{
+		DensityAltitudeFt:     round(a.DensityAltitude.Feet(), 0),
+		PressureAltitudeFt:    round(a.PressureAltitude.Feet(), 0),
+		AirDensityKgM3:        round(a.Density, 5),
+		RelativeAirDensityPct: round(a.RelativeDensity, 2),
+		VaporPressureHPa:      round(a.Vapor.HPa(), 2),
+		DewPointF:             round(a.DewPoint.Fahrenheit(), 1),
+		GrainsPerLb:           round(a.Grains, 1),
+		CFSAEJ1349:            round(a.CFJ1349, 4),
+		CFSAEJ13492004:        round(a.CFJ1349v2004, 4),
+		CFSTD:                 round(a.CFSTD, 4),
+		CFDIN70020:            round(a.CFDIN, 4),
+		VirtualTempF:          round(a.VirtualTemp.Fahrenheit(), 1),
+		StationPressureInHg:   round(a.Station.InHg(), 3),
+		Time:                  r.Time.Format(time.RFC3339),
+		TempF:                 round(r.Temp.Fahrenheit(), 1),
+		HumidityPct:           round(a.RH*100, 1),
+		AltimeterSettingInHg:  round(a.Altimeter.InHg(), 3),
+		SaturationPressureHPa: round(a.Saturation.HPa(), 2),
+		DryAirPressureHPa:     round(a.Dry.HPa(), 2),
+		ElevationFt:           round(elev.Feet(), 0),
+		WindMph:               round(r.Wind.MPH(), 1),
+		WindFromDeg:           round(r.WindFrom, 0),
+		Warnings:              []string{},
+	}
+	if haveHeading {
+		hw := round(r.HeadwindComponent(heading).MPH(), 1)
+		rep.HeadwindMph = &hw
+	}
+	if r.HasTrack {
+		tt := round(r.TrackTemp.Fahrenheit(), 1)
+		rep.TrackTempF = &tt
+	}
+	if w := r.PressureWarning(elev); w != "" {
+		rep.Warnings = append(rep.Warnings, w)
+	}
+	return rep
+}
+
+// airRows adds the air figures to t in the crew's units.
+func airRows(t table.Writer, r weather.Reading, a weather.Air, elev weather.Length, heading float64, haveHeading bool, u weather.Units) {
+	t.AppendHeader(table.Row{"Figure", "Value", "Notes"})
+	t.AppendRows([]table.Row{
+		{"Density altitude", a.DensityAltitude.Format(u.Length), fmt.Sprintf("standard air at %s would be this dense", a.DensityAltitude.Format(u.Length))},
+		{"Pressure altitude", a.PressureAltitude.Format(u.Length), ""},
+		{"Relative air density", fmt.Sprintf("%.1f %%", a.RelativeDensity), "of dry air at 15 °C, 1013.25 hPa"},
+		{"Air density", fmt.Sprintf("%.4f kg/m³", a.Density), ""},
+		{"Air temperature", r.Temp.Format(u.Temp, 1), ""},
+		{"Station pressure", a.Station.Format(u.Pressure), stationNote(r)},
+		{"Altimeter setting", a.Altimeter.Format(u.Pressure), "sea-level equivalent at " + elev.Format(u.Length)},
+		{"Relative humidity", fmt.Sprintf("%.0f %%", a.RH*100), ""},
+		{"Dew point", a.DewPoint.Format(u.Temp, 1), ""},
+		{"Vapor pressure", fmt.Sprintf("%.2f hPa", a.Vapor.HPa()), fmt.Sprintf("saturation %.2f hPa", a.Saturation.HPa())},
+		{"Water", fmt.Sprintf("%.0f grains/lb", a.Grains), "of dry air"},
+		{"Virtual temperature", a.VirtualTemp.Format(u.Temp, 1), "dry air this warm would be as dense"},
+	})
+	t.AppendSeparator()
+	t.AppendRows([]table.Row{
+		{"CF SAE J1349", fmt.Sprintf("%.4f", a.CFJ1349), "1990; 25 °C, 99 kPa dry"},
+		{"CF SAE J1349 (2004)", fmt.Sprintf("%.4f", a.CFJ1349v2004), ""},
+		{"CF STD (J607)", fmt.Sprintf("%.4f", a.CFSTD), "60 °F, 29.92 inHg dry"},
+		{"CF DIN 70020", fmt.Sprintf("%.4f", a.CFDIN), "20 °C, 1013 hPa"},
+	})
+	t.AppendSeparator()
+	wind, note := windText(r, u), ""
+	if haveHeading && r.Wind > 0 {
+		hw := r.HeadwindComponent(heading)
+		if hw >= 0 {
+			note = weather.Speed(hw).Format(u.Speed, 1) + " headwind"
+		} else {
+			note = weather.Speed(-hw).Format(u.Speed, 1) + " tailwind"
+		}
+	}
+	t.AppendRow(table.Row{"Wind", wind, note})
+	if r.HasTrack {
+		t.AppendRow(table.Row{"Track temperature", r.TrackTemp.Format(u.Temp, 0), ""})
+	}
+}
+
+func stationNote(r weather.Reading) string {
+	if r.BaroKind == weather.AltimeterSetting {
+		return "from the altimeter setting " + r.Baro.Format(weather.UnitInHg)
+	}
+	return "as read"
+}
+
+// windText is "6 mph from 210°", or "calm".
+func windText(r weather.Reading, u weather.Units) string {
+	if r.Wind.MPH() < 0.5 {
+		return "calm"
+	}
+	return r.Wind.Format(u.Speed, 0) + fmt.Sprintf(" from %03.0f°", r.WindFrom)
+}

@@ -1,0 +1,74 @@
+// Command pitcard is a race-day prep assistant for bracket drag racers: the
+// air, the car's logbook, the prediction, the dial-in and the prep card.
+//
+// This package wires flags, files and output; the work is done in the
+// packages below it.
+package main
+
+import (
+	"errors"
+	"fmt"
+	"io"
+	"os"
+	"time"
+
+	"golang.org/x/term"
+)
+
+// Exit codes, as written in the README.
+const (
+	exitOK       = 0
+	exitFailure  = 1 // something went wrong that is not the user's input
+	exitBadInput = 2 // the user's input is wrong: a flag, a value, a file's row
+)
+
+// IOStreams are the streams a command reads and writes; tests give buffers.
+type IOStreams struct {
+	In       io.Reader
+	Out      io.Writer
+	Err      io.Writer
+	Terminal bool             // Out is a terminal: colour is allowed
+	Now      func() time.Time // the clock; tests fix it
+}
+
+func main() {
+	streams := &IOStreams{In: os.Stdin, Out: os.Stdout, Err: os.Stderr,
+		Terminal: term.IsTerminal(int(os.Stdout.Fd())), Now: time.Now}
+	os.Exit(run(os.Args[1:], streams))
+}
+
+// run executes one pitcard command line and returns its exit code. A panic
+// below is reported in one line, never as a stack trace.
+func run(args []string, s *IOStreams) (code int) {
+	defer func() {
+		if p := recover(); p != nil {
+			fmt.Fprintf(s.Err, "pitcard: internal error: %v\nThis is a bug in pitcard, not in your input; please report it with the command you ran.\n", p)
+			code = exitFailure
+		}
+	}()
+	root := newRootCmd(s)
+	root.SetArgs(args)
+	err := root.Execute()
+	if err == nil {
+		return exitOK
+	}
+	fmt.Fprintf(s.Err, "pitcard: %v\n", err)
+	if isBadInput(err) {
+		return exitBadInput
+	}
+	return exitFailure
+}
+
+// badInput marks an error as the user's to fix.
+type badInput struct{ err error }
+
+func (b badInput) Error() string        { return b.err.Error() }
+func (b badInput) Unwrap() error        { return b.err }
+func (b badInput) BadInput() bool       { return true }
+func userErr(err error) error           { return badInput{err} }
+func userErrf(f string, a ...any) error { return badInput{fmt.Errorf(f, a...)} }
+
+func isBadInput(err error) bool {
+	var b interface{ BadInput() bool }
+	return errors.As(err, &b) && b.BadInput()
+}

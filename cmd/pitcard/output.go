@@ -1,0 +1,60 @@
+package main
+
+import (
+	"encoding/json"
+	"fmt"
+	"io"
+	"math"
+
+	"github.com/jedib0t/go-pretty/v6/table"
+	"github.com/jedib0t/go-pretty/v6/text"
+)
+
+// newTable is a go-pretty table in pitcard's style: light rules, colour only
+// on a terminal.
+func newTable(s *IOStreams, title string) table.Writer {
+	t := table.NewWriter()
+	style := table.StyleLight
+	if !s.Terminal {
+		style.Color = table.ColorOptions{}
+	} else {
+		style.Title.Colors = text.Colors{text.Bold}
+	}
+	style.Title.Align = text.AlignLeft
+	t.SetStyle(style)
+	if title != "" {
+		t.SetTitle(title)
+	}
+	return t
+}
+
+// render prints a table as text or Markdown.
+func render(w io.Writer, t table.Writer, format string) {
+	if format == "markdown" {
+		io.WriteString(w, t.RenderMarkdown()+"\n")
+		return
+	}
+	io.WriteString(w, t.Render()+"\n")
+}
+
+// writeJSON prints v as indented JSON.
+func writeJSON(w io.Writer, v any) error {
+	enc := json.NewEncoder(w)
+	enc.SetIndent("", "  ")
+	return enc.Encode(v)
+}
+
+// round rounds v to d decimals for JSON, so files hold what the figure is
+// worth and not float noise.
+func round(v float64, d int) float64 {
+	p := math.Pow(10, float64(d))
+	return math.Round(v*p) / p
+}
+
+// plural is "1 reading" or "3 readings".
+func plural(n int, noun string) string {
+	if n == 1 {
+		return "1 " + noun
+	}
+	return fmt.Sprintf("%d %ss", n, noun)
+}

@@ -1,0 +1,193 @@
+package main
+
+import (
+	"bytes"
+	"errors"
+	"io/fs"
+	"os"
+	"path/filepath"
+	"slices"
+	"sort"
+	"strings"
+
+	"github.com/spf13/cobra"
+	"github.com/spf13/viper"
+	"go.yaml.in/yaml/v3"
+
+	"pitcard/engine"
+	"pitcard/event"
+	"pitcard/weather"
+)
+
+// globalOptions are the flags every command has.
+type globalOptions struct {
+	Dir   string // the event folder
+	Demo  bool   // read the built-in demo event instead
+	Units string // imperial or metric; overrides pitcard.yaml
+}
+
+func newRootCmd(s *IOStreams) *cobra.Command {
+	g := &globalOptions{}
+	root := &cobra.Command{
+		Use:   "pitcard",
+		Short: "Race-day prep for bracket drag racers: the air, the logbook, the prediction, the dial-in, the card",
+		Long: `pitcard turns fresh weather and track readings into a prediction for your car,
+helps pick the dial-in, runs your crew's rules and prints a prep card per round.
+
+Run it inside an event folder (see 'pitcard init'), or point --dir at one.
+Try it on the built-in demo event first: pitcard air --demo`,
+		SilenceUsage:  true,
+		SilenceErrors: true,
+	}
+	root.SetIn(s.In)
+	root.SetOut(s.Out)
+	root.SetErr(s.Err)
+	dir := os.Getenv("PITCARD_DIR")
+	if dir == "" {
+		dir = "."
+	}
+	root.PersistentFlags().StringVar(&g.Dir, "dir", dir, "event folder (env PITCARD_DIR)")
+	root.PersistentFlags().BoolVar(&g.Demo, "demo", false, "use the built-in demo event (read-only)")
+	root.PersistentFlags().StringVar(&g.Units, "units", "", "imperial or metric: how bare numbers are read and results shown (setting units)")
+	root.SetFlagErrorFunc(func(c *cobra.Command, err error) error {
+		return userErrf("%v (see '%s --help')", err, c.CommandPath())
+	})
+	root.AddCommand(
+		newVersionCmd(s),
+		newInitCmd(s, g),
+		newAirCmd(s, g),
+		newWeatherCmd(s, g),
+	)
+	return root
+}
+
+// settings are pitcard.yaml's values after flags and environment.
+type settings struct {
+	Units    weather.Units
+	DialStep float64
+}
+
+// settingKeys are the keys pitcard.yaml may hold, with their defaults.
+var settingKeys = map[string]any{
+	"units":     "imperial",
+	"dial_step": 0.01,
+}
+
+// eventFolder is an opened event folder (or the demo).
+type eventFolder struct {
+	Dir      string // on disk; "" for the demo
+	FS       fs.FS
+	Demo     bool
+	Settings settings
+}
+
+// name is how messages refer to a file of the folder.
+func (e *eventFolder) name(file string) string {
+	if e.Demo {
+		return "demo/" + file
+	}
+	return filepath.Join(e.Dir, file)
+}
+
+// path is a file's path on disk.
+func (e *eventFolder) path(file string) string { return filepath.Join(e.Dir, file) }
+
+// writable refuses to write into the demo.
+func (e *eventFolder) writable() error {
+	if e.Demo {
+		return userErrf("the demo event is read-only: run 'pitcard init --demo DIR' for a copy you can change")
+	}
+	return nil
+}
+
+// open opens the event folder and loads its settings with viper: flags >
+// PITCARD_* environment > pitcard.yaml > defaults.
+func (g *globalOptions) open(cmd *cobra.Command) (*eventFolder, error) {
+	e := &eventFolder{Demo: g.Demo}
+	if g.Demo {
+		e.FS = event.Demo()
+	} else {
+		st, err := os.Stat(g.Dir)
+		if err != nil || !st.IsDir() {
+			return nil, userErrf("event folder %q does not exist (create one with 'pitcard init %s', or pass --dir)", g.Dir, g.Dir)
+		}
+		e.Dir, e.FS = g.Dir, os.DirFS(g.Dir)
+	}
+	v := viper.New()
+	for k, d := range settingKeys {
+		v.SetDefault(k, d)
+	}
+	v.SetEnvPrefix("PITCARD")
+	v.SetEnvKeyReplacer(strings.NewReplacer("-", "_", ".", "_"))
+	v.AutomaticEnv()
+	if data, err := fs.ReadFile(e.FS, event.SettingsFile); err == nil {
+		if err := checkSettingsKeys(data, e.name(event.SettingsFile)); err != nil {
+			return nil, err
+		}
+		v.SetConfigType("yaml")
+		if err := v.ReadConfig(bytes.NewReader(data)); err != nil {
+			return nil, userErrf("%s: %v", e.name(event.SettingsFile), err)
+		}
+	} else if !errors.Is(err, fs.ErrNotExist) {
+		return nil, err
+	}
+	if f := cmd.Flag("units"); f != nil && f.Changed {
+		_ = v.BindPFlag("units", f)
+	}
+	var err error
+	if e.Settings.Units, err = weather.ParseUnits(v.GetString("units")); err != nil {
+		return nil, err
+	}
+	e.Settings.DialStep = v.GetFloat64("dial_step")
+	if !(e.Settings.DialStep >= 0.001 && e.Settings.DialStep <= 0.1) {
+		return nil, userErrf("setting dial_step %v is outside 0.001..0.1 s", v.Get("dial_step"))
+	}
+	return e, nil
+}
+
+// checkSettingsKeys refuses keys pitcard.yaml does not know: a misspelt
+// setting would otherwise be silently ignored.
+func checkSettingsKeys(data []byte, name string) error {
+	var doc yaml.Node
+	if err := yaml.Unmarshal(data, &doc); err != nil {
+		return userErrf("%s: %v", name, strings.TrimPrefix(err.Error(), "yaml: "))
+	}
+	if len(doc.Content) == 0 || doc.Content[0].Kind != yaml.MappingNode {
+		return nil
+	}
+	m := doc.Content[0]
+	for i := 0; i+1 < len(m.Content); i += 2 {
+		k := m.Content[i]
+		if _, ok := settingKeys[k.Value]; !ok {
+			known := make([]string, 0, len(settingKeys))
+			for key := range settingKeys {
+				known = append(known, key)
+			}
+			sort.Strings(known)
+			return &weather.InputError{File: name, Line: k.Line, Field: "setting", Value: k.Value,
+				Reason: "is not a pitcard setting (settings: " + strings.Join(known, ", ") + ")"}
+		}
+	}
+	return nil
+}
+
+// track reads the folder's track.yaml.
+func (e *eventFolder) track() (engine.Track, error) {
+	f, err := e.FS.Open(event.TrackFile)
+	if err != nil {
+		if errors.Is(err, fs.ErrNotExist) {
+			return engine.Track{}, userErrf("%s is missing: pitcard needs the track's elevation (create the folder with 'pitcard init')", e.name(event.TrackFile))
+		}
+		return engine.Track{}, err
+	}
+	defer f.Close()
+	return engine.ReadTrack(f, e.name(event.TrackFile))
+}
+
+// checkFormat refuses a --format the command does not print.
+func checkFormat(format string, allowed ...string) error {
+	if slices.Contains(allowed, format) {
+		return nil
+	}
+	return &weather.InputError{Field: "--format", Value: format, Reason: "is not a format of this command (use " + strings.Join(allowed, ", ") + ")"}
+}

@@ -1,0 +1,341 @@
+package main
+
+import (
+	"bytes"
+	"errors"
+	"fmt"
+	"io"
+	"io/fs"
+	"strings"
+	"time"
+
+	"github.com/jedib0t/go-pretty/v6/table"
+	"github.com/spf13/cobra"
+
+	"pitcard/event"
+	"pitcard/internal/safefile"
+	"pitcard/weather"
+)
+
+func newWeatherCmd(s *IOStreams, g *globalOptions) *cobra.Command {
+	cmd := &cobra.Command{
+		Use:   "weather",
+		Short: "The weather log: add readings through the day, list them, forecast the air at call time",
+		Long: `weather.csv keeps the readings a crew takes through the day. 'add' appends one,
+'list' shows them with their density altitude, and 'forecast' extends the
+recent trend to the time your round will be called.`,
+		Example: `  pitcard weather add --temp 86F --baro 28.95 --humidity 38% --track-temp 121F
+  pitcard weather list
+  pitcard weather forecast --at 21:40`,
+	}
+	cmd.AddCommand(newWeatherAddCmd(s, g), newWeatherListCmd(s, g), newWeatherForecastCmd(s, g))
+	return cmd
+}
+
+// weatherLog reads the folder's weather.csv (none yet: an empty log).
+func (e *eventFolder) weatherLog(elev weather.Length) ([]weather.Reading, error) {
+	data, err := fs.ReadFile(e.FS, event.WeatherFile)
+	if errors.Is(err, fs.ErrNotExist) {
+		return nil, nil
+	}
+	if err != nil {
+		return nil, err
+	}
+	return weather.ReadLog(bytes.NewReader(data), e.name(event.WeatherFile), elev, time.Local)
+}
+
+// siteElevation is the elevation for the folder's weather: --elevation or track.yaml.
+func siteElevation(e *eventFolder, f *readingFlags) (weather.Length, string, error) {
+	trk, err := e.track()
+	if err != nil && f.Elevation == "" {
+		return 0, "", err
+	}
+	h, err := f.elevation(e.Settings.Units, trk.Elevation(), err == nil)
+	return h, trk.Name, err
+}
+
+type weatherAddOptions struct {
+	g       *globalOptions
+	s       *IOStreams
+	reading readingFlags
+	Time    string
+	Note    string
+}
+
+func newWeatherAddCmd(s *IOStreams, g *globalOptions) *cobra.Command {
+	o := &weatherAddOptions{g: g, s: s}
+	cmd := &cobra.Command{
+		Use:   "add",
+		Short: "Append one reading to weather.csv",
+		Long: `Appends one reading to the folder's weather.csv. The reading is checked first;
+a bad value is refused with the field, the value and the valid range, and
+nothing is written. The file is replaced atomically, with the previous version
+kept as weather.csv.bak.`,
+		Example: `  pitcard weather add --temp 86F --baro 28.95inHg --humidity 38% --wind 6mph --wind-from 210 --track-temp 121F
+  pitcard weather add --time 18:30 --temp 31C --baro 980hPa --dewpoint 11C`,
+		Args: cobra.NoArgs,
+		RunE: func(cmd *cobra.Command, _ []string) error { return weatherAddRun(cmd, o) },
+	}
+	o.reading.bind(cmd)
+	cmd.Flags().StringVar(&o.Time, "time", "", "time of the reading, HH:MM today or 'YYYY-MM-DD HH:MM' (default: now)")
+	cmd.Flags().StringVar(&o.Note, "note", "", "free text for the notes column")
+	return cmd
+}
+
+func weatherAddRun(cmd *cobra.Command, o *weatherAddOptions) error {
+	e, err := o.g.open(cmd)
+	if err != nil {
+		return err
+	}
+	if err := e.writable(); err != nil {
+		return err
+	}
+	elev, _, err := siteElevation(e, &o.reading)
+	if err != nil {
+		return err
+	}
+	now := o.s.Now()
+	when := now
+	if o.Time != "" {
+		if when, err = parseWhen(o.Time, now); err != nil {
+			return err
+		}
+	}
+	r, err := o.reading.reading(e.Settings.Units, when, nil)
+	if err != nil {
+		return err
+	}
+	r.Note = o.Note
+	if err := validateFlags(r, elev); err != nil {
+		return err
+	}
+	if w := r.PressureWarning(elev); w != "" {
+		fmt.Fprintln(o.s.Err, "pitcard: warning:", w)
+	}
+	path := e.path(event.WeatherFile)
+	unlock, err := safefile.Lock(path)
+	if err != nil {
+		return err
+	}
+	defer unlock()
+	log, err := e.weatherLog(elev)
+	if err != nil {
+		return err
+	}
+	for _, old := range log {
+		if old.Time.Truncate(time.Minute).Equal(r.Time.Truncate(time.Minute)) {
+			return userErrf("%s already has a reading at %s; give another --time", e.name(event.WeatherFile), r.Time.Format("2006-01-02 15:04"))
+		}
+	}
+	log = append(log, r)
+	sortReadings(log)
+	if err := safefile.Write(path, func(w io.Writer) error { return weather.WriteLog(w, log) }); err != nil {
+		return err
+	}
+	a := r.Derive(elev)
+	u := e.Settings.Units
+	fmt.Fprintf(o.s.Out, "Added the %s reading to %s (%s): density altitude %s, %s, %.0f %% RH.\n",
+		r.Time.Format("15:04"), e.name(event.WeatherFile), plural(len(log), "reading"), a.DensityAltitude.Format(u.Length), r.Temp.Format(u.Temp, 1), a.RH*100)
+	return nil
+}
+
+func sortReadings(log []weather.Reading) {
+	for i := 1; i < len(log); i++ {
+		for j := i; j > 0 && log[j].Time.Before(log[j-1].Time); j-- {
+			log[j], log[j-1] = log[j-1], log[j]
+		}
+	}
+}
+
+// parseWhen reads "21:40" (on the date of ref) or "2026-06-13 21:40".
+func parseWhen(s string, ref time.Time) (time.Time, error) {
+	s = strings.TrimSpace(s)
+	if d, c, ok := strings.Cut(s, " "); ok {
+		t, err := weather.ParseDateTime(d, c, ref.Location())
+		return t, flagErr(err, "--time")
+	}
+	t, err := weather.ParseClock(s, ref, ref.Location())
+	return t, flagErr(err, "--time")
+}
+
+type weatherListOptions struct {
+	g      *globalOptions
+	s      *IOStreams
+	Format string
+	Elev   string
+}
+
+func newWeatherListCmd(s *IOStreams, g *globalOptions) *cobra.Command {
+	o := &weatherListOptions{g: g, s: s}
+	cmd := &cobra.Command{
+		Use:     "list",
+		Short:   "List the weather log with each reading's density altitude",
+		Example: "  pitcard weather list\n  pitcard weather list --demo --format markdown",
+		Args:    cobra.NoArgs,
+		RunE:    func(cmd *cobra.Command, _ []string) error { return weatherListRun(cmd, o) },
+	}
+	cmd.Flags().StringVar(&o.Format, "format", "text", "text, markdown or json")
+	cmd.Flags().StringVar(&o.Elev, "elevation", "", "track elevation (default: track.yaml)")
+	return cmd
+}
+
+func weatherListRun(cmd *cobra.Command, o *weatherListOptions) error {
+	if err := checkFormat(o.Format, "text", "markdown", "json"); err != nil {
+		return err
+	}
+	e, err := o.g.open(cmd)
+	if err != nil {
+		return err
+	}
+	rf := readingFlags{Elevation: o.Elev}
+	elev, trackName, err := siteElevation(e, &rf)
+	if err != nil {
+		return err
+	}
+	log, err := e.weatherLog(elev)
+	if err != nil {
+		return err
+	}
+	if o.Format == "json" {
+		out := make([]airReport, len(log))
+		for i, r := range log {
+			out[i] = newAirReport(r, elev, 0, false)
+		}
+		return writeJSON(o.s.Out, out)
+	}
+	if len(log) == 0 {
+		fmt.Fprintf(o.s.Out, "%s has no readings yet: add one with 'pitcard weather add'.\n", e.name(event.WeatherFile))
+		return nil
+	}
+	u := e.Settings.Units
+	t := newTable(o.s, fmt.Sprintf("Weather log, %s (%s)", trackName, e.name(event.WeatherFile)))
+	t.AppendHeader(table.Row{"Time", "Air", "Station", "RH", "Dew pt", "Wind", "Track", "DA", "Notes"})
+	lastDay := ""
+	for _, r := range log {
+		a := r.Derive(elev)
+		when := r.Time.Format("15:04")
+		if d := r.Time.Format("2006-01-02"); d != lastDay {
+			when, lastDay = d+" "+when, d
+		}
+		track := ""
+		if r.HasTrack {
+			track = r.TrackTemp.Format(u.Temp, 0)
+		}
+		t.AppendRow(table.Row{when, r.Temp.Format(u.Temp, 1), a.Station.Format(u.Pressure), fmt.Sprintf("%.0f %%", a.RH*100),
+			a.DewPoint.Format(u.Temp, 0), windText(r, u), track,
+			a.DensityAltitude.Format(u.Length), r.Note})
+	}
+	render(o.s.Out, t, o.Format)
+	return nil
+}
+
+type weatherForecastOptions struct {
+	g      *globalOptions
+	s      *IOStreams
+	At     string
+	Format string
+	Elev   string
+}
+
+func newWeatherForecastCmd(s *IOStreams, g *globalOptions) *cobra.Command {
+	o := &weatherForecastOptions{g: g, s: s}
+	cmd := &cobra.Command{
+		Use:   "forecast",
+		Short: "Forecast the air at a time from the weather log's recent trend",
+		Long: fmt.Sprintf(`Extends the straight-line trend of the last %s of readings to the time given,
+at most %s past the last reading, and says how many readings and minutes of
+trend it leaned on. A log too short for a trend (fewer than %d readings over
+%s) carries the last reading forward and says so; a log whose readings scatter
+too much around their trend is flagged as not to be trusted.`,
+			"2 h", "3 h", weather.MinTrendReadings, "20 min"),
+		Example: "  pitcard weather forecast --at 21:40\n  pitcard weather forecast --demo --at 21:15 --format json",
+		Args:    cobra.NoArgs,
+		RunE:    func(cmd *cobra.Command, _ []string) error { return weatherForecastRun(cmd, o) },
+	}
+	cmd.Flags().StringVar(&o.At, "at", "", "time to forecast, HH:MM (on the day of the last reading) or 'YYYY-MM-DD HH:MM'")
+	cmd.Flags().StringVar(&o.Format, "format", "text", "text, markdown or json")
+	cmd.Flags().StringVar(&o.Elev, "elevation", "", "track elevation (default: track.yaml)")
+	return cmd
+}
+
+type forecastJSON struct {
+	At           string    `json:"at"`
+	ReadingsUsed int       `json:"readings_used"`
+	TrendMinutes float64   `json:"trend_minutes"`
+	AheadMinutes float64   `json:"ahead_minutes"`
+	DAErrorFt    float64   `json:"density_altitude_error_ft"`
+	Trusted      bool      `json:"trusted"`
+	Notes        []string  `json:"notes"`
+	Air          airReport `json:"air"`
+}
+
+func weatherForecastRun(cmd *cobra.Command, o *weatherForecastOptions) error {
+	if err := checkFormat(o.Format, "text", "markdown", "json"); err != nil {
+		return err
+	}
+	if o.At == "" {
+		return userErrf("--at is required: the time to forecast, e.g. --at 21:40")
+	}
+	e, err := o.g.open(cmd)
+	if err != nil {
+		return err
+	}
+	rf := readingFlags{Elevation: o.Elev}
+	elev, trackName, err := siteElevation(e, &rf)
+	if err != nil {
+		return err
+	}
+	log, err := e.weatherLog(elev)
+	if err != nil {
+		return err
+	}
+	if len(log) == 0 {
+		return userErrf("%s has no readings: add some with 'pitcard weather add' first", e.name(event.WeatherFile))
+	}
+	when, err := callTime(o.At, log[len(log)-1].Time)
+	if err != nil {
+		return err
+	}
+	trk, _ := e.track()
+	f, err := weather.ForecastAt(log, when, elev)
+	if err != nil {
+		return flagErr(err, "--at")
+	}
+	if o.Format == "json" {
+		return writeJSON(o.s.Out, forecastJSON{
+			At: when.Format(time.RFC3339), ReadingsUsed: f.Used, TrendMinutes: round(f.Span.Minutes(), 1),
+			AheadMinutes: round(f.Ahead.Minutes(), 1), DAErrorFt: round(f.DAError.Feet(), 0), Trusted: f.Trusted,
+			Notes: f.Notes, Air: newAirReport(f.Reading, elev, trk.HeadingDeg, trackName != ""),
+		})
+	}
+	title := fmt.Sprintf("Forecast air at %s, %s", trackName, when.Format("2006-01-02 15:04"))
+	t := newTable(o.s, title)
+	airRows(t, f.Reading, f.Air, elev, trk.HeadingDeg, trackName != "", e.Settings.Units)
+	render(o.s.Out, t, o.Format)
+	trust := "trusted"
+	if !f.Trusted {
+		trust = "NOT trusted"
+	}
+	fmt.Fprintf(o.s.Out, "Leaned on %s, %.0f min of trend; %s.\n", plural(f.Used, "reading"), f.Span.Minutes(), trust)
+	if f.DAError > 0 {
+		fmt.Fprintf(o.s.Out, "Density altitude ± %s (one standard error).\n", f.DAError.Format(e.Settings.Units.Length))
+	}
+	for _, n := range f.Notes {
+		fmt.Fprintln(o.s.Out, "- "+n)
+	}
+	return nil
+}
+
+// callTime reads a time of day for a forecast: on the day of the last reading,
+// or the next day when that is more than 12 hours before it (a round called
+// after midnight).
+func callTime(s string, last time.Time) (time.Time, error) {
+	t, err := parseWhen(s, last)
+	if err != nil {
+		return t, flagErr(err, "--at")
+	}
+	if !strings.Contains(strings.TrimSpace(s), " ") && last.Sub(t) > 12*time.Hour {
+		t = t.AddDate(0, 0, 1)
+	}
+	return t, nil
+}

@@ -1,0 +1,56 @@
+package engine
+
+import (
+	"errors"
+	"strings"
+	"testing"
+
+	"pitcard/weather"
+)
+
+func TestReadTrack(t *testing.T) {
+	trk, err := ReadTrack(strings.NewReader("name: Test Strip\nelevation_ft: 2240\nheading_deg: 72\n"), "track.yaml")
+	if err != nil || trk.Name != "Test Strip" || trk.ElevationFt != 2240 || trk.HeadingDeg != 72 || trk.Prep != "full" {
+		t.Fatalf("%+v %v", trk, err)
+	}
+	// The international foot is 0.3048 m exactly (standard definition): 2240 ft = 682.752 m.
+	if m := trk.Elevation().Metres(); m < 682.751 || m > 682.753 {
+		t.Errorf("elevation %v m", m)
+	}
+}
+
+func TestReadTrackErrors(t *testing.T) {
+	cases := []struct{ yaml, want string }{
+		{"name: X\nelevation_ft: 16000\n", "elevation_ft \"16000 ft\" is outside -1500..15000 ft"},
+		{"name: X\nelevation: 900\n", "line 2"},
+		{"name: X\nelevation_ft: high\n", "line 2"},
+		{"elevation_ft: 900\n", "name is missing"},
+		{"name: X\nheading_deg: 400\n", "heading_deg"},
+		{"name: [\n", "track.yaml"},
+	}
+	for _, tc := range cases {
+		_, err := ReadTrack(strings.NewReader(tc.yaml), "track.yaml")
+		var ie *weather.InputError
+		if !errors.As(err, &ie) || !strings.Contains(err.Error(), tc.want) || !strings.Contains(err.Error(), "track.yaml") {
+			t.Errorf("%q: error %v, want it to contain %q and the file", tc.yaml, err, tc.want)
+		}
+	}
+}
+
+func FuzzReadTrack(f *testing.F) {
+	f.Add("name: Test Strip\nelevation_ft: 2240\nheading_deg: 72\nprep: light\n")
+	f.Add("name: X\nelevation_ft: -1e308\n")
+	f.Add("- a\n- b\n")
+	f.Fuzz(func(t *testing.T, s string) {
+		trk, err := ReadTrack(strings.NewReader(s), "track.yaml")
+		if err != nil {
+			if !strings.Contains(err.Error(), "track.yaml") {
+				t.Fatalf("error %q does not name the file", err)
+			}
+			return
+		}
+		if weather.CheckElevation(trk.Elevation()) != nil || trk.Name == "" {
+			t.Fatalf("accepted %+v", trk)
+		}
+	})
+}
