@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"strings"
 
 	"github.com/jedib0t/go-pretty/v6/table"
 	"github.com/jedib0t/go-pretty/v6/text"
@@ -21,9 +22,10 @@ func newTable(s *IOStreams, title string) table.Writer {
 		style.Title.Colors = text.Colors{text.Bold}
 	}
 	style.Title.Align = text.AlignLeft
+	style.Format.Header = text.FormatDefault // keep units as written: "σ" must not become "Σ"
 	t.SetStyle(style)
 	if title != "" {
-		t.SetTitle(title)
+		t.SetTitle("%s", title) // SetTitle formats: a bare "%" in a title would be a verb
 	}
 	return t
 }
@@ -55,6 +57,9 @@ func round(v float64, d int) float64 {
 func plural(n int, noun string) string {
 	if n == 1 {
 		return "1 " + noun
+	}
+	if strings.HasSuffix(noun, "s") {
+		return fmt.Sprintf("%d %ses", n, noun)
 	}
 	return fmt.Sprintf("%d %ss", n, noun)
 }

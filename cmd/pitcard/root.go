@@ -3,13 +3,16 @@ package main
 import (
 	"bytes"
 	"errors"
+	"fmt"
 	"io/fs"
 	"os"
 	"path/filepath"
 	"slices"
 	"sort"
 	"strings"
+	"time"
 
+	"github.com/shopspring/decimal"
 	"github.com/spf13/cobra"
 	"github.com/spf13/viper"
 	"go.yaml.in/yaml/v3"
@@ -57,20 +60,29 @@ Try it on the built-in demo event first: pitcard air --demo`,
 		newInitCmd(s, g),
 		newAirCmd(s, g),
 		newWeatherCmd(s, g),
+		newLogCmd(s, g),
+		newRaceCmd(s, g),
+		newDialCmd(s, g),
 	)
 	return root
 }
 
 // settings are pitcard.yaml's values after flags and environment.
 type settings struct {
-	Units    weather.Units
-	DialStep float64
+	Units        weather.Units
+	DialStep     decimal.Decimal
+	BreakoutRisk float64
+	Tree         engine.Tree
+	RTZero       engine.RTZero
 }
 
 // settingKeys are the keys pitcard.yaml may hold, with their defaults.
 var settingKeys = map[string]any{
-	"units":     "imperial",
-	"dial_step": 0.01,
+	"units":         "imperial",
+	"dial_step":     "0.01",
+	"breakout_risk": 0.10,
+	"tree":          "full",
+	"rt_zero":       "green",
 }
 
 // eventFolder is an opened event folder (or the demo).
@@ -138,9 +150,26 @@ func (g *globalOptions) open(cmd *cobra.Command) (*eventFolder, error) {
 	if e.Settings.Units, err = weather.ParseUnits(v.GetString("units")); err != nil {
 		return nil, err
 	}
-	e.Settings.DialStep = v.GetFloat64("dial_step")
-	if !(e.Settings.DialStep >= 0.001 && e.Settings.DialStep <= 0.1) {
-		return nil, userErrf("setting dial_step %v is outside 0.001..0.1 s", v.Get("dial_step"))
+	for _, key := range []string{"dial_step", "breakout_risk", "tree", "rt_zero"} {
+		if f := cmd.Flag(strings.ReplaceAll(key, "_", "-")); f != nil && f.Changed {
+			_ = v.BindPFlag(key, f)
+		}
+	}
+	step, err := engine.ParseSeconds("dial_step", v.GetString("dial_step"))
+	if err != nil || step.LessThan(decimal.New(1, -3)) || step.GreaterThan(decimal.New(1, -1)) {
+		return nil, &weather.InputError{Field: "dial_step", Value: v.GetString("dial_step"), Reason: "is outside 0.001..0.1 s"}
+	}
+	e.Settings.DialStep = step
+	e.Settings.BreakoutRisk = v.GetFloat64("breakout_risk")
+	if r := e.Settings.BreakoutRisk; !(r >= engine.RiskRange[0] && r <= engine.RiskRange[1]) {
+		return nil, &weather.InputError{Field: "breakout_risk", Value: v.GetString("breakout_risk"),
+			Reason: fmt.Sprintf("is outside %g..%g (a fraction: 0.10 accepts a 10 %% breakout chance)", engine.RiskRange[0], engine.RiskRange[1])}
+	}
+	if e.Settings.Tree, err = engine.ParseTree(v.GetString("tree")); err != nil {
+		return nil, err
+	}
+	if e.Settings.RTZero, err = engine.ParseRTZero(v.GetString("rt_zero")); err != nil {
+		return nil, err
 	}
 	return e, nil
 }
@@ -182,6 +211,32 @@ func (e *eventFolder) track() (engine.Track, error) {
 	}
 	defer f.Close()
 	return engine.ReadTrack(f, e.name(event.TrackFile))
+}
+
+// car reads the folder's car.yaml.
+func (e *eventFolder) car() (engine.Car, error) {
+	f, err := e.FS.Open(event.CarFile)
+	if err != nil {
+		if errors.Is(err, fs.ErrNotExist) {
+			return engine.Car{}, userErrf("%s is missing: pitcard needs the car's weight, power, induction and distance (create the folder with 'pitcard init')", e.name(event.CarFile))
+		}
+		return engine.Car{}, err
+	}
+	defer f.Close()
+	return engine.ReadCar(f, e.name(event.CarFile))
+}
+
+// logbook reads the folder's logbook.csv (none yet: an empty logbook).
+func (e *eventFolder) logbook() ([]engine.Pass, error) {
+	f, err := e.FS.Open(event.LogbookFile)
+	if errors.Is(err, fs.ErrNotExist) {
+		return nil, nil
+	}
+	if err != nil {
+		return nil, err
+	}
+	defer f.Close()
+	return engine.ReadLogbook(f, e.name(event.LogbookFile), time.Local)
 }
 
 // checkFormat refuses a --format the command does not print.

@@ -1,0 +1,148 @@
+package main
+
+import (
+	"fmt"
+	"strconv"
+
+	"github.com/jedib0t/go-pretty/v6/table"
+	"github.com/jedib0t/go-pretty/v6/text"
+	"github.com/spf13/cobra"
+
+	"pitcard/engine"
+	"pitcard/weather"
+)
+
+type dialOptions struct {
+	g      *globalOptions
+	s      *IOStreams
+	ET, SD string
+	Last   int
+	Rows   int
+	Format string
+}
+
+func newDialCmd(s *IOStreams, g *globalOptions) *cobra.Command {
+	o := &dialOptions{g: g, s: s}
+	cmd := &cobra.Command{
+		Use:   "dial",
+		Short: "Candidate dial-ins with their breakout chance, and the one to post",
+		Long: `Lists dial-ins on the posting step around the predicted ET with, for each, the
+chance of breaking out and the time expected to be given away, and recommends
+the slowest dial whose breakout chance is within the risk the crew accepts
+(setting breakout_risk, default 0.10 = 10 %).
+
+The prediction is --et with its spread --sd (one standard deviation), or,
+without them, the car's recent clean passes in the logbook at the distance
+raced (car.yaml), not corrected for the air.`,
+		Example: "  pitcard dial\n  pitcard dial --et 11.52 --sd 0.025 --breakout-risk 0.05\n  pitcard dial --demo --format json",
+		Args:    cobra.NoArgs,
+		RunE:    func(cmd *cobra.Command, _ []string) error { return dialRun(cmd, o) },
+	}
+	cmd.Flags().StringVar(&o.ET, "et", "", "predicted ET, s")
+	cmd.Flags().StringVar(&o.SD, "sd", "", "its spread, one standard deviation, s")
+	cmd.Flags().IntVar(&o.Last, "last", 10, "clean passes to use from the logbook")
+	cmd.Flags().IntVar(&o.Rows, "rows", 5, "candidates either side of the recommendation")
+	cmd.Flags().String("breakout-risk", "", "largest breakout chance to accept, a fraction (setting breakout_risk)")
+	cmd.Flags().String("dial-step", "", "dial-in step, s (setting dial_step)")
+	cmd.Flags().StringVar(&o.Format, "format", "text", "text, markdown or json")
+	return cmd
+}
+
+type dialOptionJSON struct {
+	Dial           string  `json:"dial"`
+	BreakoutChance float64 `json:"breakout_chance"`
+	GiveawayS      float64 `json:"expected_giveaway_s"`
+	Recommended    bool    `json:"recommended"`
+}
+
+type dialJSON struct {
+	PredictedET float64          `json:"predicted_et"`
+	SD          float64          `json:"sd"`
+	Basis       string           `json:"basis"`
+	Step        string           `json:"step"`
+	Risk        float64          `json:"breakout_risk"`
+	Recommended string           `json:"recommended_dial"`
+	Options     []dialOptionJSON `json:"options"`
+}
+
+func dialRun(cmd *cobra.Command, o *dialOptions) error {
+	if err := checkFormat(o.Format, "text", "markdown", "json"); err != nil {
+		return err
+	}
+	if o.Rows < 1 || o.Rows > 50 {
+		return &weather.InputError{Field: "--rows", Value: fmt.Sprint(o.Rows), Reason: "is outside 1..50"}
+	}
+	e, err := o.g.open(cmd)
+	if err != nil {
+		return err
+	}
+	var est engine.Estimate
+	switch {
+	case o.ET != "" || o.SD != "":
+		if o.ET == "" || o.SD == "" {
+			return userErrf("give --et and --sd together (the predicted ET and its spread)")
+		}
+		et, err := strconv.ParseFloat(o.ET, 64)
+		if err != nil {
+			return &weather.InputError{Field: "--et", Value: o.ET, Reason: "is not a time in seconds"}
+		}
+		sd, err := strconv.ParseFloat(o.SD, 64)
+		if err != nil || !(sd > 0 && sd < 2) {
+			return &weather.InputError{Field: "--sd", Value: o.SD, Reason: "is not a spread in seconds (0..2, e.g. 0.025)"}
+		}
+		est = engine.Estimate{ET: et, SD: sd, Basis: "the --et and --sd given"}
+	default:
+		car, err := e.car()
+		if err != nil {
+			return err
+		}
+		passes, err := e.logbook()
+		if err != nil {
+			return err
+		}
+		if est, _, err = engine.RecentEstimate(passes, car.DistanceFt, o.Last); err != nil {
+			return userErr(err)
+		}
+	}
+	plan, err := engine.PlanDial(est, e.Settings.DialStep, e.Settings.BreakoutRisk, o.Rows)
+	if err != nil {
+		return err
+	}
+	j := dialJSON{PredictedET: round(est.ET, 4), SD: round(est.SD, 4), Basis: est.Basis, Step: plan.Step.String(),
+		Risk: plan.Risk, Recommended: dialText(plan)}
+	for _, op := range plan.Options {
+		j.Options = append(j.Options, dialOptionJSON{Dial: op.Dial.StringFixed(stepPlaces(plan)), BreakoutChance: round(op.BreakoutChance, 4),
+			GiveawayS: round(op.Giveaway, 4), Recommended: op.Recommended})
+	}
+	if o.Format == "json" {
+		return writeJSON(o.s.Out, j)
+	}
+	fmt.Fprintf(o.s.Out, "Predicted ET %.3f s ± %.3f (one standard deviation): %s.\n", est.ET, est.SD, est.Basis)
+	t := newTable(o.s, fmt.Sprintf("Dial-ins (step %s s, risk ≤ %.0f %%)", plan.Step, plan.Risk*100))
+	t.AppendHeader(table.Row{"Dial", "Breakout chance", "Time given away", ""})
+	for _, op := range j.Options {
+		mark := ""
+		dial := op.Dial
+		if op.Recommended {
+			mark = "← post this"
+			if o.s.Terminal {
+				dial = text.Colors{text.Bold, text.FgHiWhite, text.BgBlue}.Sprint(" " + dial + " ")
+			}
+		}
+		t.AppendRow(table.Row{dial, fmt.Sprintf("%.1f %%", op.BreakoutChance*100), fmt.Sprintf("%.3f s", op.GiveawayS), mark})
+	}
+	t.SetColumnConfigs(alignRight(1, 3))
+	render(o.s.Out, t, o.Format)
+	fmt.Fprintf(o.s.Out, "Recommended dial: %s (the slowest dial with at most a %.0f %% chance of breaking out).\n", j.Recommended, plan.Risk*100)
+	return nil
+}
+
+// stepPlaces is the number of decimals of the dial step: 2 for 0.01.
+func stepPlaces(p engine.DialPlan) int32 {
+	if e := -p.Step.Exponent(); e > 2 {
+		return e
+	}
+	return 2
+}
+
+func dialText(p engine.DialPlan) string { return p.Recommended.StringFixed(stepPlaces(p)) }

@@ -1,0 +1,538 @@
+package main
+
+import (
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"strings"
+	"time"
+
+	"github.com/jedib0t/go-pretty/v6/table"
+	"github.com/jedib0t/go-pretty/v6/text"
+	"github.com/shopspring/decimal"
+	"github.com/spf13/cobra"
+
+	"pitcard/engine"
+	"pitcard/event"
+	"pitcard/internal/safefile"
+	"pitcard/weather"
+)
+
+func newLogCmd(s *IOStreams, g *globalOptions) *cobra.Command {
+	cmd := &cobra.Command{
+		Use:   "log",
+		Short: "The car's logbook: add a pass from its time slip, import a season, list, stats",
+		Long: `logbook.csv holds one row per pass: the time slip and the conditions it ran in.
+Every row is checked; a bad one is refused with its file, line, column, value
+and the rule it breaks, and nothing is written. Writes are atomic and keep the
+previous logbook as logbook.csv.bak.`,
+		Example: `  pitcard log add --session E1 --lane left --dial 11.52 --rt .021 --et60 1.612 --et1320 11.538 --mph1320 116.79
+  pitcard log import season-2026.csv
+  pitcard log list --last 10
+  pitcard log stats`,
+	}
+	cmd.AddCommand(newLogAddCmd(s, g), newLogImportCmd(s, g), newLogListCmd(s, g), newLogStatsCmd(s, g))
+	return cmd
+}
+
+// saveLogbook merges passes into the folder's logbook under its lock: all or
+// nothing, duplicates refused.
+func saveLogbook(e *eventFolder, add []engine.Pass) (int, error) {
+	path := e.path(event.LogbookFile)
+	unlock, err := safefile.Lock(path)
+	if err != nil {
+		return 0, err
+	}
+	defer unlock()
+	old, err := e.logbook()
+	if err != nil {
+		return 0, err
+	}
+	seen := map[string]engine.Pass{}
+	for _, p := range old {
+		seen[p.Key()] = p
+	}
+	var dups engine.RowErrors
+	for _, p := range add {
+		if o, ok := seen[p.Key()]; ok {
+			where := "this pass"
+			if p.Line > 0 {
+				where = fmt.Sprintf("line %d", p.Line)
+			}
+			dups = append(dups, &weather.InputError{Field: "pass", Value: p.Time.Format("2006-01-02 15:04") + " " + string(p.Lane),
+				Reason: fmt.Sprintf("(%s) is already in %s at line %d: the same pass entered twice", where, e.name(event.LogbookFile), o.Line)})
+		}
+	}
+	if len(dups) > 0 {
+		return 0, dups
+	}
+	all := append(old, add...)
+	engine.SortPasses(all)
+	if err := safefile.Write(path, func(w io.Writer) error { return engine.WriteLogbook(w, all) }); err != nil {
+		return 0, err
+	}
+	return len(all), nil
+}
+
+type logAddOptions struct {
+	g                               *globalOptions
+	s                               *IOStreams
+	reading                         readingFlags
+	Date, Time, Track, Session      string
+	Lane, Dial, RT, Weight, Notes   string
+	ET60, ET330, ET660, ET1000, ET1 string
+	MPH660, MPH1320                 string
+}
+
+func newLogAddCmd(s *IOStreams, g *globalOptions) *cobra.Command {
+	o := &logAddOptions{g: g, s: s}
+	cmd := &cobra.Command{
+		Use:   "add",
+		Short: "Add one pass from its time slip",
+		Long: `Adds one pass to logbook.csv. Give the slip's fields as flags; times are in
+seconds as the slip prints them (.021, 11.538). The conditions default to the
+weather log's reading nearest the pass (within an hour), and any reading flag
+given replaces that field; the track defaults to track.yaml's name and the
+weight to car.yaml's.`,
+		Example: `  pitcard log add --session E1 --lane left --dial 11.52 --rt .021 --et60 1.612 --et330 4.689 \
+      --et660 7.321 --mph660 92.44 --et1000 9.605 --et1320 11.538 --mph1320 116.79
+  pitcard log add --session T2 --lane right --et60 1.65 --et1320 11.71 --mph1320 115.2 --notes "lifted early"`,
+		Args: cobra.NoArgs,
+		RunE: func(cmd *cobra.Command, _ []string) error { return logAddRun(cmd, o) },
+	}
+	fl := cmd.Flags()
+	fl.StringVar(&o.Date, "date", "", "date of the pass, YYYY-MM-DD (default: today)")
+	fl.StringVar(&o.Time, "time", "", "time of the pass, HH:MM (default: now)")
+	fl.StringVar(&o.Track, "track", "", "track name (default: track.yaml's)")
+	fl.StringVar(&o.Session, "session", "", "T1, T2 ... for time trials, E1, E2 ... for rounds, or test")
+	fl.StringVar(&o.Lane, "lane", "", "left or right")
+	fl.StringVar(&o.Dial, "dial", "", "dial-in, s (blank for a time trial without one)")
+	fl.StringVar(&o.RT, "rt", "", "reaction time, s (negative = red light)")
+	fl.StringVar(&o.ET60, "et60", "", "60-ft time, s")
+	fl.StringVar(&o.ET330, "et330", "", "330-ft time, s")
+	fl.StringVar(&o.ET660, "et660", "", "eighth-mile ET, s")
+	fl.StringVar(&o.ET1000, "et1000", "", "1000-ft time, s")
+	fl.StringVar(&o.ET1, "et1320", "", "quarter-mile ET, s")
+	fl.StringVar(&o.MPH660, "mph660", "", "eighth-mile trap speed, mph")
+	fl.StringVar(&o.MPH1320, "mph1320", "", "quarter-mile trap speed, mph")
+	fl.StringVar(&o.Weight, "weight", "", "car and driver as run, lb (default: car.yaml's weight_lb)")
+	fl.StringVar(&o.Notes, "notes", "", "free text: lifted, pedaled, new tires ...")
+	o.reading.bind(cmd)
+	return cmd
+}
+
+func logAddRun(cmd *cobra.Command, o *logAddOptions) error {
+	e, err := o.g.open(cmd)
+	if err != nil {
+		return err
+	}
+	if err := e.writable(); err != nil {
+		return err
+	}
+	trk, trkErr := e.track()
+	now := o.s.Now()
+	date, clock := o.Date, o.Time
+	if date == "" {
+		date = now.Format(weather.DateLayout)
+	}
+	if clock == "" {
+		clock = now.Format(weather.TimeLayout)
+	}
+	track := o.Track
+	if track == "" {
+		if trkErr != nil {
+			return trkErr
+		}
+		track = trk.Name
+	}
+	weight := o.Weight
+	if weight == "" {
+		if car, err := e.car(); err == nil {
+			weight = fmt.Sprint(car.WeightLb)
+		}
+	}
+	f := engine.SlipFields{Values: map[string]string{
+		"date": date, "time": clock, "track": track, "session": o.Session, "lane": o.Lane,
+		"dial": o.Dial, "rt": o.RT, "et60": o.ET60, "et330": o.ET330, "et660": o.ET660, "et1000": o.ET1000, "et1320": o.ET1,
+		"mph660": o.MPH660, "mph1320": o.MPH1320, "weight_lb": weight, "notes": o.Notes,
+	}, Names: map[string]string{}}
+	for c := range f.Values {
+		f.Names[c] = "--" + strings.ReplaceAll(strings.TrimSuffix(c, "_lb"), "_", "-")
+	}
+	f.Names["date"], f.Names["time"] = "--date", "--time"
+	if o.Session == "" || o.Lane == "" {
+		return userErrf("--session and --lane are required (e.g. --session E1 --lane left)")
+	}
+	p, err := engine.ParsePass(f, time.Local)
+	if err != nil {
+		return err
+	}
+	// The conditions: the nearest weather reading, with any flag given replacing its field.
+	elev := trk.Elevation()
+	if o.reading.Elevation != "" {
+		if elev, err = o.reading.elevation(e.Settings.Units, 0, false); err != nil {
+			return err
+		}
+	}
+	var base *weather.Reading
+	source := ""
+	if log, err := e.weatherLog(elev); err != nil {
+		return err
+	} else if r, ok := nearestReading(log, p.Time, time.Hour); ok {
+		base, source = &r, "the weather log's "+r.Time.Format("15:04")+" reading"
+	}
+	if base != nil || o.reading.given() {
+		r, err := o.reading.reading(e.Settings.Units, p.Time, base)
+		if err != nil {
+			return err
+		}
+		if err := validateFlags(r, elev); err != nil {
+			return err
+		}
+		a := r.Derive(elev)
+		r.Baro, r.BaroKind, r.RH, r.DewPointSet, r.Time = a.Station, weather.StationPressure, a.RH, false, p.Time
+		p.Air, p.HasAir = r, true
+		if source == "" {
+			source = "the flags"
+		} else if o.reading.given() {
+			source += ", with the flags given"
+		}
+	}
+	n, err := saveLogbook(e, []engine.Pass{p})
+	if err != nil {
+		return err
+	}
+	et, ft, _ := p.Finish()
+	fmt.Fprintf(o.s.Out, "Logged %s %s, %s lane: %s s at %.0f ft (%s in %s).\n",
+		p.Time.Format("2006-01-02 15:04"), p.Session.Long(), p.Lane, engine.FormatSeconds(et, 3), ft, plural(n, "pass"), e.name(event.LogbookFile))
+	if p.HasAir {
+		fmt.Fprintf(o.s.Out, "Conditions from %s: %s, density altitude %s.\n", source,
+			p.Air.Temp.Format(e.Settings.Units.Temp, 1), p.Air.Derive(elev).DensityAltitude.Format(e.Settings.Units.Length))
+	} else {
+		fmt.Fprintln(o.s.Err, "pitcard: warning: no weather reading within an hour of the pass and no reading flags: the pass is logged without its conditions, and the model cannot learn from its air")
+	}
+	return nil
+}
+
+// nearestReading is the reading of log closest in time to t, within tol.
+func nearestReading(log []weather.Reading, t time.Time, tol time.Duration) (weather.Reading, bool) {
+	best, bestGap := weather.Reading{}, time.Duration(math.MaxInt64)
+	for _, r := range log {
+		gap := r.Time.Sub(t)
+		if gap < 0 {
+			gap = -gap
+		}
+		if gap < bestGap {
+			best, bestGap = r, gap
+		}
+	}
+	return best, bestGap <= tol
+}
+
+type logImportOptions struct {
+	g *globalOptions
+	s *IOStreams
+}
+
+func newLogImportCmd(s *IOStreams, g *globalOptions) *cobra.Command {
+	o := &logImportOptions{g: g, s: s}
+	return &cobra.Command{
+		Use:   "import FILE",
+		Short: "Import passes from a CSV file in the logbook's columns (all or nothing)",
+		Long: `Reads FILE, a CSV with logbook.csv's header (the metric columns temp_c,
+baro_hpa, track_temp_c, wind_kmh and weight_kg are accepted), checks every
+row, and adds them all to the logbook, or none: when any row is bad, or a
+pass is already in the logbook, every problem is listed and nothing is written.`,
+		Example: "  pitcard log import season-2026.csv",
+		Args:    cobra.ExactArgs(1),
+		RunE: func(cmd *cobra.Command, args []string) error {
+			e, err := o.g.open(cmd)
+			if err != nil {
+				return err
+			}
+			if err := e.writable(); err != nil {
+				return err
+			}
+			fh, err := os.Open(args[0])
+			if err != nil {
+				return userErrf("cannot read %s: %v", args[0], errors.Unwrap(err))
+			}
+			defer fh.Close()
+			passes, err := engine.ReadLogbook(fh, args[0], time.Local)
+			if err != nil {
+				return err
+			}
+			if len(passes) == 0 {
+				return userErrf("%s has no passes to import", args[0])
+			}
+			n, err := saveLogbook(e, passes)
+			if err != nil {
+				return err
+			}
+			fmt.Fprintf(o.s.Out, "Imported %s from %s; %s now holds %d.\n", plural(len(passes), "pass"), args[0], e.name(event.LogbookFile), n)
+			return nil
+		},
+	}
+}
+
+type logListOptions struct {
+	g      *globalOptions
+	s      *IOStreams
+	Last   int
+	Format string
+}
+
+func newLogListCmd(s *IOStreams, g *globalOptions) *cobra.Command {
+	o := &logListOptions{g: g, s: s}
+	cmd := &cobra.Command{
+		Use:     "list",
+		Short:   "List the logbook's passes",
+		Example: "  pitcard log list --last 10\n  pitcard log list --demo --format json",
+		Args:    cobra.NoArgs,
+		RunE:    func(cmd *cobra.Command, _ []string) error { return logListRun(cmd, o) },
+	}
+	cmd.Flags().IntVar(&o.Last, "last", 20, "show the last N passes (0 = all)")
+	cmd.Flags().StringVar(&o.Format, "format", "text", "text, markdown, json or csv")
+	return cmd
+}
+
+type passJSON struct {
+	Time     string            `json:"time"`
+	Track    string            `json:"track"`
+	Session  string            `json:"session"`
+	Lane     string            `json:"lane"`
+	Dial     *string           `json:"dial"`
+	RT       *string           `json:"rt"`
+	ET       map[string]string `json:"et"`
+	MPH      map[string]string `json:"mph"`
+	TempF    *float64          `json:"temp_f"`
+	BaroInHg *float64          `json:"baro_inhg"`
+	RHPct    *float64          `json:"humidity_pct"`
+	TrackF   *float64          `json:"track_temp_f"`
+	DAFt     *float64          `json:"density_altitude_ft"`
+	WeightLb *float64          `json:"weight_lb"`
+	Notes    string            `json:"notes"`
+}
+
+func logListRun(cmd *cobra.Command, o *logListOptions) error {
+	if err := checkFormat(o.Format, "text", "markdown", "json", "csv"); err != nil {
+		return err
+	}
+	e, err := o.g.open(cmd)
+	if err != nil {
+		return err
+	}
+	passes, err := e.logbook()
+	if err != nil {
+		return err
+	}
+	trk, _ := e.track()
+	if o.Last > 0 && len(passes) > o.Last {
+		passes = passes[len(passes)-o.Last:]
+	}
+	switch o.Format {
+	case "csv":
+		return engine.WriteLogbook(o.s.Out, passes)
+	case "json":
+		out := make([]passJSON, len(passes))
+		for i, p := range passes {
+			out[i] = toPassJSON(p, trk)
+		}
+		return writeJSON(o.s.Out, out)
+	}
+	if len(passes) == 0 {
+		fmt.Fprintf(o.s.Out, "%s has no passes yet: add one with 'pitcard log add' or 'pitcard log import'.\n", e.name(event.LogbookFile))
+		return nil
+	}
+	u := e.Settings.Units
+	t := newTable(o.s, fmt.Sprintf("Logbook (%s), last %s", e.name(event.LogbookFile), plural(len(passes), "pass")))
+	t.AppendHeader(table.Row{"Date", "Time", "Session", "Lane", "Dial", "RT", "60 ft", "330", "1/8", "mph", "1000", "1/4", "mph", "DA", "Notes"})
+	for _, p := range passes {
+		da := ""
+		if p.HasAir {
+			da = p.Air.Derive(elevationFor(p, trk)).DensityAltitude.Format(u.Length)
+		}
+		row := table.Row{p.Time.Format("2006-01-02"), p.Time.Format("15:04"), p.Session.String(), p.Lane, sec(p.Dial, 2), sec(p.RT, 3)}
+		for i := range engine.Timers {
+			row = append(row, sec(p.ET[i], 3))
+			if i == 2 {
+				row = append(row, sec(p.MPH660, 2))
+			}
+		}
+		row = append(row, sec(p.MPH1320, 2), da, p.Notes)
+		t.AppendRow(row)
+	}
+	t.SetColumnConfigs(append([]table.ColumnConfig{{Number: 15, WidthMax: 24}}, alignRight(5, 14)...))
+	render(o.s.Out, t, o.Format)
+	return nil
+}
+
+func alignRight(from, to int) []table.ColumnConfig {
+	var c []table.ColumnConfig
+	for n := from; n <= to; n++ {
+		c = append(c, table.ColumnConfig{Number: n, Align: text.AlignRight})
+	}
+	return c
+}
+
+// elevationFor is the elevation of the track a pass ran at: this folder's
+// track, or sea level for another (conditions are station pressure, so the
+// density needs no elevation; only altimeter conversions would).
+func elevationFor(p engine.Pass, trk engine.Track) weather.Length {
+	if strings.EqualFold(p.Track, trk.Name) {
+		return trk.Elevation()
+	}
+	return 0
+}
+
+// sec prints a slip time with at least min decimals, or "" when not timed.
+func sec(d decimal.NullDecimal, min int) string {
+	if !d.Valid {
+		return ""
+	}
+	return engine.FormatSeconds(d.Decimal, min)
+}
+
+func optSec(d decimal.NullDecimal) *string {
+	if !d.Valid {
+		return nil
+	}
+	s := engine.FormatSeconds(d.Decimal, 0)
+	return &s
+}
+
+func optFloat(v float64, ok bool, dec int) *float64 {
+	if !ok {
+		return nil
+	}
+	r := round(v, dec)
+	return &r
+}
+
+func toPassJSON(p engine.Pass, trk engine.Track) passJSON {
+	j := passJSON{Time: p.Time.Format(time.RFC3339), Track: p.Track, Session: p.Session.String(), Lane: string(p.Lane),
+		Dial: optSec(p.Dial), RT: optSec(p.RT), ET: map[string]string{}, MPH: map[string]string{}, Notes: p.Notes}
+	for i, ft := range engine.Timers {
+		if p.ET[i].Valid {
+			j.ET[fmt.Sprintf("%.0f", ft)] = engine.FormatSeconds(p.ET[i].Decimal, 0)
+		}
+	}
+	if p.MPH660.Valid {
+		j.MPH["660"] = engine.FormatSeconds(p.MPH660.Decimal, 0)
+	}
+	if p.MPH1320.Valid {
+		j.MPH["1320"] = engine.FormatSeconds(p.MPH1320.Decimal, 0)
+	}
+	if p.HasAir {
+		j.TempF = optFloat(p.Air.Temp.Fahrenheit(), true, 2)
+		j.BaroInHg = optFloat(p.Air.Baro.InHg(), true, 3)
+		j.RHPct = optFloat(p.Air.RH*100, true, 1)
+		j.DAFt = optFloat(p.Air.Derive(elevationFor(p, trk)).DensityAltitude.Feet(), true, 0)
+	}
+	j.TrackF = optFloat(p.Air.TrackTemp.Fahrenheit(), p.Air.HasTrack, 1)
+	j.WeightLb = optFloat(p.WeightLb, p.WeightLb > 0, 1)
+	return j
+}
+
+type logStatsOptions struct {
+	g      *globalOptions
+	s      *IOStreams
+	Format string
+}
+
+func newLogStatsCmd(s *IOStreams, g *globalOptions) *cobra.Command {
+	o := &logStatsOptions{g: g, s: s}
+	cmd := &cobra.Command{
+		Use:   "stats",
+		Short: "Consistency per day and session: ET, reaction-time and 60-ft spread",
+		Long: `For every day of the logbook, and within it for time trials, eliminations and
+tests: the number of passes, the ET mean, spread (one standard deviation) and
+range of the clean passes, the reaction-time mean and spread, the 60-ft
+spread, and the car's consistency in words. Spreads are raw: the air moves
+through a day, and 'pitcard predict' corrects for it.`,
+		Example: "  pitcard log stats\n  pitcard log stats --demo --format json",
+		Args:    cobra.NoArgs,
+		RunE:    func(cmd *cobra.Command, _ []string) error { return logStatsRun(cmd, o) },
+	}
+	cmd.Flags().StringVar(&o.Format, "format", "text", "text, markdown or json")
+	return cmd
+}
+
+type statsJSON struct {
+	Day         string   `json:"day"`
+	Sessions    string   `json:"sessions"`
+	Passes      int      `json:"passes"`
+	Clean       int      `json:"clean"`
+	FinishFt    float64  `json:"finish_ft"`
+	ETMean      *float64 `json:"et_mean"`
+	ETSD        *float64 `json:"et_sd"`
+	ETMin       *float64 `json:"et_min"`
+	ETMax       *float64 `json:"et_max"`
+	RTMean      *float64 `json:"rt_mean"`
+	RTSD        *float64 `json:"rt_sd"`
+	SixtySD     *float64 `json:"et60_sd"`
+	Consistency string   `json:"consistency"`
+}
+
+func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
+	if err := checkFormat(o.Format, "text", "markdown", "json"); err != nil {
+		return err
+	}
+	e, err := o.g.open(cmd)
+	if err != nil {
+		return err
+	}
+	passes, err := e.logbook()
+	if err != nil {
+		return err
+	}
+	stats := engine.Stats(passes)
+	if o.Format == "json" {
+		out := []statsJSON{}
+		for _, s := range stats {
+			sessions := s.Kind.String()
+			if s.All {
+				sessions = "all"
+			}
+			out = append(out, statsJSON{Day: s.Day.Format("2006-01-02"), Sessions: sessions, Passes: s.Passes, Clean: s.Clean, FinishFt: s.Finish,
+				ETMean: optFloat(s.ETMean, s.Clean > 0, 4), ETSD: optFloat(s.ETSD, s.Clean > 1, 4),
+				ETMin: optFloat(s.ETMin, s.Clean > 0, 4), ETMax: optFloat(s.ETMax, s.Clean > 0, 4),
+				RTMean: optFloat(s.RTMean, s.RTN > 0, 4), RTSD: optFloat(s.RTSD, s.RTN > 1, 4),
+				SixtySD: optFloat(s.SixtySD, s.SixtyN > 1, 4), Consistency: engine.Consistency(s.ETSD, s.Clean)})
+		}
+		return writeJSON(o.s.Out, out)
+	}
+	if len(passes) == 0 {
+		fmt.Fprintf(o.s.Out, "%s has no passes yet.\n", e.name(event.LogbookFile))
+		return nil
+	}
+	t := newTable(o.s, "Consistency by day and session (raw spreads, not corrected for the air)")
+	t.AppendHeader(table.Row{"Day", "Sessions", "Passes", "ET mean", "ET ±1σ", "ET range", "RT mean", "RT ±1σ", "60 ft ±1σ", "Consistency"})
+	f3 := func(v float64, ok bool) string {
+		if !ok {
+			return ""
+		}
+		return fmt.Sprintf("%.3f", v)
+	}
+	for _, s := range stats {
+		day, sessions := "", "  "+s.Kind.String()
+		if s.All {
+			day, sessions = s.Day.Format("2006-01-02"), "all"
+			t.AppendSeparator()
+		}
+		rng := ""
+		if s.Clean > 1 {
+			rng = fmt.Sprintf("%.3f–%.3f", s.ETMin, s.ETMax)
+		}
+		passes := fmt.Sprint(s.Passes)
+		if s.Clean != s.Passes {
+			passes = fmt.Sprintf("%d (%d clean)", s.Passes, s.Clean)
+		}
+		t.AppendRow(table.Row{day, sessions, passes, f3(s.ETMean, s.Clean > 0), f3(s.ETSD, s.Clean > 1), rng,
+			f3(s.RTMean, s.RTN > 0), f3(s.RTSD, s.RTN > 1), f3(s.SixtySD, s.SixtyN > 1), engine.Consistency(s.ETSD, s.Clean)})
+	}
+	render(o.s.Out, t, o.Format)
+	return nil
+}

@@ -1,0 +1,253 @@
+package main
+
+import (
+	"bytes"
+	"encoding/json"
+	"fmt"
+	"io"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"strings"
+	"syscall"
+	"testing"
+	"time"
+
+	"pitcard/engine"
+	"pitcard/internal/safefile"
+)
+
+const slipHeader = "date,time,track,session,lane,dial,rt,et60,et330,et660,et1000,et1320,mph660,mph1320,temp_f,baro_inhg,humidity_pct,track_temp_f,wind_mph,wind_from_deg,weight_lb,notes\n"
+
+// season is an invented logbook of n passes of an 11.5-second car.
+func season(n int) string {
+	var b strings.Builder
+	b.WriteString(slipHeader)
+	for i := range n {
+		day := time.Date(2026, 5, 2+i/10, 17, 0, 0, 0, time.Local).Add(time.Duration(i%10) * 25 * time.Minute)
+		et := 11.50 + 0.01*float64(i%5) - 0.02*float64(i%3)
+		fmt.Fprintf(&b, "%s,%s,My Home Dragway,T%d,%s,,0.0%d,1.61%d,,7.3%d,,%.3f,,116.%d,%d,28.9%d,40,%d,5,200,3400,\n",
+			day.Format("2006-01-02"), day.Format("15:04"), i%10+1, []string{"left", "right"}[i%2], i%10, i%10, i%10, et, i%10, 80+i%10, i%10, 100+i%20)
+	}
+	return b.String()
+}
+
+func writeFile(t *testing.T, path, data string) {
+	t.Helper()
+	if err := os.WriteFile(path, []byte(data), 0o644); err != nil {
+		t.Fatal(err)
+	}
+}
+
+func TestLogImportListStats(t *testing.T) {
+	dir := newFolder(t)
+	src := filepath.Join(t.TempDir(), "season.csv")
+	writeFile(t, src, season(30))
+	out := mustRun(t, "log", "import", "--dir", dir, src)
+	if !strings.Contains(out, "Imported 30 passes") {
+		t.Errorf("import said %q", out)
+	}
+	// importing again: every pass is a duplicate; nothing is written
+	before, _ := os.ReadFile(filepath.Join(dir, "logbook.csv"))
+	_, errs, code := pitcard(t, "log", "import", "--dir", dir, src)
+	if code != 2 || !strings.Contains(errs, "the same pass entered twice") {
+		t.Errorf("re-import: exit %d %s", code, errs)
+	}
+	if after, _ := os.ReadFile(filepath.Join(dir, "logbook.csv")); !bytes.Equal(before, after) {
+		t.Error("a refused import changed the logbook")
+	}
+	list := mustRun(t, "log", "list", "--dir", dir, "--last", "5")
+	if strings.Count(list, "My Home") != 0 || strings.Count(list, "2026-05-04") != 5 {
+		t.Errorf("list:\n%s", list)
+	}
+	var passes []map[string]any
+	if err := json.Unmarshal([]byte(mustRun(t, "log", "list", "--dir", dir, "--last", "0", "--format", "json")), &passes); err != nil || len(passes) != 30 {
+		t.Fatalf("json list: %d passes, %v", len(passes), err)
+	}
+	if passes[0]["rt"] != "0.00" || passes[0]["et"].(map[string]any)["1320"] != "11.500" {
+		t.Errorf("first pass %v", passes[0])
+	}
+	stats := mustRun(t, "log", "stats", "--dir", dir)
+	if !strings.Contains(stats, "2026-05-02") || !strings.Contains(stats, "time trials") {
+		t.Errorf("stats:\n%s", stats)
+	}
+	var js []map[string]any
+	_ = json.Unmarshal([]byte(mustRun(t, "log", "stats", "--dir", dir, "--format", "json")), &js)
+	if len(js) != 6 || js[0]["passes"].(float64) != 10 {
+		t.Errorf("stats json %v", js)
+	}
+}
+
+func TestLogImportAllOrNothing(t *testing.T) {
+	dir := newFolder(t)
+	src := filepath.Join(t.TempDir(), "bad.csv")
+	lines := strings.Split(season(12), "\n")
+	lines[5] = strings.Replace(lines[5], ",40,", ",140,", 1) // humidity 140 %
+	lines[9] = strings.Replace(lines[9], "3400", "34000", 1) // weight
+	writeFile(t, src, strings.Join(lines, "\n"))
+	_, errs, code := pitcard(t, "log", "import", "--dir", dir, src)
+	if code != 2 || !strings.Contains(errs, "bad.csv line 6: humidity_pct") || !strings.Contains(errs, "bad.csv line 10: weight_lb") {
+		t.Errorf("exit %d:\n%s", code, errs)
+	}
+	if data, _ := os.ReadFile(filepath.Join(dir, "logbook.csv")); string(data) != slipHeader {
+		t.Errorf("a failed import wrote:\n%s", data)
+	}
+	if _, errs, code := pitcard(t, "log", "import", "--dir", dir, filepath.Join(dir, "missing.csv")); code != 2 || !strings.Contains(errs, "cannot read") {
+		t.Errorf("missing file: exit %d %s", code, errs)
+	}
+}
+
+func TestLogAddTakesTheNearestReading(t *testing.T) {
+	dir := newFolder(t)
+	mustRun(t, "weather", "add", "--dir", dir, "--time", "18:30", "--temp", "88F", "--baro", "28.90inHg", "--humidity", "40%", "--track-temp", "120F")
+	mustRun(t, "weather", "add", "--dir", dir, "--time", "19:30", "--temp", "80F", "--baro", "28.95inHg", "--humidity", "50%", "--track-temp", "100F")
+	out := mustRun(t, "log", "add", "--dir", dir, "--time", "19:10", "--session", "E1", "--lane", "left", "--dial", "11.52",
+		"--rt", ".021", "--et60", "1.612", "--et1320", "11.538", "--mph1320", "116.79", "--track-temp", "104F")
+	if !strings.Contains(out, "19:30 reading, with the flags given") {
+		t.Errorf("log add said %q", out)
+	}
+	var passes []map[string]any
+	_ = json.Unmarshal([]byte(mustRun(t, "log", "list", "--dir", dir, "--format", "json")), &passes)
+	p := passes[0]
+	if p["temp_f"].(float64) != 80 || p["track_temp_f"].(float64) != 104 || p["weight_lb"].(float64) != 3400 || p["rt"] != "0.021" {
+		t.Errorf("logged %v", p)
+	}
+	// the same pass again
+	_, errs, code := pitcard(t, "log", "add", "--dir", dir, "--time", "19:10", "--session", "E1", "--lane", "left", "--et1320", "11.538")
+	if code != 2 || !strings.Contains(errs, "entered twice") {
+		t.Errorf("duplicate: exit %d %s", code, errs)
+	}
+	for _, bad := range []struct {
+		args []string
+		want string
+	}{
+		{[]string{"--session", "E2", "--lane", "left", "--et1320", "11.5", "--rt", "3"}, "--rt \"3\" is outside -1..2 s"},
+		{[]string{"--session", "E2", "--lane", "middle", "--et1320", "11.5"}, "--lane"},
+		{[]string{"--session", "E2", "--lane", "left", "--et60", "1.6", "--et660", "1.5"}, "--et660"},
+		{[]string{"--session", "E2", "--lane", "left", "--et1320", "11.5", "--temp", "200F"}, "--temp"},
+		{[]string{"--lane", "left", "--et1320", "11.5"}, "--session and --lane are required"},
+	} {
+		_, errs, code := pitcard(t, append([]string{"log", "add", "--dir", dir, "--time", "20:00"}, bad.args...)...)
+		if code != 2 || !strings.Contains(errs, bad.want) {
+			t.Errorf("%v: exit %d %q, want %q", bad.args, code, errs, bad.want)
+		}
+	}
+}
+
+// Source: "How to Bracket Race", a widely reprinted club how-to (worked example).
+func TestRaceJSON(t *testing.T) {
+	out := mustRun(t, "race", "--left-dial", "14.20", "--left-rt", ".520", "--left-et", "14.32", "--right-dial", "13.00",
+		"--right-rt", ".550", "--right-et", "13.10", "--right-mph", "105", "--rt-zero", "amber", "--format", "json")
+	var j map[string]any
+	if err := json.Unmarshal([]byte(out), &j); err != nil {
+		t.Fatal(err)
+	}
+	if j["winner"] != "left" || j["reason"] != engine.ReasonFirstToFinish || j["margin_s"] != "0.010" || j["margin_ft"].(float64) != 1.5 {
+		t.Errorf("race %v", j)
+	}
+	if _, errs, code := pitcard(t, "race", "--left-dial", "14.20", "--left-rt", ".520"); code != 2 || !strings.Contains(errs, "--left-et is required") {
+		t.Errorf("missing ET: exit %d %s", code, errs)
+	}
+	if _, errs, code := pitcard(t, "race", "--left-dial", "x", "--left-rt", ".5", "--left-et", "1", "--right-dial", "1", "--right-rt", "1", "--right-et", "1"); code != 2 || !strings.Contains(errs, "--left-dial") {
+		t.Errorf("bad dial: exit %d %s", code, errs)
+	}
+}
+
+func TestDialFromLogbook(t *testing.T) {
+	dir := newFolder(t)
+	src := filepath.Join(t.TempDir(), "season.csv")
+	writeFile(t, src, season(20))
+	mustRun(t, "log", "import", "--dir", dir, src)
+	var j dialJSON
+	if err := json.Unmarshal([]byte(mustRun(t, "dial", "--dir", dir, "--format", "json")), &j); err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(j.Basis, "last 10 clean passes") || len(j.Options) != 11 || j.Risk != 0.10 {
+		t.Errorf("dial %+v", j)
+	}
+	text := mustRun(t, "dial", "--dir", dir, "--et", "11.5", "--sd", "0.03", "--breakout-risk", "0.05", "--dial-step", "0.001")
+	if !strings.Contains(text, "Recommended dial: 11.450") {
+		t.Errorf("dial:\n%s", text)
+	}
+	if _, errs, code := pitcard(t, "dial", "--dir", dir, "--breakout-risk", "0.9"); code != 2 || !strings.Contains(errs, "breakout_risk") {
+		t.Errorf("risk 0.9: exit %d %s", code, errs)
+	}
+}
+
+// Crash safety: a writer killed mid-write leaves the logbook as it was or as
+// it was to become, never a mix. The child is this test binary.
+func TestLogbookSurvivesAKilledWriter(t *testing.T) {
+	if os.Getenv("PITCARD_CRASH_CHILD") != "" {
+		t.Skip("in the child")
+	}
+	dir := t.TempDir()
+	path := filepath.Join(dir, "logbook.csv")
+	oldData := season(50)
+	writeFile(t, path, oldData)
+	newPasses, err := engine.ReadLogbook(strings.NewReader(season(400)), "new", time.Local)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var newData bytes.Buffer
+	_ = engine.WriteLogbook(&newData, newPasses)
+	for i, delay := range []time.Duration{5 * time.Millisecond, 30 * time.Millisecond, 80 * time.Millisecond, 5 * time.Second} {
+		writeFile(t, path, oldData)
+		child := exec.Command(os.Args[0], "-test.run=^TestCrashChild$")
+		child.Env = append(os.Environ(), "PITCARD_CRASH_CHILD="+path)
+		if err := child.Start(); err != nil {
+			t.Fatal(err)
+		}
+		done := make(chan error, 1)
+		go func() { done <- child.Wait() }()
+		select {
+		case <-time.After(delay):
+			_ = child.Process.Signal(syscall.SIGKILL)
+			<-done
+		case <-done:
+		}
+		got, err := os.ReadFile(path)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if string(got) != oldData && string(got) != newData.String() {
+			t.Fatalf("kill %d after %v: the logbook is neither the old nor the new version (%d bytes)", i, delay, len(got))
+		}
+		t.Logf("killed after %v: the logbook is the %s version", delay, map[bool]string{true: "old", false: "new"}[string(got) == oldData])
+		if _, err := engine.ReadLogbook(bytes.NewReader(got), "logbook.csv", time.Local); err != nil {
+			t.Fatalf("kill %d: the logbook no longer reads: %v", i, err)
+		}
+	}
+}
+
+// TestCrashChild is the writer the crash test kills: it rewrites the logbook
+// slowly, a few hundred bytes at a time.
+func TestCrashChild(t *testing.T) {
+	path := os.Getenv("PITCARD_CRASH_CHILD")
+	if path == "" {
+		t.Skip("run by TestLogbookSurvivesAKilledWriter")
+	}
+	passes, _ := engine.ReadLogbook(strings.NewReader(season(400)), "new", time.Local)
+	err := safefile.Write(path, func(w io.Writer) error {
+		return engine.WriteLogbook(slowWriter{w}, passes)
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+}
+
+type slowWriter struct{ w io.Writer }
+
+func (s slowWriter) Write(p []byte) (int, error) {
+	n := 0
+	for len(p) > 0 {
+		k := min(len(p), 256)
+		m, err := s.w.Write(p[:k])
+		n += m
+		if err != nil {
+			return n, err
+		}
+		p = p[k:]
+		time.Sleep(time.Millisecond)
+	}
+	return n, nil
+}

@@ -1,0 +1,239 @@
+package engine
+
+import (
+	"fmt"
+	"strings"
+
+	"github.com/shopspring/decimal"
+
+	"pitcard/weather"
+)
+
+// The bracket-racing rules pitcard settles races by (common practice; tracks
+// publish their own rules, and where they differ it is a setting):
+//
+//   - Each car posts a dial-in. The slower dial gets the green first, by the
+//     difference of the dials. First to the finish wins, unless it broke out
+//     (ran quicker than its dial).
+//   - Fouls come before everything: a red light (leaving before the green)
+//     loses, even against a car that broke out; so does a boundary or
+//     centreline foul. When both foul, the first foul loses: a red light
+//     happens at the start, so it is always first against a boundary foul;
+//     of two red lights the one that left earlier in time loses.
+//   - One breakout loses to a car that did not break out. Both break out: the
+//     smaller breakout wins; equal breakouts go to the first to the finish.
+//   - Otherwise the first to the finish wins; the same thousandth is a tie.
+//
+// All of it is exact decimal arithmetic, as the slips are.
+
+// Tree is the starting tree: on a full (sportsman) tree three ambers count
+// down 0.5 s apart and the green follows the last by 0.5 s; on a pro tree all
+// ambers light together and the green follows 0.4 s later.
+type Tree string
+
+// Trees.
+const (
+	FullTree Tree = "full"
+	ProTree  Tree = "pro"
+)
+
+// Delay is the time from the last amber to the green.
+func (t Tree) Delay() decimal.Decimal {
+	if t == ProTree {
+		return decimal.New(4, -1)
+	}
+	return decimal.New(5, -1)
+}
+
+// ParseTree reads full (also sportsman) or pro.
+func ParseTree(s string) (Tree, error) {
+	switch strings.ToLower(strings.TrimSpace(s)) {
+	case "full", "sportsman", ".5", "0.5":
+		return FullTree, nil
+	case "pro", ".4", "0.4":
+		return ProTree, nil
+	}
+	return "", &weather.InputError{Field: "tree", Value: s, Reason: "is not a tree (full or pro)"}
+}
+
+// RTZero is what a slip's reaction time counts from.
+type RTZero string
+
+// Reaction-time conventions.
+const (
+	// FromGreen: perfect is .000 and a red light is negative (modern systems).
+	FromGreen RTZero = "green"
+	// FromAmber: counted from the last amber, so perfect is the tree's delay
+	// (.500 full, .400 pro) and a red light is below it.
+	FromAmber RTZero = "amber"
+)
+
+// ParseRTZero reads green or amber.
+func ParseRTZero(s string) (RTZero, error) {
+	switch strings.ToLower(strings.TrimSpace(s)) {
+	case "green", "0", ".000":
+		return FromGreen, nil
+	case "amber", "last-amber", "last_amber":
+		return FromAmber, nil
+	}
+	return "", &weather.InputError{Field: "rt-zero", Value: s, Reason: "is not a reaction-time convention (green: perfect .000; amber: perfect .500 full / .400 pro)"}
+}
+
+// RaceRules are the settings a race is settled by.
+type RaceRules struct {
+	Tree   Tree
+	RTZero RTZero
+}
+
+// LaneRun is one lane's slip in a race.
+type LaneRun struct {
+	Dial decimal.Decimal     // dial-in, s
+	RT   decimal.Decimal     // reaction time as the slip shows it, s
+	ET   decimal.Decimal     // elapsed time at the finish, s
+	MPH  decimal.NullDecimal // finish-line trap speed, for the margin in feet
+	Foul bool                // boundary or centreline foul
+}
+
+// LaneResult is what the race made of one lane.
+type LaneResult struct {
+	Start    decimal.Decimal // its green, s after the first green
+	Reaction decimal.Decimal // reaction from its own green, s (negative = red light)
+	Finish   decimal.Decimal // reached the finish, s after the first green
+	OverDial decimal.Decimal // ET − dial: negative is a breakout
+	Package  decimal.Decimal // reaction + ET − dial: the total against the dial
+	RedLight bool
+	Breakout bool
+	Foul     bool
+}
+
+// Reasons a race was decided.
+const (
+	ReasonFirstToFinish  = "first to the finish"
+	ReasonBreakout       = "breakout"
+	ReasonDoubleBreakout = "double breakout"
+	ReasonRedLight       = "red light"
+	ReasonFoul           = "foul"
+	ReasonDoubleFoul     = "double foul"
+	ReasonTie            = "tie"
+)
+
+// Outcome is a settled race.
+type Outcome struct {
+	Winner      Lane   // "" for a tie or a double foul nobody wins
+	Reason      string // one of the Reason constants
+	Explanation string // the decision in words
+	Left, Right LaneResult
+	First       Lane            // first to the finish ("" when level)
+	MarginS     decimal.Decimal // difference at the finish, s (≥ 0)
+	MarginFt    float64         // MarginS at the trailing car's speed, ft; 0 without a speed
+	HasMarginFt bool
+}
+
+// Settle decides a race from two slips. It refuses slips that cannot be
+// (a dial or an ET not positive).
+func Settle(left, right LaneRun, rules RaceRules) (Outcome, error) {
+	for _, l := range []struct {
+		name string
+		run  LaneRun
+	}{{"left", left}, {"right", right}} {
+		if !l.run.Dial.IsPositive() {
+			return Outcome{}, &weather.InputError{Field: l.name + "-dial", Value: l.run.Dial.String(), Reason: "must be a positive time in seconds"}
+		}
+		if !l.run.ET.IsPositive() {
+			return Outcome{}, &weather.InputError{Field: l.name + "-et", Value: l.run.ET.String(), Reason: "must be a positive time in seconds"}
+		}
+	}
+	if rules.Tree == "" {
+		rules.Tree = FullTree
+	}
+	if rules.RTZero == "" {
+		rules.RTZero = FromGreen
+	}
+	maxDial := decimal.Max(left.Dial, right.Dial)
+	lane := func(r LaneRun) LaneResult {
+		var x LaneResult
+		x.Start = maxDial.Sub(r.Dial)
+		x.Reaction = r.RT
+		if rules.RTZero == FromAmber {
+			x.Reaction = r.RT.Sub(rules.Tree.Delay())
+		}
+		x.Finish = x.Start.Add(x.Reaction).Add(r.ET)
+		x.OverDial = r.ET.Sub(r.Dial)
+		x.Package = x.Reaction.Add(x.OverDial)
+		x.RedLight = x.Reaction.IsNegative()
+		x.Breakout = x.OverDial.IsNegative()
+		x.Foul = r.Foul
+		return x
+	}
+	o := Outcome{Left: lane(left), Right: lane(right)}
+	o.MarginS = o.Left.Finish.Sub(o.Right.Finish).Abs()
+	switch o.Left.Finish.Cmp(o.Right.Finish) {
+	case -1:
+		o.First = Left
+	case 1:
+		o.First = Right
+	}
+	trailing := right.MPH
+	if o.First == Right {
+		trailing = left.MPH
+	}
+	if !trailing.Valid {
+		trailing = decimal.NullDecimal{Decimal: decimal.Max(left.MPH.Decimal, right.MPH.Decimal), Valid: left.MPH.Valid || right.MPH.Valid}
+	}
+	if trailing.Valid {
+		o.MarginFt = o.MarginS.InexactFloat64() * trailing.Decimal.InexactFloat64() * 5280 / 3600
+		o.HasMarginFt = true
+	}
+	win := func(w Lane, reason, why string, args ...any) (Outcome, error) {
+		o.Winner, o.Reason, o.Explanation = w, reason, fmt.Sprintf(why, args...)
+		return o, nil
+	}
+	L, R := o.Left, o.Right
+	rt := func(x LaneResult) string { return FormatSeconds(x.Reaction, 3) }
+	// Fouls first: red lights, then boundary fouls.
+	switch {
+	case L.RedLight && R.RedLight:
+		lLeft, rLeft := L.Start.Add(L.Reaction), R.Start.Add(R.Reaction)
+		switch lLeft.Cmp(rLeft) {
+		case -1:
+			return win(Right, ReasonRedLight, "both red-lit; left left first (reaction %s) and loses", rt(L))
+		case 1:
+			return win(Left, ReasonRedLight, "both red-lit; right left first (reaction %s) and loses", rt(R))
+		}
+		return win("", ReasonDoubleFoul, "both red-lit at the same instant: the track decides")
+	case L.RedLight:
+		return win(Right, ReasonRedLight, "left red-lit (reaction %s)", rt(L))
+	case R.RedLight:
+		return win(Left, ReasonRedLight, "right red-lit (reaction %s)", rt(R))
+	case L.Foul && R.Foul:
+		return win("", ReasonDoubleFoul, "both lanes fouled: the first to foul loses, and the track's officials decide who that was")
+	case L.Foul:
+		return win(Right, ReasonFoul, "left fouled (boundary or centreline)")
+	case R.Foul:
+		return win(Left, ReasonFoul, "right fouled (boundary or centreline)")
+	}
+	bo := func(x LaneResult, r LaneRun) string {
+		return fmt.Sprintf("%s (%s on a %s dial)", FormatSeconds(x.OverDial.Abs(), 3), FormatSeconds(r.ET, 3), FormatSeconds(r.Dial, 2))
+	}
+	switch {
+	case L.Breakout && R.Breakout:
+		switch L.OverDial.Cmp(R.OverDial) {
+		case 1:
+			return win(Left, ReasonDoubleBreakout, "both broke out; left by less: %s against %s", bo(L, left), bo(R, right))
+		case -1:
+			return win(Right, ReasonDoubleBreakout, "both broke out; right by less: %s against %s", bo(R, right), bo(L, left))
+		}
+		if o.First != "" {
+			return win(o.First, ReasonDoubleBreakout, "both broke out by the same %s; %s reached the finish first", FormatSeconds(L.OverDial.Abs(), 3), o.First)
+		}
+		return win("", ReasonTie, "both broke out by the same amount and reached the finish together")
+	case L.Breakout:
+		return win(Right, ReasonBreakout, "left broke out by %s", bo(L, left))
+	case R.Breakout:
+		return win(Left, ReasonBreakout, "right broke out by %s", bo(R, right))
+	}
+	if o.First == "" {
+		return win("", ReasonTie, "both reached the finish at the same thousandth")
+	}
+	return win(o.First, ReasonFirstToFinish, "%s reached the finish first by %s s; neither broke out", o.First, FormatSeconds(o.MarginS, 3))
+}

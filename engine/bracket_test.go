@@ -1,0 +1,99 @@
+package engine
+
+import (
+	"math"
+	"testing"
+
+	"github.com/shopspring/decimal"
+)
+
+func d(s string) decimal.Decimal { return decimal.RequireFromString(s) }
+
+func run(dial, rt, et string) LaneRun { return LaneRun{Dial: d(dial), RT: d(rt), ET: d(et)} }
+
+// Source: "How to Bracket Race", a widely reprinted club how-to (worked
+// examples); the precedence rules are common practice (no source), as tracks
+// publish their own.
+func TestSettle(t *testing.T) {
+	amberFull := RaceRules{Tree: FullTree, RTZero: FromAmber}
+	green := RaceRules{Tree: FullTree, RTZero: FromGreen}
+	cases := []struct {
+		name        string
+		left, right LaneRun
+		rules       RaceRules
+		winner      Lane
+		reason      string
+		margin      string
+	}{
+		{"how-to example 1: 14.20 car wins by .010 on a .500 full tree",
+			run("14.20", ".520", "14.32"), run("13.00", ".550", "13.10"), amberFull, Left, ReasonFirstToFinish, "0.010"},
+		{"how-to example 1, lanes swapped",
+			run("13.00", ".550", "13.10"), run("14.20", ".520", "14.32"), amberFull, Right, ReasonFirstToFinish, "0.010"},
+		{"how-to example 2: both break out, the 14.19 on 14.20 wins",
+			run("14.20", ".520", "14.19"), run("13.00", ".510", "12.96"), amberFull, Left, ReasonDoubleBreakout, ""},
+		{"one breakout loses even when first to the finish",
+			run("12.00", ".010", "11.99"), run("12.00", ".200", "12.30"), green, Right, ReasonBreakout, ""},
+		{"red light beats a breakout",
+			run("12.00", "-.001", "12.05"), run("12.00", ".050", "11.90"), green, Right, ReasonRedLight, ""},
+		{"red light on an amber-counted full tree is below .500",
+			run("12.00", ".499", "12.05"), run("12.00", ".550", "12.10"), amberFull, Right, ReasonRedLight, ""},
+		{"red light on an amber-counted pro tree is below .400",
+			run("12.00", ".450", "12.05"), run("12.00", ".390", "12.10"), RaceRules{Tree: ProTree, RTZero: FromAmber}, Left, ReasonRedLight, ""},
+		{"both red: the first to leave loses (the 14.00 car, green first, left at -.002 s; the 12.00 car at 2.00 - .050)",
+			run("14.00", "-.002", "14.10"), run("12.00", "-.050", "12.10"), green, Right, ReasonRedLight, ""},
+		{"red light before a boundary foul",
+			run("12.00", "-.010", "12.10"), LaneRun{Dial: d("12.00"), RT: d(".02"), ET: d("12.1"), Foul: true}, green, Right, ReasonRedLight, ""},
+		{"boundary foul loses",
+			LaneRun{Dial: d("12.00"), RT: d(".02"), ET: d("12.01"), Foul: true}, run("12.00", ".08", "12.20"), green, Right, ReasonFoul, ""},
+		{"first to the finish, no breakouts",
+			run("10.50", ".030", "10.55"), run("11.20", ".045", "11.26"), green, Left, ReasonFirstToFinish, "0.025"},
+		{"exact tie",
+			run("10.50", ".030", "10.55"), run("11.20", ".020", "11.26"), green, "", ReasonTie, "0.000"},
+		{"dead on the dial is not a breakout",
+			run("10.50", ".030", "10.50"), run("10.50", ".040", "10.52"), green, Left, ReasonFirstToFinish, "0.030"},
+		{"equal breakouts: first to the finish",
+			run("10.50", ".030", "10.49"), run("10.50", ".040", "10.49"), green, Left, ReasonDoubleBreakout, "0.010"},
+	}
+	for _, tc := range cases {
+		o, err := Settle(tc.left, tc.right, tc.rules)
+		if err != nil {
+			t.Fatalf("%s: %v", tc.name, err)
+		}
+		if o.Winner != tc.winner || o.Reason != tc.reason {
+			t.Errorf("%s: winner %q (%s: %s), want %q (%s)", tc.name, o.Winner, o.Reason, o.Explanation, tc.winner, tc.reason)
+		}
+		if tc.margin != "" && !o.MarginS.Equal(d(tc.margin)) {
+			t.Errorf("%s: margin %s s, want %s", tc.name, o.MarginS, tc.margin)
+		}
+	}
+}
+
+// The margin in feet is the margin in seconds at the trailing car's speed
+// (physics; 1 mph = 1.46667 ft/s by definition).
+func TestMarginInFeet(t *testing.T) {
+	l := run("14.20", ".520", "14.32")
+	r := run("13.00", ".550", "13.10")
+	r.MPH = decimal.NewNullDecimal(d("105.00"))
+	o, _ := Settle(l, r, RaceRules{})
+	if !o.HasMarginFt || math.Abs(o.MarginFt-0.010*105*5280/3600) > 1e-9 {
+		t.Errorf("margin %v ft", o.MarginFt)
+	}
+}
+
+// Decimal arithmetic: a float sum of .1 steps drifts; the slip's does not
+// (IEEE 754 fact: 0.1 + 0.2 != 0.3 in binary floating point).
+func TestSettleIsExact(t *testing.T) {
+	o, _ := Settle(run("10.1", ".1", "10.2"), run("10.1", ".2", "10.1"), RaceRules{})
+	if o.Reason != ReasonTie {
+		t.Errorf("0.1 + 10.2 and 0.2 + 10.1 should tie exactly: %s %s", o.Reason, o.MarginS)
+	}
+}
+
+func TestSettleRefusesImpossibleSlips(t *testing.T) {
+	if _, err := Settle(run("0", ".1", "10"), run("10", ".1", "10"), RaceRules{}); err == nil {
+		t.Error("a zero dial was settled")
+	}
+	if _, err := Settle(run("10", ".1", "10"), run("10", ".1", "-1"), RaceRules{}); err == nil {
+		t.Error("a negative ET was settled")
+	}
+}

@@ -1,0 +1,507 @@
+package engine
+
+import (
+	"encoding/csv"
+	"errors"
+	"fmt"
+	"io"
+	"sort"
+	"strconv"
+	"strings"
+	"time"
+
+	"github.com/shopspring/decimal"
+
+	"pitcard/weather"
+)
+
+// Pass is one row of the logbook: a time slip and the conditions it ran in.
+type Pass struct {
+	Line    int       // line in the file it was read from (0 for a new pass)
+	Time    time.Time // local date and time of the pass
+	Track   string    // the track's name as in its track.yaml
+	Session Session
+	Lane    Lane
+	Dial    decimal.NullDecimal // dial-in, s; not valid for time trials without one
+	RT      decimal.NullDecimal // reaction time, s, from the green (negative = red light)
+	// ET holds the elapsed time at each of Timers (60, 330, 660, 1000, 1320 ft);
+	// not valid where not timed.
+	ET      [5]decimal.NullDecimal
+	MPH660  decimal.NullDecimal // trap speed over the 66 ft before 660 ft
+	MPH1320 decimal.NullDecimal // trap speed over the 66 ft before 1320 ft
+	// Air is the weather of the pass: station pressure (never sea-level
+	// corrected), relative humidity, wind and track temperature. HasAir is
+	// false for a slip logged without the weather.
+	Air      weather.Reading
+	HasAir   bool
+	WeightLb float64 // car and driver as run; 0 = not recorded
+	Notes    string
+}
+
+// ETAt is the elapsed time at timer ft as a float, and whether it was timed.
+func (p Pass) ETAt(ft float64) (float64, bool) {
+	i := timerIndex(ft)
+	if i < 0 || !p.ET[i].Valid {
+		return 0, false
+	}
+	return p.ET[i].Decimal.InexactFloat64(), true
+}
+
+// Finish is the elapsed time at the last timer recorded, its distance, and
+// whether the pass has any.
+func (p Pass) Finish() (decimal.Decimal, float64, bool) {
+	for i := len(Timers) - 1; i >= 0; i-- {
+		if p.ET[i].Valid {
+			return p.ET[i].Decimal, Timers[i], true
+		}
+	}
+	return decimal.Decimal{}, 0, false
+}
+
+// Key identifies a pass for finding the same pass entered twice: its date,
+// time to the minute, track and lane.
+func (p Pass) Key() string {
+	return fmt.Sprintf("%s|%s|%s", p.Time.Format("2006-01-02 15:04"), strings.ToLower(p.Track), p.Lane)
+}
+
+// LogbookColumns are logbook.csv's columns, in order. Units are in the names.
+var LogbookColumns = []string{"date", "time", "track", "session", "lane", "dial", "rt",
+	"et60", "et330", "et660", "et1000", "et1320", "mph660", "mph1320",
+	"temp_f", "baro_inhg", "humidity_pct", "track_temp_f", "wind_mph", "wind_from_deg", "weight_lb", "notes"}
+
+var logbookAlternatives = map[string]string{
+	"temp_c": "temp_f", "baro_hpa": "baro_inhg", "track_temp_c": "track_temp_f",
+	"wind_kmh": "wind_mph", "weight_kg": "weight_lb",
+}
+
+// Ranges of a slip (pitcard's limits: anything from a street car to a fast
+// doorslammer, with room to spare).
+var (
+	ETRanges  = [5][2]float64{{0.7, 5}, {1.5, 12}, {2, 20}, {3, 30}, {3.5, 40}} // s, per timer
+	RTRange   = [2]float64{-1, 2}                                               // s
+	DialRange = [2]float64{1.5, 40}                                             // s
+	MPHRange  = [2]float64{5, 350}                                              // mph
+	// TrapRatioRange bounds trap speed over the average speed to that timer. A
+	// car accelerating from rest ends faster than its average: about 1.5× for
+	// a power-limited car, 2× at constant acceleration; a lifted run can end
+	// below it. Outside these bounds the speed or the time is a typo.
+	TrapRatioRange = [2]float64{0.75, 2.6}
+)
+
+// RowErrors is every bad row of a file, so a crew can fix them all at once.
+type RowErrors []*weather.InputError
+
+func (e RowErrors) Error() string {
+	var b strings.Builder
+	for i, x := range e {
+		if i > 0 {
+			b.WriteString("\n")
+		}
+		b.WriteString(x.Error())
+	}
+	if len(e) >= maxRowErrors {
+		b.WriteString("\n(stopped after the first errors; fix these and read again)")
+	}
+	return b.String()
+}
+
+// BadInput marks the error as the user's to fix.
+func (e RowErrors) BadInput() bool { return true }
+
+const maxRowErrors = 25
+
+// ReadLogbook reads a logbook from r; name is the file's name for messages and
+// loc the zone of its times. Every row is validated; when any fails the result
+// is RowErrors naming each bad row's file, line, column, value and rule, and
+// no passes. A pass entered twice is an error too. Passes come back in time
+// order.
+func ReadLogbook(r io.Reader, name string, loc *time.Location) ([]Pass, error) {
+	cr := csv.NewReader(r)
+	cr.FieldsPerRecord = -1
+	cr.Comment = '#'
+	header, err := cr.Read()
+	if errors.Is(err, io.EOF) {
+		return nil, nil
+	}
+	if err != nil {
+		return nil, csvError(name, err)
+	}
+	col, err := logbookHeader(header, name)
+	if err != nil {
+		return nil, err
+	}
+	var passes []Pass
+	var errs RowErrors
+	seen := map[string]int{}
+	for len(errs) < maxRowErrors {
+		rec, err := cr.Read()
+		if errors.Is(err, io.EOF) {
+			break
+		}
+		if err != nil {
+			errs = append(errs, csvError(name, err).(*weather.InputError))
+			break
+		}
+		line, _ := cr.FieldPos(0)
+		if len(rec) != len(header) {
+			errs = append(errs, &weather.InputError{File: name, Line: line, Field: "row",
+				Reason: fmt.Sprintf("has %d fields, the header has %d", len(rec), len(header))})
+			continue
+		}
+		p, err := logbookRow(rec, col, loc)
+		if err != nil {
+			var ie *weather.InputError
+			if !errors.As(err, &ie) {
+				return nil, err
+			}
+			errs = append(errs, ie.At(name, line))
+			continue
+		}
+		p.Line = line
+		if first, dup := seen[p.Key()]; dup {
+			errs = append(errs, &weather.InputError{File: name, Line: line, Field: "row",
+				Reason: fmt.Sprintf("is the same pass as line %d (%s, %s lane): entered twice", first, p.Time.Format("2006-01-02 15:04"), p.Lane)})
+			continue
+		}
+		seen[p.Key()] = line
+		passes = append(passes, p)
+	}
+	if len(errs) > 0 {
+		return nil, errs
+	}
+	SortPasses(passes)
+	return passes, nil
+}
+
+// SortPasses sorts passes in time order, stably.
+func SortPasses(p []Pass) {
+	sort.SliceStable(p, func(i, j int) bool { return p[i].Time.Before(p[j].Time) })
+}
+
+func csvError(name string, err error) error {
+	var pe *csv.ParseError
+	if errors.As(err, &pe) {
+		return &weather.InputError{File: name, Line: pe.Line, Field: "row", Reason: "is not valid CSV: " + pe.Err.Error()}
+	}
+	return &weather.InputError{File: name, Field: "file", Reason: err.Error()}
+}
+
+type column struct {
+	i      int
+	metric bool
+	name   string
+}
+
+func logbookHeader(header []string, name string) (map[string]column, error) {
+	col := map[string]column{}
+	known := map[string]bool{}
+	for _, c := range LogbookColumns {
+		known[c] = true
+	}
+	for i, h := range header {
+		h = strings.ToLower(strings.TrimSpace(strings.TrimPrefix(h, "\ufeff")))
+		canon, metric := h, false
+		if alt, ok := logbookAlternatives[h]; ok {
+			canon, metric = alt, true
+		}
+		if !known[canon] {
+			return nil, &weather.InputError{File: name, Line: 1, Field: "column", Value: h,
+				Reason: "is not a logbook column (columns: " + strings.Join(LogbookColumns, ", ") +
+					"; metric: temp_c, baro_hpa, track_temp_c, wind_kmh, weight_kg)"}
+		}
+		if _, dup := col[canon]; dup {
+			return nil, &weather.InputError{File: name, Line: 1, Field: "column", Value: h, Reason: "appears twice (or with its metric twin)"}
+		}
+		col[canon] = column{i, metric, h}
+	}
+	for _, need := range []string{"date", "time", "track", "session", "lane"} {
+		if _, ok := col[need]; !ok {
+			return nil, &weather.InputError{File: name, Line: 1, Field: "column", Value: need, Reason: "is missing from the header"}
+		}
+	}
+	hasET := false
+	for _, t := range Timers {
+		if _, ok := col[fmt.Sprintf("et%.0f", t)]; ok {
+			hasET = true
+		}
+	}
+	if !hasET {
+		return nil, &weather.InputError{File: name, Line: 1, Field: "column", Value: "et1320", Reason: "is missing: the header has no elapsed-time column (et60 ... et1320)"}
+	}
+	return col, nil
+}
+
+// SlipFields are the raw text of one pass, as typed in a row or in flags,
+// keyed by canonical column name; metric names the columns given in metric.
+type SlipFields struct {
+	Values map[string]string
+	Metric map[string]bool
+	Names  map[string]string // how each column is called in messages
+}
+
+func logbookRow(rec []string, col map[string]column, loc *time.Location) (Pass, error) {
+	f := SlipFields{Values: map[string]string{}, Metric: map[string]bool{}, Names: map[string]string{}}
+	for canon, c := range col {
+		f.Values[canon] = strings.TrimSpace(rec[c.i])
+		f.Metric[canon] = c.metric
+		f.Names[canon] = c.name
+	}
+	return ParsePass(f, loc)
+}
+
+// ParsePass builds a pass from its fields and validates it.
+func ParsePass(f SlipFields, loc *time.Location) (Pass, error) {
+	var p Pass
+	get := func(c string) string { return f.Values[c] }
+	name := func(c string) string {
+		if n := f.Names[c]; n != "" {
+			return n
+		}
+		return c
+	}
+	named := func(err error, c string) error {
+		var ie *weather.InputError
+		if errors.As(err, &ie) {
+			return ie.Named(name(c))
+		}
+		return err
+	}
+	var err error
+	if p.Time, err = weather.ParseDateTime(get("date"), get("time"), loc); err != nil {
+		var ie *weather.InputError
+		if errors.As(err, &ie) {
+			return p, ie.Named(name(ie.Field))
+		}
+		return p, err
+	}
+	if p.Track = get("track"); p.Track == "" {
+		return p, &weather.InputError{Field: "track", Reason: "is blank (the track's name as in its track.yaml)"}
+	}
+	if p.Session, err = ParseSession(get("session")); err != nil {
+		return p, named(err, "session")
+	}
+	if p.Lane, err = ParseLane(get("lane")); err != nil {
+		return p, named(err, "lane")
+	}
+	optSeconds := func(c string, lo, hi float64) (decimal.NullDecimal, error) {
+		v := get(c)
+		if v == "" {
+			return decimal.NullDecimal{}, nil
+		}
+		d, err := ParseSeconds(name(c), v)
+		if err != nil {
+			return decimal.NullDecimal{}, err
+		}
+		if err := rangeCheck(name(c), d, lo, hi, "s"); err != nil {
+			return decimal.NullDecimal{}, err
+		}
+		return decimal.NewNullDecimal(d), nil
+	}
+	if p.Dial, err = optSeconds("dial", DialRange[0], DialRange[1]); err != nil {
+		return p, err
+	}
+	if p.RT, err = optSeconds("rt", RTRange[0], RTRange[1]); err != nil {
+		return p, err
+	}
+	var last decimal.NullDecimal
+	lastName, any := "", false
+	for i, t := range Timers {
+		c := fmt.Sprintf("et%.0f", t)
+		if p.ET[i], err = optSeconds(c, ETRanges[i][0], ETRanges[i][1]); err != nil {
+			return p, err
+		}
+		if p.ET[i].Valid {
+			any = true
+			if last.Valid && !p.ET[i].Decimal.GreaterThan(last.Decimal) {
+				return p, &weather.InputError{Field: name(c), Value: get(c),
+					Reason: fmt.Sprintf("is not after %s %s: elapsed times must increase with distance", lastName, last.Decimal)}
+			}
+			last, lastName = p.ET[i], name(c)
+		}
+	}
+	if !any {
+		return p, &weather.InputError{Field: "et1320", Reason: "is blank, and so is every other timer (a pass needs at least one elapsed time)"}
+	}
+	for _, trap := range []struct {
+		c   string
+		ft  float64
+		dst *decimal.NullDecimal
+	}{{"mph660", 660, &p.MPH660}, {"mph1320", 1320, &p.MPH1320}} {
+		v := get(trap.c)
+		if v == "" {
+			continue
+		}
+		d, err := ParseSeconds(name(trap.c), v) // a plain decimal, like a time
+		if err != nil {
+			return p, &weather.InputError{Field: name(trap.c), Value: v, Reason: "is not a speed in mph (e.g. 123.45)"}
+		}
+		if err := rangeCheck(name(trap.c), d, MPHRange[0], MPHRange[1], "mph"); err != nil {
+			return p, err
+		}
+		if et, ok := p.ETAt(trap.ft); ok {
+			avg := trap.ft / et / weather.MpsPerMph * weather.MetrePerFt // mph
+			if ratio := d.InexactFloat64() / avg; ratio < TrapRatioRange[0] || ratio > TrapRatioRange[1] {
+				return p, &weather.InputError{Field: name(trap.c), Value: v,
+					Reason: fmt.Sprintf("is not plausible with et%.0f %s: the average speed to %.0f ft is %.1f mph, and a trap speed is %.2f..%.1f times that",
+						trap.ft, FormatSeconds(p.ET[timerIndex(trap.ft)].Decimal, 3), trap.ft, avg, TrapRatioRange[0], TrapRatioRange[1])}
+			}
+		}
+		*trap.dst = decimal.NewNullDecimal(d)
+	}
+	if err := parseConditions(&p, f, named); err != nil {
+		return p, err
+	}
+	if v := get("weight_lb"); v != "" {
+		w, err := strconv.ParseFloat(v, 64)
+		if f.Metric["weight_lb"] {
+			w /= weather.KgPerLb
+		}
+		if err != nil || !(w >= 500 && w <= 10000) {
+			return p, &weather.InputError{Field: name("weight_lb"), Value: v, Reason: "is outside 500..10000 lb (227..4536 kg)"}
+		}
+		p.WeightLb = w
+	}
+	p.Notes = get("notes")
+	return p, nil
+}
+
+// parseConditions reads the weather columns: all of temp, baro and humidity,
+// or none of them.
+func parseConditions(p *Pass, f SlipFields, named func(error, string) error) error {
+	get := func(c string) string { return f.Values[c] }
+	unit := func(c string, m, imp weather.TempUnit) weather.TempUnit {
+		if f.Metric[c] {
+			return m
+		}
+		return imp
+	}
+	given := 0
+	for _, c := range []string{"temp_f", "baro_inhg", "humidity_pct"} {
+		if get(c) != "" {
+			given++
+		}
+	}
+	if given > 0 && given < 3 {
+		for _, c := range []string{"temp_f", "baro_inhg", "humidity_pct"} {
+			if get(c) == "" {
+				return &weather.InputError{Field: c, Reason: "is blank while other weather columns are given (give temp, baro and humidity together, or none)"}
+			}
+		}
+	}
+	r := weather.Reading{Time: p.Time}
+	var err error
+	if given == 3 {
+		if r.Temp, err = weather.ParseTemperature(get("temp_f"), unit("temp_f", weather.DegC, weather.DegF)); err != nil {
+			return named(err, "temp_f")
+		}
+		pu := weather.UnitInHg
+		if f.Metric["baro_inhg"] {
+			pu = weather.UnitHPa
+		}
+		if r.Baro, err = weather.ParsePressure(get("baro_inhg"), pu); err != nil {
+			return named(err, "baro_inhg")
+		}
+		if r.RH, err = weather.ParsePercent(get("humidity_pct")); err != nil {
+			return named(err, "humidity_pct")
+		}
+		p.HasAir = true
+	}
+	if v := get("track_temp_f"); v != "" {
+		if r.TrackTemp, err = weather.ParseTemperature(v, unit("track_temp_f", weather.DegC, weather.DegF)); err != nil {
+			return named(err, "track_temp_f")
+		}
+		r.HasTrack = true
+	}
+	if v := get("wind_mph"); v != "" {
+		su := weather.UnitMPH
+		if f.Metric["wind_mph"] {
+			su = weather.UnitKMH
+		}
+		if r.Wind, err = weather.ParseSpeed(v, su); err != nil {
+			return named(err, "wind_mph")
+		}
+	}
+	if v := get("wind_from_deg"); v != "" {
+		if r.WindFrom, err = weather.ParseDirection(v); err != nil {
+			return named(err, "wind_from_deg")
+		}
+	}
+	check := r
+	if !p.HasAir { // only the optional fields to check
+		check.Temp, check.Baro, check.RH = weather.Fahrenheit(60), weather.InHg(29.92), 0
+	}
+	if err := check.Validate(0); err != nil {
+		var ie *weather.InputError
+		if errors.As(err, &ie) {
+			return ie.Named(logbookColumn(ie.Field, f))
+		}
+		return err
+	}
+	p.Air = r
+	return nil
+}
+
+// logbookColumn names, in logbook.csv's terms, a field Validate names in flag terms.
+func logbookColumn(field string, f SlipFields) string {
+	c := map[string]string{"temp": "temp_f", "baro": "baro_inhg", "humidity": "humidity_pct",
+		"wind": "wind_mph", "wind-from": "wind_from_deg", "track-temp": "track_temp_f"}[field]
+	if c == "" {
+		return field
+	}
+	if n := f.Names[c]; n != "" {
+		return n
+	}
+	return c
+}
+
+// WriteLogbook writes passes as logbook.csv with its header, in imperial
+// columns, times with the digits they were typed with.
+func WriteLogbook(w io.Writer, passes []Pass) error {
+	cw := csv.NewWriter(w)
+	if err := cw.Write(LogbookColumns); err != nil {
+		return err
+	}
+	for _, p := range passes {
+		cw.Write(passRecord(p))
+	}
+	cw.Flush()
+	return cw.Error()
+}
+
+func passRecord(p Pass) []string {
+	sec := func(d decimal.NullDecimal) string {
+		if !d.Valid {
+			return ""
+		}
+		return FormatSeconds(d.Decimal, 0)
+	}
+	num := func(v float64, dec int) string {
+		s := strconv.FormatFloat(v, 'f', dec, 64)
+		if strings.Contains(s, ".") {
+			s = strings.TrimRight(strings.TrimRight(s, "0"), ".")
+		}
+		return s
+	}
+	rec := []string{p.Time.Format(weather.DateLayout), p.Time.Format(weather.TimeLayout), p.Track, p.Session.String(), string(p.Lane),
+		sec(p.Dial), sec(p.RT)}
+	for i := range Timers {
+		rec = append(rec, sec(p.ET[i]))
+	}
+	rec = append(rec, sec(p.MPH660), sec(p.MPH1320))
+	if p.HasAir {
+		rec = append(rec, num(p.Air.Temp.Fahrenheit(), 2), num(p.Air.Baro.InHg(), 4), num(p.Air.RH*100, 2))
+	} else {
+		rec = append(rec, "", "", "")
+	}
+	track, wind, from, weight := "", "", "", ""
+	if p.Air.HasTrack {
+		track = num(p.Air.TrackTemp.Fahrenheit(), 2)
+	}
+	if p.Air.Wind > 0 || p.Air.WindFrom > 0 {
+		wind, from = num(p.Air.Wind.MPH(), 2), num(p.Air.WindFrom, 1)
+	}
+	if p.WeightLb > 0 {
+		weight = num(p.WeightLb, 1)
+	}
+	return append(rec, track, wind, from, weight, p.Notes)
+}
