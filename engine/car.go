@@ -56,7 +56,8 @@ type Car struct {
 	PeakRPM        float64   `yaml:"peak_rpm"`     // rpm of peak power
 	ShiftRPM       float64   `yaml:"shift_rpm"`
 	LaunchRPM      float64   `yaml:"launch_rpm"`
-	Tire           string    `yaml:"tire"` // street, radial or slick (radial)
+	Tire           string    `yaml:"tire"`         // street, radial or slick (radial)
+	Transmission   string    `yaml:"transmission"` // automatic (converter) or manual (automatic)
 
 	// Extra holds any other keys the crew adds; the rules see them.
 	Extra map[string]any `yaml:"-"`
@@ -165,6 +166,11 @@ func (c Car) Validate(file string) error {
 	}
 	if c.ShiftTimeS < 0 || c.ShiftTimeS > 1.5 {
 		return bad("shift_time_s", c.ShiftTimeS, "is outside 0..1.5 s")
+	}
+	switch strings.ToLower(c.Transmission) {
+	case "", "automatic", "manual":
+	default:
+		return bad("transmission", c.Transmission, "is not a transmission (automatic or manual)")
 	}
 	switch strings.ToLower(c.Tire) {
 	case "", "street", "radial", "slick":
