@@ -176,10 +176,10 @@ type Run struct {
 	// ClockStart is the time from first motion to the clock starting (the
 	// rollout), StartSpeed the speed then: the car is already moving.
 	ClockStart, StartSpeed float64
-	AvgG60  float64    // average acceleration over the first 60 ft, g
-	Power   float64    // wheel power available in this air, W
-	Mu      float64    // tire friction coefficient on this surface
-	Limited float64    // speed where traction stops limiting, m/s
+	AvgG60                 float64 // average acceleration over the first 60 ft, g
+	Power                  float64 // wheel power available in this air, W
+	Mu                     float64 // tire friction coefficient on this surface
+	Limited                float64 // speed where traction stops limiting, m/s
 }
 
 // ETAt is the simulated elapsed time at timer ft.
