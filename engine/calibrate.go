@@ -1,0 +1,406 @@
+package engine
+
+import (
+	"fmt"
+	"math"
+	"sort"
+	"strings"
+	"time"
+
+	"pitcard/weather"
+)
+
+// Calibration fits the physics model to the car's own logbook: a maximum a
+// posteriori fit of four parameters (effective power, traction, how power
+// follows the air, how traction falls on a hot track) by weighted least
+// squares of simulated against logged timers and traps, with car.yaml and
+// the induction type as the prior. A short logbook leans on the prior; a
+// long one on the car's history. Recent passes weigh more, passes at the
+// track of the day more than elsewhere.
+
+// Calibration settings.
+const (
+	// FitWindow is the most clean passes a fit uses (the most recent).
+	FitWindow = 40
+	// FitHalfLifeDays and FitHalfLifePasses set the recency weights of the
+	// fit: a pass's weight halves every 30 days and every 20 passes back.
+	FitHalfLifeDays   = 30.0
+	FitHalfLifePasses = 20.0
+	// OtherTrackWeight is the weight of a pass at another track.
+	OtherTrackWeight = 0.5
+	// OutlierMADs: a finish residual beyond this many robust deviations (and
+	// beyond OutlierFloor) is taken for an aborted or pedaled run.
+	OutlierMADs  = 4.0
+	OutlierFloor = 0.05 // s
+)
+
+// timerSigma is the scatter of a clean pass at each timer (s) and of a trap
+// speed (mph): the weights of the least squares (common practice for a
+// consistent bracket car, from memory).
+var timerSigma = [5]float64{0.012, 0.014, 0.016, 0.019, 0.022}
+
+const trapSigma = 0.6
+
+// prior of each parameter: centre from DefaultParams, spread here.
+var priorSD = Params{PowerScale: 0.25, TractionScale: 0.25, AirExponent: 0.25, TrackHot: 0.6}
+
+// Sample is one logged pass prepared for the fit.
+type Sample struct {
+	Pass   Pass
+	Env    Env
+	Obs    [5]float64 // logged ET at each timer, NaN where not timed
+	Trap   [2]float64 // logged trap speeds at 660 and 1320, NaN where not timed
+	Weight float64    // recency × track weight
+	Sim    Run        // the calibrated model's run in this pass's conditions
+}
+
+// Outlier is a pass the fit left out, and why.
+type Outlier struct {
+	Pass   Pass
+	Reason string
+}
+
+// Fit is a calibrated model of the car.
+type Fit struct {
+	Car      Car
+	Track    Track // the track of the day
+	Vehicle  Vehicle
+	Params   Params
+	Cov      [4][4]float64 // covariance of the parameters (power and traction as logs)
+	Samples  []Sample      // the clean passes it fitted, most recent first
+	Outliers []Outlier
+	Notes    []string // what the fit leaned on and assumed, in words
+	// PowerEstimated: car.yaml gave no power; it was estimated from the traps.
+	PowerEstimated bool
+	PowerHP        float64
+}
+
+// CalibrateInput is what a fit needs.
+type CalibrateInput struct {
+	Car    Car
+	Track  Track            // the track of the day
+	Tracks map[string]Track // other tracks the logbook names, by lower-case name
+	Passes []Pass
+	Now    time.Time // the time of the prediction: recency counts back from it
+}
+
+// Calibrate fits the car to its logbook.
+func Calibrate(in CalibrateInput) (Fit, error) {
+	f := Fit{Car: in.Car, Track: in.Track}
+	dist := in.Car.DistanceFt
+	var clean []Pass
+	for i := len(in.Passes) - 1; i >= 0; i-- {
+		p := in.Passes[i]
+		if p.Time.After(in.Now) {
+			continue
+		}
+		if _, ok := p.ETAt(dist); !ok {
+			continue
+		}
+		if Aborted(p.Notes) {
+			f.Outliers = append(f.Outliers, Outlier{p, "notes say \"" + p.Notes + "\""})
+			continue
+		}
+		if !p.HasAir {
+			continue
+		}
+		clean = append(clean, p)
+		if len(clean) == FitWindow {
+			break
+		}
+	}
+	f.PowerHP = in.Car.PowerHP
+	if f.PowerHP == 0 {
+		hp, note, err := EstimatePower(in.Car, in.Passes)
+		if err != nil {
+			return f, err
+		}
+		f.PowerHP, f.PowerEstimated = hp, true
+		f.Notes = append(f.Notes, note)
+	}
+	f.Vehicle = NewVehicle(in.Car, f.PowerHP)
+	f.Params = DefaultParams(in.Car.Induction)
+	for k := range f.Cov {
+		f.Cov[k][k] = sq(priorSD.at(k))
+	}
+	if len(clean) == 0 {
+		f.Notes = append(f.Notes, "no clean passes with their weather at this distance: physics from car.yaml alone")
+		return f, nil
+	}
+	f.Samples = make([]Sample, len(clean))
+	for i, p := range clean {
+		f.Samples[i] = f.sample(p, in, i)
+	}
+	f.fit()
+	// Leave out runs far from the rest (aborted, pedaled, a timing fault), refit.
+	res := make([]float64, len(f.Samples))
+	for i, s := range f.Samples {
+		res[i] = s.Obs[timerIndex(dist)] - s.Sim.ETAt(dist)
+	}
+	med := median(res)
+	dev := make([]float64, len(res))
+	for i, r := range res {
+		dev[i] = math.Abs(r - med)
+	}
+	limit := math.Max(OutlierMADs*1.4826*median(dev), OutlierFloor)
+	kept := f.Samples[:0:0]
+	for i, s := range f.Samples {
+		if dev[i] > limit {
+			f.Outliers = append(f.Outliers, Outlier{s.Pass, fmt.Sprintf("%+.3f s from the model, beyond the %.3f s the rest scatter within", res[i], limit)})
+			continue
+		}
+		kept = append(kept, s)
+	}
+	if len(kept) < len(f.Samples) && len(kept) > 0 {
+		f.Samples = kept
+		f.fit()
+	}
+	sort.SliceStable(f.Outliers, func(i, j int) bool { return f.Outliers[i].Pass.Time.After(f.Outliers[j].Pass.Time) })
+	return f, nil
+}
+
+func (f *Fit) sample(p Pass, in CalibrateInput, rank int) Sample {
+	trk := in.Track
+	weight := 1.0
+	if !strings.EqualFold(p.Track, in.Track.Name) {
+		weight = OtherTrackWeight
+		trk = Track{Name: p.Track, Prep: "full"}
+		if t, ok := in.Tracks[strings.ToLower(p.Track)]; ok {
+			trk = t
+		}
+	}
+	prep, err := ParsePrep(trk.Prep)
+	if err != nil {
+		prep = 1
+	}
+	mass := in.Car.WeightLb * weather.KgPerLb
+	if p.WeightLb > 0 {
+		mass = p.WeightLb * weather.KgPerLb
+	}
+	age := in.Now.Sub(p.Time).Hours() / 24
+	weight *= math.Pow(0.5, age/FitHalfLifeDays) * math.Pow(0.5, float64(rank)/FitHalfLifePasses)
+	s := Sample{Pass: p, Env: NewEnv(p.Air, trk.HeadingDeg, prep, mass), Weight: weight}
+	for i := range Timers {
+		s.Obs[i] = math.NaN()
+		if et, ok := p.ETAt(Timers[i]); ok && Timers[i] <= in.Car.DistanceFt {
+			s.Obs[i] = et
+		}
+	}
+	s.Trap = [2]float64{math.NaN(), math.NaN()}
+	if p.MPH660.Valid {
+		s.Trap[0] = p.MPH660.Decimal.InexactFloat64()
+	}
+	if p.MPH1320.Valid && in.Car.DistanceFt >= 1320 {
+		s.Trap[1] = p.MPH1320.Decimal.InexactFloat64()
+	}
+	return s
+}
+
+// The fit works on θ = (ln power scale, ln traction scale, air exponent,
+// hot-track scale).
+type theta [4]float64
+
+func (p Params) theta() theta {
+	return theta{math.Log(p.PowerScale), math.Log(p.TractionScale), p.AirExponent, p.TrackHot}
+}
+
+func (t theta) params() Params {
+	c := func(v, lo, hi float64) float64 { return math.Max(lo, math.Min(hi, v)) }
+	return Params{PowerScale: math.Exp(c(t[0], -1.2, 1.2)), TractionScale: math.Exp(c(t[1], -1.2, 1.2)),
+		AirExponent: c(t[2], -0.5, 2), TrackHot: c(t[3], 0, 5)}
+}
+
+func (p Params) at(k int) float64 {
+	return [4]float64{p.PowerScale, p.TractionScale, p.AirExponent, p.TrackHot}[k]
+}
+
+func sq(x float64) float64 { return x * x }
+
+// residuals are the weighted residuals of every sample and the prior rows.
+func (f *Fit) residuals(th theta, runs []Run) []float64 {
+	p := th.params()
+	prior := DefaultParams(f.Car.Induction).theta()
+	var r []float64
+	for i := range f.Samples {
+		s := &f.Samples[i]
+		run := Simulate(&f.Vehicle, p, s.Env, f.Car.DistanceFt)
+		if runs != nil {
+			runs[i] = run
+		}
+		w := math.Sqrt(s.Weight)
+		for j := range Timers {
+			if !math.IsNaN(s.Obs[j]) {
+				r = append(r, w*(run.ET[j]-s.Obs[j])/timerSigma[j])
+			}
+		}
+		for j, sim := range [2]float64{run.MPH660, run.MPH1320} {
+			if !math.IsNaN(s.Trap[j]) {
+				r = append(r, w*(sim-s.Trap[j])/trapSigma)
+			}
+		}
+	}
+	for k := range th {
+		r = append(r, (th[k]-prior[k])/priorSD.at(k))
+	}
+	return r
+}
+
+// fit runs Levenberg–Marquardt from the current parameters.
+func (f *Fit) fit() {
+	th := f.Params.theta()
+	runs := make([]Run, len(f.Samples))
+	r := f.residuals(th, runs)
+	cost := dot(r, r)
+	lambda := 1e-3
+	var jtj [4][4]float64
+	for iter := 0; iter < 12; iter++ {
+		// Jacobian by forward differences.
+		var jac [4][]float64
+		for k := range th {
+			h := 1e-4
+			t2 := th
+			t2[k] += h
+			rk := f.residuals(t2, nil)
+			jac[k] = make([]float64, len(r))
+			for i := range r {
+				jac[k][i] = (rk[i] - r[i]) / h
+			}
+		}
+		var g [4]float64
+		for a := range 4 {
+			g[a] = dot(jac[a], r)
+			for b := range 4 {
+				jtj[a][b] = dot(jac[a], jac[b])
+			}
+		}
+		improved := false
+		for try := 0; try < 8; try++ {
+			var m [4][4]float64
+			var rhs [4]float64
+			for a := range 4 {
+				for b := range 4 {
+					m[a][b] = jtj[a][b]
+				}
+				m[a][a] *= 1 + lambda
+				rhs[a] = -g[a]
+			}
+			step, ok := solve4(m, rhs)
+			if !ok {
+				lambda *= 10
+				continue
+			}
+			t2 := th
+			for k := range th {
+				t2[k] += step[k]
+			}
+			t2 = t2.params().theta() // clamp to bounds
+			r2 := f.residuals(t2, nil)
+			if c2 := dot(r2, r2); c2 < cost {
+				small := math.Abs(cost-c2) < 1e-6*cost
+				th, r, cost = t2, r2, c2
+				lambda = math.Max(lambda/10, 1e-7)
+				improved = true
+				if small {
+					iter = 99
+				}
+				break
+			}
+			lambda *= 10
+		}
+		if !improved {
+			break
+		}
+	}
+	f.Params = th.params()
+	f.residuals(th, runs)
+	for i := range f.Samples {
+		f.Samples[i].Sim = runs[i]
+	}
+	if inv, ok := invert4(jtj); ok {
+		f.Cov = inv
+	}
+}
+
+func dot(a, b []float64) float64 {
+	var s float64
+	for i := range a {
+		s += a[i] * b[i]
+	}
+	return s
+}
+
+// solve4 solves m·x = b by Gaussian elimination with partial pivoting.
+func solve4(m [4][4]float64, b [4]float64) ([4]float64, bool) {
+	for c := range 4 {
+		p := c
+		for r := c + 1; r < 4; r++ {
+			if math.Abs(m[r][c]) > math.Abs(m[p][c]) {
+				p = r
+			}
+		}
+		if math.Abs(m[p][c]) < 1e-300 {
+			return b, false
+		}
+		m[c], m[p] = m[p], m[c]
+		b[c], b[p] = b[p], b[c]
+		for r := c + 1; r < 4; r++ {
+			k := m[r][c] / m[c][c]
+			for cc := c; cc < 4; cc++ {
+				m[r][cc] -= k * m[c][cc]
+			}
+			b[r] -= k * b[c]
+		}
+	}
+	var x [4]float64
+	for r := 3; r >= 0; r-- {
+		s := b[r]
+		for c := r + 1; c < 4; c++ {
+			s -= m[r][c] * x[c]
+		}
+		x[r] = s / m[r][r]
+	}
+	return x, true
+}
+
+func invert4(m [4][4]float64) ([4][4]float64, bool) {
+	var inv [4][4]float64
+	for c := range 4 {
+		var e [4]float64
+		e[c] = 1
+		x, ok := solve4(m, e)
+		if !ok {
+			return inv, false
+		}
+		for r := range 4 {
+			inv[r][c] = x[r]
+		}
+	}
+	return inv, true
+}
+
+// EstimatePower estimates a car's flywheel power from its trap speeds with
+// the power-weight relations of the trade (MPH = K·(P/W)^⅓, K = 224
+// Huntington 1958, 230 Fox 1973, 234 a later fit; pitcard takes their mean,
+// 229.3): P = W·(MPH/K)³. It uses the median quarter trap of the clean passes
+// (or the eighth trap × 1.25, common practice).
+func EstimatePower(c Car, passes []Pass) (float64, string, error) {
+	const k = (224 + 230 + 234) / 3.0
+	var traps []float64
+	for _, p := range passes {
+		if Aborted(p.Notes) {
+			continue
+		}
+		switch {
+		case p.MPH1320.Valid:
+			traps = append(traps, p.MPH1320.Decimal.InexactFloat64())
+		case p.MPH660.Valid:
+			traps = append(traps, 1.25*p.MPH660.Decimal.InexactFloat64())
+		}
+	}
+	if len(traps) == 0 {
+		return 0, "", &weather.InputError{Field: "power_hp", Reason: "is missing from car.yaml and the logbook has no trap speeds to estimate it from: give the car's power"}
+	}
+	mph := median(traps)
+	hp := c.WeightLb * math.Pow(mph/k, 3)
+	return hp, fmt.Sprintf("car.yaml gives no power: %.0f hp estimated from the median trap of %d passes (%.1f mph) by the power-weight relations (Huntington, Fox)", hp, len(traps), mph), nil
+}

@@ -1,0 +1,362 @@
+package engine
+
+import (
+	"fmt"
+	"math"
+	"sort"
+	"strings"
+	"time"
+
+	"pitcard/weather"
+)
+
+// Prediction: the calibrated model run in the conditions of the next pass,
+// corrected by the car's recent residuals (what the model has got wrong
+// lately: the car today, the track today), each recent pass thereby
+// "carried" to today's conditions. The interval comes from the spread of
+// those residuals, widened by the parameters' uncertainty and by how far
+// today's air and track lie outside what the logbook has seen.
+
+// Prediction settings.
+const (
+	// BiasHalfLifePasses: the residual correction leans on the last few
+	// passes, halving a pass's weight every 6 passes back and every 14 days.
+	BiasHalfLifePasses = 6.0
+	BiasHalfLifeDays   = 14.0
+	// SameDayWeight multiplies the weight of a pass run earlier the same day.
+	SameDayWeight = 2.0
+	// IntervalZ is the interval's half-width in standard deviations: a 95 %
+	// interval of a normal spread.
+	IntervalZ = 1.96
+	// PhysicsOnlySpread is the relative spread (one standard deviation) of a
+	// prediction from car.yaml alone: a model that has never seen the car
+	// can be off by several percent.
+	PhysicsOnlySpread = 0.03
+	// ExtrapolationShare: the part of a correction beyond the conditions the
+	// logbook has seen is taken as uncertain by this share.
+	ExtrapolationShare = 0.25
+)
+
+// Timer is the prediction at one timer.
+type Timer struct {
+	DistanceFt     float64
+	ET, SD         float64 // s
+	Low, High      float64 // the 95 % interval, s
+	PhysicsOnly    float64 // the calibrated model alone, before the residual correction
+	ResidualSpread float64
+}
+
+// Trap is the prediction of one trap speed.
+type Trap struct {
+	DistanceFt float64
+	MPH, SD    float64
+	Low, High  float64
+}
+
+// Leaned is a pass the prediction leaned on.
+type Leaned struct {
+	Pass    Pass
+	Share   float64 // its share of the residual correction, 0..1
+	Carried float64 // its finish ET carried to today's conditions, s
+	ET      float64 // its logged finish ET, s
+}
+
+// Sensitivity is what a change of conditions is worth to this car today, in
+// seconds of finish ET (positive: slower) and mph of trap speed.
+type Sensitivity struct {
+	PerKDA, PerKDAMPH             float64 // per 1000 ft more density altitude
+	Per10FTrack                   float64 // per 10 °F hotter track
+	Per10Headwind, Per10HeadMPH   float64 // per 10 mph more headwind
+	Per10FAir                     float64 // per 10 °F warmer air (same pressure and dew point)
+	Sixty10FTrack                 float64 // 60-ft time per 10 °F hotter track
+	DAFeet, TrackF, HeadwindMPH   float64 // today's values the sensitivities are taken at
+	SeenDALo, SeenDAHi            float64 // density altitudes of the passes leaned on, ft
+	SeenTrackLo, SeenTrackHi      float64 // their track temperatures, °F
+	ExtrapolatedDA, ExtrapolatedT float64 // how far today lies outside them (ft, °F)
+}
+
+// Prediction is the predicted next pass.
+type Prediction struct {
+	Distance    float64
+	Timers      []Timer
+	Traps       []Trap
+	Model       Run // the calibrated model in today's conditions
+	Env         Env
+	Air         weather.Reading
+	Params      Params
+	Leaned      []Leaned // most-leaned-on first
+	Outliers    []Outlier
+	PhysicsOnly bool // no pass to calibrate to
+	Sensitivity Sensitivity
+	Notes       []string
+}
+
+// Finish is the prediction at the finish line.
+func (p Prediction) Finish() Timer { return p.Timers[len(p.Timers)-1] }
+
+// Estimate is the finish prediction as a dial-in estimate.
+func (p Prediction) Estimate() Estimate {
+	f := p.Finish()
+	basis := "the pass model"
+	switch {
+	case p.PhysicsOnly:
+		basis = "physics from car.yaml alone (no logbook passes to calibrate to: wide interval)"
+	case len(p.Leaned) > 0:
+		basis = fmt.Sprintf("the pass model calibrated to %d passes, corrected by the recent ones", len(p.Leaned))
+	}
+	return Estimate{ET: f.ET, SD: f.SD, Basis: basis}
+}
+
+// PredictInput is the conditions of the next pass.
+type PredictInput struct {
+	Air      weather.Reading // the air and track of the pass (station pressure)
+	Prep     float64         // prep level of the surface, 0 none .. 1 full
+	WeightLb float64         // 0: car.yaml's
+	Time     time.Time       // when the pass will run
+}
+
+// Predict predicts every timer and trap of the next pass from fit.
+func Predict(f Fit, in PredictInput) Prediction {
+	mass := f.Car.WeightLb * weather.KgPerLb
+	if in.WeightLb > 0 {
+		mass = in.WeightLb * weather.KgPerLb
+	}
+	env := NewEnv(in.Air, f.Track.HeadingDeg, in.Prep, mass)
+	dist := f.Car.DistanceFt
+	model := Simulate(&f.Vehicle, f.Params, env, dist)
+	pr := Prediction{Distance: dist, Model: model, Env: env, Air: in.Air, Params: f.Params, Outliers: f.Outliers}
+	pr.Notes = append(pr.Notes, f.Notes...)
+	if !in.Air.HasTrack {
+		pr.Notes = append(pr.Notes, "track temperature not read: taken as the air plus 10 °F")
+	}
+	pr.Sensitivity = sensitivity(f, in, env, model)
+	timers := TimersFor(dist)
+
+	if len(f.Samples) == 0 {
+		pr.PhysicsOnly = true
+		for _, ft := range timers {
+			et := model.ETAt(ft)
+			sd := PhysicsOnlySpread * et
+			pr.Timers = append(pr.Timers, Timer{DistanceFt: ft, ET: et, SD: sd, Low: et - IntervalZ*sd, High: et + IntervalZ*sd, PhysicsOnly: et})
+		}
+		for j, ft := range []float64{660, 1320} {
+			if ft <= dist {
+				mph := []float64{model.MPH660, model.MPH1320}[j]
+				sd := PhysicsOnlySpread * mph
+				pr.Traps = append(pr.Traps, Trap{DistanceFt: ft, MPH: mph, SD: sd, Low: mph - IntervalZ*sd, High: mph + IntervalZ*sd})
+			}
+		}
+		return pr
+	}
+
+	// Weights of the residual correction.
+	w := make([]float64, len(f.Samples))
+	var wsum, w2 float64
+	for i, s := range f.Samples {
+		age := in.Time.Sub(s.Pass.Time).Hours() / 24
+		w[i] = math.Pow(0.5, float64(i)/BiasHalfLifePasses) * math.Pow(0.5, math.Max(age, 0)/BiasHalfLifeDays)
+		if sameDay(s.Pass.Time, in.Time) {
+			w[i] *= SameDayWeight
+		}
+		if !strings.EqualFold(s.Pass.Track, f.Track.Name) {
+			w[i] *= OtherTrackWeight
+		}
+		wsum += w[i]
+	}
+	for i := range w {
+		w[i] /= wsum
+		w2 += w[i] * w[i]
+	}
+	kEff := 1 / w2
+	extra := extrapolation(pr.Sensitivity)
+	paramSD := parameterSpread(f, env, w)
+
+	for _, ft := range timers {
+		j := timerIndex(ft)
+		bias, resSD := weightedResiduals(f.Samples, w, func(s Sample) (float64, bool) {
+			return s.Obs[j] - s.Sim.ET[j], !math.IsNaN(s.Obs[j])
+		})
+		et := model.ET[j] + bias
+		scale := et / model.ETAt(dist) // extrapolation and parameters scale with the ET
+		sd := math.Sqrt(sq(resSD)*(1+1/kEff) + sq(paramSD*scale) + sq(extra*scale))
+		pr.Timers = append(pr.Timers, Timer{DistanceFt: ft, ET: et, SD: sd, Low: et - IntervalZ*sd, High: et + IntervalZ*sd,
+			PhysicsOnly: model.ET[j], ResidualSpread: resSD})
+	}
+	for j, ft := range []float64{660, 1320} {
+		if ft > dist {
+			continue
+		}
+		sim := []float64{model.MPH660, model.MPH1320}[j]
+		bias, resSD := weightedResiduals(f.Samples, w, func(s Sample) (float64, bool) {
+			return s.Trap[j] - []float64{s.Sim.MPH660, s.Sim.MPH1320}[j], !math.IsNaN(s.Trap[j])
+		})
+		mph := sim + bias
+		rel := (paramSD + extra) / pr.Finish().ET // the ET's relative model uncertainty, carried to the speed
+		sd := math.Sqrt(sq(resSD)*(1+1/kEff) + sq(mph*rel))
+		pr.Traps = append(pr.Traps, Trap{DistanceFt: ft, MPH: mph, SD: sd, Low: mph - IntervalZ*sd, High: mph + IntervalZ*sd})
+	}
+	fj := timerIndex(dist)
+	for i, s := range f.Samples {
+		pr.Leaned = append(pr.Leaned, Leaned{Pass: s.Pass, Share: w[i], ET: s.Obs[fj], Carried: s.Obs[fj] + model.ET[fj] - s.Sim.ET[fj]})
+	}
+	sort.SliceStable(pr.Leaned, func(a, b int) bool { return pr.Leaned[a].Share > pr.Leaned[b].Share })
+	pr.Notes = append(pr.Notes, fmt.Sprintf("calibrated to %d clean passes (%s to %s); the correction leans on the last few (%.1f passes' worth)",
+		len(f.Samples), f.Samples[len(f.Samples)-1].Pass.Time.Format("2006-01-02"), f.Samples[0].Pass.Time.Format("2006-01-02"), kEff))
+	if extra > 0.0005 {
+		pr.Notes = append(pr.Notes, fmt.Sprintf("today lies outside the conditions of the passes leaned on (%s): the interval is widened by %.3f s",
+			outsideText(pr.Sensitivity), extra))
+	}
+	return pr
+}
+
+func sameDay(a, b time.Time) bool {
+	ya, ma, da := a.Date()
+	yb, mb, db := b.Date()
+	return ya == yb && ma == mb && da == db
+}
+
+// weightedResiduals is the weighted mean and spread of a residual over the
+// samples that have it.
+func weightedResiduals(ss []Sample, w []float64, res func(Sample) (float64, bool)) (float64, float64) {
+	var sw, mean float64
+	var vals, ws []float64
+	for i, s := range ss {
+		if r, ok := res(s); ok {
+			vals, ws = append(vals, r), append(ws, w[i])
+			sw += w[i]
+			mean += w[i] * r
+		}
+	}
+	if sw == 0 {
+		return 0, 0
+	}
+	mean /= sw
+	// the spread: unweighted over all the samples (each pass's own scatter), at least MinSD
+	var ss2 float64
+	for _, r := range vals {
+		ss2 += sq(r - mean)
+	}
+	sd := MinSD
+	if len(vals) > 1 {
+		sd = math.Max(math.Sqrt(ss2/float64(len(vals)-1)), MinSD)
+	} else {
+		sd = math.Max(sd, 0.03)
+	}
+	return mean, sd
+}
+
+// parameterSpread is one standard deviation of the finish ET from the
+// parameters' uncertainty. The prediction is Σ wᵢ·loggedᵢ + (model today −
+// Σ wᵢ·modelᵢ): only the model's change from the passes' conditions to
+// today's depends on the parameters, so its gradient goes through the fit's
+// covariance.
+func parameterSpread(f Fit, env Env, w []float64) float64 {
+	dist := f.Car.DistanceFt
+	change := func(p Params) float64 {
+		d := Simulate(&f.Vehicle, p, env, dist).ETAt(dist)
+		for i, s := range f.Samples {
+			d -= w[i] * Simulate(&f.Vehicle, p, s.Env, dist).ETAt(dist)
+		}
+		return d
+	}
+	th := f.Params.theta()
+	base := change(f.Params)
+	var g [4]float64
+	for k := range th {
+		t2 := th
+		t2[k] += 1e-4
+		g[k] = (change(t2.params()) - base) / 1e-4
+	}
+	var v float64
+	for a := range 4 {
+		for b := range 4 {
+			v += g[a] * f.Cov[a][b] * g[b]
+		}
+	}
+	return math.Sqrt(math.Max(v, 0))
+}
+
+// sensitivity finite-differences the calibrated model in today's conditions.
+func sensitivity(f Fit, in PredictInput, env Env, model Run) Sensitivity {
+	dist := f.Car.DistanceFt
+	run := func(r weather.Reading) Run {
+		e := NewEnv(r, f.Track.HeadingDeg, in.Prep, env.MassKg)
+		return Simulate(&f.Vehicle, f.Params, e, dist)
+	}
+	et := model.ETAt(dist)
+	trapOf := func(r Run) float64 {
+		if dist >= 1320 {
+			return r.MPH1320
+		}
+		return r.MPH660
+	}
+	s := Sensitivity{DAFeet: in.Air.Derive(0).DensityAltitude.Feet(), TrackF: env.TrackTemp.Fahrenheit(),
+		HeadwindMPH: weather.Speed(env.Headwind).MPH()}
+	da := ThinnerAir(in.Air, 1000)
+	rda := run(da)
+	s.PerKDA, s.PerKDAMPH = rda.ETAt(dist)-et, trapOf(rda)-trapOf(model)
+	hot := in.Air
+	hot.TrackTemp, hot.HasTrack = weather.Fahrenheit(env.TrackTemp.Fahrenheit()+10), true
+	rh := run(hot)
+	s.Per10FTrack, s.Sixty10FTrack = rh.ETAt(dist)-et, rh.ET[0]-model.ET[0]
+	e2 := env
+	e2.Headwind += weather.MPH(10).MPS()
+	rw := Simulate(&f.Vehicle, f.Params, e2, dist)
+	s.Per10Headwind, s.Per10HeadMPH = rw.ETAt(dist)-et, trapOf(rw)-trapOf(model)
+	warm := in.Air
+	a := in.Air.Derive(0)
+	warm.Temp, warm.DewPointSet, warm.DewPoint = weather.Fahrenheit(in.Air.Temp.Fahrenheit()+10), true, a.DewPoint
+	if !in.Air.HasTrack {
+		warm.TrackTemp, warm.HasTrack = env.TrackTemp, true // the same surface
+	}
+	s.Per10FAir = run(warm).ETAt(dist) - et
+	// the conditions the passes covered
+	s.SeenDALo, s.SeenDAHi, s.SeenTrackLo, s.SeenTrackHi = math.Inf(1), math.Inf(-1), math.Inf(1), math.Inf(-1)
+	for _, sm := range f.Samples {
+		d := sm.Pass.Air.Derive(0).DensityAltitude.Feet()
+		t := sm.Env.TrackTemp.Fahrenheit()
+		s.SeenDALo, s.SeenDAHi = math.Min(s.SeenDALo, d), math.Max(s.SeenDAHi, d)
+		s.SeenTrackLo, s.SeenTrackHi = math.Min(s.SeenTrackLo, t), math.Max(s.SeenTrackHi, t)
+	}
+	if len(f.Samples) > 0 {
+		s.ExtrapolatedDA = math.Max(0, math.Max(s.DAFeet-s.SeenDAHi, s.SeenDALo-s.DAFeet))
+		s.ExtrapolatedT = math.Max(0, math.Max(s.TrackF-s.SeenTrackHi, s.SeenTrackLo-s.TrackF))
+	}
+	return s
+}
+
+// extrapolation is the extra spread, s, for conditions beyond those seen.
+func extrapolation(s Sensitivity) float64 {
+	return ExtrapolationShare * math.Hypot(s.PerKDA*s.ExtrapolatedDA/1000, s.Per10FTrack*s.ExtrapolatedT/10)
+}
+
+func outsideText(s Sensitivity) string {
+	var parts []string
+	if s.ExtrapolatedDA > 0 {
+		parts = append(parts, fmt.Sprintf("density altitude %.0f ft, %.0f ft beyond %.0f..%.0f", s.DAFeet, s.ExtrapolatedDA, s.SeenDALo, s.SeenDAHi))
+	}
+	if s.ExtrapolatedT > 0 {
+		parts = append(parts, fmt.Sprintf("track %.0f °F, %.0f °F beyond %.0f..%.0f", s.TrackF, s.ExtrapolatedT, s.SeenTrackLo, s.SeenTrackHi))
+	}
+	return strings.Join(parts, "; ")
+}
+
+// ThinnerAir is reading r with its station pressure lowered (or raised, for
+// a negative dDA) until the density altitude is dDA feet higher, at the same
+// temperature and humidity.
+func ThinnerAir(r weather.Reading, dDA float64) weather.Reading {
+	target := r.Derive(0).DensityAltitude.Feet() + dDA
+	lo, hi := r.Baro*0.5, r.Baro*1.5
+	for range 50 {
+		mid := (lo + hi) / 2
+		x := r
+		x.Baro = mid
+		if x.Derive(0).DensityAltitude.Feet() > target {
+			lo = mid
+		} else {
+			hi = mid
+		}
+	}
+	r.Baro = (lo + hi) / 2
+	return r
+}
