@@ -15,6 +15,8 @@ import (
 type dialOptions struct {
 	g      *globalOptions
 	s      *IOStreams
+	cond   conditionFlags
+	Prep   string
 	ET, SD string
 	Last   int
 	Rows   int
@@ -31,13 +33,17 @@ chance of breaking out and the time expected to be given away, and recommends
 the slowest dial whose breakout chance is within the risk the crew accepts
 (setting breakout_risk, default 0.10 = 10 %).
 
-The prediction is --et with its spread --sd (one standard deviation), or,
-without them, the car's recent clean passes in the logbook at the distance
-raced (car.yaml), not corrected for the air.`,
-		Example: "  pitcard dial\n  pitcard dial --et 11.52 --sd 0.025 --breakout-risk 0.05\n  pitcard dial --demo --format json",
+The prediction is the pass model's (see 'pitcard predict') in the air given by
+the reading flags, --latest or --at, or by default the weather log's last
+reading; --et with its spread --sd (one standard deviation) overrides it.
+With no weather at all, it falls back to the mean of the car's recent clean
+passes at the distance raced, not corrected for the air, and says so.`,
+		Example: "  pitcard dial --at 21:40\n  pitcard dial --et 11.52 --sd 0.025 --breakout-risk 0.05\n  pitcard dial --demo --format json",
 		Args:    cobra.NoArgs,
 		RunE:    func(cmd *cobra.Command, _ []string) error { return dialRun(cmd, o) },
 	}
+	o.cond.bind(cmd)
+	cmd.Flags().StringVar(&o.Prep, "prep", "", "track prep today: none, light, full or 0..1 (default: track.yaml's)")
 	cmd.Flags().StringVar(&o.ET, "et", "", "predicted ET, s")
 	cmd.Flags().StringVar(&o.SD, "sd", "", "its spread, one standard deviation, s")
 	cmd.Flags().IntVar(&o.Last, "last", 10, "clean passes to use from the logbook")
@@ -92,6 +98,26 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 		}
 		est = engine.Estimate{ET: et, SD: sd, Basis: "the --et and --sd given"}
 	default:
+		useModel := o.cond.given() || o.cond.Latest || o.cond.At != "" || e.Demo
+		if !useModel {
+			if elev, _, err := siteElevation(e, &o.cond.readingFlags); err == nil {
+				if log, err := e.weatherLog(elev); err == nil && len(log) > 0 {
+					o.cond.Latest, useModel = true, true
+				}
+			}
+		}
+		if useModel {
+			n, err := forecastNext(e, o.cond, o.Prep, "", o.s.Now())
+			if err != nil {
+				return err
+			}
+			for _, w := range n.Cond.Warnings {
+				fmt.Fprintln(o.s.Err, "pitcard: warning:", w)
+			}
+			est = n.Pred.Estimate()
+			est.Basis += ", in " + n.Cond.Source
+			break
+		}
 		car, err := e.car()
 		if err != nil {
 			return err

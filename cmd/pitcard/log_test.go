@@ -163,7 +163,12 @@ func TestDialFromLogbook(t *testing.T) {
 		t.Fatal(err)
 	}
 	if !strings.Contains(j.Basis, "last 10 clean passes") || len(j.Options) != 11 || j.Risk != 0.10 {
-		t.Errorf("dial %+v", j)
+		t.Errorf("dial without weather %+v", j)
+	}
+	// with the weather, the pass model
+	_ = json.Unmarshal([]byte(mustRun(t, "dial", "--dir", dir, "--temp", "84F", "--baro", "28.95inHg", "--humidity", "40%", "--format", "json")), &j)
+	if !strings.Contains(j.Basis, "pass model calibrated to 20 passes") {
+		t.Errorf("dial with weather %+v", j)
 	}
 	text := mustRun(t, "dial", "--dir", dir, "--et", "11.5", "--sd", "0.03", "--breakout-risk", "0.05", "--dial-step", "0.001")
 	if !strings.Contains(text, "Recommended dial: 11.450") {

@@ -63,6 +63,7 @@ Try it on the built-in demo event first: pitcard air --demo`,
 		newLogCmd(s, g),
 		newRaceCmd(s, g),
 		newDialCmd(s, g),
+		newPredictCmd(s, g),
 	)
 	return root
 }
@@ -91,6 +92,21 @@ type eventFolder struct {
 	FS       fs.FS
 	Demo     bool
 	Settings settings
+	// Files given by flags (--car, --track, --logbook) in place of the folder's.
+	CarPath, TrackPath, LogbookPath string
+}
+
+// openFile opens a folder file, or the file a flag named in its place.
+func (e *eventFolder) openFile(file, override string) (fs.File, string, error) {
+	if override != "" {
+		f, err := os.Open(override)
+		if err != nil {
+			return nil, override, userErrf("cannot read %s: %v", override, errors.Unwrap(err))
+		}
+		return f, override, nil
+	}
+	f, err := e.FS.Open(file)
+	return f, e.name(file), err
 }
 
 // name is how messages refer to a file of the folder.
@@ -202,33 +218,33 @@ func checkSettingsKeys(data []byte, name string) error {
 
 // track reads the folder's track.yaml.
 func (e *eventFolder) track() (engine.Track, error) {
-	f, err := e.FS.Open(event.TrackFile)
+	f, name, err := e.openFile(event.TrackFile, e.TrackPath)
 	if err != nil {
 		if errors.Is(err, fs.ErrNotExist) {
-			return engine.Track{}, userErrf("%s is missing: pitcard needs the track's elevation (create the folder with 'pitcard init')", e.name(event.TrackFile))
+			return engine.Track{}, userErrf("%s is missing: pitcard needs the track's elevation (create the folder with 'pitcard init')", name)
 		}
 		return engine.Track{}, err
 	}
 	defer f.Close()
-	return engine.ReadTrack(f, e.name(event.TrackFile))
+	return engine.ReadTrack(f, name)
 }
 
 // car reads the folder's car.yaml.
 func (e *eventFolder) car() (engine.Car, error) {
-	f, err := e.FS.Open(event.CarFile)
+	f, name, err := e.openFile(event.CarFile, e.CarPath)
 	if err != nil {
 		if errors.Is(err, fs.ErrNotExist) {
-			return engine.Car{}, userErrf("%s is missing: pitcard needs the car's weight, power, induction and distance (create the folder with 'pitcard init')", e.name(event.CarFile))
+			return engine.Car{}, userErrf("%s is missing: pitcard needs the car's weight, power, induction and distance (create the folder with 'pitcard init')", name)
 		}
 		return engine.Car{}, err
 	}
 	defer f.Close()
-	return engine.ReadCar(f, e.name(event.CarFile))
+	return engine.ReadCar(f, name)
 }
 
 // logbook reads the folder's logbook.csv (none yet: an empty logbook).
 func (e *eventFolder) logbook() ([]engine.Pass, error) {
-	f, err := e.FS.Open(event.LogbookFile)
+	f, name, err := e.openFile(event.LogbookFile, e.LogbookPath)
 	if errors.Is(err, fs.ErrNotExist) {
 		return nil, nil
 	}
@@ -236,7 +252,7 @@ func (e *eventFolder) logbook() ([]engine.Pass, error) {
 		return nil, err
 	}
 	defer f.Close()
-	return engine.ReadLogbook(f, e.name(event.LogbookFile), time.Local)
+	return engine.ReadLogbook(f, name, time.Local)
 }
 
 // checkFormat refuses a --format the command does not print.

@@ -1,0 +1,150 @@
+package main
+
+import (
+	"errors"
+	"fmt"
+	"io/fs"
+	"path"
+	"strings"
+	"time"
+
+	"github.com/spf13/cobra"
+
+	"pitcard/engine"
+	"pitcard/event"
+	"pitcard/weather"
+)
+
+// conditionFlags choose the air of a command: reading flags, --latest (the
+// weather log's last reading, flags replacing its fields) or --at (the log's
+// forecast for a time, flags replacing its fields).
+type conditionFlags struct {
+	readingFlags
+	Latest bool
+	At     string
+}
+
+func (c *conditionFlags) bind(cmd *cobra.Command) {
+	c.readingFlags.bind(cmd)
+	cmd.Flags().BoolVar(&c.Latest, "latest", false, "use the weather log's last reading")
+	cmd.Flags().StringVar(&c.At, "at", "", "use the weather log's forecast for this time, HH:MM")
+}
+
+// conditions are the resolved air of a command.
+type conditions struct {
+	Reading   weather.Reading
+	Elevation weather.Length
+	Track     engine.Track
+	HaveTrack bool
+	Source    string            // where the air came from, in words
+	Forecast  *weather.Forecast // with --at
+	Warnings  []string
+}
+
+// resolve turns the flags into the air of the command. The demo with no
+// reading flags takes the demo day's last reading.
+func (c *conditionFlags) resolve(e *eventFolder, now time.Time) (conditions, error) {
+	var out conditions
+	trk, err := e.track()
+	switch {
+	case err == nil:
+		out.Track, out.HaveTrack = trk, true
+	case c.Elevation == "":
+		return out, err
+	}
+	if out.Elevation, err = c.elevation(e.Settings.Units, trk.Elevation(), out.HaveTrack); err != nil {
+		return out, err
+	}
+	if c.Latest && c.At != "" {
+		return out, userErrf("give --latest or --at, not both")
+	}
+	var base *weather.Reading
+	if c.Latest || c.At != "" || (e.Demo && !c.given()) {
+		log, err := e.weatherLog(out.Elevation)
+		if err != nil {
+			return out, err
+		}
+		if len(log) == 0 {
+			return out, userErrf("%s has no readings: add one with 'pitcard weather add', or give the reading flags", e.name(event.WeatherFile))
+		}
+		last := log[len(log)-1]
+		if c.At != "" {
+			when, err := callTime(c.At, last.Time)
+			if err != nil {
+				return out, err
+			}
+			f, err := weather.ForecastAt(log, when, out.Elevation)
+			if err != nil {
+				return out, flagErr(err, "--at")
+			}
+			out.Forecast = &f
+			base = &f.Reading
+			out.Source = "forecast for " + when.Format("15:04") + ": " + strings.Join(f.Notes, "; ")
+			if !f.Trusted {
+				out.Warnings = append(out.Warnings, "the weather forecast is not to be trusted: "+strings.Join(f.Notes, "; "))
+			}
+		} else {
+			base = &last
+			out.Source = "the weather log's " + last.Time.Format("15:04") + " reading"
+		}
+	}
+	r, err := c.reading(e.Settings.Units, now, base)
+	if err != nil {
+		return out, err
+	}
+	if base == nil {
+		out.Source = "the reading flags"
+	} else if c.given() {
+		out.Source += ", with the flags given"
+	}
+	if err := validateFlags(r, out.Elevation); err != nil {
+		return out, err
+	}
+	if w := r.PressureWarning(out.Elevation); w != "" {
+		out.Warnings = append(out.Warnings, w)
+	}
+	out.Reading = r
+	return out, nil
+}
+
+// otherTracks reads tracks/NAME.yaml, the other tracks the logbook names.
+func (e *eventFolder) otherTracks() (map[string]engine.Track, error) {
+	out := map[string]engine.Track{}
+	entries, err := fs.ReadDir(e.FS, "tracks")
+	if errors.Is(err, fs.ErrNotExist) {
+		return out, nil
+	}
+	if err != nil {
+		return nil, err
+	}
+	for _, de := range entries {
+		if de.IsDir() || !strings.HasSuffix(de.Name(), ".yaml") {
+			continue
+		}
+		p := path.Join("tracks", de.Name())
+		f, err := e.FS.Open(p)
+		if err != nil {
+			return nil, err
+		}
+		t, err := engine.ReadTrack(f, e.name(p))
+		f.Close()
+		if err != nil {
+			return nil, err
+		}
+		out[strings.ToLower(t.Name)] = t
+	}
+	return out, nil
+}
+
+// prepLevel is --prep, or the track's usual prep.
+func prepLevel(flag string, trk engine.Track) (float64, error) {
+	if flag != "" {
+		p, err := engine.ParsePrep(flag)
+		return p, flagErr(err, "--prep")
+	}
+	p, err := engine.ParsePrep(trk.Prep)
+	if err != nil {
+		return 1, fmt.Errorf("track.yaml: %w", err)
+	}
+	return p, nil
+}

@@ -1,0 +1,321 @@
+package main
+
+import (
+	"fmt"
+	"io"
+	"math"
+	"strings"
+	"time"
+
+	"github.com/jedib0t/go-pretty/v6/table"
+	"github.com/spf13/cobra"
+
+	"pitcard/engine"
+	"pitcard/weather"
+)
+
+type predictOptions struct {
+	g      *globalOptions
+	s      *IOStreams
+	cond   conditionFlags
+	Prep   string
+	Weight string
+	Format string
+	Car    string
+	Track  string
+	Log    string
+}
+
+func newPredictCmd(s *IOStreams, g *globalOptions) *cobra.Command {
+	o := &predictOptions{g: g, s: s}
+	cmd := &cobra.Command{
+		Use:   "predict",
+		Short: "Predict every timer and trap of the next pass, with its interval and what it leaned on",
+		Long: `Calibrates the pass model to the car's logbook and runs it in the air and on
+the track of the next pass: every timer of the distance raced (60, 330, 660,
+1000, 1320 ft) and both traps, each with a 95 % interval. It says which passes
+it leaned on, which it left out and why, and what each 1000 ft of density
+altitude, 10 °F of track and 10 mph of headwind is worth to this car today.
+
+The air comes from the reading flags, --latest (the weather log's last
+reading) or --at (the log's forecast for the call time); flags given with
+--latest or --at replace single fields.`,
+		Example: `  pitcard predict --latest
+  pitcard predict --at 21:40 --track-temp 104F
+  pitcard predict --temp 84F --baro 27.61inHg --humidity 35% --track-temp 118F --prep light
+  pitcard predict --demo --format json`,
+		Args: cobra.NoArgs,
+		RunE: func(cmd *cobra.Command, _ []string) error { return predictRun(cmd, o) },
+	}
+	o.cond.bind(cmd)
+	fl := cmd.Flags()
+	fl.StringVar(&o.Prep, "prep", "", "track prep today: none, light, full or 0..1 (default: track.yaml's)")
+	fl.StringVar(&o.Weight, "weight", "", "car and driver as it will run, lb (default: car.yaml's)")
+	fl.StringVar(&o.Car, "car", "", "car file (default: the folder's car.yaml)")
+	fl.StringVar(&o.Track, "track", "", "track file (default: the folder's track.yaml)")
+	fl.StringVar(&o.Log, "logbook", "", "logbook file (default: the folder's logbook.csv)")
+	fl.StringVar(&o.Format, "format", "text", "text, markdown or json")
+	return cmd
+}
+
+// forecastNext gathers the car, the track, the logbook and the air and
+// predicts the next pass. The time of the pass is the forecast's, the
+// reading's, or now.
+type nextPass struct {
+	Car   engine.Car
+	Cond  conditions
+	Pred  engine.Prediction
+	Fit   engine.Fit
+	When  time.Time
+	Prep  float64
+	Units weather.Units
+}
+
+func forecastNext(e *eventFolder, cond conditionFlags, prepFlag, weightFlag string, now time.Time) (nextPass, error) {
+	var n nextPass
+	car, err := e.car()
+	if err != nil {
+		return n, err
+	}
+	c, err := cond.resolve(e, now)
+	if err != nil {
+		return n, err
+	}
+	passes, err := e.logbook()
+	if err != nil {
+		return n, err
+	}
+	tracks, err := e.otherTracks()
+	if err != nil {
+		return n, err
+	}
+	prep, err := prepLevel(prepFlag, c.Track)
+	if err != nil {
+		return n, err
+	}
+	weight := 0.0
+	if weightFlag != "" {
+		if _, err := fmt.Sscanf(weightFlag, "%g", &weight); err != nil || weight < 500 || weight > 10000 {
+			return n, &weather.InputError{Field: "--weight", Value: weightFlag, Reason: "is outside 500..10000 lb"}
+		}
+	}
+	when := c.Reading.Time
+	// Every pass logged so far counts, even one run after an older reading.
+	upTo := when
+	if now.After(upTo) {
+		upTo = now
+	}
+	if len(passes) > 0 && passes[len(passes)-1].Time.After(upTo) {
+		upTo = passes[len(passes)-1].Time
+	}
+	fit, err := engine.Calibrate(engine.CalibrateInput{Car: car, Track: c.Track, Tracks: tracks, Passes: passes, Now: upTo})
+	if err != nil {
+		return n, err
+	}
+	pred := engine.Predict(fit, engine.PredictInput{Air: c.Reading, Prep: prep, WeightLb: weight, Time: when})
+	return nextPass{Car: car, Cond: c, Pred: pred, Fit: fit, When: when, Prep: prep, Units: e.Settings.Units}, nil
+}
+
+func predictRun(cmd *cobra.Command, o *predictOptions) error {
+	if err := checkFormat(o.Format, "text", "markdown", "json"); err != nil {
+		return err
+	}
+	e, err := o.g.open(cmd)
+	if err != nil {
+		return err
+	}
+	e.CarPath, e.TrackPath, e.LogbookPath = o.Car, o.Track, o.Log
+	n, err := forecastNext(e, o.cond, o.Prep, o.Weight, o.s.Now())
+	if err != nil {
+		return err
+	}
+	for _, w := range n.Cond.Warnings {
+		fmt.Fprintln(o.s.Err, "pitcard: warning:", w)
+	}
+	if o.Format == "json" {
+		return writeJSON(o.s.Out, predictionJSON(n))
+	}
+	printPrediction(o.s, n, o.Format)
+	return nil
+}
+
+type timerJSON struct {
+	DistanceFt float64 `json:"distance_ft"`
+	ET         float64 `json:"et"`
+	Low        float64 `json:"low"`
+	High       float64 `json:"high"`
+}
+
+type trapJSON struct {
+	DistanceFt float64 `json:"distance_ft"`
+	MPH        float64 `json:"mph"`
+	Low        float64 `json:"low"`
+	High       float64 `json:"high"`
+}
+
+type leanedJSON struct {
+	Time    string  `json:"time"`
+	Session string  `json:"session"`
+	Track   string  `json:"track"`
+	ET      float64 `json:"et"`
+	Carried float64 `json:"carried_et"`
+	Share   float64 `json:"share"`
+}
+
+type outlierJSON struct {
+	Time   string `json:"time"`
+	Reason string `json:"reason"`
+}
+
+type basisJSON struct {
+	PhysicsOnly       bool          `json:"physics_only"`
+	PassesCalibrated  int           `json:"passes_calibrated"`
+	Leaned            []leanedJSON  `json:"leaned_on"`
+	LeftOut           []outlierJSON `json:"left_out"`
+	AirSource         string        `json:"air_source"`
+	Prep              string        `json:"prep"`
+	PowerScale        float64       `json:"power_scale"`
+	TractionScale     float64       `json:"traction_scale"`
+	AirExponent       float64       `json:"air_exponent"`
+	TrackHotScale     float64       `json:"track_hot_scale"`
+	PerKDAs           float64       `json:"et_per_1000ft_da_s"`
+	PerKDAMPH         float64       `json:"mph_per_1000ft_da"`
+	Per10FTrackS      float64       `json:"et_per_10f_track_s"`
+	Sixty10FTrackS    float64       `json:"et60_per_10f_track_s"`
+	Per10HeadwindS    float64       `json:"et_per_10mph_headwind_s"`
+	Per10FAirS        float64       `json:"et_per_10f_air_s"`
+	Notes             []string      `json:"notes"`
+	IntervalPct       float64       `json:"interval_pct"`
+	ModelFinishET     float64       `json:"model_finish_et"`
+	ExtrapolatedDAFt  float64       `json:"extrapolated_da_ft"`
+	ExtrapolatedTrack float64       `json:"extrapolated_track_f"`
+}
+
+type predictJSON struct {
+	Car      string      `json:"car"`
+	Track    string      `json:"track"`
+	Time     string      `json:"time"`
+	Distance float64     `json:"distance_ft"`
+	Timers   []timerJSON `json:"timers"`
+	Traps    []trapJSON  `json:"traps"`
+	Air      airReport   `json:"air"`
+	Basis    basisJSON   `json:"basis"`
+}
+
+func predictionJSON(n nextPass) predictJSON {
+	p := n.Pred
+	j := predictJSON{Car: n.Car.Name, Track: n.Cond.Track.Name, Time: n.When.Format(time.RFC3339), Distance: p.Distance,
+		Air: newAirReport(n.Cond.Reading, n.Cond.Elevation, n.Cond.Track.HeadingDeg, n.Cond.HaveTrack)}
+	for _, t := range p.Timers {
+		j.Timers = append(j.Timers, timerJSON{t.DistanceFt, round(t.ET, 3), round(t.Low, 3), round(t.High, 3)})
+	}
+	for _, t := range p.Traps {
+		j.Traps = append(j.Traps, trapJSON{t.DistanceFt, round(t.MPH, 2), round(t.Low, 2), round(t.High, 2)})
+	}
+	s := p.Sensitivity
+	b := basisJSON{PhysicsOnly: p.PhysicsOnly, PassesCalibrated: len(n.Fit.Samples), AirSource: n.Cond.Source, Prep: engine.PrepName(n.Prep),
+		PowerScale: round(p.Params.PowerScale, 4), TractionScale: round(p.Params.TractionScale, 4), AirExponent: round(p.Params.AirExponent, 3),
+		TrackHotScale: round(p.Params.TrackHot, 3), PerKDAs: round(s.PerKDA, 4), PerKDAMPH: round(s.PerKDAMPH, 2),
+		Per10FTrackS: round(s.Per10FTrack, 4), Sixty10FTrackS: round(s.Sixty10FTrack, 4), Per10HeadwindS: round(s.Per10Headwind, 4),
+		Per10FAirS: round(s.Per10FAir, 4), Notes: p.Notes, IntervalPct: 95, ModelFinishET: round(p.Model.ETAt(p.Distance), 3),
+		ExtrapolatedDAFt: round(s.ExtrapolatedDA, 0), ExtrapolatedTrack: round(s.ExtrapolatedT, 1),
+		Leaned: []leanedJSON{}, LeftOut: []outlierJSON{}}
+	for i, l := range p.Leaned {
+		if i == 5 {
+			break
+		}
+		b.Leaned = append(b.Leaned, leanedJSON{l.Pass.Time.Format(time.RFC3339), l.Pass.Session.String(), l.Pass.Track,
+			round(l.ET, 3), round(l.Carried, 3), round(l.Share, 3)})
+	}
+	for _, o := range p.Outliers {
+		b.LeftOut = append(b.LeftOut, outlierJSON{o.Pass.Time.Format(time.RFC3339), o.Reason})
+	}
+	if b.Notes == nil {
+		b.Notes = []string{}
+	}
+	j.Basis = b
+	return j
+}
+
+func timerName(ft float64) string {
+	switch ft {
+	case 660:
+		return "1/8 mile"
+	case 1320:
+		return "1/4 mile"
+	}
+	return fmt.Sprintf("%.0f ft", ft)
+}
+
+func printPrediction(s *IOStreams, n nextPass, format string) {
+	p := n.Pred
+	u := n.Units
+	a := n.Cond.Reading.Derive(n.Cond.Elevation)
+	title := fmt.Sprintf("Prediction: %s at %s, %s", orDefault(n.Car.Name, "the car"), orDefault(n.Cond.Track.Name, "the track"), n.When.Format("2006-01-02 15:04"))
+	t := newTable(s, title)
+	t.AppendHeader(table.Row{"Timer", "ET", "95 % interval", "Trap", "95 % interval"})
+	for _, tm := range p.Timers {
+		trap, trapI := "", ""
+		for _, tr := range p.Traps {
+			if tr.DistanceFt == tm.DistanceFt {
+				trap = fmt.Sprintf("%.2f mph", tr.MPH)
+				trapI = fmt.Sprintf("%.2f – %.2f", tr.Low, tr.High)
+			}
+		}
+		t.AppendRow(table.Row{timerName(tm.DistanceFt), fmt.Sprintf("%.3f", tm.ET), fmt.Sprintf("%.3f – %.3f", tm.Low, tm.High), trap, trapI})
+	}
+	t.SetColumnConfigs(alignRight(2, 5))
+	render(s.Out, t, format)
+	track := "track not read"
+	if n.Cond.Reading.HasTrack {
+		track = "track " + n.Cond.Reading.TrackTemp.Format(u.Temp, 0)
+	}
+	fmt.Fprintf(s.Out, "Air: density altitude %s, %s, %s, prep %s (%s).\n", a.DensityAltitude.Format(u.Length),
+		n.Cond.Reading.Temp.Format(u.Temp, 1), track, engine.PrepName(n.Prep), n.Cond.Source)
+	explain(s.Out, p, u)
+}
+
+// explain writes why the prediction is what it is.
+func explain(w io.Writer, p engine.Prediction, u weather.Units) {
+	s := p.Sensitivity
+	if p.PhysicsOnly {
+		fmt.Fprintln(w, "Physics from car.yaml alone: the logbook has no clean passes with their weather to calibrate to, so the interval is wide (±6 %).")
+	}
+	fmt.Fprintf(w, "This car today: %s per 1000 ft more density altitude (%+.1f mph); %s per 10 °F hotter track (60 ft %s); %s per 10 mph more headwind.\n",
+		signed(s.PerKDA), s.PerKDAMPH, signed(s.Per10FTrack), signed(s.Sixty10FTrack), signed(s.Per10Headwind))
+	if len(p.Leaned) > 0 {
+		var parts []string
+		for i, l := range p.Leaned {
+			if i == 3 {
+				break
+			}
+			parts = append(parts, fmt.Sprintf("%s %s %.3f → %.3f today (%.0f %%)", l.Pass.Time.Format("01-02 15:04"), l.Pass.Session, l.ET, l.Carried, 100*l.Share))
+		}
+		fmt.Fprintf(w, "Leaned most on: %s.\n", strings.Join(parts, "; "))
+	}
+	for i, o := range p.Outliers {
+		if i == 4 {
+			fmt.Fprintf(w, "... and %d more left out.\n", len(p.Outliers)-4)
+			break
+		}
+		fmt.Fprintf(w, "Left out %s %s: %s.\n", o.Pass.Time.Format("2006-01-02 15:04"), o.Pass.Session.Long(), o.Reason)
+	}
+	for _, n := range p.Notes {
+		fmt.Fprintln(w, "- "+n)
+	}
+	_ = u
+}
+
+func signed(v float64) string {
+	if math.Abs(v) < 0.0005 {
+		return "±0.000 s"
+	}
+	return fmt.Sprintf("%+.3f s", v)
+}
+
+func orDefault(s, d string) string {
+	if strings.TrimSpace(s) == "" {
+		return d
+	}
+	return s
+}
