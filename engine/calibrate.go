@@ -378,6 +378,22 @@ func invert4(m [4][4]float64) ([4][4]float64, bool) {
 	return inv, true
 }
 
+// Residuals are each pass's finish ET minus the calibrated model's in that
+// pass's conditions, keyed by Pass.Key: the car's scatter with the air and
+// the track taken out. Passes without their weather or a finish are absent.
+func (f *Fit) Residuals(in CalibrateInput) map[string]float64 {
+	out := map[string]float64{}
+	for _, p := range in.Passes {
+		et, ok := p.ETAt(f.Car.DistanceFt)
+		if !ok || !p.HasAir {
+			continue
+		}
+		s := f.sample(p, in, 0)
+		out[p.Key()] = et - Simulate(&f.Vehicle, f.Params, s.Env, f.Car.DistanceFt).ETAt(f.Car.DistanceFt)
+	}
+	return out
+}
+
 // EstimatePower estimates a car's flywheel power from its trap speeds with
 // the power-weight relations of the trade (MPH = K·(P/W)^⅓, K = 224
 // Huntington 1958, 230 Fox 1973, 234 a later fit; pitcard takes their mean,

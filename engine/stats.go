@@ -18,13 +18,20 @@ type GroupStats struct {
 	RTMean, RTSD               float64
 	SixtyN                     int
 	SixtySD                    float64
+	// CorrectedN and CorrectedSD are the spread of the clean passes' residuals
+	// from the calibrated model: the ET scatter with the air and track taken out.
+	CorrectedN  int
+	CorrectedSD float64
 }
 
 // Stats groups passes by day, and within each day by session kind (time
 // trials, eliminations, tests), with a row for the whole day. ET figures use
 // each group's clean passes at its most common finish distance. The spreads
 // are raw: not corrected for the air, which moves through a day.
-func Stats(passes []Pass) []GroupStats {
+//
+// residual, when not nil, gives a pass's residual from the calibrated model
+// (Fit.Residuals) for the corrected spread.
+func Stats(passes []Pass, residual map[string]float64) []GroupStats {
 	type key struct {
 		day  string
 		kind SessionKind
@@ -47,7 +54,7 @@ func Stats(passes []Pass) []GroupStats {
 		y, m, d := g[0].Time.Date()
 		s := GroupStats{Day: time.Date(y, m, d, 0, 0, 0, 0, g[0].Time.Location()), Kind: k.kind, All: k.all, Passes: len(g)}
 		s.Finish = commonFinish(g)
-		var ets, rts, sixties []float64
+		var ets, rts, sixties, res []float64
 		for _, p := range g {
 			if p.RT.Valid && !p.RT.Decimal.IsNegative() {
 				rts = append(rts, p.RT.Decimal.InexactFloat64())
@@ -57,6 +64,9 @@ func Stats(passes []Pass) []GroupStats {
 			}
 			if et, ok := p.ETAt(s.Finish); ok {
 				ets = append(ets, et)
+				if r, ok := residual[p.Key()]; ok {
+					res = append(res, r)
+				}
 			}
 			if sf, ok := p.ETAt(60); ok {
 				sixties = append(sixties, sf)
@@ -70,6 +80,10 @@ func Stats(passes []Pass) []GroupStats {
 		s.RTN = len(rts)
 		if len(rts) > 0 {
 			s.RTMean, s.RTSD = meanSD(rts)
+		}
+		s.CorrectedN = len(res)
+		if len(res) > 1 {
+			_, s.CorrectedSD = meanSD(res)
 		}
 		s.SixtyN = len(sixties)
 		if len(sixties) > 1 {
@@ -102,22 +116,31 @@ func minMax(v []float64) (float64, float64) {
 	return lo, hi
 }
 
-// Consistency puts an ET spread (one standard deviation, s) into words a crew
-// uses. The bands are common practice for a bracket car (no source): within
-// a few hundredths is a car you can dial; a tenth is a car to sort out.
+// Consistency puts an ET spread (one standard deviation, s) into the words a
+// crew uses. The bands are common practice for a bracket car (no source):
+// within a couple of hundredths is a car you can dial; a tenth is a car to
+// sort out.
 func Consistency(sd float64, n int) string {
 	switch {
 	case n < 3:
-		return "too few passes to judge"
+		return "too few to judge"
 	case sd <= 0.015:
-		return "very consistent: dial it with confidence"
+		return "very consistent"
 	case sd <= 0.03:
 		return "consistent"
 	case sd <= 0.06:
-		return "some scatter: check the air and the notes"
+		return "some scatter"
 	default:
-		return "inconsistent: look for lifted or spinning runs, or a car problem"
+		return "inconsistent"
 	}
+}
+
+// ConsistencyAdvice says what a crew does about each band of Consistency.
+var ConsistencyAdvice = map[string]string{
+	"very consistent": "dial it with confidence",
+	"consistent":      "a normal bracket car",
+	"some scatter":    "check the notes, the tires and the driver's routine",
+	"inconsistent":    "look for lifted or spinning runs, or a car problem",
 }
 
 // String names a session kind in the plural: "time trials".

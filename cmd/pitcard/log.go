@@ -473,6 +473,7 @@ type statsJSON struct {
 	RTMean      *float64 `json:"rt_mean"`
 	RTSD        *float64 `json:"rt_sd"`
 	SixtySD     *float64 `json:"et60_sd"`
+	CorrectedSD *float64 `json:"et_sd_corrected"`
 	Consistency string   `json:"consistency"`
 }
 
@@ -488,7 +489,24 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 	if err != nil {
 		return err
 	}
-	stats := engine.Stats(passes)
+	// With car.yaml and the weather of the passes, take the air out of the spread.
+	var residual map[string]float64
+	corrected := false
+	if car, err := e.car(); err == nil && len(passes) > 0 {
+		trk, _ := e.track()
+		tracks, _ := e.otherTracks()
+		in := engine.CalibrateInput{Car: car, Track: trk, Tracks: tracks, Passes: passes, Now: passes[len(passes)-1].Time}
+		if fit, err := engine.Calibrate(in); err == nil && len(fit.Samples) > 0 {
+			residual, corrected = fit.Residuals(in), true
+		}
+	}
+	stats := engine.Stats(passes, residual)
+	judge := func(s engine.GroupStats) string {
+		if corrected && s.CorrectedN > 0 {
+			return engine.Consistency(s.CorrectedSD, s.CorrectedN)
+		}
+		return engine.Consistency(s.ETSD, s.Clean)
+	}
 	if o.Format == "json" {
 		out := []statsJSON{}
 		for _, s := range stats {
@@ -500,7 +518,7 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 				ETMean: optFloat(s.ETMean, s.Clean > 0, 4), ETSD: optFloat(s.ETSD, s.Clean > 1, 4),
 				ETMin: optFloat(s.ETMin, s.Clean > 0, 4), ETMax: optFloat(s.ETMax, s.Clean > 0, 4),
 				RTMean: optFloat(s.RTMean, s.RTN > 0, 4), RTSD: optFloat(s.RTSD, s.RTN > 1, 4),
-				SixtySD: optFloat(s.SixtySD, s.SixtyN > 1, 4), Consistency: engine.Consistency(s.ETSD, s.Clean)})
+				SixtySD: optFloat(s.SixtySD, s.SixtyN > 1, 4), CorrectedSD: optFloat(s.CorrectedSD, s.CorrectedN > 1, 4), Consistency: judge(s)})
 		}
 		return writeJSON(o.s.Out, out)
 	}
@@ -508,8 +526,8 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 		fmt.Fprintf(o.s.Out, "%s has no passes yet.\n", e.name(event.LogbookFile))
 		return nil
 	}
-	t := newTable(o.s, "Consistency by day and session (raw spreads, not corrected for the air)")
-	t.AppendHeader(table.Row{"Day", "Sessions", "Passes", "ET mean", "ET ±1σ", "ET range", "RT mean", "RT ±1σ", "60 ft ±1σ", "Consistency"})
+	t := newTable(o.s, "Consistency by day and session")
+	t.AppendHeader(table.Row{"Day", "Sessions", "Passes", "ET mean", "ET ±1σ", "air-corr. ±1σ", "RT mean", "RT ±1σ", "60 ft ±1σ", "Consistency"})
 	f3 := func(v float64, ok bool) string {
 		if !ok {
 			return ""
@@ -522,17 +540,20 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 			day, sessions = s.Day.Format("2006-01-02"), "all"
 			t.AppendSeparator()
 		}
-		rng := ""
-		if s.Clean > 1 {
-			rng = fmt.Sprintf("%.3f–%.3f", s.ETMin, s.ETMax)
-		}
 		passes := fmt.Sprint(s.Passes)
 		if s.Clean != s.Passes {
 			passes = fmt.Sprintf("%d (%d clean)", s.Passes, s.Clean)
 		}
-		t.AppendRow(table.Row{day, sessions, passes, f3(s.ETMean, s.Clean > 0), f3(s.ETSD, s.Clean > 1), rng,
-			f3(s.RTMean, s.RTN > 0), f3(s.RTSD, s.RTN > 1), f3(s.SixtySD, s.SixtyN > 1), engine.Consistency(s.ETSD, s.Clean)})
+		t.AppendRow(table.Row{day, sessions, passes, f3(s.ETMean, s.Clean > 0), f3(s.ETSD, s.Clean > 1), f3(s.CorrectedSD, s.CorrectedN > 1),
+			f3(s.RTMean, s.RTN > 0), f3(s.RTSD, s.RTN > 1), f3(s.SixtySD, s.SixtyN > 1), judge(s)})
 	}
+	t.SetColumnConfigs(alignRight(4, 9))
 	render(o.s.Out, t, o.Format)
+	if corrected {
+		fmt.Fprintln(o.s.Out, "Air-corrected: each pass's ET less the calibrated model's in its own air and track; consistency is judged on it.")
+	} else {
+		fmt.Fprintln(o.s.Out, "Spreads are raw (no car.yaml or no weather in the logbook): the air moving through a day counts as scatter.")
+	}
+	fmt.Fprintln(o.s.Out, "Very consistent (≤ 0.015 s): dial it with confidence. Consistent (≤ 0.030). Some scatter (≤ 0.060): check the notes, tires, routine. Inconsistent: look for lifted or spinning runs, or a car problem.")
 	return nil
 }

@@ -251,8 +251,8 @@ func printPrediction(s *IOStreams, n nextPass, format string) {
 	p := n.Pred
 	u := n.Units
 	a := n.Cond.Reading.Derive(n.Cond.Elevation)
-	title := fmt.Sprintf("Prediction: %s at %s, %s", orDefault(n.Car.Name, "the car"), orDefault(n.Cond.Track.Name, "the track"), n.When.Format("2006-01-02 15:04"))
-	t := newTable(s, title)
+	fmt.Fprintf(s.Out, "Prediction for %s at %s, %s\n", orDefault(n.Car.Name, "the car"), orDefault(n.Cond.Track.Name, "the track"), n.When.Format("2006-01-02 15:04"))
+	t := newTable(s, "")
 	t.AppendHeader(table.Row{"Timer", "ET", "95 % interval", "Trap", "95 % interval"})
 	for _, tm := range p.Timers {
 		trap, trapI := "", ""
