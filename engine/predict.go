@@ -113,6 +113,9 @@ type PredictInput struct {
 	Prep     float64         // prep level of the surface, 0 none .. 1 full
 	WeightLb float64         // 0: car.yaml's
 	Time     time.Time       // when the pass will run
+	// Quick skips the sensitivities and the parameters' share of the
+	// interval (a backcast of an earlier pass needs only the ET).
+	Quick bool
 }
 
 // Predict predicts every timer and trap of the next pass from fit.
@@ -129,7 +132,9 @@ func Predict(f Fit, in PredictInput) Prediction {
 	if !in.Air.HasTrack {
 		pr.Notes = append(pr.Notes, "track temperature not read: taken as the air plus 10 °F")
 	}
-	pr.Sensitivity = sensitivity(f, in, env, model)
+	if !in.Quick {
+		pr.Sensitivity = sensitivity(f, in, env, model)
+	}
 	timers := TimersFor(dist)
 
 	if len(f.Samples) == 0 {
@@ -168,8 +173,10 @@ func Predict(f Fit, in PredictInput) Prediction {
 		w2 += w[i] * w[i]
 	}
 	kEff := 1 / w2
-	extra := extrapolation(pr.Sensitivity)
-	paramSD := parameterSpread(f, env, w)
+	extra, paramSD := 0.0, 0.0
+	if !in.Quick {
+		extra, paramSD = extrapolation(pr.Sensitivity), parameterSpread(f, env, w)
+	}
 
 	for _, ft := range timers {
 		j := timerIndex(ft)
@@ -339,6 +346,36 @@ func outsideText(s Sensitivity) string {
 		parts = append(parts, fmt.Sprintf("track %.0f °F, %.0f °F beyond %.0f..%.0f", s.TrackF, s.ExtrapolatedT, s.SeenTrackLo, s.SeenTrackHi))
 	}
 	return strings.Join(parts, "; ")
+}
+
+// Backcast is what the model would have predicted for pass p from the passes
+// before it: the fit's parameters, the residual correction of the earlier
+// passes only. It is the card's "predicted against actual" for a pass of the
+// day. ok is false when p has no weather or no pass came before it.
+func Backcast(f Fit, p Pass, in CalibrateInput) (Timer, bool) {
+	if !p.HasAir {
+		return Timer{}, false
+	}
+	g := f
+	g.Samples = nil
+	for _, s := range f.Samples {
+		if s.Pass.Time.Before(p.Time) {
+			g.Samples = append(g.Samples, s)
+		}
+	}
+	trk := in.Track
+	if !strings.EqualFold(p.Track, in.Track.Name) {
+		if t, ok := in.Tracks[strings.ToLower(p.Track)]; ok {
+			trk = t
+		}
+	}
+	g.Track = trk
+	prep, err := ParsePrep(trk.Prep)
+	if err != nil {
+		prep = 1
+	}
+	pr := Predict(g, PredictInput{Air: p.Air, Prep: prep, WeightLb: p.WeightLb, Time: p.Time, Quick: true})
+	return pr.Finish(), len(g.Samples) > 0
 }
 
 // ThinnerAir is reading r with its station pressure lowered (or raised, for

@@ -11,6 +11,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"pitcard/event"
+	"pitcard/scripts"
 )
 
 type initOptions struct {
@@ -45,15 +46,22 @@ func initRun(o *initOptions) error {
 	if o.Demo {
 		src, what = event.Demo(), "demo"
 	}
+	// The folder's files, and the rules that ship with pitcard (the demo has its own copy).
+	from := map[string]fs.FS{}
 	var files []string
-	err := fs.WalkDir(src, ".", func(p string, d fs.DirEntry, err error) error {
-		if err == nil && !d.IsDir() {
-			files = append(files, p)
+	for _, f := range []fs.FS{scripts.Shipped(), src} {
+		err := fs.WalkDir(f, ".", func(p string, d fs.DirEntry, err error) error {
+			if err == nil && !d.IsDir() {
+				if _, dup := from[p]; !dup {
+					files = append(files, p)
+				}
+				from[p] = f
+			}
+			return err
+		})
+		if err != nil {
+			return err
 		}
-		return err
-	})
-	if err != nil {
-		return err
 	}
 	sort.Strings(files)
 	var exist []string
@@ -66,7 +74,7 @@ func initRun(o *initOptions) error {
 		return userErrf("%s already has %s: pitcard init never overwrites; choose an empty folder", o.Dir, strings.Join(exist, ", "))
 	}
 	for _, f := range files {
-		data, err := fs.ReadFile(src, f)
+		data, err := fs.ReadFile(from[f], f)
 		if err != nil {
 			return err
 		}
@@ -79,6 +87,7 @@ func initRun(o *initOptions) error {
 		}
 	}
 	fmt.Fprintf(o.s.Out, "Wrote the %s event folder %s (%d files: %s).\n", what, o.Dir, len(files), strings.Join(files, ", "))
+	fmt.Fprintf(o.s.Out, "The rules in %s are yours to change: each file says what it does.\n", filepath.Join(o.Dir, event.RulesDir))
 	if o.Demo {
 		fmt.Fprintf(o.s.Out, "Next: cd %s && pitcard air --latest\n", o.Dir)
 	} else {

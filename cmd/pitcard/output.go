@@ -9,6 +9,7 @@ import (
 
 	"github.com/jedib0t/go-pretty/v6/table"
 	"github.com/jedib0t/go-pretty/v6/text"
+	"github.com/shopspring/decimal"
 )
 
 // newTable is a go-pretty table in pitcard's style: light rules, colour only
@@ -62,4 +63,12 @@ func plural(n int, noun string) string {
 		return fmt.Sprintf("%d %ses", n, noun)
 	}
 	return fmt.Sprintf("%d %ss", n, noun)
+}
+
+// signedDecimal prints a dial adjustment with its sign: "+0.02", "-0.01".
+func signedDecimal(d decimal.Decimal) string {
+	if d.IsNegative() {
+		return d.StringFixed(2)
+	}
+	return "+" + d.StringFixed(2)
 }

@@ -19,6 +19,7 @@ import (
 
 	"pitcard/engine"
 	"pitcard/event"
+	"pitcard/scripts"
 	"pitcard/weather"
 )
 
@@ -64,6 +65,7 @@ Try it on the built-in demo event first: pitcard air --demo`,
 		newRaceCmd(s, g),
 		newDialCmd(s, g),
 		newPredictCmd(s, g),
+		newRulesCmd(s, g),
 	)
 	return root
 }
@@ -75,15 +77,20 @@ type settings struct {
 	BreakoutRisk float64
 	Tree         engine.Tree
 	RTZero       engine.RTZero
+	MaxAdjust    decimal.Decimal
+	RuleLimits   scripts.Limits
 }
 
 // settingKeys are the keys pitcard.yaml may hold, with their defaults.
 var settingKeys = map[string]any{
-	"units":         "imperial",
-	"dial_step":     "0.01",
-	"breakout_risk": 0.10,
-	"tree":          "full",
-	"rt_zero":       "green",
+	"units":           "imperial",
+	"dial_step":       "0.01",
+	"breakout_risk":   0.10,
+	"tree":            "full",
+	"rt_zero":         "green",
+	"max_rule_adjust": "0.05",
+	"rule_time_ms":    200,
+	"rule_memory_mib": 64,
 }
 
 // eventFolder is an opened event folder (or the demo).
@@ -187,6 +194,22 @@ func (g *globalOptions) open(cmd *cobra.Command) (*eventFolder, error) {
 	if e.Settings.RTZero, err = engine.ParseRTZero(v.GetString("rt_zero")); err != nil {
 		return nil, err
 	}
+	adj, err := engine.ParseSeconds("max_rule_adjust", v.GetString("max_rule_adjust"))
+	if err != nil || adj.IsNegative() || adj.GreaterThan(decimal.NewFromInt(1)) {
+		return nil, &weather.InputError{Field: "max_rule_adjust", Value: v.GetString("max_rule_adjust"), Reason: "is outside 0..1 s"}
+	}
+	e.Settings.MaxAdjust = adj
+	lim := scripts.DefaultLimits
+	lim.DialStep = step
+	ms, mib := v.GetInt("rule_time_ms"), v.GetInt("rule_memory_mib")
+	if ms < 10 || ms > 10000 {
+		return nil, &weather.InputError{Field: "rule_time_ms", Value: v.GetString("rule_time_ms"), Reason: "is outside 10..10000 ms"}
+	}
+	if mib < 4 || mib > 256 {
+		return nil, &weather.InputError{Field: "rule_memory_mib", Value: v.GetString("rule_memory_mib"), Reason: "is outside 4..256 MiB"}
+	}
+	lim.Time, lim.Memory = time.Duration(ms)*time.Millisecond, int64(mib)<<20
+	e.Settings.RuleLimits = lim
 	return e, nil
 }
 

@@ -12,6 +12,7 @@ import (
 	"bytes"
 	"flag"
 	"fmt"
+	"io/fs"
 	"math"
 	"math/rand/v2"
 	"os"
@@ -21,6 +22,7 @@ import (
 	"github.com/shopspring/decimal"
 
 	"pitcard/engine"
+	"pitcard/scripts"
 	"pitcard/weather"
 )
 
@@ -104,8 +106,9 @@ func generate(outDir string) (int, int, error) {
 
 	// The demo day at home: readings from 13:30 to 20:30, passes up to round 2.
 	log := demoWeather(rng)
-	schedule := []struct{ session, call string }{
-		{"T1", "15:10"}, {"T2", "16:40"}, {"T3", "18:05"}, {"E1", "19:15"}, {"E2", "20:05"}, {"E3", "20:45"}, {"E4", "21:30"}, {"E5", "22:10"},
+	schedule := []struct{ session, call, lane string }{
+		{"T1", "15:10", ""}, {"T2", "16:40", ""}, {"T3", "18:05", ""}, {"E1", "19:15", ""}, {"E2", "20:05", ""},
+		{"E3", "20:45", "left"}, {"E4", "21:30", ""}, {"E5", "22:10", ""},
 	}
 	for k, sc := range schedule[:5] {
 		call, _ := weather.ParseClock(sc.call, demoDay, time.Local)
@@ -134,9 +137,22 @@ func generate(outDir string) (int, int, error) {
 	var sb bytes.Buffer
 	fmt.Fprintf(&sb, "# The demo race day's schedule: when each session is called to the lanes.\ndate: %s\nsessions:\n", demoDay.Format("2006-01-02"))
 	for _, sc := range schedule {
+		if sc.lane != "" {
+			fmt.Fprintf(&sb, "  - {session: %s, call: \"%s\", lane: %s}\n", sc.session, sc.call, sc.lane)
+			continue
+		}
 		fmt.Fprintf(&sb, "  - {session: %s, call: \"%s\"}\n", sc.session, sc.call)
 	}
 	must(os.WriteFile(filepath.Join(*out, "schedule.yaml"), sb.Bytes(), 0o644))
+	// The demo runs the rules that ship with pitcard.
+	must(os.MkdirAll(filepath.Join(*out, "rules"), 0o755))
+	shippedRules, err := fs.Glob(scripts.Shipped(), "rules/*.lua")
+	must(err)
+	for _, name := range shippedRules {
+		data, err := fs.ReadFile(scripts.Shipped(), name)
+		must(err)
+		must(os.WriteFile(filepath.Join(*out, name), data, 0o644))
+	}
 	return len(passes), len(log), firstErr
 }
 
@@ -221,10 +237,14 @@ distance_ft: 1320
 tire: radial
 transmission: automatic
 
-# The crew's own fields, for their rules (pitcard keeps keys it does not know):
+# The crew's own fields, for their rules (pitcard keeps keys it does not know).
+# Safety limits of THIS car, read by rules/30-safety.lua; the numbers that
+# apply to you come from your sanctioning body's current rulebook and tech.
+limit_et: 10.00
+limit_mph: 135
 chute: false
-cage_certified_et: 10.00
-belts_expire: 2027-03
+chute_needed_mph: 150
+belts_expire: "2027-03"
 `
 
 var firstErr error

@@ -1,0 +1,229 @@
+package main
+
+import (
+	"errors"
+	"fmt"
+	"io/fs"
+	"strings"
+	"time"
+
+	"github.com/shopspring/decimal"
+	"github.com/spf13/cobra"
+
+	"pitcard/engine"
+	"pitcard/event"
+	"pitcard/prep"
+	"pitcard/scripts"
+	"pitcard/weather"
+)
+
+// ScheduleFile is the race day's schedule in an event folder.
+const ScheduleFile = "schedule.yaml"
+
+// roundFlags choose the round: which session, which lane, the opponent's
+// dial, the call time (--at, shared with the air flags), the prep.
+type roundFlags struct {
+	cond         conditionFlags
+	Round        string
+	Lane         string
+	OpponentDial string
+	Prep         string
+	Weight       string
+}
+
+func (r *roundFlags) bind(cmd *cobra.Command) {
+	r.cond.readingFlags.bind(cmd)
+	fl := cmd.Flags()
+	fl.StringVar(&r.cond.At, "at", "", "call time of the round, HH:MM (default: schedule.yaml's, or now)")
+	fl.StringVar(&r.Round, "round", "", "round number (3), or session: T1, T2 ... time trials, E1 ... rounds (default: the schedule's next)")
+	fl.StringVar(&r.Lane, "lane", "", "left or right")
+	fl.StringVar(&r.OpponentDial, "opponent-dial", "", "the opponent's dial-in, s, if known")
+	fl.StringVar(&r.Prep, "prep", "", "track prep today: none, light, full or 0..1 (default: track.yaml's)")
+	fl.StringVar(&r.Weight, "weight", "", "car and driver as it will run, lb (default: car.yaml's)")
+}
+
+// schedule reads the folder's schedule.yaml, if there is one.
+func (e *eventFolder) schedule() (prep.Schedule, bool, error) {
+	f, err := e.FS.Open(ScheduleFile)
+	if errors.Is(err, fs.ErrNotExist) {
+		return prep.Schedule{}, false, nil
+	}
+	if err != nil {
+		return prep.Schedule{}, false, err
+	}
+	defer f.Close()
+	s, err := prep.ReadSchedule(f, e.name(ScheduleFile), time.Local)
+	return s, err == nil, err
+}
+
+// roundInput gathers everything a round's card is made from. Problems that
+// leave part of the card blank (no weather log, a forecast too far ahead)
+// come back as warnings, not errors: the card still prints what it can.
+func roundInput(e *eventFolder, r roundFlags, now time.Time) (prep.Input, []string, error) {
+	var in prep.Input
+	var warnings []string
+	car, err := e.car()
+	if err != nil {
+		return in, nil, err
+	}
+	trk, err := e.track()
+	if err != nil {
+		return in, nil, err
+	}
+	passes, err := e.logbook()
+	if err != nil {
+		return in, nil, err
+	}
+	tracks, err := e.otherTracks()
+	if err != nil {
+		return in, nil, err
+	}
+	sched, haveSched, err := e.schedule()
+	if err != nil {
+		return in, nil, err
+	}
+	elev, err := r.cond.elevation(e.Settings.Units, trk.Elevation(), true)
+	if err != nil {
+		return in, nil, err
+	}
+	log, err := e.weatherLog(elev)
+	if err != nil {
+		return in, nil, err
+	}
+
+	// The session and its slot in the schedule.
+	var slot prep.Slot
+	haveSlot := false
+	switch {
+	case r.Round != "":
+		ses, err := engine.ParseSession(r.Round)
+		if err != nil {
+			return in, nil, flagErr(err, "--round")
+		}
+		slot.Session = ses
+		if s, ok := sched.Find(ses); ok {
+			slot, haveSlot = s, true
+		}
+	case haveSched:
+		if s, ok := sched.Next(passes); ok {
+			slot, haveSlot = s, true
+		} else {
+			return in, nil, userErrf("every session of %s has a pass in the logbook: give --round for another", e.name(ScheduleFile))
+		}
+	default:
+		return in, nil, userErrf("which round? give --round (3, E3, T2 ...), or write %s with the day's call times", ScheduleFile)
+	}
+
+	// The call time: --at, the schedule's, or now.
+	day := now
+	switch {
+	case haveSched:
+		day = sched.Date
+	case len(log) > 0:
+		day = log[len(log)-1].Time
+	}
+	call := now
+	switch {
+	case r.cond.At != "":
+		t, err := parseWhen(r.cond.At, day)
+		if err != nil {
+			return in, nil, flagErr(err, "--at")
+		}
+		call = t
+	case haveSlot:
+		call = slot.Call
+	}
+
+	// The lane.
+	lane := slot.Lane
+	if r.Lane != "" {
+		if lane, err = engine.ParseLane(r.Lane); err != nil {
+			return in, nil, flagErr(err, "--lane")
+		}
+	}
+	var opp decimal.NullDecimal
+	if r.OpponentDial != "" {
+		d, err := engine.ParseSeconds("--opponent-dial", r.OpponentDial)
+		if err != nil {
+			return in, nil, err
+		}
+		if err := rangeErr("--opponent-dial", d, engine.DialRange); err != nil {
+			return in, nil, err
+		}
+		opp = decimal.NewNullDecimal(d)
+	}
+
+	// The air at the call: the log's forecast (flags replace its fields), or the flags alone.
+	var air weather.Reading
+	var source string
+	var airNow *weather.Reading
+	var forecast *weather.Forecast
+	switch {
+	case len(log) > 0:
+		last := log[len(log)-1]
+		airNow = &last
+		base := last
+		source = "the " + last.Time.Format("15:04") + " reading"
+		if f, err := weather.ForecastAt(log, call, elev); err == nil {
+			forecast = &f
+			base = f.Reading
+			source = "forecast for " + call.Format("15:04") + ": " + strings.Join(f.Notes, "; ")
+			if !f.Trusted {
+				warnings = append(warnings, "the weather forecast is not to be trusted: "+strings.Join(f.Notes, "; "))
+			}
+		} else {
+			warnings = append(warnings, fmt.Sprintf("no forecast for the %s call (%v): the air is the %s reading", call.Format("15:04"), err, last.Time.Format("15:04")))
+		}
+		if air, err = r.cond.reading(e.Settings.Units, call, &base); err != nil {
+			return in, nil, err
+		}
+		if r.cond.given() {
+			source += ", with the flags given"
+		}
+	case r.cond.given():
+		if air, err = r.cond.reading(e.Settings.Units, call, nil); err != nil {
+			return in, nil, err
+		}
+		source = "the reading flags"
+	default:
+		return in, nil, userErrf("no air for the round: %s has no readings; add one with 'pitcard weather add' or give --temp, --baro and --humidity",
+			e.name(event.WeatherFile))
+	}
+	if err := validateFlags(air, elev); err != nil {
+		return in, nil, err
+	}
+	if w := air.PressureWarning(elev); w != "" {
+		warnings = append(warnings, w)
+	}
+	air.Time = call
+	prepLvl, err := prepLevel(r.Prep, trk)
+	if err != nil {
+		return in, nil, err
+	}
+	weight := 0.0
+	if r.Weight != "" {
+		if _, err := fmt.Sscanf(r.Weight, "%g", &weight); err != nil || weight < 500 || weight > 10000 {
+			return in, nil, &weather.InputError{Field: "--weight", Value: r.Weight, Reason: "is outside 500..10000 lb"}
+		}
+	}
+	rules, err := scripts.Load(e.FS, e.Settings.RuleLimits)
+	if err != nil {
+		return in, nil, err
+	}
+	in = prep.Input{
+		Car: car, Track: trk, Tracks: tracks, Passes: passes,
+		Settings: prep.Settings{Units: e.Settings.Units, DialStep: e.Settings.DialStep, BreakoutRisk: e.Settings.BreakoutRisk,
+			MaxRuleAdjust: e.Settings.MaxAdjust, RuleLimits: e.Settings.RuleLimits},
+		Session: slot.Session, Lane: lane, OpponentDial: opp, Call: call, Now: now,
+		Air: air, AirSource: source, AirNow: airNow, Forecast: forecast, Elevation: elev, Prep: prepLvl, WeightLb: weight,
+		Rules: rules, RulesFS: e.FS,
+	}
+	return in, warnings, nil
+}
+
+func rangeErr(field string, d decimal.Decimal, r [2]float64) error {
+	if f := d.InexactFloat64(); f < r[0] || f > r[1] {
+		return &weather.InputError{Field: field, Value: d.String(), Reason: fmt.Sprintf("is outside %g..%g s", r[0], r[1])}
+	}
+	return nil
+}

@@ -1,0 +1,215 @@
+package main
+
+import (
+	"fmt"
+	"strings"
+
+	"github.com/jedib0t/go-pretty/v6/table"
+	"github.com/spf13/cobra"
+
+	"pitcard/event"
+	"pitcard/prep"
+	"pitcard/scripts"
+)
+
+func newRulesCmd(s *IOStreams, g *globalOptions) *cobra.Command {
+	cmd := &cobra.Command{
+		Use:   "rules",
+		Short: "The crew's Lua rules: list them, check they load, try them on given conditions",
+		Long: `The crew's rules are Lua files in the event folder's rules/, run in name order
+for every round. A rule file may define dial(ctx) (an adjustment to the
+recommended dial, in seconds, and a reason), checks(ctx) (checklist items:
+pass, warn, fail, or confirm for a box to tick) and notes(ctx) (setup notes).
+Rules run sandboxed, with a time and memory budget per call: a rule that fails
+becomes a failed check on the card naming its file and line, and the others go on.`,
+		Example: "  pitcard rules list\n  pitcard rules check\n  pitcard rules try --round 3 --lane left --at 20:45",
+	}
+	cmd.AddCommand(newRulesListCmd(s, g), newRulesCheckCmd(s, g), newRulesTryCmd(s, g))
+	return cmd
+}
+
+func newRulesListCmd(s *IOStreams, g *globalOptions) *cobra.Command {
+	var format string
+	cmd := &cobra.Command{
+		Use:     "list",
+		Short:   "List the rule files and what each defines",
+		Example: "  pitcard rules list\n  pitcard rules list --demo --format json",
+		Args:    cobra.NoArgs,
+		RunE: func(cmd *cobra.Command, _ []string) error {
+			if err := checkFormat(format, "text", "markdown", "json"); err != nil {
+				return err
+			}
+			e, err := g.open(cmd)
+			if err != nil {
+				return err
+			}
+			rules, err := scripts.Load(e.FS, e.Settings.RuleLimits)
+			if err != nil {
+				return err
+			}
+			if format == "json" {
+				type item struct {
+					File    string   `json:"file"`
+					Defines []string `json:"defines"`
+					Error   string   `json:"error,omitempty"`
+				}
+				out := []item{}
+				for _, r := range rules {
+					it := item{File: r.File, Defines: r.Defines}
+					if it.Defines == nil {
+						it.Defines = []string{}
+					}
+					if r.Err != nil {
+						it.Error = r.Err.Error()
+					}
+					out = append(out, it)
+				}
+				return writeJSON(s.Out, out)
+			}
+			if len(rules) == 0 {
+				fmt.Fprintf(s.Out, "%s has no rules (*.lua). 'pitcard init' writes the rules that ship with pitcard.\n", e.name(event.RulesDir))
+				return nil
+			}
+			t := newTable(s, "Rules in "+e.name(event.RulesDir))
+			t.AppendHeader(table.Row{"File", "Defines", "What it says it does"})
+			for _, r := range rules {
+				def := strings.Join(r.Defines, ", ")
+				if r.Err != nil {
+					def = "does not load: " + r.Err.Error()
+				}
+				t.AppendRow(table.Row{r.File, def, firstComment(r.Source)})
+			}
+			render(s.Out, t, format)
+			return nil
+		},
+	}
+	cmd.Flags().StringVar(&format, "format", "text", "text, markdown or json")
+	return cmd
+}
+
+// firstComment is the first comment line of a rule: what it says it does.
+func firstComment(src string) string {
+	for _, line := range strings.Split(src, "\n") {
+		line = strings.TrimSpace(line)
+		if strings.HasPrefix(line, "--") {
+			if c := strings.TrimSpace(strings.TrimLeft(line, "-")); c != "" {
+				return c
+			}
+			continue
+		}
+		if line != "" {
+			break
+		}
+	}
+	return ""
+}
+
+func newRulesCheckCmd(s *IOStreams, g *globalOptions) *cobra.Command {
+	return &cobra.Command{
+		Use:     "check",
+		Short:   "Load and validate every rule; exit 1 when any fails",
+		Example: "  pitcard rules check",
+		Args:    cobra.NoArgs,
+		RunE: func(cmd *cobra.Command, _ []string) error {
+			e, err := g.open(cmd)
+			if err != nil {
+				return err
+			}
+			rules, err := scripts.Load(e.FS, e.Settings.RuleLimits)
+			if err != nil {
+				return err
+			}
+			bad := 0
+			for _, r := range rules {
+				switch {
+				case r.Err != nil:
+					bad++
+					fmt.Fprintf(s.Out, "FAIL  %s\n", r.Err)
+				case len(r.Defines) == 0:
+					bad++
+					fmt.Fprintf(s.Out, "FAIL  %s: defines none of dial, checks, notes\n", r.File)
+				default:
+					fmt.Fprintf(s.Out, "ok    %s (%s)\n", r.File, strings.Join(r.Defines, ", "))
+				}
+			}
+			if bad > 0 {
+				return fmt.Errorf("%d of %s failed", bad, plural(len(rules), "rule"))
+			}
+			fmt.Fprintf(s.Out, "All %s load.\n", plural(len(rules), "rule"))
+			return nil
+		},
+	}
+}
+
+type rulesTryOptions struct {
+	g     *globalOptions
+	s     *IOStreams
+	round roundFlags
+}
+
+func newRulesTryCmd(s *IOStreams, g *globalOptions) *cobra.Command {
+	o := &rulesTryOptions{g: g, s: s}
+	cmd := &cobra.Command{
+		Use:   "try",
+		Short: "Run every rule on given conditions and show what each returned, its log and its run time",
+		Long: `Gathers a round as the card would (the prediction, the dial options) for the
+conditions given, runs every rule on it, and prints what each returned: its
+dial adjustment and reason, its checklist items, its notes, the lines it
+logged with pit.log or print, and how long it took.`,
+		Example: "  pitcard rules try --round 3 --lane left --at 20:45\n  pitcard rules try --round E2 --lane right --temp 88F --baro 27.55inHg --humidity 30% --track-temp 135F",
+		Args:    cobra.NoArgs,
+		RunE:    func(cmd *cobra.Command, _ []string) error { return rulesTryRun(cmd, o) },
+	}
+	o.round.bind(cmd)
+	return cmd
+}
+
+func rulesTryRun(cmd *cobra.Command, o *rulesTryOptions) error {
+	e, err := o.g.open(cmd)
+	if err != nil {
+		return err
+	}
+	in, warnings, err := roundInput(e, o.round, o.s.Now())
+	if err != nil {
+		return err
+	}
+	for _, w := range warnings {
+		fmt.Fprintln(o.s.Err, "pitcard: warning:", w)
+	}
+	c := prep.Gather(in)
+	w := o.s.Out
+	fmt.Fprintf(w, "%s, called %s. Recommended dial before the rules: %s.\n", c.Title, in.Call.Format("15:04"), recommendedText(c))
+	for _, r := range c.Rules {
+		fmt.Fprintf(w, "\n%s (%s) took %.1f ms\n", r.File, strings.Join(r.Defines, ", "), float64(r.Took.Microseconds())/1000)
+		if r.HasAdjust {
+			fmt.Fprintf(w, "  dial %s s: %s\n", signedDecimal(r.Adjust), r.Reason)
+		}
+		for _, ch := range r.Checks {
+			fmt.Fprintf(w, "  [%s] %s", ch.Status, ch.Label)
+			if ch.Note != "" {
+				fmt.Fprintf(w, ": %s", ch.Note)
+			}
+			fmt.Fprintln(w)
+		}
+		for _, n := range r.Notes {
+			fmt.Fprintf(w, "  note: %s\n", n)
+		}
+		for _, l := range r.Log {
+			fmt.Fprintf(w, "  log: %s\n", l)
+		}
+	}
+	if c.HasFinal {
+		fmt.Fprintf(w, "\nRules add %s s: final dial %s.\n", signedDecimal(c.TotalAdjust), c.FinalDial.StringFixed(2))
+	}
+	if c.AdjustFlag != "" {
+		fmt.Fprintln(w, "Flag: "+c.AdjustFlag)
+	}
+	return nil
+}
+
+func recommendedText(c prep.Card) string {
+	if c.PlanErr != nil || len(c.Plan.Options) == 0 {
+		return "none (no prediction)"
+	}
+	return c.Plan.Recommended.StringFixed(2)
+}

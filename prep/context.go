@@ -1,0 +1,148 @@
+package prep
+
+import (
+	"math"
+
+	"pitcard/engine"
+	"pitcard/scripts"
+)
+
+// RecentPasses is how many of the last passes the rules see.
+const RecentPasses = 10
+
+// RuleContext is the ctx a rule sees: plain, read-only data.
+//
+//	ctx.air         the keys of `pitcard air` (track_temp_f and headwind_mph when known)
+//	ctx.track       name, elevation_ft, heading_deg, prep
+//	ctx.car         every key of car.yaml, the crew's own keys included
+//	ctx.round       session ("E3"), kind ("elimination", "time trial", "test"),
+//	                number, lane ("left", "right" or nil), opponent_dial,
+//	                date ("2026-06-13"), call_time ("20:45"), call_hour (20.75),
+//	                minutes_to_call
+//	ctx.prediction  et, sd, low, high (the finish), mph, mph_low, mph_high,
+//	                physics_only, timers {distance_ft, et, low, high},
+//	                traps {distance_ft, mph, low, high}, et_per_1000ft_da
+//	ctx.dial        recommended (number), recommended_text ("11.46"), step,
+//	                breakout_risk, breakout_chance
+//	ctx.passes      the last 10 passes, most recent first: date, time,
+//	                session, lane, dial, rt, et60 ... et1320, mph660, mph1320,
+//	                temp_f, track_temp_f, density_altitude_ft, notes
+func RuleContext(c Card) map[string]any {
+	in := c.Input
+	air := scripts.AirFigures(c.AirCall, in.Air)
+	if in.Track.Name != "" {
+		air["headwind_mph"] = in.Air.HeadwindComponent(in.Track.HeadingDeg).MPH()
+	}
+	car := map[string]any{}
+	for k, v := range in.Car.Extra {
+		car[k] = plain(v)
+	}
+	for k, v := range map[string]any{"name": in.Car.Name, "weight_lb": in.Car.WeightLb, "power_hp": in.Car.PowerHP,
+		"induction": string(in.Car.Induction), "distance_ft": in.Car.DistanceFt, "tire": in.Car.Tire, "nitrous_hp": in.Car.NitrousHP} {
+		car[k] = v
+	}
+	kind := map[engine.SessionKind]string{engine.TimeTrial: "time trial", engine.Elimination: "elimination", engine.Test: "test"}[in.Session.Kind]
+	round := map[string]any{
+		"session": in.Session.String(), "kind": kind, "number": in.Session.N,
+		"date": in.Call.Format("2006-01-02"), "call_time": in.Call.Format("15:04"),
+		"call_hour":       float64(in.Call.Hour()) + float64(in.Call.Minute())/60,
+		"minutes_to_call": math.Round(c.MinutesToGo),
+	}
+	if in.Lane != "" {
+		round["lane"] = string(in.Lane)
+	}
+	if in.OpponentDial.Valid {
+		round["opponent_dial"] = in.OpponentDial.Decimal.InexactFloat64()
+	}
+	ctx := map[string]any{
+		"air":   air,
+		"track": map[string]any{"name": in.Track.Name, "elevation_ft": in.Track.ElevationFt, "heading_deg": in.Track.HeadingDeg, "prep": engine.PrepName(in.Prep)},
+		"car":   car,
+		"round": round,
+	}
+	if p := c.Prediction; len(p.Timers) > 0 {
+		f := p.Finish()
+		pred := map[string]any{"et": f.ET, "sd": f.SD, "low": f.Low, "high": f.High, "physics_only": p.PhysicsOnly,
+			"et_per_1000ft_da": p.Sensitivity.PerKDA}
+		var timers, traps []any
+		for _, t := range p.Timers {
+			timers = append(timers, map[string]any{"distance_ft": t.DistanceFt, "et": t.ET, "low": t.Low, "high": t.High})
+		}
+		for _, t := range p.Traps {
+			traps = append(traps, map[string]any{"distance_ft": t.DistanceFt, "mph": t.MPH, "low": t.Low, "high": t.High})
+			pred["mph"], pred["mph_low"], pred["mph_high"] = t.MPH, t.Low, t.High // the finish trap is last
+		}
+		pred["timers"], pred["traps"] = timers, traps
+		ctx["prediction"] = pred
+	}
+	if c.PlanErr == nil && len(c.Plan.Options) > 0 {
+		ctx["dial"] = map[string]any{"recommended": c.Plan.Recommended.InexactFloat64(), "recommended_text": c.Plan.Recommended.StringFixed(2),
+			"step": c.Plan.Step.String(), "breakout_risk": c.Plan.Risk,
+			"breakout_chance": engine.BreakoutChance(c.Plan.Estimate, c.Plan.Recommended)}
+	}
+	var passes []any
+	for i := len(in.Passes) - 1; i >= 0 && len(passes) < RecentPasses; i-- {
+		passes = append(passes, passMap(in.Passes[i]))
+	}
+	ctx["passes"] = passes
+	return ctx
+}
+
+func passMap(p engine.Pass) map[string]any {
+	m := map[string]any{"date": p.Time.Format("2006-01-02"), "time": p.Time.Format("15:04"), "session": p.Session.String(),
+		"lane": string(p.Lane), "notes": p.Notes, "track": p.Track}
+	if p.Dial.Valid {
+		m["dial"] = p.Dial.Decimal.InexactFloat64()
+	}
+	if p.RT.Valid {
+		m["rt"] = p.RT.Decimal.InexactFloat64()
+	}
+	for i, ft := range engine.Timers {
+		if p.ET[i].Valid {
+			m["et"+itoa(ft)] = p.ET[i].Decimal.InexactFloat64()
+		}
+	}
+	if p.MPH660.Valid {
+		m["mph660"] = p.MPH660.Decimal.InexactFloat64()
+	}
+	if p.MPH1320.Valid {
+		m["mph1320"] = p.MPH1320.Decimal.InexactFloat64()
+	}
+	if p.HasAir {
+		m["temp_f"] = p.Air.Temp.Fahrenheit()
+		m["density_altitude_ft"] = p.Air.Derive(0).DensityAltitude.Feet()
+	}
+	if p.Air.HasTrack {
+		m["track_temp_f"] = p.Air.TrackTemp.Fahrenheit()
+	}
+	return m
+}
+
+func itoa(ft float64) string {
+	return map[float64]string{60: "60", 330: "330", 660: "660", 1000: "1000", 1320: "1320"}[ft]
+}
+
+// plain turns YAML values into the plain data the rules take.
+func plain(v any) any {
+	switch x := v.(type) {
+	case map[string]any:
+		m := map[string]any{}
+		for k, e := range x {
+			m[k] = plain(e)
+		}
+		return m
+	case []any:
+		out := make([]any, len(x))
+		for i, e := range x {
+			out[i] = plain(e)
+		}
+		return out
+	case int:
+		return float64(x)
+	case uint64:
+		return float64(x)
+	case float32:
+		return float64(x)
+	}
+	return v
+}

@@ -1,0 +1,220 @@
+// Package prep is the per-round prep card: it gathers everything a crew
+// needs for one round (the air now and at the call, the prediction, the dial
+// options, what the crew's rules say, the checklist, today's record and the
+// cautions) and renders it for the terminal, Markdown, HTML and JSON.
+//
+// It reads no files or flags: the caller hands it the event's data.
+package prep
+
+import (
+	"fmt"
+	"io/fs"
+	"math"
+	"sort"
+	"strings"
+	"time"
+
+	"github.com/shopspring/decimal"
+
+	"pitcard/engine"
+	"pitcard/scripts"
+	"pitcard/weather"
+)
+
+// Cautions are printed on every card, whatever else fails.
+var Cautions = []string{
+	"Drag racing can kill. These predictions are estimates from data and physics, not promises.",
+	"Safety equipment (cage, belts, parachute, fire system) and the ET and MPH limits your chassis is certified for are set by the sanctioning body's current rulebook and the track's tech inspection, not by pitcard.",
+	"pitcard's safety checks only compare the prediction with the limits you entered for your own car: verify them with the current rulebook and at tech.",
+}
+
+// Settings are the event's settings the card uses.
+type Settings struct {
+	Units         weather.Units
+	DialStep      decimal.Decimal
+	BreakoutRisk  float64
+	MaxRuleAdjust decimal.Decimal // a total rule adjustment beyond ± this is flagged
+	RuleLimits    scripts.Limits
+}
+
+// Input is everything the card is made from.
+type Input struct {
+	Car      engine.Car
+	Track    engine.Track
+	Tracks   map[string]engine.Track
+	Passes   []engine.Pass
+	Settings Settings
+
+	Session      engine.Session
+	Lane         engine.Lane // "" when not known
+	OpponentDial decimal.NullDecimal
+	Call         time.Time // when the round is called
+	Now          time.Time // the crew's clock
+
+	Air       weather.Reading // the air of the pass (forecast for the call, or a reading)
+	AirSource string
+	AirNow    *weather.Reading // the latest reading, when the air is a forecast
+	Forecast  *weather.Forecast
+	Elevation weather.Length
+	Prep      float64
+	WeightLb  float64
+
+	Rules   []*scripts.Rule
+	RulesFS fs.FS
+}
+
+// RuleLine is one rule's dial adjustment.
+type RuleLine struct {
+	File   string
+	Adjust decimal.Decimal
+	Reason string
+}
+
+// RecordLine is one earlier pass of the day: what the model predicted for it
+// from the passes before it, and what the car ran.
+type RecordLine struct {
+	Pass      engine.Pass
+	Predicted float64 // s; NaN when it could not be predicted
+	Actual    float64
+	Error     float64 // actual − predicted
+}
+
+// Card is one round's prep card, every figure computed.
+type Card struct {
+	Input        Input
+	Title        string
+	MinutesToGo  float64 // minutes from Now to Call (negative: already called)
+	AirNow       weather.Air
+	AirNowRead   weather.Reading
+	AirCall      weather.Air
+	Prediction   engine.Prediction
+	Fit          engine.Fit
+	Plan         engine.DialPlan
+	PlanErr      error
+	Rules        []scripts.Result
+	Adjustments  []RuleLine
+	TotalAdjust  decimal.Decimal
+	AdjustFlag   string // set when the total is beyond the setting
+	FinalDial    decimal.Decimal
+	HasFinal     bool
+	Checks       []scripts.Check
+	Notes        []string
+	Record       []RecordLine
+	RecordMAE    float64
+	Problems     []string // what could not be computed, in words; the rest still prints
+	Cautions     []string
+	RuleContext  map[string]any
+	GatheredTook time.Duration
+}
+
+// Gather computes the card. It never fails: what cannot be computed is said
+// in Problems, and the rest of the card is still there.
+func Gather(in Input) Card {
+	start := time.Now()
+	c := Card{Input: in, Cautions: Cautions}
+	c.Title = strings.ToUpper(in.Session.Long()[:1]) + in.Session.Long()[1:]
+	if in.Lane != "" {
+		c.Title += ", " + string(in.Lane) + " lane"
+	} else {
+		c.Title += " (lane not set)"
+	}
+	c.MinutesToGo = in.Call.Sub(in.Now).Minutes()
+	c.AirCall = in.Air.Derive(in.Elevation)
+	c.AirNowRead = in.Air
+	if in.AirNow != nil {
+		c.AirNowRead = *in.AirNow
+	}
+	c.AirNow = c.AirNowRead.Derive(in.Elevation)
+
+	cal := engine.CalibrateInput{Car: in.Car, Track: in.Track, Tracks: in.Tracks, Passes: in.Passes, Now: latest(in.Now, in.Call, in.Passes)}
+	fit, err := engine.Calibrate(cal)
+	if err != nil {
+		c.Problems = append(c.Problems, "no prediction: "+err.Error())
+	} else {
+		c.Fit = fit
+		c.Prediction = engine.Predict(fit, engine.PredictInput{Air: in.Air, Prep: in.Prep, WeightLb: in.WeightLb, Time: in.Call})
+		c.Plan, c.PlanErr = engine.PlanDial(c.Prediction.Estimate(), in.Settings.DialStep, in.Settings.BreakoutRisk, 4)
+		if c.PlanErr != nil {
+			c.Problems = append(c.Problems, "no dial table: "+c.PlanErr.Error())
+		}
+		c.Record, c.RecordMAE = todaysRecord(fit, cal, in)
+	}
+
+	c.RuleContext = RuleContext(c)
+	c.Rules = scripts.Run(in.Rules, in.RulesFS, c.RuleContext, in.Settings.RuleLimits)
+	for _, r := range c.Rules {
+		if r.HasAdjust {
+			c.Adjustments = append(c.Adjustments, RuleLine{File: r.File, Adjust: r.Adjust, Reason: r.Reason})
+			c.TotalAdjust = c.TotalAdjust.Add(r.Adjust)
+		}
+		c.Checks = append(c.Checks, r.Checks...)
+		c.Notes = append(c.Notes, r.Notes...)
+	}
+	if lim := in.Settings.MaxRuleAdjust; lim.IsPositive() && c.TotalAdjust.Abs().GreaterThan(lim) {
+		c.AdjustFlag = fmt.Sprintf("the rules add up to %s s, beyond the ±%s s the settings allow without a second look (max_rule_adjust)",
+			signedDec(c.TotalAdjust), lim.String())
+		c.Checks = append([]scripts.Check{{Label: "Rule adjustments", Status: scripts.Warn, Note: c.AdjustFlag, File: "pitcard"}}, c.Checks...)
+	}
+	if c.PlanErr == nil && err == nil {
+		c.FinalDial = engine.RoundToStep(c.Plan.Recommended.Add(c.TotalAdjust), in.Settings.DialStep)
+		c.HasFinal = true
+	}
+	c.GatheredTook = time.Since(start)
+	return c
+}
+
+func latest(ts ...any) time.Time {
+	var t time.Time
+	for _, x := range ts {
+		switch v := x.(type) {
+		case time.Time:
+			if v.After(t) {
+				t = v
+			}
+		case []engine.Pass:
+			if len(v) > 0 && v[len(v)-1].Time.After(t) {
+				t = v[len(v)-1].Time
+			}
+		}
+	}
+	return t
+}
+
+// todaysRecord backcasts each earlier pass of the call's day at the track.
+func todaysRecord(fit engine.Fit, cal engine.CalibrateInput, in Input) ([]RecordLine, float64) {
+	var out []RecordLine
+	var sum float64
+	n := 0
+	y, m, d := in.Call.Date()
+	for _, p := range in.Passes {
+		py, pm, pd := p.Time.Date()
+		if py != y || pm != m || pd != d || !p.Time.Before(in.Call) {
+			continue
+		}
+		et, ok := p.ETAt(in.Car.DistanceFt)
+		if !ok {
+			continue
+		}
+		line := RecordLine{Pass: p, Actual: et, Predicted: math.NaN(), Error: math.NaN()}
+		if pr, ok := engine.Backcast(fit, p, cal); ok {
+			line.Predicted, line.Error = pr.ET, et-pr.ET
+			if !engine.Aborted(p.Notes) {
+				sum += math.Abs(line.Error)
+				n++
+			}
+		}
+		out = append(out, line)
+	}
+	sort.SliceStable(out, func(i, j int) bool { return out[i].Pass.Time.Before(out[j].Pass.Time) })
+	if n == 0 {
+		return out, math.NaN()
+	}
+	return out, sum / float64(n)
+}
+
+func signedDec(d decimal.Decimal) string {
+	if d.IsNegative() {
+		return d.StringFixed(2)
+	}
+	return "+" + d.StringFixed(2)
+}

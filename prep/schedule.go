@@ -1,0 +1,103 @@
+package prep
+
+import (
+	"errors"
+	"fmt"
+	"io"
+	"strings"
+	"time"
+
+	"go.yaml.in/yaml/v3"
+
+	"pitcard/engine"
+	"pitcard/weather"
+)
+
+// Schedule is a race day's schedule.yaml: when each session is called.
+//
+//	date: 2026-06-13
+//	sessions:
+//	  - {session: T1, call: "15:10"}
+//	  - {session: E1, call: "19:15", lane: left}
+type Schedule struct {
+	Date     time.Time
+	Sessions []Slot
+}
+
+// Slot is one session of the schedule.
+type Slot struct {
+	Session engine.Session
+	Call    time.Time
+	Lane    engine.Lane // "" when not known in advance
+}
+
+// ReadSchedule reads a schedule.yaml; name is the file's name for messages.
+func ReadSchedule(r io.Reader, name string, loc *time.Location) (Schedule, error) {
+	var raw struct {
+		Date     string `yaml:"date"`
+		Sessions []struct {
+			Session string `yaml:"session"`
+			Call    string `yaml:"call"`
+			Lane    string `yaml:"lane"`
+		} `yaml:"sessions"`
+	}
+	dec := yaml.NewDecoder(r)
+	dec.KnownFields(true)
+	if err := dec.Decode(&raw); err != nil && !errors.Is(err, io.EOF) {
+		return Schedule{}, &weather.InputError{File: name, Field: "yaml", Reason: strings.TrimPrefix(err.Error(), "yaml: ")}
+	}
+	var s Schedule
+	d, err := time.ParseInLocation(weather.DateLayout, strings.TrimSpace(raw.Date), loc)
+	if err != nil {
+		return s, &weather.InputError{File: name, Field: "date", Value: raw.Date, Reason: "is not a date (YYYY-MM-DD)"}
+	}
+	s.Date = d
+	for i, x := range raw.Sessions {
+		where := fmt.Sprintf("sessions[%d].", i)
+		ses, err := engine.ParseSession(x.Session)
+		if err != nil {
+			return s, err.(*weather.InputError).Named(where+"session").At(name, 0)
+		}
+		call, err := weather.ParseClock(x.Call, d, loc)
+		if err != nil {
+			return s, err.(*weather.InputError).Named(where+"call").At(name, 0)
+		}
+		slot := Slot{Session: ses, Call: call}
+		if x.Lane != "" {
+			if slot.Lane, err = engine.ParseLane(x.Lane); err != nil {
+				return s, err.(*weather.InputError).Named(where+"lane").At(name, 0)
+			}
+		}
+		s.Sessions = append(s.Sessions, slot)
+	}
+	return s, nil
+}
+
+// Find is the slot of a session, and whether the schedule has it.
+func (s Schedule) Find(ses engine.Session) (Slot, bool) {
+	for _, x := range s.Sessions {
+		if x.Session == ses {
+			return x, true
+		}
+	}
+	return Slot{}, false
+}
+
+// Next is the first session of the schedule the logbook has no pass for on
+// the schedule's date, and whether there is one.
+func (s Schedule) Next(passes []engine.Pass) (Slot, bool) {
+	run := map[engine.Session]bool{}
+	y, m, d := s.Date.Date()
+	for _, p := range passes {
+		py, pm, pd := p.Time.Date()
+		if py == y && pm == m && pd == d {
+			run[p.Session] = true
+		}
+	}
+	for _, x := range s.Sessions {
+		if !run[x.Session] {
+			return x, true
+		}
+	}
+	return Slot{}, false
+}

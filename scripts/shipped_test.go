@@ -1,0 +1,144 @@
+package scripts
+
+import (
+	"io/fs"
+	"strings"
+	"testing"
+)
+
+func shippedRule(t *testing.T, name string) *Rule {
+	t.Helper()
+	src, err := fs.ReadFile(Shipped(), "rules/"+name)
+	if err != nil {
+		t.Fatal(err)
+	}
+	r := Compile("rules/"+name, string(src), Shipped(), DefaultLimits)
+	if r.Err != nil {
+		t.Fatal(r.Err)
+	}
+	return r
+}
+
+func runWith(t *testing.T, r *Rule, ctx map[string]any) Result {
+	t.Helper()
+	res := Run([]*Rule{r}, Shipped(), ctx, DefaultLimits)[0]
+	if len(res.Errors) > 0 {
+		t.Fatalf("%s: %v", r.File, res.Errors[0])
+	}
+	return res
+}
+
+func TestShippedRulesLoad(t *testing.T) {
+	rules, err := Load(Shipped(), DefaultLimits)
+	if err != nil || len(rules) != 5 {
+		t.Fatalf("%d rules, %v", len(rules), err)
+	}
+	for _, r := range rules {
+		if r.Err != nil || len(r.Defines) == 0 {
+			t.Errorf("%s: %v, defines %v", r.File, r.Err, r.Defines)
+		}
+	}
+}
+
+func TestLaneTimeRule(t *testing.T) {
+	r := shippedRule(t, "10-lane-time.lua")
+	if res := runWith(t, r, ctxFor("left", 20.75, 100)); !res.HasAdjust || res.Adjust.String() != "-0.01" || !strings.Contains(res.Reason, "left lane after 20:30") {
+		t.Errorf("left after dark: %+v", res)
+	}
+	for _, c := range []map[string]any{ctxFor("right", 21, 100), ctxFor("left", 19.5, 100)} {
+		if res := runWith(t, r, c); res.HasAdjust {
+			t.Errorf("adjusted %+v", res)
+		}
+	}
+}
+
+func TestTrackTempRule(t *testing.T) {
+	r := shippedRule(t, "20-track-temp.lua")
+	if res := runWith(t, r, ctxFor("left", 15, 135)); !res.HasAdjust || res.Adjust.String() != "0.02" || !strings.Contains(res.Reason, "135 °F") {
+		t.Errorf("hot: %+v", res)
+	}
+	if res := runWith(t, r, ctxFor("left", 15, 125)); res.HasAdjust {
+		t.Errorf("125 °F adjusted: %+v", res)
+	}
+	if res := runWith(t, r, ctxFor("left", 15, 0)); res.HasAdjust || len(res.Log) != 1 {
+		t.Errorf("no track temp: %+v", res)
+	}
+}
+
+func statusOf(res Result, label string) (string, string) {
+	for _, c := range res.Checks {
+		if c.Label == label {
+			return c.Status, c.Note
+		}
+	}
+	return "", ""
+}
+
+func TestSafetyRule(t *testing.T) {
+	r := shippedRule(t, "30-safety.lua")
+	c := ctxFor("left", 20, 100) // predicted low 11.45 against a 10.00 limit, 118.3 mph high, chute needed from 150
+	res := runWith(t, r, c)
+	if st, _ := statusOf(res, "ET limit"); st != Pass {
+		t.Errorf("ET limit %s", st)
+	}
+	if st, _ := statusOf(res, "Parachute"); st != Pass {
+		t.Errorf("parachute %s", st)
+	}
+	if st, _ := statusOf(res, "Belts"); st != Pass {
+		t.Errorf("belts %s", st)
+	}
+	if st, note := statusOf(res, "Rulebook and tech"); st != Confirm || !strings.Contains(note, "rulebook") {
+		t.Errorf("rulebook item %s %q", st, note)
+	}
+	car := c["car"].(map[string]any)
+	car["limit_et"] = 11.50
+	car["belts_expire"] = "2026-05"
+	car["chute_needed_mph"] = 118.0
+	res = runWith(t, r, c)
+	if st, note := statusOf(res, "ET limit"); st != Fail || !strings.Contains(note, "11.45") {
+		t.Errorf("ET over the limit: %s %q", st, note)
+	}
+	if st, _ := statusOf(res, "Belts"); st != Fail {
+		t.Errorf("expired belts: %s", st)
+	}
+	if st, _ := statusOf(res, "Parachute"); st != Fail {
+		t.Errorf("no chute at 118 mph: %s", st)
+	}
+	car["limit_et"] = 11.40
+	if st, _ := statusOf(runWith(t, r, c), "ET limit"); st != Warn {
+		t.Errorf("within 0.1 s: %s", st)
+	}
+	delete(car, "limit_et")
+	if st, note := statusOf(runWith(t, r, c), "ET limit"); st != Warn || !strings.Contains(note, "no limit_et") {
+		t.Errorf("no limit: %s %q", st, note)
+	}
+}
+
+func TestTirePressureRule(t *testing.T) {
+	r := shippedRule(t, "40-tire-pressure.lua")
+	cases := map[float64]string{75: "16.5 psi", 95: "16.0 psi", 118: "15.5 psi", 135: "15.0 psi", 150: "14.5 psi", 0: "no track temperature"}
+	for track, want := range cases {
+		res := runWith(t, r, ctxFor("left", 15, track))
+		if len(res.Notes) != 1 || !strings.Contains(res.Notes[0], want) {
+			t.Errorf("track %v: %v, want %q", track, res.Notes, want)
+		}
+	}
+}
+
+func TestPrestageRule(t *testing.T) {
+	r := shippedRule(t, "50-prestage.lua")
+	res := runWith(t, r, ctxFor("left", 15, 100))
+	if len(res.Checks) != 6 {
+		t.Errorf("%d items", len(res.Checks))
+	}
+	for _, c := range res.Checks {
+		if c.Status != Confirm {
+			t.Errorf("%q is %s, want confirm", c.Label, c.Status)
+		}
+	}
+	c := ctxFor("left", 15, 100)
+	c["car"].(map[string]any)["chute"] = true
+	if res := runWith(t, r, c); len(res.Checks) != 7 {
+		t.Errorf("with a chute: %d items", len(res.Checks))
+	}
+}
