@@ -66,6 +66,7 @@ Try it on the built-in demo event first: pitcard air --demo`,
 		newDialCmd(s, g),
 		newPredictCmd(s, g),
 		newRulesCmd(s, g),
+		newCardCmd(s, g),
 	)
 	return root
 }

@@ -119,6 +119,9 @@ func WriteNoBackup(path string, data []byte) error {
 		err = cerr
 	}
 	if err == nil {
+		err = os.Chmod(tmp.Name(), 0o644)
+	}
+	if err == nil {
 		err = os.Rename(tmp.Name(), path)
 	}
 	if err != nil {

@@ -1,0 +1,151 @@
+package prep
+
+import (
+	"bytes"
+	"fmt"
+	"io"
+	"io/fs"
+	"math/rand/v2"
+	"strings"
+	"testing"
+	"testing/fstest"
+	"time"
+
+	"github.com/shopspring/decimal"
+
+	"pitcard/engine"
+	"pitcard/scripts"
+	"pitcard/weather"
+)
+
+var (
+	testTrack = engine.Track{Name: "Test Strip", ElevationFt: 900, HeadingDeg: 90, Prep: "full"}
+	testCar   = engine.Car{Name: "test car", WeightLb: 3350, PowerHP: 480, Induction: engine.Natural, DistanceFt: 1320,
+		Extra: map[string]any{"limit_et": 10.0, "chute": false}}
+)
+
+// logbook makes n passes from the model with a driver's scatter (invented
+// data for the tests; the physics is the model's own).
+func logbook(n int) []engine.Pass {
+	rng := rand.New(rand.NewPCG(4, 2))
+	v := engine.NewVehicle(testCar, 0)
+	start := time.Date(2020, 4, 1, 14, 0, 0, 0, time.UTC)
+	out := make([]engine.Pass, 0, n)
+	for i := range n {
+		tm := start.Add(time.Duration(i/10)*24*time.Hour + time.Duration(i%10)*40*time.Minute)
+		r := weather.Reading{Time: tm, Temp: weather.Fahrenheit(70 + 25*rng.Float64()), Baro: weather.InHg(28.6 + 0.6*rng.Float64()),
+			RH: 0.2 + 0.5*rng.Float64(), TrackTemp: weather.Fahrenheit(80 + 50*rng.Float64()), HasTrack: true}
+		run := engine.Simulate(&v, engine.DefaultParams(engine.Natural), engine.NewEnv(r, 90, 1, v.MassKg), 1320)
+		p := engine.Pass{Time: tm, Track: testTrack.Name, Session: engine.Session{Kind: engine.TimeTrial, N: i%10 + 1}, Lane: engine.Left, Air: r, HasAir: true}
+		for j := range engine.Timers {
+			p.ET[j] = decimal.NewNullDecimal(decimal.NewFromFloat(run.ET[j] + rng.NormFloat64()*0.01).Round(3))
+		}
+		p.MPH1320 = decimal.NewNullDecimal(decimal.NewFromFloat(run.MPH1320).Round(2))
+		out = append(out, p)
+	}
+	return out
+}
+
+func input(passes []engine.Pass, rules []*scripts.Rule, fsys fs.FS) Input {
+	last := passes[len(passes)-1].Time
+	air := passes[len(passes)-1].Air
+	air.Time = last.Add(time.Hour)
+	return Input{Car: testCar, Track: testTrack, Passes: passes,
+		Settings: Settings{Units: weather.Imperial, DialStep: decimal.New(1, -2), BreakoutRisk: 0.1, MaxRuleAdjust: decimal.New(5, -2), RuleLimits: scripts.DefaultLimits},
+		Session:  engine.Session{Kind: engine.Elimination, N: 2}, Lane: engine.Left, Call: air.Time, Now: air.Time.Add(-10 * time.Minute),
+		Air: air, AirSource: "the test reading", Elevation: testTrack.Elevation(), Prep: 1, Rules: rules, RulesFS: fsys}
+}
+
+func rulesFS(srcs map[string]string) (fs.FS, []*scripts.Rule) {
+	m := fstest.MapFS{}
+	for name, src := range srcs {
+		m["rules/"+name] = &fstest.MapFile{Data: []byte(src)}
+	}
+	rules, _ := scripts.Load(m, scripts.DefaultLimits)
+	return m, rules
+}
+
+// The rules' adjustments add up, the final dial is on the step, a total
+// beyond the setting is flagged, and a failing rule is a failed check while
+// the card goes on. The cautions are always there.
+func TestGather(t *testing.T) {
+	fsys, rules := rulesFS(map[string]string{
+		"a.lua": "function dial(ctx) return -0.04, 'a' end",
+		"b.lua": "function dial(ctx) return -0.03, 'b' end",
+		"c.lua": "function dial(ctx)\n  error('boom')\nend",
+		"d.lua": "function checks(ctx) return {{label='ET', status=ctx.prediction.low > ctx.car.limit_et and 'pass' or 'fail'}} end",
+	})
+	c := Gather(input(logbook(60), rules, fsys))
+	if !c.TotalAdjust.Equal(decimal.RequireFromString("-0.07")) || c.AdjustFlag == "" {
+		t.Errorf("total %s, flag %q", c.TotalAdjust, c.AdjustFlag)
+	}
+	if !c.HasFinal || !c.FinalDial.Equal(c.Plan.Recommended.Add(decimal.RequireFromString("-0.07"))) {
+		t.Errorf("final %s from %s", c.FinalDial, c.Plan.Recommended)
+	}
+	var failed, et bool
+	for _, ch := range c.Checks {
+		if ch.Status == scripts.Fail && strings.Contains(ch.Note, "rules/c.lua:2: boom") {
+			failed = true
+		}
+		if ch.Label == "ET" && ch.Status == scripts.Pass {
+			et = true
+		}
+	}
+	if !failed || !et {
+		t.Errorf("checks %+v", c.Checks)
+	}
+	var buf bytes.Buffer
+	for _, render := range []func(io.Writer, Card) error{
+		func(w io.Writer, c Card) error { return RenderText(w, c, false) }, RenderMarkdown, RenderHTML, RenderJSON,
+	} {
+		buf.Reset()
+		if err := render(&buf, c); err != nil {
+			t.Fatal(err)
+		}
+		if !strings.Contains(buf.String(), "Drag racing can kill") {
+			t.Errorf("a rendering lacks the cautions")
+		}
+	}
+}
+
+// With no logbook the card still prints: physics alone, and it says so.
+func TestGatherWithoutALogbook(t *testing.T) {
+	in := input(logbook(1), nil, nil)
+	in.Passes = nil
+	c := Gather(in)
+	if !c.Prediction.PhysicsOnly || !c.HasFinal {
+		t.Errorf("physics only %v, final %v, problems %v", c.Prediction.PhysicsOnly, c.HasFinal, c.Problems)
+	}
+	in.Car.PowerHP = 0 // and no power: no prediction, the card still renders
+	c = Gather(in)
+	if len(c.Problems) == 0 || c.HasFinal {
+		t.Errorf("no power, no passes: problems %v", c.Problems)
+	}
+	var buf bytes.Buffer
+	if err := RenderText(&buf, c, false); err != nil || !strings.Contains(buf.String(), "NO DIAL") || !strings.Contains(buf.String(), "PROBLEM") {
+		t.Errorf("render: %v\n%s", err, buf.String())
+	}
+}
+
+func BenchmarkCard5000Passes20Rules(b *testing.B) {
+	passes := logbook(5000)
+	m := fstest.MapFS{}
+	shipped, _ := fs.Glob(scripts.Shipped(), "rules/*.lua")
+	for i := range 20 {
+		data, _ := fs.ReadFile(scripts.Shipped(), shipped[i%len(shipped)])
+		m[fmt.Sprintf("rules/%02d.lua", i)] = &fstest.MapFile{Data: data}
+	}
+	rules, _ := scripts.Load(m, scripts.DefaultLimits)
+	in := input(passes, rules, m)
+	var buf bytes.Buffer
+	for b.Loop() {
+		c := Gather(in)
+		buf.Reset()
+		if err := RenderText(&buf, c, false); err != nil {
+			b.Fatal(err)
+		}
+		if err := RenderHTML(&buf, c); err != nil {
+			b.Fatal(err)
+		}
+	}
+}

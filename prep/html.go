@@ -1,0 +1,81 @@
+package prep
+
+import (
+	"fmt"
+	"html/template"
+	"io"
+	"strings"
+)
+
+// RenderHTML writes the card as one self-contained HTML page (no network: the
+// style and the chart are inline) that prints on one Letter or A4 page.
+func RenderHTML(w io.Writer, c Card) error {
+	v := newView(c)
+	data := struct {
+		V     view
+		Chart template.HTML
+		Sub   string
+	}{V: v, Chart: template.HTML(Chart(c)), Sub: strings.Join(v.Subtitle, " · ")}
+	return cardHTML.Execute(w, data)
+}
+
+var cardHTML = template.Must(template.New("card").Funcs(template.FuncMap{
+	"status": statusWord,
+	"cls":    func(s string) string { return "st-" + s },
+	"marked": func(t table, i int) bool { return i == t.Marked },
+	"join":   strings.Join,
+	"pct":    func(f float64) string { return fmt.Sprintf("%.1f %%", 100*f) },
+}).Parse(`<!DOCTYPE html>
+<html lang="en"><head><meta charset="utf-8">
+<title>pitcard: {{.V.Title}}</title>
+<style>
+@page { size: auto; margin: 8mm; }
+* { box-sizing: border-box; }
+body { font: 9.5px/1.3 "DejaVu Sans", "Helvetica Neue", Arial, sans-serif; color: #111; margin: 0 auto; max-width: 194mm; }
+h1 { font-size: 16px; margin: 0; }
+.sub { color: #333; margin: 1px 0 4px; }
+.top { display: flex; gap: 8px; align-items: stretch; }
+.dial { border: 3px solid #111; padding: 4px 10px; text-align: center; min-width: 52mm; }
+.dial .label { font-size: 10px; font-weight: bold; }
+.dial .num { font-size: 44px; font-weight: bold; line-height: 1; }
+.dial ul { text-align: left; margin: 3px 0 0; padding-left: 12px; }
+.alert { color: #a00; font-weight: bold; }
+.grid { display: grid; grid-template-columns: 1fr 1fr; gap: 4px 10px; margin-top: 4px; }
+table { border-collapse: collapse; width: 100%; }
+caption { text-align: left; font-weight: bold; font-size: 10.5px; padding: 2px 0; }
+th, td { border-bottom: 1px solid #ccc; padding: 1px 3px; text-align: left; vertical-align: top; }
+td.n, th.n { text-align: right; }
+tr.mark td { font-weight: bold; background: #eee; }
+ul.basis, ul.notes { margin: 2px 0; padding-left: 12px; }
+.checks { list-style: none; padding: 0; margin: 0; }
+.checks li { margin: 1px 0; }
+.box { display: inline-block; width: 9px; height: 9px; border: 1px solid #111; margin-right: 4px; }
+.st-pass b { color: #060; } .st-warn b { color: #a60; } .st-fail b { color: #a00; }
+.cautions { border-top: 2px solid #111; margin-top: 5px; padding-top: 3px; font-weight: bold; }
+.cautions p { margin: 1px 0; }
+svg { width: 100%; height: auto; }
+.small { color: #444; }
+</style></head><body>
+<h1>pitcard · {{.V.Title}}</h1>
+<p class="sub">{{.Sub}}</p>
+<div class="top">
+  <div class="dial">{{if .V.Dial}}<div class="label">POST THIS DIAL-IN</div><div class="num">{{.V.Dial}}</div>
+    <ul>{{range .V.DialLines}}<li>{{.}}</li>{{end}}</ul>{{if .V.DialAlert}}<p class="alert">Check: {{.V.DialAlert}}</p>{{end}}
+    {{else}}<div class="label">NO DIAL</div><p class="alert">See the problems.</p>{{end}}</div>
+  <div style="flex:1">{{.Chart}}</div>
+</div>
+{{range .V.Problems}}<p class="alert">Problem: {{.}}</p>{{end}}
+<div class="grid">
+  <div>{{template "table" .V.Air}}<p class="small">{{.V.AirNote}}</p></div>
+  <div>{{if .V.Prediction.Rows}}{{template "table" .V.Prediction}}<ul class="basis">{{range .V.Basis}}<li>{{.}}</li>{{end}}</ul>{{end}}</div>
+  <div>{{if .V.Options.Rows}}{{template "table" .V.Options}}{{end}}
+       {{if .V.Rules.Rows}}{{template "table" .V.Rules}}{{end}}</div>
+  <div><table><caption>Checklist</caption></table><ul class="checks">{{range .V.Checks}}<li class="{{cls .Status}}">{{if eq .Status "confirm"}}<span class="box"></span>{{else}}<b>{{status .Status}}</b> {{end}}{{.Label}}{{if .Note}}: <span class="small">{{.Note}}</span>{{end}}</li>{{end}}</ul>
+       {{if .V.Notes}}<table><caption>Setup notes</caption></table><ul class="notes">{{range .V.Notes}}<li>{{.}}</li>{{end}}</ul>{{end}}
+       {{if .V.Record.Rows}}{{template "table" .V.Record}}<p class="small">{{.V.RecordNote}}</p>{{end}}</div>
+</div>
+<div class="cautions">{{range .V.Cautions}}<p>⚠ {{.}}</p>{{end}}</div>
+</body></html>
+{{define "table"}}<table><caption>{{.Title}}</caption>{{if .Header}}<tr>{{range $i, $h := .Header}}<th{{if $i}} class="n"{{end}}>{{$h}}</th>{{end}}</tr>{{end}}
+{{$t := .}}{{range $i, $r := .Rows}}<tr{{if marked $t $i}} class="mark"{{end}}>{{range $j, $c := $r}}<td{{if $j}} class="n"{{end}}>{{$c}}</td>{{end}}</tr>
+{{end}}</table>{{end}}`))

@@ -1,0 +1,162 @@
+package prep
+
+import (
+	"encoding/json"
+	"io"
+	"math"
+	"strings"
+	"time"
+
+	"pitcard/engine"
+	"pitcard/scripts"
+	"pitcard/weather"
+)
+
+// RenderJSON writes every number on the card as JSON.
+func RenderJSON(w io.Writer, c Card) error {
+	in := c.Input
+	j := map[string]any{
+		"title":           c.Title,
+		"session":         in.Session.String(),
+		"lane":            string(in.Lane),
+		"call_time":       in.Call.Format(time.RFC3339),
+		"minutes_to_call": round(c.MinutesToGo, 1),
+		"track":           in.Track.Name,
+		"car":             in.Car.Name,
+		"air_now":         airJSON(c.AirNow, c.AirNowRead, in),
+		"air_at_call":     airJSON(c.AirCall, in.Air, in),
+		"air_source":      in.AirSource,
+		"prep":            engine.PrepName(in.Prep),
+		"problems":        nonNil(c.Problems),
+		"cautions":        c.Cautions,
+		"notes":           nonNil(c.Notes),
+	}
+	if in.OpponentDial.Valid {
+		j["opponent_dial"] = in.OpponentDial.Decimal.String()
+	}
+	if in.Forecast != nil {
+		j["forecast"] = map[string]any{"readings_used": in.Forecast.Used, "trend_minutes": round(in.Forecast.Span.Minutes(), 1),
+			"ahead_minutes": round(in.Forecast.Ahead.Minutes(), 1), "trusted": in.Forecast.Trusted, "notes": in.Forecast.Notes,
+			"density_altitude_error_ft": round(in.Forecast.DAError.Feet(), 0)}
+	}
+	if p := c.Prediction; len(p.Timers) > 0 {
+		var timers, traps, leaned, out []map[string]any
+		for _, t := range p.Timers {
+			timers = append(timers, map[string]any{"distance_ft": t.DistanceFt, "et": round(t.ET, 3), "low": round(t.Low, 3), "high": round(t.High, 3), "sd": round(t.SD, 4)})
+		}
+		for _, t := range p.Traps {
+			traps = append(traps, map[string]any{"distance_ft": t.DistanceFt, "mph": round(t.MPH, 2), "low": round(t.Low, 2), "high": round(t.High, 2)})
+		}
+		for i, l := range p.Leaned {
+			if i == 5 {
+				break
+			}
+			leaned = append(leaned, map[string]any{"time": l.Pass.Time.Format(time.RFC3339), "session": l.Pass.Session.String(), "et": round(l.ET, 3), "carried_et": round(l.Carried, 3), "share": round(l.Share, 3)})
+		}
+		for _, o := range p.Outliers {
+			out = append(out, map[string]any{"time": o.Pass.Time.Format(time.RFC3339), "reason": o.Reason})
+		}
+		s := p.Sensitivity
+		j["prediction"] = map[string]any{"timers": timers, "traps": traps, "physics_only": p.PhysicsOnly, "leaned_on": leaned, "left_out": nonNilMaps(out),
+			"passes_calibrated": len(c.Fit.Samples), "interval_pct": 95, "notes": p.Notes,
+			"et_per_1000ft_da_s": round(s.PerKDA, 4), "et_per_10f_track_s": round(s.Per10FTrack, 4), "et_per_10mph_headwind_s": round(s.Per10Headwind, 4)}
+	}
+	if c.PlanErr == nil && len(c.Plan.Options) > 0 {
+		var opts []map[string]any
+		for _, o := range c.Plan.Options {
+			opts = append(opts, map[string]any{"dial": dialText(o.Dial, c.Plan.Step), "breakout_chance": round(o.BreakoutChance, 4),
+				"expected_giveaway_s": round(o.Giveaway, 4), "recommended": o.Recommended})
+		}
+		j["dial"] = map[string]any{"recommended": dialText(c.Plan.Recommended, c.Plan.Step), "step": c.Plan.Step.String(), "breakout_risk": c.Plan.Risk,
+			"options": opts, "rule_total": c.TotalAdjust.StringFixed(2), "flag": c.AdjustFlag}
+		if c.HasFinal {
+			j["final_dial"] = dialText(c.FinalDial, c.Plan.Step)
+			j["final_breakout_chance"] = round(engine.BreakoutChance(c.Plan.Estimate, c.FinalDial), 4)
+		}
+	}
+	var rules []map[string]any
+	for _, r := range c.Rules {
+		m := map[string]any{"file": r.File, "defines": nonNil(r.Defines), "log": nonNil(r.Log), "took_ms": round(float64(r.Took.Microseconds())/1000, 2)}
+		if r.HasAdjust {
+			m["adjust"], m["reason"] = r.Adjust.StringFixed(2), r.Reason
+		}
+		var errs []string
+		for _, e := range r.Errors {
+			errs = append(errs, e.Error())
+		}
+		m["errors"] = nonNil(errs)
+		rules = append(rules, m)
+	}
+	j["rules"] = nonNilMaps(rules)
+	var checks []map[string]any
+	for _, ch := range c.Checks {
+		checks = append(checks, map[string]any{"label": ch.Label, "status": ch.Status, "note": ch.Note, "rule": ch.File})
+	}
+	j["checklist"] = nonNilMaps(checks)
+	var rec []map[string]any
+	for _, r := range c.Record {
+		m := map[string]any{"session": r.Pass.Session.String(), "time": r.Pass.Time.Format(time.RFC3339), "lane": string(r.Pass.Lane), "actual": r.Actual, "notes": r.Pass.Notes}
+		if !math.IsNaN(r.Predicted) {
+			m["predicted"], m["error"] = round(r.Predicted, 3), round(r.Error, 3)
+		}
+		rec = append(rec, m)
+	}
+	j["today"] = nonNilMaps(rec)
+	if !math.IsNaN(c.RecordMAE) && len(c.Record) > 0 {
+		j["today_mean_miss_s"] = round(c.RecordMAE, 4)
+	}
+	enc := json.NewEncoder(w)
+	enc.SetIndent("", "  ")
+	return enc.Encode(j)
+}
+
+// airJSON is the air with the keys of `pitcard air`.
+func airJSON(a weather.Air, r weather.Reading, in Input) map[string]any {
+	m := scripts.AirFigures(a, r)
+	for k, v := range m {
+		if f, ok := v.(float64); ok {
+			m[k] = round(f, placesFor(k))
+		}
+	}
+	m["time"] = r.Time.Format(time.RFC3339)
+	if in.Track.Name != "" {
+		m["headwind_mph"] = round(r.HeadwindComponent(in.Track.HeadingDeg).MPH(), 1)
+	}
+	return m
+}
+
+func round(v float64, d int) float64 {
+	p := math.Pow(10, float64(d))
+	return math.Round(v*p) / p
+}
+
+func nonNil(s []string) []string {
+	if s == nil {
+		return []string{}
+	}
+	return s
+}
+
+func nonNilMaps(s []map[string]any) []map[string]any {
+	if s == nil {
+		return []map[string]any{}
+	}
+	return s
+}
+
+// placesFor is the decimals a figure is worth, by its unit suffix.
+func placesFor(key string) int {
+	switch {
+	case strings.HasPrefix(key, "cf_"):
+		return 4
+	case strings.HasSuffix(key, "_ft"), strings.HasSuffix(key, "_deg"):
+		return 0
+	case strings.HasSuffix(key, "_inhg"):
+		return 3
+	case strings.HasSuffix(key, "_hpa"), strings.HasSuffix(key, "_pct"):
+		return 2
+	case strings.HasSuffix(key, "_kg_m3"):
+		return 5
+	}
+	return 1 // °F, mph, grains
+}

@@ -1,0 +1,107 @@
+package prep
+
+import (
+	"fmt"
+	"io"
+	"strings"
+)
+
+// RenderMarkdown writes the card as Markdown.
+func RenderMarkdown(w io.Writer, c Card) error {
+	v := newView(c)
+	var b strings.Builder
+	fmt.Fprintf(&b, "# %s\n\n%s\n\n", v.Title, strings.Join(v.Subtitle, " · "))
+	if v.Dial != "" {
+		fmt.Fprintf(&b, "## Post this dial-in: **%s**\n\n", v.Dial)
+		for _, l := range v.DialLines {
+			fmt.Fprintf(&b, "- %s\n", l)
+		}
+		if v.DialAlert != "" {
+			fmt.Fprintf(&b, "- **Check:** %s\n", v.DialAlert)
+		}
+		b.WriteString("\n")
+	} else {
+		b.WriteString("## No dial: see the problems below\n\n")
+	}
+	for _, p := range v.Problems {
+		fmt.Fprintf(&b, "> **Problem:** %s\n\n", p)
+	}
+	mdTable(&b, v.Air)
+	fmt.Fprintf(&b, "%s\n\n", v.AirNote)
+	if len(v.Prediction.Rows) > 0 {
+		mdTable(&b, v.Prediction)
+		for _, l := range v.Basis {
+			fmt.Fprintf(&b, "- %s\n", l)
+		}
+		b.WriteString("\n")
+	}
+	if len(v.Options.Rows) > 0 {
+		mdTable(&b, v.Options)
+	}
+	if len(v.Rules.Rows) > 0 {
+		mdTable(&b, v.Rules)
+	}
+	if len(v.Checks) > 0 {
+		b.WriteString("### Checklist\n\n")
+		for _, ch := range v.Checks {
+			box := "- [ ] "
+			if ch.Status != "confirm" {
+				box = "- **" + statusWord(ch.Status) + "** "
+			}
+			line := ch.Label
+			if ch.Note != "" {
+				line += ": " + ch.Note
+			}
+			b.WriteString(box + mdEscape(line) + "\n")
+		}
+		b.WriteString("\n")
+	}
+	if len(v.Notes) > 0 {
+		b.WriteString("### Setup notes\n\n")
+		for _, n := range v.Notes {
+			fmt.Fprintf(&b, "- %s\n", mdEscape(n))
+		}
+		b.WriteString("\n")
+	}
+	if len(v.Record.Rows) > 0 {
+		mdTable(&b, v.Record)
+		if v.RecordNote != "" {
+			fmt.Fprintf(&b, "%s\n\n", v.RecordNote)
+		}
+	}
+	b.WriteString("### Cautions\n\n")
+	for _, c := range v.Cautions {
+		fmt.Fprintf(&b, "- **%s**\n", c)
+	}
+	_, err := io.WriteString(w, b.String())
+	return err
+}
+
+func mdTable(b *strings.Builder, t table) {
+	if t.Title != "" {
+		fmt.Fprintf(b, "### %s\n\n", t.Title)
+	}
+	cells := func(r []string, bold bool) string {
+		out := make([]string, len(r))
+		for i, x := range r {
+			x = mdEscape(x)
+			if bold && x != "" {
+				x = "**" + x + "**"
+			}
+			out[i] = x
+		}
+		return "| " + strings.Join(out, " | ") + " |\n"
+	}
+	b.WriteString(cells(t.Header, false))
+	sep := make([]string, len(t.Header))
+	for i := range sep {
+		sep[i] = "---"
+	}
+	b.WriteString("| " + strings.Join(sep, " | ") + " |\n")
+	for i, r := range t.Rows {
+		b.WriteString(cells(r, i == t.Marked))
+	}
+	b.WriteString("\n")
+}
+
+func mdEscape(s string) string { return strings.ReplaceAll(s, "|", `\|`) }

@@ -1,0 +1,202 @@
+package prep
+
+import (
+	"fmt"
+	"io"
+	"strings"
+
+	ptable "github.com/jedib0t/go-pretty/v6/table"
+	"github.com/jedib0t/go-pretty/v6/text"
+
+	"pitcard/scripts"
+)
+
+// Width is the widest line the terminal and Markdown cards print.
+const Width = 100
+
+// RenderText writes the card for a terminal: go-pretty tables, colour when
+// color is set (a terminal), plain when piped; no line wider than Width; the
+// dial to post in block digits, the most prominent thing on the page.
+func RenderText(w io.Writer, c Card, color bool) error {
+	v := newView(c)
+	var b strings.Builder
+	paint := func(s string, colors ...text.Color) string {
+		if !color {
+			return s
+		}
+		return text.Colors(colors).Sprint(s)
+	}
+	b.WriteString(paint("PITCARD  "+v.Title, text.Bold) + "\n")
+	b.WriteString(strings.Join(v.Subtitle, " · ") + "\n\n")
+	if v.Dial != "" {
+		big := blockDigits(v.Dial)
+		for i, line := range big {
+			label := "            "
+			switch i {
+			case 1:
+				label = "  POST THIS "
+			case 2:
+				label = "  DIAL-IN   "
+			}
+			b.WriteString(paint(label, text.Bold) + paint(line, text.Bold, text.FgHiWhite) + "\n")
+		}
+		b.WriteString("\n")
+		for _, l := range v.DialLines {
+			b.WriteString("  " + l + "\n")
+		}
+		if v.DialAlert != "" {
+			b.WriteString(paint("  CHECK: "+v.DialAlert, text.FgHiYellow, text.Bold) + "\n")
+		}
+		b.WriteString("\n")
+	} else {
+		b.WriteString(paint("  NO DIAL: see the problems below", text.Bold, text.FgHiRed) + "\n\n")
+	}
+	for _, p := range v.Problems {
+		b.WriteString(paint("  PROBLEM: "+p, text.FgHiRed) + "\n")
+	}
+	if len(v.Problems) > 0 {
+		b.WriteString("\n")
+	}
+	writeTable(&b, v.Air, color)
+	b.WriteString(wrap(v.AirNote, Width, "") + "\n\n")
+	if len(v.Prediction.Rows) > 0 {
+		writeTable(&b, v.Prediction, color)
+		for _, l := range v.Basis {
+			b.WriteString(wrap(l, Width, "  ") + "\n")
+		}
+		b.WriteString("\n")
+	}
+	if len(v.Options.Rows) > 0 {
+		writeTable(&b, v.Options, color)
+		b.WriteString("\n")
+	}
+	if len(v.Rules.Rows) > 0 {
+		writeTable(&b, v.Rules, color)
+		b.WriteString("\n")
+	}
+	if len(v.Checks) > 0 {
+		b.WriteString(paint("Checklist", text.Bold) + "\n")
+		for _, ch := range v.Checks {
+			word := statusWord(ch.Status)
+			switch ch.Status {
+			case scripts.Fail:
+				word = paint(word, text.FgHiRed, text.Bold)
+			case scripts.Warn:
+				word = paint(word, text.FgHiYellow, text.Bold)
+			case scripts.Pass:
+				word = paint(word, text.FgGreen)
+			}
+			line := ch.Label
+			if ch.Note != "" {
+				line += ": " + ch.Note
+			}
+			b.WriteString(fmt.Sprintf("  %s %s\n", word, wrap(line, Width-8, "       ")))
+		}
+		b.WriteString("\n")
+	}
+	if len(v.Notes) > 0 {
+		b.WriteString(paint("Setup notes", text.Bold) + "\n")
+		for _, n := range v.Notes {
+			b.WriteString(wrap("  - "+n, Width, "    ") + "\n")
+		}
+		b.WriteString("\n")
+	}
+	if len(v.Record.Rows) > 0 {
+		writeTable(&b, v.Record, color)
+		if v.RecordNote != "" {
+			b.WriteString(v.RecordNote + "\n")
+		}
+		b.WriteString("\n")
+	}
+	b.WriteString(paint("Cautions", text.Bold) + "\n")
+	for _, c := range v.Cautions {
+		b.WriteString(wrap("  ! "+c, Width, "    ") + "\n")
+	}
+	_, err := io.WriteString(w, b.String())
+	return err
+}
+
+func writeTable(b *strings.Builder, t table, color bool) {
+	tw := ptable.NewWriter()
+	style := ptable.StyleLight
+	style.Format.Header = text.FormatDefault
+	style.Title.Align = text.AlignLeft
+	if !color {
+		style.Color = ptable.ColorOptions{}
+	} else {
+		style.Title.Colors = text.Colors{text.Bold}
+	}
+	tw.SetStyle(style)
+	if t.Title != "" {
+		tw.SetTitle("%s", t.Title)
+	}
+	if len(t.Header) > 0 {
+		h := ptable.Row{}
+		for _, x := range t.Header {
+			h = append(h, x)
+		}
+		tw.AppendHeader(h)
+	}
+	for i, r := range t.Rows {
+		row := ptable.Row{}
+		for _, x := range r {
+			if i == t.Marked && color {
+				x = text.Colors{text.Bold}.Sprint(x)
+			}
+			row = append(row, x)
+		}
+		tw.AppendRow(row)
+	}
+	tw.SetAllowedRowLength(Width)
+	b.WriteString(tw.Render() + "\n")
+}
+
+// wrap breaks s into lines of at most width, continuing with indent.
+func wrap(s string, width int, indent string) string {
+	words := strings.Fields(s)
+	if len(words) == 0 {
+		return s
+	}
+	lead := s[:len(s)-len(strings.TrimLeft(s, " "))]
+	var lines []string
+	cur := lead + words[0]
+	for _, wd := range words[1:] {
+		if text.RuneWidthWithoutEscSequences(cur)+1+text.RuneWidthWithoutEscSequences(wd) > width {
+			lines = append(lines, cur)
+			cur = indent + wd
+			continue
+		}
+		cur += " " + wd
+	}
+	return strings.Join(append(lines, cur), "\n")
+}
+
+// blockDigits draws a dial in digits five lines tall.
+func blockDigits(s string) []string {
+	font := map[rune][5]string{
+		'0': {"███", "█ █", "█ █", "█ █", "███"}, '1': {" █ ", "██ ", " █ ", " █ ", "███"},
+		'2': {"███", "  █", "███", "█  ", "███"}, '3': {"███", "  █", " ██", "  █", "███"},
+		'4': {"█ █", "█ █", "███", "  █", "  █"}, '5': {"███", "█  ", "███", "  █", "███"},
+		'6': {"███", "█  ", "███", "█ █", "███"}, '7': {"███", "  █", "  █", "  █", "  █"},
+		'8': {"███", "█ █", "███", "█ █", "███"}, '9': {"███", "█ █", "███", "  █", "███"},
+		'.': {" ", " ", " ", " ", "█"}, '-': {"   ", "   ", "███", "   ", "   "},
+	}
+	var rows [5]strings.Builder
+	for _, r := range s {
+		g, ok := font[r]
+		if !ok {
+			continue
+		}
+		for i := range rows {
+			for _, c := range g[i] {
+				rows[i].WriteString(strings.Repeat(string(c), 2)) // twice as wide: squarer digits
+			}
+			rows[i].WriteString("  ")
+		}
+	}
+	out := make([]string, 5)
+	for i := range rows {
+		out[i] = strings.TrimRight(rows[i].String(), " ")
+	}
+	return out
+}

@@ -1,0 +1,271 @@
+package prep
+
+import (
+	"fmt"
+	"math"
+	"strings"
+
+	"github.com/shopspring/decimal"
+
+	"pitcard/engine"
+	"pitcard/scripts"
+	"pitcard/weather"
+)
+
+// view is the card laid out in words and figures, in the crew's units: what
+// every renderer but JSON prints. Renderers only arrange it.
+type view struct {
+	Title      string   // "Round 3, left lane"
+	Subtitle   []string // track and date; call time; car; opponent
+	Dial       string   // the dial to post, or "" when there is none
+	DialLines  []string // how the dial was reached
+	DialAlert  string   // the rules' total flagged, if it is
+	Air        table
+	AirNote    string
+	Prediction table
+	Basis      []string
+	Options    table
+	Rules      table
+	Checks     []checkRow
+	Notes      []string
+	Record     table
+	RecordNote string
+	Problems   []string
+	Cautions   []string
+}
+
+type table struct {
+	Title  string
+	Header []string
+	Rows   [][]string
+	Marked int // index of the row to emphasise, or -1
+}
+
+type checkRow struct {
+	Status, Label, Note, File string
+}
+
+func newView(c Card) view {
+	in := c.Input
+	u := in.Settings.Units
+	v := view{Title: c.Title, Cautions: c.Cautions}
+	day := in.Call.Format("Mon 2006-01-02")
+	v.Subtitle = append(v.Subtitle, fmt.Sprintf("%s · %s", orDash(in.Track.Name), day))
+	call := "called " + in.Call.Format("15:04")
+	switch m := math.Round(c.MinutesToGo); {
+	case m > 0:
+		call += fmt.Sprintf(" (in %.0f min)", m)
+	case m == 0:
+		call += " (now)"
+	default:
+		call += fmt.Sprintf(" (%.0f min ago)", -m)
+	}
+	v.Subtitle = append(v.Subtitle, call)
+	car := orDash(in.Car.Name)
+	if in.OpponentDial.Valid {
+		car += " · opponent dials " + in.OpponentDial.Decimal.StringFixed(2)
+	}
+	v.Subtitle = append(v.Subtitle, car)
+
+	// The dial.
+	step := in.Settings.DialStep
+	if c.HasFinal {
+		v.Dial = dialText(c.FinalDial, step)
+		rec := fmt.Sprintf("recommended %s: %.1f %% chance of breaking out (risk accepted %.0f %%)",
+			dialText(c.Plan.Recommended, step), 100*engine.BreakoutChance(c.Plan.Estimate, c.Plan.Recommended), 100*c.Plan.Risk)
+		v.DialLines = append(v.DialLines, rec)
+		for _, a := range c.Adjustments {
+			v.DialLines = append(v.DialLines, fmt.Sprintf("%s s %s (%s)", signedDec(a.Adjust), a.Reason, a.File))
+		}
+		if len(c.Adjustments) > 0 {
+			v.DialLines = append(v.DialLines, fmt.Sprintf("final %s: %.1f %% chance of breaking out", v.Dial, 100*engine.BreakoutChance(c.Plan.Estimate, c.FinalDial)))
+		}
+	}
+	v.DialAlert = c.AdjustFlag
+
+	// The air now and at the call.
+	v.Air = table{Title: "Air", Header: []string{"", "now " + c.AirNowRead.Time.Format("15:04"), "at the call " + in.Call.Format("15:04")}, Marked: -1}
+	row := func(name string, f func(weather.Air, weather.Reading) string) {
+		v.Air.Rows = append(v.Air.Rows, []string{name, f(c.AirNow, c.AirNowRead), f(c.AirCall, in.Air)})
+	}
+	row("Density altitude", func(a weather.Air, _ weather.Reading) string { return a.DensityAltitude.Format(u.Length) })
+	row("Relative air density", func(a weather.Air, _ weather.Reading) string { return fmt.Sprintf("%.1f %%", a.RelativeDensity) })
+	row("Air temperature", func(_ weather.Air, r weather.Reading) string { return r.Temp.Format(u.Temp, 1) })
+	row("Station pressure", func(a weather.Air, _ weather.Reading) string { return a.Station.Format(u.Pressure) })
+	row("Humidity / dew point", func(a weather.Air, _ weather.Reading) string {
+		return fmt.Sprintf("%.0f %% / %s", a.RH*100, a.DewPoint.Format(u.Temp, 0))
+	})
+	row("Track temperature", func(_ weather.Air, r weather.Reading) string {
+		if !r.HasTrack {
+			return "not read"
+		}
+		return r.TrackTemp.Format(u.Temp, 0)
+	})
+	row("Wind", func(_ weather.Air, r weather.Reading) string { return windWords(r, in.Track.HeadingDeg, u) })
+	row("CF SAE J1349 / STD", func(a weather.Air, _ weather.Reading) string { return fmt.Sprintf("%.4f / %.4f", a.CFJ1349, a.CFSTD) })
+	row("CF J1349 (2004) / DIN", func(a weather.Air, _ weather.Reading) string {
+		return fmt.Sprintf("%.4f / %.4f", a.CFJ1349v2004, a.CFDIN)
+	})
+	v.AirNote = "Air at the call: " + in.AirSource
+	if in.Forecast != nil && !in.Forecast.Trusted {
+		v.AirNote += " (NOT trusted)"
+	}
+
+	// The prediction.
+	p := c.Prediction
+	if len(p.Timers) > 0 {
+		v.Prediction = table{Title: "Prediction (95 % interval)", Header: []string{"Timer", "ET", "interval", "Trap", "interval"}, Marked: len(p.Timers) - 1}
+		for _, t := range p.Timers {
+			r := []string{timerName(t.DistanceFt), fmt.Sprintf("%.3f", t.ET), fmt.Sprintf("%.3f–%.3f", t.Low, t.High), "", ""}
+			for _, tr := range p.Traps {
+				if tr.DistanceFt == t.DistanceFt {
+					r[3] = weather.MPH(tr.MPH).Format(u.Speed, 2)
+					lo, hi := weather.MPH(tr.Low).In(u.Speed), weather.MPH(tr.High).In(u.Speed)
+					r[4] = fmt.Sprintf("%.2f–%.2f", lo, hi)
+				}
+			}
+			v.Prediction.Rows = append(v.Prediction.Rows, r)
+		}
+		v.Basis = basis(p, c.Fit, u)
+	}
+
+	// The dial options.
+	if c.PlanErr == nil && len(c.Plan.Options) > 0 {
+		v.Options = table{Title: "Dial options", Header: []string{"Dial", "Breakout", "Given away", ""}, Marked: -1}
+		for i, o := range c.Plan.Options {
+			mark := ""
+			if o.Recommended {
+				mark, v.Options.Marked = "recommended", i
+			}
+			if c.HasFinal && o.Dial.Equal(c.FinalDial) && !o.Recommended {
+				mark = "final"
+			}
+			v.Options.Rows = append(v.Options.Rows, []string{dialText(o.Dial, step), fmt.Sprintf("%.1f %%", 100*o.BreakoutChance),
+				fmt.Sprintf("%.3f s", o.Giveaway), mark})
+		}
+	}
+
+	// The rules.
+	v.Rules = table{Title: "Rules", Header: []string{"Rule", "Defines", "Dial", "Result"}, Marked: -1}
+	for _, r := range c.Rules {
+		adj, result := "", "ok"
+		if r.HasAdjust {
+			adj, result = signedDec(r.Adjust), r.Reason
+		}
+		if len(r.Errors) > 0 {
+			result = "FAILED: " + r.Errors[0].Error()
+		}
+		v.Rules.Rows = append(v.Rules.Rows, []string{strings.TrimPrefix(r.File, "rules/"), strings.Join(r.Defines, ", "), adj, result})
+	}
+	for _, ch := range c.Checks {
+		v.Checks = append(v.Checks, checkRow{Status: ch.Status, Label: ch.Label, Note: ch.Note, File: ch.File})
+	}
+	v.Notes = c.Notes
+
+	// Today's record.
+	if len(c.Record) > 0 {
+		v.Record = table{Title: "Today so far: predicted against actual", Header: []string{"Session", "Time", "Lane", "Predicted", "Ran", "Off by", "Notes"}, Marked: -1}
+		for _, r := range c.Record {
+			pred, off := "–", ""
+			if !math.IsNaN(r.Predicted) {
+				pred, off = fmt.Sprintf("%.3f", r.Predicted), fmt.Sprintf("%+.3f", r.Error)
+			}
+			v.Record.Rows = append(v.Record.Rows, []string{r.Pass.Session.String(), r.Pass.Time.Format("15:04"), string(r.Pass.Lane), pred,
+				fmt.Sprintf("%.3f", r.Actual), off, r.Pass.Notes})
+		}
+		if !math.IsNaN(c.RecordMAE) {
+			v.RecordNote = fmt.Sprintf("Mean miss today: %.3f s (each predicted from the passes before it).", c.RecordMAE)
+		}
+	}
+	v.Problems = c.Problems
+	return v
+}
+
+func basis(p engine.Prediction, f engine.Fit, u weather.Units) []string {
+	var out []string
+	if p.PhysicsOnly {
+		out = append(out, "Physics from car.yaml alone: no logbook passes with their weather to calibrate to, so the interval is wide.")
+	}
+	s := p.Sensitivity
+	out = append(out, fmt.Sprintf("This car today: %+.3f s per 1000 ft more DA; %+.3f s per 10 °F hotter track; %+.3f s per 10 mph headwind.",
+		s.PerKDA, s.Per10FTrack, s.Per10Headwind))
+	if len(p.Leaned) > 0 {
+		var parts []string
+		for i, l := range p.Leaned {
+			if i == 3 {
+				break
+			}
+			parts = append(parts, fmt.Sprintf("%s %s %.3f → %.3f (%.0f %%)", l.Pass.Time.Format("01-02"), l.Pass.Session, l.ET, l.Carried, 100*l.Share))
+		}
+		out = append(out, fmt.Sprintf("Calibrated to %d passes; leaned most on %s.", len(f.Samples), strings.Join(parts, ", ")))
+	}
+	for i, o := range p.Outliers {
+		if i == 2 {
+			out = append(out, fmt.Sprintf("... and %d more left out.", len(p.Outliers)-2))
+			break
+		}
+		out = append(out, fmt.Sprintf("Left out %s %s: %s.", o.Pass.Time.Format("2006-01-02"), o.Pass.Session.Long(), o.Reason))
+	}
+	for _, n := range p.Notes {
+		if strings.HasPrefix(n, "calibrated to") {
+			continue // said above
+		}
+		out = append(out, upperFirst(n)+".")
+	}
+	return out
+}
+
+func upperFirst(s string) string {
+	if s == "" {
+		return s
+	}
+	return strings.ToUpper(s[:1]) + s[1:]
+}
+
+func timerName(ft float64) string {
+	switch ft {
+	case 660:
+		return "1/8 mile"
+	case 1320:
+		return "1/4 mile"
+	}
+	return fmt.Sprintf("%.0f ft", ft)
+}
+
+func windWords(r weather.Reading, heading float64, u weather.Units) string {
+	if r.Wind.MPH() < 0.5 {
+		return "calm"
+	}
+	hw := r.HeadwindComponent(heading)
+	dir := "head"
+	if hw < 0 {
+		dir, hw = "tail", -hw
+	}
+	return fmt.Sprintf("%s from %03.0f° (%s %s)", r.Wind.Format(u.Speed, 0), r.WindFrom, weather.Speed(hw).Format(u.Speed, 0), dir)
+}
+
+// dialText prints a dial with the places of the step (at least 2).
+func dialText(d, step decimal.Decimal) string {
+	places := max(int32(-step.Exponent()), 2)
+	return d.StringFixed(places)
+}
+
+func orDash(s string) string {
+	if strings.TrimSpace(s) == "" {
+		return "–"
+	}
+	return s
+}
+
+// statusWord is how a check's status reads on paper.
+func statusWord(s string) string {
+	switch s {
+	case scripts.Pass:
+		return "PASS"
+	case scripts.Warn:
+		return "WARN"
+	case scripts.Fail:
+		return "FAIL"
+	}
+	return "[ ]"
+}
