@@ -101,3 +101,15 @@ func (s Schedule) Next(passes []engine.Pass) (Slot, bool) {
 	}
 	return Slot{}, false
 }
+
+// OnDay is the schedule moved to day: the same call times on another date.
+func (s Schedule) OnDay(day time.Time) Schedule {
+	y, m, d := day.Date()
+	out := Schedule{Date: time.Date(y, m, d, 0, 0, 0, 0, s.Date.Location())}
+	for _, x := range s.Sessions {
+		c := x.Call
+		x.Call = time.Date(y, m, d, c.Hour(), c.Minute(), c.Second(), 0, c.Location())
+		out.Sessions = append(out.Sessions, x)
+	}
+	return out
+}

@@ -67,6 +67,7 @@ Try it on the built-in demo event first: pitcard air --demo`,
 		newPredictCmd(s, g),
 		newRulesCmd(s, g),
 		newCardCmd(s, g),
+		newRoundCmd(s, g),
 	)
 	return root
 }

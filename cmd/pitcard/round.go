@@ -90,6 +90,11 @@ func roundInput(e *eventFolder, r roundFlags, now time.Time) (prep.Input, []stri
 	if err != nil {
 		return in, nil, err
 	}
+	if haveSched && !e.Demo && sched.Date.Format("2006-01-02") != now.Format("2006-01-02") {
+		warnings = append(warnings, fmt.Sprintf("%s is dated %s but today is %s: its call times are taken for today (update its date)",
+			e.name(ScheduleFile), sched.Date.Format("2006-01-02"), now.Format("2006-01-02")))
+		sched = sched.OnDay(now)
+	}
 
 	// The session and its slot in the schedule.
 	var slot prep.Slot
@@ -158,6 +163,19 @@ func roundInput(e *eventFolder, r roundFlags, now time.Time) (prep.Input, []stri
 	var source string
 	var airNow *weather.Reading
 	var forecast *weather.Forecast
+	// Only the call's day's readings forecast its air.
+	var dayLog []weather.Reading
+	for _, r := range log {
+		if r.Time.Format("2006-01-02") == call.Format("2006-01-02") {
+			dayLog = append(dayLog, r)
+		}
+	}
+	if len(dayLog) == 0 && len(log) > 0 {
+		warnings = append(warnings, fmt.Sprintf("no weather reading on %s: the air is the last reading, of %s; take a fresh one",
+			call.Format("2006-01-02"), log[len(log)-1].Time.Format("2006-01-02 15:04")))
+		dayLog = log[len(log)-1:]
+	}
+	log = dayLog
 	switch {
 	case len(log) > 0:
 		last := log[len(log)-1]

@@ -1,0 +1,325 @@
+package main
+
+import (
+	"bufio"
+	"fmt"
+	"io"
+	"strings"
+
+	"github.com/spf13/cobra"
+
+	"pitcard/engine"
+	"pitcard/event"
+	"pitcard/internal/safefile"
+	"pitcard/prep"
+	"pitcard/weather"
+)
+
+type roundCmdOptions struct {
+	g     *globalOptions
+	s     *IOStreams
+	Round string
+	Lane  string
+	NoLog bool
+}
+
+func newRoundCmd(s *IOStreams, g *globalOptions) *cobra.Command {
+	o := &roundCmdOptions{g: g, s: s}
+	cmd := &cobra.Command{
+		Use:   "round",
+		Short: "Between rounds, in a hurry: asks for the readings, prints the card, then logs the slip",
+		Long: `A guided round for when the lanes are calling. pitcard asks for each reading in
+turn, showing the last one in [brackets]: press Enter to keep it, or type the
+new value with or without its unit (88F, 31C, 27.61inHg, 935hPa). It logs the
+reading, prints the round's card, and when the round is run asks for the time
+slip and logs it. Plain prompts on standard input: it works over ssh and
+from a pipe (at the end of the input every remaining answer is Enter).`,
+		Example: "  pitcard round\n  pitcard round --round E4 --lane right\n  printf '\\n\\n\\n\\n\\n\\n\\nleft\\n\\n' | pitcard round --no-log",
+		Args:    cobra.NoArgs,
+		RunE:    func(cmd *cobra.Command, _ []string) error { return roundCmdRun(cmd, o) },
+	}
+	cmd.Flags().StringVar(&o.Round, "round", "", "round number (3), or session T1 ... E5 (default: the schedule's next)")
+	cmd.Flags().StringVar(&o.Lane, "lane", "", "left or right (asked when not given)")
+	cmd.Flags().BoolVar(&o.NoLog, "no-log", false, "print the card and stop: do not ask for the slip")
+	return cmd
+}
+
+// prompter asks one question at a time on plain streams.
+type prompter struct {
+	in  *bufio.Reader
+	out io.Writer
+	eof bool
+}
+
+// ask prints the question with its default and returns the answer, or the
+// default for an empty answer (or once the input has ended).
+func (p *prompter) ask(question, def string) string {
+	if def != "" {
+		fmt.Fprintf(p.out, "%s [%s]: ", question, def)
+	} else {
+		fmt.Fprintf(p.out, "%s: ", question)
+	}
+	if p.eof {
+		fmt.Fprintln(p.out)
+		return def
+	}
+	line, err := p.in.ReadString('\n')
+	if err != nil {
+		p.eof = true
+		if line == "" {
+			fmt.Fprintln(p.out)
+		}
+	}
+	line = strings.TrimSpace(line)
+	if line == "" {
+		return def
+	}
+	return line
+}
+
+// until asks until check accepts the answer, at most three times.
+func (p *prompter) until(question, def string, check func(string) error) (string, error) {
+	for try := 0; ; try++ {
+		a := p.ask(question, def)
+		err := check(a)
+		if err == nil {
+			return a, nil
+		}
+		fmt.Fprintln(p.out, "  ", err)
+		if try == 2 || p.eof {
+			return "", userErr(err)
+		}
+	}
+}
+
+func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
+	e, err := o.g.open(cmd)
+	if err != nil {
+		return err
+	}
+	if err := e.writable(); err != nil {
+		return err
+	}
+	trk, err := e.track()
+	if err != nil {
+		return err
+	}
+	u := e.Settings.Units
+	elev := trk.Elevation()
+	log, err := e.weatherLog(elev)
+	if err != nil {
+		return err
+	}
+	p := &prompter{in: bufio.NewReader(o.s.In), out: o.s.Out}
+	now := o.s.Now()
+
+	// Which round.
+	rf := roundFlags{Round: o.Round, Lane: o.Lane}
+	sched, haveSched, err := e.schedule()
+	if err != nil {
+		return err
+	}
+	if rf.Round == "" && haveSched {
+		passes, err := e.logbook()
+		if err != nil {
+			return err
+		}
+		if next, ok := sched.Next(passes); ok {
+			rf.Round = next.Session.String()
+			if rf.Lane == "" && next.Lane != "" {
+				rf.Lane = string(next.Lane)
+			}
+		}
+	}
+	if rf.Round, err = p.until("Round (3, E3, T2 ...)", rf.Round, func(a string) error {
+		_, err := engine.ParseSession(a)
+		return err
+	}); err != nil {
+		return err
+	}
+	fmt.Fprintf(o.s.Out, "Readings: Enter keeps the value in [brackets]; a bare number is in %s units.\n", u.Name())
+
+	// The readings, each defaulting to the last one.
+	var last weather.Reading
+	if len(log) > 0 {
+		last = log[len(log)-1]
+	}
+	has := len(log) > 0
+	def := func(f func() string) string {
+		if !has {
+			return ""
+		}
+		return f()
+	}
+	r := weather.Reading{Time: now, BaroKind: weather.StationPressure}
+	if _, err := p.until("Air temperature", def(func() string { return last.Temp.Format(u.Temp, 1) }), func(a string) error {
+		if r.Temp, err = weather.ParseTemperature(a, u.Temp); err != nil {
+			return flagErr(err, "temperature")
+		}
+		return inRange("temperature", a, r.Temp.Fahrenheit(), "°F", weather.TempRange)
+	}); err != nil {
+		return err
+	}
+	station := weather.Pressure(0)
+	if has {
+		station = last.Derive(elev).Station
+	}
+	if _, err := p.until("Barometer, station (uncorrected)", def(func() string { return station.Format(u.Pressure) }), func(a string) error {
+		if r.Baro, err = weather.ParsePressure(a, u.Pressure); err != nil {
+			return flagErr(err, "barometer")
+		}
+		return inRange("barometer", a, r.Baro.InHg(), "inHg", weather.StationRange)
+	}); err != nil {
+		return err
+	}
+	humDef := def(func() string { return fmt.Sprintf("%.0f%%", last.Derive(elev).RH*100) })
+	if _, err := p.until("Humidity % (or a dew point with its unit, 52F)", humDef, func(a string) error {
+		if t, err := weather.ParseTemperature(a, u.Temp); err == nil && strings.ContainsAny(strings.ToLower(a), "fc") {
+			r.DewPointSet, r.DewPoint = true, t
+			return nil
+		}
+		r.DewPointSet = false
+		if r.RH, err = weather.ParsePercent(a); err != nil {
+			return flagErr(err, "humidity")
+		}
+		return inRange("humidity", a, r.RH*100, "%", [2]float64{0, 100})
+	}); err != nil {
+		return err
+	}
+	if _, err := p.until("Wind speed", def(func() string { return last.Wind.Format(u.Speed, 0) }), func(a string) error {
+		if a == "" || a == "calm" {
+			r.Wind = 0
+			return nil
+		}
+		if r.Wind, err = weather.ParseSpeed(a, u.Speed); err != nil {
+			return flagErr(err, "wind")
+		}
+		return inRange("wind", a, r.Wind.MPH(), "mph", weather.WindRange)
+	}); err != nil {
+		return err
+	}
+	if _, err := p.until("Wind from (degrees or N, SW ...)", def(func() string { return fmt.Sprintf("%.0f", last.WindFrom) }), func(a string) error {
+		if a == "" {
+			return nil
+		}
+		r.WindFrom, err = weather.ParseDirection(a)
+		return flagErr(err, "wind from")
+	}); err != nil {
+		return err
+	}
+	trackDef := ""
+	if has && last.HasTrack {
+		trackDef = last.TrackTemp.Format(u.Temp, 0)
+	}
+	if _, err := p.until("Track temperature (Enter to skip)", trackDef, func(a string) error {
+		if a == "" {
+			r.HasTrack = false
+			return nil
+		}
+		r.HasTrack = true
+		if r.TrackTemp, err = weather.ParseTemperature(a, u.Temp); err != nil {
+			return flagErr(err, "track temperature")
+		}
+		return inRange("track temperature", a, r.TrackTemp.Fahrenheit(), "°F", weather.TrackTempRange)
+	}); err != nil {
+		return err
+	}
+	if err := r.Validate(elev); err != nil {
+		return err
+	}
+	if w := r.PressureWarning(elev); w != "" {
+		fmt.Fprintln(o.s.Err, "pitcard: warning:", w)
+	}
+	if rf.Lane, err = p.until("Lane (left or right)", rf.Lane, func(a string) error {
+		_, err := engine.ParseLane(a)
+		return err
+	}); err != nil {
+		return err
+	}
+	rf.OpponentDial = p.ask("Opponent's dial (Enter if not known)", "")
+
+	// Log the reading, then the card.
+	if err := appendReading(e, r, elev); err != nil {
+		return err
+	}
+	in, warnings, err := roundInput(e, rf, now)
+	if err != nil {
+		return err
+	}
+	for _, w := range warnings {
+		fmt.Fprintln(o.s.Err, "pitcard: warning:", w)
+	}
+	c := prep.Gather(in)
+	fmt.Fprintln(o.s.Out)
+	if err := prep.RenderText(o.s.Out, c, o.s.Terminal); err != nil {
+		return err
+	}
+	if o.NoLog {
+		return nil
+	}
+
+	// After the round: the slip.
+	fmt.Fprintln(o.s.Out)
+	if a := p.ask("Run the round, then press Enter for the slip (or type skip)", ""); strings.EqualFold(a, "skip") || p.eof {
+		fmt.Fprintln(o.s.Out, "No slip logged. Log it later with 'pitcard log add'.")
+		return nil
+	}
+	dial := ""
+	if c.HasFinal && in.Session.Kind == engine.Elimination {
+		dial = c.FinalDial.StringFixed(2)
+	}
+	slip := map[string]string{}
+	for _, q := range []struct{ key, question, def string }{
+		{"dial", "Dial-in posted", dial}, {"rt", "Reaction time (.021)", ""}, {"et60", "60 ft", ""}, {"et330", "330 ft", ""},
+		{"et660", "1/8 mile ET", ""}, {"mph660", "1/8 mile MPH", ""}, {"et1000", "1000 ft", ""}, {"et1320", "1/4 mile ET", ""},
+		{"mph1320", "1/4 mile MPH", ""}, {"notes", "Notes (lifted, pedaled ...)", ""},
+	} {
+		if q.key == "et1000" && in.Car.DistanceFt < 1000 {
+			continue
+		}
+		slip[q.key] = p.ask(q.question, q.def)
+	}
+	args := []string{"log", "add", "--dir", e.Dir, "--session", in.Session.String(), "--lane", string(in.Lane),
+		"--date", now.Format("2006-01-02"), "--time", now.Format("15:04")}
+	for _, k := range []string{"dial", "rt", "et60", "et330", "et660", "mph660", "et1000", "et1320", "mph1320", "notes"} {
+		if v := slip[k]; v != "" {
+			args = append(args, "--"+k, v)
+		}
+	}
+	if code := run(args, o.s); code != exitOK {
+		return userErrf("the slip was not logged (see above); log it with 'pitcard log add'")
+	}
+	fmt.Fprintln(o.s.Out, "Next round: pitcard round")
+	return nil
+}
+
+// inRange refuses a value outside its valid range, naming the field.
+func inRange(field, typed string, v float64, unit string, r [2]float64) error {
+	if v >= r[0] && v <= r[1] {
+		return nil
+	}
+	return &weather.InputError{Field: field, Value: typed, Reason: fmt.Sprintf("is outside %g..%g %s", r[0], r[1], unit)}
+}
+
+// appendReading adds a reading to the weather log under its lock.
+func appendReading(e *eventFolder, r weather.Reading, elev weather.Length) error {
+	path := e.path(event.WeatherFile)
+	unlock, err := safefile.Lock(path)
+	if err != nil {
+		return err
+	}
+	defer unlock()
+	log, err := e.weatherLog(elev)
+	if err != nil {
+		return err
+	}
+	for i, old := range log {
+		if old.Time.Truncate(60e9).Equal(r.Time.Truncate(60e9)) {
+			log = append(log[:i], log[i+1:]...) // a second reading in the same minute replaces the first
+			break
+		}
+	}
+	log = append(log, r)
+	sortReadings(log)
+	return safefile.Write(path, func(w io.Writer) error { return weather.WriteLog(w, log) })
+}
