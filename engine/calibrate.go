@@ -23,9 +23,12 @@ const (
 	// FitWindow is the most clean passes a fit uses (the most recent).
 	FitWindow = 40
 	// FitHalfLifeDays and FitHalfLifePasses set the recency weights of the
-	// fit: a pass's weight halves every 30 days and every 20 passes back.
-	FitHalfLifeDays   = 30.0
+	// fit: a pass's weight halves every 120 days and every 20 passes back,
+	// but never falls below FitAgeFloor for age alone, so a winter's break
+	// does not hand the whole fit to the first few passes of spring.
+	FitHalfLifeDays   = 120.0
 	FitHalfLifePasses = 20.0
+	FitAgeFloor       = 0.25
 	// OtherTrackWeight is the weight of a pass at another track.
 	OtherTrackWeight = 0.5
 	// OutlierMADs: a finish residual beyond this many robust deviations (and
@@ -41,8 +44,17 @@ var timerSigma = [5]float64{0.012, 0.014, 0.016, 0.019, 0.022}
 
 const trapSigma = 0.6
 
-// prior of each parameter: centre from DefaultParams, spread here.
-var priorSD = Params{PowerScale: 0.25, TractionScale: 0.25, AirExponent: 0.25, TrackHot: 0.6}
+// priorSD is the prior's spread of each parameter (its centre is
+// DefaultParams). A natural engine follows the air closely (power ∝ 1/CF is
+// the physics of filling the cylinders), so its air exponent is held
+// tighter than a boosted engine's, whose boost control is unknown.
+func priorSD(ind Induction) Params {
+	p := Params{PowerScale: 0.25, TractionScale: 0.25, AirExponent: 0.15, TrackHot: 0.6}
+	if ind == Turbo || ind == Supercharged {
+		p.AirExponent = 0.3
+	}
+	return p
+}
 
 // Sample is one logged pass prepared for the fit.
 type Sample struct {
@@ -121,7 +133,7 @@ func Calibrate(in CalibrateInput) (Fit, error) {
 	f.Vehicle = NewVehicle(in.Car, f.PowerHP)
 	f.Params = DefaultParams(in.Car.Induction)
 	for k := range f.Cov {
-		f.Cov[k][k] = sq(priorSD.at(k))
+		f.Cov[k][k] = sq(priorSD(in.Car.Induction).at(k))
 	}
 	if len(clean) == 0 {
 		f.Notes = append(f.Notes, "no clean passes with their weather at this distance: physics from car.yaml alone")
@@ -178,7 +190,7 @@ func (f *Fit) sample(p Pass, in CalibrateInput, rank int) Sample {
 		mass = p.WeightLb * weather.KgPerLb
 	}
 	age := in.Now.Sub(p.Time).Hours() / 24
-	weight *= math.Pow(0.5, age/FitHalfLifeDays) * math.Pow(0.5, float64(rank)/FitHalfLifePasses)
+	weight *= math.Max(math.Pow(0.5, age/FitHalfLifeDays), FitAgeFloor) * math.Pow(0.5, float64(rank)/FitHalfLifePasses)
 	s := Sample{Pass: p, Env: NewEnv(p.Air, trk.HeadingDeg, prep, mass), Weight: weight}
 	for i := range Timers {
 		s.Obs[i] = math.NaN()
@@ -216,10 +228,26 @@ func (p Params) at(k int) float64 {
 
 func sq(x float64) float64 { return x * x }
 
+// huberK is where the fit stops trusting a residual quadratically, in
+// standard deviations: beyond it a residual pulls linearly (Huber's loss), so
+// a bad day or a mislabelled pass cannot drag the car's physics with it.
+const huberK = 3.0
+
+// huber maps a scaled residual to one whose square is Huber's loss (×2):
+// r itself within ±huberK, sign(r)·√(2k|r| − k²) beyond.
+func huber(r float64) float64 {
+	a := math.Abs(r)
+	if a <= huberK {
+		return r
+	}
+	return math.Copysign(math.Sqrt(2*huberK*a-huberK*huberK), r)
+}
+
 // residuals are the weighted residuals of every sample and the prior rows.
 func (f *Fit) residuals(th theta, runs []Run) []float64 {
 	p := th.params()
 	prior := DefaultParams(f.Car.Induction).theta()
+	sd := priorSD(f.Car.Induction)
 	var r []float64
 	for i := range f.Samples {
 		s := &f.Samples[i]
@@ -230,17 +258,17 @@ func (f *Fit) residuals(th theta, runs []Run) []float64 {
 		w := math.Sqrt(s.Weight)
 		for j := range Timers {
 			if !math.IsNaN(s.Obs[j]) {
-				r = append(r, w*(run.ET[j]-s.Obs[j])/timerSigma[j])
+				r = append(r, w*huber((run.ET[j]-s.Obs[j])/timerSigma[j]))
 			}
 		}
 		for j, sim := range [2]float64{run.MPH660, run.MPH1320} {
 			if !math.IsNaN(s.Trap[j]) {
-				r = append(r, w*(sim-s.Trap[j])/trapSigma)
+				r = append(r, w*huber((sim-s.Trap[j])/trapSigma))
 			}
 		}
 	}
 	for k := range th {
-		r = append(r, (th[k]-prior[k])/priorSD.at(k))
+		r = append(r, (th[k]-prior[k])/sd.at(k))
 	}
 	return r
 }

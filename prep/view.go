@@ -78,7 +78,12 @@ func newView(c Card) view {
 			v.DialLines = append(v.DialLines, fmt.Sprintf("%s s %s (%s)", signedDec(a.Adjust), a.Reason, a.File))
 		}
 		if len(c.Adjustments) > 0 {
-			v.DialLines = append(v.DialLines, fmt.Sprintf("final %s: %.1f %% chance of breaking out", v.Dial, 100*engine.BreakoutChance(c.Plan.Estimate, c.FinalDial)))
+			chance := engine.BreakoutChance(c.Plan.Estimate, c.FinalDial)
+			line := fmt.Sprintf("final %s: %.1f %% chance of breaking out", v.Dial, 100*chance)
+			if chance > c.Plan.Risk {
+				line += fmt.Sprintf(", more than the %.0f %% you accept: the rules dialed past the recommendation", 100*c.Plan.Risk)
+			}
+			v.DialLines = append(v.DialLines, line)
 		}
 	}
 	v.DialAlert = c.AdjustFlag

@@ -21,6 +21,10 @@ const (
 	// (one standard error of the forecast density altitude), the forecast is
 	// flagged as not to be trusted.
 	NoisyDAFeet = 250.0
+	// MeterDAFeet is the least uncertainty of a forecast density altitude:
+	// a handheld meter resolves about 0.5 °F and 0.01 inHg, together about
+	// 30 ft of DA (from memory), however straight the trend.
+	MeterDAFeet = 30.0
 )
 
 // Forecast is the air expected at a future time from the weather log's trend.
@@ -108,7 +112,7 @@ func ForecastAt(log []Reading, at time.Time, elev Length) (Forecast, error) {
 	}
 	f.Air = f.Reading.Derive(elev)
 	daFit := fitLine(x, da)
-	f.DAError = Feet(daFit.predictionError(x0))
+	f.DAError = Feet(math.Max(daFit.predictionError(x0), MeterDAFeet))
 	f.Trusted = true
 	f.Notes = append(f.Notes, fmt.Sprintf("trend of %d readings over %s (%s–%s), %s ahead of the last",
 		f.Used, roundMin(f.Span), win[0].Time.Format("15:04"), last.Time.Format("15:04"), roundMin(f.Ahead)))

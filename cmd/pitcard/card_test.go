@@ -83,6 +83,7 @@ func TestDemoCardContent(t *testing.T) {
 // says what is missing.
 func TestCardOnASparseFolder(t *testing.T) {
 	dir := newFolder(t)
+	_ = os.Remove(filepath.Join(dir, "schedule.yaml"))
 	_, errs, code := pitcard(t, "card", "--dir", dir)
 	if code != 2 || !strings.Contains(errs, "which round?") {
 		t.Errorf("no round: exit %d %s", code, errs)

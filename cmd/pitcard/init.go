@@ -1,6 +1,7 @@
 package main
 
 import (
+	"bytes"
 	"fmt"
 	"io/fs"
 	"os"
@@ -78,6 +79,9 @@ func initRun(o *initOptions) error {
 		if err != nil {
 			return err
 		}
+		if f == ScheduleFile && !o.Demo {
+			data = bytes.ReplaceAll(data, []byte("DATE"), []byte(o.s.Now().Format("2006-01-02")))
+		}
 		dst := filepath.Join(o.Dir, f)
 		if err := os.MkdirAll(filepath.Dir(dst), 0o755); err != nil {
 			return err
@@ -91,8 +95,8 @@ func initRun(o *initOptions) error {
 	if o.Demo {
 		fmt.Fprintf(o.s.Out, "Next: cd %s && pitcard air --latest\n", o.Dir)
 	} else {
-		fmt.Fprintf(o.s.Out, "Next: edit %s and %s for your car and track, then add a reading:\n  cd %s && pitcard weather add --temp 85F --baro 28.90inHg --humidity 40%%\n",
-			filepath.Join(o.Dir, event.CarFile), filepath.Join(o.Dir, event.TrackFile), o.Dir)
+		fmt.Fprintf(o.s.Out, "Next: edit %s, %s and %s for your car, track and race day, then add a reading:\n  cd %s && pitcard weather add --temp 85F --baro 28.90inHg --humidity 40%%\nand print the card for the next round: pitcard card\n",
+			filepath.Join(o.Dir, event.CarFile), filepath.Join(o.Dir, event.TrackFile), filepath.Join(o.Dir, ScheduleFile), o.Dir)
 	}
 	return nil
 }

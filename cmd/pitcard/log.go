@@ -182,6 +182,11 @@ func logAddRun(cmd *cobra.Command, o *logAddOptions) error {
 		return err
 	} else if r, ok := nearestReading(log, p.Time, time.Hour); ok {
 		base, source = &r, "the weather log's "+r.Time.Format("15:04")+" reading"
+	} else if len(log) > 0 && sameDate(log[len(log)-1].Time, p.Time) {
+		// No reading within the hour, but the day's trend reaches the pass.
+		if f, err := weather.ForecastAt(log, p.Time, elev); err == nil && f.Trusted {
+			base, source = &f.Reading, "the weather log's trend ("+strings.Join(f.Notes, "; ")+")"
+		}
 	}
 	if base != nil || o.reading.given() {
 		r, err := o.reading.reading(e.Settings.Units, p.Time, base)
@@ -215,6 +220,8 @@ func logAddRun(cmd *cobra.Command, o *logAddOptions) error {
 	}
 	return nil
 }
+
+func sameDate(a, b time.Time) bool { return a.Format("2006-01-02") == b.Format("2006-01-02") }
 
 // nearestReading is the reading of log closest in time to t, within tol.
 func nearestReading(log []weather.Reading, t time.Time, tol time.Duration) (weather.Reading, bool) {
@@ -554,6 +561,6 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 	} else {
 		fmt.Fprintln(o.s.Out, "Spreads are raw (no car.yaml or no weather in the logbook): the air moving through a day counts as scatter.")
 	}
-	fmt.Fprintln(o.s.Out, "Very consistent (≤ 0.015 s): dial it with confidence. Consistent (≤ 0.030). Some scatter (≤ 0.060): check the notes, tires, routine. Inconsistent: look for lifted or spinning runs, or a car problem.")
+	fmt.Fprintln(o.s.Out, "Very consistent (≤ 0.015 s): dial it with confidence. Consistent (≤ 0.030).\nSome scatter (≤ 0.060): check the notes, tires, routine. Inconsistent: look for lifted or spinning runs.")
 	return nil
 }
