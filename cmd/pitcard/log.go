@@ -34,6 +34,7 @@ previous logbook as logbook.csv.bak.`,
   pitcard log stats`,
 	}
 	cmd.AddCommand(newLogAddCmd(s, g), newLogImportCmd(s, g), newLogListCmd(s, g), newLogStatsCmd(s, g))
+	groupCmd(cmd)
 	return cmd
 }
 

@@ -10,6 +10,7 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"strings"
 	"time"
 
 	"golang.org/x/term"
@@ -70,5 +71,15 @@ func userErrf(f string, a ...any) error { return badInput{fmt.Errorf(f, a...)} }
 
 func isBadInput(err error) bool {
 	var b interface{ BadInput() bool }
-	return errors.As(err, &b) && b.BadInput()
+	if errors.As(err, &b) && b.BadInput() {
+		return true
+	}
+	// cobra's own argument errors: a mistyped command line
+	msg := err.Error()
+	for _, p := range []string{"unknown command", "accepts ", "requires ", "invalid argument", "unknown flag", "unknown shorthand flag", "flag needs an argument"} {
+		if strings.HasPrefix(msg, p) {
+			return true
+		}
+	}
+	return false
 }

@@ -10,6 +10,7 @@ import (
 	"github.com/jedib0t/go-pretty/v6/table"
 	"github.com/jedib0t/go-pretty/v6/text"
 	"github.com/shopspring/decimal"
+	"github.com/spf13/cobra"
 )
 
 // newTable is a go-pretty table in pitcard's style: light rules, colour only
@@ -71,4 +72,11 @@ func signedDecimal(d decimal.Decimal) string {
 		return d.StringFixed(2)
 	}
 	return "+" + d.StringFixed(2)
+}
+
+// groupCmd makes a command that only groups others refuse an unknown
+// subcommand (exit 2) instead of printing its help and exiting 0.
+func groupCmd(cmd *cobra.Command) {
+	cmd.Args = cobra.NoArgs
+	cmd.RunE = func(c *cobra.Command, _ []string) error { return c.Help() }
 }

@@ -25,6 +25,7 @@ becomes a failed check on the card naming its file and line, and the others go o
 		Example: "  pitcard rules list\n  pitcard rules check\n  pitcard rules try --round 3 --lane left --at 20:45",
 	}
 	cmd.AddCommand(newRulesListCmd(s, g), newRulesCheckCmd(s, g), newRulesTryCmd(s, g))
+	groupCmd(cmd)
 	return cmd
 }
 
@@ -119,6 +120,20 @@ func newRulesCheckCmd(s *IOStreams, g *globalOptions) *cobra.Command {
 			if err != nil {
 				return err
 			}
+			// Run the hooks too, on the folder's next round, when it can be gathered.
+			ran := map[string][]*scripts.Error{}
+			hooks := "loaded only"
+			if in, _, err := roundInput(e, roundFlags{}, s.Now()); err == nil {
+				for _, r := range prep.Gather(in).Rules {
+					ran[r.File] = r.Errors
+				}
+				hooks = "loaded and run on " + in.Session.Long()
+			} else if in, _, err := roundInput(e, roundFlags{Round: "1"}, s.Now()); err == nil {
+				for _, r := range prep.Gather(in).Rules {
+					ran[r.File] = r.Errors
+				}
+				hooks = "loaded and run on round 1"
+			}
 			bad := 0
 			for _, r := range rules {
 				switch {
@@ -128,10 +143,14 @@ func newRulesCheckCmd(s *IOStreams, g *globalOptions) *cobra.Command {
 				case len(r.Defines) == 0:
 					bad++
 					fmt.Fprintf(s.Out, "FAIL  %s: defines none of dial, checks, notes\n", r.File)
+				case len(ran[r.File]) > 0:
+					bad++
+					fmt.Fprintf(s.Out, "FAIL  %s\n", ran[r.File][0])
 				default:
 					fmt.Fprintf(s.Out, "ok    %s (%s)\n", r.File, strings.Join(r.Defines, ", "))
 				}
 			}
+			fmt.Fprintf(s.Out, "(rules %s)\n", hooks)
 			if bad > 0 {
 				return fmt.Errorf("%d of %s failed", bad, plural(len(rules), "rule"))
 			}

@@ -1,0 +1,160 @@
+package main
+
+import (
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// The bad-input tour: for every command, wrong inputs (a wrong unit, a value
+// out of range, a missing file, a corrupt row, an unknown flag, a failing
+// rule) with the exit code and the words the message must contain. No Go
+// panic or stack trace reaches the user.
+func TestBadInputTour(t *testing.T) {
+	good := demoCopy(t)
+	bad := demoCopy(t)
+	// corrupt copies of each file
+	corruptRow := func(file, from, to string) string {
+		dir := demoCopy(t)
+		p := filepath.Join(dir, file)
+		data, _ := os.ReadFile(p)
+		if !strings.Contains(string(data), from) {
+			t.Fatalf("%s lacks %q", file, from)
+		}
+		_ = os.WriteFile(p, []byte(strings.Replace(string(data), from, to, 1)), 0o644)
+		return dir
+	}
+	badLog := corruptRow("logbook.csv", "2026-04-11,13:00", "2026-04-11,25:00")
+	badWeather := corruptRow("weather.csv", "2026-06-13,14:00:00", "2026-06-13,14:00:00x")
+	badCar := corruptRow("car.yaml", "weight_lb: 3350", "weight_lb: 33500")
+	badTrack := corruptRow("track.yaml", "elevation_ft: 2240", "elevation_ft: high")
+	badSettings := corruptRow("pitcard.yaml", "dial_step: 0.01", "dial_step: 0.5")
+	_ = os.WriteFile(filepath.Join(bad, "rules", "05-bad.lua"), []byte("function dial(ctx)\n  return ctx.nope.x\nend\n"), 0o644)
+	missing := filepath.Join(t.TempDir(), "nowhere")
+	src := filepath.Join(t.TempDir(), "rows.csv")
+	_ = os.WriteFile(src, []byte(slipHeader+"2026-07-01,18:00,X,E1,left,11.5,0.02,1.6,,,,11.5,,116,88,28.9,140,,,,,\n"), 0o644)
+
+	reading := []string{"--temp", "85F", "--baro", "27.6inHg", "--humidity", "35%"}
+	type tc struct {
+		args []string
+		code int
+		want []string
+	}
+	with := func(base []string, extra ...string) []string { return append(append([]string{}, base...), extra...) }
+	tour := map[string][]tc{
+		"air": {
+			{with([]string{"air", "--dir", good, "--temp", "85K", "--baro", "27.6", "--humidity", "35"}), 2, []string{"--temp", "85K", "F or C"}},
+			{with([]string{"air", "--dir", good, "--temp", "185F", "--baro", "27.6", "--humidity", "35"}), 2, []string{"--temp", "-40..140 °F"}},
+			{with([]string{"air", "--dir", missing, "--latest"}), 2, []string{"does not exist"}},
+			{with([]string{"air", "--dir", badWeather, "--latest"}), 2, []string{"weather.csv line 3", "time"}},
+			{with([]string{"air", "--dir", good, "--temperature", "85"}), 2, []string{"unknown flag", "--temperature"}},
+			{with([]string{"air", "--dir", badTrack, "--latest"}), 2, []string{"track.yaml", "line 3"}},
+		},
+		"weather add": {
+			{with([]string{"weather", "add", "--dir", good, "--temp", "85F", "--baro", "27.6psi", "--humidity", "35"}), 2, []string{"--baro", "psi"}},
+			{with([]string{"weather", "add", "--dir", good, "--temp", "85F", "--baro", "27.6", "--humidity", "135"}), 2, []string{"--humidity", "0..100 %"}},
+			{with([]string{"weather", "add", "--dir", good, "--time", "25:00"}, reading...), 2, []string{"--time", "HH:MM"}},
+			{with([]string{"weather", "add", "--dir", badWeather}, reading...), 2, []string{"weather.csv line 3"}},
+			{with([]string{"weather", "add", "--dir", good, "--wind", "90mph"}, reading...), 2, []string{"--wind", "0..60 mph"}},
+			{with([]string{"weather", "add", "--demo"}, reading...), 2, []string{"read-only"}},
+		},
+		"weather list/forecast": {
+			{[]string{"weather", "list", "--dir", badWeather}, 2, []string{"weather.csv line 3"}},
+			{[]string{"weather", "list", "--dir", good, "--format", "yaml"}, 2, []string{"--format", "yaml"}},
+			{[]string{"weather", "forecast", "--dir", good, "--at", "23:59"}, 2, []string{"at most 3 h"}},
+			{[]string{"weather", "forecast", "--dir", good, "--at", "noon"}, 2, []string{"--at", "HH:MM"}},
+			{[]string{"weather", "forecast", "--dir", good, "--at", "10:00"}, 2, []string{"before the first reading"}},
+			{[]string{"weather", "forecast", "--dir", good}, 2, []string{"--at is required"}},
+		},
+		"log add": {
+			{[]string{"log", "add", "--dir", good, "--session", "E9", "--lane", "up", "--et1320", "11.5"}, 2, []string{"--lane", "left or right"}},
+			{[]string{"log", "add", "--dir", good, "--session", "Q1", "--lane", "left", "--et1320", "11.5"}, 2, []string{"--session", "Q1"}},
+			{[]string{"log", "add", "--dir", good, "--session", "E9", "--lane", "left", "--et1320", "11.5", "--mph1320", "250"}, 2, []string{"--mph1320", "not plausible"}},
+			{[]string{"log", "add", "--dir", good, "--session", "E9", "--lane", "left", "--et1320", "eleven"}, 2, []string{"--et1320", "seconds"}},
+			{[]string{"log", "add", "--dir", badLog, "--session", "E9", "--lane", "left", "--et1320", "11.5"}, 2, []string{"logbook.csv line", "time"}},
+			{[]string{"log", "add", "--dir", good, "--session", "E9", "--lane", "left", "--et1320", "11.5", "--weight", "50"}, 2, []string{"--weight", "500..10000"}},
+		},
+		"log import/list/stats": {
+			{[]string{"log", "import", "--dir", good, missing}, 2, []string{"cannot read"}},
+			{[]string{"log", "import", "--dir", good, src}, 2, []string{"rows.csv line 2", "humidity_pct", "0..100"}},
+			{[]string{"log", "import", "--dir", good}, 2, []string{"accepts 1 arg"}},
+			{[]string{"log", "list", "--dir", badLog}, 2, []string{"logbook.csv line"}},
+			{[]string{"log", "list", "--dir", good, "--last", "x"}, 2, []string{"--last"}},
+			{[]string{"log", "stats", "--dir", badLog}, 2, []string{"logbook.csv line"}},
+			{[]string{"log", "stats", "--dir", good, "--format", "pdf"}, 2, []string{"--format"}},
+		},
+		"race": {
+			{[]string{"race", "--left-dial", "14.2", "--left-rt", ".5", "--left-et", "14.3", "--right-dial", "13", "--right-rt", ".5"}, 2, []string{"--right-et is required"}},
+			{[]string{"race", "--left-dial", "14.2s", "--left-rt", ".5", "--left-et", "14.3", "--right-dial", "13", "--right-rt", ".5", "--right-et", "13.1"}, 2, []string{"--left-dial"}},
+			{[]string{"race", "--left-dial", "14.2", "--left-rt", ".5", "--left-et", "-1", "--right-dial", "13", "--right-rt", ".5", "--right-et", "13.1"}, 2, []string{"left-et", "positive"}},
+			{[]string{"race", "--tree", "christmas", "--left-dial", "14.2", "--left-rt", ".5", "--left-et", "14", "--right-dial", "13", "--right-rt", ".5", "--right-et", "13.1"}, 2, []string{"tree", "full or pro"}},
+			{[]string{"race", "--rt-zero", "red", "--left-dial", "14.2", "--left-rt", ".5", "--left-et", "14", "--right-dial", "13", "--right-rt", ".5", "--right-et", "13.1"}, 2, []string{"rt-zero"}},
+			{[]string{"race", "--left-mph", "fast", "--left-dial", "14.2", "--left-rt", ".5", "--left-et", "14", "--right-dial", "13", "--right-rt", ".5", "--right-et", "13.1"}, 2, []string{"--left-mph"}},
+		},
+		"dial": {
+			{[]string{"dial", "--dir", good, "--et", "11.5"}, 2, []string{"--et and --sd together"}},
+			{[]string{"dial", "--dir", good, "--et", "11.5", "--sd", "-1"}, 2, []string{"--sd"}},
+			{[]string{"dial", "--dir", good, "--et", "fast", "--sd", "0.02"}, 2, []string{"--et"}},
+			{[]string{"dial", "--dir", good, "--breakout-risk", "2"}, 2, []string{"breakout_risk"}},
+			{[]string{"dial", "--dir", good, "--dial-step", "1"}, 2, []string{"dial_step", "0.001..0.1"}},
+			{[]string{"dial", "--dir", badSettings}, 2, []string{"dial_step"}},
+			{[]string{"dial", "--dir", good, "--rows", "0"}, 2, []string{"--rows"}},
+		},
+		"predict": {
+			{with([]string{"predict", "--dir", badCar}, reading...), 2, []string{"car.yaml", "weight_lb", "500..10000"}},
+			{with([]string{"predict", "--dir", good, "--prep", "soaked"}, reading...), 2, []string{"--prep"}},
+			{with([]string{"predict", "--dir", good, "--logbook", missing}, reading...), 2, []string{"cannot read"}},
+			{with([]string{"predict", "--dir", badLog}, reading...), 2, []string{"logbook.csv line"}},
+			{with([]string{"predict", "--dir", good, "--track-temp", "300F"}, reading...), 2, []string{"--track-temp", "-20..200"}},
+			{with([]string{"predict", "--dir", good, "--at", "09:00"}), 2, []string{"before the first reading"}},
+		},
+		"rules": {
+			{[]string{"rules", "check", "--dir", bad}, 1, []string{"1 of 6 rules failed"}},
+			{[]string{"rules", "list", "--dir", good, "--format", "xml"}, 2, []string{"--format"}},
+			{[]string{"rules", "try", "--dir", good, "--round", "Z9"}, 2, []string{"--round"}},
+			{[]string{"rules", "try", "--dir", good, "--lane", "middle"}, 2, []string{"--lane"}},
+			{[]string{"rules", "try", "--dir", badSettings}, 2, []string{"dial_step"}},
+			{[]string{"rules", "frobnicate", "--dir", good}, 2, []string{"unknown command"}},
+		},
+		"card": {
+			{[]string{"card", "--dir", good, "--format", "pdf"}, 2, []string{"--format", "pdf"}},
+			{[]string{"card", "--dir", good, "--opponent-dial", "11,4"}, 2, []string{"--opponent-dial"}},
+			{[]string{"card", "--dir", good, "--at", "8pm"}, 2, []string{"--at"}},
+			{[]string{"card", "--dir", badCar}, 2, []string{"car.yaml", "weight_lb"}},
+			{[]string{"card", "--dir", badTrack}, 2, []string{"track.yaml"}},
+			{[]string{"card", "--dir", good, "--out", filepath.Join(missing, "x", "card.html")}, 1, []string{"writing"}},
+		},
+		"round": {
+			{[]string{"round", "--demo"}, 2, []string{"read-only"}},
+			{[]string{"round", "--dir", missing}, 2, []string{"does not exist"}},
+			{[]string{"round", "--dir", badCar, "--round", "X"}, 2, []string{"session"}},
+			{[]string{"round", "--dir", good, "--lane", "up", "--no-log"}, 2, []string{"lane"}},
+			{[]string{"round", "--dir", good, "extra"}, 2, []string{"unknown command"}},
+		},
+		"init/version": {
+			{[]string{"init", good}, 2, []string{"never overwrites"}},
+			{[]string{"init"}, 2, []string{"accepts 1 arg"}},
+			{[]string{"version", "now"}, 2, []string{"unknown command"}},
+			{[]string{"versoin"}, 2, []string{"unknown command"}},
+			{[]string{"--units", "furlongs", "air", "--dir", good, "--latest"}, 2, []string{"units", "imperial or metric"}},
+		},
+	}
+	for name, cases := range tour {
+		for _, c := range cases {
+			out, errs, code := pitcard(t, c.args...)
+			all := out + errs
+			if code != c.code {
+				t.Errorf("%s: pitcard %s: exit %d, want %d\n%s", name, strings.Join(c.args, " "), code, c.code, all)
+			}
+			for _, w := range c.want {
+				if !strings.Contains(all, w) {
+					t.Errorf("%s: pitcard %s: %q lacks %q", name, strings.Join(c.args, " "), strings.TrimSpace(all), w)
+				}
+			}
+			if strings.Contains(all, "goroutine ") || strings.Contains(all, "panic:") || strings.Contains(all, ".go:") {
+				t.Errorf("%s: a stack trace reached the user:\n%s", name, all)
+			}
+		}
+	}
+}
