@@ -54,3 +54,50 @@ func FuzzReadTrack(f *testing.F) {
 		}
 	})
 }
+
+func FuzzReadCar(f *testing.F) {
+	f.Add("weight_lb: 3350\npower_hp: 520\ninduction: natural\ndistance_ft: 1320\n")
+	f.Add("weight_lb: 3350\npower_hp: 0\ninduction: turbo\ndistance_ft: 660\ngears: [2.48, 1.48, 1.0]\nfinal_drive: 3.73\ntire_diameter_in: 28\n")
+	f.Add("weight_lb: 3350\ninduction: nitrous\nnitrous_hp: 150\ndistance_ft: 1000\nlimit_et: 10.0\nchute: false\nextra: {a: [1, 2]}\n")
+	f.Add("weight_lb: [1]\n")
+	f.Fuzz(func(t *testing.T, s string) {
+		c, err := ReadCar(strings.NewReader(s), "car.yaml")
+		if err != nil {
+			if !strings.Contains(err.Error(), "car.yaml") {
+				t.Fatalf("error %q does not name the file", err)
+			}
+			return
+		}
+		if c.Validate("car.yaml") != nil {
+			t.Fatalf("accepted an invalid car %+v", c)
+		}
+		// every accepted car simulates without blowing up (physics sanity)
+		v := NewVehicle(c, 300)
+		run := Simulate(&v, DefaultParams(c.Induction), NewEnv(j1349Air, 0, 1, v.MassKg), c.DistanceFt)
+		if !(run.ETAt(c.DistanceFt) > 0) {
+			t.Fatalf("car %+v ran %v", c, run.ET)
+		}
+	})
+}
+
+func FuzzParseSlipFields(f *testing.F) {
+	for _, s := range []string{"T1", "E3", "round 2", "test", ".520", "-.012", "11.538", "left", "R"} {
+		f.Add(s)
+	}
+	f.Fuzz(func(t *testing.T, s string) {
+		if _, err := ParseSession(s); err != nil && !strings.Contains(err.Error(), "session") {
+			t.Fatalf("session error %q", err)
+		}
+		if d, err := ParseSeconds("rt", s); err != nil && !strings.Contains(err.Error(), "rt") {
+			t.Fatalf("seconds error %q", err)
+		} else if err == nil && FormatSeconds(d, 3) == "" {
+			t.Fatal("empty format")
+		}
+		if _, err := ParseLane(s); err != nil && !strings.Contains(err.Error(), "lane") {
+			t.Fatalf("lane error %q", err)
+		}
+		if _, err := ParsePrep(s); err != nil && !strings.Contains(err.Error(), "prep") {
+			t.Fatalf("prep error %q", err)
+		}
+	})
+}

@@ -4,6 +4,8 @@ import (
 	"io/fs"
 	"strings"
 	"testing"
+
+	"github.com/shopspring/decimal"
 )
 
 func shippedRule(t *testing.T, name string) *Rule {
@@ -142,3 +144,5 @@ func TestPrestageRule(t *testing.T) {
 		t.Errorf("with a chute: %d items", len(res.Checks))
 	}
 }
+
+func mustDec(s string) decimal.Decimal { return decimal.RequireFromString(s) }

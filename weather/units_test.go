@@ -192,3 +192,13 @@ func checkParsed(t *testing.T, s string, v float64, err error, field string) {
 		t.Fatalf("%q parsed to NaN", s)
 	}
 }
+
+func FuzzParseDirection(f *testing.F) {
+	for _, s := range []string{"200", "SW", "nne", "200°", "200deg", "-5", "N W"} {
+		f.Add(s)
+	}
+	f.Fuzz(func(t *testing.T, s string) {
+		v, err := ParseDirection(s)
+		checkParsed(t, s, v, err, "direction")
+	})
+}
