@@ -9,6 +9,8 @@ import (
 	"strings"
 	"testing"
 	"time"
+
+	"github.com/spf13/cobra"
 )
 
 // fixedNow is the clock of every command test: a Saturday evening.
@@ -218,5 +220,29 @@ func TestInitDemoAndVersion(t *testing.T) {
 	}
 	if v := mustRun(t, "version"); !strings.HasPrefix(v, "pitcard ") {
 		t.Errorf("version %q", v)
+	}
+}
+
+// Every command says what it is for in one line and shows a worked example.
+func TestEveryCommandHasHelp(t *testing.T) {
+	root := newRootCmd(&IOStreams{In: strings.NewReader(""), Out: &bytes.Buffer{}, Err: &bytes.Buffer{}, Now: func() time.Time { return fixedNow }})
+	var walk func(c *cobra.Command)
+	walk = func(c *cobra.Command) {
+		for _, sub := range c.Commands() {
+			if sub.Name() == "help" || sub.Name() == "completion" || sub.Hidden {
+				continue
+			}
+			if sub.Short == "" || strings.Contains(sub.Short, "\n") {
+				t.Errorf("%s: no one-line purpose", sub.CommandPath())
+			}
+			if sub.Example == "" {
+				t.Errorf("%s: no example", sub.CommandPath())
+			}
+			walk(sub)
+		}
+	}
+	walk(root)
+	if out := mustRun(t, "completion", "bash"); !strings.Contains(out, "bash completion") {
+		t.Error("no bash completion")
 	}
 }

@@ -80,3 +80,8 @@ func groupCmd(cmd *cobra.Command) {
 	cmd.Args = cobra.NoArgs
 	cmd.RunE = func(c *cobra.Command, _ []string) error { return c.Help() }
 }
+
+// dialString prints a dial with the decimals of the step (at least 2).
+func dialString(d, step decimal.Decimal) string {
+	return d.StringFixed(max(-step.Exponent(), 2))
+}

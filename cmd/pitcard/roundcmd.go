@@ -266,7 +266,7 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 	}
 	dial := ""
 	if c.HasFinal && in.Session.Kind == engine.Elimination {
-		dial = c.FinalDial.StringFixed(2)
+		dial = dialString(c.FinalDial, e.Settings.DialStep)
 	}
 	slip := map[string]string{}
 	for _, q := range []struct{ key, question, def string }{

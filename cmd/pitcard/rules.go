@@ -161,9 +161,10 @@ func newRulesCheckCmd(s *IOStreams, g *globalOptions) *cobra.Command {
 }
 
 type rulesTryOptions struct {
-	g     *globalOptions
-	s     *IOStreams
-	round roundFlags
+	g      *globalOptions
+	s      *IOStreams
+	round  roundFlags
+	Format string
 }
 
 func newRulesTryCmd(s *IOStreams, g *globalOptions) *cobra.Command {
@@ -180,10 +181,14 @@ logged with pit.log or print, and how long it took.`,
 		RunE:    func(cmd *cobra.Command, _ []string) error { return rulesTryRun(cmd, o) },
 	}
 	o.round.bind(cmd)
+	cmd.Flags().StringVar(&o.Format, "format", "text", "text or json")
 	return cmd
 }
 
 func rulesTryRun(cmd *cobra.Command, o *rulesTryOptions) error {
+	if err := checkFormat(o.Format, "text", "json"); err != nil {
+		return err
+	}
 	e, err := o.g.open(cmd)
 	if err != nil {
 		return err
@@ -196,6 +201,46 @@ func rulesTryRun(cmd *cobra.Command, o *rulesTryOptions) error {
 		fmt.Fprintln(o.s.Err, "pitcard: warning:", w)
 	}
 	c := prep.Gather(in)
+	if o.Format == "json" {
+		type check struct {
+			Label  string `json:"label"`
+			Status string `json:"status"`
+			Note   string `json:"note"`
+		}
+		type result struct {
+			File    string   `json:"file"`
+			Defines []string `json:"defines"`
+			Adjust  string   `json:"adjust,omitempty"`
+			Reason  string   `json:"reason,omitempty"`
+			Checks  []check  `json:"checks"`
+			Notes   []string `json:"notes"`
+			Log     []string `json:"log"`
+			Errors  []string `json:"errors"`
+			TookMS  float64  `json:"took_ms"`
+		}
+		out := []result{}
+		for _, r := range c.Rules {
+			x := result{File: r.File, Defines: r.Defines, Checks: []check{}, Notes: r.Notes, Log: r.Log, Errors: []string{}, TookMS: round(float64(r.Took.Microseconds())/1000, 2)}
+			if r.HasAdjust {
+				x.Adjust, x.Reason = r.Adjust.StringFixed(2), r.Reason
+			}
+			for _, ch := range r.Checks {
+				x.Checks = append(x.Checks, check{ch.Label, ch.Status, ch.Note})
+			}
+			for _, e := range r.Errors {
+				x.Errors = append(x.Errors, e.Error())
+			}
+			if x.Notes == nil {
+				x.Notes = []string{}
+			}
+			if x.Log == nil {
+				x.Log = []string{}
+			}
+			out = append(out, x)
+		}
+		return writeJSON(o.s.Out, map[string]any{"round": c.Title, "recommended_dial": recommendedText(c), "rules": out,
+			"rule_total": c.TotalAdjust.StringFixed(2), "final_dial": finalText(c), "flag": c.AdjustFlag})
+	}
 	w := o.s.Out
 	fmt.Fprintf(w, "%s, called %s. Recommended dial before the rules: %s.\n", c.Title, in.Call.Format("15:04"), recommendedText(c))
 	for _, r := range c.Rules {
@@ -218,7 +263,7 @@ func rulesTryRun(cmd *cobra.Command, o *rulesTryOptions) error {
 		}
 	}
 	if c.HasFinal {
-		fmt.Fprintf(w, "\nRules add %s s: final dial %s.\n", signedDecimal(c.TotalAdjust), c.FinalDial.StringFixed(2))
+		fmt.Fprintf(w, "\nRules add %s s: final dial %s.\n", signedDecimal(c.TotalAdjust), finalText(c))
 	}
 	if c.AdjustFlag != "" {
 		fmt.Fprintln(w, "Flag: "+c.AdjustFlag)
@@ -230,5 +275,12 @@ func recommendedText(c prep.Card) string {
 	if c.PlanErr != nil || len(c.Plan.Options) == 0 {
 		return "none (no prediction)"
 	}
-	return c.Plan.Recommended.StringFixed(2)
+	return dialString(c.Plan.Recommended, c.Input.Settings.DialStep)
+}
+
+func finalText(c prep.Card) string {
+	if !c.HasFinal {
+		return ""
+	}
+	return dialString(c.FinalDial, c.Input.Settings.DialStep)
 }
