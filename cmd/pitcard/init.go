@@ -45,7 +45,7 @@ change and see the results change. Existing files are never overwritten.`,
 func initRun(o *initOptions) error {
 	src, what := event.Starter(), "starter"
 	if o.Demo {
-		src, what = event.Demo(), "demo"
+		src, what = event.Demo(scripts.Shipped()), "demo"
 	}
 	// The folder's files, and the rules that ship with pitcard (the demo has its own copy).
 	from := map[string]fs.FS{}

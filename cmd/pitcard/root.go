@@ -142,7 +142,7 @@ func (e *eventFolder) writable() error {
 func (g *globalOptions) open(cmd *cobra.Command) (*eventFolder, error) {
 	e := &eventFolder{Demo: g.Demo}
 	if g.Demo {
-		e.FS = event.Demo()
+		e.FS = event.Demo(scripts.Shipped())
 	} else {
 		st, err := os.Stat(g.Dir)
 		if err != nil || !st.IsDir() {

@@ -12,7 +12,6 @@ import (
 	"bytes"
 	"flag"
 	"fmt"
-	"io/fs"
 	"math"
 	"math/rand/v2"
 	"os"
@@ -22,7 +21,6 @@ import (
 	"github.com/shopspring/decimal"
 
 	"pitcard/engine"
-	"pitcard/scripts"
 	"pitcard/weather"
 )
 
@@ -144,15 +142,6 @@ func generate(outDir string) (int, int, error) {
 		fmt.Fprintf(&sb, "  - {session: %s, call: \"%s\"}\n", sc.session, sc.call)
 	}
 	must(os.WriteFile(filepath.Join(*out, "schedule.yaml"), sb.Bytes(), 0o644))
-	// The demo runs the rules that ship with pitcard.
-	must(os.MkdirAll(filepath.Join(*out, "rules"), 0o755))
-	shippedRules, err := fs.Glob(scripts.Shipped(), "rules/*.lua")
-	must(err)
-	for _, name := range shippedRules {
-		data, err := fs.ReadFile(scripts.Shipped(), name)
-		must(err)
-		must(os.WriteFile(filepath.Join(*out, name), data, 0o644))
-	}
 	return len(passes), len(log), firstErr
 }
 
