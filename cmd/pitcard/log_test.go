@@ -256,3 +256,44 @@ func (s slowWriter) Write(p []byte) (int, error) {
 	}
 	return n, nil
 }
+
+// Two pitcard processes writing at once lose no row: each child adds ten
+// readings and ten passes to the same folder.
+func TestTwoProcessesLoseNoRow(t *testing.T) {
+	if os.Getenv("PITCARD_WRITER_CHILD") != "" {
+		t.Skip("in the child")
+	}
+	dir := newFolder(t)
+	var children []*exec.Cmd
+	for _, hour := range []string{"10", "11"} {
+		c := exec.Command(os.Args[0], "-test.run=^TestWriterChild$")
+		c.Env = append(os.Environ(), "PITCARD_WRITER_CHILD="+dir, "PITCARD_WRITER_HOUR="+hour)
+		if err := c.Start(); err != nil {
+			t.Fatal(err)
+		}
+		children = append(children, c)
+	}
+	for _, c := range children {
+		if err := c.Wait(); err != nil {
+			t.Fatalf("child: %v", err)
+		}
+	}
+	var readings, passes []any
+	_ = json.Unmarshal([]byte(mustRun(t, "weather", "list", "--dir", dir, "--format", "json")), &readings)
+	_ = json.Unmarshal([]byte(mustRun(t, "log", "list", "--dir", dir, "--last", "0", "--format", "json")), &passes)
+	if len(readings) != 20 || len(passes) != 20 {
+		t.Errorf("%d readings and %d passes landed, want 20 and 20", len(readings), len(passes))
+	}
+}
+
+func TestWriterChild(t *testing.T) {
+	dir, hour := os.Getenv("PITCARD_WRITER_CHILD"), os.Getenv("PITCARD_WRITER_HOUR")
+	if dir == "" {
+		t.Skip("run by TestTwoProcessesLoseNoRow")
+	}
+	for i := range 10 {
+		clock := fmt.Sprintf("%s:%02d", hour, i*5)
+		mustRun(t, "weather", "add", "--dir", dir, "--time", clock, "--temp", "80F", "--baro", "28.9inHg", "--humidity", "40%")
+		mustRun(t, "log", "add", "--dir", dir, "--time", clock, "--session", "test", "--lane", "left", "--et1320", "11.5")
+	}
+}
