@@ -61,6 +61,10 @@ type Input struct {
 
 	Rules   []*scripts.Rule
 	RulesFS fs.FS
+
+	// Problems found before gathering (a broken car.yaml, say): printed on
+	// the card with whatever else can be computed.
+	Problems []string
 }
 
 // RuleLine is one rule's dial adjustment.
@@ -111,7 +115,7 @@ type Card struct {
 // in Problems, and the rest of the card is still there.
 func Gather(in Input) Card {
 	start := time.Now()
-	c := Card{Input: in, Cautions: Cautions}
+	c := Card{Input: in, Cautions: Cautions, Problems: append([]string(nil), in.Problems...)}
 	c.Title = strings.ToUpper(in.Session.Long()[:1]) + in.Session.Long()[1:]
 	if in.Lane != "" {
 		c.Title += ", " + string(in.Lane) + " lane"
@@ -127,10 +131,17 @@ func Gather(in Input) Card {
 	c.AirNow = c.AirNowRead.Derive(in.Elevation)
 
 	cal := engine.CalibrateInput{Car: in.Car, Track: in.Track, Tracks: in.Tracks, Passes: in.Passes, Now: latest(in.Now, in.Call, in.Passes)}
-	fit, err := engine.Calibrate(cal)
-	if err != nil {
+	var fit engine.Fit
+	err := in.Car.Validate("car.yaml")
+	if err == nil {
+		fit, err = engine.Calibrate(cal)
+	}
+	switch {
+	case err != nil && len(in.Problems) > 0:
+		c.Problems = append(c.Problems, "no prediction until that is fixed")
+	case err != nil:
 		c.Problems = append(c.Problems, "no prediction: "+err.Error())
-	} else {
+	default:
 		c.Fit = fit
 		c.Prediction = engine.Predict(fit, engine.PredictInput{Air: in.Air, Prep: in.Prep, WeightLb: in.WeightLb, Time: in.Call})
 		c.Plan, c.PlanErr = engine.PlanDial(c.Prediction.Estimate(), in.Settings.DialStep, in.Settings.BreakoutRisk, 4)

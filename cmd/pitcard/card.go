@@ -58,9 +58,10 @@ func cardRun(cmd *cobra.Command, o *cardOptions) error {
 		now = demoClock(e, now)
 	}
 	in, warnings, err := roundInput(e, o.round, now)
-	if err != nil {
+	if !usable(err) {
 		return err
 	}
+	broken := err
 	for _, w := range warnings {
 		fmt.Fprintln(o.s.Err, "pitcard: warning:", w)
 	}
@@ -84,10 +85,12 @@ func cardRun(cmd *cobra.Command, o *cardOptions) error {
 			return fmt.Errorf("writing %s: %w", o.Out, err)
 		}
 		fmt.Fprintf(o.s.Out, "Wrote the %s card for %s to %s.\n", o.Format, c.Title, o.Out)
-		return nil
+		return broken
 	}
-	_, err = o.s.Out.Write(buf.Bytes())
-	return err
+	if _, err := o.s.Out.Write(buf.Bytes()); err != nil {
+		return err
+	}
+	return broken
 }
 
 // demoClock is the demo's "now": the demo day's last weather reading, so the

@@ -39,7 +39,7 @@ func newRootCmd(s *IOStreams) *cobra.Command {
 helps pick the dial-in, runs your crew's rules and prints a prep card per round.
 
 Run it inside an event folder (see 'pitcard init'), or point --dir at one.
-Try it on the built-in demo event first: pitcard air --demo`,
+Try it on the built-in demo event first: pitcard card --demo`,
 		SilenceUsage:  true,
 		SilenceErrors: true,
 	}

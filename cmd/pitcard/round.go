@@ -62,9 +62,16 @@ func (e *eventFolder) schedule() (prep.Schedule, bool, error) {
 func roundInput(e *eventFolder, r roundFlags, now time.Time) (prep.Input, []string, error) {
 	var in prep.Input
 	var warnings []string
+	// A broken car.yaml or logbook.csv does not stop the card: it prints
+	// what it can (the air, the rules, the checklist, the cautions) and
+	// says what is wrong; the command then exits 2.
+	var broken []error
 	car, err := e.car()
 	if err != nil {
-		return in, nil, err
+		if !isBadInput(err) {
+			return in, nil, err
+		}
+		broken = append(broken, err)
 	}
 	trk, err := e.track()
 	if err != nil {
@@ -72,7 +79,11 @@ func roundInput(e *eventFolder, r roundFlags, now time.Time) (prep.Input, []stri
 	}
 	passes, err := e.logbook()
 	if err != nil {
-		return in, nil, err
+		if !isBadInput(err) {
+			return in, nil, err
+		}
+		broken = append(broken, err)
+		passes = nil
 	}
 	tracks, err := e.otherTracks()
 	if err != nil {
@@ -91,9 +102,24 @@ func roundInput(e *eventFolder, r roundFlags, now time.Time) (prep.Input, []stri
 		return in, nil, err
 	}
 	if haveSched && !e.Demo && sched.Date.Format("2006-01-02") != now.Format("2006-01-02") {
-		warnings = append(warnings, fmt.Sprintf("%s is dated %s but today is %s: its call times are taken for today (update its date)",
-			e.name(ScheduleFile), sched.Date.Format("2006-01-02"), now.Format("2006-01-02")))
-		sched = sched.OnDay(now)
+		// Another day's schedule: a race day replayed (the weather log has
+		// that day: the card is for it, its clock at the day's last reading)
+		// or last week's file not yet updated (its times are taken for today).
+		var dayEnd *weather.Reading
+		for i := range log {
+			if log[i].Time.Format("2006-01-02") == sched.Date.Format("2006-01-02") {
+				dayEnd = &log[i]
+			}
+		}
+		if dayEnd != nil {
+			warnings = append(warnings, fmt.Sprintf("%s is for %s, not today: the card is for that day, its clock at the day's last reading (%s)",
+				e.name(ScheduleFile), sched.Date.Format("2006-01-02"), dayEnd.Time.Format("15:04")))
+			now = dayEnd.Time
+		} else {
+			warnings = append(warnings, fmt.Sprintf("%s is dated %s but today is %s: its call times are taken for today (update its date)",
+				e.name(ScheduleFile), sched.Date.Format("2006-01-02"), now.Format("2006-01-02")))
+			sched = sched.OnDay(now)
+		}
 	}
 
 	// The session and its slot in the schedule.
@@ -236,7 +262,33 @@ func roundInput(e *eventFolder, r roundFlags, now time.Time) (prep.Input, []stri
 		Air: air, AirSource: source, AirNow: airNow, Forecast: forecast, Elevation: elev, Prep: prepLvl, WeightLb: weight,
 		Rules: rules, RulesFS: e.FS,
 	}
+	for _, b := range broken {
+		in.Problems = append(in.Problems, b.Error())
+	}
+	if len(broken) > 0 {
+		return in, warnings, brokenInput{broken}
+	}
 	return in, warnings, nil
+}
+
+// brokenInput is bad input the card could print around: the input is
+// usable, and the errors are reported after the card.
+type brokenInput struct{ errs []error }
+
+func (b brokenInput) Error() string {
+	msgs := make([]string, len(b.errs))
+	for i, e := range b.errs {
+		msgs[i] = e.Error()
+	}
+	return strings.Join(msgs, "\n")
+}
+
+func (b brokenInput) BadInput() bool { return true }
+
+// usable reports whether roundInput's error still left an input to gather.
+func usable(err error) bool {
+	var b brokenInput
+	return err == nil || errors.As(err, &b)
 }
 
 func rangeErr(field string, d decimal.Decimal, r [2]float64) error {
