@@ -289,6 +289,7 @@ type logListOptions struct {
 	g      *globalOptions
 	s      *IOStreams
 	Last   int
+	Wide   bool
 	Format string
 }
 
@@ -302,6 +303,7 @@ func newLogListCmd(s *IOStreams, g *globalOptions) *cobra.Command {
 		RunE:    func(cmd *cobra.Command, _ []string) error { return logListRun(cmd, o) },
 	}
 	cmd.Flags().IntVar(&o.Last, "last", 20, "show the last N passes (0 = all)")
+	cmd.Flags().BoolVar(&o.Wide, "wide", false, "show every timer (330 and 1000 ft too)")
 	cmd.Flags().StringVar(&o.Format, "format", "text", "text, markdown, json or csv")
 	return cmd
 }
@@ -356,24 +358,36 @@ func logListRun(cmd *cobra.Command, o *logListOptions) error {
 	}
 	u := e.Settings.Units
 	t := newTable(o.s, fmt.Sprintf("Logbook (%s), last %s", e.name(event.LogbookFile), plural(len(passes), "pass")))
-	t.AppendHeader(table.Row{"Date", "Time", "Session", "Lane", "Dial", "RT", "60 ft", "330", "1/8", "mph", "1000", "1/4", "mph", "DA", "Notes"})
+	header := table.Row{"Date", "Time", "Ses.", "Lane", "Dial", "RT", "60 ft", "1/8", "mph", "1/4", "mph", "DA", "Notes"}
+	if o.Wide {
+		header = table.Row{"Date", "Time", "Ses.", "Lane", "Dial", "RT", "60 ft", "330", "1/8", "mph", "1000", "1/4", "mph", "DA", "Notes"}
+	}
+	t.AppendHeader(header)
 	for _, p := range passes {
 		da := ""
 		if p.HasAir {
 			da = p.Air.Derive(elevationFor(p, trk)).DensityAltitude.Format(u.Length)
 		}
 		row := table.Row{p.Time.Format("2006-01-02"), p.Time.Format("15:04"), p.Session.String(), p.Lane, sec(p.Dial, 2), sec(p.RT, 3)}
-		for i := range engine.Timers {
+		for i, ft := range engine.Timers {
+			if !o.Wide && (ft == 330 || ft == 1000) {
+				continue
+			}
 			row = append(row, sec(p.ET[i], 3))
-			if i == 2 {
+			if ft == 660 {
 				row = append(row, sec(p.MPH660, 2))
 			}
 		}
-		row = append(row, sec(p.MPH1320, 2), da, p.Notes)
+		row = append(row, sec(p.MPH1320, 2), strings.TrimSuffix(da, " ft"), p.Notes)
 		t.AppendRow(row)
 	}
-	t.SetColumnConfigs(append([]table.ColumnConfig{{Number: 15, WidthMax: 24}}, alignRight(5, 14)...))
+	n := len(header)
+	t.SetColumnConfigs(append([]table.ColumnConfig{{Number: n, WidthMax: 16}}, alignRight(5, n-1)...))
+	compact(t)
 	render(o.s.Out, t, o.Format)
+	if o.Format == "text" {
+		fmt.Fprintf(o.s.Out, "DA: density altitude, %s. --wide adds the 330 and 1000 ft timers.\n", u.Length)
+	}
 	return nil
 }
 
@@ -535,7 +549,7 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 		return nil
 	}
 	t := newTable(o.s, "Consistency by day and session")
-	t.AppendHeader(table.Row{"Day", "Sessions", "Passes", "ET mean", "ET ±1σ", "air-corr. ±1σ", "RT mean", "RT ±1σ", "60 ft ±1σ", "Consistency"})
+	t.AppendHeader(table.Row{"Day", "Sessions", "Passes", "ET mean", "ET ±1σ", "in air ±1σ", "RT mean", "RT ±1σ", "60ft ±1σ", "Consistency"})
 	f3 := func(v float64, ok bool) string {
 		if !ok {
 			return ""
@@ -543,22 +557,23 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 		return fmt.Sprintf("%.3f", v)
 	}
 	for _, s := range stats {
-		day, sessions := "", "  "+s.Kind.String()
+		day, sessions := "", " "+s.Kind.String()
 		if s.All {
 			day, sessions = s.Day.Format("2006-01-02"), "all"
 			t.AppendSeparator()
 		}
 		passes := fmt.Sprint(s.Passes)
 		if s.Clean != s.Passes {
-			passes = fmt.Sprintf("%d (%d clean)", s.Passes, s.Clean)
+			passes = fmt.Sprintf("%d (%d ok)", s.Passes, s.Clean)
 		}
 		t.AppendRow(table.Row{day, sessions, passes, f3(s.ETMean, s.Clean > 0), f3(s.ETSD, s.Clean > 1), f3(s.CorrectedSD, s.CorrectedN > 1),
 			f3(s.RTMean, s.RTN > 0), f3(s.RTSD, s.RTN > 1), f3(s.SixtySD, s.SixtyN > 1), judge(s)})
 	}
 	t.SetColumnConfigs(alignRight(4, 9))
+	compact(t)
 	render(o.s.Out, t, o.Format)
 	if corrected {
-		fmt.Fprintln(o.s.Out, "Air-corrected: each pass's ET less the calibrated model's in its own air and track; consistency is judged on it.")
+		fmt.Fprintln(o.s.Out, "In air ±1σ: the spread of each pass's ET less the calibrated model's in its own air and track;\nconsistency is judged on it.")
 	} else {
 		fmt.Fprintln(o.s.Out, "Spreads are raw (no car.yaml or no weather in the logbook): the air moving through a day counts as scatter.")
 	}

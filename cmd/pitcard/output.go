@@ -85,3 +85,8 @@ func groupCmd(cmd *cobra.Command) {
 func dialString(d, step decimal.Decimal) string {
 	return d.StringFixed(max(-step.Exponent(), 2))
 }
+
+// compact drops the rules between columns of a wide list table.
+func compact(t table.Writer) {
+	t.Style().Options.SeparateColumns = false
+}

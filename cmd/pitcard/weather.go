@@ -226,6 +226,7 @@ func weatherListRun(cmd *cobra.Command, o *weatherListOptions) error {
 			a.DewPoint.Format(u.Temp, 0), windText(r, u), track,
 			a.DensityAltitude.Format(u.Length), r.Note})
 	}
+	compact(t)
 	render(o.s.Out, t, o.Format)
 	return nil
 }
