@@ -80,6 +80,7 @@ type Fit struct {
 	Params   Params
 	Cov      [4][4]float64 // covariance of the parameters (power and traction as logs)
 	Samples  []Sample      // the clean passes it fitted, most recent first
+	NoAir    []Pass        // clean passes logged without their weather, most recent first
 	Outliers []Outlier
 	Notes    []string // what the fit leaned on and assumed, in words
 	// PowerEstimated: car.yaml gave no power; it was estimated from the traps.
@@ -114,6 +115,9 @@ func Calibrate(in CalibrateInput) (Fit, error) {
 			continue
 		}
 		if !p.HasAir {
+			if len(f.NoAir) < FitWindow {
+				f.NoAir = append(f.NoAir, p)
+			}
 			continue
 		}
 		clean = append(clean, p)

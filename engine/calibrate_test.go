@@ -3,6 +3,7 @@ package engine
 import (
 	"math"
 	"math/rand/v2"
+	"strings"
 	"testing"
 	"time"
 
@@ -217,5 +218,25 @@ func BenchmarkPredict5000(b *testing.B) {
 			b.Fatal(err)
 		}
 		Predict(fit, PredictInput{Air: air, Prep: 1, Time: now})
+	}
+}
+
+// Passes logged without their weather still count: the prediction is their
+// plain average, and says it is not corrected for the air.
+func TestPredictionFromPassesWithoutWeather(t *testing.T) {
+	g := gen{rng: rand.New(rand.NewPCG(2, 3)), truth: DefaultParams(Natural), car: testCar}
+	passes := g.season(1, 8)
+	var sum float64
+	for i := range passes {
+		passes[i].HasAir = false
+		sum += finishOf(passes[i])
+	}
+	fit, err := Calibrate(CalibrateInput{Car: testCar, Track: testTrack, Passes: passes, Now: passes[7].Time.Add(time.Hour)})
+	if err != nil {
+		t.Fatal(err)
+	}
+	pr := Predict(fit, PredictInput{Air: j1349Air, Prep: 1, Time: passes[7].Time.Add(time.Hour)})
+	if !pr.Raw || pr.PhysicsOnly || math.Abs(pr.Finish().ET-sum/8) > 1e-9 || !strings.Contains(pr.Estimate().Basis, "without their weather") {
+		t.Errorf("raw %v physics %v finish %.4f (mean %.4f) basis %q", pr.Raw, pr.PhysicsOnly, pr.Finish().ET, sum/8, pr.Estimate().Basis)
 	}
 }

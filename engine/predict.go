@@ -87,6 +87,9 @@ type Prediction struct {
 	Leaned      []Leaned // most-leaned-on first
 	Outliers    []Outlier
 	PhysicsOnly bool // no pass to calibrate to
+	// Raw: the logbook's passes have no weather, so the prediction is their
+	// plain average, not corrected for today's air.
+	Raw         bool
 	Sensitivity Sensitivity
 	Notes       []string
 }
@@ -101,6 +104,8 @@ func (p Prediction) Estimate() Estimate {
 	switch {
 	case p.PhysicsOnly:
 		basis = "physics from car.yaml alone (no logbook passes to calibrate to: wide interval)"
+	case p.Raw:
+		basis = fmt.Sprintf("the plain average of %d recent passes logged without their weather (not corrected for the air)", len(p.Leaned))
 	case len(p.Leaned) > 0:
 		basis = fmt.Sprintf("the pass model calibrated to %d passes, corrected by the recent ones", len(p.Leaned))
 	}
@@ -137,6 +142,9 @@ func Predict(f Fit, in PredictInput) Prediction {
 	}
 	timers := TimersFor(dist)
 
+	if len(f.Samples) == 0 && len(f.NoAir) >= 2 {
+		return rawPrediction(pr, f, timers)
+	}
 	if len(f.Samples) == 0 {
 		pr.PhysicsOnly = true
 		for _, ft := range timers {
@@ -213,6 +221,60 @@ func Predict(f Fit, in PredictInput) Prediction {
 		pr.Notes = append(pr.Notes, fmt.Sprintf("today lies outside the conditions of the passes leaned on (%s): the interval is widened by %.3f s",
 			outsideText(pr.Sensitivity), extra))
 	}
+	return pr
+}
+
+// rawPrediction is the plain average of recent passes without weather, each
+// timer and trap with the spread of the passes, widened for a short sample.
+// Today's air cannot be taken into account; the notes say so.
+func rawPrediction(pr Prediction, f Fit, timers []float64) Prediction {
+	pr.Raw = true
+	passes := f.NoAir
+	if len(passes) > 10 {
+		passes = passes[:10]
+	}
+	stat := func(get func(Pass) (float64, bool)) (float64, float64, bool) {
+		var v []float64
+		for _, p := range passes {
+			if x, ok := get(p); ok {
+				v = append(v, x)
+			}
+		}
+		if len(v) < 2 {
+			return 0, 0, false
+		}
+		m, sd := meanSD(v)
+		return m, math.Max(sd*math.Sqrt(1+1/float64(len(v))), MinSD), true
+	}
+	for _, ft := range timers {
+		if m, sd, ok := stat(func(p Pass) (float64, bool) { return p.ETAt(ft) }); ok {
+			pr.Timers = append(pr.Timers, Timer{DistanceFt: ft, ET: m, SD: sd, Low: m - IntervalZ*sd, High: m + IntervalZ*sd, PhysicsOnly: pr.Model.ETAt(ft), ResidualSpread: sd})
+		} else {
+			et := pr.Model.ETAt(ft) // a timer the slips never had: the model's, wide
+			s := PhysicsOnlySpread * et
+			pr.Timers = append(pr.Timers, Timer{DistanceFt: ft, ET: et, SD: s, Low: et - IntervalZ*s, High: et + IntervalZ*s, PhysicsOnly: et})
+		}
+	}
+	for _, tr := range []struct {
+		ft  float64
+		get func(Pass) (float64, bool)
+	}{
+		{660, func(p Pass) (float64, bool) { return p.MPH660.Decimal.InexactFloat64(), p.MPH660.Valid }},
+		{1320, func(p Pass) (float64, bool) { return p.MPH1320.Decimal.InexactFloat64(), p.MPH1320.Valid }},
+	} {
+		if tr.ft > f.Car.DistanceFt {
+			continue
+		}
+		if m, sd, ok := stat(tr.get); ok {
+			pr.Traps = append(pr.Traps, Trap{DistanceFt: tr.ft, MPH: m, SD: sd, Low: m - IntervalZ*sd, High: m + IntervalZ*sd})
+		}
+	}
+	fin := f.Car.DistanceFt
+	for _, p := range passes {
+		et, _ := p.ETAt(fin)
+		pr.Leaned = append(pr.Leaned, Leaned{Pass: p, Share: 1 / float64(len(passes)), ET: et, Carried: et})
+	}
+	pr.Notes = append(pr.Notes, fmt.Sprintf("the logbook's passes have no weather: the prediction is the plain average of the last %d, not corrected for today's air; log the weather with each pass", len(passes)))
 	return pr
 }
 

@@ -222,6 +222,40 @@ func logAddRun(cmd *cobra.Command, o *logAddOptions) error {
 	return nil
 }
 
+// altimeterLooking warns when rows' barometer figures look like sea-level
+// (altimeter) settings for their track's elevation: the logbook holds
+// station pressure, and mixing the two is the commonest weather mistake.
+func altimeterLooking(e *eventFolder, passes []engine.Pass, file string) string {
+	trk, _ := e.track()
+	tracks, _ := e.otherTracks()
+	var lines []string
+	for _, p := range passes {
+		if !p.HasAir {
+			continue
+		}
+		t, ok := tracks[strings.ToLower(p.Track)]
+		if strings.EqualFold(p.Track, trk.Name) {
+			t, ok = trk, true
+		}
+		if !ok {
+			continue
+		}
+		r := weather.Reading{Temp: p.Air.Temp, Baro: p.Air.Baro, BaroKind: weather.StationPressure, RH: p.Air.RH}
+		if r.PressureWarning(t.Elevation()) != "" {
+			lines = append(lines, fmt.Sprint(p.Line))
+		}
+	}
+	if len(lines) == 0 {
+		return ""
+	}
+	shown := lines
+	if len(shown) > 8 {
+		shown = append(shown[:8:8], "...")
+	}
+	return fmt.Sprintf("%s: %s have baro_inhg figures that look like sea-level (altimeter) settings for their track's elevation (lines %s); "+
+		"the logbook holds station pressure: convert them, or the air of those passes is wrong", file, plural(len(lines), "row"), strings.Join(shown, ", "))
+}
+
 func sameDate(a, b time.Time) bool { return a.Format("2006-01-02") == b.Format("2006-01-02") }
 
 // nearestReading is the reading of log closest in time to t, within tol.
@@ -274,6 +308,9 @@ pass is already in the logbook, every problem is listed and nothing is written.`
 			}
 			if len(passes) == 0 {
 				return userErrf("%s has no passes to import", args[0])
+			}
+			if w := altimeterLooking(e, passes, args[0]); w != "" {
+				fmt.Fprintln(o.s.Err, "pitcard: warning:", w)
 			}
 			n, err := saveLogbook(e, passes)
 			if err != nil {

@@ -297,3 +297,19 @@ func TestWriterChild(t *testing.T) {
 		mustRun(t, "log", "add", "--dir", dir, "--time", clock, "--session", "test", "--lane", "left", "--et1320", "11.5")
 	}
 }
+
+// Common practice (no source): at a track 4100 ft up, station pressure runs
+// near 25.8 inHg; rows near 29.9 are airport altimeter settings, and import
+// says so.
+func TestImportWarnsOfAltimeterFigures(t *testing.T) {
+	dir := newFolder(t)
+	trk := filepath.Join(dir, "track.yaml")
+	data, _ := os.ReadFile(trk)
+	writeFile(t, trk, strings.Replace(string(data), "elevation_ft: 1000", "elevation_ft: 4100", 1))
+	src := filepath.Join(t.TempDir(), "season.csv")
+	writeFile(t, src, season(12)) // barometer 28.9x: too high for 4100 ft
+	_, errs, code := pitcard(t, "log", "import", "--dir", dir, src)
+	if code != 0 || !strings.Contains(errs, "12 rows have baro_inhg figures that look like sea-level") {
+		t.Errorf("exit %d: %s", code, errs)
+	}
+}
