@@ -425,6 +425,8 @@ func parseConditions(p *Pass, f SlipFields, named func(error, string) error) err
 		if r.WindFrom, err = weather.ParseDirection(v); err != nil {
 			return named(err, "wind_from_deg")
 		}
+	} else if r.Wind > 0 {
+		r.WindDirUnknown = true
 	}
 	check := r
 	if !p.HasAir { // only the optional fields to check
@@ -499,6 +501,9 @@ func passRecord(p Pass) []string {
 	}
 	if p.Air.Wind > 0 || p.Air.WindFrom > 0 {
 		wind, from = num(p.Air.Wind.MPH(), 2), num(p.Air.WindFrom, 1)
+		if p.Air.WindDirUnknown {
+			from = ""
+		}
 	}
 	if p.WeightLb > 0 {
 		weight = num(p.WeightLb, 1)

@@ -241,6 +241,9 @@ func windWords(r weather.Reading, heading float64, u weather.Units) string {
 	if r.Wind.MPH() < 0.5 {
 		return "calm"
 	}
+	if r.WindDirUnknown {
+		return r.Wind.Format(u.Speed, 0) + ", direction not read"
+	}
 	hw := r.HeadwindComponent(heading)
 	dir := "head"
 	if hw < 0 {

@@ -125,7 +125,9 @@ func AirFigures(a weather.Air, r weather.Reading) map[string]any {
 		"humidity_pct":             a.RH * 100,
 		"altimeter_setting_inhg":   a.Altimeter.InHg(),
 		"wind_mph":                 r.Wind.MPH(),
-		"wind_from_deg":            r.WindFrom,
+	}
+	if !r.WindDirUnknown {
+		m["wind_from_deg"] = r.WindFrom
 	}
 	if r.HasTrack {
 		m["track_temp_f"] = r.TrackTemp.Fahrenheit()

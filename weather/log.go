@@ -216,6 +216,8 @@ func logRow(rec []string, col logColumns, elev Length, loc *time.Location) (Read
 		if r.WindFrom, err = ParseDirection(v); err != nil {
 			return r, err.(*InputError).Named("wind_from_deg")
 		}
+	} else if r.Wind > 0 {
+		r.WindDirUnknown = true
 	}
 	if v, name, metric := get("track_temp_f"); v != "" {
 		r.HasTrack = true
@@ -283,7 +285,7 @@ func WriteLog(w io.Writer, readings []Reading) error {
 		rec := []string{
 			r.Time.Format(DateLayout), r.Time.Format("15:04:05"),
 			num(r.Temp.Fahrenheit(), 2), num(r.Baro.InHg(), 4), r.BaroKind.String(),
-			rh, dp, num(r.Wind.MPH(), 2), num(r.WindFrom, 1), track, r.Note,
+			rh, dp, num(r.Wind.MPH(), 2), windFrom(r), track, r.Note,
 		}
 		if err := cw.Write(rec); err != nil {
 			return err
@@ -303,4 +305,12 @@ func num(v float64, decimals int) string {
 		s = "0"
 	}
 	return s
+}
+
+// windFrom is the wind direction column: blank when it was not read.
+func windFrom(r Reading) string {
+	if r.WindDirUnknown {
+		return ""
+	}
+	return num(r.WindFrom, 1)
 }

@@ -254,3 +254,23 @@ func BenchmarkForecast2000(b *testing.B) {
 		}
 	}
 }
+
+// A wind speed read without its direction counts as neither head- nor
+// tailwind, and stays without a direction through the log (physics: an
+// unknown direction has no expected component along the track).
+func TestWindWithoutDirection(t *testing.T) {
+	csv := "date,time,temp_f,baro_inhg,humidity_pct,wind_mph,wind_from_deg\n2026-06-13,18:30,88,28.9,40,9,\n"
+	rs, err := ReadLog(strings.NewReader(csv), "weather.csv", Feet(900), time.UTC)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !rs[0].WindDirUnknown || rs[0].HeadwindComponent(0) != 0 || rs[0].Wind.MPH() < 8.99 {
+		t.Errorf("read %+v", rs[0])
+	}
+	var buf bytes.Buffer
+	_ = WriteLog(&buf, rs)
+	back, _ := ReadLog(&buf, "weather.csv", Feet(900), time.UTC)
+	if !back[0].WindDirUnknown {
+		t.Errorf("the direction came back as %v", back[0].WindFrom)
+	}
+}

@@ -50,9 +50,12 @@ type Reading struct {
 	DewPoint    Temperature // not above Temp
 	Wind        Speed       // valid 0..60 mph
 	WindFrom    float64     // compass degrees the wind blows from, 0..360
-	TrackTemp   Temperature // track surface; valid −20..200 °F when HasTrackTemp
-	HasTrack    bool
-	Note        string // free text
+	// WindDirUnknown: a wind speed was read without its direction; it then
+	// counts as neither head- nor tailwind.
+	WindDirUnknown bool
+	TrackTemp      Temperature // track surface; valid −20..200 °F when HasTrackTemp
+	HasTrack       bool
+	Note           string // free text
 }
 
 // Valid ranges of a reading (pitcard's limits: the extremes a drag strip sees,
@@ -229,5 +232,8 @@ func (r Reading) Derive(h Length) Air {
 // HeadwindComponent is the part of the wind blowing against a car running on
 // compass heading heading (degrees): positive is a headwind, negative a tailwind.
 func (r Reading) HeadwindComponent(heading float64) Speed {
+	if r.WindDirUnknown {
+		return 0
+	}
 	return Speed(float64(r.Wind) * math.Cos((r.WindFrom-heading)*math.Pi/180))
 }

@@ -125,7 +125,7 @@ type airReport struct {
 	DryAirPressureHPa     float64  `json:"dry_air_pressure_hpa"`
 	ElevationFt           float64  `json:"elevation_ft"`
 	WindMph               float64  `json:"wind_mph"`
-	WindFromDeg           float64  `json:"wind_from_deg"`
+	WindFromDeg           *float64 `json:"wind_from_deg"`
 	HeadwindMph           *float64 `json:"headwind_mph"`
 	TrackTempF            *float64 `json:"track_temp_f"`
 	Warnings              []string `json:"warnings"`
@@ -155,7 +155,7 @@ func newAirReport(r weather.Reading, elev weather.Length, heading float64, haveH
 		DryAirPressureHPa:     round(a.Dry.HPa(), 2),
 		ElevationFt:           round(elev.Feet(), 0),
 		WindMph:               round(r.Wind.MPH(), 1),
-		WindFromDeg:           round(r.WindFrom, 0),
+		WindFromDeg:           optFloat(r.WindFrom, !r.WindDirUnknown, 0),
 		Warnings:              []string{},
 	}
 	if haveHeading {
@@ -223,6 +223,9 @@ func stationNote(r weather.Reading) string {
 func windText(r weather.Reading, u weather.Units) string {
 	if r.Wind.MPH() < 0.5 {
 		return "calm"
+	}
+	if r.WindDirUnknown {
+		return r.Wind.Format(u.Speed, 0) + ", direction not read"
 	}
 	return r.Wind.Format(u.Speed, 0) + fmt.Sprintf(" from %03.0f°", r.WindFrom)
 }

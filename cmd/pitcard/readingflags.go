@@ -105,6 +105,9 @@ func (f *readingFlags) reading(u weather.Units, now time.Time, base *weather.Rea
 		if r.WindFrom, err = weather.ParseDirection(f.WindFrom); err != nil {
 			return r, flagErr(err, "--wind-from")
 		}
+		r.WindDirUnknown = false
+	} else if f.Wind != "" && base == nil && r.Wind > 0 {
+		r.WindDirUnknown = true // a speed without a direction: neither head- nor tailwind
 	}
 	if f.TrackTemp != "" {
 		if r.TrackTemp, err = weather.ParseTemperature(f.TrackTemp, u.Temp); err != nil {

@@ -200,6 +200,7 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 	}
 	if _, err := p.until("Wind from (degrees or N, SW ...)", def(func() string { return fmt.Sprintf("%.0f", last.WindFrom) }), func(a string) error {
 		if a == "" {
+			r.WindDirUnknown = r.Wind > 0
 			return nil
 		}
 		r.WindFrom, err = weather.ParseDirection(a)
