@@ -54,32 +54,13 @@ func TestEighthToQuarterRatios(t *testing.T) {
 	}
 }
 
-// thinner returns r with the station pressure lowered until the density
-// altitude is dDA feet higher, at the same temperature and humidity.
-func thinner(r weather.Reading, dDA float64) weather.Reading {
-	target := r.Derive(0).DensityAltitude.Feet() + dDA
-	lo, hi := r.Baro*0.5, r.Baro
-	for range 60 {
-		mid := (lo + hi) / 2
-		x := r
-		x.Baro = mid
-		if x.Derive(0).DensityAltitude.Feet() > target {
-			lo = mid
-		} else {
-			hi = mid
-		}
-	}
-	r.Baro = (lo + hi) / 2
-	return r
-}
-
 // Derived from the cube-root law (reference, not a source): an NA car's ET
 // moves about 1 % per 1000 ft of density altitude; accept 0.7–1.3 %. A
 // boost-controlled turbo follows the air less; a nitrous car's added power
 // does not follow it at all.
 func TestAirSensitivity(t *testing.T) {
 	base := weather.Reading{Temp: weather.Fahrenheit(80), Baro: weather.InHg(29.0), RH: 0.4, TrackTemp: weather.Fahrenheit(100), HasTrack: true}
-	worse := thinner(base, 1000)
+	worse := ThinnerAir(base, 1000)
 	na0, na1 := simCar(t, 9, Natural, base), simCar(t, 9, Natural, worse)
 	pct := 100 * (na1.ET[4] - na0.ET[4]) / na0.ET[4]
 	if pct < 0.7 || pct > 1.3 {

@@ -186,11 +186,21 @@ func Predict(f Fit, in PredictInput) Prediction {
 		extra, paramSD = extrapolation(pr.Sensitivity), parameterSpread(f, env, w)
 	}
 
+	fj := timerIndex(dist)
+	_, finSD := weightedResiduals(f.Samples, w, func(s Sample) (float64, bool) {
+		return s.Obs[fj] - s.Sim.ET[fj], !math.IsNaN(s.Obs[fj])
+	})
+	relSD := finSD / model.ETAt(dist)
+	var unlogged []string
 	for _, ft := range timers {
 		j := timerIndex(ft)
 		bias, resSD := weightedResiduals(f.Samples, w, func(s Sample) (float64, bool) {
 			return s.Obs[j] - s.Sim.ET[j], !math.IsNaN(s.Obs[j])
 		})
+		if resSD == 0 { // no pass logged this timer: the model's, with twice the finish's relative spread
+			resSD = 2 * relSD * model.ET[j]
+			unlogged = append(unlogged, fmt.Sprintf("%.0f ft", ft))
+		}
 		et := model.ET[j] + bias
 		scale := et / model.ETAt(dist) // extrapolation and parameters scale with the ET
 		sd := math.Sqrt(sq(resSD)*(1+1/kEff) + sq(paramSD*scale) + sq(extra*scale))
@@ -205,12 +215,18 @@ func Predict(f Fit, in PredictInput) Prediction {
 		bias, resSD := weightedResiduals(f.Samples, w, func(s Sample) (float64, bool) {
 			return s.Trap[j] - []float64{s.Sim.MPH660, s.Sim.MPH1320}[j], !math.IsNaN(s.Trap[j])
 		})
+		if resSD == 0 { // no pass logged this trap
+			resSD = 2 * relSD * sim
+			unlogged = append(unlogged, fmt.Sprintf("the %.0f-ft trap", ft))
+		}
 		mph := sim + bias
 		rel := (paramSD + extra) / pr.Finish().ET // the ET's relative model uncertainty, carried to the speed
 		sd := math.Sqrt(sq(resSD)*(1+1/kEff) + sq(mph*rel))
 		pr.Traps = append(pr.Traps, Trap{DistanceFt: ft, MPH: mph, SD: sd, Low: mph - IntervalZ*sd, High: mph + IntervalZ*sd})
 	}
-	fj := timerIndex(dist)
+	if len(unlogged) > 0 {
+		pr.Notes = append(pr.Notes, "no logged times at "+strings.Join(unlogged, ", ")+": those come from the model, with a wider interval")
+	}
 	for i, s := range f.Samples {
 		pr.Leaned = append(pr.Leaned, Leaned{Pass: s.Pass, Share: w[i], ET: s.Obs[fj], Carried: s.Obs[fj] + model.ET[fj] - s.Sim.ET[fj]})
 	}

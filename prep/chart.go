@@ -57,7 +57,7 @@ func Chart(c Card) string {
 	sy := func(y float64) float64 { return T + (yhi-y)/(yhi-ylo)*(H-T-B) }
 	var b strings.Builder
 	fmt.Fprintf(&b, `<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 %.0f %.0f" role="img" aria-label="ET against density altitude">`, W, H)
-	fmt.Fprintf(&b, `<title>%s ET against density altitude</title>`, timerName(dist))
+	fmt.Fprintf(&b, `<title>%s ET against density altitude</title>`, TimerName(dist))
 	fmt.Fprintf(&b, `<rect x="%.1f" y="%.1f" width="%.1f" height="%.1f" fill="none" stroke="#999" stroke-width="0.6"/>`, L, T, W-L-R, H-T-B)
 	// grid and ticks
 	for x := xlo; x <= xhi+1; x += tickStep(xhi - xlo) {
@@ -70,7 +70,7 @@ func Chart(c Card) string {
 		fmt.Fprintf(&b, `<text x="%.1f" y="%.1f" font-size="7" text-anchor="end">%.2f</text>`, L-3, sy(y)+2.5, y)
 	}
 	fmt.Fprintf(&b, `<text x="%.1f" y="%.1f" font-size="8" text-anchor="middle">Density altitude (ft)</text>`, (L+W-R)/2, H-6)
-	fmt.Fprintf(&b, `<text x="10" y="%.1f" font-size="8" text-anchor="middle" transform="rotate(-90 10 %.1f)">%s ET (s)</text>`, (T+H-B)/2, (T+H-B)/2, timerName(dist))
+	fmt.Fprintf(&b, `<text x="10" y="%.1f" font-size="8" text-anchor="middle" transform="rotate(-90 10 %.1f)">%s ET (s)</text>`, (T+H-B)/2, (T+H-B)/2, TimerName(dist))
 	// the model's line: today's track and wind, corrected as today's prediction is
 	bias := f.ET - c.Prediction.Model.ETAt(dist)
 	var line []string

@@ -121,7 +121,7 @@ func newView(c Card) view {
 	if len(p.Timers) > 0 {
 		v.Prediction = table{Title: "Prediction (95 % interval)", Header: []string{"Timer", "ET", "interval", "Trap", "interval"}, Marked: len(p.Timers) - 1}
 		for _, t := range p.Timers {
-			r := []string{timerName(t.DistanceFt), fmt.Sprintf("%.3f", t.ET), fmt.Sprintf("%.3f–%.3f", t.Low, t.High), "", ""}
+			r := []string{TimerName(t.DistanceFt), fmt.Sprintf("%.3f", t.ET), fmt.Sprintf("%.3f–%.3f", t.Low, t.High), "", ""}
 			for _, tr := range p.Traps {
 				if tr.DistanceFt == t.DistanceFt {
 					r[3] = weather.MPH(tr.MPH).Format(u.Speed, 2)
@@ -131,7 +131,7 @@ func newView(c Card) view {
 			}
 			v.Prediction.Rows = append(v.Prediction.Rows, r)
 		}
-		v.Basis = basis(p, c.Fit, u)
+		v.Basis = Explain(p, c.Fit)
 	}
 
 	// The dial options.
@@ -186,7 +186,10 @@ func newView(c Card) view {
 	return v
 }
 
-func basis(p engine.Prediction, f engine.Fit, u weather.Units) []string {
+// Explain says, in lines, why a prediction is what it is: physics alone or
+// not, what each change of conditions is worth to the car today, the passes
+// it leaned on most, those it left out and why, and its notes.
+func Explain(p engine.Prediction, f engine.Fit) []string {
 	var out []string
 	if p.PhysicsOnly {
 		out = append(out, "Physics from car.yaml alone: no logbook passes with their weather to calibrate to, so the interval is wide.")
@@ -227,7 +230,8 @@ func upperFirst(s string) string {
 	return strings.ToUpper(s[:1]) + s[1:]
 }
 
-func timerName(ft float64) string {
+// TimerName names a timer: "60 ft", "1/8 mile", "1/4 mile".
+func TimerName(ft float64) string {
 	switch ft {
 	case 660:
 		return "1/8 mile"

@@ -2,8 +2,6 @@ package main
 
 import (
 	"fmt"
-	"io"
-	"math"
 	"strings"
 	"time"
 
@@ -11,6 +9,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"pitcard/engine"
+	"pitcard/prep"
 	"pitcard/weather"
 )
 
@@ -237,16 +236,6 @@ func predictionJSON(n nextPass) predictJSON {
 	return j
 }
 
-func timerName(ft float64) string {
-	switch ft {
-	case 660:
-		return "1/8 mile"
-	case 1320:
-		return "1/4 mile"
-	}
-	return fmt.Sprintf("%.0f ft", ft)
-}
-
 func printPrediction(s *IOStreams, n nextPass, format string) {
 	p := n.Pred
 	u := n.Units
@@ -262,7 +251,7 @@ func printPrediction(s *IOStreams, n nextPass, format string) {
 				trapI = fmt.Sprintf("%.2f – %.2f", tr.Low, tr.High)
 			}
 		}
-		t.AppendRow(table.Row{timerName(tm.DistanceFt), fmt.Sprintf("%.3f", tm.ET), fmt.Sprintf("%.3f – %.3f", tm.Low, tm.High), trap, trapI})
+		t.AppendRow(table.Row{prep.TimerName(tm.DistanceFt), fmt.Sprintf("%.3f", tm.ET), fmt.Sprintf("%.3f – %.3f", tm.Low, tm.High), trap, trapI})
 	}
 	t.SetColumnConfigs(alignRight(2, 5))
 	render(s.Out, t, format)
@@ -272,45 +261,9 @@ func printPrediction(s *IOStreams, n nextPass, format string) {
 	}
 	fmt.Fprintf(s.Out, "Air: density altitude %s, %s, %s, prep %s (%s).\n", a.DensityAltitude.Format(u.Length),
 		n.Cond.Reading.Temp.Format(u.Temp, 1), track, engine.PrepName(n.Prep), n.Cond.Source)
-	explain(s.Out, p, u)
-}
-
-// explain writes why the prediction is what it is.
-func explain(w io.Writer, p engine.Prediction, u weather.Units) {
-	s := p.Sensitivity
-	if p.PhysicsOnly {
-		fmt.Fprintln(w, "Physics from car.yaml alone: the logbook has no clean passes with their weather to calibrate to, so the interval is wide (±6 %).")
+	for _, l := range prep.Explain(p, n.Fit) {
+		fmt.Fprintln(s.Out, "- "+l)
 	}
-	fmt.Fprintf(w, "This car today: %s per 1000 ft more density altitude (%+.1f mph); %s per 10 °F hotter track (60 ft %s); %s per 10 mph more headwind.\n",
-		signed(s.PerKDA), s.PerKDAMPH, signed(s.Per10FTrack), signed(s.Sixty10FTrack), signed(s.Per10Headwind))
-	if len(p.Leaned) > 0 {
-		var parts []string
-		for i, l := range p.Leaned {
-			if i == 3 {
-				break
-			}
-			parts = append(parts, fmt.Sprintf("%s %s %.3f → %.3f today (%.0f %%)", l.Pass.Time.Format("01-02 15:04"), l.Pass.Session, l.ET, l.Carried, 100*l.Share))
-		}
-		fmt.Fprintf(w, "Leaned most on: %s.\n", strings.Join(parts, "; "))
-	}
-	for i, o := range p.Outliers {
-		if i == 4 {
-			fmt.Fprintf(w, "... and %d more left out.\n", len(p.Outliers)-4)
-			break
-		}
-		fmt.Fprintf(w, "Left out %s %s: %s.\n", o.Pass.Time.Format("2006-01-02 15:04"), o.Pass.Session.Long(), o.Reason)
-	}
-	for _, n := range p.Notes {
-		fmt.Fprintln(w, "- "+n)
-	}
-	_ = u
-}
-
-func signed(v float64) string {
-	if math.Abs(v) < 0.0005 {
-		return "±0.000 s"
-	}
-	return fmt.Sprintf("%+.3f s", v)
 }
 
 func orDefault(s, d string) string {

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"io"
 	"strings"
+	"time"
 
 	"github.com/spf13/cobra"
 
@@ -240,7 +241,7 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 	rf.OpponentDial = p.ask("Opponent's dial (Enter if not known)", "")
 
 	// Log the reading, then the card.
-	if err := appendReading(e, r, elev); err != nil {
+	if _, err := appendReading(e, r, elev, true); err != nil {
 		return err
 	}
 	in, warnings, err := roundInput(e, rf, now)
@@ -302,25 +303,30 @@ func inRange(field, typed string, v float64, unit string, r [2]float64) error {
 	return &weather.InputError{Field: field, Value: typed, Reason: fmt.Sprintf("is outside %g..%g %s", r[0], r[1], unit)}
 }
 
-// appendReading adds a reading to the weather log under its lock.
-func appendReading(e *eventFolder, r weather.Reading, elev weather.Length) error {
+// appendReading adds a reading to the weather log under its lock, and
+// returns how many readings the log holds. A reading in a minute the log
+// already has is refused, or with replace takes the old one's place.
+func appendReading(e *eventFolder, r weather.Reading, elev weather.Length, replace bool) (int, error) {
 	path := e.path(event.WeatherFile)
 	unlock, err := safefile.Lock(path)
 	if err != nil {
-		return err
+		return 0, err
 	}
 	defer unlock()
 	log, err := e.weatherLog(elev)
 	if err != nil {
-		return err
+		return 0, err
 	}
 	for i, old := range log {
-		if old.Time.Truncate(60e9).Equal(r.Time.Truncate(60e9)) {
-			log = append(log[:i], log[i+1:]...) // a second reading in the same minute replaces the first
+		if old.Time.Truncate(time.Minute).Equal(r.Time.Truncate(time.Minute)) {
+			if !replace {
+				return 0, userErrf("%s already has a reading at %s; give another --time", e.name(event.WeatherFile), r.Time.Format("2006-01-02 15:04"))
+			}
+			log = append(log[:i], log[i+1:]...)
 			break
 		}
 	}
 	log = append(log, r)
 	sortReadings(log)
-	return safefile.Write(path, func(w io.Writer) error { return weather.WriteLog(w, log) })
+	return len(log), safefile.Write(path, func(w io.Writer) error { return weather.WriteLog(w, log) })
 }

@@ -4,7 +4,6 @@ import (
 	"bytes"
 	"errors"
 	"fmt"
-	"io"
 	"io/fs"
 	"strings"
 	"time"
@@ -13,7 +12,6 @@ import (
 	"github.com/spf13/cobra"
 
 	"pitcard/event"
-	"pitcard/internal/safefile"
 	"pitcard/weather"
 )
 
@@ -113,30 +111,14 @@ func weatherAddRun(cmd *cobra.Command, o *weatherAddOptions) error {
 	if w := r.PressureWarning(elev); w != "" {
 		fmt.Fprintln(o.s.Err, "pitcard: warning:", w)
 	}
-	path := e.path(event.WeatherFile)
-	unlock, err := safefile.Lock(path)
+	n, err := appendReading(e, r, elev, false)
 	if err != nil {
-		return err
-	}
-	defer unlock()
-	log, err := e.weatherLog(elev)
-	if err != nil {
-		return err
-	}
-	for _, old := range log {
-		if old.Time.Truncate(time.Minute).Equal(r.Time.Truncate(time.Minute)) {
-			return userErrf("%s already has a reading at %s; give another --time", e.name(event.WeatherFile), r.Time.Format("2006-01-02 15:04"))
-		}
-	}
-	log = append(log, r)
-	sortReadings(log)
-	if err := safefile.Write(path, func(w io.Writer) error { return weather.WriteLog(w, log) }); err != nil {
 		return err
 	}
 	a := r.Derive(elev)
 	u := e.Settings.Units
 	fmt.Fprintf(o.s.Out, "Added the %s reading to %s (%s): density altitude %s, %s, %.0f %% RH.\n",
-		r.Time.Format("15:04"), e.name(event.WeatherFile), plural(len(log), "reading"), a.DensityAltitude.Format(u.Length), r.Temp.Format(u.Temp, 1), a.RH*100)
+		r.Time.Format("15:04"), e.name(event.WeatherFile), plural(n, "reading"), a.DensityAltitude.Format(u.Length), r.Temp.Format(u.Temp, 1), a.RH*100)
 	return nil
 }
 
