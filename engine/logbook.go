@@ -186,49 +186,17 @@ func csvError(name string, err error) error {
 	return &weather.InputError{File: name, Field: "file", Reason: err.Error()}
 }
 
-type column struct {
-	i      int
-	metric bool
-	name   string
-}
-
-func logbookHeader(header []string, name string) (map[string]column, error) {
-	col := map[string]column{}
-	known := map[string]bool{}
-	for _, c := range LogbookColumns {
-		known[c] = true
+func logbookHeader(header []string, name string) (map[string]weather.Column, error) {
+	col, err := weather.ReadHeader(header, name, "logbook", LogbookColumns, logbookAlternatives, []string{"date", "time", "track", "session", "lane"})
+	if err != nil {
+		return nil, err
 	}
-	for i, h := range header {
-		h = strings.ToLower(strings.TrimSpace(strings.TrimPrefix(h, "\ufeff")))
-		canon, metric := h, false
-		if alt, ok := logbookAlternatives[h]; ok {
-			canon, metric = alt, true
-		}
-		if !known[canon] {
-			return nil, &weather.InputError{File: name, Line: 1, Field: "column", Value: h,
-				Reason: "is not a logbook column (columns: " + strings.Join(LogbookColumns, ", ") +
-					"; metric: temp_c, baro_hpa, track_temp_c, wind_kmh, weight_kg)"}
-		}
-		if _, dup := col[canon]; dup {
-			return nil, &weather.InputError{File: name, Line: 1, Field: "column", Value: h, Reason: "appears twice (or with its metric twin)"}
-		}
-		col[canon] = column{i, metric, h}
-	}
-	for _, need := range []string{"date", "time", "track", "session", "lane"} {
-		if _, ok := col[need]; !ok {
-			return nil, &weather.InputError{File: name, Line: 1, Field: "column", Value: need, Reason: "is missing from the header"}
-		}
-	}
-	hasET := false
 	for _, t := range Timers {
 		if _, ok := col[fmt.Sprintf("et%.0f", t)]; ok {
-			hasET = true
+			return col, nil
 		}
 	}
-	if !hasET {
-		return nil, &weather.InputError{File: name, Line: 1, Field: "column", Value: "et1320", Reason: "is missing: the header has no elapsed-time column (et60 ... et1320)"}
-	}
-	return col, nil
+	return nil, &weather.InputError{File: name, Line: 1, Field: "column", Value: "et1320", Reason: "is missing: the header has no elapsed-time column (et60 ... et1320)"}
 }
 
 // SlipFields are the raw text of one pass, as typed in a row or in flags,
@@ -239,12 +207,12 @@ type SlipFields struct {
 	Names  map[string]string // how each column is called in messages
 }
 
-func logbookRow(rec []string, col map[string]column, loc *time.Location) (Pass, error) {
+func logbookRow(rec []string, col map[string]weather.Column, loc *time.Location) (Pass, error) {
 	f := SlipFields{Values: map[string]string{}, Metric: map[string]bool{}, Names: map[string]string{}}
 	for canon, c := range col {
-		f.Values[canon] = strings.TrimSpace(rec[c.i])
-		f.Metric[canon] = c.metric
-		f.Names[canon] = c.name
+		f.Values[canon] = strings.TrimSpace(rec[c.Index])
+		f.Metric[canon] = c.Metric
+		f.Names[canon] = c.Name
 	}
 	return ParsePass(f, loc)
 }

@@ -117,42 +117,58 @@ func csvErr(name string, err error) error {
 	return fmt.Errorf("%s: %w", name, err)
 }
 
-// logColumns maps a canonical column to its index and whether it is metric.
-type logColumns map[string]struct {
-	i      int
-	metric bool
-	name   string
+// Column is one column of a CSV header: its index, the name it was given,
+// and whether it is the metric twin of the canonical column.
+type Column struct {
+	Index  int
+	Name   string
+	Metric bool
 }
 
-func logHeader(header []string, name string) (logColumns, error) {
-	col := logColumns{}
+// ReadHeader maps a CSV header to the canonical columns of a file kind.
+// columns are the canonical names, alternatives maps each metric twin to
+// its canonical column, required must all be present; kind names the file
+// kind in messages ("weather-log"). Names are trimmed and lower-cased (and a
+// byte-order mark dropped); an unknown or doubled column is an error naming
+// it and listing the valid ones.
+func ReadHeader(header []string, file, kind string, columns []string, alternatives map[string]string, required []string) (map[string]Column, error) {
+	col := map[string]Column{}
 	known := map[string]bool{}
-	for _, c := range LogColumns {
+	for _, c := range columns {
 		known[c] = true
 	}
+	var metric []string
+	for m := range alternatives {
+		metric = append(metric, m)
+	}
+	sort.Strings(metric)
 	for i, h := range header {
 		h = strings.ToLower(strings.TrimSpace(strings.TrimPrefix(h, "\ufeff")))
-		canon, metric := h, false
-		if alt, ok := logAlternatives[h]; ok {
-			canon, metric = alt, true
+		canon, isMetric := h, false
+		if alt, ok := alternatives[h]; ok {
+			canon, isMetric = alt, true
 		}
 		if !known[canon] {
-			return nil, &InputError{File: name, Line: 1, Field: "column", Value: h,
-				Reason: "is not a weather-log column (columns: " + strings.Join(LogColumns, ", ") + "; metric: temp_c, baro_hpa, dewpoint_c, wind_kmh, track_temp_c)"}
+			return nil, &InputError{File: file, Line: 1, Field: "column", Value: h,
+				Reason: "is not a " + kind + " column (columns: " + strings.Join(columns, ", ") + "; metric: " + strings.Join(metric, ", ") + ")"}
 		}
 		if _, dup := col[canon]; dup {
-			return nil, &InputError{File: name, Line: 1, Field: "column", Value: h, Reason: "appears twice (or with its metric twin)"}
+			return nil, &InputError{File: file, Line: 1, Field: "column", Value: h, Reason: "appears twice (or with its metric twin)"}
 		}
-		col[canon] = struct {
-			i      int
-			metric bool
-			name   string
-		}{i, metric, h}
+		col[canon] = Column{Index: i, Name: h, Metric: isMetric}
 	}
-	for _, need := range []string{"date", "time", "temp_f", "baro_inhg"} {
+	for _, need := range required {
 		if _, ok := col[need]; !ok {
-			return nil, &InputError{File: name, Line: 1, Field: "column", Value: need, Reason: "is missing from the header"}
+			return nil, &InputError{File: file, Line: 1, Field: "column", Value: need, Reason: "is missing from the header"}
 		}
+	}
+	return col, nil
+}
+
+func logHeader(header []string, name string) (map[string]Column, error) {
+	col, err := ReadHeader(header, name, "weather-log", LogColumns, logAlternatives, []string{"date", "time", "temp_f", "baro_inhg"})
+	if err != nil {
+		return nil, err
 	}
 	_, rh := col["humidity_pct"]
 	_, dp := col["dewpoint_f"]
@@ -162,13 +178,13 @@ func logHeader(header []string, name string) (logColumns, error) {
 	return col, nil
 }
 
-func logRow(rec []string, col logColumns, elev Length, loc *time.Location) (Reading, error) {
+func logRow(rec []string, col map[string]Column, elev Length, loc *time.Location) (Reading, error) {
 	get := func(c string) (string, string, bool) {
 		x, ok := col[c]
 		if !ok {
 			return "", c, false
 		}
-		return strings.TrimSpace(rec[x.i]), x.name, x.metric
+		return strings.TrimSpace(rec[x.Index]), x.Name, x.Metric
 	}
 	var r Reading
 	date, _, _ := get("date")
