@@ -20,7 +20,10 @@ import (
 // Prediction settings.
 const (
 	// BiasHalfLifePasses: the residual correction leans on the last few
-	// passes, halving a pass's weight every 6 passes back and every 14 days.
+	// passes, halving a pass's weight every 6 passes back (the default; with
+	// enough passes the half-life is chosen from BiasHalfLives by how well
+	// each would have predicted the car's recent passes one by one) and
+	// every 14 days.
 	BiasHalfLifePasses = 6.0
 	BiasHalfLifeDays   = 14.0
 	// SameDayWeight multiplies the weight of a pass run earlier the same day.
@@ -36,6 +39,43 @@ const (
 	// logbook has seen is taken as uncertain by this share.
 	ExtrapolationShare = 0.25
 )
+
+// BiasHalfLives are the half-lives, in passes, the residual correction may
+// choose from: a car whose residuals drift needs a short memory, a steady
+// car's noise averages out over a long one.
+var BiasHalfLives = []float64{3, 6, 12, 25}
+
+// chooseHalfLife picks the half-life of BiasHalfLives that would have best
+// predicted each of the recent passes' finish residuals from the ones before
+// it (one step ahead, squared error), or the default with too few passes.
+func chooseHalfLife(ss []Sample, j int) float64 {
+	var res []float64 // oldest first
+	for i := len(ss) - 1; i >= 0; i-- {
+		if !math.IsNaN(ss[i].Obs[j]) {
+			res = append(res, ss[i].Obs[j]-ss[i].Sim.ET[j])
+		}
+	}
+	if len(res) < 12 {
+		return BiasHalfLifePasses
+	}
+	best, bestErr := BiasHalfLifePasses, math.Inf(1)
+	for _, h := range BiasHalfLives {
+		var sse float64
+		for i := 6; i < len(res); i++ {
+			var sw, m float64
+			for k := 0; k < i; k++ {
+				w := math.Pow(0.5, float64(i-1-k)/h)
+				sw += w
+				m += w * res[k]
+			}
+			sse += sq(res[i] - m/sw)
+		}
+		if sse < bestErr {
+			best, bestErr = h, sse
+		}
+	}
+	return best
+}
 
 // Timer is the prediction at one timer.
 type Timer struct {
@@ -163,11 +203,12 @@ func Predict(f Fit, in PredictInput) Prediction {
 	}
 
 	// Weights of the residual correction.
+	halfLife := chooseHalfLife(f.Samples, timerIndex(dist))
 	w := make([]float64, len(f.Samples))
 	var wsum, w2 float64
 	for i, s := range f.Samples {
 		age := in.Time.Sub(s.Pass.Time).Hours() / 24
-		w[i] = math.Pow(0.5, float64(i)/BiasHalfLifePasses) * math.Pow(0.5, math.Max(age, 0)/BiasHalfLifeDays)
+		w[i] = math.Pow(0.5, float64(i)/halfLife) * math.Pow(0.5, math.Max(age, 0)/BiasHalfLifeDays)
 		if sameDay(s.Pass.Time, in.Time) {
 			w[i] *= SameDayWeight
 		}
