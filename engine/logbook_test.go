@@ -75,6 +75,7 @@ func TestReadLogbookErrors(t *testing.T) {
 		{"date,time,track,session,lane,et1320,ET_quarter\n", []string{"line 1", "et_quarter", "not a logbook column"}},
 		{"date,time,track,session,lane\n", []string{"no elapsed-time column"}},
 		{header + "2026-06-13,18:42,Test Strip\n", []string{"line 2", "fields"}},
+		{"date;time;track;session;lane;et1320\n", []string{"line 1", "semicolons", "commas"}},
 	}
 	for _, tc := range cases {
 		_, err := ReadLogbook(strings.NewReader(tc.csv), "logbook.csv", time.UTC)

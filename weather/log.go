@@ -132,6 +132,10 @@ type Column struct {
 // byte-order mark dropped); an unknown or doubled column is an error naming
 // it and listing the valid ones.
 func ReadHeader(header []string, file, kind string, columns []string, alternatives map[string]string, required []string) (map[string]Column, error) {
+	if len(header) == 1 && strings.ContainsAny(header[0], ";\t") {
+		return nil, &InputError{File: file, Line: 1, Field: "header", Value: header[0],
+			Reason: "is separated by semicolons or tabs: pitcard reads comma-separated files (save as CSV with commas)"}
+	}
 	col := map[string]Column{}
 	known := map[string]bool{}
 	for _, c := range columns {
