@@ -116,15 +116,9 @@ const maxRowErrors = 25
 // no passes. A pass entered twice is an error too. Passes come back in time
 // order.
 func ReadLogbook(r io.Reader, name string, loc *time.Location) ([]Pass, error) {
-	cr := csv.NewReader(r)
-	cr.FieldsPerRecord = -1
-	cr.Comment = '#'
-	header, err := cr.Read()
-	if errors.Is(err, io.EOF) {
-		return nil, nil
-	}
-	if err != nil {
-		return nil, csvError(name, err)
+	cr, header, err := weather.OpenCSV(r, name)
+	if err != nil || header == nil {
+		return nil, err
 	}
 	col, err := logbookHeader(header, name)
 	if err != nil {
@@ -139,7 +133,11 @@ func ReadLogbook(r io.Reader, name string, loc *time.Location) ([]Pass, error) {
 			break
 		}
 		if err != nil {
-			errs = append(errs, csvError(name, err).(*weather.InputError))
+			var ie *weather.InputError
+			if err = weather.CSVError(name, err); !errors.As(err, &ie) {
+				return nil, err
+			}
+			errs = append(errs, ie)
 			break
 		}
 		line, _ := cr.FieldPos(0)
@@ -176,14 +174,6 @@ func ReadLogbook(r io.Reader, name string, loc *time.Location) ([]Pass, error) {
 // SortPasses sorts passes in time order, stably.
 func SortPasses(p []Pass) {
 	sort.SliceStable(p, func(i, j int) bool { return p[i].Time.Before(p[j].Time) })
-}
-
-func csvError(name string, err error) error {
-	var pe *csv.ParseError
-	if errors.As(err, &pe) {
-		return &weather.InputError{File: name, Line: pe.Line, Field: "row", Reason: "is not valid CSV: " + pe.Err.Error()}
-	}
-	return &weather.InputError{File: name, Field: "file", Reason: err.Error()}
 }
 
 func logbookHeader(header []string, name string) (map[string]weather.Column, error) {

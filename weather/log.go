@@ -67,15 +67,9 @@ func ParseDateTime(date, clock string, loc *time.Location) (time.Time, error) {
 // naming the file, line, column, value and range. The readings come back in
 // time order.
 func ReadLog(r io.Reader, name string, elev Length, loc *time.Location) ([]Reading, error) {
-	cr := csv.NewReader(r)
-	cr.FieldsPerRecord = -1
-	cr.Comment = '#'
-	header, err := cr.Read()
-	if errors.Is(err, io.EOF) {
-		return nil, nil
-	}
-	if err != nil {
-		return nil, csvErr(name, err)
+	cr, header, err := OpenCSV(r, name)
+	if err != nil || header == nil {
+		return nil, err
 	}
 	col, err := logHeader(header, name)
 	if err != nil {
@@ -88,7 +82,7 @@ func ReadLog(r io.Reader, name string, elev Length, loc *time.Location) ([]Readi
 			break
 		}
 		if err != nil {
-			return nil, csvErr(name, err)
+			return nil, CSVError(name, err)
 		}
 		line, _ := cr.FieldPos(0)
 		if len(rec) != len(header) {
@@ -109,7 +103,27 @@ func ReadLog(r io.Reader, name string, elev Length, loc *time.Location) ([]Readi
 	return out, nil
 }
 
-func csvErr(name string, err error) error {
+// OpenCSV starts reading one of pitcard's CSV files: rows of any length
+// (checked against the header by the caller), '#' lines as comments. It
+// returns the reader and the header, or a nil header for an empty file.
+func OpenCSV(r io.Reader, name string) (*csv.Reader, []string, error) {
+	cr := csv.NewReader(r)
+	cr.FieldsPerRecord = -1
+	cr.Comment = '#'
+	header, err := cr.Read()
+	if errors.Is(err, io.EOF) {
+		return cr, nil, nil
+	}
+	if err != nil {
+		return nil, nil, CSVError(name, err)
+	}
+	return cr, header, nil
+}
+
+// CSVError is a CSV reader's error as pitcard reports it: malformed CSV is an
+// *InputError at its file and line; anything else (a failing disk) is not
+// the user's input and keeps its own error.
+func CSVError(name string, err error) error {
 	var pe *csv.ParseError
 	if errors.As(err, &pe) {
 		return &InputError{File: name, Line: pe.Line, Field: "row", Reason: "is not valid CSV: " + pe.Err.Error()}

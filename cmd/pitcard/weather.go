@@ -53,6 +53,22 @@ func siteElevation(e *eventFolder, f *readingFlags) (weather.Length, string, err
 	return h, trk.Name, err
 }
 
+// openWeather opens the folder and its weather log at the track's elevation
+// (or --elevation): what list and forecast both start from.
+func openWeather(cmd *cobra.Command, g *globalOptions, elevFlag string) (*eventFolder, weather.Length, string, []weather.Reading, error) {
+	e, err := g.open(cmd)
+	if err != nil {
+		return nil, 0, "", nil, err
+	}
+	rf := readingFlags{Elevation: elevFlag}
+	elev, trackName, err := siteElevation(e, &rf)
+	if err != nil {
+		return nil, 0, "", nil, err
+	}
+	log, err := e.weatherLog(elev)
+	return e, elev, trackName, log, err
+}
+
 type weatherAddOptions struct {
 	g       *globalOptions
 	s       *IOStreams
@@ -166,16 +182,7 @@ func weatherListRun(cmd *cobra.Command, o *weatherListOptions) error {
 	if err := checkFormat(o.Format, "text", "markdown", "json"); err != nil {
 		return err
 	}
-	e, err := o.g.open(cmd)
-	if err != nil {
-		return err
-	}
-	rf := readingFlags{Elevation: o.Elev}
-	elev, trackName, err := siteElevation(e, &rf)
-	if err != nil {
-		return err
-	}
-	log, err := e.weatherLog(elev)
+	e, elev, trackName, log, err := openWeather(cmd, o.g, o.Elev)
 	if err != nil {
 		return err
 	}
@@ -260,16 +267,7 @@ func weatherForecastRun(cmd *cobra.Command, o *weatherForecastOptions) error {
 	if o.At == "" {
 		return userErrf("--at is required: the time to forecast, e.g. --at 21:40")
 	}
-	e, err := o.g.open(cmd)
-	if err != nil {
-		return err
-	}
-	rf := readingFlags{Elevation: o.Elev}
-	elev, trackName, err := siteElevation(e, &rf)
-	if err != nil {
-		return err
-	}
-	log, err := e.weatherLog(elev)
+	e, elev, trackName, log, err := openWeather(cmd, o.g, o.Elev)
 	if err != nil {
 		return err
 	}
