@@ -36,6 +36,9 @@ type Pass struct {
 	HasAir   bool
 	WeightLb float64 // car and driver as run; 0 = not recorded
 	Notes    string
+	// Extra holds the crew's own columns (those pitcard does not read), by
+	// their header name, so a rewrite keeps them.
+	Extra map[string]string
 }
 
 // ETAt is the elapsed time at timer ft as a float, and whether it was timed.
@@ -110,24 +113,61 @@ func (e RowErrors) BadInput() bool { return true }
 
 const maxRowErrors = 25
 
-// ReadLogbook reads a logbook from r; name is the file's name for messages and
-// loc the zone of its times. Every row is validated; when any fails the result
-// is RowErrors naming each bad row's file, line, column, value and rule, and
-// no passes. A pass entered twice is an error too. Passes come back in time
-// order.
-func ReadLogbook(r io.Reader, name string, loc *time.Location) ([]Pass, error) {
-	cr, header, err := weather.OpenCSV(r, name)
-	if err != nil || header == nil {
-		return nil, err
+// Logbook is a logbook file as read: every row that reads as a pass, the
+// crew's own columns (kept through every rewrite), and the rows that could
+// not be read (kept as they are, so a rewrite loses nothing and the crew can
+// still fix them).
+type Logbook struct {
+	Header []string // the file's header as written
+	Extra  []string // columns pitcard does not read, in file order
+	Passes []Pass   // the good rows, in time order
+	Bad    RowErrors
+	// BadRows are the raw fields of each bad row, in file order; nil for a
+	// row the CSV reader could not split (an unmatched quote).
+	BadRows [][]string
+}
+
+// Kept reports whether a rewrite can carry every bad row as it is.
+func (lb *Logbook) Kept() bool {
+	for _, r := range lb.BadRows {
+		if r == nil {
+			return false
+		}
 	}
-	col, err := logbookHeader(header, name)
+	return true
+}
+
+// ReadLogbookFile reads a logbook from r; name is the file's name for
+// messages and loc the zone of its times. A row that fails its checks (or
+// repeats a pass) is set aside in Bad with its file, line, column, value and
+// rule, and the rest are read; only a header pitcard cannot read, or a
+// failing reader, is an error. Passes come back in time order.
+func ReadLogbookFile(r io.Reader, name string, loc *time.Location) (*Logbook, error) {
+	cr, header, err := weather.OpenCSV(r, name)
 	if err != nil {
 		return nil, err
 	}
-	var passes []Pass
-	var errs RowErrors
+	lb := &Logbook{}
+	if header == nil {
+		return lb, nil
+	}
+	col, extra, err := logbookHeader(header, name)
+	if err != nil {
+		return nil, err
+	}
+	lb.Header = make([]string, len(header))
+	for i, h := range header {
+		lb.Header[i] = strings.TrimSpace(strings.TrimPrefix(h, "\ufeff"))
+	}
+	for _, x := range extra {
+		lb.Extra = append(lb.Extra, x.Name)
+	}
+	bad := func(ie *weather.InputError, raw []string) {
+		lb.Bad = append(lb.Bad, ie)
+		lb.BadRows = append(lb.BadRows, raw)
+	}
 	seen := map[string]int{}
-	for len(errs) < maxRowErrors {
+	for {
 		rec, err := cr.Read()
 		if errors.Is(err, io.EOF) {
 			break
@@ -137,13 +177,13 @@ func ReadLogbook(r io.Reader, name string, loc *time.Location) ([]Pass, error) {
 			if err = weather.CSVError(name, err); !errors.As(err, &ie) {
 				return nil, err
 			}
-			errs = append(errs, ie)
-			break
+			bad(ie, nil)
+			continue
 		}
 		line, _ := cr.FieldPos(0)
 		if len(rec) != len(header) {
-			errs = append(errs, &weather.InputError{File: name, Line: line, Field: "row",
-				Reason: fmt.Sprintf("has %d fields, the header has %d", len(rec), len(header))})
+			bad(&weather.InputError{File: name, Line: line, Field: "row",
+				Reason: fmt.Sprintf("has %d fields, the header has %d (a row cut short, or a comma too many)", len(rec), len(header))}, rec)
 			continue
 		}
 		p, err := logbookRow(rec, col, loc)
@@ -152,23 +192,97 @@ func ReadLogbook(r io.Reader, name string, loc *time.Location) ([]Pass, error) {
 			if !errors.As(err, &ie) {
 				return nil, err
 			}
-			errs = append(errs, ie.At(name, line))
+			bad(ie.At(name, line), rec)
 			continue
 		}
 		p.Line = line
 		if first, dup := seen[p.Key()]; dup {
-			errs = append(errs, &weather.InputError{File: name, Line: line, Field: "row",
-				Reason: fmt.Sprintf("is the same pass as line %d (%s, %s lane): entered twice", first, p.Time.Format("2006-01-02 15:04"), p.Lane)})
+			bad(&weather.InputError{File: name, Line: line, Field: "row",
+				Reason: fmt.Sprintf("is the same pass as line %d (%s, %s lane): entered twice", first, p.Time.Format("2006-01-02 15:04"), p.Lane)}, rec)
 			continue
 		}
 		seen[p.Key()] = line
-		passes = append(passes, p)
+		if len(extra) > 0 {
+			p.Extra = map[string]string{}
+			for _, x := range extra {
+				p.Extra[x.Name] = rec[x.Index]
+			}
+		}
+		lb.Passes = append(lb.Passes, p)
 	}
-	if len(errs) > 0 {
-		return nil, errs
+	SortPasses(lb.Passes)
+	return lb, nil
+}
+
+// ReadLogbook reads a logbook strictly, as an import does: when any row
+// fails, the result is RowErrors naming each bad row (the first
+// maxRowErrors of them) and no passes.
+func ReadLogbook(r io.Reader, name string, loc *time.Location) ([]Pass, error) {
+	lb, err := ReadLogbookFile(r, name, loc)
+	if err != nil {
+		return nil, err
 	}
-	SortPasses(passes)
-	return passes, nil
+	if len(lb.Bad) > 0 {
+		return nil, lb.Bad[:min(len(lb.Bad), maxRowErrors)]
+	}
+	return lb.Passes, nil
+}
+
+// Write writes the logbook back: its header (the file's own order, with any
+// column pitcard writes that it lacked added at the end), the passes in time
+// order, then every bad row as it was read. A crew's own columns keep their
+// values.
+func (lb *Logbook) Write(w io.Writer) error {
+	header := append([]string(nil), lb.Header...)
+	if len(header) == 0 {
+		header = append(append(header, LogbookColumns...), lb.Extra...)
+	}
+	has := map[string]bool{}
+	for _, h := range header {
+		has[strings.ToLower(h)] = true
+		if c, ok := logbookAlternatives[strings.ToLower(h)]; ok {
+			has[c] = true
+		}
+	}
+	for _, c := range LogbookColumns {
+		if !has[c] {
+			header = append(header, c)
+		}
+	}
+	for _, x := range lb.Extra {
+		if !has[strings.ToLower(x)] {
+			header = append(header, x)
+			has[strings.ToLower(x)] = true
+		}
+	}
+	cw := csv.NewWriter(w)
+	if err := cw.Write(header); err != nil {
+		return err
+	}
+	for _, p := range lb.Passes {
+		v := passFields(p)
+		rec := make([]string, len(header))
+		for i, h := range header {
+			if x, ok := v[strings.ToLower(h)]; ok {
+				rec[i] = x
+			} else {
+				rec[i] = p.Extra[h]
+			}
+		}
+		cw.Write(rec)
+	}
+	for _, raw := range lb.BadRows {
+		if raw == nil {
+			continue
+		}
+		rec := raw
+		if len(raw) == len(lb.Header) && len(header) > len(raw) { // same layout: pad the added columns
+			rec = append(append([]string(nil), raw...), make([]string, len(header)-len(raw))...)
+		}
+		cw.Write(rec)
+	}
+	cw.Flush()
+	return cw.Error()
 }
 
 // SortPasses sorts passes in time order, stably.
@@ -176,17 +290,17 @@ func SortPasses(p []Pass) {
 	sort.SliceStable(p, func(i, j int) bool { return p[i].Time.Before(p[j].Time) })
 }
 
-func logbookHeader(header []string, name string) (map[string]weather.Column, error) {
-	col, err := weather.ReadHeader(header, name, "logbook", LogbookColumns, logbookAlternatives, []string{"date", "time", "track", "session", "lane"})
+func logbookHeader(header []string, name string) (map[string]weather.Column, []weather.Column, error) {
+	col, extra, err := weather.ReadHeaderExtra(header, name, "logbook", LogbookColumns, logbookAlternatives, []string{"date", "time", "track", "session", "lane"})
 	if err != nil {
-		return nil, err
+		return nil, nil, err
 	}
 	for _, t := range Timers {
 		if _, ok := col[fmt.Sprintf("et%.0f", t)]; ok {
-			return col, nil
+			return col, extra, nil
 		}
 	}
-	return nil, &weather.InputError{File: name, Line: 1, Field: "column", Value: "et1320", Reason: "is missing: the header has no elapsed-time column (et60 ... et1320)"}
+	return nil, nil, &weather.InputError{File: name, Line: 1, Field: "column", Value: "et1320", Reason: "is missing: the header has no elapsed-time column (et60 ... et1320)"}
 }
 
 // SlipFields are the raw text of one pass, as typed in a row or in flags,
@@ -429,6 +543,17 @@ func WriteLogbook(w io.Writer, passes []Pass) error {
 }
 
 func passRecord(p Pass) []string {
+	v := passFields(p)
+	rec := make([]string, len(LogbookColumns))
+	for i, c := range LogbookColumns {
+		rec[i] = v[c]
+	}
+	return rec
+}
+
+// passFields are a pass's fields as logbook.csv writes them, keyed by column,
+// the metric twins included (for a file kept in metric columns).
+func passFields(p Pass) map[string]string {
 	sec := func(d decimal.NullDecimal) string {
 		if !d.Valid {
 			return ""
@@ -442,29 +567,27 @@ func passRecord(p Pass) []string {
 		}
 		return s
 	}
-	rec := []string{p.Time.Format(weather.DateLayout), p.Time.Format(weather.TimeLayout), p.Track, p.Session.String(), string(p.Lane),
-		sec(p.Dial), sec(p.RT)}
-	for i := range Timers {
-		rec = append(rec, sec(p.ET[i]))
+	v := map[string]string{"date": p.Time.Format(weather.DateLayout), "time": p.Time.Format(weather.TimeLayout), "track": p.Track,
+		"session": p.Session.String(), "lane": string(p.Lane), "dial": sec(p.Dial), "rt": sec(p.RT),
+		"mph660": sec(p.MPH660), "mph1320": sec(p.MPH1320), "notes": p.Notes}
+	for i, t := range Timers {
+		v[fmt.Sprintf("et%.0f", t)] = sec(p.ET[i])
 	}
-	rec = append(rec, sec(p.MPH660), sec(p.MPH1320))
 	if p.HasAir {
-		rec = append(rec, num(p.Air.Temp.Fahrenheit(), 2), num(p.Air.Baro.InHg(), 4), num(p.Air.RH*100, 2))
-	} else {
-		rec = append(rec, "", "", "")
+		v["temp_f"], v["baro_inhg"], v["humidity_pct"] = num(p.Air.Temp.Fahrenheit(), 2), num(p.Air.Baro.InHg(), 4), num(p.Air.RH*100, 2)
+		v["temp_c"], v["baro_hpa"] = num(p.Air.Temp.Celsius(), 2), num(p.Air.Baro.HPa(), 2)
 	}
-	track, wind, from, weight := "", "", "", ""
 	if p.Air.HasTrack {
-		track = num(p.Air.TrackTemp.Fahrenheit(), 2)
+		v["track_temp_f"], v["track_temp_c"] = num(p.Air.TrackTemp.Fahrenheit(), 2), num(p.Air.TrackTemp.Celsius(), 2)
 	}
 	if p.Air.Wind > 0 || p.Air.WindFrom > 0 {
-		wind, from = num(p.Air.Wind.MPH(), 2), num(p.Air.WindFrom, 1)
+		v["wind_mph"], v["wind_kmh"], v["wind_from_deg"] = num(p.Air.Wind.MPH(), 2), num(p.Air.Wind.KMH(), 2), num(p.Air.WindFrom, 1)
 		if p.Air.WindDirUnknown {
-			from = ""
+			v["wind_from_deg"] = ""
 		}
 	}
 	if p.WeightLb > 0 {
-		weight = num(p.WeightLb, 1)
+		v["weight_lb"], v["weight_kg"] = num(p.WeightLb, 1), num(p.WeightLb*weather.KgPerLb, 1)
 	}
-	return append(rec, track, wind, from, weight, p.Notes)
+	return v
 }

@@ -72,7 +72,6 @@ func TestReadLogbookErrors(t *testing.T) {
 		{header + row(func(f []string) { f[20] = "200" }), []string{"weight_lb", "500..10000"}},
 		{header + row(func(f []string) { f[7], f[8], f[9], f[10], f[11], f[12], f[13] = "", "", "", "", "", "", "" }), []string{"a pass needs at least one elapsed time"}},
 		{header + goodRow + goodRow, []string{"line 3", "same pass as line 2", "entered twice"}},
-		{"date,time,track,session,lane,et1320,ET_quarter\n", []string{"line 1", "et_quarter", "not a logbook column"}},
 		{"date,time,track,session,lane\n", []string{"no elapsed-time column"}},
 		{header + "2026-06-13,18:42,Test Strip\n", []string{"line 2", "fields"}},
 		{"date;time;track;session;lane;et1320\n", []string{"line 1", "semicolons", "commas"}},
@@ -95,6 +94,52 @@ func TestReadLogbookErrors(t *testing.T) {
 	var re RowErrors
 	if !errors.As(err, &re) || len(re) != 2 {
 		t.Errorf("want 2 row errors, got %v", err)
+	}
+}
+
+// One bad row does not cost the logbook: the good rows are read, the bad
+// ones named and kept as they were, and a crew's own column (fuel) is
+// carried through a rewrite with its values.
+func TestLogbookKeepsBadRowsAndCrewColumns(t *testing.T) {
+	file := "date,time,track,session,lane,fuel,et60,et1320,notes\n" +
+		"2026-06-13,18:42,Test Strip,E1,left,8 gal,1.612,11.538,\n" +
+		"2026-06-13,19:30,Test Strip,E2,left,7 gal,1.610,11.54\n" + // cut short: one field missing
+		"2026-06-13,20:15,Test Strip,E3,left,6 gal,1.605,41.5,\n" // out of range
+	lb, err := ReadLogbookFile(strings.NewReader(file), "logbook.csv", time.UTC)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(lb.Passes) != 1 || len(lb.Bad) != 2 || len(lb.Extra) != 1 || lb.Extra[0] != "fuel" || lb.Passes[0].Extra["fuel"] != "8 gal" {
+		t.Fatalf("read %d passes, %d bad, extra %v", len(lb.Passes), len(lb.Bad), lb.Extra)
+	}
+	for i, want := range [][]string{{"line 3", "has 8 fields, the header has 9"}, {"line 4", "et1320", "41.5", "3.5..40 s"}} {
+		for _, w := range want {
+			if !strings.Contains(lb.Bad[i].Error(), w) {
+				t.Errorf("bad row %d: %q lacks %q", i, lb.Bad[i], w)
+			}
+		}
+	}
+	if _, err := ReadLogbook(strings.NewReader(file), "logbook.csv", time.UTC); err == nil {
+		t.Error("the strict reader (import) took a file with bad rows")
+	}
+	added := lb.Passes[0]
+	added.Time, added.Session, added.Extra = added.Time.Add(3*time.Hour), Session{Elimination, 4}, map[string]string{"fuel": "5 gal"}
+	lb.Passes = append(lb.Passes, added)
+	var buf bytes.Buffer
+	if err := lb.Write(&buf); err != nil {
+		t.Fatal(err)
+	}
+	written := buf.String()
+	again, err := ReadLogbookFile(&buf, "logbook.csv", time.UTC)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(again.Passes) != 2 || len(again.Bad) != 2 || again.Passes[1].Extra["fuel"] != "5 gal" || again.Passes[0].Extra["fuel"] != "8 gal" {
+		t.Errorf("after a rewrite: %d passes, %d bad, fuel %q %q\n%s", len(again.Passes), len(again.Bad),
+			again.Passes[0].Extra["fuel"], again.Passes[1].Extra["fuel"], written)
+	}
+	if !strings.Contains(written, "2026-06-13,19:30,Test Strip,E2,left,7 gal,1.610,11.54\n") {
+		t.Errorf("the short row was not kept as it was:\n%s", written)
 	}
 }
 

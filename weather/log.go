@@ -146,8 +146,25 @@ type Column struct {
 // byte-order mark dropped); an unknown or doubled column is an error naming
 // it and listing the valid ones.
 func ReadHeader(header []string, file, kind string, columns []string, alternatives map[string]string, required []string) (map[string]Column, error) {
+	col, extra, err := ReadHeaderExtra(header, file, kind, columns, alternatives, required)
+	if len(extra) > 0 {
+		var metric []string
+		for m := range alternatives {
+			metric = append(metric, m)
+		}
+		sort.Strings(metric)
+		return nil, &InputError{File: file, Line: 1, Field: "column", Value: extra[0].Name,
+			Reason: "is not a " + kind + " column (columns: " + strings.Join(columns, ", ") + "; metric: " + strings.Join(metric, ", ") + ")"}
+	}
+	return col, err
+}
+
+// ReadHeaderExtra is ReadHeader that keeps the columns it does not know
+// (a crew's own columns) instead of refusing them: they come back in file
+// order, named as written.
+func ReadHeaderExtra(header []string, file, kind string, columns []string, alternatives map[string]string, required []string) (map[string]Column, []Column, error) {
 	if len(header) == 1 && strings.ContainsAny(header[0], ";\t") {
-		return nil, &InputError{File: file, Line: 1, Field: "header", Value: header[0],
+		return nil, nil, &InputError{File: file, Line: 1, Field: "header", Value: header[0],
 			Reason: "is separated by semicolons or tabs: pitcard reads comma-separated files (save as CSV with commas)"}
 	}
 	col := map[string]Column{}
@@ -155,32 +172,33 @@ func ReadHeader(header []string, file, kind string, columns []string, alternativ
 	for _, c := range columns {
 		known[c] = true
 	}
-	var metric []string
-	for m := range alternatives {
-		metric = append(metric, m)
-	}
-	sort.Strings(metric)
+	var extra []Column
+	seen := map[string]bool{}
 	for i, h := range header {
 		h = strings.ToLower(strings.TrimSpace(strings.TrimPrefix(h, "\ufeff")))
 		canon, isMetric := h, false
 		if alt, ok := alternatives[h]; ok {
 			canon, isMetric = alt, true
 		}
-		if !known[canon] {
-			return nil, &InputError{File: file, Line: 1, Field: "column", Value: h,
-				Reason: "is not a " + kind + " column (columns: " + strings.Join(columns, ", ") + "; metric: " + strings.Join(metric, ", ") + ")"}
+		if _, dup := col[canon]; dup || seen[h] {
+			return nil, nil, &InputError{File: file, Line: 1, Field: "column", Value: h, Reason: "appears twice (or with its metric twin)"}
 		}
-		if _, dup := col[canon]; dup {
-			return nil, &InputError{File: file, Line: 1, Field: "column", Value: h, Reason: "appears twice (or with its metric twin)"}
+		seen[h] = true
+		if !known[canon] {
+			if h == "" {
+				return nil, nil, &InputError{File: file, Line: 1, Field: "column", Value: h, Reason: fmt.Sprintf("%d has no name in the header", i+1)}
+			}
+			extra = append(extra, Column{Index: i, Name: strings.TrimSpace(strings.TrimPrefix(header[i], "\ufeff"))})
+			continue
 		}
 		col[canon] = Column{Index: i, Name: h, Metric: isMetric}
 	}
 	for _, need := range required {
 		if _, ok := col[need]; !ok {
-			return nil, &InputError{File: file, Line: 1, Field: "column", Value: need, Reason: "is missing from the header"}
+			return nil, extra, &InputError{File: file, Line: 1, Field: "column", Value: need, Reason: "is missing from the header"}
 		}
 	}
-	return col, nil
+	return col, extra, nil
 }
 
 func logHeader(header []string, name string) (map[string]Column, error) {

@@ -34,6 +34,10 @@ func TestBadInputTour(t *testing.T) {
 	missing := filepath.Join(t.TempDir(), "nowhere")
 	src := filepath.Join(t.TempDir(), "rows.csv")
 	_ = os.WriteFile(src, []byte(slipHeader+"2026-07-01,18:00,X,E1,left,11.5,0.02,1.6,,,,11.5,,116,88,28.9,140,,,,,\n"), 0o644)
+	// a bad row and a pass already in the logbook: both are listed
+	badAndDup := filepath.Join(t.TempDir(), "both.csv")
+	_ = os.WriteFile(badAndDup, []byte(slipHeader+"2026-07-01,18:00,X,E1,left,11.5,0.02,1.6,,,,11.5,,116,88,28.9,140,,,,,\n"+
+		"2026-06-13,20:13,Juniper Bend Raceway,E2,left,11.46,0.028,1.608,4.684,7.305,9.569,11.495,93.56,117.06,84.05,27.6032,33.4,95.72,2.32,173,3350,\n"), 0o644)
 
 	reading := []string{"--temp", "85F", "--baro", "27.6inHg", "--humidity", "35%"}
 	type tc struct {
@@ -72,13 +76,14 @@ func TestBadInputTour(t *testing.T) {
 			{[]string{"log", "add", "--dir", good, "--session", "Q1", "--lane", "left", "--et1320", "11.5"}, 2, []string{"--session", "Q1"}},
 			{[]string{"log", "add", "--dir", good, "--session", "E9", "--lane", "left", "--et1320", "11.5", "--mph1320", "250"}, 2, []string{"--mph1320", "not plausible"}},
 			{[]string{"log", "add", "--dir", good, "--session", "E9", "--lane", "left", "--et1320", "eleven"}, 2, []string{"--et1320", "seconds"}},
-			{[]string{"log", "add", "--dir", badLog, "--session", "E9", "--lane", "left", "--et1320", "11.5"}, 2, []string{"logbook.csv line", "time"}},
+			{[]string{"log", "add", "--dir", badLog, "--session", "E9", "--lane", "left", "--et1320", "11.5"}, 0, []string{"logbook.csv line", "time", "left out", "keeps them as they are"}},
 			{[]string{"log", "add", "--dir", good, "--session", "E9", "--lane", "left", "--et1320", "11.5", "--weight", "50"}, 2, []string{"--weight", "500..10000"}},
 		},
 		"log import/list/stats": {
 			{[]string{"log", "import", "--dir", good, missing}, 2, []string{"cannot read"}},
 			{[]string{"log", "import", "--dir", good, src}, 2, []string{"rows.csv line 2", "humidity_pct", "0..100"}},
 			{[]string{"log", "import", "--dir", good}, 2, []string{"accepts 1 arg"}},
+			{[]string{"log", "import", "--dir", good, badAndDup}, 2, []string{"both.csv line 2", "humidity_pct", "line 3) is already in", "Nothing was imported"}},
 			{[]string{"log", "list", "--dir", badLog}, 2, []string{"logbook.csv line"}},
 			{[]string{"log", "list", "--dir", good, "--last", "x"}, 2, []string{"--last"}},
 			{[]string{"log", "stats", "--dir", badLog}, 2, []string{"logbook.csv line"}},

@@ -83,6 +83,7 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 		return err
 	}
 	var est engine.Estimate
+	var leftOut error // logbook rows that could not be read: reported after the table
 	switch {
 	case o.ET != "" || o.SD != "":
 		if o.ET == "" || o.SD == "" {
@@ -116,16 +117,18 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 			}
 			est = n.Pred.Estimate()
 			est.Basis += ", in " + n.Cond.Source
+			leftOut = n.LeftOut
 			break
 		}
 		car, err := e.car()
 		if err != nil {
 			return err
 		}
-		passes, err := e.logbook()
-		if err != nil {
-			return err
+		passes, lo := e.logbook()
+		if !onlyLeftOut(lo) {
+			return lo
 		}
+		leftOut = lo
 		if est, _, err = engine.RecentEstimate(passes, car.DistanceFt, o.Last); err != nil {
 			return userErr(err)
 		}
@@ -141,7 +144,10 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 			GiveawayS: round(op.Giveaway, 4), Recommended: op.Recommended})
 	}
 	if o.Format == "json" {
-		return writeJSON(o.s.Out, j)
+		if err := writeJSON(o.s.Out, j); err != nil {
+			return err
+		}
+		return leftOut
 	}
 	fmt.Fprintf(o.s.Out, "Predicted ET %.3f s ± %.3f (one standard deviation): %s.\n", est.ET, est.SD, est.Basis)
 	t := newTable(o.s, fmt.Sprintf("Dial-ins (step %s s, risk ≤ %.0f %%)", plan.Step, plan.Risk*100))
@@ -151,7 +157,7 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 		dial := op.Dial
 		if op.Recommended {
 			mark = "← post this"
-			if o.s.Terminal {
+			if o.s.Terminal && o.Format == "text" { // no colour codes in a document
 				dial = text.Colors{text.Bold, text.FgHiWhite, text.BgBlue}.Sprint(" " + dial + " ")
 			}
 		}
@@ -160,7 +166,7 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 	t.SetColumnConfigs(alignRight(1, 3))
 	render(o.s.Out, t, o.Format)
 	fmt.Fprintf(o.s.Out, "Recommended dial: %s (the slowest dial with at most a %.0f %% chance of breaking out).\n", j.Recommended, plan.Risk*100)
-	return nil
+	return leftOut
 }
 
 // stepPlaces is the number of decimals of the dial step: 2 for 0.01.

@@ -3,9 +3,9 @@ package main
 import (
 	"errors"
 	"fmt"
-	"io"
 	"math"
 	"os"
+	"slices"
 	"strings"
 	"time"
 
@@ -39,42 +39,60 @@ previous logbook as logbook.csv.bak.`,
 }
 
 // saveLogbook merges passes into the folder's logbook under its lock: all or
-// nothing, duplicates refused.
-func saveLogbook(e *eventFolder, add []engine.Pass) (int, error) {
+// nothing, duplicates refused. Rows of the logbook pitcard cannot read are
+// written back as they were (and returned as kept, to be said); the crew's
+// own columns, the logbook's and those of extra, keep their values.
+func saveLogbook(e *eventFolder, add []engine.Pass, extra ...string) (n int, kept error, err error) {
 	path := e.path(event.LogbookFile)
 	unlock, err := safefile.Lock(path)
 	if err != nil {
-		return 0, err
+		return 0, nil, err
 	}
 	defer unlock()
-	old, err := e.logbook()
+	lb, name, err := e.logbookFile()
 	if err != nil {
-		return 0, err
+		return 0, nil, err
+	}
+	if len(lb.Bad) > 0 {
+		kept = &leftOutRows{file: name, bak: e.backupOf(name), rows: lb.Bad, read: len(lb.Passes)}
+		if !lb.Kept() {
+			return 0, nil, userErrf("%v\nNothing was written: a row that is not even valid CSV (an unmatched quote) could not be kept through a rewrite; fix it first", kept)
+		}
 	}
 	seen := map[string]engine.Pass{}
-	for _, p := range old {
+	for _, p := range lb.Passes {
 		seen[p.Key()] = p
 	}
 	var dups engine.RowErrors
 	for _, p := range add {
 		if o, ok := seen[p.Key()]; ok {
-			where := "this pass"
-			if p.Line > 0 {
-				where = fmt.Sprintf("line %d", p.Line)
-			}
-			dups = append(dups, &weather.InputError{Field: "pass", Value: p.Time.Format("2006-01-02 15:04") + " " + string(p.Lane),
-				Reason: fmt.Sprintf("(%s) is already in %s at line %d: the same pass entered twice", where, e.name(event.LogbookFile), o.Line)})
+			dups = append(dups, duplicateOf(p, o, name))
 		}
 	}
 	if len(dups) > 0 {
-		return 0, dups
+		return 0, nil, dups
 	}
-	all := append(old, add...)
-	engine.SortPasses(all)
-	if err := safefile.Write(path, func(w io.Writer) error { return engine.WriteLogbook(w, all) }); err != nil {
-		return 0, err
+	lb.Passes = append(lb.Passes, add...)
+	engine.SortPasses(lb.Passes)
+	for _, x := range extra {
+		if !slices.Contains(lb.Extra, x) {
+			lb.Extra = append(lb.Extra, x)
+		}
 	}
-	return len(all), nil
+	if err := safefile.Write(path, lb.Write); err != nil {
+		return 0, nil, err
+	}
+	return len(lb.Passes), kept, nil
+}
+
+// duplicateOf says that p is already in the logbook as o.
+func duplicateOf(p, o engine.Pass, logbook string) *weather.InputError {
+	where := "this pass"
+	if p.Line > 0 {
+		where = fmt.Sprintf("line %d", p.Line)
+	}
+	return &weather.InputError{Field: "pass", Value: p.Time.Format("2006-01-02 15:04") + " " + string(p.Lane),
+		Reason: fmt.Sprintf("(%s) is already in %s at line %d: the same pass entered twice", where, logbook, o.Line)}
 }
 
 type logAddOptions struct {
@@ -206,9 +224,12 @@ func logAddRun(cmd *cobra.Command, o *logAddOptions) error {
 			source += ", with the flags given"
 		}
 	}
-	n, err := saveLogbook(e, []engine.Pass{p})
+	n, kept, err := saveLogbook(e, []engine.Pass{p})
 	if err != nil {
 		return err
+	}
+	if kept != nil {
+		fmt.Fprintln(o.s.Err, "pitcard: warning:", kept)
 	}
 	et, ft, _ := p.Finish()
 	fmt.Fprintf(o.s.Out, "Logged %s %s, %s lane: %s s at %.0f ft (%s in %s).\n",
@@ -302,9 +323,26 @@ pass is already in the logbook, every problem is listed and nothing is written.`
 				return userErrf("cannot read %s: %v", args[0], errors.Unwrap(err))
 			}
 			defer fh.Close()
-			passes, err := engine.ReadLogbook(fh, args[0], time.Local)
+			src, err := engine.ReadLogbookFile(fh, args[0], time.Local)
 			if err != nil {
 				return err
+			}
+			passes := src.Passes
+			if len(src.Bad) > 0 {
+				// All or nothing: list every bad row, and the good rows that are already logged.
+				problems := append(engine.RowErrors(nil), src.Bad...)
+				if cur, _ := e.logbook(); len(cur) > 0 {
+					seen := map[string]engine.Pass{}
+					for _, p := range cur {
+						seen[p.Key()] = p
+					}
+					for _, p := range passes {
+						if old, ok := seen[p.Key()]; ok {
+							problems = append(problems, duplicateOf(p, old, e.name(event.LogbookFile)))
+						}
+					}
+				}
+				return fmt.Errorf("%w\nNothing was imported", problems)
 			}
 			if len(passes) == 0 {
 				return userErrf("%s has no passes to import", args[0])
@@ -312,9 +350,12 @@ pass is already in the logbook, every problem is listed and nothing is written.`
 			if w := altimeterLooking(e, passes, args[0]); w != "" {
 				fmt.Fprintln(o.s.Err, "pitcard: warning:", w)
 			}
-			n, err := saveLogbook(e, passes)
+			n, kept, err := saveLogbook(e, passes, src.Extra...)
 			if err != nil {
 				return err
+			}
+			if kept != nil {
+				fmt.Fprintln(o.s.Err, "pitcard: warning:", kept)
 			}
 			fmt.Fprintf(o.s.Out, "Imported %s from %s; %s now holds %d.\n", plural(len(passes), "pass"), args[0], e.name(event.LogbookFile), n)
 			return nil
@@ -371,9 +412,9 @@ func logListRun(cmd *cobra.Command, o *logListOptions) error {
 	if err != nil {
 		return err
 	}
-	passes, err := e.logbook()
-	if err != nil {
-		return err
+	passes, leftOut := e.logbook()
+	if !onlyLeftOut(leftOut) {
+		return leftOut
 	}
 	trk, _ := e.track()
 	if o.Last > 0 && len(passes) > o.Last {
@@ -381,17 +422,23 @@ func logListRun(cmd *cobra.Command, o *logListOptions) error {
 	}
 	switch o.Format {
 	case "csv":
-		return engine.WriteLogbook(o.s.Out, passes)
+		if err := engine.WriteLogbook(o.s.Out, passes); err != nil {
+			return err
+		}
+		return leftOut
 	case "json":
 		out := make([]passJSON, len(passes))
 		for i, p := range passes {
 			out[i] = toPassJSON(p, trk)
 		}
-		return writeJSON(o.s.Out, out)
+		if err := writeJSON(o.s.Out, out); err != nil {
+			return err
+		}
+		return leftOut
 	}
 	if len(passes) == 0 {
 		fmt.Fprintf(o.s.Out, "%s has no passes yet: add one with 'pitcard log add' or 'pitcard log import'.\n", e.name(event.LogbookFile))
-		return nil
+		return leftOut
 	}
 	u := e.Settings.Units
 	t := newTable(o.s, fmt.Sprintf("Logbook (%s), last %s", e.name(event.LogbookFile), plural(len(passes), "pass")))
@@ -425,7 +472,7 @@ func logListRun(cmd *cobra.Command, o *logListOptions) error {
 	if o.Format == "text" {
 		fmt.Fprintf(o.s.Out, "DA: density altitude, %s. --wide adds the 330 and 1000 ft timers.\n", u.Length)
 	}
-	return nil
+	return leftOut
 }
 
 func alignRight(from, to int) []table.ColumnConfig {
@@ -544,9 +591,9 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 	if err != nil {
 		return err
 	}
-	passes, err := e.logbook()
-	if err != nil {
-		return err
+	passes, leftOut := e.logbook()
+	if !onlyLeftOut(leftOut) {
+		return leftOut
 	}
 	// With car.yaml and the weather of the passes, take the air out of the spread.
 	var residual map[string]float64
@@ -579,11 +626,14 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 				RTMean: optFloat(s.RTMean, s.RTN > 0, 4), RTSD: optFloat(s.RTSD, s.RTN > 1, 4),
 				SixtySD: optFloat(s.SixtySD, s.SixtyN > 1, 4), CorrectedSD: optFloat(s.CorrectedSD, s.CorrectedN > 1, 4), Consistency: judge(s)})
 		}
-		return writeJSON(o.s.Out, out)
+		if err := writeJSON(o.s.Out, out); err != nil {
+			return err
+		}
+		return leftOut
 	}
 	if len(passes) == 0 {
 		fmt.Fprintf(o.s.Out, "%s has no passes yet.\n", e.name(event.LogbookFile))
-		return nil
+		return leftOut
 	}
 	t := newTable(o.s, "Consistency by day and session")
 	t.AppendHeader(table.Row{"Day", "Sessions", "Passes", "ET mean", "ET ±1σ", "in air ±1σ", "RT mean", "RT ±1σ", "60ft ±1σ", "Consistency"})
@@ -615,5 +665,5 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 		fmt.Fprintln(o.s.Out, "Spreads are raw (no car.yaml or no weather in the logbook): the air moving through a day counts as scatter.")
 	}
 	fmt.Fprintln(o.s.Out, "Very consistent (≤ 0.015 s): dial it with confidence. Consistent (≤ 0.030).\nSome scatter (≤ 0.060): check the notes, tires, routine. Inconsistent: look for lifted or spinning runs.")
-	return nil
+	return leftOut
 }

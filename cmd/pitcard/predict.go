@@ -61,13 +61,16 @@ reading) or --at (the log's forecast for the call time); flags given with
 // predicts the next pass. The time of the pass is the forecast's, the
 // reading's, or now.
 type nextPass struct {
-	Car   engine.Car
-	Cond  conditions
-	Pred  engine.Prediction
-	Fit   engine.Fit
-	When  time.Time
-	Prep  float64
-	Units weather.Units
+	// LeftOut names logbook rows that could not be read (the rest were
+	// used); the command reports it after its output and exits 2.
+	LeftOut error
+	Car     engine.Car
+	Cond    conditions
+	Pred    engine.Prediction
+	Fit     engine.Fit
+	When    time.Time
+	Prep    float64
+	Units   weather.Units
 }
 
 func forecastNext(e *eventFolder, cond conditionFlags, prepFlag, weightFlag string, now time.Time) (nextPass, error) {
@@ -80,9 +83,9 @@ func forecastNext(e *eventFolder, cond conditionFlags, prepFlag, weightFlag stri
 	if err != nil {
 		return n, err
 	}
-	passes, err := e.logbook()
-	if err != nil {
-		return n, err
+	passes, leftOut := e.logbook()
+	if !onlyLeftOut(leftOut) {
+		return n, leftOut
 	}
 	tracks, err := e.otherTracks()
 	if err != nil {
@@ -112,7 +115,7 @@ func forecastNext(e *eventFolder, cond conditionFlags, prepFlag, weightFlag stri
 		return n, err
 	}
 	pred := engine.Predict(fit, engine.PredictInput{Air: c.Reading, Prep: prep, WeightLb: weight, Time: when})
-	return nextPass{Car: car, Cond: c, Pred: pred, Fit: fit, When: when, Prep: prep, Units: e.Settings.Units}, nil
+	return nextPass{Car: car, Cond: c, Pred: pred, Fit: fit, When: when, Prep: prep, Units: e.Settings.Units, LeftOut: leftOut}, nil
 }
 
 func predictRun(cmd *cobra.Command, o *predictOptions) error {
@@ -132,10 +135,13 @@ func predictRun(cmd *cobra.Command, o *predictOptions) error {
 		fmt.Fprintln(o.s.Err, "pitcard: warning:", w)
 	}
 	if o.Format == "json" {
-		return writeJSON(o.s.Out, predictionJSON(n))
+		if err := writeJSON(o.s.Out, predictionJSON(n)); err != nil {
+			return err
+		}
+		return n.LeftOut
 	}
 	printPrediction(o.s, n, o.Format)
-	return nil
+	return n.LeftOut
 }
 
 type timerJSON struct {

@@ -267,17 +267,82 @@ func (e *eventFolder) car() (engine.Car, error) {
 	return engine.ReadCar(f, name)
 }
 
-// logbook reads the folder's logbook.csv (none yet: an empty logbook).
-func (e *eventFolder) logbook() ([]engine.Pass, error) {
+// logbookFile reads the folder's logbook.csv (none yet: an empty logbook),
+// keeping its bad rows aside. Its name is how messages call it.
+func (e *eventFolder) logbookFile() (*engine.Logbook, string, error) {
 	f, name, err := e.openFile(event.LogbookFile, e.LogbookPath)
 	if errors.Is(err, fs.ErrNotExist) {
-		return nil, nil
+		return &engine.Logbook{}, name, nil
 	}
+	if err != nil {
+		return nil, name, err
+	}
+	defer f.Close()
+	lb, err := engine.ReadLogbookFile(f, name, time.Local)
+	return lb, name, err
+}
+
+// logbook is the folder's good passes. Rows it could not read come back as
+// a *leftOutRows error beside the passes: the caller uses the passes and
+// says what was left out.
+func (e *eventFolder) logbook() ([]engine.Pass, error) {
+	lb, name, err := e.logbookFile()
 	if err != nil {
 		return nil, err
 	}
-	defer f.Close()
-	return engine.ReadLogbook(f, name, time.Local)
+	if len(lb.Bad) > 0 {
+		return lb.Passes, &leftOutRows{file: name, bak: e.backupOf(name), rows: lb.Bad, read: len(lb.Passes)}
+	}
+	return lb.Passes, nil
+}
+
+// backupOf is the .bak of a file when there is one.
+func (e *eventFolder) backupOf(name string) string {
+	if e.Demo {
+		return ""
+	}
+	bak := name + ".bak"
+	if e.LogbookPath == "" {
+		bak = e.path(event.LogbookFile) + ".bak"
+	}
+	if _, err := os.Stat(bak); err == nil {
+		return bak
+	}
+	return ""
+}
+
+// leftOutRows are the rows of a logbook that could not be read: the rest of
+// the logbook is used, and these are named so the crew can fix them.
+type leftOutRows struct {
+	file string
+	bak  string // the previous version, when there is one
+	rows engine.RowErrors
+	read int // the good rows
+}
+
+func (l *leftOutRows) Error() string {
+	var b strings.Builder
+	fmt.Fprintf(&b, "%s: %s left out (the other %s are used):", l.file, plural(len(l.rows), "row"), plural(l.read, "pass"))
+	for i, r := range l.rows {
+		if i == 10 {
+			fmt.Fprintf(&b, "\n  ... and %d more", len(l.rows)-i)
+			break
+		}
+		b.WriteString("\n  " + r.Error())
+	}
+	b.WriteString("\nFix the row(s) in a text editor; pitcard keeps them as they are until then")
+	if l.bak != "" {
+		fmt.Fprintf(&b, " (the version before the last write is %s)", l.bak)
+	}
+	return b.String()
+}
+
+func (l *leftOutRows) BadInput() bool { return true }
+
+// onlyLeftOut reports whether err is nothing worse than rows left out.
+func onlyLeftOut(err error) bool {
+	var l *leftOutRows
+	return err == nil || errors.As(err, &l)
 }
 
 // checkFormat refuses a --format the command does not print.

@@ -78,10 +78,12 @@ func roundInput(e *eventFolder, r roundFlags, now time.Time) (prep.Input, []stri
 		return in, nil, err
 	}
 	passes, err := e.logbook()
-	if err != nil {
-		if !isBadInput(err) {
-			return in, nil, err
-		}
+	switch {
+	case onlyLeftOut(err) && err != nil: // the good rows are used, the bad ones named
+		broken = append(broken, err)
+	case err != nil && !isBadInput(err):
+		return in, nil, err
+	case err != nil: // a header pitcard cannot read: no passes at all
 		broken = append(broken, err)
 		passes = nil
 	}

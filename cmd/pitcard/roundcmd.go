@@ -122,7 +122,7 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 	}
 	if rf.Round == "" && haveSched {
 		passes, err := e.logbook()
-		if err != nil {
+		if !onlyLeftOut(err) {
 			return err
 		}
 		if next, ok := sched.Next(passes); ok {

@@ -4,6 +4,12 @@
 // the old file by rename, which is atomic on every file system pitcard runs
 // on. The previous version is kept as NAME.bak. Writers serialise on a lock
 // file, NAME.lock, so two processes appending at once both land.
+//
+// A path that is a symbolic link (a logbook shared between folders) is
+// written through the link: the lock, the temporary file, the rename and the
+// .bak all happen beside the link's target, so the shared file gets the row.
+// Temporary files are named .NAME.tmp-PID-RANDOM; one left by a writer that
+// died (kill -9, a power cut) is removed by the next write of that file.
 package safefile
 
 import (
@@ -13,10 +19,78 @@ import (
 	"io/fs"
 	"os"
 	"path/filepath"
+	"strconv"
+	"strings"
+	"syscall"
 	"time"
 
 	"github.com/gofrs/flock"
 )
+
+// Resolve is the file a write of path lands in: path itself, or the target
+// of the symbolic link(s) path is, even when that target does not exist yet.
+func Resolve(path string) (string, error) {
+	for range 40 {
+		st, err := os.Lstat(path)
+		if err != nil || st.Mode()&fs.ModeSymlink == 0 {
+			return path, nil
+		}
+		target, err := os.Readlink(path)
+		if err != nil {
+			return "", fmt.Errorf("reading the link %s: %w", path, err)
+		}
+		if !filepath.IsAbs(target) {
+			target = filepath.Join(filepath.Dir(path), target)
+		}
+		path = target
+	}
+	return "", fmt.Errorf("%s: too many levels of symbolic links", path)
+}
+
+// tempPattern is the pattern of this process's temporary files for path.
+func tempPattern(path string) string {
+	return "." + filepath.Base(path) + ".tmp-" + strconv.Itoa(os.Getpid()) + "-*"
+}
+
+// StaleAge is how old a temporary file without a live writer's process id
+// must be before it is taken as left behind.
+var StaleAge = 10 * time.Minute
+
+// removeStale deletes the temporary files of path whose writer is gone: its
+// process id no longer runs, or the name carries none and the file is older
+// than StaleAge.
+func removeStale(path string) {
+	prefix := "." + filepath.Base(path) + ".tmp-"
+	entries, err := os.ReadDir(filepath.Dir(path))
+	if err != nil {
+		return
+	}
+	for _, de := range entries {
+		name := de.Name()
+		if !strings.HasPrefix(name, prefix) {
+			continue
+		}
+		full := filepath.Join(filepath.Dir(path), name)
+		pid, _, hasPID := strings.Cut(strings.TrimPrefix(name, prefix), "-")
+		if n, err := strconv.Atoi(pid); hasPID && err == nil && n > 0 {
+			if n == os.Getpid() || processAlive(n) {
+				continue
+			}
+			os.Remove(full)
+			continue
+		}
+		if info, err := de.Info(); err == nil && time.Since(info.ModTime()) > StaleAge {
+			os.Remove(full)
+		}
+	}
+}
+
+// processAlive reports whether a process with that id exists (signal 0
+// checks without sending anything; EPERM means it exists as another user).
+func processAlive(pid int) bool {
+	err := syscall.Kill(pid, 0)
+	return err == nil || errors.Is(err, syscall.EPERM)
+}
 
 // LockTimeout is how long Lock waits for another pitcard process to finish.
 var LockTimeout = 10 * time.Second
@@ -24,6 +98,9 @@ var LockTimeout = 10 * time.Second
 // Lock takes the exclusive lock of path (held on path+".lock") and returns the
 // function that releases it. It waits up to LockTimeout for another holder.
 func Lock(path string) (unlock func(), err error) {
+	if path, err = Resolve(path); err != nil {
+		return nil, err
+	}
 	l := flock.New(path + ".lock")
 	deadline := time.Now().Add(LockTimeout)
 	for {
@@ -45,8 +122,12 @@ func Lock(path string) (unlock func(), err error) {
 // old content or the new, never a mix. The old file, if any, is kept as
 // path+".bak". The caller should hold Lock(path) when it read the old content.
 func Write(path string, write func(io.Writer) error) (err error) {
+	if path, err = Resolve(path); err != nil {
+		return err
+	}
+	removeStale(path)
 	dir := filepath.Dir(path)
-	tmp, err := os.CreateTemp(dir, "."+filepath.Base(path)+".tmp-*")
+	tmp, err := os.CreateTemp(dir, tempPattern(path))
 	if err != nil {
 		return fmt.Errorf("writing %s: %w", path, err)
 	}
@@ -107,8 +188,13 @@ func backup(path string) error {
 
 // WriteNoBackup writes data to path atomically without keeping a .bak.
 func WriteNoBackup(path string, data []byte) error {
+	path, err := Resolve(path)
+	if err != nil {
+		return err
+	}
+	removeStale(path)
 	dir := filepath.Dir(path)
-	tmp, err := os.CreateTemp(dir, "."+filepath.Base(path)+".tmp-*")
+	tmp, err := os.CreateTemp(dir, tempPattern(path))
 	if err != nil {
 		return err
 	}

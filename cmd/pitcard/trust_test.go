@@ -1,0 +1,95 @@
+package main
+
+import (
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"pitcard/engine"
+)
+
+// Tests that guard what the card and the commands may claim: each names the
+// defect it guards against.
+
+// editFile rewrites one file of a folder.
+func editFile(t *testing.T, dir, file string, edit func(string) string) {
+	t.Helper()
+	p := filepath.Join(dir, file)
+	data, err := os.ReadFile(p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(p, []byte(edit(string(data))), 0o644); err != nil {
+		t.Fatal(err)
+	}
+}
+
+// One bad logbook row (a last row cut short) used to drop the whole logbook:
+// the card fell back to physics alone. Now the good rows are used and the bad
+// one is named with its line and the .bak.
+func TestCardUsesTheGoodRowsOfABrokenLogbook(t *testing.T) {
+	dir := demoCopy(t)
+	whole := mustRun(t, "card", "--dir", dir, "--round", "3", "--lane", "left")
+	editFile(t, dir, "logbook.csv", func(s string) string { return strings.TrimSuffix(s, ",3350,\n") + "\n" })
+	_ = os.WriteFile(filepath.Join(dir, "logbook.csv.bak"), []byte("kept\n"), 0o644)
+	out, errs, code := pitcard(t, "card", "--dir", dir, "--round", "3", "--lane", "left")
+	if code != 2 {
+		t.Errorf("exit %d, want 2 (a row to fix)", code)
+	}
+	all := out + errs
+	for _, w := range []string{"POST THIS", "logbook.csv line 66", "has 20 fields, the header has 22", "logbook.csv.bak", "1 row left out"} {
+		if !strings.Contains(all, w) {
+			t.Errorf("card lacks %q:\n%s", w, all)
+		}
+	}
+	if !strings.Contains(whole, "Calibrated to ") || !strings.Contains(out, "Calibrated to ") || strings.Contains(out, "06-13 E2") {
+		t.Errorf("the card did not calibrate to the good passes, without the cut row:\n%s", out)
+	}
+	// log list and stats print the good rows and name the bad one
+	for _, args := range [][]string{{"log", "list"}, {"log", "stats"}} {
+		out, errs, code := pitcard(t, append(args, "--dir", dir)...)
+		if code != 2 || !strings.Contains(errs, "logbook.csv line 66") || !strings.Contains(out, "2026-06-13") {
+			t.Errorf("%v: exit %d\n%s\n%s", args, code, out, errs)
+		}
+	}
+	// log add logs the pass and keeps the bad row as it was
+	out, errs, code = pitcard(t, "log", "add", "--dir", dir, "--session", "E3", "--lane", "left", "--dial", "11.46", "--et1320", "11.49")
+	if code != 0 || !strings.Contains(errs, "line 66") {
+		t.Errorf("log add: exit %d\n%s%s", code, out, errs)
+	}
+	data, _ := os.ReadFile(filepath.Join(dir, "logbook.csv"))
+	if !strings.Contains(string(data), "2026-06-13,20:13,Juniper Bend Raceway,E2,left,11.46,0.028,1.608,4.684,7.305,9.569,11.495,93.56,117.06,84.05,27.6032,33.4,95.72,2.32,173\n") ||
+		!strings.Contains(string(data), ",E3,left,11.46,,,,,,11.49,") {
+		t.Errorf("after log add the logbook lost a row:\n%s", data)
+	}
+}
+
+// A crew's own column (fuel) used to make the logbook unreadable; now it is
+// kept, with its values, through a rewrite.
+func TestCrewColumnsAreKept(t *testing.T) {
+	dir := demoCopy(t)
+	editFile(t, dir, "logbook.csv", func(s string) string {
+		lines := strings.Split(strings.TrimSuffix(s, "\n"), "\n")
+		for i := range lines {
+			v := "8"
+			if i == 0 {
+				v = "fuel"
+			}
+			lines[i] += "," + v
+		}
+		return strings.Join(lines, "\n") + "\n"
+	})
+	out, errs, code := pitcard(t, "card", "--dir", dir, "--round", "3", "--lane", "left")
+	if code != 0 || !strings.Contains(out, "Calibrated to 39 passes") {
+		t.Errorf("card with a fuel column: exit %d\n%s%s", code, out, errs)
+	}
+	mustRun(t, "log", "add", "--dir", dir, "--session", "E3", "--lane", "left", "--dial", "11.46", "--et1320", "11.49")
+	data, _ := os.ReadFile(filepath.Join(dir, "logbook.csv"))
+	if !strings.HasPrefix(string(data), strings.Join(append(append([]string{}, logbookHeaderNames()...), "fuel"), ",")+"\n") ||
+		strings.Count(string(data), ",8\n") != 65 {
+		t.Errorf("the fuel column was not kept:\n%.400s", data)
+	}
+}
+
+func logbookHeaderNames() []string { return engine.LogbookColumns }
