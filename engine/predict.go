@@ -127,6 +127,9 @@ type Prediction struct {
 	Leaned      []Leaned // most-leaned-on first
 	Outliers    []Outlier
 	PhysicsOnly bool // no pass to calibrate to
+	// Passes is how many clean passes of the car at the distance raced the
+	// prediction rests on (with or without their weather).
+	Passes int
 	// Raw: the logbook's passes have no weather, so the prediction is their
 	// plain average, not corrected for today's air.
 	Raw         bool
@@ -136,6 +139,32 @@ type Prediction struct {
 
 // Finish is the prediction at the finish line.
 func (p Prediction) Finish() Timer { return p.Timers[len(p.Timers)-1] }
+
+// MinPassesForDial is the fewest clean passes of the car at the distance
+// raced before pitcard posts a dial-in. Below it the car's run-to-run spread
+// is not measured and the estimate leans on physics and car.yaml, which can
+// be off by tenths: a breakout chance computed from it would be a number
+// pitcard has no right to. Three, because a first pass is the least
+// predictable and two more show how the car repeats (common practice, no
+// source: most racers make two or three time trials before dialing).
+const MinPassesForDial = 3
+
+// FewPassesForDial: a dial resting on fewer passes than this is posted, and
+// the card says it rests on few.
+const FewPassesForDial = 6
+
+// DialReady says whether the prediction may post a dial-in, and why not.
+func (p Prediction) DialReady() (bool, string) {
+	if p.Passes >= MinPassesForDial {
+		return true, ""
+	}
+	what := "no clean pass"
+	if p.Passes > 0 {
+		what = fmt.Sprintf("only %s", plural(p.Passes, "clean pass"))
+	}
+	return false, fmt.Sprintf("%s of this car at %.0f ft in the logbook (a dial is posted from %d): make a time trial first; the estimate is a guide only",
+		what, p.Distance, MinPassesForDial)
+}
 
 // Estimate is the finish prediction as a dial-in estimate.
 func (p Prediction) Estimate() Estimate {
@@ -172,7 +201,8 @@ func Predict(f Fit, in PredictInput) Prediction {
 	env := NewEnv(in.Air, f.Track.HeadingDeg, in.Prep, mass)
 	dist := f.Car.DistanceFt
 	model := Simulate(&f.Vehicle, f.Params, env, dist)
-	pr := Prediction{Distance: dist, Model: model, Env: env, Air: in.Air, Params: f.Params, Outliers: f.Outliers}
+	pr := Prediction{Distance: dist, Model: model, Env: env, Air: in.Air, Params: f.Params, Outliers: f.Outliers,
+		Passes: len(f.Samples) + len(f.NoAir)}
 	pr.Notes = append(pr.Notes, f.Notes...)
 	if !in.Air.HasTrack {
 		pr.Notes = append(pr.Notes, "track temperature not read: taken as the air plus 10 °F")
@@ -515,4 +545,15 @@ func ThinnerAir(r weather.Reading, dDA float64) weather.Reading {
 	}
 	r.Baro = (lo + hi) / 2
 	return r
+}
+
+// plural is "1 clean pass" or "2 clean passes".
+func plural(n int, noun string) string {
+	if n == 1 {
+		return "1 " + noun
+	}
+	if strings.HasSuffix(noun, "s") {
+		return fmt.Sprintf("%d %ses", n, noun)
+	}
+	return fmt.Sprintf("%d %ss", n, noun)
 }

@@ -108,13 +108,21 @@ func TestGather(t *testing.T) {
 	}
 }
 
-// With no logbook the card still prints: physics alone, and it says so.
+// With no logbook the card still prints: physics alone, as a guide, and
+// no dial (engine.MinPassesForDial); with few passes the dial says so.
 func TestGatherWithoutALogbook(t *testing.T) {
 	in := input(logbook(1), nil, nil)
 	in.Passes = nil
 	c := Gather(in)
-	if !c.Prediction.PhysicsOnly || !c.HasFinal {
-		t.Errorf("physics only %v, final %v, problems %v", c.Prediction.PhysicsOnly, c.HasFinal, c.Problems)
+	if !c.Prediction.PhysicsOnly || c.HasFinal || c.NoDial == "" || len(c.Plan.Options) > 0 {
+		t.Errorf("physics only %v, final %v, no dial %q, problems %v", c.Prediction.PhysicsOnly, c.HasFinal, c.NoDial, c.Problems)
+	}
+	for n, want := range map[int]bool{2: false, 3: true} {
+		in := input(logbook(n), nil, nil)
+		c := Gather(in)
+		if c.HasFinal != want || (want && c.FewPasses == "") {
+			t.Errorf("%d passes: dial posted %v (want %v), few-passes note %q", n, c.HasFinal, want, c.FewPasses)
+		}
 	}
 	in.Car.PowerHP = 0 // and no power: no prediction, the card still renders
 	c = Gather(in)

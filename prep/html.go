@@ -61,6 +61,7 @@ svg { width: 100%; height: auto; }
 <div class="top">
   <div class="dial">{{if .V.Dial}}<div class="label">POST THIS DIAL-IN</div><div class="num">{{.V.Dial}}</div>
     <ul>{{range .V.DialLines}}<li>{{.}}</li>{{end}}</ul>{{if .V.DialAlert}}<p class="alert">Check: {{.V.DialAlert}}</p>{{end}}
+    {{else if .V.NoDial}}<div class="label">NO DIAL YET</div><p class="alert">{{.V.NoDial}}</p>{{if .V.Guide}}<p>{{.V.Guide}}</p>{{end}}
     {{else}}<div class="label">NO DIAL</div><p class="alert">See the problems.</p>{{end}}</div>
   <div style="flex:1">{{.Chart}}</div>
 </div>

@@ -58,8 +58,14 @@ func RenderJSON(w io.Writer, c Card) error {
 		}
 		s := p.Sensitivity
 		j["prediction"] = map[string]any{"timers": timers, "traps": traps, "physics_only": p.PhysicsOnly, "leaned_on": leaned, "left_out": nonNilMaps(out),
-			"passes_calibrated": len(c.Fit.Samples), "interval_pct": 95, "notes": p.Notes,
+			"passes_calibrated": len(c.Fit.Samples), "passes_at_distance": p.Passes, "interval_pct": 95, "notes": p.Notes,
 			"et_per_1000ft_da_s": round(s.PerKDA, 4), "et_per_10f_track_s": round(s.Per10FTrack, 4), "et_per_10mph_headwind_s": round(s.Per10Headwind, 4)}
+	}
+	if c.NoDial != "" {
+		j["no_dial"] = c.NoDial
+	}
+	if c.FewPasses != "" {
+		j["few_passes"] = c.FewPasses
 	}
 	if c.PlanErr == nil && len(c.Plan.Options) > 0 {
 		var opts []map[string]any

@@ -20,6 +20,11 @@ func RenderMarkdown(w io.Writer, c Card) error {
 			fmt.Fprintf(&b, "- **Check:** %s\n", v.DialAlert)
 		}
 		b.WriteString("\n")
+	} else if v.NoDial != "" {
+		fmt.Fprintf(&b, "## No dial yet\n\n%s\n\n", v.NoDial)
+		if v.Guide != "" {
+			fmt.Fprintf(&b, "%s\n\n", v.Guide)
+		}
 	} else {
 		b.WriteString("## No dial: see the problems below\n\n")
 	}

@@ -7,6 +7,7 @@
 package prep
 
 import (
+	"errors"
 	"fmt"
 	"io/fs"
 	"math"
@@ -95,6 +96,11 @@ type Card struct {
 	Fit          engine.Fit
 	Plan         engine.DialPlan
 	PlanErr      error
+	// NoDial says why no dial is posted though there is a prediction (too
+	// few passes of the car): the estimate is shown as a guide.
+	NoDial string
+	// FewPasses is set when the dial rests on few passes, in words.
+	FewPasses string
 	Rules        []scripts.Result
 	Adjustments  []RuleLine
 	TotalAdjust  decimal.Decimal
@@ -144,9 +150,17 @@ func Gather(in Input) Card {
 	default:
 		c.Fit = fit
 		c.Prediction = engine.Predict(fit, engine.PredictInput{Air: in.Air, Prep: in.Prep, WeightLb: in.WeightLb, Time: in.Call})
-		c.Plan, c.PlanErr = engine.PlanDial(c.Prediction.Estimate(), in.Settings.DialStep, in.Settings.BreakoutRisk, 4)
-		if c.PlanErr != nil {
-			c.Problems = append(c.Problems, "no dial table: "+c.PlanErr.Error())
+		if ok, why := c.Prediction.DialReady(); !ok {
+			c.NoDial = why
+			c.PlanErr = errors.New(why)
+		} else {
+			c.Plan, c.PlanErr = engine.PlanDial(c.Prediction.Estimate(), in.Settings.DialStep, in.Settings.BreakoutRisk, 4)
+			if c.PlanErr != nil {
+				c.Problems = append(c.Problems, "no dial table: "+c.PlanErr.Error())
+			}
+			if n := c.Prediction.Passes; n < engine.FewPassesForDial {
+				c.FewPasses = fmt.Sprintf("this dial rests on %d passes of the car at this distance: the breakout chances are measured on few runs", n)
+			}
 		}
 		c.Record, c.RecordMAE = todaysRecord(fit, cal, in)
 	}

@@ -48,6 +48,13 @@ func RenderText(w io.Writer, c Card, color bool) error {
 			b.WriteString(paint("  CHECK: "+v.DialAlert, text.FgHiYellow, text.Bold) + "\n")
 		}
 		b.WriteString("\n")
+	} else if v.NoDial != "" {
+		b.WriteString(paint("  NO DIAL YET", text.Bold, text.FgHiYellow) + "\n")
+		b.WriteString(wrap("  "+v.NoDial, Width, "  ") + "\n")
+		if v.Guide != "" {
+			b.WriteString(wrap("  "+v.Guide, Width, "  ") + "\n")
+		}
+		b.WriteString("\n")
 	} else {
 		b.WriteString(paint("  NO DIAL: see the problems below", text.Bold, text.FgHiRed) + "\n\n")
 	}

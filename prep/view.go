@@ -20,6 +20,8 @@ type view struct {
 	Dial       string   // the dial to post, or "" when there is none
 	DialLines  []string // how the dial was reached
 	DialAlert  string   // the rules' total flagged, if it is
+	NoDial     string   // why there is no dial, when it is not a problem of the files
+	Guide      string   // the estimate shown instead of a dial, in words
 	Air        table
 	AirNote    string
 	Prediction table
@@ -74,6 +76,9 @@ func newView(c Card) view {
 		rec := fmt.Sprintf("recommended %s: %.1f %% chance of breaking out (risk accepted %.0f %%)",
 			dialText(c.Plan.Recommended, step), 100*engine.BreakoutChance(c.Plan.Estimate, c.Plan.Recommended), 100*c.Plan.Risk)
 		v.DialLines = append(v.DialLines, rec)
+		if c.FewPasses != "" {
+			v.DialLines = append(v.DialLines, "NOTE: "+c.FewPasses)
+		}
 		for _, a := range c.Adjustments {
 			v.DialLines = append(v.DialLines, fmt.Sprintf("%s s %s (%s)", signedDec(a.Adjust), a.Reason, a.File))
 		}
@@ -87,6 +92,13 @@ func newView(c Card) view {
 		}
 	}
 	v.DialAlert = c.AdjustFlag
+	if c.NoDial != "" {
+		v.NoDial = upperFirst(c.NoDial) + "."
+		if f := c.Prediction; len(f.Timers) > 0 {
+			t := f.Finish()
+			v.Guide = fmt.Sprintf("Guide from physics and car.yaml: %s %.2f s, 95 %% interval %.2f–%.2f s. Not a dial-in.", TimerName(t.DistanceFt), t.ET, t.Low, t.High)
+		}
+	}
 
 	// The air now and at the call.
 	v.Air = table{Title: "Air", Header: []string{"", "now " + c.AirNowRead.Time.Format("15:04"), "at the call " + in.Call.Format("15:04")}, Marked: -1}

@@ -93,15 +93,23 @@ func TestCardOnASparseFolder(t *testing.T) {
 		t.Errorf("no air: exit %d %s", code, errs)
 	}
 	out := mustRun(t, "card", "--dir", dir, "--round", "1", "--lane", "right", "--temp", "85F", "--baro", "28.9inHg", "--humidity", "40%")
-	for _, w := range []string{"Round 1, right lane", "Physics from car.yaml alone", "POST THIS", "Drag racing can kill"} {
+	// no pass of the car: no dial is posted, the physics estimate is a guide (a
+	// fresh folder used to recommend a dial from physics alone)
+	for _, w := range []string{"Round 1, right lane", "Physics from car.yaml alone", "NO DIAL YET", "make a time trial",
+		"Guide from physics and car.yaml: 1/4 mile", "Not a dial-in", "Drag racing can kill"} {
 		if !strings.Contains(out, w) {
 			t.Errorf("sparse card lacks %q:\n%s", w, out)
+		}
+	}
+	for _, w := range []string{"POST THIS", "Dial options", "given away"} {
+		if strings.Contains(out, w) {
+			t.Errorf("a car with no passes got %q:\n%s", w, out)
 		}
 	}
 	// a rule that runs away: the card still prints, with the failure named
 	_ = os.WriteFile(filepath.Join(dir, "rules", "99-loop.lua"), []byte("function dial(ctx)\n  while true do end\nend\n"), 0o644)
 	out = mustRun(t, "card", "--dir", dir, "--round", "1", "--lane", "right", "--temp", "85F", "--baro", "28.9inHg", "--humidity", "40%")
-	if !strings.Contains(out, "FAIL rule rules/99-loop.lua") || !strings.Contains(out, "rules/99-loop.lua:2") || !strings.Contains(out, "POST THIS") {
+	if !strings.Contains(out, "FAIL rule rules/99-loop.lua") || !strings.Contains(out, "rules/99-loop.lua:2") || !strings.Contains(out, "NO DIAL YET") {
 		t.Errorf("card with a runaway rule:\n%s", out)
 	}
 }

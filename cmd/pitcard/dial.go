@@ -118,6 +118,10 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 			est = n.Pred.Estimate()
 			est.Basis += ", in " + n.Cond.Source
 			leftOut = n.LeftOut
+			if ok, why := n.Pred.DialReady(); !ok {
+				// No dial table from too few passes: the estimate is a guide.
+				return noDial(o, est, why, leftOut)
+			}
 			break
 		}
 		car, err := e.car()
@@ -166,6 +170,21 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 	t.SetColumnConfigs(alignRight(1, 3))
 	render(o.s.Out, t, o.Format)
 	fmt.Fprintf(o.s.Out, "Recommended dial: %s (the slowest dial with at most a %.0f %% chance of breaking out).\n", j.Recommended, plan.Risk*100)
+	return leftOut
+}
+
+// noDial prints the estimate as a guide when there are too few passes to
+// post a dial from (engine.MinPassesForDial).
+func noDial(o *dialOptions, est engine.Estimate, why string, leftOut error) error {
+	if o.Format == "json" {
+		if err := writeJSON(o.s.Out, map[string]any{"predicted_et": round(est.ET, 4), "sd": round(est.SD, 4), "basis": est.Basis,
+			"recommended": nil, "no_dial": why}); err != nil {
+			return err
+		}
+		return leftOut
+	}
+	fmt.Fprintf(o.s.Out, "No dial yet: %s.\nGuide: %.2f s ± %.2f (one standard deviation), %s.\nFor a table anyway, give your own estimate: --et and --sd.\n",
+		why, est.ET, est.SD, est.Basis)
 	return leftOut
 }
 
