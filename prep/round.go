@@ -86,21 +86,21 @@ type RecordLine struct {
 
 // Card is one round's prep card, every figure computed.
 type Card struct {
-	Input        Input
-	Title        string
-	MinutesToGo  float64 // minutes from Now to Call (negative: already called)
-	AirNow       weather.Air
-	AirNowRead   weather.Reading
-	AirCall      weather.Air
-	Prediction   engine.Prediction
-	Fit          engine.Fit
-	Plan         engine.DialPlan
-	PlanErr      error
+	Input       Input
+	Title       string
+	MinutesToGo float64 // minutes from Now to Call (negative: already called)
+	AirNow      weather.Air
+	AirNowRead  weather.Reading
+	AirCall     weather.Air
+	Prediction  engine.Prediction
+	Fit         engine.Fit
+	Plan        engine.DialPlan
+	PlanErr     error
 	// NoDial says why no dial is posted though there is a prediction (too
 	// few passes of the car): the estimate is shown as a guide.
 	NoDial string
 	// FewPasses is set when the dial rests on few passes, in words.
-	FewPasses string
+	FewPasses    string
 	Rules        []scripts.Result
 	Adjustments  []RuleLine
 	TotalAdjust  decimal.Decimal
