@@ -36,7 +36,14 @@ type Settings struct {
 	BreakoutRisk  float64
 	MaxRuleAdjust decimal.Decimal // a total rule adjustment beyond ± this is flagged
 	RuleLimits    scripts.Limits
+	// MaxReadingAge: the latest reading older than this at Now is flagged;
+	// 0 takes DefaultMaxReadingAge.
+	MaxReadingAge time.Duration
 }
+
+// DefaultMaxReadingAge is how old the latest reading may be before the card
+// flags it (the setting reading_max_age_min).
+const DefaultMaxReadingAge = 45 * time.Minute
 
 // Input is everything the card is made from.
 type Input struct {
@@ -86,16 +93,18 @@ type RecordLine struct {
 
 // Card is one round's prep card, every figure computed.
 type Card struct {
-	Input       Input
-	Title       string
-	MinutesToGo float64 // minutes from Now to Call (negative: already called)
-	AirNow      weather.Air
-	AirNowRead  weather.Reading
-	AirCall     weather.Air
-	Prediction  engine.Prediction
-	Fit         engine.Fit
-	Plan        engine.DialPlan
-	PlanErr     error
+	Input        Input
+	Title        string
+	MinutesToGo  float64       // minutes from Now to Call (negative: already called)
+	ReadingAge   time.Duration // from the latest reading to Now (0 when the air is the flags)
+	StaleReading string        // set when ReadingAge is past the setting, in words
+	AirNow       weather.Air
+	AirNowRead   weather.Reading
+	AirCall      weather.Air
+	Prediction   engine.Prediction
+	Fit          engine.Fit
+	Plan         engine.DialPlan
+	PlanErr      error
 	// NoDial says why no dial is posted though there is a prediction (too
 	// few passes of the car): the estimate is shown as a guide.
 	NoDial string
@@ -135,6 +144,21 @@ func Gather(in Input) Card {
 		c.AirNowRead = *in.AirNow
 	}
 	c.AirNow = c.AirNowRead.Derive(in.Elevation)
+	if in.AirNow != nil {
+		c.ReadingAge = in.Now.Sub(in.AirNow.Time)
+		limit := in.Settings.MaxReadingAge
+		if limit <= 0 {
+			limit = DefaultMaxReadingAge
+		}
+		if c.ReadingAge > limit {
+			c.StaleReading = fmt.Sprintf("the latest weather reading is %s old (%s; the limit is %s, setting reading_max_age_min): the air has moved since; take a fresh reading",
+				Minutes(c.ReadingAge), in.AirNow.Time.Format("15:04"), Minutes(limit))
+			if ahead := in.Call.Sub(in.AirNow.Time); ahead > limit {
+				c.StaleReading += fmt.Sprintf(", the air at the call is carried %s past it", Minutes(ahead))
+			}
+			c.Problems = append(c.Problems, c.StaleReading)
+		}
+	}
 
 	cal := engine.CalibrateInput{Car: in.Car, Track: in.Track, Tracks: in.Tracks, Passes: in.Passes, Now: latest(in.Now, in.Call, in.Passes)}
 	var fit engine.Fit
@@ -186,6 +210,21 @@ func Gather(in Input) Card {
 	}
 	c.GatheredTook = time.Since(start)
 	return c
+}
+
+// Minutes prints a duration as a racer says it: "25 min", "6 h 39 min".
+func Minutes(d time.Duration) string {
+	m := int(d.Round(time.Minute) / time.Minute)
+	if m < 0 {
+		m = -m
+	}
+	if m < 60 {
+		return fmt.Sprintf("%d min", m)
+	}
+	if m%60 == 0 {
+		return fmt.Sprintf("%d h", m/60)
+	}
+	return fmt.Sprintf("%d h %d min", m/60, m%60)
 }
 
 func latest(ts ...any) time.Time {

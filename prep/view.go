@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"strings"
+	"time"
 
 	"github.com/shopspring/decimal"
 
@@ -101,7 +102,17 @@ func newView(c Card) view {
 	}
 
 	// The air now and at the call.
-	v.Air = table{Title: "Air", Header: []string{"", "now " + c.AirNowRead.Time.Format("15:04"), "at the call " + in.Call.Format("15:04")}, Marked: -1}
+	nowHead := "now " + c.AirNowRead.Time.Format("15:04")
+	if in.AirNow != nil {
+		nowHead = "read " + c.AirNowRead.Time.Format("15:04") + ", " + Minutes(c.ReadingAge) + " ago"
+		if c.ReadingAge < time.Minute {
+			nowHead = "read " + c.AirNowRead.Time.Format("15:04") + ", just now"
+		}
+		if c.StaleReading != "" {
+			nowHead += " (OLD)"
+		}
+	}
+	v.Air = table{Title: "Air", Header: []string{"", nowHead, "at the call " + in.Call.Format("15:04")}, Marked: -1}
 	row := func(name string, f func(weather.Air, weather.Reading) string) {
 		v.Air.Rows = append(v.Air.Rows, []string{name, f(c.AirNow, c.AirNowRead), f(c.AirCall, in.Air)})
 	}

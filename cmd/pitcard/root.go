@@ -74,13 +74,14 @@ Try it on the built-in demo event first: pitcard card --demo`,
 
 // settings are pitcard.yaml's values after flags and environment.
 type settings struct {
-	Units        weather.Units
-	DialStep     decimal.Decimal
-	BreakoutRisk float64
-	Tree         engine.Tree
-	RTZero       engine.RTZero
-	MaxAdjust    decimal.Decimal
-	RuleLimits   scripts.Limits
+	Units         weather.Units
+	DialStep      decimal.Decimal
+	BreakoutRisk  float64
+	Tree          engine.Tree
+	RTZero        engine.RTZero
+	MaxAdjust     decimal.Decimal
+	RuleLimits    scripts.Limits
+	MaxReadingAge time.Duration // a reading older than this is flagged on the card
 }
 
 // settingKeys are the keys pitcard.yaml may hold, with their defaults.
@@ -93,6 +94,8 @@ var settingKeys = map[string]any{
 	"max_rule_adjust": "0.05",
 	"rule_time_ms":    200,
 	"rule_memory_mib": 64,
+	// A weather reading older than this at the card's clock is flagged.
+	"reading_max_age_min": 45,
 }
 
 // eventFolder is an opened event folder (or the demo).
@@ -212,6 +215,11 @@ func (g *globalOptions) open(cmd *cobra.Command) (*eventFolder, error) {
 	}
 	lim.Time, lim.Memory = time.Duration(ms)*time.Millisecond, int64(mib)<<20
 	e.Settings.RuleLimits = lim
+	age := v.GetInt("reading_max_age_min")
+	if age < 5 || age > 24*60 {
+		return nil, &weather.InputError{Field: "reading_max_age_min", Value: v.GetString("reading_max_age_min"), Reason: "is outside 5..1440 minutes"}
+	}
+	e.Settings.MaxReadingAge = time.Duration(age) * time.Minute
 	return e, nil
 }
 

@@ -259,7 +259,7 @@ func roundInput(e *eventFolder, r roundFlags, now time.Time) (prep.Input, []stri
 	in = prep.Input{
 		Car: car, Track: trk, Tracks: tracks, Passes: passes,
 		Settings: prep.Settings{Units: e.Settings.Units, DialStep: e.Settings.DialStep, BreakoutRisk: e.Settings.BreakoutRisk,
-			MaxRuleAdjust: e.Settings.MaxAdjust, RuleLimits: e.Settings.RuleLimits},
+			MaxRuleAdjust: e.Settings.MaxAdjust, RuleLimits: e.Settings.RuleLimits, MaxReadingAge: e.Settings.MaxReadingAge},
 		Session: slot.Session, Lane: lane, OpponentDial: opp, Call: call, Now: now,
 		Air: air, AirSource: source, AirNow: airNow, Forecast: forecast, Elevation: elev, Prep: prepLvl, WeightLb: weight,
 		Rules: rules, RulesFS: e.FS,

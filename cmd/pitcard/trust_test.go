@@ -93,3 +93,37 @@ func TestCrewColumnsAreKept(t *testing.T) {
 }
 
 func logbookHeaderNames() []string { return engine.LogbookColumns }
+
+// With the last reading at 13:30 and the clock at 20:40 the card used to say
+// "now 13:30" with no caution. Now it says how old the reading is and flags
+// it past reading_max_age_min.
+func TestCardSaysHowOldTheReadingIs(t *testing.T) {
+	dir := demoCopy(t)
+	editFile(t, dir, "weather.csv", func(s string) string {
+		var keep []string
+		for _, l := range strings.SplitAfter(s, "\n") {
+			if !strings.HasPrefix(l, "2026-06-13,") || strings.HasPrefix(l, "2026-06-13,13:30") {
+				keep = append(keep, l)
+			}
+		}
+		return strings.Join(keep, "")
+	})
+	out, _, _ := pitcard(t, "card", "--dir", dir, "--round", "3", "--lane", "left")
+	for _, w := range []string{"read 13:30, 7 h 10 min ago (OLD)", "the latest weather reading is 7 h 10 min old", "reading_max_age_min"} {
+		if !strings.Contains(out, w) {
+			t.Errorf("card lacks %q:\n%s", w, out)
+		}
+	}
+	if strings.Contains(out, "now 13:30") {
+		t.Errorf("an old reading is shown as now:\n%s", out)
+	}
+	// a fresh reading is not flagged, and a longer limit is a setting
+	fresh := mustRun(t, "card", "--dir", demoCopy(t), "--round", "3", "--lane", "left")
+	if !strings.Contains(fresh, "read 20:30, 10 min ago") || strings.Contains(fresh, "OLD") {
+		t.Errorf("fresh card:\n%.600s", fresh)
+	}
+	t.Setenv("PITCARD_READING_MAX_AGE_MIN", "600")
+	if out, _, _ := pitcard(t, "card", "--dir", dir, "--round", "3", "--lane", "left"); strings.Contains(out, "(OLD)") {
+		t.Errorf("reading_max_age_min 600 still flags a 7-hour reading:\n%.600s", out)
+	}
+}
