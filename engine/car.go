@@ -9,6 +9,8 @@ import (
 
 	"go.yaml.in/yaml/v3"
 
+	"pitcard/internal/yamlfile"
+
 	"pitcard/weather"
 )
 
@@ -61,6 +63,9 @@ type Car struct {
 
 	// Extra holds any other keys the crew adds; the rules see them.
 	Extra map[string]any `yaml:"-"`
+	// Warnings are what a person should hear about the file (a yes/no
+	// written as text), with file and line.
+	Warnings []string `yaml:"-"`
 }
 
 // ReadCar reads a car.yaml; name is the file's name for messages. Keys pitcard
@@ -71,11 +76,16 @@ func ReadCar(r io.Reader, name string) (Car, error) {
 		return Car{}, err
 	}
 	var c Car
-	if err := yaml.Unmarshal(data, &c); err != nil {
-		return c, yamlErr(name, err)
+	doc, err := yamlfile.Parse(data, name)
+	if err != nil {
+		return c, err
 	}
+	if err := doc.Decode(&c, false); err != nil {
+		return c, err
+	}
+	c.Warnings = doc.Warnings
 	var all map[string]any
-	_ = yaml.Unmarshal(data, &all)
+	_ = doc.Decode(&all, false)
 	known := carKeys()
 	for k, v := range all {
 		if !slices.Contains(known, k) {
@@ -88,7 +98,7 @@ func ReadCar(r io.Reader, name string) (Car, error) {
 	if c.Induction == "" {
 		c.Induction = Natural
 	}
-	return c, c.Validate(name)
+	return c, doc.At(c.Validate(name))
 }
 
 func carKeys() []string {

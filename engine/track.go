@@ -6,8 +6,7 @@ import (
 	"io"
 	"strings"
 
-	"go.yaml.in/yaml/v3"
-
+	"pitcard/internal/yamlfile"
 	"pitcard/weather"
 )
 
@@ -34,9 +33,15 @@ func (t Track) Elevation() weather.Length { return weather.Feet(t.ElevationFt) }
 // otherwise), and every value is checked against its range.
 func ReadTrack(r io.Reader, name string) (Track, error) {
 	t := Track{Prep: "full"}
-	if err := decodeStrict(r, name, &t); err != nil {
+	doc, err := decodeStrict(r, name, &t)
+	if err != nil {
 		return t, err
 	}
+	t, err = t.validate(name)
+	return t, doc.At(err)
+}
+
+func (t Track) validate(name string) (Track, error) {
 	if strings.TrimSpace(t.Name) == "" {
 		return t, &weather.InputError{File: name, Field: "name", Reason: "is missing (the track's name as the logbook spells it)"}
 	}
@@ -53,24 +58,15 @@ func ReadTrack(r io.Reader, name string) (Track, error) {
 
 // decodeStrict decodes one YAML document into v, refusing unknown keys, and
 // turns YAML's errors into InputErrors that name the file and line.
-func decodeStrict(r io.Reader, name string, v any) error {
-	dec := yaml.NewDecoder(r)
-	dec.KnownFields(true)
-	if err := dec.Decode(v); err != nil && !errors.Is(err, io.EOF) {
-		return yamlErr(name, err)
+func decodeStrict(r io.Reader, name string, v any) (*yamlfile.Doc, error) {
+	data, err := io.ReadAll(r)
+	if err != nil {
+		return nil, err
 	}
-	return nil
+	doc, err := yamlfile.Parse(data, name)
+	if err != nil {
+		return nil, err
+	}
+	return doc, doc.Decode(v, true)
 }
 
-func yamlErr(name string, err error) error {
-	msg := strings.TrimPrefix(err.Error(), "yaml: ")
-	var te *yaml.TypeError
-	if errors.As(err, &te) && len(te.Errors) > 0 {
-		msg = strings.Join(te.Errors, "; ")
-	}
-	line := 0
-	if _, e := fmt.Sscanf(msg, "line %d:", &line); e == nil {
-		msg = strings.TrimSpace(msg[strings.Index(msg, ":")+1:])
-	}
-	return &weather.InputError{File: name, Line: line, Field: "yaml", Reason: msg}
-}

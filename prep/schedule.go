@@ -1,13 +1,12 @@
 package prep
 
 import (
-	"errors"
 	"fmt"
 	"io"
 	"strings"
 	"time"
 
-	"go.yaml.in/yaml/v3"
+	"pitcard/internal/yamlfile"
 
 	"pitcard/engine"
 	"pitcard/weather"
@@ -41,31 +40,37 @@ func ReadSchedule(r io.Reader, name string, loc *time.Location) (Schedule, error
 			Lane    string `yaml:"lane"`
 		} `yaml:"sessions"`
 	}
-	dec := yaml.NewDecoder(r)
-	dec.KnownFields(true)
-	if err := dec.Decode(&raw); err != nil && !errors.Is(err, io.EOF) {
-		return Schedule{}, &weather.InputError{File: name, Field: "yaml", Reason: strings.TrimPrefix(err.Error(), "yaml: ")}
+	data, err := io.ReadAll(r)
+	if err != nil {
+		return Schedule{}, err
+	}
+	doc, err := yamlfile.Parse(data, name)
+	if err != nil {
+		return Schedule{}, err
+	}
+	if err := doc.Decode(&raw, true); err != nil {
+		return Schedule{}, err
 	}
 	var s Schedule
 	d, err := time.ParseInLocation(weather.DateLayout, strings.TrimSpace(raw.Date), loc)
 	if err != nil {
-		return s, &weather.InputError{File: name, Field: "date", Value: raw.Date, Reason: "is not a date (YYYY-MM-DD)"}
+		return s, &weather.InputError{File: name, Line: doc.Line("date"), Field: "date", Value: raw.Date, Reason: "is not a date (YYYY-MM-DD)"}
 	}
 	s.Date = d
 	for i, x := range raw.Sessions {
 		where := fmt.Sprintf("sessions[%d].", i)
 		ses, err := engine.ParseSession(x.Session)
 		if err != nil {
-			return s, err.(*weather.InputError).Named(where+"session").At(name, 0)
+			return s, err.(*weather.InputError).Named(where+"session").At(name, doc.Line(where+"session"))
 		}
 		call, err := weather.ParseClock(x.Call, d, loc)
 		if err != nil {
-			return s, err.(*weather.InputError).Named(where+"call").At(name, 0)
+			return s, err.(*weather.InputError).Named(where+"call").At(name, doc.Line(where+"call"))
 		}
 		slot := Slot{Session: ses, Call: call}
 		if x.Lane != "" {
 			if slot.Lane, err = engine.ParseLane(x.Lane); err != nil {
-				return s, err.(*weather.InputError).Named(where+"lane").At(name, 0)
+				return s, err.(*weather.InputError).Named(where+"lane").At(name, doc.Line(where+"lane"))
 			}
 		}
 		s.Sessions = append(s.Sessions, slot)

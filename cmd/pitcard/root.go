@@ -19,6 +19,7 @@ import (
 
 	"pitcard/engine"
 	"pitcard/event"
+	"pitcard/internal/yamlfile"
 	"pitcard/scripts"
 	"pitcard/weather"
 )
@@ -226,6 +227,9 @@ func (g *globalOptions) open(cmd *cobra.Command) (*eventFolder, error) {
 // checkSettingsKeys refuses keys pitcard.yaml does not know: a misspelt
 // setting would otherwise be silently ignored.
 func checkSettingsKeys(data []byte, name string) error {
+	if _, err := yamlfile.Parse(data, name); err != nil {
+		return err
+	}
 	var doc yaml.Node
 	if err := yaml.Unmarshal(data, &doc); err != nil {
 		return userErrf("%s: %v", name, strings.TrimPrefix(err.Error(), "yaml: "))

@@ -267,6 +267,7 @@ func roundInput(e *eventFolder, r roundFlags, now time.Time) (prep.Input, []stri
 	for _, b := range broken {
 		in.Problems = append(in.Problems, b.Error())
 	}
+	in.Problems = append(in.Problems, car.Warnings...)
 	if len(broken) > 0 {
 		return in, warnings, brokenInput{broken}
 	}

@@ -127,3 +127,32 @@ func TestCardSaysHowOldTheReadingIs(t *testing.T) {
 		t.Errorf("reading_max_age_min 600 still flags a 7-hour reading:\n%.600s", out)
 	}
 }
+
+// limit_et: .nan used to pass the safety check ("against the car's NaN
+// limit"). A non-finite number anywhere in car.yaml is refused with its file
+// and line; the card prints the rest and no check passes on it.
+func TestNonFiniteYAMLIsRefused(t *testing.T) {
+	dir := demoCopy(t)
+	editFile(t, dir, "car.yaml", func(s string) string { return strings.Replace(s, "limit_et: 10.00", "limit_et: .nan", 1) })
+	out, errs, code := pitcard(t, "card", "--dir", dir, "--round", "3", "--lane", "left")
+	all := out + errs
+	if code != 2 || !strings.Contains(all, "car.yaml line 14: limit_et \".nan\" is not a finite number") {
+		t.Errorf("exit %d:\n%s", code, all)
+	}
+	if strings.Contains(all, "NaN") || strings.Contains(all, "PASS ET limit") {
+		t.Errorf("a NaN limit reached a check:\n%s", all)
+	}
+	// a yes/no written as text gets a word on the card
+	dir = demoCopy(t)
+	editFile(t, dir, "car.yaml", func(s string) string { return strings.Replace(s, "chute: false", "chute: yes", 1) })
+	out = mustRun(t, "card", "--dir", dir, "--round", "3", "--lane", "left")
+	if !strings.Contains(out, "car.yaml line 16: chute: yes is read as the text") {
+		t.Errorf("chute: yes not pointed out:\n%s", out)
+	}
+	// the same for the crew's settings
+	dir = demoCopy(t)
+	editFile(t, dir, "pitcard.yaml", func(s string) string { return strings.Replace(s, "breakout_risk: 0.10", "breakout_risk: .inf", 1) })
+	if _, errs, code := pitcard(t, "dial", "--dir", dir); code != 2 || !strings.Contains(errs, "pitcard.yaml line") || !strings.Contains(errs, "breakout_risk") {
+		t.Errorf("breakout_risk: .inf: exit %d %s", code, errs)
+	}
+}
