@@ -225,6 +225,10 @@ func newLibrary(limits Limits) *library {
 	})
 	lib.stringMT = L.NewTable()
 	lib.stringMT.RawSetString("__index", lib.globals["string"])
+	// The strings' metatable is shared by every rule too: getmetatable("")
+	// answers "locked" instead of the table, so no rule can change string
+	// methods for the rules after it.
+	lib.stringMT.RawSetString("__metatable", lua.LString("locked"))
 	return lib
 }
 

@@ -194,3 +194,24 @@ func BenchmarkTwentyRules(b *testing.B) {
 		Run(rules, fsys, ctx, DefaultLimits)
 	}
 }
+
+// A rule that replaced the strings' shared metatable used to change string
+// methods for every rule after it (the shipped safety rule turned a FAIL
+// into a WARN). The metatable is locked like the shared libraries.
+func TestOneRuleCannotChangeStringsForTheNext(t *testing.T) {
+	lim := DefaultLimits
+	evil := Compile("rules/10-evil.lua", `
+local mt = getmetatable("")
+if type(mt) == "table" then
+  mt.__index = {upper = function(s) return "hijacked" end, find = function() return nil end}
+end
+function notes(ctx) return {"tried: " .. type(mt)} end`, nil, lim)
+	victim := Compile("rules/20-victim.lua", `function notes(ctx) return {("expired"):upper(), tostring(("belts expired"):find("expired"))} end`, nil, lim)
+	res := Run([]*Rule{evil, victim}, nil, ctxFor("left", 20, 100), lim)
+	if len(res[1].Errors) > 0 || len(res[1].Notes) != 2 || res[1].Notes[0] != "EXPIRED" || res[1].Notes[1] != "7" {
+		t.Errorf("the second rule saw changed strings: notes %q, errors %v", res[1].Notes, res[1].Errors)
+	}
+	if len(res[0].Notes) == 0 || res[0].Notes[0] != "tried: string" {
+		t.Errorf("getmetatable(\"\") gave the rule the table itself: %q %v", res[0].Notes, res[0].Errors)
+	}
+}
