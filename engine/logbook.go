@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"math"
 	"sort"
 	"strconv"
 	"strings"
@@ -590,4 +591,59 @@ func passFields(p Pass) map[string]string {
 		v["weight_lb"], v["weight_kg"] = num(p.WeightLb, 1), num(p.WeightLb*weather.KgPerLb, 1)
 	}
 	return v
+}
+
+// CheckSlipField checks one field of a slip on its own (its form and range),
+// as a prompt asks for it: col is the canonical column, name how the user
+// knows it. The checks across fields (times increasing with distance, a
+// trap speed plausible with its time) are ParsePass's.
+func CheckSlipField(col, name, v string) error {
+	v = strings.TrimSpace(v)
+	if v == "" || col == "notes" {
+		return nil
+	}
+	lo, hi, unit := 0.0, 0.0, "s"
+	switch col {
+	case "dial":
+		lo, hi = DialRange[0], DialRange[1]
+	case "rt":
+		lo, hi = RTRange[0], RTRange[1]
+	case "mph660", "mph1320":
+		lo, hi, unit = MPHRange[0], MPHRange[1], "mph"
+	default:
+		i := -1
+		for j, t := range Timers {
+			if col == fmt.Sprintf("et%.0f", t) {
+				i = j
+			}
+		}
+		if i < 0 {
+			return nil
+		}
+		lo, hi = ETRanges[i][0], ETRanges[i][1]
+	}
+	d, err := ParseSeconds(name, v)
+	if err != nil {
+		if unit == "mph" {
+			return &weather.InputError{Field: name, Value: v, Reason: "is not a speed in mph (e.g. 123.45)"}
+		}
+		return err
+	}
+	return rangeCheck(name, d, lo, hi, unit)
+}
+
+// DialWarning is a word on a slip whose dial-in is far from what the car ran
+// (a dial of 1.619 beside an 11.85 is most likely the 60-ft time typed in
+// the dial's place), or "".
+func DialWarning(p Pass) string {
+	et, ft, ok := p.Finish()
+	if !p.Dial.Valid || !ok {
+		return ""
+	}
+	dial, ran := p.Dial.Decimal.InexactFloat64(), et.InexactFloat64()
+	if gap := math.Abs(dial - ran); gap > math.Max(0.5, 0.1*ran) {
+		return fmt.Sprintf("the dial %s is %.2f s from the %.0f-ft ET %s: check it is the dial-in (not another timer)",
+			FormatSeconds(p.Dial.Decimal, 2), gap, ft, FormatSeconds(et, 3))
+	}
+	return ""
 }

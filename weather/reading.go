@@ -237,3 +237,15 @@ func (r Reading) HeadwindComponent(heading float64) Speed {
 	}
 	return Speed(float64(r.Wind) * math.Cos((r.WindFrom-heading)*math.Pi/180))
 }
+
+// Same reports whether two readings at a track of elevation elev hold the
+// same values to the precision a prompt shows them (0.1 °F, 0.01 inHg, 1 %
+// humidity, 1 °F of track, 1 mph of wind): the same reading entered twice.
+func (r Reading) Same(o Reading, elev Length) bool {
+	near := func(a, b, tol float64) bool { return math.Abs(a-b) <= tol }
+	a, b := r.Derive(elev), o.Derive(elev)
+	track := r.HasTrack == o.HasTrack && (!r.HasTrack || near(float64(r.TrackTemp), float64(o.TrackTemp), 0.3))
+	return near(float64(r.Temp), float64(o.Temp), 0.06) && near(float64(a.Station), float64(b.Station), 20) && near(a.RH, b.RH, 0.006) &&
+		track && near(float64(r.Wind), float64(o.Wind), 0.25) && r.WindDirUnknown == o.WindDirUnknown &&
+		(r.Wind == 0 || near(r.WindFrom, o.WindFrom, 0.5))
+}

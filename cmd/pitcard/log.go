@@ -228,6 +228,9 @@ func logAddRun(cmd *cobra.Command, o *logAddOptions) error {
 	if err != nil {
 		return err
 	}
+	if w := engine.DialWarning(p); w != "" {
+		fmt.Fprintln(o.s.Err, "pitcard: warning:", w)
+	}
 	if kept != nil {
 		fmt.Fprintln(o.s.Err, "pitcard: warning:", kept)
 	}

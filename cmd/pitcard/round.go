@@ -29,6 +29,9 @@ type roundFlags struct {
 	OpponentDial string
 	Prep         string
 	Weight       string
+	// Unsaved is a reading that could not be written (a full disk): the
+	// round's card still uses it.
+	Unsaved *weather.Reading
 }
 
 func (r *roundFlags) bind(cmd *cobra.Command) {
@@ -103,25 +106,10 @@ func roundInput(e *eventFolder, r roundFlags, now time.Time) (prep.Input, []stri
 	if err != nil {
 		return in, nil, err
 	}
-	if haveSched && !e.Demo && sched.Date.Format("2006-01-02") != now.Format("2006-01-02") {
-		// Another day's schedule: a race day replayed (the weather log has
-		// that day: the card is for it, its clock at the day's last reading)
-		// or last week's file not yet updated (its times are taken for today).
-		var dayEnd *weather.Reading
-		for i := range log {
-			if log[i].Time.Format("2006-01-02") == sched.Date.Format("2006-01-02") {
-				dayEnd = &log[i]
-			}
-		}
-		if dayEnd != nil {
-			warnings = append(warnings, fmt.Sprintf("%s is for %s, not today: the card is for that day, its clock at the day's last reading (%s)",
-				e.name(ScheduleFile), sched.Date.Format("2006-01-02"), dayEnd.Time.Format("15:04")))
-			now = dayEnd.Time
-		} else {
-			warnings = append(warnings, fmt.Sprintf("%s is dated %s but today is %s: its call times are taken for today (update its date)",
-				e.name(ScheduleFile), sched.Date.Format("2006-01-02"), now.Format("2006-01-02")))
-			sched = sched.OnDay(now)
-		}
+	now, sched, warnings = clockFor(e, sched, haveSched, log, now)
+	if r.Unsaved != nil { // a reading the disk refused: the card still uses it
+		log = append(log, *r.Unsaved)
+		sortReadings(log)
 	}
 
 	// The session and its slot in the schedule.
@@ -272,6 +260,28 @@ func roundInput(e *eventFolder, r roundFlags, now time.Time) (prep.Input, []stri
 		return in, warnings, brokenInput{broken}
 	}
 	return in, warnings, nil
+}
+
+// clockFor is the clock of a round: now, or, when schedule.yaml is for
+// another day that the weather log holds, that day at its last reading (a
+// race day replayed). A schedule of another day the log lacks is taken for
+// today. One clock serves the whole round: the card, the reading, the slip.
+func clockFor(e *eventFolder, sched prep.Schedule, haveSched bool, log []weather.Reading, now time.Time) (time.Time, prep.Schedule, []string) {
+	if !haveSched || e.Demo || sched.Date.Format("2006-01-02") == now.Format("2006-01-02") {
+		return now, sched, nil
+	}
+	var dayEnd *weather.Reading
+	for i := range log {
+		if log[i].Time.Format("2006-01-02") == sched.Date.Format("2006-01-02") {
+			dayEnd = &log[i]
+		}
+	}
+	if dayEnd != nil {
+		return dayEnd.Time, sched, []string{fmt.Sprintf("%s is for %s, not today: the round is on that day, its clock at the day's last reading (%s)",
+			e.name(ScheduleFile), sched.Date.Format("2006-01-02"), dayEnd.Time.Format("15:04"))}
+	}
+	return now, sched.OnDay(now), []string{fmt.Sprintf("%s is dated %s but today is %s: its call times are taken for today (update its date)",
+		e.name(ScheduleFile), sched.Date.Format("2006-01-02"), now.Format("2006-01-02"))}
 }
 
 // brokenInput is bad input the card could print around: the input is

@@ -2,6 +2,7 @@ package main
 
 import (
 	"bufio"
+	"errors"
 	"fmt"
 	"io"
 	"strings"
@@ -112,14 +113,14 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 		return err
 	}
 	p := &prompter{in: bufio.NewReader(o.s.In), out: o.s.Out}
-	now := o.s.Now()
 
-	// Which round.
+	// Which round, and its clock: one clock for the card, the reading and the slip.
 	rf := roundFlags{Round: o.Round, Lane: o.Lane}
 	sched, haveSched, err := e.schedule()
 	if err != nil {
 		return err
 	}
+	now, _, _ := clockFor(e, sched, haveSched, log, o.s.Now())
 	if rf.Round == "" && haveSched {
 		passes, err := e.logbook()
 		if !onlyLeftOut(err) {
@@ -240,14 +241,38 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 	}
 	rf.OpponentDial = p.ask("Opponent's dial (Enter if not known)", "")
 
-	// Log the reading, then the card.
-	if _, err := appendReading(e, r, elev, true); err != nil {
-		return err
+	// Log the reading, then the card. A reading the disk refuses still
+	// makes the card; the crew hears it was not saved.
+	var unsaved error
+	if _, err := appendReading(e, r, elev, false); err != nil {
+		var same *sameMinute
+		switch {
+		case errors.As(err, &same) && same.old.Same(r, elev):
+			fmt.Fprintf(o.s.Out, "The %s reading already logged has these values: kept as it is.\n", same.old.Time.Format("15:04"))
+		case errors.As(err, &same):
+			a := p.ask(fmt.Sprintf("A reading at %s is already logged with other values: replace it? (y/N)", same.old.Time.Format("15:04")), "N")
+			if strings.HasPrefix(strings.ToLower(a), "y") {
+				if _, err := appendReading(e, r, elev, true); err != nil {
+					unsaved = err
+				}
+			} else {
+				fmt.Fprintln(o.s.Out, "Kept the logged reading; yours was not saved, and the card uses the logged one.")
+			}
+		case isBadInput(err):
+			return err
+		default:
+			unsaved = err
+		}
+	}
+	if unsaved != nil {
+		rf.Unsaved = &r
+		fmt.Fprintf(o.s.Err, "pitcard: the reading was NOT saved (%v): the card below uses it anyway; write it down\n", unsaved)
 	}
 	in, warnings, err := roundInput(e, rf, now)
-	if err != nil {
+	if !usable(err) {
 		return err
 	}
+	broken := err
 	for _, w := range warnings {
 		fmt.Fprintln(o.s.Err, "pitcard: warning:", w)
 	}
@@ -256,43 +281,80 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 	if err := prep.RenderText(o.s.Out, c, o.s.Terminal); err != nil {
 		return err
 	}
+	if unsaved != nil {
+		return fmt.Errorf("the reading was not saved: %w", unsaved)
+	}
 	if o.NoLog {
-		return nil
+		return broken
 	}
 
-	// After the round: the slip.
+	// After the round: the slip, each field checked as it is typed.
 	fmt.Fprintln(o.s.Out)
 	if a := p.ask("Run the round, then press Enter for the slip (or type skip)", ""); strings.EqualFold(a, "skip") || p.eof {
 		fmt.Fprintln(o.s.Out, "No slip logged. Log it later with 'pitcard log add'.")
-		return nil
+		return broken
 	}
 	dial := ""
 	if c.HasFinal && in.Session.Kind == engine.Elimination {
 		dial = dialString(c.FinalDial, e.Settings.DialStep)
 	}
-	slip := map[string]string{}
-	for _, q := range []struct{ key, question, def string }{
+	questions := []struct{ key, question, def string }{
 		{"dial", "Dial-in posted", dial}, {"rt", "Reaction time (.021)", ""}, {"et60", "60 ft", ""}, {"et330", "330 ft", ""},
 		{"et660", "1/8 mile ET", ""}, {"mph660", "1/8 mile MPH", ""}, {"et1000", "1000 ft", ""}, {"et1320", "1/4 mile ET", ""},
 		{"mph1320", "1/4 mile MPH", ""}, {"notes", "Notes (lifted, pedaled ...)", ""},
-	} {
-		if q.key == "et1000" && in.Car.DistanceFt < 1000 {
+	}
+	slip := engine.SlipFields{Values: map[string]string{"date": now.Format(weather.DateLayout), "time": now.Format("15:04"),
+		"track": trk.Name, "session": in.Session.String(), "lane": string(in.Lane)}, Names: map[string]string{}}
+	askField := func(key, question, def string) error {
+		v, err := p.until(question, def, func(a string) error { return engine.CheckSlipField(key, question, a) })
+		slip.Values[key] = v
+		return err
+	}
+	for _, q := range questions {
+		if (q.key == "et1000" && in.Car.DistanceFt < 1000) || (q.key == "et660" || q.key == "mph660") && in.Car.DistanceFt < 660 {
 			continue
 		}
-		slip[q.key] = p.ask(q.question, q.def)
+		slip.Names[q.key] = q.question
+		if err := askField(q.key, q.question, q.def); err != nil {
+			return fmt.Errorf("%w; the slip was not logged: log it with 'pitcard log add'", err)
+		}
+	}
+	// The checks across fields: the field named is asked again.
+	for try := 0; ; try++ {
+		_, err := engine.ParsePass(slip, time.Local)
+		var ie *weather.InputError
+		if err == nil || !errors.As(err, &ie) || try == 3 {
+			if err != nil {
+				return fmt.Errorf("%w; the slip was not logged: log it with 'pitcard log add'", err)
+			}
+			break
+		}
+		fmt.Fprintln(o.s.Out, "  ", err)
+		key := ""
+		for k, name := range slip.Names {
+			if name == ie.Field {
+				key = k
+			}
+		}
+		if key == "" || p.eof {
+			return fmt.Errorf("%w; the slip was not logged: log it with 'pitcard log add'", err)
+		}
+		if err := askField(key, slip.Names[key], ""); err != nil {
+			return fmt.Errorf("%w; the slip was not logged: log it with 'pitcard log add'", err)
+		}
 	}
 	args := []string{"log", "add", "--dir", e.Dir, "--session", in.Session.String(), "--lane", string(in.Lane),
 		"--date", now.Format("2006-01-02"), "--time", now.Format("15:04")}
-	for _, k := range []string{"dial", "rt", "et60", "et330", "et660", "mph660", "et1000", "et1320", "mph1320", "notes"} {
-		if v := slip[k]; v != "" {
-			args = append(args, "--"+k, v)
+	for _, q := range questions {
+		if v := slip.Values[q.key]; v != "" {
+			args = append(args, "--"+q.key, v)
 		}
 	}
 	if code := run(args, o.s); code != exitOK {
 		return userErrf("the slip was not logged (see above); log it with 'pitcard log add'")
 	}
 	fmt.Fprintln(o.s.Out, "Next round: pitcard round")
-	return nil
+	return broken
 }
 
 // inRange refuses a value outside its valid range, naming the field.
@@ -303,9 +365,22 @@ func inRange(field, typed string, v float64, unit string, r [2]float64) error {
 	return &weather.InputError{Field: field, Value: typed, Reason: fmt.Sprintf("is outside %g..%g %s", r[0], r[1], unit)}
 }
 
+// sameMinute: the weather log already has a reading in that minute.
+type sameMinute struct {
+	file string
+	old  weather.Reading
+}
+
+func (s *sameMinute) Error() string {
+	return fmt.Sprintf("%s already has a reading at %s: give another --time, or --replace to put this one in its place",
+		s.file, s.old.Time.Format("2006-01-02 15:04"))
+}
+
+func (s *sameMinute) BadInput() bool { return true }
+
 // appendReading adds a reading to the weather log under its lock, and
 // returns how many readings the log holds. A reading in a minute the log
-// already has is refused, or with replace takes the old one's place.
+// already has is refused (*sameMinute), or with replace takes its place.
 func appendReading(e *eventFolder, r weather.Reading, elev weather.Length, replace bool) (int, error) {
 	path := e.path(event.WeatherFile)
 	unlock, err := safefile.Lock(path)
@@ -320,7 +395,7 @@ func appendReading(e *eventFolder, r weather.Reading, elev weather.Length, repla
 	for i, old := range log {
 		if old.Time.Truncate(time.Minute).Equal(r.Time.Truncate(time.Minute)) {
 			if !replace {
-				return 0, userErrf("%s already has a reading at %s; give another --time", e.name(event.WeatherFile), r.Time.Format("2006-01-02 15:04"))
+				return 0, &sameMinute{file: e.name(event.WeatherFile), old: old}
 			}
 			log = append(log[:i], log[i+1:]...)
 			break

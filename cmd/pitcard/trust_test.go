@@ -1,12 +1,16 @@
 package main
 
 import (
+	"bytes"
 	"os"
 	"path/filepath"
 	"strings"
+	"syscall"
 	"testing"
+	"time"
 
 	"pitcard/engine"
+	"pitcard/internal/safefile"
 )
 
 // Tests that guard what the card and the commands may claim: each names the
@@ -154,5 +158,95 @@ func TestNonFiniteYAMLIsRefused(t *testing.T) {
 	editFile(t, dir, "pitcard.yaml", func(s string) string { return strings.Replace(s, "breakout_risk: 0.10", "breakout_risk: .inf", 1) })
 	if _, errs, code := pitcard(t, "dial", "--dir", dir); code != 2 || !strings.Contains(errs, "pitcard.yaml line") || !strings.Contains(errs, "breakout_risk") {
 		t.Errorf("breakout_risk: .inf: exit %d %s", code, errs)
+	}
+}
+
+// pitcardAt runs a command with stdin and the clock at now.
+func pitcardAt(t *testing.T, now time.Time, stdin string, args ...string) (string, string, int) {
+	t.Helper()
+	var out, errb bytes.Buffer
+	s := &IOStreams{In: strings.NewReader(stdin), Out: &out, Err: &errb, Now: func() time.Time { return now }}
+	code := run(args, s)
+	return out.String(), errb.String(), code
+}
+
+// In a copy of the demo, months after its day, 'round' printed the card for
+// the demo day and then logged the reading and the slip under today's date.
+// One clock now serves the whole round.
+func TestRoundKeepsOneClock(t *testing.T) {
+	dir := demoCopy(t)
+	december := time.Date(2026, 12, 1, 19, 5, 0, 0, time.Local)
+	answers := "\n\n\n\n\n\n\n\n\n\n\n.024\n1.611\n4.681\n7.301\n93.81\n9.566\n11.482\n117.52\n\n"
+	out, errs, code := pitcardAt(t, december, answers, "round", "--dir", dir)
+	if code != 0 {
+		t.Fatalf("exit %d\n%s\n%s", code, out, errs)
+	}
+	if !strings.Contains(out, "Sat 2026-06-13") || !strings.Contains(out, "Logged 2026-06-13 20:30 round 3") {
+		t.Errorf("the round did not keep the demo day's clock:\n%s", out)
+	}
+	for _, f := range []string{"weather.csv", "logbook.csv"} {
+		data, _ := os.ReadFile(filepath.Join(dir, f))
+		if strings.Contains(string(data), "2026-12-01") {
+			t.Errorf("%s got a row dated today:\n%s", f, data)
+		}
+	}
+}
+
+// 'round' checked the slip only after all its answers and dropped the whole
+// slip for one bad field. Now a bad field is asked again at once, and a
+// check across fields (times increasing) asks the field it names again.
+func TestRoundAsksABadSlipFieldAgain(t *testing.T) {
+	dir := demoCopy(t)
+	answers := strings.Join([]string{"", "", "", "", "", "", "", "", "", "", // round, six readings, lane, opponent, run
+		"",             // dial
+		"fast", ".024", // RT: asked again
+		"1.611", "4.681", // 60, 330
+		"7.301", "93.81", "4.5", // 1/8, mph, 1000 ft before the eighth: asked again after the slip
+		"11.482", "117.52", "",
+		"9.566", // 1000 ft, again
+	}, "\n") + "\n"
+	out, errs, code := pitcardIn(t, answers, "round", "--dir", dir)
+	if code != 0 {
+		t.Fatalf("exit %d\n%s\n%s", code, out, errs)
+	}
+	if strings.Count(out, "Reaction time (.021): ") != 2 || strings.Count(out, "1000 ft: ") != 2 || !strings.Contains(out, "increase with distance") ||
+		!strings.Contains(out, "Logged 2026-06-13 20:40 round 3, left lane: 11.482") {
+		t.Errorf("the slip was not asked again field by field:\n%s", out)
+	}
+}
+
+// 'log add --dial 1.619 --et1320 11.85' passed without a word.
+func TestLogAddWarnsOfADialFarFromTheETs(t *testing.T) {
+	dir := demoCopy(t)
+	_, errs, code := pitcard(t, "log", "add", "--dir", dir, "--session", "E3", "--lane", "left", "--dial", "1.619", "--et1320", "11.85")
+	if code != 0 || !strings.Contains(errs, "the dial 1.619 is 10.23 s from the 1320-ft ET 11.850") {
+		t.Errorf("exit %d, %s", code, errs)
+	}
+}
+
+// On a full disk 'round' printed no card ("writing weather.csv: no space
+// left"). Now the card prints with the reading, and the crew hears it was not
+// saved. A reading in a minute already logged is never replaced silently:
+// 'round' asks, 'weather add' refuses unless --replace.
+func TestRoundOnAFullDiskStillPrintsTheCard(t *testing.T) {
+	dir := demoCopy(t)
+	safefile.FailWrites = func(string) error { return syscall.ENOSPC }
+	defer func() { safefile.FailWrites = nil }()
+	out, errs, code := pitcardIn(t, "E3\n81.5F\n\n\n\n\n\nleft\n\n", "round", "--dir", dir, "--no-log")
+	if code != 1 || !strings.Contains(out, "POST THIS") || !strings.Contains(errs, "the reading was NOT saved") ||
+		!strings.Contains(errs, "no space left on device") || !strings.Contains(out, "81.5 °F") {
+		t.Errorf("full disk: exit %d\n%s\n%s", code, out, errs)
+	}
+	safefile.FailWrites = nil
+	reading := []string{"weather", "add", "--dir", dir, "--time", "20:30", "--temp", "80F", "--baro", "27.6inHg", "--humidity", "40%"}
+	if _, errs, code := pitcard(t, reading...); code != 2 || !strings.Contains(errs, "already has a reading at 2026-06-13 20:30") || !strings.Contains(errs, "--replace") {
+		t.Errorf("weather add over a logged minute: exit %d %s", code, errs)
+	}
+	mustRun(t, append(reading, "--replace")...)
+	// round at 20:30 with other values asks before replacing; N keeps the logged one
+	at2030 := time.Date(2026, 6, 13, 20, 30, 0, 0, time.Local)
+	out, _, _ = pitcardAt(t, at2030, "E3\n79F\n\n\n\n\n\nleft\n\nN\n", "round", "--dir", dir, "--no-log")
+	if !strings.Contains(out, "already logged with other values: replace it? (y/N)") || !strings.Contains(out, "Kept the logged reading") {
+		t.Errorf("round over a logged minute:\n%s", out)
 	}
 }

@@ -75,6 +75,7 @@ type weatherAddOptions struct {
 	reading readingFlags
 	Time    string
 	Note    string
+	Replace bool
 }
 
 func newWeatherAddCmd(s *IOStreams, g *globalOptions) *cobra.Command {
@@ -93,7 +94,10 @@ kept as weather.csv.bak.`,
 	}
 	o.reading.bind(cmd)
 	cmd.Flags().StringVar(&o.Time, "time", "", "time of the reading, HH:MM today or 'YYYY-MM-DD HH:MM' (default: now)")
-	cmd.Flags().StringVar(&o.Note, "note", "", "free text for the notes column")
+	cmd.Flags().StringVar(&o.Note, "notes", "", "free text for the notes column")
+	cmd.Flags().StringVar(&o.Note, "note", "", "")
+	_ = cmd.Flags().MarkDeprecated("note", "use --notes (as on 'log add')")
+	cmd.Flags().BoolVar(&o.Replace, "replace", false, "replace a reading already logged in the same minute")
 	return cmd
 }
 
@@ -127,7 +131,7 @@ func weatherAddRun(cmd *cobra.Command, o *weatherAddOptions) error {
 	if w := r.PressureWarning(elev); w != "" {
 		fmt.Fprintln(o.s.Err, "pitcard: warning:", w)
 	}
-	n, err := appendReading(e, r, elev, false)
+	n, err := appendReading(e, r, elev, o.Replace)
 	if err != nil {
 		return err
 	}

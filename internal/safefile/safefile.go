@@ -92,6 +92,10 @@ func processAlive(pid int) bool {
 	return err == nil || errors.Is(err, syscall.EPERM)
 }
 
+// FailWrites, when set, is asked before every write and its error returned
+// with nothing written: tests use it to stand for a full or failing disk.
+var FailWrites func(path string) error
+
 // LockTimeout is how long Lock waits for another pitcard process to finish.
 var LockTimeout = 10 * time.Second
 
@@ -124,6 +128,11 @@ func Lock(path string) (unlock func(), err error) {
 func Write(path string, write func(io.Writer) error) (err error) {
 	if path, err = Resolve(path); err != nil {
 		return err
+	}
+	if FailWrites != nil {
+		if err := FailWrites(path); err != nil {
+			return fmt.Errorf("writing %s: %w", path, err)
+		}
 	}
 	removeStale(path)
 	dir := filepath.Dir(path)
