@@ -69,4 +69,3 @@ func decodeStrict(r io.Reader, name string, v any) (*yamlfile.Doc, error) {
 	}
 	return doc, doc.Decode(v, true)
 }
-
