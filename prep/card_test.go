@@ -157,3 +157,18 @@ func BenchmarkCard5000Passes20Rules(b *testing.B) {
 		}
 	}
 }
+
+// "120F" reached the rules as 120.00000000000004 (stored in kelvin, read back
+// in °F) and a rule's table picked the wrong row at its 120 °F boundary.
+func TestRulesSeeFiguresAsRead(t *testing.T) {
+	in := input(logbook(8), nil, nil)
+	in.Air.TrackTemp, in.Air.HasTrack, in.Air.Temp = weather.Fahrenheit(120), true, weather.Fahrenheit(88.7)
+	if raw := weather.Fahrenheit(120).Fahrenheit(); raw == 120 {
+		t.Logf("this platform reads 120F back exactly; the test still checks the rounding")
+	}
+	ctx := RuleContext(Gather(in))
+	air := ctx["air"].(map[string]any)
+	if air["track_temp_f"] != 120.0 || air["temp_f"] != 88.7 {
+		t.Errorf("rules see track %v °F, air %v °F", air["track_temp_f"], air["temp_f"])
+	}
+}

@@ -2,6 +2,7 @@ package prep
 
 import (
 	"math"
+	"strconv"
 
 	"pitcard/engine"
 	"pitcard/scripts"
@@ -85,7 +86,34 @@ func RuleContext(c Card) map[string]any {
 		passes = append(passes, passMap(in.Passes[i]))
 	}
 	ctx["passes"] = passes
-	return ctx
+	return tidy(ctx).(map[string]any)
+}
+
+// tidy rounds every number handed to the rules to 10 significant digits:
+// a figure read as "120F" is stored in kelvin and comes back as
+// 120.00000000000004, which would pick the wrong row of a rule's table at a
+// boundary. Ten digits keep every figure's real precision (a slip's
+// thousandths, a barometer's ten-thousandths) and drop the float noise.
+func tidy(v any) any {
+	switch x := v.(type) {
+	case float64:
+		if math.IsNaN(x) || math.IsInf(x, 0) {
+			return x
+		}
+		r, _ := strconv.ParseFloat(strconv.FormatFloat(x, 'g', 10, 64), 64)
+		return r
+	case map[string]any:
+		for k, e := range x {
+			x[k] = tidy(e)
+		}
+		return x
+	case []any:
+		for i, e := range x {
+			x[i] = tidy(e)
+		}
+		return x
+	}
+	return v
 }
 
 func passMap(p engine.Pass) map[string]any {
