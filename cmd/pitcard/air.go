@@ -57,12 +57,21 @@ func airRun(cmd *cobra.Command, o *airOptions) error {
 		return err
 	}
 	trk, trkErr := e.track()
-	if trkErr != nil && !errors.Is(trkErr, fs.ErrNotExist) && o.reading.Elevation == "" {
+	_, statErr := fs.Stat(e.FS, event.TrackFile)
+	missing := trkErr != nil && errors.Is(statErr, fs.ErrNotExist) && e.TrackPath == ""
+	// Outside an event folder, a station reading still gives every figure
+	// but the altimeter setting, the one that needs the elevation.
+	elevKnown := true
+	var elev weather.Length
+	switch {
+	case missing && o.reading.Elevation == "" && !o.Latest && !e.Demo && o.reading.BaroKind != "altimeter":
+		elevKnown = false
+	case trkErr != nil && o.reading.Elevation == "":
 		return trkErr
-	}
-	elev, err := o.reading.elevation(e.Settings.Units, trk.Elevation(), trkErr == nil)
-	if err != nil {
-		return err
+	default:
+		if elev, err = o.reading.elevation(e.Settings.Units, trk.Elevation(), trkErr == nil); err != nil {
+			return err
+		}
 	}
 	var base *weather.Reading
 	if o.Latest || (e.Demo && !o.reading.given()) {
@@ -82,10 +91,17 @@ func airRun(cmd *cobra.Command, o *airOptions) error {
 	if err := validateFlags(r, elev); err != nil {
 		return err
 	}
-	if w := r.PressureWarning(elev); w != "" {
+	if w := r.PressureWarning(elev); w != "" && elevKnown {
 		fmt.Fprintln(o.s.Err, "pitcard: warning:", w)
 	}
+	if !elevKnown {
+		fmt.Fprintf(o.s.Err, "pitcard: no %s here and no --elevation: every figure below is from the station pressure; the altimeter setting is left out (it needs the elevation)\n", event.TrackFile)
+	}
 	rep := newAirReport(r, elev, trk.HeadingDeg, trk.Name != "")
+	if !elevKnown {
+		rep.AltimeterSettingInHg, rep.ElevationFt = nil, nil
+		rep.Warnings = []string{"the track elevation is unknown: no altimeter setting"}
+	}
 	if o.Format == "json" {
 		return writeJSON(o.s.Out, rep)
 	}
@@ -95,7 +111,7 @@ func airRun(cmd *cobra.Command, o *airOptions) error {
 	}
 	title += ", " + r.Time.Format("2006-01-02 15:04")
 	t := newTable(o.s, title)
-	airRows(t, r, r.Derive(elev), elev, trk.HeadingDeg, trk.Name != "", e.Settings.Units)
+	airRows(t, r, r.Derive(elev), elev, elevKnown, trk.HeadingDeg, trk.Name != "", e.Settings.Units)
 	render(o.s.Out, t, o.Format)
 	return nil
 }
@@ -120,10 +136,10 @@ type airReport struct {
 	Time                  string   `json:"time"`
 	TempF                 float64  `json:"temp_f"`
 	HumidityPct           float64  `json:"humidity_pct"`
-	AltimeterSettingInHg  float64  `json:"altimeter_setting_inhg"`
+	AltimeterSettingInHg  *float64 `json:"altimeter_setting_inhg"`
 	SaturationPressureHPa float64  `json:"saturation_vapor_pressure_hpa"`
 	DryAirPressureHPa     float64  `json:"dry_air_pressure_hpa"`
-	ElevationFt           float64  `json:"elevation_ft"`
+	ElevationFt           *float64 `json:"elevation_ft"`
 	WindMph               float64  `json:"wind_mph"`
 	WindFromDeg           *float64 `json:"wind_from_deg"`
 	HeadwindMph           *float64 `json:"headwind_mph"`
@@ -150,10 +166,10 @@ func newAirReport(r weather.Reading, elev weather.Length, heading float64, haveH
 		Time:                  r.Time.Format(time.RFC3339),
 		TempF:                 round(r.Temp.Fahrenheit(), 1),
 		HumidityPct:           round(a.RH*100, 1),
-		AltimeterSettingInHg:  round(a.Altimeter.InHg(), 3),
+		AltimeterSettingInHg:  optFloat(a.Altimeter.InHg(), true, 3),
 		SaturationPressureHPa: round(a.Saturation.HPa(), 2),
 		DryAirPressureHPa:     round(a.Dry.HPa(), 2),
-		ElevationFt:           round(elev.Feet(), 0),
+		ElevationFt:           optFloat(elev.Feet(), true, 0),
 		WindMph:               round(r.Wind.MPH(), 1),
 		WindFromDeg:           optFloat(r.WindFrom, !r.WindDirUnknown, 0),
 		Warnings:              []string{},
@@ -173,7 +189,11 @@ func newAirReport(r weather.Reading, elev weather.Length, heading float64, haveH
 }
 
 // airRows adds the air figures to t in the crew's units.
-func airRows(t table.Writer, r weather.Reading, a weather.Air, elev weather.Length, heading float64, haveHeading bool, u weather.Units) {
+func airRows(t table.Writer, r weather.Reading, a weather.Air, elev weather.Length, elevKnown bool, heading float64, haveHeading bool, u weather.Units) {
+	altimeter, altNote := a.Altimeter.Format(u.Pressure), "sea-level equivalent at "+elev.Format(u.Length)
+	if !elevKnown {
+		altimeter, altNote = "–", "needs the track's elevation (--elevation or track.yaml)"
+	}
 	t.AppendHeader(table.Row{"Figure", "Value", "Notes"})
 	t.AppendRows([]table.Row{
 		{"Density altitude", a.DensityAltitude.Format(u.Length), fmt.Sprintf("standard air at %s would be this dense", a.DensityAltitude.Format(u.Length))},
@@ -182,7 +202,7 @@ func airRows(t table.Writer, r weather.Reading, a weather.Air, elev weather.Leng
 		{"Air density", fmt.Sprintf("%.4f kg/m³", a.Density), ""},
 		{"Air temperature", r.Temp.Format(u.Temp, 1), ""},
 		{"Station pressure", a.Station.Format(u.Pressure), stationNote(r)},
-		{"Altimeter setting", a.Altimeter.Format(u.Pressure), "sea-level equivalent at " + elev.Format(u.Length)},
+		{"Altimeter setting", altimeter, altNote},
 		{"Relative humidity", fmt.Sprintf("%.0f %%", a.RH*100), ""},
 		{"Dew point", a.DewPoint.Format(u.Temp, 1), ""},
 		{"Vapor pressure", fmt.Sprintf("%.2f hPa", a.Vapor.HPa()), fmt.Sprintf("saturation %.2f hPa", a.Saturation.HPa())},

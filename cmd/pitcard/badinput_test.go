@@ -54,6 +54,7 @@ func TestBadInputTour(t *testing.T) {
 			{with([]string{"air", "--dir", badWeather, "--latest"}), 2, []string{"weather.csv line 3", "time"}},
 			{with([]string{"air", "--dir", good, "--temperature", "85"}), 2, []string{"unknown flag", "--temperature"}},
 			{with([]string{"air", "--dir", badTrack, "--latest"}), 2, []string{"track.yaml", "line 3"}},
+			{with([]string{"air", "--dir", src, "--latest"}), 2, []string{"is a file, not an event folder"}},
 		},
 		"weather add": {
 			{with([]string{"weather", "add", "--dir", good, "--temp", "85F", "--baro", "27.6psi", "--humidity", "35"}), 2, []string{"--baro", "psi"}},
@@ -78,6 +79,7 @@ func TestBadInputTour(t *testing.T) {
 			{[]string{"log", "add", "--dir", good, "--session", "E9", "--lane", "left", "--et1320", "eleven"}, 2, []string{"--et1320", "seconds"}},
 			{[]string{"log", "add", "--dir", badLog, "--session", "E9", "--lane", "left", "--et1320", "11.5"}, 0, []string{"logbook.csv line", "time", "left out", "keeps them as they are"}},
 			{[]string{"log", "add", "--dir", good, "--session", "E9", "--lane", "left", "--et1320", "11.5", "--weight", "50"}, 2, []string{"--weight", "500..10000"}},
+			{[]string{"log", "add", "--dir", good, "--session", "E9", "--lane", "left", "--et1320", "11.5", "--date", "2500-06-01"}, 2, []string{"--date", "2500-06-01", "in the future", "today is 2026-06-13"}},
 		},
 		"log import/list/stats": {
 			{[]string{"log", "import", "--dir", good, missing}, 2, []string{"cannot read"}},

@@ -188,6 +188,12 @@ func logAddRun(cmd *cobra.Command, o *logAddOptions) error {
 	if err != nil {
 		return err
 	}
+	// A slip is logged after its pass: a date past tomorrow is a typo
+	// (2500 for 2025), and would borrow another day's weather.
+	if limit := now.Add(36 * time.Hour); p.Time.After(limit) {
+		return &weather.InputError{Field: "--date", Value: o.Date,
+			Reason: fmt.Sprintf("is in the future (today is %s): a slip is logged after its pass", now.Format("2006-01-02"))}
+	}
 	// The conditions: the nearest weather reading, with any flag given replacing its field.
 	elev := trk.Elevation()
 	if o.reading.Elevation != "" {

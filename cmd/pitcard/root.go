@@ -149,8 +149,13 @@ func (g *globalOptions) open(cmd *cobra.Command) (*eventFolder, error) {
 		e.FS = event.Demo(scripts.Shipped())
 	} else {
 		st, err := os.Stat(g.Dir)
-		if err != nil || !st.IsDir() {
+		switch {
+		case err == nil && !st.IsDir():
+			return nil, userErrf("--dir %q is a file, not an event folder: give the folder that holds car.yaml and track.yaml", g.Dir)
+		case errors.Is(err, fs.ErrNotExist):
 			return nil, userErrf("event folder %q does not exist (create one with 'pitcard init %s', or pass --dir)", g.Dir, g.Dir)
+		case err != nil:
+			return nil, fmt.Errorf("event folder %q: %w", g.Dir, err)
 		}
 		e.Dir, e.FS = g.Dir, os.DirFS(g.Dir)
 	}

@@ -250,3 +250,18 @@ func TestRoundOnAFullDiskStillPrintsTheCard(t *testing.T) {
 		t.Errorf("round over a logged minute:\n%s", out)
 	}
 }
+
+// Outside an event folder 'air' failed for want of track.yaml, though a
+// station reading needs the elevation only for the altimeter setting.
+func TestAirOutsideAFolder(t *testing.T) {
+	empty := t.TempDir()
+	out, errs, code := pitcard(t, "air", "--dir", empty, "--temp", "88F", "--baro", "28.92inHg", "--humidity", "40%")
+	if code != 0 || !strings.Contains(out, "Density altitude") || !strings.Contains(out, "needs the track's elevation") ||
+		!strings.Contains(errs, "the altimeter setting is left out") {
+		t.Errorf("exit %d\n%s\n%s", code, out, errs)
+	}
+	// an altimeter setting does need the elevation
+	if _, errs, code := pitcard(t, "air", "--dir", empty, "--temp", "88F", "--baro", "29.92inHg", "--baro-kind", "altimeter", "--humidity", "40%"); code != 2 || !strings.Contains(errs, "track.yaml") {
+		t.Errorf("altimeter setting without elevation: exit %d %s", code, errs)
+	}
+}

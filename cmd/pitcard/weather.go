@@ -296,7 +296,7 @@ func weatherForecastRun(cmd *cobra.Command, o *weatherForecastOptions) error {
 	}
 	title := fmt.Sprintf("Forecast air at %s, %s", trackName, when.Format("2006-01-02 15:04"))
 	t := newTable(o.s, title)
-	airRows(t, f.Reading, f.Air, elev, trk.HeadingDeg, trackName != "", e.Settings.Units)
+	airRows(t, f.Reading, f.Air, elev, true, trk.HeadingDeg, trackName != "", e.Settings.Units)
 	render(o.s.Out, t, o.Format)
 	trust := "trusted"
 	if !f.Trusted {
