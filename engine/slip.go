@@ -94,7 +94,7 @@ func ParseLane(s string) (Lane, error) {
 	case "right", "r":
 		return Right, nil
 	}
-	return "", &weather.InputError{Field: "lane", Value: s, Reason: "is not a lane (left or right)"}
+	return "", &weather.InputError{Field: "lane", Value: s, Reason: "is not a lane: write left or right"}
 }
 
 // SessionKind is what a pass was for.

@@ -128,7 +128,12 @@ func compile(file, src string) (*lua.FunctionProto, *Error) {
 			}
 			return nil, &Error{File: file, Line: line, Msg: fmt.Sprintf("%s near '%s'", what, m[2])}
 		}
-		return nil, &Error{File: file, Msg: msg}
+		if strings.Contains(msg, "at EOF") {
+			// The parser names the file itself; say it once, at the last line.
+			return nil, &Error{File: file, Line: strings.Count(strings.TrimRight(src, "\n"), "\n") + 1,
+				Msg: "the file ends before the code does (a missing 'end', or an unfinished line)"}
+		}
+		return nil, &Error{File: file, Msg: strings.TrimPrefix(msg, file+" ")}
 	}
 	proto, err := lua.Compile(chunk, file)
 	if err != nil {

@@ -105,8 +105,12 @@ func runOne(r *Rule, fsys fs.FS, arg lua.LValue, lib *library, limits Limits) (r
 
 // collect checks and stores what a hook returned.
 func collect(res *Result, hook string, rets []lua.LValue, file string, s *sandbox) *Error {
+	line := 0 // where the hook is defined: a wrong result is that function's
+	if fn, ok := s.L.GetGlobal(hook).(*lua.LFunction); ok && fn.Proto != nil {
+		line = fn.Proto.LineDefined
+	}
 	bad := func(format string, a ...any) *Error {
-		return &Error{File: file, Msg: hook + "(ctx) " + fmt.Sprintf(format, a...)}
+		return &Error{File: file, Line: line, Msg: hook + "(ctx) " + fmt.Sprintf(format, a...)}
 	}
 	v := rets[0]
 	switch hook {

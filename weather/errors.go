@@ -28,7 +28,21 @@ func (e *InputError) Error() string {
 	if e.Value == "" {
 		return fmt.Sprintf("%s%s %s", where, e.Field, e.Reason)
 	}
-	return fmt.Sprintf("%s%s %s %s", where, e.Field, strconv.Quote(e.Value), e.Reason)
+	return fmt.Sprintf("%s%s %s %s", where, e.Field, strconv.Quote(shortValue(e.Value)), e.Reason)
+}
+
+// shortValue keeps a message readable when the value is huge: a number of
+// many digits (1e308 read as a decimal) is shown in exponent form, a long
+// text is cut with its length said.
+func shortValue(v string) string {
+	const max = 40
+	if len(v) <= max {
+		return v
+	}
+	if f, err := strconv.ParseFloat(v, 64); err == nil {
+		return strconv.FormatFloat(f, 'g', 6, 64)
+	}
+	return fmt.Sprintf("%s… (%d characters)", v[:max], len(v))
 }
 
 // BadInput marks the error as the user's to fix (pitcard exits with code 2).
