@@ -174,7 +174,7 @@ func TestDialFromLogbook(t *testing.T) {
 	if !strings.Contains(text, "Recommended dial: 11.450") {
 		t.Errorf("dial:\n%s", text)
 	}
-	if _, errs, code := pitcard(t, "dial", "--dir", dir, "--breakout-risk", "0.9"); code != 2 || !strings.Contains(errs, "breakout_risk") {
+	if _, errs, code := pitcard(t, "dial", "--dir", dir, "--breakout-risk", "0.9"); code != 2 || !strings.Contains(errs, "--breakout-risk") {
 		t.Errorf("risk 0.9: exit %d %s", code, errs)
 	}
 }

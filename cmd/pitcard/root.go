@@ -166,10 +166,12 @@ func (g *globalOptions) open(cmd *cobra.Command) (*eventFolder, error) {
 	v.SetEnvPrefix("PITCARD")
 	v.SetEnvKeyReplacer(strings.NewReplacer("-", "_", ".", "_"))
 	v.AutomaticEnv()
+	var settingsDoc *yamlfile.Doc
 	if data, err := fs.ReadFile(e.FS, event.SettingsFile); err == nil {
 		if err := checkSettingsKeys(data, e.name(event.SettingsFile)); err != nil {
 			return nil, err
 		}
+		settingsDoc, _ = yamlfile.Parse(data, e.name(event.SettingsFile))
 		v.SetConfigType("yaml")
 		if err := v.ReadConfig(bytes.NewReader(data)); err != nil {
 			return nil, userErrf("%s: %v", e.name(event.SettingsFile), err)
@@ -180,9 +182,26 @@ func (g *globalOptions) open(cmd *cobra.Command) (*eventFolder, error) {
 	if f := cmd.Flag("units"); f != nil && f.Changed {
 		_ = v.BindPFlag("units", f)
 	}
+	// settingErr names a bad setting where it came from: the flag, the
+	// PITCARD_ variable, or pitcard.yaml's line.
+	settingErr := func(key string, err error) error {
+		var ie *weather.InputError
+		if !errors.As(err, &ie) {
+			return err
+		}
+		c := *ie
+		if f := cmd.Flag(strings.ReplaceAll(key, "_", "-")); f != nil && f.Changed {
+			c.Field = "--" + f.Name
+		} else if env := "PITCARD_" + strings.ToUpper(key); os.Getenv(env) != "" {
+			c.Field = env + " (setting " + key + ")"
+		} else if settingsDoc != nil && settingsDoc.Line(key) > 0 {
+			c.Field, c.File, c.Line = key, e.name(event.SettingsFile), settingsDoc.Line(key)
+		}
+		return &c
+	}
 	var err error
 	if e.Settings.Units, err = weather.ParseUnits(v.GetString("units")); err != nil {
-		return nil, err
+		return nil, settingErr("units", err)
 	}
 	for _, key := range []string{"dial_step", "breakout_risk", "tree", "rt_zero"} {
 		if f := cmd.Flag(strings.ReplaceAll(key, "_", "-")); f != nil && f.Changed {
@@ -191,39 +210,39 @@ func (g *globalOptions) open(cmd *cobra.Command) (*eventFolder, error) {
 	}
 	step, err := engine.ParseSeconds("dial_step", v.GetString("dial_step"))
 	if err != nil || step.LessThan(decimal.New(1, -3)) || step.GreaterThan(decimal.New(1, -1)) {
-		return nil, &weather.InputError{Field: "dial_step", Value: v.GetString("dial_step"), Reason: "is outside 0.001..0.1 s"}
+		return nil, settingErr("dial_step", &weather.InputError{Field: "dial_step", Value: v.GetString("dial_step"), Reason: "is outside 0.001..0.1 s"})
 	}
 	e.Settings.DialStep = step
 	e.Settings.BreakoutRisk = v.GetFloat64("breakout_risk")
 	if r := e.Settings.BreakoutRisk; !(r >= engine.RiskRange[0] && r <= engine.RiskRange[1]) {
-		return nil, &weather.InputError{Field: "breakout_risk", Value: v.GetString("breakout_risk"),
-			Reason: fmt.Sprintf("is outside %g..%g (a fraction: 0.10 accepts a 10 %% breakout chance)", engine.RiskRange[0], engine.RiskRange[1])}
+		return nil, settingErr("breakout_risk", &weather.InputError{Field: "breakout_risk", Value: v.GetString("breakout_risk"),
+			Reason: fmt.Sprintf("is outside %g..%g (a fraction: 0.10 accepts a 10 %% breakout chance)", engine.RiskRange[0], engine.RiskRange[1])})
 	}
 	if e.Settings.Tree, err = engine.ParseTree(v.GetString("tree")); err != nil {
-		return nil, err
+		return nil, settingErr("tree", err)
 	}
 	if e.Settings.RTZero, err = engine.ParseRTZero(v.GetString("rt_zero")); err != nil {
-		return nil, err
+		return nil, settingErr("rt_zero", err)
 	}
 	adj, err := engine.ParseSeconds("max_rule_adjust", v.GetString("max_rule_adjust"))
 	if err != nil || adj.IsNegative() || adj.GreaterThan(decimal.NewFromInt(1)) {
-		return nil, &weather.InputError{Field: "max_rule_adjust", Value: v.GetString("max_rule_adjust"), Reason: "is outside 0..1 s"}
+		return nil, settingErr("max_rule_adjust", &weather.InputError{Field: "max_rule_adjust", Value: v.GetString("max_rule_adjust"), Reason: "is outside 0..1 s"})
 	}
 	e.Settings.MaxAdjust = adj
 	lim := scripts.DefaultLimits
 	lim.DialStep = step
 	ms, mib := v.GetInt("rule_time_ms"), v.GetInt("rule_memory_mib")
 	if ms < 10 || ms > 10000 {
-		return nil, &weather.InputError{Field: "rule_time_ms", Value: v.GetString("rule_time_ms"), Reason: "is outside 10..10000 ms"}
+		return nil, settingErr("rule_time_ms", &weather.InputError{Field: "rule_time_ms", Value: v.GetString("rule_time_ms"), Reason: "is outside 10..10000 ms"})
 	}
 	if mib < 4 || mib > 256 {
-		return nil, &weather.InputError{Field: "rule_memory_mib", Value: v.GetString("rule_memory_mib"), Reason: "is outside 4..256 MiB"}
+		return nil, settingErr("rule_memory_mib", &weather.InputError{Field: "rule_memory_mib", Value: v.GetString("rule_memory_mib"), Reason: "is outside 4..256 MiB"})
 	}
 	lim.Time, lim.Memory = time.Duration(ms)*time.Millisecond, int64(mib)<<20
 	e.Settings.RuleLimits = lim
 	age := v.GetInt("reading_max_age_min")
 	if age < 5 || age > 24*60 {
-		return nil, &weather.InputError{Field: "reading_max_age_min", Value: v.GetString("reading_max_age_min"), Reason: "is outside 5..1440 minutes"}
+		return nil, settingErr("reading_max_age_min", &weather.InputError{Field: "reading_max_age_min", Value: v.GetString("reading_max_age_min"), Reason: "is outside 5..1440 minutes"})
 	}
 	e.Settings.MaxReadingAge = time.Duration(age) * time.Minute
 	return e, nil

@@ -152,7 +152,7 @@ func newRulesCheckCmd(s *IOStreams, g *globalOptions) *cobra.Command {
 			}
 			fmt.Fprintf(s.Out, "(rules %s)\n", hooks)
 			if bad > 0 {
-				return fmt.Errorf("%d of %s failed", bad, plural(len(rules), "rule"))
+				return userErrf("%d of %s failed", bad, plural(len(rules), "rule"))
 			}
 			fmt.Fprintf(s.Out, "All %s load.\n", plural(len(rules), "rule"))
 			return nil

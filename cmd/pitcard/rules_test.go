@@ -35,12 +35,12 @@ func TestRulesCommands(t *testing.T) {
 	if !strings.Contains(hot, "dial +0.02 s: track 135 °F is over 130 °F") || strings.Contains(hot, "left lane after") {
 		t.Errorf("hot track, right lane:\n%s", hot)
 	}
-	// a broken rule: check exits 1 naming the file and line; try still runs the others
+	// a broken rule: check exits 2 (the rule is the crew's input to fix) naming the file and line; try still runs the others
 	if err := os.WriteFile(filepath.Join(dir, "rules", "60-broken.lua"), []byte("function dial(ctx)\n  return 1 +\nend\n"), 0o644); err != nil {
 		t.Fatal(err)
 	}
 	out, _, code := pitcard(t, "rules", "check", "--dir", dir)
-	if code != 1 || !strings.Contains(out, "rules/60-broken.lua:3:") {
+	if code != 2 || !strings.Contains(out, "rules/60-broken.lua:3:") {
 		t.Errorf("broken rule: exit %d\n%s", code, out)
 	}
 	try = mustRun(t, "rules", "try", "--dir", dir, "--round", "3", "--lane", "left", "--at", "20:45")

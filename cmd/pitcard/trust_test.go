@@ -265,3 +265,18 @@ func TestAirOutsideAFolder(t *testing.T) {
 		t.Errorf("altimeter setting without elevation: exit %d %s", code, errs)
 	}
 }
+
+// A bad setting from the environment used to be named by its key alone; it is
+// named by its variable, and one from pitcard.yaml by its line.
+func TestSettingErrorsSayWhereTheyCameFrom(t *testing.T) {
+	dir := demoCopy(t)
+	t.Setenv("PITCARD_DIAL_STEP", "0.5")
+	if _, errs, code := pitcard(t, "dial", "--dir", dir); code != 2 || !strings.Contains(errs, "PITCARD_DIAL_STEP (setting dial_step) \"0.5\" is outside 0.001..0.1 s") {
+		t.Errorf("env: exit %d %s", code, errs)
+	}
+	t.Setenv("PITCARD_DIAL_STEP", "")
+	editFile(t, dir, "pitcard.yaml", func(s string) string { return strings.Replace(s, "tree: full", "tree: christmas", 1) })
+	if _, errs, code := pitcard(t, "dial", "--dir", dir); code != 2 || !strings.Contains(errs, "pitcard.yaml line") || !strings.Contains(errs, "tree") {
+		t.Errorf("file: exit %d %s", code, errs)
+	}
+}
