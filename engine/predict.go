@@ -375,10 +375,10 @@ func sameDay(a, b time.Time) bool {
 // samples that have it.
 func weightedResiduals(ss []Sample, w []float64, res func(Sample) (float64, bool)) (float64, float64) {
 	var sw, mean float64
-	var vals, ws []float64
+	var vals []float64
 	for i, s := range ss {
 		if r, ok := res(s); ok {
-			vals, ws = append(vals, r), append(ws, w[i])
+			vals = append(vals, r)
 			sw += w[i]
 			mean += w[i] * r
 		}
