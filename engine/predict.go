@@ -108,6 +108,8 @@ type Sensitivity struct {
 	Per10FTrack                   float64 // per 10 °F hotter track
 	Per10Headwind, Per10HeadMPH   float64 // per 10 mph more headwind
 	Per10FAir                     float64 // per 10 °F warmer air (same pressure and dew point)
+	PerTenthInHg                  float64 // per 0.1 inHg lower station pressure (same temperature and humidity)
+	Per10PctRH                    float64 // per 10 points more relative humidity (same temperature and pressure)
 	Sixty10FTrack                 float64 // 60-ft time per 10 °F hotter track
 	DAFeet, TrackF, HeadwindMPH   float64 // today's values the sensitivities are taken at
 	SeenDALo, SeenDAHi            float64 // density altitudes of the passes leaned on, ft
@@ -466,6 +468,16 @@ func sensitivity(f Fit, in PredictInput, env Env, model Run) Sensitivity {
 		warm.TrackTemp, warm.HasTrack = env.TrackTemp, true // the same surface
 	}
 	s.Per10FAir = run(warm).ETAt(dist) - et
+	low := in.Air
+	low.Baro, low.BaroKind = a.Station-weather.InHg(0.1), weather.StationPressure
+	low.DewPointSet, low.RH = false, a.RH
+	s.PerTenthInHg = run(low).ETAt(dist) - et
+	humid := in.Air
+	humid.DewPointSet, humid.RH = false, math.Min(1, a.RH+0.1)
+	humid.Baro, humid.BaroKind = a.Station, weather.StationPressure
+	if d := humid.RH - a.RH; d > 0.01 {
+		s.Per10PctRH = (run(humid).ETAt(dist) - et) * 0.1 / d
+	}
 	// the conditions the passes covered
 	s.SeenDALo, s.SeenDAHi, s.SeenTrackLo, s.SeenTrackHi = math.Inf(1), math.Inf(-1), math.Inf(1), math.Inf(-1)
 	for _, sm := range f.Samples {

@@ -154,7 +154,7 @@ func newView(c Card) view {
 			}
 			v.Prediction.Rows = append(v.Prediction.Rows, r)
 		}
-		v.Basis = Explain(p, c.Fit)
+		v.Basis = Explain(p, c.Fit, u)
 	}
 
 	// The dial options.
@@ -198,7 +198,7 @@ func newView(c Card) view {
 			if !math.IsNaN(r.Predicted) {
 				pred, off = fmt.Sprintf("%.3f", r.Predicted), fmt.Sprintf("%+.3f", r.Error)
 			}
-			v.Record.Rows = append(v.Record.Rows, []string{r.Pass.Session.String(), r.Pass.Time.Format("15:04"), string(r.Pass.Lane), pred,
+			v.Record.Rows = append(v.Record.Rows, []string{r.Pass.Session.Long(), r.Pass.Time.Format("15:04"), string(r.Pass.Lane), pred,
 				fmt.Sprintf("%.3f", r.Actual), off, r.Pass.Notes})
 		}
 		if !math.IsNaN(c.RecordMAE) {
@@ -212,30 +212,29 @@ func newView(c Card) view {
 // Explain says, in lines, why a prediction is what it is: physics alone or
 // not, what each change of conditions is worth to the car today, the passes
 // it leaned on most, those it left out and why, and its notes.
-func Explain(p engine.Prediction, f engine.Fit) []string {
+func Explain(p engine.Prediction, f engine.Fit, u weather.Units) []string {
 	var out []string
 	if p.PhysicsOnly {
 		out = append(out, "Physics from car.yaml alone: no logbook passes with their weather to calibrate to, so the interval is wide.")
 	}
-	s := p.Sensitivity
-	out = append(out, fmt.Sprintf("This car today: %+.3f s per 1000 ft more DA; %+.3f s per 10 °F hotter track; %+.3f s per 10 mph headwind.",
-		s.PerKDA, s.Per10FTrack, s.Per10Headwind))
+	out = append(out, sensitivityWords(p.Sensitivity, u))
 	if len(p.Leaned) > 0 {
 		var parts []string
 		for i, l := range p.Leaned {
 			if i == 3 {
 				break
 			}
-			parts = append(parts, fmt.Sprintf("%s %s %.3f → %.3f (%.0f %%)", l.Pass.Time.Format("01-02"), l.Pass.Session, l.ET, l.Carried, 100*l.Share))
+			parts = append(parts, fmt.Sprintf("%s %s (ran %.3f; %.3f in this round's conditions; %.0f %% of the weight)",
+				l.Pass.Time.Format("01-02"), l.Pass.Session.Long(), l.ET, l.Carried, 100*l.Share))
 		}
-		out = append(out, fmt.Sprintf("Calibrated to %d passes; leaned most on %s.", len(f.Samples), strings.Join(parts, ", ")))
+		out = append(out, fmt.Sprintf("Calibrated to %d passes. It leans most on: %s.", len(f.Samples), strings.Join(parts, "; ")))
 	}
 	for i, o := range p.Outliers {
 		if i == 2 {
 			out = append(out, fmt.Sprintf("... and %d more left out.", len(p.Outliers)-2))
 			break
 		}
-		out = append(out, fmt.Sprintf("Left out %s %s: %s.", o.Pass.Time.Format("2006-01-02"), o.Pass.Session.Long(), o.Reason))
+		out = append(out, fmt.Sprintf("Left out %s %s: %s.", o.Pass.Time.Format("01-02"), o.Pass.Session.Long(), o.Reason))
 	}
 	for _, n := range p.Notes {
 		if strings.HasPrefix(n, "calibrated to") {
@@ -251,6 +250,41 @@ func upperFirst(s string) string {
 		return s
 	}
 	return strings.ToUpper(s[:1]) + s[1:]
+}
+
+// sensitivityWords says what each change of conditions, alone, is worth to
+// the car today, in the crew's units and in words (quicker or slower).
+func sensitivityWords(s engine.Sensitivity, u weather.Units) string {
+	effect := func(v float64) string {
+		switch {
+		case math.Abs(v) < 0.0005:
+			return "no change"
+		case v < 0:
+			return fmt.Sprintf("%.3f s quicker", -v)
+		}
+		return fmt.Sprintf("%.3f s slower", v)
+	}
+	// Per the metric steps, scaled from the imperial ones (the model is
+	// smooth over steps this small): 5 °C = 9 °F, 3 hPa = 0.0886 inHg,
+	// 15 km/h = 9.32 mph, 300 m = 984 ft.
+	warm, baro, hot, wind, da := "10 °F warmer air", "0.10 inHg lower barometer", "a 10 °F hotter track", "10 mph more headwind", "1000 ft of density altitude"
+	kT, kP, kW, kDA := 1.0, 1.0, 1.0, 1.0
+	if u.Temp == weather.DegC {
+		warm, hot, kT = "5 °C warmer air", "a 5 °C hotter track", 0.9
+	}
+	if u.Pressure == weather.UnitHPa {
+		baro, kP = "3 hPa lower barometer", 3*100/weather.PaPerInHg/0.1
+	}
+	if u.Speed == weather.UnitKMH {
+		wind, kW = "15 km/h more headwind", 15/1.609344/10
+	}
+	if u.Length == weather.UnitM {
+		da, kDA = "300 m of density altitude", 300/weather.MetrePerFt/1000
+	}
+	return fmt.Sprintf("This car today, each change alone: %s %s; %s %s; 10 %% more humidity %s; %s %s; %s %s. "+
+		"(%s from the barometer alone: %s.)",
+		warm, effect(kT*s.Per10FAir), baro, effect(kP*s.PerTenthInHg), effect(s.Per10PctRH), hot, effect(kT*s.Per10FTrack),
+		wind, effect(kW*s.Per10Headwind), upperFirst(da), effect(kDA*s.PerKDA))
 }
 
 // TimerName names a timer: "60 ft", "1/8 mile", "1/4 mile".

@@ -206,7 +206,7 @@ func airRows(t table.Writer, r weather.Reading, a weather.Air, elev weather.Leng
 		{"Relative humidity", fmt.Sprintf("%.0f %%", a.RH*100), ""},
 		{"Dew point", a.DewPoint.Format(u.Temp, 1), ""},
 		{"Vapor pressure", fmt.Sprintf("%.2f hPa", a.Vapor.HPa()), fmt.Sprintf("saturation %.2f hPa", a.Saturation.HPa())},
-		{"Water", fmt.Sprintf("%.0f grains/lb", a.Grains), "of dry air"},
+		{"Water", water(a, u), "of dry air"},
 		{"Virtual temperature", a.VirtualTemp.Format(u.Temp, 1), "dry air this warm would be as dense"},
 	})
 	t.AppendSeparator()
@@ -248,4 +248,13 @@ func windText(r weather.Reading, u weather.Units) string {
 		return r.Wind.Format(u.Speed, 0) + ", direction not read"
 	}
 	return r.Wind.Format(u.Speed, 0) + fmt.Sprintf(" from %03.0f°", r.WindFrom)
+}
+
+// water is the air's water content: grains per lb (the U.S. trade's unit),
+// or grams per kg in metric (7000 grains = 1 lb, so g/kg = grains/lb ÷ 7).
+func water(a weather.Air, u weather.Units) string {
+	if u.Temp == weather.DegC {
+		return fmt.Sprintf("%.1f g/kg", a.Grains/7)
+	}
+	return fmt.Sprintf("%.0f grains/lb", a.Grains)
 }

@@ -451,9 +451,9 @@ func logListRun(cmd *cobra.Command, o *logListOptions) error {
 	}
 	u := e.Settings.Units
 	t := newTable(o.s, fmt.Sprintf("Logbook (%s), last %s", e.name(event.LogbookFile), plural(len(passes), "pass")))
-	header := table.Row{"Date", "Time", "Ses.", "Lane", "Dial", "RT", "60 ft", "1/8", "mph", "1/4", "mph", "DA", "Notes"}
+	header := table.Row{"Date", "Time", "Session", "Lane", "Dial", "RT", "60 ft", "1/8", "mph", "1/4", "mph", "DA", "Notes"}
 	if o.Wide {
-		header = table.Row{"Date", "Time", "Ses.", "Lane", "Dial", "RT", "60 ft", "330", "1/8", "mph", "1000", "1/4", "mph", "DA", "Notes"}
+		header = table.Row{"Date", "Time", "Session", "Lane", "Dial", "RT", "60 ft", "330", "1/8", "mph", "1000", "1/4", "mph", "DA", "Notes"}
 	}
 	t.AppendHeader(header)
 	for _, p := range passes {
@@ -479,7 +479,7 @@ func logListRun(cmd *cobra.Command, o *logListOptions) error {
 	compact(t)
 	render(o.s.Out, t, o.Format)
 	if o.Format == "text" {
-		fmt.Fprintf(o.s.Out, "DA: density altitude, %s. --wide adds the 330 and 1000 ft timers.\n", u.Length)
+		fmt.Fprintf(o.s.Out, "Session: T time trial, E elimination round. DA: density altitude, %s. --wide adds the 330 and 1000 ft timers.\n", u.Length)
 	}
 	return leftOut
 }
@@ -565,8 +565,9 @@ func newLogStatsCmd(s *IOStreams, g *globalOptions) *cobra.Command {
 		Long: `For every day of the logbook, and within it for time trials, eliminations and
 tests: the number of passes, the ET mean, spread (one standard deviation) and
 range of the clean passes, the reaction-time mean and spread, the 60-ft
-spread, and the car's consistency in words. Spreads are raw: the air moves
-through a day, and 'pitcard predict' corrects for it.`,
+spread, and the car's consistency in words. With car.yaml and the passes'
+weather, the ET spread is also given corrected for each pass's air and track
+(the calibrated model's), and consistency is judged on that.`,
 		Example: "  pitcard log stats\n  pitcard log stats --demo --format json",
 		Args:    cobra.NoArgs,
 		RunE:    func(cmd *cobra.Command, _ []string) error { return logStatsRun(cmd, o) },
@@ -645,7 +646,7 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 		return leftOut
 	}
 	t := newTable(o.s, "Consistency by day and session")
-	t.AppendHeader(table.Row{"Day", "Sessions", "Passes", "ET mean", "ET ±1σ", "in air ±1σ", "RT mean", "RT ±1σ", "60ft ±1σ", "Consistency"})
+	t.AppendHeader(table.Row{"Day", "Sessions", "Passes", "ET mean", "ET spread", "corrected", "RT mean", "RT spread", "60 ft spread", "Consistency"})
 	f3 := func(v float64, ok bool) string {
 		if !ok {
 			return ""
@@ -669,9 +670,9 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 	compact(t)
 	render(o.s.Out, t, o.Format)
 	if corrected {
-		fmt.Fprintln(o.s.Out, "In air ±1σ: the spread of each pass's ET less the calibrated model's in its own air and track;\nconsistency is judged on it.")
+		fmt.Fprintln(o.s.Out, "Spreads are one standard deviation. Corrected: the ET spread once the air and track of each pass are\ntaken out (each ET less the calibrated model's for its conditions); consistency is judged on it.")
 	} else {
-		fmt.Fprintln(o.s.Out, "Spreads are raw (no car.yaml or no weather in the logbook): the air moving through a day counts as scatter.")
+		fmt.Fprintln(o.s.Out, "Spreads are one standard deviation, as run (no car.yaml or no weather in the logbook): the air moving\nthrough a day counts as scatter.")
 	}
 	fmt.Fprintln(o.s.Out, "Very consistent (≤ 0.015 s): dial it with confidence. Consistent (≤ 0.030).\nSome scatter (≤ 0.060): check the notes, tires, routine. Inconsistent: look for lifted or spinning runs.")
 	return leftOut

@@ -267,7 +267,7 @@ func printPrediction(s *IOStreams, n nextPass, format string) {
 	}
 	fmt.Fprintf(s.Out, "Air: density altitude %s, %s, %s, prep %s (%s).\n", a.DensityAltitude.Format(u.Length),
 		n.Cond.Reading.Temp.Format(u.Temp, 1), track, engine.PrepName(n.Prep), n.Cond.Source)
-	for _, l := range prep.Explain(p, n.Fit) {
+	for _, l := range prep.Explain(p, n.Fit, n.Units) {
 		fmt.Fprintln(s.Out, "- "+l)
 	}
 }

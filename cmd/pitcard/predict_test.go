@@ -49,7 +49,7 @@ func TestPredictJSONShape(t *testing.T) {
 		t.Errorf("finish %.3f", et)
 	}
 	text := mustRun(t, "predict", "--dir", dir, "--temp", "84F", "--baro", "28.95inHg", "--humidity", "40%")
-	for _, w := range []string{"1/4 mile", "95 % interval", "per 1000 ft more DA", "leaned most on", "Track temperature not read", "No logged times at 330 ft"} {
+	for _, w := range []string{"1/4 mile", "95 % interval", "1000 ft of density altitude from the barometer alone", "It leans most on", "Track temperature not read", "No logged times at 330 ft"} {
 		if !strings.Contains(text, w) {
 			t.Errorf("text lacks %q:\n%s", w, text)
 		}

@@ -280,3 +280,34 @@ func TestSettingErrorsSayWhereTheyCameFrom(t *testing.T) {
 		t.Errorf("file: exit %d %s", code, errs)
 	}
 }
+
+// Words a racer reads: sensitivities said as quicker or slower, per cause,
+// in the card's units; the explanation says what its figures are; water in
+// g/kg on a metric air report; the session named one way on the card.
+func TestCardWords(t *testing.T) {
+	out := mustRun(t, "card", "--demo")
+	for _, w := range []string{"a 10 °F hotter track 0.014 s quicker", "10 °F warmer air", "0.10 inHg lower barometer", "10 % more humidity",
+		"from the barometer alone", "(ran 11.495; 11.498 in this", "06-13 round 2", "│ time trial 1 "} {
+		if !strings.Contains(out, w) {
+			t.Errorf("card lacks %q:\n%s", w, out)
+		}
+	}
+	for _, w := range []string{"-0.014 s per 10 °F", "→", "06-13 E2", "2026-05-16 round 2"} {
+		if strings.Contains(out, w) {
+			t.Errorf("card still says %q", w)
+		}
+	}
+	metric := mustRun(t, "card", "--demo", "--units", "metric")
+	if !strings.Contains(metric, "a 5 °C hotter track") || !strings.Contains(metric, "15 km/h more") || strings.Contains(metric, "10 °F hotter") || strings.Contains(metric, "10 °F warmer") {
+		t.Errorf("metric card sensitivities:\n%s", metric)
+	}
+	if air := mustRun(t, "air", "--demo", "--units", "metric"); !strings.Contains(air, "g/kg") || strings.Contains(air, "grains") {
+		t.Errorf("metric air:\n%s", air)
+	}
+	if list := mustRun(t, "log", "list", "--demo"); strings.Contains(list, "Ses.") || !strings.Contains(list, "Session") {
+		t.Errorf("log list header:\n%s", list)
+	}
+	if stats := mustRun(t, "log", "stats", "--demo"); strings.Contains(stats, "in air ±1σ") || !strings.Contains(stats, "corrected") {
+		t.Errorf("log stats header:\n%s", stats)
+	}
+}
