@@ -6,6 +6,7 @@ import (
 
 	"pitcard/engine"
 	"pitcard/scripts"
+	"pitcard/weather"
 )
 
 // RecentPasses is how many of the last passes the rules see.
@@ -13,6 +14,7 @@ const RecentPasses = 10
 
 // RuleContext is the ctx a rule sees: plain, read-only data.
 //
+//	ctx.units       "imperial" or "metric": the crew's units, for a rule's own words
 //	ctx.air         the keys of `pitcard air` (track_temp_f and headwind_mph when known)
 //	ctx.track       name, elevation_ft, heading_deg, prep
 //	ctx.car         every key of car.yaml, the crew's own keys included
@@ -55,7 +57,12 @@ func RuleContext(c Card) map[string]any {
 	if in.OpponentDial.Valid {
 		round["opponent_dial"] = in.OpponentDial.Decimal.InexactFloat64()
 	}
+	units := "imperial"
+	if in.Settings.Units.Temp == weather.DegC {
+		units = "metric"
+	}
 	ctx := map[string]any{
+		"units": units,
 		"air":   air,
 		"track": map[string]any{"name": in.Track.Name, "elevation_ft": in.Track.ElevationFt, "heading_deg": in.Track.HeadingDeg, "prep": engine.PrepName(in.Prep)},
 		"car":   car,

@@ -88,27 +88,38 @@ func newRulesListCmd(s *IOStreams, g *globalOptions) *cobra.Command {
 	return cmd
 }
 
-// firstComment is the first comment line of a rule: what it says it does.
+// firstComment is the first sentence of a rule's opening comment: what it
+// says it does. A sentence may run over several comment lines.
 func firstComment(src string) string {
+	var words []string
 	for _, line := range strings.Split(src, "\n") {
 		line = strings.TrimSpace(line)
-		if strings.HasPrefix(line, "--") {
-			if c := strings.TrimSpace(strings.TrimLeft(line, "-")); c != "" {
-				return c
+		if !strings.HasPrefix(line, "--") {
+			if line == "" && len(words) == 0 {
+				continue
+			}
+			break
+		}
+		c := strings.TrimSpace(strings.TrimLeft(line, "-"))
+		if c == "" {
+			if len(words) > 0 {
+				break
 			}
 			continue
 		}
-		if line != "" {
-			break
-		}
+		words = append(words, c)
 	}
-	return ""
+	text := strings.Join(words, " ")
+	if i := strings.Index(text, ". "); i >= 0 {
+		text = text[:i+1]
+	}
+	return text
 }
 
 func newRulesCheckCmd(s *IOStreams, g *globalOptions) *cobra.Command {
 	return &cobra.Command{
 		Use:     "check",
-		Short:   "Load and validate every rule; exit 1 when any fails",
+		Short:   "Load and validate every rule; exit 2 when any fails",
 		Example: "  pitcard rules check",
 		Args:    cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, _ []string) error {

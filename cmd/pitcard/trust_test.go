@@ -311,3 +311,37 @@ func TestCardWords(t *testing.T) {
 		t.Errorf("log stats header:\n%s", stats)
 	}
 }
+
+// Shipped rules and docs that contradicted themselves.
+func TestShippedWordsAgree(t *testing.T) {
+	list := mustRun(t, "rules", "list", "--demo")
+	if !strings.Contains(list, "before the car goes to the lanes.") {
+		t.Errorf("rules list cuts a description mid-sentence:\n%s", list)
+	}
+	// 20-track-temp.lua points at a card section by the name the card prints
+	src, _ := os.ReadFile(filepath.Join("..", "..", "scripts", "rules", "20-track-temp.lua"))
+	card := mustRun(t, "card", "--demo")
+	if !strings.Contains(string(src), `"Today so far: predicted against actual"`) || !strings.Contains(card, "Today so far: predicted against actual") {
+		t.Errorf("the track-temp rule names a card section the card does not have")
+	}
+	// the tire-pressure rule's words match its table (firmer when cool)
+	tire, _ := os.ReadFile(filepath.Join("..", "..", "scripts", "rules", "40-tire-pressure.lua"))
+	if !strings.Contains(string(tire), "firmest on a cool track") || !strings.Contains(string(tire), "{80, 16.5}") || !strings.Contains(string(tire), "{999, 14.5}") {
+		t.Errorf("the tire-pressure rule's comment and table disagree")
+	}
+	// a forecast that carries one reading does not claim minutes of trend
+	dir := demoCopy(t)
+	editFile(t, dir, "weather.csv", func(s string) string {
+		var keep []string
+		for _, l := range strings.SplitAfter(s, "\n") {
+			if !strings.HasPrefix(l, "2026-06-13,") || strings.HasPrefix(l, "2026-06-13,20:05") || strings.HasPrefix(l, "2026-06-13,20:30") {
+				keep = append(keep, l)
+			}
+		}
+		return strings.Join(keep, "")
+	})
+	out := mustRun(t, "weather", "forecast", "--dir", dir, "--at", "20:45")
+	if !strings.Contains(out, "Leaned on one reading, carried as it is") || strings.Contains(out, "Leaned on 1 reading") {
+		t.Errorf("forecast summary:\n%s", out)
+	}
+}

@@ -302,7 +302,14 @@ func weatherForecastRun(cmd *cobra.Command, o *weatherForecastOptions) error {
 	if !f.Trusted {
 		trust = "NOT trusted"
 	}
-	fmt.Fprintf(o.s.Out, "Leaned on %s, %.0f min of trend; %s.\n", plural(f.Used, "reading"), f.Span.Minutes(), trust)
+	switch {
+	case f.Used == 1:
+		fmt.Fprintf(o.s.Out, "Leaned on one reading, carried as it is (no trend); %s.\n", trust)
+	case f.Interval:
+		fmt.Fprintf(o.s.Out, "Between 2 readings %.0f min apart; %s.\n", f.Span.Minutes(), trust)
+	default:
+		fmt.Fprintf(o.s.Out, "Leaned on %s, %.0f min of trend; %s.\n", plural(f.Used, "reading"), f.Span.Minutes(), trust)
+	}
 	if f.DAError > 0 {
 		fmt.Fprintf(o.s.Out, "Density altitude ± %s (one standard error).\n", f.DAError.Format(e.Settings.Units.Length))
 	}

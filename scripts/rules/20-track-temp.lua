@@ -4,8 +4,8 @@
 -- model, calibrated from your 60-ft times). Some crews still add a margin when
 -- the track is very hot, because a greasy track makes the car less
 -- consistent, not just slower. This rule adds two hundredths above 130 °F.
--- If the card's "today's record" shows the prediction keeping up on hot
--- days, set ADJUST to 0.
+-- If the card's "Today so far: predicted against actual" table shows the
+-- prediction keeping up on hot days, set ADJUST to 0.
 
 local HOT_F = 130     -- track surface temperature, °F, above which the rule applies
 local ADJUST = 0.02   -- seconds added to the dial (positive dials slower)
