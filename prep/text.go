@@ -11,13 +11,21 @@ import (
 	"pitcard/scripts"
 )
 
-// Width is the widest line the terminal and Markdown cards print.
+// Width is the widest line the Markdown card prints, and the terminal card's
+// when the terminal's width is not known (piped).
 const Width = 100
 
 // RenderText writes the card for a terminal: go-pretty tables, colour when
 // color is set (a terminal), plain when piped; no line wider than Width; the
 // dial to post in block digits, the most prominent thing on the page.
 func RenderText(w io.Writer, c Card, color bool) error {
+	return RenderTextWidth(w, c, color, Width)
+}
+
+// RenderTextWidth is RenderText for a terminal width columns wide (at
+// least 60).
+func RenderTextWidth(w io.Writer, c Card, color bool, width int) error {
+	Width := max(width, 60)
 	v := newView(c)
 	var b strings.Builder
 	paint := func(s string, colors ...text.Color) string {
@@ -27,7 +35,7 @@ func RenderText(w io.Writer, c Card, color bool) error {
 		return text.Colors(colors).Sprint(s)
 	}
 	b.WriteString(paint("PITCARD  "+v.Title, text.Bold) + "\n")
-	b.WriteString(strings.Join(v.Subtitle, " · ") + "\n\n")
+	b.WriteString(wrap(strings.Join(v.Subtitle, " · "), Width, "  ") + "\n\n")
 	if v.Dial != "" {
 		big := blockDigits(v.Dial)
 		for i, line := range big {
@@ -42,10 +50,10 @@ func RenderText(w io.Writer, c Card, color bool) error {
 		}
 		b.WriteString("\n")
 		for _, l := range v.DialLines {
-			b.WriteString("  " + l + "\n")
+			b.WriteString(wrap("  "+l, Width, "    ") + "\n")
 		}
 		if v.DialAlert != "" {
-			b.WriteString(paint("  CHECK: "+v.DialAlert, text.FgHiYellow, text.Bold) + "\n")
+			b.WriteString(paint(wrap("  CHECK: "+v.DialAlert, Width, "    "), text.FgHiYellow, text.Bold) + "\n")
 		}
 		b.WriteString("\n")
 	} else if v.NoDial != "" {
@@ -59,26 +67,26 @@ func RenderText(w io.Writer, c Card, color bool) error {
 		b.WriteString(paint("  NO DIAL: see the problems below", text.Bold, text.FgHiRed) + "\n\n")
 	}
 	for _, p := range v.Problems {
-		b.WriteString(paint("  PROBLEM: "+p, text.FgHiRed) + "\n")
+		b.WriteString(paint(wrap("  PROBLEM: "+p, Width, "    "), text.FgHiRed) + "\n")
 	}
 	if len(v.Problems) > 0 {
 		b.WriteString("\n")
 	}
-	writeTable(&b, v.Air, color)
+	writeTable(&b, v.Air, color, Width)
 	b.WriteString(wrap(v.AirNote, Width, "") + "\n\n")
 	if len(v.Prediction.Rows) > 0 {
-		writeTable(&b, v.Prediction, color)
+		writeTable(&b, v.Prediction, color, Width)
 		for _, l := range v.Basis {
 			b.WriteString(wrap(l, Width, "  ") + "\n")
 		}
 		b.WriteString("\n")
 	}
 	if len(v.Options.Rows) > 0 {
-		writeTable(&b, v.Options, color)
+		writeTable(&b, v.Options, color, Width)
 		b.WriteString("\n")
 	}
 	if len(v.Rules.Rows) > 0 {
-		writeTable(&b, v.Rules, color)
+		writeTable(&b, v.Rules, color, Width)
 		b.WriteString("\n")
 	}
 	if len(v.Checks) > 0 {
@@ -109,7 +117,7 @@ func RenderText(w io.Writer, c Card, color bool) error {
 		b.WriteString("\n")
 	}
 	if len(v.Record.Rows) > 0 {
-		writeTable(&b, v.Record, color)
+		writeTable(&b, v.Record, color, Width)
 		if v.RecordNote != "" {
 			b.WriteString(v.RecordNote + "\n")
 		}
@@ -123,7 +131,7 @@ func RenderText(w io.Writer, c Card, color bool) error {
 	return err
 }
 
-func writeTable(b *strings.Builder, t table, color bool) {
+func writeTable(b *strings.Builder, t table, color bool, width int) {
 	tw := ptable.NewWriter()
 	style := ptable.StyleLight
 	style.Format.Header = text.FormatDefault
@@ -154,12 +162,24 @@ func writeTable(b *strings.Builder, t table, color bool) {
 		}
 		tw.AppendRow(row)
 	}
-	tw.SetAllowedRowLength(Width)
-	b.WriteString(tw.Render() + "\n")
+	b.WriteString(FitRender(tw, width, nil) + "\n")
 }
 
 // wrap breaks s into lines of at most width, continuing with indent.
+// Wrap is wrap for the command line's prose.
+func Wrap(s string, width int, indent string) string { return wrap(s, width, indent) }
+
 func wrap(s string, width int, indent string) string {
+	if strings.Contains(s, "\n") { // each line of a message wrapped on its own
+		parts := strings.Split(s, "\n")
+		for i, p := range parts {
+			if i > 0 {
+				p = indent + strings.TrimLeft(p, " ")
+			}
+			parts[i] = wrap(p, width, indent+"  ")
+		}
+		return strings.Join(parts, "\n")
+	}
 	words := strings.Fields(s)
 	if len(words) == 0 {
 		return s

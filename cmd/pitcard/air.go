@@ -112,7 +112,7 @@ func airRun(cmd *cobra.Command, o *airOptions) error {
 	title += ", " + r.Time.Format("2006-01-02 15:04")
 	t := newTable(o.s, title)
 	airRows(t, r, r.Derive(elev), elev, elevKnown, trk.HeadingDeg, trk.Name != "", e.Settings.Units)
-	render(o.s.Out, t, o.Format)
+	render(o.s, t, o.Format)
 	return nil
 }
 

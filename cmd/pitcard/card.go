@@ -75,7 +75,11 @@ func cardRun(cmd *cobra.Command, o *cardOptions) error {
 	case "json":
 		err = prep.RenderJSON(&buf, c)
 	default:
-		err = prep.RenderText(&buf, c, o.s.Terminal && o.Out == "")
+		width := prep.Width
+		if o.Out == "" {
+			width = o.s.width()
+		}
+		err = prep.RenderTextWidth(&buf, c, o.s.Terminal && o.Out == "", width)
 	}
 	if err != nil {
 		return err

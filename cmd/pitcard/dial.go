@@ -9,6 +9,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"pitcard/engine"
+	"pitcard/prep"
 	"pitcard/weather"
 )
 
@@ -153,7 +154,7 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 		}
 		return leftOut
 	}
-	fmt.Fprintf(o.s.Out, "Predicted ET %.3f s ± %.3f (one standard deviation): %s.\n", est.ET, est.SD, est.Basis)
+	fmt.Fprintln(o.s.Out, prep.Wrap(fmt.Sprintf("Predicted ET %.3f s ± %.3f (one standard deviation): %s.", est.ET, est.SD, est.Basis), o.s.width(), "  "))
 	t := newTable(o.s, fmt.Sprintf("Dial-ins (step %s s, risk ≤ %.0f %%)", plan.Step, plan.Risk*100))
 	t.AppendHeader(table.Row{"Dial", "Breakout chance", "Time given away", ""})
 	for _, op := range j.Options {
@@ -167,8 +168,8 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 		}
 		t.AppendRow(table.Row{dial, fmt.Sprintf("%.1f %%", op.BreakoutChance*100), fmt.Sprintf("%.3f s", op.GiveawayS), mark})
 	}
-	t.SetColumnConfigs(alignRight(1, 3))
-	render(o.s.Out, t, o.Format)
+	configs := alignRight(1, 3)
+	render(o.s, t, o.Format, configs...)
 	fmt.Fprintf(o.s.Out, "Recommended dial: %s (the slowest dial with at most a %.0f %% chance of breaking out).\n", j.Recommended, plan.Risk*100)
 	return leftOut
 }

@@ -475,11 +475,11 @@ func logListRun(cmd *cobra.Command, o *logListOptions) error {
 		t.AppendRow(row)
 	}
 	n := len(header)
-	t.SetColumnConfigs(append([]table.ColumnConfig{{Number: n, WidthMax: 16}}, alignRight(5, n-1)...))
+	configs := append([]table.ColumnConfig{{Number: n, WidthMax: 16}}, alignRight(5, n-1)...)
 	compact(t)
-	render(o.s.Out, t, o.Format)
+	render(o.s, t, o.Format, configs...)
 	if o.Format == "text" {
-		fmt.Fprintf(o.s.Out, "Session: T time trial, E elimination round. DA: density altitude, %s. --wide adds the 330 and 1000 ft timers.\n", u.Length)
+		fmt.Fprintf(o.s.Out, "Session: T time trial, E elimination round. DA: density altitude, %s.\n--wide adds the 330 and 1000 ft timers.\n", u.Length)
 	}
 	return leftOut
 }
@@ -646,7 +646,7 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 		return leftOut
 	}
 	t := newTable(o.s, "Consistency by day and session")
-	t.AppendHeader(table.Row{"Day", "Sessions", "Passes", "ET mean", "ET spread", "corrected", "RT mean", "RT spread", "60 ft spread", "Consistency"})
+	t.AppendHeader(table.Row{"Day", "Sessions", "Passes", "ET\nmean", "ET\nspread", "spread\ncorrected", "RT\nmean", "RT\nspread", "60 ft\nspread", "Consistency"})
 	f3 := func(v float64, ok bool) string {
 		if !ok {
 			return ""
@@ -666,14 +666,14 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 		t.AppendRow(table.Row{day, sessions, passes, f3(s.ETMean, s.Clean > 0), f3(s.ETSD, s.Clean > 1), f3(s.CorrectedSD, s.CorrectedN > 1),
 			f3(s.RTMean, s.RTN > 0), f3(s.RTSD, s.RTN > 1), f3(s.SixtySD, s.SixtyN > 1), judge(s)})
 	}
-	t.SetColumnConfigs(alignRight(4, 9))
+	configs := alignRight(4, 9)
 	compact(t)
-	render(o.s.Out, t, o.Format)
+	render(o.s, t, o.Format, configs...)
 	if corrected {
 		fmt.Fprintln(o.s.Out, "Spreads are one standard deviation. Corrected: the ET spread once the air and track of each pass are\ntaken out (each ET less the calibrated model's for its conditions); consistency is judged on it.")
 	} else {
 		fmt.Fprintln(o.s.Out, "Spreads are one standard deviation, as run (no car.yaml or no weather in the logbook): the air moving\nthrough a day counts as scatter.")
 	}
-	fmt.Fprintln(o.s.Out, "Very consistent (≤ 0.015 s): dial it with confidence. Consistent (≤ 0.030).\nSome scatter (≤ 0.060): check the notes, tires, routine. Inconsistent: look for lifted or spinning runs.")
+	fmt.Fprintln(o.s.Out, "Very consistent (≤ 0.015 s): dial it with confidence. Consistent (≤ 0.030).\nSome scatter (≤ 0.060): check the notes, tires, routine.\nInconsistent: look for lifted or spinning runs.")
 	return leftOut
 }

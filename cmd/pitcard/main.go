@@ -29,12 +29,18 @@ type IOStreams struct {
 	Out      io.Writer
 	Err      io.Writer
 	Terminal bool             // Out is a terminal: colour is allowed
+	Width    int              // the terminal's columns; 0 when not a terminal (100 is used)
 	Now      func() time.Time // the clock; tests fix it
 }
 
 func main() {
 	streams := &IOStreams{In: os.Stdin, Out: os.Stdout, Err: os.Stderr,
 		Terminal: term.IsTerminal(int(os.Stdout.Fd())), Now: time.Now}
+	if streams.Terminal {
+		if w, _, err := term.GetSize(int(os.Stdout.Fd())); err == nil {
+			streams.Width = w
+		}
+	}
 	os.Exit(run(os.Args[1:], streams))
 }
 

@@ -11,6 +11,8 @@ import (
 	"github.com/jedib0t/go-pretty/v6/text"
 	"github.com/shopspring/decimal"
 	"github.com/spf13/cobra"
+
+	"pitcard/prep"
 )
 
 // newTable is a go-pretty table in pitcard's style: light rules, colour only
@@ -32,13 +34,23 @@ func newTable(s *IOStreams, title string) table.Writer {
 	return t
 }
 
-// render prints a table as text or Markdown.
-func render(w io.Writer, t table.Writer, format string) {
+// render prints a table as text or Markdown; text no wider than the
+// terminal (its widest columns wrap), configs being the table's columns.
+func render(s *IOStreams, t table.Writer, format string, configs ...table.ColumnConfig) {
 	if format == "markdown" {
-		io.WriteString(w, t.RenderMarkdown()+"\n")
+		t.SetColumnConfigs(configs)
+		io.WriteString(s.Out, t.RenderMarkdown()+"\n")
 		return
 	}
-	io.WriteString(w, t.Render()+"\n")
+	io.WriteString(s.Out, prep.FitRender(t, s.width(), configs)+"\n")
+}
+
+// width is the terminal's width, or prep.Width when it is not known.
+func (s *IOStreams) width() int {
+	if s.Width >= 40 {
+		return s.Width
+	}
+	return prep.Width
 }
 
 // writeJSON prints v as indented JSON.
@@ -89,4 +101,5 @@ func dialString(d, step decimal.Decimal) string {
 // compact drops the rules between columns of a wide list table.
 func compact(t table.Writer) {
 	t.Style().Options.SeparateColumns = false
+	t.Style().Box.PaddingRight = "" // one space between columns: wide lists fit 100
 }

@@ -259,16 +259,16 @@ func printPrediction(s *IOStreams, n nextPass, format string) {
 		}
 		t.AppendRow(table.Row{prep.TimerName(tm.DistanceFt), fmt.Sprintf("%.3f", tm.ET), fmt.Sprintf("%.3f – %.3f", tm.Low, tm.High), trap, trapI})
 	}
-	t.SetColumnConfigs(alignRight(2, 5))
-	render(s.Out, t, format)
+	configs := alignRight(2, 5)
+	render(s, t, format, configs...)
 	track := "track not read"
 	if n.Cond.Reading.HasTrack {
 		track = "track " + n.Cond.Reading.TrackTemp.Format(u.Temp, 0)
 	}
-	fmt.Fprintf(s.Out, "Air: density altitude %s, %s, %s, prep %s (%s).\n", a.DensityAltitude.Format(u.Length),
-		n.Cond.Reading.Temp.Format(u.Temp, 1), track, engine.PrepName(n.Prep), n.Cond.Source)
+	fmt.Fprintln(s.Out, prep.Wrap(fmt.Sprintf("Air: density altitude %s, %s, %s, prep %s (%s).", a.DensityAltitude.Format(u.Length),
+		n.Cond.Reading.Temp.Format(u.Temp, 1), track, engine.PrepName(n.Prep), n.Cond.Source), s.width(), "  "))
 	for _, l := range prep.Explain(p, n.Fit, n.Units) {
-		fmt.Fprintln(s.Out, "- "+l)
+		fmt.Fprintln(s.Out, prep.Wrap("- "+l, s.width(), "  "))
 	}
 }
 

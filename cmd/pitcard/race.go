@@ -167,8 +167,8 @@ func raceRun(cmd *cobra.Command, o *raceOptions) error {
 		}
 		t.AppendRow(table.Row{l.name, l.j.Dial, l.j.RT, l.j.ET, l.j.Start, l.j.Reaction, l.j.Finish, l.j.OverDial, l.j.Package, flags})
 	}
-	t.SetColumnConfigs(alignRight(2, 9))
-	render(o.s.Out, t, "text")
+	configs := alignRight(2, 9)
+	render(o.s, t, "text", configs...)
 	fmt.Fprintf(o.s.Out, "Tree %s; reaction times count from the %s. Times in seconds after the first green.\n", rules.Tree, rules.RTZero)
 	return nil
 }

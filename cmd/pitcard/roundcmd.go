@@ -278,7 +278,7 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 	}
 	c := prep.Gather(in)
 	fmt.Fprintln(o.s.Out)
-	if err := prep.RenderText(o.s.Out, c, o.s.Terminal); err != nil {
+	if err := prep.RenderTextWidth(o.s.Out, c, o.s.Terminal, o.s.width()); err != nil {
 		return err
 	}
 	if unsaved != nil {

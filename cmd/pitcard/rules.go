@@ -80,7 +80,7 @@ func newRulesListCmd(s *IOStreams, g *globalOptions) *cobra.Command {
 				}
 				t.AppendRow(table.Row{r.File, def, firstComment(r.Source)})
 			}
-			render(s.Out, t, format)
+			render(s, t, format)
 			return nil
 		},
 	}

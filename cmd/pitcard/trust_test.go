@@ -4,10 +4,12 @@ import (
 	"bytes"
 	"os"
 	"path/filepath"
+	"regexp"
 	"strings"
 	"syscall"
 	"testing"
 	"time"
+	"unicode/utf8"
 
 	"pitcard/engine"
 	"pitcard/internal/safefile"
@@ -343,5 +345,54 @@ func TestShippedWordsAgree(t *testing.T) {
 	out := mustRun(t, "weather", "forecast", "--dir", dir, "--at", "20:45")
 	if !strings.Contains(out, "Leaned on one reading, carried as it is") || strings.Contains(out, "Leaned on 1 reading") {
 		t.Errorf("forecast summary:\n%s", out)
+	}
+}
+
+// Lines past the width: one card line was 117 columns; log list --wide and
+// log stats were 115 and 122. Piped output fits 100 columns, a terminal its
+// own width.
+func TestOutputFitsTheWidth(t *testing.T) {
+	dir := demoCopy(t)
+	long := "function checks(ctx)\n  return {{label = 'Long rule', status = 'warn', note = '" + strings.Repeat("a very long note about the car ", 8) + "'}}\nend\nfunction dial(ctx) return 0.01, '" +
+		strings.Repeat("a reason that goes on and on ", 6) + "' end\n"
+	_ = os.WriteFile(filepath.Join(dir, "rules", "70-long.lua"), []byte(long), 0o644)
+	widest := func(s string) (int, string) {
+		w, line := 0, ""
+		for _, l := range strings.Split(s, "\n") {
+			if n := utf8.RuneCountInString(l); n > w {
+				w, line = n, l
+			}
+		}
+		return w, line
+	}
+	for _, args := range [][]string{{"card", "--round", "3", "--lane", "left"}, {"log", "list", "--wide"}, {"log", "stats"},
+		{"predict", "--latest"}, {"dial"}, {"air", "--latest"}, {"weather", "list"}} {
+		out := mustRun(t, append(args, "--dir", dir)...)
+		if w, line := widest(out); w > 100 {
+			t.Errorf("%v: a line of %d columns:\n%s", args, w, line)
+		}
+	}
+	var out, errb bytes.Buffer
+	s := &IOStreams{In: strings.NewReader(""), Out: &out, Err: &errb, Now: func() time.Time { return fixedNow }, Terminal: true, Width: 80}
+	if code := run([]string{"card", "--dir", dir, "--round", "3", "--lane", "left"}, s); code != 0 {
+		t.Fatalf("exit %d %s", code, errb.String())
+	}
+	plain := regexp.MustCompile("\x1b\\[[0-9;]*m").ReplaceAllString(out.String(), "")
+	if w, line := widest(plain); w > 80 {
+		t.Errorf("an 80-column terminal got a line of %d:\n%s", w, line)
+	}
+}
+
+// dial --format markdown on a terminal wrote ANSI colour codes into the
+// document.
+func TestNoColourInDocuments(t *testing.T) {
+	for _, args := range [][]string{{"dial", "--demo", "--format", "markdown"}, {"card", "--demo", "--format", "markdown"},
+		{"log", "list", "--demo", "--format", "markdown"}, {"card", "--demo", "--format", "html"}, {"card", "--demo", "--format", "json"}} {
+		var out, errb bytes.Buffer
+		s := &IOStreams{In: strings.NewReader(""), Out: &out, Err: &errb, Now: func() time.Time { return fixedNow }, Terminal: true, Width: 120}
+		run(args, s)
+		if strings.Contains(out.String(), "\x1b[") {
+			t.Errorf("%v: colour codes in a document", args)
+		}
 	}
 }

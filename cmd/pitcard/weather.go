@@ -220,7 +220,7 @@ func weatherListRun(cmd *cobra.Command, o *weatherListOptions) error {
 			a.DensityAltitude.Format(u.Length), r.Note})
 	}
 	compact(t)
-	render(o.s.Out, t, o.Format)
+	render(o.s, t, o.Format)
 	return nil
 }
 
@@ -297,7 +297,7 @@ func weatherForecastRun(cmd *cobra.Command, o *weatherForecastOptions) error {
 	title := fmt.Sprintf("Forecast air at %s, %s", trackName, when.Format("2006-01-02 15:04"))
 	t := newTable(o.s, title)
 	airRows(t, f.Reading, f.Air, elev, true, trk.HeadingDeg, trackName != "", e.Settings.Units)
-	render(o.s.Out, t, o.Format)
+	render(o.s, t, o.Format)
 	trust := "trusted"
 	if !f.Trusted {
 		trust = "NOT trusted"
