@@ -35,7 +35,20 @@ func RenderTextWidth(w io.Writer, c Card, color bool, width int) error {
 		return text.Colors(colors).Sprint(s)
 	}
 	b.WriteString(paint("PITCARD  "+v.Title, text.Bold) + "\n")
-	b.WriteString(wrap(strings.Join(v.Subtitle, " · "), Width, "  ") + "\n\n")
+	// The subtitle breaks between its parts, never inside one.
+	line := ""
+	for _, part := range v.Subtitle {
+		switch {
+		case line == "":
+			line = part
+		case text.RuneWidthWithoutEscSequences(line+" · "+part) > Width:
+			b.WriteString(line + "\n")
+			line = part
+		default:
+			line += " · " + part
+		}
+	}
+	b.WriteString(line + "\n\n")
 	if v.Dial != "" {
 		big := blockDigits(v.Dial)
 		for i, line := range big {

@@ -152,7 +152,7 @@ func TestNonFiniteYAMLIsRefused(t *testing.T) {
 	dir = demoCopy(t)
 	editFile(t, dir, "car.yaml", func(s string) string { return strings.Replace(s, "chute: false", "chute: yes", 1) })
 	out = mustRun(t, "card", "--dir", dir, "--round", "3", "--lane", "left")
-	if !strings.Contains(out, "car.yaml line 16: chute: yes is read as the text") {
+	if !strings.Contains(strings.Join(strings.Fields(out), " "), "car.yaml line 16: chute: yes is read as the text") {
 		t.Errorf("chute: yes not pointed out:\n%s", out)
 	}
 	// the same for the crew's settings
