@@ -45,6 +45,7 @@ Pressure is station pressure, as handheld meters read it, unless
 	o.reading.bind(cmd)
 	cmd.Flags().BoolVar(&o.Latest, "latest", false, "use the weather log's last reading")
 	cmd.Flags().StringVar(&o.Format, "format", "text", "text, markdown or json")
+	withOut(cmd, s)
 	return cmd
 }
 

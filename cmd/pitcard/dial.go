@@ -52,6 +52,7 @@ passes at the distance raced, not corrected for the air, and says so.`,
 	cmd.Flags().String("breakout-risk", "", "largest breakout chance to accept, a fraction (setting breakout_risk)")
 	cmd.Flags().String("dial-step", "", "dial-in step, s (setting dial_step)")
 	cmd.Flags().StringVar(&o.Format, "format", "text", "text, markdown or json")
+	withOut(cmd, s)
 	return cmd
 }
 

@@ -392,6 +392,7 @@ func newLogListCmd(s *IOStreams, g *globalOptions) *cobra.Command {
 	cmd.Flags().IntVar(&o.Last, "last", 20, "show the last N passes (0 = all)")
 	cmd.Flags().BoolVar(&o.Wide, "wide", false, "show every timer (330 and 1000 ft too)")
 	cmd.Flags().StringVar(&o.Format, "format", "text", "text, markdown, json or csv")
+	withOut(cmd, s)
 	return cmd
 }
 
@@ -573,6 +574,7 @@ weather, the ET spread is also given corrected for each pass's air and track
 		RunE:    func(cmd *cobra.Command, _ []string) error { return logStatsRun(cmd, o) },
 	}
 	cmd.Flags().StringVar(&o.Format, "format", "text", "text, markdown or json")
+	withOut(cmd, s)
 	return cmd
 }
 

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"bytes"
 	"encoding/json"
 	"fmt"
 	"io"
@@ -12,6 +13,7 @@ import (
 	"github.com/shopspring/decimal"
 	"github.com/spf13/cobra"
 
+	"pitcard/internal/safefile"
 	"pitcard/prep"
 )
 
@@ -102,4 +104,39 @@ func dialString(d, step decimal.Decimal) string {
 func compact(t table.Writer) {
 	t.Style().Options.SeparateColumns = false
 	t.Style().Box.PaddingRight = "" // one space between columns: wide lists fit 100
+}
+
+// bindSettingFlags gives a command the flags of the settings that shape a
+// dial (read by globalOptions.open): --breakout-risk and --dial-step.
+func bindSettingFlags(cmd *cobra.Command) {
+	cmd.Flags().String("breakout-risk", "", "largest breakout chance to accept, a fraction (setting breakout_risk)")
+	cmd.Flags().String("dial-step", "", "dial-in step, s (setting dial_step)")
+}
+
+// withOut gives a command that prints a document --out FILE: what it would
+// print is written to FILE instead (atomically, no colour), and the screen
+// gets one line saying so. What the command prints on standard error stays
+// there.
+func withOut(cmd *cobra.Command, s *IOStreams) {
+	var path string
+	cmd.Flags().StringVar(&path, "out", "", "write the output to this file instead of the screen")
+	runE := cmd.RunE
+	cmd.RunE = func(c *cobra.Command, args []string) error {
+		if path == "" {
+			return runE(c, args)
+		}
+		var buf bytes.Buffer
+		out, terminal := s.Out, s.Terminal
+		s.Out, s.Terminal = &buf, false
+		err := runE(c, args)
+		s.Out, s.Terminal = out, terminal
+		if buf.Len() == 0 {
+			return err
+		}
+		if werr := safefile.WriteNoBackup(path, buf.Bytes()); werr != nil {
+			return fmt.Errorf("writing %s: %w", path, werr)
+		}
+		fmt.Fprintf(s.Out, "Wrote %s.\n", path)
+		return err
+	}
 }

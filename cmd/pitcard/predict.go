@@ -50,10 +50,16 @@ reading) or --at (the log's forecast for the call time); flags given with
 	fl := cmd.Flags()
 	fl.StringVar(&o.Prep, "prep", "", "track prep today: none, light, full or 0..1 (default: track.yaml's)")
 	fl.StringVar(&o.Weight, "weight", "", "car and driver as it will run, lb (default: car.yaml's)")
-	fl.StringVar(&o.Car, "car", "", "car file (default: the folder's car.yaml)")
-	fl.StringVar(&o.Track, "track", "", "track file (default: the folder's track.yaml)")
-	fl.StringVar(&o.Log, "logbook", "", "logbook file (default: the folder's logbook.csv)")
+	// The old names of --car-file, --track-file and --logbook-file: --track
+	// means a track's name on log add, so the file flags say "file".
+	fl.StringVar(&o.Car, "car", "", "")
+	fl.StringVar(&o.Track, "track", "", "")
+	fl.StringVar(&o.Log, "logbook", "", "")
+	for _, f := range []string{"car", "track", "logbook"} {
+		_ = fl.MarkDeprecated(f, "use --"+f+"-file")
+	}
 	fl.StringVar(&o.Format, "format", "text", "text, markdown or json")
+	withOut(cmd, s)
 	return cmd
 }
 
@@ -126,7 +132,14 @@ func predictRun(cmd *cobra.Command, o *predictOptions) error {
 	if err != nil {
 		return err
 	}
-	e.CarPath, e.TrackPath, e.LogbookPath = o.Car, o.Track, o.Log
+	for _, f := range []struct {
+		dst *string
+		v   string
+	}{{&e.CarPath, o.Car}, {&e.TrackPath, o.Track}, {&e.LogbookPath, o.Log}} {
+		if f.v != "" {
+			*f.dst = f.v
+		}
+	}
 	n, err := forecastNext(e, o.cond, o.Prep, o.Weight, o.s.Now())
 	if err != nil {
 		return err

@@ -52,6 +52,7 @@ read (settings tree and rt_zero).`,
 	cmd.Flags().String("tree", "", "full or pro (setting tree; default full)")
 	cmd.Flags().String("rt-zero", "", "green (perfect .000, red light negative) or amber (perfect .500 full / .400 pro) (setting rt_zero)")
 	cmd.Flags().StringVar(&o.Format, "format", "text", "text or json")
+	withOut(cmd, s)
 	return cmd
 }
 

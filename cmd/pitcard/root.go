@@ -29,6 +29,9 @@ type globalOptions struct {
 	Dir   string // the event folder
 	Demo  bool   // read the built-in demo event instead
 	Units string // imperial or metric; overrides pitcard.yaml
+	// Files in place of the folder's car.yaml, track.yaml and logbook.csv,
+	// for every command that reads them.
+	CarFile, TrackFile, LogbookFile string
 }
 
 func newRootCmd(s *IOStreams) *cobra.Command {
@@ -54,6 +57,12 @@ Try it on the built-in demo event first: pitcard card --demo`,
 	root.PersistentFlags().StringVar(&g.Dir, "dir", dir, "event folder (env PITCARD_DIR)")
 	root.PersistentFlags().BoolVar(&g.Demo, "demo", false, "use the built-in demo event (read-only)")
 	root.PersistentFlags().StringVar(&g.Units, "units", "", "imperial or metric: how bare numbers are read and results shown (setting units)")
+	root.PersistentFlags().StringVar(&g.CarFile, "car-file", "", "read this file in place of the folder's car.yaml")
+	root.PersistentFlags().StringVar(&g.TrackFile, "track-file", "", "read this file in place of the folder's track.yaml")
+	root.PersistentFlags().StringVar(&g.LogbookFile, "logbook-file", "", "read (and write) this file in place of the folder's logbook.csv")
+	_ = root.MarkPersistentFlagDirname("dir")
+	root.Version = versionString()
+	root.SetVersionTemplate("pitcard {{.Version}}\n")
 	root.SetFlagErrorFunc(func(c *cobra.Command, err error) error {
 		return userErrf("%v (see '%s --help')", err, c.CommandPath())
 	})
@@ -70,6 +79,7 @@ Try it on the built-in demo event first: pitcard card --demo`,
 		newCardCmd(s, g),
 		newRoundCmd(s, g),
 	)
+	registerCompletions(root)
 	return root
 }
 
@@ -124,14 +134,28 @@ func (e *eventFolder) openFile(file, override string) (fs.File, string, error) {
 
 // name is how messages refer to a file of the folder.
 func (e *eventFolder) name(file string) string {
+	if p := e.path(file); p != filepath.Join(e.Dir, file) {
+		return p // a file named by --car-file, --track-file or --logbook-file
+	}
 	if e.Demo {
 		return "demo/" + file
 	}
 	return filepath.Join(e.Dir, file)
 }
 
-// path is a file's path on disk.
-func (e *eventFolder) path(file string) string { return filepath.Join(e.Dir, file) }
+// path is a file's path on disk: the folder's, or the file a flag named in
+// its place (--logbook-file, ...).
+func (e *eventFolder) path(file string) string {
+	switch {
+	case file == event.LogbookFile && e.LogbookPath != "":
+		return e.LogbookPath
+	case file == event.CarFile && e.CarPath != "":
+		return e.CarPath
+	case file == event.TrackFile && e.TrackPath != "":
+		return e.TrackPath
+	}
+	return filepath.Join(e.Dir, file)
+}
 
 // writable refuses to write into the demo.
 func (e *eventFolder) writable() error {
@@ -144,7 +168,7 @@ func (e *eventFolder) writable() error {
 // open opens the event folder and loads its settings with viper: flags >
 // PITCARD_* environment > pitcard.yaml > defaults.
 func (g *globalOptions) open(cmd *cobra.Command) (*eventFolder, error) {
-	e := &eventFolder{Demo: g.Demo}
+	e := &eventFolder{Demo: g.Demo, CarPath: g.CarFile, TrackPath: g.TrackFile, LogbookPath: g.LogbookFile}
 	if g.Demo {
 		e.FS = event.Demo(scripts.Shipped())
 	} else {

@@ -43,6 +43,7 @@ func (r *roundFlags) bind(cmd *cobra.Command) {
 	fl.StringVar(&r.OpponentDial, "opponent-dial", "", "the opponent's dial-in, s, if known")
 	fl.StringVar(&r.Prep, "prep", "", "track prep today: none, light, full or 0..1 (default: track.yaml's)")
 	fl.StringVar(&r.Weight, "weight", "", "car and driver as it will run, lb (default: car.yaml's)")
+	bindSettingFlags(cmd)
 }
 
 // schedule reads the folder's schedule.yaml, if there is one.

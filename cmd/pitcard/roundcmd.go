@@ -43,6 +43,7 @@ from a pipe (at the end of the input every remaining answer is Enter).`,
 	cmd.Flags().StringVar(&o.Round, "round", "", "round number (3), or session T1 ... E5 (default: the schedule's next)")
 	cmd.Flags().StringVar(&o.Lane, "lane", "", "left or right (asked when not given)")
 	cmd.Flags().BoolVar(&o.NoLog, "no-log", false, "print the card and stop: do not ask for the slip")
+	bindSettingFlags(cmd)
 	return cmd
 }
 

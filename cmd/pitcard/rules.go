@@ -85,6 +85,7 @@ func newRulesListCmd(s *IOStreams, g *globalOptions) *cobra.Command {
 		},
 	}
 	cmd.Flags().StringVar(&format, "format", "text", "text, markdown or json")
+	withOut(cmd, s)
 	return cmd
 }
 

@@ -396,3 +396,61 @@ func TestNoColourInDocuments(t *testing.T) {
 		}
 	}
 }
+
+// Conventions of a Go command-line tool: --version; one flag name per
+// meaning; the file flags on every command that reads the files; the dial
+// settings on every command that makes a dial; --out on every document.
+func TestCommandLineConventions(t *testing.T) {
+	if out := mustRun(t, "--version"); !strings.HasPrefix(out, "pitcard ") {
+		t.Errorf("--version: %q", out)
+	}
+	dir := demoCopy(t)
+	other := filepath.Join(t.TempDir(), "other-car.yaml")
+	data, _ := os.ReadFile(filepath.Join(dir, "car.yaml"))
+	_ = os.WriteFile(other, []byte(strings.Replace(string(data), "name: Whitlock '71 Nova", "name: Borrowed Dart", 1)), 0o644)
+	for _, args := range [][]string{{"card", "--round", "3", "--lane", "left"}, {"rules", "try", "--round", "3", "--lane", "left"}} {
+		if out := mustRun(t, append(args, "--dir", dir, "--car-file", other)...); !strings.Contains(out, "Borrowed Dart") && !strings.Contains(out, "ok") {
+			t.Errorf("%v --car-file: the other car was not read:\n%.300s", args, out)
+		}
+	}
+	if out := mustRun(t, "card", "--dir", dir, "--car-file", other, "--round", "3", "--lane", "left"); !strings.Contains(out, "Borrowed Dart") {
+		t.Errorf("card --car-file:\n%.300s", out)
+	}
+	if out := mustRun(t, "card", "--dir", dir, "--round", "3", "--lane", "left", "--breakout-risk", "0.02", "--dial-step", "0.001"); !strings.Contains(out, "risk accepted 2 %") {
+		t.Errorf("card --breakout-risk:\n%.600s", out)
+	}
+	for _, args := range [][]string{{"dial", "--format", "markdown"}, {"predict", "--latest", "--format", "json"}, {"log", "list"}, {"log", "stats"},
+		{"weather", "list"}, {"air", "--latest"}, {"rules", "list"}} {
+		path := filepath.Join(t.TempDir(), "doc")
+		out := mustRun(t, append(args, "--dir", dir, "--out", path)...)
+		got, err := os.ReadFile(path)
+		if err != nil || len(got) < 50 || !strings.Contains(out, "Wrote "+path) {
+			t.Errorf("%v --out: %v, %d bytes, said %q", args, err, len(got), out)
+		}
+	}
+	if _, errs, _ := pitcard(t, "weather", "add", "--dir", dir, "--time", "21:00", "--temp", "80F", "--baro", "27.6", "--humidity", "40", "--notes", "hand meter"); errs != "" {
+		t.Errorf("weather add --notes: %s", errs)
+	}
+}
+
+// Completion for every enumerated flag, and --round from the schedule.
+func TestCompletion(t *testing.T) {
+	for _, tc := range []struct {
+		args []string
+		want []string
+	}{
+		{[]string{"__complete", "card", "--format", ""}, []string{"text", "markdown", "html", "json"}},
+		{[]string{"__complete", "log", "add", "--lane", ""}, []string{"left", "right"}},
+		{[]string{"__complete", "weather", "add", "--baro-kind", ""}, []string{"station", "altimeter"}},
+		{[]string{"__complete", "predict", "--prep", ""}, []string{"none", "light", "full"}},
+		{[]string{"__complete", "air", "--units", ""}, []string{"imperial", "metric"}},
+		{[]string{"__complete", "card", "--dir", filepath.Join("..", "..", "event", "demo"), "--round", ""}, []string{"T1\ttime trial 1, called 15:10", "E5"}},
+	} {
+		out, _, _ := pitcard(t, tc.args...)
+		for _, w := range tc.want {
+			if !strings.Contains(out, w) {
+				t.Errorf("%v: %q lacks %q", tc.args, out, w)
+			}
+		}
+	}
+}

@@ -18,16 +18,22 @@ func newVersionCmd(s *IOStreams) *cobra.Command {
 		Example: "  pitcard version",
 		Args:    cobra.NoArgs,
 		RunE: func(*cobra.Command, []string) error {
-			v := version
-			if info, ok := debug.ReadBuildInfo(); ok && v == "dev" {
-				for _, st := range info.Settings {
-					if st.Key == "vcs.revision" && len(st.Value) >= 12 {
-						v = "dev (" + st.Value[:12] + ")"
-					}
-				}
-			}
-			fmt.Fprintf(s.Out, "pitcard %s, %s %s/%s\n", v, runtime.Version(), runtime.GOOS, runtime.GOARCH)
+			fmt.Fprintf(s.Out, "pitcard %s\n", versionString())
 			return nil
 		},
 	}
+}
+
+// versionString is "dev (abc123def456), go1.26 linux/amd64": the release, or
+// the commit a development build was made from, and the toolchain.
+func versionString() string {
+	v := version
+	if info, ok := debug.ReadBuildInfo(); ok && v == "dev" {
+		for _, st := range info.Settings {
+			if st.Key == "vcs.revision" && len(st.Value) >= 12 {
+				v = "dev (" + st.Value[:12] + ")"
+			}
+		}
+	}
+	return fmt.Sprintf("%s, %s %s/%s", v, runtime.Version(), runtime.GOOS, runtime.GOARCH)
 }

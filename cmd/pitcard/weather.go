@@ -179,6 +179,7 @@ func newWeatherListCmd(s *IOStreams, g *globalOptions) *cobra.Command {
 	}
 	cmd.Flags().StringVar(&o.Format, "format", "text", "text, markdown or json")
 	cmd.Flags().StringVar(&o.Elev, "elevation", "", "track elevation (default: track.yaml)")
+	withOut(cmd, s)
 	return cmd
 }
 
@@ -250,6 +251,7 @@ too much around their trend is flagged as not to be trusted.`,
 	cmd.Flags().StringVar(&o.At, "at", "", "time to forecast, HH:MM (on the day of the last reading) or 'YYYY-MM-DD HH:MM'")
 	cmd.Flags().StringVar(&o.Format, "format", "text", "text, markdown or json")
 	cmd.Flags().StringVar(&o.Elev, "elevation", "", "track elevation (default: track.yaml)")
+	withOut(cmd, s)
 	return cmd
 }
 
