@@ -30,6 +30,9 @@ func TestBadInputTour(t *testing.T) {
 	badCar := corruptRow("car.yaml", "weight_lb: 3350", "weight_lb: 33500")
 	badTrack := corruptRow("track.yaml", "elevation_ft: 2240", "elevation_ft: high")
 	badSettings := corruptRow("pitcard.yaml", "dial_step: 0.01", "dial_step: 0.5")
+	trackKey := corruptRow("track.yaml", "elevation_ft: 2240", "elevation_ft: 2240\nsurface: concrete")
+	badLane := corruptRow("schedule.yaml", "lane: left", "lane: center")
+	nanCar := corruptRow("car.yaml", "limit_et: 10.00", "limit_et: .nan")
 	_ = os.WriteFile(filepath.Join(bad, "rules", "05-bad.lua"), []byte("function dial(ctx)\n  return ctx.nope.x\nend\n"), 0o644)
 	missing := filepath.Join(t.TempDir(), "nowhere")
 	src := filepath.Join(t.TempDir(), "rows.csv")
@@ -130,6 +133,9 @@ func TestBadInputTour(t *testing.T) {
 			{[]string{"card", "--dir", good, "--at", "8pm"}, 2, []string{"--at"}},
 			{[]string{"card", "--dir", badCar}, 2, []string{"car.yaml", "weight_lb"}},
 			{[]string{"card", "--dir", badTrack}, 2, []string{"track.yaml"}},
+			{[]string{"card", "--dir", trackKey}, 2, []string{"track.yaml line", "\"surface\" is not a key of this file", "elevation_ft, heading_deg, name, prep"}},
+			{[]string{"card", "--dir", badLane}, 2, []string{"schedule.yaml line 9", "lane \"center\"", "left or right"}},
+			{[]string{"card", "--dir", nanCar}, 2, []string{"car.yaml line 14", "limit_et", "not a finite number"}},
 			{[]string{"card", "--dir", good, "--out", filepath.Join(missing, "x", "card.html")}, 1, []string{"writing"}},
 		},
 		"round": {
