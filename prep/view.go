@@ -57,11 +57,11 @@ func newView(c Card) view {
 	call := "called " + in.Call.Format("15:04")
 	switch m := math.Round(c.MinutesToGo); {
 	case m > 0:
-		call += fmt.Sprintf(" (in %.0f min)", m)
+		call += " (in " + Minutes(time.Duration(m)*time.Minute) + ")"
 	case m == 0:
 		call += " (now)"
 	default:
-		call += fmt.Sprintf(" (%.0f min ago)", -m)
+		call += " (" + Minutes(time.Duration(-m)*time.Minute) + " ago)"
 	}
 	v.Subtitle = append(v.Subtitle, call)
 	car := orDash(in.Car.Name)
