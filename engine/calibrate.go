@@ -44,16 +44,17 @@ var timerSigma = [5]float64{0.012, 0.014, 0.016, 0.019, 0.022}
 
 const trapSigma = 0.6
 
-// priorSD is the prior's spread of each parameter (its centre is
-// DefaultParams). A natural engine follows the air closely (power ∝ 1/CF is
-// the physics of filling the cylinders), so its air exponent is held
-// tighter than a boosted engine's, whose boost control is unknown.
-func priorSD(ind Induction) Params {
-	p := Params{PowerScale: 0.25, TractionScale: 0.25, AirExponent: 0.15, TrackHot: 0.6}
+// priorSD is the prior's spread of each fitted parameter, in the fit's
+// terms (theta: logs of the scales and the curvature). A natural engine
+// follows the air closely (SAE J607's law is the physics of filling the
+// cylinders), so its exponents are held tighter than a boosted engine's,
+// whose boost control is unknown.
+func priorSD(ind Induction) theta {
+	t := theta{0.25, 0.25, 0.15, 0.25, 15, 0.8}
 	if ind == Turbo || ind == Supercharged {
-		p.AirExponent = 0.3
+		t[2], t[3] = 0.35, 0.3
 	}
-	return p
+	return t
 }
 
 // Sample is one logged pass prepared for the fit.
@@ -78,9 +79,9 @@ type Fit struct {
 	Track    Track // the track of the day
 	Vehicle  Vehicle
 	Params   Params
-	Cov      [4][4]float64 // covariance of the parameters (power and traction as logs)
-	Samples  []Sample      // the clean passes it fitted, most recent first
-	NoAir    []Pass        // clean passes logged without their weather, most recent first
+	Cov      [NP][NP]float64 // covariance of the parameters, in the fit's terms (theta)
+	Samples  []Sample        // the clean passes it fitted, most recent first
+	NoAir    []Pass          // clean passes logged without their weather, most recent first
 	Outliers []Outlier
 	Notes    []string // what the fit leaned on and assumed, in words
 	// PowerEstimated: car.yaml gave no power; it was estimated from the traps.
@@ -135,9 +136,9 @@ func Calibrate(in CalibrateInput) (Fit, error) {
 		f.Notes = append(f.Notes, note)
 	}
 	f.Vehicle = NewVehicle(in.Car, f.PowerHP)
-	f.Params = DefaultParams(in.Car.Induction)
+	f.Params = DefaultParamsFor(in.Car)
 	for k := range f.Cov {
-		f.Cov[k][k] = sq(priorSD(in.Car.Induction).at(k))
+		f.Cov[k][k] = sq(priorSD(in.Car.Induction)[k])
 	}
 	if len(clean) == 0 {
 		f.Notes = append(f.Notes, "no clean passes with their weather at this distance: physics from car.yaml alone")
@@ -212,22 +213,21 @@ func (f *Fit) sample(p Pass, in CalibrateInput, rank int) Sample {
 	return s
 }
 
-// The fit works on θ = (ln power scale, ln traction scale, air exponent,
-// hot-track scale).
-type theta [4]float64
+// NP is the number of fitted parameters.
+const NP = 6
+
+// The fit works on θ = (ln power scale, ln traction scale, pressure
+// exponent, temperature exponent, best track °F, ln track curvature).
+type theta [NP]float64
 
 func (p Params) theta() theta {
-	return theta{math.Log(p.PowerScale), math.Log(p.TractionScale), p.AirExponent, p.TrackHot}
+	return theta{math.Log(p.PowerScale), math.Log(p.TractionScale), p.PressureExp, p.TempExp, p.TrackOptF, math.Log(p.TrackCurve)}
 }
 
 func (t theta) params() Params {
 	c := func(v, lo, hi float64) float64 { return math.Max(lo, math.Min(hi, v)) }
 	return Params{PowerScale: math.Exp(c(t[0], -1.2, 1.2)), TractionScale: math.Exp(c(t[1], -1.2, 1.2)),
-		AirExponent: c(t[2], -0.5, 2), TrackHot: c(t[3], 0, 5)}
-}
-
-func (p Params) at(k int) float64 {
-	return [4]float64{p.PowerScale, p.TractionScale, p.AirExponent, p.TrackHot}[k]
+		PressureExp: c(t[2], -0.3, 2), TempExp: c(t[3], -0.5, 2), TrackOptF: c(t[4], 40, 180), TrackCurve: math.Exp(c(t[5], math.Log(0.0005), math.Log(0.05)))}
 }
 
 func sq(x float64) float64 { return x * x }
@@ -250,7 +250,7 @@ func huber(r float64) float64 {
 // residuals are the weighted residuals of every sample and the prior rows.
 func (f *Fit) residuals(th theta, runs []Run) []float64 {
 	p := th.params()
-	prior := DefaultParams(f.Car.Induction).theta()
+	prior := DefaultParamsFor(f.Car).theta()
 	sd := priorSD(f.Car.Induction)
 	var r []float64
 	for i := range f.Samples {
@@ -272,7 +272,7 @@ func (f *Fit) residuals(th theta, runs []Run) []float64 {
 		}
 	}
 	for k := range th {
-		r = append(r, (th[k]-prior[k])/sd.at(k))
+		r = append(r, (th[k]-prior[k])/sd[k])
 	}
 	return r
 }
@@ -284,10 +284,10 @@ func (f *Fit) fit() {
 	r := f.residuals(th, runs)
 	cost := dot(r, r)
 	lambda := 1e-3
-	var jtj [4][4]float64
+	var jtj [NP][NP]float64
 	for iter := 0; iter < 12; iter++ {
 		// Jacobian by forward differences.
-		var jac [4][]float64
+		var jac [NP][]float64
 		for k := range th {
 			h := 1e-4
 			t2 := th
@@ -298,25 +298,25 @@ func (f *Fit) fit() {
 				jac[k][i] = (rk[i] - r[i]) / h
 			}
 		}
-		var g [4]float64
-		for a := range 4 {
+		var g [NP]float64
+		for a := range NP {
 			g[a] = dot(jac[a], r)
-			for b := range 4 {
+			for b := range NP {
 				jtj[a][b] = dot(jac[a], jac[b])
 			}
 		}
 		improved := false
 		for try := 0; try < 8; try++ {
-			var m [4][4]float64
-			var rhs [4]float64
-			for a := range 4 {
-				for b := range 4 {
+			var m [NP][NP]float64
+			var rhs [NP]float64
+			for a := range NP {
+				for b := range NP {
 					m[a][b] = jtj[a][b]
 				}
 				m[a][a] *= 1 + lambda
 				rhs[a] = -g[a]
 			}
-			step, ok := solve4(m, rhs)
+			step, ok := solveNP(m, rhs)
 			if !ok {
 				lambda *= 10
 				continue
@@ -348,7 +348,7 @@ func (f *Fit) fit() {
 	for i := range f.Samples {
 		f.Samples[i].Sim = runs[i]
 	}
-	if inv, ok := invert4(jtj); ok {
+	if inv, ok := invertNP(jtj); ok {
 		f.Cov = inv
 	}
 }
@@ -361,11 +361,11 @@ func dot(a, b []float64) float64 {
 	return s
 }
 
-// solve4 solves m·x = b by Gaussian elimination with partial pivoting.
-func solve4(m [4][4]float64, b [4]float64) ([4]float64, bool) {
-	for c := range 4 {
+// solveNP solves m·x = b by Gaussian elimination with partial pivoting.
+func solveNP(m [NP][NP]float64, b [NP]float64) ([NP]float64, bool) {
+	for c := range NP {
 		p := c
-		for r := c + 1; r < 4; r++ {
+		for r := c + 1; r < NP; r++ {
 			if math.Abs(m[r][c]) > math.Abs(m[p][c]) {
 				p = r
 			}
@@ -375,18 +375,18 @@ func solve4(m [4][4]float64, b [4]float64) ([4]float64, bool) {
 		}
 		m[c], m[p] = m[p], m[c]
 		b[c], b[p] = b[p], b[c]
-		for r := c + 1; r < 4; r++ {
+		for r := c + 1; r < NP; r++ {
 			k := m[r][c] / m[c][c]
-			for cc := c; cc < 4; cc++ {
+			for cc := c; cc < NP; cc++ {
 				m[r][cc] -= k * m[c][cc]
 			}
 			b[r] -= k * b[c]
 		}
 	}
-	var x [4]float64
-	for r := 3; r >= 0; r-- {
+	var x [NP]float64
+	for r := NP - 1; r >= 0; r-- {
 		s := b[r]
-		for c := r + 1; c < 4; c++ {
+		for c := r + 1; c < NP; c++ {
 			s -= m[r][c] * x[c]
 		}
 		x[r] = s / m[r][r]
@@ -394,16 +394,16 @@ func solve4(m [4][4]float64, b [4]float64) ([4]float64, bool) {
 	return x, true
 }
 
-func invert4(m [4][4]float64) ([4][4]float64, bool) {
-	var inv [4][4]float64
-	for c := range 4 {
-		var e [4]float64
+func invertNP(m [NP][NP]float64) ([NP][NP]float64, bool) {
+	var inv [NP][NP]float64
+	for c := range NP {
+		var e [NP]float64
 		e[c] = 1
-		x, ok := solve4(m, e)
+		x, ok := solveNP(m, e)
 		if !ok {
 			return inv, false
 		}
-		for r := range 4 {
+		for r := range NP {
 			inv[r][c] = x[r]
 		}
 	}

@@ -125,21 +125,36 @@ const WattPerHP = 745.69987
 type Params struct {
 	PowerScale    float64 // × the car's power (1 = car.yaml is right)
 	TractionScale float64 // × the tire's μ
-	AirExponent   float64 // power ∝ CF^−AirExponent (1 for a natural engine)
-	TrackHot      float64 // × the default loss of traction on a hot track
+	// How the engine's power follows the air: power ∝ (dry-air pressure /
+	// 99 kPa)^PressureExp × (298.15 K / air temperature)^TempExp. SAE J607's
+	// correction is exactly 1 and ½ (a natural engine breathes dry air by
+	// pressure over the square root of temperature); a boost-controlled
+	// engine feels the pressure much less.
+	PressureExp, TempExp float64
+	// The tire's grip against the surface temperature: best at TrackOptF,
+	// falling by TrackCurve per (10 °F)² away from it on either side.
+	TrackOptF, TrackCurve float64
 }
 
-// DefaultParams are the prior's centre for a car: what car.yaml says, and
-// how its induction follows the air (reference: NA ∝ 1/CF; boost-controlled
-// turbo or blower about 0.3–0.6 of that, from memory; a nitrous shot not at all).
+// DefaultParams are the prior's centre for a car of induction ind on drag
+// radials: what car.yaml says, SAE J607's air law for a natural engine
+// (a boost-controlled turbo or blower about a third to a half of its
+// pressure exponent, from memory; a nitrous shot not at all).
 func DefaultParams(ind Induction) Params {
-	p := Params{PowerScale: 1, TractionScale: 1, AirExponent: 1, TrackHot: 1}
+	p := Params{PowerScale: 1, TractionScale: 1, PressureExp: 1, TempExp: 0.5, TrackOptF: TrackBestF, TrackCurve: TrackCurveDefault}
 	switch ind {
 	case Turbo:
-		p.AirExponent = 0.4
+		p.PressureExp = 0.3
 	case Supercharged:
-		p.AirExponent = 0.5
+		p.PressureExp = 0.5
 	}
+	return p
+}
+
+// DefaultParamsFor is DefaultParams with the tire's best surface temperature.
+func DefaultParamsFor(c Car) Params {
+	p := DefaultParams(c.Induction)
+	p.TrackOptF = TireBestF(c.Tire)
 	return p
 }
 
@@ -147,6 +162,8 @@ func DefaultParams(ind Induction) Params {
 type Env struct {
 	Density   float64             // air density, kg/m³
 	CF        float64             // SAE J1349 correction factor
+	DryRatio  float64             // dry-air pressure over 99 kPa
+	TempRatio float64             // 298.15 K over the air temperature
 	Headwind  float64             // wind against the car, m/s (negative: tailwind)
 	TrackTemp weather.Temperature // surface temperature
 	Prep      float64             // 0 none .. 1 full
@@ -162,7 +179,8 @@ func NewEnv(r weather.Reading, heading, prep, massKg float64) Env {
 	if !r.HasTrack {
 		track = weather.Fahrenheit(r.Temp.Fahrenheit() + 10)
 	}
-	return Env{Density: a.Density, CF: a.CFJ1349, Headwind: float64(r.HeadwindComponent(heading)),
+	return Env{Density: a.Density, CF: a.CFJ1349, DryRatio: float64(a.Dry) / 99000, TempRatio: 298.15 / float64(r.Temp),
+		Headwind:  float64(r.HeadwindComponent(heading)),
 		TrackTemp: track, Prep: prep, MassKg: massKg}
 }
 
@@ -208,9 +226,9 @@ func Simulate(v *Vehicle, p Params, env Env, distanceFt float64) Run {
 	if m <= 0 {
 		m = v.MassKg
 	}
-	cf := math.Max(env.CF, 0.3)
-	power := v.Efficiency * (v.PowerW*p.PowerScale*math.Pow(cf, -p.AirExponent) + v.NitrousW)
-	mu := v.TireMu * p.TractionScale * PrepFactor(env.Prep) * TrackTempFactor(env.TrackTemp, p.TrackHot)
+	air := math.Pow(math.Max(env.DryRatio, 0.3), p.PressureExp) * math.Pow(math.Max(env.TempRatio, 0.5), p.TempExp)
+	power := v.Efficiency * (v.PowerW*p.PowerScale*air + v.NitrousW)
+	mu := v.TireMu * p.TractionScale * PrepFactor(env.Prep) * TrackTempFactor(env.TrackTemp, p.TrackOptF, p.TrackCurve)
 	run.Power, run.Mu = power, mu
 	// Traction with weight transfer: F = μ(m g r + F h/L) ⇒ F = μ m g r/(1 − μ h/L),
 	// at most μ m g (every pound on the rear tires: the front wheels are up).

@@ -75,8 +75,10 @@ func TestAirSensitivity(t *testing.T) {
 	p := DefaultParams(Nitrous)
 	r0 := Simulate(&v, p, NewEnv(base, 0, 1, v.MassKg), 1320)
 	r1 := Simulate(&v, p, NewEnv(worse, 0, 1, v.MassKg), 1320)
-	engine0 := v.Efficiency * v.PowerW * math.Pow(NewEnv(base, 0, 1, 0).CF, -1)
-	engine1 := v.Efficiency * v.PowerW * math.Pow(NewEnv(worse, 0, 1, 0).CF, -1)
+	// the engine's own part follows SAE J607's law: dry pressure over √T
+	airOf := func(e Env) float64 { return e.DryRatio * math.Sqrt(e.TempRatio) }
+	engine0 := v.Efficiency * v.PowerW * airOf(NewEnv(base, 0, 1, 0))
+	engine1 := v.Efficiency * v.PowerW * airOf(NewEnv(worse, 0, 1, 0))
 	if shot0, shot1 := r0.Power-engine0, r1.Power-engine1; math.Abs(shot0-shot1) > 1e-6 || math.Abs(shot0-v.Efficiency*150*WattPerHP) > 1e-6 {
 		t.Errorf("nitrous shot %v W in good air, %v W in bad", shot0, shot1)
 	}

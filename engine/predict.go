@@ -234,67 +234,70 @@ func Predict(f Fit, in PredictInput) Prediction {
 		return pr
 	}
 
-	// Weights of the residual correction.
-	halfLife := chooseHalfLife(f.Samples, timerIndex(dist))
-	w := make([]float64, len(f.Samples))
-	var wsum, w2 float64
-	for i, s := range f.Samples {
-		age := in.Time.Sub(s.Pass.Time).Hours() / 24
-		w[i] = math.Pow(0.5, float64(i)/halfLife) * math.Pow(0.5, math.Max(age, 0)/BiasHalfLifeDays)
-		if sameDay(s.Pass.Time, in.Time) {
-			w[i] *= SameDayWeight
-		}
-		if !strings.EqualFold(s.Pass.Track, f.Track.Name) {
-			w[i] *= OtherTrackWeight
-		}
-		wsum += w[i]
+	// The correction: the structure of the model's residuals (base, today,
+	// drift through the day), timer by timer.
+	fj := timerIndex(dist)
+	has := func(j int) func(Sample) (float64, bool) {
+		return func(s Sample) (float64, bool) { return s.Obs[j] - s.Sim.ET[j], !math.IsNaN(s.Obs[j]) }
 	}
-	for i := range w {
-		w[i] /= wsum
-		w2 += w[i] * w[i]
+	fin := fitResiduals(f.Samples, has(fj), in.Time, timerPriors(fj, fj))
+	w := fin.Weights
+	var w2 float64
+	for _, x := range w {
+		w2 += x * x
 	}
-	kEff := 1 / w2
+	kEff := 1 / math.Max(w2, 1e-9)
 	extra, paramSD := 0.0, 0.0
 	if !in.Quick {
 		extra, paramSD = extrapolation(pr.Sensitivity), parameterSpread(f, env, w)
 	}
-
-	fj := timerIndex(dist)
-	_, finSD := weightedResiduals(f.Samples, w, func(s Sample) (float64, bool) {
-		return s.Obs[fj] - s.Sim.ET[fj], !math.IsNaN(s.Obs[fj])
-	})
-	relSD := finSD / model.ETAt(dist)
+	relSD := math.Sqrt(fin.Var()) / model.ETAt(dist)
+	logged := func(res func(Sample) (float64, bool)) bool {
+		for _, s := range f.Samples {
+			if _, ok := res(s); ok {
+				return true
+			}
+		}
+		return false
+	}
 	var unlogged []string
 	for _, ft := range timers {
 		j := timerIndex(ft)
-		bias, resSD := weightedResiduals(f.Samples, w, func(s Sample) (float64, bool) {
-			return s.Obs[j] - s.Sim.ET[j], !math.IsNaN(s.Obs[j])
-		})
-		if resSD == 0 { // no pass logged this timer: the model's, with twice the finish's relative spread
-			resSD = 2 * relSD * model.ET[j]
+		et, sd := model.ET[j], 2*relSD*model.ET[j]
+		rf := residualFit{}
+		if logged(has(j)) {
+			rf = fitResiduals(f.Samples, has(j), in.Time, timerPriors(j, fj))
+			et += rf.Mean()
+			sd = math.Sqrt(rf.Var())
+		} else { // no pass logged this timer: the model's, with twice the finish's relative spread
 			unlogged = append(unlogged, fmt.Sprintf("%.0f ft", ft))
 		}
-		et := model.ET[j] + bias
 		scale := et / model.ETAt(dist) // extrapolation and parameters scale with the ET
-		sd := math.Sqrt(sq(resSD)*(1+1/kEff) + sq(paramSD*scale) + sq(extra*scale))
+		sd = math.Sqrt(sq(sd) + sq(paramSD*scale) + sq(extra*scale))
 		pr.Timers = append(pr.Timers, Timer{DistanceFt: ft, ET: et, SD: sd, Low: et - IntervalZ*sd, High: et + IntervalZ*sd,
-			PhysicsOnly: model.ET[j], ResidualSpread: resSD})
+			PhysicsOnly: model.ET[j], ResidualSpread: math.Sqrt(rf.Sigma2)})
+	}
+	if j := fin; j.TodayN == 0 {
+		pr.Notes = append(pr.Notes, fmt.Sprintf("the first pass of the day: the interval carries the day-to-day spread (±%.3f s)", math.Sqrt(j.Tau2)))
 	}
 	for j, ft := range []float64{660, 1320} {
 		if ft > dist {
 			continue
 		}
 		sim := []float64{model.MPH660, model.MPH1320}[j]
-		bias, resSD := weightedResiduals(f.Samples, w, func(s Sample) (float64, bool) {
+		res := func(s Sample) (float64, bool) {
 			return s.Trap[j] - []float64{s.Sim.MPH660, s.Sim.MPH1320}[j], !math.IsNaN(s.Trap[j])
-		})
-		if resSD == 0 { // no pass logged this trap
-			resSD = 2 * relSD * sim
+		}
+		mph, sd := sim, 2*relSD*sim
+		if logged(res) {
+			rf := fitResiduals(f.Samples, res, in.Time, trapPriors)
+			mph += rf.Mean()
+			sd = math.Sqrt(rf.Var())
+		} else {
 			unlogged = append(unlogged, fmt.Sprintf("the %.0f-ft trap", ft))
 		}
-		mph := sim + bias
 		rel := (paramSD + extra) / pr.Finish().ET // the ET's relative model uncertainty, carried to the speed
-		sd := math.Sqrt(sq(resSD)*(1+1/kEff) + sq(mph*rel))
+		sd = math.Sqrt(sq(sd) + sq(mph*rel))
 		pr.Traps = append(pr.Traps, Trap{DistanceFt: ft, MPH: mph, SD: sd, Low: mph - IntervalZ*sd, High: mph + IntervalZ*sd})
 	}
 	if len(unlogged) > 0 {
@@ -419,15 +422,15 @@ func parameterSpread(f Fit, env Env, w []float64) float64 {
 	}
 	th := f.Params.theta()
 	base := change(f.Params)
-	var g [4]float64
+	var g [NP]float64
 	for k := range th {
 		t2 := th
 		t2[k] += 1e-4
 		g[k] = (change(t2.params()) - base) / 1e-4
 	}
 	var v float64
-	for a := range 4 {
-		for b := range 4 {
+	for a := range NP {
+		for b := range NP {
 			v += g[a] * f.Cov[a][b] * g[b]
 		}
 	}

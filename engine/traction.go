@@ -18,15 +18,29 @@ import (
 //     drag radials 1.6, slicks 2.0.
 //   - Prep: none 0.70, light 0.85, full 1.00 of that (or a number 0..1 from
 //     none to full).
-//   - Surface temperature: best near 100 °F; above it the rubber and the
-//     traction compound go greasy, losing 0.25 % of μ per °F (140 °F costs
-//     10 %); below it the surface is hard and cold, losing 0.15 % per °F.
-//     The factor never falls below 0.6.
+//   - Surface temperature: each tire grips best inside a band (street tires
+//     near 100 °F, drag radials 110, slicks 120); below it the rubber is
+//     hard and the track lacks bite, above it the surface turns greasy. The
+//     loss is taken as quadratic on both sides, TrackCurveDefault (0.6 %)
+//     per (10 °F)² away from the best: 40 °F off costs about 10 %. The best
+//     temperature and the curvature are fitted per car from its 60-ft
+//     times. The factor never falls below 0.6.
 const (
-	TrackBestF        = 100.0  // °F
-	TrackHotLossPerF  = 0.0025 // fraction of μ per °F above TrackBestF
-	TrackColdLossPerF = 0.0015 // fraction of μ per °F below TrackBestF
+	TrackBestF        = 110.0 // °F, a drag radial's best
+	TrackCurveDefault = 0.006 // fraction of μ per (10 °F)²
 )
+
+// TireBestF is the surface temperature a tire kind grips best at, °F (the
+// prior's centre; common practice, from memory).
+func TireBestF(tire string) float64 {
+	switch strings.ToLower(tire) {
+	case "street":
+		return 100
+	case "slick":
+		return 120
+	}
+	return TrackBestF
+}
 
 // TireMu is μ of a tire kind on a fully prepped track at its best temperature.
 func TireMu(tire string) float64 {
@@ -61,16 +75,10 @@ func ParsePrep(s string) (float64, error) {
 func PrepFactor(p float64) float64 { return 0.70 + 0.30*p }
 
 // TrackTempFactor is the share of best-temperature traction at surface
-// temperature t; hot scales the loss above TrackBestF (1 = the default slope).
-func TrackTempFactor(t weather.Temperature, hot float64) float64 {
-	f := t.Fahrenheit()
-	var x float64
-	if f > TrackBestF {
-		x = 1 - hot*TrackHotLossPerF*(f-TrackBestF)
-	} else {
-		x = 1 - TrackColdLossPerF*(TrackBestF-f)
-	}
-	return math.Max(0.6, math.Min(1, x))
+// temperature t, for a tire best at optF losing curve per (10 °F)² from it.
+func TrackTempFactor(t weather.Temperature, optF, curve float64) float64 {
+	d := (t.Fahrenheit() - optF) / 10
+	return math.Max(0.6, math.Min(1, 1-curve*d*d))
 }
 
 // PrepName names a prep level in words.

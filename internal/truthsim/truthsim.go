@@ -81,9 +81,13 @@ type World struct {
 // Pass is one generated pass: the slip and conditions as a crew logs them,
 // and what the truth knows of it.
 type Pass struct {
-	Logged  engine.Pass
-	Oracle  [5]float64 // the run without the per-pass noise, s (NaN past the distance)
-	Aborted bool       // lifted, pedalled: not the car's time
+	Logged engine.Pass
+	Oracle [5]float64 // the run without the per-pass noise, s (NaN past the distance)
+	// Typical is the run without the noise and with the day's tune-up and
+	// prep at their usual: what the physics alone says before the day shows
+	// its hand.
+	Typical [5]float64
+	Aborted bool // lifted, pedalled: not the car's time
 	Day     int
 	InDay   int // 0 for the day's first pass
 }
@@ -158,11 +162,14 @@ func (w World) Season() []Pass {
 			noise := noiseOf(r)
 			ran := w.simulate(dy, c, mass, noise, abort)
 			oracle := w.simulate(dy, c, mass, quiet, false)
+			usual := dy
+			usual.tune, usual.prep, usual.bottle = 1, 1, 1
+			typical := w.simulate(usual, c, mass, quiet, false)
 			p := w.logged(c, t, k, mass, ran, r)
 			if abort && r.Float64() < 0.5 {
 				p.Notes = "lifted"
 			}
-			out = append(out, Pass{Logged: p, Oracle: oracle.et, Aborted: abort, Day: d, InDay: k})
+			out = append(out, Pass{Logged: p, Oracle: oracle.et, Typical: typical.et, Aborted: abort, Day: d, InDay: k})
 			fuel = math.Min(fuel+w.Car.BurnLb, w.Car.FuelLb)
 			t = t.Add(time.Duration(40+r.IntN(50)) * time.Minute)
 		}
@@ -429,7 +436,9 @@ func (w World) String() string {
 // racing; street tires to slicks; converters and clutches; sea level to
 // 5000 ft. Invented cars at invented tracks.
 func Worlds() []World {
-	w := func(seed uint64, c Car, t Track) World { return World{Car: c, Track: t, Seed: seed, Days: 12, PassesPerDay: 7} }
+	w := func(seed uint64, c Car, t Track) World {
+		return World{Car: c, Track: t, Seed: seed, Days: 12, PassesPerDay: 7}
+	}
 	low := Track{Name: "Saltmarsh Flats", ElevationFt: 20, HeadingDeg: 350}
 	mid := Track{Name: "Cedar Bench", ElevationFt: 2500, HeadingDeg: 75}
 	high := Track{Name: "Granite Mesa", ElevationFt: 5000, HeadingDeg: 200}

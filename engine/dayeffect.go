@@ -1,0 +1,253 @@
+package engine
+
+import (
+	"math"
+	"sort"
+	"time"
+)
+
+// What the calibrated physics gets wrong has a structure, and the prediction
+// carries it: a level the car holds over weeks (the base), an offset each
+// race day brings (the tune-up, tire pressures, the track's prep that day: a
+// random effect, so a day with few passes leans on the base and a day with
+// many on itself), a drift through the day as rubber goes down and the
+// surface cools (a slope in hours since the day's first pass, shared by the
+// days), and the pass-to-pass scatter. For one timer's residuals r (logged
+// minus model):
+//
+//	r = base + day + slope·hours + noise,  day ~ N(0, τ²), noise ~ N(0, σ²)
+//
+// σ² is measured within days, τ² between them (method of moments), the slope
+// by the days' pooled within-day regression shrunk toward none; the base is
+// the recency-weighted, precision-weighted mean of the earlier days; today's
+// offset is the mean of today's passes shrunk by n·τ²/(n·τ² + σ²). A first
+// pass of the day carries the whole τ² in its interval.
+
+// residualPriors are what the structure assumes before the logbook shows
+// otherwise, in the residual's unit (s for a timer, mph for a trap).
+type residualPriors struct {
+	Sigma, Tau, Slope float64 // scatter, day-to-day spread, drift per hour
+	MinSigma, MinTau  float64
+}
+
+// timerPriors are the priors of timer j's residuals: the scatter of the
+// fit's weights (timerSigma), a day-to-day spread of DefaultTau at the
+// finish, less at the early timers.
+func timerPriors(j, fin int) residualPriors {
+	share := (float64(j) + 1) / (float64(fin) + 1)
+	return residualPriors{Sigma: timerSigma[j], Tau: DefaultTau * (0.3 + 0.7*share), Slope: SlopePriorSD * (0.3 + 0.7*share),
+		MinSigma: MinSD * (0.5 + 0.5*share), MinTau: MinTau * (0.5 + 0.5*share)}
+}
+
+// trapPriors are the priors of a trap speed's residuals, mph.
+var trapPriors = residualPriors{Sigma: trapSigma, Tau: 0.5, Slope: 0.2, MinSigma: 0.15, MinTau: 0.1}
+
+// Settings of the residual structure.
+const (
+	// DayHalfLife: a race day's weight in the base halves every this many
+	// race days back (and every BiasHalfLifeDays of calendar).
+	DayHalfLife = 6.0
+	// SlopePriorSD is the prior spread of the within-day drift, s per hour:
+	// rubber and a cooling track are worth a few hundredths over an evening
+	// (common practice, no source).
+	SlopePriorSD = 0.01
+	// MinTau is the least day-to-day spread admitted, s: even a steady car
+	// moves a little from one race day to the next.
+	MinTau = 0.006
+	// DefaultTau is the day-to-day spread taken before the logbook has the
+	// days to measure it, s (common practice, from memory: a bracket car's
+	// day-to-day change is a few hundredths).
+	DefaultTau = 0.02
+)
+
+// residualFit is the fitted structure of one timer's residuals.
+type residualFit struct {
+	Base, BaseVar   float64
+	Slope, SlopeVar float64 // s per hour since the day's first pass
+	Sigma2, Tau2    float64
+	Today, TodayVar float64 // today's offset and its uncertainty
+	TodayN          int
+	Hours           float64 // hours of the predicted pass since today's first
+	Weights         []float64
+}
+
+// Mean is the correction the structure gives the predicted pass.
+func (r residualFit) Mean() float64 { return r.Base + r.Today + r.Slope*r.Hours }
+
+// Var is the variance of the predicted pass around the model plus Mean:
+// its own scatter and what is not known of the base, today and the slope.
+func (r residualFit) Var() float64 {
+	return r.Sigma2 + r.BaseVar + r.TodayVar + r.Hours*r.Hours*r.SlopeVar
+}
+
+// fitResiduals fits the structure to the samples' residuals, res(s) giving
+// one sample's residual and whether it has one, for a pass at time now.
+// Weights are each sample's share of Mean (they add to 1), for the
+// explanation and the parameters' uncertainty.
+func fitResiduals(ss []Sample, res func(Sample) (float64, bool), now time.Time, pri residualPriors) residualFit {
+	type obs struct {
+		i     int
+		r, h  float64
+		day   string
+		today bool
+	}
+	dayKey := func(t time.Time) string { return t.Format("2006-01-02") }
+	first := map[string]time.Time{}
+	for _, s := range ss {
+		k := dayKey(s.Pass.Time)
+		if f, ok := first[k]; !ok || s.Pass.Time.Before(f) {
+			first[k] = s.Pass.Time
+		}
+	}
+	today := dayKey(now)
+	var os []obs
+	byDay := map[string][]int{}
+	for i, s := range ss {
+		r, ok := res(s)
+		if !ok {
+			continue
+		}
+		k := dayKey(s.Pass.Time)
+		o := obs{i: i, r: r, h: s.Pass.Time.Sub(first[k]).Hours(), day: k, today: k == today && !s.Pass.Time.After(now)}
+		byDay[k] = append(byDay[k], len(os))
+		os = append(os, o)
+	}
+	out := residualFit{Weights: make([]float64, len(ss)), Sigma2: sq(pri.Sigma), Tau2: sq(pri.Tau), SlopeVar: sq(pri.Slope)}
+	if f, ok := first[today]; ok && !f.After(now) {
+		out.Hours = now.Sub(f).Hours()
+	}
+	if len(os) == 0 {
+		out.BaseVar = sq(PhysicsOnlySpread * 10) // nothing to go on: stands for "unknown"
+		return out
+	}
+	// Within days: the pooled slope and scatter.
+	var sxy, sxx, within float64
+	withinN := 0
+	dayMean := map[string][2]float64{} // mean r, mean h
+	for k, idx := range byDay {
+		var mr, mh float64
+		for _, j := range idx {
+			mr += os[j].r
+			mh += os[j].h
+		}
+		mr /= float64(len(idx))
+		mh /= float64(len(idx))
+		dayMean[k] = [2]float64{mr, mh}
+		if len(idx) < 2 {
+			continue
+		}
+		for _, j := range idx {
+			sxy += (os[j].h - mh) * (os[j].r - mr)
+			sxx += sq(os[j].h - mh)
+		}
+		withinN += len(idx) - 1
+	}
+	sigma2 := sq(pri.Sigma)
+	slope := 0.0
+	for range 2 { // the slope's shrinkage needs σ², σ² needs the slope
+		slope = sxy / (sxx + sigma2/sq(pri.Slope))
+		within = 0
+		for k, idx := range byDay {
+			if len(idx) < 2 {
+				continue
+			}
+			m := dayMean[k]
+			for _, j := range idx {
+				within += sq(os[j].r - m[0] - slope*(os[j].h-m[1]))
+			}
+		}
+		if withinN >= 3 {
+			// with a few degrees of freedom, lean on the prior scatter
+			sigma2 = (within + 3*sq(pri.Sigma)) / float64(withinN-1+3)
+		}
+	}
+	sigma2 = math.Max(sigma2, sq(pri.MinSigma))
+	out.Sigma2, out.Slope = sigma2, slope
+	out.SlopeVar = 1 / (sxx/sigma2 + 1/sq(pri.Slope))
+	// Between days: each day's level with the slope taken out.
+	type dayLevel struct {
+		key   string
+		level float64
+		n     int
+		last  time.Time
+	}
+	var days []dayLevel
+	var todayLevel *dayLevel
+	for k, idx := range byDay {
+		var lv float64
+		last := time.Time{}
+		for _, j := range idx {
+			lv += os[j].r - slope*os[j].h
+			if t := ss[os[j].i].Pass.Time; t.After(last) {
+				last = t
+			}
+		}
+		d := dayLevel{key: k, level: lv / float64(len(idx)), n: len(idx), last: last}
+		if k == today {
+			todayLevel = &d
+			continue
+		}
+		days = append(days, d)
+	}
+	sort.Slice(days, func(a, b int) bool { return days[a].last.After(days[b].last) })
+	tau2 := sq(pri.Tau)
+	if len(days) >= 3 {
+		var mean, v, noise float64
+		for _, d := range days {
+			mean += d.level
+		}
+		mean /= float64(len(days))
+		for _, d := range days {
+			v += sq(d.level - mean)
+			noise += sigma2 / float64(d.n)
+		}
+		est := v/float64(len(days)-1) - noise/float64(len(days))
+		// lean on the default with few days, as for σ²
+		tau2 = (est*float64(len(days)-1) + 2*sq(pri.Tau)) / float64(len(days)-1+2)
+	}
+	tau2 = math.Max(tau2, sq(pri.MinTau))
+	out.Tau2 = tau2
+	// The base: earlier days, recent ones and well-measured ones more.
+	dayW := make([]float64, len(days))
+	var sw, base, bvar float64
+	for r, d := range days {
+		age := now.Sub(d.last).Hours() / 24
+		dayW[r] = math.Pow(0.5, float64(r)/DayHalfLife) * math.Pow(0.5, math.Max(age, 0)/(BiasHalfLifeDays*4)) / (tau2 + sigma2/float64(d.n))
+		sw += dayW[r]
+	}
+	if sw > 0 {
+		for r, d := range days {
+			dayW[r] /= sw
+			base += dayW[r] * d.level
+			bvar += sq(dayW[r]) * (tau2 + sigma2/float64(d.n))
+		}
+	} else {
+		bvar = tau2 + sigma2
+	}
+	out.Base, out.BaseVar = base, bvar
+	// Today: its own passes, shrunk toward the base.
+	k := 0.0
+	if todayLevel != nil {
+		n := float64(todayLevel.n)
+		k = n * tau2 / (n*tau2 + sigma2)
+		out.Today = k * (todayLevel.level - base)
+		out.TodayVar = tau2 * sigma2 / (n*tau2 + sigma2)
+		out.TodayN = todayLevel.n
+		// the base's own uncertainty is shrunk away with it
+		out.BaseVar *= sq(1 - k)
+	} else {
+		out.TodayVar = tau2
+	}
+	// Each sample's share of the correction.
+	for r, d := range days {
+		for _, j := range byDay[d.key] {
+			out.Weights[os[j].i] += (1 - k) * dayW[r] / float64(d.n)
+		}
+	}
+	if todayLevel != nil {
+		for _, j := range byDay[today] {
+			out.Weights[os[j].i] += k / float64(todayLevel.n)
+		}
+	}
+	return out
+}

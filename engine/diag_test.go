@@ -1,0 +1,58 @@
+package engine_test
+
+import (
+	"fmt"
+	"math"
+	"os"
+	"testing"
+
+	"pitcard/engine"
+	"pitcard/internal/truthsim"
+)
+
+func corr(x, y []float64) float64 {
+	mx, my := meanOf(x), meanOf(y)
+	var sxy, sxx, syy float64
+	for i := range x {
+		sxy += (x[i] - mx) * (y[i] - my)
+		sxx += (x[i] - mx) * (x[i] - mx)
+		syy += (y[i] - my) * (y[i] - my)
+	}
+	return sxy / math.Sqrt(sxx*syy)
+}
+
+func TestDiag(t *testing.T) {
+	if os.Getenv("DIAG") == "" {
+		t.Skip()
+	}
+	for i, w := range truthsim.Worlds() {
+		passes := w.Season()
+		car, trk := w.CarYAML(claims[i]), w.EngineTrack()
+		logged := make([]engine.Pass, len(passes))
+		for i, p := range passes {
+			logged[i] = p.Logged
+		}
+		var res, tt, at, hr, inday, da, wt, typ []float64
+		for k, p := range passes {
+			if p.Day < w.Days-5 || p.Aborted {
+				continue
+			}
+			fit, _ := engine.Calibrate(engine.CalibrateInput{Car: car, Track: trk, Passes: logged[:k], Now: p.Logged.Time})
+			pr := engine.Predict(fit, engine.PredictInput{Air: p.Logged.Air, Prep: 1, WeightLb: p.Logged.WeightLb, Time: p.Logged.Time})
+			actual, _ := p.Logged.ETAt(w.Car.DistanceFt)
+			res = append(res, actual-pr.Finish().ET)
+			tt = append(tt, p.Logged.Air.TrackTemp.Fahrenheit())
+			at = append(at, p.Logged.Air.Temp.Fahrenheit())
+			hr = append(hr, float64(p.Logged.Time.Hour())+float64(p.Logged.Time.Minute())/60)
+			inday = append(inday, float64(p.InDay))
+			da = append(da, p.Logged.Air.Derive(0).DensityAltitude.Feet())
+			wt = append(wt, p.Logged.WeightLb)
+			typ = append(typ, actual-p.Typical[truthsim.FinishIndex(w.Car.DistanceFt)])
+			if k == len(passes)-1 {
+				fmt.Printf("   params %+v\n", fit.Params)
+			}
+		}
+		fmt.Printf("%s: mean res %+.4f; corr track %.2f air %.2f hour %.2f inday %.2f DA %.2f | truth-typical corr track %.2f\n", w.Car.Name, meanOf(res),
+			corr(res, tt), corr(res, at), corr(res, hr), corr(res, inday), corr(res, da), corr(typ, tt))
+	}
+}
