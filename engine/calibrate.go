@@ -20,6 +20,9 @@ import (
 
 // Calibration settings.
 const (
+	// NuisanceRounds is how many times the day offsets are estimated and the
+	// physics refitted around them.
+	NuisanceRounds = 2
 	// FitWindow is the most clean passes a fit uses (the most recent).
 	FitWindow = 40
 	// FitHalfLifeDays and FitHalfLifePasses set the recency weights of the
@@ -50,7 +53,7 @@ const trapSigma = 0.6
 // cylinders), so its exponents are held tighter than a boosted engine's,
 // whose boost control is unknown.
 func priorSD(ind Induction) theta {
-	t := theta{0.25, 0.25, 0.15, 0.25, 15, 0.8}
+	t := theta{0.25, 0.25, 0.15, 0.25, 15, 0.3}
 	if ind == Turbo || ind == Supercharged {
 		t[2], t[3] = 0.35, 0.3
 	}
@@ -65,6 +68,11 @@ type Sample struct {
 	Trap   [2]float64 // logged trap speeds at 660 and 1320, NaN where not timed
 	Weight float64    // recency × track weight
 	Sim    Run        // the calibrated model's run in this pass's conditions
+	// Nuisance is what the fit takes out of the logged times before it
+	// compares them with the physics: this pass's day offset and the drift
+	// through its day, at each timer and trap (see nuisance).
+	Nuisance     [5]float64
+	TrapNuisance [2]float64
 }
 
 // Outlier is a pass the fit left out, and why.
@@ -87,6 +95,8 @@ type Fit struct {
 	// PowerEstimated: car.yaml gave no power; it was estimated from the traps.
 	PowerEstimated bool
 	PowerHP        float64
+	// Weight estimates the car's weight where a pass has none logged.
+	Weight *weightModel
 }
 
 // CalibrateInput is what a fit needs.
@@ -136,6 +146,13 @@ func Calibrate(in CalibrateInput) (Fit, error) {
 		f.Notes = append(f.Notes, note)
 	}
 	f.Vehicle = NewVehicle(in.Car, f.PowerHP)
+	var before []Pass
+	for _, p := range in.Passes {
+		if !p.Time.After(in.Now) {
+			before = append(before, p)
+		}
+	}
+	f.Weight = newWeightModel(in.Car, before)
 	f.Params = DefaultParamsFor(in.Car)
 	for k := range f.Cov {
 		f.Cov[k][k] = sq(priorSD(in.Car.Induction)[k])
@@ -172,6 +189,14 @@ func Calibrate(in CalibrateInput) (Fit, error) {
 		f.Samples = kept
 		f.fit()
 	}
+	// The day offsets and the drift through the day, as nuisances: taken out
+	// of the logged times so the physics learns the air's and the track's
+	// effects from what changes within and across days, not from one day's
+	// tune-up that happened to come with a low barometer.
+	for range NuisanceRounds {
+		f.nuisance()
+		f.fit()
+	}
 	sort.SliceStable(f.Outliers, func(i, j int) bool { return f.Outliers[i].Pass.Time.After(f.Outliers[j].Pass.Time) })
 	return f, nil
 }
@@ -191,8 +216,11 @@ func (f *Fit) sample(p Pass, in CalibrateInput, rank int) Sample {
 		prep = 1
 	}
 	mass := in.Car.WeightLb * weather.KgPerLb
-	if p.WeightLb > 0 {
+	switch {
+	case p.WeightLb > 0:
 		mass = p.WeightLb * weather.KgPerLb
+	case f.Weight != nil:
+		mass = f.Weight.At(p.Time) * weather.KgPerLb
 	}
 	age := in.Now.Sub(p.Time).Hours() / 24
 	weight *= math.Max(math.Pow(0.5, age/FitHalfLifeDays), FitAgeFloor) * math.Pow(0.5, float64(rank)/FitHalfLifePasses)
@@ -217,17 +245,17 @@ func (f *Fit) sample(p Pass, in CalibrateInput, rank int) Sample {
 const NP = 6
 
 // The fit works on θ = (ln power scale, ln traction scale, pressure
-// exponent, temperature exponent, best track °F, ln track curvature).
+// exponent, temperature exponent, best track °F, ln track width).
 type theta [NP]float64
 
 func (p Params) theta() theta {
-	return theta{math.Log(p.PowerScale), math.Log(p.TractionScale), p.PressureExp, p.TempExp, p.TrackOptF, math.Log(p.TrackCurve)}
+	return theta{math.Log(p.PowerScale), math.Log(p.TractionScale), p.PressureExp, p.TempExp, p.TrackOptF, math.Log(p.TrackWidthF)}
 }
 
 func (t theta) params() Params {
 	c := func(v, lo, hi float64) float64 { return math.Max(lo, math.Min(hi, v)) }
 	return Params{PowerScale: math.Exp(c(t[0], -1.2, 1.2)), TractionScale: math.Exp(c(t[1], -1.2, 1.2)),
-		PressureExp: c(t[2], -0.3, 2), TempExp: c(t[3], -0.5, 2), TrackOptF: c(t[4], 40, 180), TrackCurve: math.Exp(c(t[5], math.Log(0.0005), math.Log(0.05)))}
+		PressureExp: c(t[2], -0.3, 2), TempExp: c(t[3], -0.5, 2), TrackOptF: c(t[4], 40, 180), TrackWidthF: math.Exp(c(t[5], math.Log(12), math.Log(200)))}
 }
 
 func sq(x float64) float64 { return x * x }
@@ -262,12 +290,12 @@ func (f *Fit) residuals(th theta, runs []Run) []float64 {
 		w := math.Sqrt(s.Weight)
 		for j := range Timers {
 			if !math.IsNaN(s.Obs[j]) {
-				r = append(r, w*huber((run.ET[j]-s.Obs[j])/timerSigma[j]))
+				r = append(r, w*huber((run.ET[j]-(s.Obs[j]-s.Nuisance[j]))/timerSigma[j]))
 			}
 		}
 		for j, sim := range [2]float64{run.MPH660, run.MPH1320} {
 			if !math.IsNaN(s.Trap[j]) {
-				r = append(r, w*huber((sim-s.Trap[j])/trapSigma))
+				r = append(r, w*huber((sim-(s.Trap[j]-s.TrapNuisance[j]))/trapSigma))
 			}
 		}
 	}

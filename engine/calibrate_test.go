@@ -84,8 +84,8 @@ func daSwing(passes []Pass) float64 {
 // whose density altitude swings 1500 ft or more.
 func TestCalibrationRecoversTheTruth(t *testing.T) {
 	for _, truth := range []Params{
-		{PowerScale: 0.92, TractionScale: 1.10, PressureExp: 1.0, TempExp: 0.5, TrackOptF: 100, TrackCurve: 0.009},
-		{PowerScale: 1.08, TractionScale: 0.90, PressureExp: 0.85, TempExp: 0.45, TrackOptF: 118, TrackCurve: 0.004},
+		{PowerScale: 0.92, TractionScale: 1.10, PressureExp: 1.0, TempExp: 0.5, TrackOptF: 100, TrackWidthF: 33},
+		{PowerScale: 1.08, TractionScale: 0.90, PressureExp: 0.85, TempExp: 0.45, TrackOptF: 118, TrackWidthF: 50},
 	} {
 		g := gen{rng: rand.New(rand.NewPCG(7, uint64(truth.PowerScale*100))), truth: truth, car: testCar}
 		passes := g.season(8, 12)
@@ -128,7 +128,7 @@ func mean(v []float64) float64 {
 // Planted outliers (a pedaled run, a lifted run with no note) are found and
 // left out; a note saying "lifted" is left out too.
 func TestOutliersAreFound(t *testing.T) {
-	truth := Params{PowerScale: 0.95, TractionScale: 1.05, PressureExp: 1, TempExp: 0.5, TrackOptF: 110, TrackCurve: 0.006}
+	truth := Params{PowerScale: 0.95, TractionScale: 1.05, PressureExp: 1, TempExp: 0.5, TrackOptF: 110, TrackWidthF: 40}
 	g := gen{rng: rand.New(rand.NewPCG(3, 4)), truth: truth, car: testCar}
 	passes := g.season(4, 10)
 	plant := func(i int, add float64, note string) {
@@ -245,7 +245,7 @@ func TestPredictionFromPassesWithoutWeather(t *testing.T) {
 // timers and the trap the distance has (synthetic truth, as above).
 func TestCalibrationEighthMileTurbo(t *testing.T) {
 	car := Car{Name: "turbo eighth", WeightLb: 3100, PowerHP: 700, Induction: Turbo, DistanceFt: 660, Tire: "slick"}
-	truth := Params{PowerScale: 0.9, TractionScale: 1.05, PressureExp: 0.35, TempExp: 0.5, TrackOptF: 115, TrackCurve: 0.006}
+	truth := Params{PowerScale: 0.9, TractionScale: 1.05, PressureExp: 0.35, TempExp: 0.5, TrackOptF: 115, TrackWidthF: 40}
 	g := gen{rng: rand.New(rand.NewPCG(11, 12)), truth: truth, car: car}
 	passes := g.season(6, 10)
 	for i := range passes { // an eighth-mile slip has no 1000 or 1320 ft times

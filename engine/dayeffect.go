@@ -251,3 +251,129 @@ func fitResiduals(ss []Sample, res func(Sample) (float64, bool), now time.Time, 
 	}
 	return out
 }
+
+// nuisance estimates, for every timer and trap, each day's offset (relative
+// to the days' mean, shrunk by the day's number of passes) and the drift
+// through the day, from the current fit's residuals, and stores them in the
+// samples for the next fit to take out.
+func (f *Fit) nuisance() {
+	fin := timerIndex(f.Car.DistanceFt)
+	apply := func(res func(Sample) (float64, bool), pri residualPriors, set func(*Sample, float64)) {
+		d := dayStructure(f.Samples, res, pri)
+		for i := range f.Samples {
+			set(&f.Samples[i], d.offset(f.Samples[i]))
+		}
+	}
+	for j := range Timers {
+		if j > fin {
+			break
+		}
+		apply(func(s Sample) (float64, bool) { return s.Obs[j] - s.Sim.ET[j], !math.IsNaN(s.Obs[j]) },
+			timerPriors(j, fin), func(s *Sample, v float64) { s.Nuisance[j] = v })
+	}
+	for j := range 2 {
+		apply(func(s Sample) (float64, bool) {
+			return s.Trap[j] - [2]float64{s.Sim.MPH660, s.Sim.MPH1320}[j], !math.IsNaN(s.Trap[j])
+		}, trapPriors, func(s *Sample, v float64) { s.TrapNuisance[j] = v })
+	}
+}
+
+// structure is the day structure of one residual over the fit's samples.
+type structure struct {
+	slope  float64
+	level  map[string]float64 // each day's shrunk offset from the days' mean
+	first  map[string]time.Time
+	center float64 // mean hours into a day: the slope is taken about it
+}
+
+func (d structure) offset(s Sample) float64 {
+	k := s.Pass.Time.Format("2006-01-02")
+	h := s.Pass.Time.Sub(d.first[k]).Hours()
+	return d.level[k] + d.slope*(h-d.center)
+}
+
+// dayStructure measures the scatter within days, the spread between them
+// and the drift through them (as fitResiduals does), and returns each day's
+// offset shrunk toward the days' mean.
+func dayStructure(ss []Sample, res func(Sample) (float64, bool), pri residualPriors) structure {
+	d := structure{level: map[string]float64{}, first: map[string]time.Time{}}
+	type obs struct{ r, h float64 }
+	byDay := map[string][]obs{}
+	for _, s := range ss {
+		k := s.Pass.Time.Format("2006-01-02")
+		if f, ok := d.first[k]; !ok || s.Pass.Time.Before(f) {
+			d.first[k] = s.Pass.Time
+		}
+	}
+	var all []obs
+	for _, s := range ss {
+		if r, ok := res(s); ok {
+			k := s.Pass.Time.Format("2006-01-02")
+			o := obs{r, s.Pass.Time.Sub(d.first[k]).Hours()}
+			byDay[k] = append(byDay[k], o)
+			all = append(all, o)
+		}
+	}
+	if len(byDay) < 2 {
+		return d
+	}
+	var sxy, sxx, within, hsum float64
+	n := 0
+	for _, os := range byDay {
+		var mr, mh float64
+		for _, o := range os {
+			mr += o.r
+			mh += o.h
+		}
+		mr /= float64(len(os))
+		mh /= float64(len(os))
+		for _, o := range os {
+			sxy += (o.h - mh) * (o.r - mr)
+			sxx += sq(o.h - mh)
+			hsum += o.h
+		}
+		n += len(os) - 1
+	}
+	sigma2 := sq(pri.Sigma)
+	for range 2 {
+		d.slope = sxy / (sxx + sigma2/sq(pri.Slope))
+		within = 0
+		for _, os := range byDay {
+			var mr, mh float64
+			for _, o := range os {
+				mr += o.r
+				mh += o.h
+			}
+			mr /= float64(len(os))
+			mh /= float64(len(os))
+			for _, o := range os {
+				within += sq(o.r - mr - d.slope*(o.h-mh))
+			}
+		}
+		sigma2 = math.Max((within+3*sq(pri.Sigma))/float64(n+3), sq(pri.MinSigma))
+	}
+	d.center = hsum / float64(len(all))
+	levels := map[string]float64{}
+	var mean float64
+	for k, os := range byDay {
+		var lv float64
+		for _, o := range os {
+			lv += o.r - d.slope*(o.h-d.center)
+		}
+		levels[k] = lv / float64(len(os))
+		mean += levels[k]
+	}
+	mean /= float64(len(levels))
+	var v, noise float64
+	for k, os := range byDay {
+		v += sq(levels[k] - mean)
+		noise += sigma2 / float64(len(os))
+	}
+	m := float64(len(levels))
+	tau2 := math.Max((v/math.Max(m-1, 1)-noise/m)*(m-1)/(m+1)+2*sq(pri.Tau)/(m+1), sq(pri.MinTau))
+	for k, os := range byDay {
+		c := float64(len(os))
+		d.level[k] = (levels[k] - mean) * c * tau2 / (c*tau2 + sigma2)
+	}
+	return d
+}

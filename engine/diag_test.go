@@ -56,3 +56,54 @@ func TestDiag(t *testing.T) {
 			corr(res, tt), corr(res, at), corr(res, hr), corr(res, inday), corr(res, da), corr(typ, tt))
 	}
 }
+
+func TestDiagSens(t *testing.T) {
+	if os.Getenv("DIAG") == "" {
+		t.Skip()
+	}
+	for i, w := range truthsim.Worlds() {
+		passes := w.Season()
+		car, trk := w.CarYAML(claims[i]), w.EngineTrack()
+		logged := make([]engine.Pass, len(passes))
+		for i, p := range passes {
+			logged[i] = p.Logged
+		}
+		for _, k := range []int{len(passes) - 7, len(passes) - 1} {
+			p := passes[k]
+			fit, _ := engine.Calibrate(engine.CalibrateInput{Car: car, Track: trk, Passes: logged[:k], Now: p.Logged.Time})
+			pr := engine.Predict(fit, engine.PredictInput{Air: p.Logged.Air, Prep: 1, WeightLb: p.Logged.WeightLb, Time: p.Logged.Time})
+			tr, air, baro, rub := w.Sensitivity(p)
+			s := pr.Sensitivity
+			fmt.Printf("%-30s track %.0fF: truth track %+.4f air %+.4f baro %+.4f rubber/h %+.4f | engine track %+.4f air %+.4f baro %+.4f\n",
+				w.Car.Name, p.Logged.Air.TrackTemp.Fahrenheit(), tr, air, baro, rub, s.Per10FTrack, s.Per10FAir, s.PerTenthInHg)
+		}
+	}
+}
+
+func TestDiagPasses(t *testing.T) {
+	if os.Getenv("DIAG") == "" {
+		t.Skip()
+	}
+	wi := 0
+	fmt.Sscan(os.Getenv("DIAG"), &wi)
+	w := truthsim.Worlds()[wi]
+	passes := w.Season()
+	car, trk := w.CarYAML(claims[wi]), w.EngineTrack()
+	logged := make([]engine.Pass, len(passes))
+	for i, p := range passes {
+		logged[i] = p.Logged
+	}
+	fin := truthsim.FinishIndex(w.Car.DistanceFt)
+	for k, p := range passes {
+		if p.Day < w.Days-5 {
+			continue
+		}
+		fit, _ := engine.Calibrate(engine.CalibrateInput{Car: car, Track: trk, Passes: logged[:k], Now: p.Logged.Time})
+		pr := engine.Predict(fit, engine.PredictInput{Air: p.Logged.Air, Prep: 1, WeightLb: p.Logged.WeightLb, Time: p.Logged.Time})
+		actual, _ := p.Logged.ETAt(w.Car.DistanceFt)
+		f := pr.Finish()
+		fmt.Printf("day %2d #%d %s air %5.1f track %5.1f | actual %.3f pred %.3f (sd %.3f) err %+.4f | oracle %+.4f typical %+.4f | 60ft act %.3f pred %.3f ab=%v\n",
+			p.Day, p.InDay, p.Logged.Time.Format("15:04"), p.Logged.Air.Temp.Fahrenheit(), p.Logged.Air.TrackTemp.Fahrenheit(), actual, f.ET, f.SD, actual-f.ET,
+			p.Oracle[fin]-actual, p.Typical[fin]-actual, func() float64 { v, _ := p.Logged.ETAt(60); return v }(), pr.Timers[0].ET, p.Aborted)
+	}
+}

@@ -132,8 +132,8 @@ type Params struct {
 	// engine feels the pressure much less.
 	PressureExp, TempExp float64
 	// The tire's grip against the surface temperature: best at TrackOptF,
-	// falling by TrackCurve per (10 °F)² away from it on either side.
-	TrackOptF, TrackCurve float64
+	// 10 % gone TrackWidthF away from it on either side (see TrackTempFactor).
+	TrackOptF, TrackWidthF float64
 }
 
 // DefaultParams are the prior's centre for a car of induction ind on drag
@@ -141,7 +141,7 @@ type Params struct {
 // (a boost-controlled turbo or blower about a third to a half of its
 // pressure exponent, from memory; a nitrous shot not at all).
 func DefaultParams(ind Induction) Params {
-	p := Params{PowerScale: 1, TractionScale: 1, PressureExp: 1, TempExp: 0.5, TrackOptF: TrackBestF, TrackCurve: TrackCurveDefault}
+	p := Params{PowerScale: 1, TractionScale: 1, PressureExp: 1, TempExp: 0.5, TrackOptF: TrackBestF, TrackWidthF: TrackWidthDefaultF}
 	switch ind {
 	case Turbo:
 		p.PressureExp = 0.3
@@ -228,7 +228,7 @@ func Simulate(v *Vehicle, p Params, env Env, distanceFt float64) Run {
 	}
 	air := math.Pow(math.Max(env.DryRatio, 0.3), p.PressureExp) * math.Pow(math.Max(env.TempRatio, 0.5), p.TempExp)
 	power := v.Efficiency * (v.PowerW*p.PowerScale*air + v.NitrousW)
-	mu := v.TireMu * p.TractionScale * PrepFactor(env.Prep) * TrackTempFactor(env.TrackTemp, p.TrackOptF, p.TrackCurve)
+	mu := v.TireMu * p.TractionScale * PrepFactor(env.Prep) * TrackTempFactor(env.TrackTemp, p.TrackOptF, p.TrackWidthF)
 	run.Power, run.Mu = power, mu
 	// Traction with weight transfer: F = μ(m g r + F h/L) ⇒ F = μ m g r/(1 − μ h/L),
 	// at most μ m g (every pound on the rear tires: the front wheels are up).

@@ -197,8 +197,13 @@ type PredictInput struct {
 // Predict predicts every timer and trap of the next pass from fit.
 func Predict(f Fit, in PredictInput) Prediction {
 	mass := f.Car.WeightLb * weather.KgPerLb
-	if in.WeightLb > 0 {
+	weightNote := ""
+	switch {
+	case in.WeightLb > 0:
 		mass = in.WeightLb * weather.KgPerLb
+	case f.Weight != nil && f.Weight.logged > 0:
+		mass = f.Weight.At(in.Time) * weather.KgPerLb
+		weightNote = f.Weight.note(in.Time)
 	}
 	env := NewEnv(in.Air, f.Track.HeadingDeg, in.Prep, mass)
 	dist := f.Car.DistanceFt
@@ -206,6 +211,9 @@ func Predict(f Fit, in PredictInput) Prediction {
 	pr := Prediction{Distance: dist, Model: model, Env: env, Air: in.Air, Params: f.Params, Outliers: f.Outliers,
 		Passes: len(f.Samples) + len(f.NoAir)}
 	pr.Notes = append(pr.Notes, f.Notes...)
+	if weightNote != "" && !in.Quick {
+		pr.Notes = append(pr.Notes, weightNote)
+	}
 	if !in.Air.HasTrack {
 		pr.Notes = append(pr.Notes, "track temperature not read: taken as the air plus 10 °F")
 	}

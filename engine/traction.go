@@ -21,13 +21,14 @@ import (
 //   - Surface temperature: each tire grips best inside a band (street tires
 //     near 100 °F, drag radials 110, slicks 120); below it the rubber is
 //     hard and the track lacks bite, above it the surface turns greasy. The
-//     loss is taken as quadratic on both sides, TrackCurveDefault (0.6 %)
-//     per (10 °F)² away from the best: 40 °F off costs about 10 %. The best
-//     temperature and the curvature are fitted per car from its 60-ft
-//     times. The factor never falls below 0.6.
+//     band is flat-topped and falls away steeply on both sides: the loss is
+//     10 % × ((T − best)/width)⁴, so within half the width of the best
+//     less than 1 % is lost, at the width 10 %, a fifth beyond it 21 %. The
+//     best temperature and the width (40 °F to start) are fitted per car
+//     from its 60-ft times. The factor never falls below 0.6.
 const (
-	TrackBestF        = 110.0 // °F, a drag radial's best
-	TrackCurveDefault = 0.006 // fraction of μ per (10 °F)²
+	TrackBestF         = 110.0 // °F, a drag radial's best
+	TrackWidthDefaultF = 40.0  // °F from the best at which 10 % of the grip is gone
 )
 
 // TireBestF is the surface temperature a tire kind grips best at, °F (the
@@ -75,10 +76,11 @@ func ParsePrep(s string) (float64, error) {
 func PrepFactor(p float64) float64 { return 0.70 + 0.30*p }
 
 // TrackTempFactor is the share of best-temperature traction at surface
-// temperature t, for a tire best at optF losing curve per (10 °F)² from it.
-func TrackTempFactor(t weather.Temperature, optF, curve float64) float64 {
-	d := (t.Fahrenheit() - optF) / 10
-	return math.Max(0.6, math.Min(1, 1-curve*d*d))
+// temperature t, for a tire best at optF that has lost 10 % at widthF from
+// it.
+func TrackTempFactor(t weather.Temperature, optF, widthF float64) float64 {
+	d := (t.Fahrenheit() - optF) / widthF
+	return math.Max(0.6, math.Min(1, 1-0.1*d*d*d*d))
 }
 
 // PrepName names a prep level in words.

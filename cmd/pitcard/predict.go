@@ -197,7 +197,7 @@ type basisJSON struct {
 	PressureExponent  float64       `json:"pressure_exponent"`
 	TempExponent      float64       `json:"temperature_exponent"`
 	TrackBestF        float64       `json:"track_best_f"`
-	TrackCurve        float64       `json:"track_loss_per_10f_squared"`
+	TrackWidthF       float64       `json:"track_width_f"`
 	Per01InHgS        float64       `json:"et_per_0.1inhg_lower_s"`
 	Per10PctRHS       float64       `json:"et_per_10pct_humidity_s"`
 	PerKDAs           float64       `json:"et_per_1000ft_da_s"`
@@ -237,7 +237,7 @@ func predictionJSON(n nextPass) predictJSON {
 	s := p.Sensitivity
 	b := basisJSON{PhysicsOnly: p.PhysicsOnly, PassesCalibrated: len(n.Fit.Samples), AirSource: n.Cond.Source, Prep: engine.PrepName(n.Prep),
 		PowerScale: round(p.Params.PowerScale, 4), TractionScale: round(p.Params.TractionScale, 4), PressureExponent: round(p.Params.PressureExp, 3),
-		TempExponent: round(p.Params.TempExp, 3), TrackBestF: round(p.Params.TrackOptF, 1), TrackCurve: round(p.Params.TrackCurve, 5),
+		TempExponent: round(p.Params.TempExp, 3), TrackBestF: round(p.Params.TrackOptF, 1), TrackWidthF: round(p.Params.TrackWidthF, 1),
 		Per01InHgS: round(s.PerTenthInHg, 4), Per10PctRHS: round(s.Per10PctRH, 4), PerKDAs: round(s.PerKDA, 4), PerKDAMPH: round(s.PerKDAMPH, 2),
 		Per10FTrackS: round(s.Per10FTrack, 4), Sixty10FTrackS: round(s.Sixty10FTrack, 4), Per10HeadwindS: round(s.Per10Headwind, 4),
 		Per10FAirS: round(s.Per10FAir, 4), Notes: p.Notes, IntervalPct: 95, ModelFinishET: round(p.Model.ETAt(p.Distance), 3),

@@ -30,7 +30,7 @@ var (
 	low     = engine.Track{Name: "Salt Creek Dragway", ElevationFt: 460, HeadingDeg: 10, Prep: "full"}
 	high    = engine.Track{Name: "Granite Pass Motorplex", ElevationFt: 5100, HeadingDeg: 300, Prep: "light"}
 	car     = engine.Car{Name: "Whitlock '71 Nova", WeightLb: 3350, PowerHP: 520, Induction: engine.Natural, DistanceFt: 1320, Tire: "radial"}
-	truth   = engine.Params{PowerScale: 0.96, TractionScale: 1.05, PressureExp: 0.95, TempExp: 0.5, TrackOptF: 105, TrackCurve: 0.008}
+	truth   = engine.Params{PowerScale: 0.96, TractionScale: 1.05, PressureExp: 0.95, TempExp: 0.5, TrackOptF: 105, TrackWidthF: 36}
 	demoDay = time.Date(2026, 6, 13, 0, 0, 0, 0, time.Local)
 )
 

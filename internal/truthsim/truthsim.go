@@ -90,6 +90,26 @@ type Pass struct {
 	Aborted bool // lifted, pedalled: not the car's time
 	Day     int
 	InDay   int // 0 for the day's first pass
+	// the hidden state of the pass, for Sensitivity
+	dy   day
+	c    cond
+	mass float64
+}
+
+// Sensitivity is what the truth's physics says a change is worth to this
+// pass's finish ET (noiseless, s): 10 °F more surface temperature, 10 °F
+// warmer air (same dew point), 0.1 inHg less station pressure, an hour more
+// rubber on the track.
+func (w World) Sensitivity(p Pass) (track, air, baro, rubber float64) {
+	fin := FinishIndex(w.Car.DistanceFt)
+	base := w.simulate(p.dy, p.c, p.mass, quiet, false).et[fin]
+	with := func(edit func(*cond)) float64 {
+		c := p.c
+		edit(&c)
+		return w.simulate(p.dy, c, p.mass, quiet, false).et[fin] - base
+	}
+	return with(func(c *cond) { c.trackF += 10 }), with(func(c *cond) { c.tempF += 10 }),
+		with(func(c *cond) { c.stationInHg -= 0.1 }), with(func(c *cond) { c.hoursIn += 1 })
 }
 
 // tire grip: peak μ, the band of best surface temperature (°F) and the
@@ -169,7 +189,7 @@ func (w World) Season() []Pass {
 			if abort && r.Float64() < 0.5 {
 				p.Notes = "lifted"
 			}
-			out = append(out, Pass{Logged: p, Oracle: oracle.et, Typical: typical.et, Aborted: abort, Day: d, InDay: k})
+			out = append(out, Pass{Logged: p, Oracle: oracle.et, Typical: typical.et, Aborted: abort, Day: d, InDay: k, dy: dy, c: c, mass: mass})
 			fuel = math.Min(fuel+w.Car.BurnLb, w.Car.FuelLb)
 			t = t.Add(time.Duration(40+r.IntN(50)) * time.Minute)
 		}

@@ -1,0 +1,117 @@
+package engine
+
+import (
+	"fmt"
+	"math"
+	"sort"
+	"time"
+)
+
+// A car gets lighter through a race day as it burns fuel, and the logbook
+// has its weight only when the crew wrote it down. weightModel fills the
+// gaps: within a day the logged weights fall by a burn per pass (pooled over
+// the days that show it), a day without any starts where the days that have
+// them start, and a logbook without weights keeps car.yaml's.
+
+// weightModel estimates the car's weight at any pass.
+type weightModel struct {
+	carLb  float64                // car.yaml's weight
+	burn   float64                // lb per pass (negative: lighter), pooled within days
+	start  map[string]float64     // each day's weight before its first pass, where known
+	usual  float64                // the usual start of a day: the recent days' mean, or car.yaml's
+	passes map[string][]time.Time // every pass of each day, in order, for a pass's place in its day
+	logged int
+}
+
+func newWeightModel(car Car, passes []Pass) *weightModel {
+	m := &weightModel{carLb: car.WeightLb, usual: car.WeightLb, start: map[string]float64{}, passes: map[string][]time.Time{}}
+	type obs struct{ idx, lb float64 }
+	byDay := map[string][]obs{}
+	for _, p := range passes {
+		k := dayKey(p.Time)
+		m.passes[k] = append(m.passes[k], p.Time)
+	}
+	for k := range m.passes {
+		sort.Slice(m.passes[k], func(a, b int) bool { return m.passes[k][a].Before(m.passes[k][b]) })
+	}
+	for _, p := range passes {
+		if p.WeightLb > 0 {
+			k := dayKey(p.Time)
+			byDay[k] = append(byDay[k], obs{float64(m.index(p.Time)), p.WeightLb})
+			m.logged++
+		}
+	}
+	if m.logged == 0 {
+		return m
+	}
+	var sxy, sxx float64
+	for _, os := range byDay {
+		if len(os) < 2 {
+			continue
+		}
+		var mi, mw float64
+		for _, o := range os {
+			mi += o.idx
+			mw += o.lb
+		}
+		mi /= float64(len(os))
+		mw /= float64(len(os))
+		for _, o := range os {
+			sxy += (o.idx - mi) * (o.lb - mw)
+			sxx += sq(o.idx - mi)
+		}
+	}
+	if sxx > 0 {
+		// a weak prior of no burn: a day or two of two weighings do not set it
+		m.burn = math.Max(-40, math.Min(5, sxy/(sxx+2)))
+	}
+	var days []string
+	for k, os := range byDay {
+		var s float64
+		for _, o := range os {
+			s += o.lb - m.burn*o.idx
+		}
+		m.start[k] = s / float64(len(os))
+		days = append(days, k)
+	}
+	sort.Strings(days)
+	if len(days) > 5 {
+		days = days[len(days)-5:]
+	}
+	var s float64
+	for _, k := range days {
+		s += m.start[k]
+	}
+	m.usual = s / float64(len(days))
+	return m
+}
+
+func dayKey(t time.Time) string { return t.Format("2006-01-02") }
+
+// index is a pass's place in its day: 0 for the first.
+func (m *weightModel) index(t time.Time) int {
+	n := 0
+	for _, x := range m.passes[dayKey(t)] {
+		if x.Before(t) {
+			n++
+		}
+	}
+	return n
+}
+
+// At is the car's estimated weight, lb, for a pass at t.
+func (m *weightModel) At(t time.Time) float64 {
+	start, ok := m.start[dayKey(t)]
+	if !ok {
+		start = m.usual
+	}
+	return start + m.burn*float64(m.index(t))
+}
+
+// note says how a weight was estimated, in words.
+func (m *weightModel) note(t time.Time) string {
+	if m.logged == 0 {
+		return ""
+	}
+	return fmt.Sprintf("weight not given: %.0f lb estimated (pass %d of the day, %.1f lb a pass from the logged weights)", m.At(t), m.index(t)+1, -m.burn)
+}
