@@ -356,7 +356,7 @@ func (f *Fit) fit() {
 			t2 = t2.params().theta() // clamp to bounds
 			r2 := f.residuals(t2, nil)
 			if c2 := dot(r2, r2); c2 < cost {
-				small := math.Abs(cost-c2) < 1e-6*cost
+				small := math.Abs(cost-c2) < 1e-4*cost // a hundredth of a percent of the cost: well under a thousandth of a second
 				th, r, cost = t2, r2, c2
 				lambda = math.Max(lambda/10, 1e-7)
 				improved = true

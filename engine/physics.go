@@ -243,7 +243,7 @@ func Simulate(v *Vehicle, p Params, env Env, distanceFt float64) Run {
 		return half * a * math.Abs(a)
 	}
 	end := distanceFt*MetrePerFt + 1
-	var pieces []piece
+	pieces := make([]piece, 0, 256) // a pass is ~150 pieces: one allocation
 	var peak float64
 	t, x, u := 0.0, 0.0, 0.0
 
@@ -296,13 +296,17 @@ func Simulate(v *Vehicle, p Params, env Env, distanceFt float64) Run {
 	}
 	net := func(u float64) float64 { return drive(u, gear) - drag(u) - roll }
 	const dv = 0.4 // m/s between nodes
+	carried, haveCarry := 0.0, false // the force at u from the last node, when still in its gear
 	for x < end {
-		f0 := net(u)
+		f0 := carried
+		if !haveCarry {
+			f0 = net(u)
+		}
 		if f0 < 0.01*m*g0 { // at terminal speed: cruise to the end
 			pieces = append(pieces, piece{coast: true, v0: u, v1: u, t0: t, x0: x, t1: t + (end-x)/math.Max(u, 0.1), x1: end})
 			break
 		}
-		peak = math.Max(peak, (drive(u, gear)-drag(u)-roll)/(m*g0))
+		peak = math.Max(peak, f0/(m*g0))
 		next := u + dv
 		if gear < 0 && u < cross && next > cross {
 			next = cross // node at the crossover kink
@@ -326,7 +330,9 @@ func Simulate(v *Vehicle, p Params, env Env, distanceFt float64) Run {
 		pieces = append(pieces, piece{v0: u, v1: next, t0: t, t1: t + dt, x0: x, x1: x + dx,
 			dt0: m / f0, dt1: m / f1, dx0: m * u / f0, dx1: m * next / f1})
 		t, x, u = t+dt, x+dx, next
+		carried, haveCarry = f1, true
 		if u >= shift && x < end { // shift: no drive for the shift time
+			haveCarry = false
 			decel := (drag(u) + roll) / m
 			du := decel * v.ShiftTime
 			pieces = append(pieces, piece{coast: true, v0: u, v1: u - du, t0: t, t1: t + v.ShiftTime, x0: x, x1: x + (u-du/2)*v.ShiftTime})
