@@ -22,9 +22,9 @@ import (
 const (
 	// NuisanceRounds is how many times the day offsets are estimated and the
 	// physics refitted around them.
-	NuisanceRounds = 2
+	NuisanceRounds = 1
 	// FitWindow is the most clean passes a fit uses (the most recent).
-	FitWindow = 40
+	FitWindow = 60
 	// FitHalfLifeDays and FitHalfLifePasses set the recency weights of the
 	// fit: a pass's weight halves every 120 days and every 20 passes back,
 	// but never falls below FitAgeFloor for age alone, so a winter's break
@@ -53,7 +53,7 @@ const trapSigma = 0.6
 // cylinders), so its exponents are held tighter than a boosted engine's,
 // whose boost control is unknown.
 func priorSD(ind Induction) theta {
-	t := theta{0.25, 0.25, 0.15, 0.25, 15, 0.3}
+	t := theta{0.25, 0.15, 0.15, 0.25, 15, 0.25}
 	if ind == Turbo || ind == Supercharged {
 		t[2], t[3] = 0.35, 0.3
 	}
@@ -254,8 +254,11 @@ func (p Params) theta() theta {
 
 func (t theta) params() Params {
 	c := func(v, lo, hi float64) float64 { return math.Max(lo, math.Min(hi, v)) }
-	return Params{PowerScale: math.Exp(c(t[0], -1.2, 1.2)), TractionScale: math.Exp(c(t[1], -1.2, 1.2)),
-		PressureExp: c(t[2], -0.3, 2), TempExp: c(t[3], -0.5, 2), TrackOptF: c(t[4], 40, 180), TrackWidthF: math.Exp(c(t[5], math.Log(12), math.Log(200)))}
+	// The bounds keep a fit off physics no car has: traction from 0.6 to 1.65
+	// of the tire's, a grip band 20 to 120 °F wide, the air mattering at
+	// least a little and at most twice a natural engine's.
+	return Params{PowerScale: math.Exp(c(t[0], -1.2, 1.2)), TractionScale: math.Exp(c(t[1], -0.5, 0.5)),
+		PressureExp: c(t[2], -0.3, 2), TempExp: c(t[3], 0, 1.5), TrackOptF: c(t[4], 50, 170), TrackWidthF: math.Exp(c(t[5], math.Log(20), math.Log(120)))}
 }
 
 func sq(x float64) float64 { return x * x }

@@ -54,6 +54,10 @@ const (
 	// MinTau is the least day-to-day spread admitted, s: even a steady car
 	// moves a little from one race day to the next.
 	MinTau = 0.006
+	// TodayHalfLife: within today, a pass's weight in today's offset halves
+	// every this many passes back: a track that turns cold shows in the last
+	// pass or two before it shows in the day's mean.
+	TodayHalfLife = 3.0
 	// DefaultTau is the day-to-day spread taken before the logbook has the
 	// days to measure it, s (common practice, from memory: a bracket car's
 	// day-to-day change is a few hundredths).
@@ -90,6 +94,7 @@ func fitResiduals(ss []Sample, res func(Sample) (float64, bool), now time.Time, 
 		r, h  float64
 		day   string
 		today bool
+		wt    float64 // today's passes: weight in today's level
 	}
 	dayKey := func(t time.Time) string { return t.Format("2006-01-02") }
 	first := map[string]time.Time{}
@@ -169,6 +174,7 @@ func fitResiduals(ss []Sample, res func(Sample) (float64, bool), now time.Time, 
 		key   string
 		level float64
 		n     int
+		nEff  float64 // today's: the weighted passes' worth
 		last  time.Time
 	}
 	var days []dayLevel
@@ -182,8 +188,20 @@ func fitResiduals(ss []Sample, res func(Sample) (float64, bool), now time.Time, 
 				last = t
 			}
 		}
-		d := dayLevel{key: k, level: lv / float64(len(idx)), n: len(idx), last: last}
+		d := dayLevel{key: k, level: lv / float64(len(idx)), n: len(idx), nEff: float64(len(idx)), last: last}
 		if k == today {
+			// today's offset leans on its latest passes
+			sorted := append([]int(nil), idx...)
+			sort.Slice(sorted, func(a, b int) bool { return ss[os[sorted[a]].i].Pass.Time.After(ss[os[sorted[b]].i].Pass.Time) })
+			var sw, sw2, m float64
+			for r, j := range sorted {
+				wt := math.Pow(0.5, float64(r)/TodayHalfLife)
+				sw += wt
+				sw2 += wt * wt
+				m += wt * (os[j].r - slope*os[j].h)
+				os[j].wt = wt
+			}
+			d.level, d.nEff = m/sw, sw*sw/sw2
 			todayLevel = &d
 			continue
 		}
@@ -228,7 +246,7 @@ func fitResiduals(ss []Sample, res func(Sample) (float64, bool), now time.Time, 
 	// Today: its own passes, shrunk toward the base.
 	k := 0.0
 	if todayLevel != nil {
-		n := float64(todayLevel.n)
+		n := todayLevel.nEff
 		k = n * tau2 / (n*tau2 + sigma2)
 		out.Today = k * (todayLevel.level - base)
 		out.TodayVar = tau2 * sigma2 / (n*tau2 + sigma2)
@@ -245,8 +263,12 @@ func fitResiduals(ss []Sample, res func(Sample) (float64, bool), now time.Time, 
 		}
 	}
 	if todayLevel != nil {
+		var sw float64
 		for _, j := range byDay[today] {
-			out.Weights[os[j].i] += k / float64(todayLevel.n)
+			sw += os[j].wt
+		}
+		for _, j := range byDay[today] {
+			out.Weights[os[j].i] += k * os[j].wt / sw
 		}
 	}
 	return out

@@ -87,6 +87,9 @@ func TestDiagPasses(t *testing.T) {
 	wi := 0
 	fmt.Sscan(os.Getenv("DIAG"), &wi)
 	w := truthsim.Worlds()[wi]
+	var shift uint64
+	fmt.Sscan(os.Getenv("PITCARD_TRUTH_SEED"), &shift)
+	w.Seed += shift
 	passes := w.Season()
 	car, trk := w.CarYAML(claims[wi]), w.EngineTrack()
 	logged := make([]engine.Pass, len(passes))
@@ -105,5 +108,35 @@ func TestDiagPasses(t *testing.T) {
 		fmt.Printf("day %2d #%d %s air %5.1f track %5.1f | actual %.3f pred %.3f (sd %.3f) err %+.4f | oracle %+.4f typical %+.4f | 60ft act %.3f pred %.3f ab=%v\n",
 			p.Day, p.InDay, p.Logged.Time.Format("15:04"), p.Logged.Air.Temp.Fahrenheit(), p.Logged.Air.TrackTemp.Fahrenheit(), actual, f.ET, f.SD, actual-f.ET,
 			p.Oracle[fin]-actual, p.Typical[fin]-actual, func() float64 { v, _ := p.Logged.ETAt(60); return v }(), pr.Timers[0].ET, p.Aborted)
+	}
+}
+
+func TestDiagParams(t *testing.T) {
+	if os.Getenv("DIAG") == "" {
+		t.Skip()
+	}
+	wi := 0
+	fmt.Sscan(os.Getenv("DIAG"), &wi)
+	w := truthsim.Worlds()[wi]
+	var shift uint64
+	fmt.Sscan(os.Getenv("PITCARD_TRUTH_SEED"), &shift)
+	w.Seed += shift
+	passes := w.Season()
+	car, trk := w.CarYAML(claims[wi]), w.EngineTrack()
+	logged := make([]engine.Pass, len(passes))
+	for i, p := range passes {
+		logged[i] = p.Logged
+	}
+	for k, p := range passes {
+		if p.Day < w.Days-5 || p.Day > w.Days-3 {
+			continue
+		}
+		fit, _ := engine.Calibrate(engine.CalibrateInput{Car: car, Track: trk, Passes: logged[:k], Now: p.Logged.Time})
+		var lo, hi float64 = 999, 0
+		for _, s := range fit.Samples {
+			tt := s.Pass.Air.TrackTemp.Fahrenheit()
+			lo, hi = math.Min(lo, tt), math.Max(hi, tt)
+		}
+		fmt.Printf("day %d #%d: %+v  (track seen %.0f..%.0f, %d samples)\n", p.Day, p.InDay, fit.Params, lo, hi, len(fit.Samples))
 	}
 }

@@ -38,6 +38,9 @@ const (
 	// ExtrapolationShare: the part of a correction beyond the conditions the
 	// logbook has seen is taken as uncertain by this share.
 	ExtrapolationShare = 0.25
+	// ExtrapolationFloor is the least uncertainty, as a share of the ET,
+	// per 1000 ft of density altitude or 10 °F of track beyond the logbook.
+	ExtrapolationFloor = 0.002
 )
 
 // BiasHalfLives are the half-lives, in passes, the residual correction may
@@ -257,7 +260,7 @@ func Predict(f Fit, in PredictInput) Prediction {
 	kEff := 1 / math.Max(w2, 1e-9)
 	extra, paramSD := 0.0, 0.0
 	if !in.Quick {
-		extra, paramSD = extrapolation(pr.Sensitivity), parameterSpread(f, env, w)
+		extra, paramSD = extrapolation(pr.Sensitivity, model.ETAt(dist)), parameterSpread(f, env, w)
 	}
 	relSD := math.Sqrt(fin.Var()) / model.ETAt(dist)
 	logged := func(res func(Sample) (float64, bool)) bool {
@@ -505,8 +508,14 @@ func sensitivity(f Fit, in PredictInput, env Env, model Run) Sensitivity {
 }
 
 // extrapolation is the extra spread, s, for conditions beyond those seen.
-func extrapolation(s Sensitivity) float64 {
-	return ExtrapolationShare * math.Hypot(s.PerKDA*s.ExtrapolatedDA/1000, s.Per10FTrack*s.ExtrapolatedT/10)
+func extrapolation(s Sensitivity, et float64) float64 {
+	// The fitted sensitivity may itself be wrong out there (a tire that
+	// grips fine down to 70 °F can give up at 55): whatever the fit says,
+	// new ground costs at least ExtrapolationFloor of the ET per 1000 ft of
+	// density altitude or 10 °F of track beyond what was seen.
+	da := math.Max(ExtrapolationShare*math.Abs(s.PerKDA), ExtrapolationFloor*et) * s.ExtrapolatedDA / 1000
+	tr := math.Max(ExtrapolationShare*math.Abs(s.Per10FTrack), ExtrapolationFloor*et) * s.ExtrapolatedT / 10
+	return math.Hypot(da, tr)
 }
 
 func outsideText(s Sensitivity) string {
