@@ -140,3 +140,37 @@ func TestDiagParams(t *testing.T) {
 		fmt.Printf("day %d #%d: %+v  (track seen %.0f..%.0f, %d samples)\n", p.Day, p.InDay, fit.Params, lo, hi, len(fit.Samples))
 	}
 }
+
+func TestDiagBias(t *testing.T) {
+	if os.Getenv("DIAG") == "" {
+		t.Skip()
+	}
+	var shift uint64
+	fmt.Sscan(os.Getenv("PITCARD_TRUTH_SEED"), &shift)
+	for wi, w := range truthsim.Worlds() {
+		w.Seed += shift
+		passes := w.Season()
+		car, trk := w.CarYAML(claims[wi]), w.EngineTrack()
+		logged := make([]engine.Pass, len(passes))
+		for i, p := range passes {
+			logged[i] = p.Logged
+		}
+		var first, later, z []float64
+		for k, p := range passes {
+			if p.Day < w.Days-5 || p.Aborted {
+				continue
+			}
+			fit, _ := engine.Calibrate(engine.CalibrateInput{Car: car, Track: trk, Passes: logged[:k], Now: p.Logged.Time})
+			pr := engine.Predict(fit, engine.PredictInput{Air: p.Logged.Air, Prep: 1, WeightLb: p.Logged.WeightLb, Time: p.Logged.Time})
+			actual, _ := p.Logged.ETAt(w.Car.DistanceFt)
+			e := actual - pr.Finish().ET
+			z = append(z, e/pr.Finish().SD)
+			if p.InDay == 0 {
+				first = append(first, e)
+			} else {
+				later = append(later, e)
+			}
+		}
+		fmt.Printf("%-30s bias first %+.4f later %+.4f | z sd %.2f\n", w.Car.Name, meanOf(first), meanOf(later), math.Sqrt(variance(z)))
+	}
+}
