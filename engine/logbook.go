@@ -65,8 +65,11 @@ func (p Pass) Finish() (decimal.Decimal, float64, bool) {
 // Key identifies a pass for finding the same pass entered twice: its date,
 // time to the minute, track and lane.
 func (p Pass) Key() string {
-	return fmt.Sprintf("%s|%s|%s", p.Time.Format("2006-01-02 15:04"), strings.ToLower(p.Track), p.Lane)
+	return p.Time.Format("2006-01-02 15:04") + "|" + strings.ToLower(p.Track) + "|" + string(p.Lane)
 }
+
+// timerColumns are the logbook's elapsed-time columns, one per timer.
+var timerColumns = [5]string{"et60", "et330", "et660", "et1000", "et1320"}
 
 // LogbookColumns are logbook.csv's columns, in order. Units are in the names.
 var LogbookColumns = []string{"date", "time", "track", "session", "lane", "dial", "rt",
@@ -144,6 +147,14 @@ func (lb *Logbook) Kept() bool {
 // rule, and the rest are read; only a header pitcard cannot read, or a
 // failing reader, is an error. Passes come back in time order.
 func ReadLogbookFile(r io.Reader, name string, loc *time.Location) (*Logbook, error) {
+	return ReadLogbookRecent(r, name, loc, 0)
+}
+
+// ReadLogbookRecent is ReadLogbookFile that keeps only the last keep passes
+// (0: all), every row still checked: what a card needs from a long logbook
+// (a fit uses its recent passes) without holding ten seasons in memory. A
+// logbook read so must not be written back.
+func ReadLogbookRecent(r io.Reader, name string, loc *time.Location, keep int) (*Logbook, error) {
 	cr, header, err := weather.OpenCSV(r, name)
 	if err != nil {
 		return nil, err
@@ -167,7 +178,26 @@ func ReadLogbookFile(r io.Reader, name string, loc *time.Location) (*Logbook, er
 		lb.Bad = append(lb.Bad, ie)
 		lb.BadRows = append(lb.BadRows, raw)
 	}
-	seen := map[string]int{}
+	// the same pass entered twice: its minute, track and lane
+	type passKey struct {
+		minute      int64
+		track, lane string
+	}
+	seen := map[passKey]int{}
+	lower := map[string]string{}
+	rows := newRowReader(col)
+	if keep > 0 {
+		lb.Passes = make([]Pass, 0, 2*keep)
+	}
+	trim := func() { // keep the latest keep, in place
+		if keep > 0 && len(lb.Passes) > keep {
+			SortPasses(lb.Passes)
+			n := copy(lb.Passes, lb.Passes[len(lb.Passes)-keep:])
+			clear(lb.Passes[n:])
+			lb.Passes = lb.Passes[:n]
+		}
+	}
+	cr.ReuseRecord = true
 	for {
 		rec, err := cr.Read()
 		if errors.Is(err, io.EOF) {
@@ -184,25 +214,31 @@ func ReadLogbookFile(r io.Reader, name string, loc *time.Location) (*Logbook, er
 		line, _ := cr.FieldPos(0)
 		if len(rec) != len(header) {
 			bad(&weather.InputError{File: name, Line: line, Field: "row",
-				Reason: fmt.Sprintf("has %d fields, the header has %d (a row cut short, or a comma too many)", len(rec), len(header))}, rec)
+				Reason: fmt.Sprintf("has %d fields, the header has %d (a row cut short, or a comma too many)", len(rec), len(header))}, append([]string(nil), rec...))
 			continue
 		}
-		p, err := logbookRow(rec, col, loc)
+		p, err := rows.pass(rec, loc)
 		if err != nil {
 			var ie *weather.InputError
 			if !errors.As(err, &ie) {
 				return nil, err
 			}
-			bad(ie.At(name, line), rec)
+			bad(ie.At(name, line), append([]string(nil), rec...))
 			continue
 		}
 		p.Line = line
-		if first, dup := seen[p.Key()]; dup {
+		trk, ok := lower[p.Track]
+		if !ok {
+			trk = strings.ToLower(p.Track)
+			lower[p.Track] = trk
+		}
+		key := passKey{p.Time.Unix() / 60, trk, string(p.Lane)}
+		if first, dup := seen[key]; dup {
 			bad(&weather.InputError{File: name, Line: line, Field: "row",
-				Reason: fmt.Sprintf("is the same pass as line %d (%s, %s lane): entered twice", first, p.Time.Format("2006-01-02 15:04"), p.Lane)}, rec)
+				Reason: fmt.Sprintf("is the same pass as line %d (%s, %s lane): entered twice", first, p.Time.Format("2006-01-02 15:04"), p.Lane)}, append([]string(nil), rec...))
 			continue
 		}
-		seen[p.Key()] = line
+		seen[key] = line
 		if len(extra) > 0 {
 			p.Extra = map[string]string{}
 			for _, x := range extra {
@@ -210,8 +246,12 @@ func ReadLogbookFile(r io.Reader, name string, loc *time.Location) (*Logbook, er
 			}
 		}
 		lb.Passes = append(lb.Passes, p)
+		if keep > 0 && len(lb.Passes) >= 2*keep {
+			trim()
+		}
 	}
 	SortPasses(lb.Passes)
+	trim()
 	return lb, nil
 }
 
@@ -312,14 +352,28 @@ type SlipFields struct {
 	Names  map[string]string // how each column is called in messages
 }
 
-func logbookRow(rec []string, col map[string]weather.Column, loc *time.Location) (Pass, error) {
-	f := SlipFields{Values: map[string]string{}, Metric: map[string]bool{}, Names: map[string]string{}}
+// rowReader turns a file's rows into slip fields, reusing one set of maps
+// for every row (a 100,000-row logbook would otherwise build 300,000 maps).
+type rowReader struct {
+	f     SlipFields
+	canon []string
+	index []int
+}
+
+func newRowReader(col map[string]weather.Column) *rowReader {
+	r := &rowReader{f: SlipFields{Values: map[string]string{}, Metric: map[string]bool{}, Names: map[string]string{}}}
 	for canon, c := range col {
-		f.Values[canon] = strings.TrimSpace(rec[c.Index])
-		f.Metric[canon] = c.Metric
-		f.Names[canon] = c.Name
+		r.f.Metric[canon], r.f.Names[canon] = c.Metric, c.Name
+		r.canon, r.index = append(r.canon, canon), append(r.index, c.Index)
 	}
-	return ParsePass(f, loc)
+	return r
+}
+
+func (r *rowReader) pass(rec []string, loc *time.Location) (Pass, error) {
+	for i, c := range r.canon {
+		r.f.Values[c] = strings.TrimSpace(rec[r.index[i]])
+	}
+	return ParsePass(r.f, loc)
 }
 
 // ParsePass builds a pass from its fields and validates it.
@@ -378,8 +432,8 @@ func ParsePass(f SlipFields, loc *time.Location) (Pass, error) {
 	}
 	var last decimal.NullDecimal
 	lastName, any := "", false
-	for i, t := range Timers {
-		c := fmt.Sprintf("et%.0f", t)
+	for i := range Timers {
+		c := timerColumns[i]
 		if p.ET[i], err = optSeconds(c, ETRanges[i][0], ETRanges[i][1]); err != nil {
 			return p, err
 		}

@@ -89,7 +89,7 @@ func forecastNext(e *eventFolder, cond conditionFlags, prepFlag, weightFlag stri
 	if err != nil {
 		return n, err
 	}
-	passes, leftOut := e.logbook()
+	passes, leftOut := e.recentLogbook()
 	if !onlyLeftOut(leftOut) {
 		return n, leftOut
 	}

@@ -342,11 +342,30 @@ func (e *eventFolder) logbookFile() (*engine.Logbook, string, error) {
 	return lb, name, err
 }
 
+// RecentPasses is how many of the logbook's latest passes a card, a
+// prediction or a dial reads (every row is still checked): far more than a
+// fit uses, far less than ten seasons.
+const RecentPasses = 5000
+
+// recentLogbook is logbook for the commands that only predict: the last
+// RecentPasses good passes.
+func (e *eventFolder) recentLogbook() ([]engine.Pass, error) { return e.readPasses(RecentPasses) }
+
 // logbook is the folder's good passes. Rows it could not read come back as
 // a *leftOutRows error beside the passes: the caller uses the passes and
 // says what was left out.
-func (e *eventFolder) logbook() ([]engine.Pass, error) {
-	lb, name, err := e.logbookFile()
+func (e *eventFolder) logbook() ([]engine.Pass, error) { return e.readPasses(0) }
+
+func (e *eventFolder) readPasses(keep int) ([]engine.Pass, error) {
+	f, name, err := e.openFile(event.LogbookFile, e.LogbookPath)
+	if errors.Is(err, fs.ErrNotExist) {
+		return nil, nil
+	}
+	if err != nil {
+		return nil, err
+	}
+	defer f.Close()
+	lb, err := engine.ReadLogbookRecent(f, name, time.Local, keep)
 	if err != nil {
 		return nil, err
 	}

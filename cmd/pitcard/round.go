@@ -81,7 +81,7 @@ func roundInput(e *eventFolder, r roundFlags, now time.Time) (prep.Input, []stri
 	if err != nil {
 		return in, nil, err
 	}
-	passes, err := e.logbook()
+	passes, err := e.recentLogbook()
 	switch {
 	case onlyLeftOut(err) && err != nil: // the good rows are used, the bad ones named
 		broken = append(broken, err)
