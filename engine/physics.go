@@ -295,7 +295,7 @@ func Simulate(v *Vehicle, p Params, env Env, distanceFt float64) Run {
 		return v.ShiftRPM / 1.03 * 2 * math.Pi / 60 * v.TireRadius / (v.Gears[gi] * v.FinalDrive)
 	}
 	net := func(u float64) float64 { return drive(u, gear) - drag(u) - roll }
-	const dv = 0.4 // m/s between nodes
+	const dv = 0.4                   // m/s between nodes
 	carried, haveCarry := 0.0, false // the force at u from the last node, when still in its gear
 	for x < end {
 		f0 := carried

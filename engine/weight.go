@@ -110,8 +110,8 @@ func (m *weightModel) At(t time.Time) float64 {
 
 // note says how a weight was estimated, in words.
 func (m *weightModel) note(t time.Time) string {
-	if m.logged == 0 {
+	if m.logged == 0 || math.Abs(m.At(t)-m.carLb) < 1 {
 		return ""
 	}
-	return fmt.Sprintf("weight not given: %.0f lb estimated (pass %d of the day, %.1f lb a pass from the logged weights)", m.At(t), m.index(t)+1, -m.burn)
+	return fmt.Sprintf("weight not given: %.0f lb estimated from the logged weights (pass %d of the day, %.1f lb lighter a pass)", m.At(t), m.index(t)+1, -m.burn)
 }
