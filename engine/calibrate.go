@@ -132,7 +132,7 @@ func Calibrate(in CalibrateInput) (Fit, error) {
 			continue
 		}
 		clean = append(clean, p)
-		if len(clean) == FitWindow {
+		if len(clean) == FitWindow || (ablation.window40 && len(clean) == 40) {
 			break
 		}
 	}
@@ -194,6 +194,9 @@ func Calibrate(in CalibrateInput) (Fit, error) {
 	// effects from what changes within and across days, not from one day's
 	// tune-up that happened to come with a low barometer.
 	for range NuisanceRounds {
+		if ablation.noNuisance {
+			break
+		}
 		f.nuisance()
 		f.fit()
 	}
@@ -219,7 +222,7 @@ func (f *Fit) sample(p Pass, in CalibrateInput, rank int) Sample {
 	switch {
 	case p.WeightLb > 0:
 		mass = p.WeightLb * weather.KgPerLb
-	case f.Weight != nil:
+	case f.Weight != nil && !ablation.noWeightFill:
 		mass = f.Weight.At(p.Time) * weather.KgPerLb
 	}
 	age := in.Now.Sub(p.Time).Hours() / 24
@@ -254,6 +257,9 @@ func (p Params) theta() theta {
 
 func (t theta) params() Params {
 	c := func(v, lo, hi float64) float64 { return math.Max(lo, math.Min(hi, v)) }
+	if ablation.oneAirExponent {
+		t[3] = t[2] / 2
+	}
 	// The bounds keep a fit off physics no car has: traction from 0.6 to 1.65
 	// of the tire's, a grip band 20 to 120 °F wide, the air mattering at
 	// least a little and at most twice a natural engine's.
@@ -303,7 +309,11 @@ func (f *Fit) residuals(th theta, runs []Run) []float64 {
 		}
 	}
 	for k := range th {
-		r = append(r, (th[k]-prior[k])/sd[k])
+		s := sd[k]
+		if ablation.noGripBand && k >= 4 {
+			s = 1e-4 // held at the prior
+		}
+		r = append(r, (th[k]-prior[k])/s)
 	}
 	return r
 }

@@ -118,6 +118,9 @@ func fitResiduals(ss []Sample, res func(Sample) (float64, bool), now time.Time, 
 		os = append(os, o)
 	}
 	out := residualFit{Weights: make([]float64, len(ss)), Sigma2: sq(pri.Sigma), Tau2: sq(pri.Tau), SlopeVar: sq(pri.Slope)}
+	if ablation.noDayStructure {
+		return recencyMean(ss, res, now, pri)
+	}
 	if f, ok := first[today]; ok && !f.After(now) {
 		out.Hours = now.Sub(f).Hours()
 	}
@@ -196,6 +199,9 @@ func fitResiduals(ss []Sample, res func(Sample) (float64, bool), now time.Time, 
 			var sw, sw2, m float64
 			for r, j := range sorted {
 				wt := math.Pow(0.5, float64(r)/TodayHalfLife)
+				if ablation.noTodayRecency {
+					wt = 1
+				}
 				sw += wt
 				sw2 += wt * wt
 				m += wt * (os[j].r - slope*os[j].h)
@@ -398,4 +404,43 @@ func dayStructure(ss []Sample, res func(Sample) (float64, bool), pri residualPri
 		d.level[k] = (levels[k] - mean) * c * tau2 / (c*tau2 + sigma2)
 	}
 	return d
+}
+
+// recencyMean is the first generation's correction, for the ablation: the
+// residuals' mean, a pass's weight halving every 6 passes back and doubled
+// for a pass of the same day; the spread of the residuals.
+func recencyMean(ss []Sample, res func(Sample) (float64, bool), now time.Time, pri residualPriors) residualFit {
+	out := residualFit{Weights: make([]float64, len(ss))}
+	var sw, mean, w2 float64
+	var vals []float64
+	for i, s := range ss {
+		r, ok := res(s)
+		if !ok {
+			continue
+		}
+		w := math.Pow(0.5, float64(i)/6)
+		if dayKey(s.Pass.Time) == dayKey(now) {
+			w *= 2
+		}
+		out.Weights[i] = w
+		sw += w
+		mean += w * r
+		vals = append(vals, r)
+	}
+	if sw == 0 {
+		out.Sigma2 = sq(pri.Sigma)
+		return out
+	}
+	for i := range out.Weights {
+		out.Weights[i] /= sw
+		w2 += sq(out.Weights[i])
+	}
+	mean /= sw
+	var v float64
+	for _, r := range vals {
+		v += sq(r - mean)
+	}
+	out.Sigma2 = math.Max(v/math.Max(float64(len(vals)-1), 1), sq(pri.MinSigma))
+	out.Base, out.BaseVar = mean, out.Sigma2*w2
+	return out
 }

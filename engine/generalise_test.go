@@ -33,7 +33,9 @@ type heldOut struct {
 
 // floors computes, for every pass, what a predictor that knew this physics
 // and the car exactly would have said as the race day ran: the truth's
-// typical run in the pass's conditions, plus its best estimate of the day's
+// typical run in the pass's conditions as the crew measured them (the
+// meters' small errors are all a predictor can know), plus its best estimate
+// of the day's
 // effect from the day's earlier clean passes (the mean of their departures
 // from typical, shrunk toward none by the ratio of the pass-to-pass and the
 // day-to-day variances, both measured on the season itself).
@@ -58,14 +60,14 @@ func floors(passes []truthsim.Pass, fin int) []float64 {
 		var dev []float64
 		for j := k - 1; j >= 0 && passes[j].Day == p.Day; j-- {
 			if !passes[j].Aborted {
-				dev = append(dev, actual(passes[j])-passes[j].Typical[fin])
+				dev = append(dev, actual(passes[j])-passes[j].TypicalMeasured[fin])
 			}
 		}
 		est := 0.0
 		if n := float64(len(dev)); n > 0 {
 			est = meanOf(dev) * n * tau2 / (n*tau2 + sigma2)
 		}
-		out[k] = p.Typical[fin] + est
+		out[k] = p.TypicalMeasured[fin] + est
 	}
 	return out
 }
@@ -150,27 +152,13 @@ func meanOf(v []float64) float64 {
 // sheets flatter, and some crews guess low.
 var claims = []float64{0.06, -0.05, 0.10, 0.0, -0.08, 0.04}
 
-// accept: while the model is being brought to the bar, a miss is logged;
-// set to t.Errorf when it clears it.
-var accept = func(t *testing.T, format string, a ...any) { t.Logf("NOT YET: "+format, a...) }
-
-func TestModelGeneralisesToAnotherWorld(t *testing.T) {
-	if testing.Short() {
-		t.Skip("the independent-world score takes a few seconds; run without -short")
-	}
-	var ratios []float64
-	var n, covered int
-	var lines []string
+// scoreAll scores every world of the season drawn with the seeds shifted
+// by shift: the average of the worlds' ratios to their floors, the worst,
+// and the interval's coverage.
+func scoreAll(t *testing.T, shift uint64) (avg, worst float64, covered, n int, lines []string) {
 	worlds := truthsim.Worlds()
-	// PITCARD_TRUTH_SEED re-draws every world's season (the same cars and
-	// tracks, other days): a check that a change helps beyond the seasons
-	// it was measured on.
-	if v := os.Getenv("PITCARD_TRUTH_SEED"); v != "" {
-		var shift uint64
-		fmt.Sscan(v, &shift)
-		for i := range worlds {
-			worlds[i].Seed += shift
-		}
+	for i := range worlds {
+		worlds[i].Seed += shift
 	}
 	scores := make([]heldOut, len(worlds))
 	var wg sync.WaitGroup
@@ -182,30 +170,87 @@ func TestModelGeneralisesToAnotherWorld(t *testing.T) {
 		}()
 	}
 	wg.Wait()
+	var ratios []float64
 	for _, s := range scores {
 		r := s.mae / s.floor
 		ratios = append(ratios, r)
+		worst = math.Max(worst, r)
 		n += s.n
 		covered += s.covered
-		line := fmt.Sprintf("%-62s n=%2d MAE %.4f floor %.4f (strict %.4f) ratio %.2f | first %.4f/%.4f later %.4f/%.4f | last-pass %.4f | 95%% covers %d/%d",
-			s.world, s.n, s.mae, s.floor, s.strict, r, s.firstMAE, s.floorFirst, s.laterMAE, s.floorLate, s.last, s.covered, s.n)
-		lines = append(lines, line)
-		t.Log(line)
-		if r > 1.4 {
-			accept(t, "%s: held-out MAE %.4f s is %.2f× its noise floor %.4f (at most 1.4)", s.world, s.mae, r, s.floor)
+		lines = append(lines, fmt.Sprintf("%-62s n=%2d MAE %.4f floor %.4f (strict %.4f) ratio %.2f | first %.4f/%.4f later %.4f/%.4f | last-pass %.4f | 95%% covers %d/%d",
+			s.world, s.n, s.mae, s.floor, s.strict, r, s.firstMAE, s.floorFirst, s.laterMAE, s.floorLate, s.last, s.covered, s.n))
+	}
+	return meanOf(ratios), worst, covered, n, lines
+}
+
+// The bar: over two seasons of every world (seeds as drawn, and shifted by
+// 1000), the held-out finish-ET MAE averages at most 1.2× the noise floor,
+// no world's exceeds 1.4×, and the 95 % interval covers 93–97 % of the
+// held-out passes.
+func TestModelGeneralisesToAnotherWorld(t *testing.T) {
+	if testing.Short() {
+		t.Skip("the independent-world score takes a few seconds; run without -short")
+	}
+	var ratios []float64
+	var covered, n int
+	var all []string
+	for _, shift := range []uint64{0, 1000} {
+		// PITCARD_TRUTH_SEED draws other seasons (the same cars and tracks,
+		// other days): a check beyond the two the bar is set on.
+		if v := os.Getenv("PITCARD_TRUTH_SEED"); v != "" {
+			var extra uint64
+			fmt.Sscan(v, &extra)
+			shift += extra
+		}
+		avg, worst, c, k, lines := scoreAll(t, shift)
+		for _, l := range lines {
+			t.Log(l)
+		}
+		summary := fmt.Sprintf("seeds +%d: average ratio %.2f, worst %.2f; 95 %% interval covered %d of %d", shift, avg, worst, c, k)
+		t.Log(summary)
+		all = append(append(all, lines...), summary)
+		ratios = append(ratios, avg)
+		covered, n = covered+c, n+k
+		if worst > 1.4 {
+			t.Errorf("seeds +%d: a world's held-out MAE is %.2f× its noise floor (at most 1.4)", shift, worst)
 		}
 	}
-	avg := meanOf(ratios)
-	cov := float64(covered) / float64(n)
-	summary := fmt.Sprintf("average ratio %.2f; 95 %% interval covered %d of %d held-out passes (%.1f %%)", avg, covered, n, 100*cov)
+	avg, cov := meanOf(ratios), float64(covered)/float64(n)
+	summary := fmt.Sprintf("both seasons: average ratio %.2f; 95 %% interval covered %d of %d held-out passes (%.1f %%)", avg, covered, n, 100*cov)
 	t.Log(summary)
 	if out := os.Getenv("PITCARD_SCORE_OUT"); out != "" {
-		_ = os.WriteFile(out, []byte(strings.Join(append(lines, summary), "\n")+"\n"), 0o644)
+		_ = os.WriteFile(out, []byte(strings.Join(append(all, summary), "\n")+"\n"), 0o644)
 	}
 	if avg > 1.2 {
-		accept(t, "held-out MAE averages %.2f× the noise floor (at most 1.2)", avg)
+		t.Errorf("held-out MAE averages %.2f× the noise floor (at most 1.2)", avg)
 	}
 	if cov < 0.93 || cov > 0.97 {
-		accept(t, "the 95 %% interval covered %.1f %% of held-out passes (want 93–97 %%)", 100*cov)
+		t.Errorf("the 95 %% interval covered %.1f %% of held-out passes (want 93–97 %%)", 100*cov)
 	}
+}
+
+// The ablation table: each mechanism off in turn, the rest on, over four
+// seasons. PITCARD_ABLATE=1 go test ./engine -run TestAblation -v
+func TestAblation(t *testing.T) {
+	if os.Getenv("PITCARD_ABLATE") == "" {
+		t.Skip("set PITCARD_ABLATE=1 for the ablation table (a few minutes)")
+	}
+	for _, m := range append([]string{""}, engine.Mechanisms...) {
+		engine.SetAblation(m)
+		var parts []string
+		var sum float64
+		var covered, n int
+		for _, shift := range []uint64{0, 1000, 2000, 3000} {
+			avg, worst, c, k, _ := scoreAll(t, shift)
+			sum += avg
+			covered, n = covered+c, n+k
+			parts = append(parts, fmt.Sprintf("%.2f (worst %.2f)", avg, worst))
+		}
+		name := m
+		if name == "" {
+			name = "all on"
+		}
+		t.Logf("| %s off | %s | mean %.3f | coverage %.1f %% |", name, strings.Join(parts, " | "), sum/4, 100*float64(covered)/float64(n))
+	}
+	engine.SetAblation("")
 }

@@ -204,7 +204,7 @@ func Predict(f Fit, in PredictInput) Prediction {
 	switch {
 	case in.WeightLb > 0:
 		mass = in.WeightLb * weather.KgPerLb
-	case f.Weight != nil && f.Weight.logged > 0:
+	case f.Weight != nil && f.Weight.logged > 0 && !ablation.noWeightFill:
 		mass = f.Weight.At(in.Time) * weather.KgPerLb
 		weightNote = f.Weight.note(in.Time)
 	}

@@ -87,9 +87,12 @@ type Pass struct {
 	// prep at their usual: what the physics alone says before the day shows
 	// its hand.
 	Typical [5]float64
-	Aborted bool // lifted, pedalled: not the car's time
-	Day     int
-	InDay   int // 0 for the day's first pass
+	// TypicalMeasured is Typical in the conditions as logged (the meters'
+	// small errors included): all a predictor can know of the air.
+	TypicalMeasured [5]float64
+	Aborted         bool // lifted, pedalled: not the car's time
+	Day             int
+	InDay           int // 0 for the day's first pass
 	// the hidden state of the pass, for Sensitivity
 	dy   day
 	c    cond
@@ -186,10 +189,17 @@ func (w World) Season() []Pass {
 			usual.tune, usual.prep, usual.bottle = 1, 1, 1
 			typical := w.simulate(usual, c, mass, quiet, false)
 			p := w.logged(c, t, k, mass, ran, r)
+			// the same from the conditions as the crew's meters read them
+			measured := c
+			a := p.Air.Derive(weather.Feet(w.Track.ElevationFt))
+			measured.tempF, measured.dewF, measured.stationInHg = p.Air.Temp.Fahrenheit(), a.DewPoint.Fahrenheit(), a.Station.InHg()
+			measured.trackF, measured.windMPH, measured.windFrom = p.Air.TrackTemp.Fahrenheit(), p.Air.Wind.MPH(), p.Air.WindFrom
+			typicalMeasured := w.simulate(usual, measured, mass, quiet, false)
 			if abort && r.Float64() < 0.5 {
 				p.Notes = "lifted"
 			}
-			out = append(out, Pass{Logged: p, Oracle: oracle.et, Typical: typical.et, Aborted: abort, Day: d, InDay: k, dy: dy, c: c, mass: mass})
+			out = append(out, Pass{Logged: p, Oracle: oracle.et, Typical: typical.et, TypicalMeasured: typicalMeasured.et,
+				Aborted: abort, Day: d, InDay: k, dy: dy, c: c, mass: mass})
 			fuel = math.Min(fuel+w.Car.BurnLb, w.Car.FuelLb)
 			t = t.Add(time.Duration(40+r.IntN(50)) * time.Minute)
 		}
