@@ -3,6 +3,7 @@ package engine
 import (
 	"math"
 	"math/rand/v2"
+	"os"
 	"strings"
 	"testing"
 	"time"
@@ -83,6 +84,12 @@ func daSwing(passes []Pass) float64 {
 // of 0.015 s, and at least 30 % better than "same as the last pass" on days
 // whose density altitude swings 1500 ft or more.
 func TestCalibrationRecoversTheTruth(t *testing.T) {
+	// PITCARD_ABLATION names a mechanism to switch off, for the ablation
+	// table's column on the model's own world.
+	if m := os.Getenv("PITCARD_ABLATION"); m != "" {
+		SetAblation(m)
+		defer SetAblation("")
+	}
 	for _, truth := range []Params{
 		{PowerScale: 0.92, TractionScale: 1.10, PressureExp: 1.0, TempExp: 0.5, TrackOptF: 100, TrackWidthF: 33},
 		{PowerScale: 1.08, TractionScale: 0.90, PressureExp: 0.85, TempExp: 0.45, TrackOptF: 118, TrackWidthF: 50},
@@ -244,6 +251,10 @@ func TestPredictionFromPassesWithoutWeather(t *testing.T) {
 // The same recovery for a boosted eighth-mile car: the fit works on the
 // timers and the trap the distance has (synthetic truth, as above).
 func TestCalibrationEighthMileTurbo(t *testing.T) {
+	if m := os.Getenv("PITCARD_ABLATION"); m != "" { // see TestCalibrationRecoversTheTruth
+		SetAblation(m)
+		defer SetAblation("")
+	}
 	car := Car{Name: "turbo eighth", WeightLb: 3100, PowerHP: 700, Induction: Turbo, DistanceFt: 660, Tire: "slick"}
 	truth := Params{PowerScale: 0.9, TractionScale: 1.05, PressureExp: 0.35, TempExp: 0.5, TrackOptF: 115, TrackWidthF: 40}
 	g := gen{rng: rand.New(rand.NewPCG(11, 12)), truth: truth, car: car}
@@ -276,5 +287,33 @@ func TestCalibrationEighthMileTurbo(t *testing.T) {
 	t.Logf("eighth-mile turbo: held-out MAE %.4f s, knowing the truth %.4f s, last pass %.4f s", mean(errs), mean(oracle), mean(last))
 	if mae := mean(errs); mae > 1.25*mean(oracle) || mae > 0.7*mean(last) {
 		t.Errorf("eighth-mile turbo held-out MAE %.4f s (truth %.4f, last pass %.4f)", mae, mean(oracle), mean(last))
+	}
+}
+
+// A track hotter than any the logbook has seen, and the first pass of a
+// day, are new ground: the interval widens and the prediction says why
+// (synthetic truth, as above; the widening is pitcard's own rule).
+func TestIntervalSaysWhenItCannotKnow(t *testing.T) {
+	g := gen{rng: rand.New(rand.NewPCG(9, 10)), truth: DefaultParams(Natural), car: testCar}
+	passes := g.season(4, 10)
+	last := passes[len(passes)-1]
+	later := last.Time.Add(40 * time.Minute)
+	fit, _ := Calibrate(CalibrateInput{Car: testCar, Track: testTrack, Passes: passes, Now: later})
+	same := Predict(fit, PredictInput{Air: last.Air, Prep: 1, Time: later})
+	hot := last.Air
+	hot.TrackTemp = weather.Fahrenheit(fit.Samples[0].Env.TrackTemp.Fahrenheit() + 30)
+	for _, s := range fit.Samples {
+		if f := s.Env.TrackTemp.Fahrenheit() + 30; f > hot.TrackTemp.Fahrenheit() {
+			hot.TrackTemp = weather.Fahrenheit(f)
+		}
+	}
+	outside := Predict(fit, PredictInput{Air: hot, Prep: 1, Time: later})
+	if !(outside.Finish().SD > same.Finish().SD*1.1) || !strings.Contains(strings.Join(outside.Notes, " "), "outside the conditions") {
+		t.Errorf("30 °F hotter than any logged track: SD %.4f (same air %.4f), notes %q", outside.Finish().SD, same.Finish().SD, outside.Notes)
+	}
+	nextDay := last.Time.AddDate(0, 0, 7)
+	first := Predict(fit, PredictInput{Air: last.Air, Prep: 1, Time: nextDay})
+	if !(first.Finish().SD > same.Finish().SD) || !strings.Contains(strings.Join(first.Notes, " "), "first pass of the day") {
+		t.Errorf("first pass of a day: SD %.4f (later the same day %.4f), notes %q", first.Finish().SD, same.Finish().SD, first.Notes)
 	}
 }

@@ -227,7 +227,7 @@ func fitResiduals(ss []Sample, res func(Sample) (float64, bool), now time.Time, 
 		}
 		est := v/float64(len(days)-1) - noise/float64(len(days))
 		// lean on the default with few days, as for σ²
-		tau2 = (est*float64(len(days)-1) + 2*sq(pri.Tau)) / float64(len(days)-1+2)
+		tau2 = (est*float64(len(days)-1) + sq(pri.Tau)) / float64(len(days)-1+1)
 	}
 	tau2 = math.Max(tau2, sq(pri.MinTau))
 	out.Tau2 = tau2
