@@ -61,7 +61,7 @@ const (
 	// DefaultTau is the day-to-day spread taken before the logbook has the
 	// days to measure it, s (common practice, from memory: a bracket car's
 	// day-to-day change is a few hundredths).
-	DefaultTau = 0.03
+	DefaultTau = 0.02
 )
 
 // residualFit is the fitted structure of one timer's residuals.
