@@ -184,56 +184,131 @@ func Settle(left, right LaneRun, rules RaceRules) (Outcome, error) {
 		o.MarginFt = o.MarginS.InexactFloat64() * trailing.Decimal.InexactFloat64() * 5280 / 3600
 		o.HasMarginFt = true
 	}
-	win := func(w Lane, reason, why string, args ...any) (Outcome, error) {
-		o.Winner, o.Reason, o.Explanation = w, reason, fmt.Sprintf(why, args...)
-		return o, nil
-	}
 	L, R := o.Left, o.Right
-	rt := func(x LaneResult) string { return FormatSeconds(x.Reaction, 3) }
-	// Fouls first: red lights, then boundary fouls.
-	switch {
-	case L.RedLight && R.RedLight:
-		lLeft, rLeft := L.Start.Add(L.Reaction), R.Start.Add(R.Reaction)
-		switch lLeft.Cmp(rLeft) {
-		case -1:
-			return win(Right, ReasonRedLight, "both red-lit; left left first (reaction %s) and loses", rt(L))
-		case 1:
-			return win(Left, ReasonRedLight, "both red-lit; right left first (reaction %s) and loses", rt(R))
-		}
-		return win("", ReasonDoubleFoul, "both red-lit at the same instant: the track decides")
-	case L.RedLight:
-		return win(Right, ReasonRedLight, "left red-lit (reaction %s)", rt(L))
-	case R.RedLight:
-		return win(Left, ReasonRedLight, "right red-lit (reaction %s)", rt(R))
-	case L.Foul && R.Foul:
-		return win("", ReasonDoubleFoul, "both lanes fouled: the first to foul loses, and the track's officials decide who that was")
-	case L.Foul:
-		return win(Right, ReasonFoul, "left fouled (boundary or centreline)")
-	case R.Foul:
-		return win(Left, ReasonFoul, "right fouled (boundary or centreline)")
+	f := raceFacts{
+		L:      laneFacts{RedLight: L.RedLight, Breakout: L.Breakout, Foul: L.Foul},
+		R:      laneFacts{RedLight: R.RedLight, Breakout: R.Breakout, Foul: R.Foul},
+		Finish: L.Finish.Cmp(R.Finish), OverDial: L.OverDial.Cmp(R.OverDial),
+		Leave: L.Start.Add(L.Reaction).Cmp(R.Start.Add(R.Reaction)),
 	}
-	bo := func(x LaneResult, r LaneRun) string {
-		return fmt.Sprintf("%s (%s on a %s dial)", FormatSeconds(x.OverDial.Abs(), 3), FormatSeconds(r.ET, 3), FormatSeconds(r.Dial, 2))
+	o.Winner, o.Reason = decide(f)
+	o.Explanation = explain(o, f, left, right)
+	return o, nil
+}
+
+// laneFacts are what the rules look at in one lane.
+type laneFacts struct{ RedLight, Breakout, Foul bool }
+
+// raceFacts are what the rules compare between the lanes: −1 when left's is
+// less (earlier to the finish, a smaller over-dial, left first off the
+// line), 0 level, +1 right's less.
+type raceFacts struct {
+	L, R                    laneFacts
+	Finish, OverDial, Leave int
+}
+
+// decide is the bracket rules themselves, the one place they are written:
+// Settle applies them to two slips, WinChances to every draw of a race not
+// yet run.
+func decide(f raceFacts) (Lane, string) {
+	L, R := f.L, f.R
+	switch { // fouls first: red lights, then boundary fouls
+	case L.RedLight && R.RedLight:
+		switch f.Leave {
+		case -1:
+			return Right, ReasonRedLight
+		case 1:
+			return Left, ReasonRedLight
+		}
+		return "", ReasonDoubleFoul
+	case L.RedLight:
+		return Right, ReasonRedLight
+	case R.RedLight:
+		return Left, ReasonRedLight
+	case L.Foul && R.Foul:
+		return "", ReasonDoubleFoul
+	case L.Foul:
+		return Right, ReasonFoul
+	case R.Foul:
+		return Left, ReasonFoul
+	}
+	first := Lane("")
+	switch f.Finish {
+	case -1:
+		first = Left
+	case 1:
+		first = Right
 	}
 	switch {
 	case L.Breakout && R.Breakout:
-		switch L.OverDial.Cmp(R.OverDial) {
+		switch f.OverDial {
 		case 1:
-			return win(Left, ReasonDoubleBreakout, "both broke out; left by less: %s against %s", bo(L, left), bo(R, right))
+			return Left, ReasonDoubleBreakout
 		case -1:
-			return win(Right, ReasonDoubleBreakout, "both broke out; right by less: %s against %s", bo(R, right), bo(L, left))
+			return Right, ReasonDoubleBreakout
 		}
-		if o.First != "" {
-			return win(o.First, ReasonDoubleBreakout, "both broke out by the same %s; %s reached the finish first", FormatSeconds(L.OverDial.Abs(), 3), o.First)
+		if first != "" {
+			return first, ReasonDoubleBreakout
 		}
-		return win("", ReasonTie, "both broke out by the same amount and reached the finish together")
+		return "", ReasonTie
 	case L.Breakout:
-		return win(Right, ReasonBreakout, "left broke out by %s", bo(L, left))
+		return Right, ReasonBreakout
 	case R.Breakout:
-		return win(Left, ReasonBreakout, "right broke out by %s", bo(R, right))
+		return Left, ReasonBreakout
 	}
-	if o.First == "" {
-		return win("", ReasonTie, "both reached the finish at the same thousandth")
+	if first == "" {
+		return "", ReasonTie
 	}
-	return win(o.First, ReasonFirstToFinish, "%s reached the finish first by %s s; neither broke out", o.First, FormatSeconds(o.MarginS, 3))
+	return first, ReasonFirstToFinish
+}
+
+// explain says a settled race's decision in words.
+func explain(o Outcome, f raceFacts, left, right LaneRun) string {
+	L, R := o.Left, o.Right
+	rt := func(x LaneResult) string { return FormatSeconds(x.Reaction, 3) }
+	bo := func(x LaneResult, r LaneRun) string {
+		return fmt.Sprintf("%s (%s on a %s dial)", FormatSeconds(x.OverDial.Abs(), 3), FormatSeconds(r.ET, 3), FormatSeconds(r.Dial, 2))
+	}
+	switch o.Reason {
+	case ReasonRedLight:
+		if L.RedLight && R.RedLight {
+			if o.Winner == Right {
+				return fmt.Sprintf("both red-lit; left left first (reaction %s) and loses", rt(L))
+			}
+			return fmt.Sprintf("both red-lit; right left first (reaction %s) and loses", rt(R))
+		}
+		if o.Winner == Right {
+			return fmt.Sprintf("left red-lit (reaction %s)", rt(L))
+		}
+		return fmt.Sprintf("right red-lit (reaction %s)", rt(R))
+	case ReasonDoubleFoul:
+		if L.RedLight && R.RedLight {
+			return "both red-lit at the same instant: the track decides"
+		}
+		return "both lanes fouled: the first to foul loses, and the track's officials decide who that was"
+	case ReasonFoul:
+		if o.Winner == Right {
+			return "left fouled (boundary or centreline)"
+		}
+		return "right fouled (boundary or centreline)"
+	case ReasonDoubleBreakout:
+		switch f.OverDial {
+		case 1:
+			return fmt.Sprintf("both broke out; left by less: %s against %s", bo(L, left), bo(R, right))
+		case -1:
+			return fmt.Sprintf("both broke out; right by less: %s against %s", bo(R, right), bo(L, left))
+		}
+		return fmt.Sprintf("both broke out by the same %s; %s reached the finish first", FormatSeconds(L.OverDial.Abs(), 3), o.First)
+	case ReasonBreakout:
+		if o.Winner == Right {
+			return fmt.Sprintf("left broke out by %s", bo(L, left))
+		}
+		return fmt.Sprintf("right broke out by %s", bo(R, right))
+	case ReasonTie:
+		if L.Breakout && R.Breakout {
+			return "both broke out by the same amount and reached the finish together"
+		}
+		return "both reached the finish at the same thousandth"
+	}
+	return fmt.Sprintf("%s reached the finish first by %s s; neither broke out", o.First, FormatSeconds(o.MarginS, 3))
 }

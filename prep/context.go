@@ -26,7 +26,12 @@ const RecentPasses = 10
 //	                physics_only, timers {distance_ft, et, low, high},
 //	                traps {distance_ft, mph, low, high}, et_per_1000ft_da
 //	ctx.dial        recommended (number), recommended_text ("11.46"), step,
-//	                breakout_risk, breakout_chance
+//	                breakout_risk, breakout_chance; with an opponent also
+//	                win_chance, best_for_win {dial, win_chance,
+//	                breakout_chance} and options {dial, win_chance,
+//	                breakout_chance} (the dials searched)
+//	ctx.opponent    with an opponent dial: dial, margin and margin_sd (its
+//	                ET over its dial, s), rt_mean, rt_sd, red_light_chance
 //	ctx.passes      the last 10 passes, most recent first: date, time,
 //	                session, lane, dial, rt, et60 ... et1320, mph660, mph1320,
 //	                temp_f, track_temp_f, density_altitude_ft, notes
@@ -84,9 +89,26 @@ func RuleContext(c Card) map[string]any {
 		ctx["prediction"] = pred
 	}
 	if c.PlanErr == nil && len(c.Plan.Options) > 0 {
-		ctx["dial"] = map[string]any{"recommended": c.Plan.Recommended.InexactFloat64(), "recommended_text": c.Plan.Recommended.StringFixed(2),
+		dial := map[string]any{"recommended": c.Plan.Recommended.InexactFloat64(), "recommended_text": c.Plan.Recommended.StringFixed(2),
 			"step": c.Plan.Step.String(), "breakout_risk": c.Plan.Risk,
 			"breakout_chance": engine.BreakoutChance(c.Plan.Estimate, c.Plan.Recommended)}
+		if len(c.Win) > 0 {
+			if w, ok := winOf(c, c.Plan.Recommended); ok {
+				dial["win_chance"] = w
+			}
+			dial["best_for_win"] = map[string]any{"dial": c.BestForWin.Dial.InexactFloat64(), "win_chance": c.BestForWin.Win,
+				"breakout_chance": engine.BreakoutChance(c.Plan.Estimate, c.BestForWin.Dial)}
+			var opts []any
+			for _, o := range c.Win {
+				opts = append(opts, map[string]any{"dial": o.Dial.InexactFloat64(), "win_chance": o.Win, "breakout_chance": engine.BreakoutChance(c.Plan.Estimate, o.Dial)})
+			}
+			dial["options"] = opts
+		}
+		ctx["dial"] = dial
+	}
+	if o := in.Opponent; o != nil {
+		ctx["opponent"] = map[string]any{"dial": o.Dial.InexactFloat64(), "margin": o.Margin, "margin_sd": o.MarginSD,
+			"rt_mean": o.RT.Mean, "rt_sd": o.RT.SD, "red_light_chance": o.RT.RedLightChance()}
 	}
 	var passes []any
 	for i := len(in.Passes) - 1; i >= 0 && len(passes) < RecentPasses; i-- {

@@ -70,11 +70,24 @@ func RenderJSON(w io.Writer, c Card) error {
 	if c.PlanErr == nil && len(c.Plan.Options) > 0 {
 		var opts []map[string]any
 		for _, o := range c.Plan.Options {
-			opts = append(opts, map[string]any{"dial": dialText(o.Dial, c.Plan.Step), "breakout_chance": round(o.BreakoutChance, 4),
-				"expected_giveaway_s": round(o.Giveaway, 4), "recommended": o.Recommended})
+			m := map[string]any{"dial": dialText(o.Dial, c.Plan.Step), "breakout_chance": round(o.BreakoutChance, 4),
+				"expected_giveaway_s": round(o.Giveaway, 4), "recommended": o.Recommended}
+			if w, ok := winOf(c, o.Dial); ok {
+				m["win_chance"] = round(w, 4)
+			}
+			opts = append(opts, m)
 		}
 		j["dial"] = map[string]any{"recommended": dialText(c.Plan.Recommended, c.Plan.Step), "step": c.Plan.Step.String(), "breakout_risk": c.Plan.Risk,
 			"options": opts, "rule_total": c.TotalAdjust.StringFixed(2), "flag": c.AdjustFlag}
+		if len(c.Win) > 0 {
+			j["best_for_win"] = map[string]any{"dial": dialText(c.BestForWin.Dial, c.Plan.Step), "win_chance": round(c.BestForWin.Win, 4),
+				"breakout_chance": round(engine.BreakoutChance(c.Plan.Estimate, c.BestForWin.Dial), 4)}
+			j["head_start_s"] = engine.HeadStart(c.Plan.Recommended, in.Opponent.Dial).InexactFloat64()
+			j["win_draws"] = engine.WinDraws
+			if c.WinTrade != "" {
+				j["win_trade"] = c.WinTrade
+			}
+		}
 		if c.HasFinal {
 			j["final_dial"] = dialText(c.FinalDial, c.Plan.Step)
 			j["final_breakout_chance"] = round(engine.BreakoutChance(c.Plan.Estimate, c.FinalDial), 4)

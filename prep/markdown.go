@@ -42,6 +42,9 @@ func RenderMarkdown(w io.Writer, c Card) error {
 	}
 	if len(v.Options.Rows) > 0 {
 		mdTable(&b, v.Options)
+		if v.OptionsNote != "" {
+			fmt.Fprintf(&b, "%s\n\n", v.OptionsNote)
+		}
 	}
 	if len(v.Rules.Rows) > 0 {
 		mdTable(&b, v.Rules)

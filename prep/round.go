@@ -56,8 +56,16 @@ type Input struct {
 	Session      engine.Session
 	Lane         engine.Lane // "" when not known
 	OpponentDial decimal.NullDecimal
-	Call         time.Time // when the round is called
-	Now          time.Time // the crew's clock
+	// Opponent is what is known of the other lane (its dial, its margin over
+	// it, its reaction times) and UsRT our driver's reaction times: with
+	// both, the dial options carry the chance to win. Nil: no opponent dial.
+	Opponent *engine.Opponent
+	UsRT     engine.RTModel
+	// PostBestForWin posts the dial that wins most instead of the breakout
+	// rule's (the setting post_dial: best-for-win).
+	PostBestForWin bool
+	Call           time.Time // when the round is called
+	Now            time.Time // the crew's clock
 
 	Air       weather.Reading // the air of the pass (forecast for the call, or a reading)
 	AirSource string
@@ -105,6 +113,13 @@ type Card struct {
 	Fit          engine.Fit
 	Plan         engine.DialPlan
 	PlanErr      error
+	// Win: the chance to win against the opponent for each dial considered
+	// (the plan's options and those around them), the one that wins most,
+	// and what choosing it over the breakout rule's trades. Empty without an
+	// opponent.
+	Win        []engine.WinOption
+	BestForWin engine.WinOption
+	WinTrade   string
 	// NoDial says why no dial is posted though there is a prediction (too
 	// few passes of the car): the estimate is shown as a guide.
 	NoDial string
@@ -189,6 +204,9 @@ func Gather(in Input) Card {
 		c.Record, c.RecordMAE = todaysRecord(fit, cal, in)
 	}
 
+	if in.Opponent != nil && c.PlanErr == nil && len(c.Plan.Options) > 0 {
+		c.Win, c.BestForWin, c.WinTrade = winChances(c, in)
+	}
 	c.RuleContext = RuleContext(c)
 	c.Rules = scripts.Run(in.Rules, in.RulesFS, c.RuleContext, in.Settings.RuleLimits)
 	for _, r := range c.Rules {
@@ -205,7 +223,11 @@ func Gather(in Input) Card {
 		c.Checks = append([]scripts.Check{{Label: "Rule adjustments", Status: scripts.Warn, Note: c.AdjustFlag, File: "pitcard"}}, c.Checks...)
 	}
 	if c.PlanErr == nil && err == nil {
-		c.FinalDial = engine.RoundToStep(c.Plan.Recommended.Add(c.TotalAdjust), in.Settings.DialStep)
+		base := c.Plan.Recommended
+		if in.PostBestForWin && len(c.Win) > 0 {
+			base = c.BestForWin.Dial
+		}
+		c.FinalDial = engine.RoundToStep(base.Add(c.TotalAdjust), in.Settings.DialStep)
 		c.HasFinal = true
 	}
 	c.GatheredTook = time.Since(start)
@@ -281,4 +303,46 @@ func signedDec(d decimal.Decimal) string {
 		return d.StringFixed(2)
 	}
 	return "+" + d.StringFixed(2)
+}
+
+// WinRows is how many dials either side of the breakout rule's the chance
+// to win is searched over.
+const WinRows = 10
+
+// winChances are the chances to win of the dials around the plan's
+// recommendation, the best of them, and in words what posting it over the
+// breakout rule's dial trades when it breaks the crew's limit.
+func winChances(c Card, in Input) ([]engine.WinOption, engine.WinOption, string) {
+	step := in.Settings.DialStep
+	var cands []decimal.Decimal
+	for i := -WinRows; i <= WinRows; i++ {
+		if d := c.Plan.Recommended.Add(step.Mul(decimal.NewFromInt(int64(i)))); d.IsPositive() {
+			cands = append(cands, d)
+		}
+	}
+	opts := engine.WinChances(engine.WinInput{Us: c.Plan.Estimate, UsRT: in.UsRT, Opp: *in.Opponent, Seed: 1}, cands)
+	best := engine.BestForWin(opts)
+	trade := ""
+	var rule engine.WinOption
+	for _, o := range opts {
+		if o.Dial.Equal(c.Plan.Recommended) {
+			rule = o
+		}
+	}
+	if bo := engine.BreakoutChance(c.Plan.Estimate, best.Dial); bo > c.Plan.Risk && !best.Dial.Equal(c.Plan.Recommended) {
+		trade = fmt.Sprintf("the dial that wins most, %s, breaks out %.1f %% of the time, more than the %.0f %% you accept: over your rule's %s it gains %.1f points of winning for %.1f points more breakout risk",
+			dialText(best.Dial, step), 100*bo, 100*c.Plan.Risk, dialText(c.Plan.Recommended, step), 100*(best.Win-rule.Win),
+			100*(bo-engine.BreakoutChance(c.Plan.Estimate, c.Plan.Recommended)))
+	}
+	return opts, best, trade
+}
+
+// winOf is the chance to win of dial d, and whether it was computed.
+func winOf(c Card, d decimal.Decimal) (float64, bool) {
+	for _, o := range c.Win {
+		if o.Dial.Equal(d) {
+			return o.Win, true
+		}
+	}
+	return 0, false
 }

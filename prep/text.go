@@ -96,6 +96,9 @@ func RenderTextWidth(w io.Writer, c Card, color bool, width int) error {
 	}
 	if len(v.Options.Rows) > 0 {
 		writeTable(&b, v.Options, color, Width)
+		if v.OptionsNote != "" {
+			b.WriteString(wrap(v.OptionsNote, Width, "  ") + "\n")
+		}
 		b.WriteString("\n")
 	}
 	if len(v.Rules.Rows) > 0 {

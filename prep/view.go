@@ -16,25 +16,26 @@ import (
 // view is the card laid out in words and figures, in the crew's units: what
 // every renderer but JSON prints. Renderers only arrange it.
 type view struct {
-	Title      string   // "Round 3, left lane"
-	Subtitle   []string // track and date; call time; car; opponent
-	Dial       string   // the dial to post, or "" when there is none
-	DialLines  []string // how the dial was reached
-	DialAlert  string   // the rules' total flagged, if it is
-	NoDial     string   // why there is no dial, when it is not a problem of the files
-	Guide      string   // the estimate shown instead of a dial, in words
-	Air        table
-	AirNote    string
-	Prediction table
-	Basis      []string
-	Options    table
-	Rules      table
-	Checks     []checkRow
-	Notes      []string
-	Record     table
-	RecordNote string
-	Problems   []string
-	Cautions   []string
+	Title       string   // "Round 3, left lane"
+	Subtitle    []string // track and date; call time; car; opponent
+	Dial        string   // the dial to post, or "" when there is none
+	DialLines   []string // how the dial was reached
+	DialAlert   string   // the rules' total flagged, if it is
+	NoDial      string   // why there is no dial, when it is not a problem of the files
+	Guide       string   // the estimate shown instead of a dial, in words
+	Air         table
+	AirNote     string
+	Prediction  table
+	Basis       []string
+	Options     table
+	OptionsNote string
+	Rules       table
+	Checks      []checkRow
+	Notes       []string
+	Record      table
+	RecordNote  string
+	Problems    []string
+	Cautions    []string
 }
 
 type table struct {
@@ -79,6 +80,17 @@ func newView(c Card) view {
 		v.DialLines = append(v.DialLines, rec)
 		if c.FewPasses != "" {
 			v.DialLines = append(v.DialLines, "NOTE: "+c.FewPasses)
+		}
+		if len(c.Win) > 0 {
+			v.DialLines = append(v.DialLines, headStartWords(c.Plan.Recommended, in.Opponent.Dial))
+			if w, ok := winOf(c, c.Plan.Recommended); ok {
+				v.DialLines = append(v.DialLines, fmt.Sprintf("against the other lane: %.1f %% to win on %s; the dial that wins most is %s (%.1f %% to win, %.1f %% breakout)%s",
+					100*w, dialText(c.Plan.Recommended, step), dialText(c.BestForWin.Dial, step), 100*c.BestForWin.Win,
+					100*engine.BreakoutChance(c.Plan.Estimate, c.BestForWin.Dial), postedWords(in.PostBestForWin)))
+			}
+			if c.WinTrade != "" {
+				v.DialLines = append(v.DialLines, "CHOICE: "+c.WinTrade)
+			}
 		}
 		for _, a := range c.Adjustments {
 			v.DialLines = append(v.DialLines, fmt.Sprintf("%s s %s (%s)", signedDec(a.Adjust), a.Reason, a.File))
@@ -160,16 +172,30 @@ func newView(c Card) view {
 	// The dial options.
 	if c.PlanErr == nil && len(c.Plan.Options) > 0 {
 		v.Options = table{Title: "Dial options", Header: []string{"Dial", "Breakout", "Given away", ""}, Marked: -1}
+		if len(c.Win) > 0 {
+			v.Options.Header = []string{"Dial", "Breakout", "Given away", "To win", ""}
+		}
 		for i, o := range c.Plan.Options {
-			mark := ""
+			var marks []string
 			if o.Recommended {
-				mark, v.Options.Marked = "recommended", i
+				marks, v.Options.Marked = append(marks, "recommended"), i
 			}
 			if c.HasFinal && o.Dial.Equal(c.FinalDial) && !o.Recommended {
-				mark = "final"
+				marks = append(marks, "final")
 			}
-			v.Options.Rows = append(v.Options.Rows, []string{dialText(o.Dial, step), fmt.Sprintf("%.1f %%", 100*o.BreakoutChance),
-				fmt.Sprintf("%.3f s", o.Giveaway), mark})
+			if len(c.Win) > 0 && o.Dial.Equal(c.BestForWin.Dial) {
+				marks = append(marks, "wins most")
+			}
+			row := []string{dialText(o.Dial, step), fmt.Sprintf("%.1f %%", 100*o.BreakoutChance), fmt.Sprintf("%.3f s", o.Giveaway)}
+			if len(c.Win) > 0 {
+				w, _ := winOf(c, o.Dial)
+				row = append(row, fmt.Sprintf("%.1f %%", 100*w))
+			}
+			v.Options.Rows = append(v.Options.Rows, append(row, strings.Join(marks, ", ")))
+		}
+		if len(c.Win) > 0 {
+			v.OptionsNote = fmt.Sprintf("To win: against the other lane's %s dial, its car %+.3f s over its dial (± %.3f) and its driver's reaction %.3f ± %.3f s; %d races drawn per dial (good to ±0.5 points).",
+				dialText(in.Opponent.Dial, step), in.Opponent.Margin, in.Opponent.MarginSD, in.Opponent.RT.Mean, in.Opponent.RT.SD, engine.WinDraws)
 		}
 	}
 
@@ -285,6 +311,25 @@ func sensitivityWords(s engine.Sensitivity, u weather.Units) string {
 		"(%s from the barometer alone: %s.)",
 		warm, effect(kT*s.Per10FAir), baro, effect(kP*s.PerTenthInHg), effect(s.Per10PctRH), hot, effect(kT*s.Per10FTrack),
 		wind, effect(kW*s.Per10Headwind), upperFirst(da), effect(kDA*s.PerKDA))
+}
+
+// headStartWords says who leaves first, and by how much.
+func headStartWords(us, opp decimal.Decimal) string {
+	h := engine.HeadStart(us, opp)
+	switch {
+	case h.IsPositive():
+		return fmt.Sprintf("you leave %s s after the other lane (its dial is slower)", h.StringFixed(2))
+	case h.IsNegative():
+		return fmt.Sprintf("you leave %s s before the other lane (your dial is slower)", h.Neg().StringFixed(2))
+	}
+	return "you leave together: the same dial"
+}
+
+func postedWords(best bool) string {
+	if best {
+		return "; posted: the dial that wins most (setting post_dial)"
+	}
+	return "; posted: your breakout rule's (setting post_dial)"
 }
 
 // TimerName names a timer: "60 ft", "1/8 mile", "1/4 mile".

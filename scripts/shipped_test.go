@@ -32,7 +32,7 @@ func runWith(t *testing.T, r *Rule, ctx map[string]any) Result {
 
 func TestShippedRulesLoad(t *testing.T) {
 	rules, err := Load(Shipped(), DefaultLimits)
-	if err != nil || len(rules) != 5 {
+	if err != nil || len(rules) != 6 {
 		t.Fatalf("%d rules, %v", len(rules), err)
 	}
 	for _, r := range rules {
@@ -146,3 +146,25 @@ func TestPrestageRule(t *testing.T) {
 }
 
 func mustDec(s string) decimal.Decimal { return decimal.RequireFromString(s) }
+
+// The other-lane rule moves the dial to the one that wins most when it is
+// worth three points and breaks out at most 15 % of the time, and does
+// nothing without an opponent (pitcard's own strategy rule; no source).
+func TestOtherLaneRule(t *testing.T) {
+	r := shippedRule(t, "60-other-lane.lua")
+	ctx := ctxFor("left", 20, 100)
+	if res := runWith(t, r, ctx); res.HasAdjust && !res.Adjust.IsZero() {
+		t.Errorf("no opponent: adjusted %s", res.Adjust)
+	}
+	ctx["opponent"] = map[string]any{"dial": 12.1, "margin": 0.005, "margin_sd": 0.008, "rt_mean": 0.015, "rt_sd": 0.008}
+	ctx["dial"] = map[string]any{"recommended": 11.46, "recommended_text": "11.46", "win_chance": 0.40,
+		"best_for_win": map[string]any{"dial": 11.48, "win_chance": 0.46, "breakout_chance": 0.12}}
+	res := runWith(t, r, ctx)
+	if !res.HasAdjust || res.Adjust.String() != "0.02" || !strings.Contains(res.Reason, "11.48 wins 46 %") {
+		t.Errorf("a 6-point gain at 12 %% breakout: %+v", res)
+	}
+	ctx["dial"].(map[string]any)["best_for_win"] = map[string]any{"dial": 11.49, "win_chance": 0.46, "breakout_chance": 0.30}
+	if res := runWith(t, r, ctx); res.HasAdjust && !res.Adjust.IsZero() {
+		t.Errorf("30 %% breakout accepted: %+v", res)
+	}
+}

@@ -120,7 +120,7 @@ func TestBadInputTour(t *testing.T) {
 			{with([]string{"predict", "--dir", good, "--at", "09:00"}), 2, []string{"before the first reading"}},
 		},
 		"rules": {
-			{[]string{"rules", "check", "--dir", bad}, 2, []string{"1 of 6 rules failed"}},
+			{[]string{"rules", "check", "--dir", bad}, 2, []string{"1 of 7 rules failed"}},
 			{[]string{"rules", "list", "--dir", good, "--format", "xml"}, 2, []string{"--format"}},
 			{[]string{"rules", "try", "--dir", good, "--round", "Z9"}, 2, []string{"--round"}},
 			{[]string{"rules", "try", "--dir", good, "--lane", "middle"}, 2, []string{"--lane"}},

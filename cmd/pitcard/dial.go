@@ -3,9 +3,11 @@ package main
 import (
 	"fmt"
 	"strconv"
+	"strings"
 
 	"github.com/jedib0t/go-pretty/v6/table"
 	"github.com/jedib0t/go-pretty/v6/text"
+	"github.com/shopspring/decimal"
 	"github.com/spf13/cobra"
 
 	"pitcard/engine"
@@ -14,14 +16,16 @@ import (
 )
 
 type dialOptions struct {
-	g      *globalOptions
-	s      *IOStreams
-	cond   conditionFlags
-	Prep   string
-	ET, SD string
-	Last   int
-	Rows   int
-	Format string
+	g       *globalOptions
+	s       *IOStreams
+	cond    conditionFlags
+	Prep    string
+	ET, SD  string
+	Last    int
+	Rows    int
+	Format  string
+	OppDial string
+	opp     opponentFlags
 }
 
 func newDialCmd(s *IOStreams, g *globalOptions) *cobra.Command {
@@ -52,15 +56,23 @@ passes at the distance raced, not corrected for the air, and says so.`,
 	cmd.Flags().String("breakout-risk", "", "largest breakout chance to accept, a fraction (setting breakout_risk)")
 	cmd.Flags().String("dial-step", "", "dial-in step, s (setting dial_step)")
 	cmd.Flags().StringVar(&o.Format, "format", "text", "text, markdown or json")
+	cmd.Flags().StringVar(&o.OppDial, "opponent-dial", "", "the other lane's dial-in, s: adds each dial's chance to win")
+	o.opp.bind(cmd)
 	withOut(cmd, s)
 	return cmd
 }
 
 type dialOptionJSON struct {
-	Dial           string  `json:"dial"`
-	BreakoutChance float64 `json:"breakout_chance"`
-	GiveawayS      float64 `json:"expected_giveaway_s"`
-	Recommended    bool    `json:"recommended"`
+	Dial           string   `json:"dial"`
+	BreakoutChance float64  `json:"breakout_chance"`
+	GiveawayS      float64  `json:"expected_giveaway_s"`
+	Recommended    bool     `json:"recommended"`
+	WinChance      *float64 `json:"win_chance,omitempty"`
+}
+
+type bestForWinJSON struct {
+	Dial      string  `json:"dial"`
+	WinChance float64 `json:"win_chance"`
 }
 
 type dialJSON struct {
@@ -71,6 +83,8 @@ type dialJSON struct {
 	Risk        float64          `json:"breakout_risk"`
 	Recommended string           `json:"recommended_dial"`
 	Options     []dialOptionJSON `json:"options"`
+	BestForWin  *bestForWinJSON  `json:"best_for_win,omitempty"`
+	HeadStartS  *float64         `json:"head_start_s,omitempty"`
 }
 
 func dialRun(cmd *cobra.Command, o *dialOptions) error {
@@ -145,9 +159,44 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 	}
 	j := dialJSON{PredictedET: round(est.ET, 4), SD: round(est.SD, 4), Basis: est.Basis, Step: plan.Step.String(),
 		Risk: plan.Risk, Recommended: dialText(plan)}
-	for _, op := range plan.Options {
-		j.Options = append(j.Options, dialOptionJSON{Dial: op.Dial.StringFixed(stepPlaces(plan)), BreakoutChance: round(op.BreakoutChance, 4),
-			GiveawayS: round(op.Giveaway, 4), Recommended: op.Recommended})
+	// Against the other lane: the chance to win of every option.
+	var oppDial decimal.NullDecimal
+	if o.OppDial != "" {
+		d, err := engine.ParseSeconds("--opponent-dial", o.OppDial)
+		if err != nil {
+			return err
+		}
+		if err := rangeErr("--opponent-dial", d, engine.DialRange); err != nil {
+			return err
+		}
+		oppDial = decimal.NewNullDecimal(d)
+	}
+	var wins []engine.WinOption
+	var opp *engine.Opponent
+	if oppDial.Valid {
+		passes, _ := e.recentLogbook()
+		var usRT engine.RTModel
+		if opp, usRT, err = o.opp.build(e.Settings, oppDial, passes); err != nil {
+			return err
+		}
+		var ds []decimal.Decimal
+		for _, op := range plan.Options {
+			ds = append(ds, op.Dial)
+		}
+		wins = engine.WinChances(engine.WinInput{Us: est, UsRT: usRT, Opp: *opp, Seed: 1}, ds)
+		best := engine.BestForWin(wins)
+		j.BestForWin = &bestForWinJSON{Dial: best.Dial.StringFixed(stepPlaces(plan)), WinChance: round(best.Win, 4)}
+		h := engine.HeadStart(plan.Recommended, opp.Dial).InexactFloat64()
+		j.HeadStartS = &h
+	}
+	for i, op := range plan.Options {
+		oj := dialOptionJSON{Dial: op.Dial.StringFixed(stepPlaces(plan)), BreakoutChance: round(op.BreakoutChance, 4),
+			GiveawayS: round(op.Giveaway, 4), Recommended: op.Recommended}
+		if wins != nil {
+			w := round(wins[i].Win, 4)
+			oj.WinChance = &w
+		}
+		j.Options = append(j.Options, oj)
 	}
 	if o.Format == "json" {
 		if err := writeJSON(o.s.Out, j); err != nil {
@@ -157,7 +206,11 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 	}
 	fmt.Fprintln(o.s.Out, prep.Wrap(fmt.Sprintf("Predicted ET %.3f s ± %.3f (one standard deviation): %s.", est.ET, est.SD, est.Basis), o.s.width(), "  "))
 	t := newTable(o.s, fmt.Sprintf("Dial-ins (step %s s, risk ≤ %.0f %%)", plan.Step, plan.Risk*100))
-	t.AppendHeader(table.Row{"Dial", "Breakout chance", "Time given away", ""})
+	header := table.Row{"Dial", "Breakout chance", "Time given away", ""}
+	if wins != nil {
+		header = table.Row{"Dial", "Breakout chance", "Time given away", "Chance to win", ""}
+	}
+	t.AppendHeader(header)
 	for _, op := range j.Options {
 		mark := ""
 		dial := op.Dial
@@ -167,11 +220,22 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 				dial = text.Colors{text.Bold, text.FgHiWhite, text.BgBlue}.Sprint(" " + dial + " ")
 			}
 		}
-		t.AppendRow(table.Row{dial, fmt.Sprintf("%.1f %%", op.BreakoutChance*100), fmt.Sprintf("%.3f s", op.GiveawayS), mark})
+		if j.BestForWin != nil && op.Dial == j.BestForWin.Dial {
+			mark = strings.TrimPrefix(mark+", wins most", ", ")
+		}
+		row := table.Row{dial, fmt.Sprintf("%.1f %%", op.BreakoutChance*100), fmt.Sprintf("%.3f s", op.GiveawayS)}
+		if op.WinChance != nil {
+			row = append(row, fmt.Sprintf("%.1f %%", *op.WinChance*100))
+		}
+		t.AppendRow(append(row, mark))
 	}
-	configs := alignRight(1, 3)
+	configs := alignRight(1, len(header)-1)
 	render(o.s, t, o.Format, configs...)
 	fmt.Fprintf(o.s.Out, "Recommended dial: %s (the slowest dial with at most a %.0f %% chance of breaking out).\n", j.Recommended, plan.Risk*100)
+	if opp != nil {
+		fmt.Fprintln(o.s.Out, prep.Wrap(fmt.Sprintf("Against the other lane's %s: %s; the dial that wins most is %s (%.1f %% to win). Chances from %d races drawn per dial, good to ±0.5 points.",
+			opp.Dial.StringFixed(2), headStart(plan.Recommended, opp.Dial), j.BestForWin.Dial, 100*j.BestForWin.WinChance, engine.WinDraws), o.s.width(), "  "))
+	}
 	return leftOut
 }
 

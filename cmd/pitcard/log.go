@@ -17,6 +17,7 @@ import (
 	"pitcard/engine"
 	"pitcard/event"
 	"pitcard/internal/safefile"
+	"pitcard/prep"
 	"pitcard/weather"
 )
 
@@ -103,6 +104,8 @@ type logAddOptions struct {
 	Lane, Dial, RT, Weight, Notes   string
 	ET60, ET330, ET660, ET1000, ET1 string
 	MPH660, MPH1320                 string
+	// The other lane's slip, when it is entered too: what decided the round.
+	OppDial, OppRT, OppET string
 }
 
 func newLogAddCmd(s *IOStreams, g *globalOptions) *cobra.Command {
@@ -138,6 +141,9 @@ weight to car.yaml's.`,
 	fl.StringVar(&o.MPH1320, "mph1320", "", "quarter-mile trap speed, mph")
 	fl.StringVar(&o.Weight, "weight", "", "car and driver as run, lb (default: car.yaml's weight_lb)")
 	fl.StringVar(&o.Notes, "notes", "", "free text: lifted, pedaled, new tires ...")
+	fl.StringVar(&o.OppDial, "opponent-dial", "", "the other lane's dial-in from its slip (with --opponent-rt and --opponent-et: what decided the round)")
+	fl.StringVar(&o.OppRT, "opponent-rt", "", "the other lane's reaction time from its slip, s")
+	fl.StringVar(&o.OppET, "opponent-et", "", "the other lane's ET from its slip, s")
 	o.reading.bind(cmd)
 	return cmd
 }
@@ -230,13 +236,25 @@ func logAddRun(cmd *cobra.Command, o *logAddOptions) error {
 			source += ", with the flags given"
 		}
 	}
+	decided := "" // the other lane's slip, checked before anything is written
+	if o.OppDial != "" || o.OppRT != "" || o.OppET != "" {
+		if decided, err = decidedBy(p, o.OppDial, o.OppRT, o.OppET, e.Settings); err != nil {
+			return err
+		}
+	}
 	n, kept, err := saveLogbook(e, []engine.Pass{p})
 	if err != nil {
 		return err
 	}
+	defer func() {
+		if decided != "" {
+			fmt.Fprintln(o.s.Out, prep.Wrap(decided, o.s.width(), "  "))
+		}
+	}()
 	if w := engine.DialWarning(p); w != "" {
 		fmt.Fprintln(o.s.Err, "pitcard: warning:", w)
 	}
+
 	if kept != nil {
 		fmt.Fprintln(o.s.Err, "pitcard: warning:", kept)
 	}
@@ -678,4 +696,61 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 	}
 	fmt.Fprintln(o.s.Out, "Very consistent (≤ 0.015 s): dial it with confidence. Consistent (≤ 0.030).\nSome scatter (≤ 0.060): check the notes, tires, routine.\nInconsistent: look for lifted or spinning runs.")
 	return leftOut
+}
+
+// decidedBy says what decided a round, from our pass and the other lane's
+// slip: the reason (a red light, a breakout, the finish) and where the
+// margin came from, the package of reaction time and time over the dial in
+// each lane. The rules are Settle's.
+func decidedBy(p engine.Pass, dial, rt, et string, s settings) (string, error) {
+	if dial == "" || rt == "" || et == "" {
+		return "", userErrf("give the other lane's slip whole: --opponent-dial, --opponent-rt and --opponent-et")
+	}
+	fin, _, ok := p.Finish()
+	if !p.Dial.Valid || !p.RT.Valid || !ok {
+		return "", userErrf("what decided the round needs our dial, reaction time and ET too (--dial, --rt, --et1320)")
+	}
+	var them engine.LaneRun
+	var err error
+	for _, f := range []struct {
+		flag, v string
+		dst     *decimal.Decimal
+	}{{"--opponent-dial", dial, &them.Dial}, {"--opponent-rt", rt, &them.RT}, {"--opponent-et", et, &them.ET}} {
+		if *f.dst, err = engine.ParseSeconds(f.flag, f.v); err != nil {
+			return "", err
+		}
+	}
+	us := engine.LaneRun{Dial: p.Dial.Decimal, RT: p.RT.Decimal, ET: fin}
+	left, right := us, them
+	if p.Lane == engine.Right {
+		left, right = them, us
+	}
+	o, err := engine.Settle(left, right, engine.RaceRules{Tree: s.Tree, RTZero: engine.FromGreen})
+	if err != nil {
+		return "", err
+	}
+	ours, theirs := o.Left, o.Right
+	if p.Lane == engine.Right {
+		ours, theirs = o.Right, o.Left
+	}
+	verdict := "You won"
+	switch o.Winner {
+	case "":
+		verdict = "No winner"
+	case engine.Left, engine.Right:
+		if (o.Winner == engine.Right) != (p.Lane == engine.Right) {
+			verdict = "You lost"
+		}
+	}
+	pkg := func(x engine.LaneResult) string {
+		return fmt.Sprintf("%s reaction, %s over the dial: %s", engine.FormatSeconds(x.Reaction, 3), signedSeconds(x.OverDial), signedSeconds(x.Package))
+	}
+	return fmt.Sprintf("%s: %s (%s). Packages: yours %s; theirs %s.", verdict, o.Reason, o.Explanation, pkg(ours), pkg(theirs)), nil
+}
+
+func signedSeconds(d decimal.Decimal) string {
+	if d.IsNegative() {
+		return engine.FormatSeconds(d, 3)
+	}
+	return "+" + engine.FormatSeconds(d, 3)
 }

@@ -93,6 +93,10 @@ type settings struct {
 	MaxAdjust     decimal.Decimal
 	RuleLimits    scripts.Limits
 	MaxReadingAge time.Duration // a reading older than this is flagged on the card
+	// The other lane's defaults and ours, s (common practice, from memory:
+	// see the README), and which dial to post.
+	OppMargin, OppMarginSD, OppRTMean, OppRTSD, RTMean, RTSD float64
+	PostBestForWin                                           bool
 }
 
 // settingKeys are the keys pitcard.yaml may hold, with their defaults.
@@ -107,6 +111,16 @@ var settingKeys = map[string]any{
 	"rule_memory_mib": 64,
 	// A weather reading older than this at the card's clock is flagged.
 	"reading_max_age_min": 45,
+	// The other lane, when nothing better is known of it, and our driver's
+	// reaction time when the logbook has too few.
+	"opponent_margin":    0.02,
+	"opponent_margin_sd": 0.03,
+	"opponent_rt_mean":   0.04,
+	"opponent_rt_sd":     0.025,
+	"rt_mean":            0.04,
+	"rt_sd":              0.025,
+	// breakout-rule (the slowest dial within breakout_risk) or best-for-win
+	"post_dial": "breakout-rule",
 }
 
 // eventFolder is an opened event folder (or the demo).
@@ -269,6 +283,25 @@ func (g *globalOptions) open(cmd *cobra.Command) (*eventFolder, error) {
 		return nil, settingErr("reading_max_age_min", &weather.InputError{Field: "reading_max_age_min", Value: v.GetString("reading_max_age_min"), Reason: "is outside 5..1440 minutes"})
 	}
 	e.Settings.MaxReadingAge = time.Duration(age) * time.Minute
+	for _, x := range []struct {
+		key    string
+		dst    *float64
+		lo, hi float64
+	}{{"opponent_margin", &e.Settings.OppMargin, -1, 2}, {"opponent_margin_sd", &e.Settings.OppMarginSD, 0.001, 1},
+		{"opponent_rt_mean", &e.Settings.OppRTMean, -1, 2}, {"opponent_rt_sd", &e.Settings.OppRTSD, 0.001, 1},
+		{"rt_mean", &e.Settings.RTMean, -1, 2}, {"rt_sd", &e.Settings.RTSD, 0.001, 1}} {
+		*x.dst = v.GetFloat64(x.key)
+		if !(*x.dst >= x.lo && *x.dst <= x.hi) {
+			return nil, settingErr(x.key, &weather.InputError{Field: x.key, Value: v.GetString(x.key), Reason: fmt.Sprintf("is outside %g..%g s", x.lo, x.hi)})
+		}
+	}
+	switch pd := v.GetString("post_dial"); pd {
+	case "breakout-rule":
+	case "best-for-win":
+		e.Settings.PostBestForWin = true
+	default:
+		return nil, settingErr("post_dial", &weather.InputError{Field: "post_dial", Value: pd, Reason: "is not breakout-rule or best-for-win"})
+	}
 	return e, nil
 }
 

@@ -32,6 +32,7 @@ type roundFlags struct {
 	// Unsaved is a reading that could not be written (a full disk): the
 	// round's card still uses it.
 	Unsaved *weather.Reading
+	opp     opponentFlags
 }
 
 func (r *roundFlags) bind(cmd *cobra.Command) {
@@ -44,6 +45,7 @@ func (r *roundFlags) bind(cmd *cobra.Command) {
 	fl.StringVar(&r.Prep, "prep", "", "track prep today: none, light, full or 0..1 (default: track.yaml's)")
 	fl.StringVar(&r.Weight, "weight", "", "car and driver as it will run, lb (default: car.yaml's)")
 	bindSettingFlags(cmd)
+	r.opp.bind(cmd)
 }
 
 // schedule reads the folder's schedule.yaml, if there is one.
@@ -241,6 +243,10 @@ func roundInput(e *eventFolder, r roundFlags, now time.Time) (prep.Input, []stri
 			return in, nil, &weather.InputError{Field: "--weight", Value: r.Weight, Reason: "is outside 500..10000 lb"}
 		}
 	}
+	opponent, usRT, err := r.opp.build(e.Settings, opp, passes)
+	if err != nil {
+		return in, nil, err
+	}
 	rules, err := scripts.Load(e.FS, e.Settings.RuleLimits)
 	if err != nil {
 		return in, nil, err
@@ -249,7 +255,7 @@ func roundInput(e *eventFolder, r roundFlags, now time.Time) (prep.Input, []stri
 		Car: car, Track: trk, Tracks: tracks, Passes: passes,
 		Settings: prep.Settings{Units: e.Settings.Units, DialStep: e.Settings.DialStep, BreakoutRisk: e.Settings.BreakoutRisk,
 			MaxRuleAdjust: e.Settings.MaxAdjust, RuleLimits: e.Settings.RuleLimits, MaxReadingAge: e.Settings.MaxReadingAge},
-		Session: slot.Session, Lane: lane, OpponentDial: opp, Call: call, Now: now,
+		Session: slot.Session, Lane: lane, OpponentDial: opp, Opponent: opponent, UsRT: usRT, PostBestForWin: e.Settings.PostBestForWin, Call: call, Now: now,
 		Air: air, AirSource: source, AirNow: airNow, Forecast: forecast, Elevation: elev, Prep: prepLvl, WeightLb: weight,
 		Rules: rules, RulesFS: e.FS,
 	}

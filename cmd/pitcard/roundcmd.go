@@ -351,6 +351,23 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 			args = append(args, "--"+q.key, v)
 		}
 	}
+	// The other lane's slip, in an elimination: what decided the round.
+	if in.Session.Kind == engine.Elimination {
+		oppDial := ""
+		if in.OpponentDial.Valid {
+			oppDial = dialString(in.OpponentDial.Decimal, e.Settings.DialStep)
+		}
+		check := func(name string) func(string) error {
+			return func(a string) error { return engine.CheckSlipField("rt", name, a) }
+		}
+		if d := p.ask("Other lane's dial (Enter to skip its slip)", oppDial); d != "" && !p.eof {
+			rt, err1 := p.until("Other lane's reaction time", "", check("other lane's reaction time"))
+			et, err2 := p.until("Other lane's ET", "", func(a string) error { return engine.CheckSlipField("dial", "other lane's ET", a) })
+			if err1 == nil && err2 == nil && rt != "" && et != "" {
+				args = append(args, "--opponent-dial", d, "--opponent-rt", rt, "--opponent-et", et)
+			}
+		}
+	}
 	if code := run(args, o.s); code != exitOK {
 		return userErrf("the slip was not logged (see above); log it with 'pitcard log add'")
 	}

@@ -22,7 +22,7 @@ func TestRulesCommands(t *testing.T) {
 			t.Errorf("list lacks %q:\n%s", w, list)
 		}
 	}
-	if out := mustRun(t, "rules", "check", "--dir", dir); !strings.Contains(out, "All 5 rules load") {
+	if out := mustRun(t, "rules", "check", "--dir", dir); !strings.Contains(out, "All 6 rules load") {
 		t.Errorf("check: %s", out)
 	}
 	try := mustRun(t, "rules", "try", "--dir", dir, "--round", "3", "--lane", "left", "--at", "20:45")

@@ -1,0 +1,149 @@
+package engine
+
+import (
+	"math"
+	"math/rand/v2"
+	"sync"
+	"testing"
+
+	"github.com/shopspring/decimal"
+)
+
+func dials(from, step float64, n int) []decimal.Decimal {
+	var out []decimal.Decimal
+	for i := range n {
+		out = append(out, decimal.NewFromFloat(from+step*float64(i)).Round(2))
+	}
+	return out
+}
+
+// Symmetry (a reason, not a source): two identical cars on identical dials
+// win half each, within the sampling error of WinDraws (±0.5 points, 95 %).
+func TestWinChanceSymmetry(t *testing.T) {
+	rt := RTModel{Mean: 0.04, SD: 0.025}
+	in := WinInput{Us: Estimate{ET: 11.52, SD: 0.03}, UsRT: rt,
+		Opp: Opponent{Dial: decimal.RequireFromString("11.50"), Margin: 0.02, MarginSD: 0.03, RT: rt}, Seed: 1}
+	w := WinChances(in, []decimal.Decimal{decimal.RequireFromString("11.50")})[0]
+	if math.Abs(w.Win-0.5) > 0.006 {
+		t.Errorf("identical cars: %.4f to win, want 0.5 ± 0.006", w.Win)
+	}
+}
+
+// The limits: an opponent who always red-lights hands us the round (unless
+// we red-light first); with no spread anywhere the chance is the
+// deterministic result of Settle, 0 or 1.
+func TestWinChanceLimits(t *testing.T) {
+	in := WinInput{Us: Estimate{ET: 11.52, SD: 0.03}, UsRT: RTModel{Mean: 0.05, SD: 0.001},
+		Opp: Opponent{Dial: decimal.RequireFromString("11.40"), Margin: 0.0, MarginSD: 0.01, RT: RTModel{Mean: -0.3, SD: 0.001}}, Seed: 2}
+	if w := WinChances(in, dials(11.40, 0.05, 3)); w[0].Win != 1 || w[2].Win != 1 {
+		t.Errorf("an opponent who always red-lights: %.4f, %.4f", w[0].Win, w[2].Win)
+	}
+	tiny := 1e-7
+	for _, c := range []struct {
+		ourET, ourRT, oppMargin, oppRT float64
+		dial                           string
+	}{
+		{11.53, 0.030, 0.020, 0.040, "11.50"}, // we run .030 over with .030: package .060 vs .060 → tie-break by finish
+		{11.49, 0.030, 0.020, 0.040, "11.50"}, // we break out
+		{11.52, 0.010, 0.040, 0.040, "11.50"}, // we win on the package
+		{11.52, -0.010, 0.040, 0.040, "11.50"},
+	} {
+		in := WinInput{Us: Estimate{ET: c.ourET, SD: tiny}, UsRT: RTModel{Mean: c.ourRT, SD: tiny},
+			Opp: Opponent{Dial: decimal.RequireFromString("11.60"), Margin: c.oppMargin, MarginSD: tiny, RT: RTModel{Mean: c.oppRT, SD: tiny}}, Draws: 500, Seed: 3}
+		got := WinChances(in, []decimal.Decimal{decimal.RequireFromString(c.dial)})[0].Win
+		o, err := Settle(LaneRun{Dial: decimal.RequireFromString(c.dial), RT: decimal.NewFromFloat(c.ourRT), ET: decimal.NewFromFloat(c.ourET)},
+			LaneRun{Dial: decimal.RequireFromString("11.60"), RT: decimal.NewFromFloat(c.oppRT), ET: decimal.NewFromFloat(11.60 + c.oppMargin)}, RaceRules{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		want := map[Lane]float64{Left: 1, Right: 0, "": 0.5}[o.Winner]
+		if got != want {
+			t.Errorf("%+v: win %.3f, Settle says %s (%s)", c, got, o.Winner, o.Explanation)
+		}
+	}
+}
+
+// Against an independent check: a plain Monte Carlo of 10⁶ races written
+// here, each slip built in decimals and settled by Settle itself, agrees
+// within 0.3 points (its own error is ±0.1 points, 95 %).
+func TestWinChanceAgreesWithSettle(t *testing.T) {
+	if testing.Short() {
+		t.Skip("10⁶ settled races; run without -short")
+	}
+	cases := []WinInput{
+		{Us: Estimate{ET: 11.50, SD: 0.025}, UsRT: RTModel{Mean: 0.03, SD: 0.02},
+			Opp: Opponent{Dial: decimal.RequireFromString("12.10"), Margin: 0.02, MarginSD: 0.03, RT: RTModel{Mean: 0.04, SD: 0.025}}},
+		{Us: Estimate{ET: 9.85, SD: 0.04}, UsRT: NewRTModel([]float64{0.012, 0.031, -0.004, 0.025, 0.018, 0.040, 0.009, 0.022, 0.015, 0.028, 0.035}, 0, 0),
+			Opp: Opponent{Dial: decimal.RequireFromString("9.80"), Margin: 0.005, MarginSD: 0.01, RT: RTModel{Mean: 0.02, SD: 0.01}}},
+	}
+	for ci, in := range cases {
+		dial := decimal.NewFromFloat(in.Us.ET - 0.02).Round(2)
+		in.Seed = uint64(10 + ci)
+		got := WinChances(in, []decimal.Decimal{dial})[0].Win
+		const n = 1_000_000
+		var wins float64
+		var mu sync.Mutex
+		var wg sync.WaitGroup
+		for g := range 4 {
+			wg.Add(1)
+			go func() {
+				defer wg.Done()
+				r := rand.New(rand.NewPCG(uint64(99+g), uint64(ci)))
+				var w float64
+				for range n / 4 {
+					sec := func(v float64) decimal.Decimal { return decimal.NewFromFloat(v).Round(3) }
+					us := LaneRun{Dial: dial, RT: sec(in.UsRT.draw(r)), ET: sec(in.Us.ET + in.Us.SD*r.NormFloat64())}
+					op := LaneRun{Dial: in.Opp.Dial, RT: sec(in.Opp.RT.draw(r)), ET: sec(in.Opp.Dial.InexactFloat64() + in.Opp.Margin + in.Opp.MarginSD*r.NormFloat64())}
+					o, err := Settle(us, op, RaceRules{})
+					if err != nil {
+						continue
+					}
+					switch o.Winner {
+					case Left:
+						w++
+					case "":
+						w += 0.5
+					}
+				}
+				mu.Lock()
+				wins += w
+				mu.Unlock()
+			}()
+		}
+		wg.Wait()
+		mc := wins / n
+		if math.Abs(got-mc) > 0.003 {
+			t.Errorf("case %d: WinChances %.4f, Monte Carlo with Settle %.4f", ci, got, mc)
+		}
+	}
+}
+
+// A fact of the trade (common practice, no source): the tougher the
+// opponent (closer to his dial, sharper on the tree), the closer to the
+// expected ET the dial that wins most, taking more breakout risk; against
+// a wild one it gives time away safely.
+func TestToughOpponentsPullTheDialIn(t *testing.T) {
+	us := Estimate{ET: 11.50, SD: 0.02}
+	rt := RTModel{Mean: 0.03, SD: 0.02}
+	cands := dials(11.40, 0.01, 15)
+	tough := WinChances(WinInput{Us: us, UsRT: rt, Seed: 4,
+		Opp: Opponent{Dial: decimal.RequireFromString("12.00"), Margin: 0.005, MarginSD: 0.008, RT: RTModel{Mean: 0.015, SD: 0.008}}}, cands)
+	wild := WinChances(WinInput{Us: us, UsRT: rt, Seed: 4,
+		Opp: Opponent{Dial: decimal.RequireFromString("12.00"), Margin: 0.06, MarginSD: 0.06, RT: RTModel{Mean: 0.07, SD: 0.04}}}, cands)
+	bt, bw := BestForWin(tough), BestForWin(wild)
+	if !bt.Dial.GreaterThan(bw.Dial) || !(bt.BreakoutChance > bw.BreakoutChance) {
+		t.Errorf("tough opponent: best dial %s (breakout %.1f %%); wild: %s (%.1f %%)", bt.Dial, 100*bt.BreakoutChance, bw.Dial, 100*bw.BreakoutChance)
+	}
+	t.Logf("tough: %s wins %.1f %%, breakout %.1f %%; wild: %s wins %.1f %%, breakout %.1f %%",
+		bt.Dial, 100*bt.Win, 100*bt.BreakoutChance, bw.Dial, 100*bw.Win, 100*bw.BreakoutChance)
+}
+
+// The card's budget: the chance to win for 11 candidate dials under 20 ms.
+func BenchmarkWinChances11(b *testing.B) {
+	in := WinInput{Us: Estimate{ET: 11.50, SD: 0.025}, UsRT: RTModel{Mean: 0.03, SD: 0.02},
+		Opp: Opponent{Dial: decimal.RequireFromString("12.10"), Margin: 0.02, MarginSD: 0.03, RT: RTModel{Mean: 0.04, SD: 0.025}}}
+	cands := dials(11.40, 0.01, 11)
+	for b.Loop() {
+		WinChances(in, cands)
+	}
+}
