@@ -235,6 +235,17 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 	if opp != nil {
 		fmt.Fprintln(o.s.Out, prep.Wrap(fmt.Sprintf("Against the other lane's %s: %s; the dial that wins most is %s (%.1f %% to win). Chances from %d races drawn per dial, good to ±0.5 points.",
 			opp.Dial.StringFixed(2), headStart(plan.Recommended, opp.Dial), j.BestForWin.Dial, 100*j.BestForWin.WinChance, engine.WinDraws), o.s.width(), "  "))
+		best := engine.BestForWin(wins)
+		if bo := engine.BreakoutChance(est, best.Dial); bo > plan.Risk {
+			var rule engine.WinOption
+			for _, w := range wins {
+				if w.Dial.Equal(plan.Recommended) {
+					rule = w
+				}
+			}
+			fmt.Fprintln(o.s.Out, prep.Wrap(fmt.Sprintf("The choice: %s breaks out %.1f %% of the time, more than the %.0f %% you accept; over %s it gains %.1f points of winning for %.1f points more breakout risk. Posted stays your rule's unless post_dial: best-for-win.",
+				j.BestForWin.Dial, 100*bo, 100*plan.Risk, j.Recommended, 100*(best.Win-rule.Win), 100*(bo-engine.BreakoutChance(est, plan.Recommended))), o.s.width(), "  "))
+		}
 	}
 	return leftOut
 }
