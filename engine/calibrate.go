@@ -38,6 +38,10 @@ const (
 	// beyond OutlierFloor) is taken for an aborted or pedaled run.
 	OutlierMADs  = 4.0
 	OutlierFloor = 0.05 // s
+	// FewForOutliers: with fewer clean passes than this, a pass is left out
+	// only beyond GrossOutlier.
+	FewForOutliers = 8
+	GrossOutlier   = 0.20 // s
 )
 
 // timerSigma is the scatter of a clean pass at each timer (s) and of a trap
@@ -177,6 +181,11 @@ func Calibrate(in CalibrateInput) (Fit, error) {
 		dev[i] = math.Abs(r - med)
 	}
 	limit := math.Max(OutlierMADs*1.4826*median(dev), OutlierFloor)
+	if len(res) < FewForOutliers {
+		// a handful of passes cannot say what scatter is normal: only a gross
+		// miss (a lift, a pedal) is left out
+		limit = math.Max(limit, GrossOutlier)
+	}
 	kept := f.Samples[:0:0]
 	for i, s := range f.Samples {
 		if dev[i] > limit {

@@ -45,7 +45,7 @@ var trapPriors = residualPriors{Sigma: trapSigma, Tau: 0.5, Slope: 0.2, MinSigma
 // Settings of the residual structure.
 const (
 	// DayHalfLife: a race day's weight in the base halves every this many
-	// race days back (and every BiasHalfLifeDays of calendar).
+	// race days back (and every BaseHalfLifeDays of calendar).
 	DayHalfLife = 6.0
 	// SlopePriorSD is the prior spread of the within-day drift, s per hour:
 	// rubber and a cooling track are worth a few hundredths over an evening
@@ -236,7 +236,7 @@ func fitResiduals(ss []Sample, res func(Sample) (float64, bool), now time.Time, 
 	var sw, base, bvar float64
 	for r, d := range days {
 		age := now.Sub(d.last).Hours() / 24
-		dayW[r] = math.Pow(0.5, float64(r)/DayHalfLife) * math.Pow(0.5, math.Max(age, 0)/(BiasHalfLifeDays*4)) / (tau2 + sigma2/float64(d.n))
+		dayW[r] = math.Pow(0.5, float64(r)/DayHalfLife) * math.Pow(0.5, math.Max(age, 0)/BaseHalfLifeDays) / (tau2 + sigma2/float64(d.n))
 		sw += dayW[r]
 	}
 	if sw > 0 {

@@ -11,23 +11,18 @@ import (
 )
 
 // Prediction: the calibrated model run in the conditions of the next pass,
-// corrected by the car's recent residuals (what the model has got wrong
-// lately: the car today, the track today), each recent pass thereby
-// "carried" to today's conditions. The interval comes from the spread of
+// corrected by the structure of its residuals (what the model has got wrong:
+// the car's level, today, the drift through the day; see dayeffect.go), each
+// recent pass thereby "carried" to today's conditions. The interval comes from the spread of
 // those residuals, widened by the parameters' uncertainty and by how far
 // today's air and track lie outside what the logbook has seen.
 
 // Prediction settings.
 const (
-	// BiasHalfLifePasses: the residual correction leans on the last few
-	// passes, halving a pass's weight every 6 passes back (the default; with
-	// enough passes the half-life is chosen from BiasHalfLives by how well
-	// each would have predicted the car's recent passes one by one) and
-	// every 14 days.
-	BiasHalfLifePasses = 6.0
-	BiasHalfLifeDays   = 14.0
-	// SameDayWeight multiplies the weight of a pass run earlier the same day.
-	SameDayWeight = 2.0
+	// BaseHalfLifeDays: an earlier race day's weight in the car's level
+	// halves every this many days of calendar (and every DayHalfLife race
+	// days).
+	BaseHalfLifeDays = 56.0
 	// IntervalZ is the interval's half-width in standard deviations: a 95 %
 	// interval of a normal spread.
 	IntervalZ = 1.96
@@ -42,43 +37,6 @@ const (
 	// per 1000 ft of density altitude or 10 °F of track beyond the logbook.
 	ExtrapolationFloor = 0.002
 )
-
-// BiasHalfLives are the half-lives, in passes, the residual correction may
-// choose from: a car whose residuals drift needs a short memory, a steady
-// car's noise averages out over a long one.
-var BiasHalfLives = []float64{3, 6, 12, 25}
-
-// chooseHalfLife picks the half-life of BiasHalfLives that would have best
-// predicted each of the recent passes' finish residuals from the ones before
-// it (one step ahead, squared error), or the default with too few passes.
-func chooseHalfLife(ss []Sample, j int) float64 {
-	var res []float64 // oldest first
-	for i := len(ss) - 1; i >= 0; i-- {
-		if !math.IsNaN(ss[i].Obs[j]) {
-			res = append(res, ss[i].Obs[j]-ss[i].Sim.ET[j])
-		}
-	}
-	if len(res) < 12 {
-		return BiasHalfLifePasses
-	}
-	best, bestErr := BiasHalfLifePasses, math.Inf(1)
-	for _, h := range BiasHalfLives {
-		var sse float64
-		for i := 6; i < len(res); i++ {
-			var sw, m float64
-			for k := 0; k < i; k++ {
-				w := math.Pow(0.5, float64(i-1-k)/h)
-				sw += w
-				m += w * res[k]
-			}
-			sse += sq(res[i] - m/sw)
-		}
-		if sse < bestErr {
-			best, bestErr = h, sse
-		}
-	}
-	return best
-}
 
 // Timer is the prediction at one timer.
 type Timer struct {
@@ -385,36 +343,6 @@ func sameDay(a, b time.Time) bool {
 	ya, ma, da := a.Date()
 	yb, mb, db := b.Date()
 	return ya == yb && ma == mb && da == db
-}
-
-// weightedResiduals is the weighted mean and spread of a residual over the
-// samples that have it.
-func weightedResiduals(ss []Sample, w []float64, res func(Sample) (float64, bool)) (float64, float64) {
-	var sw, mean float64
-	var vals []float64
-	for i, s := range ss {
-		if r, ok := res(s); ok {
-			vals = append(vals, r)
-			sw += w[i]
-			mean += w[i] * r
-		}
-	}
-	if sw == 0 {
-		return 0, 0
-	}
-	mean /= sw
-	// the spread: unweighted over all the samples (each pass's own scatter), at least MinSD
-	var ss2 float64
-	for _, r := range vals {
-		ss2 += sq(r - mean)
-	}
-	sd := MinSD
-	if len(vals) > 1 {
-		sd = math.Max(math.Sqrt(ss2/float64(len(vals)-1)), MinSD)
-	} else {
-		sd = math.Max(sd, 0.03)
-	}
-	return mean, sd
 }
 
 // parameterSpread is one standard deviation of the finish ET from the

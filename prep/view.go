@@ -109,7 +109,11 @@ func newView(c Card) view {
 		v.NoDial = upperFirst(c.NoDial) + "."
 		if f := c.Prediction; len(f.Timers) > 0 {
 			t := f.Finish()
-			v.Guide = fmt.Sprintf("Guide from physics and car.yaml: %s %.2f s, 95 %% interval %.2f–%.2f s. Not a dial-in.", TimerName(t.DistanceFt), t.ET, t.Low, t.High)
+			from := "physics and car.yaml"
+			if n := f.Passes; n > 0 {
+				from = fmt.Sprintf("the model on %s", plural(n, "pass"))
+			}
+			v.Guide = fmt.Sprintf("Guide from %s: %s %.2f s, 95 %% interval %.2f–%.2f s. Not a dial-in.", from, TimerName(t.DistanceFt), t.ET, t.Low, t.High)
 		}
 	}
 
@@ -382,4 +386,15 @@ func statusWord(s string) string {
 		return "FAIL"
 	}
 	return "[ ]"
+}
+
+// plural is "1 pass" or "2 passes".
+func plural(n int, noun string) string {
+	if n == 1 {
+		return "1 " + noun
+	}
+	if strings.HasSuffix(noun, "s") {
+		return fmt.Sprintf("%d %ses", n, noun)
+	}
+	return fmt.Sprintf("%d %ss", n, noun)
 }
