@@ -69,7 +69,7 @@ svg { width: 100%; height: auto; }
 <div class="grid">
   <div>{{template "table" .V.Air}}<p class="small">{{.V.AirNote}}</p></div>
   <div>{{if .V.Prediction.Rows}}{{template "table" .V.Prediction}}<ul class="basis">{{range .V.Basis}}<li>{{.}}</li>{{end}}</ul>{{end}}</div>
-  <div>{{if .V.Options.Rows}}{{template "table" .V.Options}}{{end}}
+  <div>{{if .V.Options.Rows}}{{template "table" .V.Options}}{{if .V.OptionsNote}}<p class="small">{{.V.OptionsNote}}</p>{{end}}{{end}}
        {{if .V.Rules.Rows}}{{template "table" .V.Rules}}{{end}}</div>
   <div><table><caption>Checklist</caption></table><ul class="checks">{{range .V.Checks}}<li class="{{cls .Status}}">{{if eq .Status "confirm"}}<span class="box"></span>{{else}}<b>{{status .Status}}</b> {{end}}{{.Label}}{{if .Note}}: <span class="small">{{.Note}}</span>{{end}}</li>{{end}}</ul>
        {{if .V.Notes}}<table><caption>Setup notes</caption></table><ul class="notes">{{range .V.Notes}}<li>{{.}}</li>{{end}}</ul>{{end}}
