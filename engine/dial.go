@@ -159,7 +159,7 @@ func RecentEstimate(passes []Pass, ft float64, n int) (Estimate, []Pass, error) 
 			keep, kept = append(keep, e), append(kept, used[i])
 		}
 	}
-	mean, sd := meanSD(keep)
+	mean, sd := MeanSD(keep)
 	k := float64(len(keep))
 	// the spread of a next pass: the sample spread widened for a short sample
 	pred := math.Max(sd*math.Sqrt(1+1/k), MinSD)
@@ -184,7 +184,8 @@ func median(v []float64) float64 {
 	return (s[len(s)/2-1] + s[len(s)/2]) / 2
 }
 
-func meanSD(v []float64) (float64, float64) {
+// MeanSD is the mean and the sample standard deviation of v (0 for one value).
+func MeanSD(v []float64) (float64, float64) {
 	var m float64
 	for _, x := range v {
 		m += x

@@ -1,5 +1,7 @@
 package engine
 
+// Test helpers only: no computation is checked here, so no source.
+
 // SetAblation switches one mechanism of the pass model off, for the
 // ablation test; "" switches them all back on.
 func SetAblation(name string) {

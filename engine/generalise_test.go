@@ -12,7 +12,10 @@ import (
 	"pitcard/internal/truthsim"
 )
 
-// The acceptance test of the pass model: scored on worlds from another
+// The acceptance test of the pass model (the standard here is not a
+// handbook but a second simulator: its noise floor is computed, no source
+// is quoted; its own physics is checked against the trade's published
+// relations in internal/truthsim): scored on worlds from another
 // simulator (internal/truthsim: other physics, other air laws, day effects,
 // rubber, fuel, aborted runs), every pass of the last race days predicted
 // from the passes before it, exactly as a race day runs. The yardstick is

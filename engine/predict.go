@@ -123,7 +123,7 @@ func (p Prediction) DialReady() (bool, string) {
 	}
 	what := "no clean pass"
 	if p.Passes > 0 {
-		what = fmt.Sprintf("only %s", plural(p.Passes, "clean pass"))
+		what = fmt.Sprintf("only %s", Plural(p.Passes, "clean pass"))
 	}
 	return false, fmt.Sprintf("%s of this car at %.0f ft in the logbook (a dial is posted from %d): make a time trial first; the estimate is a guide only",
 		what, p.Distance, MinPassesForDial)
@@ -304,7 +304,7 @@ func rawPrediction(pr Prediction, f Fit, timers []float64) Prediction {
 		if len(v) < 2 {
 			return 0, 0, false
 		}
-		m, sd := meanSD(v)
+		m, sd := MeanSD(v)
 		return m, math.Max(sd*math.Sqrt(1+1/float64(len(v))), MinSD), true
 	}
 	for _, ft := range timers {
@@ -507,8 +507,9 @@ func ThinnerAir(r weather.Reading, dDA float64) weather.Reading {
 	return r
 }
 
-// plural is "1 clean pass" or "2 clean passes".
-func plural(n int, noun string) string {
+// Plural is "1 clean pass" or "2 clean passes": a count in words, for
+// messages.
+func Plural(n int, noun string) string {
 	if n == 1 {
 		return "1 " + noun
 	}

@@ -74,20 +74,20 @@ func Stats(passes []Pass, residual map[string]float64) []GroupStats {
 		}
 		s.Clean = len(ets)
 		if len(ets) > 0 {
-			s.ETMean, s.ETSD = meanSD(ets)
+			s.ETMean, s.ETSD = MeanSD(ets)
 			s.ETMin, s.ETMax = minMax(ets)
 		}
 		s.RTN = len(rts)
 		if len(rts) > 0 {
-			s.RTMean, s.RTSD = meanSD(rts)
+			s.RTMean, s.RTSD = MeanSD(rts)
 		}
 		s.CorrectedN = len(res)
 		if len(res) > 1 {
-			_, s.CorrectedSD = meanSD(res)
+			_, s.CorrectedSD = MeanSD(res)
 		}
 		s.SixtyN = len(sixties)
 		if len(sixties) > 1 {
-			_, s.SixtySD = meanSD(sixties)
+			_, s.SixtySD = MeanSD(sixties)
 		}
 		out = append(out, s)
 	}

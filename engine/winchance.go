@@ -42,7 +42,7 @@ func NewRTModel(logged []float64, mean, sd float64) RTModel {
 	m := RTModel{Mean: mean, SD: sd}
 	if len(logged) >= MinRTSamples {
 		m.Samples = append([]float64(nil), logged...)
-		m.Mean, m.SD = meanSD(m.Samples)
+		m.Mean, m.SD = MeanSD(m.Samples)
 	}
 	return m
 }

@@ -111,7 +111,7 @@ func newView(c Card) view {
 			t := f.Finish()
 			from := "physics and car.yaml"
 			if n := f.Passes; n > 0 {
-				from = fmt.Sprintf("the model on %s", plural(n, "pass"))
+				from = fmt.Sprintf("the model on %s", engine.Plural(n, "pass"))
 			}
 			v.Guide = fmt.Sprintf("Guide from %s: %s %.2f s, 95 %% interval %.2f–%.2f s. Not a dial-in.", from, TimerName(t.DistanceFt), t.ET, t.Low, t.High)
 		}
@@ -386,15 +386,4 @@ func statusWord(s string) string {
 		return "FAIL"
 	}
 	return "[ ]"
-}
-
-// plural is "1 pass" or "2 passes".
-func plural(n int, noun string) string {
-	if n == 1 {
-		return "1 " + noun
-	}
-	if strings.HasSuffix(noun, "s") {
-		return fmt.Sprintf("%d %ses", n, noun)
-	}
-	return fmt.Sprintf("%d %ss", n, noun)
 }

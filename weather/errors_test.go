@@ -5,7 +5,9 @@ import (
 	"testing"
 )
 
-// A value of 1e308 parsed as a decimal used to print as 309 digits.
+// A value of 1e308 parsed as a decimal used to print as 309 digits. (No
+// source: the expected strings are pitcard's own message format, and
+// 1e308 is near the largest float64, IEEE 754.)
 func TestInputErrorKeepsHugeValuesShort(t *testing.T) {
 	huge := "1" + strings.Repeat("0", 308)
 	got := (&InputError{Field: "et", Value: huge, Reason: "is outside 3.5..40 s"}).Error()

@@ -260,7 +260,7 @@ func logAddRun(cmd *cobra.Command, o *logAddOptions) error {
 	}
 	et, ft, _ := p.Finish()
 	fmt.Fprintf(o.s.Out, "Logged %s %s, %s lane: %s s at %.0f ft (%s in %s).\n",
-		p.Time.Format("2006-01-02 15:04"), p.Session.Long(), p.Lane, engine.FormatSeconds(et, 3), ft, plural(n, "pass"), e.name(event.LogbookFile))
+		p.Time.Format("2006-01-02 15:04"), p.Session.Long(), p.Lane, engine.FormatSeconds(et, 3), ft, engine.Plural(n, "pass"), e.name(event.LogbookFile))
 	if p.HasAir {
 		fmt.Fprintf(o.s.Out, "Conditions from %s: %s, density altitude %s.\n", source,
 			p.Air.Temp.Format(e.Settings.Units.Temp, 1), p.Air.Derive(elev).DensityAltitude.Format(e.Settings.Units.Length))
@@ -301,7 +301,7 @@ func altimeterLooking(e *eventFolder, passes []engine.Pass, file string) string 
 		shown = append(shown[:8:8], "...")
 	}
 	return fmt.Sprintf("%s: %s have baro_inhg figures that look like sea-level (altimeter) settings for their track's elevation (lines %s); "+
-		"the logbook holds station pressure: convert them, or the air of those passes is wrong", file, plural(len(lines), "row"), strings.Join(shown, ", "))
+		"the logbook holds station pressure: convert them, or the air of those passes is wrong", file, engine.Plural(len(lines), "row"), strings.Join(shown, ", "))
 }
 
 func sameDate(a, b time.Time) bool { return a.Format("2006-01-02") == b.Format("2006-01-02") }
@@ -384,7 +384,7 @@ pass is already in the logbook, every problem is listed and nothing is written.`
 			if kept != nil {
 				fmt.Fprintln(o.s.Err, "pitcard: warning:", kept)
 			}
-			fmt.Fprintf(o.s.Out, "Imported %s from %s; %s now holds %d.\n", plural(len(passes), "pass"), args[0], e.name(event.LogbookFile), n)
+			fmt.Fprintf(o.s.Out, "Imported %s from %s; %s now holds %d.\n", engine.Plural(len(passes), "pass"), args[0], e.name(event.LogbookFile), n)
 			return nil
 		},
 	}
@@ -469,7 +469,7 @@ func logListRun(cmd *cobra.Command, o *logListOptions) error {
 		return leftOut
 	}
 	u := e.Settings.Units
-	t := newTable(o.s, fmt.Sprintf("Logbook (%s), last %s", e.name(event.LogbookFile), plural(len(passes), "pass")))
+	t := newTable(o.s, fmt.Sprintf("Logbook (%s), last %s", e.name(event.LogbookFile), engine.Plural(len(passes), "pass")))
 	header := table.Row{"Date", "Time", "Session", "Lane", "Dial", "RT", "60 ft", "1/8", "mph", "1/4", "mph", "DA", "Notes"}
 	if o.Wide {
 		header = table.Row{"Date", "Time", "Session", "Lane", "Dial", "RT", "60 ft", "330", "1/8", "mph", "1000", "1/4", "mph", "DA", "Notes"}

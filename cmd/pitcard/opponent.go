@@ -2,7 +2,6 @@ package main
 
 import (
 	"fmt"
-	"math"
 	"strconv"
 	"strings"
 
@@ -90,7 +89,7 @@ func (o *opponentFlags) build(s settings, dial decimal.NullDecimal, passes []eng
 		for i := range ets {
 			ets[i] -= d
 		}
-		m, sd := meanAndSD(ets)
+		m, sd := engine.MeanSD(ets)
 		opp.Margin = m
 		if len(ets) >= 3 {
 			opp.MarginSD = sd
@@ -103,7 +102,7 @@ func (o *opponentFlags) build(s settings, dial decimal.NullDecimal, passes []eng
 	if len(rts) > 0 {
 		opp.RT = engine.NewRTModel(rts, opp.RT.Mean, opp.RT.SD)
 		if len(rts) < engine.MinRTSamples {
-			m, sd := meanAndSD(rts)
+			m, sd := engine.MeanSD(rts)
 			opp.RT.Mean = m
 			if len(rts) >= 3 {
 				opp.RT.SD = sd
@@ -131,22 +130,6 @@ func (o *opponentFlags) build(s settings, dial decimal.NullDecimal, passes []eng
 		}
 	}
 	return opp, us, nil
-}
-
-func meanAndSD(v []float64) (float64, float64) {
-	var m float64
-	for _, x := range v {
-		m += x
-	}
-	m /= float64(len(v))
-	var ss float64
-	for _, x := range v {
-		ss += (x - m) * (x - m)
-	}
-	if len(v) < 2 {
-		return m, 0
-	}
-	return m, math.Sqrt(ss / float64(len(v)-1))
 }
 
 // headStart says who leaves first, and by how much.

@@ -6,7 +6,6 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"strings"
 
 	"github.com/jedib0t/go-pretty/v6/table"
 	"github.com/jedib0t/go-pretty/v6/text"
@@ -67,17 +66,6 @@ func writeJSON(w io.Writer, v any) error {
 func round(v float64, d int) float64 {
 	p := math.Pow(10, float64(d))
 	return math.Round(v*p) / p
-}
-
-// plural is "1 reading" or "3 readings".
-func plural(n int, noun string) string {
-	if n == 1 {
-		return "1 " + noun
-	}
-	if strings.HasSuffix(noun, "s") {
-		return fmt.Sprintf("%d %ses", n, noun)
-	}
-	return fmt.Sprintf("%d %ss", n, noun)
 }
 
 // signedDecimal prints a dial adjustment with its sign: "+0.02", "-0.01".

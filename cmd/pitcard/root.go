@@ -434,7 +434,7 @@ type leftOutRows struct {
 
 func (l *leftOutRows) Error() string {
 	var b strings.Builder
-	fmt.Fprintf(&b, "%s: %s left out (the other %s are used):", l.file, plural(len(l.rows), "row"), plural(l.read, "pass"))
+	fmt.Fprintf(&b, "%s: %s left out (the other %s are used):", l.file, engine.Plural(len(l.rows), "row"), engine.Plural(l.read, "pass"))
 	for i, r := range l.rows {
 		if i == 10 {
 			fmt.Fprintf(&b, "\n  ... and %d more", len(l.rows)-i)

@@ -7,6 +7,7 @@ import (
 	"github.com/jedib0t/go-pretty/v6/table"
 	"github.com/spf13/cobra"
 
+	"pitcard/engine"
 	"pitcard/event"
 	"pitcard/prep"
 	"pitcard/scripts"
@@ -164,9 +165,9 @@ func newRulesCheckCmd(s *IOStreams, g *globalOptions) *cobra.Command {
 			}
 			fmt.Fprintf(s.Out, "(rules %s)\n", hooks)
 			if bad > 0 {
-				return userErrf("%d of %s failed", bad, plural(len(rules), "rule"))
+				return userErrf("%d of %s failed", bad, engine.Plural(len(rules), "rule"))
 			}
-			fmt.Fprintf(s.Out, "All %s load.\n", plural(len(rules), "rule"))
+			fmt.Fprintf(s.Out, "All %s load.\n", engine.Plural(len(rules), "rule"))
 			return nil
 		},
 	}

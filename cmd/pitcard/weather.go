@@ -11,6 +11,7 @@ import (
 	"github.com/jedib0t/go-pretty/v6/table"
 	"github.com/spf13/cobra"
 
+	"pitcard/engine"
 	"pitcard/event"
 	"pitcard/weather"
 )
@@ -138,7 +139,7 @@ func weatherAddRun(cmd *cobra.Command, o *weatherAddOptions) error {
 	a := r.Derive(elev)
 	u := e.Settings.Units
 	fmt.Fprintf(o.s.Out, "Added the %s reading to %s (%s): density altitude %s, %s, %.0f %% RH.\n",
-		r.Time.Format("15:04"), e.name(event.WeatherFile), plural(n, "reading"), a.DensityAltitude.Format(u.Length), r.Temp.Format(u.Temp, 1), a.RH*100)
+		r.Time.Format("15:04"), e.name(event.WeatherFile), engine.Plural(n, "reading"), a.DensityAltitude.Format(u.Length), r.Temp.Format(u.Temp, 1), a.RH*100)
 	return nil
 }
 
@@ -310,7 +311,7 @@ func weatherForecastRun(cmd *cobra.Command, o *weatherForecastOptions) error {
 	case f.Interval:
 		fmt.Fprintf(o.s.Out, "Between 2 readings %.0f min apart; %s.\n", f.Span.Minutes(), trust)
 	default:
-		fmt.Fprintf(o.s.Out, "Leaned on %s, %.0f min of trend; %s.\n", plural(f.Used, "reading"), f.Span.Minutes(), trust)
+		fmt.Fprintf(o.s.Out, "Leaned on %s, %.0f min of trend; %s.\n", engine.Plural(f.Used, "reading"), f.Span.Minutes(), trust)
 	}
 	if f.DAError > 0 {
 		fmt.Fprintf(o.s.Out, "Density altitude ± %s (one standard error).\n", f.DAError.Format(e.Settings.Units.Length))
