@@ -82,7 +82,7 @@ func newView(c Card) view {
 			v.DialLines = append(v.DialLines, "NOTE: "+c.FewPasses)
 		}
 		if len(c.Win) > 0 {
-			v.DialLines = append(v.DialLines, headStartWords(c.Plan.Recommended, in.Opponent.Dial))
+			v.DialLines = append(v.DialLines, HeadStartWords(c.Plan.Recommended, in.Opponent.Dial))
 			if w, ok := winOf(c, c.Plan.Recommended); ok {
 				v.DialLines = append(v.DialLines, fmt.Sprintf("against the other lane: %.1f %% to win on %s; the dial that wins most is %s (%.1f %% to win, %.1f %% breakout)%s",
 					100*w, dialText(c.Plan.Recommended, step), dialText(c.BestForWin.Dial, step), 100*c.BestForWin.Win,
@@ -317,8 +317,8 @@ func sensitivityWords(s engine.Sensitivity, u weather.Units) string {
 		wind, effect(kW*s.Per10Headwind), upperFirst(da), effect(kDA*s.PerKDA))
 }
 
-// headStartWords says who leaves first, and by how much.
-func headStartWords(us, opp decimal.Decimal) string {
+// HeadStartWords says who leaves first, and by how much.
+func HeadStartWords(us, opp decimal.Decimal) string {
 	h := engine.HeadStart(us, opp)
 	switch {
 	case h.IsPositive():

@@ -234,7 +234,7 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 	fmt.Fprintf(o.s.Out, "Recommended dial: %s (the slowest dial with at most a %.0f %% chance of breaking out).\n", j.Recommended, plan.Risk*100)
 	if opp != nil {
 		fmt.Fprintln(o.s.Out, prep.Wrap(fmt.Sprintf("Against the other lane's %s: %s; the dial that wins most is %s (%.1f %% to win). Chances from %d races drawn per dial, good to ±0.5 points.",
-			opp.Dial.StringFixed(2), headStart(plan.Recommended, opp.Dial), j.BestForWin.Dial, 100*j.BestForWin.WinChance, engine.WinDraws), o.s.width(), "  "))
+			opp.Dial.StringFixed(2), prep.HeadStartWords(plan.Recommended, opp.Dial), j.BestForWin.Dial, 100*j.BestForWin.WinChance, engine.WinDraws), o.s.width(), "  "))
 		best := engine.BestForWin(wins)
 		if bo := engine.BreakoutChance(est, best.Dial); bo > plan.Risk {
 			var rule engine.WinOption

@@ -131,15 +131,3 @@ func (o *opponentFlags) build(s settings, dial decimal.NullDecimal, passes []eng
 	}
 	return opp, us, nil
 }
-
-// headStart says who leaves first, and by how much.
-func headStart(us, opp decimal.Decimal) string {
-	h := engine.HeadStart(us, opp)
-	switch {
-	case h.IsPositive():
-		return fmt.Sprintf("you leave %s s after the other lane", h.StringFixed(2))
-	case h.IsNegative():
-		return fmt.Sprintf("you leave %s s before the other lane", h.Neg().StringFixed(2))
-	}
-	return "you leave together"
-}
