@@ -11,12 +11,14 @@ import (
 )
 
 // Calibration fits the physics model to the car's own logbook: a maximum a
-// posteriori fit of four parameters (effective power, traction, how power
-// follows the air, how traction falls on a hot track) by weighted least
-// squares of simulated against logged timers and traps, with car.yaml and
-// the induction type as the prior. A short logbook leans on the prior; a
+// posteriori fit of six parameters (effective power, traction, how power
+// follows the air's pressure and its temperature, the grip band's best
+// surface temperature and its width) by weighted least squares of
+// simulated against logged timers and traps, with car.yaml, the induction
+// type and the tire as the prior. A short logbook leans on the prior; a
 // long one on the car's history. Recent passes weigh more, passes at the
-// track of the day more than elsewhere.
+// track of the day more than elsewhere; each day's offset and the drift
+// through a day are taken out first (dayeffect.go).
 
 // Calibration settings.
 const (
