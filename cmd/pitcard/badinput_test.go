@@ -135,6 +135,7 @@ func TestBadInputTour(t *testing.T) {
 			{[]string{"card", "--dir", badTrack}, 2, []string{"track.yaml"}},
 			{[]string{"card", "--dir", trackKey}, 2, []string{"track.yaml line", "\"surface\" is not a key of this file", "elevation_ft, heading_deg, name, prep"}},
 			{[]string{"card", "--dir", badLane}, 2, []string{"schedule.yaml line 9", "lane \"center\"", "left or right"}},
+			{[]string{"card", "--dir", badLane, "--round", "3", "--lane", "left"}, 2, []string{"POST THIS", "schedule.yaml line 9"}},
 			{[]string{"card", "--dir", nanCar}, 2, []string{"car.yaml line 14", "limit_et", "not a finite number"}},
 			{[]string{"card", "--dir", good, "--out", filepath.Join(missing, "x", "card.html")}, 1, []string{"writing"}},
 		},

@@ -98,7 +98,12 @@ func roundInput(e *eventFolder, r roundFlags, now time.Time) (prep.Input, []stri
 		return in, nil, err
 	}
 	sched, haveSched, err := e.schedule()
-	if err != nil {
+	switch {
+	case err != nil && r.Round != "" && isBadInput(err):
+		// the round is given: a broken schedule costs only its call time
+		broken = append(broken, err)
+		sched, haveSched = prep.Schedule{}, false
+	case err != nil:
 		return in, nil, err
 	}
 	elev, err := r.cond.elevation(e.Settings.Units, trk.Elevation(), true)
