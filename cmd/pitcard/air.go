@@ -57,7 +57,7 @@ func airRun(cmd *cobra.Command, o *airOptions) error {
 	if err != nil {
 		return err
 	}
-	trk, trkErr := e.track()
+	trk, trkErr := e.Track()
 	_, statErr := fs.Stat(e.FS, event.TrackFile)
 	missing := trkErr != nil && errors.Is(statErr, fs.ErrNotExist) && e.TrackPath == ""
 	// Outside an event folder, a station reading still gives every figure
@@ -76,12 +76,12 @@ func airRun(cmd *cobra.Command, o *airOptions) error {
 	}
 	var base *weather.Reading
 	if o.Latest || (e.Demo && !o.reading.given()) {
-		log, err := e.weatherLog(elev)
+		log, err := e.WeatherLog(elev)
 		if err != nil {
 			return err
 		}
 		if len(log) == 0 {
-			return userErrf("%s has no readings: add one with 'pitcard weather add'", e.name(event.WeatherFile))
+			return userErrf("%s has no readings: add one with 'pitcard weather add'", e.Name(event.WeatherFile))
 		}
 		base = &log[len(log)-1]
 	}

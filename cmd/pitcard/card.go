@@ -100,11 +100,11 @@ func cardRun(cmd *cobra.Command, o *cardOptions) error {
 // demoClock is the demo's "now": the demo day's last weather reading, so the
 // demo card reads the same on any day.
 func demoClock(e *eventFolder, now time.Time) time.Time {
-	trk, err := e.track()
+	trk, err := e.Track()
 	if err != nil {
 		return now
 	}
-	log, err := e.weatherLog(trk.Elevation())
+	log, err := e.WeatherLog(trk.Elevation())
 	if err != nil || len(log) == 0 {
 		return now
 	}

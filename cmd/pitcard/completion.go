@@ -10,6 +10,7 @@ import (
 	"github.com/spf13/cobra"
 	"github.com/spf13/pflag"
 
+	"pitcard/event"
 	"pitcard/prep"
 )
 
@@ -78,9 +79,9 @@ func scheduleSessions(c *cobra.Command) []string {
 	if f := c.Flag("dir"); f != nil && f.Value.String() != "" {
 		dir = f.Value.String()
 	}
-	if fh, err := os.Open(filepath.Join(dir, ScheduleFile)); err == nil {
+	if fh, err := os.Open(filepath.Join(dir, event.ScheduleFile)); err == nil {
 		defer fh.Close()
-		if s, err := prep.ReadSchedule(fh, ScheduleFile, time.Local); err == nil && len(s.Sessions) > 0 {
+		if s, err := prep.ReadSchedule(fh, event.ScheduleFile, time.Local); err == nil && len(s.Sessions) > 0 {
 			var out []string
 			for _, sl := range s.Sessions {
 				out = append(out, sl.Session.String()+"\t"+sl.Session.Long()+", called "+sl.Call.Format("15:04"))

@@ -1,10 +1,7 @@
 package main
 
 import (
-	"errors"
 	"fmt"
-	"io/fs"
-	"path"
 	"strings"
 	"time"
 
@@ -45,7 +42,7 @@ type conditions struct {
 // reading flags takes the demo day's last reading.
 func (c *conditionFlags) resolve(e *eventFolder, now time.Time) (conditions, error) {
 	var out conditions
-	trk, err := e.track()
+	trk, err := e.Track()
 	switch {
 	case err == nil:
 		out.Track, out.HaveTrack = trk, true
@@ -60,12 +57,12 @@ func (c *conditionFlags) resolve(e *eventFolder, now time.Time) (conditions, err
 	}
 	var base *weather.Reading
 	if c.Latest || c.At != "" || (e.Demo && !c.given()) {
-		log, err := e.weatherLog(out.Elevation)
+		log, err := e.WeatherLog(out.Elevation)
 		if err != nil {
 			return out, err
 		}
 		if len(log) == 0 {
-			return out, userErrf("%s has no readings: add one with 'pitcard weather add', or give the reading flags", e.name(event.WeatherFile))
+			return out, userErrf("%s has no readings: add one with 'pitcard weather add', or give the reading flags", e.Name(event.WeatherFile))
 		}
 		last := log[len(log)-1]
 		if c.At != "" {
@@ -104,35 +101,6 @@ func (c *conditionFlags) resolve(e *eventFolder, now time.Time) (conditions, err
 		out.Warnings = append(out.Warnings, w)
 	}
 	out.Reading = r
-	return out, nil
-}
-
-// otherTracks reads tracks/NAME.yaml, the other tracks the logbook names.
-func (e *eventFolder) otherTracks() (map[string]engine.Track, error) {
-	out := map[string]engine.Track{}
-	entries, err := fs.ReadDir(e.FS, "tracks")
-	if errors.Is(err, fs.ErrNotExist) {
-		return out, nil
-	}
-	if err != nil {
-		return nil, err
-	}
-	for _, de := range entries {
-		if de.IsDir() || !strings.HasSuffix(de.Name(), ".yaml") {
-			continue
-		}
-		p := path.Join("tracks", de.Name())
-		f, err := e.FS.Open(p)
-		if err != nil {
-			return nil, err
-		}
-		t, err := engine.ReadTrack(f, e.name(p))
-		f.Close()
-		if err != nil {
-			return nil, err
-		}
-		out[strings.ToLower(t.Name)] = t
-	}
 	return out, nil
 }
 

@@ -11,6 +11,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"pitcard/engine"
+	"pitcard/event"
 	"pitcard/prep"
 	"pitcard/weather"
 )
@@ -118,7 +119,7 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 		useModel := o.cond.given() || o.cond.Latest || o.cond.At != "" || e.Demo
 		if !useModel {
 			if elev, _, err := siteElevation(e, &o.cond.readingFlags); err == nil {
-				if log, err := e.weatherLog(elev); err == nil && len(log) > 0 {
+				if log, err := e.WeatherLog(elev); err == nil && len(log) > 0 {
 					o.cond.Latest, useModel = true, true
 				}
 			}
@@ -140,12 +141,12 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 			}
 			break
 		}
-		car, err := e.car()
+		car, err := e.Car()
 		if err != nil {
 			return err
 		}
-		passes, lo := e.logbook()
-		if !onlyLeftOut(lo) {
+		passes, lo := e.Logbook()
+		if !event.OnlyLeftOut(lo) {
 			return lo
 		}
 		leftOut = lo
@@ -174,7 +175,7 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 	var wins []engine.WinOption
 	var opp *engine.Opponent
 	if oppDial.Valid {
-		passes, _ := e.recentLogbook()
+		passes, _ := e.RecentLogbook()
 		var usRT engine.RTModel
 		if opp, usRT, err = o.opp.build(e.Settings, oppDial, passes); err != nil {
 			return err

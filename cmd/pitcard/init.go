@@ -79,7 +79,7 @@ func initRun(o *initOptions) error {
 		if err != nil {
 			return err
 		}
-		if f == ScheduleFile && !o.Demo {
+		if f == event.ScheduleFile && !o.Demo {
 			data = bytes.ReplaceAll(data, []byte("DATE"), []byte(o.s.Now().Format("2006-01-02")))
 		}
 		dst := filepath.Join(o.Dir, f)
@@ -96,7 +96,7 @@ func initRun(o *initOptions) error {
 		fmt.Fprintf(o.s.Out, "Next: cd %s && pitcard air --latest\n", o.Dir)
 	} else {
 		fmt.Fprintf(o.s.Out, "Next: edit %s, %s and %s for your car, track and race day, then add a reading:\n  cd %s && pitcard weather add --temp 85F --baro 28.90inHg --humidity 40%%\nand print the card for the next round: pitcard card\n",
-			filepath.Join(o.Dir, event.CarFile), filepath.Join(o.Dir, event.TrackFile), filepath.Join(o.Dir, ScheduleFile), o.Dir)
+			filepath.Join(o.Dir, event.CarFile), filepath.Join(o.Dir, event.TrackFile), filepath.Join(o.Dir, event.ScheduleFile), o.Dir)
 	}
 	return nil
 }

@@ -5,7 +5,6 @@ import (
 	"fmt"
 	"math"
 	"os"
-	"slices"
 	"strings"
 	"time"
 
@@ -16,7 +15,6 @@ import (
 
 	"pitcard/engine"
 	"pitcard/event"
-	"pitcard/internal/safefile"
 	"pitcard/prep"
 	"pitcard/weather"
 )
@@ -37,63 +35,6 @@ previous logbook as logbook.csv.bak.`,
 	cmd.AddCommand(newLogAddCmd(s, g), newLogImportCmd(s, g), newLogListCmd(s, g), newLogStatsCmd(s, g))
 	groupCmd(cmd)
 	return cmd
-}
-
-// saveLogbook merges passes into the folder's logbook under its lock: all or
-// nothing, duplicates refused. Rows of the logbook pitcard cannot read are
-// written back as they were (and returned as kept, to be said); the crew's
-// own columns, the logbook's and those of extra, keep their values.
-func saveLogbook(e *eventFolder, add []engine.Pass, extra ...string) (n int, kept error, err error) {
-	path := e.path(event.LogbookFile)
-	unlock, err := safefile.Lock(path)
-	if err != nil {
-		return 0, nil, err
-	}
-	defer unlock()
-	lb, name, err := e.logbookFile()
-	if err != nil {
-		return 0, nil, err
-	}
-	if len(lb.Bad) > 0 {
-		kept = &leftOutRows{file: name, bak: e.backupOf(name), rows: lb.Bad, read: len(lb.Passes)}
-		if !lb.Kept() {
-			return 0, nil, userErrf("%v\nNothing was written: a row that is not even valid CSV (an unmatched quote) could not be kept through a rewrite; fix it first", kept)
-		}
-	}
-	seen := map[string]engine.Pass{}
-	for _, p := range lb.Passes {
-		seen[p.Key()] = p
-	}
-	var dups engine.RowErrors
-	for _, p := range add {
-		if o, ok := seen[p.Key()]; ok {
-			dups = append(dups, duplicateOf(p, o, name))
-		}
-	}
-	if len(dups) > 0 {
-		return 0, nil, dups
-	}
-	lb.Passes = append(lb.Passes, add...)
-	engine.SortPasses(lb.Passes)
-	for _, x := range extra {
-		if !slices.Contains(lb.Extra, x) {
-			lb.Extra = append(lb.Extra, x)
-		}
-	}
-	if err := safefile.Write(path, lb.Write); err != nil {
-		return 0, nil, err
-	}
-	return len(lb.Passes), kept, nil
-}
-
-// duplicateOf says that p is already in the logbook as o.
-func duplicateOf(p, o engine.Pass, logbook string) *weather.InputError {
-	where := "this pass"
-	if p.Line > 0 {
-		where = fmt.Sprintf("line %d", p.Line)
-	}
-	return &weather.InputError{Field: "pass", Value: p.Time.Format("2006-01-02 15:04") + " " + string(p.Lane),
-		Reason: fmt.Sprintf("(%s) is already in %s at line %d: the same pass entered twice", where, logbook, o.Line)}
 }
 
 type logAddOptions struct {
@@ -153,10 +94,10 @@ func logAddRun(cmd *cobra.Command, o *logAddOptions) error {
 	if err != nil {
 		return err
 	}
-	if err := e.writable(); err != nil {
+	if err := e.Writable(); err != nil {
 		return err
 	}
-	trk, trkErr := e.track()
+	trk, trkErr := e.Track()
 	now := o.s.Now()
 	date, clock := o.Date, o.Time
 	if date == "" {
@@ -174,7 +115,7 @@ func logAddRun(cmd *cobra.Command, o *logAddOptions) error {
 	}
 	weight := o.Weight
 	if weight == "" {
-		if car, err := e.car(); err == nil {
+		if car, err := e.Car(); err == nil {
 			weight = fmt.Sprint(car.WeightLb)
 		}
 	}
@@ -209,7 +150,7 @@ func logAddRun(cmd *cobra.Command, o *logAddOptions) error {
 	}
 	var base *weather.Reading
 	source := ""
-	if log, err := e.weatherLog(elev); err != nil {
+	if log, err := e.WeatherLog(elev); err != nil {
 		return err
 	} else if r, ok := nearestReading(log, p.Time, time.Hour); ok {
 		base, source = &r, "the weather log's "+r.Time.Format("15:04")+" reading"
@@ -242,7 +183,7 @@ func logAddRun(cmd *cobra.Command, o *logAddOptions) error {
 			return err
 		}
 	}
-	n, kept, err := saveLogbook(e, []engine.Pass{p})
+	n, kept, err := e.SaveLogbook([]engine.Pass{p})
 	if err != nil {
 		return err
 	}
@@ -260,7 +201,7 @@ func logAddRun(cmd *cobra.Command, o *logAddOptions) error {
 	}
 	et, ft, _ := p.Finish()
 	fmt.Fprintf(o.s.Out, "Logged %s %s, %s lane: %s s at %.0f ft (%s in %s).\n",
-		p.Time.Format("2006-01-02 15:04"), p.Session.Long(), p.Lane, engine.FormatSeconds(et, 3), ft, engine.Plural(n, "pass"), e.name(event.LogbookFile))
+		p.Time.Format("2006-01-02 15:04"), p.Session.Long(), p.Lane, engine.FormatSeconds(et, 3), ft, engine.Plural(n, "pass"), e.Name(event.LogbookFile))
 	if p.HasAir {
 		fmt.Fprintf(o.s.Out, "Conditions from %s: %s, density altitude %s.\n", source,
 			p.Air.Temp.Format(e.Settings.Units.Temp, 1), p.Air.Derive(elev).DensityAltitude.Format(e.Settings.Units.Length))
@@ -274,8 +215,8 @@ func logAddRun(cmd *cobra.Command, o *logAddOptions) error {
 // (altimeter) settings for their track's elevation: the logbook holds
 // station pressure, and mixing the two is the commonest weather mistake.
 func altimeterLooking(e *eventFolder, passes []engine.Pass, file string) string {
-	trk, _ := e.track()
-	tracks, _ := e.otherTracks()
+	trk, _ := e.Track()
+	tracks, _ := e.OtherTracks()
 	var lines []string
 	for _, p := range passes {
 		if !p.HasAir {
@@ -342,7 +283,7 @@ pass is already in the logbook, every problem is listed and nothing is written.`
 			if err != nil {
 				return err
 			}
-			if err := e.writable(); err != nil {
+			if err := e.Writable(); err != nil {
 				return err
 			}
 			fh, err := os.Open(args[0])
@@ -358,14 +299,14 @@ pass is already in the logbook, every problem is listed and nothing is written.`
 			if len(src.Bad) > 0 {
 				// All or nothing: list every bad row, and the good rows that are already logged.
 				problems := append(engine.RowErrors(nil), src.Bad...)
-				if cur, _ := e.logbook(); len(cur) > 0 {
+				if cur, _ := e.Logbook(); len(cur) > 0 {
 					seen := map[string]engine.Pass{}
 					for _, p := range cur {
 						seen[p.Key()] = p
 					}
 					for _, p := range passes {
 						if old, ok := seen[p.Key()]; ok {
-							problems = append(problems, duplicateOf(p, old, e.name(event.LogbookFile)))
+							problems = append(problems, event.DuplicateOf(p, old, e.Name(event.LogbookFile)))
 						}
 					}
 				}
@@ -377,14 +318,14 @@ pass is already in the logbook, every problem is listed and nothing is written.`
 			if w := altimeterLooking(e, passes, args[0]); w != "" {
 				fmt.Fprintln(o.s.Err, "pitcard: warning:", w)
 			}
-			n, kept, err := saveLogbook(e, passes, src.Extra...)
+			n, kept, err := e.SaveLogbook(passes, src.Extra...)
 			if err != nil {
 				return err
 			}
 			if kept != nil {
 				fmt.Fprintln(o.s.Err, "pitcard: warning:", kept)
 			}
-			fmt.Fprintf(o.s.Out, "Imported %s from %s; %s now holds %d.\n", engine.Plural(len(passes), "pass"), args[0], e.name(event.LogbookFile), n)
+			fmt.Fprintf(o.s.Out, "Imported %s from %s; %s now holds %d.\n", engine.Plural(len(passes), "pass"), args[0], e.Name(event.LogbookFile), n)
 			return nil
 		},
 	}
@@ -440,11 +381,11 @@ func logListRun(cmd *cobra.Command, o *logListOptions) error {
 	if err != nil {
 		return err
 	}
-	passes, leftOut := e.logbook()
-	if !onlyLeftOut(leftOut) {
+	passes, leftOut := e.Logbook()
+	if !event.OnlyLeftOut(leftOut) {
 		return leftOut
 	}
-	trk, _ := e.track()
+	trk, _ := e.Track()
 	if o.Last > 0 && len(passes) > o.Last {
 		passes = passes[len(passes)-o.Last:]
 	}
@@ -465,11 +406,11 @@ func logListRun(cmd *cobra.Command, o *logListOptions) error {
 		return leftOut
 	}
 	if len(passes) == 0 {
-		fmt.Fprintf(o.s.Out, "%s has no passes yet: add one with 'pitcard log add' or 'pitcard log import'.\n", e.name(event.LogbookFile))
+		fmt.Fprintf(o.s.Out, "%s has no passes yet: add one with 'pitcard log add' or 'pitcard log import'.\n", e.Name(event.LogbookFile))
 		return leftOut
 	}
 	u := e.Settings.Units
-	t := newTable(o.s, fmt.Sprintf("Logbook (%s), last %s", e.name(event.LogbookFile), engine.Plural(len(passes), "pass")))
+	t := newTable(o.s, fmt.Sprintf("Logbook (%s), last %s", e.Name(event.LogbookFile), engine.Plural(len(passes), "pass")))
 	header := table.Row{"Date", "Time", "Session", "Lane", "Dial", "RT", "60 ft", "1/8", "mph", "1/4", "mph", "DA", "Notes"}
 	if o.Wide {
 		header = table.Row{"Date", "Time", "Session", "Lane", "Dial", "RT", "60 ft", "330", "1/8", "mph", "1000", "1/4", "mph", "DA", "Notes"}
@@ -621,16 +562,16 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 	if err != nil {
 		return err
 	}
-	passes, leftOut := e.logbook()
-	if !onlyLeftOut(leftOut) {
+	passes, leftOut := e.Logbook()
+	if !event.OnlyLeftOut(leftOut) {
 		return leftOut
 	}
 	// With car.yaml and the weather of the passes, take the air out of the spread.
 	var residual map[string]float64
 	corrected := false
-	if car, err := e.car(); err == nil && len(passes) > 0 {
-		trk, _ := e.track()
-		tracks, _ := e.otherTracks()
+	if car, err := e.Car(); err == nil && len(passes) > 0 {
+		trk, _ := e.Track()
+		tracks, _ := e.OtherTracks()
 		in := engine.CalibrateInput{Car: car, Track: trk, Tracks: tracks, Passes: passes, Now: passes[len(passes)-1].Time}
 		if fit, err := engine.Calibrate(in); err == nil && len(fit.Samples) > 0 {
 			residual, corrected = fit.Residuals(in), true
@@ -662,7 +603,7 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 		return leftOut
 	}
 	if len(passes) == 0 {
-		fmt.Fprintf(o.s.Out, "%s has no passes yet.\n", e.name(event.LogbookFile))
+		fmt.Fprintf(o.s.Out, "%s has no passes yet.\n", e.Name(event.LogbookFile))
 		return leftOut
 	}
 	t := newTable(o.s, "Consistency by day and session")

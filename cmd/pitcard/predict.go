@@ -9,6 +9,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"pitcard/engine"
+	"pitcard/event"
 	"pitcard/prep"
 	"pitcard/weather"
 )
@@ -81,7 +82,7 @@ type nextPass struct {
 
 func forecastNext(e *eventFolder, cond conditionFlags, prepFlag, weightFlag string, now time.Time) (nextPass, error) {
 	var n nextPass
-	car, err := e.car()
+	car, err := e.Car()
 	if err != nil {
 		return n, err
 	}
@@ -89,11 +90,11 @@ func forecastNext(e *eventFolder, cond conditionFlags, prepFlag, weightFlag stri
 	if err != nil {
 		return n, err
 	}
-	passes, leftOut := e.recentLogbook()
-	if !onlyLeftOut(leftOut) {
+	passes, leftOut := e.RecentLogbook()
+	if !event.OnlyLeftOut(leftOut) {
 		return n, leftOut
 	}
-	tracks, err := e.otherTracks()
+	tracks, err := e.OtherTracks()
 	if err != nil {
 		return n, err
 	}

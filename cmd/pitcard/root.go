@@ -6,7 +6,6 @@ import (
 	"fmt"
 	"io/fs"
 	"os"
-	"path/filepath"
 	"slices"
 	"sort"
 	"strings"
@@ -83,21 +82,12 @@ Try it on the built-in demo event first: pitcard card --demo`,
 	return root
 }
 
-// settings are pitcard.yaml's values after flags and environment.
-type settings struct {
-	Units         weather.Units
-	DialStep      decimal.Decimal
-	BreakoutRisk  float64
-	Tree          engine.Tree
-	RTZero        engine.RTZero
-	MaxAdjust     decimal.Decimal
-	RuleLimits    scripts.Limits
-	MaxReadingAge time.Duration // a reading older than this is flagged on the card
-	// The other lane's defaults and ours, s (common practice, from memory:
-	// see the README), and which dial to post.
-	OppMargin, OppMarginSD, OppRTMean, OppRTSD, RTMean, RTSD float64
-	PostBestForWin                                           bool
-}
+// settings and eventFolder are the event package's: the folder and its
+// settings live there, so every front end reads and writes them the same way.
+type (
+	settings    = event.Settings
+	eventFolder = event.Folder
+)
 
 // settingKeys are the keys pitcard.yaml may hold, with their defaults.
 var settingKeys = map[string]any{
@@ -121,62 +111,6 @@ var settingKeys = map[string]any{
 	"rt_sd":              0.025,
 	// breakout-rule (the slowest dial within breakout_risk) or best-for-win
 	"post_dial": "breakout-rule",
-}
-
-// eventFolder is an opened event folder (or the demo).
-type eventFolder struct {
-	Dir      string // on disk; "" for the demo
-	FS       fs.FS
-	Demo     bool
-	Settings settings
-	// Files given by flags (--car, --track, --logbook) in place of the folder's.
-	CarPath, TrackPath, LogbookPath string
-}
-
-// openFile opens a folder file, or the file a flag named in its place.
-func (e *eventFolder) openFile(file, override string) (fs.File, string, error) {
-	if override != "" {
-		f, err := os.Open(override)
-		if err != nil {
-			return nil, override, userErrf("cannot read %s: %v", override, errors.Unwrap(err))
-		}
-		return f, override, nil
-	}
-	f, err := e.FS.Open(file)
-	return f, e.name(file), err
-}
-
-// name is how messages refer to a file of the folder.
-func (e *eventFolder) name(file string) string {
-	if p := e.path(file); p != filepath.Join(e.Dir, file) {
-		return p // a file named by --car-file, --track-file or --logbook-file
-	}
-	if e.Demo {
-		return "demo/" + file
-	}
-	return filepath.Join(e.Dir, file)
-}
-
-// path is a file's path on disk: the folder's, or the file a flag named in
-// its place (--logbook-file, ...).
-func (e *eventFolder) path(file string) string {
-	switch {
-	case file == event.LogbookFile && e.LogbookPath != "":
-		return e.LogbookPath
-	case file == event.CarFile && e.CarPath != "":
-		return e.CarPath
-	case file == event.TrackFile && e.TrackPath != "":
-		return e.TrackPath
-	}
-	return filepath.Join(e.Dir, file)
-}
-
-// writable refuses to write into the demo.
-func (e *eventFolder) writable() error {
-	if e.Demo {
-		return userErrf("the demo event is read-only: run 'pitcard init --demo DIR' for a copy you can change")
-	}
-	return nil
 }
 
 // open opens the event folder and loads its settings with viper: flags >
@@ -206,13 +140,13 @@ func (g *globalOptions) open(cmd *cobra.Command) (*eventFolder, error) {
 	v.AutomaticEnv()
 	var settingsDoc *yamlfile.Doc
 	if data, err := fs.ReadFile(e.FS, event.SettingsFile); err == nil {
-		if err := checkSettingsKeys(data, e.name(event.SettingsFile)); err != nil {
+		if err := checkSettingsKeys(data, e.Name(event.SettingsFile)); err != nil {
 			return nil, err
 		}
-		settingsDoc, _ = yamlfile.Parse(data, e.name(event.SettingsFile))
+		settingsDoc, _ = yamlfile.Parse(data, e.Name(event.SettingsFile))
 		v.SetConfigType("yaml")
 		if err := v.ReadConfig(bytes.NewReader(data)); err != nil {
-			return nil, userErrf("%s: %v", e.name(event.SettingsFile), err)
+			return nil, userErrf("%s: %v", e.Name(event.SettingsFile), err)
 		}
 	} else if !errors.Is(err, fs.ErrNotExist) {
 		return nil, err
@@ -233,7 +167,7 @@ func (g *globalOptions) open(cmd *cobra.Command) (*eventFolder, error) {
 		} else if env := "PITCARD_" + strings.ToUpper(key); os.Getenv(env) != "" {
 			c.Field = env + " (setting " + key + ")"
 		} else if settingsDoc != nil && settingsDoc.Line(key) > 0 {
-			c.Field, c.File, c.Line = key, e.name(event.SettingsFile), settingsDoc.Line(key)
+			c.Field, c.File, c.Line = key, e.Name(event.SettingsFile), settingsDoc.Line(key)
 		}
 		return &c
 	}
@@ -332,129 +266,6 @@ func checkSettingsKeys(data []byte, name string) error {
 		}
 	}
 	return nil
-}
-
-// track reads the folder's track.yaml.
-func (e *eventFolder) track() (engine.Track, error) {
-	f, name, err := e.openFile(event.TrackFile, e.TrackPath)
-	if err != nil {
-		if errors.Is(err, fs.ErrNotExist) {
-			return engine.Track{}, userErrf("%s is missing: pitcard needs the track's elevation (create the folder with 'pitcard init')", name)
-		}
-		return engine.Track{}, err
-	}
-	defer f.Close()
-	return engine.ReadTrack(f, name)
-}
-
-// car reads the folder's car.yaml.
-func (e *eventFolder) car() (engine.Car, error) {
-	f, name, err := e.openFile(event.CarFile, e.CarPath)
-	if err != nil {
-		if errors.Is(err, fs.ErrNotExist) {
-			return engine.Car{}, userErrf("%s is missing: pitcard needs the car's weight, power, induction and distance (create the folder with 'pitcard init')", name)
-		}
-		return engine.Car{}, err
-	}
-	defer f.Close()
-	return engine.ReadCar(f, name)
-}
-
-// logbookFile reads the folder's logbook.csv (none yet: an empty logbook),
-// keeping its bad rows aside. Its name is how messages call it.
-func (e *eventFolder) logbookFile() (*engine.Logbook, string, error) {
-	f, name, err := e.openFile(event.LogbookFile, e.LogbookPath)
-	if errors.Is(err, fs.ErrNotExist) {
-		return &engine.Logbook{}, name, nil
-	}
-	if err != nil {
-		return nil, name, err
-	}
-	defer f.Close()
-	lb, err := engine.ReadLogbookFile(f, name, time.Local)
-	return lb, name, err
-}
-
-// RecentPasses is how many of the logbook's latest passes a card, a
-// prediction or a dial reads (every row is still checked): far more than a
-// fit uses, far less than ten seasons.
-const RecentPasses = 5000
-
-// recentLogbook is logbook for the commands that only predict: the last
-// RecentPasses good passes.
-func (e *eventFolder) recentLogbook() ([]engine.Pass, error) { return e.readPasses(RecentPasses) }
-
-// logbook is the folder's good passes. Rows it could not read come back as
-// a *leftOutRows error beside the passes: the caller uses the passes and
-// says what was left out.
-func (e *eventFolder) logbook() ([]engine.Pass, error) { return e.readPasses(0) }
-
-func (e *eventFolder) readPasses(keep int) ([]engine.Pass, error) {
-	f, name, err := e.openFile(event.LogbookFile, e.LogbookPath)
-	if errors.Is(err, fs.ErrNotExist) {
-		return nil, nil
-	}
-	if err != nil {
-		return nil, err
-	}
-	defer f.Close()
-	lb, err := engine.ReadLogbookRecent(f, name, time.Local, keep)
-	if err != nil {
-		return nil, err
-	}
-	if len(lb.Bad) > 0 {
-		return lb.Passes, &leftOutRows{file: name, bak: e.backupOf(name), rows: lb.Bad, read: len(lb.Passes)}
-	}
-	return lb.Passes, nil
-}
-
-// backupOf is the .bak of a file when there is one.
-func (e *eventFolder) backupOf(name string) string {
-	if e.Demo {
-		return ""
-	}
-	bak := name + ".bak"
-	if e.LogbookPath == "" {
-		bak = e.path(event.LogbookFile) + ".bak"
-	}
-	if _, err := os.Stat(bak); err == nil {
-		return bak
-	}
-	return ""
-}
-
-// leftOutRows are the rows of a logbook that could not be read: the rest of
-// the logbook is used, and these are named so the crew can fix them.
-type leftOutRows struct {
-	file string
-	bak  string // the previous version, when there is one
-	rows engine.RowErrors
-	read int // the good rows
-}
-
-func (l *leftOutRows) Error() string {
-	var b strings.Builder
-	fmt.Fprintf(&b, "%s: %s left out (the other %s are used):", l.file, engine.Plural(len(l.rows), "row"), engine.Plural(l.read, "pass"))
-	for i, r := range l.rows {
-		if i == 10 {
-			fmt.Fprintf(&b, "\n  ... and %d more", len(l.rows)-i)
-			break
-		}
-		b.WriteString("\n  " + r.Error())
-	}
-	b.WriteString("\nFix the row(s) in a text editor; pitcard keeps them as they are until then")
-	if l.bak != "" {
-		fmt.Fprintf(&b, " (the version before the last write is %s)", l.bak)
-	}
-	return b.String()
-}
-
-func (l *leftOutRows) BadInput() bool { return true }
-
-// onlyLeftOut reports whether err is nothing worse than rows left out.
-func onlyLeftOut(err error) bool {
-	var l *leftOutRows
-	return err == nil || errors.As(err, &l)
 }
 
 // checkFormat refuses a --format the command does not print.

@@ -3,7 +3,6 @@ package main
 import (
 	"errors"
 	"fmt"
-	"io/fs"
 	"strings"
 	"time"
 
@@ -16,9 +15,6 @@ import (
 	"pitcard/scripts"
 	"pitcard/weather"
 )
-
-// ScheduleFile is the race day's schedule in an event folder.
-const ScheduleFile = "schedule.yaml"
 
 // roundFlags choose the round: which session, which lane, the opponent's
 // dial, the call time (--at, shared with the air flags), the prep.
@@ -48,20 +44,6 @@ func (r *roundFlags) bind(cmd *cobra.Command) {
 	r.opp.bind(cmd)
 }
 
-// schedule reads the folder's schedule.yaml, if there is one.
-func (e *eventFolder) schedule() (prep.Schedule, bool, error) {
-	f, err := e.FS.Open(ScheduleFile)
-	if errors.Is(err, fs.ErrNotExist) {
-		return prep.Schedule{}, false, nil
-	}
-	if err != nil {
-		return prep.Schedule{}, false, err
-	}
-	defer f.Close()
-	s, err := prep.ReadSchedule(f, e.name(ScheduleFile), time.Local)
-	return s, err == nil, err
-}
-
 // roundInput gathers everything a round's card is made from. Problems that
 // leave part of the card blank (no weather log, a forecast too far ahead)
 // come back as warnings, not errors: the card still prints what it can.
@@ -72,20 +54,20 @@ func roundInput(e *eventFolder, r roundFlags, now time.Time) (prep.Input, []stri
 	// what it can (the air, the rules, the checklist, the cautions) and
 	// says what is wrong; the command then exits 2.
 	var broken []error
-	car, err := e.car()
+	car, err := e.Car()
 	if err != nil {
 		if !isBadInput(err) {
 			return in, nil, err
 		}
 		broken = append(broken, err)
 	}
-	trk, err := e.track()
+	trk, err := e.Track()
 	if err != nil {
 		return in, nil, err
 	}
-	passes, err := e.recentLogbook()
+	passes, err := e.RecentLogbook()
 	switch {
-	case onlyLeftOut(err) && err != nil: // the good rows are used, the bad ones named
+	case event.OnlyLeftOut(err) && err != nil: // the good rows are used, the bad ones named
 		broken = append(broken, err)
 	case err != nil && !isBadInput(err):
 		return in, nil, err
@@ -93,11 +75,11 @@ func roundInput(e *eventFolder, r roundFlags, now time.Time) (prep.Input, []stri
 		broken = append(broken, err)
 		passes = nil
 	}
-	tracks, err := e.otherTracks()
+	tracks, err := e.OtherTracks()
 	if err != nil {
 		return in, nil, err
 	}
-	sched, haveSched, err := e.schedule()
+	sched, haveSched, err := e.Schedule()
 	switch {
 	case err != nil && r.Round != "" && isBadInput(err):
 		// the round is given: a broken schedule costs only its call time
@@ -110,14 +92,14 @@ func roundInput(e *eventFolder, r roundFlags, now time.Time) (prep.Input, []stri
 	if err != nil {
 		return in, nil, err
 	}
-	log, err := e.weatherLog(elev)
+	log, err := e.WeatherLog(elev)
 	if err != nil {
 		return in, nil, err
 	}
-	now, sched, warnings = clockFor(e, sched, haveSched, log, now)
+	now, sched, warnings = e.ClockFor(sched, haveSched, log, now)
 	if r.Unsaved != nil { // a reading the disk refused: the card still uses it
 		log = append(log, *r.Unsaved)
-		sortReadings(log)
+		event.SortReadings(log)
 	}
 
 	// The session and its slot in the schedule.
@@ -137,10 +119,10 @@ func roundInput(e *eventFolder, r roundFlags, now time.Time) (prep.Input, []stri
 		if s, ok := sched.Next(passes); ok {
 			slot, haveSlot = s, true
 		} else {
-			return in, nil, userErrf("every session of %s has a pass in the logbook: give --round for another", e.name(ScheduleFile))
+			return in, nil, userErrf("every session of %s has a pass in the logbook: give --round for another", e.Name(event.ScheduleFile))
 		}
 	default:
-		return in, nil, userErrf("which round? give --round (3, E3, T2 ...), or write %s with the day's call times", ScheduleFile)
+		return in, nil, userErrf("which round? give --round (3, E3, T2 ...), or write %s with the day's call times", event.ScheduleFile)
 	}
 
 	// The call time: --at, the schedule's, or now.
@@ -229,7 +211,7 @@ func roundInput(e *eventFolder, r roundFlags, now time.Time) (prep.Input, []stri
 		source = "the reading flags"
 	default:
 		return in, nil, userErrf("no air for the round: %s has no readings; add one with 'pitcard weather add' or give --temp, --baro and --humidity",
-			e.name(event.WeatherFile))
+			e.Name(event.WeatherFile))
 	}
 	if err := validateFlags(air, elev); err != nil {
 		return in, nil, err
@@ -272,28 +254,6 @@ func roundInput(e *eventFolder, r roundFlags, now time.Time) (prep.Input, []stri
 		return in, warnings, brokenInput{broken}
 	}
 	return in, warnings, nil
-}
-
-// clockFor is the clock of a round: now, or, when schedule.yaml is for
-// another day that the weather log holds, that day at its last reading (a
-// race day replayed). A schedule of another day the log lacks is taken for
-// today. One clock serves the whole round: the card, the reading, the slip.
-func clockFor(e *eventFolder, sched prep.Schedule, haveSched bool, log []weather.Reading, now time.Time) (time.Time, prep.Schedule, []string) {
-	if !haveSched || e.Demo || sched.Date.Format("2006-01-02") == now.Format("2006-01-02") {
-		return now, sched, nil
-	}
-	var dayEnd *weather.Reading
-	for i := range log {
-		if log[i].Time.Format("2006-01-02") == sched.Date.Format("2006-01-02") {
-			dayEnd = &log[i]
-		}
-	}
-	if dayEnd != nil {
-		return dayEnd.Time, sched, []string{fmt.Sprintf("%s is for %s, not today: the round is on that day, its clock at the day's last reading (%s)",
-			e.name(ScheduleFile), sched.Date.Format("2006-01-02"), dayEnd.Time.Format("15:04"))}
-	}
-	return now, sched.OnDay(now), []string{fmt.Sprintf("%s is dated %s but today is %s: its call times are taken for today (update its date)",
-		e.name(ScheduleFile), sched.Date.Format("2006-01-02"), now.Format("2006-01-02"))}
 }
 
 // brokenInput is bad input the card could print around: the input is

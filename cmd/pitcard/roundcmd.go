@@ -12,7 +12,6 @@ import (
 
 	"pitcard/engine"
 	"pitcard/event"
-	"pitcard/internal/safefile"
 	"pitcard/prep"
 	"pitcard/weather"
 )
@@ -100,16 +99,16 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 	if err != nil {
 		return err
 	}
-	if err := e.writable(); err != nil {
+	if err := e.Writable(); err != nil {
 		return err
 	}
-	trk, err := e.track()
+	trk, err := e.Track()
 	if err != nil {
 		return err
 	}
 	u := e.Settings.Units
 	elev := trk.Elevation()
-	log, err := e.weatherLog(elev)
+	log, err := e.WeatherLog(elev)
 	if err != nil {
 		return err
 	}
@@ -117,14 +116,14 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 
 	// Which round, and its clock: one clock for the card, the reading and the slip.
 	rf := roundFlags{Round: o.Round, Lane: o.Lane}
-	sched, haveSched, err := e.schedule()
+	sched, haveSched, err := e.Schedule()
 	if err != nil {
 		return err
 	}
-	now, _, _ := clockFor(e, sched, haveSched, log, o.s.Now())
+	now, _, _ := e.ClockFor(sched, haveSched, log, o.s.Now())
 	if rf.Round == "" && haveSched {
-		passes, err := e.logbook()
-		if !onlyLeftOut(err) {
+		passes, err := e.Logbook()
+		if !event.OnlyLeftOut(err) {
 			return err
 		}
 		if next, ok := sched.Next(passes); ok {
@@ -245,15 +244,15 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 	// Log the reading, then the card. A reading the disk refuses still
 	// makes the card; the crew hears it was not saved.
 	var unsaved error
-	if _, err := appendReading(e, r, elev, false); err != nil {
-		var same *sameMinute
+	if _, err := e.AppendReading(r, elev, false); err != nil {
+		var same *event.SameMinute
 		switch {
-		case errors.As(err, &same) && same.old.Same(r, elev):
-			fmt.Fprintf(o.s.Out, "The %s reading already logged has these values: kept as it is.\n", same.old.Time.Format("15:04"))
+		case errors.As(err, &same) && same.Old.Same(r, elev):
+			fmt.Fprintf(o.s.Out, "The %s reading already logged has these values: kept as it is.\n", same.Old.Time.Format("15:04"))
 		case errors.As(err, &same):
-			a := p.ask(fmt.Sprintf("A reading at %s is already logged with other values: replace it? (y/N)", same.old.Time.Format("15:04")), "N")
+			a := p.ask(fmt.Sprintf("A reading at %s is already logged with other values: replace it? (y/N)", same.Old.Time.Format("15:04")), "N")
 			if strings.HasPrefix(strings.ToLower(a), "y") {
-				if _, err := appendReading(e, r, elev, true); err != nil {
+				if _, err := e.AppendReading(r, elev, true); err != nil {
 					unsaved = err
 				}
 			} else {
@@ -381,45 +380,4 @@ func inRange(field, typed string, v float64, unit string, r [2]float64) error {
 		return nil
 	}
 	return &weather.InputError{Field: field, Value: typed, Reason: fmt.Sprintf("is outside %g..%g %s", r[0], r[1], unit)}
-}
-
-// sameMinute: the weather log already has a reading in that minute.
-type sameMinute struct {
-	file string
-	old  weather.Reading
-}
-
-func (s *sameMinute) Error() string {
-	return fmt.Sprintf("%s already has a reading at %s: give another --time, or --replace to put this one in its place",
-		s.file, s.old.Time.Format("2006-01-02 15:04"))
-}
-
-func (s *sameMinute) BadInput() bool { return true }
-
-// appendReading adds a reading to the weather log under its lock, and
-// returns how many readings the log holds. A reading in a minute the log
-// already has is refused (*sameMinute), or with replace takes its place.
-func appendReading(e *eventFolder, r weather.Reading, elev weather.Length, replace bool) (int, error) {
-	path := e.path(event.WeatherFile)
-	unlock, err := safefile.Lock(path)
-	if err != nil {
-		return 0, err
-	}
-	defer unlock()
-	log, err := e.weatherLog(elev)
-	if err != nil {
-		return 0, err
-	}
-	for i, old := range log {
-		if old.Time.Truncate(time.Minute).Equal(r.Time.Truncate(time.Minute)) {
-			if !replace {
-				return 0, &sameMinute{file: e.name(event.WeatherFile), old: old}
-			}
-			log = append(log[:i], log[i+1:]...)
-			break
-		}
-	}
-	log = append(log, r)
-	sortReadings(log)
-	return len(log), safefile.Write(path, func(w io.Writer) error { return weather.WriteLog(w, log) })
 }

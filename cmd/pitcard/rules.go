@@ -69,10 +69,10 @@ func newRulesListCmd(s *IOStreams, g *globalOptions) *cobra.Command {
 				return writeJSON(s.Out, out)
 			}
 			if len(rules) == 0 {
-				fmt.Fprintf(s.Out, "%s has no rules (*.lua). 'pitcard init' writes the rules that ship with pitcard.\n", e.name(event.RulesDir))
+				fmt.Fprintf(s.Out, "%s has no rules (*.lua). 'pitcard init' writes the rules that ship with pitcard.\n", e.Name(event.RulesDir))
 				return nil
 			}
-			t := newTable(s, "Rules in "+e.name(event.RulesDir))
+			t := newTable(s, "Rules in "+e.Name(event.RulesDir))
 			t.AppendHeader(table.Row{"File", "Defines", "What it says it does"})
 			for _, r := range rules {
 				def := strings.Join(r.Defines, ", ")

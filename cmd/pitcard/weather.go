@@ -1,10 +1,7 @@
 package main
 
 import (
-	"bytes"
-	"errors"
 	"fmt"
-	"io/fs"
 	"strings"
 	"time"
 
@@ -32,21 +29,9 @@ recent trend to the time your round will be called.`,
 	return cmd
 }
 
-// weatherLog reads the folder's weather.csv (none yet: an empty log).
-func (e *eventFolder) weatherLog(elev weather.Length) ([]weather.Reading, error) {
-	data, err := fs.ReadFile(e.FS, event.WeatherFile)
-	if errors.Is(err, fs.ErrNotExist) {
-		return nil, nil
-	}
-	if err != nil {
-		return nil, err
-	}
-	return weather.ReadLog(bytes.NewReader(data), e.name(event.WeatherFile), elev, time.Local)
-}
-
 // siteElevation is the elevation for the folder's weather: --elevation or track.yaml.
 func siteElevation(e *eventFolder, f *readingFlags) (weather.Length, string, error) {
-	trk, err := e.track()
+	trk, err := e.Track()
 	if err != nil && f.Elevation == "" {
 		return 0, "", err
 	}
@@ -66,7 +51,7 @@ func openWeather(cmd *cobra.Command, g *globalOptions, elevFlag string) (*eventF
 	if err != nil {
 		return nil, 0, "", nil, err
 	}
-	log, err := e.weatherLog(elev)
+	log, err := e.WeatherLog(elev)
 	return e, elev, trackName, log, err
 }
 
@@ -107,7 +92,7 @@ func weatherAddRun(cmd *cobra.Command, o *weatherAddOptions) error {
 	if err != nil {
 		return err
 	}
-	if err := e.writable(); err != nil {
+	if err := e.Writable(); err != nil {
 		return err
 	}
 	elev, _, err := siteElevation(e, &o.reading)
@@ -132,23 +117,15 @@ func weatherAddRun(cmd *cobra.Command, o *weatherAddOptions) error {
 	if w := r.PressureWarning(elev); w != "" {
 		fmt.Fprintln(o.s.Err, "pitcard: warning:", w)
 	}
-	n, err := appendReading(e, r, elev, o.Replace)
+	n, err := e.AppendReading(r, elev, o.Replace)
 	if err != nil {
 		return err
 	}
 	a := r.Derive(elev)
 	u := e.Settings.Units
 	fmt.Fprintf(o.s.Out, "Added the %s reading to %s (%s): density altitude %s, %s, %.0f %% RH.\n",
-		r.Time.Format("15:04"), e.name(event.WeatherFile), engine.Plural(n, "reading"), a.DensityAltitude.Format(u.Length), r.Temp.Format(u.Temp, 1), a.RH*100)
+		r.Time.Format("15:04"), e.Name(event.WeatherFile), engine.Plural(n, "reading"), a.DensityAltitude.Format(u.Length), r.Temp.Format(u.Temp, 1), a.RH*100)
 	return nil
-}
-
-func sortReadings(log []weather.Reading) {
-	for i := 1; i < len(log); i++ {
-		for j := i; j > 0 && log[j].Time.Before(log[j-1].Time); j-- {
-			log[j], log[j-1] = log[j-1], log[j]
-		}
-	}
 }
 
 // parseWhen reads "21:40" (on the date of ref) or "2026-06-13 21:40".
@@ -200,11 +177,11 @@ func weatherListRun(cmd *cobra.Command, o *weatherListOptions) error {
 		return writeJSON(o.s.Out, out)
 	}
 	if len(log) == 0 {
-		fmt.Fprintf(o.s.Out, "%s has no readings yet: add one with 'pitcard weather add'.\n", e.name(event.WeatherFile))
+		fmt.Fprintf(o.s.Out, "%s has no readings yet: add one with 'pitcard weather add'.\n", e.Name(event.WeatherFile))
 		return nil
 	}
 	u := e.Settings.Units
-	t := newTable(o.s, fmt.Sprintf("Weather log, %s (%s)", trackName, e.name(event.WeatherFile)))
+	t := newTable(o.s, fmt.Sprintf("Weather log, %s (%s)", trackName, e.Name(event.WeatherFile)))
 	t.AppendHeader(table.Row{"Time", "Air", "Station", "RH", "Dew pt", "Wind", "Track", "DA", "Notes"})
 	lastDay := ""
 	for _, r := range log {
@@ -279,13 +256,13 @@ func weatherForecastRun(cmd *cobra.Command, o *weatherForecastOptions) error {
 		return err
 	}
 	if len(log) == 0 {
-		return userErrf("%s has no readings: add some with 'pitcard weather add' first", e.name(event.WeatherFile))
+		return userErrf("%s has no readings: add some with 'pitcard weather add' first", e.Name(event.WeatherFile))
 	}
 	when, err := callTime(o.At, log[len(log)-1].Time)
 	if err != nil {
 		return err
 	}
-	trk, _ := e.track()
+	trk, _ := e.Track()
 	f, err := weather.ForecastAt(log, when, elev)
 	if err != nil {
 		return flagErr(err, "--at")

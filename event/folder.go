@@ -1,0 +1,420 @@
+package event
+
+import (
+	"bytes"
+	"errors"
+	"fmt"
+	"io"
+	"io/fs"
+	"os"
+	"path"
+	"path/filepath"
+	"slices"
+	"strings"
+	"time"
+
+	"github.com/shopspring/decimal"
+
+	"pitcard/engine"
+	"pitcard/internal/safefile"
+	"pitcard/prep"
+	"pitcard/scripts"
+	"pitcard/weather"
+)
+
+// An opened event folder: its settings (read by the front end: flags,
+// environment, pitcard.yaml), its files read and checked, its writes locked
+// and atomic. The command line and any other front end take the folder
+// from here, so both read and write it the same way.
+
+// inputErr marks an error as the crew's to fix (a front end maps it to its
+// "bad input" answer: exit code 2 on the command line).
+type inputErr struct{ error }
+
+func (e inputErr) BadInput() bool { return true }
+func (e inputErr) Unwrap() error  { return e.error }
+
+func userErrf(f string, a ...any) error { return inputErr{fmt.Errorf(f, a...)} }
+
+// Settings are pitcard.yaml's values after flags and environment.
+type Settings struct {
+	Units         weather.Units
+	DialStep      decimal.Decimal
+	BreakoutRisk  float64
+	Tree          engine.Tree
+	RTZero        engine.RTZero
+	MaxAdjust     decimal.Decimal
+	RuleLimits    scripts.Limits
+	MaxReadingAge time.Duration // a reading older than this is flagged on the card
+	// The other lane's defaults and ours, s (common practice, from memory:
+	// see the README), and which dial to post.
+	OppMargin, OppMarginSD, OppRTMean, OppRTSD, RTMean, RTSD float64
+	PostBestForWin                                           bool
+}
+
+// Folder is an opened event folder (or the demo).
+type Folder struct {
+	Dir      string // on disk; "" for the demo
+	FS       fs.FS
+	Demo     bool
+	Settings Settings
+	// Files given by flags (--car, --track, --logbook) in place of the folder's.
+	CarPath, TrackPath, LogbookPath string
+}
+
+// OpenFile opens a folder file, or the file a flag named in its place.
+func (e *Folder) OpenFile(file, override string) (fs.File, string, error) {
+	if override != "" {
+		f, err := os.Open(override)
+		if err != nil {
+			return nil, override, userErrf("cannot read %s: %v", override, errors.Unwrap(err))
+		}
+		return f, override, nil
+	}
+	f, err := e.FS.Open(file)
+	return f, e.Name(file), err
+}
+
+// Name is how messages refer to a file of the folder.
+func (e *Folder) Name(file string) string {
+	if p := e.Path(file); p != filepath.Join(e.Dir, file) {
+		return p // a file named by --car-file, --track-file or --logbook-file
+	}
+	if e.Demo {
+		return "demo/" + file
+	}
+	return filepath.Join(e.Dir, file)
+}
+
+// Path is a file's path on disk: the folder's, or the file a flag named in
+// its place (--logbook-file, ...).
+func (e *Folder) Path(file string) string {
+	switch {
+	case file == LogbookFile && e.LogbookPath != "":
+		return e.LogbookPath
+	case file == CarFile && e.CarPath != "":
+		return e.CarPath
+	case file == TrackFile && e.TrackPath != "":
+		return e.TrackPath
+	}
+	return filepath.Join(e.Dir, file)
+}
+
+// Writable refuses to write into the demo.
+func (e *Folder) Writable() error {
+	if e.Demo {
+		return userErrf("the demo event is read-only: run 'pitcard init --demo DIR' for a copy you can change")
+	}
+	return nil
+}
+
+// Track reads the folder's track.yaml.
+func (e *Folder) Track() (engine.Track, error) {
+	f, name, err := e.OpenFile(TrackFile, e.TrackPath)
+	if err != nil {
+		if errors.Is(err, fs.ErrNotExist) {
+			return engine.Track{}, userErrf("%s is missing: pitcard needs the track's elevation (create the folder with 'pitcard init')", name)
+		}
+		return engine.Track{}, err
+	}
+	defer f.Close()
+	return engine.ReadTrack(f, name)
+}
+
+// Car reads the folder's car.yaml.
+func (e *Folder) Car() (engine.Car, error) {
+	f, name, err := e.OpenFile(CarFile, e.CarPath)
+	if err != nil {
+		if errors.Is(err, fs.ErrNotExist) {
+			return engine.Car{}, userErrf("%s is missing: pitcard needs the car's weight, power, induction and distance (create the folder with 'pitcard init')", name)
+		}
+		return engine.Car{}, err
+	}
+	defer f.Close()
+	return engine.ReadCar(f, name)
+}
+
+// LogbookFile reads the folder's logbook.csv (none yet: an empty logbook),
+// keeping its bad rows aside. Its name is how messages call it.
+func (e *Folder) LogbookFile() (*engine.Logbook, string, error) {
+	f, name, err := e.OpenFile(LogbookFile, e.LogbookPath)
+	if errors.Is(err, fs.ErrNotExist) {
+		return &engine.Logbook{}, name, nil
+	}
+	if err != nil {
+		return nil, name, err
+	}
+	defer f.Close()
+	lb, err := engine.ReadLogbookFile(f, name, time.Local)
+	return lb, name, err
+}
+
+// RecentPasses is how many of the logbook's latest passes a card, a
+// prediction or a dial reads (every row is still checked): far more than a
+// fit uses, far less than ten seasons.
+const RecentPasses = 5000
+
+// RecentLogbook is Logbook for the commands that only predict: the last
+// RecentPasses good passes.
+func (e *Folder) RecentLogbook() ([]engine.Pass, error) { return e.readPasses(RecentPasses) }
+
+// Logbook is the folder's good passes. Rows it could not read come back as
+// a *LeftOutRows error beside the passes: the caller uses the passes and
+// says what was left out.
+func (e *Folder) Logbook() ([]engine.Pass, error) { return e.readPasses(0) }
+
+func (e *Folder) readPasses(keep int) ([]engine.Pass, error) {
+	f, name, err := e.OpenFile(LogbookFile, e.LogbookPath)
+	if errors.Is(err, fs.ErrNotExist) {
+		return nil, nil
+	}
+	if err != nil {
+		return nil, err
+	}
+	defer f.Close()
+	lb, err := engine.ReadLogbookRecent(f, name, time.Local, keep)
+	if err != nil {
+		return nil, err
+	}
+	if len(lb.Bad) > 0 {
+		return lb.Passes, &LeftOutRows{file: name, bak: e.BackupOf(name), rows: lb.Bad, read: len(lb.Passes)}
+	}
+	return lb.Passes, nil
+}
+
+// BackupOf is the .bak of a file when there is one.
+func (e *Folder) BackupOf(name string) string {
+	if e.Demo {
+		return ""
+	}
+	bak := name + ".bak"
+	if e.LogbookPath == "" {
+		bak = e.Path(LogbookFile) + ".bak"
+	}
+	if _, err := os.Stat(bak); err == nil {
+		return bak
+	}
+	return ""
+}
+
+// LeftOutRows are the rows of a logbook that could not be read: the rest of
+// the logbook is used, and these are named so the crew can fix them.
+type LeftOutRows struct {
+	file string
+	bak  string // the previous version, when there is one
+	rows engine.RowErrors
+	read int // the good rows
+}
+
+func (l *LeftOutRows) Error() string {
+	var b strings.Builder
+	fmt.Fprintf(&b, "%s: %s left out (the other %s are used):", l.file, engine.Plural(len(l.rows), "row"), engine.Plural(l.read, "pass"))
+	for i, r := range l.rows {
+		if i == 10 {
+			fmt.Fprintf(&b, "\n  ... and %d more", len(l.rows)-i)
+			break
+		}
+		b.WriteString("\n  " + r.Error())
+	}
+	b.WriteString("\nFix the row(s) in a text editor; pitcard keeps them as they are until then")
+	if l.bak != "" {
+		fmt.Fprintf(&b, " (the version before the last write is %s)", l.bak)
+	}
+	return b.String()
+}
+
+func (l *LeftOutRows) BadInput() bool { return true }
+
+// OnlyLeftOut reports whether err is nothing worse than rows left out.
+func OnlyLeftOut(err error) bool {
+	var l *LeftOutRows
+	return err == nil || errors.As(err, &l)
+}
+
+// OtherTracks reads tracks/NAME.yaml, the other tracks the logbook names.
+func (e *Folder) OtherTracks() (map[string]engine.Track, error) {
+	out := map[string]engine.Track{}
+	entries, err := fs.ReadDir(e.FS, "tracks")
+	if errors.Is(err, fs.ErrNotExist) {
+		return out, nil
+	}
+	if err != nil {
+		return nil, err
+	}
+	for _, de := range entries {
+		if de.IsDir() || !strings.HasSuffix(de.Name(), ".yaml") {
+			continue
+		}
+		p := path.Join("tracks", de.Name())
+		f, err := e.FS.Open(p)
+		if err != nil {
+			return nil, err
+		}
+		t, err := engine.ReadTrack(f, e.Name(p))
+		f.Close()
+		if err != nil {
+			return nil, err
+		}
+		out[strings.ToLower(t.Name)] = t
+	}
+	return out, nil
+}
+
+// ScheduleFile is the race day's schedule in an event folder.
+const ScheduleFile = "schedule.yaml"
+
+// Schedule reads the folder's schedule.yaml, if there is one.
+func (e *Folder) Schedule() (prep.Schedule, bool, error) {
+	f, err := e.FS.Open(ScheduleFile)
+	if errors.Is(err, fs.ErrNotExist) {
+		return prep.Schedule{}, false, nil
+	}
+	if err != nil {
+		return prep.Schedule{}, false, err
+	}
+	defer f.Close()
+	s, err := prep.ReadSchedule(f, e.Name(ScheduleFile), time.Local)
+	return s, err == nil, err
+}
+
+// ClockFor is the clock of a round: now, or, when schedule.yaml is for
+// another day that the weather log holds, that day at its last reading (a
+// race day replayed). A schedule of another day the log lacks is taken for
+// today. One clock serves the whole round: the card, the reading, the slip.
+func (e *Folder) ClockFor(sched prep.Schedule, haveSched bool, log []weather.Reading, now time.Time) (time.Time, prep.Schedule, []string) {
+	if !haveSched || e.Demo || sched.Date.Format("2006-01-02") == now.Format("2006-01-02") {
+		return now, sched, nil
+	}
+	var dayEnd *weather.Reading
+	for i := range log {
+		if log[i].Time.Format("2006-01-02") == sched.Date.Format("2006-01-02") {
+			dayEnd = &log[i]
+		}
+	}
+	if dayEnd != nil {
+		return dayEnd.Time, sched, []string{fmt.Sprintf("%s is for %s, not today: the round is on that day, its clock at the day's last reading (%s)",
+			e.Name(ScheduleFile), sched.Date.Format("2006-01-02"), dayEnd.Time.Format("15:04"))}
+	}
+	return now, sched.OnDay(now), []string{fmt.Sprintf("%s is dated %s but today is %s: its call times are taken for today (update its date)",
+		e.Name(ScheduleFile), sched.Date.Format("2006-01-02"), now.Format("2006-01-02"))}
+}
+
+// SameMinute: the weather log already has a reading in that minute.
+type SameMinute struct {
+	file string
+	Old  weather.Reading
+}
+
+func (s *SameMinute) Error() string {
+	return fmt.Sprintf("%s already has a reading at %s: give another --time, or --replace to put this one in its place",
+		s.file, s.Old.Time.Format("2006-01-02 15:04"))
+}
+
+func (s *SameMinute) BadInput() bool { return true }
+
+// AppendReading adds a reading to the weather log under its lock, and
+// returns how many readings the log holds. A reading in a minute the log
+// already has is refused (*SameMinute), or with replace takes its place.
+func (e *Folder) AppendReading(r weather.Reading, elev weather.Length, replace bool) (int, error) {
+	path := e.Path(WeatherFile)
+	unlock, err := safefile.Lock(path)
+	if err != nil {
+		return 0, err
+	}
+	defer unlock()
+	log, err := e.WeatherLog(elev)
+	if err != nil {
+		return 0, err
+	}
+	for i, old := range log {
+		if old.Time.Truncate(time.Minute).Equal(r.Time.Truncate(time.Minute)) {
+			if !replace {
+				return 0, &SameMinute{file: e.Name(WeatherFile), Old: old}
+			}
+			log = append(log[:i], log[i+1:]...)
+			break
+		}
+	}
+	log = append(log, r)
+	SortReadings(log)
+	return len(log), safefile.Write(path, func(w io.Writer) error { return weather.WriteLog(w, log) })
+}
+
+// weatherLog reads the folder's weather.csv (none yet: an empty log).
+func (e *Folder) WeatherLog(elev weather.Length) ([]weather.Reading, error) {
+	data, err := fs.ReadFile(e.FS, WeatherFile)
+	if errors.Is(err, fs.ErrNotExist) {
+		return nil, nil
+	}
+	if err != nil {
+		return nil, err
+	}
+	return weather.ReadLog(bytes.NewReader(data), e.Name(WeatherFile), elev, time.Local)
+}
+
+// SortReadings sorts readings in time order, stably (a log is nearly in
+// order: an insertion sort).
+func SortReadings(log []weather.Reading) {
+	for i := 1; i < len(log); i++ {
+		for j := i; j > 0 && log[j].Time.Before(log[j-1].Time); j-- {
+			log[j], log[j-1] = log[j-1], log[j]
+		}
+	}
+}
+
+// SaveLogbook merges passes into the folder's logbook under its lock: all or
+// nothing, duplicates refused. Rows of the logbook pitcard cannot read are
+// written back as they were (and returned as kept, to be said); the crew's
+// own columns, the logbook's and those of extra, keep their values.
+func (e *Folder) SaveLogbook(add []engine.Pass, extra ...string) (n int, kept error, err error) {
+	path := e.Path(LogbookFile)
+	unlock, err := safefile.Lock(path)
+	if err != nil {
+		return 0, nil, err
+	}
+	defer unlock()
+	lb, name, err := e.LogbookFile()
+	if err != nil {
+		return 0, nil, err
+	}
+	if len(lb.Bad) > 0 {
+		kept = &LeftOutRows{file: name, bak: e.BackupOf(name), rows: lb.Bad, read: len(lb.Passes)}
+		if !lb.Kept() {
+			return 0, nil, userErrf("%v\nNothing was written: a row that is not even valid CSV (an unmatched quote) could not be kept through a rewrite; fix it first", kept)
+		}
+	}
+	seen := map[string]engine.Pass{}
+	for _, p := range lb.Passes {
+		seen[p.Key()] = p
+	}
+	var dups engine.RowErrors
+	for _, p := range add {
+		if o, ok := seen[p.Key()]; ok {
+			dups = append(dups, DuplicateOf(p, o, name))
+		}
+	}
+	if len(dups) > 0 {
+		return 0, nil, dups
+	}
+	lb.Passes = append(lb.Passes, add...)
+	engine.SortPasses(lb.Passes)
+	for _, x := range extra {
+		if !slices.Contains(lb.Extra, x) {
+			lb.Extra = append(lb.Extra, x)
+		}
+	}
+	if err := safefile.Write(path, lb.Write); err != nil {
+		return 0, nil, err
+	}
+	return len(lb.Passes), kept, nil
+}
+
+// DuplicateOf says that p is already in the logbook as o.
+func DuplicateOf(p, o engine.Pass, logbook string) *weather.InputError {
+	where := "this pass"
+	if p.Line > 0 {
+		where = fmt.Sprintf("line %d", p.Line)
+	}
+	return &weather.InputError{Field: "pass", Value: p.Time.Format("2006-01-02 15:04") + " " + string(p.Lane),
+		Reason: fmt.Sprintf("(%s) is already in %s at line %d: the same pass entered twice", where, logbook, o.Line)}
+}
