@@ -70,12 +70,12 @@ func airRun(cmd *cobra.Command, o *airOptions) error {
 	case trkErr != nil && o.reading.Elevation == "":
 		return trkErr
 	default:
-		if elev, err = o.reading.elevation(e.Settings.Units, trk.Elevation(), trkErr == nil); err != nil {
+		if elev, err = o.reading.SiteElevation(e.Settings.Units, trk.Elevation(), trkErr == nil); err != nil {
 			return err
 		}
 	}
 	var base *weather.Reading
-	if o.Latest || (e.Demo && !o.reading.given()) {
+	if o.Latest || (e.Demo && !o.reading.Given()) {
 		log, err := e.WeatherLog(elev)
 		if err != nil {
 			return err
@@ -85,11 +85,11 @@ func airRun(cmd *cobra.Command, o *airOptions) error {
 		}
 		base = &log[len(log)-1]
 	}
-	r, err := o.reading.reading(e.Settings.Units, o.s.Now(), base)
+	r, err := o.reading.ReadingAt(e.Settings.Units, o.s.Now(), base)
 	if err != nil {
 		return err
 	}
-	if err := validateFlags(r, elev); err != nil {
+	if err := event.ValidateFields(r, elev); err != nil {
 		return err
 	}
 	if w := r.PressureWarning(elev); w != "" && elevKnown {

@@ -7,6 +7,7 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"pitcard/event"
 	"pitcard/internal/safefile"
 	"pitcard/prep"
 )
@@ -57,8 +58,8 @@ func cardRun(cmd *cobra.Command, o *cardOptions) error {
 	if e.Demo {
 		now = demoClock(e, now)
 	}
-	in, warnings, err := roundInput(e, o.round, now)
-	if !usable(err) {
+	in, warnings, err := e.GatherRound(o.round.request(), now)
+	if !event.Usable(err) {
 		return err
 	}
 	broken := err

@@ -1,7 +1,6 @@
 package main
 
 import (
-	"fmt"
 	"strings"
 	"time"
 
@@ -49,14 +48,14 @@ func (c *conditionFlags) resolve(e *eventFolder, now time.Time) (conditions, err
 	case c.Elevation == "":
 		return out, err
 	}
-	if out.Elevation, err = c.elevation(e.Settings.Units, trk.Elevation(), out.HaveTrack); err != nil {
+	if out.Elevation, err = c.SiteElevation(e.Settings.Units, trk.Elevation(), out.HaveTrack); err != nil {
 		return out, err
 	}
 	if c.Latest && c.At != "" {
 		return out, userErrf("give --latest or --at, not both")
 	}
 	var base *weather.Reading
-	if c.Latest || c.At != "" || (e.Demo && !c.given()) {
+	if c.Latest || c.At != "" || (e.Demo && !c.Given()) {
 		log, err := e.WeatherLog(out.Elevation)
 		if err != nil {
 			return out, err
@@ -72,7 +71,7 @@ func (c *conditionFlags) resolve(e *eventFolder, now time.Time) (conditions, err
 			}
 			f, err := weather.ForecastAt(log, when, out.Elevation)
 			if err != nil {
-				return out, flagErr(err, "--at")
+				return out, event.FlagErr(err, "--at")
 			}
 			out.Forecast = &f
 			base = &f.Reading
@@ -85,16 +84,16 @@ func (c *conditionFlags) resolve(e *eventFolder, now time.Time) (conditions, err
 			out.Source = "the weather log's " + last.Time.Format("15:04") + " reading"
 		}
 	}
-	r, err := c.reading(e.Settings.Units, now, base)
+	r, err := c.ReadingAt(e.Settings.Units, now, base)
 	if err != nil {
 		return out, err
 	}
 	if base == nil {
 		out.Source = "the reading flags"
-	} else if c.given() {
+	} else if c.Given() {
 		out.Source += ", with the flags given"
 	}
-	if err := validateFlags(r, out.Elevation); err != nil {
+	if err := event.ValidateFields(r, out.Elevation); err != nil {
 		return out, err
 	}
 	if w := r.PressureWarning(out.Elevation); w != "" {
@@ -102,17 +101,4 @@ func (c *conditionFlags) resolve(e *eventFolder, now time.Time) (conditions, err
 	}
 	out.Reading = r
 	return out, nil
-}
-
-// prepLevel is --prep, or the track's usual prep.
-func prepLevel(flag string, trk engine.Track) (float64, error) {
-	if flag != "" {
-		p, err := engine.ParsePrep(flag)
-		return p, flagErr(err, "--prep")
-	}
-	p, err := engine.ParsePrep(trk.Prep)
-	if err != nil {
-		return 1, fmt.Errorf("track.yaml: %w", err)
-	}
-	return p, nil
 }

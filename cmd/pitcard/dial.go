@@ -116,7 +116,7 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 		}
 		est = engine.Estimate{ET: et, SD: sd, Basis: "the --et and --sd given"}
 	default:
-		useModel := o.cond.given() || o.cond.Latest || o.cond.At != "" || e.Demo
+		useModel := o.cond.Given() || o.cond.Latest || o.cond.At != "" || e.Demo
 		if !useModel {
 			if elev, _, err := siteElevation(e, &o.cond.readingFlags); err == nil {
 				if log, err := e.WeatherLog(elev); err == nil && len(log) > 0 {
@@ -167,7 +167,7 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 		if err != nil {
 			return err
 		}
-		if err := rangeErr("--opponent-dial", d, engine.DialRange); err != nil {
+		if err := event.RangeErr("--opponent-dial", d, engine.DialRange); err != nil {
 			return err
 		}
 		oppDial = decimal.NewNullDecimal(d)
@@ -177,7 +177,7 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 	if oppDial.Valid {
 		passes, _ := e.RecentLogbook()
 		var usRT engine.RTModel
-		if opp, usRT, err = o.opp.build(e.Settings, oppDial, passes); err != nil {
+		if opp, usRT, err = o.opp.Build(e.Settings, oppDial, passes); err != nil {
 			return err
 		}
 		var ds []decimal.Decimal

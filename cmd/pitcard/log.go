@@ -144,7 +144,7 @@ func logAddRun(cmd *cobra.Command, o *logAddOptions) error {
 	// The conditions: the nearest weather reading, with any flag given replacing its field.
 	elev := trk.Elevation()
 	if o.reading.Elevation != "" {
-		if elev, err = o.reading.elevation(e.Settings.Units, 0, false); err != nil {
+		if elev, err = o.reading.SiteElevation(e.Settings.Units, 0, false); err != nil {
 			return err
 		}
 	}
@@ -160,12 +160,12 @@ func logAddRun(cmd *cobra.Command, o *logAddOptions) error {
 			base, source = &f.Reading, "the weather log's trend ("+strings.Join(f.Notes, "; ")+")"
 		}
 	}
-	if base != nil || o.reading.given() {
-		r, err := o.reading.reading(e.Settings.Units, p.Time, base)
+	if base != nil || o.reading.Given() {
+		r, err := o.reading.ReadingAt(e.Settings.Units, p.Time, base)
 		if err != nil {
 			return err
 		}
-		if err := validateFlags(r, elev); err != nil {
+		if err := event.ValidateFields(r, elev); err != nil {
 			return err
 		}
 		a := r.Derive(elev)
@@ -173,7 +173,7 @@ func logAddRun(cmd *cobra.Command, o *logAddOptions) error {
 		p.Air, p.HasAir = r, true
 		if source == "" {
 			source = "the flags"
-		} else if o.reading.given() {
+		} else if o.reading.Given() {
 			source += ", with the flags given"
 		}
 	}

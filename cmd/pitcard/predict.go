@@ -98,7 +98,7 @@ func forecastNext(e *eventFolder, cond conditionFlags, prepFlag, weightFlag stri
 	if err != nil {
 		return n, err
 	}
-	prep, err := prepLevel(prepFlag, c.Track)
+	prep, err := event.PrepLevel(prepFlag, c.Track)
 	if err != nil {
 		return n, err
 	}

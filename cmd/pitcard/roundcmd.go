@@ -156,7 +156,7 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 	r := weather.Reading{Time: now, BaroKind: weather.StationPressure}
 	if _, err := p.until("Air temperature", def(func() string { return last.Temp.Format(u.Temp, 1) }), func(a string) error {
 		if r.Temp, err = weather.ParseTemperature(a, u.Temp); err != nil {
-			return flagErr(err, "temperature")
+			return event.FlagErr(err, "temperature")
 		}
 		return inRange("temperature", a, r.Temp.Fahrenheit(), "°F", weather.TempRange)
 	}); err != nil {
@@ -168,7 +168,7 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 	}
 	if _, err := p.until("Barometer, station (uncorrected)", def(func() string { return station.Format(u.Pressure) }), func(a string) error {
 		if r.Baro, err = weather.ParsePressure(a, u.Pressure); err != nil {
-			return flagErr(err, "barometer")
+			return event.FlagErr(err, "barometer")
 		}
 		return inRange("barometer", a, r.Baro.InHg(), "inHg", weather.StationRange)
 	}); err != nil {
@@ -182,7 +182,7 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 		}
 		r.DewPointSet = false
 		if r.RH, err = weather.ParsePercent(a); err != nil {
-			return flagErr(err, "humidity")
+			return event.FlagErr(err, "humidity")
 		}
 		return inRange("humidity", a, r.RH*100, "%", [2]float64{0, 100})
 	}); err != nil {
@@ -194,7 +194,7 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 			return nil
 		}
 		if r.Wind, err = weather.ParseSpeed(a, u.Speed); err != nil {
-			return flagErr(err, "wind")
+			return event.FlagErr(err, "wind")
 		}
 		return inRange("wind", a, r.Wind.MPH(), "mph", weather.WindRange)
 	}); err != nil {
@@ -206,7 +206,7 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 			return nil
 		}
 		r.WindFrom, err = weather.ParseDirection(a)
-		return flagErr(err, "wind from")
+		return event.FlagErr(err, "wind from")
 	}); err != nil {
 		return err
 	}
@@ -221,7 +221,7 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 		}
 		r.HasTrack = true
 		if r.TrackTemp, err = weather.ParseTemperature(a, u.Temp); err != nil {
-			return flagErr(err, "track temperature")
+			return event.FlagErr(err, "track temperature")
 		}
 		return inRange("track temperature", a, r.TrackTemp.Fahrenheit(), "°F", weather.TrackTempRange)
 	}); err != nil {
@@ -268,8 +268,8 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 		rf.Unsaved = &r
 		fmt.Fprintf(o.s.Err, "pitcard: the reading was NOT saved (%v): the card below uses it anyway; write it down\n", unsaved)
 	}
-	in, warnings, err := roundInput(e, rf, now)
-	if !usable(err) {
+	in, warnings, err := e.GatherRound(rf.request(), now)
+	if !event.Usable(err) {
 		return err
 	}
 	broken := err

@@ -136,12 +136,12 @@ func newRulesCheckCmd(s *IOStreams, g *globalOptions) *cobra.Command {
 			// Run the hooks too, on the folder's next round, when it can be gathered.
 			ran := map[string][]*scripts.Error{}
 			hooks := "loaded only"
-			if in, _, err := roundInput(e, roundFlags{}, s.Now()); err == nil {
+			if in, _, err := e.GatherRound(event.RoundRequest{}, s.Now()); err == nil {
 				for _, r := range prep.Gather(in).Rules {
 					ran[r.File] = r.Errors
 				}
 				hooks = "loaded and run on " + in.Session.Long()
-			} else if in, _, err := roundInput(e, roundFlags{Round: "1"}, s.Now()); err == nil {
+			} else if in, _, err := e.GatherRound(event.RoundRequest{Round: "1"}, s.Now()); err == nil {
 				for _, r := range prep.Gather(in).Rules {
 					ran[r.File] = r.Errors
 				}
@@ -206,7 +206,7 @@ func rulesTryRun(cmd *cobra.Command, o *rulesTryOptions) error {
 	if err != nil {
 		return err
 	}
-	in, warnings, err := roundInput(e, o.round, o.s.Now())
+	in, warnings, err := e.GatherRound(o.round.request(), o.s.Now())
 	if err != nil {
 		return err
 	}

@@ -35,7 +35,7 @@ func siteElevation(e *eventFolder, f *readingFlags) (weather.Length, string, err
 	if err != nil && f.Elevation == "" {
 		return 0, "", err
 	}
-	h, err := f.elevation(e.Settings.Units, trk.Elevation(), err == nil)
+	h, err := f.SiteElevation(e.Settings.Units, trk.Elevation(), err == nil)
 	return h, trk.Name, err
 }
 
@@ -46,7 +46,7 @@ func openWeather(cmd *cobra.Command, g *globalOptions, elevFlag string) (*eventF
 	if err != nil {
 		return nil, 0, "", nil, err
 	}
-	rf := readingFlags{Elevation: elevFlag}
+	rf := readingFlags{event.ReadingFields{Elevation: elevFlag}}
 	elev, trackName, err := siteElevation(e, &rf)
 	if err != nil {
 		return nil, 0, "", nil, err
@@ -102,16 +102,16 @@ func weatherAddRun(cmd *cobra.Command, o *weatherAddOptions) error {
 	now := o.s.Now()
 	when := now
 	if o.Time != "" {
-		if when, err = parseWhen(o.Time, now); err != nil {
+		if when, err = event.ParseWhen(o.Time, now); err != nil {
 			return err
 		}
 	}
-	r, err := o.reading.reading(e.Settings.Units, when, nil)
+	r, err := o.reading.ReadingAt(e.Settings.Units, when, nil)
 	if err != nil {
 		return err
 	}
 	r.Note = o.Note
-	if err := validateFlags(r, elev); err != nil {
+	if err := event.ValidateFields(r, elev); err != nil {
 		return err
 	}
 	if w := r.PressureWarning(elev); w != "" {
@@ -126,17 +126,6 @@ func weatherAddRun(cmd *cobra.Command, o *weatherAddOptions) error {
 	fmt.Fprintf(o.s.Out, "Added the %s reading to %s (%s): density altitude %s, %s, %.0f %% RH.\n",
 		r.Time.Format("15:04"), e.Name(event.WeatherFile), engine.Plural(n, "reading"), a.DensityAltitude.Format(u.Length), r.Temp.Format(u.Temp, 1), a.RH*100)
 	return nil
-}
-
-// parseWhen reads "21:40" (on the date of ref) or "2026-06-13 21:40".
-func parseWhen(s string, ref time.Time) (time.Time, error) {
-	s = strings.TrimSpace(s)
-	if d, c, ok := strings.Cut(s, " "); ok {
-		t, err := weather.ParseDateTime(d, c, ref.Location())
-		return t, flagErr(err, "--time")
-	}
-	t, err := weather.ParseClock(s, ref, ref.Location())
-	return t, flagErr(err, "--time")
 }
 
 type weatherListOptions struct {
@@ -265,7 +254,7 @@ func weatherForecastRun(cmd *cobra.Command, o *weatherForecastOptions) error {
 	trk, _ := e.Track()
 	f, err := weather.ForecastAt(log, when, elev)
 	if err != nil {
-		return flagErr(err, "--at")
+		return event.FlagErr(err, "--at")
 	}
 	if o.Format == "json" {
 		return writeJSON(o.s.Out, forecastJSON{
@@ -303,9 +292,9 @@ func weatherForecastRun(cmd *cobra.Command, o *weatherForecastOptions) error {
 // or the next day when that is more than 12 hours before it (a round called
 // after midnight).
 func callTime(s string, last time.Time) (time.Time, error) {
-	t, err := parseWhen(s, last)
+	t, err := event.ParseWhen(s, last)
 	if err != nil {
-		return t, flagErr(err, "--at")
+		return t, event.FlagErr(err, "--at")
 	}
 	if !strings.Contains(strings.TrimSpace(s), " ") && last.Sub(t) > 12*time.Hour {
 		t = t.AddDate(0, 0, 1)

@@ -1,0 +1,527 @@
+package event
+
+import (
+	"errors"
+	"fmt"
+	"strconv"
+	"strings"
+	"time"
+
+	"github.com/shopspring/decimal"
+
+	"pitcard/engine"
+	"pitcard/prep"
+	"pitcard/scripts"
+	"pitcard/weather"
+)
+
+// A round gathered from what a crew typed: the fields of a reading, of the
+// round and of the other lane, as text (a flag's value, a form's field),
+// parsed here so that every front end checks them alike and names the
+// field (as "--temp": the command line's name, which the pit page shows
+// beside its own field) in its messages.
+
+// ReadingFields are one weather reading as typed.
+type ReadingFields struct {
+	Temp, Baro, BaroKind, Humidity, DewPoint, Elevation, Wind, WindFrom, TrackTemp string
+}
+
+// OpponentFields are what is known of the other lane, and of our driver's
+// reaction times, as typed; each blank takes its setting.
+type OpponentFields struct {
+	Margin, SD, RTMean, RTSD string
+	ETs, RTs                 []string
+	OurRTMean, OurRTSD       string
+}
+
+// RoundRequest is a round as asked for: which session and lane, the call
+// time (At), the opponent, the air's fields, the prep and the weight.
+type RoundRequest struct {
+	Reading      ReadingFields
+	At           string
+	Round, Lane  string
+	OpponentDial string
+	Prep, Weight string
+	// Unsaved is a reading that could not be written (a full disk): the
+	// round's card still uses it.
+	Unsaved  *weather.Reading
+	Opponent OpponentFields
+}
+
+// isBadInput reports whether err is the crew's to fix.
+func isBadInput(err error) bool {
+	var b interface{ BadInput() bool }
+	return errors.As(err, &b) && b.BadInput()
+}
+
+// given reports whether any reading flag was set.
+func (f *ReadingFields) Given() bool {
+	return f.Temp != "" || f.Baro != "" || f.BaroKind != "" || f.Humidity != "" || f.DewPoint != "" ||
+		f.Wind != "" || f.WindFrom != "" || f.TrackTemp != ""
+}
+
+// elevation is --elevation, or the track's.
+func (f *ReadingFields) SiteElevation(u weather.Units, track weather.Length, haveTrack bool) (weather.Length, error) {
+	if f.Elevation == "" {
+		if !haveTrack {
+			return 0, userErrf("the track elevation is unknown: give --elevation (e.g. --elevation 2240ft) or write track.yaml")
+		}
+		return track, nil
+	}
+	h, err := weather.ParseLength(f.Elevation, u.Length)
+	return h, FlagErr(err, "--elevation")
+}
+
+// reading builds a reading from the flags at time now. With base (the latest
+// logged reading, say) the flags given replace its fields; without it temp,
+// baro and humidity (or dew point) are required.
+func (f *ReadingFields) ReadingAt(u weather.Units, now time.Time, base *weather.Reading) (weather.Reading, error) {
+	var r weather.Reading
+	if base != nil {
+		r = *base
+	} else {
+		for _, req := range []struct{ name, v string }{{"--temp", f.Temp}, {"--baro", f.Baro}} {
+			if req.v == "" {
+				return r, userErrf("%s is required (or use --latest for the weather log's last reading)", req.name)
+			}
+		}
+		if f.Humidity == "" && f.DewPoint == "" {
+			return r, userErrf("--humidity or --dewpoint is required (or use --latest for the weather log's last reading)")
+		}
+		r.Time = now
+	}
+	var err error
+	if f.Temp != "" {
+		if r.Temp, err = weather.ParseTemperature(f.Temp, u.Temp); err != nil {
+			return r, FlagErr(err, "--temp")
+		}
+	}
+	if f.Baro != "" {
+		if r.Baro, err = weather.ParsePressure(f.Baro, u.Pressure); err != nil {
+			return r, FlagErr(err, "--baro")
+		}
+		r.BaroKind = weather.StationPressure
+	}
+	if f.BaroKind != "" {
+		if r.BaroKind, err = weather.ParsePressureKind(f.BaroKind); err != nil {
+			return r, FlagErr(err, "--baro-kind")
+		}
+	}
+	if f.Humidity != "" && f.DewPoint != "" {
+		return r, userErrf("give --humidity or --dewpoint, not both")
+	}
+	if f.Humidity != "" {
+		if r.RH, err = weather.ParsePercent(f.Humidity); err != nil {
+			return r, FlagErr(err, "--humidity")
+		}
+		r.DewPointSet = false
+	}
+	if f.DewPoint != "" {
+		if r.DewPoint, err = weather.ParseTemperature(f.DewPoint, u.Temp); err != nil {
+			return r, FlagErr(err, "--dewpoint")
+		}
+		r.DewPointSet = true
+	}
+	if f.Wind != "" {
+		if r.Wind, err = weather.ParseSpeed(f.Wind, u.Speed); err != nil {
+			return r, FlagErr(err, "--wind")
+		}
+	}
+	if f.WindFrom != "" {
+		if r.WindFrom, err = weather.ParseDirection(f.WindFrom); err != nil {
+			return r, FlagErr(err, "--wind-from")
+		}
+		r.WindDirUnknown = false
+	} else if f.Wind != "" && base == nil && r.Wind > 0 {
+		r.WindDirUnknown = true // a speed without a direction: neither head- nor tailwind
+	}
+	if f.TrackTemp != "" {
+		if r.TrackTemp, err = weather.ParseTemperature(f.TrackTemp, u.Temp); err != nil {
+			return r, FlagErr(err, "--track-temp")
+		}
+		r.HasTrack = true
+	}
+	return r, nil
+}
+
+// flagErr names the flag in an InputError from a parser.
+func FlagErr(err error, flag string) error {
+	var ie *weather.InputError
+	if errors.As(err, &ie) {
+		return ie.Named(flag)
+	}
+	return err
+}
+
+// validateFlags checks a reading and names the flags in its error.
+func ValidateFields(r weather.Reading, h weather.Length) error {
+	err := r.Validate(h)
+	var ie *weather.InputError
+	if errors.As(err, &ie) {
+		return ie.Named("--" + ie.Field)
+	}
+	return err
+}
+
+// prepLevel is --prep, or the track's usual prep.
+func PrepLevel(flag string, trk engine.Track) (float64, error) {
+	if flag != "" {
+		p, err := engine.ParsePrep(flag)
+		return p, FlagErr(err, "--prep")
+	}
+	p, err := engine.ParsePrep(trk.Prep)
+	if err != nil {
+		return 1, fmt.Errorf("track.yaml: %w", err)
+	}
+	return p, nil
+}
+
+// parseWhen reads "21:40" (on the date of ref) or "2026-06-13 21:40".
+func ParseWhen(s string, ref time.Time) (time.Time, error) {
+	s = strings.TrimSpace(s)
+	if d, c, ok := strings.Cut(s, " "); ok {
+		t, err := weather.ParseDateTime(d, c, ref.Location())
+		return t, FlagErr(err, "--time")
+	}
+	t, err := weather.ParseClock(s, ref, ref.Location())
+	return t, FlagErr(err, "--time")
+}
+
+// seconds reads a flag's time in seconds within lo..hi.
+func Seconds(flag, v string, lo, hi float64) (float64, error) {
+	x, err := strconv.ParseFloat(strings.TrimSpace(v), 64)
+	if err != nil || !(x >= lo && x <= hi) {
+		return 0, &weather.InputError{Field: flag, Value: v, Reason: fmt.Sprintf("is not a time in seconds within %g..%g", lo, hi)}
+	}
+	return x, nil
+}
+
+// build turns the flags, the settings and the logbook into the other lane
+// and our driver's reaction times; nil when the opponent's dial is unknown.
+func (o *OpponentFields) Build(s Settings, dial decimal.NullDecimal, passes []engine.Pass) (*engine.Opponent, engine.RTModel, error) {
+	var logged []float64 // our reaction times, most recent first
+	for i := len(passes) - 1; i >= 0; i-- {
+		if p := passes[i]; p.RT.Valid && !engine.Aborted(p.Notes) {
+			logged = append(logged, p.RT.Decimal.InexactFloat64())
+		}
+	}
+	us := engine.NewRTModel(logged, s.RTMean, s.RTSD)
+	if o.OurRTMean != "" || o.OurRTSD != "" {
+		us = engine.RTModel{Mean: s.RTMean, SD: s.RTSD}
+		var err error
+		if o.OurRTMean != "" {
+			if us.Mean, err = Seconds("--rt-mean", o.OurRTMean, -1, 2); err != nil {
+				return nil, us, err
+			}
+		}
+		if o.OurRTSD != "" {
+			if us.SD, err = Seconds("--rt-sd", o.OurRTSD, 0.001, 1); err != nil {
+				return nil, us, err
+			}
+		}
+	}
+	if !dial.Valid {
+		return nil, us, nil
+	}
+	opp := &engine.Opponent{Dial: dial.Decimal, Margin: s.OppMargin, MarginSD: s.OppMarginSD, RT: engine.RTModel{Mean: s.OppRTMean, SD: s.OppRTSD}}
+	list := func(flag string, vs []string, lo, hi float64) ([]float64, error) {
+		var out []float64
+		for _, v := range vs {
+			x, err := Seconds(flag, v, lo, hi)
+			if err != nil {
+				return nil, err
+			}
+			out = append(out, x)
+		}
+		return out, nil
+	}
+	ets, err := list("--opponent-et", o.ETs, engine.DialRange[0], engine.DialRange[1])
+	if err != nil {
+		return nil, us, err
+	}
+	if len(ets) > 0 { // what its slips showed: their margin over its dial
+		d := dial.Decimal.InexactFloat64()
+		for i := range ets {
+			ets[i] -= d
+		}
+		m, sd := engine.MeanSD(ets)
+		opp.Margin = m
+		if len(ets) >= 3 {
+			opp.MarginSD = sd
+		}
+	}
+	rts, err := list("--opponent-rt", o.RTs, engine.RTRange[0], engine.RTRange[1])
+	if err != nil {
+		return nil, us, err
+	}
+	if len(rts) > 0 {
+		opp.RT = engine.NewRTModel(rts, opp.RT.Mean, opp.RT.SD)
+		if len(rts) < engine.MinRTSamples {
+			m, sd := engine.MeanSD(rts)
+			opp.RT.Mean = m
+			if len(rts) >= 3 {
+				opp.RT.SD = sd
+			}
+		}
+	}
+	for _, f := range []struct {
+		flag string
+		v    string
+		dst  *float64
+		lo   float64
+		hi   float64
+	}{{"--opponent-margin", o.Margin, &opp.Margin, -1, 2}, {"--opponent-sd", o.SD, &opp.MarginSD, 0.001, 1},
+		{"--opponent-rt-mean", o.RTMean, &opp.RT.Mean, -1, 2}, {"--opponent-rt-sd", o.RTSD, &opp.RT.SD, 0.001, 1}} {
+		if f.v == "" {
+			continue
+		}
+		x, err := Seconds(f.flag, f.v, f.lo, f.hi)
+		if err != nil {
+			return nil, us, err
+		}
+		*f.dst = x
+		if f.flag == "--opponent-rt-mean" || f.flag == "--opponent-rt-sd" {
+			opp.RT.Samples = nil
+		}
+	}
+	return opp, us, nil
+}
+
+// roundInput gathers everything a round's card is made from. Problems that
+// leave part of the card blank (no weather log, a forecast too far ahead)
+// come back as warnings, not errors: the card still prints what it can.
+func (e *Folder) GatherRound(r RoundRequest, now time.Time) (prep.Input, []string, error) {
+	var in prep.Input
+	var warnings []string
+	// A broken car.yaml or logbook.csv does not stop the card: it prints
+	// what it can (the air, the rules, the checklist, the cautions) and
+	// says what is wrong; the command then exits 2.
+	var broken []error
+	car, err := e.Car()
+	if err != nil {
+		if !isBadInput(err) {
+			return in, nil, err
+		}
+		broken = append(broken, err)
+	}
+	trk, err := e.Track()
+	if err != nil {
+		return in, nil, err
+	}
+	passes, err := e.RecentLogbook()
+	switch {
+	case OnlyLeftOut(err) && err != nil: // the good rows are used, the bad ones named
+		broken = append(broken, err)
+	case err != nil && !isBadInput(err):
+		return in, nil, err
+	case err != nil: // a header pitcard cannot read: no passes at all
+		broken = append(broken, err)
+		passes = nil
+	}
+	tracks, err := e.OtherTracks()
+	if err != nil {
+		return in, nil, err
+	}
+	sched, haveSched, err := e.Schedule()
+	switch {
+	case err != nil && r.Round != "" && isBadInput(err):
+		// the round is given: a broken schedule costs only its call time
+		broken = append(broken, err)
+		sched, haveSched = prep.Schedule{}, false
+	case err != nil:
+		return in, nil, err
+	}
+	elev, err := r.Reading.SiteElevation(e.Settings.Units, trk.Elevation(), true)
+	if err != nil {
+		return in, nil, err
+	}
+	log, err := e.WeatherLog(elev)
+	if err != nil {
+		return in, nil, err
+	}
+	now, sched, warnings = e.ClockFor(sched, haveSched, log, now)
+	if r.Unsaved != nil { // a reading the disk refused: the card still uses it
+		log = append(log, *r.Unsaved)
+		SortReadings(log)
+	}
+
+	// The session and its slot in the schedule.
+	var slot prep.Slot
+	haveSlot := false
+	switch {
+	case r.Round != "":
+		ses, err := engine.ParseSession(r.Round)
+		if err != nil {
+			return in, nil, FlagErr(err, "--round")
+		}
+		slot.Session = ses
+		if s, ok := sched.Find(ses); ok {
+			slot, haveSlot = s, true
+		}
+	case haveSched:
+		if s, ok := sched.Next(passes); ok {
+			slot, haveSlot = s, true
+		} else {
+			return in, nil, userErrf("every session of %s has a pass in the logbook: give --round for another", e.Name(ScheduleFile))
+		}
+	default:
+		return in, nil, userErrf("which round? give --round (3, E3, T2 ...), or write %s with the day's call times", ScheduleFile)
+	}
+
+	// The call time: --at, the schedule's, or now.
+	day := now
+	switch {
+	case haveSched:
+		day = sched.Date
+	case len(log) > 0:
+		day = log[len(log)-1].Time
+	}
+	call := now
+	switch {
+	case r.At != "":
+		t, err := ParseWhen(r.At, day)
+		if err != nil {
+			return in, nil, FlagErr(err, "--at")
+		}
+		call = t
+	case haveSlot:
+		call = slot.Call
+	}
+
+	// The lane.
+	lane := slot.Lane
+	if r.Lane != "" {
+		if lane, err = engine.ParseLane(r.Lane); err != nil {
+			return in, nil, FlagErr(err, "--lane")
+		}
+	}
+	var opp decimal.NullDecimal
+	if r.OpponentDial != "" {
+		d, err := engine.ParseSeconds("--opponent-dial", r.OpponentDial)
+		if err != nil {
+			return in, nil, err
+		}
+		if err := RangeErr("--opponent-dial", d, engine.DialRange); err != nil {
+			return in, nil, err
+		}
+		opp = decimal.NewNullDecimal(d)
+	}
+
+	// The air at the call: the log's forecast (flags replace its fields), or the flags alone.
+	var air weather.Reading
+	var source string
+	var airNow *weather.Reading
+	var forecast *weather.Forecast
+	// Only the call's day's readings forecast its air.
+	var dayLog []weather.Reading
+	for _, r := range log {
+		if r.Time.Format("2006-01-02") == call.Format("2006-01-02") {
+			dayLog = append(dayLog, r)
+		}
+	}
+	if len(dayLog) == 0 && len(log) > 0 {
+		warnings = append(warnings, fmt.Sprintf("no weather reading on %s: the air is the last reading, of %s; take a fresh one",
+			call.Format("2006-01-02"), log[len(log)-1].Time.Format("2006-01-02 15:04")))
+		dayLog = log[len(log)-1:]
+	}
+	log = dayLog
+	switch {
+	case len(log) > 0:
+		last := log[len(log)-1]
+		airNow = &last
+		base := last
+		source = "the " + last.Time.Format("15:04") + " reading"
+		if f, err := weather.ForecastAt(log, call, elev); err == nil {
+			forecast = &f
+			base = f.Reading
+			source = "forecast for " + call.Format("15:04") + ": " + strings.Join(f.Notes, "; ")
+			if !f.Trusted {
+				warnings = append(warnings, "the weather forecast is not to be trusted: "+strings.Join(f.Notes, "; "))
+			}
+		} else {
+			warnings = append(warnings, fmt.Sprintf("no forecast for the %s call (%v): the air is the %s reading", call.Format("15:04"), err, last.Time.Format("15:04")))
+		}
+		if air, err = r.Reading.ReadingAt(e.Settings.Units, call, &base); err != nil {
+			return in, nil, err
+		}
+		if r.Reading.Given() {
+			source += ", with the flags given"
+		}
+	case r.Reading.Given():
+		if air, err = r.Reading.ReadingAt(e.Settings.Units, call, nil); err != nil {
+			return in, nil, err
+		}
+		source = "the reading flags"
+	default:
+		return in, nil, userErrf("no air for the round: %s has no readings; add one with 'pitcard weather add' or give --temp, --baro and --humidity",
+			e.Name(WeatherFile))
+	}
+	if err := ValidateFields(air, elev); err != nil {
+		return in, nil, err
+	}
+	if w := air.PressureWarning(elev); w != "" {
+		warnings = append(warnings, w)
+	}
+	air.Time = call
+	prepLvl, err := PrepLevel(r.Prep, trk)
+	if err != nil {
+		return in, nil, err
+	}
+	weight := 0.0
+	if r.Weight != "" {
+		if _, err := fmt.Sscanf(r.Weight, "%g", &weight); err != nil || weight < 500 || weight > 10000 {
+			return in, nil, &weather.InputError{Field: "--weight", Value: r.Weight, Reason: "is outside 500..10000 lb"}
+		}
+	}
+	opponent, usRT, err := r.Opponent.Build(e.Settings, opp, passes)
+	if err != nil {
+		return in, nil, err
+	}
+	rules, err := scripts.Load(e.FS, e.Settings.RuleLimits)
+	if err != nil {
+		return in, nil, err
+	}
+	in = prep.Input{
+		Car: car, Track: trk, Tracks: tracks, Passes: passes,
+		Settings: prep.Settings{Units: e.Settings.Units, DialStep: e.Settings.DialStep, BreakoutRisk: e.Settings.BreakoutRisk,
+			MaxRuleAdjust: e.Settings.MaxAdjust, RuleLimits: e.Settings.RuleLimits, MaxReadingAge: e.Settings.MaxReadingAge},
+		Session: slot.Session, Lane: lane, OpponentDial: opp, Opponent: opponent, UsRT: usRT, PostBestForWin: e.Settings.PostBestForWin, Call: call, Now: now,
+		Air: air, AirSource: source, AirNow: airNow, Forecast: forecast, Elevation: elev, Prep: prepLvl, WeightLb: weight,
+		Rules: rules, RulesFS: e.FS,
+	}
+	for _, b := range broken {
+		in.Problems = append(in.Problems, b.Error())
+	}
+	in.Problems = append(in.Problems, car.Warnings...)
+	if len(broken) > 0 {
+		return in, warnings, BrokenInput{broken}
+	}
+	return in, warnings, nil
+}
+
+// BrokenInput is bad input the card could print around: the input is
+// usable, and the errors are reported after the card.
+type BrokenInput struct{ errs []error }
+
+func (b BrokenInput) Error() string {
+	msgs := make([]string, len(b.errs))
+	for i, e := range b.errs {
+		msgs[i] = e.Error()
+	}
+	return strings.Join(msgs, "\n")
+}
+
+func (b BrokenInput) BadInput() bool { return true }
+
+// usable reports whether roundInput's error still left an input to gather.
+func Usable(err error) bool {
+	var b BrokenInput
+	return err == nil || errors.As(err, &b)
+}
+
+func RangeErr(field string, d decimal.Decimal, r [2]float64) error {
+	if f := d.InexactFloat64(); f < r[0] || f > r[1] {
+		return &weather.InputError{Field: field, Value: d.String(), Reason: fmt.Sprintf("is outside %g..%g s", r[0], r[1])}
+	}
+	return nil
+}
