@@ -347,7 +347,8 @@ func dayStructure(ss []Sample, res func(Sample) (float64, bool), pri residualPri
 	}
 	var sxy, sxx, within, hsum float64
 	n := 0
-	for _, os := range byDay {
+	means := map[string][2]float64{} // each day's mean residual and hours
+	for k, os := range byDay {
 		var mr, mh float64
 		for _, o := range os {
 			mr += o.r
@@ -355,6 +356,7 @@ func dayStructure(ss []Sample, res func(Sample) (float64, bool), pri residualPri
 		}
 		mr /= float64(len(os))
 		mh /= float64(len(os))
+		means[k] = [2]float64{mr, mh}
 		for _, o := range os {
 			sxy += (o.h - mh) * (o.r - mr)
 			sxx += sq(o.h - mh)
@@ -363,19 +365,13 @@ func dayStructure(ss []Sample, res func(Sample) (float64, bool), pri residualPri
 		n += len(os) - 1
 	}
 	sigma2 := sq(pri.Sigma)
-	for range 2 {
+	for range 2 { // the slope's shrinkage needs σ², σ² needs the slope
 		d.slope = sxy / (sxx + sigma2/sq(pri.Slope))
 		within = 0
-		for _, os := range byDay {
-			var mr, mh float64
+		for k, os := range byDay {
+			m := means[k]
 			for _, o := range os {
-				mr += o.r
-				mh += o.h
-			}
-			mr /= float64(len(os))
-			mh /= float64(len(os))
-			for _, o := range os {
-				within += sq(o.r - mr - d.slope*(o.h-mh))
+				within += sq(o.r - m[0] - d.slope*(o.h-m[1]))
 			}
 		}
 		sigma2 = math.Max((within+3*sq(pri.Sigma))/float64(n+3), sq(pri.MinSigma))

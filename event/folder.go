@@ -136,7 +136,10 @@ func (e *Folder) Car() (engine.Car, error) {
 
 // LogbookFile reads the folder's logbook.csv (none yet: an empty logbook),
 // keeping its bad rows aside. Its name is how messages call it.
-func (e *Folder) LogbookFile() (*engine.Logbook, string, error) {
+func (e *Folder) LogbookFile() (*engine.Logbook, string, error) { return e.readLogbook(0) }
+
+// readLogbook reads the logbook keeping its latest keep passes (0: all).
+func (e *Folder) readLogbook(keep int) (*engine.Logbook, string, error) {
 	f, name, err := e.OpenFile(LogbookFile, e.LogbookPath)
 	if errors.Is(err, fs.ErrNotExist) {
 		return &engine.Logbook{}, name, nil
@@ -145,7 +148,7 @@ func (e *Folder) LogbookFile() (*engine.Logbook, string, error) {
 		return nil, name, err
 	}
 	defer f.Close()
-	lb, err := engine.ReadLogbookFile(f, name, time.Local)
+	lb, err := engine.ReadLogbookRecent(f, name, time.Local, keep)
 	return lb, name, err
 }
 
@@ -164,15 +167,7 @@ func (e *Folder) RecentLogbook() ([]engine.Pass, error) { return e.readPasses(Re
 func (e *Folder) Logbook() ([]engine.Pass, error) { return e.readPasses(0) }
 
 func (e *Folder) readPasses(keep int) ([]engine.Pass, error) {
-	f, name, err := e.OpenFile(LogbookFile, e.LogbookPath)
-	if errors.Is(err, fs.ErrNotExist) {
-		return nil, nil
-	}
-	if err != nil {
-		return nil, err
-	}
-	defer f.Close()
-	lb, err := engine.ReadLogbookRecent(f, name, time.Local, keep)
+	lb, name, err := e.readLogbook(keep)
 	if err != nil {
 		return nil, err
 	}

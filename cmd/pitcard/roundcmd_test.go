@@ -1,19 +1,15 @@
 package main
 
 import (
-	"bytes"
 	"encoding/json"
 	"strings"
 	"testing"
-	"time"
 )
 
+// pitcardIn runs a command with stdin, the clock at fixedNow.
 func pitcardIn(t *testing.T, stdin string, args ...string) (string, string, int) {
 	t.Helper()
-	var out, errb bytes.Buffer
-	s := &IOStreams{In: strings.NewReader(stdin), Out: &out, Err: &errb, Now: func() time.Time { return fixedNow }}
-	code := run(args, s)
-	return out.String(), errb.String(), code
+	return pitcardAt(t, fixedNow, stdin, args...)
 }
 
 // The guided round, fed on standard input as a pipe would: Enter keeps the
