@@ -167,12 +167,12 @@ func newAirReport(r weather.Reading, elev weather.Length, heading float64, haveH
 		Time:                  r.Time.Format(time.RFC3339),
 		TempF:                 round(r.Temp.Fahrenheit(), 1),
 		HumidityPct:           round(a.RH*100, 1),
-		AltimeterSettingInHg:  optFloat(a.Altimeter.InHg(), true, 3),
+		AltimeterSettingInHg:  event.OptFloat(a.Altimeter.InHg(), true, 3),
 		SaturationPressureHPa: round(a.Saturation.HPa(), 2),
 		DryAirPressureHPa:     round(a.Dry.HPa(), 2),
-		ElevationFt:           optFloat(elev.Feet(), true, 0),
+		ElevationFt:           event.OptFloat(elev.Feet(), true, 0),
 		WindMph:               round(r.Wind.MPH(), 1),
-		WindFromDeg:           optFloat(r.WindFrom, !r.WindDirUnknown, 0),
+		WindFromDeg:           event.OptFloat(r.WindFrom, !r.WindDirUnknown, 0),
 		Warnings:              []string{},
 	}
 	if haveHeading {

@@ -3,7 +3,6 @@ package main
 import (
 	"bytes"
 	"fmt"
-	"time"
 
 	"github.com/spf13/cobra"
 
@@ -55,9 +54,7 @@ func cardRun(cmd *cobra.Command, o *cardOptions) error {
 		return err
 	}
 	now := o.s.Now()
-	if e.Demo {
-		now = demoClock(e, now)
-	}
+	now = e.DemoClock(now)
 	in, warnings, err := e.GatherRound(o.round.request(), now)
 	if !event.Usable(err) {
 		return err
@@ -96,18 +93,4 @@ func cardRun(cmd *cobra.Command, o *cardOptions) error {
 		return err
 	}
 	return broken
-}
-
-// demoClock is the demo's "now": the demo day's last weather reading, so the
-// demo card reads the same on any day.
-func demoClock(e *eventFolder, now time.Time) time.Time {
-	trk, err := e.Track()
-	if err != nil {
-		return now
-	}
-	log, err := e.WeatherLog(trk.Elevation())
-	if err != nil || len(log) == 0 {
-		return now
-	}
-	return log[len(log)-1].Time
 }

@@ -3,7 +3,6 @@ package main
 import (
 	"errors"
 	"fmt"
-	"math"
 	"os"
 	"strings"
 	"time"
@@ -94,119 +93,28 @@ func logAddRun(cmd *cobra.Command, o *logAddOptions) error {
 	if err != nil {
 		return err
 	}
-	if err := e.Writable(); err != nil {
-		return err
-	}
-	trk, trkErr := e.Track()
-	now := o.s.Now()
-	date, clock := o.Date, o.Time
-	if date == "" {
-		date = now.Format(weather.DateLayout)
-	}
-	if clock == "" {
-		clock = now.Format(weather.TimeLayout)
-	}
-	track := o.Track
-	if track == "" {
-		if trkErr != nil {
-			return trkErr
-		}
-		track = trk.Name
-	}
-	weight := o.Weight
-	if weight == "" {
-		if car, err := e.Car(); err == nil {
-			weight = fmt.Sprint(car.WeightLb)
-		}
-	}
-	f := engine.SlipFields{Values: map[string]string{
-		"date": date, "time": clock, "track": track, "session": o.Session, "lane": o.Lane,
-		"dial": o.Dial, "rt": o.RT, "et60": o.ET60, "et330": o.ET330, "et660": o.ET660, "et1000": o.ET1000, "et1320": o.ET1,
-		"mph660": o.MPH660, "mph1320": o.MPH1320, "weight_lb": weight, "notes": o.Notes,
-	}, Names: map[string]string{}}
-	for c := range f.Values {
-		f.Names[c] = "--" + strings.ReplaceAll(strings.TrimSuffix(c, "_lb"), "_", "-")
-	}
-	f.Names["date"], f.Names["time"] = "--date", "--time"
-	if o.Session == "" || o.Lane == "" {
-		return userErrf("--session and --lane are required (e.g. --session E1 --lane left)")
-	}
-	p, err := engine.ParsePass(f, time.Local)
+	lp, err := e.AddPass(event.NewPass{
+		Date: o.Date, Time: o.Time, Track: o.Track, Session: o.Session, Lane: o.Lane, Dial: o.Dial, RT: o.RT,
+		Weight: o.Weight, Notes: o.Notes, ET60: o.ET60, ET330: o.ET330, ET660: o.ET660, ET1000: o.ET1000, ET1: o.ET1,
+		MPH660: o.MPH660, MPH1320: o.MPH1320, Reading: o.reading.ReadingFields,
+		OppDial: o.OppDial, OppRT: o.OppRT, OppET: o.OppET,
+	}, o.s.Now())
 	if err != nil {
 		return err
 	}
-	// A slip is logged after its pass: a date past tomorrow is a typo
-	// (2500 for 2025), and would borrow another day's weather.
-	if limit := now.Add(36 * time.Hour); p.Time.After(limit) {
-		return &weather.InputError{Field: "--date", Value: o.Date,
-			Reason: fmt.Sprintf("is in the future (today is %s): a slip is logged after its pass", now.Format("2006-01-02"))}
-	}
-	// The conditions: the nearest weather reading, with any flag given replacing its field.
-	elev := trk.Elevation()
-	if o.reading.Elevation != "" {
-		if elev, err = o.reading.SiteElevation(e.Settings.Units, 0, false); err != nil {
-			return err
-		}
-	}
-	var base *weather.Reading
-	source := ""
-	if log, err := e.WeatherLog(elev); err != nil {
-		return err
-	} else if r, ok := nearestReading(log, p.Time, time.Hour); ok {
-		base, source = &r, "the weather log's "+r.Time.Format("15:04")+" reading"
-	} else if len(log) > 0 && sameDate(log[len(log)-1].Time, p.Time) {
-		// No reading within the hour, but the day's trend reaches the pass.
-		if f, err := weather.ForecastAt(log, p.Time, elev); err == nil && f.Trusted {
-			base, source = &f.Reading, "the weather log's trend ("+strings.Join(f.Notes, "; ")+")"
-		}
-	}
-	if base != nil || o.reading.Given() {
-		r, err := o.reading.ReadingAt(e.Settings.Units, p.Time, base)
-		if err != nil {
-			return err
-		}
-		if err := event.ValidateFields(r, elev); err != nil {
-			return err
-		}
-		a := r.Derive(elev)
-		r.Baro, r.BaroKind, r.RH, r.DewPointSet, r.Time = a.Station, weather.StationPressure, a.RH, false, p.Time
-		p.Air, p.HasAir = r, true
-		if source == "" {
-			source = "the flags"
-		} else if o.reading.Given() {
-			source += ", with the flags given"
-		}
-	}
-	decided := "" // the other lane's slip, checked before anything is written
-	if o.OppDial != "" || o.OppRT != "" || o.OppET != "" {
-		if decided, err = decidedBy(p, o.OppDial, o.OppRT, o.OppET, e.Settings); err != nil {
-			return err
-		}
-	}
-	n, kept, err := e.SaveLogbook([]engine.Pass{p})
-	if err != nil {
-		return err
-	}
-	defer func() {
-		if decided != "" {
-			fmt.Fprintln(o.s.Out, prep.Wrap(decided, o.s.width(), "  "))
-		}
-	}()
-	if w := engine.DialWarning(p); w != "" {
+	for _, w := range lp.Warnings {
 		fmt.Fprintln(o.s.Err, "pitcard: warning:", w)
 	}
-
-	if kept != nil {
-		fmt.Fprintln(o.s.Err, "pitcard: warning:", kept)
-	}
+	p := lp.Pass
 	et, ft, _ := p.Finish()
 	fmt.Fprintf(o.s.Out, "Logged %s %s, %s lane: %s s at %.0f ft (%s in %s).\n",
-		p.Time.Format("2006-01-02 15:04"), p.Session.Long(), p.Lane, engine.FormatSeconds(et, 3), ft, engine.Plural(n, "pass"), e.Name(event.LogbookFile))
+		p.Time.Format("2006-01-02 15:04"), p.Session.Long(), p.Lane, engine.FormatSeconds(et, 3), ft, engine.Plural(lp.Count, "pass"), e.Name(event.LogbookFile))
 	if p.HasAir {
-		fmt.Fprintf(o.s.Out, "Conditions from %s: %s, density altitude %s.\n", source,
-			p.Air.Temp.Format(e.Settings.Units.Temp, 1), p.Air.Derive(elev).DensityAltitude.Format(e.Settings.Units.Length))
-	} else {
-		fmt.Fprintln(o.s.Err, "pitcard: warning: no weather reading within an hour of the pass and no reading flags: the pass is logged without its conditions, and the model cannot learn from its air")
+		fmt.Fprintf(o.s.Out, "Conditions from %s: %s, density altitude %s.\n", lp.Source,
+			p.Air.Temp.Format(e.Settings.Units.Temp, 1), p.Air.Derive(lp.Elevation).DensityAltitude.Format(e.Settings.Units.Length))
+	}
+	if lp.Decided != "" {
+		fmt.Fprintln(o.s.Out, prep.Wrap(lp.Decided, o.s.width(), "  "))
 	}
 	return nil
 }
@@ -243,23 +151,6 @@ func altimeterLooking(e *eventFolder, passes []engine.Pass, file string) string 
 	}
 	return fmt.Sprintf("%s: %s have baro_inhg figures that look like sea-level (altimeter) settings for their track's elevation (lines %s); "+
 		"the logbook holds station pressure: convert them, or the air of those passes is wrong", file, engine.Plural(len(lines), "row"), strings.Join(shown, ", "))
-}
-
-func sameDate(a, b time.Time) bool { return a.Format("2006-01-02") == b.Format("2006-01-02") }
-
-// nearestReading is the reading of log closest in time to t, within tol.
-func nearestReading(log []weather.Reading, t time.Time, tol time.Duration) (weather.Reading, bool) {
-	best, bestGap := weather.Reading{}, time.Duration(math.MaxInt64)
-	for _, r := range log {
-		gap := r.Time.Sub(t)
-		if gap < 0 {
-			gap = -gap
-		}
-		if gap < bestGap {
-			best, bestGap = r, gap
-		}
-	}
-	return best, bestGap <= tol
 }
 
 type logImportOptions struct {
@@ -355,24 +246,6 @@ func newLogListCmd(s *IOStreams, g *globalOptions) *cobra.Command {
 	return cmd
 }
 
-type passJSON struct {
-	Time     string            `json:"time"`
-	Track    string            `json:"track"`
-	Session  string            `json:"session"`
-	Lane     string            `json:"lane"`
-	Dial     *string           `json:"dial"`
-	RT       *string           `json:"rt"`
-	ET       map[string]string `json:"et"`
-	MPH      map[string]string `json:"mph"`
-	TempF    *float64          `json:"temp_f"`
-	BaroInHg *float64          `json:"baro_inhg"`
-	RHPct    *float64          `json:"humidity_pct"`
-	TrackF   *float64          `json:"track_temp_f"`
-	DAFt     *float64          `json:"density_altitude_ft"`
-	WeightLb *float64          `json:"weight_lb"`
-	Notes    string            `json:"notes"`
-}
-
 func logListRun(cmd *cobra.Command, o *logListOptions) error {
 	if err := checkFormat(o.Format, "text", "markdown", "json", "csv"); err != nil {
 		return err
@@ -396,9 +269,9 @@ func logListRun(cmd *cobra.Command, o *logListOptions) error {
 		}
 		return leftOut
 	case "json":
-		out := make([]passJSON, len(passes))
+		out := make([]event.PassJSON, len(passes))
 		for i, p := range passes {
-			out[i] = toPassJSON(p, trk)
+			out[i] = event.PassAsJSON(p, trk)
 		}
 		if err := writeJSON(o.s.Out, out); err != nil {
 			return err
@@ -419,7 +292,7 @@ func logListRun(cmd *cobra.Command, o *logListOptions) error {
 	for _, p := range passes {
 		da := ""
 		if p.HasAir {
-			da = p.Air.Derive(elevationFor(p, trk)).DensityAltitude.Format(u.Length)
+			da = p.Air.Derive(event.ElevationFor(p, trk)).DensityAltitude.Format(u.Length)
 		}
 		row := table.Row{p.Time.Format("2006-01-02"), p.Time.Format("15:04"), p.Session.String(), p.Lane, sec(p.Dial, 2), sec(p.RT, 3)}
 		for i, ft := range engine.Timers {
@@ -452,63 +325,12 @@ func alignRight(from, to int) []table.ColumnConfig {
 	return c
 }
 
-// elevationFor is the elevation of the track a pass ran at: this folder's
-// track, or sea level for another (conditions are station pressure, so the
-// density needs no elevation; only altimeter conversions would).
-func elevationFor(p engine.Pass, trk engine.Track) weather.Length {
-	if strings.EqualFold(p.Track, trk.Name) {
-		return trk.Elevation()
-	}
-	return 0
-}
-
 // sec prints a slip time with at least min decimals, or "" when not timed.
 func sec(d decimal.NullDecimal, min int) string {
 	if !d.Valid {
 		return ""
 	}
 	return engine.FormatSeconds(d.Decimal, min)
-}
-
-func optSec(d decimal.NullDecimal) *string {
-	if !d.Valid {
-		return nil
-	}
-	s := engine.FormatSeconds(d.Decimal, 0)
-	return &s
-}
-
-func optFloat(v float64, ok bool, dec int) *float64 {
-	if !ok {
-		return nil
-	}
-	r := round(v, dec)
-	return &r
-}
-
-func toPassJSON(p engine.Pass, trk engine.Track) passJSON {
-	j := passJSON{Time: p.Time.Format(time.RFC3339), Track: p.Track, Session: p.Session.String(), Lane: string(p.Lane),
-		Dial: optSec(p.Dial), RT: optSec(p.RT), ET: map[string]string{}, MPH: map[string]string{}, Notes: p.Notes}
-	for i, ft := range engine.Timers {
-		if p.ET[i].Valid {
-			j.ET[fmt.Sprintf("%.0f", ft)] = engine.FormatSeconds(p.ET[i].Decimal, 0)
-		}
-	}
-	if p.MPH660.Valid {
-		j.MPH["660"] = engine.FormatSeconds(p.MPH660.Decimal, 0)
-	}
-	if p.MPH1320.Valid {
-		j.MPH["1320"] = engine.FormatSeconds(p.MPH1320.Decimal, 0)
-	}
-	if p.HasAir {
-		j.TempF = optFloat(p.Air.Temp.Fahrenheit(), true, 2)
-		j.BaroInHg = optFloat(p.Air.Baro.InHg(), true, 3)
-		j.RHPct = optFloat(p.Air.RH*100, true, 1)
-		j.DAFt = optFloat(p.Air.Derive(elevationFor(p, trk)).DensityAltitude.Feet(), true, 0)
-	}
-	j.TrackF = optFloat(p.Air.TrackTemp.Fahrenheit(), p.Air.HasTrack, 1)
-	j.WeightLb = optFloat(p.WeightLb, p.WeightLb > 0, 1)
-	return j
 }
 
 type logStatsOptions struct {
@@ -592,10 +414,10 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 				sessions = "all"
 			}
 			out = append(out, statsJSON{Day: s.Day.Format("2006-01-02"), Sessions: sessions, Passes: s.Passes, Clean: s.Clean, FinishFt: s.Finish,
-				ETMean: optFloat(s.ETMean, s.Clean > 0, 4), ETSD: optFloat(s.ETSD, s.Clean > 1, 4),
-				ETMin: optFloat(s.ETMin, s.Clean > 0, 4), ETMax: optFloat(s.ETMax, s.Clean > 0, 4),
-				RTMean: optFloat(s.RTMean, s.RTN > 0, 4), RTSD: optFloat(s.RTSD, s.RTN > 1, 4),
-				SixtySD: optFloat(s.SixtySD, s.SixtyN > 1, 4), CorrectedSD: optFloat(s.CorrectedSD, s.CorrectedN > 1, 4), Consistency: judge(s)})
+				ETMean: event.OptFloat(s.ETMean, s.Clean > 0, 4), ETSD: event.OptFloat(s.ETSD, s.Clean > 1, 4),
+				ETMin: event.OptFloat(s.ETMin, s.Clean > 0, 4), ETMax: event.OptFloat(s.ETMax, s.Clean > 0, 4),
+				RTMean: event.OptFloat(s.RTMean, s.RTN > 0, 4), RTSD: event.OptFloat(s.RTSD, s.RTN > 1, 4),
+				SixtySD: event.OptFloat(s.SixtySD, s.SixtyN > 1, 4), CorrectedSD: event.OptFloat(s.CorrectedSD, s.CorrectedN > 1, 4), Consistency: judge(s)})
 		}
 		if err := writeJSON(o.s.Out, out); err != nil {
 			return err
@@ -637,61 +459,4 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 	}
 	fmt.Fprintln(o.s.Out, "Very consistent (≤ 0.015 s): dial it with confidence. Consistent (≤ 0.030).\nSome scatter (≤ 0.060): check the notes, tires, routine.\nInconsistent: look for lifted or spinning runs.")
 	return leftOut
-}
-
-// decidedBy says what decided a round, from our pass and the other lane's
-// slip: the reason (a red light, a breakout, the finish) and where the
-// margin came from, the package of reaction time and time over the dial in
-// each lane. The rules are Settle's.
-func decidedBy(p engine.Pass, dial, rt, et string, s settings) (string, error) {
-	if dial == "" || rt == "" || et == "" {
-		return "", userErrf("give the other lane's slip whole: --opponent-dial, --opponent-rt and --opponent-et")
-	}
-	fin, _, ok := p.Finish()
-	if !p.Dial.Valid || !p.RT.Valid || !ok {
-		return "", userErrf("what decided the round needs our dial, reaction time and ET too (--dial, --rt, --et1320)")
-	}
-	var them engine.LaneRun
-	var err error
-	for _, f := range []struct {
-		flag, v string
-		dst     *decimal.Decimal
-	}{{"--opponent-dial", dial, &them.Dial}, {"--opponent-rt", rt, &them.RT}, {"--opponent-et", et, &them.ET}} {
-		if *f.dst, err = engine.ParseSeconds(f.flag, f.v); err != nil {
-			return "", err
-		}
-	}
-	us := engine.LaneRun{Dial: p.Dial.Decimal, RT: p.RT.Decimal, ET: fin}
-	left, right := us, them
-	if p.Lane == engine.Right {
-		left, right = them, us
-	}
-	o, err := engine.Settle(left, right, engine.RaceRules{Tree: s.Tree, RTZero: engine.FromGreen})
-	if err != nil {
-		return "", err
-	}
-	ours, theirs := o.Left, o.Right
-	if p.Lane == engine.Right {
-		ours, theirs = o.Right, o.Left
-	}
-	verdict := "You won"
-	switch o.Winner {
-	case "":
-		verdict = "No winner"
-	case engine.Left, engine.Right:
-		if (o.Winner == engine.Right) != (p.Lane == engine.Right) {
-			verdict = "You lost"
-		}
-	}
-	pkg := func(x engine.LaneResult) string {
-		return fmt.Sprintf("%s reaction, %s over the dial: %s", engine.FormatSeconds(x.Reaction, 3), signedSeconds(x.OverDial), signedSeconds(x.Package))
-	}
-	return fmt.Sprintf("%s: %s (%s). Packages: yours %s; theirs %s.", verdict, o.Reason, o.Explanation, pkg(ours), pkg(theirs)), nil
-}
-
-func signedSeconds(d decimal.Decimal) string {
-	if d.IsNegative() {
-		return engine.FormatSeconds(d, 3)
-	}
-	return "+" + engine.FormatSeconds(d, 3)
 }

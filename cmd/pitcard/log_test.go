@@ -103,7 +103,7 @@ func TestLogAddTakesTheNearestReading(t *testing.T) {
 	mustRun(t, "weather", "add", "--dir", dir, "--time", "19:30", "--temp", "80F", "--baro", "28.95inHg", "--humidity", "50%", "--track-temp", "100F")
 	out := mustRun(t, "log", "add", "--dir", dir, "--time", "19:10", "--session", "E1", "--lane", "left", "--dial", "11.52",
 		"--rt", ".021", "--et60", "1.612", "--et1320", "11.538", "--mph1320", "116.79", "--track-temp", "104F")
-	if !strings.Contains(out, "19:30 reading, with the flags given") {
+	if !strings.Contains(out, "19:30 reading, with the values given") {
 		t.Errorf("log add said %q", out)
 	}
 	var passes []map[string]any

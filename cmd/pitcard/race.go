@@ -8,6 +8,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"pitcard/engine"
+	"pitcard/event"
 )
 
 type raceLane struct {
@@ -135,7 +136,7 @@ func raceRun(cmd *cobra.Command, o *raceOptions) error {
 			Finish: f(x.Finish), OverDial: f(x.OverDial), Package: f(x.Package), RedLight: x.RedLight, Breakout: x.Breakout, Foul: x.Foul}
 	}
 	j := raceJSON{Winner: string(out.Winner), Reason: out.Reason, Explanation: out.Explanation, First: string(out.First),
-		MarginS: engine.FormatSeconds(out.MarginS, 3), MarginFt: optFloat(out.MarginFt, out.HasMarginFt, 1),
+		MarginS: engine.FormatSeconds(out.MarginS, 3), MarginFt: event.OptFloat(out.MarginFt, out.HasMarginFt, 1),
 		Tree: string(rules.Tree), RTZero: string(rules.RTZero), Left: laneJSON(left, out.Left), Right: laneJSON(right, out.Right)}
 	if o.Format == "json" {
 		return writeJSON(o.s.Out, j)

@@ -31,12 +31,7 @@ recent trend to the time your round will be called.`,
 
 // siteElevation is the elevation for the folder's weather: --elevation or track.yaml.
 func siteElevation(e *eventFolder, f *readingFlags) (weather.Length, string, error) {
-	trk, err := e.Track()
-	if err != nil && f.Elevation == "" {
-		return 0, "", err
-	}
-	h, err := f.SiteElevation(e.Settings.Units, trk.Elevation(), err == nil)
-	return h, trk.Name, err
+	return e.SiteElevation(f.ReadingFields)
 }
 
 // openWeather opens the folder and its weather log at the track's elevation
@@ -92,39 +87,18 @@ func weatherAddRun(cmd *cobra.Command, o *weatherAddOptions) error {
 	if err != nil {
 		return err
 	}
-	if err := e.Writable(); err != nil {
-		return err
-	}
-	elev, _, err := siteElevation(e, &o.reading)
+	added, err := e.AddReading(event.NewReading{Fields: o.reading.ReadingFields, Time: o.Time, Notes: o.Note, Replace: o.Replace}, o.s.Now())
 	if err != nil {
 		return err
 	}
-	now := o.s.Now()
-	when := now
-	if o.Time != "" {
-		if when, err = event.ParseWhen(o.Time, now); err != nil {
-			return err
-		}
-	}
-	r, err := o.reading.ReadingAt(e.Settings.Units, when, nil)
-	if err != nil {
-		return err
-	}
-	r.Note = o.Note
-	if err := event.ValidateFields(r, elev); err != nil {
-		return err
-	}
-	if w := r.PressureWarning(elev); w != "" {
+	for _, w := range added.Warnings {
 		fmt.Fprintln(o.s.Err, "pitcard: warning:", w)
 	}
-	n, err := e.AppendReading(r, elev, o.Replace)
-	if err != nil {
-		return err
-	}
-	a := r.Derive(elev)
+	r := added.Reading
+	a := r.Derive(added.Elevation)
 	u := e.Settings.Units
 	fmt.Fprintf(o.s.Out, "Added the %s reading to %s (%s): density altitude %s, %s, %.0f %% RH.\n",
-		r.Time.Format("15:04"), e.Name(event.WeatherFile), engine.Plural(n, "reading"), a.DensityAltitude.Format(u.Length), r.Temp.Format(u.Temp, 1), a.RH*100)
+		r.Time.Format("15:04"), e.Name(event.WeatherFile), engine.Plural(added.Count, "reading"), a.DensityAltitude.Format(u.Length), r.Temp.Format(u.Temp, 1), a.RH*100)
 	return nil
 }
 

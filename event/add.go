@@ -1,0 +1,286 @@
+package event
+
+import (
+	"fmt"
+	"math"
+	"strings"
+	"time"
+
+	"github.com/shopspring/decimal"
+
+	"pitcard/engine"
+	"pitcard/weather"
+)
+
+// Writing to the folder from what a crew typed: a weather reading, a pass
+// from its slip. Both front ends call these, so a reading or a slip is
+// checked and written the same way from the command line and the page.
+
+// NewReading is one weather reading as typed.
+type NewReading struct {
+	Fields  ReadingFields
+	Time    string // "HH:MM" today or "YYYY-MM-DD HH:MM"; "" for now
+	Notes   string
+	Replace bool // replace a reading already logged in the same minute
+}
+
+// AddedReading is what AddReading wrote.
+type AddedReading struct {
+	Reading   weather.Reading
+	Elevation weather.Length
+	Count     int      // readings in the log after it
+	Warnings  []string // a barometer that looks like an altimeter setting
+}
+
+// SiteElevation is the elevation of the folder's weather: the fields'
+// elevation, or track.yaml's; and the track's name.
+func (e *Folder) SiteElevation(f ReadingFields) (weather.Length, string, error) {
+	trk, err := e.Track()
+	if err != nil && f.Elevation == "" {
+		return 0, "", err
+	}
+	h, err := f.SiteElevation(e.Settings.Units, trk.Elevation(), err == nil)
+	return h, trk.Name, err
+}
+
+// AddReading checks one reading and appends it to the weather log; nothing
+// is written when anything is wrong with it.
+func (e *Folder) AddReading(nr NewReading, now time.Time) (AddedReading, error) {
+	var out AddedReading
+	if err := e.Writable(); err != nil {
+		return out, err
+	}
+	elev, _, err := e.SiteElevation(nr.Fields)
+	if err != nil {
+		return out, err
+	}
+	when := now
+	if strings.TrimSpace(nr.Time) != "" {
+		if when, err = ParseWhen(nr.Time, now); err != nil {
+			return out, err
+		}
+	}
+	r, err := nr.Fields.ReadingAt(e.Settings.Units, when, nil)
+	if err != nil {
+		return out, err
+	}
+	r.Note = nr.Notes
+	if err := ValidateFields(r, elev); err != nil {
+		return out, err
+	}
+	if w := r.PressureWarning(elev); w != "" {
+		out.Warnings = append(out.Warnings, w)
+	}
+	n, err := e.AppendReading(r, elev, nr.Replace)
+	if err != nil {
+		return out, err
+	}
+	out.Reading, out.Elevation, out.Count = r, elev, n
+	return out, nil
+}
+
+// NewPass is one pass from its time slip, as typed. Blank date and time
+// are now's; a blank track is track.yaml's, a blank weight car.yaml's.
+type NewPass struct {
+	Date, Time, Track, Session      string
+	Lane, Dial, RT, Weight, Notes   string
+	ET60, ET330, ET660, ET1000, ET1 string
+	MPH660, MPH1320                 string
+	// Fields of the reading that replace the weather log's.
+	Reading ReadingFields
+	// The other lane's slip, when it is entered too: what decided the round.
+	OppDial, OppRT, OppET string
+}
+
+// LoggedPass is what AddPass wrote.
+type LoggedPass struct {
+	Pass      engine.Pass
+	Count     int    // passes in the logbook after it
+	Source    string // where the conditions came from; "" when none
+	Elevation weather.Length
+	Decided   string   // what decided the round, with the other lane's slip
+	Warnings  []string // worth saying, none stopping the write
+}
+
+// AddPass checks a slip, takes its conditions from the weather log (the
+// reading nearest the pass within an hour, or the day's trend; the fields
+// given replace the reading's) and appends it to the logbook. Nothing is
+// written when anything is wrong with it.
+func (e *Folder) AddPass(np NewPass, now time.Time) (LoggedPass, error) {
+	var out LoggedPass
+	if err := e.Writable(); err != nil {
+		return out, err
+	}
+	trk, trkErr := e.Track()
+	date, clock := np.Date, np.Time
+	if date == "" {
+		date = now.Format(weather.DateLayout)
+	}
+	if clock == "" {
+		clock = now.Format(weather.TimeLayout)
+	}
+	track := np.Track
+	if track == "" {
+		if trkErr != nil {
+			return out, trkErr
+		}
+		track = trk.Name
+	}
+	weight := np.Weight
+	if weight == "" {
+		if car, err := e.Car(); err == nil {
+			weight = fmt.Sprint(car.WeightLb)
+		}
+	}
+	f := engine.SlipFields{Values: map[string]string{
+		"date": date, "time": clock, "track": track, "session": np.Session, "lane": np.Lane,
+		"dial": np.Dial, "rt": np.RT, "et60": np.ET60, "et330": np.ET330, "et660": np.ET660, "et1000": np.ET1000, "et1320": np.ET1,
+		"mph660": np.MPH660, "mph1320": np.MPH1320, "weight_lb": weight, "notes": np.Notes,
+	}, Names: map[string]string{}}
+	for c := range f.Values {
+		f.Names[c] = "--" + strings.ReplaceAll(strings.TrimSuffix(c, "_lb"), "_", "-")
+	}
+	if np.Session == "" || np.Lane == "" {
+		return out, userErrf("--session and --lane are required (e.g. --session E1 --lane left)")
+	}
+	p, err := engine.ParsePass(f, time.Local)
+	if err != nil {
+		return out, err
+	}
+	// A slip is logged after its pass: a date past tomorrow is a typo
+	// (2500 for 2025), and would borrow another day's weather.
+	if limit := now.Add(36 * time.Hour); p.Time.After(limit) {
+		return out, &weather.InputError{Field: "--date", Value: np.Date,
+			Reason: fmt.Sprintf("is in the future (today is %s): a slip is logged after its pass", now.Format("2006-01-02"))}
+	}
+	// The conditions: the nearest weather reading, with any field given replacing its own.
+	elev := trk.Elevation()
+	if np.Reading.Elevation != "" {
+		if elev, err = np.Reading.SiteElevation(e.Settings.Units, 0, false); err != nil {
+			return out, err
+		}
+	}
+	var base *weather.Reading
+	source := ""
+	if log, err := e.WeatherLog(elev); err != nil {
+		return out, err
+	} else if r, ok := nearestReading(log, p.Time, time.Hour); ok {
+		base, source = &r, "the weather log's "+r.Time.Format("15:04")+" reading"
+	} else if len(log) > 0 && sameDate(log[len(log)-1].Time, p.Time) {
+		// No reading within the hour, but the day's trend reaches the pass.
+		if f, err := weather.ForecastAt(log, p.Time, elev); err == nil && f.Trusted {
+			base, source = &f.Reading, "the weather log's trend ("+strings.Join(f.Notes, "; ")+")"
+		}
+	}
+	if base != nil || np.Reading.Given() {
+		r, err := np.Reading.ReadingAt(e.Settings.Units, p.Time, base)
+		if err != nil {
+			return out, err
+		}
+		if err := ValidateFields(r, elev); err != nil {
+			return out, err
+		}
+		a := r.Derive(elev)
+		r.Baro, r.BaroKind, r.RH, r.DewPointSet, r.Time = a.Station, weather.StationPressure, a.RH, false, p.Time
+		p.Air, p.HasAir = r, true
+		if source == "" {
+			source = "the values given"
+		} else if np.Reading.Given() {
+			source += ", with the values given"
+		}
+	}
+	if np.OppDial != "" || np.OppRT != "" || np.OppET != "" {
+		if out.Decided, err = DecidedBy(p, np.OppDial, np.OppRT, np.OppET, e.Settings); err != nil {
+			return out, err
+		}
+	}
+	n, kept, err := e.SaveLogbook([]engine.Pass{p})
+	if err != nil {
+		return out, err
+	}
+	if w := engine.DialWarning(p); w != "" {
+		out.Warnings = append(out.Warnings, w)
+	}
+	if kept != nil {
+		out.Warnings = append(out.Warnings, kept.Error())
+	}
+	if !p.HasAir {
+		out.Warnings = append(out.Warnings, "no weather reading within an hour of the pass and no reading given: the pass is logged without its conditions, and the model cannot learn from its air")
+	}
+	out.Pass, out.Count, out.Source, out.Elevation = p, n, source, elev
+	return out, nil
+}
+
+func sameDate(a, b time.Time) bool { return a.Format("2006-01-02") == b.Format("2006-01-02") }
+
+// nearestReading is the reading of log closest in time to t, within tol.
+func nearestReading(log []weather.Reading, t time.Time, tol time.Duration) (weather.Reading, bool) {
+	best, bestGap := weather.Reading{}, time.Duration(math.MaxInt64)
+	for _, r := range log {
+		gap := r.Time.Sub(t)
+		if gap < 0 {
+			gap = -gap
+		}
+		if gap < bestGap {
+			best, bestGap = r, gap
+		}
+	}
+	return best, bestGap <= tol
+}
+
+// DecidedBy says what decided a round, from our pass and the other lane's
+// slip: the reason (a red light, a breakout, the finish) and where the
+// margin came from, the package of reaction time and time over the dial in
+// each lane. The rules are Settle's.
+func DecidedBy(p engine.Pass, dial, rt, et string, s Settings) (string, error) {
+	if dial == "" || rt == "" || et == "" {
+		return "", userErrf("give the other lane's slip whole: --opponent-dial, --opponent-rt and --opponent-et")
+	}
+	fin, _, ok := p.Finish()
+	if !p.Dial.Valid || !p.RT.Valid || !ok {
+		return "", userErrf("what decided the round needs our dial, reaction time and ET too (--dial, --rt, --et1320)")
+	}
+	var them engine.LaneRun
+	var err error
+	for _, f := range []struct {
+		flag, v string
+		dst     *decimal.Decimal
+	}{{"--opponent-dial", dial, &them.Dial}, {"--opponent-rt", rt, &them.RT}, {"--opponent-et", et, &them.ET}} {
+		if *f.dst, err = engine.ParseSeconds(f.flag, f.v); err != nil {
+			return "", err
+		}
+	}
+	us := engine.LaneRun{Dial: p.Dial.Decimal, RT: p.RT.Decimal, ET: fin}
+	left, right := us, them
+	if p.Lane == engine.Right {
+		left, right = them, us
+	}
+	o, err := engine.Settle(left, right, engine.RaceRules{Tree: s.Tree, RTZero: engine.FromGreen})
+	if err != nil {
+		return "", err
+	}
+	ours, theirs := o.Left, o.Right
+	if p.Lane == engine.Right {
+		ours, theirs = o.Right, o.Left
+	}
+	verdict := "You won"
+	switch o.Winner {
+	case "":
+		verdict = "No winner"
+	case engine.Left, engine.Right:
+		if (o.Winner == engine.Right) != (p.Lane == engine.Right) {
+			verdict = "You lost"
+		}
+	}
+	pkg := func(x engine.LaneResult) string {
+		return fmt.Sprintf("%s reaction, %s over the dial: %s", engine.FormatSeconds(x.Reaction, 3), signedSeconds(x.OverDial), signedSeconds(x.Package))
+	}
+	return fmt.Sprintf("%s: %s (%s). Packages: yours %s; theirs %s.", verdict, o.Reason, o.Explanation, pkg(ours), pkg(theirs)), nil
+}
+
+func signedSeconds(d decimal.Decimal) string {
+	if d.IsNegative() {
+		return engine.FormatSeconds(d, 3)
+	}
+	return "+" + engine.FormatSeconds(d, 3)
+}

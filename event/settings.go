@@ -1,0 +1,226 @@
+package event
+
+import (
+	"bytes"
+	"errors"
+	"fmt"
+	"io/fs"
+	"os"
+	"sort"
+	"strings"
+	"time"
+
+	"github.com/shopspring/decimal"
+	"github.com/spf13/viper"
+	"go.yaml.in/yaml/v3"
+
+	"pitcard/engine"
+	"pitcard/internal/yamlfile"
+	"pitcard/scripts"
+	"pitcard/weather"
+)
+
+// SettingDefaults are the keys pitcard.yaml may hold, with their defaults.
+var SettingDefaults = map[string]any{
+	"units":           "imperial",
+	"dial_step":       "0.01",
+	"breakout_risk":   0.10,
+	"tree":            "full",
+	"rt_zero":         "green",
+	"max_rule_adjust": "0.05",
+	"rule_time_ms":    200,
+	"rule_memory_mib": 64,
+	// A weather reading older than this at the card's clock is flagged.
+	"reading_max_age_min": 45,
+	// The other lane, when nothing better is known of it, and our driver's
+	// reaction time when the logbook has too few.
+	"opponent_margin":    0.02,
+	"opponent_margin_sd": 0.03,
+	"opponent_rt_mean":   0.04,
+	"opponent_rt_sd":     0.025,
+	"rt_mean":            0.04,
+	"rt_sd":              0.025,
+	// breakout-rule (the slowest dial within breakout_risk) or best-for-win
+	"post_dial": "breakout-rule",
+}
+
+// OpenOptions say which folder to open and what the front end sets over
+// its pitcard.yaml.
+type OpenOptions struct {
+	Dir  string // the event folder on disk
+	Demo bool   // the built-in demo instead (read-only)
+	// Files in place of the folder's car.yaml, track.yaml and logbook.csv.
+	CarFile, TrackFile, LogbookFile string
+	// Set are settings given by the front end (a flag: "units" for
+	// --units), over the environment and pitcard.yaml. A bad one is named
+	// as its flag, "--" and the key with dashes.
+	Set map[string]string
+}
+
+// Open opens an event folder (or the demo) and reads its settings: the
+// front end's > PITCARD_* environment > pitcard.yaml > defaults.
+func Open(o OpenOptions) (*Folder, error) {
+	e := &Folder{Demo: o.Demo, CarPath: o.CarFile, TrackPath: o.TrackFile, LogbookPath: o.LogbookFile}
+	if o.Demo {
+		e.FS = Demo(scripts.Shipped())
+	} else {
+		st, err := os.Stat(o.Dir)
+		switch {
+		case err == nil && !st.IsDir():
+			return nil, userErrf("--dir %q is a file, not an event folder: give the folder that holds car.yaml and track.yaml", o.Dir)
+		case errors.Is(err, fs.ErrNotExist):
+			return nil, userErrf("event folder %q does not exist (create one with 'pitcard init %s', or pass --dir)", o.Dir, o.Dir)
+		case err != nil:
+			return nil, fmt.Errorf("event folder %q: %w", o.Dir, err)
+		}
+		e.Dir, e.FS = o.Dir, os.DirFS(o.Dir)
+	}
+	v := viper.New()
+	for k, d := range SettingDefaults {
+		v.SetDefault(k, d)
+	}
+	v.SetEnvPrefix("PITCARD")
+	v.SetEnvKeyReplacer(strings.NewReplacer("-", "_", ".", "_"))
+	v.AutomaticEnv()
+	var settingsDoc *yamlfile.Doc
+	if data, err := fs.ReadFile(e.FS, SettingsFile); err == nil {
+		if err := CheckSettingsKeys(data, e.Name(SettingsFile)); err != nil {
+			return nil, err
+		}
+		settingsDoc, _ = yamlfile.Parse(data, e.Name(SettingsFile))
+		v.SetConfigType("yaml")
+		if err := v.ReadConfig(bytes.NewReader(data)); err != nil {
+			return nil, userErrf("%s: %v", e.Name(SettingsFile), err)
+		}
+	} else if !errors.Is(err, fs.ErrNotExist) {
+		return nil, err
+	}
+	for k, val := range o.Set {
+		v.Set(k, val)
+	}
+	// settingErr names a bad setting where it came from: the flag, the
+	// PITCARD_ variable, or pitcard.yaml's line.
+	settingErr := func(key string, err error) error {
+		var ie *weather.InputError
+		if !errors.As(err, &ie) {
+			return err
+		}
+		c := *ie
+		if _, ok := o.Set[key]; ok {
+			c.Field = "--" + strings.ReplaceAll(key, "_", "-")
+		} else if env := "PITCARD_" + strings.ToUpper(key); os.Getenv(env) != "" {
+			c.Field = env + " (setting " + key + ")"
+		} else if settingsDoc != nil && settingsDoc.Line(key) > 0 {
+			c.Field, c.File, c.Line = key, e.Name(SettingsFile), settingsDoc.Line(key)
+		}
+		return &c
+	}
+	s := &e.Settings
+	var err error
+	if s.Units, err = weather.ParseUnits(v.GetString("units")); err != nil {
+		return nil, settingErr("units", err)
+	}
+	step, err := engine.ParseSeconds("dial_step", v.GetString("dial_step"))
+	if err != nil || step.LessThan(decimal.New(1, -3)) || step.GreaterThan(decimal.New(1, -1)) {
+		return nil, settingErr("dial_step", &weather.InputError{Field: "dial_step", Value: v.GetString("dial_step"), Reason: "is outside 0.001..0.1 s"})
+	}
+	s.DialStep = step
+	s.BreakoutRisk = v.GetFloat64("breakout_risk")
+	if r := s.BreakoutRisk; !(r >= engine.RiskRange[0] && r <= engine.RiskRange[1]) {
+		return nil, settingErr("breakout_risk", &weather.InputError{Field: "breakout_risk", Value: v.GetString("breakout_risk"),
+			Reason: fmt.Sprintf("is outside %g..%g (a fraction: 0.10 accepts a 10 %% breakout chance)", engine.RiskRange[0], engine.RiskRange[1])})
+	}
+	if s.Tree, err = engine.ParseTree(v.GetString("tree")); err != nil {
+		return nil, settingErr("tree", err)
+	}
+	if s.RTZero, err = engine.ParseRTZero(v.GetString("rt_zero")); err != nil {
+		return nil, settingErr("rt_zero", err)
+	}
+	adj, err := engine.ParseSeconds("max_rule_adjust", v.GetString("max_rule_adjust"))
+	if err != nil || adj.IsNegative() || adj.GreaterThan(decimal.NewFromInt(1)) {
+		return nil, settingErr("max_rule_adjust", &weather.InputError{Field: "max_rule_adjust", Value: v.GetString("max_rule_adjust"), Reason: "is outside 0..1 s"})
+	}
+	s.MaxAdjust = adj
+	lim := scripts.DefaultLimits
+	lim.DialStep = step
+	ms, mib := v.GetInt("rule_time_ms"), v.GetInt("rule_memory_mib")
+	if ms < 10 || ms > 10000 {
+		return nil, settingErr("rule_time_ms", &weather.InputError{Field: "rule_time_ms", Value: v.GetString("rule_time_ms"), Reason: "is outside 10..10000 ms"})
+	}
+	if mib < 4 || mib > 256 {
+		return nil, settingErr("rule_memory_mib", &weather.InputError{Field: "rule_memory_mib", Value: v.GetString("rule_memory_mib"), Reason: "is outside 4..256 MiB"})
+	}
+	lim.Time, lim.Memory = time.Duration(ms)*time.Millisecond, int64(mib)<<20
+	s.RuleLimits = lim
+	age := v.GetInt("reading_max_age_min")
+	if age < 5 || age > 24*60 {
+		return nil, settingErr("reading_max_age_min", &weather.InputError{Field: "reading_max_age_min", Value: v.GetString("reading_max_age_min"), Reason: "is outside 5..1440 minutes"})
+	}
+	s.MaxReadingAge = time.Duration(age) * time.Minute
+	for _, x := range []struct {
+		key    string
+		dst    *float64
+		lo, hi float64
+	}{{"opponent_margin", &s.OppMargin, -1, 2}, {"opponent_margin_sd", &s.OppMarginSD, 0.001, 1},
+		{"opponent_rt_mean", &s.OppRTMean, -1, 2}, {"opponent_rt_sd", &s.OppRTSD, 0.001, 1},
+		{"rt_mean", &s.RTMean, -1, 2}, {"rt_sd", &s.RTSD, 0.001, 1}} {
+		*x.dst = v.GetFloat64(x.key)
+		if !(*x.dst >= x.lo && *x.dst <= x.hi) {
+			return nil, settingErr(x.key, &weather.InputError{Field: x.key, Value: v.GetString(x.key), Reason: fmt.Sprintf("is outside %g..%g s", x.lo, x.hi)})
+		}
+	}
+	switch pd := v.GetString("post_dial"); pd {
+	case "breakout-rule":
+	case "best-for-win":
+		s.PostBestForWin = true
+	default:
+		return nil, settingErr("post_dial", &weather.InputError{Field: "post_dial", Value: pd, Reason: "is not breakout-rule or best-for-win"})
+	}
+	return e, nil
+}
+
+// CheckSettingsKeys refuses keys pitcard.yaml does not know: a misspelt
+// setting would otherwise be silently ignored.
+func CheckSettingsKeys(data []byte, name string) error {
+	if _, err := yamlfile.Parse(data, name); err != nil {
+		return err
+	}
+	var doc yaml.Node
+	if err := yaml.Unmarshal(data, &doc); err != nil {
+		return userErrf("%s: %v", name, strings.TrimPrefix(err.Error(), "yaml: "))
+	}
+	if len(doc.Content) == 0 || doc.Content[0].Kind != yaml.MappingNode {
+		return nil
+	}
+	m := doc.Content[0]
+	for i := 0; i+1 < len(m.Content); i += 2 {
+		k := m.Content[i]
+		if _, ok := SettingDefaults[k.Value]; !ok {
+			known := make([]string, 0, len(SettingDefaults))
+			for key := range SettingDefaults {
+				known = append(known, key)
+			}
+			sort.Strings(known)
+			return &weather.InputError{File: name, Line: k.Line, Field: "setting", Value: k.Value,
+				Reason: "is not a pitcard setting (settings: " + strings.Join(known, ", ") + ")"}
+		}
+	}
+	return nil
+}
+
+// DemoClock is the demo's "now": the demo day's last weather reading, so
+// the demo card reads the same on any day. Other folders keep now.
+func (e *Folder) DemoClock(now time.Time) time.Time {
+	if !e.Demo {
+		return now
+	}
+	trk, err := e.Track()
+	if err != nil {
+		return now
+	}
+	log, err := e.WeatherLog(trk.Elevation())
+	if err != nil || len(log) == 0 {
+		return now
+	}
+	return log[len(log)-1].Time
+}
