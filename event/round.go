@@ -395,7 +395,16 @@ func (e *Folder) GatherRound(r RoundRequest, now time.Time) (prep.Input, []strin
 			return in, nil, FlagErr(err, "--lane")
 		}
 	}
-	var opp decimal.NullDecimal
+	// The round's notes: the other lane's dial entered earlier (on the
+	// page, say) and the checklist ticked.
+	notes, err := e.RoundNotes(call.Format(weather.DateLayout), slot.Session)
+	if err != nil {
+		if !isBadInput(err) {
+			return in, nil, err
+		}
+		broken = append(broken, err)
+	}
+	opp := notes.OpponentDial
 	if r.OpponentDial != "" {
 		d, err := engine.ParseSeconds("--opponent-dial", r.OpponentDial)
 		if err != nil {
@@ -487,7 +496,7 @@ func (e *Folder) GatherRound(r RoundRequest, now time.Time) (prep.Input, []strin
 			MaxRuleAdjust: e.Settings.MaxAdjust, RuleLimits: e.Settings.RuleLimits, MaxReadingAge: e.Settings.MaxReadingAge},
 		Session: slot.Session, Lane: lane, OpponentDial: opp, Opponent: opponent, UsRT: usRT, PostBestForWin: e.Settings.PostBestForWin, Call: call, Now: now,
 		Air: air, AirSource: source, AirNow: airNow, Forecast: forecast, Elevation: elev, Prep: prepLvl, WeightLb: weight,
-		Rules: rules, RulesFS: e.FS,
+		Rules: rules, RulesFS: e.FS, Ticked: notes.Ticked,
 	}
 	for _, b := range broken {
 		in.Problems = append(in.Problems, b.Error())

@@ -10,13 +10,35 @@ import (
 // RenderHTML writes the card as one self-contained HTML page (no network: the
 // style and the chart are inline) that prints on one Letter or A4 page.
 func RenderHTML(w io.Writer, c Card) error {
+	return cardHTML.Execute(w, htmlData(c, nil))
+}
+
+// ChecklistForm makes the card's checklist a form of boxes the crew ticks:
+// posted to Action with the round and the CSRF token; ReadOnly shows the
+// boxes without letting them change.
+type ChecklistForm struct {
+	Action, Round, CSRF string
+	ReadOnly            bool
+}
+
+// RenderHTMLBody writes the card's content alone, for a page of another
+// front end to embed: no document, no style (the page brings its own
+// stylesheet; the markup's classes are the print page's), the checklist as
+// a form when form is given.
+func RenderHTMLBody(w io.Writer, c Card, form *ChecklistForm) error {
+	return cardHTML.ExecuteTemplate(w, "body", htmlData(c, form))
+}
+
+type htmlCard struct {
+	V     view
+	Chart template.HTML
+	Sub   string
+	Form  *ChecklistForm
+}
+
+func htmlData(c Card, form *ChecklistForm) htmlCard {
 	v := newView(c)
-	data := struct {
-		V     view
-		Chart template.HTML
-		Sub   string
-	}{V: v, Chart: template.HTML(Chart(c)), Sub: strings.Join(v.Subtitle, " · ")}
-	return cardHTML.Execute(w, data)
+	return htmlCard{V: v, Chart: template.HTML(Chart(c)), Sub: strings.Join(v.Subtitle, " · "), Form: form}
 }
 
 var cardHTML = template.Must(template.New("card").Funcs(template.FuncMap{
@@ -54,16 +76,20 @@ ul.basis, ul.notes { margin: 2px 0; padding-left: 12px; }
 .cautions { border-top: 2px solid #111; margin-top: 5px; padding-top: 3px; font-weight: bold; }
 .cautions p { margin: 1px 0; }
 svg { width: 100%; height: auto; }
+.chart { flex: 1; }
+.box.ticked { font-size: 8px; line-height: 8px; text-align: center; }
 .small { color: #444; }
 </style></head><body>
-<h1>pitcard · {{.V.Title}}</h1>
+{{template "body" .}}
+</body></html>
+{{define "body"}}<h1>pitcard · {{.V.Title}}</h1>
 <p class="sub">{{.Sub}}</p>
 <div class="top">
   <div class="dial">{{if .V.Dial}}<div class="label">POST THIS DIAL-IN</div><div class="num">{{.V.Dial}}</div>
     <ul>{{range .V.DialLines}}<li>{{.}}</li>{{end}}</ul>{{if .V.DialAlert}}<p class="alert">Check: {{.V.DialAlert}}</p>{{end}}
     {{else if .V.NoDial}}<div class="label">NO DIAL YET</div><p class="alert">{{.V.NoDial}}</p>{{if .V.Guide}}<p>{{.V.Guide}}</p>{{end}}
     {{else}}<div class="label">NO DIAL</div><p class="alert">See the problems.</p>{{end}}</div>
-  <div style="flex:1">{{.Chart}}</div>
+  <div class="chart">{{.Chart}}</div>
 </div>
 {{range .V.Problems}}<p class="alert">Problem: {{.}}</p>{{end}}
 <div class="grid">
@@ -71,12 +97,15 @@ svg { width: 100%; height: auto; }
   <div>{{if .V.Prediction.Rows}}{{template "table" .V.Prediction}}<ul class="basis">{{range .V.Basis}}<li>{{.}}</li>{{end}}</ul>{{end}}</div>
   <div>{{if .V.Options.Rows}}{{template "table" .V.Options}}{{if .V.OptionsNote}}<p class="small">{{.V.OptionsNote}}</p>{{end}}{{end}}
        {{if .V.Rules.Rows}}{{template "table" .V.Rules}}{{end}}</div>
-  <div><table><caption>Checklist</caption></table><ul class="checks">{{range .V.Checks}}<li class="{{cls .Status}}">{{if eq .Status "confirm"}}<span class="box"></span>{{else}}<b>{{status .Status}}</b> {{end}}{{.Label}}{{if .Note}}: <span class="small">{{.Note}}</span>{{end}}</li>{{end}}</ul>
+  <div><table><caption>Checklist</caption></table>{{if .Form}}{{template "checkform" .}}{{else}}<ul class="checks">{{range .V.Checks}}<li class="{{cls .Status}}">{{if eq .Status "confirm"}}<span class="box{{if .Ticked}} ticked{{end}}">{{if .Ticked}}✓{{end}}</span>{{else}}<b>{{status .Status}}</b> {{end}}{{.Label}}{{if .Note}}: <span class="small">{{.Note}}</span>{{end}}{{if .Ticked}} <span class="small">(ticked {{.Ticked}})</span>{{end}}</li>{{end}}</ul>{{end}}
        {{if .V.Notes}}<table><caption>Setup notes</caption></table><ul class="notes">{{range .V.Notes}}<li>{{.}}</li>{{end}}</ul>{{end}}
        {{if .V.Record.Rows}}{{template "table" .V.Record}}<p class="small">{{.V.RecordNote}}</p>{{end}}</div>
 </div>
 <div class="cautions">{{range .V.Cautions}}<p>⚠ {{.}}</p>{{end}}</div>
-</body></html>
+{{end}}
+{{define "checkform"}}<form method="post" action="{{.Form.Action}}" class="checkform"><input type="hidden" name="csrf" value="{{.Form.CSRF}}"><input type="hidden" name="round" value="{{.Form.Round}}">
+<ul class="checks">{{$ro := .Form.ReadOnly}}{{range .V.Checks}}<li class="{{cls .Status}}"><label><input type="checkbox" name="tick" value="{{.Label}}"{{if .Ticked}} checked{{end}}{{if $ro}} disabled{{end}}> {{if ne .Status "confirm"}}<b>{{status .Status}}</b> {{end}}{{.Label}}{{if .Note}}: <span class="small">{{.Note}}</span>{{end}}{{if .Ticked}} <span class="small">(ticked {{.Ticked}})</span>{{end}}</label></li>{{end}}</ul>
+{{if not $ro}}<button type="submit" class="save-ticks">Save the checklist</button>{{end}}</form>{{end}}
 {{define "table"}}<table><caption>{{.Title}}</caption>{{if .Header}}<tr>{{range $i, $h := .Header}}<th{{if $i}} class="n"{{end}}>{{$h}}</th>{{end}}</tr>{{end}}
 {{$t := .}}{{range $i, $r := .Rows}}<tr{{if marked $t $i}} class="mark"{{end}}>{{range $j, $c := $r}}<td{{if $j}} class="n"{{end}}>{{$c}}</td>{{end}}</tr>
 {{end}}</table>{{end}}`))

@@ -52,15 +52,11 @@ func RenderMarkdown(w io.Writer, c Card) error {
 	if len(v.Checks) > 0 {
 		b.WriteString("### Checklist\n\n")
 		for _, ch := range v.Checks {
-			box := "- [ ] "
+			box := "- " + ch.word() + " "
 			if ch.Status != "confirm" {
 				box = "- **" + statusWord(ch.Status) + "** "
 			}
-			line := ch.Label
-			if ch.Note != "" {
-				line += ": " + ch.Note
-			}
-			b.WriteString(box + mdEscape(line) + "\n")
+			b.WriteString(box + mdEscape(ch.line()) + "\n")
 		}
 		b.WriteString("\n")
 	}

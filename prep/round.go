@@ -77,6 +77,9 @@ type Input struct {
 
 	Rules   []*scripts.Rule
 	RulesFS fs.FS
+	// Ticked are the checklist items the crew ticked for this round (by
+	// label), with when.
+	Ticked map[string]time.Time
 
 	// Problems found before gathering (a broken car.yaml, say): printed on
 	// the card with whatever else can be computed.

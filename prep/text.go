@@ -108,7 +108,7 @@ func RenderTextWidth(w io.Writer, c Card, color bool, width int) error {
 	if len(v.Checks) > 0 {
 		b.WriteString(paint("Checklist", text.Bold) + "\n")
 		for _, ch := range v.Checks {
-			word := statusWord(ch.Status)
+			word := ch.word()
 			switch ch.Status {
 			case scripts.Fail:
 				word = paint(word, text.FgHiRed, text.Bold)
@@ -117,11 +117,7 @@ func RenderTextWidth(w io.Writer, c Card, color bool, width int) error {
 			case scripts.Pass:
 				word = paint(word, text.FgGreen)
 			}
-			line := ch.Label
-			if ch.Note != "" {
-				line += ": " + ch.Note
-			}
-			b.WriteString(fmt.Sprintf("  %s %s\n", word, wrap(line, Width-8, "       ")))
+			b.WriteString(fmt.Sprintf("  %s %s\n", word, wrap(ch.line(), Width-8, "       ")))
 		}
 		b.WriteString("\n")
 	}

@@ -47,6 +47,28 @@ type table struct {
 
 type checkRow struct {
 	Status, Label, Note, File string
+	Ticked                    string // when the crew ticked it, "21:02"; "" if not
+}
+
+// word is how the row's status reads on paper: a ticked box for an item
+// the crew ticked.
+func (ch checkRow) word() string {
+	if ch.Status == "confirm" && ch.Ticked != "" {
+		return "[x]"
+	}
+	return statusWord(ch.Status)
+}
+
+// line is the item with its note and when it was ticked.
+func (ch checkRow) line() string {
+	l := ch.Label
+	if ch.Note != "" {
+		l += ": " + ch.Note
+	}
+	if ch.Ticked != "" {
+		l += " (ticked " + ch.Ticked + ")"
+	}
+	return l
 }
 
 func newView(c Card) view {
@@ -216,7 +238,11 @@ func newView(c Card) view {
 		v.Rules.Rows = append(v.Rules.Rows, []string{strings.TrimPrefix(r.File, "rules/"), strings.Join(r.Defines, ", "), adj, result})
 	}
 	for _, ch := range c.Checks {
-		v.Checks = append(v.Checks, checkRow{Status: ch.Status, Label: ch.Label, Note: ch.Note, File: ch.File})
+		row := checkRow{Status: ch.Status, Label: ch.Label, Note: ch.Note, File: ch.File}
+		if at, ok := in.Ticked[ch.Label]; ok {
+			row.Ticked = at.Format("15:04")
+		}
+		v.Checks = append(v.Checks, row)
 	}
 	v.Notes = c.Notes
 

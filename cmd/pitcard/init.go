@@ -1,18 +1,13 @@
 package main
 
 import (
-	"bytes"
 	"fmt"
-	"io/fs"
-	"os"
 	"path/filepath"
-	"sort"
 	"strings"
 
 	"github.com/spf13/cobra"
 
 	"pitcard/event"
-	"pitcard/scripts"
 )
 
 type initOptions struct {
@@ -43,52 +38,13 @@ change and see the results change. Existing files are never overwritten.`,
 }
 
 func initRun(o *initOptions) error {
-	src, what := event.Starter(), "starter"
+	what := "starter"
 	if o.Demo {
-		src, what = event.Demo(scripts.Shipped()), "demo"
+		what = "demo"
 	}
-	// The folder's files, and the rules that ship with pitcard (the demo has its own copy).
-	from := map[string]fs.FS{}
-	var files []string
-	for _, f := range []fs.FS{scripts.Shipped(), src} {
-		err := fs.WalkDir(f, ".", func(p string, d fs.DirEntry, err error) error {
-			if err == nil && !d.IsDir() {
-				if _, dup := from[p]; !dup {
-					files = append(files, p)
-				}
-				from[p] = f
-			}
-			return err
-		})
-		if err != nil {
-			return err
-		}
-	}
-	sort.Strings(files)
-	var exist []string
-	for _, f := range files {
-		if _, err := os.Stat(filepath.Join(o.Dir, f)); err == nil {
-			exist = append(exist, f)
-		}
-	}
-	if len(exist) > 0 {
-		return userErrf("%s already has %s: pitcard init never overwrites; choose an empty folder", o.Dir, strings.Join(exist, ", "))
-	}
-	for _, f := range files {
-		data, err := fs.ReadFile(from[f], f)
-		if err != nil {
-			return err
-		}
-		if f == event.ScheduleFile && !o.Demo {
-			data = bytes.ReplaceAll(data, []byte("DATE"), []byte(o.s.Now().Format("2006-01-02")))
-		}
-		dst := filepath.Join(o.Dir, f)
-		if err := os.MkdirAll(filepath.Dir(dst), 0o755); err != nil {
-			return err
-		}
-		if err := os.WriteFile(dst, data, 0o644); err != nil {
-			return err
-		}
+	files, err := event.Create(o.Dir, o.Demo, o.s.Now())
+	if err != nil {
+		return err
 	}
 	fmt.Fprintf(o.s.Out, "Wrote the %s event folder %s (%d files: %s).\n", what, o.Dir, len(files), strings.Join(files, ", "))
 	fmt.Fprintf(o.s.Out, "The rules in %s are yours to change: each file says what it does.\n", filepath.Join(o.Dir, event.RulesDir))

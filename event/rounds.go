@@ -1,0 +1,195 @@
+package event
+
+import (
+	"bytes"
+	"encoding/csv"
+	"errors"
+	"fmt"
+	"io"
+	"io/fs"
+	"slices"
+	"strings"
+	"time"
+
+	"github.com/shopspring/decimal"
+
+	"pitcard/engine"
+	"pitcard/internal/safefile"
+	"pitcard/weather"
+)
+
+// RoundsFile keeps what the crew notes for a round before it runs: the other
+// lane's dial as it is learnt in the staging lanes, and the checklist items
+// ticked. The card reads it (the command line's and the page's alike), so a
+// dial entered on a phone is the one the laptop's card races against.
+const RoundsFile = "rounds.csv"
+
+var roundsHeader = []string{"date", "session", "entry", "value", "at"}
+
+const (
+	entryOpponentDial = "opponent_dial"
+	entryChecked      = "checked"
+)
+
+// RoundNotes are a round's notes: the other lane's dial (or none) and the
+// checklist items ticked, by label, with when.
+type RoundNotes struct {
+	OpponentDial decimal.NullDecimal
+	Ticked       map[string]time.Time
+}
+
+type roundEntry struct {
+	date, session, entry, value string
+	at                          time.Time
+}
+
+// readRounds reads rounds.csv (none yet: no entries).
+func (e *Folder) readRounds() ([]roundEntry, error) {
+	data, err := fs.ReadFile(e.FS, RoundsFile)
+	if errors.Is(err, fs.ErrNotExist) {
+		return nil, nil
+	}
+	if err != nil {
+		return nil, err
+	}
+	name := e.Name(RoundsFile)
+	r := csv.NewReader(bytes.NewReader(bytes.TrimPrefix(data, []byte("\xef\xbb\xbf"))))
+	r.FieldsPerRecord = len(roundsHeader)
+	head, err := r.Read()
+	if err == io.EOF {
+		return nil, nil
+	}
+	if err != nil || !slices.Equal(head, roundsHeader) {
+		return nil, userErrf("%s:1: the header is not %s (fix or delete the file: it holds only the checklist ticks and the other lane's dials)",
+			name, strings.Join(roundsHeader, ","))
+	}
+	var out []roundEntry
+	for {
+		rec, err := r.Read()
+		if err == io.EOF {
+			return out, nil
+		}
+		line, _ := r.FieldPos(0)
+		if err != nil {
+			return nil, userErrf("%s:%d: %v", name, line, err)
+		}
+		at, err := time.ParseInLocation(time.RFC3339, rec[4], time.Local)
+		if err != nil {
+			return nil, &weather.InputError{File: name, Line: line, Field: "at", Value: rec[4], Reason: "is not a time as 2006-01-02T15:04:05-07:00"}
+		}
+		if rec[2] != entryOpponentDial && rec[2] != entryChecked {
+			return nil, &weather.InputError{File: name, Line: line, Field: "entry", Value: rec[2], Reason: "is not opponent_dial or checked"}
+		}
+		out = append(out, roundEntry{date: rec[0], session: rec[1], entry: rec[2], value: rec[3], at: at})
+	}
+}
+
+// RoundNotes are the notes of one round: session ses on date (YYYY-MM-DD).
+func (e *Folder) RoundNotes(date string, ses engine.Session) (RoundNotes, error) {
+	n := RoundNotes{Ticked: map[string]time.Time{}}
+	entries, err := e.readRounds()
+	if err != nil {
+		return n, err
+	}
+	for _, x := range entries {
+		if x.date != date || x.session != ses.String() {
+			continue
+		}
+		switch x.entry {
+		case entryOpponentDial:
+			if d, err := decimal.NewFromString(x.value); err == nil {
+				n.OpponentDial = decimal.NewNullDecimal(d)
+			}
+		case entryChecked:
+			n.Ticked[x.value] = x.at
+		}
+	}
+	return n, nil
+}
+
+// SetOpponentDial notes the other lane's dial for a round ("" clears it).
+func (e *Folder) SetOpponentDial(date string, ses engine.Session, dial string, now time.Time) error {
+	value := ""
+	if strings.TrimSpace(dial) != "" {
+		d, err := engine.ParseSeconds("--opponent-dial", dial)
+		if err != nil {
+			return err
+		}
+		if err := RangeErr("--opponent-dial", d, engine.DialRange); err != nil {
+			return err
+		}
+		value = d.String()
+	}
+	return e.editRounds(func(es []roundEntry) []roundEntry {
+		es = slices.DeleteFunc(es, func(x roundEntry) bool {
+			return x.date == date && x.session == ses.String() && x.entry == entryOpponentDial
+		})
+		if value != "" {
+			es = append(es, roundEntry{date, ses.String(), entryOpponentDial, value, now})
+		}
+		return es
+	})
+}
+
+// SetTicks makes the round's ticked checklist items exactly ticked; an item
+// already ticked keeps the time it was ticked.
+func (e *Folder) SetTicks(date string, ses engine.Session, ticked []string, now time.Time) error {
+	for _, t := range ticked {
+		if len(t) > 200 {
+			return &weather.InputError{Field: "checklist item", Value: t, Reason: "is longer than 200 characters"}
+		}
+	}
+	return e.editRounds(func(es []roundEntry) []roundEntry {
+		had := map[string]time.Time{}
+		es = slices.DeleteFunc(es, func(x roundEntry) bool {
+			mine := x.date == date && x.session == ses.String() && x.entry == entryChecked
+			if mine {
+				had[x.value] = x.at
+			}
+			return mine
+		})
+		seen := map[string]bool{} // a label sent twice is ticked once
+		for _, t := range ticked {
+			if seen[t] {
+				continue
+			}
+			seen[t] = true
+			at, ok := had[t]
+			if !ok {
+				at = now
+			}
+			es = append(es, roundEntry{date, ses.String(), entryChecked, t, at})
+		}
+		return es
+	})
+}
+
+// editRounds rewrites rounds.csv under its lock, atomically.
+func (e *Folder) editRounds(edit func([]roundEntry) []roundEntry) error {
+	if err := e.Writable(); err != nil {
+		return err
+	}
+	path := e.Path(RoundsFile)
+	unlock, err := safefile.Lock(path)
+	if err != nil {
+		return err
+	}
+	defer unlock()
+	entries, err := e.readRounds()
+	if err != nil {
+		return err
+	}
+	entries = edit(entries)
+	return safefile.Write(path, func(w io.Writer) error {
+		cw := csv.NewWriter(w)
+		_ = cw.Write(roundsHeader)
+		for _, x := range entries {
+			_ = cw.Write([]string{x.date, x.session, x.entry, x.value, x.at.Format(time.RFC3339)})
+		}
+		cw.Flush()
+		if err := cw.Error(); err != nil {
+			return fmt.Errorf("writing %s: %w", e.Name(RoundsFile), err)
+		}
+		return nil
+	})
+}
