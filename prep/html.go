@@ -17,8 +17,8 @@ func RenderHTML(w io.Writer, c Card) error {
 // posted to Action with the round and the CSRF token; ReadOnly shows the
 // boxes without letting them change.
 type ChecklistForm struct {
-	Action, Round, CSRF string
-	ReadOnly            bool
+	Action, Round, Day, CSRF string
+	ReadOnly                 bool
 }
 
 // RenderHTMLBody writes the card's content alone, for a page of another
@@ -103,7 +103,7 @@ svg { width: 100%; height: auto; }
 </div>
 <div class="cautions">{{range .V.Cautions}}<p>⚠ {{.}}</p>{{end}}</div>
 {{end}}
-{{define "checkform"}}<form method="post" action="{{.Form.Action}}" class="checkform"><input type="hidden" name="csrf" value="{{.Form.CSRF}}"><input type="hidden" name="round" value="{{.Form.Round}}">
+{{define "checkform"}}<form method="post" action="{{.Form.Action}}" class="checkform" id="checklist">{{if not .Form.ReadOnly}}<input type="hidden" name="csrf" value="{{.Form.CSRF}}"><input type="hidden" name="round" value="{{.Form.Round}}"><input type="hidden" name="day" value="{{.Form.Day}}">{{end}}
 <ul class="checks">{{$ro := .Form.ReadOnly}}{{range .V.Checks}}<li class="{{cls .Status}}"><label><input type="checkbox" name="tick" value="{{.Label}}"{{if .Ticked}} checked{{end}}{{if $ro}} disabled{{end}}> {{if ne .Status "confirm"}}<b>{{status .Status}}</b> {{end}}{{.Label}}{{if .Note}}: <span class="small">{{.Note}}</span>{{end}}{{if .Ticked}} <span class="small">(ticked {{.Ticked}})</span>{{end}}</label></li>{{end}}</ul>
 {{if not $ro}}<button type="submit" class="save-ticks">Save the checklist</button>{{end}}</form>{{end}}
 {{define "table"}}<table><caption>{{.Title}}</caption>{{if .Header}}<tr>{{range $i, $h := .Header}}<th{{if $i}} class="n"{{end}}>{{$h}}</th>{{end}}</tr>{{end}}

@@ -31,6 +31,9 @@ type IOStreams struct {
 	Terminal bool             // Out is a terminal: colour is allowed
 	Width    int              // the terminal's columns; 0 when not a terminal (100 is used)
 	Now      func() time.Time // the clock; tests fix it
+	// Stop, when set, ends a long-running command (serve) as an interrupt
+	// would: tests close it.
+	Stop <-chan struct{}
 }
 
 func main() {

@@ -65,6 +65,7 @@ Try it on the built-in demo event first: pitcard card --demo`,
 		newRulesCmd(s, g),
 		newCardCmd(s, g),
 		newRoundCmd(s, g),
+		newServeCmd(s, g),
 	)
 	registerCompletions(root)
 	return root

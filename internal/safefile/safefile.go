@@ -196,7 +196,13 @@ func backup(path string) error {
 }
 
 // WriteNoBackup writes data to path atomically without keeping a .bak.
-func WriteNoBackup(path string, data []byte) error {
+func WriteNoBackup(path string, data []byte) error { return writeMode(path, data, 0o644) }
+
+// WritePrivate writes data to path atomically, readable by its owner alone
+// (mode 0600) from the first byte: for secrets.
+func WritePrivate(path string, data []byte) error { return writeMode(path, data, 0o600) }
+
+func writeMode(path string, data []byte, mode os.FileMode) error {
 	path, err := Resolve(path)
 	if err != nil {
 		return err
@@ -214,7 +220,7 @@ func WriteNoBackup(path string, data []byte) error {
 		err = cerr
 	}
 	if err == nil {
-		err = os.Chmod(tmp.Name(), 0o644)
+		err = os.Chmod(tmp.Name(), mode)
 	}
 	if err == nil {
 		err = os.Rename(tmp.Name(), path)

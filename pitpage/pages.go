@@ -1,0 +1,483 @@
+package pitpage
+
+import (
+	"bytes"
+	"errors"
+	"fmt"
+	"html/template"
+	"net/http"
+	"net/url"
+	"strings"
+	"time"
+
+	"pitcard/engine"
+	"pitcard/event"
+	"pitcard/prep"
+	"pitcard/weather"
+)
+
+// field is one input of a form. Name is the command line's flag without
+// its dashes ("temp" for --temp), so a message event gives for a flag
+// lands next to its field.
+type field struct {
+	Name, Label, Unit string
+	Kind              string // "" (text), "radio" or "select"
+	Options           []string
+	Value             string
+	Placeholder       string
+	Help              string
+	Mode              string // the phone keyboard: "decimal"
+	Max               int
+	Error             string
+}
+
+func text(name, label, unit, placeholder string) field {
+	return field{Name: name, Label: label, Unit: unit, Placeholder: placeholder, Mode: "decimal", Max: MaxFieldLen}
+}
+
+// fill puts the posted values back into the form (a bad submission keeps
+// every field as typed).
+func fill(form []field, v url.Values) {
+	for i := range form {
+		if x, ok := v[form[i].Name]; ok && len(x) > 0 {
+			form[i].Value = strings.TrimSpace(x[0])
+		}
+	}
+}
+
+// values reads a form's fields by name.
+func values(v url.Values) func(string) string {
+	return func(name string) string { return strings.TrimSpace(v.Get(name)) }
+}
+
+// attach puts err next to the field it names, in the form's words; an error
+// naming no field goes to the top. It returns the top message.
+func attach(form []field, err error) string {
+	labels := strings.NewReplacer(" (or use --latest for the weather log's last reading)", "")
+	pairs := []string{}
+	for _, f := range form {
+		pairs = append(pairs, "--"+f.Name, "“"+f.Label+"”")
+	}
+	named := strings.NewReplacer(pairs...)
+	var ie *weather.InputError
+	if errors.As(err, &ie) {
+		name := strings.TrimPrefix(ie.Field, "--")
+		for i := range form {
+			if form[i].Name == name {
+				c := *ie
+				c.Field = form[i].Label
+				form[i].Error = named.Replace(labels.Replace(c.Error()))
+				return "Nothing was saved: fix the field marked below."
+			}
+		}
+	}
+	return "Nothing was saved: " + named.Replace(labels.Replace(err.Error()))
+}
+
+// savedWords are the card page's confirmations, by what was saved.
+var savedWords = map[string]string{
+	"reading":   "The reading is saved: the card below uses it.",
+	"checklist": "The checklist is saved.",
+	"opponent":  "The other lane's dial is saved: the card below races against it.",
+}
+
+func (s *Server) cardPage(q *request) {
+	round := q.r.URL.Query().Get("round")
+	p := q.newPage("Card", "card")
+	p.Rounds, p.Refresh, p.Stamp = q.rounds(), true, stamp(q.folder)
+	p.Saved = savedWords[q.r.URL.Query().Get("saved")]
+	c, warnings, err := s.gather(q, round)
+	p.Warnings = warnings
+	if err != nil {
+		p.Round = round
+		p.Error = "No card: " + err.Error()
+		s.render(q, "card", p, http.StatusOK)
+		return
+	}
+	in := c.Input
+	p.Round, p.Day = in.Session.String(), in.Call.Format(weather.DateLayout)
+	p.Title = c.Title
+	csrf := ""
+	if q.role == Crew {
+		csrf = s.cfg.Tokens.CSRF(q.token)
+	}
+	var body bytes.Buffer
+	form := &prep.ChecklistForm{Action: "/checklist", Round: p.Round, Day: p.Day, CSRF: csrf, ReadOnly: !p.CanWrite}
+	if err := prep.RenderHTMLBody(&body, c, form); err != nil {
+		p.Error = "The card could not be drawn: " + err.Error()
+	}
+	p.Card = template.HTML(body.String())
+	if in.OpponentDial.Valid {
+		p.OppDial = engine.FormatSeconds(in.OpponentDial.Decimal, 2)
+	}
+	f := text("opponent-dial", "Their dial-in", "s", "11.62")
+	f.Value, f.Help = p.OppDial, "As posted on their window; blank clears it. The card then shows the chance to win for each dial."
+	p.Form = []field{f}
+	s.render(q, "card", p, http.StatusOK)
+}
+
+// readingForm is the fields of 'weather add', in the event's units, with
+// the last reading's values as placeholders.
+func readingForm(e *event.Folder) []field {
+	u := e.Settings.Units
+	temp, press, speed := u.Temp.String(), u.Pressure.String(), u.Speed.String()
+	form := []field{
+		text("temp", "Air temperature", temp, ""),
+		text("baro", "Barometer", press, ""),
+		{Name: "baro-kind", Label: "Barometer kind", Kind: "select", Options: []string{"station", "altimeter"}, Value: "station",
+			Help: "Station: a meter at the track, uncorrected. Altimeter: an airport's or an app's sea-level figure."},
+		text("humidity", "Relative humidity", "%", ""),
+		text("dewpoint", "Dew point (instead of humidity)", temp, ""),
+		text("wind", "Wind speed", speed, ""),
+		text("wind-from", "Wind from", "° (0 = north)", ""),
+		text("track-temp", "Track surface", temp, ""),
+		{Name: "time", Label: "Time of the reading", Placeholder: "now (or 21:40)", Max: 40, Help: "Blank for now."},
+		{Name: "notes", Label: "Notes", Max: MaxNotesLen},
+	}
+	trk, terr := e.Track()
+	if terr != nil {
+		return form
+	}
+	log, err := e.WeatherLog(trk.Elevation())
+	if err != nil || len(log) == 0 {
+		return form
+	}
+	last := log[len(log)-1]
+	a := last.Derive(trk.Elevation())
+	ph := map[string]string{
+		"temp": last.Temp.Format(u.Temp, 1), "baro": a.Station.Format(u.Pressure),
+		"humidity": fmt.Sprintf("%.0f%%", a.RH*100), "dewpoint": a.DewPoint.Format(u.Temp, 0),
+	}
+	if last.Wind > 0 || !last.WindDirUnknown {
+		ph["wind"] = last.Wind.Format(u.Speed, 0)
+	}
+	if !last.WindDirUnknown {
+		ph["wind-from"] = fmt.Sprintf("%.0f", last.WindFrom)
+	}
+	if last.HasTrack {
+		ph["track-temp"] = last.TrackTemp.Format(u.Temp, 0)
+	}
+	for i := range form {
+		if v, ok := ph[form[i].Name]; ok {
+			form[i].Placeholder = v
+		}
+	}
+	return form
+}
+
+func (s *Server) readingPage(q *request) {
+	p := q.newPage("Reading", "reading")
+	p.Round = q.r.URL.Query().Get("round")
+	p.Heading, p.Action, p.Submit = "A weather reading", "/reading", "Save the reading"
+	p.Intro = "Grey figures are the last reading's. A bare number is read in the event's units; 28.92inHg or 979hPa also work."
+	p.Form = readingForm(q.folder)
+	s.render(q, "form", p, http.StatusOK)
+}
+
+func (s *Server) postReading(q *request) {
+	v := values(q.r.PostForm)
+	p := q.newPage("Reading", "reading")
+	p.Round = v("round")
+	p.Heading, p.Action, p.Submit = "A weather reading", "/reading", "Save the reading"
+	p.Form = readingForm(q.folder)
+	fill(p.Form, q.r.PostForm)
+	nr := event.NewReading{Fields: event.ReadingFields{
+		Temp: v("temp"), Baro: v("baro"), BaroKind: v("baro-kind"), Humidity: v("humidity"), DewPoint: v("dewpoint"),
+		Wind: v("wind"), WindFrom: v("wind-from"), TrackTemp: v("track-temp"),
+	}, Time: v("time"), Notes: v("notes"), Replace: v("replace") == "yes"}
+	added, err := q.folder.AddReading(nr, q.now)
+	if err != nil {
+		var same *event.SameMinute
+		if errors.As(err, &same) {
+			p.Form = append(p.Form, field{Name: "replace", Label: "Replace the reading already logged at " + same.Old.Time.Format("15:04") + "?",
+				Kind: "select", Options: []string{"no", "yes"}, Value: "no"})
+		}
+		p.Error = attach(p.Form, err)
+		s.render(q, "form", p, http.StatusUnprocessableEntity)
+		return
+	}
+	r := added.Reading
+	s.logf("reading %s added by the crew from %s: %s, DA %s", r.Time.Format("15:04"), q.r.RemoteAddr,
+		r.Temp.Format(q.folder.Settings.Units.Temp, 1), r.Derive(added.Elevation).DensityAltitude.Format(q.folder.Settings.Units.Length))
+	http.Redirect(q.w, q.r, "/?saved=reading"+roundParam(p.Round), http.StatusSeeOther)
+}
+
+func roundParam(round string) string {
+	if round == "" {
+		return ""
+	}
+	return "&round=" + url.QueryEscape(round)
+}
+
+// slipForm is the fields of 'log add', for a car that runs dist feet.
+func slipForm(dist float64) []field {
+	form := []field{
+		{Name: "session", Label: "Session", Placeholder: "E3, T2 ...", Max: 20},
+		{Name: "lane", Label: "Lane", Kind: "radio", Options: []string{"left", "right"}},
+		text("dial", "Dial-in", "s", "blank for a time trial"),
+		text("rt", "Reaction time", "s", ".021 (negative: red light)"),
+		text("et60", "60 ft", "s", ""),
+		text("et330", "330 ft", "s", ""),
+		text("et660", "1/8 mile ET", "s", ""),
+		text("mph660", "1/8 mile speed", "mph", ""),
+		text("et1000", "1000 ft", "s", ""),
+		text("et1320", "1/4 mile ET", "s", ""),
+		text("mph1320", "1/4 mile speed", "mph", ""),
+		{Name: "notes", Label: "Notes", Placeholder: "lifted, pedaled, new tires ...", Max: MaxNotesLen},
+		text("opponent-dial", "Other lane's dial", "s", ""),
+		text("opponent-rt", "Other lane's reaction time", "s", ""),
+		text("opponent-et", "Other lane's ET", "s", ""),
+		{Name: "time", Label: "Time of the pass", Placeholder: "now (or 20:47)", Max: 40, Help: "Blank for now."},
+		{Name: "weight", Label: "Weight as run", Unit: "lb", Placeholder: "car.yaml's", Mode: "decimal", Max: 20},
+	}
+	out := form[:0]
+	for _, f := range form {
+		if (f.Name == "et1000" && dist < 1000) || ((f.Name == "et1320" || f.Name == "mph1320") && dist < 1320) {
+			continue
+		}
+		out = append(out, f)
+	}
+	return out
+}
+
+// slipDefaults preselects the slip: the round and lane of the card, its
+// dial, the other lane's noted dial.
+func (s *Server) slipDefaults(q *request, round string) ([]field, string) {
+	c, _, err := s.gather(q, round)
+	dist := 1320.0
+	if err == nil && c.Input.Car.DistanceFt > 0 {
+		dist = c.Input.Car.DistanceFt
+	}
+	form := slipForm(dist)
+	if err != nil {
+		return form, round
+	}
+	in := c.Input
+	set := map[string]string{"session": in.Session.String(), "lane": string(in.Lane)}
+	if c.HasFinal && in.Session.Kind == engine.Elimination {
+		set["dial"] = c.FinalDial.StringFixed(2)
+	}
+	if in.OpponentDial.Valid {
+		set["opponent-dial"] = engine.FormatSeconds(in.OpponentDial.Decimal, 2)
+	}
+	for i := range form {
+		if v, ok := set[form[i].Name]; ok {
+			form[i].Value = v
+		}
+	}
+	return form, in.Session.String()
+}
+
+func (s *Server) slipPage(q *request) {
+	p := q.newPage("Slip", "slip")
+	p.Form, p.Round = s.slipDefaults(q, q.r.URL.Query().Get("round"))
+	p.Heading, p.Action, p.Submit = "The time slip", "/slip", "Log the pass"
+	p.Intro = "Times in seconds as the slip prints them (.021, 11.538). The air is taken from the weather log's reading nearest the pass."
+	s.render(q, "form", p, http.StatusOK)
+}
+
+func (s *Server) postSlip(q *request) {
+	v := values(q.r.PostForm)
+	p := q.newPage("Slip", "slip")
+	p.Round = v("round")
+	p.Heading, p.Action, p.Submit = "The time slip", "/slip", "Log the pass"
+	dist := 1320.0
+	if car, err := q.folder.Car(); err == nil && car.DistanceFt > 0 {
+		dist = car.DistanceFt
+	}
+	p.Form = slipForm(dist)
+	fill(p.Form, q.r.PostForm)
+	np := event.NewPass{Session: v("session"), Lane: v("lane"), Dial: v("dial"), RT: v("rt"), Weight: v("weight"), Notes: v("notes"),
+		ET60: v("et60"), ET330: v("et330"), ET660: v("et660"), ET1000: v("et1000"), ET1: v("et1320"),
+		MPH660: v("mph660"), MPH1320: v("mph1320"), OppDial: v("opponent-dial"), OppRT: v("opponent-rt"), OppET: v("opponent-et")}
+	if t := v("time"); t != "" {
+		when, err := event.ParseWhen(t, q.now)
+		if err != nil {
+			p.Error = attach(p.Form, err)
+			s.render(q, "form", p, http.StatusUnprocessableEntity)
+			return
+		}
+		np.Date, np.Time = when.Format(weather.DateLayout), when.Format(weather.TimeLayout)
+	}
+	lp, err := q.folder.AddPass(np, q.now)
+	if err != nil {
+		p.Error = attach(p.Form, err)
+		s.render(q, "form", p, http.StatusUnprocessableEntity)
+		return
+	}
+	pass := lp.Pass
+	et, ft, _ := pass.Finish()
+	logged := fmt.Sprintf("Logged %s, %s lane, at %s: %s s at %.0f ft (%s in the logbook).", pass.Session.Long(), pass.Lane,
+		pass.Time.Format("15:04"), engine.FormatSeconds(et, 3), ft, engine.Plural(lp.Count, "pass"))
+	s.logf("slip %s %s lane added by the crew from %s: %s s", pass.Session, pass.Lane, q.r.RemoteAddr, engine.FormatSeconds(et, 3))
+	p.Saved = logged
+	if lp.Source != "" {
+		p.Said = append(p.Said, "Conditions from "+lp.Source+".")
+	}
+	if lp.Decided != "" {
+		p.Said = append(p.Said, lp.Decided)
+	}
+	p.Said = append(p.Said, lp.Warnings...)
+	// No form under the result: a reload cannot post the slip twice, and
+	// the next slip starts from the next round's defaults.
+	p.Form, p.CanWrite, p.Round = nil, false, ""
+	p.Heading, p.Intro = "The pass is logged", "Open the card for the next round, or the slip page for another pass."
+	s.render(q, "form", p, http.StatusOK)
+}
+
+// roundOf reads the round and day a checklist or dial form names.
+func roundOf(v func(string) string) (engine.Session, string, error) {
+	ses, err := engine.ParseSession(v("round"))
+	if err != nil {
+		return ses, "", err
+	}
+	day := v("day")
+	if _, err := time.Parse(weather.DateLayout, day); err != nil {
+		return ses, "", &weather.InputError{Field: "day", Value: day, Reason: "is not a date as YYYY-MM-DD"}
+	}
+	return ses, day, nil
+}
+
+func (s *Server) postChecklist(q *request) {
+	v := values(q.r.PostForm)
+	ses, day, err := roundOf(v)
+	if err == nil {
+		err = q.folder.SetTicks(day, ses, q.r.PostForm["tick"], q.now)
+	}
+	if err != nil {
+		http.Error(q.w, "Nothing was saved: "+err.Error(), http.StatusUnprocessableEntity)
+		return
+	}
+	s.logf("checklist of %s saved by the crew from %s: %d ticked", ses, q.r.RemoteAddr, len(q.r.PostForm["tick"]))
+	http.Redirect(q.w, q.r, "/?saved=checklist"+roundParam(ses.String())+"#checklist", http.StatusSeeOther)
+}
+
+func (s *Server) postOpponent(q *request) {
+	v := values(q.r.PostForm)
+	ses, day, err := roundOf(v)
+	if err == nil {
+		err = q.folder.SetOpponentDial(day, ses, v("opponent-dial"), q.now)
+	}
+	if err != nil {
+		p := q.newPage("Card", "card")
+		p.Round = v("round")
+		p.Form = []field{text("opponent-dial", "Their dial-in", "s", "11.62")}
+		fill(p.Form, q.r.PostForm)
+		p.Error = attach(p.Form, err)
+		p.Heading, p.Action, p.Submit = "The other lane", "/opponent", "Save the other lane's dial"
+		p.Form = append(p.Form, field{Name: "day", Kind: "select", Label: "Day", Options: []string{day}, Value: day})
+		s.render(q, "form", p, http.StatusUnprocessableEntity)
+		return
+	}
+	s.logf("other lane's dial for %s set to %q by the crew from %s", ses, v("opponent-dial"), q.r.RemoteAddr)
+	http.Redirect(q.w, q.r, "/?saved=opponent"+roundParam(ses.String()), http.StatusSeeOther)
+}
+
+// passesPage is today's passes, each predicted from the passes before it,
+// against what it ran.
+func (s *Server) passesPage(q *request) {
+	p := q.newPage("Passes", "passes")
+	p.Heading = "Today's passes"
+	c, _, err := s.gather(q, q.r.URL.Query().Get("round"))
+	if err != nil {
+		p.Error = "No passes to show: " + err.Error()
+		s.render(q, "list", p, http.StatusOK)
+		return
+	}
+	in := c.Input
+	p.Round = in.Session.String()
+	p.Refresh, p.Stamp = true, stamp(q.folder)
+	dist := in.Car.DistanceFt
+	t := listTable{Title: fmt.Sprintf("%s, %s: predicted against actual", orDash(in.Track.Name), in.Call.Format("Mon 2006-01-02")),
+		Header: []string{"Pass", "Lane", "Predicted", "Ran", "Off by"}}
+	for _, l := range c.Record {
+		pred, off := "—", "—"
+		if l.Predicted == l.Predicted { // not NaN
+			pred, off = fmt.Sprintf("%.3f", l.Predicted), fmt.Sprintf("%+.3f", l.Error)
+		}
+		name := l.Pass.Session.String() + " " + l.Pass.Time.Format("15:04")
+		if l.Pass.Notes != "" {
+			name += " (" + l.Pass.Notes + ")"
+		}
+		t.Rows = append(t.Rows, []string{name, string(l.Pass.Lane), pred, fmt.Sprintf("%.3f", l.Actual), off})
+	}
+	if len(t.Rows) == 0 {
+		p.Intro = "No pass logged on " + in.Call.Format("2006-01-02") + " yet."
+	} else {
+		t.Note = fmt.Sprintf("Each pass predicted from the passes before it, at %.0f ft; mean miss %.3f s.", dist, c.RecordMAE)
+	}
+	p.Tables = []listTable{t}
+	s.render(q, "list", p, http.StatusOK)
+}
+
+// weatherPage is the day's weather log with its density altitude and the
+// trend to the round's call.
+func (s *Server) weatherPage(q *request) {
+	p := q.newPage("Weather", "weather")
+	p.Heading = "The weather log"
+	p.Refresh, p.Stamp = true, stamp(q.folder)
+	e := q.folder
+	u := e.Settings.Units
+	trk, err := e.Track()
+	if err != nil {
+		p.Error = err.Error()
+		s.render(q, "list", p, http.StatusOK)
+		return
+	}
+	elev := trk.Elevation()
+	log, err := e.WeatherLog(elev)
+	if err != nil {
+		p.Error = err.Error()
+		s.render(q, "list", p, http.StatusOK)
+		return
+	}
+	if len(log) == 0 {
+		p.Intro = "No readings yet: add one on the Reading page."
+		s.render(q, "list", p, http.StatusOK)
+		return
+	}
+	day := log[len(log)-1].Time.Format(weather.DateLayout)
+	t := listTable{Title: fmt.Sprintf("%s, %s", orDash(trk.Name), day), Header: []string{"Time", "Air", "Baro", "RH", "Track", "DA"}}
+	var today []weather.Reading
+	for _, r := range log {
+		if r.Time.Format(weather.DateLayout) != day {
+			continue
+		}
+		today = append(today, r)
+		a := r.Derive(elev)
+		track := ""
+		if r.HasTrack {
+			track = r.TrackTemp.Format(u.Temp, 0)
+		}
+		t.Rows = append(t.Rows, []string{r.Time.Format("15:04"), r.Temp.Format(u.Temp, 1), a.Station.Format(u.Pressure),
+			fmt.Sprintf("%.0f %%", a.RH*100), track, a.DensityAltitude.Format(u.Length)})
+	}
+	// Newest first: the top row is the one the crew looks for.
+	for i, j := 0, len(t.Rows)-1; i < j; i, j = i+1, j-1 {
+		t.Rows[i], t.Rows[j] = t.Rows[j], t.Rows[i]
+	}
+	c, _, gerr := s.gather(q, q.r.URL.Query().Get("round"))
+	if gerr == nil {
+		p.Round = c.Input.Session.String()
+		call := c.Input.Call
+		if f, err := weather.ForecastAt(today, call, elev); err == nil {
+			trend := fmt.Sprintf("At the %s call (%s): density altitude %s ± %s, %s.", call.Format("15:04"), c.Input.Session.Long(),
+				f.Air.DensityAltitude.Format(u.Length), f.DAError.Format(u.Length), f.Reading.Temp.Format(u.Temp, 1))
+			p.Said = append(p.Said, trend, "Trend: "+strings.Join(f.Notes, "; ")+".")
+			if !f.Trusted {
+				p.Said = append(p.Said, "Not to be trusted: take a fresh reading.")
+			}
+		} else {
+			p.Said = append(p.Said, "No trend to the "+call.Format("15:04")+" call: "+err.Error())
+		}
+	}
+	p.Tables = []listTable{t}
+	s.render(q, "list", p, http.StatusOK)
+}
+
+func orDash(s string) string {
+	if s == "" {
+		return "—"
+	}
+	return s
+}

@@ -1,0 +1,492 @@
+// Package pitpage is pitcard's second front end: the card and the
+// between-rounds entries as web pages for the crew's phones, served from the
+// event folder on the trailer's laptop. It reads and writes the folder only
+// through package event, as the command line does, so a reading typed on a
+// phone is checked, locked and written exactly as 'pitcard weather add'
+// would, and the card it shows is the card 'pitcard card' prints.
+//
+// Every page is rendered on the server with html/template and works without
+// JavaScript; a small embedded script refreshes the card when the folder
+// changes. Nothing is fetched from outside: the style, the script and the
+// chart are in the binary.
+package pitpage
+
+import (
+	"bytes"
+	"crypto/sha256"
+	"embed"
+	"encoding/hex"
+	"errors"
+	"fmt"
+	"html/template"
+	"io"
+	"io/fs"
+	"net/http"
+	"net/url"
+	"os"
+	"path"
+	"sort"
+	"sync"
+	"time"
+
+	"pitcard/engine"
+	"pitcard/event"
+	"pitcard/prep"
+)
+
+//go:embed assets
+var assets embed.FS
+
+// CookieName is the cookie a phone keeps its token in.
+const CookieName = "pitcard_access"
+
+// Limits on what one request may send.
+const (
+	MaxBody      = 32 << 10 // bytes of a form
+	MaxFields    = 60
+	MaxFieldLen  = 300  // bytes of one field
+	MaxNotesLen  = 1000 // bytes of a notes field
+	cookieMaxAge = 4 * 24 * time.Hour
+)
+
+// Config is what a Server serves.
+type Config struct {
+	// Open opens the event folder with its settings, afresh for every
+	// request: a changed pitcard.yaml or car.yaml counts at once.
+	Open   func() (*event.Folder, error)
+	Tokens Tokens
+	Now    func() time.Time // the clock; time.Now when nil
+	// Log, when set, hears every write and every refused request, one
+	// line each: the laptop's terminal shows who did what.
+	Log io.Writer
+}
+
+// Server is the pit page's http.Handler.
+type Server struct {
+	cfg    Config
+	mux    *http.ServeMux
+	pages  map[string]*template.Template
+	denied *template.Template
+	logMu  sync.Mutex
+
+	cacheMu sync.Mutex
+	cards   map[string]*cachedCard
+	fits    map[string]*cachedFit
+}
+
+// New makes the pit page's handler.
+func New(cfg Config) (*Server, error) {
+	if cfg.Now == nil {
+		cfg.Now = time.Now
+	}
+	if cfg.Tokens.Crew == "" || cfg.Tokens.View == "" || cfg.Tokens.Secret == "" {
+		return nil, errors.New("pitpage: the crew, view and secret tokens are required")
+	}
+	s := &Server{cfg: cfg, mux: http.NewServeMux(), pages: map[string]*template.Template{}, cards: map[string]*cachedCard{}, fits: map[string]*cachedFit{}}
+	funcs := template.FuncMap{}
+	base, err := template.New("").Funcs(funcs).ParseFS(assets, "assets/layout.html")
+	if err != nil {
+		return nil, err
+	}
+	for _, name := range []string{"card", "form", "list"} {
+		t, err := template.Must(base.Clone()).ParseFS(assets, "assets/"+name+".html")
+		if err != nil {
+			return nil, err
+		}
+		s.pages[name] = t
+	}
+	if s.denied, err = template.ParseFS(assets, "assets/denied.html"); err != nil {
+		return nil, err
+	}
+	s.routes()
+	return s, nil
+}
+
+func (s *Server) routes() {
+	m := s.mux
+	m.HandleFunc("GET /join/{token}", s.join)
+	m.HandleFunc("GET /static/{file}", s.static)
+	m.HandleFunc("GET /{$}", s.reader(s.cardPage))
+	m.HandleFunc("GET /reading", s.reader(s.readingPage))
+	m.HandleFunc("POST /reading", s.writer(s.postReading))
+	m.HandleFunc("GET /slip", s.reader(s.slipPage))
+	m.HandleFunc("POST /slip", s.writer(s.postSlip))
+	m.HandleFunc("POST /checklist", s.writer(s.postChecklist))
+	m.HandleFunc("POST /opponent", s.writer(s.postOpponent))
+	m.HandleFunc("GET /passes", s.reader(s.passesPage))
+	m.HandleFunc("GET /weather", s.reader(s.weatherPage))
+	m.HandleFunc("GET /changes", s.reader(s.changes))
+}
+
+// ServeHTTP sets the security headers every answer carries, then routes.
+func (s *Server) ServeHTTP(w http.ResponseWriter, r *http.Request) {
+	h := w.Header()
+	// Nothing from outside: the page's own style and script, the chart inline.
+	h.Set("Content-Security-Policy", "default-src 'none'; style-src 'self'; script-src 'self'; img-src 'self' data:; "+
+		"connect-src 'self'; form-action 'self'; frame-ancestors 'none'; base-uri 'none'")
+	h.Set("X-Content-Type-Options", "nosniff")
+	h.Set("X-Frame-Options", "DENY")
+	h.Set("Referrer-Policy", "no-referrer")
+	h.Set("Cache-Control", "no-store")
+	h.Set("Cross-Origin-Opener-Policy", "same-origin")
+	s.mux.ServeHTTP(w, r)
+}
+
+// request is one authorised request: who sent it and the folder it reads.
+type request struct {
+	w      http.ResponseWriter
+	r      *http.Request
+	role   Role
+	token  string
+	folder *event.Folder
+	now    time.Time
+}
+
+func (s *Server) roleOf(r *http.Request) (Role, string) {
+	c, err := r.Cookie(CookieName)
+	if err != nil {
+		return Nobody, ""
+	}
+	return s.cfg.Tokens.RoleOf(c.Value), c.Value
+}
+
+// reader lets a crew or view token through.
+func (s *Server) reader(h func(*request)) http.HandlerFunc {
+	return func(w http.ResponseWriter, r *http.Request) {
+		role, tok := s.roleOf(r)
+		if role == Nobody {
+			s.deny(w, r, "This page needs the crew's link or the view link: no valid token came with the request.")
+			return
+		}
+		if q := s.open(w, r, role, tok); q != nil {
+			h(q)
+		}
+	}
+}
+
+// writer lets only the crew token through, with the form's CSRF token, a
+// same-origin request and a body within the limits.
+func (s *Server) writer(h func(*request)) http.HandlerFunc {
+	return func(w http.ResponseWriter, r *http.Request) {
+		role, tok := s.roleOf(r)
+		switch role {
+		case Nobody:
+			s.deny(w, r, "Nothing was written: this needs the crew's link, and no valid token came with the request.")
+			return
+		case Viewer:
+			s.deny(w, r, "Nothing was written: the view link only reads. Entries need the crew's link.")
+			return
+		}
+		if o := r.Header.Get("Origin"); o != "" && o != "null" {
+			if u, err := url.Parse(o); err != nil || u.Host != r.Host {
+				s.deny(w, r, "Nothing was written: the form came from another site ("+o+").")
+				return
+			}
+		}
+		r.Body = http.MaxBytesReader(w, r.Body, MaxBody)
+		if err := r.ParseForm(); err != nil {
+			var tooBig *http.MaxBytesError
+			if errors.As(err, &tooBig) {
+				s.logf("refused a %d-byte form from %s (limit %d)", r.ContentLength, r.RemoteAddr, MaxBody)
+				http.Error(w, fmt.Sprintf("Nothing was written: the form is larger than %d KiB.", MaxBody>>10), http.StatusRequestEntityTooLarge)
+				return
+			}
+			http.Error(w, "Nothing was written: the form could not be read ("+err.Error()+").", http.StatusBadRequest)
+			return
+		}
+		if len(r.PostForm) > MaxFields {
+			http.Error(w, fmt.Sprintf("Nothing was written: the form has %d fields (at most %d).", len(r.PostForm), MaxFields), http.StatusRequestEntityTooLarge)
+			return
+		}
+		for k, vs := range r.PostForm {
+			limit := MaxFieldLen
+			if k == "notes" {
+				limit = MaxNotesLen
+			}
+			for _, v := range vs {
+				if len(v) > limit {
+					http.Error(w, fmt.Sprintf("Nothing was written: the field %q is %d bytes long (at most %d).", k, len(v), limit), http.StatusRequestEntityTooLarge)
+					return
+				}
+			}
+		}
+		if !s.cfg.Tokens.CheckCSRF(tok, r.PostForm.Get("csrf")) {
+			s.deny(w, r, "Nothing was written: the form's security token is missing or out of date. Open the page again and resend.")
+			return
+		}
+		if q := s.open(w, r, role, tok); q != nil {
+			h(q)
+		}
+	}
+}
+
+// open opens the folder for a request; on failure it answers and returns nil.
+func (s *Server) open(w http.ResponseWriter, r *http.Request, role Role, tok string) *request {
+	e, err := s.cfg.Open()
+	if err != nil {
+		status := http.StatusInternalServerError
+		if isBadInput(err) {
+			status = http.StatusOK // the crew's to fix: said on the page
+		}
+		p := page{Title: "The event folder", Nav: "card", Error: "The event folder could not be opened: " + err.Error()}
+		w.WriteHeader(status)
+		_ = s.pages["list"].ExecuteTemplate(w, "layout", p)
+		return nil
+	}
+	return &request{w: w, r: r, role: role, token: tok, folder: e, now: e.DemoClock(s.cfg.Now())}
+}
+
+func (s *Server) deny(w http.ResponseWriter, r *http.Request, why string) {
+	s.logf("refused %s %s from %s: %s", r.Method, r.URL.Path, r.RemoteAddr, why)
+	w.Header().Set("Content-Type", "text/html; charset=utf-8")
+	w.WriteHeader(http.StatusForbidden)
+	_ = s.denied.ExecuteTemplate(w, "denied", why)
+}
+
+func (s *Server) logf(format string, a ...any) {
+	if s.cfg.Log == nil {
+		return
+	}
+	s.logMu.Lock()
+	defer s.logMu.Unlock()
+	fmt.Fprintf(s.cfg.Log, "%s %s\n", s.cfg.Now().Format("15:04:05"), fmt.Sprintf(format, a...))
+}
+
+// join takes the token from a link once and keeps it as a cookie.
+func (s *Server) join(w http.ResponseWriter, r *http.Request) {
+	tok := r.PathValue("token")
+	role := s.cfg.Tokens.RoleOf(tok)
+	if role == Nobody {
+		s.deny(w, r, "This link's token is not (or no longer) valid: the crew chief may have made new links with 'pitcard serve --new-tokens'.")
+		return
+	}
+	http.SetCookie(w, &http.Cookie{Name: CookieName, Value: tok, Path: "/", HttpOnly: true, SameSite: http.SameSiteStrictMode,
+		MaxAge: int(cookieMaxAge / time.Second)})
+	s.logf("a phone joined with the %s link from %s", role, r.RemoteAddr)
+	http.Redirect(w, r, "/", http.StatusSeeOther)
+}
+
+// static serves the embedded style and script.
+func (s *Server) static(w http.ResponseWriter, r *http.Request) {
+	name := r.PathValue("file")
+	types := map[string]string{"pit.css": "text/css; charset=utf-8", "pit.js": "text/javascript; charset=utf-8"}
+	ct, ok := types[name]
+	if !ok {
+		http.NotFound(w, r)
+		return
+	}
+	data, err := assets.ReadFile(path.Join("assets", name))
+	if err != nil {
+		http.NotFound(w, r)
+		return
+	}
+	w.Header().Set("Content-Type", ct)
+	w.Header().Set("Cache-Control", "max-age=300")
+	_, _ = w.Write(data)
+}
+
+// page is what the layout and a page's content are rendered from.
+type page struct {
+	Title, Nav string
+	Round      string // the round shown, "E3"
+	Day        string // its date, YYYY-MM-DD
+	Rounds     []string
+	CanWrite   bool
+	ReadOnly   string // why entries are not offered, when they are not
+	CSRF       string
+	Refresh    bool
+	Stamp      string
+	Saved      string
+	Error      string
+	Warnings   []string
+	Card       template.HTML
+	OppDial    string
+	Heading    string
+	Intro      string
+	Action     string
+	Submit     string
+	Form       []field
+	Said       []string
+	Tables     []listTable
+}
+
+// RoundQuery keeps the round in the navigation's links.
+func (p page) RoundQuery() string {
+	if p.Round == "" {
+		return ""
+	}
+	return "?round=" + url.QueryEscape(p.Round)
+}
+
+type listTable struct {
+	Title  string
+	Header []string
+	Rows   [][]string
+	Note   string
+}
+
+// newPage starts a page for q: who may write, the CSRF token.
+func (q *request) newPage(title, nav string) page {
+	p := page{Title: title, Nav: nav, CSRF: "", CanWrite: q.role == Crew && !q.folder.Demo}
+	switch {
+	case q.folder.Demo:
+		p.ReadOnly = "The demo event is read-only: its forms are shown, not offered. Serve a folder of your own to enter readings and slips."
+	case q.role != Crew:
+		p.ReadOnly = "View link: this phone reads the card; entries need the crew's link."
+	}
+	return p
+}
+
+func (s *Server) render(q *request, name string, p page, status int) {
+	if q.role == Crew {
+		p.CSRF = s.cfg.Tokens.CSRF(q.token)
+	}
+	var buf bytes.Buffer
+	if err := s.pages[name].ExecuteTemplate(&buf, "layout", p); err != nil {
+		http.Error(q.w, "rendering the page: "+err.Error(), http.StatusInternalServerError)
+		return
+	}
+	q.w.Header().Set("Content-Type", "text/html; charset=utf-8")
+	q.w.WriteHeader(status)
+	_, _ = q.w.Write(buf.Bytes())
+}
+
+// stamp changes whenever a file of the folder does: the card's refresh.
+func stamp(e *event.Folder) string {
+	return filesStamp(e, []string{event.SettingsFile, event.CarFile, event.TrackFile, event.LogbookFile, event.WeatherFile,
+		event.ScheduleFile, event.RoundsFile}, event.RulesDir, "tracks")
+}
+
+// fitStamp changes whenever a file the model's fit is made from does.
+func fitStamp(e *event.Folder) string {
+	return filesStamp(e, []string{event.SettingsFile, event.CarFile, event.TrackFile, event.LogbookFile}, "tracks")
+}
+
+func filesStamp(e *event.Folder, names []string, dirs ...string) string {
+	if e.Demo {
+		return "demo"
+	}
+	h := sha256.New()
+	names = append([]string(nil), names...)
+	for _, dir := range dirs {
+		if m, err := fs.ReadDir(e.FS, dir); err == nil {
+			for _, d := range m {
+				names = append(names, dir+"/"+d.Name())
+			}
+		}
+	}
+	// Files given in place of the folder's (--car-file ...) count too.
+	for _, p := range []string{e.CarPath, e.TrackPath, e.LogbookPath} {
+		if p != "" {
+			if st, err := os.Stat(p); err == nil {
+				fmt.Fprintf(h, "%s %d %d\n", p, st.Size(), st.ModTime().UnixNano())
+			}
+		}
+	}
+	sort.Strings(names)
+	for _, n := range names {
+		if st, err := fs.Stat(e.FS, n); err == nil {
+			fmt.Fprintf(h, "%s %d %d\n", n, st.Size(), st.ModTime().UnixNano())
+		}
+	}
+	return hex.EncodeToString(h.Sum(nil))[:16]
+}
+
+func (s *Server) changes(q *request) {
+	q.w.Header().Set("Content-Type", "application/json")
+	fmt.Fprintf(q.w, "{\"stamp\":%q}\n", stamp(q.folder))
+}
+
+func isBadInput(err error) bool {
+	var b interface{ BadInput() bool }
+	return errors.As(err, &b) && b.BadInput()
+}
+
+// gather makes the card of the round asked for (the schedule's next when
+// none is), as the command line's card does. Cards are kept while nothing
+// they are made from changes: the same folder files (the stamp), the same
+// round and the same minute of the clock; phones asking at once for a card
+// being made wait for it instead of making it again.
+func (s *Server) gather(q *request, round string) (prep.Card, []string, error) {
+	key := stamp(q.folder) + "|" + round + "|" + q.now.Truncate(time.Minute).Format(time.RFC3339)
+	if q.folder.Demo {
+		key = "demo|" + round + "|" + q.now.Truncate(time.Minute).Format(time.RFC3339)
+	}
+	s.cacheMu.Lock()
+	c, ok := s.cards[key]
+	if !ok {
+		c = &cachedCard{ready: make(chan struct{})}
+		if len(s.cards) >= maxCachedCards {
+			clear(s.cards)
+		}
+		s.cards[key] = c
+	}
+	s.cacheMu.Unlock()
+	if ok {
+		<-c.ready
+		return c.card, c.warnings, c.err
+	}
+	defer close(c.ready)
+	in, warnings, err := q.folder.GatherRound(event.RoundRequest{Round: round}, q.now)
+	c.warnings = warnings
+	if !event.Usable(err) {
+		c.err = err
+		return prep.Card{}, warnings, err
+	}
+	// The fit is made from the car, the tracks, the logbook and the clock:
+	// a new reading, a tick or the other lane's dial leave it as it was.
+	fitKey := fitStamp(q.folder) + "|" + round + "|" + q.now.Truncate(time.Minute).Format(time.RFC3339)
+	in.Calibrate = func(cal engine.CalibrateInput) (engine.Fit, error) { return s.fit(fitKey, cal) }
+	c.card = prep.Gather(in)
+	return c.card, c.warnings, nil
+}
+
+type cachedFit struct {
+	ready chan struct{}
+	fit   engine.Fit
+	err   error
+}
+
+// fit is engine.Calibrate, kept by key.
+func (s *Server) fit(key string, cal engine.CalibrateInput) (engine.Fit, error) {
+	s.cacheMu.Lock()
+	f, ok := s.fits[key]
+	if !ok {
+		f = &cachedFit{ready: make(chan struct{})}
+		if len(s.fits) >= maxCachedCards {
+			clear(s.fits)
+		}
+		s.fits[key] = f
+	}
+	s.cacheMu.Unlock()
+	if ok {
+		<-f.ready
+		return f.fit, f.err
+	}
+	defer close(f.ready)
+	f.fit, f.err = engine.Calibrate(cal)
+	return f.fit, f.err
+}
+
+// maxCachedCards bounds the cache: the rounds of a day at one stamp.
+const maxCachedCards = 32
+
+type cachedCard struct {
+	ready    chan struct{}
+	card     prep.Card
+	warnings []string
+	err      error
+}
+
+// rounds are the schedule's sessions, for the round links.
+func (q *request) rounds() []string {
+	sched, ok, err := q.folder.Schedule()
+	if !ok || err != nil {
+		return nil
+	}
+	var out []string
+	for _, s := range sched.Sessions {
+		out = append(out, s.Session.String())
+	}
+	return out
+}
