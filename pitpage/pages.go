@@ -463,7 +463,7 @@ func (s *Server) weatherPage(q *request) {
 		if f, err := weather.ForecastAt(today, call, elev); err == nil {
 			trend := fmt.Sprintf("At the %s call (%s): density altitude %s ± %s, %s.", call.Format("15:04"), c.Input.Session.Long(),
 				f.Air.DensityAltitude.Format(u.Length), f.DAError.Format(u.Length), f.Reading.Temp.Format(u.Temp, 1))
-			p.Said = append(p.Said, trend, "Trend: "+strings.Join(f.Notes, "; ")+".")
+			p.Said = append(p.Said, trend, upperFirst(strings.Join(f.Notes, "; "))+".")
 			if !f.Trusted {
 				p.Said = append(p.Said, "Not to be trusted: take a fresh reading.")
 			}
@@ -480,4 +480,11 @@ func orDash(s string) string {
 		return "—"
 	}
 	return s
+}
+
+func upperFirst(s string) string {
+	if s == "" {
+		return s
+	}
+	return strings.ToUpper(s[:1]) + s[1:]
 }

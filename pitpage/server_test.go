@@ -524,7 +524,7 @@ func TestChecklistAndTheOtherLane(t *testing.T) {
 func TestWeatherPageShowsTheTrend(t *testing.T) {
 	f := newFixture(t)
 	body := f.do("GET", "/weather", testTokens.View, nil).Body.String()
-	for _, want := range []string{"20:30", "83.3 °F", "At the 20:45 call (round 3): density altitude", "Trend:"} {
+	for _, want := range []string{"20:30", "83.3 °F", "At the 20:45 call (round 3): density altitude", "Trend of "} {
 		if !strings.Contains(body, want) {
 			t.Errorf("the weather page lacks %q", want)
 		}
