@@ -60,7 +60,7 @@ func (e *Folder) readRounds() ([]roundEntry, error) {
 		return nil, nil
 	}
 	if err != nil || !slices.Equal(head, roundsHeader) {
-		return nil, userErrf("%s:1: the header is not %s (fix or delete the file: it holds only the checklist ticks and the other lane's dials)",
+		return nil, userErrf("%s line 1: the header is not %s (fix or delete the file: it holds only the checklist ticks and the other lane's dials)",
 			name, strings.Join(roundsHeader, ","))
 	}
 	var out []roundEntry
@@ -69,10 +69,14 @@ func (e *Folder) readRounds() ([]roundEntry, error) {
 		if err == io.EOF {
 			return out, nil
 		}
-		line, _ := r.FieldPos(0)
 		if err != nil {
-			return nil, userErrf("%s:%d: %v", name, line, err)
+			var pe *csv.ParseError
+			if errors.As(err, &pe) {
+				return nil, userErrf("%s line %d: %v", name, pe.Line, pe.Err)
+			}
+			return nil, userErrf("%s: %v", name, err)
 		}
+		line, _ := r.FieldPos(0)
 		at, err := time.ParseInLocation(time.RFC3339, rec[4], time.Local)
 		if err != nil {
 			return nil, &weather.InputError{File: name, Line: line, Field: "at", Value: rec[4], Reason: "is not a time as 2006-01-02T15:04:05-07:00"}

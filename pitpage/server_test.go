@@ -26,13 +26,13 @@ var testTokens = Tokens{Crew: strings.Repeat("c", 32), View: strings.Repeat("v",
 
 // fixture is a pit page over a copy of the demo event in a temporary folder.
 type fixture struct {
-	t   *testing.T
+	t   testing.TB
 	dir string
 	srv *Server
 	log bytes.Buffer
 }
 
-func newFixture(t *testing.T) *fixture {
+func newFixture(t testing.TB) *fixture {
 	t.Helper()
 	f := &fixture{t: t, dir: t.TempDir()}
 	if _, err := event.Create(f.dir, true, demoNow); err != nil {
@@ -50,7 +50,7 @@ func newFixture(t *testing.T) *fixture {
 }
 
 // demoFixture serves the built-in demo, read-only.
-func demoFixture(t *testing.T) *fixture {
+func demoFixture(t testing.TB) *fixture {
 	t.Helper()
 	f := &fixture{t: t}
 	var err error

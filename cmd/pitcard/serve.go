@@ -8,6 +8,7 @@ import (
 	"net/http"
 	"os"
 	"os/signal"
+	"path/filepath"
 	"strings"
 	"syscall"
 	"time"
@@ -96,6 +97,9 @@ func serveRun(cmd *cobra.Command, o *serveOptions) error {
 	where := "the demo event (read-only)"
 	if !e.Demo {
 		where = e.Dir
+		if abs, err := filepath.Abs(e.Dir); err == nil {
+			where = abs
+		}
 	}
 	fmt.Fprintf(o.s.Out, "Serving the pit page of %s on %s.\n", where, ln.Addr())
 	fmt.Fprintln(o.s.Out, "Open on this network:")
