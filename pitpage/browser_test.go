@@ -50,7 +50,7 @@ const tooWide = `(() => {
   if (document.documentElement.scrollWidth > w) bad.push("the page scrolls sideways: " + document.documentElement.scrollWidth + " px");
   for (const el of document.querySelectorAll("body *")) {
     const r = el.getBoundingClientRect();
-    if (r.width > 0 && (r.right > w + 0.5 || r.left < -0.5)) bad.push(el.tagName + "." + el.className + " " + Math.round(r.left) + ".." + Math.round(r.right));
+    if (r.width > 0 && (r.right > w + 0.5 || r.left < -0.5)) bad.push(el.tagName + "." + el.className + " " + Math.round(r.left) + ".." + Math.round(r.right) + (el.tagName === "TABLE" && el.caption ? " (" + el.caption.textContent + ")" : ""));
   }
   return bad.slice(0, 8);
 })()`
@@ -117,6 +117,12 @@ func TestThePitPageOnAPhone(t *testing.T) {
 	if wide := eval[[]string](t, ctx, tooWide); len(wide) > 0 {
 		t.Errorf("the card is wider than a 390 px phone: %v", wide)
 	}
+	if os.Getenv("PITCARD_SHOTS") != "" {
+		for _, sel := range []string{"#checklist", "#opponent", ".cautions"} {
+			do(t, ctx, chromedp.ScrollIntoView(css(sel)))
+			shot(t, ctx, "card-"+strings.Trim(sel, "#."))
+		}
+	}
 	for _, path := range []string{"/reading", "/slip", "/passes", "/weather", "/?round=E4"} {
 		do(t, ctx, chromedp.Navigate(base+path), chromedp.WaitReady(css("footer")))
 		shot(t, ctx, strings.NewReplacer("/", "", "?", "-", "=", "").Replace(path))
@@ -124,6 +130,16 @@ func TestThePitPageOnAPhone(t *testing.T) {
 			t.Errorf("%s is wider than a 390 px phone: %v", path, wide)
 		}
 	}
+
+	// The narrowest phones the page is laid out for.
+	do(t, ctx, chromedp.EmulateViewport(360, 740))
+	for _, path := range []string{"/", "/reading", "/slip", "/passes", "/weather"} {
+		do(t, ctx, chromedp.Navigate(base+path), chromedp.WaitReady(css("footer")))
+		if wide := eval[[]string](t, ctx, tooWide); len(wide) > 0 {
+			t.Errorf("%s is wider than a 360 px phone: %v", path, wide)
+		}
+	}
+	do(t, ctx, chromedp.EmulateViewport(390, 844))
 
 	// A reading through the form: a bad value first, marked and the rest kept, then fixed.
 	do(t, ctx, chromedp.Navigate(base+"/reading"), chromedp.WaitVisible(css("#f-temp")),

@@ -99,7 +99,7 @@ svg { width: 100%; height: auto; }
        {{if .V.Rules.Rows}}{{template "table" .V.Rules}}{{end}}</div>
   <div><table><caption>Checklist</caption></table>{{if .Form}}{{template "checkform" .}}{{else}}<ul class="checks">{{range .V.Checks}}<li class="{{cls .Status}}">{{if eq .Status "confirm"}}<span class="box{{if .Ticked}} ticked{{end}}">{{if .Ticked}}✓{{end}}</span>{{else}}<b>{{status .Status}}</b> {{end}}{{.Label}}{{if .Note}}: <span class="small">{{.Note}}</span>{{end}}{{if .Ticked}} <span class="small">(ticked {{.Ticked}})</span>{{end}}</li>{{end}}</ul>{{end}}
        {{if .V.Notes}}<table><caption>Setup notes</caption></table><ul class="notes">{{range .V.Notes}}<li>{{.}}</li>{{end}}</ul>{{end}}
-       {{if .V.Record.Rows}}{{template "table" .V.Record}}<p class="small">{{.V.RecordNote}}</p>{{end}}</div>
+       {{if .V.Record.Rows}}<div class="record">{{template "table" .V.Record}}<p class="small">{{.V.RecordNote}}</p></div>{{end}}</div>
 </div>
 <div class="cautions">{{range .V.Cautions}}<p>⚠ {{.}}</p>{{end}}</div>
 {{end}}
