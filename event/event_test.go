@@ -83,9 +83,12 @@ func TestRoundNotesPersistAndReachTheCard(t *testing.T) {
 	if other.OpponentDial.Valid || len(other.Ticked) > 0 {
 		t.Errorf("another round's notes leaked: %+v", other)
 	}
-	in, _, err := e.GatherRound(RoundRequest{Round: "E3"}, now)
+	in, warnings, err := e.GatherRound(RoundRequest{Round: "E3"}, now)
 	if !Usable(err) {
 		t.Fatal(err)
+	}
+	if !strings.Contains(strings.Join(warnings, "\n"), "11.62 is the one noted for E3 in rounds.csv") {
+		t.Errorf("the card must say where the other lane's dial came from: %q", warnings)
 	}
 	if !in.OpponentDial.Valid || in.OpponentDial.Decimal.String() != "11.62" || len(in.Ticked) != 2 {
 		t.Errorf("the card must race the noted dial and show the ticks: %v %v (%v, call %v)", in.OpponentDial, in.Ticked, err, in.Call)

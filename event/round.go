@@ -405,6 +405,10 @@ func (e *Folder) GatherRound(r RoundRequest, now time.Time) (prep.Input, []strin
 		broken = append(broken, err)
 	}
 	opp := notes.OpponentDial
+	if opp.Valid && r.OpponentDial == "" {
+		warnings = append(warnings, fmt.Sprintf("the other lane's dial %s is the one noted for %s in %s (from the pit page); --opponent-dial replaces it",
+			engine.FormatSeconds(opp.Decimal, 2), slot.Session, RoundsFile))
+	}
 	if r.OpponentDial != "" {
 		d, err := engine.ParseSeconds("--opponent-dial", r.OpponentDial)
 		if err != nil {

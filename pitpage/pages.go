@@ -96,6 +96,7 @@ func (s *Server) cardPage(q *request) {
 	}
 	in := c.Input
 	p.Round, p.Day = in.Session.String(), in.Call.Format(weather.DateLayout)
+	p.Elimination = in.Session.Kind == engine.Elimination
 	p.Title = c.Title
 	csrf := ""
 	if q.role == Crew {

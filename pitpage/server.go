@@ -290,24 +290,26 @@ type page struct {
 	Title, Nav string
 	Round      string // the round shown, "E3"
 	Day        string // its date, YYYY-MM-DD
-	Rounds     []string
-	CanWrite   bool
-	ReadOnly   string // why entries are not offered, when they are not
-	CSRF       string
-	Refresh    bool
-	Stamp      string
-	Saved      string
-	Error      string
-	Warnings   []string
-	Card       template.HTML
-	OppDial    string
-	Heading    string
-	Intro      string
-	Action     string
-	Submit     string
-	Form       []field
-	Said       []string
-	Tables     []listTable
+	// Elimination: the round has another lane (not a time trial or a test).
+	Elimination bool
+	Rounds      []string
+	CanWrite    bool
+	ReadOnly    string // why entries are not offered, when they are not
+	CSRF        string
+	Refresh     bool
+	Stamp       string
+	Saved       string
+	Error       string
+	Warnings    []string
+	Card        template.HTML
+	OppDial     string
+	Heading     string
+	Intro       string
+	Action      string
+	Submit      string
+	Form        []field
+	Said        []string
+	Tables      []listTable
 }
 
 // RoundQuery keeps the round in the navigation's links.

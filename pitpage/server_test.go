@@ -504,6 +504,9 @@ func TestChecklistAndTheOtherLane(t *testing.T) {
 	if !strings.Contains(page, "To win") || !strings.Contains(page, `value="11.62"`) {
 		t.Errorf("with the other lane's dial the card shows the chance to win")
 	}
+	if p := f.do("GET", "/?round=T2", testTokens.Crew, nil).Body.String(); strings.Contains(p, `id="opponent"`) {
+		t.Errorf("a time trial has no other lane to enter")
+	}
 	if slipPage := f.do("GET", "/slip", testTokens.Crew, nil).Body.String(); fieldValue(slipPage, "opponent-dial") != "11.62" {
 		t.Errorf("the slip must be preselected with the other lane's dial: %q", fieldValue(slipPage, "opponent-dial"))
 	}
