@@ -87,8 +87,9 @@ func isTimeout(err error) bool {
 	return ok && ne.Timeout()
 }
 
-// The load test: 8 phones posting 50 readings and 50 slips each while 8
-// others read the card, all on the loopback. Nothing may be lost, nothing
+// The load test: 8 phones posting 50 readings and 50 slips each, and the
+// laptop writing through the command line's path, while 8 others read the
+// card, all on the loopback. Nothing may be lost, nothing
 // doubled, no answer a 5xx. The card's latency is logged (README: p50/p99).
 func TestManyPhonesAtOnceLoseNothing(t *testing.T) {
 	if testing.Short() {
@@ -160,6 +161,29 @@ func TestManyPhonesAtOnceLoseNothing(t *testing.T) {
 			}
 		}()
 	}
+	// The laptop writes at the same time through the command line's path
+	// (package event, as 'pitcard weather add' and 'log add' do).
+	const laptop = 20
+	wg.Add(1)
+	go func() {
+		defer wg.Done()
+		for i := 0; i < laptop; i++ {
+			m := writers*each + i
+			e, err := event.Open(event.OpenOptions{Dir: f.dir})
+			if err != nil {
+				fail("laptop: %v", err)
+				return
+			}
+			d, c, _ := strings.Cut(when(m), " ")
+			if _, err := e.AddReading(event.NewReading{Fields: event.ReadingFields{Temp: "75", Baro: "27.6", Humidity: "40"}, Time: when(m)}, demoNow); err != nil {
+				fail("laptop reading %d: %v", m, err)
+			}
+			if _, err := e.AddPass(event.NewPass{Date: d, Time: c, Session: "test", Lane: "right", ET60: "1.610", ET1: "11.45", MPH1320: "117.5",
+				Notes: fmt.Sprintf("load %d", m)}, demoNow); err != nil {
+				fail("laptop slip %d: %v", m, err)
+			}
+		}
+	}()
 	var lat []time.Duration
 	var rg sync.WaitGroup
 	for r := 0; r < readers; r++ {
@@ -203,7 +227,7 @@ func TestManyPhonesAtOnceLoseNothing(t *testing.T) {
 	// Every reading and every pass once.
 	weather := f.file(event.WeatherFile)
 	logbook := f.file(event.LogbookFile)
-	for m := 0; m < writers*each; m++ {
+	for m := 0; m < writers*each+laptop; m++ {
 		d, c, _ := strings.Cut(when(m), " ")
 		if n := strings.Count(weather, d+","+c+":00,"); n != 1 {
 			t.Errorf("the reading of %s is in weather.csv %d times", when(m), n)
@@ -217,6 +241,6 @@ func TestManyPhonesAtOnceLoseNothing(t *testing.T) {
 		t.Fatal("no card was read")
 	}
 	q := func(p float64) time.Duration { return lat[int(p*float64(len(lat)-1))] }
-	t.Logf("%d writers × (%d readings + %d slips), %v between posts, in %v with %d readers: %d cards, p50 %v, p99 %v, max %v",
-		writers, each, each, pace, took.Round(time.Millisecond), readers, len(lat), q(0.5).Round(time.Millisecond), q(0.99).Round(time.Millisecond), lat[len(lat)-1].Round(time.Millisecond))
+	t.Logf("%d writers × (%d readings + %d slips) and the laptop's %d of each, %v between posts, in %v with %d readers: %d cards, p50 %v, p99 %v, max %v",
+		writers, each, each, laptop, pace, took.Round(time.Millisecond), readers, len(lat), q(0.5).Round(time.Millisecond), q(0.99).Round(time.Millisecond), lat[len(lat)-1].Round(time.Millisecond))
 }
