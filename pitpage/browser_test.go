@@ -5,6 +5,7 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
+	"regexp"
 	"strings"
 	"testing"
 	"time"
@@ -128,6 +129,33 @@ func TestThePitPageOnAPhone(t *testing.T) {
 		shot(t, ctx, strings.NewReplacer("/", "", "?", "-", "=", "").Replace(path))
 		if wide := eval[[]string](t, ctx, tooWide); len(wide) > 0 {
 			t.Errorf("%s is wider than a 390 px phone: %v", path, wide)
+		}
+	}
+
+	// Printed from the phone's browser: one sheet, Letter or A4.
+	pdfinfo, perr := exec.LookPath("pdfinfo")
+	if perr != nil && os.Getenv("CI") != "" {
+		t.Error("pdfinfo is not installed on CI (.ci/run installs poppler-utils)")
+	}
+	for name, paper := range map[string]chromedp.PaperSize{"Letter": chromedp.PaperLetter, "A4": chromedp.PaperA4} {
+		pdf, err := chromedp.Run(ctx, chromedp.PrintToPDF(chromedp.PDFPaper(paper), chromedp.PDFMargin(8/25.4)))
+		if err != nil {
+			t.Fatal(err)
+		}
+		if perr != nil {
+			t.Logf("pdfinfo is not installed: the printed card's page count on %s is not checked", name)
+			continue
+		}
+		file := filepath.Join(t.TempDir(), "card.pdf")
+		if err := os.WriteFile(file, pdf, 0o644); err != nil {
+			t.Fatal(err)
+		}
+		out, err := exec.Command(pdfinfo, file).Output()
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !regexp.MustCompile(`(?m)^Pages:\s+1$`).Match(out) {
+			t.Errorf("the card printed from the page takes more than one %s sheet:\n%s", name, out)
 		}
 	}
 
