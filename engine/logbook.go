@@ -591,13 +591,14 @@ func WriteLogbook(w io.Writer, passes []Pass) error {
 		return err
 	}
 	for _, p := range passes {
-		cw.Write(passRecord(p))
+		cw.Write(PassRecord(p))
 	}
 	cw.Flush()
 	return cw.Error()
 }
 
-func passRecord(p Pass) []string {
+// PassRecord is p as a row of logbook.csv's columns (LogbookColumns).
+func PassRecord(p Pass) []string {
 	v := passFields(p)
 	rec := make([]string, len(LogbookColumns))
 	for i, c := range LogbookColumns {

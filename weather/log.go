@@ -324,27 +324,31 @@ func WriteLog(w io.Writer, readings []Reading) error {
 		return err
 	}
 	for _, r := range readings {
-		rh, dp := "", ""
-		if r.DewPointSet {
-			dp = num(r.DewPoint.Fahrenheit(), 2)
-		} else {
-			rh = num(r.RH*100, 2)
-		}
-		track := ""
-		if r.HasTrack {
-			track = num(r.TrackTemp.Fahrenheit(), 2)
-		}
-		rec := []string{
-			r.Time.Format(DateLayout), r.Time.Format("15:04:05"),
-			num(r.Temp.Fahrenheit(), 2), num(r.Baro.InHg(), 4), r.BaroKind.String(),
-			rh, dp, num(r.Wind.MPH(), 2), windFrom(r), track, r.Note,
-		}
-		if err := cw.Write(rec); err != nil {
+		if err := cw.Write(Record(r)); err != nil {
 			return err
 		}
 	}
 	cw.Flush()
 	return cw.Error()
+}
+
+// Record is r as a row of the weather log's columns (LogColumns).
+func Record(r Reading) []string {
+	rh, dp := "", ""
+	if r.DewPointSet {
+		dp = num(r.DewPoint.Fahrenheit(), 2)
+	} else {
+		rh = num(r.RH*100, 2)
+	}
+	track := ""
+	if r.HasTrack {
+		track = num(r.TrackTemp.Fahrenheit(), 2)
+	}
+	return []string{
+		r.Time.Format(DateLayout), r.Time.Format("15:04:05"),
+		num(r.Temp.Fahrenheit(), 2), num(r.Baro.InHg(), 4), r.BaroKind.String(),
+		rh, dp, num(r.Wind.MPH(), 2), windFrom(r), track, r.Note,
+	}
 }
 
 // num prints v rounded to at most decimals places, without trailing zeros.

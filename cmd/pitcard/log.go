@@ -1,17 +1,15 @@
 package main
 
 import (
-	"errors"
 	"fmt"
-	"os"
 	"strings"
-	"time"
 
 	"github.com/jedib0t/go-pretty/v6/table"
 	"github.com/jedib0t/go-pretty/v6/text"
 	"github.com/shopspring/decimal"
 	"github.com/spf13/cobra"
 
+	"pitcard/colmap"
 	"pitcard/engine"
 	"pitcard/event"
 	"pitcard/prep"
@@ -31,7 +29,7 @@ previous logbook as logbook.csv.bak.`,
   pitcard log list --last 10
   pitcard log stats`,
 	}
-	cmd.AddCommand(newLogAddCmd(s, g), newLogImportCmd(s, g), newLogListCmd(s, g), newLogStatsCmd(s, g))
+	cmd.AddCommand(newLogAddCmd(s, g), newLogImportCmd(s, g), newLogListCmd(s, g), newLogStatsCmd(s, g), newLogDiffCmd(s, g), newLogExportCmd(s, g))
 	groupCmd(cmd)
 	return cmd
 }
@@ -154,21 +152,35 @@ func altimeterLooking(e *eventFolder, passes []engine.Pass, file string) string 
 }
 
 type logImportOptions struct {
-	g *globalOptions
-	s *IOStreams
+	g            *globalOptions
+	s            *IOStreams
+	maps         mapFlags
+	SkipExisting bool
 }
 
 func newLogImportCmd(s *IOStreams, g *globalOptions) *cobra.Command {
 	o := &logImportOptions{g: g, s: s}
-	return &cobra.Command{
+	cmd := &cobra.Command{
 		Use:   "import FILE",
-		Short: "Import passes from a CSV file in the logbook's columns (all or nothing)",
-		Long: `Reads FILE, a CSV with logbook.csv's header (the metric columns temp_c,
-baro_hpa, track_temp_c, wind_kmh and weight_kg are accepted), checks every
-row, and adds them all to the logbook, or none: when any row is bad, or a
-pass is already in the logbook, every problem is listed and nothing is written.`,
-		Example: "  pitcard log import season-2026.csv",
-		Args:    cobra.ExactArgs(1),
+		Short: "Import passes from a CSV: logbook.csv's columns, a spreadsheet through a map (all or nothing)",
+		Long: `Reads FILE, checks every row, and adds them all to the logbook, or none: when
+any row is bad, or a pass is already in the logbook, every problem is listed
+and nothing is written. FILE may be in logbook.csv's columns (the metric
+columns temp_c, baro_hpa, track_temp_c, wind_kmh and weight_kg are accepted),
+or in any layout with --map MAP.yaml (which column is which field, in which
+unit and date layout; comma, semicolon or tab separated; decimal point or
+comma, detected when the map leaves them out). Without --map pitcard guesses
+a map from FILE's header, prints it, and imports with it only when given
+--yes.
+
+With --skip-existing (a crewmate's copy of the logbook), a pass already
+logged with the same values is skipped and counted; the same pass with
+another value in any field is a conflict: both versions are listed and
+nothing is written. 'pitcard log diff FILE' shows the same without writing.`,
+		Example: `  pitcard log import season-2026.csv
+  pitcard log import season.csv --map spreadsheet-map.yaml
+  pitcard log import ../theo-laptop/logbook.csv --skip-existing`,
+		Args: cobra.ExactArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			e, err := o.g.open(cmd)
 			if err != nil {
@@ -177,33 +189,42 @@ pass is already in the logbook, every problem is listed and nothing is written.`
 			if err := e.Writable(); err != nil {
 				return err
 			}
-			fh, err := os.Open(args[0])
-			if err != nil {
-				return userErrf("cannot read %s: %v", args[0], errors.Unwrap(err))
-			}
-			defer fh.Close()
-			src, err := engine.ReadLogbookFile(fh, args[0], time.Local)
+			source, err := o.maps.source(o.s, args[0], colmap.Logbook)
 			if err != nil {
 				return err
 			}
-			passes := src.Passes
-			if len(src.Bad) > 0 {
+			src, err := source.Passes()
+			if err != nil {
+				return err
+			}
+			cur, _ := e.Logbook()
+			merge := event.MergePasses(cur, src.Passes)
+			if len(src.Bad) > 0 || (len(merge.Conflicts) > 0 && !o.SkipExisting) || (merge.Same > 0 && !o.SkipExisting) {
 				// All or nothing: list every bad row, and the good rows that are already logged.
 				problems := append(engine.RowErrors(nil), src.Bad...)
-				if cur, _ := e.Logbook(); len(cur) > 0 {
-					seen := map[string]engine.Pass{}
-					for _, p := range cur {
-						seen[p.Key()] = p
+				seen := map[string]engine.Pass{}
+				for _, p := range cur {
+					seen[p.Key()] = p
+				}
+				for _, p := range src.Passes {
+					if old, ok := seen[p.Key()]; ok {
+						problems = append(problems, event.DuplicateOf(p, old, e.Name(event.LogbookFile)))
 					}
-					for _, p := range passes {
-						if old, ok := seen[p.Key()]; ok {
-							problems = append(problems, event.DuplicateOf(p, old, e.Name(event.LogbookFile)))
-						}
-					}
+				}
+				if merge.Same > 0 && len(src.Bad) == 0 {
+					return fmt.Errorf("%w\nNothing was imported (give --skip-existing to leave out the passes already logged)", problems)
 				}
 				return fmt.Errorf("%w\nNothing was imported", problems)
 			}
+			if len(merge.Conflicts) > 0 {
+				return &event.Conflicts{List: merge.Conflicts, Ours: e.Name(event.LogbookFile), TheirsIn: args[0]}
+			}
+			passes := merge.New
 			if len(passes) == 0 {
+				if merge.Same > 0 {
+					fmt.Fprintf(o.s.Out, "Nothing to import: the %s of %s are already in %s.\n", engine.Plural(merge.Same, "pass"), args[0], e.Name(event.LogbookFile))
+					return nil
+				}
 				return userErrf("%s has no passes to import", args[0])
 			}
 			if w := altimeterLooking(e, passes, args[0]); w != "" {
@@ -216,10 +237,17 @@ pass is already in the logbook, every problem is listed and nothing is written.`
 			if kept != nil {
 				fmt.Fprintln(o.s.Err, "pitcard: warning:", kept)
 			}
-			fmt.Fprintf(o.s.Out, "Imported %s from %s; %s now holds %d.\n", engine.Plural(len(passes), "pass"), args[0], e.Name(event.LogbookFile), n)
+			fmt.Fprintf(o.s.Out, "Imported %s from %s", engine.Plural(len(passes), "pass"), args[0])
+			if merge.Same > 0 {
+				fmt.Fprintf(o.s.Out, " (%s already logged, skipped)", engine.Plural(merge.Same, "pass"))
+			}
+			fmt.Fprintf(o.s.Out, "; %s now holds %d.\n", e.Name(event.LogbookFile), n)
 			return nil
 		},
 	}
+	o.maps.bind(cmd, true)
+	cmd.Flags().BoolVar(&o.SkipExisting, "skip-existing", false, "skip passes already logged with the same values (a different one stops the import)")
+	return cmd
 }
 
 type logListOptions struct {

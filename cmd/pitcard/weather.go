@@ -24,7 +24,7 @@ recent trend to the time your round will be called.`,
   pitcard weather list
   pitcard weather forecast --at 21:40`,
 	}
-	cmd.AddCommand(newWeatherAddCmd(s, g), newWeatherListCmd(s, g), newWeatherForecastCmd(s, g))
+	cmd.AddCommand(newWeatherAddCmd(s, g), newWeatherImportCmd(s, g), newWeatherListCmd(s, g), newWeatherForecastCmd(s, g))
 	groupCmd(cmd)
 	return cmd
 }

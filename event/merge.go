@@ -1,0 +1,231 @@
+package event
+
+import (
+	"bytes"
+	"errors"
+	"fmt"
+	"io"
+	"os"
+	"slices"
+	"strings"
+	"time"
+
+	"pitcard/colmap"
+	"pitcard/engine"
+	"pitcard/internal/safefile"
+	"pitcard/weather"
+)
+
+// Bringing files in: pitcard's own CSV, another layout through a column map
+// (colmap), or a crewmate's copy of the folder's files; and what such a
+// file has that the folder lacks.
+
+// Source is a file to bring in and how to read it.
+type Source struct {
+	Path string
+	Map  *colmap.Map // nil: pitcard's own columns
+}
+
+// SourceData reads a source file: its bytes, translated through its map
+// when it has one (Translation is then set, to point errors at the file's
+// own lines).
+func (s Source) read() ([]byte, *colmap.Translation, error) {
+	data, err := os.ReadFile(s.Path)
+	if err != nil {
+		return nil, nil, userErrf("cannot read %s: %v", s.Path, errors.Unwrap(err))
+	}
+	if s.Map == nil {
+		return data, nil, nil
+	}
+	tr, err := s.Map.Translate(data, s.Path)
+	if err != nil {
+		return nil, nil, err
+	}
+	return tr.CSV, tr, nil
+}
+
+// OwnLayout reports whether data's header is pitcard's own for kind (so it
+// needs no map).
+func OwnLayout(data []byte, kind colmap.Kind) bool {
+	cr, header, err := weather.OpenCSV(bytes.NewReader(bytes.TrimPrefix(data, []byte("\xef\xbb\xbf"))), "")
+	if err != nil || header == nil || cr == nil {
+		return false
+	}
+	if kind == colmap.Weather {
+		_, err := weather.ReadHeader(header, "", "weather-log", weather.LogColumns, map[string]string{
+			"temp_c": "temp_f", "baro_hpa": "baro_inhg", "dewpoint_c": "dewpoint_f", "wind_kmh": "wind_mph", "track_temp_c": "track_temp_f",
+		}, []string{"date", "time"})
+		return err == nil
+	}
+	_, _, err = weather.ReadHeaderExtra(header, "", "logbook", engine.LogbookColumns, nil, []string{"date", "time", "track", "session", "lane"})
+	return err == nil
+}
+
+// SourcePasses reads a source file's passes: every row checked; bad rows
+// come back in the logbook's Bad, at the file's own lines.
+func (s Source) Passes() (*engine.Logbook, error) {
+	data, tr, err := s.read()
+	if err != nil {
+		return nil, err
+	}
+	lb, err := engine.ReadLogbookFile(bytes.NewReader(data), s.Path, time.Local)
+	if err != nil {
+		if tr != nil {
+			return nil, tr.Remap(err)
+		}
+		return nil, err
+	}
+	if tr != nil {
+		for _, b := range lb.Bad {
+			if b.Line > 1 {
+				b.Line = tr.SourceLine(b.Line)
+			}
+		}
+		for i := range lb.Passes {
+			lb.Passes[i].Line = tr.SourceLine(lb.Passes[i].Line)
+		}
+	}
+	return lb, nil
+}
+
+// Readings reads a source file's weather readings at elevation elev.
+func (s Source) Readings(elev weather.Length) ([]weather.Reading, error) {
+	data, tr, err := s.read()
+	if err != nil {
+		return nil, err
+	}
+	log, err := weather.ReadLog(bytes.NewReader(data), s.Path, elev, time.Local)
+	if err != nil && tr != nil {
+		return nil, tr.Remap(err)
+	}
+	return log, err
+}
+
+// Conflict is one entry both copies have (the same pass, or a reading in
+// the same minute) with different values.
+type Conflict struct {
+	What                 string // "pass 2026-06-13 20:47 left" or "reading 2026-06-13 14:30"
+	Ours, Theirs         string // the two rows as pitcard writes them
+	OursLine, TheirsLine int
+}
+
+// Conflicts are every conflict between two copies; nothing is written
+// while there are any.
+type Conflicts struct {
+	List           []Conflict
+	Ours, TheirsIn string // the two files
+}
+
+func (c *Conflicts) Error() string {
+	var b strings.Builder
+	fmt.Fprintf(&b, "%s and %s disagree on %s (nothing was written; fix one copy, or leave the entry out of the import):",
+		c.Ours, c.TheirsIn, engine.Plural(len(c.List), "entry"))
+	for _, x := range c.List {
+		fmt.Fprintf(&b, "\n  %s:\n    %s line %d: %s\n    %s line %d: %s", x.What, c.Ours, x.OursLine, x.Ours, c.TheirsIn, x.TheirsLine, x.Theirs)
+	}
+	return b.String()
+}
+
+func (c *Conflicts) BadInput() bool { return true }
+
+// PassMerge is what another copy's passes hold against ours.
+type PassMerge struct {
+	New       []engine.Pass // theirs, not in ours
+	Same      int           // theirs, already in ours exactly
+	Conflicts []Conflict    // theirs, in ours with another value in some field
+}
+
+// MergePasses compares other's passes with ours, by pass (date, time, track,
+// lane) and then by every field.
+func MergePasses(ours, other []engine.Pass) PassMerge {
+	var m PassMerge
+	byKey := make(map[string]engine.Pass, len(ours))
+	for _, p := range ours {
+		byKey[p.Key()] = p
+	}
+	for _, p := range other {
+		o, ok := byKey[p.Key()]
+		switch {
+		case !ok:
+			m.New = append(m.New, p)
+			byKey[p.Key()] = p
+		case slices.Equal(engine.PassRecord(o), engine.PassRecord(p)):
+			m.Same++
+		default:
+			m.Conflicts = append(m.Conflicts, Conflict{
+				What:     fmt.Sprintf("pass %s %s lane", p.Time.Format("2006-01-02 15:04"), p.Lane),
+				Ours:     strings.Join(engine.PassRecord(o), ","), Theirs: strings.Join(engine.PassRecord(p), ","),
+				OursLine: o.Line, TheirsLine: p.Line})
+		}
+	}
+	return m
+}
+
+// ReadingMerge is what another copy's readings hold against ours.
+type ReadingMerge struct {
+	New       []weather.Reading
+	Same      int
+	Conflicts []Conflict
+}
+
+// MergeReadings compares other's readings with ours, by minute and then by
+// every field.
+func MergeReadings(ours, other []weather.Reading) ReadingMerge {
+	var m ReadingMerge
+	key := func(r weather.Reading) string { return r.Time.Format("2006-01-02 15:04") }
+	byKey := make(map[string]int, len(ours))
+	for i, r := range ours {
+		byKey[key(r)] = i
+	}
+	for i, r := range other {
+		j, ok := byKey[key(r)]
+		switch {
+		case !ok:
+			m.New = append(m.New, r)
+			byKey[key(r)] = -1
+		case j < 0: // twice in theirs
+			m.Same++
+		case slices.Equal(weather.Record(ours[j]), weather.Record(r)):
+			m.Same++
+		default:
+			m.Conflicts = append(m.Conflicts, Conflict{What: "reading " + key(r),
+				Ours: strings.Join(weather.Record(ours[j]), ","), Theirs: strings.Join(weather.Record(r), ","),
+				OursLine: j + 2, TheirsLine: i + 2})
+		}
+	}
+	return m
+}
+
+// ImportReadings adds readings to the weather log under its lock, all or
+// nothing: a reading in a minute the log has is refused (with skipExisting,
+// skipped when equal and a conflict when not). It returns how many were
+// added and skipped.
+func (e *Folder) ImportReadings(add []weather.Reading, from string, elev weather.Length, skipExisting bool) (added, skipped int, err error) {
+	if err := e.Writable(); err != nil {
+		return 0, 0, err
+	}
+	path := e.Path(WeatherFile)
+	unlock, err := safefile.Lock(path)
+	if err != nil {
+		return 0, 0, err
+	}
+	defer unlock()
+	log, err := e.WeatherLog(elev)
+	if err != nil {
+		return 0, 0, err
+	}
+	m := MergeReadings(log, add)
+	if len(m.Conflicts) > 0 {
+		return 0, 0, &Conflicts{List: m.Conflicts, Ours: e.Name(WeatherFile), TheirsIn: from}
+	}
+	if m.Same > 0 && !skipExisting {
+		return 0, 0, userErrf("%s has %s already in %s (the same minute): give --skip-existing to leave them out; nothing was written",
+			from, engine.Plural(m.Same, "reading"), e.Name(WeatherFile))
+	}
+	log = append(log, m.New...)
+	SortReadings(log)
+	if err := safefile.Write(path, func(w io.Writer) error { return weather.WriteLog(w, log) }); err != nil {
+		return 0, 0, err
+	}
+	return len(m.New), m.Same, nil
+}
