@@ -18,7 +18,6 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"sort"
 	"strconv"
 	"strings"
 	"time"
@@ -405,6 +404,16 @@ type Translation struct {
 	CSV    []byte
 	Layout Layout
 	lines  []int // the source line of each row of CSV (index: row, from 0 for the first data row)
+	// To say an error in the source's words: the source, and each of
+	// pitcard's columns' source column (and whether a unit was added).
+	source []byte
+	from   map[string]fromColumn
+}
+
+type fromColumn struct {
+	name      string
+	index     int
+	converted bool
 }
 
 // SourceLine is the source file's line of line n of the translated CSV.
@@ -425,12 +434,48 @@ func (t *Translation) Remap(err error) error {
 		for _, e := range list.Unwrap() {
 			if errors.As(e, &ie) && ie.Line > 1 {
 				ie.Line = t.SourceLine(ie.Line)
+				t.inSourceWords(ie)
 			}
 		}
 	case errors.As(err, &ie) && ie.Line > 1:
 		ie.Line = t.SourceLine(ie.Line)
+		t.inSourceWords(ie)
 	}
 	return err
+}
+
+// Fix points one error of the translated CSV at the source file's line,
+// naming the source column and its value as written.
+func (t *Translation) Fix(ie *weather.InputError) {
+	if ie != nil && ie.Line > 1 {
+		ie.Line = t.SourceLine(ie.Line)
+		t.inSourceWords(ie)
+	}
+}
+
+// inSourceWords names the source column and its value as written in an
+// error about one of pitcard's columns.
+func (t *Translation) inSourceWords(ie *weather.InputError) {
+	f, ok := t.from[ie.Field]
+	if !ok || t.source == nil {
+		return
+	}
+	cr := csv.NewReader(bytes.NewReader(bytes.TrimPrefix(t.source, []byte("\xef\xbb\xbf"))))
+	cr.Comma = t.Layout.Separator
+	cr.FieldsPerRecord = -1
+	for {
+		rec, err := cr.Read()
+		if err != nil {
+			return
+		}
+		if line, _ := cr.FieldPos(0); line == ie.Line && f.index < len(rec) {
+			if f.converted && ie.Value != "" {
+				ie.Reason += " (read as " + ie.Value + ")"
+			}
+			ie.Field, ie.Value = f.name, strings.TrimSpace(rec[f.index])
+			return
+		}
+	}
 }
 
 // Translate reads data (the source file called name) through the map into
@@ -515,6 +560,12 @@ func (m *Map) Translate(data []byte, name string) (*Translation, error) {
 				idx = index[s.Column]
 			}
 			cols = append(cols, out{col: f, f: field{f, f, text}, src: s, idx: idx})
+		}
+	}
+	tr.source, tr.from = data, map[string]fromColumn{}
+	for _, c := range cols {
+		if c.idx >= 0 && c.f.typ != date && c.f.typ != clock {
+			tr.from[c.col] = fromColumn{name: c.src.Column, index: c.idx, converted: c.src.Unit != ""}
 		}
 	}
 	var buf bytes.Buffer
@@ -848,14 +899,4 @@ func yamlString(s string) string {
 		return strconv.Quote(s)
 	}
 	return q
-}
-
-// sortedKeys is m's keys in order, for messages.
-func sortedKeys(m map[string]*Source) []string {
-	keys := make([]string, 0, len(m))
-	for k := range m {
-		keys = append(keys, k)
-	}
-	sort.Strings(keys)
-	return keys
 }

@@ -21,7 +21,7 @@ var synonyms = []struct {
 }{
 	{"track_temp", nil, []string{"track temp", "track temperature", "surface temp", "surface", "track"}},
 	{"dewpoint", nil, []string{"dew point", "dewpoint", "dew"}},
-	{"wind_from", nil, []string{"wind from", "wind dir", "wind direction", "direction", "wdir"}},
+	{"wind_from", nil, []string{"wind from", "wind dir", "wind direction", "direction", "wdir", "dir"}},
 	{"wind", nil, []string{"wind speed", "wind"}},
 	{"humidity", nil, []string{"relative humidity", "humidity", "rh", "hum"}},
 	{"baro", nil, []string{"station pressure", "barometer", "baro", "pressure", "press"}},

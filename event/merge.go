@@ -77,9 +77,7 @@ func (s Source) Passes() (*engine.Logbook, error) {
 	}
 	if tr != nil {
 		for _, b := range lb.Bad {
-			if b.Line > 1 {
-				b.Line = tr.SourceLine(b.Line)
-			}
+			tr.Fix(b)
 		}
 		for i := range lb.Passes {
 			lb.Passes[i].Line = tr.SourceLine(lb.Passes[i].Line)
@@ -153,8 +151,8 @@ func MergePasses(ours, other []engine.Pass) PassMerge {
 			m.Same++
 		default:
 			m.Conflicts = append(m.Conflicts, Conflict{
-				What:     fmt.Sprintf("pass %s %s lane", p.Time.Format("2006-01-02 15:04"), p.Lane),
-				Ours:     strings.Join(engine.PassRecord(o), ","), Theirs: strings.Join(engine.PassRecord(p), ","),
+				What: fmt.Sprintf("pass %s %s lane", p.Time.Format("2006-01-02 15:04"), p.Lane),
+				Ours: strings.Join(engine.PassRecord(o), ","), Theirs: strings.Join(engine.PassRecord(p), ","),
 				OursLine: o.Line, TheirsLine: p.Line})
 		}
 	}

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"errors"
 	"fmt"
 	"strconv"
 	"strings"
@@ -56,7 +57,7 @@ passes at the distance raced, not corrected for the air, and says so.`,
 	cmd.Flags().IntVar(&o.Rows, "rows", 5, "candidates either side of the recommendation")
 	cmd.Flags().String("breakout-risk", "", "largest breakout chance to accept, a fraction (setting breakout_risk)")
 	cmd.Flags().String("dial-step", "", "dial-in step, s (setting dial_step)")
-	cmd.Flags().StringVar(&o.Format, "format", "text", "text, markdown or json")
+	cmd.Flags().StringVar(&o.Format, "format", "text", "text, markdown, json or csv")
 	cmd.Flags().StringVar(&o.OppDial, "opponent-dial", "", "the other lane's dial-in, s: adds each dial's chance to win")
 	o.opp.bind(cmd)
 	withOut(cmd, s)
@@ -89,7 +90,7 @@ type dialJSON struct {
 }
 
 func dialRun(cmd *cobra.Command, o *dialOptions) error {
-	if err := checkFormat(o.Format, "text", "markdown", "json"); err != nil {
+	if err := checkFormat(o.Format, "text", "markdown", "json", "csv"); err != nil {
 		return err
 	}
 	if o.Rows < 1 || o.Rows > 50 {
@@ -205,6 +206,18 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 		}
 		return leftOut
 	}
+	if o.Format == "csv" {
+		rows := [][]string{{"dial", "breakout_chance", "expected_giveaway_s", "win_chance", "recommended", "predicted_et", "sd"}}
+		for _, op := range j.Options {
+			win := ""
+			if op.WinChance != nil {
+				win = fmt.Sprint(*op.WinChance)
+			}
+			rows = append(rows, []string{op.Dial, fmt.Sprint(op.BreakoutChance), fmt.Sprint(op.GiveawayS), win, fmt.Sprint(op.Recommended),
+				fmt.Sprint(j.PredictedET), fmt.Sprint(j.SD)})
+		}
+		return errors.Join(writeCSV(o.s.Out, rows), leftOut)
+	}
 	fmt.Fprintln(o.s.Out, prep.Wrap(fmt.Sprintf("Predicted ET %.3f s ± %.3f (one standard deviation): %s.", est.ET, est.SD, est.Basis), o.s.width(), "  "))
 	t := newTable(o.s, fmt.Sprintf("Dial-ins (step %s s, risk ≤ %.0f %%)", plan.Step, plan.Risk*100))
 	header := table.Row{"Dial", "Breakout chance", "Time given away", ""}
@@ -254,6 +267,9 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 // noDial prints the estimate as a guide when there are too few passes to
 // post a dial from (engine.MinPassesForDial).
 func noDial(o *dialOptions, est engine.Estimate, why string, leftOut error) error {
+	if o.Format == "csv" {
+		return errors.Join(writeCSV(o.s.Out, [][]string{{"predicted_et", "sd", "no_dial"}, {fmt.Sprint(round(est.ET, 4)), fmt.Sprint(round(est.SD, 4)), why}}), leftOut)
+	}
 	if o.Format == "json" {
 		if err := writeJSON(o.s.Out, map[string]any{"predicted_et": round(est.ET, 4), "sd": round(est.SD, 4), "basis": est.Basis,
 			"recommended": nil, "no_dial": why}); err != nil {

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"errors"
 	"fmt"
 	"strings"
 
@@ -362,9 +363,11 @@ func sec(d decimal.NullDecimal, min int) string {
 }
 
 type logStatsOptions struct {
-	g      *globalOptions
-	s      *IOStreams
-	Format string
+	g            *globalOptions
+	s            *IOStreams
+	Format       string
+	Since, Track string
+	Last         int
 }
 
 func newLogStatsCmd(s *IOStreams, g *globalOptions) *cobra.Command {
@@ -378,11 +381,14 @@ range of the clean passes, the reaction-time mean and spread, the 60-ft
 spread, and the car's consistency in words. With car.yaml and the passes'
 weather, the ET spread is also given corrected for each pass's air and track
 (the calibrated model's), and consistency is judged on that.`,
-		Example: "  pitcard log stats\n  pitcard log stats --demo --format json",
+		Example: "  pitcard log stats --since 2026-06-01\n  pitcard log stats --last 40 --track \"Juniper Bend Raceway\"\n  pitcard log stats --demo --format csv",
 		Args:    cobra.NoArgs,
 		RunE:    func(cmd *cobra.Command, _ []string) error { return logStatsRun(cmd, o) },
 	}
-	cmd.Flags().StringVar(&o.Format, "format", "text", "text, markdown or json")
+	cmd.Flags().StringVar(&o.Format, "format", "text", "text, markdown, json or csv")
+	cmd.Flags().StringVar(&o.Since, "since", "", "only passes on or after this date, YYYY-MM-DD")
+	cmd.Flags().IntVar(&o.Last, "last", 0, "only the last N passes (0 = all)")
+	cmd.Flags().StringVar(&o.Track, "track", "", "only passes at this track (its name as logged)")
 	withOut(cmd, s)
 	return cmd
 }
@@ -405,7 +411,7 @@ type statsJSON struct {
 }
 
 func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
-	if err := checkFormat(o.Format, "text", "markdown", "json"); err != nil {
+	if err := checkFormat(o.Format, "text", "markdown", "json", "csv"); err != nil {
 		return err
 	}
 	e, err := o.g.open(cmd)
@@ -427,14 +433,19 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 			residual, corrected = fit.Residuals(in), true
 		}
 	}
-	stats := engine.Stats(passes, residual)
+	// The air is taken out with the whole logbook's fit; the table shows the passes asked for.
+	shown, err := bounded(passes, o.Since, o.Last, o.Track)
+	if err != nil {
+		return err
+	}
+	stats := engine.Stats(shown, residual)
 	judge := func(s engine.GroupStats) string {
 		if corrected && s.CorrectedN > 0 {
 			return engine.Consistency(s.CorrectedSD, s.CorrectedN)
 		}
 		return engine.Consistency(s.ETSD, s.Clean)
 	}
-	if o.Format == "json" {
+	if o.Format == "json" || o.Format == "csv" {
 		out := []statsJSON{}
 		for _, s := range stats {
 			sessions := s.Kind.String()
@@ -447,12 +458,30 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 				RTMean: event.OptFloat(s.RTMean, s.RTN > 0, 4), RTSD: event.OptFloat(s.RTSD, s.RTN > 1, 4),
 				SixtySD: event.OptFloat(s.SixtySD, s.SixtyN > 1, 4), CorrectedSD: event.OptFloat(s.CorrectedSD, s.CorrectedN > 1, 4), Consistency: judge(s)})
 		}
+		if o.Format == "csv" {
+			opt := func(v *float64) string {
+				if v == nil {
+					return ""
+				}
+				return fmt.Sprint(*v)
+			}
+			rows := [][]string{{"day", "sessions", "passes", "clean", "finish_ft", "et_mean", "et_sd", "et_min", "et_max", "rt_mean", "rt_sd", "sixty_sd", "corrected_sd", "consistency"}}
+			for _, x := range out {
+				rows = append(rows, []string{x.Day, x.Sessions, fmt.Sprint(x.Passes), fmt.Sprint(x.Clean), fmt.Sprint(x.FinishFt), opt(x.ETMean), opt(x.ETSD),
+					opt(x.ETMin), opt(x.ETMax), opt(x.RTMean), opt(x.RTSD), opt(x.SixtySD), opt(x.CorrectedSD), x.Consistency})
+			}
+			return errors.Join(writeCSV(o.s.Out, rows), leftOut)
+		}
 		if err := writeJSON(o.s.Out, out); err != nil {
 			return err
 		}
 		return leftOut
 	}
-	if len(passes) == 0 {
+	if len(shown) == 0 {
+		if len(passes) > 0 {
+			fmt.Fprintf(o.s.Out, "No pass of %s matches --since, --last and --track.\n", e.Name(event.LogbookFile))
+			return leftOut
+		}
 		fmt.Fprintf(o.s.Out, "%s has no passes yet.\n", e.Name(event.LogbookFile))
 		return leftOut
 	}

@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"encoding/csv"
 	"encoding/json"
 	"fmt"
 	"io"
@@ -52,6 +53,15 @@ func (s *IOStreams) width() int {
 		return s.Width
 	}
 	return prep.Width
+}
+
+// writeCSV prints rows (the first the header) as CSV, for a spreadsheet.
+func writeCSV(w io.Writer, rows [][]string) error {
+	cw := csv.NewWriter(w)
+	if err := cw.WriteAll(rows); err != nil {
+		return err
+	}
+	return cw.Error()
 }
 
 // writeJSON prints v as indented JSON.

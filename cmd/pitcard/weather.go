@@ -1,6 +1,7 @@
 package main
 
 import (
+	"bytes"
 	"fmt"
 	"strings"
 	"time"
@@ -8,6 +9,7 @@ import (
 	"github.com/jedib0t/go-pretty/v6/table"
 	"github.com/spf13/cobra"
 
+	"pitcard/colmap"
 	"pitcard/engine"
 	"pitcard/event"
 	"pitcard/weather"
@@ -62,16 +64,33 @@ type weatherAddOptions struct {
 func newWeatherAddCmd(s *IOStreams, g *globalOptions) *cobra.Command {
 	o := &weatherAddOptions{g: g, s: s}
 	cmd := &cobra.Command{
-		Use:   "add",
-		Short: "Append one reading to weather.csv",
+		Use:   "add [-]",
+		Short: "Append one reading to weather.csv (or, with -, every reading piped in)",
 		Long: `Appends one reading to the folder's weather.csv. The reading is checked first;
 a bad value is refused with the field, the value and the valid range, and
 nothing is written. The file is replaced atomically, with the previous version
-kept as weather.csv.bak.`,
+kept as weather.csv.bak.
+
+With - it reads readings from standard input, one per line, as it comes (a
+logging script or a serial-port reader can pipe into it): each line in the
+flags' form, key=value (temp=88F baro=28.92inHg humidity=40%, time=20:41,
+notes="in quotes"), or CSV rows under a header line in weather.csv's columns.
+Each line is checked and written on its own; a bad line is reported with its
+number and skipped, and the command exits 2 at the end if any was bad. A
+line without time= is read at the moment it arrives.`,
 		Example: `  pitcard weather add --temp 86F --baro 28.95inHg --humidity 38% --wind 6mph --wind-from 210 --track-temp 121F
-  pitcard weather add --time 18:30 --temp 31C --baro 980hPa --dewpoint 11C`,
-		Args: cobra.NoArgs,
-		RunE: func(cmd *cobra.Command, _ []string) error { return weatherAddRun(cmd, o) },
+  pitcard weather add --time 18:30 --temp 31C --baro 980hPa --dewpoint 11C
+  my-logger | pitcard weather add -`,
+		Args: cobra.MaximumNArgs(1),
+		RunE: func(cmd *cobra.Command, args []string) error {
+			if len(args) == 1 {
+				if args[0] != "-" {
+					return userErrf("weather add takes - (readings from standard input) or flags, not %q", args[0])
+				}
+				return weatherStreamRun(cmd, o)
+			}
+			return weatherAddRun(cmd, o)
+		},
 	}
 	o.reading.bind(cmd)
 	cmd.Flags().StringVar(&o.Time, "time", "", "time of the reading, HH:MM today or 'YYYY-MM-DD HH:MM' (default: now)")
@@ -102,10 +121,47 @@ func weatherAddRun(cmd *cobra.Command, o *weatherAddOptions) error {
 	return nil
 }
 
+// weatherStreamRun is 'weather add -': readings from standard input.
+func weatherStreamRun(cmd *cobra.Command, o *weatherAddOptions) error {
+	if o.reading.Given() || o.Time != "" || o.Note != "" {
+		return userErrf("give the readings on standard input or as flags, not both")
+	}
+	e, err := o.g.open(cmd)
+	if err != nil {
+		return err
+	}
+	if err := e.Writable(); err != nil {
+		return err
+	}
+	u := e.Settings.Units
+	added := 0
+	bad, err := e.StreamReadings(o.s.In, o.s.Now, func(l event.StreamLine) {
+		if l.Err != nil {
+			fmt.Fprintf(o.s.Err, "pitcard: %v (skipped)\n", l.Err)
+			return
+		}
+		added++
+		r := l.Added.Reading
+		fmt.Fprintf(o.s.Out, "line %d: added the %s reading: density altitude %s, %s.\n", l.Line, r.Time.Format("15:04"),
+			r.Derive(l.Added.Elevation).DensityAltitude.Format(u.Length), r.Temp.Format(u.Temp, 1))
+	})
+	if err != nil {
+		return err
+	}
+	fmt.Fprintf(o.s.Out, "Added %s to %s", engine.Plural(added, "reading"), e.Name(event.WeatherFile))
+	if bad > 0 {
+		fmt.Fprintf(o.s.Out, "; %s skipped (see above).\n", engine.Plural(bad, "bad line"))
+		return userErrf("standard input: %s not added", engine.Plural(bad, "bad line"))
+	}
+	fmt.Fprintln(o.s.Out, ".")
+	return nil
+}
+
 type weatherListOptions struct {
 	g      *globalOptions
 	s      *IOStreams
 	Format string
+	Map    string
 	Elev   string
 }
 
@@ -118,19 +174,38 @@ func newWeatherListCmd(s *IOStreams, g *globalOptions) *cobra.Command {
 		Args:    cobra.NoArgs,
 		RunE:    func(cmd *cobra.Command, _ []string) error { return weatherListRun(cmd, o) },
 	}
-	cmd.Flags().StringVar(&o.Format, "format", "text", "text, markdown or json")
+	cmd.Flags().StringVar(&o.Format, "format", "text", "text, markdown, json or csv (weather.csv's columns, or --map's layout)")
+	cmd.Flags().StringVar(&o.Map, "map", "", "with --format csv: write in this column map's layout")
 	cmd.Flags().StringVar(&o.Elev, "elevation", "", "track elevation (default: track.yaml)")
 	withOut(cmd, s)
 	return cmd
 }
 
 func weatherListRun(cmd *cobra.Command, o *weatherListOptions) error {
-	if err := checkFormat(o.Format, "text", "markdown", "json"); err != nil {
+	if err := checkFormat(o.Format, "text", "markdown", "json", "csv"); err != nil {
 		return err
+	}
+	if o.Map != "" && o.Format != "csv" {
+		return userErrf("--map writes CSV: give --format csv with it")
 	}
 	e, elev, trackName, log, err := openWeather(cmd, o.g, o.Elev)
 	if err != nil {
 		return err
+	}
+	if o.Format == "csv" {
+		var buf bytes.Buffer
+		if err := weather.WriteLog(&buf, log); err != nil {
+			return err
+		}
+		if o.Map == "" {
+			_, err := o.s.Out.Write(buf.Bytes())
+			return err
+		}
+		m, err := readMap(o.Map, colmap.Weather)
+		if err != nil {
+			return err
+		}
+		return m.Export(o.s.Out, buf.Bytes())
 	}
 	if o.Format == "json" {
 		out := make([]airReport, len(log))

@@ -1,0 +1,141 @@
+package event
+
+import (
+	"bufio"
+	"errors"
+	"fmt"
+	"io"
+	"strings"
+	"time"
+
+	"pitcard/weather"
+)
+
+// Readings from a stream: a logging script or a serial-port reader piping
+// into 'pitcard weather add -', one reading per line, as the flags
+// (temp=88F baro=28.92inHg humidity=40%) or as CSV rows under a header in
+// weather.csv's columns.
+
+// streamKeys are the keys a line may give: the flags of 'weather add'.
+var streamKeys = []string{"temp", "baro", "baro-kind", "humidity", "dewpoint", "wind", "wind-from", "track-temp", "time", "notes"}
+
+// ParseReadingLine reads one key=value line into a reading as typed. A
+// value with spaces is written in double quotes (notes="shade on the line").
+func ParseReadingLine(line string) (NewReading, error) {
+	var nr NewReading
+	seen := map[string]bool{}
+	rest := strings.TrimSpace(line)
+	for rest != "" {
+		eq := strings.IndexByte(rest, '=')
+		if eq <= 0 {
+			word, _, _ := strings.Cut(rest, " ")
+			return nr, &weather.InputError{Field: "line", Value: word, Reason: "is not key=value (keys: " + strings.Join(streamKeys, ", ") + ")"}
+		}
+		key := strings.ToLower(strings.TrimSpace(rest[:eq]))
+		rest = rest[eq+1:]
+		var val string
+		if strings.HasPrefix(rest, `"`) {
+			end := strings.IndexByte(rest[1:], '"')
+			if end < 0 {
+				return nr, &weather.InputError{Field: key, Value: rest, Reason: "has an opening quote without its closing one"}
+			}
+			val, rest = rest[1:1+end], rest[2+end:]
+		} else {
+			val, rest, _ = strings.Cut(rest, " ")
+		}
+		rest = strings.TrimSpace(rest)
+		if seen[key] {
+			return nr, &weather.InputError{Field: key, Value: val, Reason: "is given twice on the line"}
+		}
+		seen[key] = true
+		f := &nr.Fields
+		dst := map[string]*string{"temp": &f.Temp, "baro": &f.Baro, "baro-kind": &f.BaroKind, "humidity": &f.Humidity,
+			"dewpoint": &f.DewPoint, "wind": &f.Wind, "wind-from": &f.WindFrom, "track-temp": &f.TrackTemp,
+			"time": &nr.Time, "notes": &nr.Notes}[key]
+		if dst == nil {
+			return nr, &weather.InputError{Field: "key", Value: key, Reason: "is not a key of a reading (keys: " + strings.Join(streamKeys, ", ") + ")"}
+		}
+		*dst = val
+	}
+	if !seen["temp"] && !seen["baro"] {
+		return nr, &weather.InputError{Field: "line", Value: line, Reason: "has no temp= nor baro=: not a reading"}
+	}
+	return nr, nil
+}
+
+// StreamLine is what became of one line of a stream.
+type StreamLine struct {
+	Line  int
+	Added *AddedReading
+	Err   error
+}
+
+// StreamReadings reads readings from r, one a line, and writes each to the
+// weather log as it comes (blank lines and # comments are passed over). Each
+// line's outcome goes to report; a bad line is reported and skipped. It
+// returns how many lines were bad. now is the clock of a line without time=.
+func (e *Folder) StreamReadings(r io.Reader, now func() time.Time, report func(StreamLine)) (bad int, err error) {
+	sc := bufio.NewScanner(r)
+	sc.Buffer(make([]byte, 64<<10), 64<<10)
+	var header string
+	n := 0
+	for sc.Scan() {
+		n++
+		line := strings.TrimSpace(strings.TrimPrefix(sc.Text(), "\ufeff"))
+		if line == "" || strings.HasPrefix(line, "#") {
+			continue
+		}
+		var out StreamLine
+		out.Line = n
+		switch {
+		case header == "" && !strings.Contains(line, "=") && strings.Contains(line, ","):
+			header = line // CSV rows follow, in weather.csv's columns
+			if _, err := weather.ReadLog(strings.NewReader(header+"\n"), "standard input", 0, time.Local); err != nil {
+				var ie *weather.InputError
+				if errors.As(err, &ie) {
+					ie.Line = n
+				}
+				return bad + 1, err
+			}
+			continue
+		case header != "":
+			elev, _, eerr := e.SiteElevation(ReadingFields{})
+			if eerr != nil {
+				return bad, eerr
+			}
+			log, rerr := weather.ReadLog(strings.NewReader(header+"\n"+line+"\n"), "standard input", elev, time.Local)
+			if rerr == nil && len(log) == 1 {
+				var n int
+				if n, rerr = e.AppendReading(log[0], elev, false); rerr == nil {
+					out.Added = &AddedReading{Reading: log[0], Elevation: elev, Count: n}
+				}
+			}
+			out.Err = rerr
+		default:
+			nr, perr := ParseReadingLine(line)
+			if perr == nil {
+				var a AddedReading
+				if a, perr = e.AddReading(nr, now()); perr == nil {
+					out.Added = &a
+				}
+			}
+			out.Err = perr
+		}
+		if out.Err != nil {
+			var ie *weather.InputError
+			if errors.As(out.Err, &ie) {
+				ie.File, ie.Line = "standard input", n
+				ie.Field = strings.TrimPrefix(ie.Field, "--") // the line's key, not a flag
+			}
+			if !isBadInput(out.Err) {
+				return bad, out.Err // a failing disk: stop, the rest would fail too
+			}
+			bad++
+		}
+		report(out)
+	}
+	if err := sc.Err(); err != nil {
+		return bad, fmt.Errorf("reading standard input: %w", err)
+	}
+	return bad, nil
+}
