@@ -894,8 +894,9 @@ func yamlString(s string) string {
 	if strings.ContainsAny(q, "\n") {
 		return strconv.Quote(s)
 	}
-	// Flow mappings end at commas and braces: quote anything with them.
-	if strings.ContainsAny(s, ",{}[]:#") && !strings.HasPrefix(q, `"`) && !strings.HasPrefix(q, "'") {
+	// Flow mappings end at commas and braces: quote anything with them, or
+	// with spaces and brackets, for the eye.
+	if strings.ContainsAny(s, " ,{}[]:#()%'") && !strings.HasPrefix(q, `"`) && !strings.HasPrefix(q, "'") {
 		return strconv.Quote(s)
 	}
 	return q

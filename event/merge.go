@@ -137,6 +137,10 @@ type PassMerge struct {
 // lane) and then by every field.
 func MergePasses(ours, other []engine.Pass) PassMerge {
 	var m PassMerge
+	if len(ours) == 0 { // a first import: the file's own duplicates are its reader's to find
+		m.New = other
+		return m
+	}
 	byKey := make(map[string]engine.Pass, len(ours))
 	for _, p := range ours {
 		byKey[p.Key()] = p

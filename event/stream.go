@@ -44,6 +44,9 @@ func ParseReadingLine(line string) (NewReading, error) {
 			val, rest, _ = strings.Cut(rest, " ")
 		}
 		rest = strings.TrimSpace(rest)
+		if strings.TrimSpace(val) == "" {
+			return nr, &weather.InputError{Field: key, Reason: "has no value (write key=value with no space after =)"}
+		}
 		if seen[key] {
 			return nr, &weather.InputError{Field: key, Value: val, Reason: "is given twice on the line"}
 		}

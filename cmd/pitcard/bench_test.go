@@ -68,3 +68,28 @@ func BenchmarkCard100000Passes(b *testing.B) {
 		}
 	}
 }
+
+// BenchmarkLogImport100000Mapped is the whole 'pitcard log import FILE --map
+// MAP' of a 100,000-row season spreadsheet (the example map's layout) into
+// an empty logbook: translated, every row checked, merged, written.
+func BenchmarkLogImport100000Mapped(b *testing.B) {
+	src := bigFolder(b, 100000)
+	sheet := filepath.Join(b.TempDir(), "season.csv")
+	var out, errb bytes.Buffer
+	s := &IOStreams{In: strings.NewReader(""), Out: &out, Err: &errb, Now: time.Now}
+	if code := run([]string{"log", "export", "--map", "../../colmap/testdata/spreadsheet-map.yaml", "--out", sheet, "--dir", src}, s); code != 0 {
+		b.Fatal(errb.String())
+	}
+	b.ResetTimer()
+	for i := range b.N {
+		b.StopTimer()
+		dir := filepath.Join(b.TempDir(), fmt.Sprint("empty", i))
+		if code := run([]string{"init", dir}, s); code != 0 {
+			b.Fatal(errb.String())
+		}
+		b.StartTimer()
+		if code := run([]string{"log", "import", sheet, "--map", "../../colmap/testdata/spreadsheet-map.yaml", "--dir", dir}, s); code != 0 {
+			b.Fatal(errb.String())
+		}
+	}
+}
