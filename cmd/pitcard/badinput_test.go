@@ -42,6 +42,15 @@ func TestBadInputTour(t *testing.T) {
 	_ = os.WriteFile(badAndDup, []byte(slipHeader+"2026-07-01,18:00,X,E1,left,11.5,0.02,1.6,,,,11.5,,116,88,28.9,140,,,,,\n"+
 		"2026-06-13,20:13,Juniper Bend Raceway,E2,left,11.46,0.028,1.608,4.684,7.305,9.569,11.495,93.56,117.06,84.05,27.6032,33.4,95.72,2.32,173,3350,\n"), 0o644)
 
+	// column maps gone wrong
+	mapsDir := t.TempDir()
+	badMap := filepath.Join(mapsDir, "map.yaml")
+	_ = os.WriteFile(badMap, []byte("kind: logbook\ntemp: {column: \"Temp (C)\", unit: Kelvin}\n"), 0o644)
+	leftOut := filepath.Join(mapsDir, "left.yaml")
+	_ = os.WriteFile(leftOut, []byte("time: {column: Stamp, format: \"02.01.2006 15:04\"}\ntemp: {column: \"Temp (C)\", unit: C}\nhumidity: {column: \"RH (%)\"}\n"), 0o644)
+	sheet := filepath.Join(mapsDir, "sheet.csv")
+	_ = os.WriteFile(sheet, []byte("Date;Time;Extra\n13/06/2026;20:13;1\n"), 0o644)
+
 	reading := []string{"--temp", "85F", "--baro", "27.6inHg", "--humidity", "35%"}
 	type tc struct {
 		args []string
@@ -93,6 +102,17 @@ func TestBadInputTour(t *testing.T) {
 			{[]string{"log", "list", "--dir", good, "--last", "x"}, 2, []string{"--last"}},
 			{[]string{"log", "stats", "--dir", badLog}, 2, []string{"logbook.csv line"}},
 			{[]string{"log", "stats", "--dir", good, "--format", "pdf"}, 2, []string{"--format"}},
+			{[]string{"log", "stats", "--dir", good, "--since", "June"}, 2, []string{"--since", "YYYY-MM-DD"}},
+			{[]string{"log", "diff", "--dir", good, missing}, 2, []string{"cannot read"}},
+			{[]string{"log", "export", "--dir", good, "--map", missing}, 2, []string{"--map", "cannot read"}},
+		},
+		"maps and streams": {
+			{[]string{"log", "import", "--dir", good, maps + "meter-export.csv", "--map", badMap}, 2, []string{"map.yaml line 2", "temp.unit", "Kelvin", "use F, C"}},
+			{[]string{"log", "import", "--dir", good, sheet, "--map", maps + "spreadsheet-map.yaml"}, 2, []string{"spreadsheet-map.yaml line 9", `track.column "Track" is not a column of`, `"Date", "Time", "Extra"`}},
+			{[]string{"log", "import", "--dir", good, maps + "meter-export.csv"}, 2, []string{"the guessed map is not enough", "time", "track"}},
+			{[]string{"weather", "import", "--dir", good, maps + "meter-export.csv", "--map", leftOut}, 2, []string{"left.yaml line 1", "baro", "is required"}},
+			{[]string{"weather", "add", "--dir", good, "file.txt"}, 2, []string{"takes - (readings from standard input)"}},
+			{[]string{"weather", "add", "-", "--dir", good, "--temp", "80F"}, 2, []string{"not both"}},
 		},
 		"race": {
 			{[]string{"race", "--left-dial", "14.2", "--left-rt", ".5", "--left-et", "14.3", "--right-dial", "13", "--right-rt", ".5"}, 2, []string{"--right-et is required"}},

@@ -209,8 +209,19 @@ func TestListsAsCSV(t *testing.T) {
 	if got := mustRun(t, "weather", "list", "--format", "csv", "--dir", dir); got != read(t, filepath.Join(dir, event.WeatherFile)) {
 		t.Errorf("weather list --format csv must be weather.csv's rows:\n%.200s", got)
 	}
-	if got := mustRun(t, "weather", "list", "--format", "csv", "--map", maps+"meter-map.yaml", "--dir", dir); !strings.HasPrefix(got, "Stamp;Temp (C);") {
+	got := mustRun(t, "weather", "list", "--format", "csv", "--map", maps+"meter-map.yaml", "--dir", dir)
+	if !strings.HasPrefix(got, "Stamp;Temp (C);") {
 		t.Errorf("weather list --map: %.200s", got)
+	}
+	// ... and imports back through the same map, byte for byte.
+	export := filepath.Join(t.TempDir(), "meter.csv")
+	if err := os.WriteFile(export, []byte(got), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	fresh := newFolder(t)
+	mustRun(t, "weather", "import", export, "--map", maps+"meter-map.yaml", "--dir", fresh, "--elevation", "2240ft")
+	if a, b := read(t, filepath.Join(fresh, event.WeatherFile)), read(t, filepath.Join(dir, event.WeatherFile)); a != b {
+		t.Errorf("the weather log did not come back through the meter map byte for byte")
 	}
 	stats := mustRun(t, "log", "stats", "--format", "csv", "--since", "2026-06-13", "--dir", dir)
 	if !strings.HasPrefix(stats, "day,sessions,passes,clean,") || strings.Contains(stats, "2026-06-12") || !strings.Contains(stats, "2026-06-13,") {
