@@ -849,7 +849,8 @@ func inUnit(v, unit string, typ valueType) string {
 // YAML writes the map as a map file, commented.
 func (m *Map) YAML() []byte {
 	var b strings.Builder
-	fmt.Fprintf(&b, "# pitcard column map for the %s (pitcard %s import --map FILE)\n", m.Kind, m.Kind)
+	cmd := map[Kind]string{Weather: "weather", Logbook: "log"}[m.Kind]
+	fmt.Fprintf(&b, "# pitcard column map for the %s (pitcard %s import FILE --map THIS.yaml)\n", m.Kind, cmd)
 	fmt.Fprintf(&b, "kind: %s\n", m.Kind)
 	if m.Separator != 0 {
 		fmt.Fprintf(&b, "separator: %s\n", map[rune]string{',': `","`, ';': `";"`, '\t': "tab"}[m.Separator])

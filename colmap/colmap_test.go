@@ -223,7 +223,7 @@ func TestSniff(t *testing.T) {
 }
 
 func TestGuessReadsUnitsFromHeaders(t *testing.T) {
-	m, notes := Guess([]byte("Stamp;Temp (C);Baro (hPa);RH (%);Wind (km/h);Dir;Surface (C);Batt\n13.06.2026 13:30;33,6;932,2;22;5,0;190;61,1;87\n"), "x.csv", Weather)
+	m, notes := Guess([]byte("Stamp;Temp (C);Baro (hPa);RH (%);Wind (km/h);Dir;Surface (C);Batt\n13.06.2026 13:30;33,6;932,2;22;5,0;190;61,1;87\n"), "x.csv", Weather, nil)
 	want := map[string]Source{
 		"time": {Column: "Stamp", Format: "02.01.2006 15:04"}, "temp": {Column: "Temp (C)", Unit: "C"}, "baro": {Column: "Baro (hPa)", Unit: "hPa"},
 		"humidity": {Column: "RH (%)"}, "wind": {Column: "Wind (km/h)", Unit: "km/h"}, "wind_from": {Column: "Dir"}, "track_temp": {Column: "Surface (C)", Unit: "C"},
@@ -248,14 +248,14 @@ func TestGuessReadsUnitsFromHeaders(t *testing.T) {
 	if string(again.YAML()) != string(m.YAML()) {
 		t.Errorf("the printed map does not read back the same:\n%s\n%s", m.YAML(), again.YAML())
 	}
-	lb, _ := Guess([]byte("date,time,temp_f,baro_inhg,Pressure inHg,humidity\n2026-06-13,14:00,90,27.5,27.5,20\n"), "y.csv", Weather)
+	lb, _ := Guess([]byte("date,time,temp_f,baro_inhg,Pressure inHg,humidity\n2026-06-13,14:00,90,27.5,27.5,20\n"), "y.csv", Weather, nil)
 	if s := lb.Fields["temp"]; s == nil || s.Unit != "F" || s.Column != "temp_f" {
 		t.Errorf("temp_f: %+v", s)
 	}
 	if s := lb.Fields["baro"]; s == nil || s.Unit != "inHg" {
 		t.Errorf("baro_inhg: %+v", s)
 	}
-	sheet, _ := Guess([]byte("Date,Time,Run,Lane,Dial,R/T,60',1/8,1/8 mph,1/4,1/4 mph\n06/13/2026,19:23,E1,left,11.45,.021,1.61,7.3,94,11.44,117\n"), "s.csv", Logbook)
+	sheet, _ := Guess([]byte("Date,Time,Run,Lane,Dial,R/T,60',1/8,1/8 mph,1/4,1/4 mph\n06/13/2026,19:23,E1,left,11.45,.021,1.61,7.3,94,11.44,117\n"), "s.csv", Logbook, nil)
 	for f, col := range map[string]string{"session": "Run", "rt": "R/T", "et60": "60'", "et660": "1/8", "mph660": "1/8 mph", "et1320": "1/4", "mph1320": "1/4 mph"} {
 		if s := sheet.Fields[f]; s == nil || s.Column != col {
 			t.Errorf("%s: %+v, want column %q", f, s, col)

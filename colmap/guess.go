@@ -3,6 +3,7 @@ package colmap
 import (
 	"bytes"
 	"encoding/csv"
+	"fmt"
 	"regexp"
 	"strings"
 	"time"
@@ -80,12 +81,14 @@ var timeLayouts = []string{
 	"2006-01-02 15:04:05", "2006-01-02 15:04", "2006-01-02T15:04:05", "2006-01-02T15:04",
 	"01/02/2006 3:04:05 PM", "01/02/2006 3:04 PM", "01/02/2006 15:04:05", "01/02/2006 15:04",
 	"02.01.2006 15:04:05", "02.01.2006 15:04", "02/01/2006 15:04",
-	"2006-01-02", "01/02/2006", "02.01.2006", "15:04:05", "15:04", "3:04 PM", "3:04:05 PM",
+	"2006-01-02", "01/02/2006", "02/01/2006", "02.01.2006", "15:04:05", "15:04", "3:04 PM", "3:04:05 PM",
 }
 
 // Guess makes a map for data from its header and first rows. notes say
 // what it could not place (those columns are skipped) and what it assumed.
-func Guess(data []byte, name string, kind Kind) (*Map, []string) {
+// defaults are constants for required fields the file lacks (the folder's
+// track), each said in a note.
+func Guess(data []byte, name string, kind Kind, defaults map[string]string) (*Map, []string) {
 	m := &Map{File: "(guessed)", Kind: kind, Fields: map[string]*Source{}, lines: map[string]int{}}
 	lay := Sniff(data)
 	m.Separator, m.Decimal = lay.Separator, lay.Decimal
@@ -133,6 +136,11 @@ func Guess(data []byte, name string, kind Kind) (*Map, []string) {
 					if !(field == "time" && (l == "15:04" || l == "15:04:05")) && !(field == "date" && l == "2006-01-02") {
 						src.Format = l
 					}
+					if eu := strings.NewReplacer("01/02", "02/01").Replace(l); eu != l {
+						if _, err := time.Parse(eu, v); err == nil {
+							notes = append(notes, fmt.Sprintf("%s %q reads as month/day (%s); if it is day/month, make its format %q", h, v, l, eu))
+						}
+					}
 					break
 				}
 			}
@@ -140,9 +148,16 @@ func Guess(data []byte, name string, kind Kind) (*Map, []string) {
 		m.Fields[field] = src
 		m.Order = append(m.Order, field)
 	}
-	if kind == Logbook {
-		if _, ok := m.Fields["track"]; !ok {
-			notes = append(notes, "no track column: add a constant, e.g. track: Juniper Bend Raceway")
+	for _, f := range []string{"track"} {
+		if _, ok := m.Fields[f]; ok || kind != Logbook {
+			continue
+		}
+		if v := defaults[f]; v != "" {
+			m.Fields[f] = &Source{Value: v}
+			m.Order = append(m.Order, f)
+			notes = append(notes, fmt.Sprintf("no %s column: every pass is taken as at %s (this folder's); change the constant if they ran elsewhere", f, v))
+		} else {
+			notes = append(notes, "no "+f+" column: add a constant, e.g. track: Juniper Bend Raceway")
 		}
 	}
 	return m, notes

@@ -102,8 +102,9 @@ func (s Source) Readings(elev weather.Length) ([]weather.Reading, error) {
 // Conflict is one entry both copies have (the same pass, or a reading in
 // the same minute) with different values.
 type Conflict struct {
-	What                 string // "pass 2026-06-13 20:47 left" or "reading 2026-06-13 14:30"
-	Ours, Theirs         string // the two rows as pitcard writes them
+	What                 string      // "pass 2026-06-13 20:47 left" or "reading 2026-06-13 14:30"
+	Differs              [][3]string // the columns that differ: name, our value, theirs
+	Ours, Theirs         string      // the two rows as pitcard writes them
 	OursLine, TheirsLine int
 }
 
@@ -119,7 +120,11 @@ func (c *Conflicts) Error() string {
 	fmt.Fprintf(&b, "%s and %s disagree on %s (nothing was written; fix one copy, or leave the entry out of the import):",
 		c.Ours, c.TheirsIn, engine.Plural(len(c.List), "entry"))
 	for _, x := range c.List {
-		fmt.Fprintf(&b, "\n  %s:\n    %s line %d: %s\n    %s line %d: %s", x.What, c.Ours, x.OursLine, x.Ours, c.TheirsIn, x.TheirsLine, x.Theirs)
+		var d []string
+		for _, f := range x.Differs {
+			d = append(d, fmt.Sprintf("%s %q in %s, %q in %s", f[0], f[1], c.Ours, f[2], c.TheirsIn))
+		}
+		fmt.Fprintf(&b, "\n  %s: %s\n    %s line %d: %s\n    %s line %d: %s", x.What, strings.Join(d, "; "), c.Ours, x.OursLine, x.Ours, c.TheirsIn, x.TheirsLine, x.Theirs)
 	}
 	return b.String()
 }
@@ -155,8 +160,9 @@ func MergePasses(ours, other []engine.Pass) PassMerge {
 			m.Same++
 		default:
 			m.Conflicts = append(m.Conflicts, Conflict{
-				What: fmt.Sprintf("pass %s %s lane", p.Time.Format("2006-01-02 15:04"), p.Lane),
-				Ours: strings.Join(engine.PassRecord(o), ","), Theirs: strings.Join(engine.PassRecord(p), ","),
+				What:    fmt.Sprintf("pass %s %s lane", p.Time.Format("2006-01-02 15:04"), p.Lane),
+				Differs: differs(engine.LogbookColumns, engine.PassRecord(o), engine.PassRecord(p)),
+				Ours:    strings.Join(engine.PassRecord(o), ","), Theirs: strings.Join(engine.PassRecord(p), ","),
 				OursLine: o.Line, TheirsLine: p.Line})
 		}
 	}
@@ -191,7 +197,8 @@ func MergeReadings(ours, other []weather.Reading) ReadingMerge {
 			m.Same++
 		default:
 			m.Conflicts = append(m.Conflicts, Conflict{What: "reading " + key(r),
-				Ours: strings.Join(weather.Record(ours[j]), ","), Theirs: strings.Join(weather.Record(r), ","),
+				Differs: differs(weather.LogColumns, weather.Record(ours[j]), weather.Record(r)),
+				Ours:    strings.Join(weather.Record(ours[j]), ","), Theirs: strings.Join(weather.Record(r), ","),
 				OursLine: j + 2, TheirsLine: i + 2})
 		}
 	}
@@ -230,4 +237,15 @@ func (e *Folder) ImportReadings(add []weather.Reading, from string, elev weather
 		return 0, 0, err
 	}
 	return len(m.New), m.Same, nil
+}
+
+// differs lists the columns where two rows differ, with both values.
+func differs(cols, a, b []string) [][3]string {
+	var out [][3]string
+	for i, c := range cols {
+		if i < len(a) && i < len(b) && a[i] != b[i] {
+			out = append(out, [3]string{c, a[i], b[i]})
+		}
+	}
+	return out
 }

@@ -41,7 +41,7 @@ func readMap(path string, kind colmap.Kind) (*colmap.Map, error) {
 
 // source is how to read FILE: pitcard's own columns, --map, or a guess the
 // crew has confirmed with --yes.
-func (f *mapFlags) source(s *IOStreams, path string, kind colmap.Kind) (event.Source, error) {
+func (f *mapFlags) source(s *IOStreams, e *eventFolder, path string, kind colmap.Kind) (event.Source, error) {
 	src := event.Source{Path: path}
 	if f.Map != "" {
 		m, err := readMap(f.Map, kind)
@@ -70,7 +70,11 @@ func (f *mapFlags) source(s *IOStreams, path string, kind colmap.Kind) (event.So
 	if event.OwnLayout(data, kind) {
 		return src, nil
 	}
-	guess, notes := colmap.Guess(data, path, kind)
+	defaults := map[string]string{}
+	if trk, err := e.Track(); err == nil {
+		defaults["track"] = trk.Name
+	}
+	guess, notes := colmap.Guess(data, path, kind, defaults)
 	text := guess.YAML()
 	fmt.Fprintf(s.Out, "%s is not in pitcard's columns. The map pitcard guesses from its header (%s):\n\n%s\n",
 		path, colmap.Sniff(data), indent(string(text)))
@@ -140,7 +144,7 @@ conflict: both versions are listed and nothing is written.`,
 			if err != nil {
 				return err
 			}
-			src, err := o.maps.source(o.s, args[0], colmap.Weather)
+			src, err := o.maps.source(o.s, e, args[0], colmap.Weather)
 			if err != nil {
 				return err
 			}

@@ -190,7 +190,7 @@ nothing is written. 'pitcard log diff FILE' shows the same without writing.`,
 			if err := e.Writable(); err != nil {
 				return err
 			}
-			source, err := o.maps.source(o.s, args[0], colmap.Logbook)
+			source, err := o.maps.source(o.s, e, args[0], colmap.Logbook)
 			if err != nil {
 				return err
 			}
