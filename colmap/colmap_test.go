@@ -319,3 +319,26 @@ func BenchmarkImport100000(b *testing.B) {
 		}
 	}
 }
+
+// A byte-order mark, CRLF line ends and tabs read as commas and LF do.
+func TestBOMCRLFAndTabs(t *testing.T) {
+	m, err := Read([]byte("time: {column: When, format: \"2006-01-02 15:04\"}\ntemp: {column: T, unit: C}\nbaro: {column: P, unit: hPa}\nhumidity: {column: RH}\n"), "t.yaml", Weather)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for name, data := range map[string]string{
+		"tabs, CRLF, BOM": "\xef\xbb\xbfWhen\tT\tP\tRH\r\n2026-06-13 14:00\t34,4\t932,1\t21\r\n",
+		"commas":          "When,T,P,RH\n2026-06-13 14:00,34.4,932.1,21\n",
+		"semicolons":      "When;T;P;RH\n2026-06-13 14:00;34.4;932.1;21\n",
+	} {
+		tr, err := m.Translate([]byte(data), "x.csv")
+		if err != nil {
+			t.Errorf("%s: %v", name, err)
+			continue
+		}
+		log, err := weather.ReadLog(bytes.NewReader(tr.CSV), "x.csv", weather.Feet(2240), time.Local)
+		if err != nil || len(log) != 1 || log[0].Temp.Fahrenheit() < 93.91 || log[0].Temp.Fahrenheit() > 93.93 {
+			t.Errorf("%s: %v %+v", name, err, log)
+		}
+	}
+}

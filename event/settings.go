@@ -55,6 +55,9 @@ type OpenOptions struct {
 	// --units), over the environment and pitcard.yaml. A bad one is named
 	// as its flag, "--" and the key with dashes.
 	Set map[string]string
+	// Env looks up the front end's environment (os.Getenv): PITCARD_UNITS
+	// and the others, over pitcard.yaml. nil: no environment.
+	Env func(string) string
 }
 
 // Open opens an event folder (or the demo) and reads its settings: the
@@ -79,9 +82,12 @@ func Open(o OpenOptions) (*Folder, error) {
 	for k, d := range SettingDefaults {
 		v.SetDefault(k, d)
 	}
-	v.SetEnvPrefix("PITCARD")
-	v.SetEnvKeyReplacer(strings.NewReplacer("-", "_", ".", "_"))
-	v.AutomaticEnv()
+	env := func(key string) string {
+		if o.Env == nil {
+			return ""
+		}
+		return o.Env("PITCARD_" + strings.ToUpper(key))
+	}
 	var settingsDoc *yamlfile.Doc
 	if data, err := fs.ReadFile(e.FS, SettingsFile); err == nil {
 		if err := CheckSettingsKeys(data, e.Name(SettingsFile)); err != nil {
@@ -94,6 +100,11 @@ func Open(o OpenOptions) (*Folder, error) {
 		}
 	} else if !errors.Is(err, fs.ErrNotExist) {
 		return nil, err
+	}
+	for k := range SettingDefaults { // the environment over the file, the front end's over both
+		if val := env(k); val != "" {
+			v.Set(k, val)
+		}
 	}
 	for k, val := range o.Set {
 		v.Set(k, val)
@@ -108,8 +119,8 @@ func Open(o OpenOptions) (*Folder, error) {
 		c := *ie
 		if _, ok := o.Set[key]; ok {
 			c.Field = "--" + strings.ReplaceAll(key, "_", "-")
-		} else if env := "PITCARD_" + strings.ToUpper(key); os.Getenv(env) != "" {
-			c.Field = env + " (setting " + key + ")"
+		} else if env(key) != "" {
+			c.Field = "PITCARD_" + strings.ToUpper(key) + " (setting " + key + ")"
 		} else if settingsDoc != nil && settingsDoc.Line(key) > 0 {
 			c.Field, c.File, c.Line = key, e.Name(SettingsFile), settingsDoc.Line(key)
 		}
