@@ -69,9 +69,8 @@ type Server struct {
 	denied *template.Template
 	logMu  sync.Mutex
 
-	cacheMu sync.Mutex
-	cards   map[string]*cachedCard
-	fits    map[string]*cachedFit
+	cards memo[gathered]
+	fits  memo[fitted]
 }
 
 // New makes the pit page's handler.
@@ -82,7 +81,7 @@ func New(cfg Config) (*Server, error) {
 	if cfg.Tokens.Crew == "" || cfg.Tokens.View == "" || cfg.Tokens.Secret == "" {
 		return nil, errors.New("pitpage: the crew, view and secret tokens are required")
 	}
-	s := &Server{cfg: cfg, mux: http.NewServeMux(), pages: map[string]*template.Template{}, cards: map[string]*cachedCard{}, fits: map[string]*cachedFit{}}
+	s := &Server{cfg: cfg, mux: http.NewServeMux(), pages: map[string]*template.Template{}}
 	funcs := template.FuncMap{}
 	base, err := template.New("").Funcs(funcs).ParseFS(assets, "assets/layout.html")
 	if err != nil {
@@ -410,74 +409,71 @@ func isBadInput(err error) bool {
 // round and the same minute of the clock; phones asking at once for a card
 // being made wait for it instead of making it again.
 func (s *Server) gather(q *request, round string) (prep.Card, []string, error) {
-	key := stamp(q.folder) + "|" + round + "|" + q.now.Truncate(time.Minute).Format(time.RFC3339)
-	if q.folder.Demo {
-		key = "demo|" + round + "|" + q.now.Truncate(time.Minute).Format(time.RFC3339)
-	}
-	s.cacheMu.Lock()
-	c, ok := s.cards[key]
-	if !ok {
-		c = &cachedCard{ready: make(chan struct{})}
-		if len(s.cards) >= maxCachedCards {
-			clear(s.cards)
+	minute := q.now.Truncate(time.Minute).Format(time.RFC3339)
+	c := s.cards.get(stamp(q.folder)+"|"+round+"|"+minute, func() gathered {
+		in, warnings, err := q.folder.GatherRound(event.RoundRequest{Round: round}, q.now)
+		if !event.Usable(err) {
+			return gathered{warnings: warnings, err: err}
 		}
-		s.cards[key] = c
-	}
-	s.cacheMu.Unlock()
-	if ok {
-		<-c.ready
-		return c.card, c.warnings, c.err
-	}
-	defer close(c.ready)
-	in, warnings, err := q.folder.GatherRound(event.RoundRequest{Round: round}, q.now)
-	c.warnings = warnings
-	if !event.Usable(err) {
-		c.err = err
-		return prep.Card{}, warnings, err
-	}
-	// The fit is made from the car, the tracks, the logbook and the clock:
-	// a new reading, a tick or the other lane's dial leave it as it was.
-	fitKey := fitStamp(q.folder) + "|" + round + "|" + q.now.Truncate(time.Minute).Format(time.RFC3339)
-	in.Calibrate = func(cal engine.CalibrateInput) (engine.Fit, error) { return s.fit(fitKey, cal) }
-	c.card = prep.Gather(in)
-	return c.card, c.warnings, nil
-}
-
-type cachedFit struct {
-	ready chan struct{}
-	fit   engine.Fit
-	err   error
-}
-
-// fit is engine.Calibrate, kept by key.
-func (s *Server) fit(key string, cal engine.CalibrateInput) (engine.Fit, error) {
-	s.cacheMu.Lock()
-	f, ok := s.fits[key]
-	if !ok {
-		f = &cachedFit{ready: make(chan struct{})}
-		if len(s.fits) >= maxCachedCards {
-			clear(s.fits)
+		// The fit is made from the car, the tracks, the logbook and the
+		// clock: a new reading, a tick or the other lane's dial leave it.
+		fitKey := fitStamp(q.folder) + "|" + round + "|" + minute
+		in.Calibrate = func(cal engine.CalibrateInput) (engine.Fit, error) {
+			f := s.fits.get(fitKey, func() fitted {
+				fit, err := engine.Calibrate(cal)
+				return fitted{fit, err}
+			})
+			return f.fit, f.err
 		}
-		s.fits[key] = f
-	}
-	s.cacheMu.Unlock()
-	if ok {
-		<-f.ready
-		return f.fit, f.err
-	}
-	defer close(f.ready)
-	f.fit, f.err = engine.Calibrate(cal)
-	return f.fit, f.err
+		return gathered{card: prep.Gather(in), warnings: warnings}
+	})
+	return c.card, c.warnings, c.err
 }
 
-// maxCachedCards bounds the cache: the rounds of a day at one stamp.
-const maxCachedCards = 32
-
-type cachedCard struct {
-	ready    chan struct{}
+type gathered struct {
 	card     prep.Card
 	warnings []string
 	err      error
+}
+
+type fitted struct {
+	fit engine.Fit
+	err error
+}
+
+// memo keeps values by key, made once: a caller asking for a value being
+// made waits for it. It holds at most maxMemo values (then starts afresh:
+// the keys of one folder state are few).
+type memo[V any] struct {
+	mu sync.Mutex
+	m  map[string]*memoEntry[V]
+}
+
+type memoEntry[V any] struct {
+	ready chan struct{}
+	v     V
+}
+
+const maxMemo = 32
+
+func (c *memo[V]) get(key string, build func() V) V {
+	c.mu.Lock()
+	e, ok := c.m[key]
+	if !ok {
+		if c.m == nil || len(c.m) >= maxMemo {
+			c.m = map[string]*memoEntry[V]{}
+		}
+		e = &memoEntry[V]{ready: make(chan struct{})}
+		c.m[key] = e
+	}
+	c.mu.Unlock()
+	if ok {
+		<-e.ready
+		return e.v
+	}
+	defer close(e.ready)
+	e.v = build()
+	return e.v
 }
 
 // rounds are the schedule's sessions, for the round links.
