@@ -515,5 +515,18 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 		fmt.Fprintln(o.s.Out, "Spreads are one standard deviation, as run (no car.yaml or no weather in the logbook): the air moving\nthrough a day counts as scatter.")
 	}
 	fmt.Fprintln(o.s.Out, "Very consistent (≤ 0.015 s): dial it with confidence. Consistent (≤ 0.030).\nSome scatter (≤ 0.060): check the notes, tires, routine.\nInconsistent: look for lifted or spinning runs.")
+	if days := countDays(stats); days > 30 && o.Since == "" && o.Last == 0 {
+		fmt.Fprintf(o.s.Err, "pitcard: %d days shown: bound them with --since DATE, --last N or --track NAME\n", days)
+	}
 	return leftOut
+}
+
+func countDays(stats []engine.GroupStats) int {
+	n := 0
+	for _, s := range stats {
+		if s.All {
+			n++
+		}
+	}
+	return n
 }
