@@ -20,15 +20,18 @@ import (
 func newLogCmd(s *IOStreams, g *globalOptions) *cobra.Command {
 	cmd := &cobra.Command{
 		Use:   "log",
-		Short: "The car's logbook: add a pass from its time slip, import a season, list, stats",
+		Short: "The car's logbook: add a pass from its time slip, import, compare with a copy, export, list, stats",
 		Long: `logbook.csv holds one row per pass: the time slip and the conditions it ran in.
 Every row is checked; a bad one is refused with its file, line, column, value
 and the rule it breaks, and nothing is written. Writes are atomic and keep the
 previous logbook as logbook.csv.bak.`,
 		Example: `  pitcard log add --session E1 --lane left --dial 11.52 --rt .021 --et60 1.612 --et1320 11.538 --mph1320 116.79
   pitcard log import season-2026.csv
+  pitcard log import season.csv --map spreadsheet-map.yaml
+  pitcard log diff ../theo-laptop/logbook.csv
+  pitcard log export --since 2026-06-01 --out june.csv
   pitcard log list --last 10
-  pitcard log stats`,
+  pitcard log stats --last 40`,
 	}
 	cmd.AddCommand(newLogAddCmd(s, g), newLogImportCmd(s, g), newLogListCmd(s, g), newLogStatsCmd(s, g), newLogDiffCmd(s, g), newLogExportCmd(s, g))
 	groupCmd(cmd)

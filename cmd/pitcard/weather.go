@@ -18,11 +18,13 @@ import (
 func newWeatherCmd(s *IOStreams, g *globalOptions) *cobra.Command {
 	cmd := &cobra.Command{
 		Use:   "weather",
-		Short: "The weather log: add readings through the day, list them, forecast the air at call time",
+		Short: "The weather log: add readings through the day (or a stream), import a meter's file, list, forecast the air at call time",
 		Long: `weather.csv keeps the readings a crew takes through the day. 'add' appends one,
 'list' shows them with their density altitude, and 'forecast' extends the
 recent trend to the time your round will be called.`,
 		Example: `  pitcard weather add --temp 86F --baro 28.95 --humidity 38% --track-temp 121F
+  my-logger | pitcard weather add -
+  pitcard weather import meter-export.csv --map meter-map.yaml
   pitcard weather list
   pitcard weather forecast --at 21:40`,
 	}
