@@ -8,6 +8,7 @@ import (
 	"os"
 	"path/filepath"
 	"regexp"
+	"slices"
 	"strings"
 	"sync"
 	"testing"
@@ -37,7 +38,13 @@ func serveFor(t *testing.T, args ...string) (crew, view string, out *lockedBuffe
 	stop := make(chan struct{})
 	done := make(chan int, 1)
 	s := &IOStreams{In: strings.NewReader(""), Out: out, Err: out, Now: func() time.Time { return fixedNow }, Stop: stop}
-	go func() { done <- run(append([]string{"serve", "--addr", "127.0.0.1:0", "--no-qr"}, args...), s) }()
+	base := []string{"serve", "--addr", "127.0.0.1:0"}
+	if !slices.Contains(args, "--qr") {
+		base = append(base, "--no-qr")
+	} else {
+		args = slices.DeleteFunc(slices.Clone(args), func(a string) bool { return a == "--qr" })
+	}
+	go func() { done <- run(append(base, args...), s) }()
 	link := regexp.MustCompile(`(crew|view) \(reads[^:]*:\s+(http://\S+)`)
 	for deadline := time.Now().Add(10 * time.Second); time.Now().Before(deadline); time.Sleep(20 * time.Millisecond) {
 		if m := link.FindAllStringSubmatch(out.String(), -1); len(m) == 2 {
@@ -123,9 +130,14 @@ func TestServeKeepsAndRevokesTokens(t *testing.T) {
 }
 
 func TestServeTheDemo(t *testing.T) {
-	crew, _, out := serveFor(t, "--demo")
+	crew, _, out := serveFor(t, "--demo", "--qr")
 	if !strings.Contains(out.String(), "for this run only") {
 		t.Errorf("the demo's links last one run:\n%s", out.String())
+	}
+	// The crew link's QR code: a square of half-block characters, a quiet zone around it.
+	qr := regexp.MustCompile(`(?m)^[█▀▄ ]{25,}$`).FindAllString(out.String(), -1)
+	if !strings.Contains(out.String(), "Scan for the crew link:") || len(qr) < 12 || len([]rune(qr[0])) != len([]rune(qr[len(qr)-1])) {
+		t.Errorf("no QR code of the crew link (%d rows):\n%s", len(qr), out.String())
 	}
 	if code, body := get(t, crew); code != 200 || !strings.Contains(body, "read-only") {
 		t.Errorf("the demo card: %d", code)
