@@ -76,8 +76,10 @@ type StreamLine struct {
 // StreamReadings reads readings from r, one a line, and writes each to the
 // weather log as it comes (blank lines and # comments are passed over). Each
 // line's outcome goes to report; a bad line is reported and skipped. It
-// returns how many lines were bad. now is the clock of a line without time=.
-func (e *Folder) StreamReadings(r io.Reader, now func() time.Time, report func(StreamLine)) (bad int, err error) {
+// returns how many lines were bad. now is the clock of a line without time=;
+// with replace, a reading in a minute already logged takes its place (a
+// logger reading every few seconds keeps the minute's latest).
+func (e *Folder) StreamReadings(r io.Reader, now func() time.Time, replace bool, report func(StreamLine)) (bad int, err error) {
 	sc := bufio.NewScanner(r)
 	sc.Buffer(make([]byte, 64<<10), 64<<10)
 	var header string
@@ -109,13 +111,14 @@ func (e *Folder) StreamReadings(r io.Reader, now func() time.Time, report func(S
 			log, rerr := weather.ReadLog(strings.NewReader(header+"\n"+line+"\n"), "standard input", elev, time.Local)
 			if rerr == nil && len(log) == 1 {
 				var n int
-				if n, rerr = e.AppendReading(log[0], elev, false); rerr == nil {
+				if n, rerr = e.AppendReading(log[0], elev, replace); rerr == nil {
 					out.Added = &AddedReading{Reading: log[0], Elevation: elev, Count: n}
 				}
 			}
 			out.Err = rerr
 		default:
 			nr, perr := ParseReadingLine(line)
+			nr.Replace = replace
 			if perr == nil {
 				var a AddedReading
 				if a, perr = e.AddReading(nr, now()); perr == nil {

@@ -194,6 +194,18 @@ func TestReadingsStreamIn(t *testing.T) {
 	if !strings.Contains(w, ",19:10:00,88,28.92,") || !strings.Contains(w, ",19:12:00,80,28.9,") || strings.Contains(w, "19:11") || !strings.Contains(w, "fan on") {
 		t.Errorf("weather.csv:\n%s", w)
 	}
+	// A logger reading twice a minute: the later one is refused, or with --replace kept.
+	out.Reset()
+	errb.Reset()
+	s.In = strings.NewReader("temp=81 baro=28.9 humidity=44 time=19:12\n")
+	if code := run([]string{"weather", "add", "-", "--dir", dir, "--elevation", "2240ft"}, s); code != exitBadInput || !strings.Contains(errb.String(), "already has a reading at") {
+		t.Errorf("the same minute again: %d %q", code, errb.String())
+	}
+	s.In = strings.NewReader("temp=81 baro=28.9 humidity=44 time=19:12\n")
+	if code := run([]string{"weather", "add", "-", "--replace", "--dir", dir, "--elevation", "2240ft"}, s); code != 0 ||
+		!strings.Contains(read(t, filepath.Join(dir, event.WeatherFile)), ",19:12:00,81,") {
+		t.Errorf("--replace: %d", code)
+	}
 	// CSV rows under a header.
 	out.Reset()
 	errb.Reset()

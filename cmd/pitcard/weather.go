@@ -79,7 +79,10 @@ flags' form, key=value (temp=88F baro=28.92inHg humidity=40%, time=20:41,
 notes="in quotes"), or CSV rows under a header line in weather.csv's columns.
 Each line is checked and written on its own; a bad line is reported with its
 number and skipped, and the command exits 2 at the end if any was bad. A
-line without time= is read at the moment it arrives.`,
+line without time= is read at the moment it arrives; with --replace a
+reading in a minute already logged takes its place (a logger reading every
+few seconds keeps each minute's latest), without it the later one is
+reported and skipped.`,
 		Example: `  pitcard weather add --temp 86F --baro 28.95inHg --humidity 38% --wind 6mph --wind-from 210 --track-temp 121F
   pitcard weather add --time 18:30 --temp 31C --baro 980hPa --dewpoint 11C
   my-logger | pitcard weather add -`,
@@ -137,7 +140,7 @@ func weatherStreamRun(cmd *cobra.Command, o *weatherAddOptions) error {
 	}
 	u := e.Settings.Units
 	added := 0
-	bad, err := e.StreamReadings(o.s.In, o.s.Now, func(l event.StreamLine) {
+	bad, err := e.StreamReadings(o.s.In, o.s.Now, o.Replace, func(l event.StreamLine) {
 		if l.Err != nil {
 			fmt.Fprintf(o.s.Err, "pitcard: %v (skipped)\n", l.Err)
 			return
