@@ -442,8 +442,10 @@ type fitted struct {
 }
 
 // memo keeps values by key, made once: a caller asking for a value being
-// made waits for it. It holds at most maxMemo values (then starts afresh:
-// the keys of one folder state are few).
+// made waits for it. It holds at most maxMemo values, then starts afresh:
+// the keys of one folder state are few (the rounds phones look at, this
+// minute), and a card of a 100,000-pass logbook holds its latest 5,000
+// passes (~3 MB), so old states must not pile up.
 type memo[V any] struct {
 	mu sync.Mutex
 	m  map[string]*memoEntry[V]
@@ -454,7 +456,7 @@ type memoEntry[V any] struct {
 	v     V
 }
 
-const maxMemo = 32
+const maxMemo = 8
 
 func (c *memo[V]) get(key string, build func() V) V {
 	c.mu.Lock()
