@@ -380,14 +380,14 @@ func filesStamp(e *event.Folder, names []string, dirs ...string) string {
 	for _, p := range []string{e.CarPath, e.TrackPath, e.LogbookPath} {
 		if p != "" {
 			if st, err := os.Stat(p); err == nil {
-				fmt.Fprintf(h, "%s %d %d\n", p, st.Size(), st.ModTime().UnixNano())
+				fmt.Fprintf(h, "%s %d %d %s\n", p, st.Size(), st.ModTime().UnixNano(), fileID(st))
 			}
 		}
 	}
 	sort.Strings(names)
 	for _, n := range names {
 		if st, err := fs.Stat(e.FS, n); err == nil {
-			fmt.Fprintf(h, "%s %d %d\n", n, st.Size(), st.ModTime().UnixNano())
+			fmt.Fprintf(h, "%s %d %d %s\n", n, st.Size(), st.ModTime().UnixNano(), fileID(st))
 		}
 	}
 	return hex.EncodeToString(h.Sum(nil))[:16]
