@@ -386,8 +386,8 @@ func Sniff(data []byte) Layout {
 	return l
 }
 
-// layoutOf is the map's layout, with what it leaves out detected in data.
-func (m *Map) layoutOf(data []byte) Layout {
+// Layout is the map's layout for data, with what it leaves out detected.
+func (m *Map) Layout(data []byte) Layout {
 	l := Sniff(data)
 	if m.Separator != 0 {
 		l.Separator = m.Separator
@@ -481,7 +481,7 @@ func (t *Translation) inSourceWords(ie *weather.InputError) {
 // Translate reads data (the source file called name) through the map into
 // pitcard's CSV of the map's kind.
 func (m *Map) Translate(data []byte, name string) (*Translation, error) {
-	tr := &Translation{Layout: m.layoutOf(data)}
+	tr := &Translation{Layout: m.Layout(data)}
 	cr := csv.NewReader(bytes.NewReader(bytes.TrimPrefix(data, []byte("\xef\xbb\xbf"))))
 	cr.Comma = tr.Layout.Separator
 	cr.FieldsPerRecord = -1
@@ -546,7 +546,11 @@ func (m *Map) Translate(data []byte, name string) (*Translation, error) {
 			if s.Column != "" {
 				idx = index[s.Column]
 			}
-			cols = append(cols, out{col: f.column, f: f, src: s, idx: idx})
+			col := f.column
+			if f.typ == weight && strings.EqualFold(s.Unit, "kg") {
+				col = "weight_kg" // the logbook's metric twin reads it as it is
+			}
+			cols = append(cols, out{col: col, f: f, src: s, idx: idx})
 			if f.name == "baro" && s.Kind != "" && m.Kind == Weather && m.Fields["baro_kind"] == nil {
 				cols = append(cols, out{col: "baro_kind", f: field{"baro_kind", "baro_kind", text}, src: &Source{Value: strings.ToLower(s.Kind)}, idx: -1})
 			}
@@ -663,15 +667,9 @@ func valueOf(rec []string, index map[string]int, s *Source) string {
 }
 
 // withUnit writes a value with its unit so pitcard's parser converts it.
+// (A weight in kg goes to the logbook's own weight_kg column instead.)
 func withUnit(v, unit string, typ valueType) string {
-	switch {
-	case typ == weight && strings.EqualFold(unit, "kg"):
-		f, err := strconv.ParseFloat(v, 64)
-		if err != nil {
-			return v // refused by the reader with its value
-		}
-		return strconv.FormatFloat(round6(f/0.45359237), 'f', -1, 64)
-	case typ == weight, typ == trapSpeed:
+	if typ == weight || typ == trapSpeed {
 		return v
 	}
 	if _, err := strconv.ParseFloat(v, 64); err != nil {
@@ -790,12 +788,9 @@ func parseCanonicalTime(d, c string) (time.Time, error) {
 	return time.Time{}, errors.New("not a date and time")
 }
 
-// inUnit converts a value of pitcard's CSV (in its imperial columns) to unit.
+// inUnit converts a value of pitcard's CSV (in its imperial columns) to
+// unit, with weather's own units: one of unit is parsed for its size.
 func inUnit(v, unit string, typ valueType) string {
-	x, err := strconv.ParseFloat(v, 64)
-	if err != nil {
-		return v
-	}
 	var y float64
 	switch typ {
 	case temperature:
@@ -809,36 +804,26 @@ func inUnit(v, unit string, typ valueType) string {
 		}
 	case pressure:
 		p, err := weather.ParsePressure(v, weather.UnitInHg)
-		if err != nil {
+		one, err1 := weather.ParsePressure("1"+unit, weather.UnitInHg)
+		if err != nil || err1 != nil {
 			return v
 		}
-		switch strings.ToLower(unit) {
-		case "hpa", "mbar":
-			y = p.HPa()
-		case "kpa":
-			y = p.HPa() / 10
-		default:
-			y = p.InHg()
-		}
+		y = float64(p) / float64(one)
 	case speed:
-		s, err := weather.ParseSpeed(v, weather.UnitMPH)
+		sp, err := weather.ParseSpeed(v, weather.UnitMPH)
+		one, err1 := weather.ParseSpeed("1"+unit, weather.UnitMPH)
+		if err != nil || err1 != nil {
+			return v
+		}
+		y = float64(sp) / float64(one)
+	case weight:
+		x, err := strconv.ParseFloat(v, 64)
 		if err != nil {
 			return v
 		}
-		switch strings.ToLower(unit) {
-		case "km/h":
-			y = s.KMH()
-		case "m/s":
-			y = s.KMH() / 3.6
-		case "kt":
-			y = s.MPH() / 1.150779448
-		default:
-			y = s.MPH()
-		}
-	case weight:
 		y = x
 		if strings.EqualFold(unit, "kg") {
-			y = x * 0.45359237
+			y = x * weather.KgPerLb
 		}
 	default:
 		return v

@@ -23,6 +23,7 @@ import (
 // Source is a file to bring in and how to read it.
 type Source struct {
 	Path string
+	Data []byte      // the file's bytes when already read (nil: read Path)
 	Map  *colmap.Map // nil: pitcard's own columns
 }
 
@@ -30,9 +31,12 @@ type Source struct {
 // when it has one (Translation is then set, to point errors at the file's
 // own lines).
 func (s Source) read() ([]byte, *colmap.Translation, error) {
-	data, err := os.ReadFile(s.Path)
-	if err != nil {
-		return nil, nil, userErrf("cannot read %s: %v", s.Path, errors.Unwrap(err))
+	data := s.Data
+	if data == nil {
+		var err error
+		if data, err = os.ReadFile(s.Path); err != nil {
+			return nil, nil, userErrf("cannot read %s: %v", s.Path, errors.Unwrap(err))
+		}
 	}
 	if s.Map == nil {
 		return data, nil, nil
@@ -45,19 +49,21 @@ func (s Source) read() ([]byte, *colmap.Translation, error) {
 }
 
 // OwnLayout reports whether data's header is pitcard's own for kind (so it
-// needs no map).
+// needs no map): the file's own reader takes its header line.
 func OwnLayout(data []byte, kind colmap.Kind) bool {
-	cr, header, err := weather.OpenCSV(bytes.NewReader(bytes.TrimPrefix(data, []byte("\xef\xbb\xbf"))), "")
-	if err != nil || header == nil || cr == nil {
-		return false
+	var head []byte
+	for rest := data; len(rest) > 0 && head == nil; {
+		var line []byte
+		line, rest, _ = bytes.Cut(rest, []byte("\n"))
+		if t := bytes.TrimSpace(line); len(t) > 0 && t[0] != '#' {
+			head = append(append([]byte(nil), line...), '\n') // the header: comments and blank lines before it pass
+		}
 	}
 	if kind == colmap.Weather {
-		_, err := weather.ReadHeader(header, "", "weather-log", weather.LogColumns, map[string]string{
-			"temp_c": "temp_f", "baro_hpa": "baro_inhg", "dewpoint_c": "dewpoint_f", "wind_kmh": "wind_mph", "track_temp_c": "track_temp_f",
-		}, []string{"date", "time"})
+		_, err := weather.ReadLog(bytes.NewReader(head), "", 0, time.Local)
 		return err == nil
 	}
-	_, _, err = weather.ReadHeaderExtra(header, "", "logbook", engine.LogbookColumns, nil, []string{"date", "time", "track", "session", "lane"})
+	_, err := engine.ReadLogbookFile(bytes.NewReader(head), "", time.Local)
 	return err == nil
 }
 
@@ -116,15 +122,22 @@ type Conflicts struct {
 }
 
 func (c *Conflicts) Error() string {
+	return fmt.Sprintf("%s and %s disagree on %s (nothing was written; fix one copy, or leave the entry out of the import):\n%s",
+		c.Ours, c.TheirsIn, engine.Plural(len(c.List), "entry"), c.Entries())
+}
+
+// Entries are the conflicts, each with the columns that differ and both rows.
+func (c *Conflicts) Entries() string {
 	var b strings.Builder
-	fmt.Fprintf(&b, "%s and %s disagree on %s (nothing was written; fix one copy, or leave the entry out of the import):",
-		c.Ours, c.TheirsIn, engine.Plural(len(c.List), "entry"))
-	for _, x := range c.List {
+	for i, x := range c.List {
+		if i > 0 {
+			b.WriteString("\n")
+		}
 		var d []string
 		for _, f := range x.Differs {
 			d = append(d, fmt.Sprintf("%s %q in %s, %q in %s", f[0], f[1], c.Ours, f[2], c.TheirsIn))
 		}
-		fmt.Fprintf(&b, "\n  %s: %s\n    %s line %d: %s\n    %s line %d: %s", x.What, strings.Join(d, "; "), c.Ours, x.OursLine, x.Ours, c.TheirsIn, x.TheirsLine, x.Theirs)
+		fmt.Fprintf(&b, "  %s: %s\n    %s line %d: %s\n    %s line %d: %s", x.What, strings.Join(d, "; "), c.Ours, x.OursLine, x.Ours, c.TheirsIn, x.TheirsLine, x.Theirs)
 	}
 	return b.String()
 }
@@ -136,6 +149,8 @@ type PassMerge struct {
 	New       []engine.Pass // theirs, not in ours
 	Same      int           // theirs, already in ours exactly
 	Conflicts []Conflict    // theirs, in ours with another value in some field
+	// Logged are theirs that ours has (alike or not), each with ours.
+	Logged [][2]engine.Pass
 }
 
 // MergePasses compares other's passes with ours, by pass (date, time, track,
@@ -152,6 +167,9 @@ func MergePasses(ours, other []engine.Pass) PassMerge {
 	}
 	for _, p := range other {
 		o, ok := byKey[p.Key()]
+		if ok {
+			m.Logged = append(m.Logged, [2]engine.Pass{p, o})
+		}
 		switch {
 		case !ok:
 			m.New = append(m.New, p)
@@ -208,35 +226,35 @@ func MergeReadings(ours, other []weather.Reading) ReadingMerge {
 // ImportReadings adds readings to the weather log under its lock, all or
 // nothing: a reading in a minute the log has is refused (with skipExisting,
 // skipped when equal and a conflict when not). It returns how many were
-// added and skipped.
-func (e *Folder) ImportReadings(add []weather.Reading, from string, elev weather.Length, skipExisting bool) (added, skipped int, err error) {
+// added and skipped, and how many the log holds.
+func (e *Folder) ImportReadings(add []weather.Reading, from string, elev weather.Length, skipExisting bool) (added, skipped, total int, err error) {
 	if err := e.Writable(); err != nil {
-		return 0, 0, err
+		return 0, 0, 0, err
 	}
 	path := e.Path(WeatherFile)
 	unlock, err := safefile.Lock(path)
 	if err != nil {
-		return 0, 0, err
+		return 0, 0, 0, err
 	}
 	defer unlock()
 	log, err := e.WeatherLog(elev)
 	if err != nil {
-		return 0, 0, err
+		return 0, 0, 0, err
 	}
 	m := MergeReadings(log, add)
 	if len(m.Conflicts) > 0 {
-		return 0, 0, &Conflicts{List: m.Conflicts, Ours: e.Name(WeatherFile), TheirsIn: from}
+		return 0, 0, 0, &Conflicts{List: m.Conflicts, Ours: e.Name(WeatherFile), TheirsIn: from}
 	}
 	if m.Same > 0 && !skipExisting {
-		return 0, 0, userErrf("%s has %s already in %s (the same minute): give --skip-existing to leave them out; nothing was written",
+		return 0, 0, 0, userErrf("%s has %s already in %s (the same minute): give --skip-existing to leave them out; nothing was written",
 			from, engine.Plural(m.Same, "reading"), e.Name(WeatherFile))
 	}
 	log = append(log, m.New...)
 	SortReadings(log)
 	if err := safefile.Write(path, func(w io.Writer) error { return weather.WriteLog(w, log) }); err != nil {
-		return 0, 0, err
+		return 0, 0, 0, err
 	}
-	return len(m.New), m.Same, nil
+	return len(m.New), m.Same, len(log), nil
 }
 
 // differs lists the columns where two rows differ, with both values.

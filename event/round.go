@@ -48,8 +48,9 @@ type RoundRequest struct {
 	Opponent OpponentFields
 }
 
-// isBadInput reports whether err is the crew's to fix.
-func isBadInput(err error) bool {
+// IsBadInput reports whether err is the crew's to fix: a front end answers
+// it as bad input (the command line's exit 2, the page's form message).
+func IsBadInput(err error) bool {
 	var b interface{ BadInput() bool }
 	return errors.As(err, &b) && b.BadInput()
 }
@@ -82,11 +83,11 @@ func (f *ReadingFields) ReadingAt(u weather.Units, now time.Time, base *weather.
 	} else {
 		for _, req := range []struct{ name, v string }{{"--temp", f.Temp}, {"--baro", f.Baro}} {
 			if req.v == "" {
-				return r, userErrf("%s is required (or use --latest for the weather log's last reading)", req.name)
+				return r, &MissingField{What: req.name}
 			}
 		}
 		if f.Humidity == "" && f.DewPoint == "" {
-			return r, userErrf("--humidity or --dewpoint is required (or use --latest for the weather log's last reading)")
+			return r, &MissingField{What: "--humidity or --dewpoint"}
 		}
 		r.Time = now
 	}
@@ -143,6 +144,14 @@ func (f *ReadingFields) ReadingAt(u weather.Units, now time.Time, base *weather.
 	}
 	return r, nil
 }
+
+// MissingField is a reading without a field it needs (and no reading to
+// take it from). A command that can take the weather log's last reading
+// instead says so beside it.
+type MissingField struct{ What string }
+
+func (m *MissingField) Error() string  { return m.What + " is required" }
+func (m *MissingField) BadInput() bool { return true }
 
 // flagErr names the flag in an InputError from a parser.
 func FlagErr(err error, flag string) error {
@@ -299,7 +308,7 @@ func (e *Folder) GatherRound(r RoundRequest, now time.Time) (prep.Input, []strin
 	var broken []error
 	car, err := e.Car()
 	if err != nil {
-		if !isBadInput(err) {
+		if !IsBadInput(err) {
 			return in, nil, err
 		}
 		broken = append(broken, err)
@@ -312,7 +321,7 @@ func (e *Folder) GatherRound(r RoundRequest, now time.Time) (prep.Input, []strin
 	switch {
 	case OnlyLeftOut(err) && err != nil: // the good rows are used, the bad ones named
 		broken = append(broken, err)
-	case err != nil && !isBadInput(err):
+	case err != nil && !IsBadInput(err):
 		return in, nil, err
 	case err != nil: // a header pitcard cannot read: no passes at all
 		broken = append(broken, err)
@@ -324,7 +333,7 @@ func (e *Folder) GatherRound(r RoundRequest, now time.Time) (prep.Input, []strin
 	}
 	sched, haveSched, err := e.Schedule()
 	switch {
-	case err != nil && r.Round != "" && isBadInput(err):
+	case err != nil && r.Round != "" && IsBadInput(err):
 		// the round is given: a broken schedule costs only its call time
 		broken = append(broken, err)
 		sched, haveSched = prep.Schedule{}, false
@@ -399,7 +408,7 @@ func (e *Folder) GatherRound(r RoundRequest, now time.Time) (prep.Input, []strin
 	// page, say) and the checklist ticked.
 	notes, err := e.RoundNotes(call.Format(weather.DateLayout), slot.Session)
 	if err != nil {
-		if !isBadInput(err) {
+		if !IsBadInput(err) {
 			return in, nil, err
 		}
 		broken = append(broken, err)

@@ -49,7 +49,7 @@ func FuzzReadingLine(f *testing.F) {
 	f.Fuzz(func(t *testing.T, line string) {
 		nr, err := ParseReadingLine(line)
 		if err != nil {
-			if !isBadInput(err) {
+			if !IsBadInput(err) {
 				t.Fatalf("not an input error: %v", err)
 			}
 			return

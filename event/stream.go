@@ -83,6 +83,7 @@ func (e *Folder) StreamReadings(r io.Reader, now func() time.Time, replace bool,
 	sc := bufio.NewScanner(r)
 	sc.Buffer(make([]byte, 64<<10), 64<<10)
 	var header string
+	var elev weather.Length // the track's, once rows come as CSV
 	n := 0
 	for sc.Scan() {
 		n++
@@ -95,6 +96,9 @@ func (e *Folder) StreamReadings(r io.Reader, now func() time.Time, replace bool,
 		switch {
 		case header == "" && !strings.Contains(line, "=") && strings.Contains(line, ","):
 			header = line // CSV rows follow, in weather.csv's columns
+			if elev, _, err = e.SiteElevation(ReadingFields{}); err != nil {
+				return bad, err
+			}
 			if _, err := weather.ReadLog(strings.NewReader(header+"\n"), "standard input", 0, time.Local); err != nil {
 				var ie *weather.InputError
 				if errors.As(err, &ie) {
@@ -104,10 +108,6 @@ func (e *Folder) StreamReadings(r io.Reader, now func() time.Time, replace bool,
 			}
 			continue
 		case header != "":
-			elev, _, eerr := e.SiteElevation(ReadingFields{})
-			if eerr != nil {
-				return bad, eerr
-			}
 			log, rerr := weather.ReadLog(strings.NewReader(header+"\n"+line+"\n"), "standard input", elev, time.Local)
 			if rerr == nil && len(log) == 1 {
 				var n int
@@ -133,7 +133,7 @@ func (e *Folder) StreamReadings(r io.Reader, now func() time.Time, replace bool,
 				ie.File, ie.Line = "standard input", n
 				ie.Field = strings.TrimPrefix(ie.Field, "--") // the line's key, not a flag
 			}
-			if !isBadInput(out.Err) {
+			if !IsBadInput(out.Err) {
 				return bad, out.Err // a failing disk: stop, the rest would fail too
 			}
 			bad++

@@ -53,7 +53,6 @@ func values(v url.Values) func(string) string {
 // attach puts err next to the field it names, in the form's words; an error
 // naming no field goes to the top. It returns the top message.
 func attach(form []field, err error) string {
-	labels := strings.NewReplacer(" (or use --latest for the weather log's last reading)", "")
 	pairs := []string{}
 	for _, f := range form {
 		pairs = append(pairs, "--"+f.Name, "“"+f.Label+"”")
@@ -66,12 +65,12 @@ func attach(form []field, err error) string {
 			if form[i].Name == name {
 				c := *ie
 				c.Field = form[i].Label
-				form[i].Error = named.Replace(labels.Replace(c.Error()))
+				form[i].Error = named.Replace(c.Error())
 				return "Nothing was saved: fix the field marked below."
 			}
 		}
 	}
-	return "Nothing was saved: " + named.Replace(labels.Replace(err.Error()))
+	return "Nothing was saved: " + named.Replace(err.Error())
 }
 
 // savedWords are the card page's confirmations, by what was saved.
@@ -166,21 +165,30 @@ func readingForm(e *event.Folder) []field {
 	return form
 }
 
-func (s *Server) readingPage(q *request) {
+// readingPage and slipPage start their forms' pages, for showing the form
+// and for answering its post alike.
+func (q *request) readingPage(round string) page {
 	p := q.newPage("Reading", "reading")
-	p.Round = q.r.URL.Query().Get("round")
-	p.Heading, p.Action, p.Submit = "A weather reading", "/reading", "Save the reading"
-	p.Intro = "Grey figures are the last reading's. A bare number is read in the event's units; 28.92inHg or 979hPa also work."
+	p.Round, p.Heading, p.Action, p.Submit = round, "A weather reading", "/reading", "Save the reading"
 	p.Form = readingForm(q.folder)
+	return p
+}
+
+func (q *request) slipPage(round string) page {
+	p := q.newPage("Slip", "slip")
+	p.Round, p.Heading, p.Action, p.Submit = round, "The time slip", "/slip", "Log the pass"
+	return p
+}
+
+func (s *Server) readingPage(q *request) {
+	p := q.readingPage(q.r.URL.Query().Get("round"))
+	p.Intro = "Grey figures are the last reading's. A bare number is read in the event's units; 28.92inHg or 979hPa also work."
 	s.render(q, "form", p, http.StatusOK)
 }
 
 func (s *Server) postReading(q *request) {
 	v := values(q.r.PostForm)
-	p := q.newPage("Reading", "reading")
-	p.Round = v("round")
-	p.Heading, p.Action, p.Submit = "A weather reading", "/reading", "Save the reading"
-	p.Form = readingForm(q.folder)
+	p := q.readingPage(v("round"))
 	fill(p.Form, q.r.PostForm)
 	nr := event.NewReading{Fields: event.ReadingFields{
 		Temp: v("temp"), Baro: v("baro"), BaroKind: v("baro-kind"), Humidity: v("humidity"), DewPoint: v("dewpoint"),
@@ -270,18 +278,15 @@ func (s *Server) slipDefaults(q *request, round string) ([]field, string) {
 }
 
 func (s *Server) slipPage(q *request) {
-	p := q.newPage("Slip", "slip")
+	p := q.slipPage("")
 	p.Form, p.Round = s.slipDefaults(q, q.r.URL.Query().Get("round"))
-	p.Heading, p.Action, p.Submit = "The time slip", "/slip", "Log the pass"
 	p.Intro = "Times in seconds as the slip prints them (.021, 11.538). The air is taken from the weather log's reading nearest the pass."
 	s.render(q, "form", p, http.StatusOK)
 }
 
 func (s *Server) postSlip(q *request) {
 	v := values(q.r.PostForm)
-	p := q.newPage("Slip", "slip")
-	p.Round = v("round")
-	p.Heading, p.Action, p.Submit = "The time slip", "/slip", "Log the pass"
+	p := q.slipPage(v("round"))
 	dist := 1320.0
 	if car, err := q.folder.Car(); err == nil && car.DistanceFt > 0 {
 		dist = car.DistanceFt
@@ -389,7 +394,7 @@ func (s *Server) passesPage(q *request) {
 	p.Round = in.Session.String()
 	p.Refresh, p.Stamp = true, stamp(q.folder)
 	dist := in.Car.DistanceFt
-	t := listTable{Title: fmt.Sprintf("%s, %s: predicted against actual", orDash(in.Track.Name), in.Call.Format("Mon 2006-01-02")),
+	t := listTable{Title: fmt.Sprintf("%s, %s: predicted against actual", prep.OrDash(in.Track.Name), in.Call.Format("Mon 2006-01-02")),
 		Header: []string{"Pass", "Lane", "Predicted", "Ran", "Off by"}}
 	for _, l := range c.Record {
 		pred, off := "—", "—"
@@ -438,7 +443,7 @@ func (s *Server) weatherPage(q *request) {
 		return
 	}
 	day := log[len(log)-1].Time.Format(weather.DateLayout)
-	t := listTable{Title: fmt.Sprintf("%s, %s", orDash(trk.Name), day), Header: []string{"Time", "Air", "Baro", "RH", "Track", "DA"}}
+	t := listTable{Title: fmt.Sprintf("%s, %s", prep.OrDash(trk.Name), day), Header: []string{"Time", "Air", "Baro", "RH", "Track", "DA"}}
 	var today []weather.Reading
 	for _, r := range log {
 		if r.Time.Format(weather.DateLayout) != day {
@@ -464,7 +469,7 @@ func (s *Server) weatherPage(q *request) {
 		if f, err := weather.ForecastAt(today, call, elev); err == nil {
 			trend := fmt.Sprintf("At the %s call (%s): density altitude %s ± %s, %s.", call.Format("15:04"), c.Input.Session.Long(),
 				f.Air.DensityAltitude.Format(u.Length), f.DAError.Format(u.Length), f.Reading.Temp.Format(u.Temp, 1))
-			p.Said = append(p.Said, trend, upperFirst(strings.Join(f.Notes, "; "))+".")
+			p.Said = append(p.Said, trend, prep.UpperFirst(strings.Join(f.Notes, "; "))+".")
 			if !f.Trusted {
 				p.Said = append(p.Said, "Not to be trusted: take a fresh reading.")
 			}
@@ -474,18 +479,4 @@ func (s *Server) weatherPage(q *request) {
 	}
 	p.Tables = []listTable{t}
 	s.render(q, "list", p, http.StatusOK)
-}
-
-func orDash(s string) string {
-	if s == "" {
-		return "—"
-	}
-	return s
-}
-
-func upperFirst(s string) string {
-	if s == "" {
-		return s
-	}
-	return strings.ToUpper(s[:1]) + s[1:]
 }

@@ -224,7 +224,7 @@ func (s *Server) open(w http.ResponseWriter, r *http.Request, role Role, tok str
 	e, err := s.cfg.Open()
 	if err != nil {
 		status := http.StatusInternalServerError
-		if isBadInput(err) {
+		if event.IsBadInput(err) {
 			status = http.StatusOK // the crew's to fix: said on the page
 		}
 		p := page{Title: "The event folder", Nav: "card", Error: "The event folder could not be opened: " + err.Error()}
@@ -396,11 +396,6 @@ func filesStamp(e *event.Folder, names []string, dirs ...string) string {
 func (s *Server) changes(q *request) {
 	q.w.Header().Set("Content-Type", "application/json")
 	fmt.Fprintf(q.w, "{\"stamp\":%q}\n", stamp(q.folder))
-}
-
-func isBadInput(err error) bool {
-	var b interface{ BadInput() bool }
-	return errors.As(err, &b) && b.BadInput()
 }
 
 // gather makes the card of the round asked for (the schedule's next when

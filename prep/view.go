@@ -76,7 +76,7 @@ func newView(c Card) view {
 	u := in.Settings.Units
 	v := view{Title: c.Title, Cautions: c.Cautions}
 	day := in.Call.Format("Mon 2006-01-02")
-	v.Subtitle = append(v.Subtitle, fmt.Sprintf("%s · %s", orDash(in.Track.Name), day))
+	v.Subtitle = append(v.Subtitle, fmt.Sprintf("%s · %s", OrDash(in.Track.Name), day))
 	call := "called " + in.Call.Format("15:04")
 	switch m := math.Round(c.MinutesToGo); {
 	case m > 0:
@@ -87,7 +87,7 @@ func newView(c Card) view {
 		call += " (" + Minutes(time.Duration(-m)*time.Minute) + " ago)"
 	}
 	v.Subtitle = append(v.Subtitle, call)
-	car := orDash(in.Car.Name)
+	car := OrDash(in.Car.Name)
 	if in.OpponentDial.Valid {
 		car += " · opponent dials " + in.OpponentDial.Decimal.StringFixed(2)
 	}
@@ -128,7 +128,7 @@ func newView(c Card) view {
 	}
 	v.DialAlert = c.AdjustFlag
 	if c.NoDial != "" {
-		v.NoDial = upperFirst(c.NoDial) + "."
+		v.NoDial = UpperFirst(c.NoDial) + "."
 		if f := c.Prediction; len(f.Timers) > 0 {
 			t := f.Finish()
 			from := "physics and car.yaml"
@@ -296,12 +296,13 @@ func Explain(p engine.Prediction, f engine.Fit, u weather.Units) []string {
 		if strings.HasPrefix(n, "calibrated to") {
 			continue // said above
 		}
-		out = append(out, upperFirst(n)+".")
+		out = append(out, UpperFirst(n)+".")
 	}
 	return out
 }
 
-func upperFirst(s string) string {
+// UpperFirst is s with its first letter a capital: a phrase made a sentence.
+func UpperFirst(s string) string {
 	if s == "" {
 		return s
 	}
@@ -340,7 +341,7 @@ func sensitivityWords(s engine.Sensitivity, u weather.Units) string {
 	return fmt.Sprintf("This car today, each change alone: %s %s; %s %s; 10 %% more humidity %s; %s %s; %s %s. "+
 		"(%s from the barometer alone: %s.)",
 		warm, effect(kT*s.Per10FAir), baro, effect(kP*s.PerTenthInHg), effect(s.Per10PctRH), hot, effect(kT*s.Per10FTrack),
-		wind, effect(kW*s.Per10Headwind), upperFirst(da), effect(kDA*s.PerKDA))
+		wind, effect(kW*s.Per10Headwind), UpperFirst(da), effect(kDA*s.PerKDA))
 }
 
 // HeadStartWords says who leaves first, and by how much.
@@ -394,7 +395,8 @@ func dialText(d, step decimal.Decimal) string {
 	return d.StringFixed(places)
 }
 
-func orDash(s string) string {
+// OrDash is s, or a dash where it is blank (a table cell with nothing known).
+func OrDash(s string) string {
 	if strings.TrimSpace(s) == "" {
 		return "–"
 	}

@@ -87,7 +87,7 @@ func airRun(cmd *cobra.Command, o *airOptions) error {
 	}
 	r, err := o.reading.ReadingAt(e.Settings.Units, o.s.Now(), base)
 	if err != nil {
-		return err
+		return orLatest(err)
 	}
 	if err := event.ValidateFields(r, elev); err != nil {
 		return err

@@ -42,30 +42,19 @@ func readMap(path string, kind colmap.Kind) (*colmap.Map, error) {
 // source is how to read FILE: pitcard's own columns, --map, or a guess the
 // crew has confirmed with --yes.
 func (f *mapFlags) source(s *IOStreams, e *eventFolder, path string, kind colmap.Kind) (event.Source, error) {
-	src := event.Source{Path: path}
+	data, err := os.ReadFile(path)
+	if err != nil {
+		return event.Source{}, userErrf("cannot read %s: %v", path, err)
+	}
+	src := event.Source{Path: path, Data: data}
 	if f.Map != "" {
 		m, err := readMap(f.Map, kind)
 		if err != nil {
 			return src, err
 		}
-		data, err := os.ReadFile(path)
-		if err != nil {
-			return src, userErrf("cannot read %s: %v", path, err)
-		}
-		lay := colmap.Sniff(data)
-		if m.Separator != 0 {
-			lay.Separator = m.Separator
-		}
-		if m.Decimal != 0 {
-			lay.Decimal = m.Decimal
-		}
-		fmt.Fprintf(s.Err, "pitcard: reading %s through %s (%s)\n", path, f.Map, lay)
+		fmt.Fprintf(s.Err, "pitcard: reading %s through %s (%s)\n", path, f.Map, m.Layout(data))
 		src.Map = m
 		return src, nil
-	}
-	data, err := os.ReadFile(path)
-	if err != nil {
-		return src, userErrf("cannot read %s: %v", path, err)
 	}
 	if event.OwnLayout(data, kind) {
 		return src, nil
@@ -155,16 +144,15 @@ conflict: both versions are listed and nothing is written.`,
 			if len(log) == 0 {
 				return userErrf("%s has no readings to import", args[0])
 			}
-			added, skipped, err := e.ImportReadings(log, args[0], elev, o.SkipExisting)
+			added, skipped, total, err := e.ImportReadings(log, args[0], elev, o.SkipExisting)
 			if err != nil {
 				return err
 			}
-			total, _ := e.WeatherLog(elev)
 			fmt.Fprintf(o.s.Out, "Imported %s from %s", engine.Plural(added, "reading"), args[0])
 			if skipped > 0 {
 				fmt.Fprintf(o.s.Out, " (%s already logged, skipped)", engine.Plural(skipped, "reading"))
 			}
-			fmt.Fprintf(o.s.Out, "; %s now holds %d.\n", e.Name(event.WeatherFile), len(total))
+			fmt.Fprintf(o.s.Out, "; %s now holds %d.\n", e.Name(event.WeatherFile), total)
 			return nil
 		},
 	}
@@ -225,7 +213,7 @@ value in some field, both versions shown. It writes nothing.`,
 			}
 			if len(m.Conflicts) > 0 {
 				c := &event.Conflicts{List: m.Conflicts, Ours: e.Name(event.LogbookFile), TheirsIn: args[0]}
-				fmt.Fprintf(o.s.Out, "\n%s\n", strings.Replace(c.Error(), " (nothing was written; fix one copy, or leave the entry out of the import)", "", 1))
+				fmt.Fprintf(o.s.Out, "\n%s and %s disagree on %s:\n%s\n", c.Ours, c.TheirsIn, engine.Plural(len(c.List), "entry"), c.Entries())
 			}
 			if len(theirs.Bad) > 0 {
 				fmt.Fprintf(o.s.Err, "pitcard: warning: %s has %s pitcard cannot read, left out of the comparison:\n%v\n", args[0],

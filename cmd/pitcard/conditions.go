@@ -1,6 +1,7 @@
 package main
 
 import (
+	"errors"
 	"strings"
 	"time"
 
@@ -86,7 +87,7 @@ func (c *conditionFlags) resolve(e *eventFolder, now time.Time) (conditions, err
 	}
 	r, err := c.ReadingAt(e.Settings.Units, now, base)
 	if err != nil {
-		return out, err
+		return out, orLatest(err)
 	}
 	if base == nil {
 		out.Source = "the reading flags"
@@ -101,4 +102,14 @@ func (c *conditionFlags) resolve(e *eventFolder, now time.Time) (conditions, err
 	}
 	out.Reading = r
 	return out, nil
+}
+
+// orLatest adds, to a reading's missing field, that --latest takes the
+// weather log's last reading instead (the commands with --latest say so).
+func orLatest(err error) error {
+	var m *event.MissingField
+	if errors.As(err, &m) {
+		return userErrf("%v (or use --latest for the weather log's last reading)", err)
+	}
+	return err
 }

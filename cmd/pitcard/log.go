@@ -203,19 +203,13 @@ nothing is written. 'pitcard log diff FILE' shows the same without writing.`,
 			}
 			cur, _ := e.Logbook()
 			merge := event.MergePasses(cur, src.Passes)
-			if len(src.Bad) > 0 || (len(merge.Conflicts) > 0 && !o.SkipExisting) || (merge.Same > 0 && !o.SkipExisting) {
+			if len(src.Bad) > 0 || (len(merge.Logged) > 0 && !o.SkipExisting) {
 				// All or nothing: list every bad row, and the good rows that are already logged.
 				problems := append(engine.RowErrors(nil), src.Bad...)
-				seen := map[string]engine.Pass{}
-				for _, p := range cur {
-					seen[p.Key()] = p
+				for _, l := range merge.Logged {
+					problems = append(problems, event.DuplicateOf(l[0], l[1], e.Name(event.LogbookFile)))
 				}
-				for _, p := range src.Passes {
-					if old, ok := seen[p.Key()]; ok {
-						problems = append(problems, event.DuplicateOf(p, old, e.Name(event.LogbookFile)))
-					}
-				}
-				if merge.Same > 0 && len(src.Bad) == 0 {
+				if len(src.Bad) == 0 {
 					return fmt.Errorf("%w\nNothing was imported (give --skip-existing to leave out the passes already logged)", problems)
 				}
 				return fmt.Errorf("%w\nNothing was imported", problems)
