@@ -529,6 +529,12 @@ func (m *Map) Translate(data []byte, name string) (*Translation, error) {
 	for _, f := range fieldsOf(m.Kind) {
 		known[f.name] = f
 	}
+	indexOf := func(s *Source) int { // the source column's place, or -1 for a constant
+		if s.Column == "" {
+			return -1
+		}
+		return index[s.Column]
+	}
 	type out struct {
 		col string
 		f   field
@@ -542,10 +548,7 @@ func (m *Map) Translate(data []byte, name string) (*Translation, error) {
 			continue
 		}
 		if s := m.Fields[f.name]; s != nil {
-			idx := -1
-			if s.Column != "" {
-				idx = index[s.Column]
-			}
+			idx := indexOf(s)
 			col := f.column
 			if f.typ == weight && strings.EqualFold(s.Unit, "kg") {
 				col = "weight_kg" // the logbook's metric twin reads it as it is
@@ -558,12 +561,7 @@ func (m *Map) Translate(data []byte, name string) (*Translation, error) {
 	}
 	for _, f := range m.Order {
 		if _, ok := known[f]; !ok {
-			s := m.Fields[f]
-			idx := -1
-			if s.Column != "" {
-				idx = index[s.Column]
-			}
-			cols = append(cols, out{col: f, f: field{f, f, text}, src: s, idx: idx})
+			cols = append(cols, out{col: f, f: field{f, f, text}, src: m.Fields[f], idx: indexOf(m.Fields[f])})
 		}
 	}
 	tr.source, tr.from = data, map[string]fromColumn{}
@@ -607,16 +605,24 @@ func (m *Map) Translate(data []byte, name string) (*Translation, error) {
 			}
 			return strings.TrimSpace(rec[c.idx])
 		}
+		// parse reads a date or time field by its map's layout.
+		parse := func(src *Source, field, v string) (time.Time, error) {
+			t, err := time.ParseInLocation(src.Format, v, time.Local)
+			if err != nil {
+				return t, &weather.InputError{File: name, Line: line, Field: src.Column, Value: v,
+					Reason: fmt.Sprintf("does not match the %s format %q of %s line %d", field, src.Format, m.File, m.lineOf(field+".format", src.Line))}
+			}
+			return t, nil
+		}
 		var when time.Time
 		haveWhen := false
 		if timeSrc != nil && timeSrc.Format != "" {
-			v := strings.TrimSpace(valueOf(rec, index, timeSrc))
-			t, err := time.ParseInLocation(timeSrc.Format, v, time.Local)
-			if err != nil && v != "" {
-				return nil, &weather.InputError{File: name, Line: line, Field: timeSrc.Column, Value: v,
-					Reason: fmt.Sprintf("does not match the time format %q of %s line %d", timeSrc.Format, m.File, m.lineOf("time.format", timeSrc.Line))}
+			if v := strings.TrimSpace(valueOf(rec, index, timeSrc)); v != "" {
+				if when, err = parse(timeSrc, "time", v); err != nil {
+					return nil, err
+				}
+				haveWhen = true
 			}
-			when, haveWhen = t, err == nil
 		}
 		for i, c := range cols {
 			v := get(c)
@@ -626,10 +632,9 @@ func (m *Map) Translate(data []byte, name string) (*Translation, error) {
 				case dateSrc == nil && haveWhen:
 					v = when.Format(weather.DateLayout)
 				case dateSrc != nil && dateSrc.Format != "" && v != "":
-					d, err := time.ParseInLocation(dateSrc.Format, v, time.Local)
+					d, err := parse(dateSrc, "date", v)
 					if err != nil {
-						return nil, &weather.InputError{File: name, Line: line, Field: dateSrc.Column, Value: v,
-							Reason: fmt.Sprintf("does not match the date format %q of %s line %d", dateSrc.Format, m.File, m.lineOf("date.format", dateSrc.Line))}
+						return nil, err
 					}
 					v = d.Format(weather.DateLayout)
 				}
@@ -645,7 +650,7 @@ func (m *Map) Translate(data []byte, name string) (*Translation, error) {
 				if v != "" && tr.Layout.Decimal == ',' {
 					v = strings.Replace(v, ",", ".", 1)
 				}
-				if v != "" && c.src != nil && c.src.Unit != "" && c.f.typ != percent && c.f.typ != seconds && c.f.typ != degrees {
+				if v != "" && c.src != nil && c.src.Unit != "" {
 					v = withUnit(v, c.src.Unit, c.f.typ)
 				}
 			}
@@ -669,8 +674,10 @@ func valueOf(rec []string, index map[string]int, s *Source) string {
 // withUnit writes a value with its unit so pitcard's parser converts it.
 // (A weight in kg goes to the logbook's own weight_kg column instead.)
 func withUnit(v, unit string, typ valueType) string {
-	if typ == weight || typ == trapSpeed {
-		return v
+	switch typ {
+	case temperature, pressure, speed: // the types whose parsers read a unit
+	default:
+		return v // pitcard's own unit (%, s, degrees, mph traps) or weight_kg's column
 	}
 	if _, err := strconv.ParseFloat(v, 64); err != nil {
 		return v // not a bare number: the reader says what is wrong
