@@ -119,7 +119,7 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 	default:
 		useModel := o.cond.Given() || o.cond.Latest || o.cond.At != "" || e.Demo
 		if !useModel {
-			if elev, _, err := siteElevation(e, &o.cond.readingFlags); err == nil {
+			if elev, _, err := e.SiteElevation(o.cond.ReadingFields); err == nil {
 				if log, err := e.WeatherLog(elev); err == nil && len(log) > 0 {
 					o.cond.Latest, useModel = true, true
 				}

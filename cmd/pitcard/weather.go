@@ -33,11 +33,6 @@ recent trend to the time your round will be called.`,
 	return cmd
 }
 
-// siteElevation is the elevation for the folder's weather: --elevation or track.yaml.
-func siteElevation(e *eventFolder, f *readingFlags) (weather.Length, string, error) {
-	return e.SiteElevation(f.ReadingFields)
-}
-
 // openWeather opens the folder and its weather log at the track's elevation
 // (or --elevation): what list and forecast both start from.
 func openWeather(cmd *cobra.Command, g *globalOptions, elevFlag string) (*eventFolder, weather.Length, string, []weather.Reading, error) {
@@ -45,8 +40,7 @@ func openWeather(cmd *cobra.Command, g *globalOptions, elevFlag string) (*eventF
 	if err != nil {
 		return nil, 0, "", nil, err
 	}
-	rf := readingFlags{event.ReadingFields{Elevation: elevFlag}}
-	elev, trackName, err := siteElevation(e, &rf)
+	elev, trackName, err := e.SiteElevation(event.ReadingFields{Elevation: elevFlag})
 	if err != nil {
 		return nil, 0, "", nil, err
 	}
