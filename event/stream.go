@@ -23,6 +23,10 @@ var streamKeys = []string{"temp", "baro", "baro-kind", "humidity", "dewpoint", "
 // value with spaces is written in double quotes (notes="shade on the line").
 func ParseReadingLine(line string) (NewReading, error) {
 	var nr NewReading
+	f := &nr.Fields
+	fields := map[string]*string{"temp": &f.Temp, "baro": &f.Baro, "baro-kind": &f.BaroKind, "humidity": &f.Humidity,
+		"dewpoint": &f.DewPoint, "wind": &f.Wind, "wind-from": &f.WindFrom, "track-temp": &f.TrackTemp,
+		"time": &nr.Time, "notes": &nr.Notes}
 	seen := map[string]bool{}
 	rest := strings.TrimSpace(line)
 	for rest != "" {
@@ -51,10 +55,7 @@ func ParseReadingLine(line string) (NewReading, error) {
 			return nr, &weather.InputError{Field: key, Value: val, Reason: "is given twice on the line"}
 		}
 		seen[key] = true
-		f := &nr.Fields
-		dst := map[string]*string{"temp": &f.Temp, "baro": &f.Baro, "baro-kind": &f.BaroKind, "humidity": &f.Humidity,
-			"dewpoint": &f.DewPoint, "wind": &f.Wind, "wind-from": &f.WindFrom, "track-temp": &f.TrackTemp,
-			"time": &nr.Time, "notes": &nr.Notes}[key]
+		dst := fields[key]
 		if dst == nil {
 			return nr, &weather.InputError{Field: "key", Value: key, Reason: "is not a key of a reading (keys: " + strings.Join(streamKeys, ", ") + ")"}
 		}
