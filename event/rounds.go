@@ -53,13 +53,11 @@ func (e *Folder) readRounds() ([]roundEntry, error) {
 		return nil, err
 	}
 	name := e.Name(RoundsFile)
-	r := csv.NewReader(bytes.NewReader(bytes.TrimPrefix(data, []byte("\xef\xbb\xbf"))))
-	r.FieldsPerRecord = len(roundsHeader)
-	head, err := r.Read()
-	if err == io.EOF {
-		return nil, nil
+	r, head, err := weather.OpenCSV(bytes.NewReader(bytes.TrimPrefix(data, []byte("\xef\xbb\xbf"))), name)
+	if err != nil || head == nil {
+		return nil, err
 	}
-	if err != nil || !slices.Equal(head, roundsHeader) {
+	if !slices.Equal(head, roundsHeader) {
 		return nil, userErrf("%s line 1: the header is not %s (fix or delete the file: it holds only the checklist ticks and the other lane's dials)",
 			name, strings.Join(roundsHeader, ","))
 	}
@@ -70,11 +68,11 @@ func (e *Folder) readRounds() ([]roundEntry, error) {
 			return out, nil
 		}
 		if err != nil {
-			var pe *csv.ParseError
-			if errors.As(err, &pe) {
-				return nil, userErrf("%s line %d: %v", name, pe.Line, pe.Err)
-			}
-			return nil, userErrf("%s: %v", name, err)
+			return nil, weather.CSVError(name, err)
+		}
+		if len(rec) != len(roundsHeader) {
+			line, _ := r.FieldPos(0)
+			return nil, &weather.InputError{File: name, Line: line, Field: "row", Reason: fmt.Sprintf("has %d fields, the header has %d", len(rec), len(roundsHeader))}
 		}
 		line, _ := r.FieldPos(0)
 		at, err := time.ParseInLocation(time.RFC3339, rec[4], time.Local)
