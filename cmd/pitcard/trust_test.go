@@ -418,13 +418,13 @@ func TestCommandLineConventions(t *testing.T) {
 	dir := demoCopy(t)
 	other := filepath.Join(t.TempDir(), "other-car.yaml")
 	data, _ := os.ReadFile(filepath.Join(dir, "car.yaml"))
-	_ = os.WriteFile(other, []byte(strings.Replace(string(data), "name: Whitlock '71 Nova", "name: Borrowed Dart", 1)), 0o644)
+	_ = os.WriteFile(other, []byte(strings.Replace(string(data), "name: Whitlock #71 Ember", "name: Borrowed Sled", 1)), 0o644)
 	for _, args := range [][]string{{"card", "--round", "3", "--lane", "left"}, {"rules", "try", "--round", "3", "--lane", "left"}} {
-		if out := mustRun(t, append(args, "--dir", dir, "--car-file", other)...); !strings.Contains(out, "Borrowed Dart") && !strings.Contains(out, "ok") {
+		if out := mustRun(t, append(args, "--dir", dir, "--car-file", other)...); !strings.Contains(out, "Borrowed Sled") && !strings.Contains(out, "ok") {
 			t.Errorf("%v --car-file: the other car was not read:\n%.300s", args, out)
 		}
 	}
-	if out := mustRun(t, "card", "--dir", dir, "--car-file", other, "--round", "3", "--lane", "left"); !strings.Contains(out, "Borrowed Dart") {
+	if out := mustRun(t, "card", "--dir", dir, "--car-file", other, "--round", "3", "--lane", "left"); !strings.Contains(out, "Borrowed Sled") {
 		t.Errorf("card --car-file:\n%.300s", out)
 	}
 	if out := mustRun(t, "card", "--dir", dir, "--round", "3", "--lane", "left", "--breakout-risk", "0.02", "--dial-step", "0.001"); !strings.Contains(out, "risk accepted 2 %") {
