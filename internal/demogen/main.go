@@ -29,7 +29,7 @@ var (
 	home    = engine.Track{Name: "Juniper Bend Raceway", ElevationFt: 2240, HeadingDeg: 72, Prep: "full"}
 	low     = engine.Track{Name: "Salt Creek Dragway", ElevationFt: 460, HeadingDeg: 10, Prep: "full"}
 	high    = engine.Track{Name: "Granite Pass Motorplex", ElevationFt: 5100, HeadingDeg: 300, Prep: "light"}
-	car     = engine.Car{Name: "Whitlock #71 Ember", WeightLb: 3350, PowerHP: 520, Induction: engine.Natural, DistanceFt: 1320, Tire: "radial"}
+	car     = engine.Car{Name: "Whitlock 71 Ember", WeightLb: 3350, PowerHP: 520, Induction: engine.Natural, DistanceFt: 1320, Tire: "radial"}
 	truth   = engine.Params{PowerScale: 0.96, TractionScale: 1.05, PressureExp: 0.95, TempExp: 0.5, TrackOptF: 105, TrackWidthF: 36}
 	demoDay = time.Date(2026, 6, 13, 0, 0, 0, 0, time.Local)
 )
@@ -218,7 +218,7 @@ func trackYAML(t engine.Track, what string) []byte {
 
 const carYAML = `# Invented for pitcard's demo: Dana Whitlock's V8 door car, the Ember, crewed by
 # her brother Theo. Every name, number and pass in this folder is made up.
-name: Whitlock #71 Ember
+name: Whitlock 71 Ember
 weight_lb: 3350
 power_hp: 520
 induction: natural
