@@ -62,6 +62,8 @@ h1 { font-size: 16px; margin: 0; }
 .dial .num { font-size: 44px; font-weight: bold; line-height: 1; }
 .dial ul { text-align: left; margin: 3px 0 0; padding-left: 12px; }
 .alert { color: #a00; font-weight: bold; }
+.dial .stop { color: #a00; font-weight: bold; }
+.dial p.stop { font-size: 12px; text-align: left; margin: 2px 0 4px; }
 .grid { display: grid; grid-template-columns: 1fr 1fr; gap: 4px 10px; margin-top: 4px; }
 table { border-collapse: collapse; width: 100%; }
 caption { text-align: left; font-weight: bold; font-size: 10.5px; padding: 2px 0; }
@@ -85,7 +87,7 @@ svg { width: 100%; height: auto; }
 {{define "body"}}<h1>pitcard · {{.V.Title}}</h1>
 <p class="sub">{{.Sub}}</p>
 <div class="top">
-  <div class="dial">{{if .V.Dial}}<div class="label">POST THIS DIAL-IN</div><div class="num">{{.V.Dial}}</div>
+  <div class="dial">{{if .V.Stop}}<div class="num stop">STOP</div><p class="stop">{{.V.Stop}}</p>{{end}}{{if .V.Dial}}<div class="label">{{if .V.Stop}}THE DIAL ONCE THE FAILED CHECKS ARE CLEARED{{else}}POST THIS DIAL-IN{{end}}</div><div class="num">{{.V.Dial}}</div>
     <ul>{{range .V.DialLines}}<li>{{.}}</li>{{end}}</ul>{{if .V.DialAlert}}<p class="alert">Check: {{.V.DialAlert}}</p>{{end}}
     {{else if .V.NoDial}}<div class="label">NO DIAL YET</div><p class="alert">{{.V.NoDial}}</p>{{if .V.Guide}}<p>{{.V.Guide}}</p>{{end}}
     {{else}}<div class="label">NO DIAL</div><p class="alert">See the problems.</p>{{end}}</div>

@@ -27,9 +27,12 @@ func RenderJSON(w io.Writer, c Card) error {
 		"air_at_call":     airJSON(c.AirCall, in.Air, in),
 		"air_source":      in.AirSource,
 		"prep":            engine.PrepName(in.Prep),
-		"problems":        nonNil(c.Problems),
-		"cautions":        c.Cautions,
-		"notes":           nonNil(c.Notes),
+		// A failed check is a problem too: a script that reads only
+		// "problems" must not post a dial the car's own limits forbid.
+		"problems":      nonNil(append(append([]string(nil), c.Problems...), c.Failed...)),
+		"checks_failed": nonNil(c.Failed),
+		"cautions":      c.Cautions,
+		"notes":         nonNil(c.Notes),
 	}
 	if in.OpponentDial.Valid {
 		j["opponent_dial"] = in.OpponentDial.Decimal.String()
@@ -77,8 +80,16 @@ func RenderJSON(w io.Writer, c Card) error {
 			}
 			opts = append(opts, m)
 		}
+		flags := []string{}
+		if len(c.Failed) > 0 {
+			flags = append(flags, failedWords(c.Failed))
+		}
+		if c.AdjustFlag != "" {
+			flags = append(flags, c.AdjustFlag)
+		}
 		j["dial"] = map[string]any{"recommended": dialText(c.Plan.Recommended, c.Plan.Step), "step": c.Plan.Step.String(), "breakout_risk": c.Plan.Risk,
-			"options": opts, "rule_total": c.TotalAdjust.StringFixed(2), "flag": c.AdjustFlag}
+			"options": opts, "rule_total": c.TotalAdjust.StringFixed(2), "flag": strings.Join(flags, "; "),
+			"post": c.HasFinal && len(c.Failed) == 0}
 		if len(c.Win) > 0 {
 			j["best_for_win"] = map[string]any{"dial": dialText(c.BestForWin.Dial, c.Plan.Step), "win_chance": round(c.BestForWin.Win, 4),
 				"breakout_chance": round(engine.BreakoutChance(c.Plan.Estimate, c.BestForWin.Dial), 4)}

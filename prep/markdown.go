@@ -11,7 +11,12 @@ func RenderMarkdown(w io.Writer, c Card) error {
 	v := newView(c)
 	var b strings.Builder
 	fmt.Fprintf(&b, "# %s\n\n%s\n\n", v.Title, strings.Join(v.Subtitle, " · "))
-	if v.Dial != "" {
+	if v.Stop != "" {
+		fmt.Fprintf(&b, "## STOP: %s\n\n", v.Stop)
+	}
+	if v.Dial != "" && v.Stop != "" {
+		fmt.Fprintf(&b, "## The dial once the failed checks are cleared: **%s**\n\n", v.Dial)
+	} else if v.Dial != "" {
 		fmt.Fprintf(&b, "## Post this dial-in: **%s**\n\n", v.Dial)
 		for _, l := range v.DialLines {
 			fmt.Fprintf(&b, "- %s\n", l)

@@ -133,14 +133,18 @@ type Card struct {
 	// few passes of the car): the estimate is shown as a guide.
 	NoDial string
 	// FewPasses is set when the dial rests on few passes, in words.
-	FewPasses    string
-	Rules        []scripts.Result
-	Adjustments  []RuleLine
-	TotalAdjust  decimal.Decimal
-	AdjustFlag   string // set when the total is beyond the setting
-	FinalDial    decimal.Decimal
-	HasFinal     bool
-	Checks       []scripts.Check
+	FewPasses   string
+	Rules       []scripts.Result
+	Adjustments []RuleLine
+	TotalAdjust decimal.Decimal
+	AdjustFlag  string // set when the total is beyond the setting
+	FinalDial   decimal.Decimal
+	HasFinal    bool
+	Checks      []scripts.Check
+	// Failed are the failed checks in words (pitcard's safety checks and the
+	// rules' alike): the dial box shows them, and the front ends exit with
+	// their own status. Empty when every check passed or warned.
+	Failed       []string
 	Notes        []string
 	Record       []RecordLine
 	RecordMAE    float64
@@ -222,6 +226,7 @@ func Gather(in Input) Card {
 	}
 	c.RuleContext = RuleContext(c)
 	c.Rules = scripts.Run(in.Rules, in.RulesFS, c.RuleContext, in.Settings.RuleLimits)
+	c.Checks = SafetyChecks(SafetyFor(in.Car, c.Prediction, in.Call))
 	for _, r := range c.Rules {
 		if r.HasAdjust {
 			c.Adjustments = append(c.Adjustments, RuleLine{File: r.File, Adjust: r.Adjust, Reason: r.Reason})
@@ -243,6 +248,7 @@ func Gather(in Input) Card {
 		c.FinalDial = engine.RoundToStep(base.Add(c.TotalAdjust), in.Settings.DialStep)
 		c.HasFinal = true
 	}
+	c.Failed = Failed(c.Checks)
 	c.GatheredTook = time.Since(start)
 	return c
 }

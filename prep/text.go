@@ -49,38 +49,38 @@ func RenderTextWidth(w io.Writer, c Card, color bool, width int) error {
 		}
 	}
 	b.WriteString(line + "\n\n")
+	// The dial box: bold in the terminal's own foreground (or reversed),
+	// never a fixed colour that a light or dark background can swallow.
+	if v.Stop != "" {
+		writeBlock(&b, blockDigits("STOP"), [5]string{1: "  DO NOT    ", 2: "  POST THE  ", 3: "  DIAL      "}, paint, text.Bold, text.ReverseVideo)
+		b.WriteString(paint(wrap("  "+v.Stop, Width, "    "), text.Bold) + "\n\n")
+	}
 	if v.Dial != "" {
-		big := blockDigits(v.Dial)
-		for i, line := range big {
-			label := "            "
-			switch i {
-			case 1:
-				label = "  POST THIS "
-			case 2:
-				label = "  DIAL-IN   "
-			}
-			b.WriteString(paint(label, text.Bold) + paint(line, text.Bold, text.FgHiWhite) + "\n")
+		labels := [5]string{1: "  POST THIS ", 2: "  DIAL-IN   "}
+		if v.Stop != "" {
+			labels = [5]string{1: "  THE DIAL  ", 2: "  ONCE      ", 3: "  CLEARED   "}
 		}
+		writeBlock(&b, blockDigits(v.Dial), labels, paint, text.Bold)
 		b.WriteString("\n")
 		for _, l := range v.DialLines {
 			b.WriteString(wrap("  "+l, Width, "    ") + "\n")
 		}
 		if v.DialAlert != "" {
-			b.WriteString(paint(wrap("  CHECK: "+v.DialAlert, Width, "    "), text.FgHiYellow, text.Bold) + "\n")
+			b.WriteString(paint(wrap("  CHECK: "+v.DialAlert, Width, "    "), text.Bold) + "\n")
 		}
 		b.WriteString("\n")
 	} else if v.NoDial != "" {
-		b.WriteString(paint("  NO DIAL YET", text.Bold, text.FgHiYellow) + "\n")
+		b.WriteString(paint("  NO DIAL YET", text.Bold, text.ReverseVideo) + "\n")
 		b.WriteString(wrap("  "+v.NoDial, Width, "  ") + "\n")
 		if v.Guide != "" {
 			b.WriteString(wrap("  "+v.Guide, Width, "  ") + "\n")
 		}
 		b.WriteString("\n")
 	} else {
-		b.WriteString(paint("  NO DIAL: see the problems below", text.Bold, text.FgHiRed) + "\n\n")
+		b.WriteString(paint("  NO DIAL: see the problems below", text.Bold, text.ReverseVideo) + "\n\n")
 	}
 	for _, p := range v.Problems {
-		b.WriteString(paint(wrap("  PROBLEM: "+p, Width, "    "), text.FgHiRed) + "\n")
+		b.WriteString(paint(wrap("  PROBLEM: "+p, Width, "    "), text.FgRed) + "\n")
 	}
 	if len(v.Problems) > 0 {
 		b.WriteString("\n")
@@ -111,9 +111,9 @@ func RenderTextWidth(w io.Writer, c Card, color bool, width int) error {
 			word := ch.word()
 			switch ch.Status {
 			case scripts.Fail:
-				word = paint(word, text.FgHiRed, text.Bold)
+				word = paint(word, text.FgRed, text.Bold)
 			case scripts.Warn:
-				word = paint(word, text.FgHiYellow, text.Bold)
+				word = paint(word, text.FgYellow, text.Bold)
 			case scripts.Pass:
 				word = paint(word, text.FgGreen)
 			}
@@ -211,6 +211,17 @@ func wrap(s string, width int, indent string) string {
 }
 
 // blockDigits draws a dial in digits five lines tall.
+// writeBlock writes block-type lines with a label beside each.
+func writeBlock(b *strings.Builder, big []string, labels [5]string, paint func(string, ...text.Color) string, colors ...text.Color) {
+	for i, line := range big {
+		label := labels[i]
+		if label == "" {
+			label = "            "
+		}
+		b.WriteString(paint(label, text.Bold) + paint(line, colors...) + "\n")
+	}
+}
+
 func blockDigits(s string) []string {
 	font := map[rune][5]string{
 		'0': {"███", "█ █", "█ █", "█ █", "███"}, '1': {" █ ", "██ ", " █ ", " █ ", "███"},
@@ -219,6 +230,9 @@ func blockDigits(s string) []string {
 		'6': {"███", "█  ", "███", "█ █", "███"}, '7': {"███", "  █", "  █", "  █", "  █"},
 		'8': {"███", "█ █", "███", "█ █", "███"}, '9': {"███", "█ █", "███", "  █", "███"},
 		'.': {" ", " ", " ", " ", "█"}, '-': {"   ", "   ", "███", "   ", "   "},
+		// The letters of STOP, for a failed check in the dial's own type.
+		'S': {"███", "█  ", "███", "  █", "███"}, 'T': {"███", " █ ", " █ ", " █ ", " █ "},
+		'O': {"███", "█ █", "█ █", "█ █", "███"}, 'P': {"███", "█ █", "███", "█  ", "█  "},
 	}
 	var rows [5]strings.Builder
 	for _, r := range s {

@@ -16,13 +16,17 @@ import (
 // view is the card laid out in words and figures, in the crew's units: what
 // every renderer but JSON prints. Renderers only arrange it.
 type view struct {
-	Title       string   // "Round 3, left lane"
-	Subtitle    []string // track and date; call time; car; opponent
-	Dial        string   // the dial to post, or "" when there is none
-	DialLines   []string // how the dial was reached
-	DialAlert   string   // the rules' total flagged, if it is
-	NoDial      string   // why there is no dial, when it is not a problem of the files
-	Guide       string   // the estimate shown instead of a dial, in words
+	Title     string   // "Round 3, left lane"
+	Subtitle  []string // track and date; call time; car; opponent
+	Dial      string   // the dial to post, or "" when there is none
+	DialLines []string // how the dial was reached
+	DialAlert string   // the rules' total flagged, if it is
+	// Stop is the failed checks, in the dial box's words ("A CHECK
+	// FAILED: ET limit: …"): the dial box leads with it, in the dial's own
+	// type, and the dial is not to be posted as it stands.
+	Stop        string
+	NoDial      string // why there is no dial, when it is not a problem of the files
+	Guide       string // the estimate shown instead of a dial, in words
 	Air         table
 	AirNote     string
 	Prediction  table
@@ -97,7 +101,7 @@ func newView(c Card) view {
 	step := in.Settings.DialStep
 	if c.HasFinal {
 		v.Dial = dialText(c.FinalDial, step)
-		rec := fmt.Sprintf("recommended %s: %.1f %% chance of breaking out (risk accepted %.0f %%)",
+		rec := fmt.Sprintf("before the rules %s: %.1f %% chance of breaking out (risk accepted %.0f %%)",
 			dialText(c.Plan.Recommended, step), 100*engine.BreakoutChance(c.Plan.Estimate, c.Plan.Recommended), 100*c.Plan.Risk)
 		v.DialLines = append(v.DialLines, rec)
 		if c.FewPasses != "" {
@@ -127,6 +131,9 @@ func newView(c Card) view {
 		}
 	}
 	v.DialAlert = c.AdjustFlag
+	if len(c.Failed) > 0 {
+		v.Stop = failedWords(c.Failed)
+	}
 	if c.NoDial != "" {
 		v.NoDial = UpperFirst(c.NoDial) + "."
 		if f := c.Prediction; len(f.Timers) > 0 {
@@ -202,12 +209,20 @@ func newView(c Card) view {
 			v.Options.Header = []string{"Dial", "Breakout", "Given away", "To win", ""}
 		}
 		for i, o := range c.Plan.Options {
+			// The row to post is the final dial, after the rules; the
+			// breakout rule's pick is labelled as what it is.
 			var marks []string
-			if o.Recommended {
-				marks, v.Options.Marked = append(marks, "recommended"), i
-			}
-			if c.HasFinal && o.Dial.Equal(c.FinalDial) && !o.Recommended {
-				marks = append(marks, "final")
+			final := c.HasFinal && o.Dial.Equal(c.FinalDial)
+			switch {
+			case final && len(c.Failed) > 0:
+				marks, v.Options.Marked = append(marks, "final (a check failed)"), i
+			case final:
+				marks, v.Options.Marked = append(marks, "post this"), i
+			case o.Recommended:
+				marks = append(marks, "before the rules")
+				if !c.HasFinal {
+					v.Options.Marked = i
+				}
 			}
 			if len(c.Win) > 0 && o.Dial.Equal(c.BestForWin.Dial) {
 				marks = append(marks, "wins most")

@@ -32,7 +32,7 @@ func TestBadInputTour(t *testing.T) {
 	badSettings := corruptRow("pitcard.yaml", "dial_step: 0.01", "dial_step: 0.5")
 	trackKey := corruptRow("track.yaml", "elevation_ft: 2240", "elevation_ft: 2240\nsurface: concrete")
 	badLane := corruptRow("schedule.yaml", "lane: left", "lane: center")
-	nanCar := corruptRow("car.yaml", "limit_et: 10.00", "limit_et: .nan")
+	nanCar := corruptRow("car.yaml", "limit_et: 10.65", "limit_et: .nan")
 	_ = os.WriteFile(filepath.Join(bad, "rules", "05-bad.lua"), []byte("function dial(ctx)\n  return ctx.nope.x\nend\n"), 0o644)
 	missing := filepath.Join(t.TempDir(), "nowhere")
 	src := filepath.Join(t.TempDir(), "rows.csv")
@@ -140,7 +140,7 @@ func TestBadInputTour(t *testing.T) {
 			{with([]string{"predict", "--dir", good, "--at", "09:00"}), 2, []string{"before the first reading"}},
 		},
 		"rules": {
-			{[]string{"rules", "check", "--dir", bad}, 2, []string{"1 of 7 rules failed"}},
+			{[]string{"rules", "check", "--dir", bad}, 2, []string{"1 of 6 rules failed"}},
 			{[]string{"rules", "list", "--dir", good, "--format", "xml"}, 2, []string{"--format"}},
 			{[]string{"rules", "try", "--dir", good, "--round", "Z9"}, 2, []string{"--round"}},
 			{[]string{"rules", "try", "--dir", good, "--lane", "middle"}, 2, []string{"--lane"}},
@@ -156,7 +156,7 @@ func TestBadInputTour(t *testing.T) {
 			{[]string{"card", "--dir", trackKey}, 2, []string{"track.yaml line", "\"surface\" is not a key of this file", "elevation_ft, heading_deg, name, prep"}},
 			{[]string{"card", "--dir", badLane}, 2, []string{"schedule.yaml line 9", "lane \"center\"", "left or right"}},
 			{[]string{"card", "--dir", badLane, "--round", "3", "--lane", "left"}, 2, []string{"POST THIS", "schedule.yaml line 9"}},
-			{[]string{"card", "--dir", nanCar}, 2, []string{"car.yaml line 14", "limit_et", "not a finite number"}},
+			{[]string{"card", "--dir", nanCar}, 2, []string{"car.yaml line 16", "limit_et", "not a finite number"}},
 			{[]string{"card", "--dir", good, "--out", filepath.Join(missing, "x", "card.html")}, 1, []string{"writing"}},
 		},
 		"round": {

@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"errors"
 	"fmt"
 
 	"github.com/spf13/cobra"
@@ -87,10 +88,10 @@ func cardRun(cmd *cobra.Command, o *cardOptions) error {
 			return fmt.Errorf("writing %s: %w", o.Out, err)
 		}
 		fmt.Fprintf(o.s.Out, "Wrote the %s card for %s to %s.\n", o.Format, c.Title, o.Out)
-		return broken
+		return errors.Join(failedChecks(c.Failed), broken)
 	}
 	if _, err := o.s.Out.Write(buf.Bytes()); err != nil {
 		return err
 	}
-	return broken
+	return errors.Join(failedChecks(c.Failed), broken)
 }

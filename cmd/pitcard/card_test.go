@@ -108,8 +108,10 @@ func TestCardOnASparseFolder(t *testing.T) {
 	}
 	// a rule that runs away: the card still prints, with the failure named
 	_ = os.WriteFile(filepath.Join(dir, "rules", "99-loop.lua"), []byte("function dial(ctx)\n  while true do end\nend\n"), 0o644)
-	out = mustRun(t, "card", "--dir", dir, "--round", "1", "--lane", "right", "--temp", "85F", "--baro", "28.9inHg", "--humidity", "40%")
-	if !strings.Contains(out, "FAIL rule rules/99-loop.lua") || !strings.Contains(out, "rules/99-loop.lua:2") || !strings.Contains(out, "NO DIAL YET") {
+	// (a rule that cannot run is a failed check: the card says STOP and
+	// exits 3)
+	out, _, code = pitcard(t, "card", "--dir", dir, "--round", "1", "--lane", "right", "--temp", "85F", "--baro", "28.9inHg", "--humidity", "40%")
+	if code != 3 || !strings.Contains(out, "FAIL rule rules/99-loop.lua") || !strings.Contains(out, "rules/99-loop.lua:2") || !strings.Contains(out, "NO DIAL YET") {
 		t.Errorf("card with a runaway rule:\n%s", out)
 	}
 }

@@ -78,7 +78,13 @@ type bestForWinJSON struct {
 }
 
 type dialJSON struct {
-	PredictedET float64          `json:"predicted_et"`
+	// Post is the dial to post: the card's final dial after the crew's
+	// rules, "" when there is no round to gather (the recommendation is
+	// then the breakout rule's alone). PostOK is false when a check failed.
+	Post         string   `json:"post_dial,omitempty"`
+	PostOK       bool     `json:"post"`
+	ChecksFailed []string `json:"checks_failed"`
+	PredictedET  float64  `json:"predicted_et"`
 	SD          float64          `json:"sd"`
 	Basis       string           `json:"basis"`
 	Step        string           `json:"step"`
@@ -102,6 +108,11 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 	}
 	var est engine.Estimate
 	var leftOut error // logbook rows that could not be read: reported after the table
+	// post is the dial to post (the card's final, after the crew's rules)
+	// and the checks it must pass; without a round to gather, the breakout
+	// rule's pick labelled as before the rules, and pitcard's own safety
+	// checks on the estimate.
+	var post dialPost
 	switch {
 	case o.ET != "" || o.SD != "":
 		if o.ET == "" || o.SD == "" {
@@ -118,6 +129,7 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 		est = engine.Estimate{ET: et, SD: sd, Basis: "the --et and --sd given"}
 	default:
 		useModel := o.cond.Given() || o.cond.Latest || o.cond.At != "" || e.Demo
+		askedLatest := o.cond.Latest
 		if !useModel {
 			if elev, _, err := e.SiteElevation(o.cond.ReadingFields); err == nil {
 				if log, err := e.WeatherLog(elev); err == nil && len(log) > 0 {
@@ -140,6 +152,14 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 				// No dial table from too few passes: the estimate is a guide.
 				return noDial(o, est, why, leftOut)
 			}
+			post = dialPost{failed: prep.Failed(prep.SafetyChecks(prep.SafetyFor(n.Car, n.Pred, n.When)))}
+			if c, ok := o.card(e, askedLatest); ok {
+				// The round's card: the same prediction, rules and checks
+				// as 'pitcard card', so both post one number.
+				est = c.Plan.Estimate
+				est.Basis += ", in " + c.Input.AirSource + " (the card's)"
+				post = dialPost{final: c.FinalDial, hasFinal: c.HasFinal, failed: c.Failed, adjustments: c.Adjustments}
+			}
 			break
 		}
 		car, err := e.Car()
@@ -155,12 +175,26 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 			return userErr(err)
 		}
 	}
+	if post.failed == nil && !post.hasFinal {
+		// The estimate's quick end against the car's limits (no trap speed
+		// from an ET alone: the checks say so).
+		car, err := e.Car()
+		if err != nil {
+			return err
+		}
+		post.failed = prep.Failed(prep.SafetyChecks(prep.SafetyInput{Limits: car.Limits(), DistanceFt: car.DistanceFt,
+			QuickET: est.ET - engine.IntervalZ*est.SD, Day: o.s.Now()}))
+	}
 	plan, err := engine.PlanDial(est, e.Settings.DialStep, e.Settings.BreakoutRisk, o.Rows)
 	if err != nil {
 		return err
 	}
 	j := dialJSON{PredictedET: round(est.ET, 4), SD: round(est.SD, 4), Basis: est.Basis, Step: plan.Step.String(),
-		Risk: plan.Risk, Recommended: dialText(plan)}
+		Risk: plan.Risk, Recommended: dialText(plan), ChecksFailed: append([]string{}, post.failed...)}
+	if post.hasFinal {
+		j.Post = post.final.StringFixed(stepPlaces(plan))
+	}
+	j.PostOK = len(post.failed) == 0
 	// Against the other lane: the chance to win of every option.
 	var oppDial decimal.NullDecimal
 	if o.OppDial != "" {
@@ -204,7 +238,7 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 		if err := writeJSON(o.s.Out, j); err != nil {
 			return err
 		}
-		return leftOut
+		return errors.Join(failedChecks(post.failed), leftOut)
 	}
 	if o.Format == "csv" {
 		rows := [][]string{{"dial", "breakout_chance", "expected_giveaway_s", "win_chance", "recommended", "predicted_et", "sd"}}
@@ -216,7 +250,7 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 			rows = append(rows, []string{op.Dial, fmt.Sprint(op.BreakoutChance), fmt.Sprint(op.GiveawayS), win, fmt.Sprint(op.Recommended),
 				fmt.Sprint(j.PredictedET), fmt.Sprint(j.SD)})
 		}
-		return errors.Join(writeCSV(o.s.Out, rows), leftOut)
+		return errors.Join(writeCSV(o.s.Out, rows), failedChecks(post.failed), leftOut)
 	}
 	fmt.Fprintln(o.s.Out, prep.Wrap(fmt.Sprintf("Predicted ET %.3f s ± %.3f (one standard deviation): %s.", est.ET, est.SD, est.Basis), o.s.width(), "  "))
 	t := newTable(o.s, fmt.Sprintf("Dial-ins (step %s s, risk ≤ %.0f %%)", plan.Step, plan.Risk*100))
@@ -228,8 +262,14 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 	for _, op := range j.Options {
 		mark := ""
 		dial := op.Dial
-		if op.Recommended {
-			mark = "← post this"
+		if post.hasFinal && !op.Recommended && op.Dial == j.Post {
+			mark = post.mark()
+		}
+		if op.Recommended && post.hasFinal && op.Dial != j.Post {
+			mark = "← before the rules"
+		}
+		if op.Recommended && (!post.hasFinal || op.Dial == j.Post) {
+			mark = post.mark()
 			if o.s.Terminal && o.Format == "text" { // no colour codes in a document
 				dial = text.Colors{text.Bold, text.FgHiWhite, text.BgBlue}.Sprint(" " + dial + " ")
 			}
@@ -245,7 +285,7 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 	}
 	configs := alignRight(1, len(header)-1)
 	render(o.s, t, o.Format, configs...)
-	fmt.Fprintf(o.s.Out, "Recommended dial: %s (the slowest dial with at most a %.0f %% chance of breaking out).\n", j.Recommended, plan.Risk*100)
+	post.write(o.s, j, plan)
 	if opp != nil {
 		fmt.Fprintln(o.s.Out, prep.Wrap(fmt.Sprintf("Against the other lane's %s: %s; the dial that wins most is %s (%.1f %% to win). Chances from %d races drawn per dial, good to ±0.5 points.",
 			opp.Dial.StringFixed(2), prep.HeadStartWords(plan.Recommended, opp.Dial), j.BestForWin.Dial, 100*j.BestForWin.WinChance, engine.WinDraws), o.s.width(), "  "))
@@ -261,7 +301,72 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 				j.BestForWin.Dial, 100*bo, 100*plan.Risk, j.Recommended, 100*(best.Win-rule.Win), 100*(bo-engine.BreakoutChance(est, plan.Recommended))), o.s.width(), "  "))
 		}
 	}
-	return leftOut
+	return errors.Join(failedChecks(post.failed), leftOut)
+}
+
+// dialPost is the dial to post and the checks it must pass.
+type dialPost struct {
+	final       decimal.Decimal
+	hasFinal    bool // final is the card's, after the crew's rules
+	failed      []string
+	adjustments []prep.RuleLine
+}
+
+// mark is the table's word beside the dial to post.
+func (p dialPost) mark() string {
+	if len(p.failed) > 0 {
+		return "← STOP: a check failed"
+	}
+	if !p.hasFinal {
+		return "← post this (before the rules)"
+	}
+	return "← post this"
+}
+
+// write prints the post line: the dial to post, how the rules moved it, and
+// any failed check in the same line's type.
+func (p dialPost) write(s *IOStreams, j dialJSON, plan engine.DialPlan) {
+	rule := fmt.Sprintf("the slowest dial with at most a %.0f %% chance of breaking out", plan.Risk*100)
+	switch {
+	case p.hasFinal:
+		var moves []string
+		for _, a := range p.adjustments {
+			moves = append(moves, fmt.Sprintf("%s s %s (%s)", a.Adjust.StringFixed(2), a.Reason, a.File))
+		}
+		how := "the crew's rules change nothing"
+		if len(moves) > 0 {
+			how = "then the crew's rules: " + strings.Join(moves, "; ")
+		}
+		lead := "Post this dial"
+		if len(p.failed) > 0 {
+			lead = "The dial once the failed checks are cleared"
+		}
+		fmt.Fprintln(s.Out, prep.Wrap(fmt.Sprintf("%s: %s (the breakout rule's %s, %s; %s), as the card gives it.", lead, j.Post, j.Recommended, rule, how), s.width(), "  "))
+	default:
+		fmt.Fprintln(s.Out, prep.Wrap(fmt.Sprintf("Before the rules: %s (%s). The crew's rules run on the card: 'pitcard card' posts the final dial.", j.Recommended, rule), s.width(), "  "))
+	}
+	if len(p.failed) > 0 {
+		fmt.Fprintln(s.Out, prep.Wrap("STOP: "+checksFailed{p.failed}.Error()+".", s.width(), "  "))
+	}
+}
+
+// card gathers the round's card as 'pitcard card' would, from the dial's
+// flags: false when there is no round to gather (no schedule and no
+// --at), or with --latest (the air of the last reading, not the call's).
+func (o *dialOptions) card(e *eventFolder, latest bool) (prep.Card, bool) {
+	if latest {
+		return prep.Card{}, false
+	}
+	in, _, err := e.GatherRound(event.RoundRequest{Reading: o.cond.ReadingFields, At: o.cond.At, Prep: o.Prep,
+		OpponentDial: o.OppDial, Opponent: o.opp.OpponentFields}, e.DemoClock(o.s.Now()))
+	if err != nil {
+		return prep.Card{}, false
+	}
+	c := prep.Gather(in)
+	if !c.HasFinal || c.PlanErr != nil {
+		return prep.Card{}, false
+	}
+	return c, true
 }
 
 // noDial prints the estimate as a guide when there are too few passes to

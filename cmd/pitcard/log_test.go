@@ -171,7 +171,7 @@ func TestDialFromLogbook(t *testing.T) {
 		t.Errorf("dial with weather %+v", j)
 	}
 	text := mustRun(t, "dial", "--dir", dir, "--et", "11.5", "--sd", "0.03", "--breakout-risk", "0.05", "--dial-step", "0.001")
-	if !strings.Contains(text, "Recommended dial: 11.450") {
+	if !strings.Contains(text, "Before the rules: 11.450") {
 		t.Errorf("dial:\n%s", text)
 	}
 	if _, errs, code := pitcard(t, "dial", "--dir", dir, "--breakout-risk", "0.9"); code != 2 || !strings.Contains(errs, "--breakout-risk") {

@@ -21,7 +21,31 @@ const (
 	exitOK       = 0
 	exitFailure  = 1 // something went wrong that is not the user's input
 	exitBadInput = 2 // the user's input is wrong: a flag, a value, a file's row
+	// exitCheckFailed: the card (or dial table) printed whole, but a check
+	// failed (a safety limit, the belts' tag, a rule's fail): the dial is
+	// not to be posted as it stands. It wins over exitBadInput, so a script
+	// cannot mistake a stopped dial for a mistyped flag.
+	exitCheckFailed = 3
 )
+
+// checksFailed is a command's answer when everything printed but a check
+// failed.
+type checksFailed struct{ failed []string }
+
+func (c checksFailed) Error() string {
+	if len(c.failed) == 1 {
+		return "a check failed, do not post the dial as it stands: " + c.failed[0]
+	}
+	return fmt.Sprintf("%d checks failed, do not post the dial as it stands: %s", len(c.failed), strings.Join(c.failed, "; "))
+}
+
+// failedChecks is the error for a card's failed checks, nil for none.
+func failedChecks(failed []string) error {
+	if len(failed) == 0 {
+		return nil
+	}
+	return checksFailed{failed}
+}
 
 // IOStreams are the streams a command reads and writes; tests give buffers.
 type IOStreams struct {
@@ -63,6 +87,9 @@ func run(args []string, s *IOStreams) (code int) {
 		return exitOK
 	}
 	fmt.Fprintf(s.Err, "pitcard: %v\n", err)
+	if errors.As(err, new(checksFailed)) {
+		return exitCheckFailed
+	}
 	if isBadInput(err) {
 		return exitBadInput
 	}

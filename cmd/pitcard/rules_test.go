@@ -17,16 +17,16 @@ func demoCopy(t *testing.T) string {
 func TestRulesCommands(t *testing.T) {
 	dir := demoCopy(t)
 	list := mustRun(t, "rules", "list", "--dir", dir)
-	for _, w := range []string{"rules/10-lane-time.lua", "dial", "rules/30-safety.lua", "checks", "notes"} {
+	for _, w := range []string{"rules/10-lane-time.lua", "dial", "rules/50-prestage.lua", "checks", "notes"} {
 		if !strings.Contains(list, w) {
 			t.Errorf("list lacks %q:\n%s", w, list)
 		}
 	}
-	if out := mustRun(t, "rules", "check", "--dir", dir); !strings.Contains(out, "All 6 rules load") {
+	if out := mustRun(t, "rules", "check", "--dir", dir); !strings.Contains(out, "All 5 rules load") {
 		t.Errorf("check: %s", out)
 	}
 	try := mustRun(t, "rules", "try", "--dir", dir, "--round", "3", "--lane", "left", "--at", "20:45")
-	for _, w := range []string{"dial -0.01 s: left lane after 20:30", "log: lane left", "[confirm] Rulebook and tech", "note: Rear tires", "took"} {
+	for _, w := range []string{"dial -0.01 s: left lane after 20:30", "log: lane left", "[confirm] Window net up", "note: Rear tires", "took"} {
 		if !strings.Contains(try, w) {
 			t.Errorf("try lacks %q:\n%s", w, try)
 		}

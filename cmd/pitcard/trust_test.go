@@ -145,10 +145,10 @@ func TestCardSaysHowOldTheReadingIs(t *testing.T) {
 // and line; the card prints the rest and no check passes on it.
 func TestNonFiniteYAMLIsRefused(t *testing.T) {
 	dir := demoCopy(t)
-	editFile(t, dir, "car.yaml", func(s string) string { return strings.Replace(s, "limit_et: 10.00", "limit_et: .nan", 1) })
+	editFile(t, dir, "car.yaml", func(s string) string { return strings.Replace(s, "limit_et: 10.65", "limit_et: .nan", 1) })
 	out, errs, code := pitcard(t, "card", "--dir", dir, "--round", "3", "--lane", "left")
 	all := out + errs
-	if code != 2 || !strings.Contains(all, "car.yaml line 14: limit_et \".nan\" is not a finite number") {
+	if code != 2 || !strings.Contains(all, "car.yaml line 16: limit_et \".nan\" is not a finite number") {
 		t.Errorf("exit %d:\n%s", code, all)
 	}
 	if strings.Contains(all, "NaN") || strings.Contains(all, "PASS ET limit") {
@@ -157,9 +157,12 @@ func TestNonFiniteYAMLIsRefused(t *testing.T) {
 	// a yes/no written as text gets a word on the card
 	dir = demoCopy(t)
 	editFile(t, dir, "car.yaml", func(s string) string { return strings.Replace(s, "chute: false", "chute: yes", 1) })
-	out = mustRun(t, "card", "--dir", dir, "--round", "3", "--lane", "left")
-	if !strings.Contains(strings.Join(strings.Fields(out), " "), "car.yaml line 16: chute: yes is read as the text") {
-		t.Errorf("chute: yes not pointed out:\n%s", out)
+	// and, as the parachute cannot be checked on it, a failed check that
+	// stops the dial (exit 3)
+	out, _, code = pitcard(t, "card", "--dir", dir, "--round", "3", "--lane", "left")
+	flat := strings.Join(strings.Fields(out), " ")
+	if code != 3 || !strings.Contains(flat, "car.yaml line 18: chute: yes is read as the text") || !strings.Contains(flat, `A CHECK FAILED: Car's limits: chute "yes" in car.yaml is not true or false`) {
+		t.Errorf("chute: yes not pointed out (exit %d):\n%s", code, out)
 	}
 	// the same for the crew's settings
 	dir = demoCopy(t)

@@ -227,13 +227,15 @@ tire: radial
 transmission: automatic
 
 # The crew's own fields, for their rules (pitcard keeps keys it does not know).
-# Safety limits of THIS car, read by rules/30-safety.lua; the numbers that
-# apply to you come from your sanctioning body's current rulebook and tech.
-limit_et: 10.00
-limit_mph: 135
+# Safety limits of THIS car, which pitcard's built-in safety checks compare
+# the prediction with. These are the invented Ember's own numbers, from its
+# invented tech card; no rulebook's. Yours come from your sanctioning body's
+# current rulebook and your track's tech inspection.
+limit_et: 10.65            # s, at the distance raced (the 1/4 mile here)
+limit_mph: 126             # mph, at the distance raced
 chute: false
-chute_needed_mph: 150
-belts_expire: "2027-03"
+chute_needed_mph: 141      # mph
+belts_expire: "2027-03"    # YYYY-MM or MM/YYYY
 `
 
 var firstErr error

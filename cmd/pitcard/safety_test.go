@@ -1,0 +1,86 @@
+package main
+
+import (
+	"encoding/json"
+	"strings"
+	"testing"
+)
+
+// A limit the crew entered that the prediction breaks reaches the dial box
+// of every card format and of 'dial', the JSON, and the exit status (3),
+// while the whole card still prints. The demo car runs about 11.40 at
+// 118 mph on the 1/4 mile; each limit below is set just past that.
+func TestAFailedLimitStopsTheDial(t *testing.T) {
+	cases := []struct{ name, from, to, words string }{
+		{"ET", "limit_et: 10.65", "limit_et: 11.50", "ET limit: could run 11.400 s"},
+		{"MPH", "limit_mph: 126", "limit_mph: 117", "MPH limit: could trap"},
+		{"parachute", "chute_needed_mph: 141", "chute_needed_mph: 115", "Parachute: could trap"},
+		{"belts", `belts_expire: "2027-03"`, `belts_expire: "2026-05"`, "date tag ran out in 2026-05"},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			dir := demoCopy(t)
+			editFile(t, dir, "car.yaml", func(s string) string {
+				if !strings.Contains(s, tc.from) {
+					t.Fatalf("car.yaml lacks %q", tc.from)
+				}
+				return strings.Replace(s, tc.from, tc.to, 1)
+			})
+			args := []string{"--dir", dir, "--round", "3", "--lane", "left"}
+			out, errs, code := pitcard(t, append([]string{"card"}, args...)...)
+			box := strings.Join(strings.Fields(out[:strings.Index(out, "Air")]), " ")
+			if code != exitCheckFailed || !strings.Contains(box, "DO NOT") || !strings.Contains(box, tc.words) ||
+				strings.Contains(box, "POST THIS") || !strings.Contains(out, "Cautions") || !strings.Contains(errs, "a check failed") {
+				t.Errorf("card exit %d, dial box:\n%s\nstderr: %s", code, box, errs)
+			}
+			for _, format := range []string{"markdown", "html"} {
+				out, _, code := pitcard(t, append([]string{"card", "--format", format}, args...)...)
+				if code != exitCheckFailed || !strings.Contains(out, "STOP") || !strings.Contains(out, tc.words) {
+					t.Errorf("%s card exit %d", format, code)
+				}
+			}
+			js, _, code := pitcard(t, append([]string{"card", "--format", "json"}, args...)...)
+			var j struct {
+				ChecksFailed []string `json:"checks_failed"`
+				Problems     []string `json:"problems"`
+				Dial         struct {
+					Flag string `json:"flag"`
+					Post bool   `json:"post"`
+				} `json:"dial"`
+			}
+			if err := json.Unmarshal([]byte(js), &j); err != nil || code != exitCheckFailed || len(j.ChecksFailed) != 1 ||
+				!strings.Contains(j.ChecksFailed[0], tc.words) || j.Dial.Post || !strings.Contains(j.Dial.Flag, "A CHECK FAILED") || len(j.Problems) == 0 {
+				t.Errorf("card JSON exit %d (%v): %+v", code, err, j)
+			}
+			dial, _, code := pitcard(t, "dial", "--dir", dir)
+			if code != exitCheckFailed || !strings.Contains(dial, "← STOP: a check failed") || !strings.Contains(strings.Join(strings.Fields(dial), " "), tc.words) {
+				t.Errorf("dial exit %d:\n%s", code, dial)
+			}
+			var dj dialJSON
+			djs, _, _ := pitcard(t, "dial", "--dir", dir, "--format", "json")
+			if err := json.Unmarshal([]byte(djs), &dj); err != nil || dj.PostOK || len(dj.ChecksFailed) != 1 {
+				t.Errorf("dial JSON (%v): %+v", err, dj)
+			}
+		})
+	}
+}
+
+// 'dial' and the card post one number: the final dial after the crew's
+// rules, with the breakout rule's pick labelled as before the rules.
+func TestDialAndCardPostOneNumber(t *testing.T) {
+	card := mustRun(t, "card", "--demo", "--format", "json")
+	var c struct {
+		Final string `json:"final_dial"`
+	}
+	if err := json.Unmarshal([]byte(card), &c); err != nil || c.Final == "" {
+		t.Fatalf("card JSON: %v %q", err, c.Final)
+	}
+	var d dialJSON
+	if err := json.Unmarshal([]byte(mustRun(t, "dial", "--demo", "--format", "json")), &d); err != nil || d.Post != c.Final || !d.PostOK {
+		t.Errorf("dial posts %q (%v), the card %q", d.Post, err, c.Final)
+	}
+	text := mustRun(t, "dial", "--demo")
+	if !strings.Contains(text, c.Final+" │") || !strings.Contains(text, "← post this") || !strings.Contains(text, "← before the rules") {
+		t.Errorf("dial text:\n%s", text)
+	}
+}

@@ -1,0 +1,167 @@
+package prep
+
+import (
+	"fmt"
+	"strconv"
+	"strings"
+	"time"
+
+	"pitcard/engine"
+	"pitcard/scripts"
+)
+
+// SafetyFile is the name the built-in safety checks carry on the checklist
+// where a rule's checks carry their file's.
+const SafetyFile = "pitcard (car.yaml limits)"
+
+// Safety warning margins: a prediction this close to a limit is worth a
+// second look before the car goes up (common practice, no source: about
+// one run-to-run spread of a sharp bracket car at each end).
+const (
+	WarnETMargin  = 0.10 // s
+	WarnMPHMargin = 3.0  // mph
+)
+
+// SafetyInput is what the built-in safety checks compare: the car's limits,
+// the prediction's quick end and fast end at the distance raced, and the
+// day (for the belts' date tag).
+type SafetyInput struct {
+	Limits     engine.Limits
+	DistanceFt float64
+	// QuickET is the quick end of the finish ET's 95 % interval, s; 0 when
+	// there is no prediction.
+	QuickET float64
+	// FastMPH is the fast end of the finish trap's 95 % interval, mph; 0
+	// when no trap speed is predicted.
+	FastMPH float64
+	Day     time.Time
+}
+
+// SafetyFor is the safety input of a prediction (none when p has no timers).
+func SafetyFor(car engine.Car, p engine.Prediction, day time.Time) SafetyInput {
+	in := SafetyInput{Limits: car.Limits(), DistanceFt: car.DistanceFt, Day: day}
+	if len(p.Timers) > 0 {
+		in.QuickET = p.Finish().Low
+	}
+	if n := len(p.Traps); n > 0 {
+		in.FastMPH = p.Traps[n-1].High // the finish trap is last
+	}
+	return in
+}
+
+// SafetyChecks compare the prediction with the limits the crew entered for
+// its own car: the ET and MPH limits at the distance raced, the parachute,
+// the belts' date tag. pitcard carries no rulebook, so a limit not entered
+// is a warning that says what is not being checked, and a limit that cannot
+// be read is a failure (it cannot be checked either). They are built in, not
+// a rule file, so that no broken or deleted rule can silence them, and so
+// that every front end (card, dial, the pit page) runs the same ones.
+func SafetyChecks(in SafetyInput) []scripts.Check {
+	var out []scripts.Check
+	add := func(label, status, note string) {
+		out = append(out, scripts.Check{Label: label, Status: status, Note: note, File: SafetyFile})
+	}
+	l := in.Limits
+	for _, p := range l.Problems {
+		add("Car's limits", scripts.Fail, p+": that limit is not being checked")
+	}
+	dist := TimerName(in.DistanceFt)
+
+	switch {
+	case l.ET == 0:
+		add("ET limit", scripts.Warn, fmt.Sprintf("no limit_et in car.yaml: the ET is not being checked; enter the quickest %s ET your chassis and cage are certified for", dist))
+	case in.QuickET == 0:
+		add("ET limit", scripts.Warn, "no prediction to compare with the car's limit_et")
+	case in.QuickET < l.ET:
+		add("ET limit", scripts.Fail, fmt.Sprintf("could run %.3f s (the quick end of the 95 %% interval): quicker than the car's %s limit of %.2f s", in.QuickET, dist, l.ET))
+	case in.QuickET < l.ET+WarnETMargin:
+		add("ET limit", scripts.Warn, fmt.Sprintf("could run %.3f s (the quick end of the 95 %% interval), within %.2f s of the car's %s limit of %.2f s", in.QuickET, WarnETMargin, dist, l.ET))
+	default:
+		add("ET limit", scripts.Pass, fmt.Sprintf("quickest likely %.3f s (the quick end of the 95 %% interval) against the car's %s limit of %.2f s", in.QuickET, dist, l.ET))
+	}
+
+	switch {
+	case l.MPH == 0:
+		add("MPH limit", scripts.Warn, fmt.Sprintf("no limit_mph in car.yaml: the trap speed is not being checked; enter the fastest %s trap speed allowed without more equipment", dist))
+	case in.FastMPH == 0:
+		add("MPH limit", scripts.Warn, "no trap speed predicted to compare with the car's limit_mph")
+	case in.FastMPH > l.MPH:
+		add("MPH limit", scripts.Fail, fmt.Sprintf("could trap %.1f mph (the fast end of the 95 %% interval): over the car's %s limit of %s mph", in.FastMPH, dist, num(l.MPH)))
+	case in.FastMPH > l.MPH-WarnMPHMargin:
+		add("MPH limit", scripts.Warn, fmt.Sprintf("could trap %.1f mph (the fast end of the 95 %% interval), within %.0f mph of the car's %s limit of %s mph", in.FastMPH, WarnMPHMargin, dist, num(l.MPH)))
+	default:
+		add("MPH limit", scripts.Pass, fmt.Sprintf("fastest likely %.1f mph (the fast end of the 95 %% interval) against the car's %s limit of %s mph", in.FastMPH, dist, num(l.MPH)))
+	}
+
+	fitted := "no chute fitted"
+	if !l.ChuteSaid {
+		fitted = "car.yaml does not say a chute is fitted (chute: true)"
+	}
+	switch {
+	case l.ChuteNeededMPH == 0:
+		add("Parachute", scripts.Warn, "no chute_needed_mph in car.yaml: the need for a parachute is not being checked")
+	case in.FastMPH == 0:
+		add("Parachute", scripts.Warn, "no trap speed predicted to compare with chute_needed_mph")
+	case in.FastMPH >= l.ChuteNeededMPH && !l.Chute:
+		add("Parachute", scripts.Fail, fmt.Sprintf("could trap %.1f mph and %s; you entered %s mph as needing one", in.FastMPH, fitted, num(l.ChuteNeededMPH)))
+	default:
+		add("Parachute", scripts.Pass, fmt.Sprintf("fastest likely %.1f mph; a chute is needed from %s mph", in.FastMPH, num(l.ChuteNeededMPH)))
+	}
+
+	add(beltsCheck(l, in.Day))
+	add("Rulebook and tech", scripts.Confirm, "equipment and ET/MPH limits verified against the current rulebook and at tech")
+	return out
+}
+
+// num prints a limit as the crew wrote it: 10.5, not 10.50 or 10.500.
+func num(v float64) string { return strconv.FormatFloat(v, 'f', -1, 64) }
+
+// beltsCheck reads the belts' date tag against the day: a tag that runs out
+// this month warns, one that ran out before it fails.
+func beltsCheck(l engine.Limits, day time.Time) (label, status, note string) {
+	switch {
+	case l.BeltsExpire == "":
+		return "Belts", scripts.Warn, "no belts_expire in car.yaml: the belts' date tag is not being checked; enter its month as " + engine.BeltsForms
+	case l.BeltsMonth.IsZero():
+		_, err := engine.ParseBeltsMonth(l.BeltsExpire)
+		return "Belts", scripts.Warn, err.Error() + "; the belts' date tag is not being checked"
+	}
+	tag := l.BeltsMonth.Format("2006-01")
+	today := time.Date(day.Year(), day.Month(), 1, 0, 0, 0, 0, time.UTC)
+	switch {
+	case today.After(l.BeltsMonth):
+		return "Belts", scripts.Fail, "the belts' date tag ran out in " + tag
+	case today.Equal(l.BeltsMonth):
+		return "Belts", scripts.Warn, "the belts' date tag runs out this month (" + tag + ")"
+	}
+	return "Belts", scripts.Pass, "date tag good to " + tag
+}
+
+// Failed are the checks that failed, each as "label: note": what the dial
+// box shows. A failed check is the crew's to clear before the car goes up,
+// whether pitcard's own or a rule's (a rule that cannot run is one too).
+func Failed(checks []scripts.Check) []string {
+	var out []string
+	for _, ch := range checks {
+		if ch.Status != scripts.Fail {
+			continue
+		}
+		l := ch.Label
+		if ch.Note != "" {
+			l += ": " + ch.Note
+		}
+		if ch.File != "" && ch.File != SafetyFile {
+			l += " (" + ch.File + ")"
+		}
+		out = append(out, l)
+	}
+	return out
+}
+
+// failedWords is the dial box's line for the failed checks.
+func failedWords(failed []string) string {
+	if len(failed) == 1 {
+		return "A CHECK FAILED: " + failed[0]
+	}
+	return fmt.Sprintf("%d CHECKS FAILED: %s", len(failed), strings.Join(failed, "; "))
+}
