@@ -81,18 +81,18 @@ type dialJSON struct {
 	// Post is the dial to post: the card's final dial after the crew's
 	// rules, "" when there is no round to gather (the recommendation is
 	// then the breakout rule's alone). PostOK is false when a check failed.
-	Post         string   `json:"post_dial,omitempty"`
-	PostOK       bool     `json:"post"`
-	ChecksFailed []string `json:"checks_failed"`
-	PredictedET  float64  `json:"predicted_et"`
-	SD          float64          `json:"sd"`
-	Basis       string           `json:"basis"`
-	Step        string           `json:"step"`
-	Risk        float64          `json:"breakout_risk"`
-	Recommended string           `json:"recommended_dial"`
-	Options     []dialOptionJSON `json:"options"`
-	BestForWin  *bestForWinJSON  `json:"best_for_win,omitempty"`
-	HeadStartS  *float64         `json:"head_start_s,omitempty"`
+	Post         string           `json:"post_dial,omitempty"`
+	PostOK       bool             `json:"post"`
+	ChecksFailed []string         `json:"checks_failed"`
+	PredictedET  float64          `json:"predicted_et"`
+	SD           float64          `json:"sd"`
+	Basis        string           `json:"basis"`
+	Step         string           `json:"step"`
+	Risk         float64          `json:"breakout_risk"`
+	Recommended  string           `json:"recommended_dial"`
+	Options      []dialOptionJSON `json:"options"`
+	BestForWin   *bestForWinJSON  `json:"best_for_win,omitempty"`
+	HeadStartS   *float64         `json:"head_start_s,omitempty"`
 }
 
 func dialRun(cmd *cobra.Command, o *dialOptions) error {
