@@ -46,6 +46,7 @@ type Settings struct {
 	MaxAdjust     decimal.Decimal
 	RuleLimits    scripts.Limits
 	MaxReadingAge time.Duration // a reading older than this is flagged on the card
+	CrossCheckMax float64       // s: the model this far from the plain cross-check is flagged
 	// The other lane's defaults and ours, s (common practice, from memory:
 	// see the README), and which dial to post.
 	OppMargin, OppMarginSD, OppRTMean, OppRTSD, RTMean, RTSD float64

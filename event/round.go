@@ -506,7 +506,8 @@ func (e *Folder) GatherRound(r RoundRequest, now time.Time) (prep.Input, []strin
 	in = prep.Input{
 		Car: car, Track: trk, Tracks: tracks, Passes: passes,
 		Settings: prep.Settings{Units: e.Settings.Units, DialStep: e.Settings.DialStep, BreakoutRisk: e.Settings.BreakoutRisk,
-			MaxRuleAdjust: e.Settings.MaxAdjust, RuleLimits: e.Settings.RuleLimits, MaxReadingAge: e.Settings.MaxReadingAge},
+			MaxRuleAdjust: e.Settings.MaxAdjust, RuleLimits: e.Settings.RuleLimits, MaxReadingAge: e.Settings.MaxReadingAge,
+			CrossCheckMax: e.Settings.CrossCheckMax},
 		Session: slot.Session, Lane: lane, OpponentDial: opp, Opponent: opponent, UsRT: usRT, PostBestForWin: e.Settings.PostBestForWin, Call: call, Now: now,
 		Air: air, AirSource: source, AirNow: airNow, Forecast: forecast, Elevation: elev, Prep: prepLvl, WeightLb: weight,
 		Rules: rules, RulesFS: e.FS, Ticked: notes.Ticked,

@@ -40,6 +40,9 @@ var SettingDefaults = map[string]any{
 	"opponent_rt_sd":     0.025,
 	"rt_mean":            0.04,
 	"rt_sd":              0.025,
+	// The model's ET further than this from the plain cross-check (the
+	// latest clean passes carried by the air alone) is flagged, s.
+	"cross_check_max_s": engine.DefaultCrossCheckMax,
 	// breakout-rule (the slowest dial within breakout_risk) or best-for-win
 	"post_dial": "breakout-rule",
 }
@@ -168,6 +171,9 @@ func Open(o OpenOptions) (*Folder, error) {
 		return nil, settingErr("reading_max_age_min", &weather.InputError{Field: "reading_max_age_min", Value: v.GetString("reading_max_age_min"), Reason: "is outside 5..1440 minutes"})
 	}
 	s.MaxReadingAge = time.Duration(age) * time.Minute
+	if s.CrossCheckMax = v.GetFloat64("cross_check_max_s"); !(s.CrossCheckMax >= 0.01 && s.CrossCheckMax <= 1) {
+		return nil, settingErr("cross_check_max_s", &weather.InputError{Field: "cross_check_max_s", Value: v.GetString("cross_check_max_s"), Reason: "is outside 0.01..1 s"})
+	}
 	for _, x := range []struct {
 		key    string
 		dst    *float64

@@ -64,6 +64,13 @@ func RenderJSON(w io.Writer, c Card) error {
 			"passes_calibrated": len(c.Fit.Samples), "passes_at_distance": p.Passes, "interval_pct": 95, "notes": p.Notes,
 			"et_per_1000ft_da_s": round(s.PerKDA, 4), "et_per_10f_track_s": round(s.Per10FTrack, 4), "et_per_10mph_headwind_s": round(s.Per10Headwind, 4)}
 	}
+	if c.HasCross {
+		cc := map[string]any{"et": round(c.Cross.ET, 3), "passes": len(c.Cross.Passes), "basis": c.Cross.Basis, "limit_s": crossLimit(in.Settings), "flag": c.CrossFlag}
+		if len(c.Prediction.Timers) > 0 {
+			cc["model_minus_cross_s"] = round(c.Prediction.Finish().ET-c.Cross.ET, 3)
+		}
+		j["cross_check"] = cc
+	}
 	if c.NoDial != "" {
 		j["no_dial"] = c.NoDial
 	}

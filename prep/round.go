@@ -39,6 +39,10 @@ type Settings struct {
 	// MaxReadingAge: the latest reading older than this at Now is flagged;
 	// 0 takes DefaultMaxReadingAge.
 	MaxReadingAge time.Duration
+	// CrossCheckMax, s: the model's ET further than this from the plain
+	// cross-check (engine.AirCarried) is flagged in the dial box; 0 takes
+	// engine.DefaultCrossCheckMax (the setting cross_check_max_s).
+	CrossCheckMax float64
 }
 
 // DefaultMaxReadingAge is how old the latest reading may be before the card
@@ -133,7 +137,13 @@ type Card struct {
 	// few passes of the car): the estimate is shown as a guide.
 	NoDial string
 	// FewPasses is set when the dial rests on few passes, in words.
-	FewPasses   string
+	FewPasses string
+	// Cross is the plain cross-check beside the model (HasCross when the
+	// logbook has a pass to carry), and CrossFlag, in words, when the two
+	// are further apart than the setting.
+	Cross       engine.CrossCheck
+	HasCross    bool
+	CrossFlag   string
 	Rules       []scripts.Result
 	Adjustments []RuleLine
 	TotalAdjust decimal.Decimal
@@ -219,6 +229,7 @@ func Gather(in Input) Card {
 			}
 		}
 		c.Record, c.RecordMAE = todaysRecord(fit, cal, in)
+		c.Cross, c.HasCross, c.CrossFlag = crossCheck(c.Prediction, in)
 	}
 
 	if in.Opponent != nil && c.PlanErr == nil && len(c.Plan.Options) > 0 {
@@ -251,6 +262,34 @@ func Gather(in Input) Card {
 	c.Failed = Failed(c.Checks)
 	c.GatheredTook = time.Since(start)
 	return c
+}
+
+// crossCheck carries the latest clean passes to the call's air by the air
+// alone and flags a model that strays from them: a fitted response reaching
+// past the logbook (a track far hotter than any logged) must not move the
+// dial half a second unnoticed.
+func crossCheck(p engine.Prediction, in Input) (engine.CrossCheck, bool, string) {
+	elevation := func(track string) weather.Length {
+		if t, ok := in.Tracks[track]; ok {
+			return t.Elevation()
+		}
+		return in.Elevation
+	}
+	cc, ok := engine.AirCarried(in.Passes, in.Car.DistanceFt, in.Air, in.Elevation, elevation)
+	if !ok || len(p.Timers) == 0 {
+		return cc, ok, ""
+	}
+	limit := crossLimit(in.Settings)
+	model := p.Finish().ET
+	if d := model - cc.ET; math.Abs(d) > limit {
+		dir := "slower"
+		if d < 0 {
+			dir = "quicker"
+		}
+		return cc, true, fmt.Sprintf("the model's %.3f s is %.3f s %s than the plain cross-check's %.3f s (%s), more than the %.2f s allowed (setting cross_check_max_s): the model may be reaching past what the logbook has seen (a track or air unlike any logged); look again before dialing on it",
+			model, math.Abs(d), dir, cc.ET, cc.Basis, limit)
+	}
+	return cc, true, ""
 }
 
 // Minutes prints a duration as a racer says it: "25 min", "6 h 39 min".

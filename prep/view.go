@@ -121,6 +121,7 @@ func newView(c Card) view {
 		for _, a := range c.Adjustments {
 			v.DialLines = append(v.DialLines, fmt.Sprintf("%s s %s (%s)", signedDec(a.Adjust), a.Reason, a.File))
 		}
+
 		if len(c.Adjustments) > 0 {
 			chance := engine.BreakoutChance(c.Plan.Estimate, c.FinalDial)
 			line := fmt.Sprintf("final %s: %.1f %% chance of breaking out", v.Dial, 100*chance)
@@ -129,8 +130,15 @@ func newView(c Card) view {
 			}
 			v.DialLines = append(v.DialLines, line)
 		}
+		if c.HasCross && c.CrossFlag == "" {
+			v.DialLines = append(v.DialLines, fmt.Sprintf("cross-check %.3f s: %s; the model's %.3f s agrees within %.2f s",
+				c.Cross.ET, c.Cross.Basis, c.Prediction.Finish().ET, crossLimit(in.Settings)))
+		}
 	}
 	v.DialAlert = c.AdjustFlag
+	if c.CrossFlag != "" {
+		v.DialAlert = strings.TrimPrefix(v.DialAlert+"; "+c.CrossFlag, "; ")
+	}
 	if len(c.Failed) > 0 {
 		v.Stop = failedWords(c.Failed)
 	}
@@ -379,6 +387,14 @@ func postedWords(best bool) string {
 }
 
 // TimerName names a timer: "60 ft", "1/8 mile", "1/4 mile".
+// crossLimit is the cross-check's allowance in force.
+func crossLimit(s Settings) float64 {
+	if s.CrossCheckMax > 0 {
+		return s.CrossCheckMax
+	}
+	return engine.DefaultCrossCheckMax
+}
+
 func TimerName(ft float64) string {
 	switch ft {
 	case 660:

@@ -3,6 +3,7 @@ package weather
 import (
 	"fmt"
 	"math"
+	"slices"
 	"sort"
 	"time"
 )
@@ -26,6 +27,12 @@ const (
 	// 30 ft of DA (from memory), however straight the trend.
 	MeterDAFeet = 30.0
 )
+
+// TrackTrendReach, °F: how far past the highest or lowest track reading of
+// its window a forecast's track temperature may go. A surface warms and
+// cools on a curve (sun up, sun down), which a straight line run forward
+// overshoots (common practice, no source).
+const TrackTrendReach = 10.0
 
 // Forecast is the air expected at a future time from the weather log's trend.
 type Forecast struct {
@@ -106,7 +113,15 @@ func ForecastAt(log []Reading, at time.Time, elev Length) (Forecast, error) {
 	}
 	switch {
 	case len(track) >= MinTrendReadings:
-		f.Reading.HasTrack, f.Reading.TrackTemp = true, Fahrenheit(fitLine(trackX, track).at(x0))
+		t := fitLine(trackX, track).at(x0)
+		// A surface's straight line run far ahead climbs without end (the
+		// sun goes down); held to within TrackTrendReach of what was read.
+		lo, hi := slices.Min(track)-TrackTrendReach, slices.Max(track)+TrackTrendReach
+		if held := math.Max(lo, math.Min(hi, t)); held != t {
+			f.Notes = append(f.Notes, fmt.Sprintf("the track's trend (%.0f °F) held to %.0f °F, within %.0f °F of the readings it rests on", t, held, TrackTrendReach))
+			t = held
+		}
+		f.Reading.HasTrack, f.Reading.TrackTemp = true, Fahrenheit(t)
 	case last.HasTrack:
 		f.Reading.HasTrack, f.Reading.TrackTemp = true, last.TrackTemp
 	}
@@ -121,7 +136,11 @@ func ForecastAt(log []Reading, at time.Time, elev Length) (Forecast, error) {
 		f.Notes = append(f.Notes, fmt.Sprintf("too noisy to trust: the readings scatter ±%.0f ft of density altitude around their trend "+
 			"(more than %.0f ft); check the meter and take a fresh reading", f.DAError.Feet(), NoisyDAFeet))
 	} else if f.Ahead > f.Span {
-		f.Notes = append(f.Notes, fmt.Sprintf("stretched: forecasting %s ahead on %s of trend", roundMin(f.Ahead), roundMin(f.Span)))
+		// Further ahead than the trend reaches back is a guess at the
+		// trend's own continuation, not a measurement of it.
+		f.Trusted = false
+		f.Notes = append(f.Notes, fmt.Sprintf("not to be trusted: forecasting %s ahead on %s of trend (a forecast is trusted only as far ahead as its trend reaches back); take a fresh reading nearer the call",
+			roundMin(f.Ahead), roundMin(f.Span)))
 	}
 	return f, nil
 }

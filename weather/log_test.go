@@ -186,9 +186,19 @@ func TestForecastFollowsLinearTrend(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
+	// the track's line would reach 130 − 40 = 90 °F, 16 °F under the lowest
+	// track reading: held TrackTrendReach under it (pitcard's own guard)
 	if math.Abs(f.Reading.Temp.Fahrenheit()-(92-2*10)) > 1e-6 || math.Abs(f.Reading.Baro.InHg()-29.00) > 1e-6 ||
-		math.Abs(f.Reading.TrackTemp.Fahrenheit()-(130-40)) > 1e-6 {
-		t.Errorf("forecast %+v", f.Reading)
+		math.Abs(f.Reading.TrackTemp.Fahrenheit()-(106-TrackTrendReach)) > 1e-6 || !strings.Contains(strings.Join(f.Notes, " "), "held to 96 °F") {
+		t.Errorf("forecast %+v %q", f.Reading, f.Notes)
+	}
+	// within reach of the readings, the track follows its line
+	if g, _ := ForecastAt(log, at("19:45"), Feet(900)); math.Abs(g.Reading.TrackTemp.Fahrenheit()-(130-4*7)) > 1e-6 {
+		t.Errorf("track at 19:45: %v", g.Reading.TrackTemp)
+	}
+	// further ahead than the trend reaches back (90 min) is not trusted
+	if g, _ := ForecastAt(log, at("21:01"), Feet(900)); g.Trusted || !strings.Contains(strings.Join(g.Notes, " "), "not to be trusted") {
+		t.Errorf("91 min ahead on 90 min of trend: trusted %v %q", g.Trusted, g.Notes)
 	}
 	if f.Used != 7 || f.Span != 90*time.Minute || f.Ahead != time.Hour || !f.Trusted {
 		t.Errorf("used %d span %v ahead %v trusted %v", f.Used, f.Span, f.Ahead, f.Trusted)

@@ -190,9 +190,15 @@ func TestWeatherLogFlow(t *testing.T) {
 	if err := json.Unmarshal([]byte(out), &f); err != nil {
 		t.Fatal(err)
 	}
-	// the log cools 2 °F every 15 min: 18:45 85 °F → 19:45 77 °F
-	if f.ReadingsUsed != 4 || f.TrendMinutes != 45 || !f.Trusted || math.Abs(f.Air.TempF-77) > 0.05 {
+	// the log cools 2 °F every 15 min: 18:45 85 °F → 19:45 77 °F; an hour
+	// ahead on 45 min of trend is not trusted
+	if f.ReadingsUsed != 4 || f.TrendMinutes != 45 || f.Trusted || math.Abs(f.Air.TempF-77) > 0.05 {
 		t.Errorf("forecast %+v", f)
+	}
+	// 45 min ahead on 45 min of trend is: 79 °F at 19:30
+	_ = json.Unmarshal([]byte(mustRun(t, "weather", "forecast", "--dir", dir, "--at", "19:30", "--format", "json")), &f)
+	if !f.Trusted || math.Abs(f.Air.TempF-79) > 0.05 {
+		t.Errorf("forecast at 19:30 %+v", f)
 	}
 	if _, errs, code := pitcard(t, "weather", "forecast", "--dir", dir, "--at", "22:00"); code != 2 || !strings.Contains(errs, "at most 3 h") {
 		t.Errorf("far forecast: exit %d %s", code, errs)

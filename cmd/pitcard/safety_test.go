@@ -2,6 +2,7 @@ package main
 
 import (
 	"encoding/json"
+	"math"
 	"strings"
 	"testing"
 )
@@ -82,5 +83,34 @@ func TestDialAndCardPostOneNumber(t *testing.T) {
 	text := mustRun(t, "dial", "--demo")
 	if !strings.Contains(text, c.Final+" │") || !strings.Contains(text, "← post this") || !strings.Contains(text, "← before the rules") {
 		t.Errorf("dial text:\n%s", text)
+	}
+}
+
+// A track far hotter than any in the logbook must not move the dial half a
+// second unnoticed: the plain cross-check (the latest clean passes carried
+// by the air alone) stands beside the model, and the dial box says when
+// they part by more than cross_check_max_s.
+func TestHotTrackIsCrossChecked(t *testing.T) {
+	var j struct {
+		Cross struct {
+			ET   float64 `json:"et"`
+			Diff float64 `json:"model_minus_cross_s"`
+			Flag string  `json:"flag"`
+		} `json:"cross_check"`
+	}
+	if err := json.Unmarshal([]byte(mustRun(t, "card", "--demo", "--format", "json")), &j); err != nil || j.Cross.ET < 11.3 || j.Cross.ET > 11.6 || j.Cross.Flag != "" {
+		t.Errorf("demo cross-check (%v): %+v", err, j.Cross)
+	}
+	out := mustRun(t, "card", "--demo", "--track-temp", "160F")
+	box := strings.Join(strings.Fields(out[:strings.Index(out, "Air")]), " ")
+	if !strings.Contains(box, "CHECK: the model's") || !strings.Contains(box, "than the plain cross-check's") {
+		t.Errorf("160 °F track, dial box:\n%s", box)
+	}
+	_ = json.Unmarshal([]byte(mustRun(t, "card", "--demo", "--track-temp", "160F", "--format", "json")), &j)
+	if j.Cross.Flag == "" || math.Abs(j.Cross.Diff) <= 0.05 {
+		t.Errorf("160 °F cross-check: %+v", j.Cross)
+	}
+	if _, _, code := pitcard(t, "card", "--demo"); code != 0 {
+		t.Errorf("demo card exit %d", code)
 	}
 }
