@@ -151,7 +151,7 @@ func Compile(file, src string, fsys fs.FS, limits Limits) *Rule {
 			r.Defines = append(r.Defines, h)
 		default:
 			r.Err = &Error{File: file, Line: assignedLine(src, h), Msg: limits.clip(fmt.Sprintf(
-				"%s is a %s, not a function: pitcard calls %s(ctx), so define it as function %s(ctx) … end", h, v.Type(), h, h))}
+				"%s is a %s, not a function: define it as function %s(ctx) … end", h, v.Type(), h))}
 			return r
 		}
 	}
