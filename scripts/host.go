@@ -134,6 +134,7 @@ func Compile(file, src string, fsys fs.FS, limits Limits) *Rule {
 	r := &Rule{File: file, Source: src}
 	proto, err := compile(file, src)
 	if err != nil {
+		err.Msg = limits.clip(err.Msg) // the parser may quote a whole long string
 		r.Err = err
 		return r
 	}

@@ -67,6 +67,7 @@ func TestHostileRules(t *testing.T) {
 		{"checks bad status", "function checks(ctx) return {{label='x', status='ok'}} end", "pass, warn, fail or confirm"},
 		{"checks no label", "function checks(ctx) return {{status='pass'}} end", "no label"},
 		{"notes wrong type", "function notes(ctx) return {{}} end", "not a string"},
+		{"check note a table", "function checks(ctx) return {{label = 'x', status = 'pass', note = {}}} end", "rules/t.lua:1: checks(ctx) item 1 (x) has a note that is a table, not text"},
 		{"runtime error", "function dial(ctx)\n  local x = nil\n  return x.y\nend", "rules/t.lua:3:"},
 		{"syntax error", "function dial(ctx)\n  return 1 +\nend", "rules/t.lua:3:"},
 		{"error()", "function dial(ctx) error('my own message') end", "my own message"},

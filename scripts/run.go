@@ -62,8 +62,9 @@ func runOne(r *Rule, fsys fs.FS, arg lua.LValue, lib *library, limits Limits) (r
 	res = Result{File: r.File, Defines: r.Defines}
 	start := time.Now()
 	defer func() { res.Took = time.Since(start) }()
-	fail := func(e *Error) {
-		e.Msg = limits.clip(e.Msg) // an item's label or status quoted in the message is the rule's text
+	fail := func(err *Error) {
+		// a copy: r.Err is shared by every run of the rule
+		e := &Error{File: err.File, Line: err.Line, Msg: limits.clip(err.Msg)} // an item's label or status quoted in the message is the rule's text
 		res.Errors = append(res.Errors, e)
 		res.Checks = append(res.Checks, Check{Label: "rule " + r.File, Status: Fail, Note: e.Error(), File: r.File})
 	}
@@ -170,11 +171,15 @@ func collect(res *Result, hook string, fn *lua.LFunction, rets []lua.LValue, fil
 			}
 			st := strings.ToLower(string(status))
 			if !sok || (st != Pass && st != Warn && st != Fail && st != Confirm) {
-				return bad("item %d (%s) has status %q; use pass, warn, fail or confirm", i+1, label, t.RawGetString("status").String())
+				return bad("item %d (%s) has status %q; use pass, warn, fail or confirm", i+1, clip(string(label)), clip(t.RawGetString("status").String()))
 			}
 			note := ""
-			if n := t.RawGetString("note"); n != lua.LNil {
+			switch n := t.RawGetString("note").(type) {
+			case *lua.LNilType:
+			case lua.LString, lua.LNumber:
 				note = n.String()
+			default: // a table's String is its address: "table: 0x…" on the card
+				return bad("item %d (%s) has a note that is a %s, not text", i+1, clip(string(label)), n.Type())
 			}
 			res.Checks = append(res.Checks, Check{Label: clip(string(label)), Status: st, Note: clip(note), File: file})
 		}
