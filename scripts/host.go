@@ -716,6 +716,7 @@ func (s *sandbox) locate(err error, ctx context.Context) *Error {
 	var ae *lua.ApiError
 	if errors.As(err, &ae) {
 		switch ae.Object.(type) {
+		case nil: // keep err's own words
 		case lua.LString, lua.LNumber:
 			msg = ae.Object.String()
 		default:
