@@ -57,7 +57,7 @@ func RenderJSON(w io.Writer, c Card) error {
 			leaned = append(leaned, map[string]any{"time": l.Pass.Time.Format(time.RFC3339), "session": l.Pass.Session.String(), "et": round(l.ET, 3), "carried_et": round(l.Carried, 3), "share": round(l.Share, 3)})
 		}
 		for _, o := range p.Outliers {
-			out = append(out, map[string]any{"time": o.Pass.Time.Format(time.RFC3339), "reason": o.Reason})
+			out = append(out, map[string]any{"time": o.Pass.Time.Format(time.RFC3339), "reason": passNotes(o.Reason)})
 		}
 		s := p.Sensitivity
 		j["prediction"] = map[string]any{"timers": timers, "traps": traps, "physics_only": p.PhysicsOnly, "leaned_on": leaned, "left_out": nonNilMaps(out),
@@ -132,7 +132,7 @@ func RenderJSON(w io.Writer, c Card) error {
 	j["checklist"] = nonNilMaps(checks)
 	var rec []map[string]any
 	for _, r := range c.Record {
-		m := map[string]any{"session": r.Pass.Session.String(), "time": r.Pass.Time.Format(time.RFC3339), "lane": string(r.Pass.Lane), "actual": r.Actual, "notes": r.Pass.Notes}
+		m := map[string]any{"session": r.Pass.Session.String(), "time": r.Pass.Time.Format(time.RFC3339), "lane": string(r.Pass.Lane), "actual": r.Actual, "notes": passNotes(r.Pass.Notes)}
 		if !math.IsNaN(r.Predicted) {
 			m["predicted"], m["error"] = round(r.Predicted, 3), round(r.Error, 3)
 		}

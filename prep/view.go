@@ -42,6 +42,29 @@ type view struct {
 	Cautions    []string
 }
 
+// MaxPassNotes is the most characters of a pass's notes the card prints
+// (in the record of today and where a pass is left out for its notes): a
+// cell of a one-page card. A 3 MB note made a 13 MB card; the whole notes
+// stay in the logbook, shown by `pitcard log list`.
+const MaxPassNotes = 120
+
+// passNotes is a pass's notes (or a text quoting them) cut at MaxPassNotes
+// characters, saying where the whole is. The cut is a copy, so the card
+// does not keep the whole notes alive.
+func passNotes(s string) string {
+	if len(s) <= MaxPassNotes { // bytes ≥ characters
+		return s
+	}
+	n := 0
+	for i := range s {
+		if n == MaxPassNotes {
+			return s[:i] + "… (cut: `pitcard log list` shows the pass's whole notes)"
+		}
+		n++
+	}
+	return s
+}
+
 type table struct {
 	Title  string
 	Header []string
@@ -278,7 +301,7 @@ func newView(c Card) view {
 				pred, off = fmt.Sprintf("%.3f", r.Predicted), fmt.Sprintf("%+.3f", r.Error)
 			}
 			v.Record.Rows = append(v.Record.Rows, []string{r.Pass.Session.Long(), r.Pass.Time.Format("15:04"), string(r.Pass.Lane), pred,
-				fmt.Sprintf("%.3f", r.Actual), off, r.Pass.Notes})
+				fmt.Sprintf("%.3f", r.Actual), off, passNotes(r.Pass.Notes)})
 		}
 		if !math.IsNaN(c.RecordMAE) {
 			v.RecordNote = fmt.Sprintf("Mean miss today: %.3f s (each predicted from the passes before it).", c.RecordMAE)
@@ -313,7 +336,7 @@ func Explain(p engine.Prediction, f engine.Fit, u weather.Units) []string {
 			out = append(out, fmt.Sprintf("... and %d more left out.", len(p.Outliers)-2))
 			break
 		}
-		out = append(out, fmt.Sprintf("Left out %s %s: %s.", o.Pass.Time.Format("01-02"), o.Pass.Session.Long(), o.Reason))
+		out = append(out, fmt.Sprintf("Left out %s %s: %s.", o.Pass.Time.Format("01-02"), o.Pass.Session.Long(), passNotes(o.Reason)))
 	}
 	for _, n := range p.Notes {
 		if strings.HasPrefix(n, "calibrated to") {

@@ -19,6 +19,10 @@ func FuzzRule(f *testing.F) {
 		"x = 1 +",
 		"function notes(ctx) return ctx.passes end",
 		"function dial(ctx) return 1e309, 'inf' end",
+		"setmetatable(_G, {__index = function() while true do end end})\nfunction notes(ctx) return {x} end",
+		"setmetatable(_G, {__index = function() error('boom') end})",
+		"dial = 0.01",
+		"function notes(ctx) return {string.format('%d %s %q %5.1f', nil, {}, 1)} end",
 	} {
 		f.Add(s)
 	}

@@ -1,6 +1,7 @@
 package scripts
 
 import (
+	"math"
 	"strings"
 
 	"github.com/shopspring/decimal"
@@ -32,6 +33,12 @@ func (s *sandbox) helpers() lua.LValue {
 	d.RawSetString("step", lua.LString(step.String()))
 	d.RawSetString("round_dial", L.NewFunction(func(L *lua.LState) int {
 		x := L.CheckNumber(1)
+		switch f := float64(x); {
+		case math.IsNaN(f):
+			L.RaiseError("pit.round_dial was given NaN (not a number): a figure it was computed from is missing or 0/0")
+		case math.IsInf(f, 0):
+			L.RaiseError("pit.round_dial was given an infinite number (a division by 0?)")
+		}
 		st := step
 		if L.GetTop() >= 2 {
 			v, err := decimal.NewFromString(L.CheckAny(2).String())

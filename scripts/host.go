@@ -17,13 +17,16 @@ import (
 	"errors"
 	"fmt"
 	"io/fs"
+	"math"
 	"path"
 	"regexp"
 	"runtime/metrics"
 	"sort"
+	"strconv"
 	"strings"
 	"sync"
 	"time"
+	"unicode/utf8"
 
 	"github.com/shopspring/decimal"
 	lua "github.com/yuin/gopher-lua"
@@ -41,10 +44,45 @@ type Limits struct {
 	MaxString int
 	// DialStep is the step pit.round_dial rounds to (default 0.01 s).
 	DialStep decimal.Decimal
+	// MaxText is the most characters kept of one text a rule hands back
+	// (a reason, a label, a note, a log line, an error's message); 0 means
+	// MaxText. `pitcard rules try` raises it to show a rule's whole output.
+	MaxText int
 }
 
+// MaxText is the most characters of one text a rule puts on the card: a line
+// of a one-page card, with room to spare. Longer text is a rule's bug or a
+// dump (a 3 MB reason once made a 9 MB card and took 360 MB to render), so
+// it is cut where it leaves the rule, with cutNote saying where the whole is.
+const MaxText = 300
+
+// cutNote ends a text cut at MaxText.
+const cutNote = "… (cut: `pitcard rules try` shows the whole text)"
+
 // DefaultLimits are the limits of a rule call unless the settings say otherwise.
-var DefaultLimits = Limits{Time: 200 * time.Millisecond, Memory: 64 << 20, CallDepth: 200, MaxString: 16 << 20, DialStep: decimal.New(1, -2)}
+var DefaultLimits = Limits{Time: 200 * time.Millisecond, Memory: 64 << 20, CallDepth: 200, MaxString: 16 << 20,
+	DialStep: decimal.New(1, -2), MaxText: MaxText}
+
+// clip cuts s after the limit's MaxText characters and says so. The cut
+// text is a copy (the concatenation makes one), so a multi-megabyte string
+// the rule built is not kept alive by the few hundred bytes kept of it.
+func (l Limits) clip(s string) string {
+	limit := l.MaxText
+	if limit <= 0 {
+		limit = MaxText
+	}
+	if len(s) <= limit { // bytes ≥ characters
+		return s
+	}
+	n := 0
+	for i := range s {
+		if n == limit {
+			return s[:i] + cutNote
+		}
+		n++
+	}
+	return s
+}
 
 // The functions a rule file may define.
 var Hooks = []string{"dial", "checks", "notes"}
@@ -96,6 +134,7 @@ func Compile(file, src string, fsys fs.FS, limits Limits) *Rule {
 	r := &Rule{File: file, Source: src}
 	proto, err := compile(file, src)
 	if err != nil {
+		err.Msg = limits.clip(err.Msg) // the parser may quote a whole long string
 		r.Err = err
 		return r
 	}
@@ -107,11 +146,35 @@ func Compile(file, src string, fsys fs.FS, limits Limits) *Rule {
 	}
 	defer s.close()
 	for _, h := range Hooks {
-		if s.L.GetGlobal(h).Type() == lua.LTFunction {
+		switch v := s.hook(h); v.Type() {
+		case lua.LTNil:
+		case lua.LTFunction:
 			r.Defines = append(r.Defines, h)
+		default:
+			r.Err = &Error{File: file, Line: assignedLine(src, h), Msg: limits.clip(fmt.Sprintf(
+				"%s is a %s, not a function: define it as function %s(ctx) … end", h, v.Type(), h))}
+			return r
 		}
 	}
 	return r
+}
+
+// hook is the global a rule file defined under name, read raw: looking it up
+// must not run the rule's own code (an __index on _G that loops or fails, or
+// a strict-globals guard that calls a missing hook an error). Everything that
+// does run the rule's code goes through sandbox.call, under the budget.
+func (s *sandbox) hook(name string) lua.LValue {
+	return s.L.G.Global.RawGetString(name)
+}
+
+// assignedLine is the first line of src that assigns name at the start of a
+// line ("dial = 0.01"), or 0.
+func assignedLine(src, name string) int {
+	re := regexp.MustCompile(`(?m)^[ \t]*` + regexp.QuoteMeta(name) + `[ \t]*=([^=]|$)`)
+	if loc := re.FindStringIndex(src); loc != nil {
+		return strings.Count(src[:loc[0]], "\n") + 1
+	}
+	return 0
 }
 
 var syntaxRe = regexp.MustCompile(`line:(\d+)\(column:\d+\) near '(.*?)':\s*(.*)`)
@@ -318,22 +381,7 @@ func (s *sandbox) guardStrings() {
 		L.Call(2, 1)
 		return 1
 	}))
-	format := str.RawGetString("format").(*lua.LFunction)
-	str.RawSetString("format", L.NewFunction(func(L *lua.LState) int {
-		f := L.CheckString(1)
-		for _, m := range formatWidth.FindAllStringSubmatch(f, -1) {
-			if len(m[1]) > 3 || len(m[2]) > 3 {
-				L.RaiseError("string.format: a width or precision of more than 3 digits in %q", m[0])
-			}
-		}
-		top := L.GetTop()
-		L.Push(format)
-		for i := 1; i <= top; i++ {
-			L.Push(L.Get(i))
-		}
-		L.Call(top, 1)
-		return 1
-	}))
+	str.RawSetString("format", L.NewFunction(luaFormat))
 	for _, name := range []string{"find", "match", "gmatch", "gsub"} {
 		orig := str.RawGetString(name).(*lua.LFunction)
 		str.RawSetString(name, L.NewFunction(func(L *lua.LState) int {
@@ -358,13 +406,118 @@ func (s *sandbox) luaLog(L *lua.LState) int {
 	}
 	s.mu.Lock()
 	if len(*s.log) < 200 {
-		*s.log = append(*s.log, strings.Join(parts, " "))
+		*s.log = append(*s.log, s.limits.clip(strings.Join(parts, " ")))
 	}
 	s.mu.Unlock()
 	return 0
 }
 
-var formatWidth = regexp.MustCompile(`%[-+ #0]*(\d*)(?:\.(\d*))?[a-zA-Z%]`)
+// formatSpec is one conversion of string.format: flags, width, precision
+// and the option letter (or the character that stands where it should be).
+var formatSpec = regexp.MustCompile(`%[-+ #0]*(\d*)(?:\.(\d*))?(.?)`)
+
+// luaFormat is string.format with Lua's own checks: each option takes the
+// value it can print, and anything else is the rule's error at its line.
+// (gopher-lua hands the values to Go's fmt unchecked, so a nil printed as
+// "&{}" on the card: "for a &{} °F track".) Numbers in text are taken as
+// numbers, as Lua does; widths and precisions have at most 3 digits, so one
+// call cannot build a huge string.
+func luaFormat(L *lua.LState) int {
+	f := L.CheckString(1)
+	var out strings.Builder
+	arg := 2
+	for {
+		i := strings.IndexByte(f, '%')
+		if i < 0 {
+			out.WriteString(f)
+			break
+		}
+		out.WriteString(f[:i])
+		f = f[i:]
+		if strings.HasPrefix(f, "%%") {
+			out.WriteByte('%')
+			f = f[2:]
+			continue
+		}
+		m := formatSpec.FindStringSubmatch(f)
+		spec, opt := m[0], m[3]
+		f = f[len(spec):]
+		if len(m[1]) > 3 || len(m[2]) > 3 {
+			L.RaiseError("string.format: a width or precision of more than 3 digits in %q", spec)
+		}
+		if opt == "" {
+			L.RaiseError("string.format: the format ends inside %q (write %%%% for a percent sign)", spec)
+		}
+		if arg > L.GetTop() {
+			L.RaiseError("string.format: argument %d (for %s) is missing: the format has more %% options than values", arg, spec)
+		}
+		out.WriteString(fmt.Sprintf(spec[:len(spec)-len(opt)]+goVerb(L, opt, spec), formatArg(L, arg, opt, spec)))
+		arg++
+	}
+	L.Push(lua.LString(out.String()))
+	return 1
+}
+
+// goVerb is the fmt verb for a string.format option letter.
+func goVerb(L *lua.LState, opt, spec string) string {
+	switch opt {
+	case "d", "i", "u":
+		return "d"
+	case "c", "o", "x", "X", "e", "E", "f", "g", "G", "q", "s":
+		return opt
+	}
+	L.RaiseError("string.format: '%s' is not a format (use %%d %%i %%u %%c %%o %%x %%X %%e %%E %%f %%g %%G %%q %%s, or %%%% for a percent sign)", spec)
+	return ""
+}
+
+// formatArg is argument n checked for option opt: a number for the numeric
+// options, text (or a number, or true/false) for %s and %q.
+func formatArg(L *lua.LState, n int, opt, spec string) any {
+	v := L.Get(n)
+	bad := func(why string) {
+		L.RaiseError("string.format: argument %d (for %s) %s", n, spec, why)
+	}
+	if v == lua.LNil {
+		bad("is nil: the value is missing (check it first: if x == nil then … end)")
+	}
+	if opt == "s" || opt == "q" {
+		switch x := v.(type) {
+		case lua.LString, lua.LNumber:
+			return x
+		case lua.LBool:
+			return lua.LString(x.String())
+		}
+		bad(fmt.Sprintf("is a %s, not text", v.Type()))
+	}
+	var num float64
+	switch x := v.(type) {
+	case lua.LNumber:
+		num = float64(x)
+	case lua.LString:
+		f, err := strconv.ParseFloat(strings.TrimSpace(string(x)), 64)
+		if err != nil {
+			bad(fmt.Sprintf("is a string (%q), not a number", clipQuote(string(x))))
+		}
+		num = f
+	default:
+		bad(fmt.Sprintf("is a %s, not a number", v.Type()))
+	}
+	if opt == "d" || opt == "i" || opt == "u" || opt == "c" || opt == "o" || opt == "x" || opt == "X" {
+		if math.IsNaN(num) || math.IsInf(num, 0) {
+			bad(fmt.Sprintf("is %v, which %s cannot print as a whole number", num, spec))
+		}
+		return int64(num)
+	}
+	return num
+}
+
+// clipQuote is a value quoted in an error: its start only.
+func clipQuote(s string) string {
+	if utf8.RuneCountInString(s) <= 40 {
+		return s
+	}
+	return string([]rune(s)[:40]) + "…"
+}
 
 var moduleName = regexp.MustCompile(`^[A-Za-z_][A-Za-z0-9_]*$`)
 
@@ -562,7 +715,14 @@ func (s *sandbox) locate(err error, ctx context.Context) *Error {
 	msg := err.Error()
 	var ae *lua.ApiError
 	if errors.As(err, &ae) {
-		msg = ae.Object.String()
+		switch ae.Object.(type) {
+		case nil: // keep err's own words
+		case lua.LString, lua.LNumber:
+			msg = ae.Object.String()
+		default:
+			// error({}) printed "table: 0x…": say what happened instead
+			msg = fmt.Sprintf("the rule raised an error with a %s, not a message (give error a text: error(\"what is wrong\"))", ae.Object.Type())
+		}
 	}
 	e := &Error{File: s.rule.File}
 	if m := whereRe.FindStringSubmatchIndex(msg); m != nil {
@@ -586,7 +746,7 @@ func (s *sandbox) locate(err error, ctx context.Context) *Error {
 	case strings.Contains(msg, "registry overflow"):
 		msg = "stopped: used too many values at once (a huge unpack or argument list?)"
 	}
-	e.Msg = strings.TrimSpace(msg)
+	e.Msg = s.limits.clip(strings.TrimSpace(msg))
 	return e
 }
 

@@ -67,10 +67,28 @@ func TestHostileRules(t *testing.T) {
 		{"checks bad status", "function checks(ctx) return {{label='x', status='ok'}} end", "pass, warn, fail or confirm"},
 		{"checks no label", "function checks(ctx) return {{status='pass'}} end", "no label"},
 		{"notes wrong type", "function notes(ctx) return {{}} end", "not a string"},
+		{"check note a table", "function checks(ctx) return {{label = 'x', status = 'pass', note = {}}} end", "rules/t.lua:1: checks(ctx) item 1 (x) has a note that is a table, not text"},
 		{"runtime error", "function dial(ctx)\n  local x = nil\n  return x.y\nend", "rules/t.lua:3:"},
 		{"syntax error", "function dial(ctx)\n  return 1 +\nend", "rules/t.lua:3:"},
 		{"error()", "function dial(ctx) error('my own message') end", "my own message"},
 		{"debug", "function dial(ctx) return debug.getinfo(1) end", "debug"},
+		// a hook that is not a function is the crew's mistake, not silence
+		{"dial a number", "dial = 0.01", "rules/t.lua:1: dial is a number, not a function"},
+		{"checks a table", "\nchecks = {{label = 'x', status = 'pass'}}", "rules/t.lua:2: checks is a table, not a function"},
+		{"notes a string", "notes = 'fine'", "rules/t.lua:1: notes is a string, not a function"},
+		// string.format with a missing value, in the rule's words
+		{"format %f nil", "function notes(ctx)\n  return {string.format('%.0f °F', ctx.air.nothing)}\nend", "rules/t.lua:2: string.format: argument 2 (for %.0f) is nil"},
+		{"format %d nil", "function notes(ctx)\n  return {string.format('%d', nil)}\nend", "rules/t.lua:2: string.format: argument 2 (for %d) is nil"},
+		{"format %s nil", "function notes(ctx)\n  return {('a %s'):format(nil)}\nend", "rules/t.lua:2: string.format: argument 2 (for %s) is nil"},
+		{"format %s table", "function notes(ctx)\n  return {string.format('%s', {})}\nend", "rules/t.lua:2: string.format: argument 2 (for %s) is a table"},
+		{"format %d text", "function notes(ctx)\n  return {string.format('%d', 'ten')}\nend", "rules/t.lua:2: string.format: argument 2 (for %d) is a string (\"ten\"), not a number"},
+		{"format missing", "function notes(ctx)\n  return {string.format('%.1f and %.1f', 1)}\nend", "rules/t.lua:2: string.format: argument 3 (for %.1f) is missing"},
+		{"format bad option", "function notes(ctx)\n  return {string.format('%y', 1)}\nend", "rules/t.lua:2: string.format: '%y' is not a format"},
+		// errors a rule raises, said in rule words
+		{"error with a table", "function dial(ctx)\n  error({})\nend", "rules/t.lua:2: the rule raised an error with a table, not a message"},
+		{"error with a boolean", "function dial(ctx)\n  error(false)\nend", "rules/t.lua:2: the rule raised an error with a boolean, not a message"},
+		{"round_dial NaN", "function dial(ctx)\n  return pit.round_dial(0/0), 'x'\nend", "rules/t.lua:2: pit.round_dial was given NaN (not a number)"},
+		{"round_dial inf", "function dial(ctx)\n  return pit.round_dial(1/0), 'x'\nend", "rules/t.lua:2: pit.round_dial was given an infinite number"},
 	}
 	for _, tc := range cases {
 		start := time.Now()
@@ -214,5 +232,67 @@ function notes(ctx) return {"tried: " .. type(mt)} end`, nil, lim)
 	}
 	if len(res[0].Notes) == 0 || res[0].Notes[0] != "tried: string" {
 		t.Errorf("getmetatable(\"\") gave the rule the table itself: %q %v", res[0].Notes, res[0].Errors)
+	}
+}
+
+// A rule that puts a metatable on its own globals: the host's own look-ups
+// (which hooks the file defines, where each is) never run the rule's
+// metamethods, and every call that does runs under the budget. The rule that
+// loops or fails in __index is a failed check at its file and line, in time.
+func TestGlobalsMetatable(t *testing.T) {
+	cases := []struct {
+		name, src string
+		defines   int
+		want      string // "" for no error
+	}{
+		{"looping __index, no hooks", "setmetatable(_G, {__index = function() while true do end end})", 0, ""},
+		{"failing __index, no hooks", "setmetatable(_G, {__index = function() error('boom') end})", 0, ""},
+		{"looping __index, hook reads a missing global", "setmetatable(_G, {__index = function() while true do end end})\n" +
+			"function checks(ctx)\n  return {{label = 'x' .. missing, status = 'pass'}}\nend", 1, "rules/t.lua:1: stopped: ran longer than"},
+		{"failing __index, hook reads a missing global", "setmetatable(_G, {__index = function() error('boom') end})\n" +
+			"function checks(ctx)\n  return {{label = 'x' .. missing, status = 'pass'}}\nend", 1, "rules/t.lua:1: boom"},
+		{"strict globals, hooks well behaved", "setmetatable(_G, {__index = function(_, k) error('undefined global ' .. k, 2) end})\n" +
+			"function notes(ctx)\n  return {'fine'}\nend", 1, ""},
+		{"__newindex swallows the hooks", "setmetatable(_G, {__newindex = function() while true do end end})\nfunction dial(ctx) return 0 end", 0, "rules/t.lua:1: stopped: ran longer than"},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			type out struct {
+				r   *Rule
+				res Result
+				p   any
+			}
+			done := make(chan out, 1)
+			go func() {
+				var o out
+				defer func() { o.p = recover(); done <- o }()
+				o.r = Compile("rules/t.lua", tc.src, nil, DefaultLimits)
+				o.res = Run([]*Rule{o.r}, nil, ctxFor("left", 20, 100), DefaultLimits)[0]
+			}()
+			var o out
+			select {
+			case o = <-done:
+			case <-time.After(5 * time.Second):
+				t.Fatal("Compile and Run did not return within 5 s")
+			}
+			if o.p != nil {
+				t.Fatalf("the host panicked: %v", o.p)
+			}
+			if len(o.r.Defines) != tc.defines {
+				t.Errorf("defines %v, want %d hooks", o.r.Defines, tc.defines)
+			}
+			if tc.want == "" {
+				if len(o.res.Errors) > 0 {
+					t.Errorf("errors %v", o.res.Errors)
+				}
+				return
+			}
+			if len(o.res.Errors) == 0 || !strings.HasPrefix(o.res.Errors[0].Error(), tc.want) {
+				t.Fatalf("errors %v, want one starting %q", o.res.Errors, tc.want)
+			}
+			if len(o.res.Checks) == 0 || o.res.Checks[0].Status != Fail {
+				t.Errorf("the failure is not a failed check: %+v", o.res.Checks)
+			}
+		})
 	}
 }

@@ -62,7 +62,9 @@ func runOne(r *Rule, fsys fs.FS, arg lua.LValue, lib *library, limits Limits) (r
 	res = Result{File: r.File, Defines: r.Defines}
 	start := time.Now()
 	defer func() { res.Took = time.Since(start) }()
-	fail := func(e *Error) {
+	fail := func(err *Error) {
+		// a copy: r.Err is shared by every run of the rule
+		e := &Error{File: err.File, Line: err.Line, Msg: limits.clip(err.Msg)} // an item's label or status quoted in the message is the rule's text
 		res.Errors = append(res.Errors, e)
 		res.Checks = append(res.Checks, Check{Label: "rule " + r.File, Status: Fail, Note: e.Error(), File: r.File})
 	}
@@ -77,7 +79,12 @@ func runOne(r *Rule, fsys fs.FS, arg lua.LValue, lib *library, limits Limits) (r
 	}
 	defer s.close()
 	for _, hook := range r.Defines {
-		fn := s.L.GetGlobal(hook)
+		fn, ok := s.hook(hook).(*lua.LFunction)
+		if !ok {
+			// the file's top level ran again in this state and chose otherwise
+			fail(&Error{File: r.File, Msg: fmt.Sprintf("%s was a function when the file loaded, and is a %s now", hook, s.hook(hook).Type())})
+			continue
+		}
 		var rets []lua.LValue
 		err := s.call(func() error {
 			s.L.Push(fn)
@@ -96,19 +103,21 @@ func runOne(r *Rule, fsys fs.FS, arg lua.LValue, lib *library, limits Limits) (r
 			}
 			continue
 		}
-		if e := collect(&res, hook, rets, r.File, s); e != nil {
+		if e := collect(&res, hook, fn, rets, r.File, s); e != nil {
 			fail(e)
 		}
 	}
 	return res
 }
 
-// collect checks and stores what a hook returned.
-func collect(res *Result, hook string, rets []lua.LValue, file string, s *sandbox) *Error {
+// collect checks and stores what hook fn returned. Every text is cut at
+// the limits' MaxText here, where it leaves the rule.
+func collect(res *Result, hook string, fn *lua.LFunction, rets []lua.LValue, file string, s *sandbox) *Error {
 	line := 0 // where the hook is defined: a wrong result is that function's
-	if fn, ok := s.L.GetGlobal(hook).(*lua.LFunction); ok && fn.Proto != nil {
+	if fn.Proto != nil {
 		line = fn.Proto.LineDefined
 	}
+	clip := s.limits.clip
 	bad := func(format string, a ...any) *Error {
 		return &Error{File: file, Line: line, Msg: hook + "(ctx) " + fmt.Sprintf(format, a...)}
 	}
@@ -144,7 +153,7 @@ func collect(res *Result, hook string, rets []lua.LValue, file string, s *sandbo
 		if adj.IsZero() {
 			return nil
 		}
-		res.HasAdjust, res.Adjust, res.Reason = true, res.Adjust.Add(adj), string(reason)
+		res.HasAdjust, res.Adjust, res.Reason = true, res.Adjust.Add(adj), clip(string(reason))
 	case "checks":
 		items, err := list(v, s)
 		if err != nil {
@@ -162,17 +171,21 @@ func collect(res *Result, hook string, rets []lua.LValue, file string, s *sandbo
 			}
 			st := strings.ToLower(string(status))
 			if !sok || (st != Pass && st != Warn && st != Fail && st != Confirm) {
-				return bad("item %d (%s) has status %q; use pass, warn, fail or confirm", i+1, label, t.RawGetString("status").String())
+				return bad("item %d (%s) has status %q; use pass, warn, fail or confirm", i+1, clip(string(label)), clip(t.RawGetString("status").String()))
 			}
 			note := ""
-			if n := t.RawGetString("note"); n != lua.LNil {
+			switch n := t.RawGetString("note").(type) {
+			case *lua.LNilType:
+			case lua.LString, lua.LNumber:
 				note = n.String()
+			default: // a table's String is its address: "table: 0x…" on the card
+				return bad("item %d (%s) has a note that is a %s, not text", i+1, clip(string(label)), n.Type())
 			}
-			res.Checks = append(res.Checks, Check{Label: string(label), Status: st, Note: note, File: file})
+			res.Checks = append(res.Checks, Check{Label: clip(string(label)), Status: st, Note: clip(note), File: file})
 		}
 	case "notes":
 		if str, ok := v.(lua.LString); ok {
-			res.Notes = append(res.Notes, string(str))
+			res.Notes = append(res.Notes, clip(string(str)))
 			return nil
 		}
 		items, err := list(v, s)
@@ -188,7 +201,7 @@ func collect(res *Result, hook string, rets []lua.LValue, file string, s *sandbo
 					return bad("line %d is a %s, not a string", i+1, it.Type())
 				}
 			}
-			res.Notes = append(res.Notes, string(str))
+			res.Notes = append(res.Notes, clip(string(str)))
 		}
 	}
 	return nil

@@ -34,6 +34,18 @@ func TestBadInputTour(t *testing.T) {
 	badLane := corruptRow("schedule.yaml", "lane: left", "lane: center")
 	nanCar := corruptRow("car.yaml", "limit_et: 10.65", "limit_et: .nan")
 	_ = os.WriteFile(filepath.Join(bad, "rules", "05-bad.lua"), []byte("function dial(ctx)\n  return ctx.nope.x\nend\n"), 0o644)
+	// rules that are wrong in the crew's own words: a hook that is not a
+	// function, a missing value handed to string.format, an error raised
+	// with a table, NaN handed to pit.round_dial
+	badRules := demoCopy(t)
+	for name, src := range map[string]string{
+		"05-number.lua": "dial = 0.01\n",
+		"06-format.lua": "function notes(ctx)\n  return {string.format('%.0f °F', ctx.air.nothing)}\nend\n",
+		"07-table.lua":  "function checks(ctx)\n  error({})\nend\n",
+		"08-nan.lua":    "function dial(ctx)\n  return pit.round_dial(0/0), 'x'\nend\n",
+	} {
+		_ = os.WriteFile(filepath.Join(badRules, "rules", name), []byte(src), 0o644)
+	}
 	missing := filepath.Join(t.TempDir(), "nowhere")
 	src := filepath.Join(t.TempDir(), "rows.csv")
 	_ = os.WriteFile(src, []byte(slipHeader+"2026-07-01,18:00,X,E1,left,11.5,0.02,1.6,,,,11.5,,116,88,28.9,140,,,,,\n"), 0o644)
@@ -141,6 +153,11 @@ func TestBadInputTour(t *testing.T) {
 		},
 		"rules": {
 			{[]string{"rules", "check", "--dir", bad}, 2, []string{"1 of 6 rules failed"}},
+			{[]string{"rules", "check", "--dir", badRules}, 2, []string{"4 of 9 rules failed",
+				"rules/05-number.lua:1: dial is a number, not a function",
+				"rules/06-format.lua:2: string.format: argument 2 (for %.0f) is nil",
+				"rules/07-table.lua:2: the rule raised an error with a table, not a message",
+				"rules/08-nan.lua:2: pit.round_dial was given NaN (not a number)"}},
 			{[]string{"rules", "list", "--dir", good, "--format", "xml"}, 2, []string{"--format"}},
 			{[]string{"rules", "try", "--dir", good, "--round", "Z9"}, 2, []string{"--round"}},
 			{[]string{"rules", "try", "--dir", good, "--lane", "middle"}, 2, []string{"--lane"}},

@@ -96,12 +96,12 @@ func TestCardOnASparseFolder(t *testing.T) {
 	// no pass of the car: no dial is posted, the physics estimate is a guide (a
 	// fresh folder used to recommend a dial from physics alone)
 	for _, w := range []string{"Round 1, right lane", "Physics from car.yaml alone", "NO DIAL YET", "make a time trial",
-		"Guide from physics and car.yaml: 1/4 mile", "Not a dial-in", "Drag racing can kill"} {
+		"Guide from physics and car.yaml: 1/4 mile", "Not a dial-in", "Drag racing can kill", "No dial yet: make a time trial"} {
 		if !strings.Contains(out, w) {
 			t.Errorf("sparse card lacks %q:\n%s", w, out)
 		}
 	}
-	for _, w := range []string{"POST THIS", "Dial options", "given away"} {
+	for _, w := range []string{"POST THIS", "Dial options", "given away", "Dial on the window matches the card"} {
 		if strings.Contains(out, w) {
 			t.Errorf("a car with no passes got %q:\n%s", w, out)
 		}

@@ -2,6 +2,7 @@ package main
 
 import (
 	"fmt"
+	"math"
 	"strings"
 
 	"github.com/jedib0t/go-pretty/v6/table"
@@ -213,6 +214,8 @@ func rulesTryRun(cmd *cobra.Command, o *rulesTryOptions) error {
 	for _, w := range warnings {
 		fmt.Fprintln(o.s.Err, "pitcard: warning:", w)
 	}
+	// The card cuts a rule's long texts and points here: show them whole.
+	in.Settings.RuleLimits.MaxText = math.MaxInt
 	c := prep.Gather(in)
 	if o.Format == "json" {
 		type check struct {
