@@ -297,7 +297,8 @@ func (s *Server) postSlip(q *request) {
 		ET60: v("et60"), ET330: v("et330"), ET660: v("et660"), ET1000: v("et1000"), ET1: v("et1320"),
 		MPH660: v("mph660"), MPH1320: v("mph1320"), OppDial: v("opponent-dial"), OppRT: v("opponent-rt"), OppET: v("opponent-et")}
 	if t := v("time"); t != "" {
-		when, err := event.ParseWhen(t, q.now)
+		start := q.folder.Settings.DayStart
+		when, err := event.ParseWhen(t, start.Day(q.now), start)
 		if err != nil {
 			p.Error = attach(p.Form, err)
 			s.render(q, "form", p, http.StatusUnprocessableEntity)
