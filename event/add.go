@@ -19,7 +19,7 @@ import (
 // NewReading is one weather reading as typed.
 type NewReading struct {
 	Fields  ReadingFields
-	Time    string // "HH:MM" today or "YYYY-MM-DD HH:MM"; "" for now
+	Time    string // "HH:MM" on today's race day or "YYYY-MM-DD HH:MM"; "" for now
 	Notes   string
 	Replace bool // replace a reading already logged in the same minute
 }

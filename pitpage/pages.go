@@ -443,11 +443,12 @@ func (s *Server) weatherPage(q *request) {
 		s.render(q, "list", p, http.StatusOK)
 		return
 	}
-	day := log[len(log)-1].Time.Format(weather.DateLayout)
+	start := q.folder.Settings.DayStart // the latest reading's race day, past midnight included
+	day := start.Key(log[len(log)-1].Time)
 	t := listTable{Title: fmt.Sprintf("%s, %s", prep.OrDash(trk.Name), day), Header: []string{"Time", "Air", "Baro", "RH", "Track", "DA"}}
 	var today []weather.Reading
 	for _, r := range log {
-		if r.Time.Format(weather.DateLayout) != day {
+		if start.Key(r.Time) != day {
 			continue
 		}
 		today = append(today, r)

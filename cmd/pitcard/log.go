@@ -435,7 +435,7 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 	if err != nil {
 		return err
 	}
-	stats := engine.Stats(shown, residual)
+	stats := engine.Stats(shown, residual, e.Settings.DayStart)
 	judge := func(s engine.GroupStats) string {
 		if corrected && s.CorrectedN > 0 {
 			return engine.Consistency(s.CorrectedSD, s.CorrectedN)

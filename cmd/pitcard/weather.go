@@ -91,7 +91,7 @@ reported and skipped.`,
 		},
 	}
 	o.reading.bind(cmd)
-	cmd.Flags().StringVar(&o.Time, "time", "", "time of the reading, HH:MM today or 'YYYY-MM-DD HH:MM' (default: now)")
+	cmd.Flags().StringVar(&o.Time, "time", "", "time of the reading, HH:MM on today's race day or 'YYYY-MM-DD HH:MM' (default: now)")
 	cmd.Flags().StringVar(&o.Note, "notes", "", "free text for the notes column")
 	cmd.Flags().StringVar(&o.Note, "note", "", "")
 	_ = cmd.Flags().MarkDeprecated("note", "use --notes (as on 'log add')")
