@@ -103,6 +103,8 @@ type Fit struct {
 	PowerHP        float64
 	// Weight estimates the car's weight where a pass has none logged.
 	Weight *weightModel
+	// DayStart is the input's: where one race day ends and the next begins.
+	DayStart weather.DayStart
 }
 
 // CalibrateInput is what a fit needs.
@@ -112,11 +114,16 @@ type CalibrateInput struct {
 	Tracks map[string]Track // other tracks the logbook names, by lower-case name
 	Passes []Pass
 	Now    time.Time // the time of the prediction: recency counts back from it
+	// DayStart is when a race day begins (setting day_starts): passes
+	// either side of midnight on one race night are one day for the day
+	// offsets, the drift through the day and the weight burnt. Zero is
+	// midnight.
+	DayStart weather.DayStart
 }
 
 // Calibrate fits the car to its logbook.
 func Calibrate(in CalibrateInput) (Fit, error) {
-	f := Fit{Car: in.Car, Track: in.Track}
+	f := Fit{Car: in.Car, Track: in.Track, DayStart: in.DayStart}
 	dist := in.Car.DistanceFt
 	var clean []Pass
 	for i := len(in.Passes) - 1; i >= 0; i-- {
@@ -158,7 +165,7 @@ func Calibrate(in CalibrateInput) (Fit, error) {
 			before = append(before, p)
 		}
 	}
-	f.Weight = newWeightModel(in.Car, before)
+	f.Weight = newWeightModel(in.Car, before, in.DayStart)
 	f.Params = DefaultParamsFor(in.Car)
 	for k := range f.Cov {
 		f.Cov[k][k] = sq(priorSD(in.Car.Induction)[k])

@@ -4,6 +4,8 @@ import (
 	"math"
 	"sort"
 	"time"
+
+	"pitcard/weather"
 )
 
 // What the calibrated physics gets wrong has a structure, and the prediction
@@ -88,7 +90,7 @@ func (r residualFit) Var() float64 {
 // one sample's residual and whether it has one, for a pass at time now.
 // Weights are each sample's share of Mean (they add to 1), for the
 // explanation and the parameters' uncertainty.
-func fitResiduals(ss []Sample, res func(Sample) (float64, bool), now time.Time, pri residualPriors) residualFit {
+func fitResiduals(ss []Sample, res func(Sample) (float64, bool), now time.Time, pri residualPriors, day weather.DayStart) residualFit {
 	type obs struct {
 		i     int
 		r, h  float64
@@ -96,7 +98,7 @@ func fitResiduals(ss []Sample, res func(Sample) (float64, bool), now time.Time, 
 		today bool
 		wt    float64 // today's passes: weight in today's level
 	}
-	dayKey := func(t time.Time) string { return t.Format("2006-01-02") }
+	dayKey := day.Key // a race night past midnight is one day
 	first := map[string]time.Time{}
 	for _, s := range ss {
 		k := dayKey(s.Pass.Time)
@@ -119,7 +121,7 @@ func fitResiduals(ss []Sample, res func(Sample) (float64, bool), now time.Time, 
 	}
 	out := residualFit{Weights: make([]float64, len(ss)), Sigma2: sq(pri.Sigma), Tau2: sq(pri.Tau), SlopeVar: sq(pri.Slope)}
 	if ablation.noDayStructure {
-		return recencyMean(ss, res, now, pri)
+		return recencyMean(ss, res, now, pri, day)
 	}
 	if f, ok := first[today]; ok && !f.After(now) {
 		out.Hours = now.Sub(f).Hours()
@@ -287,7 +289,7 @@ func fitResiduals(ss []Sample, res func(Sample) (float64, bool), now time.Time, 
 func (f *Fit) nuisance() {
 	fin := timerIndex(f.Car.DistanceFt)
 	apply := func(res func(Sample) (float64, bool), pri residualPriors, set func(*Sample, float64)) {
-		d := dayStructure(f.Samples, res, pri)
+		d := dayStructure(f.Samples, res, pri, f.DayStart)
 		for i := range f.Samples {
 			set(&f.Samples[i], d.offset(f.Samples[i]))
 		}
@@ -308,6 +310,7 @@ func (f *Fit) nuisance() {
 
 // structure is the day structure of one residual over the fit's samples.
 type structure struct {
+	day    weather.DayStart
 	slope  float64
 	level  map[string]float64 // each day's shrunk offset from the days' mean
 	first  map[string]time.Time
@@ -315,7 +318,7 @@ type structure struct {
 }
 
 func (d structure) offset(s Sample) float64 {
-	k := s.Pass.Time.Format("2006-01-02")
+	k := d.day.Key(s.Pass.Time)
 	h := s.Pass.Time.Sub(d.first[k]).Hours()
 	return d.level[k] + d.slope*(h-d.center)
 }
@@ -323,12 +326,12 @@ func (d structure) offset(s Sample) float64 {
 // dayStructure measures the scatter within days, the spread between them
 // and the drift through them (as fitResiduals does), and returns each day's
 // offset shrunk toward the days' mean.
-func dayStructure(ss []Sample, res func(Sample) (float64, bool), pri residualPriors) structure {
-	d := structure{level: map[string]float64{}, first: map[string]time.Time{}}
+func dayStructure(ss []Sample, res func(Sample) (float64, bool), pri residualPriors, day weather.DayStart) structure {
+	d := structure{day: day, level: map[string]float64{}, first: map[string]time.Time{}}
 	type obs struct{ r, h float64 }
 	byDay := map[string][]obs{}
 	for _, s := range ss {
-		k := s.Pass.Time.Format("2006-01-02")
+		k := day.Key(s.Pass.Time)
 		if f, ok := d.first[k]; !ok || s.Pass.Time.Before(f) {
 			d.first[k] = s.Pass.Time
 		}
@@ -336,7 +339,7 @@ func dayStructure(ss []Sample, res func(Sample) (float64, bool), pri residualPri
 	var all []obs
 	for _, s := range ss {
 		if r, ok := res(s); ok {
-			k := s.Pass.Time.Format("2006-01-02")
+			k := day.Key(s.Pass.Time)
 			o := obs{r, s.Pass.Time.Sub(d.first[k]).Hours()}
 			byDay[k] = append(byDay[k], o)
 			all = append(all, o)
@@ -405,7 +408,7 @@ func dayStructure(ss []Sample, res func(Sample) (float64, bool), pri residualPri
 // recencyMean is the first generation's correction, for the ablation: the
 // residuals' mean, a pass's weight halving every 6 passes back and doubled
 // for a pass of the same day; the spread of the residuals.
-func recencyMean(ss []Sample, res func(Sample) (float64, bool), now time.Time, pri residualPriors) residualFit {
+func recencyMean(ss []Sample, res func(Sample) (float64, bool), now time.Time, pri residualPriors, day weather.DayStart) residualFit {
 	out := residualFit{Weights: make([]float64, len(ss))}
 	var sw, mean, w2 float64
 	var vals []float64
@@ -415,7 +418,7 @@ func recencyMean(ss []Sample, res func(Sample) (float64, bool), now time.Time, p
 			continue
 		}
 		w := math.Pow(0.5, float64(i)/6)
-		if dayKey(s.Pass.Time) == dayKey(now) {
+		if day.Same(s.Pass.Time, now) {
 			w *= 2
 		}
 		out.Weights[i] = w

@@ -209,7 +209,7 @@ func Predict(f Fit, in PredictInput) Prediction {
 	has := func(j int) func(Sample) (float64, bool) {
 		return func(s Sample) (float64, bool) { return s.Obs[j] - s.Sim.ET[j], !math.IsNaN(s.Obs[j]) }
 	}
-	fin := fitResiduals(f.Samples, has(fj), in.Time, timerPriors(fj, fj))
+	fin := fitResiduals(f.Samples, has(fj), in.Time, timerPriors(fj, fj), f.DayStart)
 	w := fin.Weights
 	var w2 float64
 	for _, x := range w {
@@ -235,7 +235,7 @@ func Predict(f Fit, in PredictInput) Prediction {
 		et, sd := model.ET[j], 2*relSD*model.ET[j]
 		rf := residualFit{}
 		if logged(has(j)) {
-			rf = fitResiduals(f.Samples, has(j), in.Time, timerPriors(j, fj))
+			rf = fitResiduals(f.Samples, has(j), in.Time, timerPriors(j, fj), f.DayStart)
 			et += rf.Mean()
 			sd = math.Sqrt(rf.Var())
 		} else { // no pass logged this timer: the model's, with twice the finish's relative spread
@@ -259,7 +259,7 @@ func Predict(f Fit, in PredictInput) Prediction {
 		}
 		mph, sd := sim, 2*relSD*sim
 		if logged(res) {
-			rf := fitResiduals(f.Samples, res, in.Time, trapPriors)
+			rf := fitResiduals(f.Samples, res, in.Time, trapPriors, f.DayStart)
 			mph += rf.Mean()
 			sd = math.Sqrt(rf.Var())
 		} else {

@@ -3,11 +3,13 @@ package engine
 import (
 	"math"
 	"time"
+
+	"pitcard/weather"
 )
 
 // GroupStats sums up a group of passes: one day's time trials, say.
 type GroupStats struct {
-	Day                        time.Time // midnight of the day
+	Day                        time.Time // midnight of the race day's date
 	Kind                       SessionKind
 	All                        bool    // true: every session kind of the day together
 	Passes                     int     // passes in the group
@@ -24,14 +26,15 @@ type GroupStats struct {
 	CorrectedSD float64
 }
 
-// Stats groups passes by day, and within each day by session kind (time
+// Stats groups passes by race day (day: when one begins, so a race night
+// past midnight is one day), and within each day by session kind (time
 // trials, eliminations, tests), with a row for the whole day. ET figures use
 // each group's clean passes at its most common finish distance. The spreads
 // are raw: not corrected for the air, which moves through a day.
 //
 // residual, when not nil, gives a pass's residual from the calibrated model
 // (Fit.Residuals) for the corrected spread.
-func Stats(passes []Pass, residual map[string]float64) []GroupStats {
+func Stats(passes []Pass, residual map[string]float64, day weather.DayStart) []GroupStats {
 	type key struct {
 		day  string
 		kind SessionKind
@@ -40,8 +43,8 @@ func Stats(passes []Pass, residual map[string]float64) []GroupStats {
 	var order []key
 	groups := map[key][]Pass{}
 	for _, p := range passes {
-		day := p.Time.Format("2006-01-02")
-		for _, k := range []key{{day, 0, true}, {day, p.Session.Kind, false}} {
+		d := day.Key(p.Time)
+		for _, k := range []key{{d, 0, true}, {d, p.Session.Kind, false}} {
 			if _, ok := groups[k]; !ok {
 				order = append(order, k)
 			}
@@ -51,8 +54,7 @@ func Stats(passes []Pass, residual map[string]float64) []GroupStats {
 	var out []GroupStats
 	for _, k := range order {
 		g := groups[k]
-		y, m, d := g[0].Time.Date()
-		s := GroupStats{Day: time.Date(y, m, d, 0, 0, 0, 0, g[0].Time.Location()), Kind: k.kind, All: k.all, Passes: len(g)}
+		s := GroupStats{Day: day.Day(g[0].Time), Kind: k.kind, All: k.all, Passes: len(g)}
 		s.Finish = commonFinish(g)
 		var ets, rts, sixties, res []float64
 		for _, p := range g {

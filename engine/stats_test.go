@@ -6,13 +6,16 @@ import (
 	"time"
 
 	"github.com/shopspring/decimal"
+
+	"pitcard/weather"
 )
 
-// Stats groups by day and session kind; the spreads are sample standard
-// deviations (definition); aborted runs and red lights stay out of the ET
-// and RT figures (common practice, no source).
+// Stats groups by race day (a night past midnight is the evening's day) and
+// session kind; the spreads are sample standard deviations (definition);
+// aborted runs and red lights stay out of the ET and RT figures (common
+// practice, no source).
 func TestStats(t *testing.T) {
-	day := time.Date(2026, 6, 13, 14, 0, 0, 0, time.UTC)
+	day := time.Date(2026, 6, 13, 21, 0, 0, 0, time.UTC) // the last two passes after midnight
 	mk := func(h int, kind SessionKind, et, rt, sixty string, notes string) Pass {
 		p := Pass{Time: day.Add(time.Duration(h) * time.Hour), Session: Session{kind, h + 1}, Notes: notes}
 		p.ET[4] = decimal.NewNullDecimal(d(et))
@@ -27,8 +30,8 @@ func TestStats(t *testing.T) {
 		mk(3, Elimination, "12.40", "0.030", "1.700", "lifted"),
 		mk(4, Elimination, "11.51", "0.050", "1.612", ""),
 	}
-	st := Stats(passes, nil)
-	if len(st) != 3 || !st[0].All || st[1].Kind != TimeTrial || st[2].Kind != Elimination {
+	st := Stats(passes, nil, weather.DefaultDayStart)
+	if len(st) != 3 || !st[0].All || st[1].Kind != TimeTrial || st[2].Kind != Elimination || st[0].Day.Format("2006-01-02") != "2026-06-13" {
 		t.Fatalf("groups %+v", st)
 	}
 	all := st[0]

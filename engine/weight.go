@@ -5,6 +5,8 @@ import (
 	"math"
 	"sort"
 	"time"
+
+	"pitcard/weather"
 )
 
 // A car gets lighter through a race day as it burns fuel, and the logbook
@@ -21,14 +23,15 @@ type weightModel struct {
 	usual  float64                // the usual start of a day: the recent days' mean, or car.yaml's
 	passes map[string][]time.Time // every pass of each day, in order, for a pass's place in its day
 	logged int
+	day    weather.DayStart // where one race day ends
 }
 
-func newWeightModel(car Car, passes []Pass) *weightModel {
-	m := &weightModel{carLb: car.WeightLb, usual: car.WeightLb, start: map[string]float64{}, passes: map[string][]time.Time{}}
+func newWeightModel(car Car, passes []Pass, day weather.DayStart) *weightModel {
+	m := &weightModel{carLb: car.WeightLb, usual: car.WeightLb, start: map[string]float64{}, passes: map[string][]time.Time{}, day: day}
 	type obs struct{ idx, lb float64 }
 	byDay := map[string][]obs{}
 	for _, p := range passes {
-		k := dayKey(p.Time)
+		k := m.day.Key(p.Time)
 		m.passes[k] = append(m.passes[k], p.Time)
 	}
 	for k := range m.passes {
@@ -36,7 +39,7 @@ func newWeightModel(car Car, passes []Pass) *weightModel {
 	}
 	for _, p := range passes {
 		if p.WeightLb > 0 {
-			k := dayKey(p.Time)
+			k := m.day.Key(p.Time)
 			byDay[k] = append(byDay[k], obs{float64(m.index(p.Time)), p.WeightLb})
 			m.logged++
 		}
@@ -86,12 +89,10 @@ func newWeightModel(car Car, passes []Pass) *weightModel {
 	return m
 }
 
-func dayKey(t time.Time) string { return t.Format("2006-01-02") }
-
 // index is a pass's place in its day: 0 for the first.
 func (m *weightModel) index(t time.Time) int {
 	n := 0
-	for _, x := range m.passes[dayKey(t)] {
+	for _, x := range m.passes[m.day.Key(t)] {
 		if x.Before(t) {
 			n++
 		}
@@ -101,7 +102,7 @@ func (m *weightModel) index(t time.Time) int {
 
 // At is the car's estimated weight, lb, for a pass at t.
 func (m *weightModel) At(t time.Time) float64 {
-	start, ok := m.start[dayKey(t)]
+	start, ok := m.start[m.day.Key(t)]
 	if !ok {
 		start = m.usual
 	}

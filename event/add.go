@@ -19,7 +19,7 @@ import (
 // NewReading is one weather reading as typed.
 type NewReading struct {
 	Fields  ReadingFields
-	Time    string // "HH:MM" today or "YYYY-MM-DD HH:MM"; "" for now
+	Time    string // "HH:MM" on today's race day or "YYYY-MM-DD HH:MM"; "" for now
 	Notes   string
 	Replace bool // replace a reading already logged in the same minute
 }
@@ -56,7 +56,8 @@ func (e *Folder) AddReading(nr NewReading, now time.Time) (AddedReading, error) 
 	}
 	when := now
 	if strings.TrimSpace(nr.Time) != "" {
-		if when, err = ParseWhen(nr.Time, now); err != nil {
+		start := e.Settings.DayStart
+		if when, err = ParseWhen(nr.Time, start.Day(now.In(e.Zone())), start); err != nil {
 			return out, err
 		}
 	}
@@ -113,11 +114,21 @@ func (e *Folder) AddPass(np NewPass, now time.Time) (LoggedPass, error) {
 	}
 	trk, trkErr := e.Track()
 	date, clock := np.Date, np.Time
-	if date == "" {
-		date = now.Format(weather.DateLayout)
+	start := e.Settings.DayStart
+	switch {
+	case date == "" && clock != "":
+		// A time without a date is on today's race day: "23:50" typed at
+		// 00:24 is the evening's, not tonight's.
+		when, err := ParseWhen(clock, start.Day(now.In(e.Zone())), start)
+		if err != nil {
+			return out, err
+		}
+		date = when.Format(weather.DateLayout)
+	case date == "":
+		date = now.In(e.Zone()).Format(weather.DateLayout)
 	}
 	if clock == "" {
-		clock = now.Format(weather.TimeLayout)
+		clock = now.In(e.Zone()).Format(weather.TimeLayout)
 	}
 	track := np.Track
 	if track == "" {
@@ -143,7 +154,7 @@ func (e *Folder) AddPass(np NewPass, now time.Time) (LoggedPass, error) {
 	if np.Session == "" || np.Lane == "" {
 		return out, userErrf("--session and --lane are required (e.g. --session E1 --lane left)")
 	}
-	p, err := engine.ParsePass(f, time.Local)
+	p, err := engine.ParsePass(f, e.Zone())
 	if err != nil {
 		return out, err
 	}
@@ -166,7 +177,7 @@ func (e *Folder) AddPass(np NewPass, now time.Time) (LoggedPass, error) {
 		return out, err
 	} else if r, ok := nearestReading(log, p.Time, time.Hour); ok {
 		base, source = &r, "the weather log's "+r.Time.Format("15:04")+" reading"
-	} else if len(log) > 0 && sameDate(log[len(log)-1].Time, p.Time) {
+	} else if len(log) > 0 && start.Same(log[len(log)-1].Time, p.Time) {
 		// No reading within the hour, but the day's trend reaches the pass.
 		if f, err := weather.ForecastAt(log, p.Time, elev); err == nil && f.Trusted {
 			base, source = &f.Reading, "the weather log's trend ("+strings.Join(f.Notes, "; ")+")"
@@ -210,8 +221,6 @@ func (e *Folder) AddPass(np NewPass, now time.Time) (LoggedPass, error) {
 	out.Pass, out.Count, out.Source, out.Elevation = p, n, source, elev
 	return out, nil
 }
-
-func sameDate(a, b time.Time) bool { return a.Format("2006-01-02") == b.Format("2006-01-02") }
 
 // nearestReading is the reading of log closest in time to t, within tol.
 func nearestReading(log []weather.Reading, t time.Time, tol time.Duration) (weather.Reading, bool) {

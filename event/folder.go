@@ -47,6 +47,10 @@ type Settings struct {
 	RuleLimits    scripts.Limits
 	MaxReadingAge time.Duration // a reading older than this is flagged on the card
 	CrossCheckMax float64       // s: the model this far from the plain cross-check is flagged
+	// DayStart is when a race day begins (day_starts): the night's hours
+	// before it are the day before's, for the schedule, the weather log's
+	// day, the model's "today" and a time typed without a date.
+	DayStart weather.DayStart
 	// The other lane's defaults and ours, s (common practice, from memory:
 	// see the README), and which dial to post.
 	OppMargin, OppMarginSD, OppRTMean, OppRTSD, RTMean, RTSD float64
@@ -61,6 +65,17 @@ type Folder struct {
 	Settings Settings
 	// Files given by flags (--car, --track, --logbook) in place of the folder's.
 	CarPath, TrackPath, LogbookPath string
+	// Loc is the zone of the folder's local times; nil is time.Local (Zone).
+	Loc *time.Location
+}
+
+// Zone is the zone of the folder's local times: its files' dates and times
+// and a time typed.
+func (e *Folder) Zone() *time.Location {
+	if e.Loc == nil {
+		return time.Local
+	}
+	return e.Loc
 }
 
 // OpenFile opens a folder file, or the file a flag named in its place.
@@ -149,7 +164,7 @@ func (e *Folder) readLogbook(keep int) (*engine.Logbook, string, error) {
 		return nil, name, err
 	}
 	defer f.Close()
-	lb, err := engine.ReadLogbookRecent(f, name, time.Local, keep)
+	lb, err := engine.ReadLogbookRecent(f, name, e.Zone(), keep)
 	return lb, name, err
 }
 
@@ -269,21 +284,24 @@ func (e *Folder) Schedule() (prep.Schedule, bool, error) {
 		return prep.Schedule{}, false, err
 	}
 	defer f.Close()
-	s, err := prep.ReadSchedule(f, e.Name(ScheduleFile), time.Local)
+	s, err := prep.ReadSchedule(f, e.Name(ScheduleFile), e.Zone(), e.Settings.DayStart)
 	return s, err == nil, err
 }
 
 // ClockFor is the clock of a round: now, or, when schedule.yaml is for
-// another day that the weather log holds, that day at its last reading (a
-// race day replayed). A schedule of another day the log lacks is taken for
-// today. One clock serves the whole round: the card, the reading, the slip.
+// another race day that the weather log holds, that day at its last reading
+// (a race day replayed). A schedule of another day the log lacks is taken
+// for today. One clock serves the whole round: the card, the reading, the
+// slip. Days are race days (day_starts): past midnight is still the
+// evening's day.
 func (e *Folder) ClockFor(sched prep.Schedule, haveSched bool, log []weather.Reading, now time.Time) (time.Time, prep.Schedule, []string) {
-	if !haveSched || e.Demo || sched.Date.Format("2006-01-02") == now.Format("2006-01-02") {
+	start := e.Settings.DayStart
+	if !haveSched || e.Demo || sched.Date.Format(weather.DateLayout) == start.Key(now) {
 		return now, sched, nil
 	}
 	var dayEnd *weather.Reading
 	for i := range log {
-		if log[i].Time.Format("2006-01-02") == sched.Date.Format("2006-01-02") {
+		if start.Key(log[i].Time) == sched.Date.Format(weather.DateLayout) {
 			dayEnd = &log[i]
 		}
 	}
@@ -292,7 +310,7 @@ func (e *Folder) ClockFor(sched prep.Schedule, haveSched bool, log []weather.Rea
 			e.Name(ScheduleFile), sched.Date.Format("2006-01-02"), dayEnd.Time.Format("15:04"))}
 	}
 	return now, sched.OnDay(now), []string{fmt.Sprintf("%s is dated %s but today is %s: its call times are taken for today (update its date)",
-		e.Name(ScheduleFile), sched.Date.Format("2006-01-02"), now.Format("2006-01-02"))}
+		e.Name(ScheduleFile), sched.Date.Format("2006-01-02"), start.Key(now))}
 }
 
 // SameMinute: the weather log already has a reading in that minute.
@@ -345,7 +363,7 @@ func (e *Folder) WeatherLog(elev weather.Length) ([]weather.Reading, error) {
 	if err != nil {
 		return nil, err
 	}
-	return weather.ReadLog(bytes.NewReader(data), e.Name(WeatherFile), elev, time.Local)
+	return weather.ReadLog(bytes.NewReader(data), e.Name(WeatherFile), elev, e.Zone())
 }
 
 // SortReadings sorts readings in time order, stably (a log is nearly in

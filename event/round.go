@@ -185,14 +185,18 @@ func PrepLevel(flag string, trk engine.Track) (float64, error) {
 	return p, nil
 }
 
-// parseWhen reads "21:40" (on the date of ref) or "2026-06-13 21:40".
-func ParseWhen(s string, ref time.Time) (time.Time, error) {
+// ParseWhen reads "2026-06-13 21:40" (a calendar date and time) or "21:40"
+// on the race day that began on day's date (start.Day(now) for today's):
+// a time before start is on the next calendar date, so "00:15" typed
+// during a race night is the coming midnight's, and "23:50" typed at 00:24
+// the evening's. In day's zone; a time daylight saving skips is refused.
+func ParseWhen(s string, day time.Time, start weather.DayStart) (time.Time, error) {
 	s = strings.TrimSpace(s)
 	if d, c, ok := strings.Cut(s, " "); ok {
-		t, err := weather.ParseDateTime(d, c, ref.Location())
+		t, err := weather.ParseDateTime(d, c, day.Location())
 		return t, FlagErr(err, "--time")
 	}
-	t, err := weather.ParseClock(s, ref, ref.Location())
+	t, err := start.Clock(s, day, day.Location())
 	return t, FlagErr(err, "--time")
 }
 
@@ -377,18 +381,20 @@ func (e *Folder) GatherRound(r RoundRequest, now time.Time) (prep.Input, []strin
 		return in, nil, userErrf("which round? give --round (3, E3, T2 ...), or write %s with the day's call times", ScheduleFile)
 	}
 
-	// The call time: --at, the schedule's, or now.
-	day := now
+	// The call time: --at (on the schedule's race day, or the latest
+	// reading's, or today's), the schedule's, or now.
+	start := e.Settings.DayStart
+	day := start.Day(now)
 	switch {
 	case haveSched:
 		day = sched.Date
 	case len(log) > 0:
-		day = log[len(log)-1].Time
+		day = start.Day(log[len(log)-1].Time)
 	}
 	call := now
 	switch {
 	case r.At != "":
-		t, err := ParseWhen(r.At, day)
+		t, err := ParseWhen(r.At, day, start)
 		if err != nil {
 			return in, nil, FlagErr(err, "--at")
 		}
@@ -434,16 +440,16 @@ func (e *Folder) GatherRound(r RoundRequest, now time.Time) (prep.Input, []strin
 	var source string
 	var airNow *weather.Reading
 	var forecast *weather.Forecast
-	// Only the call's day's readings forecast its air.
+	// Only the call's race day's readings forecast its air.
 	var dayLog []weather.Reading
 	for _, r := range log {
-		if r.Time.Format("2006-01-02") == call.Format("2006-01-02") {
+		if start.Same(r.Time, call) {
 			dayLog = append(dayLog, r)
 		}
 	}
 	if len(dayLog) == 0 && len(log) > 0 {
-		warnings = append(warnings, fmt.Sprintf("no weather reading on %s: the air is the last reading, of %s; take a fresh one",
-			call.Format("2006-01-02"), log[len(log)-1].Time.Format("2006-01-02 15:04")))
+		warnings = append(warnings, fmt.Sprintf("no weather reading on the race day of %s: the air is the last reading, of %s; take a fresh one",
+			start.Key(call), log[len(log)-1].Time.Format("2006-01-02 15:04")))
 		dayLog = log[len(log)-1:]
 	}
 	log = dayLog
@@ -507,7 +513,8 @@ func (e *Folder) GatherRound(r RoundRequest, now time.Time) (prep.Input, []strin
 		Car: car, Track: trk, Tracks: tracks, Passes: passes,
 		Settings: prep.Settings{Units: e.Settings.Units, DialStep: e.Settings.DialStep, BreakoutRisk: e.Settings.BreakoutRisk,
 			MaxRuleAdjust: e.Settings.MaxAdjust, RuleLimits: e.Settings.RuleLimits, MaxReadingAge: e.Settings.MaxReadingAge,
-			CrossCheckMax: e.Settings.CrossCheckMax},
+			CrossCheckMax: e.Settings.CrossCheckMax,
+			DayStart:      e.Settings.DayStart},
 		Session: slot.Session, Lane: lane, OpponentDial: opp, Opponent: opponent, UsRT: usRT, PostBestForWin: e.Settings.PostBestForWin, Call: call, Now: now,
 		Air: air, AirSource: source, AirNow: airNow, Forecast: forecast, Elevation: elev, Prep: prepLvl, WeightLb: weight,
 		Rules: rules, RulesFS: e.FS, Ticked: notes.Ticked,

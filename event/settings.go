@@ -32,6 +32,9 @@ var SettingDefaults = map[string]any{
 	"rule_memory_mib": 64,
 	// A weather reading older than this at the card's clock is flagged.
 	"reading_max_age_min": 45,
+	// When a race day begins: a night's hours before it belong to the day
+	// before (weather.DefaultDayStart).
+	"day_starts": weather.DefaultDayStart.String(),
 	// The other lane, when nothing better is known of it, and our driver's
 	// reaction time when the logbook has too few.
 	"opponent_margin":    0.02,
@@ -61,12 +64,16 @@ type OpenOptions struct {
 	// Env looks up the front end's environment (os.Getenv): PITCARD_UNITS
 	// and the others, over pitcard.yaml. nil: no environment.
 	Env func(string) string
+	// Loc is the zone of the folder's local times (its files' dates and
+	// times, a time typed); nil is time.Local. A front end passes its
+	// clock's zone, so one zone serves the clock and the files.
+	Loc *time.Location
 }
 
 // Open opens an event folder (or the demo) and reads its settings: the
 // front end's > PITCARD_* environment > pitcard.yaml > defaults.
 func Open(o OpenOptions) (*Folder, error) {
-	e := &Folder{Demo: o.Demo, CarPath: o.CarFile, TrackPath: o.TrackFile, LogbookPath: o.LogbookFile}
+	e := &Folder{Demo: o.Demo, CarPath: o.CarFile, TrackPath: o.TrackFile, LogbookPath: o.LogbookFile, Loc: o.Loc}
 	if o.Demo {
 		e.FS = Demo(scripts.Shipped())
 	} else {
@@ -173,6 +180,9 @@ func Open(o OpenOptions) (*Folder, error) {
 	s.MaxReadingAge = time.Duration(age) * time.Minute
 	if s.CrossCheckMax = v.GetFloat64("cross_check_max_s"); !(s.CrossCheckMax >= 0.01 && s.CrossCheckMax <= 1) {
 		return nil, settingErr("cross_check_max_s", &weather.InputError{Field: "cross_check_max_s", Value: v.GetString("cross_check_max_s"), Reason: "is outside 0.01..1 s"})
+	}
+	if s.DayStart, err = weather.ParseDayStart(v.GetString("day_starts")); err != nil {
+		return nil, settingErr("day_starts", err)
 	}
 	for _, x := range []struct {
 		key    string

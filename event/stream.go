@@ -100,7 +100,7 @@ func (e *Folder) StreamReadings(r io.Reader, now func() time.Time, replace bool,
 			if elev, _, err = e.SiteElevation(ReadingFields{}); err != nil {
 				return bad, err
 			}
-			if _, err := weather.ReadLog(strings.NewReader(header+"\n"), "standard input", 0, time.Local); err != nil {
+			if _, err := weather.ReadLog(strings.NewReader(header+"\n"), "standard input", 0, e.Zone()); err != nil {
 				var ie *weather.InputError
 				if errors.As(err, &ie) {
 					ie.Line = n
@@ -109,7 +109,7 @@ func (e *Folder) StreamReadings(r io.Reader, now func() time.Time, replace bool,
 			}
 			continue
 		case header != "":
-			log, rerr := weather.ReadLog(strings.NewReader(header+"\n"+line+"\n"), "standard input", elev, time.Local)
+			log, rerr := weather.ReadLog(strings.NewReader(header+"\n"+line+"\n"), "standard input", elev, e.Zone())
 			if rerr == nil && len(log) == 1 {
 				var n int
 				if n, rerr = e.AppendReading(log[0], elev, replace); rerr == nil {

@@ -297,7 +297,8 @@ func (s *Server) postSlip(q *request) {
 		ET60: v("et60"), ET330: v("et330"), ET660: v("et660"), ET1000: v("et1000"), ET1: v("et1320"),
 		MPH660: v("mph660"), MPH1320: v("mph1320"), OppDial: v("opponent-dial"), OppRT: v("opponent-rt"), OppET: v("opponent-et")}
 	if t := v("time"); t != "" {
-		when, err := event.ParseWhen(t, q.now)
+		start := q.folder.Settings.DayStart
+		when, err := event.ParseWhen(t, start.Day(q.now), start)
 		if err != nil {
 			p.Error = attach(p.Form, err)
 			s.render(q, "form", p, http.StatusUnprocessableEntity)
@@ -442,11 +443,12 @@ func (s *Server) weatherPage(q *request) {
 		s.render(q, "list", p, http.StatusOK)
 		return
 	}
-	day := log[len(log)-1].Time.Format(weather.DateLayout)
+	start := q.folder.Settings.DayStart // the latest reading's race day, past midnight included
+	day := start.Key(log[len(log)-1].Time)
 	t := listTable{Title: fmt.Sprintf("%s, %s", prep.OrDash(trk.Name), day), Header: []string{"Time", "Air", "Baro", "RH", "Track", "DA"}}
 	var today []weather.Reading
 	for _, r := range log {
-		if r.Time.Format(weather.DateLayout) != day {
+		if start.Key(r.Time) != day {
 			continue
 		}
 		today = append(today, r)

@@ -27,15 +27,13 @@ func Chart(c Card) string {
 	for _, o := range c.Prediction.Outliers {
 		left[o.Pass.Key()] = true
 	}
-	y0, m0, d0 := in.Call.Date()
 	var pts []pt
 	for _, p := range in.Passes {
 		et, ok := p.ETAt(dist)
 		if !ok || !p.HasAir {
 			continue
 		}
-		y, m, d := p.Time.Date()
-		pts = append(pts, pt{x: p.Air.Derive(0).DensityAltitude.Feet(), y: et, today: y == y0 && m == m0 && d == d0,
+		pts = append(pts, pt{x: p.Air.Derive(0).DensityAltitude.Feet(), y: et, today: in.Settings.DayStart.Same(p.Time, in.Call),
 			out: left[p.Key()] || engine.Aborted(p.Notes), label: p.Session.String()})
 	}
 	f := c.Prediction.Finish()

@@ -43,6 +43,9 @@ type Settings struct {
 	// cross-check (engine.AirCarried) is flagged in the dial box; 0 takes
 	// engine.DefaultCrossCheckMax (the setting cross_check_max_s).
 	CrossCheckMax float64
+	// DayStart is when a race day begins (setting day_starts): today's
+	// passes are the call's race day's, past midnight included.
+	DayStart weather.DayStart
 }
 
 // DefaultMaxReadingAge is how old the latest reading may be before the card
@@ -198,7 +201,8 @@ func Gather(in Input) Card {
 		}
 	}
 
-	cal := engine.CalibrateInput{Car: in.Car, Track: in.Track, Tracks: in.Tracks, Passes: in.Passes, Now: latest(in.Now, in.Call, in.Passes)}
+	cal := engine.CalibrateInput{Car: in.Car, Track: in.Track, Tracks: in.Tracks, Passes: in.Passes, Now: latest(in.Now, in.Call, in.Passes),
+		DayStart: in.Settings.DayStart}
 	var fit engine.Fit
 	err := in.Car.Validate("car.yaml")
 	if err == nil {
@@ -324,15 +328,13 @@ func latest(ts ...any) time.Time {
 	return t
 }
 
-// todaysRecord backcasts each earlier pass of the call's day at the track.
+// todaysRecord backcasts each earlier pass of the call's race day at the track.
 func todaysRecord(fit engine.Fit, cal engine.CalibrateInput, in Input) ([]RecordLine, float64) {
 	var out []RecordLine
 	var sum float64
 	n := 0
-	y, m, d := in.Call.Date()
 	for _, p := range in.Passes {
-		py, pm, pd := p.Time.Date()
-		if py != y || pm != m || pd != d || !p.Time.Before(in.Call) {
+		if !in.Settings.DayStart.Same(p.Time, in.Call) || !p.Time.Before(in.Call) {
 			continue
 		}
 		et, ok := p.ETAt(in.Car.DistanceFt)

@@ -18,8 +18,13 @@ import (
 //	sessions:
 //	  - {session: T1, call: "15:10"}
 //	  - {session: E1, call: "19:15", lane: left}
+//	  - {session: E6, call: "00:15"}
+//
+// date is the race day; a call before the day's start (setting day_starts)
+// is on the next calendar date, the race night past midnight.
 type Schedule struct {
-	Date     time.Time
+	Date     time.Time // the race day: local midnight of the date it began on
+	Start    weather.DayStart
 	Sessions []Slot
 }
 
@@ -30,8 +35,9 @@ type Slot struct {
 	Lane    engine.Lane // "" when not known in advance
 }
 
-// ReadSchedule reads a schedule.yaml; name is the file's name for messages.
-func ReadSchedule(r io.Reader, name string, loc *time.Location) (Schedule, error) {
+// ReadSchedule reads a schedule.yaml; name is the file's name for messages,
+// loc the zone of its times, start the race day's start (day_starts).
+func ReadSchedule(r io.Reader, name string, loc *time.Location, start weather.DayStart) (Schedule, error) {
 	var raw struct {
 		Date     string `yaml:"date"`
 		Sessions []struct {
@@ -51,7 +57,7 @@ func ReadSchedule(r io.Reader, name string, loc *time.Location) (Schedule, error
 	if err := doc.Decode(&raw, true); err != nil {
 		return Schedule{}, err
 	}
-	var s Schedule
+	s := Schedule{Start: start}
 	d, err := time.ParseInLocation(weather.DateLayout, strings.TrimSpace(raw.Date), loc)
 	if err != nil {
 		return s, &weather.InputError{File: name, Line: doc.Line("date"), Field: "date", Value: raw.Date, Reason: "is not a date (YYYY-MM-DD)"}
@@ -63,7 +69,7 @@ func ReadSchedule(r io.Reader, name string, loc *time.Location) (Schedule, error
 		if err != nil {
 			return s, err.(*weather.InputError).Named(where+"session").At(name, doc.Line(where+"session"))
 		}
-		call, err := weather.ParseClock(x.Call, d, loc)
+		call, err := start.Clock(x.Call, d, loc)
 		if err != nil {
 			return s, err.(*weather.InputError).Named(where+"call").At(name, doc.Line(where+"call"))
 		}
@@ -89,13 +95,12 @@ func (s Schedule) Find(ses engine.Session) (Slot, bool) {
 }
 
 // Next is the first session of the schedule the logbook has no pass for on
-// the schedule's date, and whether there is one.
+// the schedule's race day, and whether there is one.
 func (s Schedule) Next(passes []engine.Pass) (Slot, bool) {
 	run := map[engine.Session]bool{}
-	y, m, d := s.Date.Date()
+	day := s.Date.Format(weather.DateLayout)
 	for _, p := range passes {
-		py, pm, pd := p.Time.Date()
-		if py == y && pm == m && pd == d {
+		if s.Start.Key(p.Time) == day {
 			run[p.Session] = true
 		}
 	}
@@ -107,13 +112,17 @@ func (s Schedule) Next(passes []engine.Pass) (Slot, bool) {
 	return Slot{}, false
 }
 
-// OnDay is the schedule moved to day: the same call times on another date.
+// OnDay is the schedule moved to the race day of day: the same call times,
+// each as many calendar days on as the race day moved.
 func (s Schedule) OnDay(day time.Time) Schedule {
-	y, m, d := day.Date()
-	out := Schedule{Date: time.Date(y, m, d, 0, 0, 0, 0, s.Date.Location())}
+	to := s.Start.Day(day.In(s.Date.Location()))
+	y, m, d := to.Date()
+	out := Schedule{Date: time.Date(y, m, d, 0, 0, 0, 0, s.Date.Location()), Start: s.Start}
+	sy, sm, sd := s.Date.Date()
+	shift := int(time.Date(y, m, d, 0, 0, 0, 0, time.UTC).Sub(time.Date(sy, sm, sd, 0, 0, 0, 0, time.UTC)).Hours() / 24)
 	for _, x := range s.Sessions {
 		c := x.Call
-		x.Call = time.Date(y, m, d, c.Hour(), c.Minute(), c.Second(), 0, c.Location())
+		x.Call = time.Date(c.Year(), c.Month(), c.Day()+shift, c.Hour(), c.Minute(), c.Second(), 0, c.Location())
 		out.Sessions = append(out.Sessions, x)
 	}
 	return out

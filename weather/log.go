@@ -40,16 +40,17 @@ const (
 	TimeLayout = "15:04"
 )
 
-// ParseClock reads a time of day, "21:40" or "21:40:30", on the date of day in
-// loc.
+// ParseClock reads a time of day, "21:40" or "21:40:30", on the calendar
+// date of day in loc. A time a daylight-saving change skips is refused and
+// one it repeats is its first occurrence (LocalTime); a time on a race day
+// that runs past midnight is DayStart.Clock's.
 func ParseClock(s string, day time.Time, loc *time.Location) (time.Time, error) {
-	for _, layout := range []string{"15:04", "15:04:05"} {
-		if t, err := time.ParseInLocation(layout, strings.TrimSpace(s), loc); err == nil {
-			y, m, d := day.In(loc).Date()
-			return time.Date(y, m, d, t.Hour(), t.Minute(), t.Second(), 0, loc), nil
-		}
+	h, m, sec, err := parseClock(s)
+	if err != nil {
+		return time.Time{}, err
 	}
-	return time.Time{}, inputErr("time", s, "is not a time of day (use 24-hour HH:MM, e.g. 21:40)")
+	y, mo, d := day.In(loc).Date()
+	return LocalTime(y, mo, d, h, m, sec, loc, s)
 }
 
 // ParseDateTime reads a date and a time of day in loc.

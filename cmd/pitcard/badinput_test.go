@@ -30,6 +30,7 @@ func TestBadInputTour(t *testing.T) {
 	badCar := corruptRow("car.yaml", "weight_lb: 3350", "weight_lb: 33500")
 	badTrack := corruptRow("track.yaml", "elevation_ft: 2240", "elevation_ft: high")
 	badSettings := corruptRow("pitcard.yaml", "dial_step: 0.01", "dial_step: 0.5")
+	badDayStart := corruptRow("pitcard.yaml", "tree: full", "tree: full\nday_starts: \"18:00\"")
 	trackKey := corruptRow("track.yaml", "elevation_ft: 2240", "elevation_ft: 2240\nsurface: concrete")
 	badLane := corruptRow("schedule.yaml", "lane: left", "lane: center")
 	nanCar := corruptRow("car.yaml", "limit_et: 10.65", "limit_et: .nan")
@@ -173,6 +174,7 @@ func TestBadInputTour(t *testing.T) {
 			{[]string{"card", "--dir", trackKey}, 2, []string{"track.yaml line", "\"surface\" is not a key of this file", "elevation_ft, heading_deg, name, prep"}},
 			{[]string{"card", "--dir", badLane}, 2, []string{"schedule.yaml line 9", "lane \"center\"", "left or right"}},
 			{[]string{"card", "--dir", badLane, "--round", "3", "--lane", "left"}, 2, []string{"POST THIS", "schedule.yaml line 9"}},
+			{[]string{"card", "--dir", badDayStart}, 2, []string{"pitcard.yaml line 6", "day_starts \"18:00\"", "00:00..12:00"}},
 			{[]string{"card", "--dir", nanCar}, 2, []string{"car.yaml line 16", "limit_et", "not a finite number"}},
 			{[]string{"card", "--dir", good, "--out", filepath.Join(missing, "x", "card.html")}, 1, []string{"writing"}},
 		},

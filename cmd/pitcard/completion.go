@@ -12,6 +12,7 @@ import (
 
 	"pitcard/event"
 	"pitcard/prep"
+	"pitcard/weather"
 )
 
 // fixedChoices are the flags whose values are a short list, for the shell's
@@ -81,7 +82,7 @@ func scheduleSessions(c *cobra.Command) []string {
 	}
 	if fh, err := os.Open(filepath.Join(dir, event.ScheduleFile)); err == nil {
 		defer fh.Close()
-		if s, err := prep.ReadSchedule(fh, event.ScheduleFile, time.Local); err == nil && len(s.Sessions) > 0 {
+		if s, err := prep.ReadSchedule(fh, event.ScheduleFile, time.Local, weather.DefaultDayStart); err == nil && len(s.Sessions) > 0 {
 			var out []string
 			for _, sl := range s.Sessions {
 				out = append(out, sl.Session.String()+"\t"+sl.Session.Long()+", called "+sl.Call.Format("15:04"))

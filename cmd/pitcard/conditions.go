@@ -66,7 +66,7 @@ func (c *conditionFlags) resolve(e *eventFolder, now time.Time) (conditions, err
 		}
 		last := log[len(log)-1]
 		if c.At != "" {
-			when, err := callTime(c.At, last.Time)
+			when, err := callTime(c.At, last.Time, e.Settings.DayStart)
 			if err != nil {
 				return out, err
 			}

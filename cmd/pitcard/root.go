@@ -4,6 +4,7 @@ import (
 	"os"
 	"slices"
 	"strings"
+	"time"
 
 	"github.com/spf13/cobra"
 
@@ -19,10 +20,12 @@ type globalOptions struct {
 	// Files in place of the folder's car.yaml, track.yaml and logbook.csv,
 	// for every command that reads them.
 	CarFile, TrackFile, LogbookFile string
+	// now is the clock; its zone is the folder's (time.Now's is time.Local).
+	now func() time.Time
 }
 
 func newRootCmd(s *IOStreams) *cobra.Command {
-	g := &globalOptions{}
+	g := &globalOptions{now: s.Now}
 	root := &cobra.Command{
 		Use:   "pitcard",
 		Short: "Race-day prep for bracket drag racers: the air, the logbook, the prediction, the dial-in, the card",
@@ -80,6 +83,9 @@ type eventFolder = event.Folder
 func (g *globalOptions) open(cmd *cobra.Command) (*eventFolder, error) {
 	o := event.OpenOptions{Dir: g.Dir, Demo: g.Demo, CarFile: g.CarFile, TrackFile: g.TrackFile, LogbookFile: g.LogbookFile,
 		Set: map[string]string{}, Env: os.Getenv}
+	if g.now != nil {
+		o.Loc = g.now().Location() // one zone for the clock and the folder's times
+	}
 	for _, key := range []string{"units", "dial_step", "breakout_risk", "tree", "rt_zero"} {
 		if f := cmd.Flag(strings.ReplaceAll(key, "_", "-")); f != nil && f.Changed {
 			o.Set[key] = f.Value.String()

@@ -6,7 +6,6 @@ import (
 	"fmt"
 	"io"
 	"strings"
-	"time"
 
 	"github.com/spf13/cobra"
 
@@ -321,7 +320,7 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 	}
 	// The checks across fields: the field named is asked again.
 	for try := 0; ; try++ {
-		_, err := engine.ParsePass(slip, time.Local)
+		_, err := engine.ParsePass(slip, e.Zone())
 		var ie *weather.InputError
 		if err == nil || !errors.As(err, &ie) || try == 3 {
 			if err != nil {

@@ -3,7 +3,6 @@ package main
 import (
 	"bytes"
 	"fmt"
-	"strings"
 	"time"
 
 	"github.com/jedib0t/go-pretty/v6/table"
@@ -92,7 +91,7 @@ reported and skipped.`,
 		},
 	}
 	o.reading.bind(cmd)
-	cmd.Flags().StringVar(&o.Time, "time", "", "time of the reading, HH:MM today or 'YYYY-MM-DD HH:MM' (default: now)")
+	cmd.Flags().StringVar(&o.Time, "time", "", "time of the reading, HH:MM on today's race day or 'YYYY-MM-DD HH:MM' (default: now)")
 	cmd.Flags().StringVar(&o.Note, "notes", "", "free text for the notes column")
 	cmd.Flags().StringVar(&o.Note, "note", "", "")
 	_ = cmd.Flags().MarkDeprecated("note", "use --notes (as on 'log add')")
@@ -295,7 +294,7 @@ func weatherForecastRun(cmd *cobra.Command, o *weatherForecastOptions) error {
 	if len(log) == 0 {
 		return userErrf("%s has no readings: add some with 'pitcard weather add' first", e.Name(event.WeatherFile))
 	}
-	when, err := callTime(o.At, log[len(log)-1].Time)
+	when, err := callTime(o.At, log[len(log)-1].Time, e.Settings.DayStart)
 	if err != nil {
 		return err
 	}
@@ -336,16 +335,9 @@ func weatherForecastRun(cmd *cobra.Command, o *weatherForecastOptions) error {
 	return nil
 }
 
-// callTime reads a time of day for a forecast: on the day of the last reading,
-// or the next day when that is more than 12 hours before it (a round called
-// after midnight).
-func callTime(s string, last time.Time) (time.Time, error) {
-	t, err := event.ParseWhen(s, last)
-	if err != nil {
-		return t, event.FlagErr(err, "--at")
-	}
-	if !strings.Contains(strings.TrimSpace(s), " ") && last.Sub(t) > 12*time.Hour {
-		t = t.AddDate(0, 0, 1)
-	}
-	return t, nil
+// callTime reads a time of day for a forecast: on the race day of the last
+// reading (a time before day_starts is the night after midnight).
+func callTime(s string, last time.Time, start weather.DayStart) (time.Time, error) {
+	t, err := event.ParseWhen(s, start.Day(last), start)
+	return t, event.FlagErr(err, "--at")
 }
