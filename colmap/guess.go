@@ -119,7 +119,7 @@ func Guess(data []byte, name string, kind Kind, defaults map[string]string) (*Ma
 		}
 		if field == "" {
 			m.Skip = append(m.Skip, h)
-			notes = append(notes, "column "+quote(h)+" not recognised: skipped")
+			notes = append(notes, "column "+quote(h)+" not recognized: skipped")
 			continue
 		}
 		src := &Source{Column: h}

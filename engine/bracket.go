@@ -17,7 +17,7 @@ import (
 //     (ran quicker than its dial).
 //   - Fouls come before everything: a red light (leaving before the green)
 //     loses, even against a car that broke out; so does a boundary or
-//     centreline foul. When both foul, the first foul loses: a red light
+//     centerline foul. When both foul, the first foul loses: a red light
 //     happens at the start, so it is always first against a boundary foul;
 //     of two red lights the one that left earlier in time loses.
 //   - One breakout loses to a car that did not break out. Both break out: the
@@ -91,7 +91,7 @@ type LaneRun struct {
 	RT   decimal.Decimal     // reaction time as the slip shows it, s
 	ET   decimal.Decimal     // elapsed time at the finish, s
 	MPH  decimal.NullDecimal // finish-line trap speed, for the margin in feet
-	Foul bool                // boundary or centreline foul
+	Foul bool                // boundary or centerline foul
 }
 
 // LaneResult is what the race made of one lane.
@@ -288,9 +288,9 @@ func explain(o Outcome, f raceFacts, left, right LaneRun) string {
 		return "both lanes fouled: the first to foul loses, and the track's officials decide who that was"
 	case ReasonFoul:
 		if o.Winner == Right {
-			return "left fouled (boundary or centreline)"
+			return "left fouled (boundary or centerline)"
 		}
-		return "right fouled (boundary or centreline)"
+		return "right fouled (boundary or centerline)"
 	case ReasonDoubleBreakout:
 		switch f.OverDial {
 		case 1:

@@ -49,7 +49,7 @@ type Car struct {
 	CdA            float64   `yaml:"cda_m2"`          // drag coefficient × frontal area, m² (0.75)
 	RollingCoeff   float64   `yaml:"rolling_coeff"`   // rolling-resistance coefficient (0.015)
 	WheelbaseIn    float64   `yaml:"wheelbase_in"`    // in (108)
-	CGHeightIn     float64   `yaml:"cg_height_in"`    // centre of gravity above ground, in (20)
+	CGHeightIn     float64   `yaml:"cg_height_in"`    // center of gravity above ground, in (20)
 	RearWeightPct  float64   `yaml:"rear_weight_pct"` // static weight on the rear tires, % (48)
 	TireDiameterIn float64   `yaml:"tire_diameter_in"`
 	Gears          []float64 `yaml:"gears"` // transmission ratios, first gear first

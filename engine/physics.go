@@ -136,7 +136,7 @@ type Params struct {
 	TrackOptF, TrackWidthF float64
 }
 
-// DefaultParams are the prior's centre for a car of induction ind on drag
+// DefaultParams are the prior's center for a car of induction ind on drag
 // radials: what car.yaml says, SAE J607's air law for a natural engine
 // (a boost-controlled turbo or blower about a third to a half of its
 // pressure exponent, from memory; a nitrous shot not at all).
@@ -368,7 +368,7 @@ func Simulate(v *Vehicle, p Params, env Env, distanceFt float64) Run {
 	return run
 }
 
-// timeAt is the time and speed at which the car has travelled s metres.
+// timeAt is the time and speed at which the car has traveled s meters.
 func timeAt(pieces []piece, s float64) (float64, float64) {
 	lo, hi := 0, len(pieces)-1
 	for lo < hi { // the first piece ending at or beyond s

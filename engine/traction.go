@@ -32,7 +32,7 @@ const (
 )
 
 // TireBestF is the surface temperature a tire kind grips best at, °F (the
-// prior's centre; common practice, from memory).
+// prior's center; common practice, from memory).
 func TireBestF(tire string) float64 {
 	switch strings.ToLower(tire) {
 	case "street":

@@ -182,7 +182,7 @@ func (q *request) slipPage(round string) page {
 
 func (s *Server) readingPage(q *request) {
 	p := q.readingPage(q.r.URL.Query().Get("round"))
-	p.Intro = "Grey figures are the last reading's. A bare number is read in the event's units; 28.92inHg or 979hPa also work."
+	p.Intro = "Gray figures are the last reading's. A bare number is read in the event's units; 28.92inHg or 979hPa also work."
 	s.render(q, "form", p, http.StatusOK)
 }
 

@@ -131,7 +131,7 @@ func (s *Server) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 	s.mux.ServeHTTP(w, r)
 }
 
-// request is one authorised request: who sent it and the folder it reads.
+// request is one authorized request: who sent it and the folder it reads.
 type request struct {
 	w      http.ResponseWriter
 	r      *http.Request

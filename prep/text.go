@@ -15,7 +15,7 @@ import (
 // when the terminal's width is not known (piped).
 const Width = 100
 
-// RenderText writes the card for a terminal: go-pretty tables, colour when
+// RenderText writes the card for a terminal: go-pretty tables, color when
 // color is set (a terminal), plain when piped; no line wider than Width; the
 // dial to post in block digits, the most prominent thing on the page.
 func RenderText(w io.Writer, c Card, color bool) error {
@@ -50,7 +50,7 @@ func RenderTextWidth(w io.Writer, c Card, color bool, width int) error {
 	}
 	b.WriteString(line + "\n\n")
 	// The dial box: bold in the terminal's own foreground (or reversed),
-	// never a fixed colour that a light or dark background can swallow.
+	// never a fixed color that a light or dark background can swallow.
 	if v.Stop != "" {
 		writeBlock(&b, blockDigits("STOP"), [5]string{1: "  DO NOT    ", 2: "  POST THE  ", 3: "  DIAL      "}, paint, text.Bold, text.ReverseVideo)
 		b.WriteString(paint(wrap("  "+v.Stop, Width, "    "), text.Bold) + "\n\n")

@@ -69,7 +69,7 @@ type table struct {
 	Title  string
 	Header []string
 	Rows   [][]string
-	Marked int // index of the row to emphasise, or -1
+	Marked int // index of the row to emphasize, or -1
 }
 
 type checkRow struct {
@@ -241,7 +241,7 @@ func newView(c Card) view {
 		}
 		for i, o := range c.Plan.Options {
 			// The row to post is the final dial, after the rules; the
-			// breakout rule's pick is labelled as what it is.
+			// breakout rule's pick is labeled as what it is.
 			var marks []string
 			final := c.HasFinal && o.Dial.Equal(c.FinalDial)
 			switch {

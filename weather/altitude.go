@@ -6,7 +6,7 @@ import "math"
 const (
 	seaLevelTemp     = 288.15    // K
 	seaLevelPressure = 101325.0  // Pa
-	lapseRate        = 0.0065    // K per geopotential metre
+	lapseRate        = 0.0065    // K per geopotential meter
 	pressureExponent = 5.25588   // g·M/(R·L)
 	earthRadius      = 6356766.0 // m, the standard's effective radius for geopotential
 )

@@ -3,7 +3,7 @@
 // pressure, dew point, air density, density altitude, the engine correction
 // factors), and the weather log with its short-term trend.
 //
-// Inside, every quantity is SI in float64 (kelvin, pascal, metre, metre per
+// Inside, every quantity is SI in float64 (kelvin, pascal, meter, meter per
 // second); units are parsed and printed only at the edges, through the Parse
 // and Format functions of each type.
 //

@@ -51,7 +51,7 @@ func (s DayStart) Day(t time.Time) time.Time {
 	y, m, d := t.Date()
 	wall := time.Duration(t.Hour())*time.Hour + time.Duration(t.Minute())*time.Minute + time.Duration(t.Second())*time.Second
 	if wall < time.Duration(s) {
-		d-- // time.Date normalises day 0 to the month before
+		d-- // time.Date normalizes day 0 to the month before
 	}
 	return time.Date(y, m, d, 0, 0, 0, 0, t.Location())
 }
@@ -104,7 +104,7 @@ func LocalTime(y int, mo time.Month, d, h, m, sec int, loc *time.Location, text 
 }
 
 // skipped says which local times a daylight-saving change skipped around
-// t, time.Date's normalisation of a wall clock that does not exist.
+// t, time.Date's normalization of a wall clock that does not exist.
 func skipped(t time.Time, loc *time.Location) string {
 	start, end := t.ZoneBounds()
 	change := end

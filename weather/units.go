@@ -191,13 +191,13 @@ func ParsePressure(s string, bare PressureUnit) (Pressure, error) {
 	return 0, inputErr("pressure", s, "has unknown unit %q (use inHg, hPa, mbar or kPa, e.g. 29.12inHg or 986hPa)", unit)
 }
 
-// Length is a length or altitude in metres.
+// Length is a length or altitude in meters.
 type Length float64
 
 // Feet returns the length f feet.
 func Feet(f float64) Length { return Length(f * MetrePerFt) }
 
-// Metres returns the length m metres.
+// Metres returns the length m meters.
 func Metres(m float64) Length { return Length(m) }
 
 // Feet is the length in ft.
@@ -257,7 +257,7 @@ func ParseLength(s string, bare LengthUnit) (Length, error) {
 	return 0, inputErr("length", s, "has unknown unit %q (use ft or m, e.g. 1850ft or 564m)", unit)
 }
 
-// Speed is a speed in metres per second.
+// Speed is a speed in meters per second.
 type Speed float64
 
 // MPH returns the speed v miles per hour.
@@ -266,7 +266,7 @@ func MPH(v float64) Speed { return Speed(v * MpsPerMph) }
 // KMH returns the speed v kilometres per hour.
 func KMH(v float64) Speed { return Speed(v * MpsPerKmh) }
 
-// MPS returns the speed v metres per second.
+// MPS returns the speed v meters per second.
 func MPS(v float64) Speed { return Speed(v) }
 
 // MPH is the speed in mph.

@@ -110,7 +110,7 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 	var leftOut error // logbook rows that could not be read: reported after the table
 	// post is the dial to post (the card's final, after the crew's rules)
 	// and the checks it must pass; without a round to gather, the breakout
-	// rule's pick labelled as before the rules, and pitcard's own safety
+	// rule's pick labeled as before the rules, and pitcard's own safety
 	// checks on the estimate.
 	var post dialPost
 	switch {
@@ -270,7 +270,7 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 		}
 		if op.Recommended && (!post.hasFinal || op.Dial == j.Post) {
 			mark = post.mark()
-			if o.s.Terminal && o.Format == "text" { // no colour codes in a document
+			if o.s.Terminal && o.Format == "text" { // no color codes in a document
 				dial = text.Colors{text.Bold, text.FgHiWhite, text.BgBlue}.Sprint(" " + dial + " ")
 			}
 		}

@@ -52,7 +52,7 @@ type IOStreams struct {
 	In       io.Reader
 	Out      io.Writer
 	Err      io.Writer
-	Terminal bool             // Out is a terminal: colour is allowed
+	Terminal bool             // Out is a terminal: color is allowed
 	Width    int              // the terminal's columns; 0 when not a terminal (100 is used)
 	Now      func() time.Time // the clock; tests fix it
 	// Stop, when set, ends a long-running command (serve) as an interrupt

@@ -17,7 +17,7 @@ import (
 	"pitcard/prep"
 )
 
-// newTable is a go-pretty table in pitcard's style: light rules, colour only
+// newTable is a go-pretty table in pitcard's style: light rules, color only
 // on a terminal.
 func newTable(s *IOStreams, title string) table.Writer {
 	t := table.NewWriter()
@@ -112,7 +112,7 @@ func bindSettingFlags(cmd *cobra.Command) {
 }
 
 // withOut gives a command that prints a document --out FILE: what it would
-// print is written to FILE instead (atomically, no colour), and the screen
+// print is written to FILE instead (atomically, no color), and the screen
 // gets one line saying so. What the command prints on standard error stays
 // there.
 func withOut(cmd *cobra.Command, s *IOStreams) {

@@ -48,7 +48,7 @@ read (settings tree and rt_zero).`,
 		fl.StringVar(&l.lane.RT, l.name+"-rt", "", l.name+" lane's reaction time, s, as the slip shows it")
 		fl.StringVar(&l.lane.ET, l.name+"-et", "", l.name+" lane's elapsed time at the finish, s")
 		fl.StringVar(&l.lane.MPH, l.name+"-mph", "", l.name+" lane's finish speed, mph (for the margin in feet)")
-		fl.BoolVar(&l.lane.Foul, l.name+"-foul", false, l.name+" lane crossed the boundary or centreline")
+		fl.BoolVar(&l.lane.Foul, l.name+"-foul", false, l.name+" lane crossed the boundary or centerline")
 	}
 	cmd.Flags().String("tree", "", "full or pro (setting tree; default full)")
 	cmd.Flags().String("rt-zero", "", "green (perfect .000, red light negative) or amber (perfect .500 full / .400 pro) (setting rt_zero)")

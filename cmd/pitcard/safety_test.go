@@ -67,7 +67,7 @@ func TestAFailedLimitStopsTheDial(t *testing.T) {
 }
 
 // 'dial' and the card post one number: the final dial after the crew's
-// rules, with the breakout rule's pick labelled as before the rules.
+// rules, with the breakout rule's pick labeled as before the rules.
 func TestDialAndCardPostOneNumber(t *testing.T) {
 	card := mustRun(t, "card", "--demo", "--format", "json")
 	var c struct {

@@ -397,7 +397,7 @@ func TestOutputFitsTheWidth(t *testing.T) {
 	}
 }
 
-// dial --format markdown on a terminal wrote ANSI colour codes into the
+// dial --format markdown on a terminal wrote ANSI color codes into the
 // document.
 func TestNoColourInDocuments(t *testing.T) {
 	for _, args := range [][]string{{"dial", "--demo", "--format", "markdown"}, {"card", "--demo", "--format", "markdown"},
@@ -406,7 +406,7 @@ func TestNoColourInDocuments(t *testing.T) {
 		s := &IOStreams{In: strings.NewReader(""), Out: &out, Err: &errb, Now: func() time.Time { return fixedNow }, Terminal: true, Width: 120}
 		run(args, s)
 		if strings.Contains(out.String(), "\x1b[") {
-			t.Errorf("%v: colour codes in a document", args)
+			t.Errorf("%v: color codes in a document", args)
 		}
 	}
 }

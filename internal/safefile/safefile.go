@@ -2,7 +2,7 @@
 // second pitcard process never leaves one half-written or loses a row: writes
 // go to a temporary file in the same folder, are flushed to disk, and replace
 // the old file by rename, which is atomic on every file system pitcard runs
-// on. The previous version is kept as NAME.bak. Writers serialise on a lock
+// on. The previous version is kept as NAME.bak. Writers serialize on a lock
 // file, NAME.lock, so two processes appending at once both land.
 //
 // A path that is a symbolic link (a logbook shared between folders) is
