@@ -198,7 +198,12 @@ func Calibrate(in CalibrateInput) (Fit, error) {
 	kept := f.Samples[:0:0]
 	for i, s := range f.Samples {
 		if dev[i] > limit {
-			f.Outliers = append(f.Outliers, Outlier{s.Pass, fmt.Sprintf("%+.3f s from the model, beyond the %.3f s the rest scatter within", res[i], limit)})
+			dir := "slower"
+			if res[i] < 0 {
+				dir = "quicker"
+			}
+			f.Outliers = append(f.Outliers, Outlier{s.Pass, fmt.Sprintf("ran %.3f s %s than the model expects in its air, when the other passes stay within %.3f s of it",
+				math.Abs(res[i]), dir, limit)})
 			continue
 		}
 		kept = append(kept, s)

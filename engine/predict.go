@@ -276,8 +276,8 @@ func Predict(f Fit, in PredictInput) Prediction {
 		pr.Leaned = append(pr.Leaned, Leaned{Pass: s.Pass, Share: w[i], ET: s.Obs[fj], Carried: s.Obs[fj] + model.ET[fj] - s.Sim.ET[fj]})
 	}
 	sort.SliceStable(pr.Leaned, func(a, b int) bool { return pr.Leaned[a].Share > pr.Leaned[b].Share })
-	pr.Notes = append(pr.Notes, fmt.Sprintf("calibrated to %d clean passes (%s to %s); the correction leans on the last few (%.1f passes' worth)",
-		len(f.Samples), f.Samples[len(f.Samples)-1].Pass.Time.Format("2006-01-02"), f.Samples[0].Pass.Time.Format("2006-01-02"), kEff))
+	pr.Notes = append(pr.Notes, fmt.Sprintf("calibrated to %d clean passes (%s to %s); the correction leans mostly on the latest %d",
+		len(f.Samples), f.Samples[len(f.Samples)-1].Pass.Time.Format("2006-01-02"), f.Samples[0].Pass.Time.Format("2006-01-02"), max(1, int(math.Round(kEff)))))
 	if extra > 0.0005 {
 		pr.Notes = append(pr.Notes, fmt.Sprintf("today lies outside the conditions of the passes leaned on (%s): the interval is widened by %.3f s",
 			outsideText(pr.Sensitivity), extra))

@@ -235,9 +235,9 @@ func newView(c Card) view {
 
 	// The dial options.
 	if c.PlanErr == nil && len(c.Plan.Options) > 0 {
-		v.Options = table{Title: "Dial options", Header: []string{"Dial", "Breakout", "Given away", ""}, Marked: -1}
+		v.Options = table{Title: "Dial options", Header: []string{"Dial", "Breakout", "Over dial (exp.)", ""}, Marked: -1}
 		if len(c.Win) > 0 {
-			v.Options.Header = []string{"Dial", "Breakout", "Given away", "To win", ""}
+			v.Options.Header = []string{"Dial", "Breakout", "Over dial (exp.)", "To win", ""}
 		}
 		for i, o := range c.Plan.Options {
 			// The row to post is the final dial, after the rules; the

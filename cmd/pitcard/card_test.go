@@ -101,7 +101,7 @@ func TestCardOnASparseFolder(t *testing.T) {
 			t.Errorf("sparse card lacks %q:\n%s", w, out)
 		}
 	}
-	for _, w := range []string{"POST THIS", "Dial options", "given away", "Dial on the window matches the card"} {
+	for _, w := range []string{"POST THIS", "Dial options", "Over dial", "Dial on the window matches the card"} {
 		if strings.Contains(out, w) {
 			t.Errorf("a car with no passes got %q:\n%s", w, out)
 		}
