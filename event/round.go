@@ -491,8 +491,8 @@ func (e *Folder) GatherRound(r RoundRequest, now time.Time) (prep.Input, []strin
 	}
 	weight := 0.0
 	if r.Weight != "" {
-		if _, err := fmt.Sscanf(r.Weight, "%g", &weight); err != nil || weight < 500 || weight > 10000 {
-			return in, nil, &weather.InputError{Field: "--weight", Value: r.Weight, Reason: "is outside 500..10000 lb"}
+		if weight, err = engine.ParseWeightLb("--weight", r.Weight, e.Settings.Units.Weight); err != nil {
+			return in, nil, err
 		}
 	}
 	opponent, usRT, err := r.Opponent.Build(e.Settings, opp, passes)

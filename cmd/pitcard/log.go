@@ -81,7 +81,7 @@ weight to car.yaml's.`,
 	fl.StringVar(&o.ET1, "et1320", "", "quarter-mile ET, s")
 	fl.StringVar(&o.MPH660, "mph660", "", "eighth-mile trap speed, mph")
 	fl.StringVar(&o.MPH1320, "mph1320", "", "quarter-mile trap speed, mph")
-	fl.StringVar(&o.Weight, "weight", "", "car and driver as run, lb (default: car.yaml's weight_lb)")
+	fl.StringVar(&o.Weight, "weight", "", "car and driver as run: 3300lb or 1500kg, a bare number in the crew's units (default: car.yaml's weight_lb)")
 	fl.StringVar(&o.Notes, "notes", "", "free text: lifted, pedaled, new tires ...")
 	fl.StringVar(&o.OppDial, "opponent-dial", "", "the other lane's dial-in from its slip (with --opponent-rt and --opponent-et: what decided the round)")
 	fl.StringVar(&o.OppRT, "opponent-rt", "", "the other lane's reaction time from its slip, s")

@@ -296,7 +296,7 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 	}
 	dial := ""
 	if c.HasFinal && in.Session.Kind == engine.Elimination {
-		dial = dialString(c.FinalDial, e.Settings.DialStep)
+		dial = prep.DialText(c.FinalDial, e.Settings.DialStep)
 	}
 	questions := []struct{ key, question, def string }{
 		{"dial", "Dial-in posted", dial}, {"rt", "Reaction time (.021)", ""}, {"et60", "60 ft", ""}, {"et330", "330 ft", ""},
@@ -354,7 +354,7 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 	if in.Session.Kind == engine.Elimination {
 		oppDial := ""
 		if in.OpponentDial.Valid {
-			oppDial = dialString(in.OpponentDial.Decimal, e.Settings.DialStep)
+			oppDial = prep.DialText(in.OpponentDial.Decimal, e.Settings.DialStep)
 		}
 		check := func(name string) func(string) error {
 			return func(a string) error { return engine.CheckSlipField("rt", name, a) }

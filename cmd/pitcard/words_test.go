@@ -1,0 +1,139 @@
+package main
+
+import (
+	"encoding/json"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// lastLogbookRow is the logbook's last row, split into its columns by name.
+func lastLogbookRow(t *testing.T, dir string) map[string]string {
+	t.Helper()
+	data, err := os.ReadFile(filepath.Join(dir, "logbook.csv"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	lines := strings.Split(strings.TrimSpace(string(data)), "\n")
+	head, last := strings.Split(lines[0], ","), strings.Split(lines[len(lines)-1], ",")
+	row := map[string]string{}
+	for i, h := range head {
+		if i < len(last) {
+			row[h] = last[i]
+		}
+	}
+	return row
+}
+
+// A weight was read three ways: predict took "1500kg" as 1500 lb, card and
+// predict took "3300abc" as 3300, and log add refused "1500kg" as out of
+// range. Every weight now goes through engine.ParseWeightLb: a unit is
+// read, a bare number is in the crew's units, and one message is given.
+func TestOneParserForWeight(t *testing.T) {
+	reading := []string{"--temp", "85F", "--baro", "27.6inHg", "--humidity", "35%"}
+	et660 := func(t *testing.T, weight string) float64 {
+		t.Helper()
+		out := mustRun(t, append([]string{"predict", "--demo", "--format", "json", "--weight", weight}, reading...)...)
+		var j struct {
+			Timers []struct {
+				DistanceFt float64 `json:"distance_ft"`
+				ET         float64 `json:"et"`
+			} `json:"timers"`
+		}
+		if err := json.Unmarshal([]byte(out), &j); err != nil {
+			t.Fatal(err)
+		}
+		for _, x := range j.Timers {
+			if x.DistanceFt == 660 {
+				return x.ET
+			}
+		}
+		t.Fatalf("no 660 ft timer:\n%s", out)
+		return 0
+	}
+	t.Run("predict reads kg", func(t *testing.T) {
+		// 1500 kg = 3306.934 lb (1 lb = 0.45359237 kg exactly, by definition)
+		if kg, lb, light := et660(t, "1500kg"), et660(t, "3306.934lb"), et660(t, "1500lb"); kg != lb || kg == light {
+			t.Errorf("660 ft ET: 1500kg %.3f, 3306.934lb %.3f, 1500lb %.3f", kg, lb, light)
+		}
+	})
+	t.Run("metric crew's bare number is kg", func(t *testing.T) {
+		out := mustRun(t, append([]string{"predict", "--demo", "--units", "metric", "--format", "json", "--weight", "1500"}, reading...)...)
+		kgOut := mustRun(t, append([]string{"predict", "--demo", "--units", "metric", "--format", "json", "--weight", "1500kg"}, reading...)...)
+		if out != kgOut {
+			t.Errorf("a metric crew's --weight 1500 is not 1500 kg")
+		}
+	})
+	dir := demoCopy(t)
+	slip := []string{"log", "add", "--dir", dir, "--session", "E9", "--lane", "left", "--et1320", "11.5"}
+	for _, tc := range []struct {
+		name  string
+		args  []string
+		code  int
+		words []string
+	}{
+		{"card refuses a stray unit", []string{"card", "--demo", "--weight", "3300abc"}, 2, []string{"--weight", `"3300abc"`, `unknown unit "abc"`, "lb or kg"}},
+		{"predict refuses a stray unit", append([]string{"predict", "--demo", "--weight", "3300abc"}, reading...), 2, []string{"--weight", `unknown unit "abc"`}},
+		{"log add refuses a stray unit", append(append([]string{}, slip...), "--weight", "3300abc"), 2, []string{"--weight", `unknown unit "abc"`}},
+		{"one range message", append(append([]string{}, slip...), "--weight", "50"), 2, []string{"--weight", "is outside 500..10000 lb (227..4536 kg)"}},
+		{"the same for predict", append([]string{"predict", "--demo", "--weight", "50kg"}, reading...), 2, []string{"--weight", "is outside 500..10000 lb (227..4536 kg)"}},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			out, errs, code := pitcard(t, tc.args...)
+			if code != tc.code {
+				t.Fatalf("exit %d, want %d\n%s%s", code, tc.code, out, errs)
+			}
+			for _, w := range tc.words {
+				if !strings.Contains(errs, w) {
+					t.Errorf("%q lacks %q", errs, w)
+				}
+			}
+		})
+	}
+	t.Run("log add reads kg", func(t *testing.T) {
+		mustRun(t, append(append([]string{}, slip...), "--weight", "1500kg")...)
+		if w := lastLogbookRow(t, dir)["weight_lb"]; !strings.HasPrefix(w, "3306.9") {
+			t.Errorf("1500kg logged as weight_lb %s, want 3306.9", w)
+		}
+	})
+	t.Run("log add: a metric crew's bare number is kg", func(t *testing.T) {
+		mustRun(t, "log", "add", "--dir", dir, "--units", "metric", "--session", "E8", "--lane", "right", "--et1320", "11.5", "--weight", "1500")
+		if w := lastLogbookRow(t, dir)["weight_lb"]; !strings.HasPrefix(w, "3306.9") {
+			t.Errorf("metric 1500 logged as weight_lb %s, want 3306.9", w)
+		}
+	})
+}
+
+// A dial was printed three ways: with --dial-step 0.005 the other lane's
+// 10.125 came out as 10.13 in one place and 10.125 in another. Every dial
+// now goes through prep.DialText, which knows the step and never rounds a
+// dial typed finer than it.
+func TestOneFormatterForADial(t *testing.T) {
+	for _, tc := range []struct {
+		name       string
+		args       []string
+		want, lack []string
+	}{
+		{"dial", []string{"dial", "--demo", "--dial-step", "0.005", "--opponent-dial", "10.125"},
+			[]string{"Against the other lane's 10.125:"}, []string{"10.13"}},
+		{"dial, coarse step", []string{"dial", "--demo", "--opponent-dial", "10.125"},
+			[]string{"Against the other lane's 10.125:"}, []string{"10.13"}},
+		{"dial json", []string{"dial", "--demo", "--dial-step", "0.005", "--opponent-dial", "10.125", "--format", "json"},
+			[]string{`"recommended_dial": "11.415"`}, nil},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			out := mustRun(t, tc.args...)
+			for _, w := range tc.want {
+				if !strings.Contains(out, w) {
+					t.Errorf("lacks %q:\n%s", w, out)
+				}
+			}
+			for _, w := range tc.lack {
+				if strings.Contains(out, w) {
+					t.Errorf("still says %q:\n%s", w, out)
+				}
+			}
+		})
+	}
+}
