@@ -194,6 +194,9 @@ nothing is written. 'pitcard log diff FILE' shows the same without writing.`,
 				return err
 			}
 			source, err := o.maps.source(o.s, e, args[0], colmap.Logbook)
+			if errors.Is(err, errOnlyTheMap) {
+				return nil
+			}
 			if err != nil {
 				return err
 			}
