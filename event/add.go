@@ -65,7 +65,7 @@ func (e *Folder) AddReading(nr NewReading, now time.Time) (AddedReading, error) 
 		return out, err
 	}
 	r.Note = nr.Notes
-	if err := ValidateFields(r, elev); err != nil {
+	if err := ValidateFields(r, elev, e.Settings.Units); err != nil {
 		return out, err
 	}
 	if w := r.PressureWarning(elev); w != "" {
@@ -178,7 +178,7 @@ func (e *Folder) AddPass(np NewPass, now time.Time) (LoggedPass, error) {
 		if err != nil {
 			return out, err
 		}
-		if err := ValidateFields(r, elev); err != nil {
+		if err := ValidateFields(r, elev, e.Settings.Units); err != nil {
 			return out, err
 		}
 		a := r.Derive(elev)

@@ -4,6 +4,7 @@ import (
 	"encoding/json"
 	"os"
 	"path/filepath"
+	"regexp"
 	"strings"
 	"testing"
 )
@@ -133,6 +134,61 @@ func TestOneFormatterForADial(t *testing.T) {
 				if strings.Contains(out, w) {
 					t.Errorf("still says %q:\n%s", w, out)
 				}
+			}
+		})
+	}
+}
+
+// The guided round asked an eighth-mile car for its "1/4 mile ET", asked
+// for the other lane's dial on a time trial, and told a metric crew its
+// 68 (°C) was "outside -40..140 °F".
+func TestRoundAsksWhatTheRoundHas(t *testing.T) {
+	keep := strings.Repeat("\n", 6) // the readings: keep the last
+	t.Run("eighth-mile car", func(t *testing.T) {
+		dir := demoCopy(t)
+		editFile(t, dir, "car.yaml", func(s string) string {
+			return regexp.MustCompile(`(?m)^distance_ft:.*$`).ReplaceAllString(s, "distance_ft: 660")
+		})
+		// round, readings, lane, the other lane's dial, run it, then the slip
+		answers := "E4\n" + keep + "left\n\n\n\n.024\n1.611\n4.681\n7.301\n93.81\n\n"
+		out, errs, _ := pitcardIn(t, answers, "round", "--dir", dir)
+		_, slip, _ := strings.Cut(out, "Run the round") // the slip's questions, after the card
+		if !strings.Contains(slip, "1/8 mile ET") || strings.Contains(slip, "1/4 mile") || strings.Contains(slip, "1000 ft") {
+			t.Errorf("an eighth-mile car's slip questions:\n%s\n%s", out, errs)
+		}
+	})
+	t.Run("time trial", func(t *testing.T) {
+		dir := demoCopy(t)
+		out, errs, _ := pitcardIn(t, "T4\n"+keep+"left\n", "round", "--dir", dir, "--no-log")
+		if strings.Contains(out, "Other lane") || strings.Contains(out, "Opponent") || !strings.Contains(out, "Lane (left or right)") {
+			t.Errorf("a time trial asks for the other lane:\n%s\n%s", out, errs)
+		}
+	})
+	t.Run("metric crew", func(t *testing.T) {
+		dir := demoCopy(t)
+		out, _, code := pitcardIn(t, "E4\n68\n68\n68\n", "round", "--dir", dir, "--units", "metric", "--no-log")
+		if code != 2 || !strings.Contains(out, "-40..60 °C") || strings.Contains(out, "°F") {
+			t.Errorf("exit %d; a metric crew's temperature:\n%s", code, out)
+		}
+	})
+}
+
+// A metric crew's bare --temp 68 is read as 68 °C, and the message says so
+// in °C: it said "154.4 °F is outside -40..140 °F".
+func TestReadingRangesInTheCrewsUnits(t *testing.T) {
+	for _, tc := range []struct {
+		name string
+		args []string
+		want string
+	}{
+		{"air", []string{"air", "--demo", "--units", "metric", "--temp", "68", "--baro", "980", "--humidity", "40"}, `--temp "68 °C" is outside -40..60 °C`},
+		{"predict", []string{"predict", "--demo", "--units", "metric", "--temp", "68", "--baro", "980", "--humidity", "40"}, `--temp "68 °C" is outside -40..60 °C`},
+		{"imperial as before", []string{"air", "--demo", "--temp", "168", "--baro", "28", "--humidity", "40"}, `--temp "168 °F" is outside -40..140 °F`},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			_, errs, code := pitcard(t, tc.args...)
+			if code != 2 || !strings.Contains(errs, tc.want) {
+				t.Errorf("exit %d %q, want %q", code, errs, tc.want)
 			}
 		})
 	}
