@@ -79,7 +79,7 @@ type eventFolder = event.Folder
 // environment > pitcard.yaml > defaults.
 func (g *globalOptions) open(cmd *cobra.Command) (*eventFolder, error) {
 	o := event.OpenOptions{Dir: g.Dir, Demo: g.Demo, CarFile: g.CarFile, TrackFile: g.TrackFile, LogbookFile: g.LogbookFile,
-		Set: map[string]string{}, Env: os.Getenv}
+		Set: map[string]string{}, Env: os.Getenv, Environ: os.Environ}
 	for _, key := range []string{"units", "dial_step", "breakout_risk", "tree", "rt_zero"} {
 		if f := cmd.Flag(strings.ReplaceAll(key, "_", "-")); f != nil && f.Changed {
 			o.Set[key] = f.Value.String()

@@ -193,3 +193,48 @@ func TestReadingRangesInTheCrewsUnits(t *testing.T) {
 		})
 	}
 }
+
+// Settings each get the clear word: PITCARD_DIAL_STEP=1e-2 was refused while
+// dial_step: 1e-2 was taken (one parser now reads both); a setting that is
+// not a number said "outside" a range; units: [metric] and a misspelt
+// PITCARD_ variable were silently ignored.
+func TestSettingsWords(t *testing.T) {
+	for _, tc := range []struct {
+		name      string
+		env, yaml string // a variable NAME=VALUE, a line for pitcard.yaml
+		code      int
+		want      []string
+	}{
+		{"env step in e-notation", "PITCARD_DIAL_STEP=1e-2", "", 0, []string{"Dial-ins (step 0.01 s"}},
+		{"yaml step in e-notation", "", "dial_step: 1e-2", 0, []string{"Dial-ins (step 0.01 s"}},
+		{"env step 0.010", "PITCARD_DIAL_STEP=0.010", "", 0, []string{"Recommended dial: 11.41 "}},
+		{"env risk not a number", "PITCARD_BREAKOUT_RISK=abc", "", 2, []string{"PITCARD_BREAKOUT_RISK", `"abc" is not a number`, "0.001..0.5"}},
+		{"yaml risk not a number", "", "breakout_risk: abc", 2, []string{"pitcard.yaml line", "breakout_risk", "is not a number"}},
+		{"env rule time not a number", "PITCARD_RULE_TIME_MS=fast", "", 2, []string{"PITCARD_RULE_TIME_MS", "is not a number", "10..10000 ms"}},
+		{"units as a list", "", "units: [metric]", 2, []string{"pitcard.yaml line", "units", "a list", "units: imperial"}},
+		{"misspelt variable", "PITCARD_DIAL_SETP=0.01", "", 2, []string{"PITCARD_DIAL_SETP", "not a pitcard setting", "PITCARD_DIAL_STEP", "PITCARD_UNITS"}},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			dir := demoCopy(t)
+			if tc.env != "" {
+				k, v, _ := strings.Cut(tc.env, "=")
+				t.Setenv(k, v)
+			}
+			if tc.yaml != "" {
+				key, _, _ := strings.Cut(tc.yaml, ":")
+				editFile(t, dir, "pitcard.yaml", func(s string) string {
+					return regexp.MustCompile(`(?m)^`+key+`:.*$`).ReplaceAllString(s, "") + tc.yaml + "\n"
+				})
+			}
+			out, errs, code := pitcard(t, "dial", "--dir", dir)
+			if code != tc.code {
+				t.Fatalf("exit %d, want %d\n%s%s", code, tc.code, out, errs)
+			}
+			for _, w := range tc.want {
+				if !strings.Contains(out+errs, w) {
+					t.Errorf("lacks %q:\n%s%s", w, out, errs)
+				}
+			}
+		})
+	}
+}
