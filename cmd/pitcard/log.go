@@ -465,7 +465,7 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 				}
 				return fmt.Sprint(*v)
 			}
-			rows := [][]string{{"day", "sessions", "passes", "clean", "finish_ft", "et_mean", "et_sd", "et_min", "et_max", "rt_mean", "rt_sd", "sixty_sd", "corrected_sd", "consistency"}}
+			rows := [][]string{{"day", "sessions", "passes", "clean", "finish_ft", "et_mean", "et_sd", "et_min", "et_max", "rt_mean", "rt_sd", "et60_sd", "et_sd_corrected", "consistency"}} // the JSON's names
 			for _, x := range out {
 				rows = append(rows, []string{x.Day, x.Sessions, fmt.Sprint(x.Passes), fmt.Sprint(x.Clean), fmt.Sprint(x.FinishFt), opt(x.ETMean), opt(x.ETSD),
 					opt(x.ETMin), opt(x.ETMax), opt(x.RTMean), opt(x.RTSD), opt(x.SixtySD), opt(x.CorrectedSD), x.Consistency})

@@ -238,3 +238,22 @@ func TestSettingsWords(t *testing.T) {
 		})
 	}
 }
+
+// log stats named one figure two ways: sixty_sd/corrected_sd in its CSV and
+// et60_sd/et_sd_corrected in its JSON. One name each now, the JSON's.
+func TestStatsNamesAgree(t *testing.T) {
+	csvHead, _, _ := strings.Cut(mustRun(t, "log", "stats", "--demo", "--format", "csv"), "\n")
+	var rows []map[string]any
+	if err := json.Unmarshal([]byte(mustRun(t, "log", "stats", "--demo", "--format", "json")), &rows); err != nil || len(rows) == 0 {
+		t.Fatal(err)
+	}
+	cols := strings.Split(csvHead, ",")
+	if len(cols) != len(rows[0]) {
+		t.Errorf("CSV has %d columns, JSON %d keys", len(cols), len(rows[0]))
+	}
+	for _, c := range cols {
+		if _, ok := rows[0][c]; !ok {
+			t.Errorf("CSV column %q is not a JSON key", c)
+		}
+	}
+}
