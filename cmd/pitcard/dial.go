@@ -231,7 +231,8 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 		if op.Recommended {
 			mark = "← post this"
 			if o.s.Terminal && o.Format == "text" { // no colour codes in a document
-				dial = text.Colors{text.Bold, text.FgHiWhite, text.BgBlue}.Sprint(" " + dial + " ")
+				// A space before only: a space after would shift the dial left of the others in its right-aligned column.
+				dial = text.Colors{text.Bold, text.FgHiWhite, text.BgBlue}.Sprint(" " + dial)
 			}
 		}
 		if j.BestForWin != nil && op.Dial == j.BestForWin.Dial {
@@ -245,7 +246,7 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 	}
 	configs := alignRight(1, len(header)-1)
 	render(o.s, t, o.Format, configs...)
-	fmt.Fprintf(o.s.Out, "Recommended dial: %s (the slowest dial with at most a %.0f %% chance of breaking out).\n", j.Recommended, plan.Risk*100)
+	fmt.Fprintln(o.s.Out, prep.Wrap(fmt.Sprintf("Recommended dial: %s (the slowest dial with at most a %.0f %% chance of breaking out).", j.Recommended, plan.Risk*100), o.s.width(), "  "))
 	if opp != nil {
 		fmt.Fprintln(o.s.Out, prep.Wrap(fmt.Sprintf("Against the other lane's %s: %s; the dial that wins most is %s (%.1f %% to win). Chances from %d races drawn per dial, good to ±0.5 points.",
 			prep.DialText(opp.Dial, plan.Step), prep.HeadStartWords(plan.Recommended, opp.Dial), j.BestForWin.Dial, 100*j.BestForWin.WinChance, engine.WinDraws), o.s.width(), "  "))

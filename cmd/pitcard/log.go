@@ -317,7 +317,14 @@ func logListRun(cmd *cobra.Command, o *logListOptions) error {
 	if o.Wide {
 		header = table.Row{"Date", "Time", "Session", "Lane", "Dial", "RT", "60 ft", "330", "1/8", "mph", "1000", "1/4", "mph", "DA", "Notes"}
 	}
+	// Narrower than the list with its notes (a terminal under 100 columns):
+	// the notes go under the table, each with its pass.
+	notesBelow := o.Format == "text" && o.s.width() < prep.Width
+	if notesBelow {
+		header = header[:len(header)-1]
+	}
 	t.AppendHeader(header)
+	var below []string
 	for _, p := range passes {
 		da := ""
 		if p.HasAir {
@@ -333,13 +340,24 @@ func logListRun(cmd *cobra.Command, o *logListOptions) error {
 				row = append(row, sec(p.MPH660, 2))
 			}
 		}
-		row = append(row, sec(p.MPH1320, 2), strings.TrimSuffix(da, " ft"), p.Notes)
+		row = append(row, sec(p.MPH1320, 2), strings.TrimSuffix(da, " ft"))
+		if !notesBelow {
+			row = append(row, p.Notes)
+		} else if p.Notes != "" {
+			below = append(below, prep.Wrap(fmt.Sprintf("%s %s: %s", p.Time.Format("2006-01-02 15:04"), p.Session, p.Notes), o.s.width(), "  "))
+		}
 		t.AppendRow(row)
 	}
 	n := len(header)
 	configs := append([]table.ColumnConfig{{Number: n, WidthMax: 16}}, alignRight(5, n-1)...)
+	if notesBelow {
+		configs = alignRight(5, n)
+	}
 	compact(t)
 	render(o.s, t, o.Format, configs...)
+	if len(below) > 0 {
+		fmt.Fprintln(o.s.Out, "Notes:\n"+strings.Join(below, "\n"))
+	}
 	if o.Format == "text" {
 		fmt.Fprintf(o.s.Out, "Session: T time trial, E elimination round. DA: density altitude, %s.\n--wide adds the 330 and 1000 ft timers.\n", u.Length)
 	}
@@ -486,7 +504,10 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 		return leftOut
 	}
 	t := newTable(o.s, "Consistency by day and session")
-	t.AppendHeader(table.Row{"Day", "Sessions", "Passes", "ET\nmean", "ET\nspread", "spread\ncorrected", "RT\nmean", "RT\nspread", "60 ft\nspread", "Consistency"})
+	// The day and its sessions share a column (the day's date on the row of
+	// all its passes):
+	// the table fits an 80-column terminal.
+	t.AppendHeader(table.Row{"Day,\nsessions", "Passes", "ET\nmean", "ET\nspread", "spread\ncorrected", "RT\nmean", "RT\nspread", "60 ft\nspread", "Consistency"})
 	f3 := func(v float64, ok bool) string {
 		if !ok {
 			return ""
@@ -494,26 +515,26 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 		return fmt.Sprintf("%.3f", v)
 	}
 	for _, s := range stats {
-		day, sessions := "", " "+s.Kind.String()
+		day := s.Kind.String()
 		if s.All {
-			day, sessions = s.Day.Format("2006-01-02"), "all"
+			day = s.Day.Format("2006-01-02")
 			t.AppendSeparator()
 		}
 		passes := fmt.Sprint(s.Passes)
 		if s.Clean != s.Passes {
 			passes = fmt.Sprintf("%d (%d ok)", s.Passes, s.Clean)
 		}
-		t.AppendRow(table.Row{day, sessions, passes, f3(s.ETMean, s.Clean > 0), f3(s.ETSD, s.Clean > 1), f3(s.CorrectedSD, s.CorrectedN > 1),
+		t.AppendRow(table.Row{day, passes, f3(s.ETMean, s.Clean > 0), f3(s.ETSD, s.Clean > 1), f3(s.CorrectedSD, s.CorrectedN > 1),
 			f3(s.RTMean, s.RTN > 0), f3(s.RTSD, s.RTN > 1), f3(s.SixtySD, s.SixtyN > 1), judge(s)})
 	}
-	configs := alignRight(4, 9)
+	configs := alignRight(3, 8)
 	compact(t)
 	render(o.s, t, o.Format, configs...)
+	note := "Spreads are one standard deviation, as run (no car.yaml or no weather in the logbook): the air moving through a day counts as scatter."
 	if corrected {
-		fmt.Fprintln(o.s.Out, "Spreads are one standard deviation. Corrected: the ET spread once the air and track of each pass are\ntaken out (each ET less the calibrated model's for its conditions); consistency is judged on it.")
-	} else {
-		fmt.Fprintln(o.s.Out, "Spreads are one standard deviation, as run (no car.yaml or no weather in the logbook): the air moving\nthrough a day counts as scatter.")
+		note = "Spreads are one standard deviation. Corrected: the ET spread once the air and track of each pass are taken out (each ET less the calibrated model's for its conditions); consistency is judged on it."
 	}
+	fmt.Fprintln(o.s.Out, prep.Wrap(note, o.s.width(), ""))
 	fmt.Fprintln(o.s.Out, "Very consistent (≤ 0.015 s): dial it with confidence. Consistent (≤ 0.030).\nSome scatter (≤ 0.060): check the notes, tires, routine.\nInconsistent: look for lifted or spinning runs.")
 	if days := countDays(stats); days > 30 && o.Since == "" && o.Last == 0 {
 		fmt.Fprintf(o.s.Err, "pitcard: %d days shown: bound them with --since DATE, --last N or --track NAME\n", days)
