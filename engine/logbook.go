@@ -492,12 +492,13 @@ func ParsePass(f SlipFields, loc *time.Location) (Pass, error) {
 		return p, err
 	}
 	if v := get("weight_lb"); v != "" {
-		w, err := strconv.ParseFloat(v, 64)
+		bare := weather.UnitLb
 		if f.Metric["weight_lb"] {
-			w /= weather.KgPerLb
+			bare = weather.UnitKg
 		}
-		if err != nil || !(w >= 500 && w <= 10000) {
-			return p, &weather.InputError{Field: name("weight_lb"), Value: v, Reason: "is outside 500..10000 lb (227..4536 kg)"}
+		w, err := ParseWeightLb(name("weight_lb"), v, bare)
+		if err != nil {
+			return p, err
 		}
 		p.WeightLb = w
 	}

@@ -66,7 +66,7 @@ func (e *Folder) AddReading(nr NewReading, now time.Time) (AddedReading, error) 
 		return out, err
 	}
 	r.Note = nr.Notes
-	if err := ValidateFields(r, elev); err != nil {
+	if err := ValidateFields(r, elev, e.Settings.Units); err != nil {
 		return out, err
 	}
 	if w := r.PressureWarning(elev); w != "" {
@@ -137,17 +137,18 @@ func (e *Folder) AddPass(np NewPass, now time.Time) (LoggedPass, error) {
 		}
 		track = trk.Name
 	}
-	weight := np.Weight
+	// A weight typed without a unit is in the crew's units; car.yaml's is lb.
+	weight, weightMetric := np.Weight, e.Settings.Units.Weight == weather.UnitKg
 	if weight == "" {
 		if car, err := e.Car(); err == nil {
-			weight = fmt.Sprint(car.WeightLb)
+			weight, weightMetric = fmt.Sprint(car.WeightLb), false
 		}
 	}
 	f := engine.SlipFields{Values: map[string]string{
 		"date": date, "time": clock, "track": track, "session": np.Session, "lane": np.Lane,
 		"dial": np.Dial, "rt": np.RT, "et60": np.ET60, "et330": np.ET330, "et660": np.ET660, "et1000": np.ET1000, "et1320": np.ET1,
 		"mph660": np.MPH660, "mph1320": np.MPH1320, "weight_lb": weight, "notes": np.Notes,
-	}, Names: map[string]string{}}
+	}, Names: map[string]string{}, Metric: map[string]bool{"weight_lb": weightMetric}}
 	for c := range f.Values {
 		f.Names[c] = "--" + strings.ReplaceAll(strings.TrimSuffix(c, "_lb"), "_", "-")
 	}
@@ -188,7 +189,7 @@ func (e *Folder) AddPass(np NewPass, now time.Time) (LoggedPass, error) {
 		if err != nil {
 			return out, err
 		}
-		if err := ValidateFields(r, elev); err != nil {
+		if err := ValidateFields(r, elev, e.Settings.Units); err != nil {
 			return out, err
 		}
 		a := r.Derive(elev)

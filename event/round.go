@@ -162,9 +162,10 @@ func FlagErr(err error, flag string) error {
 	return err
 }
 
-// validateFlags checks a reading and names the flags in its error.
-func ValidateFields(r weather.Reading, h weather.Length) error {
-	err := r.Validate(h)
+// ValidateFields checks a reading and names the flags in its error, with
+// the value and its range in the crew's units u.
+func ValidateFields(r weather.Reading, h weather.Length, u weather.Units) error {
+	err := r.ValidateIn(h, u)
 	var ie *weather.InputError
 	if errors.As(err, &ie) {
 		return ie.Named("--" + ie.Field)
@@ -484,7 +485,7 @@ func (e *Folder) GatherRound(r RoundRequest, now time.Time) (prep.Input, []strin
 		return in, nil, userErrf("no air for the round: %s has no readings; add one with 'pitcard weather add' or give --temp, --baro and --humidity",
 			e.Name(WeatherFile))
 	}
-	if err := ValidateFields(air, elev); err != nil {
+	if err := ValidateFields(air, elev, e.Settings.Units); err != nil {
 		return in, nil, err
 	}
 	if w := air.PressureWarning(elev); w != "" {
@@ -497,8 +498,8 @@ func (e *Folder) GatherRound(r RoundRequest, now time.Time) (prep.Input, []strin
 	}
 	weight := 0.0
 	if r.Weight != "" {
-		if _, err := fmt.Sscanf(r.Weight, "%g", &weight); err != nil || weight < 500 || weight > 10000 {
-			return in, nil, &weather.InputError{Field: "--weight", Value: r.Weight, Reason: "is outside 500..10000 lb"}
+		if weight, err = engine.ParseWeightLb("--weight", r.Weight, e.Settings.Units.Weight); err != nil {
+			return in, nil, err
 		}
 	}
 	opponent, usRT, err := r.Opponent.Build(e.Settings, opp, passes)

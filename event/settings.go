@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"io/fs"
 	"os"
+	"slices"
 	"sort"
 	"strings"
 	"time"
@@ -68,6 +69,51 @@ type OpenOptions struct {
 	// times, a time typed); nil is time.Local. A front end passes its
 	// clock's zone, so one zone serves the clock and the files.
 	Loc *time.Location
+	// Environ lists the environment (os.Environ), so a misspelt PITCARD_
+	// variable is refused instead of silently ignored. nil: not checked.
+	Environ func() []string
+}
+
+// OtherVariables are the PITCARD_ variables a crew may set that are not
+// settings.
+var OtherVariables = []string{"PITCARD_DIR"}
+
+// developerVariables steer pitcard's own tests and tools (DEVELOPERS.md):
+// passed over, and not offered to a crew.
+var developerVariables = []string{"PITCARD_LOAD_PACE", "PITCARD_SHOTS", "PITCARD_TRUTH_SEED", "PITCARD_ABLATE", "PITCARD_ABLATION",
+	"PITCARD_SCORE_OUT", "PITCARD_CRASH_CHILD", "PITCARD_WRITER_CHILD", "PITCARD_WRITER_HOUR"}
+
+// checkVariables refuses a PITCARD_ variable that names no setting: a
+// misspelt one (PITCARD_DIAL_SETP) would otherwise be silently ignored.
+func checkVariables(environ []string) error {
+	for _, kv := range environ {
+		name, _, _ := strings.Cut(kv, "=")
+		if !strings.HasPrefix(name, "PITCARD_") || slices.Contains(OtherVariables, name) || slices.Contains(developerVariables, name) {
+			continue
+		}
+		if _, ok := SettingDefaults[strings.ToLower(strings.TrimPrefix(name, "PITCARD_"))]; ok {
+			continue
+		}
+		known := append([]string(nil), OtherVariables...)
+		for key := range SettingDefaults {
+			known = append(known, "PITCARD_"+strings.ToUpper(key))
+		}
+		sort.Strings(known)
+		return userErrf("environment variable %s is not a pitcard setting (known: %s): unset it or correct its name", name, strings.Join(known, ", "))
+	}
+	return nil
+}
+
+// settingNumber reads a numeric setting's text, one way whatever its source
+// (a flag, PITCARD_*, pitcard.yaml): "0.01", "1e-2". Text that is not a
+// number is said to be so, with the range it should be in.
+func settingNumber(key, text, valid string) (decimal.Decimal, error) {
+	d, err := decimal.NewFromString(strings.TrimSpace(text))
+	if err != nil {
+		return d, &weather.InputError{Field: key, Value: text, Reason: "is not a number (" + valid + ")"}
+	}
+	// The same value however typed: 0.010 and 1e-2 are the step 0.01.
+	return decimal.RequireFromString(d.String()), nil
 }
 
 // Open opens an event folder (or the demo) and reads its settings: the
@@ -87,6 +133,11 @@ func Open(o OpenOptions) (*Folder, error) {
 			return nil, fmt.Errorf("event folder %q: %w", o.Dir, err)
 		}
 		e.Dir, e.FS = o.Dir, os.DirFS(o.Dir)
+	}
+	if o.Environ != nil {
+		if err := checkVariables(o.Environ()); err != nil {
+			return nil, err
+		}
 	}
 	v := viper.New()
 	for k, d := range SettingDefaults {
@@ -141,15 +192,23 @@ func Open(o OpenOptions) (*Folder, error) {
 	if s.Units, err = weather.ParseUnits(v.GetString("units")); err != nil {
 		return nil, settingErr("units", err)
 	}
-	step, err := engine.ParseSeconds("dial_step", v.GetString("dial_step"))
-	if err != nil || step.LessThan(decimal.New(1, -3)) || step.GreaterThan(decimal.New(1, -1)) {
+	step, err := settingNumber("dial_step", v.GetString("dial_step"), "0.001..0.1 s")
+	if err != nil {
+		return nil, settingErr("dial_step", err)
+	}
+	if step.LessThan(decimal.New(1, -3)) || step.GreaterThan(decimal.New(1, -1)) {
 		return nil, settingErr("dial_step", &weather.InputError{Field: "dial_step", Value: v.GetString("dial_step"), Reason: "is outside 0.001..0.1 s"})
 	}
 	s.DialStep = step
-	s.BreakoutRisk = v.GetFloat64("breakout_risk")
+	riskWords := fmt.Sprintf("%g..%g, a fraction: 0.10 accepts a 10 %% breakout chance", engine.RiskRange[0], engine.RiskRange[1])
+	risk, err := settingNumber("breakout_risk", v.GetString("breakout_risk"), riskWords)
+	if err != nil {
+		return nil, settingErr("breakout_risk", err)
+	}
+	s.BreakoutRisk = risk.InexactFloat64()
 	if r := s.BreakoutRisk; !(r >= engine.RiskRange[0] && r <= engine.RiskRange[1]) {
 		return nil, settingErr("breakout_risk", &weather.InputError{Field: "breakout_risk", Value: v.GetString("breakout_risk"),
-			Reason: fmt.Sprintf("is outside %g..%g (a fraction: 0.10 accepts a 10 %% breakout chance)", engine.RiskRange[0], engine.RiskRange[1])})
+			Reason: "is outside " + strings.Replace(riskWords, ", ", " (", 1) + ")"})
 	}
 	if s.Tree, err = engine.ParseTree(v.GetString("tree")); err != nil {
 		return nil, settingErr("tree", err)
@@ -157,14 +216,30 @@ func Open(o OpenOptions) (*Folder, error) {
 	if s.RTZero, err = engine.ParseRTZero(v.GetString("rt_zero")); err != nil {
 		return nil, settingErr("rt_zero", err)
 	}
-	adj, err := engine.ParseSeconds("max_rule_adjust", v.GetString("max_rule_adjust"))
-	if err != nil || adj.IsNegative() || adj.GreaterThan(decimal.NewFromInt(1)) {
+	adj, err := settingNumber("max_rule_adjust", v.GetString("max_rule_adjust"), "0..1 s")
+	if err != nil {
+		return nil, settingErr("max_rule_adjust", err)
+	}
+	if adj.IsNegative() || adj.GreaterThan(decimal.NewFromInt(1)) {
 		return nil, settingErr("max_rule_adjust", &weather.InputError{Field: "max_rule_adjust", Value: v.GetString("max_rule_adjust"), Reason: "is outside 0..1 s"})
 	}
 	s.MaxAdjust = adj
 	lim := scripts.DefaultLimits
 	lim.DialStep = step
-	ms, mib := v.GetInt("rule_time_ms"), v.GetInt("rule_memory_mib")
+	var ms, mib, age int
+	for _, x := range []struct {
+		key, valid string
+		dst        *int
+	}{{"rule_time_ms", "10..10000 ms", &ms}, {"rule_memory_mib", "4..256 MiB", &mib}, {"reading_max_age_min", "5..1440 minutes", &age}} {
+		n, err := settingNumber(x.key, v.GetString(x.key), x.valid)
+		if err != nil {
+			return nil, settingErr(x.key, err)
+		}
+		if !n.IsInteger() {
+			return nil, settingErr(x.key, &weather.InputError{Field: x.key, Value: v.GetString(x.key), Reason: "is not a whole number (" + x.valid + ")"})
+		}
+		*x.dst = int(n.IntPart())
+	}
 	if ms < 10 || ms > 10000 {
 		return nil, settingErr("rule_time_ms", &weather.InputError{Field: "rule_time_ms", Value: v.GetString("rule_time_ms"), Reason: "is outside 10..10000 ms"})
 	}
@@ -173,12 +248,15 @@ func Open(o OpenOptions) (*Folder, error) {
 	}
 	lim.Time, lim.Memory = time.Duration(ms)*time.Millisecond, int64(mib)<<20
 	s.RuleLimits = lim
-	age := v.GetInt("reading_max_age_min")
 	if age < 5 || age > 24*60 {
 		return nil, settingErr("reading_max_age_min", &weather.InputError{Field: "reading_max_age_min", Value: v.GetString("reading_max_age_min"), Reason: "is outside 5..1440 minutes"})
 	}
 	s.MaxReadingAge = time.Duration(age) * time.Minute
-	if s.CrossCheckMax = v.GetFloat64("cross_check_max_s"); !(s.CrossCheckMax >= 0.01 && s.CrossCheckMax <= 1) {
+	cross, err := settingNumber("cross_check_max_s", v.GetString("cross_check_max_s"), "0.01..1 s")
+	if err != nil {
+		return nil, settingErr("cross_check_max_s", err)
+	}
+	if s.CrossCheckMax = cross.InexactFloat64(); !(s.CrossCheckMax >= 0.01 && s.CrossCheckMax <= 1) {
 		return nil, settingErr("cross_check_max_s", &weather.InputError{Field: "cross_check_max_s", Value: v.GetString("cross_check_max_s"), Reason: "is outside 0.01..1 s"})
 	}
 	if s.DayStart, err = weather.ParseDayStart(v.GetString("day_starts")); err != nil {
@@ -191,7 +269,11 @@ func Open(o OpenOptions) (*Folder, error) {
 	}{{"opponent_margin", &s.OppMargin, -1, 2}, {"opponent_margin_sd", &s.OppMarginSD, 0.001, 1},
 		{"opponent_rt_mean", &s.OppRTMean, -1, 2}, {"opponent_rt_sd", &s.OppRTSD, 0.001, 1},
 		{"rt_mean", &s.RTMean, -1, 2}, {"rt_sd", &s.RTSD, 0.001, 1}} {
-		*x.dst = v.GetFloat64(x.key)
+		n, err := settingNumber(x.key, v.GetString(x.key), fmt.Sprintf("%g..%g s", x.lo, x.hi))
+		if err != nil {
+			return nil, settingErr(x.key, err)
+		}
+		*x.dst = n.InexactFloat64()
 		if !(*x.dst >= x.lo && *x.dst <= x.hi) {
 			return nil, settingErr(x.key, &weather.InputError{Field: x.key, Value: v.GetString(x.key), Reason: fmt.Sprintf("is outside %g..%g s", x.lo, x.hi)})
 		}
@@ -230,6 +312,15 @@ func CheckSettingsKeys(data []byte, name string) error {
 			sort.Strings(known)
 			return &weather.InputError{File: name, Line: k.Line, Field: "setting", Value: k.Value,
 				Reason: "is not a pitcard setting (settings: " + strings.Join(known, ", ") + ")"}
+		}
+		// A list or a map would be read as blank, and the default used.
+		if val := m.Content[i+1]; val.Kind != yaml.ScalarNode {
+			shape := map[yaml.Kind]string{yaml.SequenceNode: "a list", yaml.MappingNode: "a map"}[val.Kind]
+			if shape == "" {
+				shape = "not a plain value"
+			}
+			return &weather.InputError{File: name, Line: val.Line, Field: k.Value, Value: shape,
+				Reason: fmt.Sprintf("is not one value: write it plain, e.g. %s: %v", k.Value, SettingDefaults[k.Value])}
 		}
 	}
 	return nil

@@ -218,8 +218,9 @@ func roundParam(round string) string {
 	return "&round=" + url.QueryEscape(round)
 }
 
-// slipForm is the fields of 'log add', for a car that runs dist feet.
-func slipForm(dist float64) []field {
+// slipForm is the fields of 'log add', for a car that runs dist feet and a
+// crew that weighs in unit w (a bare weight is read in it).
+func slipForm(dist float64, w weather.WeightUnit) []field {
 	form := []field{
 		{Name: "session", Label: "Session", Placeholder: "E3, T2 ...", Max: 20},
 		{Name: "lane", Label: "Lane", Kind: "radio", Options: []string{"left", "right"}},
@@ -237,7 +238,7 @@ func slipForm(dist float64) []field {
 		text("opponent-rt", "Other lane's reaction time", "s", ""),
 		text("opponent-et", "Other lane's ET", "s", ""),
 		{Name: "time", Label: "Time of the pass", Placeholder: "now (or 20:47)", Max: 40, Help: "Blank for now."},
-		{Name: "weight", Label: "Weight as run", Unit: "lb", Placeholder: "car.yaml's", Mode: "decimal", Max: 20},
+		{Name: "weight", Label: "Weight as run", Unit: w.String(), Placeholder: "car.yaml's", Mode: "decimal", Max: 20},
 	}
 	out := form[:0]
 	for _, f := range form {
@@ -257,17 +258,17 @@ func (s *Server) slipDefaults(q *request, round string) ([]field, string) {
 	if err == nil && c.Input.Car.DistanceFt > 0 {
 		dist = c.Input.Car.DistanceFt
 	}
-	form := slipForm(dist)
+	form := slipForm(dist, q.folder.Settings.Units.Weight)
 	if err != nil {
 		return form, round
 	}
 	in := c.Input
 	set := map[string]string{"session": in.Session.String(), "lane": string(in.Lane)}
 	if c.HasFinal && in.Session.Kind == engine.Elimination {
-		set["dial"] = c.FinalDial.StringFixed(2)
+		set["dial"] = prep.DialText(c.FinalDial, in.Settings.DialStep)
 	}
 	if in.OpponentDial.Valid {
-		set["opponent-dial"] = engine.FormatSeconds(in.OpponentDial.Decimal, 2)
+		set["opponent-dial"] = prep.DialText(in.OpponentDial.Decimal, in.Settings.DialStep)
 	}
 	for i := range form {
 		if v, ok := set[form[i].Name]; ok {
@@ -291,7 +292,7 @@ func (s *Server) postSlip(q *request) {
 	if car, err := q.folder.Car(); err == nil && car.DistanceFt > 0 {
 		dist = car.DistanceFt
 	}
-	p.Form = slipForm(dist)
+	p.Form = slipForm(dist, q.folder.Settings.Units.Weight)
 	fill(p.Form, q.r.PostForm)
 	np := event.NewPass{Session: v("session"), Lane: v("lane"), Dial: v("dial"), RT: v("rt"), Weight: v("weight"), Notes: v("notes"),
 		ET60: v("et60"), ET330: v("et330"), ET660: v("et660"), ET1000: v("et1000"), ET1: v("et1320"),

@@ -89,7 +89,7 @@ func RuleContext(c Card) map[string]any {
 		ctx["prediction"] = pred
 	}
 	if c.PlanErr == nil && len(c.Plan.Options) > 0 {
-		dial := map[string]any{"recommended": c.Plan.Recommended.InexactFloat64(), "recommended_text": c.Plan.Recommended.StringFixed(2),
+		dial := map[string]any{"recommended": c.Plan.Recommended.InexactFloat64(), "recommended_text": dialText(c.Plan.Recommended, c.Plan.Step),
 			"step": c.Plan.Step.String(), "breakout_risk": c.Plan.Risk,
 			"breakout_chance": engine.BreakoutChance(c.Plan.Estimate, c.Plan.Recommended)}
 		if len(c.Win) > 0 {

@@ -36,6 +36,11 @@ func FitRender(t ptable.Writer, width int, configs []ptable.ColumnConfig) string
 		t.SetColumnConfigs(configs)
 		out = t.Render()
 	}
+	// Still too wide: the outer border carries nothing, and goes first.
+	if maxLine(out) > width && t.Style().Options.DrawBorder {
+		t.Style().Options.DrawBorder = false
+		return FitRender(t, width, configs)
+	}
 	return out
 }
 

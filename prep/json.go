@@ -95,7 +95,7 @@ func RenderJSON(w io.Writer, c Card) error {
 			flags = append(flags, c.AdjustFlag)
 		}
 		j["dial"] = map[string]any{"recommended": dialText(c.Plan.Recommended, c.Plan.Step), "step": c.Plan.Step.String(), "breakout_risk": c.Plan.Risk,
-			"options": opts, "rule_total": c.TotalAdjust.StringFixed(2), "flag": strings.Join(flags, "; "),
+			"options": opts, "rule_total": dialText(c.TotalAdjust, c.Plan.Step), "flag": strings.Join(flags, "; "),
 			"post": c.HasFinal && len(c.Failed) == 0}
 		if len(c.Win) > 0 {
 			j["best_for_win"] = map[string]any{"dial": dialText(c.BestForWin.Dial, c.Plan.Step), "win_chance": round(c.BestForWin.Win, 4),
@@ -115,7 +115,7 @@ func RenderJSON(w io.Writer, c Card) error {
 	for _, r := range c.Rules {
 		m := map[string]any{"file": r.File, "defines": nonNil(r.Defines), "log": nonNil(r.Log), "took_ms": round(float64(r.Took.Microseconds())/1000, 2)}
 		if r.HasAdjust {
-			m["adjust"], m["reason"] = r.Adjust.StringFixed(2), r.Reason
+			m["adjust"], m["reason"] = dialText(r.Adjust, in.Settings.DialStep), r.Reason
 		}
 		var errs []string
 		for _, e := range r.Errors {

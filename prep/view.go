@@ -395,9 +395,9 @@ func HeadStartWords(us, opp decimal.Decimal) string {
 	h := engine.HeadStart(us, opp)
 	switch {
 	case h.IsPositive():
-		return fmt.Sprintf("you leave %s s after the other lane (its dial is slower)", h.StringFixed(2))
+		return fmt.Sprintf("you leave %s s after the other lane (its dial is slower)", DialText(h, hundredth))
 	case h.IsNegative():
-		return fmt.Sprintf("you leave %s s before the other lane (your dial is slower)", h.Neg().StringFixed(2))
+		return fmt.Sprintf("you leave %s s before the other lane (your dial is slower)", DialText(h.Neg(), hundredth))
 	}
 	return "you leave together: the same dial"
 }
@@ -443,11 +443,8 @@ func windWords(r weather.Reading, heading float64, u weather.Units) string {
 	return fmt.Sprintf("%s from %03.0f° (%s %s)", r.Wind.Format(u.Speed, 0), r.WindFrom, weather.Speed(hw).Format(u.Speed, 0), dir)
 }
 
-// dialText prints a dial with the places of the step (at least 2).
-func dialText(d, step decimal.Decimal) string {
-	places := max(int32(-step.Exponent()), 2)
-	return d.StringFixed(places)
-}
+// dialText is DialText, as the card's layout calls it.
+func dialText(d, step decimal.Decimal) string { return DialText(d, step) }
 
 // OrDash is s, or a dash where it is blank (a table cell with nothing known).
 func OrDash(s string) string {

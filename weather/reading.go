@@ -103,45 +103,58 @@ func (r Reading) Station(h Length) Pressure {
 
 // Validate checks every field of the reading taken at elevation h against its
 // valid range and returns the first that fails, naming the field, the value,
-// its unit and the range.
-func (r Reading) Validate(h Length) error {
-	if err := CheckElevation(h); err != nil {
+// its unit and the range (in imperial units: ValidateIn speaks the crew's).
+func (r Reading) Validate(h Length) error { return r.ValidateIn(h, Imperial) }
+
+// ValidateIn is Validate with the value and its range said in units u: a
+// metric crew's 68 (°C) is "68 °C ... outside -40..60 °C", never "154.4 °F".
+func (r Reading) ValidateIn(h Length, u Units) error {
+	if outside(h.Feet(), ElevationRange) {
+		return rangeErr("elevation", h.In(u.Length), u.Length.String(), [2]float64{Feet(ElevationRange[0]).In(u.Length), Feet(ElevationRange[1]).In(u.Length)})
+	}
+	temp := func(field string, t Temperature, rg [2]float64) error {
+		if outside(t.Fahrenheit(), rg) {
+			return rangeErr(field, t.In(u.Temp), u.Temp.String(), [2]float64{Fahrenheit(rg[0]).In(u.Temp), Fahrenheit(rg[1]).In(u.Temp)})
+		}
+		return nil
+	}
+	pres := func(p float64) [2]float64 { // a range in inHg, in the crew's unit
+		return [2]float64{InHg(p).In(u.Pressure), InHg(StationRange[1]).In(u.Pressure)}
+	}
+	if err := temp("temp", r.Temp, TempRange); err != nil {
 		return err
 	}
-	if f := r.Temp.Fahrenheit(); outside(f, TempRange) {
-		return rangeErr("temp", f, "°F", TempRange)
-	}
 	if r.BaroKind == AltimeterSetting && outside(r.Baro.InHg(), StationRange) {
-		return rangeErr("baro", r.Baro.InHg(), "inHg", StationRange)
+		return rangeErr("baro", r.Baro.In(u.Pressure), u.Pressure.String(), pres(StationRange[0]))
 	}
-	if p := r.Station(h).InHg(); outside(p, StationRange) {
+	if p := r.Station(h); outside(p.InHg(), StationRange) {
 		if r.BaroKind == AltimeterSetting {
-			return inputErr("baro", trimFloat(r.Baro.InHg())+" inHg",
-				"gives station pressure %s inHg at %s ft, outside %s..%s inHg", trimFloat(p),
-				trimFloat(h.Feet()), trimFloat(StationRange[0]), trimFloat(StationRange[1]))
+			return inputErr("baro", trimFloat(r.Baro.In(u.Pressure))+" "+u.Pressure.String(),
+				"gives station pressure %s %s at %s %s, outside %s..%s %s", trimFloat(p.In(u.Pressure)), u.Pressure,
+				trimFloat(h.In(u.Length)), u.Length, trimFloat(pres(StationRange[0])[0]), trimFloat(pres(StationRange[0])[1]), u.Pressure)
 		}
-		return rangeErr("baro", p, "inHg", StationRange)
+		return rangeErr("baro", p.In(u.Pressure), u.Pressure.String(), pres(StationRange[0]))
 	}
 	if r.DewPointSet {
 		if r.DewPoint > r.Temp+1e-9 {
-			return inputErr("dewpoint", r.DewPoint.Format(DegF, 1),
-				"is above the air temperature %s (the dew point can be at most the air temperature)", r.Temp.Format(DegF, 1))
+			return inputErr("dewpoint", r.DewPoint.Format(u.Temp, 1),
+				"is above the air temperature %s (the dew point can be at most the air temperature)", r.Temp.Format(u.Temp, 1))
 		}
-		if f := r.DewPoint.Fahrenheit(); outside(f, [2]float64{-100, TempRange[1]}) {
-			return rangeErr("dewpoint", f, "°F", [2]float64{-100, TempRange[1]})
+		if err := temp("dewpoint", r.DewPoint, [2]float64{-100, TempRange[1]}); err != nil {
+			return err
 		}
 	} else if pct := r.RH * 100; outside(pct, [2]float64{0, 100}) {
 		return rangeErr("humidity", pct, "%", [2]float64{0, 100})
 	}
 	if w := r.Wind.MPH(); outside(w, WindRange) {
-		return rangeErr("wind", w, "mph", WindRange)
+		return rangeErr("wind", r.Wind.In(u.Speed), u.Speed.String(), [2]float64{MPH(WindRange[0]).In(u.Speed), MPH(WindRange[1]).In(u.Speed)})
 	}
 	if outside(r.WindFrom, [2]float64{0, 360}) {
 		return rangeErr("wind-from", r.WindFrom, "°", [2]float64{0, 360})
 	}
 	if r.HasTrack {
-		if f := r.TrackTemp.Fahrenheit(); outside(f, TrackTempRange) {
-			return rangeErr("track-temp", f, "°F", TrackTempRange)
+		if err := temp("track-temp", r.TrackTemp, TrackTempRange); err != nil {
+			return err
 		}
 	}
 	return nil

@@ -340,6 +340,66 @@ func ParseSpeed(s string, bare SpeedUnit) (Speed, error) {
 	return 0, inputErr("speed", s, "has unknown unit %q (use mph, km/h, m/s or kt, e.g. 8mph)", unit)
 }
 
+// Weight is a mass in kilograms (a car and driver as weighed on a
+// scale; the trade says weight). Build one with Pounds or Kilograms.
+type Weight float64
+
+// Pounds returns the weight v lb.
+func Pounds(v float64) Weight { return Weight(v * KgPerLb) }
+
+// Kilograms returns the weight v kg.
+func Kilograms(v float64) Weight { return Weight(v) }
+
+// Lb is the weight in pounds.
+func (w Weight) Lb() float64 { return float64(w) / KgPerLb }
+
+// Kg is the weight in kilograms.
+func (w Weight) Kg() float64 { return float64(w) }
+
+// WeightUnit is a unit a weight is typed or printed in.
+type WeightUnit int
+
+// Weight units.
+const (
+	UnitLb WeightUnit = iota
+	UnitKg
+)
+
+func (u WeightUnit) String() string {
+	if u == UnitKg {
+		return "kg"
+	}
+	return "lb"
+}
+
+// In returns the weight as a number in unit u.
+func (w Weight) In(u WeightUnit) float64 {
+	if u == UnitKg {
+		return w.Kg()
+	}
+	return w.Lb()
+}
+
+// ParseWeight reads a weight as a racer types it: "3300lb", "3300 lbs",
+// "1500kg". A bare number is taken in unit bare. The range is not checked
+// here.
+func ParseWeight(s string, bare WeightUnit) (Weight, error) {
+	v, unit, err := splitNumber("weight", s)
+	if err != nil {
+		return 0, err
+	}
+	if unit == "" {
+		unit = bare.String()
+	}
+	switch unit {
+	case "lb", "lbs", "pound", "pounds", "#":
+		return Pounds(v), nil
+	case "kg", "kgs", "kilo", "kilos":
+		return Kilograms(v), nil
+	}
+	return 0, inputErr("weight", s, "has unknown unit %q (use lb or kg, e.g. 3300lb or 1500kg)", unit)
+}
+
 // ParsePercent reads a relative humidity in percent, "45", "45%" or "45 %RH",
 // and returns it as a fraction (0.45). The range is not checked here.
 func ParsePercent(s string) (float64, error) {
@@ -415,13 +475,14 @@ type Units struct {
 	Pressure PressureUnit
 	Length   LengthUnit
 	Speed    SpeedUnit
+	Weight   WeightUnit
 }
 
-// Imperial is the set of units of U.S. tracks: °F, inHg, ft, mph.
-var Imperial = Units{DegF, UnitInHg, UnitFt, UnitMPH}
+// Imperial is the set of units of U.S. tracks: °F, inHg, ft, mph, lb.
+var Imperial = Units{DegF, UnitInHg, UnitFt, UnitMPH, UnitLb}
 
-// Metric is °C, hPa, m, km/h.
-var Metric = Units{DegC, UnitHPa, UnitM, UnitKMH}
+// Metric is °C, hPa, m, km/h, kg.
+var Metric = Units{DegC, UnitHPa, UnitM, UnitKMH, UnitKg}
 
 // ParseUnits reads a unit system by name: "imperial" or "metric".
 func ParseUnits(name string) (Units, error) {

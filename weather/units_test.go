@@ -202,3 +202,34 @@ func FuzzParseDirection(f *testing.F) {
 		checkParsed(t, s, v, err, "direction")
 	})
 }
+
+// 1 lb = 0.45359237 kg exactly (the international pound, by definition).
+func TestParseWeight(t *testing.T) {
+	for _, tc := range []struct {
+		in     string
+		bare   WeightUnit
+		wantLb float64
+		bad    string // words of the error, "" for none
+	}{
+		{"3300lb", UnitKg, 3300, ""},
+		{"3300 lbs", UnitLb, 3300, ""},
+		{"1500kg", UnitLb, 1500 / 0.45359237, ""},
+		{"1500", UnitKg, 1500 / 0.45359237, ""},
+		{"3300", UnitLb, 3300, ""},
+		{"3300abc", UnitLb, 0, `unknown unit "abc"`},
+		{"heavy", UnitLb, 0, "not a number"},
+	} {
+		t.Run(tc.in, func(t *testing.T) {
+			w, err := ParseWeight(tc.in, tc.bare)
+			if tc.bad != "" {
+				if err == nil || !strings.Contains(err.Error(), tc.bad) {
+					t.Fatalf("ParseWeight(%q) = %v, %v; want an error with %q", tc.in, w, err, tc.bad)
+				}
+				return
+			}
+			if err != nil || math.Abs(w.Lb()-tc.wantLb) > 1e-9 {
+				t.Errorf("ParseWeight(%q) = %v lb, %v; want %v", tc.in, w.Lb(), err, tc.wantLb)
+			}
+		})
+	}
+}

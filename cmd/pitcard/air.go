@@ -89,7 +89,7 @@ func airRun(cmd *cobra.Command, o *airOptions) error {
 	if err != nil {
 		return orLatest(err)
 	}
-	if err := event.ValidateFields(r, elev); err != nil {
+	if err := event.ValidateFields(r, elev, e.Settings.Units); err != nil {
 		return err
 	}
 	if w := r.PressureWarning(elev); w != "" && elevKnown {

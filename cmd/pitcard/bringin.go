@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"errors"
 	"fmt"
 	"os"
 	"strings"
@@ -77,18 +78,27 @@ func (f *mapFlags) source(s *IOStreams, e *eventFolder, path string, kind colmap
 		fmt.Fprintf(s.Out, "Wrote the map to %s: edit it and import with --map %s.\n", f.WriteMap, f.WriteMap)
 	}
 	m, err := colmap.Read(text, "the guessed map", kind)
+	if f.WriteMap != "" && !f.Yes { // the map was asked for, and written: done
+		if err != nil {
+			fmt.Fprintf(s.Out, "Nothing was imported: the map is not enough yet (%v); complete it, then import with --map %s.\n", err, f.WriteMap)
+		} else {
+			fmt.Fprintf(s.Out, "Nothing was imported: check it, then import with --map %s (or run again with --yes).\n", f.WriteMap)
+		}
+		return src, errOnlyTheMap
+	}
 	if err != nil {
 		return src, userErrf("the guessed map is not enough to import %s: %v\nSave it with --write-map MAP.yaml, complete it and use --map", path, err)
 	}
 	if !f.Yes {
-		if f.WriteMap != "" {
-			return src, userErrf("nothing was imported: check %s, then import with --map %s (or run again with --yes)", f.WriteMap, f.WriteMap)
-		}
 		return src, userErrf("nothing was imported: check the guessed map above, then run again with --yes to use it (or --write-map MAP.yaml to save and edit it)")
 	}
 	src.Map = m
 	return src, nil
 }
+
+// errOnlyTheMap ends an import whose --write-map was all that was asked:
+// the command did it, and exits 0.
+var errOnlyTheMap = errors.New("only the map was asked for")
 
 func indent(s string) string {
 	return "  " + strings.ReplaceAll(strings.TrimRight(s, "\n"), "\n", "\n  ")
@@ -134,6 +144,9 @@ conflict: both versions are listed and nothing is written.`,
 				return err
 			}
 			src, err := o.maps.source(o.s, e, args[0], colmap.Weather)
+			if errors.Is(err, errOnlyTheMap) {
+				return nil
+			}
 			if err != nil {
 				return err
 			}

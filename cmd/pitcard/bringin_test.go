@@ -132,9 +132,11 @@ func TestAGuessedMapNeedsYes(t *testing.T) {
 		t.Fatalf("a guess without --yes: %d\n%s\n%s", code, out, errs)
 	}
 	saved := filepath.Join(t.TempDir(), "guessed.yaml")
-	_, _, code = pitcard(t, "weather", "import", maps+"meter-export.csv", "--dir", dir, "--elevation", "2240ft", "--write-map", saved)
-	if code != exitBadInput || !strings.Contains(read(t, saved), "kind: weather") {
-		t.Errorf("--write-map: %d", code)
+	// --write-map did what was asked: exit 0, nothing imported, and it says so
+	out, _, code = pitcard(t, "weather", "import", maps+"meter-export.csv", "--dir", dir, "--elevation", "2240ft", "--write-map", saved)
+	if code != exitOK || !strings.Contains(read(t, saved), "kind: weather") || !strings.Contains(out, "Nothing was imported") ||
+		read(t, filepath.Join(dir, event.WeatherFile)) != before {
+		t.Errorf("--write-map: exit %d\n%s", code, out)
 	}
 	out = mustRun(t, "weather", "import", maps+"meter-export.csv", "--dir", dir, "--elevation", "2240ft", "--yes")
 	if !strings.Contains(out, "Imported 3 readings") {

@@ -94,7 +94,7 @@ func (c *conditionFlags) resolve(e *eventFolder, now time.Time) (conditions, err
 	} else if c.Given() {
 		out.Source += ", with the flags given"
 	}
-	if err := event.ValidateFields(r, out.Elevation); err != nil {
+	if err := event.ValidateFields(r, out.Elevation, e.Settings.Units); err != nil {
 		return out, err
 	}
 	if w := r.PressureWarning(out.Elevation); w != "" {

@@ -190,9 +190,9 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 		return err
 	}
 	j := dialJSON{PredictedET: round(est.ET, 4), SD: round(est.SD, 4), Basis: est.Basis, Step: plan.Step.String(),
-		Risk: plan.Risk, Recommended: dialText(plan), ChecksFailed: append([]string{}, post.failed...)}
+		Risk: plan.Risk, Recommended: prep.DialText(plan.Recommended, plan.Step), ChecksFailed: append([]string{}, post.failed...)}
 	if post.hasFinal {
-		j.Post = post.final.StringFixed(stepPlaces(plan))
+		j.Post = prep.DialText(post.final, plan.Step)
 	}
 	j.PostOK = len(post.failed) == 0
 	// Against the other lane: the chance to win of every option.
@@ -221,12 +221,12 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 		}
 		wins = engine.WinChances(engine.WinInput{Us: est, UsRT: usRT, Opp: *opp, Seed: 1}, ds)
 		best := engine.BestForWin(wins)
-		j.BestForWin = &bestForWinJSON{Dial: best.Dial.StringFixed(stepPlaces(plan)), WinChance: round(best.Win, 4)}
+		j.BestForWin = &bestForWinJSON{Dial: prep.DialText(best.Dial, plan.Step), WinChance: round(best.Win, 4)}
 		h := engine.HeadStart(plan.Recommended, opp.Dial).InexactFloat64()
 		j.HeadStartS = &h
 	}
 	for i, op := range plan.Options {
-		oj := dialOptionJSON{Dial: op.Dial.StringFixed(stepPlaces(plan)), BreakoutChance: round(op.BreakoutChance, 4),
+		oj := dialOptionJSON{Dial: prep.DialText(op.Dial, plan.Step), BreakoutChance: round(op.BreakoutChance, 4),
 			GiveawayS: round(op.Giveaway, 4), Recommended: op.Recommended}
 		if wins != nil {
 			w := round(wins[i].Win, 4)
@@ -271,7 +271,8 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 		if op.Recommended && (!post.hasFinal || op.Dial == j.Post) {
 			mark = post.mark()
 			if o.s.Terminal && o.Format == "text" { // no color codes in a document
-				dial = text.Colors{text.Bold, text.FgHiWhite, text.BgBlue}.Sprint(" " + dial + " ")
+				// A space before only: a space after would shift the dial left of the others in its right-aligned column.
+				dial = text.Colors{text.Bold, text.FgHiWhite, text.BgBlue}.Sprint(" " + dial)
 			}
 		}
 		if j.BestForWin != nil && op.Dial == j.BestForWin.Dial {
@@ -288,7 +289,7 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 	post.write(o.s, j, plan)
 	if opp != nil {
 		fmt.Fprintln(o.s.Out, prep.Wrap(fmt.Sprintf("Against the other lane's %s: %s; the dial that wins most is %s (%.1f %% to win). Chances from %d races drawn per dial, good to ±0.5 points.",
-			opp.Dial.StringFixed(2), prep.HeadStartWords(plan.Recommended, opp.Dial), j.BestForWin.Dial, 100*j.BestForWin.WinChance, engine.WinDraws), o.s.width(), "  "))
+			prep.DialText(opp.Dial, plan.Step), prep.HeadStartWords(plan.Recommended, opp.Dial), j.BestForWin.Dial, 100*j.BestForWin.WinChance, engine.WinDraws), o.s.width(), "  "))
 		best := engine.BestForWin(wins)
 		if bo := engine.BreakoutChance(est, best.Dial); bo > plan.Risk {
 			var rule engine.WinOption
@@ -386,13 +387,3 @@ func noDial(o *dialOptions, est engine.Estimate, why string, leftOut error) erro
 		why, est.ET, est.SD, est.Basis)
 	return leftOut
 }
-
-// stepPlaces is the number of decimals of the dial step: 2 for 0.01.
-func stepPlaces(p engine.DialPlan) int32 {
-	if e := -p.Step.Exponent(); e > 2 {
-		return e
-	}
-	return 2
-}
-
-func dialText(p engine.DialPlan) string { return p.Recommended.StringFixed(stepPlaces(p)) }

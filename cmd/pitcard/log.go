@@ -81,7 +81,7 @@ weight to car.yaml's.`,
 	fl.StringVar(&o.ET1, "et1320", "", "quarter-mile ET, s")
 	fl.StringVar(&o.MPH660, "mph660", "", "eighth-mile trap speed, mph")
 	fl.StringVar(&o.MPH1320, "mph1320", "", "quarter-mile trap speed, mph")
-	fl.StringVar(&o.Weight, "weight", "", "car and driver as run, lb (default: car.yaml's weight_lb)")
+	fl.StringVar(&o.Weight, "weight", "", "car and driver as run: 3300lb or 1500kg, a bare number in the crew's units (default: car.yaml's weight_lb)")
 	fl.StringVar(&o.Notes, "notes", "", "free text: lifted, pedaled, new tires ...")
 	fl.StringVar(&o.OppDial, "opponent-dial", "", "the other lane's dial-in from its slip (with --opponent-rt and --opponent-et: what decided the round)")
 	fl.StringVar(&o.OppRT, "opponent-rt", "", "the other lane's reaction time from its slip, s")
@@ -194,6 +194,9 @@ nothing is written. 'pitcard log diff FILE' shows the same without writing.`,
 				return err
 			}
 			source, err := o.maps.source(o.s, e, args[0], colmap.Logbook)
+			if errors.Is(err, errOnlyTheMap) {
+				return nil
+			}
 			if err != nil {
 				return err
 			}
@@ -314,7 +317,14 @@ func logListRun(cmd *cobra.Command, o *logListOptions) error {
 	if o.Wide {
 		header = table.Row{"Date", "Time", "Session", "Lane", "Dial", "RT", "60 ft", "330", "1/8", "mph", "1000", "1/4", "mph", "DA", "Notes"}
 	}
+	// Narrower than the list with its notes (a terminal under 100 columns):
+	// the notes go under the table, each with its pass.
+	notesBelow := o.Format == "text" && o.s.width() < prep.Width
+	if notesBelow {
+		header = header[:len(header)-1]
+	}
 	t.AppendHeader(header)
+	var below []string
 	for _, p := range passes {
 		da := ""
 		if p.HasAir {
@@ -330,13 +340,24 @@ func logListRun(cmd *cobra.Command, o *logListOptions) error {
 				row = append(row, sec(p.MPH660, 2))
 			}
 		}
-		row = append(row, sec(p.MPH1320, 2), strings.TrimSuffix(da, " ft"), p.Notes)
+		row = append(row, sec(p.MPH1320, 2), strings.TrimSuffix(da, " ft"))
+		if !notesBelow {
+			row = append(row, p.Notes)
+		} else if p.Notes != "" {
+			below = append(below, prep.Wrap(fmt.Sprintf("%s %s: %s", p.Time.Format("2006-01-02 15:04"), p.Session, p.Notes), o.s.width(), "  "))
+		}
 		t.AppendRow(row)
 	}
 	n := len(header)
 	configs := append([]table.ColumnConfig{{Number: n, WidthMax: 16}}, alignRight(5, n-1)...)
+	if notesBelow {
+		configs = alignRight(5, n)
+	}
 	compact(t)
 	render(o.s, t, o.Format, configs...)
+	if len(below) > 0 {
+		fmt.Fprintln(o.s.Out, "Notes:\n"+strings.Join(below, "\n"))
+	}
 	if o.Format == "text" {
 		fmt.Fprintf(o.s.Out, "Session: T time trial, E elimination round. DA: density altitude, %s.\n--wide adds the 330 and 1000 ft timers.\n", u.Length)
 	}
@@ -462,7 +483,7 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 				}
 				return fmt.Sprint(*v)
 			}
-			rows := [][]string{{"day", "sessions", "passes", "clean", "finish_ft", "et_mean", "et_sd", "et_min", "et_max", "rt_mean", "rt_sd", "sixty_sd", "corrected_sd", "consistency"}}
+			rows := [][]string{{"day", "sessions", "passes", "clean", "finish_ft", "et_mean", "et_sd", "et_min", "et_max", "rt_mean", "rt_sd", "et60_sd", "et_sd_corrected", "consistency"}} // the JSON's names
 			for _, x := range out {
 				rows = append(rows, []string{x.Day, x.Sessions, fmt.Sprint(x.Passes), fmt.Sprint(x.Clean), fmt.Sprint(x.FinishFt), opt(x.ETMean), opt(x.ETSD),
 					opt(x.ETMin), opt(x.ETMax), opt(x.RTMean), opt(x.RTSD), opt(x.SixtySD), opt(x.CorrectedSD), x.Consistency})
@@ -483,7 +504,10 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 		return leftOut
 	}
 	t := newTable(o.s, "Consistency by day and session")
-	t.AppendHeader(table.Row{"Day", "Sessions", "Passes", "ET\nmean", "ET\nspread", "spread\ncorrected", "RT\nmean", "RT\nspread", "60 ft\nspread", "Consistency"})
+	// The day and its sessions share a column (the day's date on the row of
+	// all its passes):
+	// the table fits an 80-column terminal.
+	t.AppendHeader(table.Row{"Day,\nsessions", "Passes", "ET\nmean", "ET\nspread", "spread\ncorrected", "RT\nmean", "RT\nspread", "60 ft\nspread", "Consistency"})
 	f3 := func(v float64, ok bool) string {
 		if !ok {
 			return ""
@@ -491,26 +515,26 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 		return fmt.Sprintf("%.3f", v)
 	}
 	for _, s := range stats {
-		day, sessions := "", " "+s.Kind.String()
+		day := s.Kind.String()
 		if s.All {
-			day, sessions = s.Day.Format("2006-01-02"), "all"
+			day = s.Day.Format("2006-01-02")
 			t.AppendSeparator()
 		}
 		passes := fmt.Sprint(s.Passes)
 		if s.Clean != s.Passes {
 			passes = fmt.Sprintf("%d (%d ok)", s.Passes, s.Clean)
 		}
-		t.AppendRow(table.Row{day, sessions, passes, f3(s.ETMean, s.Clean > 0), f3(s.ETSD, s.Clean > 1), f3(s.CorrectedSD, s.CorrectedN > 1),
+		t.AppendRow(table.Row{day, passes, f3(s.ETMean, s.Clean > 0), f3(s.ETSD, s.Clean > 1), f3(s.CorrectedSD, s.CorrectedN > 1),
 			f3(s.RTMean, s.RTN > 0), f3(s.RTSD, s.RTN > 1), f3(s.SixtySD, s.SixtyN > 1), judge(s)})
 	}
-	configs := alignRight(4, 9)
+	configs := alignRight(3, 8)
 	compact(t)
 	render(o.s, t, o.Format, configs...)
+	note := "Spreads are one standard deviation, as run (no car.yaml or no weather in the logbook): the air moving through a day counts as scatter."
 	if corrected {
-		fmt.Fprintln(o.s.Out, "Spreads are one standard deviation. Corrected: the ET spread once the air and track of each pass are\ntaken out (each ET less the calibrated model's for its conditions); consistency is judged on it.")
-	} else {
-		fmt.Fprintln(o.s.Out, "Spreads are one standard deviation, as run (no car.yaml or no weather in the logbook): the air moving\nthrough a day counts as scatter.")
+		note = "Spreads are one standard deviation. Corrected: the ET spread once the air and track of each pass are taken out (each ET less the calibrated model's for its conditions); consistency is judged on it."
 	}
+	fmt.Fprintln(o.s.Out, prep.Wrap(note, o.s.width(), ""))
 	fmt.Fprintln(o.s.Out, "Very consistent (≤ 0.015 s): dial it with confidence. Consistent (≤ 0.030).\nSome scatter (≤ 0.060): check the notes, tires, routine.\nInconsistent: look for lifted or spinning runs.")
 	if days := countDays(stats); days > 30 && o.Since == "" && o.Last == 0 {
 		fmt.Fprintf(o.s.Err, "pitcard: %d days shown: bound them with --since DATE, --last N or --track NAME\n", days)

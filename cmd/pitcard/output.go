@@ -10,7 +10,6 @@ import (
 
 	"github.com/jedib0t/go-pretty/v6/table"
 	"github.com/jedib0t/go-pretty/v6/text"
-	"github.com/shopspring/decimal"
 	"github.com/spf13/cobra"
 
 	"pitcard/internal/safefile"
@@ -78,24 +77,11 @@ func round(v float64, d int) float64 {
 	return math.Round(v*p) / p
 }
 
-// signedDecimal prints a dial adjustment with its sign: "+0.02", "-0.01".
-func signedDecimal(d decimal.Decimal) string {
-	if d.IsNegative() {
-		return d.StringFixed(2)
-	}
-	return "+" + d.StringFixed(2)
-}
-
 // groupCmd makes a command that only groups others refuse an unknown
 // subcommand (exit 2) instead of printing its help and exiting 0.
 func groupCmd(cmd *cobra.Command) {
 	cmd.Args = cobra.NoArgs
 	cmd.RunE = func(c *cobra.Command, _ []string) error { return c.Help() }
-}
-
-// dialString prints a dial with the decimals of the step (at least 2).
-func dialString(d, step decimal.Decimal) string {
-	return d.StringFixed(max(-step.Exponent(), 2))
 }
 
 // compact drops the rules between columns of a wide list table.

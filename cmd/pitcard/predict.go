@@ -50,7 +50,7 @@ reading) or --at (the log's forecast for the call time); flags given with
 	o.cond.bind(cmd)
 	fl := cmd.Flags()
 	fl.StringVar(&o.Prep, "prep", "", "track prep today: none, light, full or 0..1 (default: track.yaml's)")
-	fl.StringVar(&o.Weight, "weight", "", "car and driver as it will run, lb (default: car.yaml's)")
+	fl.StringVar(&o.Weight, "weight", "", "car and driver as it will run: 3300lb or 1500kg, a bare number in the crew's units (default: car.yaml's)")
 	// The old names of --car-file, --track-file and --logbook-file: --track
 	// means a track's name on log add, so the file flags say "file".
 	fl.StringVar(&o.Car, "car", "", "")
@@ -104,8 +104,8 @@ func forecastNext(e *eventFolder, cond conditionFlags, prepFlag, weightFlag stri
 	}
 	weight := 0.0
 	if weightFlag != "" {
-		if _, err := fmt.Sscanf(weightFlag, "%g", &weight); err != nil || weight < 500 || weight > 10000 {
-			return n, &weather.InputError{Field: "--weight", Value: weightFlag, Reason: "is outside 500..10000 lb"}
+		if weight, err = engine.ParseWeightLb("--weight", weightFlag, e.Settings.Units.Weight); err != nil {
+			return n, err
 		}
 	}
 	when := c.Reading.Time

@@ -9,6 +9,7 @@ import (
 
 	"pitcard/engine"
 	"pitcard/event"
+	"pitcard/prep"
 )
 
 type raceLane struct {
@@ -151,9 +152,12 @@ func raceRun(cmd *cobra.Command, o *raceOptions) error {
 	if j.MarginFt != nil {
 		margin += fmt.Sprintf(" (%.1f ft)", *j.MarginFt)
 	}
-	fmt.Fprintf(o.s.Out, "%s (%s): %s.\nAt the finish: %s apart.\n", headline, out.Reason, out.Explanation, margin)
+	fmt.Fprintln(o.s.Out, prep.Wrap(fmt.Sprintf("%s (%s): %s.", headline, out.Reason, out.Explanation), o.s.width(), "  "))
+	fmt.Fprintf(o.s.Out, "At the finish: %s apart.\n", margin)
 	t := newTable(o.s, "")
-	t.AppendHeader(table.Row{"Lane", "Dial", "RT", "ET", "Green at", "Reaction", "Finish at", "ET − dial", "Total vs dial", ""})
+	// Two-line headers over figures of five or six characters: the table
+	// fits an 80-column terminal.
+	t.AppendHeader(table.Row{"Lane", "Dial", "RT", "ET", "Green\nat", "Reaction", "Finish\nat", "ET −\ndial", "Total vs\ndial", ""})
 	for _, l := range []struct {
 		name string
 		j    raceLaneJSON
@@ -170,7 +174,8 @@ func raceRun(cmd *cobra.Command, o *raceOptions) error {
 		t.AppendRow(table.Row{l.name, l.j.Dial, l.j.RT, l.j.ET, l.j.Start, l.j.Reaction, l.j.Finish, l.j.OverDial, l.j.Package, flags})
 	}
 	configs := alignRight(2, 9)
+	compact(t)
 	render(o.s, t, "text", configs...)
-	fmt.Fprintf(o.s.Out, "Tree %s; reaction times count from the %s. Times in seconds after the first green.\n", rules.Tree, rules.RTZero)
+	fmt.Fprintln(o.s.Out, prep.Wrap(fmt.Sprintf("Tree %s; reaction times count from the %s. Times in seconds after the first green.", rules.Tree, rules.RTZero), o.s.width(), "  "))
 	return nil
 }

@@ -82,7 +82,7 @@ type eventFolder = event.Folder
 // environment > pitcard.yaml > defaults.
 func (g *globalOptions) open(cmd *cobra.Command) (*eventFolder, error) {
 	o := event.OpenOptions{Dir: g.Dir, Demo: g.Demo, CarFile: g.CarFile, TrackFile: g.TrackFile, LogbookFile: g.LogbookFile,
-		Set: map[string]string{}, Env: os.Getenv}
+		Set: map[string]string{}, Env: os.Getenv, Environ: os.Environ}
 	if g.now != nil {
 		o.Loc = g.now().Location() // one zone for the clock and the folder's times
 	}

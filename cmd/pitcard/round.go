@@ -36,7 +36,7 @@ func (r *roundFlags) bind(cmd *cobra.Command) {
 	fl.StringVar(&r.Lane, "lane", "", "left or right")
 	fl.StringVar(&r.OpponentDial, "opponent-dial", "", "the opponent's dial-in, s, if known")
 	fl.StringVar(&r.Prep, "prep", "", "track prep today: none, light, full or 0..1 (default: track.yaml's)")
-	fl.StringVar(&r.Weight, "weight", "", "car and driver as it will run, lb (default: car.yaml's)")
+	fl.StringVar(&r.Weight, "weight", "", "car and driver as it will run: 3300lb or 1500kg, a bare number in the crew's units (default: car.yaml's)")
 	bindSettingFlags(cmd)
 	r.opp.bind(cmd)
 }

@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"math"
 	"strings"
 
 	"github.com/spf13/cobra"
@@ -157,7 +158,7 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 		if r.Temp, err = weather.ParseTemperature(a, u.Temp); err != nil {
 			return event.FlagErr(err, "temperature")
 		}
-		return inRange("temperature", a, r.Temp.Fahrenheit(), "°F", weather.TempRange)
+		return inRange("temperature", a, r.Temp.In(u.Temp), u.Temp.String(), inUnits(weather.TempRange, func(f float64) float64 { return weather.Fahrenheit(f).In(u.Temp) }))
 	}); err != nil {
 		return err
 	}
@@ -169,7 +170,7 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 		if r.Baro, err = weather.ParsePressure(a, u.Pressure); err != nil {
 			return event.FlagErr(err, "barometer")
 		}
-		return inRange("barometer", a, r.Baro.InHg(), "inHg", weather.StationRange)
+		return inRange("barometer", a, r.Baro.In(u.Pressure), u.Pressure.String(), inUnits(weather.StationRange, func(p float64) float64 { return weather.InHg(p).In(u.Pressure) }))
 	}); err != nil {
 		return err
 	}
@@ -195,7 +196,7 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 		if r.Wind, err = weather.ParseSpeed(a, u.Speed); err != nil {
 			return event.FlagErr(err, "wind")
 		}
-		return inRange("wind", a, r.Wind.MPH(), "mph", weather.WindRange)
+		return inRange("wind", a, r.Wind.In(u.Speed), u.Speed.String(), inUnits(weather.WindRange, func(v float64) float64 { return weather.MPH(v).In(u.Speed) }))
 	}); err != nil {
 		return err
 	}
@@ -222,11 +223,11 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 		if r.TrackTemp, err = weather.ParseTemperature(a, u.Temp); err != nil {
 			return event.FlagErr(err, "track temperature")
 		}
-		return inRange("track temperature", a, r.TrackTemp.Fahrenheit(), "°F", weather.TrackTempRange)
+		return inRange("track temperature", a, r.TrackTemp.In(u.Temp), u.Temp.String(), inUnits(weather.TrackTempRange, func(f float64) float64 { return weather.Fahrenheit(f).In(u.Temp) }))
 	}); err != nil {
 		return err
 	}
-	if err := r.Validate(elev); err != nil {
+	if err := r.ValidateIn(elev, u); err != nil {
 		return err
 	}
 	if w := r.PressureWarning(elev); w != "" {
@@ -238,7 +239,10 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 	}); err != nil {
 		return err
 	}
-	rf.OpponentDial = p.ask("Opponent's dial (Enter if not known)", "")
+	// Only an elimination has another lane to race: a time trial runs alone.
+	if s, _ := engine.ParseSession(rf.Round); s.Kind == engine.Elimination {
+		rf.OpponentDial = p.ask("Other lane's dial (Enter if not known)", "")
+	}
 
 	// Log the reading, then the card. A reading the disk refuses still
 	// makes the card; the crew hears it was not saved.
@@ -295,7 +299,7 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 	}
 	dial := ""
 	if c.HasFinal && in.Session.Kind == engine.Elimination {
-		dial = dialString(c.FinalDial, e.Settings.DialStep)
+		dial = prep.DialText(c.FinalDial, e.Settings.DialStep)
 	}
 	questions := []struct{ key, question, def string }{
 		{"dial", "Dial-in posted", dial}, {"rt", "Reaction time (.021)", ""}, {"et60", "60 ft", ""}, {"et330", "330 ft", ""},
@@ -310,7 +314,7 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 		return err
 	}
 	for _, q := range questions {
-		if (q.key == "et1000" && in.Car.DistanceFt < 1000) || (q.key == "et660" || q.key == "mph660") && in.Car.DistanceFt < 660 {
+		if slipTimerFt[q.key] > in.Car.DistanceFt { // no timer past the car's finish line
 			continue
 		}
 		slip.Names[q.key] = q.question
@@ -353,7 +357,7 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 	if in.Session.Kind == engine.Elimination {
 		oppDial := ""
 		if in.OpponentDial.Valid {
-			oppDial = dialString(in.OpponentDial.Decimal, e.Settings.DialStep)
+			oppDial = prep.DialText(in.OpponentDial.Decimal, e.Settings.DialStep)
 		}
 		check := func(name string) func(string) error {
 			return func(a string) error { return engine.CheckSlipField("rt", name, a) }
@@ -371,6 +375,15 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 	}
 	fmt.Fprintln(o.s.Out, "Next round: pitcard round")
 	return broken
+}
+
+// slipTimerFt is the distance of each timed field of the slip, ft.
+var slipTimerFt = map[string]float64{"et660": 660, "mph660": 660, "et1000": 1000, "et1320": 1320, "mph1320": 1320}
+
+// inUnits says a range given in pitcard's imperial limits in the crew's
+// units (conv converts one end), to two decimals.
+func inUnits(r [2]float64, conv func(float64) float64) [2]float64 {
+	return [2]float64{math.Round(conv(r[0])*100) / 100, math.Round(conv(r[1])*100) / 100}
 }
 
 // inRange refuses a value outside its valid range, naming the field.

@@ -238,7 +238,7 @@ func rulesTryRun(cmd *cobra.Command, o *rulesTryOptions) error {
 		for _, r := range c.Rules {
 			x := result{File: r.File, Defines: r.Defines, Checks: []check{}, Notes: r.Notes, Log: r.Log, Errors: []string{}, TookMS: round(float64(r.Took.Microseconds())/1000, 2)}
 			if r.HasAdjust {
-				x.Adjust, x.Reason = r.Adjust.StringFixed(2), r.Reason
+				x.Adjust, x.Reason = prep.DialText(r.Adjust, in.Settings.DialStep), r.Reason
 			}
 			for _, ch := range r.Checks {
 				x.Checks = append(x.Checks, check{ch.Label, ch.Status, ch.Note})
@@ -255,14 +255,14 @@ func rulesTryRun(cmd *cobra.Command, o *rulesTryOptions) error {
 			out = append(out, x)
 		}
 		return writeJSON(o.s.Out, map[string]any{"round": c.Title, "recommended_dial": recommendedText(c), "rules": out,
-			"rule_total": c.TotalAdjust.StringFixed(2), "final_dial": finalText(c), "flag": c.AdjustFlag})
+			"rule_total": prep.DialText(c.TotalAdjust, in.Settings.DialStep), "final_dial": finalText(c), "flag": c.AdjustFlag})
 	}
 	w := o.s.Out
 	fmt.Fprintf(w, "%s, called %s. Recommended dial before the rules: %s.\n", c.Title, in.Call.Format("15:04"), recommendedText(c))
 	for _, r := range c.Rules {
 		fmt.Fprintf(w, "\n%s (%s) took %.1f ms\n", r.File, strings.Join(r.Defines, ", "), float64(r.Took.Microseconds())/1000)
 		if r.HasAdjust {
-			fmt.Fprintf(w, "  dial %s s: %s\n", signedDecimal(r.Adjust), r.Reason)
+			fmt.Fprintf(w, "  dial %s s: %s\n", prep.SignedDialText(r.Adjust, in.Settings.DialStep), r.Reason)
 		}
 		for _, ch := range r.Checks {
 			fmt.Fprintf(w, "  [%s] %s", ch.Status, ch.Label)
@@ -279,7 +279,7 @@ func rulesTryRun(cmd *cobra.Command, o *rulesTryOptions) error {
 		}
 	}
 	if c.HasFinal {
-		fmt.Fprintf(w, "\nRules add %s s: final dial %s.\n", signedDecimal(c.TotalAdjust), finalText(c))
+		fmt.Fprintf(w, "\nRules add %s s: final dial %s.\n", prep.SignedDialText(c.TotalAdjust, in.Settings.DialStep), finalText(c))
 	}
 	if c.AdjustFlag != "" {
 		fmt.Fprintln(w, "Flag: "+c.AdjustFlag)
@@ -291,12 +291,12 @@ func recommendedText(c prep.Card) string {
 	if c.PlanErr != nil || len(c.Plan.Options) == 0 {
 		return "none (no prediction)"
 	}
-	return dialString(c.Plan.Recommended, c.Input.Settings.DialStep)
+	return prep.DialText(c.Plan.Recommended, c.Input.Settings.DialStep)
 }
 
 func finalText(c prep.Card) string {
 	if !c.HasFinal {
 		return ""
 	}
-	return dialString(c.FinalDial, c.Input.Settings.DialStep)
+	return prep.DialText(c.FinalDial, c.Input.Settings.DialStep)
 }

@@ -386,14 +386,44 @@ func TestOutputFitsTheWidth(t *testing.T) {
 			t.Errorf("%v: a line of %d columns:\n%s", args, w, line)
 		}
 	}
+	// An 80-column terminal: log stats was 92 wide, log list 88, race 99
+	// (a winner line 101 and more), dial's recommendation line 86.
+	race := []string{"race", "--left-dial", "11.52", "--left-rt", ".021", "--left-et", "11.538", "--left-mph", "116.79",
+		"--right-dial", "12.10", "--right-rt", "-.034", "--right-et", "12.118", "--right-foul"}
+	for _, args := range [][]string{{"card", "--round", "3", "--lane", "left"}, {"log", "stats"}, {"log", "list"}, {"log", "list", "--last", "80"},
+		race, {"dial", "--opponent-dial", "11.40"}, {"dial", "--dial-step", "0.005", "--opponent-dial", "10.125"},
+		{"predict", "--latest"}, {"air", "--latest"}, {"weather", "list"}, {"rules", "list"}} {
+		t.Run(strings.Join(args, " "), func(t *testing.T) {
+			var out, errb bytes.Buffer
+			s := &IOStreams{In: strings.NewReader(""), Out: &out, Err: &errb, Now: func() time.Time { return fixedNow }, Terminal: true, Width: 80}
+			if code := run(append(args, "--dir", dir), s); code != 0 {
+				t.Fatalf("exit %d %s", code, errb.String())
+			}
+			plain := regexp.MustCompile("\x1b\\[[0-9;]*m").ReplaceAllString(out.String(), "")
+			if w, line := widest(plain); w > 80 {
+				t.Errorf("an 80-column terminal got a line of %d:\n%s", w, line)
+			}
+		})
+	}
+}
+
+// dial's posted row stood one character left of the others: its highlight
+// padded the dial on both sides in a right-aligned column.
+func TestPostedDialLinesUp(t *testing.T) {
 	var out, errb bytes.Buffer
 	s := &IOStreams{In: strings.NewReader(""), Out: &out, Err: &errb, Now: func() time.Time { return fixedNow }, Terminal: true, Width: 80}
-	if code := run([]string{"card", "--dir", dir, "--round", "3", "--lane", "left"}, s); code != 0 {
+	if code := run([]string{"dial", "--demo"}, s); code != 0 {
 		t.Fatalf("exit %d %s", code, errb.String())
 	}
 	plain := regexp.MustCompile("\x1b\\[[0-9;]*m").ReplaceAllString(out.String(), "")
-	if w, line := widest(plain); w > 80 {
-		t.Errorf("an 80-column terminal got a line of %d:\n%s", w, line)
+	ends := map[int]bool{}
+	for _, l := range strings.Split(plain, "\n") {
+		if m := regexp.MustCompile(`^│ *(\d+\.\d+) *│`).FindStringSubmatchIndex(l); m != nil {
+			ends[utf8.RuneCountInString(l[:m[3]])] = true
+		}
+	}
+	if len(ends) != 1 {
+		t.Errorf("the dials end in %d different columns:\n%s", len(ends), plain)
 	}
 }
 
