@@ -252,7 +252,7 @@ func Gather(in Input) Card {
 	}
 	if lim := in.Settings.MaxRuleAdjust; lim.IsPositive() && c.TotalAdjust.Abs().GreaterThan(lim) {
 		c.AdjustFlag = fmt.Sprintf("the rules add up to %s s, beyond the ±%s s the settings allow without a second look (max_rule_adjust)",
-			signedDec(c.TotalAdjust), lim.String())
+			SignedDialText(c.TotalAdjust, in.Settings.DialStep), lim.String())
 		c.Checks = append([]scripts.Check{{Label: "Rule adjustments", Status: scripts.Warn, Note: c.AdjustFlag, File: "pitcard"}}, c.Checks...)
 	}
 	if c.PlanErr == nil && err == nil {
@@ -358,12 +358,6 @@ func todaysRecord(fit engine.Fit, cal engine.CalibrateInput, in Input) ([]Record
 	return out, sum / float64(n)
 }
 
-func signedDec(d decimal.Decimal) string {
-	if d.IsNegative() {
-		return d.StringFixed(2)
-	}
-	return "+" + d.StringFixed(2)
-}
 
 // WinRows is how many dials either side of the breakout rule's the chance
 // to win is searched over.

@@ -116,7 +116,7 @@ func newView(c Card) view {
 	v.Subtitle = append(v.Subtitle, call)
 	car := OrDash(in.Car.Name)
 	if in.OpponentDial.Valid {
-		car += " · opponent dials " + in.OpponentDial.Decimal.StringFixed(2)
+		car += " · opponent dials " + DialText(in.OpponentDial.Decimal, in.Settings.DialStep)
 	}
 	v.Subtitle = append(v.Subtitle, car)
 
@@ -142,7 +142,7 @@ func newView(c Card) view {
 			}
 		}
 		for _, a := range c.Adjustments {
-			v.DialLines = append(v.DialLines, fmt.Sprintf("%s s %s (%s)", signedDec(a.Adjust), a.Reason, a.File))
+			v.DialLines = append(v.DialLines, fmt.Sprintf("%s s %s (%s)", SignedDialText(a.Adjust, step), a.Reason, a.File))
 		}
 
 		if len(c.Adjustments) > 0 {
@@ -276,7 +276,7 @@ func newView(c Card) view {
 	for _, r := range c.Rules {
 		adj, result := "", "ok"
 		if r.HasAdjust {
-			adj, result = signedDec(r.Adjust), r.Reason
+			adj, result = SignedDialText(r.Adjust, in.Settings.DialStep), r.Reason
 		}
 		if len(r.Errors) > 0 {
 			result = "FAILED: " + r.Errors[0].Error()
