@@ -81,7 +81,7 @@ func PassAsJSON(p engine.Pass, trk engine.Track) PassJSON {
 		j.TempF = OptFloat(p.Air.Temp.Fahrenheit(), true, 2)
 		j.BaroInHg = OptFloat(p.Air.Baro.InHg(), true, 3)
 		j.RHPct = OptFloat(p.Air.RH*100, true, 1)
-		j.DAFt = OptFloat(p.Air.Derive(ElevationFor(p, trk)).DensityAltitude.Feet(), true, 0)
+		j.DAFt = OptFloat(weather.RoundDensityAltitude(p.Air.Derive(ElevationFor(p, trk)).DensityAltitude.Feet(), weather.UnitFt), true, 0)
 	}
 	j.TrackF = OptFloat(p.Air.TrackTemp.Fahrenheit(), p.Air.HasTrack, 1)
 	j.WeightLb = OptFloat(p.WeightLb, p.WeightLb > 0, 1)

@@ -207,7 +207,7 @@ func (s *Server) postReading(q *request) {
 	}
 	r := added.Reading
 	s.logf("reading %s added by the crew from %s: %s, DA %s", r.Time.Format("15:04"), q.r.RemoteAddr,
-		r.Temp.Format(q.folder.Settings.Units.Temp, 1), r.Derive(added.Elevation).DensityAltitude.Format(q.folder.Settings.Units.Length))
+		r.Temp.Format(q.folder.Settings.Units.Temp, 1), r.Derive(added.Elevation).DensityAltitude.FormatDensityAltitude(q.folder.Settings.Units.Length))
 	http.Redirect(q.w, q.r, "/?saved=reading"+roundParam(p.Round), http.StatusSeeOther)
 }
 
@@ -459,7 +459,7 @@ func (s *Server) weatherPage(q *request) {
 			track = r.TrackTemp.Format(u.Temp, 0)
 		}
 		t.Rows = append(t.Rows, []string{r.Time.Format("15:04"), r.Temp.Format(u.Temp, 1), a.Station.Format(u.Pressure),
-			fmt.Sprintf("%.0f %%", a.RH*100), track, a.DensityAltitude.Format(u.Length)})
+			fmt.Sprintf("%.0f %%", a.RH*100), track, a.DensityAltitude.FormatDensityAltitude(u.Length)})
 	}
 	// Newest first: the top row is the one the crew looks for.
 	for i, j := 0, len(t.Rows)-1; i < j; i, j = i+1, j-1 {
@@ -471,7 +471,7 @@ func (s *Server) weatherPage(q *request) {
 		call := c.Input.Call
 		if f, err := weather.ForecastAt(today, call, elev); err == nil {
 			trend := fmt.Sprintf("At the %s call (%s): density altitude %s ± %s, %s.", call.Format("15:04"), c.Input.Session.Long(),
-				f.Air.DensityAltitude.Format(u.Length), f.DAError.Format(u.Length), f.Reading.Temp.Format(u.Temp, 1))
+				f.Air.DensityAltitude.FormatDensityAltitude(u.Length), f.DAError.Format(u.Length), f.Reading.Temp.Format(u.Temp, 1))
 			p.Said = append(p.Said, trend, prep.UpperFirst(strings.Join(f.Notes, "; "))+".")
 			if !f.Trusted {
 				p.Said = append(p.Said, "Not to be trusted: take a fresh reading.")

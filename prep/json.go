@@ -155,6 +155,9 @@ func airJSON(a weather.Air, r weather.Reading, in Input) map[string]any {
 			m[k] = round(f, placesFor(k))
 		}
 	}
+	if f, ok := m["density_altitude_ft"].(float64); ok {
+		m["density_altitude_ft"] = weather.RoundDensityAltitude(f, weather.UnitFt)
+	}
 	m["time"] = r.Time.Format(time.RFC3339)
 	if in.Track.Name != "" {
 		m["headwind_mph"] = round(r.HeadwindComponent(in.Track.HeadingDeg).MPH(), 1)

@@ -241,7 +241,7 @@ func Gather(in Input) Card {
 	}
 	c.RuleContext = RuleContext(c)
 	c.Rules = scripts.Run(in.Rules, in.RulesFS, c.RuleContext, in.Settings.RuleLimits)
-	c.Checks = SafetyChecks(SafetyFor(in.Car, c.Prediction, in.Call))
+	c.Checks = SafetyChecks(SafetyFor(in.Car, c.Prediction, in.Call, in.Settings.Units))
 	for _, r := range c.Rules {
 		if r.HasAdjust {
 			c.Adjustments = append(c.Adjustments, RuleLine{File: r.File, Adjust: r.Adjust, Reason: r.Reason})
@@ -357,7 +357,6 @@ func todaysRecord(fit engine.Fit, cal engine.CalibrateInput, in Input) ([]Record
 	}
 	return out, sum / float64(n)
 }
-
 
 // WinRows is how many dials either side of the breakout rule's the chance
 // to win is searched over.

@@ -2,12 +2,14 @@ package prep
 
 import (
 	"fmt"
+	"math"
 	"strconv"
 	"strings"
 	"time"
 
 	"pitcard/engine"
 	"pitcard/scripts"
+	"pitcard/weather"
 )
 
 // SafetyFile is the name the built-in safety checks carry on the checklist
@@ -35,11 +37,14 @@ type SafetyInput struct {
 	// when no trap speed is predicted.
 	FastMPH float64
 	Day     time.Time
+	// Units are the crew's: a metric card's checks speak km/h (the limits
+	// stay as entered, in mph, beside them).
+	Units weather.Units
 }
 
 // SafetyFor is the safety input of a prediction (none when p has no timers).
-func SafetyFor(car engine.Car, p engine.Prediction, day time.Time) SafetyInput {
-	in := SafetyInput{Limits: car.Limits(), DistanceFt: car.DistanceFt, Day: day}
+func SafetyFor(car engine.Car, p engine.Prediction, day time.Time, u weather.Units) SafetyInput {
+	in := SafetyInput{Limits: car.Limits(), DistanceFt: car.DistanceFt, Day: day, Units: u}
 	if len(p.Timers) > 0 {
 		in.QuickET = p.Finish().Low
 	}
@@ -62,6 +67,15 @@ func SafetyChecks(in SafetyInput) []scripts.Check {
 		out = append(out, scripts.Check{Label: label, Status: status, Note: note, File: SafetyFile})
 	}
 	l := in.Limits
+	// speed is a trap speed as a slip prints it (hundredths of a mph), and
+	// in km/h beside it on a metric card.
+	speed := func(mph float64) string {
+		t := strconv.FormatFloat(math.Round(mph*100)/100, 'f', -1, 64) + " mph"
+		if in.Units.Speed == weather.UnitKMH {
+			t = weather.MPH(mph).Format(weather.UnitKMH, 1) + " (" + t + ")"
+		}
+		return t
+	}
 	for _, p := range l.Problems {
 		add("Car's limits", scripts.Fail, p+": that limit is not being checked")
 	}
@@ -86,11 +100,11 @@ func SafetyChecks(in SafetyInput) []scripts.Check {
 	case in.FastMPH == 0:
 		add("MPH limit", scripts.Warn, "no trap speed predicted to compare with the car's limit_mph")
 	case in.FastMPH > l.MPH:
-		add("MPH limit", scripts.Fail, fmt.Sprintf("could trap %.1f mph (the fast end of the 95 %% interval): over the car's %s limit of %s mph", in.FastMPH, dist, num(l.MPH)))
+		add("MPH limit", scripts.Fail, fmt.Sprintf("could trap %s (the fast end of the 95 %% interval): over the car's %s limit of %s", speed(in.FastMPH), dist, speed(l.MPH)))
 	case in.FastMPH > l.MPH-WarnMPHMargin:
-		add("MPH limit", scripts.Warn, fmt.Sprintf("could trap %.1f mph (the fast end of the 95 %% interval), within %.0f mph of the car's %s limit of %s mph", in.FastMPH, WarnMPHMargin, dist, num(l.MPH)))
+		add("MPH limit", scripts.Warn, fmt.Sprintf("could trap %s (the fast end of the 95 %% interval), within %.0f mph of the car's %s limit of %s", speed(in.FastMPH), WarnMPHMargin, dist, speed(l.MPH)))
 	default:
-		add("MPH limit", scripts.Pass, fmt.Sprintf("fastest likely %.1f mph (the fast end of the 95 %% interval) against the car's %s limit of %s mph", in.FastMPH, dist, num(l.MPH)))
+		add("MPH limit", scripts.Pass, fmt.Sprintf("fastest likely %s (the fast end of the 95 %% interval) against the car's %s limit of %s", speed(in.FastMPH), dist, speed(l.MPH)))
 	}
 
 	fitted := "no chute fitted"
@@ -103,9 +117,9 @@ func SafetyChecks(in SafetyInput) []scripts.Check {
 	case in.FastMPH == 0:
 		add("Parachute", scripts.Warn, "no trap speed predicted to compare with chute_needed_mph")
 	case in.FastMPH >= l.ChuteNeededMPH && !l.Chute:
-		add("Parachute", scripts.Fail, fmt.Sprintf("could trap %.1f mph and %s; you entered %s mph as needing one", in.FastMPH, fitted, num(l.ChuteNeededMPH)))
+		add("Parachute", scripts.Fail, fmt.Sprintf("could trap %s and %s; you entered %s as needing one", speed(in.FastMPH), fitted, speed(l.ChuteNeededMPH)))
 	default:
-		add("Parachute", scripts.Pass, fmt.Sprintf("fastest likely %.1f mph; a chute is needed from %s mph", in.FastMPH, num(l.ChuteNeededMPH)))
+		add("Parachute", scripts.Pass, fmt.Sprintf("fastest likely %s; a chute is needed from %s", speed(in.FastMPH), speed(l.ChuteNeededMPH)))
 	}
 
 	add(beltsCheck(l, in.Day))

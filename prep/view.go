@@ -192,7 +192,9 @@ func newView(c Card) view {
 	row := func(name string, f func(weather.Air, weather.Reading) string) {
 		v.Air.Rows = append(v.Air.Rows, []string{name, f(c.AirNow, c.AirNowRead), f(c.AirCall, in.Air)})
 	}
-	row("Density altitude", func(a weather.Air, _ weather.Reading) string { return a.DensityAltitude.Format(u.Length) })
+	row("Density altitude", func(a weather.Air, _ weather.Reading) string {
+		return a.DensityAltitude.FormatDensityAltitude(u.Length)
+	})
 	row("Relative air density", func(a weather.Air, _ weather.Reading) string { return fmt.Sprintf("%.1f %%", a.RelativeDensity) })
 	row("Air temperature", func(_ weather.Air, r weather.Reading) string { return r.Temp.Format(u.Temp, 1) })
 	row("Station pressure", func(a weather.Air, _ weather.Reading) string { return a.Station.Format(u.Pressure) })
@@ -435,12 +437,18 @@ func windWords(r weather.Reading, heading float64, u weather.Units) string {
 	if r.WindDirUnknown {
 		return r.Wind.Format(u.Speed, 0) + ", direction not read"
 	}
+	return fmt.Sprintf("%s from %03.0f° (%s)", r.Wind.Format(u.Speed, 0), r.WindFrom, HeadwindWords(r, heading, u))
+}
+
+// HeadwindWords is the wind along the strip, one way on every screen:
+// "0.6 mph tailwind", "2.1 km/h headwind" (a tenth: a light wind's
+// component is often under one).
+func HeadwindWords(r weather.Reading, heading float64, u weather.Units) string {
 	hw := r.HeadwindComponent(heading)
-	dir := "head"
 	if hw < 0 {
-		dir, hw = "tail", -hw
+		return weather.Speed(-hw).Format(u.Speed, 1) + " tailwind"
 	}
-	return fmt.Sprintf("%s from %03.0f° (%s %s)", r.Wind.Format(u.Speed, 0), r.WindFrom, weather.Speed(hw).Format(u.Speed, 0), dir)
+	return weather.Speed(hw).Format(u.Speed, 1) + " headwind"
 }
 
 // dialText is DialText, as the card's layout calls it.

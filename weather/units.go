@@ -235,6 +235,30 @@ func (l Length) Format(u LengthUnit) string {
 	return strconv.FormatFloat(math.Round(l.In(u)), 'f', 0, 64) + " " + u.String()
 }
 
+// DensityAltitudeStep is the step a density altitude is shown in: 10 ft, or
+// 5 m in metric. A handheld meter's ±1 °F and ±0.01 inHg move density
+// altitude by about ±70 ft (NWS density-altitude formula, worked through),
+// so a figure to the foot claims a precision no reading has; ten feet is
+// also how racers quote it (common practice, no source).
+var DensityAltitudeStep = map[LengthUnit]float64{UnitFt: 10, UnitM: 5}
+
+// FormatDensityAltitude prints a density altitude in unit u to its
+// DensityAltitudeStep: "4430 ft", "1350 m". The one formatter of the figure
+// on every screen.
+func (l Length) FormatDensityAltitude(u LengthUnit) string {
+	return strconv.FormatFloat(RoundDensityAltitude(l.In(u), u), 'f', 0, 64) + " " + u.String()
+}
+
+// RoundDensityAltitude rounds a density altitude v, in unit u, to its step
+// (for the JSON figures: density_altitude_ft).
+func RoundDensityAltitude(v float64, u LengthUnit) float64 {
+	step := DensityAltitudeStep[u]
+	if step == 0 {
+		step = 1
+	}
+	return math.Round(v/step) * step
+}
+
 // String prints the length in ft.
 func (l Length) String() string { return l.Format(UnitFt) }
 

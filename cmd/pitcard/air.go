@@ -10,6 +10,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"pitcard/event"
+	"pitcard/prep"
 	"pitcard/weather"
 )
 
@@ -151,7 +152,7 @@ type airReport struct {
 func newAirReport(r weather.Reading, elev weather.Length, heading float64, haveHeading bool) airReport {
 	a := r.Derive(elev)
 	rep := airReport{
-		DensityAltitudeFt:     round(a.DensityAltitude.Feet(), 0),
+		DensityAltitudeFt:     weather.RoundDensityAltitude(a.DensityAltitude.Feet(), weather.UnitFt),
 		PressureAltitudeFt:    round(a.PressureAltitude.Feet(), 0),
 		AirDensityKgM3:        round(a.Density, 5),
 		RelativeAirDensityPct: round(a.RelativeDensity, 2),
@@ -197,7 +198,7 @@ func airRows(t table.Writer, r weather.Reading, a weather.Air, elev weather.Leng
 	}
 	t.AppendHeader(table.Row{"Figure", "Value", "Notes"})
 	t.AppendRows([]table.Row{
-		{"Density altitude", a.DensityAltitude.Format(u.Length), fmt.Sprintf("standard air at %s would be this dense", a.DensityAltitude.Format(u.Length))},
+		{"Density altitude", a.DensityAltitude.FormatDensityAltitude(u.Length), fmt.Sprintf("standard air at %s would be this dense", a.DensityAltitude.FormatDensityAltitude(u.Length))},
 		{"Pressure altitude", a.PressureAltitude.Format(u.Length), ""},
 		{"Relative air density", fmt.Sprintf("%.1f %%", a.RelativeDensity), "of dry air at 15 °C, 1013.25 hPa"},
 		{"Air density", fmt.Sprintf("%.4f kg/m³", a.Density), ""},
@@ -205,7 +206,7 @@ func airRows(t table.Writer, r weather.Reading, a weather.Air, elev weather.Leng
 		{"Station pressure", a.Station.Format(u.Pressure), stationNote(r)},
 		{"Altimeter setting", altimeter, altNote},
 		{"Relative humidity", fmt.Sprintf("%.0f %%", a.RH*100), ""},
-		{"Dew point", a.DewPoint.Format(u.Temp, 1), ""},
+		{"Dew point", a.DewPoint.Format(u.Temp, 0), ""},
 		{"Vapor pressure", fmt.Sprintf("%.2f hPa", a.Vapor.HPa()), fmt.Sprintf("saturation %.2f hPa", a.Saturation.HPa())},
 		{"Water", water(a, u), "of dry air"},
 		{"Virtual temperature", a.VirtualTemp.Format(u.Temp, 1), "dry air this warm would be as dense"},
@@ -220,12 +221,7 @@ func airRows(t table.Writer, r weather.Reading, a weather.Air, elev weather.Leng
 	t.AppendSeparator()
 	wind, note := windText(r, u), ""
 	if haveHeading && r.Wind > 0 {
-		hw := r.HeadwindComponent(heading)
-		if hw >= 0 {
-			note = weather.Speed(hw).Format(u.Speed, 1) + " headwind"
-		} else {
-			note = weather.Speed(-hw).Format(u.Speed, 1) + " tailwind"
-		}
+		note = prep.HeadwindWords(r, heading, u)
 	}
 	t.AppendRow(table.Row{"Wind", wind, note})
 	if r.HasTrack {

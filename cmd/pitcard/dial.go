@@ -152,7 +152,7 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 				// No dial table from too few passes: the estimate is a guide.
 				return noDial(o, est, why, leftOut)
 			}
-			post = dialPost{failed: prep.Failed(prep.SafetyChecks(prep.SafetyFor(n.Car, n.Pred, n.When)))}
+			post = dialPost{failed: prep.Failed(prep.SafetyChecks(prep.SafetyFor(n.Car, n.Pred, n.When, e.Settings.Units)))}
 			if c, ok := o.card(e, askedLatest); ok {
 				// The round's card: the same prediction, rules and checks
 				// as 'pitcard card', so both post one number.
@@ -183,7 +183,7 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 			return err
 		}
 		post.failed = prep.Failed(prep.SafetyChecks(prep.SafetyInput{Limits: car.Limits(), DistanceFt: car.DistanceFt,
-			QuickET: est.ET - engine.IntervalZ*est.SD, Day: o.s.Now()}))
+			QuickET: est.ET - engine.IntervalZ*est.SD, Day: o.s.Now(), Units: e.Settings.Units}))
 	}
 	plan, err := engine.PlanDial(est, e.Settings.DialStep, e.Settings.BreakoutRisk, o.Rows)
 	if err != nil {

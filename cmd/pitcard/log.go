@@ -113,7 +113,7 @@ func logAddRun(cmd *cobra.Command, o *logAddOptions) error {
 		p.Time.Format("2006-01-02 15:04"), p.Session.Long(), p.Lane, engine.FormatSeconds(et, 3), ft, engine.Plural(lp.Count, "pass"), e.Name(event.LogbookFile))
 	if p.HasAir {
 		fmt.Fprintf(o.s.Out, "Conditions from %s: %s, density altitude %s.\n", lp.Source,
-			p.Air.Temp.Format(e.Settings.Units.Temp, 1), p.Air.Derive(lp.Elevation).DensityAltitude.Format(e.Settings.Units.Length))
+			p.Air.Temp.Format(e.Settings.Units.Temp, 1), p.Air.Derive(lp.Elevation).DensityAltitude.FormatDensityAltitude(e.Settings.Units.Length))
 	}
 	if lp.Decided != "" {
 		fmt.Fprintln(o.s.Out, prep.Wrap(lp.Decided, o.s.width(), "  "))
@@ -328,7 +328,7 @@ func logListRun(cmd *cobra.Command, o *logListOptions) error {
 	for _, p := range passes {
 		da := ""
 		if p.HasAir {
-			da = p.Air.Derive(event.ElevationFor(p, trk)).DensityAltitude.Format(u.Length)
+			da = p.Air.Derive(event.ElevationFor(p, trk)).DensityAltitude.FormatDensityAltitude(u.Length)
 		}
 		row := table.Row{p.Time.Format("2006-01-02"), p.Time.Format("15:04"), p.Session.String(), p.Lane, sec(p.Dial, 2), sec(p.RT, 3)}
 		for i, ft := range engine.Timers {

@@ -284,7 +284,7 @@ func printPrediction(s *IOStreams, n nextPass, format string) {
 	if n.Cond.Reading.HasTrack {
 		track = "track " + n.Cond.Reading.TrackTemp.Format(u.Temp, 0)
 	}
-	fmt.Fprintln(s.Out, prep.Wrap(fmt.Sprintf("Air: density altitude %s, %s, %s, prep %s (%s).", a.DensityAltitude.Format(u.Length),
+	fmt.Fprintln(s.Out, prep.Wrap(fmt.Sprintf("Air: density altitude %s, %s, %s, prep %s (%s).", a.DensityAltitude.FormatDensityAltitude(u.Length),
 		n.Cond.Reading.Temp.Format(u.Temp, 1), track, engine.PrepName(n.Prep), n.Cond.Source), s.width(), "  "))
 	for _, l := range prep.Explain(p, n.Fit, n.Units) {
 		fmt.Fprintln(s.Out, prep.Wrap("- "+l, s.width(), "  "))

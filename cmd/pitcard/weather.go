@@ -115,7 +115,7 @@ func weatherAddRun(cmd *cobra.Command, o *weatherAddOptions) error {
 	a := r.Derive(added.Elevation)
 	u := e.Settings.Units
 	fmt.Fprintf(o.s.Out, "Added the %s reading to %s (%s): density altitude %s, %s, %.0f %% RH.\n",
-		r.Time.Format("15:04"), e.Name(event.WeatherFile), engine.Plural(added.Count, "reading"), a.DensityAltitude.Format(u.Length), r.Temp.Format(u.Temp, 1), a.RH*100)
+		r.Time.Format("15:04"), e.Name(event.WeatherFile), engine.Plural(added.Count, "reading"), a.DensityAltitude.FormatDensityAltitude(u.Length), r.Temp.Format(u.Temp, 1), a.RH*100)
 	return nil
 }
 
@@ -141,7 +141,7 @@ func weatherStreamRun(cmd *cobra.Command, o *weatherAddOptions) error {
 		added++
 		r := l.Added.Reading
 		fmt.Fprintf(o.s.Out, "line %d: added the %s reading: density altitude %s, %s.\n", l.Line, r.Time.Format("15:04"),
-			r.Derive(l.Added.Elevation).DensityAltitude.Format(u.Length), r.Temp.Format(u.Temp, 1))
+			r.Derive(l.Added.Elevation).DensityAltitude.FormatDensityAltitude(u.Length), r.Temp.Format(u.Temp, 1))
 	})
 	if err != nil {
 		return err
@@ -232,7 +232,7 @@ func weatherListRun(cmd *cobra.Command, o *weatherListOptions) error {
 		}
 		t.AppendRow(table.Row{when, r.Temp.Format(u.Temp, 1), a.Station.Format(u.Pressure), fmt.Sprintf("%.0f %%", a.RH*100),
 			a.DewPoint.Format(u.Temp, 0), windText(r, u), track,
-			a.DensityAltitude.Format(u.Length), r.Note})
+			a.DensityAltitude.FormatDensityAltitude(u.Length), r.Note})
 	}
 	compact(t)
 	render(o.s, t, o.Format)
