@@ -252,3 +252,33 @@ func TestListsAsCSV(t *testing.T) {
 		t.Errorf("log list --format csv --last 0 must be the logbook")
 	}
 }
+
+// One line over the stream's 64 KB limit (a logger gone wrong) is reported
+// by its number, without its bytes, and the good lines after it are still
+// read; lines ended by a bare CR (an old logger) or CRLF are read as lines.
+func TestReadingsStreamSurvivesALongLine(t *testing.T) {
+	dir := newFolder(t)
+	in := "temp=88F baro=28.92inHg humidity=40% time=19:10\n" +
+		"notes=" + strings.Repeat("x", 70<<10) + "\n" +
+		"temp=80 baro=28.9 humidity=44 time=19:12\r\n" +
+		"temp=81 baro=28.9 humidity=44 time=19:13\r" +
+		"temp=82 baro=28.9 humidity=44 time=19:14\n"
+	var out, errb strings.Builder
+	s := &IOStreams{In: strings.NewReader(in), Out: &out, Err: &errb, Now: func() time.Time { return fixedNow }}
+	code := run([]string{"weather", "add", "-", "--dir", dir, "--elevation", "2240ft"}, s)
+	if code != exitBadInput {
+		t.Errorf("exit %d, want 2 (a bad line)", code)
+	}
+	if !strings.Contains(errb.String(), "standard input line 2") || !strings.Contains(errb.String(), "64 KB") || errb.Len() > 2000 {
+		t.Errorf("the long line's report (%d bytes): %.500q", errb.Len(), errb.String())
+	}
+	if !strings.Contains(out.String(), "Added 4 readings") {
+		t.Errorf("out %q\nerr %.300q", out.String(), errb.String())
+	}
+	w := read(t, filepath.Join(dir, event.WeatherFile))
+	for _, at := range []string{",19:10:00,", ",19:12:00,", ",19:13:00,", ",19:14:00,"} {
+		if !strings.Contains(w, at) {
+			t.Errorf("weather.csv lacks %s:\n%s", at, w)
+		}
+	}
+}
