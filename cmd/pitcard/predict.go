@@ -57,7 +57,7 @@ reading) or --at (the log's forecast for the call time); flags given with
 	fl.StringVar(&o.Track, "track", "", "")
 	fl.StringVar(&o.Log, "logbook", "", "")
 	for _, f := range []string{"car", "track", "logbook"} {
-		_ = fl.MarkDeprecated(f, "use --"+f+"-file")
+		deprecate(fl, f, "use --"+f+"-file")
 	}
 	fl.StringVar(&o.Format, "format", "text", "text, markdown or json")
 	withOut(cmd, s)
