@@ -274,3 +274,46 @@ func TestWindWithoutDirection(t *testing.T) {
 		t.Errorf("the direction came back as %v", back[0].WindFrom)
 	}
 }
+
+// A station pressure whose pressure altitude (NWS formula) lies more than
+// StationMargin below the track is refused: sea-level pressure has never
+// been recorded above about 1084 hPa (from memory), so such a figure is an
+// altimeter setting typed as station pressure. Standard station pressures
+// (U.S. Standard Atmosphere 1976: 24.71 inHg at 5200 ft) are accepted.
+func TestImpossibleStationPressure(t *testing.T) {
+	for _, tc := range []struct {
+		name    string
+		elevFt  float64
+		baro    float64
+		kind    PressureKind
+		refused bool
+	}{
+		{"airport figure as station at 5200 ft (NWS PA -170 ft)", 5200, 30.10, StationPressure, true},
+		{"airport figure as station at 3000 ft", 3000, 30.20, StationPressure, true},
+		{"standard station at 5200 ft (USSA 1976)", 5200, 24.71, StationPressure, false},
+		{"high pressure day at 5200 ft, 1050 hPa at sea level", 5200, 25.6, StationPressure, false},
+		{"29.92 at 2240 ft: within the margin (PA 0 ft)", 2240, 29.92, StationPressure, false},
+		{"record-high sea level 1083.8 hPa (from memory)", 0, 32.0, StationPressure, false},
+		{"the same figure as an altimeter setting", 5200, 30.10, AltimeterSetting, false},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			r := Reading{Temp: Fahrenheit(80), Baro: InHg(tc.baro), BaroKind: tc.kind, RH: 0.3}
+			err := r.Validate(Feet(tc.elevFt))
+			if !tc.refused {
+				if err != nil {
+					t.Errorf("refused: %v", err)
+				}
+				return
+			}
+			var ie *InputError
+			if !errors.As(err, &ie) || ie.Field != "baro" {
+				t.Fatalf("got %v, want an InputError on baro", err)
+			}
+			for _, w := range []string{"station pressure", "altimeter", "ft"} {
+				if !strings.Contains(err.Error(), w) {
+					t.Errorf("%q lacks %q", err, w)
+				}
+			}
+		})
+	}
+}

@@ -122,6 +122,9 @@ func (r Reading) Validate(h Length) error {
 		}
 		return rangeErr("baro", p, "inHg", StationRange)
 	}
+	if err := r.checkStationAt(h); err != nil {
+		return err
+	}
 	if r.DewPointSet {
 		if r.DewPoint > r.Temp+1e-9 {
 			return inputErr("dewpoint", r.DewPoint.Format(DegF, 1),
@@ -145,6 +148,35 @@ func (r Reading) Validate(h Length) error {
 		}
 	}
 	return nil
+}
+
+// StationMargin is how far, in feet, the pressure altitude of a station
+// pressure may lie below the track's elevation. The highest sea-level
+// pressure on record, about 1084 hPa (Siberia, 1968; from memory), is a
+// pressure altitude of −1,870 ft (NWS formula), and weather keeps sea-level
+// pressure mostly within 950..1050 hPa (+1,770..−990 ft). 2,500 ft leaves
+// room for a meter's error beyond the record, and still catches an airport's
+// altimeter setting typed as station pressure at any track above 2,500 ft.
+const StationMargin = 2500
+
+// checkStationAt refuses a station pressure the air cannot have at
+// elevation h: one whose pressure altitude is more than StationMargin below
+// h. Such a figure is an altimeter setting (reduced to sea level) entered as
+// station pressure; taken as station it gives a density altitude thousands of
+// feet too low.
+func (r Reading) checkStationAt(h Length) error {
+	if r.BaroKind != StationPressure {
+		return nil
+	}
+	pa := PressureAltitude(r.Baro).Feet()
+	if pa >= h.Feet()-StationMargin {
+		return nil
+	}
+	most := StationFromPressureAltitude(Feet(h.Feet() - StationMargin)).InHg()
+	return inputErr("baro", trimFloat(r.Baro.InHg())+" inHg",
+		"is impossible as station pressure at %s ft (at most about %.2f inHg there: it would be the pressure %.0f ft lower, "+
+			"beyond any sea-level pressure on record); an airport or app figure is an altimeter setting: say --baro-kind altimeter (baro_kind altimeter in a file)",
+		trimFloat(h.Feet()), most, h.Feet()-pa)
 }
 
 // PressureWarning returns a warning when the barometer figure looks like the
