@@ -30,8 +30,9 @@ type GroupStats struct {
 // are raw: not corrected for the air, which moves through a day.
 //
 // residual, when not nil, gives a pass's residual from the calibrated model
-// (Fit.Residuals) for the corrected spread.
-func Stats(passes []Pass, residual map[string]float64) []GroupStats {
+// (Fit.Residuals) for the corrected spread; aborts say which notes mark a
+// pass that is left out of the ET figures (nil: DefaultAbortWords).
+func Stats(passes []Pass, residual map[string]float64, aborts AbortWords) []GroupStats {
 	type key struct {
 		day  string
 		kind SessionKind
@@ -59,7 +60,7 @@ func Stats(passes []Pass, residual map[string]float64) []GroupStats {
 			if p.RT.Valid && !p.RT.Decimal.IsNegative() {
 				rts = append(rts, p.RT.Decimal.InexactFloat64())
 			}
-			if Aborted(p.Notes) {
+			if aborts.Aborted(p.Notes) {
 				continue
 			}
 			if et, ok := p.ETAt(s.Finish); ok {

@@ -210,7 +210,7 @@ func Seconds(flag, v string, lo, hi float64) (float64, error) {
 func (o *OpponentFields) Build(s Settings, dial decimal.NullDecimal, passes []engine.Pass) (*engine.Opponent, engine.RTModel, error) {
 	var logged []float64 // our reaction times, most recent first
 	for i := len(passes) - 1; i >= 0; i-- {
-		if p := passes[i]; p.RT.Valid && !engine.Aborted(p.Notes) {
+		if p := passes[i]; p.RT.Valid && !s.AbortWords.Aborted(p.Notes) {
 			logged = append(logged, p.RT.Decimal.InexactFloat64())
 		}
 	}
@@ -506,7 +506,7 @@ func (e *Folder) GatherRound(r RoundRequest, now time.Time) (prep.Input, []strin
 	in = prep.Input{
 		Car: car, Track: trk, Tracks: tracks, Passes: passes,
 		Settings: prep.Settings{Units: e.Settings.Units, DialStep: e.Settings.DialStep, BreakoutRisk: e.Settings.BreakoutRisk,
-			MaxRuleAdjust: e.Settings.MaxAdjust, RuleLimits: e.Settings.RuleLimits, MaxReadingAge: e.Settings.MaxReadingAge},
+			MaxRuleAdjust: e.Settings.MaxAdjust, RuleLimits: e.Settings.RuleLimits, MaxReadingAge: e.Settings.MaxReadingAge, Aborts: e.Settings.AbortWords},
 		Session: slot.Session, Lane: lane, OpponentDial: opp, Opponent: opponent, UsRT: usRT, PostBestForWin: e.Settings.PostBestForWin, Call: call, Now: now,
 		Air: air, AirSource: source, AirNow: airNow, Forecast: forecast, Elevation: elev, Prep: prepLvl, WeightLb: weight,
 		Rules: rules, RulesFS: e.FS, Ticked: notes.Ticked,

@@ -42,6 +42,9 @@ var SettingDefaults = map[string]any{
 	"rt_sd":              0.025,
 	// breakout-rule (the slowest dial within breakout_risk) or best-for-win
 	"post_dial": "breakout-rule",
+	// Words in a pass's notes that mark it as not the car's time, added to
+	// engine.DefaultAbortWords (a list, or one string of comma-separated words).
+	"abort_words": []string{},
 }
 
 // OpenOptions say which folder to open and what the front end sets over
@@ -180,6 +183,9 @@ func Open(o OpenOptions) (*Folder, error) {
 			return nil, settingErr(x.key, &weather.InputError{Field: x.key, Value: v.GetString(x.key), Reason: fmt.Sprintf("is outside %g..%g s", x.lo, x.hi)})
 		}
 	}
+	if s.AbortWords, err = abortWords(v.Get("abort_words")); err != nil {
+		return nil, settingErr("abort_words", err)
+	}
 	switch pd := v.GetString("post_dial"); pd {
 	case "breakout-rule":
 	case "best-for-win":
@@ -188,6 +194,30 @@ func Open(o OpenOptions) (*Folder, error) {
 		return nil, settingErr("post_dial", &weather.InputError{Field: "post_dial", Value: pd, Reason: "is not breakout-rule or best-for-win"})
 	}
 	return e, nil
+}
+
+// abortWords reads the setting abort_words: a YAML list of words, or (from
+// the environment or a flag) one string of comma-separated words.
+func abortWords(v any) (engine.AbortWords, error) {
+	var extra []string
+	switch x := v.(type) {
+	case nil:
+	case string:
+		extra = strings.Split(x, ",")
+	case []string:
+		extra = x
+	case []any:
+		for _, w := range x {
+			s, ok := w.(string)
+			if !ok {
+				return nil, &weather.InputError{Field: "abort_words", Value: fmt.Sprint(w), Reason: "is not a word (give a list of words, e.g. [chute early, lost fire])"}
+			}
+			extra = append(extra, s)
+		}
+	default:
+		return nil, &weather.InputError{Field: "abort_words", Value: fmt.Sprint(v), Reason: "is not a list of words (e.g. [chute early, lost fire])"}
+	}
+	return engine.DefaultAbortWords.With(extra), nil
 }
 
 // CheckSettingsKeys refuses keys pitcard.yaml does not know: a misspelt

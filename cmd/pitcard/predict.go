@@ -117,7 +117,7 @@ func forecastNext(e *eventFolder, cond conditionFlags, prepFlag, weightFlag stri
 	if len(passes) > 0 && passes[len(passes)-1].Time.After(upTo) {
 		upTo = passes[len(passes)-1].Time
 	}
-	fit, err := engine.Calibrate(engine.CalibrateInput{Car: car, Track: c.Track, Tracks: tracks, Passes: passes, Now: upTo})
+	fit, err := engine.Calibrate(engine.CalibrateInput{Car: car, Track: c.Track, Tracks: tracks, Passes: passes, Now: upTo, Aborts: e.Settings.AbortWords})
 	if err != nil {
 		return n, err
 	}
