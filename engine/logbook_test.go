@@ -210,3 +210,31 @@ func TestParseSecondsAsSlipsPrintThem(t *testing.T) {
 		}
 	}
 }
+
+// Two exports joined into one file repeat the header mid-file: that line is
+// named as the header again (not a date "date" that is not a date), and
+// rows ended by a bare CR (an old spreadsheet) or mixed CR/CRLF/LF are all
+// read.
+func TestLogbookRepeatedHeaderAndLineEndings(t *testing.T) {
+	second := strings.Replace(goodRow, "2026-06-13", "2026-06-14", 1)
+	lb, err := ReadLogbookFile(strings.NewReader(header+goodRow+header+second), "logbook.csv", time.UTC)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(lb.Passes) != 2 || len(lb.Bad) != 1 || !strings.Contains(lb.Bad[0].Error(), "line 3") || !strings.Contains(lb.Bad[0].Error(), "header") {
+		t.Errorf("passes %d, bad %v", len(lb.Passes), lb.Bad)
+	}
+	for _, tc := range []struct{ name, sep string }{{"CR", "\r"}, {"CRLF", "\r\n"}, {"mixed", "\r"}} {
+		t.Run(tc.name, func(t *testing.T) {
+			h, a, b := strings.TrimSuffix(header, "\n"), strings.TrimSuffix(goodRow, "\n"), strings.TrimSuffix(second, "\n")
+			data := h + tc.sep + a + tc.sep + b + tc.sep
+			if tc.name == "mixed" {
+				data = h + "\r\n" + a + "\r" + b + "\n"
+			}
+			passes, err := ReadLogbook(strings.NewReader(data), "logbook.csv", time.UTC)
+			if err != nil || len(passes) != 2 {
+				t.Errorf("%d passes, %v", len(passes), err)
+			}
+		})
+	}
+}

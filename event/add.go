@@ -242,11 +242,13 @@ func DecidedBy(p engine.Pass, dial, rt, et string, s Settings) (string, error) {
 	}
 	var them engine.LaneRun
 	var err error
+	// The other lane's slip is read and range-checked as ours is.
 	for _, f := range []struct {
 		flag, v string
 		dst     *decimal.Decimal
-	}{{"--opponent-dial", dial, &them.Dial}, {"--opponent-rt", rt, &them.RT}, {"--opponent-et", et, &them.ET}} {
-		if *f.dst, err = engine.ParseSeconds(f.flag, f.v); err != nil {
+		valid   [2]float64
+	}{{"--opponent-dial", dial, &them.Dial, engine.DialRange}, {"--opponent-rt", rt, &them.RT, engine.RTRange}, {"--opponent-et", et, &them.ET, engine.DialRange}} {
+		if *f.dst, err = engine.ParseSlipTime(f.flag, f.v, f.valid); err != nil {
 			return "", err
 		}
 	}

@@ -1,6 +1,7 @@
 package weather
 
 import (
+	"bytes"
 	"encoding/csv"
 	"errors"
 	"fmt"
@@ -85,6 +86,9 @@ func ReadLog(r io.Reader, name string, elev Length, loc *time.Location) ([]Readi
 			return nil, CSVError(name, err)
 		}
 		line, _ := cr.FieldPos(0)
+		if ie := RepeatedHeader(rec, header, name, line); ie != nil {
+			return nil, ie
+		}
 		if len(rec) != len(header) {
 			return nil, &InputError{File: name, Line: line, Field: "row",
 				Reason: fmt.Sprintf("has %d fields, the header has %d", len(rec), len(header))}
@@ -107,7 +111,7 @@ func ReadLog(r io.Reader, name string, elev Length, loc *time.Location) ([]Readi
 // (checked against the header by the caller), '#' lines as comments. It
 // returns the reader and the header, or a nil header for an empty file.
 func OpenCSV(r io.Reader, name string) (*csv.Reader, []string, error) {
-	cr := csv.NewReader(r)
+	cr := csv.NewReader(&lineEnds{r: r})
 	cr.FieldsPerRecord = -1
 	cr.Comment = '#'
 	header, err := cr.Read()
@@ -118,6 +122,79 @@ func OpenCSV(r io.Reader, name string) (*csv.Reader, []string, error) {
 		return nil, nil, CSVError(name, err)
 	}
 	return cr, header, nil
+}
+
+// lineEnds reads r with every line ended by LF: a bare CR (old spreadsheets
+// and loggers end lines with CR alone, which encoding/csv takes as part of a
+// field) becomes LF, and a CRLF stays as it is (encoding/csv drops its CR).
+// Line numbers are kept: one line end stays one.
+type lineEnds struct {
+	r       io.Reader
+	pending bool // the last chunk ended with a CR, not yet written
+	skipLF  bool // that CR was written as LF: an LF right after it is its CRLF's
+}
+
+func (l *lineEnds) Read(p []byte) (int, error) {
+	if len(p) == 0 {
+		return 0, nil
+	}
+	off := 0
+	if l.pending { // the CR that ended the last chunk is a line end
+		p[0], off, l.pending, l.skipLF = '\n', 1, false, true
+	}
+	n, err := l.r.Read(p[off:])
+	w := off
+	for i := off; i < off+n; i++ {
+		b := p[i]
+		if l.skipLF {
+			l.skipLF = false
+			if b == '\n' {
+				continue
+			}
+		}
+		if b == '\r' {
+			if i+1 == off+n {
+				l.pending = true // the chunk's last byte: the next one decides
+				continue
+			}
+			if p[i+1] != '\n' {
+				p[w] = '\n'
+				w++
+			}
+			continue // a CRLF's CR: its LF follows
+		}
+		p[w] = b
+		w++
+	}
+	if l.pending && err != nil {
+		l.pending = false
+		p[w] = '\n' // the CR's own place: w < off+n
+		w++
+	}
+	return w, err
+}
+
+// LineEnds is data with every line ended by LF (bare CR and CRLF become LF):
+// for readers of a whole file, as OpenCSV reads a stream.
+func LineEnds(data []byte) []byte {
+	if !bytes.ContainsRune(data, '\r') {
+		return data
+	}
+	return bytes.ReplaceAll(bytes.ReplaceAll(data, []byte("\r\n"), []byte("\n")), []byte("\r"), []byte("\n"))
+}
+
+// RepeatedHeader is the error for a row that is the file's header again (two
+// exports joined into one file), or nil when rec is not the header.
+func RepeatedHeader(rec, header []string, name string, line int) *InputError {
+	if len(rec) != len(header) {
+		return nil
+	}
+	for i := range rec {
+		if !strings.EqualFold(strings.TrimSpace(strings.TrimPrefix(rec[i], "\ufeff")), strings.TrimSpace(strings.TrimPrefix(header[i], "\ufeff"))) {
+			return nil
+		}
+	}
+	return &InputError{File: name, Line: line, Field: "row", Reason: "is the header line again (two files joined into one?): delete this line"}
 }
 
 // CSVError is a CSV reader's error as pitcard reports it: malformed CSV is an

@@ -3,9 +3,11 @@ package weather
 import (
 	"bytes"
 	"errors"
+	"io"
 	"math"
 	"strings"
 	"testing"
+	"testing/iotest"
 	"time"
 )
 
@@ -315,5 +317,44 @@ func TestImpossibleStationPressure(t *testing.T) {
 				}
 			}
 		})
+	}
+}
+
+// Line ends of any kind, in chunks of any size (testing/iotest's one byte at
+// a time included), come out as LF with one line end per line.
+func TestLineEnds(t *testing.T) {
+	for _, tc := range []struct{ in, want string }{
+		{"a\rb\r", "a\nb\n"},
+		{"a\r\nb\r\n", "a\nb\n"},
+		{"a\r\nb\rc\nd", "a\nb\nc\nd"},
+		{"a\r\r\nb\r", "a\n\nb\n"},
+		{"plain\n", "plain\n"},
+	} {
+		t.Run(strings.NewReplacer("\r", `\r`, "\n", `\n`).Replace(tc.in), func(t *testing.T) {
+			for _, r := range []io.Reader{strings.NewReader(tc.in), iotest.OneByteReader(strings.NewReader(tc.in)), iotest.HalfReader(strings.NewReader(tc.in))} {
+				got, err := io.ReadAll(&lineEnds{r: r})
+				if err != nil || string(got) != tc.want {
+					t.Errorf("%q: %q %v", tc.in, got, err)
+				}
+			}
+			if got := string(LineEnds([]byte(tc.in))); got != tc.want {
+				t.Errorf("LineEnds(%q) = %q", tc.in, got)
+			}
+		})
+	}
+}
+
+// A weather log with its lines ended by a bare CR is read whole; one with its
+// header repeated mid-file (two files joined) says so at that line.
+func TestReadLogLineEndsAndRepeatedHeader(t *testing.T) {
+	head := "date,time,temp_f,baro_inhg,humidity_pct"
+	rows := []string{"2026-06-13,14:00,88,28.9,40", "2026-06-13,14:30,87,28.9,41"}
+	log, err := ReadLog(strings.NewReader(head+"\r"+rows[0]+"\r"+rows[1]+"\r"), "weather.csv", 0, time.UTC)
+	if err != nil || len(log) != 2 {
+		t.Errorf("CR: %d readings, %v", len(log), err)
+	}
+	_, err = ReadLog(strings.NewReader(head+"\n"+rows[0]+"\n"+head+"\n"+rows[1]+"\n"), "weather.csv", 0, time.UTC)
+	if err == nil || !strings.Contains(err.Error(), "weather.csv line 3") || !strings.Contains(err.Error(), "header line again") {
+		t.Errorf("repeated header: %v", err)
 	}
 }

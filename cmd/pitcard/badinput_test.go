@@ -93,6 +93,8 @@ func TestBadInputTour(t *testing.T) {
 			{[]string{"log", "add", "--dir", good, "--session", "E9", "--lane", "left", "--et1320", "11.5", "--mph1320", "250"}, 2, []string{"--mph1320", "not plausible"}},
 			{[]string{"log", "add", "--dir", good, "--session", "E9", "--lane", "left", "--et1320", "eleven"}, 2, []string{"--et1320", "seconds"}},
 			{[]string{"log", "add", "--dir", badLog, "--session", "E9", "--lane", "left", "--et1320", "11.5"}, 0, []string{"logbook.csv line", "time", "left out", "keeps them as they are"}},
+			{[]string{"log", "add", "--dir", good, "--session", "E9", "--lane", "left", "--dial", "11.45", "--rt", ".02", "--et1320", "11.5", "--opponent-dial", ".044", "--opponent-rt", ".04", "--opponent-et", "12.1"}, 2, []string{"--opponent-dial", "0.044", "1.5..40 s"}},
+			{[]string{"log", "add", "--dir", good, "--session", "E9", "--lane", "left", "--dial", "11.45", "--rt", ".02", "--et1320", "11.5", "--opponent-dial", "12.04", "--time", "20:41", "--opponent-rt", "40", "--opponent-et", "12.1"}, 2, []string{"--opponent-rt", "40", "-1..2 s"}},
 			{[]string{"log", "add", "--dir", good, "--session", "E9", "--lane", "left", "--et1320", "11.5", "--weight", "50"}, 2, []string{"--weight", "500..10000"}},
 			{[]string{"log", "add", "--dir", good, "--session", "E9", "--lane", "left", "--et1320", "11.5", "--date", "2500-06-01"}, 2, []string{"--date", "2500-06-01", "in the future", "today is 2026-06-13"}},
 		},
@@ -120,9 +122,13 @@ func TestBadInputTour(t *testing.T) {
 		"race": {
 			{[]string{"race", "--left-dial", "14.2", "--left-rt", ".5", "--left-et", "14.3", "--right-dial", "13", "--right-rt", ".5"}, 2, []string{"--right-et is required"}},
 			{[]string{"race", "--left-dial", "14.2s", "--left-rt", ".5", "--left-et", "14.3", "--right-dial", "13", "--right-rt", ".5", "--right-et", "13.1"}, 2, []string{"--left-dial"}},
-			{[]string{"race", "--left-dial", "14.2", "--left-rt", ".5", "--left-et", "-1", "--right-dial", "13", "--right-rt", ".5", "--right-et", "13.1"}, 2, []string{"left-et", "positive"}},
+			{[]string{"race", "--left-dial", "14.2", "--left-rt", ".5", "--left-et", "-1", "--right-dial", "13", "--right-rt", ".5", "--right-et", "13.1"}, 2, []string{"left-et", "1.5..40 s"}},
 			{[]string{"race", "--tree", "christmas", "--left-dial", "14.2", "--left-rt", ".5", "--left-et", "14", "--right-dial", "13", "--right-rt", ".5", "--right-et", "13.1"}, 2, []string{"tree", "full or pro"}},
 			{[]string{"race", "--rt-zero", "red", "--left-dial", "14.2", "--left-rt", ".5", "--left-et", "14", "--right-dial", "13", "--right-rt", ".5", "--right-et", "13.1"}, 2, []string{"rt-zero"}},
+			// the other lane's figures are checked like ours: the dial's and the RT's ranges
+			{[]string{"race", "--left-dial", "14.2", "--left-rt", "1000", "--left-et", "14.3", "--right-dial", "13", "--right-rt", ".5", "--right-et", "13.1"}, 2, []string{"--left-rt", "1000", "-1..2 s"}},
+			{[]string{"race", "--left-dial", "14.2", "--left-rt", ".5", "--left-et", "14.3", "--right-dial", ".044", "--right-rt", ".5", "--right-et", "13.1"}, 2, []string{"--right-dial", "0.044", "1.5..40 s"}},
+			{[]string{"race", "--left-dial", "14.2", "--left-rt", ".5", "--left-et", "1430", "--right-dial", "13", "--right-rt", ".5", "--right-et", "13.1"}, 2, []string{"--left-et", "1430", "1.5..40 s"}},
 			{[]string{"race", "--left-mph", "fast", "--left-dial", "14.2", "--left-rt", ".5", "--left-et", "14", "--right-dial", "13", "--right-rt", ".5", "--right-et", "13.1"}, 2, []string{"--left-mph"}},
 		},
 		"dial": {

@@ -282,3 +282,47 @@ func TestReadingsStreamSurvivesALongLine(t *testing.T) {
 		}
 	}
 }
+
+// Files from old spreadsheets end lines with a bare CR, or mix CR, CRLF and
+// LF: every row comes in, in pitcard's columns or through a guessed map. A
+// binary file is refused without its bytes reaching the screen.
+func TestImportLineEndsAndBinary(t *testing.T) {
+	rows := season(28)
+	for _, tc := range []struct{ name, data string }{
+		{"CR", strings.ReplaceAll(rows, "\n", "\r")},
+		{"mixed", mixEnds(rows)},
+		{"CR, another layout", strings.ReplaceAll(strings.Replace(rows, strings.TrimSuffix(slipHeader, "\n"),
+			"Date,Time,Track,Run,Lane,Dial,R/T,60',330',1/8,1000',1/4,1/8 mph,1/4 mph,Temp (F),Baro (inHg),RH,Track Temp (F),Wind,Wind Dir,Weight,Notes", 1), "\n", "\r")},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			dir := newFolder(t)
+			src := filepath.Join(t.TempDir(), "old.csv")
+			writeFile(t, src, tc.data)
+			out, errs, code := pitcard(t, "log", "import", "--dir", dir, "--yes", src)
+			if code != 0 || !strings.Contains(out, "Imported 28 passes") {
+				t.Errorf("exit %d\n%s\n%s", code, out, errs)
+			}
+		})
+	}
+	dir := newFolder(t)
+	bin := filepath.Join(t.TempDir(), "season.xls")
+	writeFile(t, bin, "\xd0\xcf\x11\xe0\xa1\xb1\x1a\xe1\x00\x00\x00\x00"+strings.Repeat("\x00\x01\x02\xff", 2000))
+	for _, cmd := range [][]string{{"log", "import"}, {"weather", "import"}, {"log", "diff"}} {
+		out, errs, code := pitcard(t, append(cmd, "--dir", dir, bin)...)
+		if code != exitBadInput || !strings.Contains(errs, "is not a text (CSV) file") || strings.ContainsAny(out+errs, "\x00\x01\xff") || len(out+errs) > 500 {
+			t.Errorf("%v: exit %d, %d bytes: %q %q", cmd, code, len(out+errs), out, errs)
+		}
+	}
+}
+
+// mixEnds ends the lines in turn with CR, CRLF and LF.
+func mixEnds(s string) string {
+	var b strings.Builder
+	for i, line := range strings.SplitAfter(s, "\n") {
+		b.WriteString(strings.TrimSuffix(line, "\n"))
+		if strings.HasSuffix(line, "\n") {
+			b.WriteString([]string{"\r", "\r\n", "\n"}[i%3])
+		}
+	}
+	return b.String()
+}
