@@ -346,7 +346,14 @@ func (e *Folder) GatherRound(r RoundRequest, now time.Time) (prep.Input, []strin
 	}
 	log, err := e.WeatherLog(elev)
 	if err != nil {
-		return in, nil, err
+		// A corrupt weather.csv costs the card nothing when the flags give
+		// a whole reading: the card prints from them and names the bad
+		// row, and the command exits 2 as for a bad logbook row.
+		if _, ferr := r.Reading.ReadingAt(e.Settings.Units, now, nil); !IsBadInput(err) || ferr != nil {
+			return in, nil, err
+		}
+		broken = append(broken, fmt.Errorf("%w (the weather log could not be read: the card's air is the reading flags)", err))
+		log = nil
 	}
 	now, sched, warnings = e.ClockFor(sched, haveSched, log, now)
 	if r.Unsaved != nil { // a reading the disk refused: the card still uses it
