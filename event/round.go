@@ -127,6 +127,9 @@ func (f *ReadingFields) ReadingAt(u weather.Units, now time.Time, base *weather.
 		if r.Wind, err = weather.ParseSpeed(f.Wind, u.Speed); err != nil {
 			return r, FlagErr(err, "--wind")
 		}
+		r.WindUnknown = false
+	} else if base == nil {
+		r.WindUnknown = true // not read: blank in weather.csv, never "calm"
 	}
 	if f.WindFrom != "" {
 		if r.WindFrom, err = weather.ParseDirection(f.WindFrom); err != nil {

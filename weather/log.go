@@ -22,7 +22,7 @@ import (
 //	baro_kind       station (default) or altimeter
 //	humidity_pct    relative humidity, or blank when dewpoint_f is given
 //	dewpoint_f      dew point (or dewpoint_c), or blank
-//	wind_mph        wind speed (or wind_kmh), blank = calm
+//	wind_mph        wind speed (or wind_kmh), blank = not read (0 = calm)
 //	wind_from_deg   compass direction the wind blows from, blank = 0
 //	track_temp_f    track surface temperature (or track_temp_c), blank = not read
 //	notes           free text
@@ -340,8 +340,12 @@ func logRow(rec []string, col map[string]Column, elev Length, loc *time.Location
 		if r.Wind, err = ParseSpeed(v, unitIf(metric, UnitKMH, UnitMPH)); err != nil {
 			return r, err.(*InputError).Named(name)
 		}
+	} else {
+		r.WindUnknown = true
 	}
-	if v, _, _ := get("wind_from_deg"); v != "" {
+	if v, _, _ := get("wind_from_deg"); r.WindUnknown {
+		// no speed: a direction alone says nothing of the wind
+	} else if v != "" {
 		if r.WindFrom, err = ParseDirection(v); err != nil {
 			return r, err.(*InputError).Named("wind_from_deg")
 		}
@@ -421,10 +425,14 @@ func Record(r Reading) []string {
 	if r.HasTrack {
 		track = num(r.TrackTemp.Fahrenheit(), 2)
 	}
+	wind, from := num(r.Wind.MPH(), 2), windFrom(r)
+	if r.WindUnknown {
+		wind, from = "", ""
+	}
 	return []string{
 		r.Time.Format(DateLayout), r.Time.Format("15:04:05"),
 		num(r.Temp.Fahrenheit(), 2), num(r.Baro.InHg(), 4), r.BaroKind.String(),
-		rh, dp, num(r.Wind.MPH(), 2), windFrom(r), track, r.Note,
+		rh, dp, wind, from, track, r.Note,
 	}
 }
 

@@ -53,6 +53,10 @@ type Reading struct {
 	// WindDirUnknown: a wind speed was read without its direction; it then
 	// counts as neither head- nor tailwind.
 	WindDirUnknown bool
+	// WindUnknown: the wind was not read at all (Wind and WindFrom are 0
+	// and say nothing); the physics takes it as still air, the card says
+	// "not read", never "calm".
+	WindUnknown bool
 	TrackTemp      Temperature // track surface; valid −20..200 °F when HasTrackTemp
 	HasTrack       bool
 	Note           string // free text
@@ -278,6 +282,6 @@ func (r Reading) Same(o Reading, elev Length) bool {
 	a, b := r.Derive(elev), o.Derive(elev)
 	track := r.HasTrack == o.HasTrack && (!r.HasTrack || near(float64(r.TrackTemp), float64(o.TrackTemp), 0.3))
 	return near(float64(r.Temp), float64(o.Temp), 0.06) && near(float64(a.Station), float64(b.Station), 20) && near(a.RH, b.RH, 0.006) &&
-		track && near(float64(r.Wind), float64(o.Wind), 0.25) && r.WindDirUnknown == o.WindDirUnknown &&
+		track && near(float64(r.Wind), float64(o.Wind), 0.25) && r.WindDirUnknown == o.WindDirUnknown && r.WindUnknown == o.WindUnknown &&
 		(r.Wind == 0 || near(r.WindFrom, o.WindFrom, 0.5))
 }

@@ -326,3 +326,23 @@ func mixEnds(s string) string {
 	}
 	return b.String()
 }
+
+// A reading without --wind has its wind "not read" (blank in weather.csv),
+// not 0 mph, which the card would show as calm; --wind 0 is calm.
+func TestWindNotReadIsNotCalm(t *testing.T) {
+	dir := newFolder(t)
+	mustRun(t, "weather", "add", "--dir", dir, "--elevation", "2240ft", "--time", "19:00", "--temp", "85F", "--baro", "27.6inHg", "--humidity", "35%")
+	mustRun(t, "weather", "add", "--dir", dir, "--elevation", "2240ft", "--time", "19:30", "--temp", "85F", "--baro", "27.6inHg", "--humidity", "35%", "--wind", "0")
+	w := read(t, filepath.Join(dir, event.WeatherFile))
+	if !strings.Contains(w, ",19:00:00,85,27.6,station,35,,,,,\n") || !strings.Contains(w, ",19:30:00,85,27.6,station,35,,0,0,,\n") {
+		t.Errorf("weather.csv:\n%s", w)
+	}
+	log := mustRun(t, "weather", "list", "--dir", dir)
+	if !strings.Contains(log, "not read") || !strings.Contains(log, "calm") {
+		t.Errorf("weather list must tell not read from calm:\n%s", log)
+	}
+	air := mustRun(t, "air", "--dir", dir, "--elevation", "2240ft", "--temp", "85F", "--baro", "27.6inHg", "--humidity", "35%", "--format", "json")
+	if !strings.Contains(air, `"wind_mph": null`) {
+		t.Errorf("air without --wind: wind_mph must be null:\n%s", air)
+	}
+}
