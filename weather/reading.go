@@ -57,9 +57,9 @@ type Reading struct {
 	// and say nothing); the physics takes it as still air, the card says
 	// "not read", never "calm".
 	WindUnknown bool
-	TrackTemp      Temperature // track surface; valid −20..200 °F when HasTrackTemp
-	HasTrack       bool
-	Note           string // free text
+	TrackTemp   Temperature // track surface; valid −20..200 °F when HasTrackTemp
+	HasTrack    bool
+	Note        string // free text
 }
 
 // Valid ranges of a reading (pitcard's limits: the extremes a drag strip sees,
