@@ -418,7 +418,7 @@ func ParsePass(f SlipFields, loc *time.Location) (Pass, error) {
 		}
 		return p, err
 	}
-	if p.Track = get("track"); p.Track == "" {
+	if p.Track = TrackName(get("track")); p.Track == "" {
 		return p, &weather.InputError{Field: "track", Reason: "is blank (the track's name as in its track.yaml)"}
 	}
 	if p.Session, err = ParseSession(get("session")); err != nil {

@@ -238,3 +238,24 @@ func TestLogbookRepeatedHeaderAndLineEndings(t *testing.T) {
 		})
 	}
 }
+
+// The same track name typed in two Unicode forms (é as one code point, or e
+// and a combining accent, as some keyboards and spreadsheets write it) is one
+// track: the same pass in both forms is the same pass, and a track.yaml in
+// one form names the logbook's rows in the other.
+func TestTrackNameUnicodeForms(t *testing.T) {
+	nfc, nfd := "Caf\u00e9 Raceway", "Cafe\u0301 Raceway"
+	a := strings.Replace(goodRow, "Test Strip", nfc, 1)
+	b := strings.Replace(goodRow, "Test Strip", nfd, 1)
+	lb, err := ReadLogbookFile(strings.NewReader(header+a+b), "logbook.csv", time.UTC)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(lb.Passes) != 1 || len(lb.Bad) != 1 || !strings.Contains(lb.Bad[0].Error(), "same pass") {
+		t.Errorf("passes %d, bad %v", len(lb.Passes), lb.Bad)
+	}
+	trk, err := ReadTrack(strings.NewReader("name: "+nfd+"\nelevation_ft: 900\n"), "track.yaml")
+	if err != nil || trk.Name != lb.Passes[0].Track {
+		t.Errorf("track.yaml name %q, logbook %q (%v)", trk.Name, lb.Passes[0].Track, err)
+	}
+}

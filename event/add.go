@@ -79,6 +79,24 @@ func (e *Folder) AddReading(nr NewReading, now time.Time) (AddedReading, error) 
 	return out, nil
 }
 
+// unknownTrack is a warning when a pass's track is neither track.yaml's nor
+// one of tracks/*.yaml (a typo, or a track not yet described): the model
+// then knows neither its elevation nor its prep.
+func (e *Folder) unknownTrack(name string, trk engine.Track, trkErr error) string {
+	if trkErr == nil && strings.EqualFold(name, trk.Name) {
+		return ""
+	}
+	tracks, err := e.OtherTracks()
+	if err != nil {
+		return ""
+	}
+	if _, ok := tracks[strings.ToLower(name)]; ok {
+		return ""
+	}
+	return fmt.Sprintf("--track %q is neither %s's name (%q) nor in tracks/*.yaml: check its spelling, or describe it in tracks/ (the model does not know its elevation)",
+		name, TrackFile, trk.Name)
+}
+
 // NewPass is one pass from its time slip, as typed. Blank date and time
 // are now's; a blank track is track.yaml's, a blank weight car.yaml's.
 type NewPass struct {
@@ -146,6 +164,9 @@ func (e *Folder) AddPass(np NewPass, now time.Time) (LoggedPass, error) {
 	p, err := engine.ParsePass(f, time.Local)
 	if err != nil {
 		return out, err
+	}
+	if w := e.unknownTrack(p.Track, trk, trkErr); w != "" {
+		out.Warnings = append(out.Warnings, w)
 	}
 	// A slip is logged after its pass: a date past tomorrow is a typo
 	// (2500 for 2025), and would borrow another day's weather.

@@ -95,6 +95,7 @@ func TestBadInputTour(t *testing.T) {
 			{[]string{"log", "add", "--dir", badLog, "--session", "E9", "--lane", "left", "--et1320", "11.5"}, 0, []string{"logbook.csv line", "time", "left out", "keeps them as they are"}},
 			{[]string{"log", "add", "--dir", good, "--session", "E9", "--lane", "left", "--dial", "11.45", "--rt", ".02", "--et1320", "11.5", "--opponent-dial", ".044", "--opponent-rt", ".04", "--opponent-et", "12.1"}, 2, []string{"--opponent-dial", "0.044", "1.5..40 s"}},
 			{[]string{"log", "add", "--dir", good, "--session", "E9", "--lane", "left", "--dial", "11.45", "--rt", ".02", "--et1320", "11.5", "--opponent-dial", "12.04", "--time", "20:41", "--opponent-rt", "40", "--opponent-et", "12.1"}, 2, []string{"--opponent-rt", "40", "-1..2 s"}},
+			{[]string{"log", "add", "--dir", good, "--session", "E9", "--lane", "left", "--et1320", "11.5", "--time", "20:42", "--track", "Junipr Bend"}, 0, []string{`--track "Junipr Bend"`, "neither track.yaml's name", "Juniper Bend Raceway"}},
 			{[]string{"log", "add", "--dir", good, "--session", "E9", "--lane", "left", "--et1320", "11.5", "--weight", "50"}, 2, []string{"--weight", "500..10000"}},
 			{[]string{"log", "add", "--dir", good, "--session", "E9", "--lane", "left", "--et1320", "11.5", "--date", "2500-06-01"}, 2, []string{"--date", "2500-06-01", "in the future", "today is 2026-06-13"}},
 		},

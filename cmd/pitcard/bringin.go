@@ -310,7 +310,7 @@ func bounded(passes []engine.Pass, since string, n int, track string) ([]engine.
 	}
 	var out []engine.Pass
 	for _, p := range passes {
-		if (since == "" || !p.Time.Before(from)) && (track == "" || strings.EqualFold(strings.TrimSpace(track), p.Track)) {
+		if (since == "" || !p.Time.Before(from)) && (track == "" || strings.EqualFold(engine.TrackName(track), p.Track)) {
 			out = append(out, p)
 		}
 	}
