@@ -259,3 +259,16 @@ func TestTrackNameUnicodeForms(t *testing.T) {
 		t.Errorf("track.yaml name %q, logbook %q (%v)", trk.Name, lb.Passes[0].Track, err)
 	}
 }
+
+// A second export joined on with its columns in another order: its header
+// line is still named as a header, not as a row of the wrong length.
+func TestLogbookRepeatedHeaderOtherOrder(t *testing.T) {
+	other := "time,date,track,session,lane,dial,rt,et60,et1320,mph1320,notes\n"
+	lb, err := ReadLogbookFile(strings.NewReader(header+goodRow+other), "logbook.csv", time.UTC)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(lb.Bad) != 1 || !strings.Contains(lb.Bad[0].Error(), "header line again") {
+		t.Errorf("bad %v", lb.Bad)
+	}
+}

@@ -183,16 +183,24 @@ func LineEnds(data []byte) []byte {
 	return bytes.ReplaceAll(bytes.ReplaceAll(data, []byte("\r\n"), []byte("\n")), []byte("\r"), []byte("\n"))
 }
 
-// RepeatedHeader is the error for a row that is the file's header again (two
-// exports joined into one file), or nil when rec is not the header.
+// RepeatedHeader is the error for a row that is a header line again (two
+// exports joined into one file, perhaps with their columns in another
+// order), or nil when rec is data. A row is a header when at least two of
+// its fields, and at least half, are names of the header's columns: no value
+// of a date, a time or a number is a column's name.
 func RepeatedHeader(rec, header []string, name string, line int) *InputError {
-	if len(rec) != len(header) {
-		return nil
+	names := make(map[string]bool, len(header))
+	for _, h := range header {
+		names[strings.ToLower(strings.TrimSpace(strings.TrimPrefix(h, "\ufeff")))] = true
 	}
-	for i := range rec {
-		if !strings.EqualFold(strings.TrimSpace(strings.TrimPrefix(rec[i], "\ufeff")), strings.TrimSpace(strings.TrimPrefix(header[i], "\ufeff"))) {
-			return nil
+	n := 0
+	for _, f := range rec {
+		if f = strings.ToLower(strings.TrimSpace(strings.TrimPrefix(f, "\ufeff"))); f != "" && names[f] {
+			n++
 		}
+	}
+	if n < 2 || 2*n < len(rec) {
+		return nil
 	}
 	return &InputError{File: name, Line: line, Field: "row", Reason: "is the header line again (two files joined into one?): delete this line"}
 }

@@ -42,6 +42,13 @@ func TestBadInputTour(t *testing.T) {
 	_ = os.WriteFile(badAndDup, []byte(slipHeader+"2026-07-01,18:00,X,E1,left,11.5,0.02,1.6,,,,11.5,,116,88,28.9,140,,,,,\n"+
 		"2026-06-13,20:13,Juniper Bend Raceway,E2,left,11.46,0.028,1.608,4.684,7.305,9.569,11.495,93.56,117.06,84.05,27.6032,33.4,95.72,2.32,173,3350,\n"), 0o644)
 
+	// two exports joined: the header again mid-file
+	joined := filepath.Join(t.TempDir(), "joined.csv")
+	_ = os.WriteFile(joined, []byte(slipHeader+"2026-07-01,18:00,X,E1,left,11.5,0.02,1.6,,,,11.5,,116,88,28.9,40,,,,,\n"+slipHeader+
+		"2026-07-01,18:30,X,E2,left,11.5,0.02,1.6,,,,11.5,,116,88,28.9,40,,,,,\n"), 0o644)
+	binary := filepath.Join(t.TempDir(), "season.xls")
+	_ = os.WriteFile(binary, []byte("\xd0\xcf\x11\xe0\x00\x00binary"), 0o644)
+
 	// column maps gone wrong
 	mapsDir := t.TempDir()
 	badMap := filepath.Join(mapsDir, "map.yaml")
@@ -104,6 +111,8 @@ func TestBadInputTour(t *testing.T) {
 			{[]string{"log", "import", "--dir", good, src}, 2, []string{"rows.csv line 2", "humidity_pct", "0..100"}},
 			{[]string{"log", "import", "--dir", good}, 2, []string{"accepts 1 arg"}},
 			{[]string{"log", "import", "--dir", good, badAndDup}, 2, []string{"both.csv line 2", "humidity_pct", "line 3) is already in", "Nothing was imported"}},
+			{[]string{"log", "import", "--dir", good, joined}, 2, []string{"joined.csv line 3", "header line again", "Nothing was imported"}},
+			{[]string{"log", "import", "--dir", good, binary}, 2, []string{"season.xls is not a text (CSV) file", "save it from the spreadsheet as CSV"}},
 			{[]string{"log", "list", "--dir", badLog}, 2, []string{"logbook.csv line"}},
 			{[]string{"log", "list", "--dir", good, "--last", "x"}, 2, []string{"--last"}},
 			{[]string{"log", "stats", "--dir", badLog}, 2, []string{"logbook.csv line"}},
