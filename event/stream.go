@@ -98,8 +98,8 @@ func (e *Folder) StreamReadings(r io.Reader, now func() time.Time, replace bool,
 		out.Line = n
 		if over > 0 {
 			// Never echo it: a runaway logger's line can be megabytes.
-			out.Err = &weather.InputError{File: "standard input", Line: n, Field: "line", Value: fmt.Sprintf("(%d bytes)", over),
-				Reason: fmt.Sprintf("is longer than %d KB, the most a reading's line may be: skipped", maxStreamLine>>10)}
+			out.Err = &weather.InputError{File: "standard input", Line: n, Field: "line",
+				Reason: fmt.Sprintf("of %d bytes is longer than %d KB, the most a reading's line may be", over, maxStreamLine>>10)}
 			bad++
 			report(out)
 			continue
