@@ -14,6 +14,7 @@ require (
 	github.com/yuin/gopher-lua v1.1.2
 	go.yaml.in/yaml/v3 v3.0.6
 	golang.org/x/term v0.48.0
+	golang.org/x/text v0.28.0
 )
 
 require (
@@ -31,5 +32,4 @@ require (
 	github.com/spf13/cast v1.10.0 // indirect
 	github.com/subosito/gotenv v1.6.0 // indirect
 	golang.org/x/sys v0.50.0 // indirect
-	golang.org/x/text v0.28.0 // indirect
 )

@@ -592,6 +592,9 @@ func (m *Map) Translate(data []byte, name string) (*Translation, error) {
 		if len(rec) == 1 && strings.TrimSpace(rec[0]) == "" {
 			continue // a blank line
 		}
+		if ie := weather.RepeatedHeader(rec, header, name, line); ie != nil {
+			return nil, ie
+		}
 		if len(rec) != len(header) {
 			return nil, &weather.InputError{File: name, Line: line, Field: "row",
 				Reason: fmt.Sprintf("has %d fields, the header has %d (read as %s)", len(rec), len(header), tr.Layout)}

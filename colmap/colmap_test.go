@@ -342,3 +342,31 @@ func TestBOMCRLFAndTabs(t *testing.T) {
 		}
 	}
 }
+
+// A column named "Track" is the track's name and "Track Temp (F)" its
+// surface temperature, in either order: the guess once mapped "Track" to the
+// temperature, skipped the real one and then failed on every row.
+func TestGuessTellsTrackFromTrackTemp(t *testing.T) {
+	for _, tc := range []struct{ name, header, row string }{
+		{"name first", "Date,Time,Track,Track Temp (F),Lane,1/4,1/4 mph", "2026-06-13,19:23,Juniper Bend,118,left,11.44,117"},
+		{"temperature first", "Date,Time,Track Temp (F),Track,Lane,1/4,1/4 mph", "2026-06-13,19:23,118,Juniper Bend,left,11.44,117"},
+		{"track name", "Date,Time,Track Name,Track Temperature,Lane,1/4,1/4 mph", "2026-06-13,19:23,Juniper Bend,118,left,11.44,117"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			m, notes := Guess([]byte(tc.header+"\n"+tc.row+"\n"), "s.csv", Logbook, nil)
+			if s := m.Fields["track"]; s == nil || !strings.HasPrefix(s.Column, "Track") || strings.Contains(s.Column, "Temp") {
+				t.Errorf("track: %+v (notes %v)", s, notes)
+			}
+			if s := m.Fields["track_temp"]; s == nil || !strings.Contains(s.Column, "Temp") {
+				t.Errorf("track_temp: %+v (notes %v)", s, notes)
+			}
+			tr, err := m.Translate([]byte(tc.header+"\n"+tc.row+"\n"), "s.csv")
+			if err != nil {
+				t.Fatalf("translate: %v", err)
+			}
+			if !strings.Contains(string(tr.CSV), "Juniper Bend") || !strings.Contains(string(tr.CSV), "118") {
+				t.Errorf("translated:\n%s", tr.CSV)
+			}
+		})
+	}
+}

@@ -5,6 +5,7 @@ import (
 	"encoding/csv"
 	"fmt"
 	"regexp"
+	"slices"
 	"strings"
 	"time"
 )
@@ -19,29 +20,34 @@ var synonyms = []struct {
 	field string
 	kinds []Kind
 	words []string
+	// unless: a header holding one of these words is never this field
+	// ("Track Temp" names a temperature, not the track).
+	unless []string
 }{
-	{"track_temp", nil, []string{"track temp", "track temperature", "surface temp", "surface", "track"}},
-	{"dewpoint", nil, []string{"dew point", "dewpoint", "dew"}},
-	{"wind_from", nil, []string{"wind from", "wind dir", "wind direction", "direction", "wdir", "dir"}},
-	{"wind", nil, []string{"wind speed", "wind"}},
-	{"humidity", nil, []string{"relative humidity", "humidity", "rh", "hum"}},
-	{"baro", nil, []string{"station pressure", "barometer", "baro", "pressure", "press"}},
-	{"temp", nil, []string{"air temp", "air temperature", "temperature", "temp", "air"}},
-	{"date", nil, []string{"date", "day"}},
-	{"time", nil, []string{"timestamp", "date time", "datetime", "stamp", "time", "clock"}},
-	{"notes", nil, []string{"notes", "note", "comment", "comments", "remarks"}},
-	{"session", []Kind{Logbook}, []string{"session", "round", "run"}},
-	{"lane", []Kind{Logbook}, []string{"lane"}},
-	{"dial", []Kind{Logbook}, []string{"dial in", "dial", "dialin"}},
-	{"rt", []Kind{Logbook}, []string{"reaction time", "reaction", "rt", "r t"}},
-	{"et60", []Kind{Logbook}, []string{"60 ft", "60ft", "60", "sixty"}},
-	{"et330", []Kind{Logbook}, []string{"330 ft", "330ft", "330"}},
-	{"mph660", []Kind{Logbook}, []string{"1 8 mph", "eighth mph", "660 mph", "mph 660", "mph 1 8"}},
-	{"et660", []Kind{Logbook}, []string{"1 8 et", "1 8", "eighth", "660 ft", "660ft", "660"}},
-	{"et1000", []Kind{Logbook}, []string{"1000 ft", "1000ft", "1000"}},
-	{"mph1320", []Kind{Logbook}, []string{"1 4 mph", "quarter mph", "1320 mph", "mph 1320", "mph", "speed", "trap"}},
-	{"et1320", []Kind{Logbook}, []string{"1 4 et", "1 4", "quarter", "1320 ft", "1320ft", "1320", "et"}},
-	{"weight", []Kind{Logbook}, []string{"weight", "wt"}},
+	{"track_temp", nil, []string{"track temp", "track temperature", "tracktemp", "surface temp", "surface"}, nil},
+	// The track's name: "Track" alone is the name, never the temperature.
+	{"track", []Kind{Logbook}, []string{"track name", "track", "venue", "strip"}, []string{"temp", "temperature", "surface"}},
+	{"dewpoint", nil, []string{"dew point", "dewpoint", "dew"}, nil},
+	{"wind_from", nil, []string{"wind from", "wind dir", "wind direction", "direction", "wdir", "dir"}, nil},
+	{"wind", nil, []string{"wind speed", "wind"}, nil},
+	{"humidity", nil, []string{"relative humidity", "humidity", "rh", "hum"}, nil},
+	{"baro", nil, []string{"station pressure", "barometer", "baro", "pressure", "press"}, nil},
+	{"temp", nil, []string{"air temp", "air temperature", "temperature", "temp", "air"}, nil},
+	{"date", nil, []string{"date", "day"}, nil},
+	{"time", nil, []string{"timestamp", "date time", "datetime", "stamp", "time", "clock"}, nil},
+	{"notes", nil, []string{"notes", "note", "comment", "comments", "remarks"}, nil},
+	{"session", []Kind{Logbook}, []string{"session", "round", "run"}, nil},
+	{"lane", []Kind{Logbook}, []string{"lane"}, nil},
+	{"dial", []Kind{Logbook}, []string{"dial in", "dial", "dialin"}, nil},
+	{"rt", []Kind{Logbook}, []string{"reaction time", "reaction", "rt", "r t"}, nil},
+	{"et60", []Kind{Logbook}, []string{"60 ft", "60ft", "60", "sixty"}, nil},
+	{"et330", []Kind{Logbook}, []string{"330 ft", "330ft", "330"}, nil},
+	{"mph660", []Kind{Logbook}, []string{"1 8 mph", "eighth mph", "660 mph", "mph 660", "mph 1 8"}, nil},
+	{"et660", []Kind{Logbook}, []string{"1 8 et", "1 8", "eighth", "660 ft", "660ft", "660"}, nil},
+	{"et1000", []Kind{Logbook}, []string{"1000 ft", "1000ft", "1000"}, nil},
+	{"mph1320", []Kind{Logbook}, []string{"1 4 mph", "quarter mph", "1320 mph", "mph 1320", "mph", "speed", "trap"}, nil},
+	{"et1320", []Kind{Logbook}, []string{"1 4 et", "1 4", "quarter", "1320 ft", "1320ft", "1320", "et"}, nil},
+	{"weight", []Kind{Logbook}, []string{"weight", "wt"}, nil},
 }
 
 // header units: a unit written into a header, and what it is for.
@@ -112,7 +118,7 @@ func Guess(data []byte, name string, kind Kind, defaults map[string]string) (*Ma
 			if _, taken := m.Fields[s.field]; taken {
 				continue
 			}
-			if matchWords(w, s.words) {
+			if matchWords(w, s.words) && !hasWord(w, s.unless) {
 				field = s.field
 				break
 			}
@@ -166,6 +172,16 @@ func Guess(data []byte, name string, kind Kind, defaults map[string]string) (*Ma
 func matchWords(w string, candidates []string) bool {
 	for _, c := range candidates {
 		if w == c || strings.HasPrefix(w, c+" ") || strings.HasSuffix(w, " "+c) {
+			return true
+		}
+	}
+	return false
+}
+
+// hasWord reports whether the header's words w hold one of list.
+func hasWord(w string, list []string) bool {
+	for _, x := range strings.Fields(w) {
+		if slices.Contains(list, x) {
 			return true
 		}
 	}

@@ -119,6 +119,9 @@ type CalibrateInput struct {
 	// offsets, the drift through the day and the weight burnt. Zero is
 	// midnight.
 	DayStart weather.DayStart
+	// Aborts are the words in notes that leave a pass out of the fit (the
+	// crew's setting abort_words); nil: DefaultAbortWords.
+	Aborts AbortWords
 }
 
 // Calibrate fits the car to its logbook.
@@ -134,7 +137,7 @@ func Calibrate(in CalibrateInput) (Fit, error) {
 		if _, ok := p.ETAt(dist); !ok {
 			continue
 		}
-		if Aborted(p.Notes) {
+		if in.Aborts.Aborted(p.Notes) {
 			f.Outliers = append(f.Outliers, Outlier{p, "notes say \"" + p.Notes + "\""})
 			continue
 		}
@@ -151,7 +154,7 @@ func Calibrate(in CalibrateInput) (Fit, error) {
 	}
 	f.PowerHP = in.Car.PowerHP
 	if f.PowerHP == 0 {
-		hp, note, err := EstimatePower(in.Car, in.Passes)
+		hp, note, err := EstimatePower(in.Car, in.Passes, in.Aborts)
 		if err != nil {
 			return f, err
 		}
@@ -494,12 +497,13 @@ func (f *Fit) Residuals(in CalibrateInput) map[string]float64 {
 // the power-weight relations of the trade (MPH = K·(P/W)^⅓, K = 224
 // Huntington 1958, 230 Fox 1973, 234 a later fit; pitcard takes their mean,
 // 229.3): P = W·(MPH/K)³. It uses the median quarter trap of the clean passes
-// (or the eighth trap × 1.25, common practice).
-func EstimatePower(c Car, passes []Pass) (float64, string, error) {
+// (or the eighth trap × 1.25, common practice); aborts mark the passes left
+// out (nil: DefaultAbortWords).
+func EstimatePower(c Car, passes []Pass, aborts AbortWords) (float64, string, error) {
 	const k = (224 + 230 + 234) / 3.0
 	var traps []float64
 	for _, p := range passes {
-		if Aborted(p.Notes) {
+		if aborts.Aborted(p.Notes) {
 			continue
 		}
 		switch {

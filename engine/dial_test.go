@@ -112,14 +112,55 @@ func TestRecentEstimate(t *testing.T) {
 		return p
 	}
 	passes := []Pass{mk(0, "11.50", ""), mk(1, "11.52", ""), mk(2, "12.90", "lifted at 1000"), mk(3, "11.48", ""), mk(4, "13.40", ""), mk(5, "11.51", "")}
-	est, used, err := RecentEstimate(passes, 1320, 10)
+	est, used, err := RecentEstimate(passes, 1320, 10, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
 	if len(used) != 4 || math.Abs(est.ET-11.5025) > 1e-9 || est.SD < MinSD {
 		t.Errorf("estimate %+v from %d passes", est, len(used))
 	}
-	if _, _, err := RecentEstimate(passes[:1], 1320, 10); err == nil {
+	if _, _, err := RecentEstimate(passes[:1], 1320, 10, nil); err == nil {
 		t.Error("one pass gave an estimate")
+	}
+}
+
+// What a crew writes on a slip, and whether the pass is the car's time.
+// Common practice (no source): spinning, smoking the tires, lifting and
+// pedaling lose the run; a mild shake or a negated word does not.
+func TestAbortedNotes(t *testing.T) {
+	for _, tc := range []struct {
+		notes string
+		want  bool
+	}{
+		{"spin", true},
+		{"spinning at the hit", true},
+		{"smoked the tires", true},
+		{"tire spin at the hit", true},
+		{"LIFT", true},
+		{"lifted at 1000", true},
+		{"pedaled it", true},
+		{"tire shake", true},
+		{"shook hard, pedaled", true},
+		{"no shake", false},
+		{"smooth, no shake", false},
+		{"shook a little", false},
+		{"no tire shake, clean", false},
+		{"didn't spin", false},
+		{"did not lift", false},
+		{"no spin, lifted at the stripe", true}, // the negation stays in its clause
+		{"broke out by .01", false},             // a breakout is a full run
+		{"broke a u-joint", true},
+		{"shifted late", false}, // "lift" inside "shifted" is not a word
+		{"", false},
+	} {
+		t.Run(tc.notes, func(t *testing.T) {
+			if got := Aborted(tc.notes); got != tc.want {
+				t.Errorf("Aborted(%q) = %v, want %v", tc.notes, got, tc.want)
+			}
+		})
+	}
+	crew := DefaultAbortWords.With([]string{"Chute out early", " "})
+	if !crew.Aborted("chute out early at 900") || Aborted("chute out early at 900") || !crew.Aborted("lifted") {
+		t.Errorf("the crew's own words add to the defaults: %v", crew)
 	}
 }

@@ -217,6 +217,10 @@ func ReadLogbookRecent(r io.Reader, name string, loc *time.Location, keep int) (
 			continue
 		}
 		line, _ := cr.FieldPos(0)
+		if ie := weather.RepeatedHeader(rec, header, name, line); ie != nil {
+			bad(ie, append([]string(nil), rec...))
+			continue
+		}
 		if len(rec) != len(header) {
 			bad(&weather.InputError{File: name, Line: line, Field: "row",
 				Reason: fmt.Sprintf("has %d fields, the header has %d (a row cut short, or a comma too many)", len(rec), len(header))}, append([]string(nil), rec...))
@@ -414,7 +418,7 @@ func ParsePass(f SlipFields, loc *time.Location) (Pass, error) {
 		}
 		return p, err
 	}
-	if p.Track = get("track"); p.Track == "" {
+	if p.Track = TrackName(get("track")); p.Track == "" {
 		return p, &weather.InputError{Field: "track", Reason: "is blank (the track's name as in its track.yaml)"}
 	}
 	if p.Session, err = ParseSession(get("session")); err != nil {
@@ -428,11 +432,8 @@ func ParsePass(f SlipFields, loc *time.Location) (Pass, error) {
 		if v == "" {
 			return decimal.NullDecimal{}, nil
 		}
-		d, err := ParseSeconds(name(c), v)
+		d, err := ParseSlipTime(name(c), v, [2]float64{lo, hi})
 		if err != nil {
-			return decimal.NullDecimal{}, err
-		}
-		if err := rangeCheck(name(c), d, lo, hi, "s"); err != nil {
 			return decimal.NullDecimal{}, err
 		}
 		return decimal.NewNullDecimal(d), nil

@@ -210,3 +210,65 @@ func TestParseSecondsAsSlipsPrintThem(t *testing.T) {
 		}
 	}
 }
+
+// Two exports joined into one file repeat the header mid-file: that line is
+// named as the header again (not a date "date" that is not a date), and
+// rows ended by a bare CR (an old spreadsheet) or mixed CR/CRLF/LF are all
+// read.
+func TestLogbookRepeatedHeaderAndLineEndings(t *testing.T) {
+	second := strings.Replace(goodRow, "2026-06-13", "2026-06-14", 1)
+	lb, err := ReadLogbookFile(strings.NewReader(header+goodRow+header+second), "logbook.csv", time.UTC)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(lb.Passes) != 2 || len(lb.Bad) != 1 || !strings.Contains(lb.Bad[0].Error(), "line 3") || !strings.Contains(lb.Bad[0].Error(), "header") {
+		t.Errorf("passes %d, bad %v", len(lb.Passes), lb.Bad)
+	}
+	for _, tc := range []struct{ name, sep string }{{"CR", "\r"}, {"CRLF", "\r\n"}, {"mixed", "\r"}} {
+		t.Run(tc.name, func(t *testing.T) {
+			h, a, b := strings.TrimSuffix(header, "\n"), strings.TrimSuffix(goodRow, "\n"), strings.TrimSuffix(second, "\n")
+			data := h + tc.sep + a + tc.sep + b + tc.sep
+			if tc.name == "mixed" {
+				data = h + "\r\n" + a + "\r" + b + "\n"
+			}
+			passes, err := ReadLogbook(strings.NewReader(data), "logbook.csv", time.UTC)
+			if err != nil || len(passes) != 2 {
+				t.Errorf("%d passes, %v", len(passes), err)
+			}
+		})
+	}
+}
+
+// The same track name typed in two Unicode forms (é as one code point, or e
+// and a combining accent, as some keyboards and spreadsheets write it) is one
+// track: the same pass in both forms is the same pass, and a track.yaml in
+// one form names the logbook's rows in the other.
+func TestTrackNameUnicodeForms(t *testing.T) {
+	nfc, nfd := "Caf\u00e9 Raceway", "Cafe\u0301 Raceway"
+	a := strings.Replace(goodRow, "Test Strip", nfc, 1)
+	b := strings.Replace(goodRow, "Test Strip", nfd, 1)
+	lb, err := ReadLogbookFile(strings.NewReader(header+a+b), "logbook.csv", time.UTC)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(lb.Passes) != 1 || len(lb.Bad) != 1 || !strings.Contains(lb.Bad[0].Error(), "same pass") {
+		t.Errorf("passes %d, bad %v", len(lb.Passes), lb.Bad)
+	}
+	trk, err := ReadTrack(strings.NewReader("name: "+nfd+"\nelevation_ft: 900\n"), "track.yaml")
+	if err != nil || trk.Name != lb.Passes[0].Track {
+		t.Errorf("track.yaml name %q, logbook %q (%v)", trk.Name, lb.Passes[0].Track, err)
+	}
+}
+
+// A second export joined on with its columns in another order: its header
+// line is still named as a header, not as a row of the wrong length.
+func TestLogbookRepeatedHeaderOtherOrder(t *testing.T) {
+	other := "time,date,track,session,lane,dial,rt,et60,et1320,mph1320,notes\n"
+	lb, err := ReadLogbookFile(strings.NewReader(header+goodRow+other), "logbook.csv", time.UTC)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(lb.Bad) != 1 || !strings.Contains(lb.Bad[0].Error(), "header line again") {
+		t.Errorf("bad %v", lb.Bad)
+	}
+}

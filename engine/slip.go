@@ -49,6 +49,18 @@ func ParseSeconds(field, s string) (decimal.Decimal, error) {
 	return d, nil
 }
 
+// ParseSlipTime reads a time from a slip, ours or the other lane's, and
+// checks it against its range (DialRange for a dial or a finish ET of any
+// distance, RTRange for a reaction time): one parser for every lane's
+// figures, so the other lane's are held to what ours are.
+func ParseSlipTime(field, s string, r [2]float64) (decimal.Decimal, error) {
+	d, err := ParseSeconds(field, s)
+	if err != nil {
+		return d, err
+	}
+	return d, rangeCheck(field, d, r[0], r[1], "s")
+}
+
 func plainDecimal(s string) bool {
 	if s == "" {
 		return false

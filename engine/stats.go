@@ -33,8 +33,10 @@ type GroupStats struct {
 // are raw: not corrected for the air, which moves through a day.
 //
 // residual, when not nil, gives a pass's residual from the calibrated model
-// (Fit.Residuals) for the corrected spread.
-func Stats(passes []Pass, residual map[string]float64, day weather.DayStart) []GroupStats {
+// (Fit.Residuals) for the corrected spread; day says which passes are one
+// race day; aborts say which notes mark a pass that is left out of the ET
+// figures (nil: DefaultAbortWords).
+func Stats(passes []Pass, residual map[string]float64, day weather.DayStart, aborts AbortWords) []GroupStats {
 	type key struct {
 		day  string
 		kind SessionKind
@@ -61,7 +63,7 @@ func Stats(passes []Pass, residual map[string]float64, day weather.DayStart) []G
 			if p.RT.Valid && !p.RT.Decimal.IsNegative() {
 				rts = append(rts, p.RT.Decimal.InexactFloat64())
 			}
-			if Aborted(p.Notes) {
+			if aborts.Aborted(p.Notes) {
 				continue
 			}
 			if et, ok := p.ETAt(s.Finish); ok {

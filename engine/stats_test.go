@@ -30,7 +30,7 @@ func TestStats(t *testing.T) {
 		mk(3, Elimination, "12.40", "0.030", "1.700", "lifted"),
 		mk(4, Elimination, "11.51", "0.050", "1.612", ""),
 	}
-	st := Stats(passes, nil, weather.DefaultDayStart)
+	st := Stats(passes, nil, weather.DefaultDayStart, nil)
 	if len(st) != 3 || !st[0].All || st[1].Kind != TimeTrial || st[2].Kind != Elimination || st[0].Day.Format("2006-01-02") != "2026-06-13" {
 		t.Fatalf("groups %+v", st)
 	}

@@ -6,6 +6,8 @@ import (
 	"io"
 	"strings"
 
+	"golang.org/x/text/unicode/norm"
+
 	"pitcard/internal/yamlfile"
 	"pitcard/weather"
 )
@@ -41,8 +43,14 @@ func ReadTrack(r io.Reader, name string) (Track, error) {
 	return t, doc.At(err)
 }
 
+// TrackName is a track's name as pitcard keeps it: trimmed, in Unicode's
+// composed form (NFC), so "Café" typed with a combining accent is the same
+// track as "Café" typed with é.
+func TrackName(s string) string { return norm.NFC.String(strings.TrimSpace(s)) }
+
 func (t Track) validate(name string) (Track, error) {
-	if strings.TrimSpace(t.Name) == "" {
+	t.Name = TrackName(t.Name)
+	if t.Name == "" {
 		return t, &weather.InputError{File: name, Field: "name", Reason: "is missing (the track's name as the logbook spells it)"}
 	}
 	if err := weather.CheckElevation(t.Elevation()); err != nil {

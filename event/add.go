@@ -80,6 +80,24 @@ func (e *Folder) AddReading(nr NewReading, now time.Time) (AddedReading, error) 
 	return out, nil
 }
 
+// unknownTrack is a warning when a pass's track is neither track.yaml's nor
+// one of tracks/*.yaml (a typo, or a track not yet described): the model
+// then knows neither its elevation nor its prep.
+func (e *Folder) unknownTrack(name string, trk engine.Track, trkErr error) string {
+	if trkErr == nil && strings.EqualFold(name, trk.Name) {
+		return ""
+	}
+	tracks, err := e.OtherTracks()
+	if err != nil {
+		return ""
+	}
+	if _, ok := tracks[strings.ToLower(name)]; ok {
+		return ""
+	}
+	return fmt.Sprintf("--track %q is neither %s's name (%q) nor in tracks/*.yaml: check its spelling, or describe it in tracks/ (the model does not know its elevation)",
+		name, TrackFile, trk.Name)
+}
+
 // NewPass is one pass from its time slip, as typed. Blank date and time
 // are now's; a blank track is track.yaml's, a blank weight car.yaml's.
 type NewPass struct {
@@ -158,6 +176,9 @@ func (e *Folder) AddPass(np NewPass, now time.Time) (LoggedPass, error) {
 	p, err := engine.ParsePass(f, e.Zone())
 	if err != nil {
 		return out, err
+	}
+	if w := e.unknownTrack(p.Track, trk, trkErr); w != "" {
+		out.Warnings = append(out.Warnings, w)
 	}
 	// A slip is logged after its pass: a date past tomorrow is a typo
 	// (2500 for 2025), and would borrow another day's weather.
@@ -252,11 +273,13 @@ func DecidedBy(p engine.Pass, dial, rt, et string, s Settings) (string, error) {
 	}
 	var them engine.LaneRun
 	var err error
+	// The other lane's slip is read and range-checked as ours is.
 	for _, f := range []struct {
 		flag, v string
 		dst     *decimal.Decimal
-	}{{"--opponent-dial", dial, &them.Dial}, {"--opponent-rt", rt, &them.RT}, {"--opponent-et", et, &them.ET}} {
-		if *f.dst, err = engine.ParseSeconds(f.flag, f.v); err != nil {
+		valid   [2]float64
+	}{{"--opponent-dial", dial, &them.Dial, engine.DialRange}, {"--opponent-rt", rt, &them.RT, engine.RTRange}, {"--opponent-et", et, &them.ET, engine.DialRange}} {
+		if *f.dst, err = engine.ParseSlipTime(f.flag, f.v, f.valid); err != nil {
 			return "", err
 		}
 	}

@@ -55,6 +55,9 @@ type Settings struct {
 	// see the README), and which dial to post.
 	OppMargin, OppMarginSD, OppRTMean, OppRTSD, RTMean, RTSD float64
 	PostBestForWin                                           bool
+	// AbortWords mark a pass in the logbook as not the car's time:
+	// engine.DefaultAbortWords and the crew's own (abort_words).
+	AbortWords engine.AbortWords
 }
 
 // Folder is an opened event folder (or the demo).

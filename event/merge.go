@@ -34,8 +34,8 @@ func (s Source) read() ([]byte, *colmap.Translation, error) {
 	data := s.Data
 	if data == nil {
 		var err error
-		if data, err = os.ReadFile(s.Path); err != nil {
-			return nil, nil, userErrf("cannot read %s: %v", s.Path, errors.Unwrap(err))
+		if data, err = ReadSourceFile(s.Path); err != nil {
+			return nil, nil, err
 		}
 	}
 	if s.Map == nil {
@@ -46,6 +46,32 @@ func (s Source) read() ([]byte, *colmap.Translation, error) {
 		return nil, nil, err
 	}
 	return tr.CSV, tr, nil
+}
+
+// ReadSourceFile reads a file to bring in: a binary file (a spreadsheet's
+// own format, a photo) is refused without its bytes being printed, and its
+// line ends are made LF (an old spreadsheet ends lines with a bare CR).
+func ReadSourceFile(path string) ([]byte, error) {
+	data, err := os.ReadFile(path)
+	if err != nil {
+		return nil, userErrf("cannot read %s: %v", path, errors.Unwrap(err))
+	}
+	if at := binaryAt(data); at >= 0 {
+		return nil, userErrf("%s is not a text (CSV) file: byte %d is binary data; save it from the spreadsheet as CSV", path, at+1)
+	}
+	return weather.LineEnds(data), nil
+}
+
+// binaryAt is the offset of the first byte no text file holds (NUL, or a
+// control character other than tab, CR, LF and form feed) in data's first
+// 64 KB, or -1. Text in any 8-bit encoding passes.
+func binaryAt(data []byte) int {
+	for i, b := range data[:min(len(data), 64<<10)] {
+		if b < 0x20 && b != '\t' && b != '\n' && b != '\r' && b != '\f' {
+			return i
+		}
+	}
+	return -1
 }
 
 // OwnLayout reports whether data's header is pitcard's own for kind (so it

@@ -127,6 +127,9 @@ func (f *ReadingFields) ReadingAt(u weather.Units, now time.Time, base *weather.
 		if r.Wind, err = weather.ParseSpeed(f.Wind, u.Speed); err != nil {
 			return r, FlagErr(err, "--wind")
 		}
+		r.WindUnknown = false
+	} else if base == nil {
+		r.WindUnknown = true // not read: blank in weather.csv, never "calm"
 	}
 	if f.WindFrom != "" {
 		if r.WindFrom, err = weather.ParseDirection(f.WindFrom); err != nil {
@@ -215,7 +218,7 @@ func Seconds(flag, v string, lo, hi float64) (float64, error) {
 func (o *OpponentFields) Build(s Settings, dial decimal.NullDecimal, passes []engine.Pass) (*engine.Opponent, engine.RTModel, error) {
 	var logged []float64 // our reaction times, most recent first
 	for i := len(passes) - 1; i >= 0; i-- {
-		if p := passes[i]; p.RT.Valid && !engine.Aborted(p.Notes) {
+		if p := passes[i]; p.RT.Valid && !s.AbortWords.Aborted(p.Notes) {
 			logged = append(logged, p.RT.Decimal.InexactFloat64())
 		}
 	}
@@ -351,7 +354,14 @@ func (e *Folder) GatherRound(r RoundRequest, now time.Time) (prep.Input, []strin
 	}
 	log, err := e.WeatherLog(elev)
 	if err != nil {
-		return in, nil, err
+		// A corrupt weather.csv costs the card nothing when the flags give
+		// a whole reading: the card prints from them and names the bad
+		// row, and the command exits 2 as for a bad logbook row.
+		if _, ferr := r.Reading.ReadingAt(e.Settings.Units, now, nil); !IsBadInput(err) || ferr != nil {
+			return in, nil, err
+		}
+		broken = append(broken, fmt.Errorf("%w (the weather log could not be read: the card's air is the reading flags)", err))
+		log = nil
 	}
 	now, sched, warnings = e.ClockFor(sched, haveSched, log, now)
 	if r.Unsaved != nil { // a reading the disk refused: the card still uses it
@@ -515,7 +525,7 @@ func (e *Folder) GatherRound(r RoundRequest, now time.Time) (prep.Input, []strin
 		Settings: prep.Settings{Units: e.Settings.Units, DialStep: e.Settings.DialStep, BreakoutRisk: e.Settings.BreakoutRisk,
 			MaxRuleAdjust: e.Settings.MaxAdjust, RuleLimits: e.Settings.RuleLimits, MaxReadingAge: e.Settings.MaxReadingAge,
 			CrossCheckMax: e.Settings.CrossCheckMax,
-			DayStart:      e.Settings.DayStart},
+			DayStart:      e.Settings.DayStart, Aborts: e.Settings.AbortWords},
 		Session: slot.Session, Lane: lane, OpponentDial: opp, Opponent: opponent, UsRT: usRT, PostBestForWin: e.Settings.PostBestForWin, Call: call, Now: now,
 		Air: air, AirSource: source, AirNow: airNow, Forecast: forecast, Elevation: elev, Prep: prepLvl, WeightLb: weight,
 		Rules: rules, RulesFS: e.FS, Ticked: notes.Ticked,

@@ -49,6 +49,9 @@ var SettingDefaults = map[string]any{
 	"cross_check_max_s": engine.DefaultCrossCheckMax,
 	// breakout-rule (the slowest dial within breakout_risk) or best-for-win
 	"post_dial": "breakout-rule",
+	// Words in a pass's notes that mark it as not the car's time, added to
+	// engine.DefaultAbortWords (a list, or one string of comma-separated words).
+	"abort_words": []string{},
 }
 
 // OpenOptions say which folder to open and what the front end sets over
@@ -278,6 +281,9 @@ func Open(o OpenOptions) (*Folder, error) {
 			return nil, settingErr(x.key, &weather.InputError{Field: x.key, Value: v.GetString(x.key), Reason: fmt.Sprintf("is outside %g..%g s", x.lo, x.hi)})
 		}
 	}
+	if s.AbortWords, err = abortWords(v.Get("abort_words")); err != nil {
+		return nil, settingErr("abort_words", err)
+	}
 	switch pd := v.GetString("post_dial"); pd {
 	case "breakout-rule":
 	case "best-for-win":
@@ -287,6 +293,33 @@ func Open(o OpenOptions) (*Folder, error) {
 	}
 	return e, nil
 }
+
+// abortWords reads the setting abort_words: a YAML list of words, or (from
+// the environment or a flag) one string of comma-separated words.
+func abortWords(v any) (engine.AbortWords, error) {
+	var extra []string
+	switch x := v.(type) {
+	case nil:
+	case string:
+		extra = strings.Split(x, ",")
+	case []string:
+		extra = x
+	case []any:
+		for _, w := range x {
+			s, ok := w.(string)
+			if !ok {
+				return nil, &weather.InputError{Field: "abort_words", Value: fmt.Sprint(w), Reason: "is not a word (give a list of words, e.g. [chute early, lost fire])"}
+			}
+			extra = append(extra, s)
+		}
+	default:
+		return nil, &weather.InputError{Field: "abort_words", Value: fmt.Sprint(v), Reason: "is not a list of words (e.g. [chute early, lost fire])"}
+	}
+	return engine.DefaultAbortWords.With(extra), nil
+}
+
+// listSettings are the settings written as a YAML list.
+var listSettings = map[string]bool{"abort_words": true}
 
 // CheckSettingsKeys refuses keys pitcard.yaml does not know: a misspelt
 // setting would otherwise be silently ignored.
@@ -313,8 +346,9 @@ func CheckSettingsKeys(data []byte, name string) error {
 			return &weather.InputError{File: name, Line: k.Line, Field: "setting", Value: k.Value,
 				Reason: "is not a pitcard setting (settings: " + strings.Join(known, ", ") + ")"}
 		}
-		// A list or a map would be read as blank, and the default used.
-		if val := m.Content[i+1]; val.Kind != yaml.ScalarNode {
+		// A list or a map would be read as blank, and the default used;
+		// only a list setting (abort_words) may be one, and only a list.
+		if val := m.Content[i+1]; val.Kind != yaml.ScalarNode && !(listSettings[k.Value] && val.Kind == yaml.SequenceNode) {
 			shape := map[yaml.Kind]string{yaml.SequenceNode: "a list", yaml.MappingNode: "a map"}[val.Kind]
 			if shape == "" {
 				shape = "not a plain value"

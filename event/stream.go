@@ -81,19 +81,33 @@ type StreamLine struct {
 // with replace, a reading in a minute already logged takes its place (a
 // logger reading every few seconds keeps the minute's latest).
 func (e *Folder) StreamReadings(r io.Reader, now func() time.Time, replace bool, report func(StreamLine)) (bad int, err error) {
-	sc := bufio.NewScanner(r)
-	sc.Buffer(make([]byte, 64<<10), 64<<10)
+	lr := lineReader{br: bufio.NewReader(r)}
 	var header string
 	var elev weather.Length // the track's, once rows come as CSV
 	n := 0
-	for sc.Scan() {
+	for {
+		raw, over, rerr := lr.next()
+		if rerr != nil && !errors.Is(rerr, io.EOF) {
+			return bad, fmt.Errorf("reading standard input: %w", rerr)
+		}
+		if errors.Is(rerr, io.EOF) && raw == nil && over == 0 {
+			break
+		}
 		n++
-		line := strings.TrimSpace(strings.TrimPrefix(sc.Text(), "\ufeff"))
+		var out StreamLine
+		out.Line = n
+		if over > 0 {
+			// Never echo it: a runaway logger's line can be megabytes.
+			out.Err = &weather.InputError{File: "standard input", Line: n, Field: "line",
+				Reason: fmt.Sprintf("of %d bytes is longer than %d KB, the most a reading's line may be", over, maxStreamLine>>10)}
+			bad++
+			report(out)
+			continue
+		}
+		line := strings.TrimSpace(strings.TrimPrefix(string(raw), "\ufeff"))
 		if line == "" || strings.HasPrefix(line, "#") {
 			continue
 		}
-		var out StreamLine
-		out.Line = n
 		switch {
 		case header == "" && !strings.Contains(line, "=") && strings.Contains(line, ","):
 			header = line // CSV rows follow, in weather.csv's columns
@@ -141,8 +155,54 @@ func (e *Folder) StreamReadings(r io.Reader, now func() time.Time, replace bool,
 		}
 		report(out)
 	}
-	if err := sc.Err(); err != nil {
-		return bad, fmt.Errorf("reading standard input: %w", err)
-	}
 	return bad, nil
+}
+
+// maxStreamLine is the longest line of a stream read as a reading: a
+// reading's line is under 200 bytes, so 64 KB is only ever a logger gone wrong.
+const maxStreamLine = 64 << 10
+
+// lineReader reads a stream's lines ended by LF, CRLF or a bare CR (old
+// loggers and spreadsheets end lines with CR alone). It never waits for the
+// byte after a CR, so a CR-only logger's line is read as it arrives.
+type lineReader struct {
+	br     *bufio.Reader
+	lastCR bool // the last line ended with CR: an LF right after it is its CRLF's
+}
+
+// next returns the next line without its ending. A line longer than
+// maxStreamLine is read to its end and dropped: line is nil and over is its
+// length. At the end of the stream err is io.EOF (with the last line, if it
+// had no ending).
+func (l *lineReader) next() (line []byte, over int, err error) {
+	var buf []byte
+	n := 0
+	for {
+		c, err := l.br.ReadByte()
+		if err != nil {
+			if n > maxStreamLine {
+				return nil, n, err
+			}
+			if n == 0 {
+				return nil, 0, err
+			}
+			return buf, 0, err
+		}
+		if c == '\n' && l.lastCR && n == 0 {
+			l.lastCR = false
+			continue
+		}
+		l.lastCR = false
+		if c == '\n' || c == '\r' {
+			l.lastCR = c == '\r'
+			if n > maxStreamLine {
+				return nil, n, nil
+			}
+			return buf, 0, nil
+		}
+		n++
+		if n <= maxStreamLine {
+			buf = append(buf, c)
+		}
+	}
 }

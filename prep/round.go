@@ -46,6 +46,9 @@ type Settings struct {
 	// DayStart is when a race day begins (setting day_starts): today's
 	// passes are the call's race day's, past midnight included.
 	DayStart weather.DayStart
+	// Aborts are the words in a pass's notes that leave it out of the fit
+	// and the card's figures (nil: engine.DefaultAbortWords).
+	Aborts engine.AbortWords
 }
 
 // DefaultMaxReadingAge is how old the latest reading may be before the card
@@ -202,7 +205,7 @@ func Gather(in Input) Card {
 	}
 
 	cal := engine.CalibrateInput{Car: in.Car, Track: in.Track, Tracks: in.Tracks, Passes: in.Passes, Now: latest(in.Now, in.Call, in.Passes),
-		DayStart: in.Settings.DayStart}
+		DayStart: in.Settings.DayStart, Aborts: in.Settings.Aborts}
 	var fit engine.Fit
 	err := in.Car.Validate("car.yaml")
 	if err == nil {
@@ -344,7 +347,7 @@ func todaysRecord(fit engine.Fit, cal engine.CalibrateInput, in Input) ([]Record
 		line := RecordLine{Pass: p, Actual: et, Predicted: math.NaN(), Error: math.NaN()}
 		if pr, ok := engine.Backcast(fit, p, cal); ok {
 			line.Predicted, line.Error = pr.ET, et-pr.ET
-			if !engine.Aborted(p.Notes) {
+			if !in.Settings.Aborts.Aborted(p.Notes) {
 				sum += math.Abs(line.Error)
 				n++
 			}

@@ -431,6 +431,9 @@ func TimerName(ft float64) string {
 }
 
 func windWords(r weather.Reading, heading float64, u weather.Units) string {
+	if r.WindUnknown {
+		return "not read"
+	}
 	if r.Wind.MPH() < 0.5 {
 		return "calm"
 	}

@@ -35,6 +35,12 @@ func PressureAltitude(p Pressure) Length {
 	return Feet(145366.45 * (1 - math.Pow(p.HPa()/1013.25, 0.190284)))
 }
 
+// StationFromPressureAltitude is the pressure whose pressure altitude is
+// pa: the inverse of PressureAltitude (NWS).
+func StationFromPressureAltitude(pa Length) Pressure {
+	return HPa(1013.25 * math.Pow(1-pa.Feet()/145366.45, 1/0.190284))
+}
+
 // DensityAltitude is the altitude of the standard atmosphere whose density is
 // rho kg/m³: DA_ft = 145442.16 · (1 − (ρ/1.2250)^0.234969). The exponent is
 // 1/(g·M/(R·L) − 1), so standard air at altitude h has density altitude h.

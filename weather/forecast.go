@@ -109,7 +109,7 @@ func ForecastAt(log []Reading, at time.Time, elev Length) (Forecast, error) {
 	f.Reading = Reading{
 		Time: at, Temp: Fahrenheit(tF), Baro: InHg(fitLine(x, stn).at(x0)), BaroKind: StationPressure,
 		DewPointSet: true, DewPoint: Fahrenheit(dF),
-		Wind: MPH(windSum / float64(len(win))), WindFrom: last.WindFrom, WindDirUnknown: last.WindDirUnknown,
+		Wind: MPH(windSum / float64(len(win))), WindFrom: last.WindFrom, WindDirUnknown: last.WindDirUnknown, WindUnknown: last.WindUnknown,
 	}
 	switch {
 	case len(track) >= MinTrendReadings:
@@ -164,7 +164,7 @@ func interpolate(log []Reading, at time.Time, elev Length, f Forecast) Forecast 
 		Time: at, Temp: Fahrenheit(t),
 		Baro: InHg(lerp(aa.Station.InHg(), ba.Station.InHg())), BaroKind: StationPressure,
 		DewPointSet: true, DewPoint: Fahrenheit(math.Min(t, lerp(aa.DewPoint.Fahrenheit(), ba.DewPoint.Fahrenheit()))),
-		Wind: MPH(lerp(a.Wind.MPH(), b.Wind.MPH())), WindFrom: b.WindFrom, WindDirUnknown: b.WindDirUnknown,
+		Wind: MPH(lerp(a.Wind.MPH(), b.Wind.MPH())), WindFrom: b.WindFrom, WindDirUnknown: b.WindDirUnknown, WindUnknown: b.WindUnknown,
 	}
 	if a.HasTrack && b.HasTrack {
 		f.Reading.HasTrack, f.Reading.TrackTemp = true, Fahrenheit(lerp(a.TrackTemp.Fahrenheit(), b.TrackTemp.Fahrenheit()))

@@ -1,6 +1,7 @@
 package weather
 
 import (
+	"bytes"
 	"encoding/csv"
 	"errors"
 	"fmt"
@@ -21,7 +22,7 @@ import (
 //	baro_kind       station (default) or altimeter
 //	humidity_pct    relative humidity, or blank when dewpoint_f is given
 //	dewpoint_f      dew point (or dewpoint_c), or blank
-//	wind_mph        wind speed (or wind_kmh), blank = calm
+//	wind_mph        wind speed (or wind_kmh), blank = not read (0 = calm)
 //	wind_from_deg   compass direction the wind blows from, blank = 0
 //	track_temp_f    track surface temperature (or track_temp_c), blank = not read
 //	notes           free text
@@ -86,6 +87,9 @@ func ReadLog(r io.Reader, name string, elev Length, loc *time.Location) ([]Readi
 			return nil, CSVError(name, err)
 		}
 		line, _ := cr.FieldPos(0)
+		if ie := RepeatedHeader(rec, header, name, line); ie != nil {
+			return nil, ie
+		}
 		if len(rec) != len(header) {
 			return nil, &InputError{File: name, Line: line, Field: "row",
 				Reason: fmt.Sprintf("has %d fields, the header has %d", len(rec), len(header))}
@@ -108,7 +112,7 @@ func ReadLog(r io.Reader, name string, elev Length, loc *time.Location) ([]Readi
 // (checked against the header by the caller), '#' lines as comments. It
 // returns the reader and the header, or a nil header for an empty file.
 func OpenCSV(r io.Reader, name string) (*csv.Reader, []string, error) {
-	cr := csv.NewReader(r)
+	cr := csv.NewReader(&lineEnds{r: r})
 	cr.FieldsPerRecord = -1
 	cr.Comment = '#'
 	header, err := cr.Read()
@@ -119,6 +123,87 @@ func OpenCSV(r io.Reader, name string) (*csv.Reader, []string, error) {
 		return nil, nil, CSVError(name, err)
 	}
 	return cr, header, nil
+}
+
+// lineEnds reads r with every line ended by LF: a bare CR (old spreadsheets
+// and loggers end lines with CR alone, which encoding/csv takes as part of a
+// field) becomes LF, and a CRLF stays as it is (encoding/csv drops its CR).
+// Line numbers are kept: one line end stays one.
+type lineEnds struct {
+	r       io.Reader
+	pending bool // the last chunk ended with a CR, not yet written
+	skipLF  bool // that CR was written as LF: an LF right after it is its CRLF's
+}
+
+func (l *lineEnds) Read(p []byte) (int, error) {
+	if len(p) == 0 {
+		return 0, nil
+	}
+	off := 0
+	if l.pending { // the CR that ended the last chunk is a line end
+		p[0], off, l.pending, l.skipLF = '\n', 1, false, true
+	}
+	n, err := l.r.Read(p[off:])
+	w := off
+	for i := off; i < off+n; i++ {
+		b := p[i]
+		if l.skipLF {
+			l.skipLF = false
+			if b == '\n' {
+				continue
+			}
+		}
+		if b == '\r' {
+			if i+1 == off+n {
+				l.pending = true // the chunk's last byte: the next one decides
+				continue
+			}
+			if p[i+1] != '\n' {
+				p[w] = '\n'
+				w++
+			}
+			continue // a CRLF's CR: its LF follows
+		}
+		p[w] = b
+		w++
+	}
+	if l.pending && err != nil {
+		l.pending = false
+		p[w] = '\n' // the CR's own place: w < off+n
+		w++
+	}
+	return w, err
+}
+
+// LineEnds is data with every line ended by LF (bare CR and CRLF become LF):
+// for readers of a whole file, as OpenCSV reads a stream.
+func LineEnds(data []byte) []byte {
+	if !bytes.ContainsRune(data, '\r') {
+		return data
+	}
+	return bytes.ReplaceAll(bytes.ReplaceAll(data, []byte("\r\n"), []byte("\n")), []byte("\r"), []byte("\n"))
+}
+
+// RepeatedHeader is the error for a row that is a header line again (two
+// exports joined into one file, perhaps with their columns in another
+// order), or nil when rec is data. A row is a header when at least two of
+// its fields, and at least half, are names of the header's columns: no value
+// of a date, a time or a number is a column's name.
+func RepeatedHeader(rec, header []string, name string, line int) *InputError {
+	names := make(map[string]bool, len(header))
+	for _, h := range header {
+		names[strings.ToLower(strings.TrimSpace(strings.TrimPrefix(h, "\ufeff")))] = true
+	}
+	n := 0
+	for _, f := range rec {
+		if f = strings.ToLower(strings.TrimSpace(strings.TrimPrefix(f, "\ufeff"))); f != "" && names[f] {
+			n++
+		}
+	}
+	if n < 2 || 2*n < len(rec) {
+		return nil
+	}
+	return &InputError{File: name, Line: line, Field: "row", Reason: "is the header line again (two files joined into one?): delete this line"}
 }
 
 // CSVError is a CSV reader's error as pitcard reports it: malformed CSV is an
@@ -264,8 +349,12 @@ func logRow(rec []string, col map[string]Column, elev Length, loc *time.Location
 		if r.Wind, err = ParseSpeed(v, unitIf(metric, UnitKMH, UnitMPH)); err != nil {
 			return r, err.(*InputError).Named(name)
 		}
+	} else {
+		r.WindUnknown = true
 	}
-	if v, _, _ := get("wind_from_deg"); v != "" {
+	if v, _, _ := get("wind_from_deg"); r.WindUnknown {
+		// no speed: a direction alone says nothing of the wind
+	} else if v != "" {
 		if r.WindFrom, err = ParseDirection(v); err != nil {
 			return r, err.(*InputError).Named("wind_from_deg")
 		}
@@ -345,10 +434,14 @@ func Record(r Reading) []string {
 	if r.HasTrack {
 		track = num(r.TrackTemp.Fahrenheit(), 2)
 	}
+	wind, from := num(r.Wind.MPH(), 2), windFrom(r)
+	if r.WindUnknown {
+		wind, from = "", ""
+	}
 	return []string{
 		r.Time.Format(DateLayout), r.Time.Format("15:04:05"),
 		num(r.Temp.Fahrenheit(), 2), num(r.Baro.InHg(), 4), r.BaroKind.String(),
-		rh, dp, num(r.Wind.MPH(), 2), windFrom(r), track, r.Note,
+		rh, dp, wind, from, track, r.Note,
 	}
 }
 

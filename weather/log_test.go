@@ -3,9 +3,11 @@ package weather
 import (
 	"bytes"
 	"errors"
+	"io"
 	"math"
 	"strings"
 	"testing"
+	"testing/iotest"
 	"time"
 )
 
@@ -282,5 +284,87 @@ func TestWindWithoutDirection(t *testing.T) {
 	back, _ := ReadLog(&buf, "weather.csv", Feet(900), time.UTC)
 	if !back[0].WindDirUnknown {
 		t.Errorf("the direction came back as %v", back[0].WindFrom)
+	}
+}
+
+// A station pressure whose pressure altitude (NWS formula) lies more than
+// StationMargin below the track is refused: sea-level pressure has never
+// been recorded above about 1084 hPa (from memory), so such a figure is an
+// altimeter setting typed as station pressure. Standard station pressures
+// (U.S. Standard Atmosphere 1976: 24.71 inHg at 5200 ft) are accepted.
+func TestImpossibleStationPressure(t *testing.T) {
+	for _, tc := range []struct {
+		name    string
+		elevFt  float64
+		baro    float64
+		kind    PressureKind
+		refused bool
+	}{
+		{"airport figure as station at 5200 ft (NWS PA -170 ft)", 5200, 30.10, StationPressure, true},
+		{"airport figure as station at 3000 ft", 3000, 30.20, StationPressure, true},
+		{"standard station at 5200 ft (USSA 1976)", 5200, 24.71, StationPressure, false},
+		{"high pressure day at 5200 ft, 1050 hPa at sea level", 5200, 25.6, StationPressure, false},
+		{"29.92 at 2240 ft: within the margin (PA 0 ft)", 2240, 29.92, StationPressure, false},
+		{"record-high sea level 1083.8 hPa (from memory)", 0, 32.0, StationPressure, false},
+		{"the same figure as an altimeter setting", 5200, 30.10, AltimeterSetting, false},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			r := Reading{Temp: Fahrenheit(80), Baro: InHg(tc.baro), BaroKind: tc.kind, RH: 0.3}
+			err := r.Validate(Feet(tc.elevFt))
+			if !tc.refused {
+				if err != nil {
+					t.Errorf("refused: %v", err)
+				}
+				return
+			}
+			var ie *InputError
+			if !errors.As(err, &ie) || ie.Field != "baro" {
+				t.Fatalf("got %v, want an InputError on baro", err)
+			}
+			for _, w := range []string{"station pressure", "altimeter", "ft"} {
+				if !strings.Contains(err.Error(), w) {
+					t.Errorf("%q lacks %q", err, w)
+				}
+			}
+		})
+	}
+}
+
+// Line ends of any kind, in chunks of any size (testing/iotest's one byte at
+// a time included), come out as LF with one line end per line.
+func TestLineEnds(t *testing.T) {
+	for _, tc := range []struct{ in, want string }{
+		{"a\rb\r", "a\nb\n"},
+		{"a\r\nb\r\n", "a\nb\n"},
+		{"a\r\nb\rc\nd", "a\nb\nc\nd"},
+		{"a\r\r\nb\r", "a\n\nb\n"},
+		{"plain\n", "plain\n"},
+	} {
+		t.Run(strings.NewReplacer("\r", `\r`, "\n", `\n`).Replace(tc.in), func(t *testing.T) {
+			for _, r := range []io.Reader{strings.NewReader(tc.in), iotest.OneByteReader(strings.NewReader(tc.in)), iotest.HalfReader(strings.NewReader(tc.in))} {
+				got, err := io.ReadAll(&lineEnds{r: r})
+				if err != nil || string(got) != tc.want {
+					t.Errorf("%q: %q %v", tc.in, got, err)
+				}
+			}
+			if got := string(LineEnds([]byte(tc.in))); got != tc.want {
+				t.Errorf("LineEnds(%q) = %q", tc.in, got)
+			}
+		})
+	}
+}
+
+// A weather log with its lines ended by a bare CR is read whole; one with its
+// header repeated mid-file (two files joined) says so at that line.
+func TestReadLogLineEndsAndRepeatedHeader(t *testing.T) {
+	head := "date,time,temp_f,baro_inhg,humidity_pct"
+	rows := []string{"2026-06-13,14:00,88,28.9,40", "2026-06-13,14:30,87,28.9,41"}
+	log, err := ReadLog(strings.NewReader(head+"\r"+rows[0]+"\r"+rows[1]+"\r"), "weather.csv", 0, time.UTC)
+	if err != nil || len(log) != 2 {
+		t.Errorf("CR: %d readings, %v", len(log), err)
+	}
+	_, err = ReadLog(strings.NewReader(head+"\n"+rows[0]+"\n"+head+"\n"+rows[1]+"\n"), "weather.csv", 0, time.UTC)
+	if err == nil || !strings.Contains(err.Error(), "weather.csv line 3") || !strings.Contains(err.Error(), "header line again") {
+		t.Errorf("repeated header: %v", err)
 	}
 }

@@ -53,9 +53,13 @@ type Reading struct {
 	// WindDirUnknown: a wind speed was read without its direction; it then
 	// counts as neither head- nor tailwind.
 	WindDirUnknown bool
-	TrackTemp      Temperature // track surface; valid −20..200 °F when HasTrackTemp
-	HasTrack       bool
-	Note           string // free text
+	// WindUnknown: the wind was not read at all (Wind and WindFrom are 0
+	// and say nothing); the physics takes it as still air, the card says
+	// "not read", never "calm".
+	WindUnknown bool
+	TrackTemp   Temperature // track surface; valid −20..200 °F when HasTrackTemp
+	HasTrack    bool
+	Note        string // free text
 }
 
 // Valid ranges of a reading (pitcard's limits: the extremes a drag strip sees,
@@ -135,6 +139,9 @@ func (r Reading) ValidateIn(h Length, u Units) error {
 		}
 		return rangeErr("baro", p.In(u.Pressure), u.Pressure.String(), pres(StationRange[0]))
 	}
+	if err := r.checkStationAt(h); err != nil {
+		return err
+	}
 	if r.DewPointSet {
 		if r.DewPoint > r.Temp+1e-9 {
 			return inputErr("dewpoint", r.DewPoint.Format(u.Temp, 1),
@@ -158,6 +165,35 @@ func (r Reading) ValidateIn(h Length, u Units) error {
 		}
 	}
 	return nil
+}
+
+// StationMargin is how far, in feet, the pressure altitude of a station
+// pressure may lie below the track's elevation. The highest sea-level
+// pressure on record, about 1084 hPa (Siberia, 1968; from memory), is a
+// pressure altitude of −1,870 ft (NWS formula), and weather keeps sea-level
+// pressure mostly within 950..1050 hPa (+1,770..−990 ft). 2,500 ft leaves
+// room for a meter's error beyond the record, and still catches an airport's
+// altimeter setting typed as station pressure at any track above 2,500 ft.
+const StationMargin = 2500
+
+// checkStationAt refuses a station pressure the air cannot have at
+// elevation h: one whose pressure altitude is more than StationMargin below
+// h. Such a figure is an altimeter setting (reduced to sea level) entered as
+// station pressure; taken as station it gives a density altitude thousands of
+// feet too low.
+func (r Reading) checkStationAt(h Length) error {
+	if r.BaroKind != StationPressure {
+		return nil
+	}
+	pa := PressureAltitude(r.Baro).Feet()
+	if pa >= h.Feet()-StationMargin {
+		return nil
+	}
+	most := StationFromPressureAltitude(Feet(h.Feet() - StationMargin)).InHg()
+	return inputErr("baro", trimFloat(r.Baro.InHg())+" inHg",
+		"is impossible as station pressure at %s ft (at most about %.2f inHg there: it would be the pressure %.0f ft lower, "+
+			"beyond any sea-level pressure on record); an airport or app figure is an altimeter setting: say --baro-kind altimeter (baro_kind altimeter in a file)",
+		trimFloat(h.Feet()), most, h.Feet()-pa)
 }
 
 // PressureWarning returns a warning when the barometer figure looks like the
@@ -259,6 +295,6 @@ func (r Reading) Same(o Reading, elev Length) bool {
 	a, b := r.Derive(elev), o.Derive(elev)
 	track := r.HasTrack == o.HasTrack && (!r.HasTrack || near(float64(r.TrackTemp), float64(o.TrackTemp), 0.3))
 	return near(float64(r.Temp), float64(o.Temp), 0.06) && near(float64(a.Station), float64(b.Station), 20) && near(a.RH, b.RH, 0.006) &&
-		track && near(float64(r.Wind), float64(o.Wind), 0.25) && r.WindDirUnknown == o.WindDirUnknown &&
+		track && near(float64(r.Wind), float64(o.Wind), 0.25) && r.WindDirUnknown == o.WindDirUnknown && r.WindUnknown == o.WindUnknown &&
 		(r.Wind == 0 || near(r.WindFrom, o.WindFrom, 0.5))
 }

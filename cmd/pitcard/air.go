@@ -142,7 +142,7 @@ type airReport struct {
 	SaturationPressureHPa float64  `json:"saturation_vapor_pressure_hpa"`
 	DryAirPressureHPa     float64  `json:"dry_air_pressure_hpa"`
 	ElevationFt           *float64 `json:"elevation_ft"`
-	WindMph               float64  `json:"wind_mph"`
+	WindMph               *float64 `json:"wind_mph"`
 	WindFromDeg           *float64 `json:"wind_from_deg"`
 	HeadwindMph           *float64 `json:"headwind_mph"`
 	TrackTempF            *float64 `json:"track_temp_f"`
@@ -172,11 +172,11 @@ func newAirReport(r weather.Reading, elev weather.Length, heading float64, haveH
 		SaturationPressureHPa: round(a.Saturation.HPa(), 2),
 		DryAirPressureHPa:     round(a.Dry.HPa(), 2),
 		ElevationFt:           event.OptFloat(elev.Feet(), true, 0),
-		WindMph:               round(r.Wind.MPH(), 1),
-		WindFromDeg:           event.OptFloat(r.WindFrom, !r.WindDirUnknown, 0),
+		WindMph:               event.OptFloat(r.Wind.MPH(), !r.WindUnknown, 1),
+		WindFromDeg:           event.OptFloat(r.WindFrom, !r.WindDirUnknown && !r.WindUnknown, 0),
 		Warnings:              []string{},
 	}
-	if haveHeading {
+	if haveHeading && !r.WindUnknown {
 		hw := round(r.HeadwindComponent(heading).MPH(), 1)
 		rep.HeadwindMph = &hw
 	}
@@ -236,8 +236,11 @@ func stationNote(r weather.Reading) string {
 	return "as read"
 }
 
-// windText is "6 mph from 210°", or "calm".
+// windText is "6 mph from 210°", "calm", or "not read".
 func windText(r weather.Reading, u weather.Units) string {
+	if r.WindUnknown {
+		return "not read"
+	}
 	if r.Wind.MPH() < 0.5 {
 		return "calm"
 	}

@@ -55,6 +55,13 @@ func TestBadInputTour(t *testing.T) {
 	_ = os.WriteFile(badAndDup, []byte(slipHeader+"2026-07-01,18:00,X,E1,left,11.5,0.02,1.6,,,,11.5,,116,88,28.9,140,,,,,\n"+
 		"2026-06-13,20:13,Juniper Bend Raceway,E2,left,11.46,0.028,1.608,4.684,7.305,9.569,11.495,93.56,117.06,84.05,27.6032,33.4,95.72,2.32,173,3350,\n"), 0o644)
 
+	// two exports joined: the header again mid-file
+	joined := filepath.Join(t.TempDir(), "joined.csv")
+	_ = os.WriteFile(joined, []byte(slipHeader+"2026-07-01,18:00,X,E1,left,11.5,0.02,1.6,,,,11.5,,116,88,28.9,40,,,,,\n"+slipHeader+
+		"2026-07-01,18:30,X,E2,left,11.5,0.02,1.6,,,,11.5,,116,88,28.9,40,,,,,\n"), 0o644)
+	binary := filepath.Join(t.TempDir(), "season.xls")
+	_ = os.WriteFile(binary, []byte("\xd0\xcf\x11\xe0\x00\x00binary"), 0o644)
+
 	// column maps gone wrong
 	mapsDir := t.TempDir()
 	badMap := filepath.Join(mapsDir, "map.yaml")
@@ -88,6 +95,9 @@ func TestBadInputTour(t *testing.T) {
 			{with([]string{"weather", "add", "--dir", badWeather}, reading...), 2, []string{"weather.csv line 3"}},
 			{with([]string{"weather", "add", "--dir", good, "--wind", "90mph"}, reading...), 2, []string{"--wind", "0..60 mph"}},
 			{with([]string{"weather", "add", "--demo"}, reading...), 2, []string{"read-only"}},
+			// an airport figure typed as station pressure at 5,200 ft: refused, not a DA of 494 ft
+			{[]string{"weather", "add", "--dir", good, "--elevation", "5200ft", "--temp", "80F", "--baro", "30.10", "--humidity", "30"}, 2, []string{"--baro", "30.1 inHg", "impossible as station pressure at 5200 ft", "--baro-kind altimeter"}},
+			{[]string{"air", "--dir", good, "--elevation", "5200ft", "--temp", "80F", "--baro", "30.10", "--humidity", "30"}, 2, []string{"--baro", "--baro-kind altimeter"}},
 		},
 		"weather list/forecast": {
 			{[]string{"weather", "list", "--dir", badWeather}, 2, []string{"weather.csv line 3"}},
@@ -103,6 +113,9 @@ func TestBadInputTour(t *testing.T) {
 			{[]string{"log", "add", "--dir", good, "--session", "E9", "--lane", "left", "--et1320", "11.5", "--mph1320", "250"}, 2, []string{"--mph1320", "not plausible"}},
 			{[]string{"log", "add", "--dir", good, "--session", "E9", "--lane", "left", "--et1320", "eleven"}, 2, []string{"--et1320", "seconds"}},
 			{[]string{"log", "add", "--dir", badLog, "--session", "E9", "--lane", "left", "--et1320", "11.5"}, 0, []string{"logbook.csv line", "time", "left out", "keeps them as they are"}},
+			{[]string{"log", "add", "--dir", good, "--session", "E9", "--lane", "left", "--dial", "11.45", "--rt", ".02", "--et1320", "11.5", "--opponent-dial", ".044", "--opponent-rt", ".04", "--opponent-et", "12.1"}, 2, []string{"--opponent-dial", "0.044", "1.5..40 s"}},
+			{[]string{"log", "add", "--dir", good, "--session", "E9", "--lane", "left", "--dial", "11.45", "--rt", ".02", "--et1320", "11.5", "--opponent-dial", "12.04", "--time", "20:41", "--opponent-rt", "40", "--opponent-et", "12.1"}, 2, []string{"--opponent-rt", "40", "-1..2 s"}},
+			{[]string{"log", "add", "--dir", good, "--session", "E9", "--lane", "left", "--et1320", "11.5", "--time", "20:42", "--track", "Junipr Bend"}, 0, []string{`--track "Junipr Bend"`, "neither track.yaml's name", "Juniper Bend Raceway"}},
 			{[]string{"log", "add", "--dir", good, "--session", "E9", "--lane", "left", "--et1320", "11.5", "--weight", "50"}, 2, []string{"--weight", "500..10000"}},
 			{[]string{"log", "add", "--dir", good, "--session", "E9", "--lane", "left", "--et1320", "11.5", "--date", "2500-06-01"}, 2, []string{"--date", "2500-06-01", "in the future", "today is 2026-06-13"}},
 		},
@@ -111,6 +124,8 @@ func TestBadInputTour(t *testing.T) {
 			{[]string{"log", "import", "--dir", good, src}, 2, []string{"rows.csv line 2", "humidity_pct", "0..100"}},
 			{[]string{"log", "import", "--dir", good}, 2, []string{"accepts 1 arg"}},
 			{[]string{"log", "import", "--dir", good, badAndDup}, 2, []string{"both.csv line 2", "humidity_pct", "line 3) is already in", "Nothing was imported"}},
+			{[]string{"log", "import", "--dir", good, joined}, 2, []string{"joined.csv line 3", "header line again", "Nothing was imported"}},
+			{[]string{"log", "import", "--dir", good, binary}, 2, []string{"season.xls is not a text (CSV) file", "save it from the spreadsheet as CSV"}},
 			{[]string{"log", "list", "--dir", badLog}, 2, []string{"logbook.csv line"}},
 			{[]string{"log", "list", "--dir", good, "--last", "x"}, 2, []string{"--last"}},
 			{[]string{"log", "stats", "--dir", badLog}, 2, []string{"logbook.csv line"}},
@@ -130,9 +145,13 @@ func TestBadInputTour(t *testing.T) {
 		"race": {
 			{[]string{"race", "--left-dial", "14.2", "--left-rt", ".5", "--left-et", "14.3", "--right-dial", "13", "--right-rt", ".5"}, 2, []string{"--right-et is required"}},
 			{[]string{"race", "--left-dial", "14.2s", "--left-rt", ".5", "--left-et", "14.3", "--right-dial", "13", "--right-rt", ".5", "--right-et", "13.1"}, 2, []string{"--left-dial"}},
-			{[]string{"race", "--left-dial", "14.2", "--left-rt", ".5", "--left-et", "-1", "--right-dial", "13", "--right-rt", ".5", "--right-et", "13.1"}, 2, []string{"left-et", "positive"}},
+			{[]string{"race", "--left-dial", "14.2", "--left-rt", ".5", "--left-et", "-1", "--right-dial", "13", "--right-rt", ".5", "--right-et", "13.1"}, 2, []string{"left-et", "1.5..40 s"}},
 			{[]string{"race", "--tree", "christmas", "--left-dial", "14.2", "--left-rt", ".5", "--left-et", "14", "--right-dial", "13", "--right-rt", ".5", "--right-et", "13.1"}, 2, []string{"tree", "full or pro"}},
 			{[]string{"race", "--rt-zero", "red", "--left-dial", "14.2", "--left-rt", ".5", "--left-et", "14", "--right-dial", "13", "--right-rt", ".5", "--right-et", "13.1"}, 2, []string{"rt-zero"}},
+			// the other lane's figures are checked like ours: the dial's and the RT's ranges
+			{[]string{"race", "--left-dial", "14.2", "--left-rt", "1000", "--left-et", "14.3", "--right-dial", "13", "--right-rt", ".5", "--right-et", "13.1"}, 2, []string{"--left-rt", "1000", "-1..2 s"}},
+			{[]string{"race", "--left-dial", "14.2", "--left-rt", ".5", "--left-et", "14.3", "--right-dial", ".044", "--right-rt", ".5", "--right-et", "13.1"}, 2, []string{"--right-dial", "0.044", "1.5..40 s"}},
+			{[]string{"race", "--left-dial", "14.2", "--left-rt", ".5", "--left-et", "1430", "--right-dial", "13", "--right-rt", ".5", "--right-et", "13.1"}, 2, []string{"--left-et", "1430", "1.5..40 s"}},
 			{[]string{"race", "--left-mph", "fast", "--left-dial", "14.2", "--left-rt", ".5", "--left-et", "14", "--right-dial", "13", "--right-rt", ".5", "--right-et", "13.1"}, 2, []string{"--left-mph"}},
 		},
 		"dial": {
@@ -170,6 +189,9 @@ func TestBadInputTour(t *testing.T) {
 			{[]string{"card", "--dir", good, "--opponent-dial", "11,4"}, 2, []string{"--opponent-dial"}},
 			{[]string{"card", "--dir", good, "--at", "8pm"}, 2, []string{"--at"}},
 			{[]string{"card", "--dir", badCar}, 2, []string{"car.yaml", "weight_lb"}},
+			// a corrupt weather.csv with every reading flag given: the card prints from the flags, says the log could not be read, exits 2
+			{with([]string{"card", "--dir", badWeather, "--round", "3", "--lane", "left"}, reading...), 2, []string{"POST THIS", "weather.csv line 3", "the card's air is the reading flags"}},
+			{[]string{"card", "--dir", badWeather, "--round", "3", "--lane", "left", "--temp", "85F"}, 2, []string{"weather.csv line 3"}},
 			{[]string{"card", "--dir", badTrack}, 2, []string{"track.yaml"}},
 			{[]string{"card", "--dir", trackKey}, 2, []string{"track.yaml line", "\"surface\" is not a key of this file", "elevation_ft, heading_deg, name, prep"}},
 			{[]string{"card", "--dir", badLane}, 2, []string{"schedule.yaml line 9", "lane \"center\"", "left or right"}},

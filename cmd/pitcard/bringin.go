@@ -43,9 +43,9 @@ func readMap(path string, kind colmap.Kind) (*colmap.Map, error) {
 // source is how to read FILE: pitcard's own columns, --map, or a guess the
 // crew has confirmed with --yes.
 func (f *mapFlags) source(s *IOStreams, e *eventFolder, path string, kind colmap.Kind) (event.Source, error) {
-	data, err := os.ReadFile(path)
+	data, err := event.ReadSourceFile(path)
 	if err != nil {
-		return event.Source{}, userErrf("cannot read %s: %v", path, err)
+		return event.Source{}, err
 	}
 	src := event.Source{Path: path, Data: data}
 	if f.Map != "" {
@@ -323,7 +323,7 @@ func bounded(passes []engine.Pass, since string, n int, track string) ([]engine.
 	}
 	var out []engine.Pass
 	for _, p := range passes {
-		if (since == "" || !p.Time.Before(from)) && (track == "" || strings.EqualFold(strings.TrimSpace(track), p.Track)) {
+		if (since == "" || !p.Time.Before(from)) && (track == "" || strings.EqualFold(engine.TrackName(track), p.Track)) {
 			out = append(out, p)
 		}
 	}

@@ -254,3 +254,97 @@ func TestListsAsCSV(t *testing.T) {
 		t.Errorf("log list --format csv --last 0 must be the logbook")
 	}
 }
+
+// One line over the stream's 64 KB limit (a logger gone wrong) is reported
+// by its number, without its bytes, and the good lines after it are still
+// read; lines ended by a bare CR (an old logger) or CRLF are read as lines.
+func TestReadingsStreamSurvivesALongLine(t *testing.T) {
+	dir := newFolder(t)
+	in := "temp=88F baro=28.92inHg humidity=40% time=19:10\n" +
+		"notes=" + strings.Repeat("x", 70<<10) + "\n" +
+		"temp=80 baro=28.9 humidity=44 time=19:12\r\n" +
+		"temp=81 baro=28.9 humidity=44 time=19:13\r" +
+		"temp=82 baro=28.9 humidity=44 time=19:14\n"
+	var out, errb strings.Builder
+	s := &IOStreams{In: strings.NewReader(in), Out: &out, Err: &errb, Now: func() time.Time { return fixedNow }}
+	code := run([]string{"weather", "add", "-", "--dir", dir, "--elevation", "2240ft"}, s)
+	if code != exitBadInput {
+		t.Errorf("exit %d, want 2 (a bad line)", code)
+	}
+	if !strings.Contains(errb.String(), "standard input line 2") || !strings.Contains(errb.String(), "64 KB") || errb.Len() > 2000 {
+		t.Errorf("the long line's report (%d bytes): %.500q", errb.Len(), errb.String())
+	}
+	if !strings.Contains(out.String(), "Added 4 readings") {
+		t.Errorf("out %q\nerr %.300q", out.String(), errb.String())
+	}
+	w := read(t, filepath.Join(dir, event.WeatherFile))
+	for _, at := range []string{",19:10:00,", ",19:12:00,", ",19:13:00,", ",19:14:00,"} {
+		if !strings.Contains(w, at) {
+			t.Errorf("weather.csv lacks %s:\n%s", at, w)
+		}
+	}
+}
+
+// Files from old spreadsheets end lines with a bare CR, or mix CR, CRLF and
+// LF: every row comes in, in pitcard's columns or through a guessed map. A
+// binary file is refused without its bytes reaching the screen.
+func TestImportLineEndsAndBinary(t *testing.T) {
+	rows := season(28)
+	for _, tc := range []struct{ name, data string }{
+		{"CR", strings.ReplaceAll(rows, "\n", "\r")},
+		{"mixed", mixEnds(rows)},
+		{"CR, another layout", strings.ReplaceAll(strings.Replace(rows, strings.TrimSuffix(slipHeader, "\n"),
+			"Date,Time,Track,Run,Lane,Dial,R/T,60',330',1/8,1000',1/4,1/8 mph,1/4 mph,Temp (F),Baro (inHg),RH,Track Temp (F),Wind,Wind Dir,Weight,Notes", 1), "\n", "\r")},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			dir := newFolder(t)
+			src := filepath.Join(t.TempDir(), "old.csv")
+			writeFile(t, src, tc.data)
+			out, errs, code := pitcard(t, "log", "import", "--dir", dir, "--yes", src)
+			if code != 0 || !strings.Contains(out, "Imported 28 passes") {
+				t.Errorf("exit %d\n%s\n%s", code, out, errs)
+			}
+		})
+	}
+	dir := newFolder(t)
+	bin := filepath.Join(t.TempDir(), "season.xls")
+	writeFile(t, bin, "\xd0\xcf\x11\xe0\xa1\xb1\x1a\xe1\x00\x00\x00\x00"+strings.Repeat("\x00\x01\x02\xff", 2000))
+	for _, cmd := range [][]string{{"log", "import"}, {"weather", "import"}, {"log", "diff"}} {
+		out, errs, code := pitcard(t, append(cmd, "--dir", dir, bin)...)
+		if code != exitBadInput || !strings.Contains(errs, "is not a text (CSV) file") || strings.ContainsAny(out+errs, "\x00\x01\xff") || len(out+errs) > 500 {
+			t.Errorf("%v: exit %d, %d bytes: %q %q", cmd, code, len(out+errs), out, errs)
+		}
+	}
+}
+
+// mixEnds ends the lines in turn with CR, CRLF and LF.
+func mixEnds(s string) string {
+	var b strings.Builder
+	for i, line := range strings.SplitAfter(s, "\n") {
+		b.WriteString(strings.TrimSuffix(line, "\n"))
+		if strings.HasSuffix(line, "\n") {
+			b.WriteString([]string{"\r", "\r\n", "\n"}[i%3])
+		}
+	}
+	return b.String()
+}
+
+// A reading without --wind has its wind "not read" (blank in weather.csv),
+// not 0 mph, which the card would show as calm; --wind 0 is calm.
+func TestWindNotReadIsNotCalm(t *testing.T) {
+	dir := newFolder(t)
+	mustRun(t, "weather", "add", "--dir", dir, "--elevation", "2240ft", "--time", "19:00", "--temp", "85F", "--baro", "27.6inHg", "--humidity", "35%")
+	mustRun(t, "weather", "add", "--dir", dir, "--elevation", "2240ft", "--time", "19:30", "--temp", "85F", "--baro", "27.6inHg", "--humidity", "35%", "--wind", "0")
+	w := read(t, filepath.Join(dir, event.WeatherFile))
+	if !strings.Contains(w, ",19:00:00,85,27.6,station,35,,,,,\n") || !strings.Contains(w, ",19:30:00,85,27.6,station,35,,0,0,,\n") {
+		t.Errorf("weather.csv:\n%s", w)
+	}
+	log := mustRun(t, "weather", "list", "--dir", dir)
+	if !strings.Contains(log, "not read") || !strings.Contains(log, "calm") {
+		t.Errorf("weather list must tell not read from calm:\n%s", log)
+	}
+	air := mustRun(t, "air", "--dir", dir, "--elevation", "2240ft", "--temp", "85F", "--baro", "27.6inHg", "--humidity", "35%", "--format", "json")
+	if !strings.Contains(air, `"wind_mph": null`) {
+		t.Errorf("air without --wind: wind_mph must be null:\n%s", air)
+	}
+}

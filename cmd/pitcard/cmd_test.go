@@ -209,10 +209,16 @@ func TestWeatherLogFlow(t *testing.T) {
 	}
 }
 
-// A station figure that looks like a sea-level one gets a warning, not an error.
+// A station figure that looks like a sea-level one gets a warning, not an
+// error, while it is possible at the elevation (1500 ft); where it is not
+// (4300 ft: beyond weather.StationMargin) it is refused.
 func TestPressureKindWarningReachesTheUser(t *testing.T) {
-	_, errs, code := pitcard(t, "air", "--temp", "80F", "--baro", "29.95inHg", "--humidity", "30", "--elevation", "4300ft")
+	_, errs, code := pitcard(t, "air", "--temp", "80F", "--baro", "29.95inHg", "--humidity", "30", "--elevation", "1500ft")
 	if code != 0 || !strings.Contains(errs, "looks like an altimeter") {
+		t.Errorf("exit %d, stderr %q", code, errs)
+	}
+	_, errs, code = pitcard(t, "air", "--temp", "80F", "--baro", "29.95inHg", "--humidity", "30", "--elevation", "4300ft")
+	if code != exitBadInput || !strings.Contains(errs, "--baro-kind altimeter") {
 		t.Errorf("exit %d, stderr %q", code, errs)
 	}
 }

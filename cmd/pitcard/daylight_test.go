@@ -86,7 +86,7 @@ func TestDaylightSavingNight(t *testing.T) {
 		}
 		mustAt(append([]string{"weather", "add", "--time", "03:35"}, reading...)...)
 		got, _ := os.ReadFile(filepath.Join(dir, "weather.csv"))
-		if want := head + rows + "2026-03-08,03:35:00,49,28.97,station,66,,0,0,,\n"; string(got) != want {
+		if want := head + rows + "2026-03-08,03:35:00,49,28.97,station,66,,,,,\n"; string(got) != want { // no --wind: not read, not calm
 			t.Errorf("weather.csv after adding 03:35:\n%s\nwant:\n%s", got, want)
 		}
 		mustAt("log", "add", "--time", "01:50", "--session", "E6", "--lane", "left", "--et1320", "11.62", "--mph1320", "115.1")

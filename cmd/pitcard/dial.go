@@ -171,7 +171,7 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 			return lo
 		}
 		leftOut = lo
-		if est, _, err = engine.RecentEstimate(passes, car.DistanceFt, o.Last); err != nil {
+		if est, _, err = engine.RecentEstimate(passes, car.DistanceFt, o.Last, e.Settings.AbortWords); err != nil {
 			return userErr(err)
 		}
 	}

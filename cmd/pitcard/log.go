@@ -446,7 +446,7 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 	if car, err := e.Car(); err == nil && len(passes) > 0 {
 		trk, _ := e.Track()
 		tracks, _ := e.OtherTracks()
-		in := engine.CalibrateInput{Car: car, Track: trk, Tracks: tracks, Passes: passes, Now: passes[len(passes)-1].Time, DayStart: e.Settings.DayStart}
+		in := engine.CalibrateInput{Car: car, Track: trk, Tracks: tracks, Passes: passes, Now: passes[len(passes)-1].Time, DayStart: e.Settings.DayStart, Aborts: e.Settings.AbortWords}
 		if fit, err := engine.Calibrate(in); err == nil && len(fit.Samples) > 0 {
 			residual, corrected = fit.Residuals(in), true
 		}
@@ -456,7 +456,7 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 	if err != nil {
 		return err
 	}
-	stats := engine.Stats(shown, residual, e.Settings.DayStart)
+	stats := engine.Stats(shown, residual, e.Settings.DayStart, e.Settings.AbortWords)
 	judge := func(s engine.GroupStats) string {
 		if corrected && s.CorrectedN > 0 {
 			return engine.Consistency(s.CorrectedSD, s.CorrectedN)

@@ -57,7 +57,7 @@ reading) or --at (the log's forecast for the call time); flags given with
 	fl.StringVar(&o.Track, "track", "", "")
 	fl.StringVar(&o.Log, "logbook", "", "")
 	for _, f := range []string{"car", "track", "logbook"} {
-		_ = fl.MarkDeprecated(f, "use --"+f+"-file")
+		deprecate(fl, f, "use --"+f+"-file")
 	}
 	fl.StringVar(&o.Format, "format", "text", "text, markdown or json")
 	withOut(cmd, s)
@@ -117,7 +117,7 @@ func forecastNext(e *eventFolder, cond conditionFlags, prepFlag, weightFlag stri
 	if len(passes) > 0 && passes[len(passes)-1].Time.After(upTo) {
 		upTo = passes[len(passes)-1].Time
 	}
-	fit, err := engine.Calibrate(engine.CalibrateInput{Car: car, Track: c.Track, Tracks: tracks, Passes: passes, Now: upTo, DayStart: e.Settings.DayStart})
+	fit, err := engine.Calibrate(engine.CalibrateInput{Car: car, Track: c.Track, Tracks: tracks, Passes: passes, Now: upTo, DayStart: e.Settings.DayStart, Aborts: e.Settings.AbortWords})
 	if err != nil {
 		return n, err
 	}

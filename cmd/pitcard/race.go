@@ -61,14 +61,16 @@ read (settings tree and rt_zero).`,
 func (l raceLane) run(name string) (engine.LaneRun, error) {
 	var r engine.LaneRun
 	var err error
+	// Each lane's figures are read and range-checked as a slip's are.
 	for _, f := range []struct {
 		flag, v string
 		dst     *decimal.Decimal
-	}{{"dial", l.Dial, &r.Dial}, {"rt", l.RT, &r.RT}, {"et", l.ET, &r.ET}} {
+		valid   [2]float64
+	}{{"dial", l.Dial, &r.Dial, engine.DialRange}, {"rt", l.RT, &r.RT, engine.RTRange}, {"et", l.ET, &r.ET, engine.DialRange}} {
 		if f.v == "" {
 			return r, userErrf("--%s-%s is required", name, f.flag)
 		}
-		if *f.dst, err = engine.ParseSeconds("--"+name+"-"+f.flag, f.v); err != nil {
+		if *f.dst, err = engine.ParseSlipTime("--"+name+"-"+f.flag, f.v, f.valid); err != nil {
 			return r, err
 		}
 	}

@@ -1,12 +1,15 @@
 package main
 
 import (
+	"fmt"
+	"io"
 	"os"
 	"slices"
 	"strings"
 	"time"
 
 	"github.com/spf13/cobra"
+	"github.com/spf13/pflag"
 
 	"pitcard/event"
 	"pitcard/weather"
@@ -37,6 +40,9 @@ Try it on the built-in demo event first: pitcard card --demo`,
 		SilenceUsage:  true,
 		SilenceErrors: true,
 	}
+	// Every command's warnings go to standard error; standard output carries
+	// only what the command prints (a card, JSON, CSV) and help.
+	root.PersistentPreRun = func(c *cobra.Command, _ []string) { warnDeprecated(c, s.Err) }
 	root.SetIn(s.In)
 	root.SetOut(s.Out)
 	root.SetErr(s.Err)
@@ -100,4 +106,26 @@ func checkFormat(format string, allowed ...string) error {
 		return nil
 	}
 	return &weather.InputError{Field: "--format", Value: format, Reason: "is not a format of this command (use " + strings.Join(allowed, ", ") + ")"}
+}
+
+// deprecatedFlag annotates a flag kept under an old name; its value says
+// what to use instead.
+const deprecatedFlag = "pitcard-deprecated"
+
+// deprecate keeps an old flag name working, hidden from help, with a warning
+// on standard error when it is used. Not pflag's MarkDeprecated: cobra prints
+// that warning to the command's output stream, which is standard output here
+// (help, JSON and CSV go there), so a script's JSON would start with it.
+func deprecate(fs *pflag.FlagSet, name, use string) {
+	fs.Lookup(name).Hidden = true
+	_ = fs.SetAnnotation(name, deprecatedFlag, []string{use})
+}
+
+// warnDeprecated says on w which old flag names the command line used.
+func warnDeprecated(c *cobra.Command, w io.Writer) {
+	c.Flags().Visit(func(f *pflag.Flag) {
+		if use := f.Annotations[deprecatedFlag]; use != nil {
+			fmt.Fprintf(w, "pitcard: warning: flag --%s is deprecated: %s\n", f.Name, use[0])
+		}
+	})
 }

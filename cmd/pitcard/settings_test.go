@@ -13,6 +13,7 @@ func FuzzSettings(f *testing.F) {
 	f.Add("units: metric\ndial_step: 0.001\nbreakout_risk: 0.05\n")
 	f.Add("units: imperial\ntree: pro\nrt_zero: amber\nmax_rule_adjust: 0.1\nrule_time_ms: 500\nrule_memory_mib: 32\n")
 	f.Add("dial_step: [1]\n")
+	f.Add("abort_words: [chute early, {a: 1}]\n")
 	f.Add("unknown: 1\n")
 	f.Add(": :\n")
 	dir := f.TempDir()
@@ -31,11 +32,42 @@ func FuzzSettings(f *testing.F) {
 			t.Fatalf("a stack trace for %q: %s", yaml, errs)
 		}
 		ok := strings.Contains(errs, "pitcard.yaml")
-		for _, k := range []string{"units", "dial_step", "breakout_risk", "tree", "rt-zero", "rt_zero", "max_rule_adjust", "rule_time_ms", "rule_memory_mib"} {
+		for _, k := range []string{"units", "dial_step", "breakout_risk", "tree", "rt-zero", "rt_zero", "max_rule_adjust", "rule_time_ms", "rule_memory_mib", "abort_words"} {
 			ok = ok || strings.Contains(errs, k)
 		}
 		if !ok {
 			t.Fatalf("error for %q names neither the file nor a setting: %s", yaml, errs)
 		}
 	})
+}
+
+// The crew's own abort words (setting abort_words, or PITCARD_ABORT_WORDS)
+// leave a pass out of the prediction beside pitcard's own; a bad value is
+// named.
+func TestCrewAbortWords(t *testing.T) {
+	dir := demoCopy(t)
+	lb := filepath.Join(dir, "logbook.csv")
+	data, _ := os.ReadFile(lb)
+	const last = "2026-06-13,20:13,Juniper Bend Raceway,E2,left,11.41,0.028,1.601,4.663,7.272,9.527,11.444,93.98,117.59,84.05,27.6032,33.4,95.72,2.32,173,3350,"
+	if !strings.Contains(string(data), last+"\n") {
+		t.Fatal("the demo's last pass changed: update the test")
+	}
+	_ = os.WriteFile(lb, []byte(strings.Replace(string(data), last+"\n", last+"chute out early\n", 1)), 0o644)
+	leftOut := func() bool {
+		out := mustRun(t, "predict", "--dir", dir, "--latest", "--format", "json")
+		return strings.Contains(out, `"reason": "notes say \"chute out early\""`)
+	}
+	if leftOut() {
+		t.Fatal("left out without the setting")
+	}
+	settings := filepath.Join(dir, "pitcard.yaml")
+	orig, _ := os.ReadFile(settings)
+	_ = os.WriteFile(settings, append(append([]byte{}, orig...), "\nabort_words: [chute out]\n"...), 0o644)
+	if !leftOut() {
+		t.Error("abort_words: [chute out] did not leave the pass out")
+	}
+	_ = os.WriteFile(settings, append(append([]byte{}, orig...), "\nabort_words: [[x]]\n"...), 0o644)
+	if _, errs, code := pitcard(t, "predict", "--dir", dir, "--latest"); code != exitBadInput || !strings.Contains(errs, "abort_words") {
+		t.Errorf("a bad abort_words: exit %d, %s", code, errs)
+	}
 }

@@ -94,7 +94,7 @@ reported and skipped.`,
 	cmd.Flags().StringVar(&o.Time, "time", "", "time of the reading, HH:MM on today's race day or 'YYYY-MM-DD HH:MM' (default: now)")
 	cmd.Flags().StringVar(&o.Note, "notes", "", "free text for the notes column")
 	cmd.Flags().StringVar(&o.Note, "note", "", "")
-	_ = cmd.Flags().MarkDeprecated("note", "use --notes (as on 'log add')")
+	deprecate(cmd.Flags(), "note", "use --notes (as on 'log add')")
 	cmd.Flags().BoolVar(&o.Replace, "replace", false, "replace a reading already logged in the same minute")
 	return cmd
 }
