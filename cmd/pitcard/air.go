@@ -113,7 +113,7 @@ func airRun(cmd *cobra.Command, o *airOptions) error {
 	}
 	title += ", " + r.Time.Format("2006-01-02 15:04")
 	t := newTable(o.s, title)
-	airRows(t, r, r.Derive(elev), elev, elevKnown, trk.HeadingDeg, trk.Name != "", e.Settings.Units)
+	airRows(t, r, r.Derive(elev), elev, elevKnown, trk.HeadingDeg, trk.Name != "", e.Settings.Units, stationNote(r))
 	render(o.s, t, o.Format)
 	return nil
 }
@@ -191,7 +191,9 @@ func newAirReport(r weather.Reading, elev weather.Length, heading float64, haveH
 }
 
 // airRows adds the air figures to t in the crew's units.
-func airRows(t table.Writer, r weather.Reading, a weather.Air, elev weather.Length, elevKnown bool, heading float64, haveHeading bool, u weather.Units) {
+// airRows are every figure of the air; pressureNote says where the station
+// pressure came from (read, from an altimeter setting, forecast).
+func airRows(t table.Writer, r weather.Reading, a weather.Air, elev weather.Length, elevKnown bool, heading float64, haveHeading bool, u weather.Units, pressureNote string) {
 	altimeter, altNote := a.Altimeter.Format(u.Pressure), "sea-level equivalent at "+elev.Format(u.Length)
 	if !elevKnown {
 		altimeter, altNote = "–", "needs the track's elevation (--elevation or track.yaml)"
@@ -203,7 +205,7 @@ func airRows(t table.Writer, r weather.Reading, a weather.Air, elev weather.Leng
 		{"Relative air density", fmt.Sprintf("%.1f %%", a.RelativeDensity), "of dry air at 15 °C, 1013.25 hPa"},
 		{"Air density", fmt.Sprintf("%.4f kg/m³", a.Density), ""},
 		{"Air temperature", r.Temp.Format(u.Temp, 1), ""},
-		{"Station pressure", a.Station.Format(u.Pressure), stationNote(r)},
+		{"Station pressure", a.Station.Format(u.Pressure), pressureNote},
 		{"Altimeter setting", altimeter, altNote},
 		{"Relative humidity", fmt.Sprintf("%.0f %%", a.RH*100), ""},
 		{"Dew point", a.DewPoint.Format(u.Temp, 0), ""},

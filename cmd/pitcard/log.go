@@ -73,7 +73,7 @@ weight to car.yaml's.`,
 	fl.StringVar(&o.Session, "session", "", "T1, T2 ... for time trials, E1, E2 ... for rounds, or test")
 	fl.StringVar(&o.Lane, "lane", "", "left or right")
 	fl.StringVar(&o.Dial, "dial", "", "dial-in, s (blank for a time trial without one)")
-	fl.StringVar(&o.RT, "rt", "", "reaction time, s (negative = red light)")
+	fl.StringVar(&o.RT, "rt", "", "reaction time, s, as the slip shows it (with rt_zero: green, perfect is .000 and a red light negative; amber: perfect is .500 full tree, .400 pro)")
 	fl.StringVar(&o.ET60, "et60", "", "60-ft time, s")
 	fl.StringVar(&o.ET330, "et330", "", "330-ft time, s")
 	fl.StringVar(&o.ET660, "et660", "", "eighth-mile ET, s")
@@ -522,7 +522,7 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 		}
 		passes := fmt.Sprint(s.Passes)
 		if s.Clean != s.Passes {
-			passes = fmt.Sprintf("%d (%d ok)", s.Passes, s.Clean)
+			passes = fmt.Sprintf("%d (%d out)", s.Passes, s.Passes-s.Clean)
 		}
 		t.AppendRow(table.Row{day, passes, f3(s.ETMean, s.Clean > 0), f3(s.ETSD, s.Clean > 1), f3(s.CorrectedSD, s.CorrectedN > 1),
 			f3(s.RTMean, s.RTN > 0), f3(s.RTSD, s.RTN > 1), f3(s.SixtySD, s.SixtyN > 1), judge(s)})
@@ -534,7 +534,7 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 	if corrected {
 		note = "Spreads are one standard deviation. Corrected: the ET spread once the air and track of each pass are taken out (each ET less the calibrated model's for its conditions); consistency is judged on it."
 	}
-	fmt.Fprintln(o.s.Out, prep.Wrap(note, o.s.width(), ""))
+	fmt.Fprintln(o.s.Out, prep.Wrap(note+` Passes "7 (1 out)": 7 logged, 1 left out of the figures because its notes say it was not a full run (lifted, spun ...; see 'pitcard log list').`, o.s.width(), ""))
 	fmt.Fprintln(o.s.Out, "Very consistent (≤ 0.015 s): dial it with confidence. Consistent (≤ 0.030).\nSome scatter (≤ 0.060): check the notes, tires, routine.\nInconsistent: look for lifted or spinning runs.")
 	if days := countDays(stats); days > 30 && o.Since == "" && o.Last == 0 {
 		fmt.Fprintf(o.s.Err, "pitcard: %d days shown: bound them with --since DATE, --last N or --track NAME\n", days)

@@ -312,7 +312,7 @@ func weatherForecastRun(cmd *cobra.Command, o *weatherForecastOptions) error {
 	}
 	title := fmt.Sprintf("Forecast air at %s, %s", trackName, when.Format("2006-01-02 15:04"))
 	t := newTable(o.s, title)
-	airRows(t, f.Reading, f.Air, elev, true, trk.HeadingDeg, trackName != "", e.Settings.Units)
+	airRows(t, f.Reading, f.Air, elev, true, trk.HeadingDeg, trackName != "", e.Settings.Units, "forecast from the readings' trend")
 	render(o.s, t, o.Format)
 	trust := "trusted"
 	if !f.Trusted {

@@ -1,0 +1,67 @@
+package main
+
+import (
+	"regexp"
+	"strings"
+	"testing"
+)
+
+// Words a racer reads: each screen says what a figure is, in one form.
+func TestPlainWords(t *testing.T) {
+	cases := []struct {
+		name       string
+		args       []string
+		want, lack []string
+	}{
+		{"expected time over the dial", []string{"card", "--demo"}, []string{"Over dial (exp.)"}, []string{"Given away"}},
+		{"a left-out pass", []string{"card", "--demo"}, []string{"ran 0.353 s slower than the model expects"}, []string{"scatter within"}},
+		{"the wind along the strip", []string{"card", "--demo"}, []string{"mph tailwind)"}, []string{"mph tail)"}},
+		{"whole passes", []string{"predict", "--demo", "--latest", "--format", "json"}, []string{"leans mostly on the latest"}, []string{"passes' worth"}},
+		{"passes left out of the stats", []string{"log", "stats", "--demo"}, []string{"(1 out)", `"7 (1 out)"`}, []string{"ok)"}},
+		{"a forecast's pressure", []string{"weather", "forecast", "--demo", "--at", "20:45"}, []string{"forecast from the readings' trend"}, []string{"as read"}},
+		{"reaction time's zero", []string{"log", "add", "--help"}, []string{"rt_zero"}, []string{"(negative = red light)"}},
+		{"dew point to the degree", []string{"air", "--demo", "--latest"}, []string{"Dew point"}, []string{"52.4 °F"}},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			out, errs, _ := pitcard(t, tc.args...)
+			flat := strings.Join(strings.Fields(out), " ")
+			for _, w := range tc.want {
+				if !strings.Contains(flat, w) {
+					t.Errorf("lacks %q:\n%s%s", w, out, errs)
+				}
+			}
+			for _, w := range tc.lack {
+				if strings.Contains(flat, w) {
+					t.Errorf("still says %q:\n%s", w, out)
+				}
+			}
+		})
+	}
+}
+
+// Density altitude to the nearest 10 ft on every screen (a meter's ±1 °F
+// and ±0.01 inHg are worth about ±70 ft: NWS formula).
+func TestDensityAltitudeToTenFeet(t *testing.T) {
+	da := regexp.MustCompile(`(\d{3,5}) ft`)
+	for _, args := range [][]string{{"card", "--demo"}, {"air", "--demo", "--latest"}, {"weather", "list", "--demo"}, {"log", "list", "--demo", "--last", "5"}} {
+		out := mustRun(t, args...)
+		n := 0
+		for _, line := range strings.Split(out, "\n") {
+			if !strings.Contains(line, "Density altitude") && !strings.Contains(strings.ToLower(line), "da") && args[0] != "weather" && args[0] != "log" {
+				continue
+			}
+			for _, m := range da.FindAllStringSubmatch(line, -1) {
+				if strings.Contains(line, "Density altitude") || args[0] == "weather" || args[0] == "log" {
+					n++
+					if !strings.HasSuffix(m[1], "0") && !strings.Contains(line, "Pressure altitude") && !strings.Contains(line, "sea-level") {
+						t.Errorf("%v: %q is not to 10 ft", args, strings.TrimSpace(line))
+					}
+				}
+			}
+		}
+		if n == 0 {
+			t.Errorf("%v: no density altitude found:\n%s", args, out)
+		}
+	}
+}
