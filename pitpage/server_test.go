@@ -601,3 +601,24 @@ func TestTokensFile(t *testing.T) {
 		t.Errorf("a broken tokens file must be named with its line: %v", err)
 	}
 }
+
+// A limit the crew entered that the prediction breaks stops the dial on the
+// phone as on paper: STOP in the dial's type, what failed against which limit.
+func TestAFailedCheckStopsThePagesDial(t *testing.T) {
+	f := newFixture(t)
+	car := filepath.Join(f.dir, event.CarFile)
+	data, err := os.ReadFile(car)
+	if err != nil || !strings.Contains(string(data), "limit_et: 10.65") {
+		t.Fatalf("car.yaml: %v", err)
+	}
+	if err := os.WriteFile(car, []byte(strings.Replace(string(data), "limit_et: 10.65", "limit_et: 11.50", 1)), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	body := f.do("GET", "/", testTokens.Crew, nil).Body.String()
+	dial := body[strings.Index(body, `<div class="dial">`):]
+	dial = dial[:strings.Index(dial, "</div>\n")+1]
+	if !strings.Contains(dial, `<div class="num stop">STOP</div>`) || !strings.Contains(dial, "A CHECK FAILED: ET limit") ||
+		!strings.Contains(dial, "1/4 mile limit of 11.50 s") || strings.Contains(dial, "POST THIS DIAL-IN") {
+		t.Errorf("the page's dial box:\n%s", dial)
+	}
+}

@@ -35,7 +35,7 @@ func RenderJSON(w io.Writer, c Card) error {
 		"notes":         nonNil(c.Notes),
 	}
 	if in.OpponentDial.Valid {
-		j["opponent_dial"] = in.OpponentDial.Decimal.String()
+		j["opponent_dial"] = json.Number(dialText(in.OpponentDial.Decimal, in.Settings.DialStep))
 	}
 	if in.Forecast != nil {
 		j["forecast"] = map[string]any{"readings_used": in.Forecast.Used, "trend_minutes": round(in.Forecast.Span.Minutes(), 1),
@@ -80,7 +80,7 @@ func RenderJSON(w io.Writer, c Card) error {
 	if c.PlanErr == nil && len(c.Plan.Options) > 0 {
 		var opts []map[string]any
 		for _, o := range c.Plan.Options {
-			m := map[string]any{"dial": dialText(o.Dial, c.Plan.Step), "breakout_chance": round(o.BreakoutChance, 4),
+			m := map[string]any{"dial": json.Number(dialText(o.Dial, c.Plan.Step)), "breakout_chance": round(o.BreakoutChance, 4),
 				"expected_giveaway_s": round(o.Giveaway, 4), "recommended": o.Recommended}
 			if w, ok := winOf(c, o.Dial); ok {
 				m["win_chance"] = round(w, 4)
@@ -94,11 +94,11 @@ func RenderJSON(w io.Writer, c Card) error {
 		if c.AdjustFlag != "" {
 			flags = append(flags, c.AdjustFlag)
 		}
-		j["dial"] = map[string]any{"recommended": dialText(c.Plan.Recommended, c.Plan.Step), "step": c.Plan.Step.String(), "breakout_risk": c.Plan.Risk,
-			"options": opts, "rule_total": dialText(c.TotalAdjust, c.Plan.Step), "flag": strings.Join(flags, "; "),
+		j["dial"] = map[string]any{"recommended": json.Number(dialText(c.Plan.Recommended, c.Plan.Step)), "step": json.Number(c.Plan.Step.String()), "breakout_risk": c.Plan.Risk,
+			"options": opts, "rule_total": json.Number(dialText(c.TotalAdjust, c.Plan.Step)), "flag": strings.Join(flags, "; "),
 			"post": c.HasFinal && len(c.Failed) == 0}
 		if len(c.Win) > 0 {
-			j["best_for_win"] = map[string]any{"dial": dialText(c.BestForWin.Dial, c.Plan.Step), "win_chance": round(c.BestForWin.Win, 4),
+			j["best_for_win"] = map[string]any{"dial": json.Number(dialText(c.BestForWin.Dial, c.Plan.Step)), "win_chance": round(c.BestForWin.Win, 4),
 				"breakout_chance": round(engine.BreakoutChance(c.Plan.Estimate, c.BestForWin.Dial), 4)}
 			j["head_start_s"] = engine.HeadStart(c.Plan.Recommended, in.Opponent.Dial).InexactFloat64()
 			j["win_draws"] = engine.WinDraws
@@ -107,7 +107,7 @@ func RenderJSON(w io.Writer, c Card) error {
 			}
 		}
 		if c.HasFinal {
-			j["final_dial"] = dialText(c.FinalDial, c.Plan.Step)
+			j["final_dial"] = json.Number(dialText(c.FinalDial, c.Plan.Step))
 			j["final_breakout_chance"] = round(engine.BreakoutChance(c.Plan.Estimate, c.FinalDial), 4)
 		}
 	}

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"encoding/json"
 	"errors"
 	"fmt"
 	"strconv"
@@ -65,31 +66,31 @@ passes at the distance raced, not corrected for the air, and says so.`,
 }
 
 type dialOptionJSON struct {
-	Dial           string   `json:"dial"`
-	BreakoutChance float64  `json:"breakout_chance"`
-	GiveawayS      float64  `json:"expected_giveaway_s"`
-	Recommended    bool     `json:"recommended"`
-	WinChance      *float64 `json:"win_chance,omitempty"`
+	Dial           json.Number `json:"dial"`
+	BreakoutChance float64     `json:"breakout_chance"`
+	GiveawayS      float64     `json:"expected_giveaway_s"`
+	Recommended    bool        `json:"recommended"`
+	WinChance      *float64    `json:"win_chance,omitempty"`
 }
 
 type bestForWinJSON struct {
-	Dial      string  `json:"dial"`
-	WinChance float64 `json:"win_chance"`
+	Dial      json.Number `json:"dial"`
+	WinChance float64     `json:"win_chance"`
 }
 
 type dialJSON struct {
 	// Post is the dial to post: the card's final dial after the crew's
 	// rules, "" when there is no round to gather (the recommendation is
 	// then the breakout rule's alone). PostOK is false when a check failed.
-	Post         string           `json:"post_dial,omitempty"`
+	Post         json.Number      `json:"post_dial,omitempty"`
 	PostOK       bool             `json:"post"`
 	ChecksFailed []string         `json:"checks_failed"`
 	PredictedET  float64          `json:"predicted_et"`
 	SD           float64          `json:"sd"`
 	Basis        string           `json:"basis"`
-	Step         string           `json:"step"`
+	Step         json.Number      `json:"step"`
 	Risk         float64          `json:"breakout_risk"`
-	Recommended  string           `json:"recommended_dial"`
+	Recommended  json.Number      `json:"recommended_dial"`
 	Options      []dialOptionJSON `json:"options"`
 	BestForWin   *bestForWinJSON  `json:"best_for_win,omitempty"`
 	HeadStartS   *float64         `json:"head_start_s,omitempty"`
@@ -189,10 +190,10 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 	if err != nil {
 		return err
 	}
-	j := dialJSON{PredictedET: round(est.ET, 4), SD: round(est.SD, 4), Basis: est.Basis, Step: plan.Step.String(),
-		Risk: plan.Risk, Recommended: prep.DialText(plan.Recommended, plan.Step), ChecksFailed: append([]string{}, post.failed...)}
+	j := dialJSON{PredictedET: round(est.ET, 4), SD: round(est.SD, 4), Basis: est.Basis, Step: json.Number(plan.Step.String()),
+		Risk: plan.Risk, Recommended: json.Number(prep.DialText(plan.Recommended, plan.Step)), ChecksFailed: append([]string{}, post.failed...)}
 	if post.hasFinal {
-		j.Post = prep.DialText(post.final, plan.Step)
+		j.Post = json.Number(prep.DialText(post.final, plan.Step))
 	}
 	j.PostOK = len(post.failed) == 0
 	// Against the other lane: the chance to win of every option.
@@ -221,12 +222,12 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 		}
 		wins = engine.WinChances(engine.WinInput{Us: est, UsRT: usRT, Opp: *opp, Seed: 1}, ds)
 		best := engine.BestForWin(wins)
-		j.BestForWin = &bestForWinJSON{Dial: prep.DialText(best.Dial, plan.Step), WinChance: round(best.Win, 4)}
+		j.BestForWin = &bestForWinJSON{Dial: json.Number(prep.DialText(best.Dial, plan.Step)), WinChance: round(best.Win, 4)}
 		h := engine.HeadStart(plan.Recommended, opp.Dial).InexactFloat64()
 		j.HeadStartS = &h
 	}
 	for i, op := range plan.Options {
-		oj := dialOptionJSON{Dial: prep.DialText(op.Dial, plan.Step), BreakoutChance: round(op.BreakoutChance, 4),
+		oj := dialOptionJSON{Dial: json.Number(prep.DialText(op.Dial, plan.Step)), BreakoutChance: round(op.BreakoutChance, 4),
 			GiveawayS: round(op.Giveaway, 4), Recommended: op.Recommended}
 		if wins != nil {
 			w := round(wins[i].Win, 4)
@@ -247,7 +248,7 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 			if op.WinChance != nil {
 				win = fmt.Sprint(*op.WinChance)
 			}
-			rows = append(rows, []string{op.Dial, fmt.Sprint(op.BreakoutChance), fmt.Sprint(op.GiveawayS), win, fmt.Sprint(op.Recommended),
+			rows = append(rows, []string{string(op.Dial), fmt.Sprint(op.BreakoutChance), fmt.Sprint(op.GiveawayS), win, fmt.Sprint(op.Recommended),
 				fmt.Sprint(j.PredictedET), fmt.Sprint(j.SD)})
 		}
 		return errors.Join(writeCSV(o.s.Out, rows), failedChecks(post.failed), leftOut)
@@ -261,19 +262,16 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 	t.AppendHeader(header)
 	for _, op := range j.Options {
 		mark := ""
-		dial := op.Dial
-		if post.hasFinal && !op.Recommended && op.Dial == j.Post {
-			mark = post.mark()
-		}
-		if op.Recommended && post.hasFinal && op.Dial != j.Post {
-			mark = "← before the rules"
-		}
-		if op.Recommended && (!post.hasFinal || op.Dial == j.Post) {
+		dial := string(op.Dial)
+		switch {
+		case post.hasFinal && op.Dial == j.Post, !post.hasFinal && op.Recommended:
 			mark = post.mark()
 			if o.s.Terminal && o.Format == "text" { // no color codes in a document
 				// A space before only: a space after would shift the dial left of the others in its right-aligned column.
 				dial = text.Colors{text.Bold, text.FgHiWhite, text.BgBlue}.Sprint(" " + dial)
 			}
+		case op.Recommended:
+			mark = "← before the rules"
 		}
 		if j.BestForWin != nil && op.Dial == j.BestForWin.Dial {
 			mark = strings.TrimPrefix(mark+", wins most", ", ")

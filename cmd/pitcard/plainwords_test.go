@@ -1,6 +1,7 @@
 package main
 
 import (
+	"encoding/json"
 	"regexp"
 	"strings"
 	"testing"
@@ -62,6 +63,31 @@ func TestDensityAltitudeToTenFeet(t *testing.T) {
 		}
 		if n == 0 {
 			t.Errorf("%v: no density altitude found:\n%s", args, out)
+		}
+	}
+}
+
+// JSON numbers are numbers: a script reading a dial gets a number with the
+// slip's digits (11.40), never a string it must parse.
+func TestJSONNumbersAreNumbers(t *testing.T) {
+	var card map[string]any
+	if err := json.Unmarshal([]byte(mustRun(t, "card", "--demo", "--opponent-dial", "12.1", "--format", "json")), &card); err != nil {
+		t.Fatal(err)
+	}
+	dial, _ := card["dial"].(map[string]any)
+	for name, v := range map[string]any{"opponent_dial": card["opponent_dial"], "final_dial": card["final_dial"],
+		"dial.recommended": dial["recommended"], "dial.step": dial["step"], "dial.rule_total": dial["rule_total"]} {
+		if _, ok := v.(float64); !ok {
+			t.Errorf("%s is %T (%v), not a number", name, v, v)
+		}
+	}
+	var d map[string]any
+	if err := json.Unmarshal([]byte(mustRun(t, "dial", "--demo", "--format", "json")), &d); err != nil {
+		t.Fatal(err)
+	}
+	for _, k := range []string{"post_dial", "recommended_dial", "step"} {
+		if _, ok := d[k].(float64); !ok {
+			t.Errorf("dial's %s is %T (%v), not a number", k, d[k], d[k])
 		}
 	}
 }

@@ -31,9 +31,9 @@ func TestRaceDayLoop(t *testing.T) {
 	}
 	for i, s := range sessions {
 		var card struct {
-			Title      string `json:"title"`
-			Session    string `json:"session"`
-			FinalDial  string `json:"final_dial"`
+			Title      string      `json:"title"`
+			Session    string      `json:"session"`
+			FinalDial  json.Number `json:"final_dial"`
 			Prediction struct {
 				Timers []struct {
 					DistanceFt float64 `json:"distance_ft"`
@@ -74,7 +74,7 @@ func TestRaceDayLoop(t *testing.T) {
 			"--lane", []string{"left", "right"}[i%2], "--rt", ".031", "--et60", fmt.Sprintf("%.3f", card.Prediction.Timers[0].ET),
 			"--et1320", fmt.Sprintf("%.3f", et), "--mph1320", "117.40"}
 		if strings.HasPrefix(s.session, "E") {
-			add = append(add, "--dial", card.FinalDial)
+			add = append(add, "--dial", string(card.FinalDial))
 		}
 		mustRun(t, add...)
 	}

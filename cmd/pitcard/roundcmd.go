@@ -284,6 +284,9 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 	if err := prep.RenderTextWidth(o.s.Out, c, o.s.Terminal, o.s.width()); err != nil {
 		return err
 	}
+	// A failed check stops the dial: the round goes on (the slip is still
+	// logged when the car runs), and the command ends with exit 3.
+	broken = errors.Join(failedChecks(c.Failed), broken)
 	if unsaved != nil {
 		return fmt.Errorf("the reading was not saved: %w", unsaved)
 	}

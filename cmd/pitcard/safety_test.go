@@ -71,7 +71,7 @@ func TestAFailedLimitStopsTheDial(t *testing.T) {
 func TestDialAndCardPostOneNumber(t *testing.T) {
 	card := mustRun(t, "card", "--demo", "--format", "json")
 	var c struct {
-		Final string `json:"final_dial"`
+		Final json.Number `json:"final_dial"`
 	}
 	if err := json.Unmarshal([]byte(card), &c); err != nil || c.Final == "" {
 		t.Fatalf("card JSON: %v %q", err, c.Final)
@@ -81,7 +81,7 @@ func TestDialAndCardPostOneNumber(t *testing.T) {
 		t.Errorf("dial posts %q (%v), the card %q", d.Post, err, c.Final)
 	}
 	text := mustRun(t, "dial", "--demo")
-	if !strings.Contains(text, c.Final+" │") || !strings.Contains(text, "← post this") || !strings.Contains(text, "← before the rules") {
+	if !strings.Contains(text, string(c.Final)+" │") || !strings.Contains(text, "← post this") || !strings.Contains(text, "← before the rules") {
 		t.Errorf("dial text:\n%s", text)
 	}
 }

@@ -511,12 +511,12 @@ func TestTheOtherLane(t *testing.T) {
 	}
 	var j struct {
 		Options []struct {
-			Dial      string   `json:"dial"`
-			WinChance *float64 `json:"win_chance"`
+			Dial      json.Number `json:"dial"`
+			WinChance *float64    `json:"win_chance"`
 		} `json:"options"`
 		BestForWin *struct {
-			Dial      string  `json:"dial"`
-			WinChance float64 `json:"win_chance"`
+			Dial      json.Number `json:"dial"`
+			WinChance float64     `json:"win_chance"`
 		} `json:"best_for_win"`
 	}
 	if err := json.Unmarshal([]byte(mustRun(t, "dial", "--demo", "--opponent-dial", "12.10", "--format", "json")), &j); err != nil {
