@@ -28,7 +28,10 @@ type dialOptions struct {
 	Rows    int
 	Format  string
 	OppDial string
-	opp     opponentFlags
+	// Round and Lane pick the round whose card the dial is posted from
+	// (default: the schedule's next, as the card's).
+	Round, Lane string
+	opp         opponentFlags
 }
 
 func newDialCmd(s *IOStreams, g *globalOptions) *cobra.Command {
@@ -60,6 +63,8 @@ passes at the distance raced, not corrected for the air, and says so.`,
 	cmd.Flags().String("dial-step", "", "dial-in step, s (setting dial_step)")
 	cmd.Flags().StringVar(&o.Format, "format", "text", "text, markdown, json or csv")
 	cmd.Flags().StringVar(&o.OppDial, "opponent-dial", "", "the other lane's dial-in, s: adds each dial's chance to win")
+	cmd.Flags().StringVar(&o.Round, "round", "", "the round to post for, as on the card: 3, E3, T2 ... (default: the schedule's next)")
+	cmd.Flags().StringVar(&o.Lane, "lane", "", "left or right (default: the schedule's)")
 	o.opp.bind(cmd)
 	withOut(cmd, s)
 	return cmd
@@ -154,12 +159,16 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 				return noDial(o, est, why, leftOut)
 			}
 			post = dialPost{failed: prep.Failed(prep.SafetyChecks(prep.SafetyFor(n.Car, n.Pred, n.When, e.Settings.Units)))}
-			if c, ok := o.card(e, askedLatest); ok {
+			c, ok, err := o.card(e, askedLatest)
+			if err != nil {
+				return err
+			}
+			if ok {
 				// The round's card: the same prediction, rules and checks
 				// as 'pitcard card', so both post one number.
 				est = c.Plan.Estimate
 				est.Basis += ", in " + c.Input.AirSource + " (the card's)"
-				post = dialPost{final: c.FinalDial, hasFinal: c.HasFinal, failed: c.Failed, adjustments: c.Adjustments}
+				post = dialPost{final: c.FinalDial, hasFinal: c.HasFinal, failed: c.Failed, adjustments: c.Adjustments, round: c.Title}
 			}
 			break
 		}
@@ -309,6 +318,7 @@ type dialPost struct {
 	hasFinal    bool // final is the card's, after the crew's rules
 	failed      []string
 	adjustments []prep.RuleLine
+	round       string // the card's title: "Round 2, right lane"
 }
 
 // mark is the table's word beside the dial to post.
@@ -340,7 +350,7 @@ func (p dialPost) write(s *IOStreams, j dialJSON, plan engine.DialPlan) {
 		if len(p.failed) > 0 {
 			lead = "The dial once the failed checks are cleared"
 		}
-		fmt.Fprintln(s.Out, prep.Wrap(fmt.Sprintf("%s: %s (the breakout rule's %s, %s; %s), as the card gives it.", lead, j.Post, j.Recommended, rule, how), s.width(), "  "))
+		fmt.Fprintln(s.Out, prep.Wrap(fmt.Sprintf("%s for %s: %s (the breakout rule's %s, %s; %s), as the card gives it.", lead, strings.ToLower(p.round[:1])+p.round[1:], j.Post, j.Recommended, rule, how), s.width(), "  "))
 	default:
 		fmt.Fprintln(s.Out, prep.Wrap(fmt.Sprintf("Before the rules: %s (%s). The crew's rules run on the card: 'pitcard card' posts the final dial.", j.Recommended, rule), s.width(), "  "))
 	}
@@ -352,20 +362,29 @@ func (p dialPost) write(s *IOStreams, j dialJSON, plan engine.DialPlan) {
 // card gathers the round's card as 'pitcard card' would, from the dial's
 // flags: false when there is no round to gather (no schedule and no
 // --at), or with --latest (the air of the last reading, not the call's).
-func (o *dialOptions) card(e *eventFolder, latest bool) (prep.Card, bool) {
+// A round asked for (--round, --lane) that cannot be gathered is an error,
+// not a quiet fall back to another number.
+func (o *dialOptions) card(e *eventFolder, latest bool) (prep.Card, bool, error) {
+	asked := o.Round != "" || o.Lane != ""
 	if latest {
-		return prep.Card{}, false
+		if asked {
+			return prep.Card{}, false, userErrf("--round and --lane post the card's dial, in the air forecast for its call: drop --latest")
+		}
+		return prep.Card{}, false, nil
 	}
-	in, _, err := e.GatherRound(event.RoundRequest{Reading: o.cond.ReadingFields, At: o.cond.At, Prep: o.Prep,
+	in, _, err := e.GatherRound(event.RoundRequest{Reading: o.cond.ReadingFields, At: o.cond.At, Prep: o.Prep, Round: o.Round, Lane: o.Lane,
 		OpponentDial: o.OppDial, Opponent: o.opp.OpponentFields}, e.DemoClock(o.s.Now()))
-	if err != nil {
-		return prep.Card{}, false
+	if err != nil && !event.Usable(err) || err != nil && asked {
+		if asked {
+			return prep.Card{}, false, err
+		}
+		return prep.Card{}, false, nil
 	}
 	c := prep.Gather(in)
 	if !c.HasFinal || c.PlanErr != nil {
-		return prep.Card{}, false
+		return prep.Card{}, false, nil
 	}
-	return c, true
+	return c, true, nil
 }
 
 // noDial prints the estimate as a guide when there are too few passes to

@@ -114,3 +114,25 @@ func TestHotTrackIsCrossChecked(t *testing.T) {
 		t.Errorf("demo card exit %d", code)
 	}
 }
+
+// 'dial --round --lane' posts that round's card dial; a round that is not
+// one is refused, not quietly replaced by another number.
+func TestDialForAGivenRound(t *testing.T) {
+	var c struct {
+		Final json.Number `json:"final_dial"`
+	}
+	_ = json.Unmarshal([]byte(mustRun(t, "card", "--demo", "--round", "E4", "--lane", "right", "--format", "json")), &c)
+	var d dialJSON
+	if err := json.Unmarshal([]byte(mustRun(t, "dial", "--demo", "--round", "E4", "--lane", "right", "--format", "json")), &d); err != nil || d.Post != c.Final || c.Final == "" {
+		t.Errorf("dial for E4 right posts %q (%v), its card %q", d.Post, err, c.Final)
+	}
+	if out := mustRun(t, "dial", "--demo", "--round", "E4", "--lane", "right"); !strings.Contains(strings.Join(strings.Fields(out), " "), "Post this dial for round 4, right lane: "+string(c.Final)) {
+		t.Errorf("dial text:\n%s", out)
+	}
+	if _, errs, code := pitcard(t, "dial", "--demo", "--round", "X9"); code != exitBadInput || !strings.Contains(errs, "--round") {
+		t.Errorf("--round X9: exit %d %s", code, errs)
+	}
+	if _, errs, code := pitcard(t, "dial", "--demo", "--round", "E4", "--latest"); code != exitBadInput || !strings.Contains(errs, "drop --latest") {
+		t.Errorf("--round with --latest: exit %d %s", code, errs)
+	}
+}
