@@ -127,9 +127,6 @@ func SafetyChecks(in SafetyInput) []scripts.Check {
 	return out
 }
 
-// num prints a limit as the crew wrote it: 10.5, not 10.50 or 10.500.
-func num(v float64) string { return strconv.FormatFloat(v, 'f', -1, 64) }
-
 // beltsCheck reads the belts' date tag against the day: a tag that runs out
 // this month warns, one that ran out before it fails.
 func beltsCheck(l engine.Limits, day time.Time) (label, status, note string) {

@@ -68,15 +68,6 @@ func TestTrackTempRule(t *testing.T) {
 	}
 }
 
-func statusOf(res Result, label string) (string, string) {
-	for _, c := range res.Checks {
-		if c.Label == label {
-			return c.Status, c.Note
-		}
-	}
-	return "", ""
-}
-
 // The tire-pressure table is one crew's drag-radial numbers (common practice,
 // no source): the note says so beside the pressure, and the rule is silent
 // for street tires and slicks, which the table is not for.
