@@ -76,6 +76,10 @@ type Sensitivity struct {
 	SeenDALo, SeenDAHi            float64 // density altitudes of the passes leaned on, ft
 	SeenTrackLo, SeenTrackHi      float64 // their track temperatures, °F
 	ExtrapolatedDA, ExtrapolatedT float64 // how far today lies outside them (ft, °F)
+	// BeyondDA, BeyondTrack are how much of the ET, s, the model moves
+	// between the edge of the conditions seen and today's: the part of the
+	// prediction that rests on the model alone, out where no pass checks it.
+	BeyondDA, BeyondTrack float64
 }
 
 // Prediction is the predicted next pass.
@@ -431,6 +435,18 @@ func sensitivity(f Fit, in PredictInput, env Env, model Run) Sensitivity {
 	if len(f.Samples) > 0 {
 		s.ExtrapolatedDA = math.Max(0, math.Max(s.DAFeet-s.SeenDAHi, s.SeenDALo-s.DAFeet))
 		s.ExtrapolatedT = math.Max(0, math.Max(s.TrackF-s.SeenTrackHi, s.SeenTrackLo-s.TrackF))
+		if s.ExtrapolatedT > 0 {
+			edge := in.Air
+			edge.TrackTemp, edge.HasTrack = weather.Fahrenheit(math.Max(s.SeenTrackLo, math.Min(s.SeenTrackHi, s.TrackF))), true
+			s.BeyondTrack = et - run(edge).ETAt(dist)
+		}
+		if s.ExtrapolatedDA > 0 {
+			back := s.ExtrapolatedDA
+			if s.DAFeet > s.SeenDAHi {
+				back = -back
+			}
+			s.BeyondDA = et - run(ThinnerAir(in.Air, back)).ETAt(dist)
+		}
 	}
 	return s
 }
@@ -441,8 +457,12 @@ func extrapolation(s Sensitivity, et float64) float64 {
 	// grips fine down to 70 °F can give up at 55): whatever the fit says,
 	// new ground costs at least ExtrapolationFloor of the ET per 1000 ft of
 	// density altitude or 10 °F of track beyond what was seen.
-	da := math.Max(ExtrapolationShare*math.Abs(s.PerKDA), ExtrapolationFloor*et) * s.ExtrapolatedDA / 1000
-	tr := math.Max(ExtrapolationShare*math.Abs(s.Per10FTrack), ExtrapolationFloor*et) * s.ExtrapolatedT / 10
+	// The local slope alone shrinks the interval where a fitted curve goes
+	// flat (a grip floor): the shift the model makes beyond the edge of the
+	// logbook is at least as uncertain, so the interval only widens with
+	// the distance out.
+	da := math.Max(math.Max(ExtrapolationShare*math.Abs(s.PerKDA), ExtrapolationFloor*et)*s.ExtrapolatedDA/1000, ExtrapolationShare*math.Abs(s.BeyondDA))
+	tr := math.Max(math.Max(ExtrapolationShare*math.Abs(s.Per10FTrack), ExtrapolationFloor*et)*s.ExtrapolatedT/10, ExtrapolationShare*math.Abs(s.BeyondTrack))
 	return math.Hypot(da, tr)
 }
 

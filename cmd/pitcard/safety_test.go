@@ -136,3 +136,24 @@ func TestDialForAGivenRound(t *testing.T) {
 		t.Errorf("--round with --latest: exit %d %s", code, errs)
 	}
 }
+
+// Beyond the hottest track the logbook has seen, the interval only widens
+// with the distance out (it used to shrink from ±0.35 s at 150 °F to ±0.11 s
+// at 160 °F where the fitted grip curve goes flat).
+func TestTheIntervalWidensPastTheLogbook(t *testing.T) {
+	last := 0.0
+	for _, f := range []string{"140F", "150F", "160F", "180F", "200F"} {
+		var j struct {
+			Timers []struct{ ET, Low, High float64 } `json:"timers"`
+		}
+		if err := json.Unmarshal([]byte(mustRun(t, "predict", "--demo", "--latest", "--track-temp", f, "--format", "json")), &j); err != nil || len(j.Timers) == 0 {
+			t.Fatalf("%s: %v", f, err)
+		}
+		fin := j.Timers[len(j.Timers)-1]
+		half := (fin.High - fin.Low) / 2
+		if half < last-0.0005 {
+			t.Errorf("track %s: ±%.3f s, narrower than ±%.3f s nearer the logbook", f, half, last)
+		}
+		last = half
+	}
+}
