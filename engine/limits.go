@@ -2,6 +2,7 @@ package engine
 
 import (
 	"fmt"
+	"math"
 	"regexp"
 	"strconv"
 	"strings"
@@ -33,8 +34,10 @@ type Limits struct {
 	BeltsExpire string
 	BeltsMonth  time.Time
 	// Problems are the limits entered that cannot be read, each naming the
-	// key, the value and what is accepted.
-	Problems []string
+	// key, the value and what is accepted; Unreadable holds their keys (a
+	// limit entered wrong is not also "missing").
+	Problems   []string
+	Unreadable map[string]bool
 }
 
 // Ranges of the limits a crew enters: wide enough for any car pitcard
@@ -48,10 +51,10 @@ var (
 // BeltsForms are the written forms of belts_expire pitcard reads: a month
 // as ISO 8601 writes it (2027-03), or as a belt's date tag often prints it
 // (03/2027). Anything else is not guessed at.
-const BeltsForms = `"YYYY-MM" (2027-03) or "MM/YYYY" (03/2027)`
+const BeltsForms = `"YYYY-MM" (2027-03) or "MM/YYYY" (03/2027); a whole date (2027-03-01) counts for its month`
 
 var (
-	isoMonth   = regexp.MustCompile(`^(\d{4})-(\d{2})$`)
+	isoMonth   = regexp.MustCompile(`^(\d{4})-(\d{2})(?:-\d{2})?$`)
 	slashMonth = regexp.MustCompile(`^(\d{2})/(\d{4})$`)
 )
 
@@ -78,7 +81,11 @@ func ParseBeltsMonth(s string) (time.Time, error) {
 // Limits reads the safety limits from the car's own keys (car.yaml keeps
 // them beside the physics, and the crew's rules see them as ctx.car).
 func (c Car) Limits() Limits {
-	var l Limits
+	l := Limits{Unreadable: map[string]bool{}}
+	bad := func(key, why string) {
+		l.Problems = append(l.Problems, why)
+		l.Unreadable[key] = true
+	}
 	num := func(key string, rng [2]float64, unit string) float64 {
 		v, ok := c.Extra[key]
 		if !ok || v == nil {
@@ -92,12 +99,19 @@ func (c Car) Limits() Limits {
 			f = float64(x)
 		case float64:
 			f = x
+		case string: // "11.40" in quotes: the number is plain to read
+			n, err := strconv.ParseFloat(strings.TrimSpace(x), 64)
+			if err != nil || math.IsNaN(n) || math.IsInf(n, 0) {
+				bad(key, fmt.Sprintf("%s %q in car.yaml is not a number of %s (%g..%g)", key, x, unit, rng[0], rng[1]))
+				return 0
+			}
+			f = n
 		default:
-			l.Problems = append(l.Problems, fmt.Sprintf("%s %q in car.yaml is not a number of %s (%g..%g)", key, fmt.Sprint(v), unit, rng[0], rng[1]))
+			bad(key, fmt.Sprintf("%s %q in car.yaml is not a number of %s (%g..%g)", key, fmt.Sprint(v), unit, rng[0], rng[1]))
 			return 0
 		}
 		if f < rng[0] || f > rng[1] {
-			l.Problems = append(l.Problems, fmt.Sprintf("%s %g in car.yaml is outside %g..%g %s", key, f, rng[0], rng[1], unit))
+			bad(key, fmt.Sprintf("%s %g in car.yaml is outside %g..%g %s", key, f, rng[0], rng[1], unit))
 			return 0
 		}
 		return f
@@ -106,15 +120,20 @@ func (c Car) Limits() Limits {
 	l.MPH = num("limit_mph", LimitMPHRange, "mph")
 	l.ChuteNeededMPH = num("chute_needed_mph", LimitMPHRange, "mph")
 	if v, ok := c.Extra["chute"]; ok && v != nil {
-		b, isBool := v.(bool)
-		if isBool {
+		switch b := v.(type) {
+		case bool:
 			l.Chute, l.ChuteSaid = b, true
-		} else {
-			l.Problems = append(l.Problems, fmt.Sprintf("chute %q in car.yaml is not true or false", fmt.Sprint(v)))
+		case string:
+			bad("chute", fmt.Sprintf("chute %q in car.yaml is text, not true or false: write chute: true or chute: false, without quotes", b))
+		default:
+			bad("chute", fmt.Sprintf("chute %v in car.yaml is not true or false", v))
 		}
 	}
 	if v, ok := c.Extra["belts_expire"]; ok && v != nil {
 		l.BeltsExpire = strings.TrimSpace(fmt.Sprint(v))
+		if t, ok := v.(time.Time); ok { // an unquoted 2027-03-01 is read as a date
+			l.BeltsExpire = t.Format("2006-01-02")
+		}
 		if m, err := ParseBeltsMonth(l.BeltsExpire); err == nil {
 			l.BeltsMonth = m
 		}

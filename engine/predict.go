@@ -461,15 +461,16 @@ func extrapolation(s Sensitivity, et float64) float64 {
 	// flat (a grip floor): the shift the model makes beyond the edge of the
 	// logbook is at least as uncertain, so the interval only widens with
 	// the distance out.
-	da := math.Max(math.Max(ExtrapolationShare*math.Abs(s.PerKDA), ExtrapolationFloor*et)*s.ExtrapolatedDA/1000, ExtrapolationShare*math.Abs(s.BeyondDA))
-	tr := math.Max(math.Max(ExtrapolationShare*math.Abs(s.Per10FTrack), ExtrapolationFloor*et)*s.ExtrapolatedT/10, ExtrapolationShare*math.Abs(s.BeyondTrack))
+	da := math.Max(ExtrapolationShare*math.Abs(s.PerKDA), ExtrapolationFloor*et)*s.ExtrapolatedDA/1000 + ExtrapolationShare*math.Abs(s.BeyondDA)
+	tr := math.Max(ExtrapolationShare*math.Abs(s.Per10FTrack), ExtrapolationFloor*et)*s.ExtrapolatedT/10 + ExtrapolationShare*math.Abs(s.BeyondTrack)
 	return math.Hypot(da, tr)
 }
 
 func outsideText(s Sensitivity) string {
 	var parts []string
 	if s.ExtrapolatedDA > 0 {
-		parts = append(parts, fmt.Sprintf("density altitude %.0f ft, %.0f ft beyond %.0f..%.0f", s.DAFeet, s.ExtrapolatedDA, s.SeenDALo, s.SeenDAHi))
+		da := func(ft float64) float64 { return weather.RoundDensityAltitude(ft, weather.UnitFt) }
+		parts = append(parts, fmt.Sprintf("density altitude %.0f ft, %.0f ft beyond %.0f..%.0f", da(s.DAFeet), da(s.ExtrapolatedDA), da(s.SeenDALo), da(s.SeenDAHi)))
 	}
 	if s.ExtrapolatedT > 0 {
 		parts = append(parts, fmt.Sprintf("track %.0f °F, %.0f °F beyond %.0f..%.0f", s.TrackF, s.ExtrapolatedT, s.SeenTrackLo, s.SeenTrackHi))

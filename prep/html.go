@@ -106,7 +106,7 @@ svg { width: 100%; height: auto; }
 <div class="cautions">{{range .V.Cautions}}<p>⚠ {{.}}</p>{{end}}</div>
 {{end}}
 {{define "checkform"}}<form method="post" action="{{.Form.Action}}" class="checkform" id="checklist">{{if not .Form.ReadOnly}}<input type="hidden" name="csrf" value="{{.Form.CSRF}}"><input type="hidden" name="round" value="{{.Form.Round}}"><input type="hidden" name="day" value="{{.Form.Day}}">{{end}}
-<ul class="checks">{{$ro := .Form.ReadOnly}}{{range .V.Checks}}<li class="{{cls .Status}}"><label><input type="checkbox" name="tick" value="{{.Label}}"{{if .Ticked}} checked{{end}}{{if $ro}} disabled{{end}}> {{if ne .Status "confirm"}}<b>{{status .Status}}</b> {{end}}{{.Label}}{{if .Note}}: <span class="small">{{.Note}}</span>{{end}}{{if .Ticked}} <span class="small">(ticked {{.Ticked}})</span>{{end}}</label></li>{{end}}</ul>
+<ul class="checks">{{$ro := .Form.ReadOnly}}{{range .V.Checks}}<li class="{{cls .Status}}">{{if eq .Status "confirm"}}<label><input type="checkbox" name="tick" value="{{.Label}}"{{if .Ticked}} checked{{end}}{{if $ro}} disabled{{end}}> {{.Label}}{{if .Note}}: <span class="small">{{.Note}}</span>{{end}}{{if .Ticked}} <span class="small">(ticked {{.Ticked}})</span>{{end}}</label>{{else}}<b>{{status .Status}}</b> {{.Label}}{{if .Note}}: <span class="small">{{.Note}}</span>{{end}}{{end}}</li>{{end}}</ul>
 {{if not $ro}}<button type="submit" class="save-ticks">Save the checklist</button>{{end}}</form>{{end}}
 {{define "table"}}<table><caption>{{.Title}}</caption>{{if .Header}}<tr>{{range $i, $h := .Header}}<th{{if $i}} class="n"{{end}}>{{$h}}</th>{{end}}</tr>{{end}}
 {{$t := .}}{{range $i, $r := .Rows}}<tr{{if marked $t $i}} class="mark"{{end}}>{{range $j, $c := $r}}<td{{if $j}} class="n"{{end}}>{{$c}}</td>{{end}}</tr>

@@ -40,7 +40,7 @@ func RenderJSON(w io.Writer, c Card) error {
 	if in.Forecast != nil {
 		j["forecast"] = map[string]any{"readings_used": in.Forecast.Used, "trend_minutes": round(in.Forecast.Span.Minutes(), 1),
 			"ahead_minutes": round(in.Forecast.Ahead.Minutes(), 1), "trusted": in.Forecast.Trusted, "notes": in.Forecast.Notes,
-			"density_altitude_error_ft": round(in.Forecast.DAError.Feet(), 0)}
+			"density_altitude_error_ft": weather.RoundDensityAltitude(in.Forecast.DAError.Feet(), weather.UnitFt)}
 	}
 	if p := c.Prediction; len(p.Timers) > 0 {
 		var timers, traps, leaned, out []map[string]any
@@ -81,7 +81,8 @@ func RenderJSON(w io.Writer, c Card) error {
 		var opts []map[string]any
 		for _, o := range c.Plan.Options {
 			m := map[string]any{"dial": json.Number(dialText(o.Dial, c.Plan.Step)), "breakout_chance": round(o.BreakoutChance, 4),
-				"expected_giveaway_s": round(o.Giveaway, 4), "recommended": o.Recommended}
+				"expected_giveaway_s": round(o.Giveaway, 4), "recommended": o.Recommended,
+				"post": c.HasFinal && o.Dial.Equal(c.FinalDial)} // recommended: the breakout rule's, before the crew's rules
 			if w, ok := winOf(c, o.Dial); ok {
 				m["win_chance"] = round(w, 4)
 			}
@@ -93,6 +94,9 @@ func RenderJSON(w io.Writer, c Card) error {
 		}
 		if c.AdjustFlag != "" {
 			flags = append(flags, c.AdjustFlag)
+		}
+		if c.CrossFlag != "" {
+			flags = append(flags, c.CrossFlag)
 		}
 		j["dial"] = map[string]any{"recommended": json.Number(dialText(c.Plan.Recommended, c.Plan.Step)), "step": json.Number(c.Plan.Step.String()), "breakout_risk": c.Plan.Risk,
 			"options": opts, "rule_total": json.Number(dialText(c.TotalAdjust, c.Plan.Step)), "flag": strings.Join(flags, "; "),

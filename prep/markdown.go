@@ -14,10 +14,12 @@ func RenderMarkdown(w io.Writer, c Card) error {
 	if v.Stop != "" {
 		fmt.Fprintf(&b, "## STOP: %s\n\n", v.Stop)
 	}
-	if v.Dial != "" && v.Stop != "" {
-		fmt.Fprintf(&b, "## The dial once the failed checks are cleared: **%s**\n\n", v.Dial)
-	} else if v.Dial != "" {
-		fmt.Fprintf(&b, "## Post this dial-in: **%s**\n\n", v.Dial)
+	if v.Dial != "" {
+		if v.Stop != "" {
+			fmt.Fprintf(&b, "## The dial once the failed checks are cleared: **%s**\n\n", v.Dial)
+		} else {
+			fmt.Fprintf(&b, "## Post this dial-in: **%s**\n\n", v.Dial)
+		}
 		for _, l := range v.DialLines {
 			fmt.Fprintf(&b, "- %s\n", l)
 		}
@@ -82,7 +84,9 @@ func RenderMarkdown(w io.Writer, c Card) error {
 	for _, c := range v.Cautions {
 		fmt.Fprintf(&b, "- **%s**\n", c)
 	}
-	_, err := io.WriteString(w, b.String())
+	// No raw HTML: a Markdown viewer would run a rule's or a note's
+	// "<script>"; pitcard's own words use no "<".
+	_, err := io.WriteString(w, strings.ReplaceAll(b.String(), "<", "&lt;"))
 	return err
 }
 

@@ -207,7 +207,8 @@ func Gather(in Input) Card {
 	cal := engine.CalibrateInput{Car: in.Car, Track: in.Track, Tracks: in.Tracks, Passes: in.Passes, Now: latest(in.Now, in.Call, in.Passes),
 		DayStart: in.Settings.DayStart, Aborts: in.Settings.Aborts}
 	var fit engine.Fit
-	err := in.Car.Validate("car.yaml")
+	carErr := in.Car.Validate("car.yaml")
+	err := carErr
 	if err == nil {
 		calibrate := engine.Calibrate
 		if in.Calibrate != nil {
@@ -244,7 +245,9 @@ func Gather(in Input) Card {
 	}
 	c.RuleContext = RuleContext(c)
 	c.Rules = scripts.Run(in.Rules, in.RulesFS, c.RuleContext, in.Settings.RuleLimits)
-	c.Checks = SafetyChecks(SafetyFor(in.Car, c.Prediction, in.Call, in.Settings.Units))
+	safety := SafetyFor(in.Car, c.Prediction, in.Call, in.Settings.Units)
+	safety.CarUnread = carErr != nil || len(in.Problems) > 0 && in.Car.DistanceFt == 0
+	c.Checks = SafetyChecks(safety)
 	for _, r := range c.Rules {
 		if r.HasAdjust {
 			c.Adjustments = append(c.Adjustments, RuleLine{File: r.File, Adjust: r.Adjust, Reason: r.Reason})

@@ -2,7 +2,6 @@ package prep
 
 import (
 	"fmt"
-	"math"
 	"strconv"
 	"strings"
 	"time"
@@ -40,6 +39,9 @@ type SafetyInput struct {
 	// Units are the crew's: a metric card's checks speak km/h (the limits
 	// stay as entered, in mph, beside them).
 	Units weather.Units
+	// CarUnread: car.yaml could not be read, so neither its limits nor its
+	// distance are known; the checks say so once.
+	CarUnread bool
 }
 
 // SafetyFor is the safety input of a prediction (none when p has no timers).
@@ -66,45 +68,54 @@ func SafetyChecks(in SafetyInput) []scripts.Check {
 	add := func(label, status, note string) {
 		out = append(out, scripts.Check{Label: label, Status: status, Note: note, File: SafetyFile})
 	}
+	if in.CarUnread {
+		add("Safety limits", scripts.Warn, "car.yaml could not be read: no limit is being checked until it is fixed")
+		add("Rulebook and tech", scripts.Confirm, "equipment and ET/MPH limits verified against the current rulebook and at tech")
+		return out
+	}
 	l := in.Limits
 	// speed is a trap speed as a slip prints it (hundredths of a mph), and
 	// in km/h beside it on a metric card.
-	speed := func(mph float64) string {
-		t := strconv.FormatFloat(math.Round(mph*100)/100, 'f', -1, 64) + " mph"
+	speedIn := func(mph float64, places int) string {
+		t := strconv.FormatFloat(mph, 'f', places, 64) + " mph"
 		if in.Units.Speed == weather.UnitKMH {
-			t = weather.MPH(mph).Format(weather.UnitKMH, 1) + " (" + t + ")"
+			t = weather.MPH(mph).Format(weather.UnitKMH, max(places, 0)) + " (" + t + ")"
 		}
 		return t
 	}
+	speed := func(mph float64) string { return speedIn(mph, 2) }  // predicted
+	limit := func(mph float64) string { return speedIn(mph, -1) } // as entered
 	for _, p := range l.Problems {
 		add("Car's limits", scripts.Fail, p+": that limit is not being checked")
 	}
 	dist := TimerName(in.DistanceFt)
 
 	switch {
+	case l.Unreadable["limit_et"]: // said above
 	case l.ET == 0:
 		add("ET limit", scripts.Warn, fmt.Sprintf("no limit_et in car.yaml: the ET is not being checked; enter the quickest %s ET your chassis and cage are certified for", dist))
 	case in.QuickET == 0:
 		add("ET limit", scripts.Warn, "no prediction to compare with the car's limit_et")
 	case in.QuickET < l.ET:
-		add("ET limit", scripts.Fail, fmt.Sprintf("could run %.3f s (the quick end of the 95 %% interval): quicker than the car's %s limit of %.2f s", in.QuickET, dist, l.ET))
+		add("ET limit", scripts.Fail, fmt.Sprintf("could run %.3f s (the quick end of the 95 %% interval): quicker than the car's %s limit of %s s", in.QuickET, dist, limitET(l.ET)))
 	case in.QuickET < l.ET+WarnETMargin:
-		add("ET limit", scripts.Warn, fmt.Sprintf("could run %.3f s (the quick end of the 95 %% interval), within %.2f s of the car's %s limit of %.2f s", in.QuickET, WarnETMargin, dist, l.ET))
+		add("ET limit", scripts.Warn, fmt.Sprintf("could run %.3f s (the quick end of the 95 %% interval), within %.2f s of the car's %s limit of %s s", in.QuickET, WarnETMargin, dist, limitET(l.ET)))
 	default:
-		add("ET limit", scripts.Pass, fmt.Sprintf("quickest likely %.3f s (the quick end of the 95 %% interval) against the car's %s limit of %.2f s", in.QuickET, dist, l.ET))
+		add("ET limit", scripts.Pass, fmt.Sprintf("quickest likely %.3f s (the quick end of the 95 %% interval) against the car's %s limit of %s s", in.QuickET, dist, limitET(l.ET)))
 	}
 
 	switch {
+	case l.Unreadable["limit_mph"]:
 	case l.MPH == 0:
 		add("MPH limit", scripts.Warn, fmt.Sprintf("no limit_mph in car.yaml: the trap speed is not being checked; enter the fastest %s trap speed allowed without more equipment", dist))
 	case in.FastMPH == 0:
 		add("MPH limit", scripts.Warn, "no trap speed predicted to compare with the car's limit_mph")
 	case in.FastMPH > l.MPH:
-		add("MPH limit", scripts.Fail, fmt.Sprintf("could trap %s (the fast end of the 95 %% interval): over the car's %s limit of %s", speed(in.FastMPH), dist, speed(l.MPH)))
+		add("MPH limit", scripts.Fail, fmt.Sprintf("could trap %s (the fast end of the 95 %% interval): over the car's %s limit of %s", speed(in.FastMPH), dist, limit(l.MPH)))
 	case in.FastMPH > l.MPH-WarnMPHMargin:
-		add("MPH limit", scripts.Warn, fmt.Sprintf("could trap %s (the fast end of the 95 %% interval), within %.0f mph of the car's %s limit of %s", speed(in.FastMPH), WarnMPHMargin, dist, speed(l.MPH)))
+		add("MPH limit", scripts.Warn, fmt.Sprintf("could trap %s (the fast end of the 95 %% interval), within %.0f mph of the car's %s limit of %s", speed(in.FastMPH), WarnMPHMargin, dist, limit(l.MPH)))
 	default:
-		add("MPH limit", scripts.Pass, fmt.Sprintf("fastest likely %s (the fast end of the 95 %% interval) against the car's %s limit of %s", speed(in.FastMPH), dist, speed(l.MPH)))
+		add("MPH limit", scripts.Pass, fmt.Sprintf("fastest likely %s (the fast end of the 95 %% interval) against the car's %s limit of %s", speed(in.FastMPH), dist, limit(l.MPH)))
 	}
 
 	fitted := "no chute fitted"
@@ -112,19 +123,32 @@ func SafetyChecks(in SafetyInput) []scripts.Check {
 		fitted = "car.yaml does not say a chute is fitted (chute: true)"
 	}
 	switch {
+	case l.Unreadable["chute_needed_mph"]:
 	case l.ChuteNeededMPH == 0:
 		add("Parachute", scripts.Warn, "no chute_needed_mph in car.yaml: the need for a parachute is not being checked")
 	case in.FastMPH == 0:
 		add("Parachute", scripts.Warn, "no trap speed predicted to compare with chute_needed_mph")
 	case in.FastMPH >= l.ChuteNeededMPH && !l.Chute:
-		add("Parachute", scripts.Fail, fmt.Sprintf("could trap %s and %s; you entered %s as needing one", speed(in.FastMPH), fitted, speed(l.ChuteNeededMPH)))
+		add("Parachute", scripts.Fail, fmt.Sprintf("could trap %s and %s; you entered %s as needing one", speed(in.FastMPH), fitted, limit(l.ChuteNeededMPH)))
 	default:
-		add("Parachute", scripts.Pass, fmt.Sprintf("fastest likely %s; a chute is needed from %s", speed(in.FastMPH), speed(l.ChuteNeededMPH)))
+		add("Parachute", scripts.Pass, fmt.Sprintf("fastest likely %s; a chute is needed from %s", speed(in.FastMPH), limit(l.ChuteNeededMPH)))
 	}
 
 	add(beltsCheck(l, in.Day))
 	add("Rulebook and tech", scripts.Confirm, "equipment and ET/MPH limits verified against the current rulebook and at tech")
 	return out
+}
+
+// limitET prints an ET limit as the crew wrote it, to hundredths at least:
+// 11.50, 11.401.
+func limitET(v float64) string {
+	t := strconv.FormatFloat(v, 'f', -1, 64)
+	if i := strings.IndexByte(t, '.'); i < 0 {
+		t += ".00"
+	} else if len(t)-i-1 < 2 {
+		t += strings.Repeat("0", 2-(len(t)-i-1))
+	}
+	return t
 }
 
 // beltsCheck reads the belts' date tag against the day: a tag that runs out

@@ -45,12 +45,12 @@ func TestSafetyChecks(t *testing.T) {
 		{"ET no prediction", full, 0, 0, "ET limit", scripts.Warn, []string{"no prediction"}, 1320},
 		{"ET typed as text", with("limit_et", "ten"), 11.4, 118.4, "Car's limits", scripts.Fail, []string{`limit_et "ten"`, "not a number of s"}, 1320},
 		{"ET in the wrong unit", with("limit_et", 135), 11.4, 118.4, "Car's limits", scripts.Fail, []string{"limit_et 135", "outside 2..30 s"}, 1320},
-		{"MPH clear", full, 11.4, 118.4, "MPH limit", scripts.Pass, []string{"118.4 mph", "limit of 126 mph"}, 1320},
-		{"MPH over", with("limit_mph", 118), 11.4, 118.4, "MPH limit", scripts.Fail, []string{"could trap 118.4 mph", "over the car's 1/4 mile limit of 118 mph"}, 1320},
+		{"MPH clear", full, 11.4, 118.4, "MPH limit", scripts.Pass, []string{"118.40 mph", "limit of 126 mph"}, 1320},
+		{"MPH over", with("limit_mph", 118), 11.4, 118.4, "MPH limit", scripts.Fail, []string{"could trap 118.40 mph", "over the car's 1/4 mile limit of 118 mph"}, 1320},
 		{"MPH close", with("limit_mph", 120), 11.4, 118.4, "MPH limit", scripts.Warn, []string{"within 3 mph"}, 1320},
 		{"MPH not entered", with("limit_mph", nil), 11.4, 118.4, "MPH limit", scripts.Warn, []string{"no limit_mph", "not being checked"}, 1320},
 		{"chute not needed", full, 11.4, 118.4, "Parachute", scripts.Pass, []string{"needed from 141 mph"}, 1320},
-		{"chute needed, none", with("chute_needed_mph", 118), 11.4, 118.4, "Parachute", scripts.Fail, []string{"could trap 118.4 mph and no chute fitted"}, 1320},
+		{"chute needed, none", with("chute_needed_mph", 118), 11.4, 118.4, "Parachute", scripts.Fail, []string{"could trap 118.40 mph and no chute fitted"}, 1320},
 		{"chute needed, not said", with("chute", nil), 11.4, 141.2, "Parachute", scripts.Fail, []string{"does not say a chute is fitted"}, 1320},
 		{"chute needed, fitted", with("chute", true), 11.4, 141.2, "Parachute", scripts.Pass, nil, 1320},
 		{"chute need not entered", with("chute_needed_mph", nil), 11.4, 118.4, "Parachute", scripts.Warn, []string{"no chute_needed_mph", "not being checked"}, 1320},
@@ -63,6 +63,11 @@ func TestSafetyChecks(t *testing.T) {
 		{"belts one-digit month", with("belts_expire", "2026-1"), 11.4, 118.4, "Belts", scripts.Warn, []string{`"2026-1"`, "YYYY-MM", "not being checked"}, 1320},
 		{"belts month name", with("belts_expire", "Jan 2025"), 11.4, 118.4, "Belts", scripts.Warn, []string{`"Jan 2025"`, "MM/YYYY"}, 1320},
 		{"belts month 13", with("belts_expire", "2027-13"), 11.4, 118.4, "Belts", scripts.Warn, []string{"01..12"}, 1320},
+		// entered in a form pitcard can still read, or named once as wrong
+		{"ET in quotes", with("limit_et", "11.50"), 11.400, 118.4, "ET limit", scripts.Fail, []string{"limit of 11.50 s"}, 1320},
+		{"ET to the thousandth", with("limit_et", 11.401), 11.400, 118.4, "ET limit", scripts.Fail, []string{"limit of 11.401 s"}, 1320},
+		{"belts as a whole date", with("belts_expire", time.Date(2026, 5, 1, 0, 0, 0, 0, time.UTC)), 11.4, 118.4, "Belts", scripts.Fail, []string{"ran out in 2026-05"}, 1320},
+		{"chute in quotes", with("chute", "true"), 11.4, 118.4, "Car's limits", scripts.Fail, []string{`chute "true" in car.yaml is text, not true or false: write chute: true`}, 1320},
 		{"belts not entered", with("belts_expire", nil), 11.4, 118.4, "Belts", scripts.Warn, []string{"no belts_expire", "not being checked"}, 1320},
 	}
 	for _, tc := range cases {
@@ -86,10 +91,26 @@ func TestSafetyChecks(t *testing.T) {
 					t.Errorf("%s note %q lacks %q", tc.label, got.Note, w)
 				}
 			}
+			if tc.label == "Car's limits" {
+				for _, ch := range checks {
+					if strings.Contains(ch.Note, "no limit_et") || strings.Contains(ch.Note, "no limit_mph") || strings.Contains(ch.Note, "no chute_needed") {
+						t.Errorf("a limit entered wrong is also called missing: %s", ch.Note)
+					}
+				}
+			}
 			if last := checks[len(checks)-1]; last.Label != "Rulebook and tech" || last.Status != scripts.Confirm {
 				t.Errorf("the rulebook item is not last: %+v", last)
 			}
 		})
+	}
+}
+
+// With car.yaml unread, one line says no limit is checked (not "the
+// quickest 0 ft ET").
+func TestSafetyWithoutACar(t *testing.T) {
+	checks := SafetyChecks(SafetyInput{CarUnread: true})
+	if len(checks) != 2 || checks[0].Status != scripts.Warn || !strings.Contains(checks[0].Note, "car.yaml could not be read") {
+		t.Errorf("%+v", checks)
 	}
 }
 

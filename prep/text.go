@@ -197,6 +197,7 @@ func wrap(s string, width int, indent string) string {
 		return s
 	}
 	lead := s[:len(s)-len(strings.TrimLeft(s, " "))]
+	words = splitLong(words, width-max(len(indent), len(lead)))
 	var lines []string
 	cur := lead + words[0]
 	for _, wd := range words[1:] {
@@ -208,6 +209,22 @@ func wrap(s string, width int, indent string) string {
 		cur += " " + wd
 	}
 	return strings.Join(append(lines, cur), "\n")
+}
+
+// splitLong breaks a word wider than room (a pasted note with no spaces)
+// into pieces that fit, so no line runs past the width.
+func splitLong(words []string, room int) []string {
+	room = max(room, 20)
+	var out []string
+	for _, w := range words {
+		for text.RuneWidthWithoutEscSequences(w) > room {
+			r := []rune(w)
+			n := min(room, len(r))
+			out, w = append(out, string(r[:n])), string(r[n:])
+		}
+		out = append(out, w)
+	}
+	return out
 }
 
 // blockDigits draws a dial in digits five lines tall.

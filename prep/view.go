@@ -3,6 +3,7 @@ package prep
 import (
 	"fmt"
 	"math"
+	"pitcard/internal/printable"
 	"strings"
 	"time"
 
@@ -52,6 +53,10 @@ const MaxPassNotes = 120
 // characters, saying where the whole is. The cut is a copy, so the card
 // does not keep the whole notes alive.
 func passNotes(s string) string {
+	if len(s) > 4*MaxPassNotes {
+		s = s[:4*MaxPassNotes] // ≥ MaxPassNotes characters; the rest is cut below
+	}
+	s = printable.Line(s)       // a crewmate's logbook writes no control codes into a terminal
 	if len(s) <= MaxPassNotes { // bytes ≥ characters
 		return s
 	}

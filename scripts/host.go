@@ -19,6 +19,7 @@ import (
 	"io/fs"
 	"math"
 	"path"
+	"pitcard/internal/printable"
 	"regexp"
 	"runtime/metrics"
 	"sort"
@@ -67,6 +68,7 @@ var DefaultLimits = Limits{Time: 200 * time.Millisecond, Memory: 64 << 20, CallD
 // text is a copy (the concatenation makes one), so a multi-megabyte string
 // the rule built is not kept alive by the few hundred bytes kept of it.
 func (l Limits) clip(s string) string {
+	s = printable.Line(s) // no rule writes control codes into a terminal
 	limit := l.MaxText
 	if limit <= 0 {
 		limit = MaxText

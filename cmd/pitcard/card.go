@@ -65,6 +65,9 @@ func cardRun(cmd *cobra.Command, o *cardOptions) error {
 		fmt.Fprintln(o.s.Err, "pitcard: warning:", w)
 	}
 	c := prep.Gather(in)
+	if c.CrossFlag != "" {
+		fmt.Fprintln(o.s.Err, "pitcard: warning:", c.CrossFlag)
+	}
 	var buf bytes.Buffer
 	switch o.Format {
 	case "markdown":

@@ -74,8 +74,11 @@ type dialOptionJSON struct {
 	Dial           json.Number `json:"dial"`
 	BreakoutChance float64     `json:"breakout_chance"`
 	GiveawayS      float64     `json:"expected_giveaway_s"`
-	Recommended    bool        `json:"recommended"`
-	WinChance      *float64    `json:"win_chance,omitempty"`
+	Recommended    bool        `json:"recommended"` // the breakout rule's pick, before the crew's rules
+	// Post marks the dial to post: the card's final, after the rules (or
+	// the breakout rule's where no round was gathered).
+	Post      bool     `json:"post"`
+	WinChance *float64 `json:"win_chance,omitempty"`
 }
 
 type bestForWinJSON struct {
@@ -238,6 +241,7 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 	for i, op := range plan.Options {
 		oj := dialOptionJSON{Dial: json.Number(prep.DialText(op.Dial, plan.Step)), BreakoutChance: round(op.BreakoutChance, 4),
 			GiveawayS: round(op.Giveaway, 4), Recommended: op.Recommended}
+		oj.Post = post.hasFinal && oj.Dial == j.Post || !post.hasFinal && op.Recommended
 		if wins != nil {
 			w := round(wins[i].Win, 4)
 			oj.WinChance = &w
@@ -251,14 +255,14 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 		return errors.Join(failedChecks(post.failed), leftOut)
 	}
 	if o.Format == "csv" {
-		rows := [][]string{{"dial", "breakout_chance", "expected_giveaway_s", "win_chance", "recommended", "predicted_et", "sd"}}
+		rows := [][]string{{"dial", "breakout_chance", "expected_giveaway_s", "win_chance", "recommended", "post", "checks_failed", "predicted_et", "sd"}}
 		for _, op := range j.Options {
 			win := ""
 			if op.WinChance != nil {
 				win = fmt.Sprint(*op.WinChance)
 			}
 			rows = append(rows, []string{string(op.Dial), fmt.Sprint(op.BreakoutChance), fmt.Sprint(op.GiveawayS), win, fmt.Sprint(op.Recommended),
-				fmt.Sprint(j.PredictedET), fmt.Sprint(j.SD)})
+				fmt.Sprint(op.Post), strings.Join(j.ChecksFailed, "; "), fmt.Sprint(j.PredictedET), fmt.Sprint(j.SD)})
 		}
 		return errors.Join(writeCSV(o.s.Out, rows), failedChecks(post.failed), leftOut)
 	}

@@ -3,6 +3,7 @@ package main
 import (
 	"errors"
 	"fmt"
+	"pitcard/internal/printable"
 	"strings"
 
 	"github.com/jedib0t/go-pretty/v6/table"
@@ -342,9 +343,9 @@ func logListRun(cmd *cobra.Command, o *logListOptions) error {
 		}
 		row = append(row, sec(p.MPH1320, 2), strings.TrimSuffix(da, " ft"))
 		if !notesBelow {
-			row = append(row, p.Notes)
+			row = append(row, printable.Line(p.Notes))
 		} else if p.Notes != "" {
-			below = append(below, prep.Wrap(fmt.Sprintf("%s %s: %s", p.Time.Format("2006-01-02 15:04"), p.Session, p.Notes), o.s.width(), "  "))
+			below = append(below, prep.Wrap(fmt.Sprintf("%s %s: %s", p.Time.Format("2006-01-02 15:04"), p.Session, printable.Line(p.Notes)), o.s.width(), "  "))
 		}
 		t.AppendRow(row)
 	}

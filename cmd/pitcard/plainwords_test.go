@@ -2,6 +2,8 @@ package main
 
 import (
 	"encoding/json"
+	"os"
+	"path/filepath"
 	"regexp"
 	"strings"
 	"testing"
@@ -88,6 +90,26 @@ func TestJSONNumbersAreNumbers(t *testing.T) {
 	for _, k := range []string{"post_dial", "recommended_dial", "step"} {
 		if _, ok := d[k].(float64); !ok {
 			t.Errorf("dial's %s is %T (%v), not a number", k, d[k], d[k])
+		}
+	}
+}
+
+// Text from outside pitcard (a rule's label, a pass's notes) reaches no
+// terminal as control codes, and no Markdown viewer as HTML.
+func TestNoControlCodesFromOutside(t *testing.T) {
+	dir := demoCopy(t)
+	rule := "function checks(ctx)\n  return {{label = 'Esc\\27[31mRED\\27[0m\\r\\nFAKE PASS <script>x</script>', status = 'fail'}}\nend\n"
+	if err := os.WriteFile(filepath.Join(dir, "rules", "70-esc.lua"), []byte(rule), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	mustRun(t, "log", "add", "--dir", dir, "--session", "E9", "--lane", "left", "--et1320", "11.45", "--mph1320", "118.1", "--notes", "ok\x1b[2J\x1b[31mPWNED\r\nline2")
+	for _, args := range [][]string{{"card"}, {"card", "--format", "markdown"}, {"card", "--format", "json"}, {"log", "list", "--last", "3"}} {
+		out, errs, _ := pitcard(t, append(args, "--dir", dir)...)
+		if strings.ContainsAny(out+errs, "\x1b\r") {
+			t.Errorf("%v writes a control code:\n%q", args, out+errs)
+		}
+		if args[len(args)-1] == "markdown" && strings.Contains(out, "<script>") {
+			t.Errorf("markdown card carries raw HTML")
 		}
 	}
 }

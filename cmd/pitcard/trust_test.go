@@ -161,7 +161,7 @@ func TestNonFiniteYAMLIsRefused(t *testing.T) {
 	// stops the dial (exit 3)
 	out, _, code = pitcard(t, "card", "--dir", dir, "--round", "3", "--lane", "left")
 	flat := strings.Join(strings.Fields(out), " ")
-	if code != 3 || !strings.Contains(flat, "car.yaml line 18: chute: yes is read as the text") || !strings.Contains(flat, `A CHECK FAILED: Car's limits: chute "yes" in car.yaml is not true or false`) {
+	if code != 3 || !strings.Contains(flat, "car.yaml line 18: chute: yes is read as the text") || !strings.Contains(flat, `A CHECK FAILED: Car's limits: chute "yes" in car.yaml is text, not true or false`) {
 		t.Errorf("chute: yes not pointed out (exit %d):\n%s", code, out)
 	}
 	// the same for the crew's settings

@@ -306,7 +306,7 @@ func weatherForecastRun(cmd *cobra.Command, o *weatherForecastOptions) error {
 	if o.Format == "json" {
 		return writeJSON(o.s.Out, forecastJSON{
 			At: when.Format(time.RFC3339), ReadingsUsed: f.Used, TrendMinutes: round(f.Span.Minutes(), 1),
-			AheadMinutes: round(f.Ahead.Minutes(), 1), DAErrorFt: round(f.DAError.Feet(), 0), Trusted: f.Trusted,
+			AheadMinutes: round(f.Ahead.Minutes(), 1), DAErrorFt: weather.RoundDensityAltitude(f.DAError.Feet(), weather.UnitFt), Trusted: f.Trusted,
 			Notes: f.Notes, Air: newAirReport(f.Reading, elev, trk.HeadingDeg, trackName != ""),
 		})
 	}
@@ -327,7 +327,7 @@ func weatherForecastRun(cmd *cobra.Command, o *weatherForecastOptions) error {
 		fmt.Fprintf(o.s.Out, "Leaned on %s, %.0f min of trend; %s.\n", engine.Plural(f.Used, "reading"), f.Span.Minutes(), trust)
 	}
 	if f.DAError > 0 {
-		fmt.Fprintf(o.s.Out, "Density altitude ± %s (one standard error).\n", f.DAError.Format(e.Settings.Units.Length))
+		fmt.Fprintf(o.s.Out, "Density altitude ± %s (one standard error).\n", f.DAError.FormatDensityAltitude(e.Settings.Units.Length))
 	}
 	for _, n := range f.Notes {
 		fmt.Fprintln(o.s.Out, "- "+n)
