@@ -152,7 +152,7 @@ func (s Session) Long() string {
 func ParseSession(s string) (Session, error) {
 	t := strings.ToLower(strings.Join(strings.Fields(s), ""))
 	bad := &weather.InputError{Field: "session", Value: s,
-		Reason: "is not a session (T1, T2 ... for time trials; E1, E2 ... or a round number for eliminations; test)"}
+		Reason: "is not a round (T1, T2 ... for time trials; E1, E2 ... or a round number for eliminations; test)"}
 	if t == "test" || t == "testing" {
 		return Session{Kind: Test}, nil
 	}

@@ -170,8 +170,9 @@ func (e *Folder) AddPass(np NewPass, now time.Time) (LoggedPass, error) {
 	for c := range f.Values {
 		f.Names[c] = "--" + strings.ReplaceAll(strings.TrimSuffix(c, "_lb"), "_", "-")
 	}
+	f.Names["session"] = "--round" // the logbook's session column is the flag --round
 	if np.Session == "" || np.Lane == "" {
-		return out, userErrf("--session and --lane are required (e.g. --session E1 --lane left)")
+		return out, userErrf("--round and --lane are required (e.g. --round E1 --lane left)")
 	}
 	p, err := engine.ParsePass(f, e.Zone())
 	if err != nil {
@@ -308,7 +309,7 @@ func DecidedBy(p engine.Pass, dial, rt, et string, s Settings) (string, error) {
 	pkg := func(x engine.LaneResult) string {
 		return fmt.Sprintf("%s reaction, %s over the dial: %s", engine.FormatSeconds(x.Reaction, 3), signedSeconds(x.OverDial), signedSeconds(x.Package))
 	}
-	return fmt.Sprintf("%s: %s (%s). Packages: yours %s; theirs %s.", verdict, o.Reason, o.Explanation, pkg(ours), pkg(theirs)), nil
+	return fmt.Sprintf("%s: %s (%s). Packages: yours %s; the other lane's %s.", verdict, o.Reason, o.Explanation, pkg(ours), pkg(theirs)), nil
 }
 
 func signedSeconds(d decimal.Decimal) string {

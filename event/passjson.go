@@ -1,6 +1,7 @@
 package event
 
 import (
+	"encoding/json"
 	"fmt"
 	"math"
 	"strings"
@@ -14,7 +15,11 @@ import (
 
 // PassJSON is one logged pass as the JSON of every front end ('log list
 // --format json', the pit page's data): slip values as the slip prints
-// them, conditions rounded to what the meters read.
+// them, conditions rounded to what the meters read. Its timers and traps
+// have the shape of a prediction's ('predict', the card's "prediction"):
+// [{distance_ft, et}] and [{distance_ft, mph}], numbers with the slip's
+// digits. ET and MPH, keyed by the distance as text, are the older shape,
+// kept for scripts written before (README, "Names").
 type PassJSON struct {
 	Time     string            `json:"time"`
 	Track    string            `json:"track"`
@@ -22,6 +27,8 @@ type PassJSON struct {
 	Lane     string            `json:"lane"`
 	Dial     *string           `json:"dial"`
 	RT       *string           `json:"rt"`
+	Timers   []PassTimerJSON   `json:"timers"`
+	Traps    []PassTrapJSON    `json:"traps"`
 	ET       map[string]string `json:"et"`
 	MPH      map[string]string `json:"mph"`
 	TempF    *float64          `json:"temp_f"`
@@ -31,6 +38,18 @@ type PassJSON struct {
 	DAFt     *float64          `json:"density_altitude_ft"`
 	WeightLb *float64          `json:"weight_lb"`
 	Notes    string            `json:"notes"`
+}
+
+// PassTimerJSON is one timer of a pass: the ET to distance_ft.
+type PassTimerJSON struct {
+	DistanceFt float64     `json:"distance_ft"`
+	ET         json.Number `json:"et"`
+}
+
+// PassTrapJSON is one trap speed of a pass, at distance_ft.
+type PassTrapJSON struct {
+	DistanceFt float64     `json:"distance_ft"`
+	MPH        json.Number `json:"mph"`
 }
 
 // ElevationFor is the elevation of the track a pass ran at: this folder's
@@ -65,17 +84,24 @@ func OptFloat(v float64, ok bool, dec int) *float64 {
 // PassAsJSON is p as JSON; trk is the folder's track (for the elevation).
 func PassAsJSON(p engine.Pass, trk engine.Track) PassJSON {
 	j := PassJSON{Time: p.Time.Format(time.RFC3339), Track: p.Track, Session: p.Session.String(), Lane: string(p.Lane),
-		Dial: optSec(p.Dial), RT: optSec(p.RT), ET: map[string]string{}, MPH: map[string]string{}, Notes: p.Notes}
+		Dial: optSec(p.Dial), RT: optSec(p.RT), Timers: []PassTimerJSON{}, Traps: []PassTrapJSON{},
+		ET: map[string]string{}, MPH: map[string]string{}, Notes: p.Notes}
 	for i, ft := range engine.Timers {
 		if p.ET[i].Valid {
-			j.ET[fmt.Sprintf("%.0f", ft)] = engine.FormatSeconds(p.ET[i].Decimal, 0)
+			et := engine.FormatSeconds(p.ET[i].Decimal, 0)
+			j.Timers = append(j.Timers, PassTimerJSON{ft, json.Number(et)})
+			j.ET[fmt.Sprintf("%.0f", ft)] = et
 		}
 	}
-	if p.MPH660.Valid {
-		j.MPH["660"] = engine.FormatSeconds(p.MPH660.Decimal, 0)
-	}
-	if p.MPH1320.Valid {
-		j.MPH["1320"] = engine.FormatSeconds(p.MPH1320.Decimal, 0)
+	for _, tr := range []struct {
+		ft  float64
+		mph decimal.NullDecimal
+	}{{660, p.MPH660}, {1320, p.MPH1320}} {
+		if tr.mph.Valid {
+			mph := engine.FormatSeconds(tr.mph.Decimal, 0)
+			j.Traps = append(j.Traps, PassTrapJSON{tr.ft, json.Number(mph)})
+			j.MPH[fmt.Sprintf("%.0f", tr.ft)] = mph
+		}
 	}
 	if p.HasAir {
 		j.TempF = OptFloat(p.Air.Temp.Fahrenheit(), true, 2)

@@ -287,7 +287,7 @@ func (o *OpponentFields) Build(s Settings, dial decimal.NullDecimal, passes []en
 		dst  *float64
 		lo   float64
 		hi   float64
-	}{{"--opponent-margin", o.Margin, &opp.Margin, -1, 2}, {"--opponent-sd", o.SD, &opp.MarginSD, 0.001, 1},
+	}{{"--opponent-margin", o.Margin, &opp.Margin, -1, 2}, {"--opponent-margin-sd", o.SD, &opp.MarginSD, 0.001, 1},
 		{"--opponent-rt-mean", o.RTMean, &opp.RT.Mean, -1, 2}, {"--opponent-rt-sd", o.RTSD, &opp.RT.SD, 0.001, 1}} {
 		if f.v == "" {
 			continue
@@ -386,7 +386,7 @@ func (e *Folder) GatherRound(r RoundRequest, now time.Time) (prep.Input, []strin
 		if s, ok := sched.Next(passes); ok {
 			slot, haveSlot = s, true
 		} else {
-			return in, nil, userErrf("every session of %s has a pass in the logbook: give --round for another", e.Name(ScheduleFile))
+			return in, nil, userErrf("every round of %s has a pass in the logbook: give --round for another", e.Name(ScheduleFile))
 		}
 	default:
 		return in, nil, userErrf("which round? give --round (3, E3, T2 ...), or write %s with the day's call times", ScheduleFile)

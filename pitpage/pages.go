@@ -29,6 +29,17 @@ type field struct {
 	Mode              string // the phone keyboard: "decimal"
 	Max               int
 	Error             string
+	// Flag is the command line's name of the field when it is not Name:
+	// the slip's "session" is --round in the errors the page is given.
+	Flag string
+}
+
+// flag is the command line's name of f, as errors name it.
+func (f field) flag() string {
+	if f.Flag != "" {
+		return f.Flag
+	}
+	return f.Name
 }
 
 func text(name, label, unit, placeholder string) field {
@@ -55,14 +66,14 @@ func values(v url.Values) func(string) string {
 func attach(form []field, err error) string {
 	pairs := []string{}
 	for _, f := range form {
-		pairs = append(pairs, "--"+f.Name, "“"+f.Label+"”")
+		pairs = append(pairs, "--"+f.flag(), "“"+f.Label+"”")
 	}
 	named := strings.NewReplacer(pairs...)
 	var ie *weather.InputError
 	if errors.As(err, &ie) {
 		name := strings.TrimPrefix(ie.Field, "--")
 		for i := range form {
-			if form[i].Name == name {
+			if form[i].flag() == name {
 				c := *ie
 				c.Field = form[i].Label
 				form[i].Error = named.Replace(c.Error())
@@ -110,8 +121,8 @@ func (s *Server) cardPage(q *request) {
 	if in.OpponentDial.Valid {
 		p.OppDial = engine.FormatSeconds(in.OpponentDial.Decimal, 2)
 	}
-	f := text("opponent-dial", "Their dial-in", "s", "11.62")
-	f.Value, f.Help = p.OppDial, "As posted on their window; blank clears it. The card then shows the chance to win for each dial."
+	f := text("opponent-dial", "Other lane's dial", "s", "11.62")
+	f.Value, f.Help = p.OppDial, "As posted on its window; blank clears it. The card then shows the chance to win for each dial."
 	p.Form = []field{f}
 	s.render(q, "card", p, http.StatusOK)
 }
@@ -222,7 +233,7 @@ func roundParam(round string) string {
 // crew that weighs in unit w (a bare weight is read in it).
 func slipForm(dist float64, w weather.WeightUnit) []field {
 	form := []field{
-		{Name: "session", Label: "Session", Placeholder: "E3, T2 ...", Max: 20},
+		{Name: "session", Label: "Round", Placeholder: "E3, T2 ...", Max: 20, Flag: "round"},
 		{Name: "lane", Label: "Lane", Kind: "radio", Options: []string{"left", "right"}},
 		text("dial", "Dial-in", "s", "blank for a time trial"),
 		text("rt", "Reaction time", "s", ".021 (negative: red light)"),
@@ -369,7 +380,7 @@ func (s *Server) postOpponent(q *request) {
 	if err != nil {
 		p := q.newPage("Card", "card")
 		p.Round = v("round")
-		p.Form = []field{text("opponent-dial", "Their dial-in", "s", "11.62")}
+		p.Form = []field{text("opponent-dial", "Other lane's dial", "s", "11.62")}
 		fill(p.Form, q.r.PostForm)
 		p.Error = attach(p.Form, err)
 		p.Heading, p.Action, p.Submit = "The other lane", "/opponent", "Save the other lane's dial"

@@ -42,27 +42,8 @@ func RenderJSON(w io.Writer, c Card) error {
 			"ahead_minutes": round(in.Forecast.Ahead.Minutes(), 1), "trusted": in.Forecast.Trusted, "notes": in.Forecast.Notes,
 			"density_altitude_error_ft": weather.RoundDensityAltitude(in.Forecast.DAError.Feet(), weather.UnitFt)}
 	}
-	if p := c.Prediction; len(p.Timers) > 0 {
-		var timers, traps, leaned, out []map[string]any
-		for _, t := range p.Timers {
-			timers = append(timers, map[string]any{"distance_ft": t.DistanceFt, "et": round(t.ET, 3), "low": round(t.Low, 3), "high": round(t.High, 3), "sd": round(t.SD, 4)})
-		}
-		for _, t := range p.Traps {
-			traps = append(traps, map[string]any{"distance_ft": t.DistanceFt, "mph": round(t.MPH, 2), "low": round(t.Low, 2), "high": round(t.High, 2)})
-		}
-		for i, l := range p.Leaned {
-			if i == 5 {
-				break
-			}
-			leaned = append(leaned, map[string]any{"time": l.Pass.Time.Format(time.RFC3339), "session": l.Pass.Session.String(), "et": round(l.ET, 3), "carried_et": round(l.Carried, 3), "share": round(l.Share, 3)})
-		}
-		for _, o := range p.Outliers {
-			out = append(out, map[string]any{"time": o.Pass.Time.Format(time.RFC3339), "reason": passNotes(o.Reason)})
-		}
-		s := p.Sensitivity
-		j["prediction"] = map[string]any{"timers": timers, "traps": traps, "physics_only": p.PhysicsOnly, "leaned_on": leaned, "left_out": nonNilMaps(out),
-			"passes_calibrated": len(c.Fit.Samples), "passes_at_distance": p.Passes, "interval_pct": 95, "notes": p.Notes,
-			"et_per_1000ft_da_s": round(s.PerKDA, 4), "et_per_10f_track_s": round(s.Per10FTrack, 4), "et_per_10mph_headwind_s": round(s.Per10Headwind, 4)}
+	if len(c.Prediction.Timers) > 0 {
+		j["prediction"] = PredictionJSON(c.Prediction, c.Fit)
 	}
 	if c.HasCross {
 		cc := map[string]any{"et": round(c.Cross.ET, 3), "passes": len(c.Cross.Passes), "basis": c.Cross.Basis, "limit_s": crossLimit(in.Settings), "flag": c.CrossFlag}
@@ -167,6 +148,33 @@ func airJSON(a weather.Air, r weather.Reading, in Input) map[string]any {
 		m["headwind_mph"] = round(r.HeadwindComponent(in.Track.HeadingDeg).MPH(), 1)
 	}
 	return m
+}
+
+// PredictionJSON is a prediction as JSON, the same object under "prediction"
+// in the card's JSON and in 'pitcard predict --format json': its timers
+// [{distance_ft, et, low, high, sd}] have the keys of a logged pass's.
+func PredictionJSON(p engine.Prediction, fit engine.Fit) map[string]any {
+	timers, traps, leaned, out := []map[string]any{}, []map[string]any{}, []map[string]any{}, []map[string]any{}
+	for _, t := range p.Timers {
+		timers = append(timers, map[string]any{"distance_ft": t.DistanceFt, "et": round(t.ET, 3), "low": round(t.Low, 3), "high": round(t.High, 3), "sd": round(t.SD, 4)})
+	}
+	for _, t := range p.Traps {
+		traps = append(traps, map[string]any{"distance_ft": t.DistanceFt, "mph": round(t.MPH, 2), "low": round(t.Low, 2), "high": round(t.High, 2)})
+	}
+	for i, l := range p.Leaned {
+		if i == 5 {
+			break
+		}
+		leaned = append(leaned, map[string]any{"time": l.Pass.Time.Format(time.RFC3339), "session": l.Pass.Session.String(), "track": l.Pass.Track,
+			"et": round(l.ET, 3), "carried_et": round(l.Carried, 3), "share": round(l.Share, 3)})
+	}
+	for _, o := range p.Outliers {
+		out = append(out, map[string]any{"time": o.Pass.Time.Format(time.RFC3339), "reason": passNotes(o.Reason)})
+	}
+	s := p.Sensitivity
+	return map[string]any{"timers": timers, "traps": traps, "physics_only": p.PhysicsOnly, "leaned_on": leaned, "left_out": out,
+		"passes_calibrated": len(fit.Samples), "passes_at_distance": p.Passes, "interval_pct": 95, "notes": nonNil(p.Notes),
+		"et_per_1000ft_da_s": round(s.PerKDA, 4), "et_per_10f_track_s": round(s.Per10FTrack, 4), "et_per_10mph_headwind_s": round(s.Per10Headwind, 4)}
 }
 
 func round(v float64, d int) float64 {

@@ -121,7 +121,7 @@ func newView(c Card) view {
 	v.Subtitle = append(v.Subtitle, call)
 	car := OrDash(in.Car.Name)
 	if in.OpponentDial.Valid {
-		car += " · opponent dials " + DialText(in.OpponentDial.Decimal, in.Settings.DialStep)
+		car += " · the other lane dials " + DialText(in.OpponentDial.Decimal, in.Settings.DialStep)
 	}
 	v.Subtitle = append(v.Subtitle, car)
 
@@ -301,13 +301,13 @@ func newView(c Card) view {
 
 	// Today's record.
 	if len(c.Record) > 0 {
-		v.Record = table{Title: "Today so far: predicted against actual", Header: []string{"Session", "Time", "Lane", "Predicted", "Ran", "Off by", "Notes"}, Marked: -1}
+		v.Record = table{Title: "Today so far: predicted against actual", Header: []string{"Round", "Time", "Lane", "Predicted", "Ran", "Off by", "Notes"}, Marked: -1}
 		for _, r := range c.Record {
 			pred, off := "–", ""
 			if !math.IsNaN(r.Predicted) {
 				pred, off = fmt.Sprintf("%.3f", r.Predicted), fmt.Sprintf("%+.3f", r.Error)
 			}
-			v.Record.Rows = append(v.Record.Rows, []string{r.Pass.Session.Long(), r.Pass.Time.Format("15:04"), string(r.Pass.Lane), pred,
+			v.Record.Rows = append(v.Record.Rows, []string{r.Pass.Session.String(), r.Pass.Time.Format("15:04"), string(r.Pass.Lane), pred,
 				fmt.Sprintf("%.3f", r.Actual), off, passNotes(r.Pass.Notes)})
 		}
 		if !math.IsNaN(c.RecordMAE) {

@@ -120,19 +120,21 @@ func AirFigures(a weather.Air, r weather.Reading) map[string]any {
 		"air_density_kg_m3":        a.Density,
 		"relative_air_density_pct": a.RelativeDensity,
 		"vapor_pressure_hpa":       a.Vapor.HPa(),
-		"dew_point_f":              a.DewPoint.Fahrenheit(),
+		"dewpoint_f":               a.DewPoint.Fahrenheit(),
 		"grains_per_lb":            a.Grains,
 		"cf_sae_j1349":             a.CFJ1349,
 		"cf_sae_j1349_2004":        a.CFJ1349v2004,
 		"cf_std":                   a.CFSTD,
 		"cf_din70020":              a.CFDIN,
 		"virtual_temp_f":           a.VirtualTemp.Fahrenheit(),
-		"station_pressure_inhg":    a.Station.InHg(),
+		"baro_inhg":                a.Station.InHg(),
 		"temp_f":                   r.Temp.Fahrenheit(),
 		"humidity_pct":             a.RH * 100,
 		"altimeter_setting_inhg":   a.Altimeter.InHg(),
 		"wind_mph":                 r.Wind.MPH(),
 	}
+	// the older names of two figures, kept for rules written before them
+	m["dew_point_f"], m["station_pressure_inhg"] = m["dewpoint_f"], m["baro_inhg"]
 	if !r.WindDirUnknown {
 		m["wind_from_deg"] = r.WindFrom
 	}

@@ -119,21 +119,28 @@ func airRun(cmd *cobra.Command, o *airOptions) error {
 }
 
 // airReport is the JSON form of `pitcard air`. The first block of keys is
-// documented in the README and stays stable; scripts rely on them.
+// documented in the README and stays stable; scripts rely on them. A figure
+// that is also a column of the logbook or the weather log has that column's
+// name (dewpoint_f, baro_inhg); the older names stay as aliases of the same
+// value (README, "Names").
 type airReport struct {
 	DensityAltitudeFt     float64 `json:"density_altitude_ft"`
 	PressureAltitudeFt    float64 `json:"pressure_altitude_ft"`
 	AirDensityKgM3        float64 `json:"air_density_kg_m3"`
 	RelativeAirDensityPct float64 `json:"relative_air_density_pct"`
 	VaporPressureHPa      float64 `json:"vapor_pressure_hpa"`
-	DewPointF             float64 `json:"dew_point_f"`
+	DewPointF             float64 `json:"dewpoint_f"`
 	GrainsPerLb           float64 `json:"grains_per_lb"`
 	CFSAEJ1349            float64 `json:"cf_sae_j1349"`
 	CFSAEJ13492004        float64 `json:"cf_sae_j1349_2004"`
 	CFSTD                 float64 `json:"cf_std"`
 	CFDIN70020            float64 `json:"cf_din70020"`
 	VirtualTempF          float64 `json:"virtual_temp_f"`
-	StationPressureInHg   float64 `json:"station_pressure_inhg"`
+	BaroInHg              float64 `json:"baro_inhg"`
+
+	// Aliases kept for scripts written before the names were one.
+	OldDewPointF        float64 `json:"dew_point_f"`
+	StationPressureInHg float64 `json:"station_pressure_inhg"`
 
 	Time                  string   `json:"time"`
 	TempF                 float64  `json:"temp_f"`
@@ -164,7 +171,7 @@ func newAirReport(r weather.Reading, elev weather.Length, heading float64, haveH
 		CFSTD:                 round(a.CFSTD, 4),
 		CFDIN70020:            round(a.CFDIN, 4),
 		VirtualTempF:          round(a.VirtualTemp.Fahrenheit(), 1),
-		StationPressureInHg:   round(a.Station.InHg(), 3),
+		BaroInHg:              round(a.Station.InHg(), 3),
 		Time:                  r.Time.Format(time.RFC3339),
 		TempF:                 round(r.Temp.Fahrenheit(), 1),
 		HumidityPct:           round(a.RH*100, 1),
@@ -176,6 +183,7 @@ func newAirReport(r weather.Reading, elev weather.Length, heading float64, haveH
 		WindFromDeg:           event.OptFloat(r.WindFrom, !r.WindDirUnknown && !r.WindUnknown, 0),
 		Warnings:              []string{},
 	}
+	rep.OldDewPointF, rep.StationPressureInHg = rep.DewPointF, rep.BaroInHg
 	if haveHeading && !r.WindUnknown {
 		hw := round(r.HeadwindComponent(heading).MPH(), 1)
 		rep.HeadwindMph = &hw

@@ -20,9 +20,14 @@ func TestDeprecatedFlagsKeepStdoutClean(t *testing.T) {
 	base := map[string][]string{
 		"pitcard predict":     {"--latest"},
 		"pitcard weather add": {"--temp", "85F", "--baro", "27.6inHg", "--humidity", "35%", "--time", "19:59"},
+		"pitcard card":        {"--round", "E3", "--opponent-dial", "11.50"},
+		"pitcard rules try":   {"--round", "E3", "--opponent-dial", "11.50"},
+		"pitcard dial":        {"--opponent-dial", "11.50"},
+		"pitcard log add":     {"--lane", "left", "--et1320", "11.512", "--date", "2026-06-13", "--time", "21:59"},
 	}
 	values := map[string]string{"car": filepath.Join(dir, "car.yaml"), "track": filepath.Join(dir, "track.yaml"),
-		"logbook": filepath.Join(dir, "logbook.csv"), "note": "old flag"}
+		"logbook": filepath.Join(dir, "logbook.csv"), "note": "old flag",
+		"session": "T9", "opponent-sd": "0.02", "last": "8"}
 	var s IOStreams
 	found := 0
 	var walk func(c *cobra.Command)

@@ -19,15 +19,15 @@ import (
 )
 
 type dialOptions struct {
-	g       *globalOptions
-	s       *IOStreams
-	cond    conditionFlags
-	Prep    string
-	ET, SD  string
-	Last    int
-	Rows    int
-	Format  string
-	OppDial string
+	g           *globalOptions
+	s           *IOStreams
+	cond        conditionFlags
+	Prep        string
+	ET, SD      string
+	CleanPasses int
+	Rows        int
+	Format      string
+	OppDial     string
 	// Round and Lane pick the round whose card the dial is posted from
 	// (default: the schedule's next, as the card's).
 	Round, Lane string
@@ -57,7 +57,9 @@ passes at the distance raced, not corrected for the air, and says so.`,
 	cmd.Flags().StringVar(&o.Prep, "prep", "", "track prep today: none, light, full or 0..1 (default: track.yaml's)")
 	cmd.Flags().StringVar(&o.ET, "et", "", "predicted ET, s")
 	cmd.Flags().StringVar(&o.SD, "sd", "", "its spread, one standard deviation, s")
-	cmd.Flags().IntVar(&o.Last, "last", 10, "clean passes to use from the logbook")
+	cmd.Flags().IntVar(&o.CleanPasses, "clean-passes", 10, "the latest clean passes the estimate rests on when there is no weather (or --et)")
+	cmd.Flags().IntVar(&o.CleanPasses, "last", 10, "")
+	deprecate(cmd.Flags(), "last", "use --clean-passes (on log list and log stats --last limits the passes shown)")
 	cmd.Flags().IntVar(&o.Rows, "rows", 5, "candidates either side of the recommendation")
 	cmd.Flags().String("breakout-risk", "", "largest breakout chance to accept, a fraction (setting breakout_risk)")
 	cmd.Flags().String("dial-step", "", "dial-in step, s (setting dial_step)")
@@ -184,7 +186,7 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 			return lo
 		}
 		leftOut = lo
-		if est, _, err = engine.RecentEstimate(passes, car.DistanceFt, o.Last, e.Settings.AbortWords); err != nil {
+		if est, _, err = engine.RecentEstimate(passes, car.DistanceFt, o.CleanPasses, e.Settings.AbortWords); err != nil {
 			return userErr(err)
 		}
 	}
@@ -270,7 +272,7 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 	t := newTable(o.s, fmt.Sprintf("Dial-ins (step %s s, risk ≤ %.0f %%)", plan.Step, plan.Risk*100))
 	header := table.Row{"Dial", "Breakout chance", "Time given away", ""}
 	if wins != nil {
-		header = table.Row{"Dial", "Breakout chance", "Time given away", "Chance to win", ""}
+		header = table.Row{"Dial", "Breakout chance", "Time given away", "To win", ""}
 	}
 	t.AppendHeader(header)
 	for _, op := range j.Options {

@@ -26,7 +26,7 @@ func newLogCmd(s *IOStreams, g *globalOptions) *cobra.Command {
 Every row is checked; a bad one is refused with its file, line, column, value
 and the rule it breaks, and nothing is written. Writes are atomic and keep the
 previous logbook as logbook.csv.bak.`,
-		Example: `  pitcard log add --session E1 --lane left --dial 11.52 --rt .021 --et60 1.612 --et1320 11.538 --mph1320 116.79
+		Example: `  pitcard log add --round E1 --lane left --dial 11.52 --rt .021 --et60 1.612 --et1320 11.538 --mph1320 116.79
   pitcard log import season-2026.csv
   pitcard log import season.csv --map spreadsheet-map.yaml
   pitcard log diff ../theo-laptop/logbook.csv
@@ -48,7 +48,8 @@ type logAddOptions struct {
 	ET60, ET330, ET660, ET1000, ET1 string
 	MPH660, MPH1320                 string
 	// The other lane's slip, when it is entered too: what decided the round.
-	OppDial, OppRT, OppET string
+	OppDial      string
+	OppRT, OppET []string
 }
 
 func newLogAddCmd(s *IOStreams, g *globalOptions) *cobra.Command {
@@ -61,9 +62,9 @@ seconds as the slip prints them (.021, 11.538). The conditions default to the
 weather log's reading nearest the pass (within an hour), and any reading flag
 given replaces that field; the track defaults to track.yaml's name and the
 weight to car.yaml's.`,
-		Example: `  pitcard log add --session E1 --lane left --dial 11.52 --rt .021 --et60 1.612 --et330 4.689 \
+		Example: `  pitcard log add --round E1 --lane left --dial 11.52 --rt .021 --et60 1.612 --et330 4.689 \
       --et660 7.321 --mph660 92.44 --et1000 9.605 --et1320 11.538 --mph1320 116.79
-  pitcard log add --session T2 --lane right --et60 1.65 --et1320 11.71 --mph1320 115.2 --notes "lifted early"`,
+  pitcard log add --round T2 --lane right --et60 1.65 --et1320 11.71 --mph1320 115.2 --notes "lifted early"`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, _ []string) error { return logAddRun(cmd, o) },
 	}
@@ -71,7 +72,9 @@ weight to car.yaml's.`,
 	fl.StringVar(&o.Date, "date", "", "date of the pass, YYYY-MM-DD (default: today)")
 	fl.StringVar(&o.Time, "time", "", "time of the pass, HH:MM (default: now)")
 	fl.StringVar(&o.Track, "track", "", "track name (default: track.yaml's)")
-	fl.StringVar(&o.Session, "session", "", "T1, T2 ... for time trials, E1, E2 ... for rounds, or test")
+	fl.StringVar(&o.Session, "round", "", roundFlagHelp)
+	fl.StringVar(&o.Session, "session", "", "")
+	deprecate(fl, "session", "use --round (as on card, dial and round)")
 	fl.StringVar(&o.Lane, "lane", "", "left or right")
 	fl.StringVar(&o.Dial, "dial", "", "dial-in, s (blank for a time trial without one)")
 	fl.StringVar(&o.RT, "rt", "", "reaction time, s, as the slip shows it (with rt_zero: green, perfect is .000 and a red light negative; amber: perfect is .500 full tree, .400 pro)")
@@ -85,13 +88,23 @@ weight to car.yaml's.`,
 	fl.StringVar(&o.Weight, "weight", "", "car and driver as run: 3300lb or 1500kg, a bare number in the crew's units (default: car.yaml's weight_lb)")
 	fl.StringVar(&o.Notes, "notes", "", "free text: lifted, pedaled, new tires ...")
 	fl.StringVar(&o.OppDial, "opponent-dial", "", "the other lane's dial-in from its slip (with --opponent-rt and --opponent-et: what decided the round)")
-	fl.StringVar(&o.OppRT, "opponent-rt", "", "the other lane's reaction time from its slip, s")
-	fl.StringVar(&o.OppET, "opponent-et", "", "the other lane's ET from its slip, s")
+	// A list, as on card and dial (the other lane's slips of the day), of
+	// one value here: a pass has one slip.
+	fl.StringSliceVar(&o.OppRT, "opponent-rt", nil, "the other lane's reaction time from its slip, s (a list on card and dial; one value here)")
+	fl.StringSliceVar(&o.OppET, "opponent-et", nil, "the other lane's ET from its slip, s (a list on card and dial; one value here)")
 	o.reading.bind(cmd)
 	return cmd
 }
 
 func logAddRun(cmd *cobra.Command, o *logAddOptions) error {
+	oppRT, err := oneValue("--opponent-rt", o.OppRT)
+	if err != nil {
+		return err
+	}
+	oppET, err := oneValue("--opponent-et", o.OppET)
+	if err != nil {
+		return err
+	}
 	e, err := o.g.open(cmd)
 	if err != nil {
 		return err
@@ -100,7 +113,7 @@ func logAddRun(cmd *cobra.Command, o *logAddOptions) error {
 		Date: o.Date, Time: o.Time, Track: o.Track, Session: o.Session, Lane: o.Lane, Dial: o.Dial, RT: o.RT,
 		Weight: o.Weight, Notes: o.Notes, ET60: o.ET60, ET330: o.ET330, ET660: o.ET660, ET1000: o.ET1000, ET1: o.ET1,
 		MPH660: o.MPH660, MPH1320: o.MPH1320, Reading: o.reading.ReadingFields,
-		OppDial: o.OppDial, OppRT: o.OppRT, OppET: o.OppET,
+		OppDial: o.OppDial, OppRT: oppRT, OppET: oppET,
 	}, o.s.Now())
 	if err != nil {
 		return err
@@ -120,6 +133,20 @@ func logAddRun(cmd *cobra.Command, o *logAddOptions) error {
 		fmt.Fprintln(o.s.Out, prep.Wrap(lp.Decided, o.s.width(), "  "))
 	}
 	return nil
+}
+
+// oneValue is the single value of a list flag that takes one slip's
+// figure here: --opponent-et and --opponent-rt are lists on card and dial
+// (the other lane's slips of the day), and log add reads one slip.
+func oneValue(flag string, vs []string) (string, error) {
+	switch len(vs) {
+	case 0:
+		return "", nil
+	case 1:
+		return vs[0], nil
+	}
+	return "", &weather.InputError{Field: flag, Value: strings.Join(vs, ","),
+		Reason: "is one value on log add (this pass's slip); card and dial take the day's slips as a list"}
 }
 
 // altimeterLooking warns when rows' barometer figures look like sea-level
@@ -314,9 +341,9 @@ func logListRun(cmd *cobra.Command, o *logListOptions) error {
 	}
 	u := e.Settings.Units
 	t := newTable(o.s, fmt.Sprintf("Logbook (%s), last %s", e.Name(event.LogbookFile), engine.Plural(len(passes), "pass")))
-	header := table.Row{"Date", "Time", "Session", "Lane", "Dial", "RT", "60 ft", "1/8", "mph", "1/4", "mph", "DA", "Notes"}
+	header := table.Row{"Date", "Time", "Round", "Lane", "Dial", "RT", "60 ft", "1/8", "mph", "1/4", "mph", "DA", "Notes"}
 	if o.Wide {
-		header = table.Row{"Date", "Time", "Session", "Lane", "Dial", "RT", "60 ft", "330", "1/8", "mph", "1000", "1/4", "mph", "DA", "Notes"}
+		header = table.Row{"Date", "Time", "Round", "Lane", "Dial", "RT", "60 ft", "330", "1/8", "mph", "1000", "1/4", "mph", "DA", "Notes"}
 	}
 	// Narrower than the list with its notes (a terminal under 100 columns):
 	// the notes go under the table, each with its pass.
@@ -360,7 +387,7 @@ func logListRun(cmd *cobra.Command, o *logListOptions) error {
 		fmt.Fprintln(o.s.Out, "Notes:\n"+strings.Join(below, "\n"))
 	}
 	if o.Format == "text" {
-		fmt.Fprintf(o.s.Out, "Session: T time trial, E elimination round. DA: density altitude, %s.\n--wide adds the 330 and 1000 ft timers.\n", u.Length)
+		fmt.Fprintf(o.s.Out, "Round: T time trial, E elimination. DA: density altitude, %s.\n--wide adds the 330 and 1000 ft timers.\n", u.Length)
 	}
 	return leftOut
 }

@@ -125,7 +125,7 @@ func TestLogAddTakesTheNearestReading(t *testing.T) {
 		{[]string{"--session", "E2", "--lane", "middle", "--et1320", "11.5"}, "--lane"},
 		{[]string{"--session", "E2", "--lane", "left", "--et60", "1.6", "--et660", "1.5"}, "--et660"},
 		{[]string{"--session", "E2", "--lane", "left", "--et1320", "11.5", "--temp", "200F"}, "--temp"},
-		{[]string{"--lane", "left", "--et1320", "11.5"}, "--session and --lane are required"},
+		{[]string{"--lane", "left", "--et1320", "11.5"}, "--round and --lane are required"},
 	} {
 		_, errs, code := pitcard(t, append([]string{"log", "add", "--dir", dir, "--time", "20:00"}, bad.args...)...)
 		if code != 2 || !strings.Contains(errs, bad.want) {

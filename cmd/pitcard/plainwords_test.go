@@ -102,7 +102,7 @@ func TestNoControlCodesFromOutside(t *testing.T) {
 	if err := os.WriteFile(filepath.Join(dir, "rules", "70-esc.lua"), []byte(rule), 0o644); err != nil {
 		t.Fatal(err)
 	}
-	mustRun(t, "log", "add", "--dir", dir, "--session", "E9", "--lane", "left", "--et1320", "11.45", "--mph1320", "118.1", "--notes", "ok\x1b[2J\x1b[31mPWNED\r\nline2")
+	mustRun(t, "log", "add", "--dir", dir, "--round", "E9", "--lane", "left", "--et1320", "11.45", "--mph1320", "118.1", "--notes", "ok\x1b[2J\x1b[31mPWNED\r\nline2")
 	for _, args := range [][]string{{"card"}, {"card", "--format", "markdown"}, {"card", "--format", "json"}, {"log", "list", "--last", "3"}} {
 		out, errs, _ := pitcard(t, append(args, "--dir", dir)...)
 		if strings.ContainsAny(out+errs, "\x1b\r") {

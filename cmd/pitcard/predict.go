@@ -214,20 +214,24 @@ type basisJSON struct {
 	ExtrapolatedTrack float64       `json:"extrapolated_track_f"`
 }
 
+// predictJSON is predict's JSON. Prediction is the object of the card's
+// "prediction" key (prep.PredictionJSON); Timers, Traps and Basis are the
+// older shape, kept for scripts written before (README, "Names").
 type predictJSON struct {
-	Car      string      `json:"car"`
-	Track    string      `json:"track"`
-	Time     string      `json:"time"`
-	Distance float64     `json:"distance_ft"`
-	Timers   []timerJSON `json:"timers"`
-	Traps    []trapJSON  `json:"traps"`
-	Air      airReport   `json:"air"`
-	Basis    basisJSON   `json:"basis"`
+	Car        string         `json:"car"`
+	Track      string         `json:"track"`
+	Time       string         `json:"time"`
+	Distance   float64        `json:"distance_ft"`
+	Prediction map[string]any `json:"prediction"`
+	Timers     []timerJSON    `json:"timers"`
+	Traps      []trapJSON     `json:"traps"`
+	Air        airReport      `json:"air"`
+	Basis      basisJSON      `json:"basis"`
 }
 
 func predictionJSON(n nextPass) predictJSON {
 	p := n.Pred
-	j := predictJSON{Car: n.Car.Name, Track: n.Cond.Track.Name, Time: n.When.Format(time.RFC3339), Distance: p.Distance,
+	j := predictJSON{Car: n.Car.Name, Track: n.Cond.Track.Name, Time: n.When.Format(time.RFC3339), Distance: p.Distance, Prediction: prep.PredictionJSON(p, n.Fit),
 		Air: newAirReport(n.Cond.Reading, n.Cond.Elevation, n.Cond.Track.HeadingDeg, n.Cond.HaveTrack)}
 	for _, t := range p.Timers {
 		j.Timers = append(j.Timers, timerJSON{t.DistanceFt, round(t.ET, 3), round(t.Low, 3), round(t.High, 3)})

@@ -39,7 +39,7 @@ from a pipe (at the end of the input every remaining answer is Enter).`,
 		Args:    cobra.NoArgs,
 		RunE:    func(cmd *cobra.Command, _ []string) error { return roundCmdRun(cmd, o) },
 	}
-	cmd.Flags().StringVar(&o.Round, "round", "", "round number (3), or session T1 ... E5 (default: the schedule's next)")
+	cmd.Flags().StringVar(&o.Round, "round", "", roundFlagHelp+" (default: the schedule's next)")
 	cmd.Flags().StringVar(&o.Lane, "lane", "", "left or right (asked when not given)")
 	cmd.Flags().BoolVar(&o.NoLog, "no-log", false, "print the card and stop: do not ask for the slip")
 	bindSettingFlags(cmd)
@@ -349,7 +349,7 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 			return fmt.Errorf("%w; the slip was not logged: log it with 'pitcard log add'", err)
 		}
 	}
-	args := []string{"log", "add", "--dir", e.Dir, "--session", in.Session.String(), "--lane", string(in.Lane),
+	args := []string{"log", "add", "--dir", e.Dir, "--round", in.Session.String(), "--lane", string(in.Lane),
 		"--date", now.Format("2006-01-02"), "--time", now.Format("15:04")}
 	for _, q := range questions {
 		if v := slip.Values[q.key]; v != "" {

@@ -44,7 +44,7 @@ func TestGuidedRound(t *testing.T) {
 		t.Fatalf("exit %d\n%s\n%s", code, errs, out)
 	}
 	for _, w := range []string{"Round (3, E3, T2 ...) [E3]", "Air temperature [83.3 °F]", "Lane (left or right) [left]", "POST THIS",
-		"opponent dials 11.52", "Logged 2026-06-13 20:40 round 3, left lane: 11.482"} {
+		"the other lane dials 11.52", "Logged 2026-06-13 20:40 round 3, left lane: 11.482"} {
 		if !strings.Contains(out, w) {
 			t.Errorf("the round lacks %q:\n%s", w, out)
 		}

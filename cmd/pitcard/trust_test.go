@@ -303,7 +303,7 @@ func TestCardWords(t *testing.T) {
 		}
 	}
 	for _, w := range []string{"10 °F warmer air", "0.10 inHg lower barometer", "10 % more humidity",
-		"from the barometer alone", "06-13 round 2", "│ time trial 1 "} {
+		"from the barometer alone", "06-13 round 2", "│ T1 "} {
 		if !strings.Contains(out, w) {
 			t.Errorf("card lacks %q:\n%s", w, out)
 		}
@@ -320,7 +320,7 @@ func TestCardWords(t *testing.T) {
 	if air := mustRun(t, "air", "--demo", "--units", "metric"); !strings.Contains(air, "g/kg") || strings.Contains(air, "grains") {
 		t.Errorf("metric air:\n%s", air)
 	}
-	if list := mustRun(t, "log", "list", "--demo"); strings.Contains(list, "Ses.") || !strings.Contains(list, "Session") {
+	if list := mustRun(t, "log", "list", "--demo"); strings.Contains(list, "Ses.") || !strings.Contains(list, "Round") {
 		t.Errorf("log list header:\n%s", list)
 	}
 	if stats := mustRun(t, "log", "stats", "--demo"); strings.Contains(stats, "in air ±1σ") || !strings.Contains(stats, "corrected") {
@@ -504,7 +504,7 @@ func TestCompletion(t *testing.T) {
 // log add with the other lane's slip says what decided the round.
 func TestTheOtherLane(t *testing.T) {
 	out := mustRun(t, "dial", "--demo", "--opponent-dial", "12.10")
-	for _, w := range []string{"Chance to win", "wins most", "you leave 0.", "after the other lane", "40000 races drawn per dial"} {
+	for _, w := range []string{"To win", "wins most", "you leave 0.", "after the other lane", "40000 races drawn per dial"} {
 		if !strings.Contains(strings.Join(strings.Fields(out), " "), w) {
 			t.Errorf("dial lacks %q:\n%s", w, out)
 		}

@@ -121,7 +121,7 @@ func TestOneFormatterForADial(t *testing.T) {
 		{"dial, coarse step", []string{"dial", "--demo", "--opponent-dial", "10.125"},
 			[]string{"Against the other lane's 10.125:"}, []string{"10.13"}},
 		{"card", []string{"card", "--demo", "--dial-step", "0.005", "--opponent-dial", "10.125"},
-			[]string{"opponent dials 10.125", "the other lane's 10.125 dial"}, []string{"10.13"}},
+			[]string{"the other lane dials 10.125", "the other lane's 10.125 dial"}, []string{"10.13"}},
 		{"dial json", []string{"dial", "--demo", "--dial-step", "0.005", "--opponent-dial", "10.125", "--format", "json"},
 			[]string{`"recommended_dial": 11.410`, `"post_dial": 11.400`}, nil},
 	} {
