@@ -100,7 +100,7 @@ func RenderJSON(w io.Writer, c Card) error {
 	for _, r := range c.Rules {
 		m := map[string]any{"file": r.File, "defines": nonNil(r.Defines), "log": nonNil(r.Log), "took_ms": round(float64(r.Took.Microseconds())/1000, 2)}
 		if r.HasAdjust {
-			m["adjust"], m["reason"] = dialText(r.Adjust, in.Settings.DialStep), r.Reason
+			m["adjust"], m["reason"] = json.Number(dialText(r.Adjust, in.Settings.DialStep)), r.Reason
 		}
 		var errs []string
 		for _, e := range r.Errors {

@@ -65,7 +65,7 @@ passes at the distance raced, not corrected for the air, and says so.`,
 	cmd.Flags().String("dial-step", "", "dial-in step, s (setting dial_step)")
 	cmd.Flags().StringVar(&o.Format, "format", "text", "text, markdown, json or csv")
 	cmd.Flags().StringVar(&o.OppDial, "opponent-dial", "", "the other lane's dial-in, s: adds each dial's chance to win")
-	cmd.Flags().StringVar(&o.Round, "round", "", "the round to post for, as on the card: 3, E3, T2 ... (default: the schedule's next)")
+	cmd.Flags().StringVar(&o.Round, "round", "", roundFlagHelp+" (default: the schedule's next, as the card's)")
 	cmd.Flags().StringVar(&o.Lane, "lane", "", "left or right (default: the schedule's)")
 	o.opp.bind(cmd)
 	withOut(cmd, s)
@@ -270,9 +270,9 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 	}
 	fmt.Fprintln(o.s.Out, prep.Wrap(fmt.Sprintf("Predicted ET %.3f s ± %.3f (one standard deviation): %s.", est.ET, est.SD, est.Basis), o.s.width(), "  "))
 	t := newTable(o.s, fmt.Sprintf("Dial-ins (step %s s, risk ≤ %.0f %%)", plan.Step, plan.Risk*100))
-	header := table.Row{"Dial", "Breakout chance", "Time given away", ""}
+	header := table.Row{"Dial", "Breakout chance", "Over dial (exp.)", ""}
 	if wins != nil {
-		header = table.Row{"Dial", "Breakout chance", "Time given away", "To win", ""}
+		header = table.Row{"Dial", "Breakout chance", "Over dial (exp.)", "To win", ""}
 	}
 	t.AppendHeader(header)
 	for _, op := range j.Options {

@@ -142,7 +142,7 @@ func TestRaceJSON(t *testing.T) {
 	if err := json.Unmarshal([]byte(out), &j); err != nil {
 		t.Fatal(err)
 	}
-	if j["winner"] != "left" || j["reason"] != engine.ReasonFirstToFinish || j["margin_s"] != "0.010" || j["margin_ft"].(float64) != 1.5 {
+	if j["winner"] != "left" || j["reason"] != engine.ReasonFirstToFinish || j["margin_s"] != 0.01 || j["margin_ft"].(float64) != 1.5 {
 		t.Errorf("race %v", j)
 	}
 	if _, errs, code := pitcard(t, "race", "--left-dial", "14.20", "--left-rt", ".520"); code != 2 || !strings.Contains(errs, "--left-et is required") {

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"encoding/json"
 	"fmt"
 
 	"github.com/jedib0t/go-pretty/v6/table"
@@ -86,17 +87,17 @@ func (l raceLane) run(name string) (engine.LaneRun, error) {
 }
 
 type raceLaneJSON struct {
-	Dial     string `json:"dial"`
-	RT       string `json:"rt"`
-	ET       string `json:"et"`
-	Start    string `json:"start_s"`
-	Reaction string `json:"reaction_from_green"`
-	Finish   string `json:"finish_s"`
-	OverDial string `json:"et_minus_dial"`
-	Package  string `json:"total_against_dial"`
-	RedLight bool   `json:"red_light"`
-	Breakout bool   `json:"breakout"`
-	Foul     bool   `json:"foul"`
+	Dial     json.Number `json:"dial"`
+	RT       json.Number `json:"rt"`
+	ET       json.Number `json:"et"`
+	Start    json.Number `json:"start_s"`
+	Reaction json.Number `json:"reaction_from_green"`
+	Finish   json.Number `json:"finish_s"`
+	OverDial json.Number `json:"et_minus_dial"`
+	Package  json.Number `json:"total_against_dial"`
+	RedLight bool        `json:"red_light"`
+	Breakout bool        `json:"breakout"`
+	Foul     bool        `json:"foul"`
 }
 
 type raceJSON struct {
@@ -104,7 +105,7 @@ type raceJSON struct {
 	Reason      string       `json:"reason"`
 	Explanation string       `json:"explanation"`
 	First       string       `json:"first_to_finish"`
-	MarginS     string       `json:"margin_s"`
+	MarginS     json.Number  `json:"margin_s"`
 	MarginFt    *float64     `json:"margin_ft"`
 	Tree        string       `json:"tree"`
 	RTZero      string       `json:"rt_zero"`
@@ -134,12 +135,13 @@ func raceRun(cmd *cobra.Command, o *raceOptions) error {
 		return err
 	}
 	laneJSON := func(r engine.LaneRun, x engine.LaneResult) raceLaneJSON {
-		f := func(d decimal.Decimal) string { return engine.FormatSeconds(d, 3) }
-		return raceLaneJSON{Dial: engine.FormatSeconds(r.Dial, 2), RT: f(r.RT), ET: f(r.ET), Start: f(x.Start), Reaction: f(x.Reaction),
+		// numbers with the slip's digits: 0.520, 14.20
+		f := func(d decimal.Decimal) json.Number { return json.Number(engine.FormatSeconds(d, 3)) }
+		return raceLaneJSON{Dial: json.Number(prep.DialText(r.Dial, e.Settings.DialStep)), RT: f(r.RT), ET: f(r.ET), Start: f(x.Start), Reaction: f(x.Reaction),
 			Finish: f(x.Finish), OverDial: f(x.OverDial), Package: f(x.Package), RedLight: x.RedLight, Breakout: x.Breakout, Foul: x.Foul}
 	}
 	j := raceJSON{Winner: string(out.Winner), Reason: out.Reason, Explanation: out.Explanation, First: string(out.First),
-		MarginS: engine.FormatSeconds(out.MarginS, 3), MarginFt: event.OptFloat(out.MarginFt, out.HasMarginFt, 1),
+		MarginS: json.Number(engine.FormatSeconds(out.MarginS, 3)), MarginFt: event.OptFloat(out.MarginFt, out.HasMarginFt, 1),
 		Tree: string(rules.Tree), RTZero: string(rules.RTZero), Left: laneJSON(left, out.Left), Right: laneJSON(right, out.Right)}
 	if o.Format == "json" {
 		return writeJSON(o.s.Out, j)
@@ -150,7 +152,7 @@ func raceRun(cmd *cobra.Command, o *raceOptions) error {
 	} else if out.Reason == engine.ReasonDoubleFoul {
 		headline = "No winner on the slips"
 	}
-	margin := j.MarginS + " s"
+	margin := string(j.MarginS) + " s"
 	if j.MarginFt != nil {
 		margin += fmt.Sprintf(" (%.1f ft)", *j.MarginFt)
 	}
