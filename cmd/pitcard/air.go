@@ -94,7 +94,7 @@ func airRun(cmd *cobra.Command, o *airOptions) error {
 		return err
 	}
 	if w := r.PressureWarning(elev); w != "" && elevKnown {
-		fmt.Fprintln(o.s.Err, "pitcard: warning:", w)
+		o.s.warn(w)
 	}
 	if !elevKnown {
 		fmt.Fprintf(o.s.Err, "pitcard: no %s here and no --elevation: every figure below is from the station pressure; the altimeter setting is left out (it needs the elevation)\n", event.TrackFile)

@@ -62,11 +62,11 @@ func cardRun(cmd *cobra.Command, o *cardOptions) error {
 	}
 	broken := err
 	for _, w := range warnings {
-		fmt.Fprintln(o.s.Err, "pitcard: warning:", w)
+		o.s.warn(w)
 	}
 	c := prep.Gather(in)
 	if c.CrossFlag != "" {
-		fmt.Fprintln(o.s.Err, "pitcard: warning:", c.CrossFlag)
+		o.s.warn(c.CrossFlag)
 	}
 	var buf bytes.Buffer
 	switch o.Format {

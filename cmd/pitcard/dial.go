@@ -154,7 +154,7 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 				return err
 			}
 			for _, w := range n.Cond.Warnings {
-				fmt.Fprintln(o.s.Err, "pitcard: warning:", w)
+				o.s.warn(w)
 			}
 			est = n.Pred.Estimate()
 			est.Basis += ", in " + n.Cond.Source
@@ -406,7 +406,9 @@ func noDial(o *dialOptions, est engine.Estimate, why string, leftOut error) erro
 		}
 		return leftOut
 	}
-	fmt.Fprintf(o.s.Out, "No dial yet: %s.\nGuide: %.2f s ± %.2f (one standard deviation), %s.\nFor a table anyway, give your own estimate: --et and --sd.\n",
-		why, est.ET, est.SD, est.Basis)
+	w := o.s.width()
+	fmt.Fprintln(o.s.Out, prep.Wrap(fmt.Sprintf("No dial yet: %s.", why), w, "  "))
+	fmt.Fprintln(o.s.Out, prep.Wrap(fmt.Sprintf("Guide: %.2f s ± %.2f (one standard deviation), %s.", est.ET, est.SD, est.Basis), w, "  "))
+	fmt.Fprintln(o.s.Out, "For a table anyway, give your own estimate: --et and --sd.")
 	return leftOut
 }

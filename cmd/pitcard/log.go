@@ -119,7 +119,7 @@ func logAddRun(cmd *cobra.Command, o *logAddOptions) error {
 		return err
 	}
 	for _, w := range lp.Warnings {
-		fmt.Fprintln(o.s.Err, "pitcard: warning:", w)
+		o.s.warn(w)
 	}
 	p := lp.Pass
 	et, ft, _ := p.Finish()
@@ -257,14 +257,14 @@ nothing is written. 'pitcard log diff FILE' shows the same without writing.`,
 				return userErrf("%s has no passes to import", args[0])
 			}
 			if w := altimeterLooking(e, passes, args[0]); w != "" {
-				fmt.Fprintln(o.s.Err, "pitcard: warning:", w)
+				o.s.warn(w)
 			}
 			n, kept, err := e.SaveLogbook(passes, src.Extra...)
 			if err != nil {
 				return err
 			}
 			if kept != nil {
-				fmt.Fprintln(o.s.Err, "pitcard: warning:", kept)
+				o.s.warn(kept.Error())
 			}
 			fmt.Fprintf(o.s.Out, "Imported %s from %s", engine.Plural(len(passes), "pass"), args[0])
 			if merge.Same > 0 {

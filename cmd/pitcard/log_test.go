@@ -309,7 +309,7 @@ func TestImportWarnsOfAltimeterFigures(t *testing.T) {
 	src := filepath.Join(t.TempDir(), "season.csv")
 	writeFile(t, src, season(12)) // barometer 28.9x: too high for 4100 ft
 	_, errs, code := pitcard(t, "log", "import", "--dir", dir, src)
-	if code != 0 || !strings.Contains(errs, "12 rows have baro_inhg figures that look like sea-level") {
+	if code != 0 || !strings.Contains(strings.Join(strings.Fields(errs), " "), "12 rows have baro_inhg figures that look like sea-level") {
 		t.Errorf("exit %d: %s", code, errs)
 	}
 }

@@ -124,3 +124,9 @@ func withOut(cmd *cobra.Command, s *IOStreams) {
 		return err
 	}
 }
+
+// warn writes a warning to standard error, wrapped to the screen's width
+// like everything else pitcard prints.
+func (s *IOStreams) warn(msg string) {
+	fmt.Fprintln(s.Err, prep.Wrap("pitcard: warning: "+msg, s.width(), "  "))
+}

@@ -146,7 +146,7 @@ func predictRun(cmd *cobra.Command, o *predictOptions) error {
 		return err
 	}
 	for _, w := range n.Cond.Warnings {
-		fmt.Fprintln(o.s.Err, "pitcard: warning:", w)
+		o.s.warn(w)
 	}
 	if o.Format == "json" {
 		if err := writeJSON(o.s.Out, predictionJSON(n)); err != nil {

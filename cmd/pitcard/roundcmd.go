@@ -231,7 +231,7 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 		return err
 	}
 	if w := r.PressureWarning(elev); w != "" {
-		fmt.Fprintln(o.s.Err, "pitcard: warning:", w)
+		o.s.warn(w)
 	}
 	if rf.Lane, err = p.until("Lane (left or right)", rf.Lane, func(a string) error {
 		_, err := engine.ParseLane(a)
@@ -277,7 +277,7 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 	}
 	broken := err
 	for _, w := range warnings {
-		fmt.Fprintln(o.s.Err, "pitcard: warning:", w)
+		o.s.warn(w)
 	}
 	c := prep.Gather(in)
 	fmt.Fprintln(o.s.Out)

@@ -212,7 +212,7 @@ func rulesTryRun(cmd *cobra.Command, o *rulesTryOptions) error {
 		return err
 	}
 	for _, w := range warnings {
-		fmt.Fprintln(o.s.Err, "pitcard: warning:", w)
+		o.s.warn(w)
 	}
 	// The card cuts a rule's long texts and points here: show them whole.
 	in.Settings.RuleLimits.MaxText = math.MaxInt

@@ -3,6 +3,7 @@ package main
 import (
 	"bytes"
 	"encoding/json"
+	"fmt"
 	"os"
 	"path/filepath"
 	"regexp"
@@ -400,6 +401,24 @@ func TestOutputFitsTheWidth(t *testing.T) {
 				t.Fatalf("exit %d %s", code, errb.String())
 			}
 			plain := regexp.MustCompile("\x1b\\[[0-9;]*m").ReplaceAllString(out.String(), "")
+			if w, line := widest(plain); w > 80 {
+				t.Errorf("an 80-column terminal got a line of %d:\n%s", w, line)
+			}
+		})
+	} // the NO DIAL YET guide, a noisy forecast's note and warnings on
+	// standard error wrap too
+	sparse := t.TempDir()
+	mustRun(t, "init", filepath.Join(sparse, "ev"))
+	sparse = filepath.Join(sparse, "ev")
+	for i, temp := range []string{"70F", "90F", "66F", "88F"} {
+		mustRun(t, "weather", "add", "--dir", sparse, "--time", fmt.Sprintf("19:%02d", 10*i), "--temp", temp, "--baro", "28.9inHg", "--humidity", "40%")
+	}
+	for _, args := range [][]string{{"dial"}, {"weather", "forecast", "--at", "20:20"}, {"card", "--round", "E1", "--at", "23:50"}} {
+		t.Run(strings.Join(args, " ")+" (sparse)", func(t *testing.T) {
+			var out, errb bytes.Buffer
+			s := &IOStreams{In: strings.NewReader(""), Out: &out, Err: &errb, Now: func() time.Time { return fixedNow }, Terminal: true, Width: 80}
+			run(append(args, "--dir", sparse), s)
+			plain := regexp.MustCompile("\x1b\\[[0-9;]*m").ReplaceAllString(out.String()+errb.String(), "")
 			if w, line := widest(plain); w > 80 {
 				t.Errorf("an 80-column terminal got a line of %d:\n%s", w, line)
 			}

@@ -11,6 +11,7 @@ import (
 	"pitcard/colmap"
 	"pitcard/engine"
 	"pitcard/event"
+	"pitcard/prep"
 	"pitcard/weather"
 )
 
@@ -109,7 +110,7 @@ func weatherAddRun(cmd *cobra.Command, o *weatherAddOptions) error {
 		return err
 	}
 	for _, w := range added.Warnings {
-		fmt.Fprintln(o.s.Err, "pitcard: warning:", w)
+		o.s.warn(w)
 	}
 	r := added.Reading
 	a := r.Derive(added.Elevation)
@@ -330,7 +331,7 @@ func weatherForecastRun(cmd *cobra.Command, o *weatherForecastOptions) error {
 		fmt.Fprintf(o.s.Out, "Density altitude ± %s (one standard error).\n", f.DAError.FormatDensityAltitude(e.Settings.Units.Length))
 	}
 	for _, n := range f.Notes {
-		fmt.Fprintln(o.s.Out, "- "+n)
+		fmt.Fprintln(o.s.Out, prep.Wrap("- "+n, o.s.width(), "  "))
 	}
 	return nil
 }
