@@ -340,6 +340,10 @@ func (e *Folder) AppendReading(r weather.Reading, elev weather.Length, replace b
 	}
 	defer unlock()
 	log, err := e.WeatherLog(elev)
+	if bad := new(weather.BadReadings); errors.As(err, &bad) {
+		// Writing the log back would drop the rows that cannot be read.
+		return 0, fmt.Errorf("%w\nnothing was written: correct or delete the row(s) named, then add the reading again", err)
+	}
 	if err != nil {
 		return 0, err
 	}

@@ -353,6 +353,13 @@ func (e *Folder) GatherRound(r RoundRequest, now time.Time) (prep.Input, []strin
 		return in, nil, err
 	}
 	log, err := e.WeatherLog(elev)
+	var badRows *weather.BadReadings
+	if errors.As(err, &badRows) {
+		// Rows of weather.csv that cannot be read are named; the rest of
+		// the log is used, and the command exits 2, as for the logbook.
+		broken = append(broken, err)
+		err = nil
+	}
 	if err != nil {
 		// A corrupt weather.csv costs the card nothing when the flags give
 		// a whole reading: the card prints from them and names the bad

@@ -78,6 +78,7 @@ func ReadLog(r io.Reader, name string, elev Length, loc *time.Location) ([]Readi
 		return nil, err
 	}
 	var out []Reading
+	bad := &BadReadings{File: name}
 	for {
 		rec, err := cr.Read()
 		if errors.Is(err, io.EOF) {
@@ -88,25 +89,59 @@ func ReadLog(r io.Reader, name string, elev Length, loc *time.Location) ([]Readi
 		}
 		line, _ := cr.FieldPos(0)
 		if ie := RepeatedHeader(rec, header, name, line); ie != nil {
-			return nil, ie
+			bad.Rows = append(bad.Rows, ie)
+			continue
 		}
 		if len(rec) != len(header) {
-			return nil, &InputError{File: name, Line: line, Field: "row",
-				Reason: fmt.Sprintf("has %d fields, the header has %d", len(rec), len(header))}
+			bad.Rows = append(bad.Rows, &InputError{File: name, Line: line, Field: "row",
+				Reason: fmt.Sprintf("has %d fields, the header has %d", len(rec), len(header))})
+			continue
 		}
 		rd, err := logRow(rec, col, elev, loc)
 		if err != nil {
 			var ie *InputError
-			if errors.As(err, &ie) {
-				return nil, ie.At(name, line)
+			if !errors.As(err, &ie) {
+				return nil, err
 			}
-			return nil, err
+			bad.Rows = append(bad.Rows, ie.At(name, line))
+			continue
 		}
 		out = append(out, rd)
 	}
 	sort.SliceStable(out, func(i, j int) bool { return out[i].Time.Before(out[j].Time) })
+	if len(bad.Rows) > 0 {
+		bad.Good = len(out)
+		return out, bad
+	}
 	return out, nil
 }
+
+// BadReadings are the rows of a weather log that could not be read, each
+// with its file, line, field and reason. ReadLog returns it beside the rows
+// that could be: a command that only reads (the card, the list) uses those
+// and says what was left out; one that writes the log refuses, so no row
+// is lost.
+type BadReadings struct {
+	File string
+	Rows []error
+	Good int // the readings that were read
+}
+
+func (b *BadReadings) Error() string {
+	var s strings.Builder
+	fmt.Fprintf(&s, "%s: %d row(s) cannot be read, left out (the other %d readings are used):", b.File, len(b.Rows), b.Good)
+	for i, r := range b.Rows {
+		if i == 10 {
+			fmt.Fprintf(&s, "\n  ... and %d more", len(b.Rows)-i)
+			break
+		}
+		s.WriteString("\n  " + r.Error())
+	}
+	return s.String()
+}
+
+// Unwrap gives the rows' errors (errors.As finds an InputError among them).
+func (b *BadReadings) Unwrap() []error { return b.Rows }
 
 // OpenCSV starts reading one of pitcard's CSV files: rows of any length
 // (checked against the header by the caller), '#' lines as comments. It

@@ -189,9 +189,10 @@ func TestBadInputTour(t *testing.T) {
 			{[]string{"card", "--dir", good, "--opponent-dial", "11,4"}, 2, []string{"--opponent-dial"}},
 			{[]string{"card", "--dir", good, "--at", "8pm"}, 2, []string{"--at"}},
 			{[]string{"card", "--dir", badCar}, 2, []string{"car.yaml", "weight_lb"}},
-			// a corrupt weather.csv with every reading flag given: the card prints from the flags, says the log could not be read, exits 2
-			{with([]string{"card", "--dir", badWeather, "--round", "3", "--lane", "left"}, reading...), 2, []string{"POST THIS", "weather.csv line 3", "the card's air is the reading flags"}},
-			{[]string{"card", "--dir", badWeather, "--round", "3", "--lane", "left", "--temp", "85F"}, 2, []string{"weather.csv line 3"}},
+			// a bad weather.csv row costs that row: the card prints from the rest (and the flags), names it, exits 2
+			{with([]string{"card", "--dir", badWeather, "--round", "3", "--lane", "left"}, reading...), 2, []string{"POST THIS", "weather.csv line 3", "1 row(s) cannot be read, left out"}},
+			{[]string{"card", "--dir", badWeather, "--round", "3", "--lane", "left", "--temp", "85F"}, 2, []string{"POST THIS", "weather.csv line 3"}},
+			{[]string{"weather", "add", "--dir", badWeather, "--temp", "85F", "--baro", "27.6inHg", "--humidity", "30%"}, 2, []string{"weather.csv line 3", "nothing was written"}},
 			{[]string{"card", "--dir", badTrack}, 2, []string{"track.yaml"}},
 			{[]string{"card", "--dir", trackKey}, 2, []string{"track.yaml line", "\"surface\" is not a key of this file", "elevation_ft, heading_deg, name, prep"}},
 			{[]string{"card", "--dir", badLane}, 2, []string{"schedule.yaml line 9", "lane \"center\"", "left or right"}},

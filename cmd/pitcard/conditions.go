@@ -58,6 +58,11 @@ func (c *conditionFlags) resolve(e *eventFolder, now time.Time) (conditions, err
 	var base *weather.Reading
 	if c.Latest || c.At != "" || (e.Demo && !c.Given()) {
 		log, err := e.WeatherLog(out.Elevation)
+		var bad *weather.BadReadings
+		if errors.As(err, &bad) { // the good rows are the air; the bad ones named
+			out.Warnings = append(out.Warnings, err.Error())
+			err = nil
+		}
 		if err != nil {
 			return out, err
 		}

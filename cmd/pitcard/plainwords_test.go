@@ -113,3 +113,28 @@ func TestNoControlCodesFromOutside(t *testing.T) {
 		}
 	}
 }
+
+// One bad row in weather.csv costs that row: the card prints from the rest
+// and exits 2 naming it, the list lists the rest, and a new reading is
+// refused with nothing written (writing the log back would drop the row).
+func TestABadWeatherRowCostsOnlyItself(t *testing.T) {
+	dir := demoCopy(t)
+	path := filepath.Join(dir, "weather.csv")
+	data, _ := os.ReadFile(path)
+	data = append(data, "2026-06-13,20:35:00,abc,27.6,station,40,,,,90,\n"...)
+	if err := os.WriteFile(path, data, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	out, errs, code := pitcard(t, "card", "--dir", dir)
+	if code != exitBadInput || !strings.Contains(out, "POST THIS") || !strings.Contains(errs, `weather.csv line 20: temp_f "abc"`) {
+		t.Errorf("card: exit %d\n%s", code, errs)
+	}
+	out, _, code = pitcard(t, "weather", "list", "--dir", dir)
+	if code != exitBadInput || !strings.Contains(out, "20:30") {
+		t.Errorf("list: exit %d\n%s", code, out)
+	}
+	_, errs, code = pitcard(t, "weather", "add", "--dir", dir, "--temp", "80F", "--baro", "27.6inHg", "--humidity", "30%")
+	if after, _ := os.ReadFile(path); code != exitBadInput || string(after) != string(data) || !strings.Contains(errs, "nothing was written") {
+		t.Errorf("add: exit %d\n%s", code, errs)
+	}
+}

@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"errors"
 	"fmt"
 	"time"
 
@@ -188,9 +189,22 @@ func weatherListRun(cmd *cobra.Command, o *weatherListOptions) error {
 		return userErrf("--map writes CSV: give --format csv with it")
 	}
 	e, elev, trackName, log, err := openWeather(cmd, o.g, o.Elev)
+	if bad := new(weather.BadReadings); errors.As(err, &bad) {
+		// The rows that read are listed; the others are named after them
+		// and the command exits 2. The CSV copy would drop them: refused.
+		if o.Format == "csv" {
+			return err
+		}
+		return errors.Join(weatherListPrint(o, e, elev, trackName, log), err)
+	}
 	if err != nil {
 		return err
 	}
+	return weatherListPrint(o, e, elev, trackName, log)
+}
+
+// weatherListPrint lists the readings in the format asked for.
+func weatherListPrint(o *weatherListOptions, e *eventFolder, elev weather.Length, trackName string, log []weather.Reading) error {
 	if o.Format == "csv" {
 		var buf bytes.Buffer
 		if err := weather.WriteLog(&buf, log); err != nil {
