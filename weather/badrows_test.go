@@ -34,3 +34,13 @@ func TestReadLogSetsBadRowsAside(t *testing.T) {
 		t.Errorf("errors.As finds no InputError at line 3: %v", ie)
 	}
 }
+
+// A station pressure refused at the track's elevation is said in the crew's
+// units (a metric crew reads hPa and metres, not inHg and feet).
+func TestImpossibleStationPressureInTheCrewsUnits(t *testing.T) {
+	r := Reading{Temp: Celsius(25), Baro: HPa(1019), BaroKind: StationPressure, RH: 0.3}
+	err := r.ValidateIn(Feet(5200), Metric)
+	if err == nil || !strings.Contains(err.Error(), "1019.0 hPa") || !strings.Contains(err.Error(), "1585 m") || strings.Contains(err.Error(), "inHg") {
+		t.Errorf("metric: %v", err)
+	}
+}

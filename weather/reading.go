@@ -3,6 +3,7 @@ package weather
 import (
 	"fmt"
 	"math"
+	"strconv"
 	"time"
 )
 
@@ -139,7 +140,7 @@ func (r Reading) ValidateIn(h Length, u Units) error {
 		}
 		return rangeErr("baro", p.In(u.Pressure), u.Pressure.String(), pres(StationRange[0]))
 	}
-	if err := r.checkStationAt(h); err != nil {
+	if err := r.checkStationAt(h, u); err != nil {
 		return err
 	}
 	if r.DewPointSet {
@@ -181,7 +182,8 @@ const StationMargin = 2500
 // h. Such a figure is an altimeter setting (reduced to sea level) entered as
 // station pressure; taken as station it gives a density altitude thousands of
 // feet too low.
-func (r Reading) checkStationAt(h Length) error {
+// u are the crew's units the figures are said in.
+func (r Reading) checkStationAt(h Length, u Units) error {
 	if r.BaroKind != StationPressure {
 		return nil
 	}
@@ -189,11 +191,15 @@ func (r Reading) checkStationAt(h Length) error {
 	if pa >= h.Feet()-StationMargin {
 		return nil
 	}
-	most := StationFromPressureAltitude(Feet(h.Feet() - StationMargin)).InHg()
-	return inputErr("baro", trimFloat(r.Baro.InHg())+" inHg",
-		"is impossible as station pressure at %s ft (at most about %.2f inHg there: it would be the pressure %.0f ft lower, "+
+	most := StationFromPressureAltitude(Feet(h.Feet() - StationMargin))
+	places := 2
+	if u.Pressure != UnitInHg {
+		places = 0
+	}
+	return inputErr("baro", r.Baro.Format(u.Pressure),
+		"is impossible as station pressure at %s (at most about %s there: it would be the pressure %s lower, "+
 			"beyond any sea-level pressure on record); an airport or app figure is an altimeter setting: say --baro-kind altimeter (baro_kind altimeter in a file)",
-		trimFloat(h.Feet()), most, h.Feet()-pa)
+		h.Format(u.Length), strconv.FormatFloat(most.In(u.Pressure), 'f', places, 64)+" "+u.Pressure.String(), Feet(h.Feet()-pa).Format(u.Length))
 }
 
 // PressureWarning returns a warning when the barometer figure looks like the

@@ -96,7 +96,7 @@ func TestBadInputTour(t *testing.T) {
 			{with([]string{"weather", "add", "--dir", good, "--wind", "90mph"}, reading...), 2, []string{"--wind", "0..60 mph"}},
 			{with([]string{"weather", "add", "--demo"}, reading...), 2, []string{"read-only"}},
 			// an airport figure typed as station pressure at 5,200 ft: refused, not a DA of 494 ft
-			{[]string{"weather", "add", "--dir", good, "--elevation", "5200ft", "--temp", "80F", "--baro", "30.10", "--humidity", "30"}, 2, []string{"--baro", "30.1 inHg", "impossible as station pressure at 5200 ft", "--baro-kind altimeter"}},
+			{[]string{"weather", "add", "--dir", good, "--elevation", "5200ft", "--temp", "80F", "--baro", "30.10", "--humidity", "30"}, 2, []string{"--baro", "30.10 inHg", "impossible as station pressure at 5200 ft", "--baro-kind altimeter"}},
 			{[]string{"air", "--dir", good, "--elevation", "5200ft", "--temp", "80F", "--baro", "30.10", "--humidity", "30"}, 2, []string{"--baro", "--baro-kind altimeter"}},
 		},
 		"weather list/forecast": {
