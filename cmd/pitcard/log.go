@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"pitcard/internal/printable"
+	"strconv"
 	"strings"
 
 	"github.com/jedib0t/go-pretty/v6/table"
@@ -341,9 +342,18 @@ func logListRun(cmd *cobra.Command, o *logListOptions) error {
 	}
 	u := e.Settings.Units
 	t := newTable(o.s, fmt.Sprintf("Logbook (%s), last %s", e.Name(event.LogbookFile), engine.Plural(len(passes), "pass")))
-	header := table.Row{"Date", "Time", "Round", "Lane", "Dial", "RT", "60 ft", "1/8", "mph", "1/4", "mph", "DA", "Notes"}
+	// Trap speeds and density altitude in the crew's units, the unit in
+	// the header.
+	spd, daHead := u.Speed.String(), "DA "+u.Length.String()
+	header := table.Row{"Date", "Time", "Round", "Lane", "Dial", "RT", "60 ft", "1/8", spd, "1/4", spd, daHead, "Notes"}
 	if o.Wide {
-		header = table.Row{"Date", "Time", "Round", "Lane", "Dial", "RT", "60 ft", "330", "1/8", "mph", "1000", "1/4", "mph", "DA", "Notes"}
+		header = table.Row{"Date", "Time", "Round", "Lane", "Dial", "RT", "60 ft", "330", "1/8", spd, "1000", "1/4", spd, daHead, "Notes"}
+	}
+	trap := func(d decimal.NullDecimal) string {
+		if !d.Valid || u.Speed == weather.UnitMPH {
+			return sec(d, 2)
+		}
+		return strconv.FormatFloat(weather.MPH(d.Decimal.InexactFloat64()).In(u.Speed), 'f', 2, 64)
 	}
 	// Narrower than the list with its notes (a terminal under 100 columns):
 	// the notes go under the table, each with its pass.
@@ -365,10 +375,10 @@ func logListRun(cmd *cobra.Command, o *logListOptions) error {
 			}
 			row = append(row, sec(p.ET[i], 3))
 			if ft == 660 {
-				row = append(row, sec(p.MPH660, 2))
+				row = append(row, trap(p.MPH660))
 			}
 		}
-		row = append(row, sec(p.MPH1320, 2), strings.TrimSuffix(da, " ft"))
+		row = append(row, trap(p.MPH1320), strings.TrimSuffix(da, " "+u.Length.String()))
 		if !notesBelow {
 			row = append(row, printable.Line(p.Notes))
 		} else if p.Notes != "" {

@@ -138,3 +138,13 @@ func TestABadWeatherRowCostsOnlyItself(t *testing.T) {
 		t.Errorf("add: exit %d\n%s", code, errs)
 	}
 }
+
+// A metric crew's logbook list speaks km/h and meters (it printed mph).
+func TestMetricLogList(t *testing.T) {
+	dir := demoCopy(t)
+	editFile(t, dir, "pitcard.yaml", func(s string) string { return strings.Replace(s, "units: imperial", "units: metric", 1) })
+	out := mustRun(t, "log", "list", "--dir", dir, "--last", "3")
+	if !strings.Contains(out, "km/h") || !strings.Contains(out, "DA m") || strings.Contains(out, "mph") {
+		t.Errorf("metric log list:\n%s", out)
+	}
+}
