@@ -103,6 +103,8 @@ type Error struct {
 	File string
 	Line int // 0 when unknown
 	Msg  string
+	// timedOut: the call ran out of time (tried again with more, once).
+	timedOut bool
 }
 
 func (e *Error) Error() string {
@@ -666,8 +668,29 @@ func (s *sandbox) proxyOf(d *lua.LTable, name, hint string) *lua.LTable {
 // time budget that the VM checks at every instruction, and a watchdog that
 // cancels it when the heap grows past the memory budget. A call stuck inside
 // one library function past the budget and a grace period is abandoned.
+//
+// A call that runs out of time is tried once more with RetryBudget times the
+// budget: the budget is wall time, and a busy laptop (the pit page serving
+// phones, a fit running) can starve a three-line rule past 200 ms, which
+// would fail a check and stop the dial for nothing. An endless loop is
+// still stopped, after (1 + RetryBudget) budgets.
 func (s *sandbox) call(f func() error) *Error {
-	ctx, cancel := context.WithTimeout(context.Background(), s.limits.Time)
+	err := s.callWithin(f, s.limits.Time)
+	if err != nil && err.timedOut && !s.abandoned {
+		err = s.callWithin(f, RetryBudget*s.limits.Time)
+		if err != nil && err.timedOut {
+			err.Msg = fmt.Sprintf("stopped: ran longer than the %v a rule call may take, and again given %v (an endless loop?)", s.limits.Time, RetryBudget*s.limits.Time)
+		}
+	}
+	return err
+}
+
+// RetryBudget is how many budgets a call that ran out of time is given on
+// its second try.
+const RetryBudget = 3
+
+func (s *sandbox) callWithin(f func() error, budget time.Duration) *Error {
+	ctx, cancel := context.WithTimeout(context.Background(), budget)
 	defer cancel()
 	s.L.SetContext(ctx)
 	done := make(chan error, 1)
@@ -682,7 +705,7 @@ func (s *sandbox) call(f func() error) *Error {
 	}()
 	tick := time.NewTicker(time.Millisecond)
 	defer tick.Stop()
-	grace := time.NewTimer(s.limits.Time + 300*time.Millisecond)
+	grace := time.NewTimer(budget + 300*time.Millisecond)
 	defer grace.Stop()
 	for {
 		select {
@@ -705,7 +728,7 @@ func (s *sandbox) call(f func() error) *Error {
 			}
 		case <-grace.C:
 			s.abandoned = true
-			return &Error{File: s.rule.File, Msg: fmt.Sprintf("stopped: still busy inside one library call 300ms after its %v ran out (a huge string or pattern search?); abandoned", s.limits.Time)}
+			return &Error{File: s.rule.File, Msg: fmt.Sprintf("stopped: still busy inside one library call 300ms after its %v ran out (a huge string or pattern search?); abandoned", budget)}
 		}
 	}
 }
@@ -743,6 +766,7 @@ func (s *sandbox) locate(err error, ctx context.Context) *Error {
 		msg = fmt.Sprintf("stopped: used more than the %d MiB of memory a rule call may use", s.limits.Memory>>20)
 	case errors.Is(ctx.Err(), context.DeadlineExceeded):
 		msg = fmt.Sprintf("stopped: ran longer than the %v a rule call may take (an endless loop?)", s.limits.Time)
+		e.timedOut = true
 	case strings.Contains(msg, "stack overflow"):
 		msg = fmt.Sprintf("stopped: calls nested deeper than %d (endless recursion?)", s.limits.CallDepth)
 	case strings.Contains(msg, "registry overflow"):

@@ -33,7 +33,7 @@ func runSrc(t *testing.T, src string) Result {
 }
 
 // Hostile rules: each is stopped with a clear error naming the file (and the
-// line where there is one) within 1 s, and the process stays under 512 MiB.
+// line where there is one) within 3 s (an endless loop has its budget twice, the second three times longer), and the process stays under 512 MiB.
 func TestHostileRules(t *testing.T) {
 	cases := []struct {
 		name, src, want string
@@ -102,7 +102,7 @@ func TestHostileRules(t *testing.T) {
 		if !strings.Contains(msg, tc.want) || !strings.HasPrefix(msg, "rules/t.lua") {
 			t.Errorf("%s: error %q, want it to name rules/t.lua and contain %q", tc.name, msg, tc.want)
 		}
-		if took > time.Second {
+		if took > 3*time.Second { // an endless loop gets (1 + RetryBudget) budgets; generous for a loaded machine
 			t.Errorf("%s: took %v to stop", tc.name, took)
 		}
 		if len(res.Checks) == 0 || res.Checks[0].Status != Fail {
