@@ -53,17 +53,17 @@ var cardHTML = template.Must(template.New("card").Funcs(template.FuncMap{
 <style>
 @page { size: auto; margin: 8mm; }
 * { box-sizing: border-box; }
-body { font: 9.5px/1.3 "DejaVu Sans", "Helvetica Neue", Arial, sans-serif; color: #111; margin: 0 auto; max-width: 194mm; }
+body { font: 9px/1.3 "DejaVu Sans", "Helvetica Neue", Arial, sans-serif; color: #111; margin: 0 auto; max-width: 194mm; }
 h1 { font-size: 16px; margin: 0; }
 .sub { color: #333; margin: 1px 0 4px; }
 .top { display: flex; gap: 8px; align-items: stretch; }
-.dial { border: 3px solid #111; padding: 4px 10px; text-align: center; min-width: 52mm; }
+.dial { border: 3px solid #111; padding: 4px 10px; text-align: center; min-width: 52mm; flex: 0 1 98mm; }
 .dial .label { font-size: 10px; font-weight: bold; }
 .dial .num { font-size: 44px; font-weight: bold; line-height: 1; }
 .dial ul { text-align: left; margin: 3px 0 0; padding-left: 12px; }
 .alert { color: #a00; font-weight: bold; }
 .dial .stop { color: #a00; font-weight: bold; }
-.dial p.stop { font-size: 12px; text-align: left; margin: 2px 0 4px; }
+.dial p.stop { font-size: 10.5px; text-align: left; margin: 1px 0 3px; }
 .grid { display: grid; grid-template-columns: 1fr 1fr; gap: 4px 10px; margin-top: 4px; }
 table { border-collapse: collapse; width: 100%; }
 caption { text-align: left; font-weight: bold; font-size: 10.5px; padding: 2px 0; }

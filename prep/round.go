@@ -296,8 +296,8 @@ func crossCheck(p engine.Prediction, in Input) (engine.CrossCheck, bool, string)
 		if d < 0 {
 			dir = "quicker"
 		}
-		return cc, true, fmt.Sprintf("the model's %.3f s is %.3f s %s than the plain cross-check's %.3f s (%s), more than the %.2f s allowed (setting cross_check_max_s): the model may be reaching past what the logbook has seen (a track or air unlike any logged); look again before dialing on it",
-			model, math.Abs(d), dir, cc.ET, cc.Basis, limit)
+		return cc, true, fmt.Sprintf("the model's %.3f s is %.3f s %s than the cross-check's %.3f s (the latest %s carried by the air alone), past the %.2f s allowed (cross_check_max_s): the model may be reaching past what the logbook has seen; look again before dialing on it",
+			model, math.Abs(d), dir, cc.ET, engine.Plural(len(cc.Passes), "pass"), limit)
 	}
 	return cc, true, ""
 }

@@ -159,8 +159,8 @@ func newView(c Card) view {
 			v.DialLines = append(v.DialLines, line)
 		}
 		if c.HasCross && c.CrossFlag == "" {
-			v.DialLines = append(v.DialLines, fmt.Sprintf("cross-check %.3f s: %s; the model's %.3f s agrees within %.2f s",
-				c.Cross.ET, c.Cross.Basis, c.Prediction.Finish().ET, crossLimit(in.Settings)))
+			v.DialLines = append(v.DialLines, fmt.Sprintf("cross-check %.3f s, the latest %s carried by the air alone: the model agrees within %.2f s",
+				c.Cross.ET, engine.Plural(len(c.Cross.Passes), "pass"), crossLimit(in.Settings)))
 		}
 	}
 	v.DialAlert = c.AdjustFlag

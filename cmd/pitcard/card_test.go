@@ -138,6 +138,26 @@ func TestHTMLCardPrintsOnOnePage(t *testing.T) {
 	dir := t.TempDir()
 	html := filepath.Join(dir, "card.html")
 	mustRun(t, "card", "--demo", "--format", "html", "--out", html)
+	// The longest dial boxes print on one page too: a failed limit (STOP)
+	// and a model parted from its cross-check.
+	stop := demoCopy(t)
+	editFile(t, stop, "car.yaml", func(s string) string { return strings.Replace(s, "limit_et: 10.65", "limit_et: 11.50", 1) })
+	for name, args := range map[string][]string{"stop": {"card", "--dir", stop}, "hot": {"card", "--demo", "--track-temp", "160F"}} {
+		out, _, _ := pitcard(t, append(args, "--format", "html")...)
+		pdf := filepath.Join(dir, name+".pdf")
+		page := filepath.Join(dir, name+".html")
+		_ = os.WriteFile(page, []byte(out), 0o644)
+		cmd := exec.Command(chromium, "--headless", "--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run",
+			"--disable-background-networking", "--disable-component-update", "--disable-sync", "--no-pdf-header-footer",
+			"--user-data-dir="+filepath.Join(dir, "profile-"+name), "--print-to-pdf="+pdf, "file://"+page)
+		if out, err := cmd.CombinedOutput(); err != nil {
+			t.Fatalf("chromium: %v\n%s", err, out)
+		}
+		info, err := exec.Command("pdfinfo", pdf).CombinedOutput()
+		if !strings.Contains(string(info), "Pages:           1\n") {
+			t.Errorf("the %s card is not one page (%v):\n%s", name, err, info)
+		}
+	}
 	for _, paper := range []string{"letter", "a4"} {
 		page := filepath.Join(dir, "card-"+paper+".html")
 		data, _ := os.ReadFile(html)

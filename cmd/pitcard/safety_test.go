@@ -103,7 +103,7 @@ func TestHotTrackIsCrossChecked(t *testing.T) {
 	}
 	out := mustRun(t, "card", "--demo", "--track-temp", "160F")
 	box := strings.Join(strings.Fields(out[:strings.Index(out, "Air")]), " ")
-	if !strings.Contains(box, "CHECK: the model's") || !strings.Contains(box, "than the plain cross-check's") {
+	if !strings.Contains(box, "CHECK: the model's") || !strings.Contains(box, "than the cross-check's") {
 		t.Errorf("160 °F track, dial box:\n%s", box)
 	}
 	_ = json.Unmarshal([]byte(mustRun(t, "card", "--demo", "--track-temp", "160F", "--format", "json")), &j)
