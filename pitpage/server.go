@@ -128,6 +128,9 @@ func (s *Server) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 	h.Set("Referrer-Policy", "no-referrer")
 	h.Set("Cache-Control", "no-store")
 	h.Set("Cross-Origin-Opener-Policy", "same-origin")
+	if role, _ := s.roleOf(r); role != Nobody {
+		trust(r)
+	}
 	s.mux.ServeHTTP(w, r)
 }
 

@@ -123,9 +123,9 @@ func serveRun(cmd *cobra.Command, o *serveOptions) error {
 	}
 	fmt.Fprintln(o.s.Out, "A LAN page without encryption: keep the links to the crew. Ctrl-C stops it.")
 
-	hs := pitpage.HTTPServer(srv, pitpage.DefaultLimits)
+	hs, gl := pitpage.HTTPServer(srv, ln, pitpage.DefaultLimits)
 	errc := make(chan error, 1)
-	go func() { errc <- hs.Serve(pitpage.LimitListener(ln, pitpage.DefaultLimits.MaxConns)) }()
+	go func() { errc <- hs.Serve(gl) }()
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
 	defer stop()
 	stopped := o.s.Stop
