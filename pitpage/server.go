@@ -21,6 +21,7 @@ import (
 	"html/template"
 	"io"
 	"io/fs"
+	"net"
 	"net/http"
 	"net/url"
 	"os"
@@ -31,6 +32,7 @@ import (
 
 	"pitcard/engine"
 	"pitcard/event"
+	"pitcard/internal/printable"
 	"pitcard/prep"
 )
 
@@ -68,6 +70,9 @@ type Server struct {
 	pages  map[string]*template.Template
 	denied *template.Template
 	logMu  sync.Mutex
+	// refusals are the refused requests being counted, by client address
+	// (logMu held).
+	refusals map[string]*refusalGroup
 
 	cards memo[gathered]
 	fits  memo[fitted]
@@ -189,7 +194,7 @@ func (s *Server) writer(h func(*request)) http.HandlerFunc {
 		if err := r.ParseForm(); err != nil {
 			var tooBig *http.MaxBytesError
 			if errors.As(err, &tooBig) {
-				s.logf("refused a %d-byte form from %s (limit %d)", r.ContentLength, r.RemoteAddr, MaxBody)
+				s.logRefusal(r, fmt.Sprintf("a %d-byte form from %s (limit %d)", r.ContentLength, r.RemoteAddr, MaxBody))
 				http.Error(w, fmt.Sprintf("Nothing was written: the form is larger than %d KiB.", MaxBody>>10), http.StatusRequestEntityTooLarge)
 				return
 			}
@@ -239,7 +244,7 @@ func (s *Server) open(w http.ResponseWriter, r *http.Request, role Role, tok str
 }
 
 func (s *Server) deny(w http.ResponseWriter, r *http.Request, why string) {
-	s.logf("refused %s %s from %s: %s", r.Method, r.URL.Path, r.RemoteAddr, why)
+	s.logRefusal(r, fmt.Sprintf("%s %s from %s: %s", r.Method, r.URL.EscapedPath(), r.RemoteAddr, why))
 	w.Header().Set("Content-Type", "text/html; charset=utf-8")
 	w.WriteHeader(http.StatusForbidden)
 	_ = s.denied.ExecuteTemplate(w, "denied", why)
@@ -251,7 +256,71 @@ func (s *Server) logf(format string, a ...any) {
 	}
 	s.logMu.Lock()
 	defer s.logMu.Unlock()
-	fmt.Fprintf(s.cfg.Log, "%s %s\n", s.cfg.Now().Format("15:04:05"), fmt.Sprintf(format, a...))
+	s.writeLog(fmt.Sprintf(format, a...))
+}
+
+// writeLog writes one line to the log, logMu held. A path, a header or a
+// field a request sent is in it: printable.Line keeps its escape sequences
+// from reaching the terminal and its line breaks from forging lines.
+func (s *Server) writeLog(line string) {
+	fmt.Fprintf(s.cfg.Log, "%s %s\n", s.cfg.Now().Format("15:04:05"), printable.Line(line))
+}
+
+// refusalWindow is how long the refusals of one client address are counted
+// into one line: a script trying tokens cannot flood the crew's terminal.
+const refusalWindow = time.Minute
+
+// refusalGroup is the refusals of one client address since the first was
+// logged.
+type refusalGroup struct {
+	since time.Time
+	more  int    // refused after the first, not logged one by one
+	last  string // the latest of them
+}
+
+// logRefusal logs a refused request: the first from its address in a
+// minute as it is, the others as one count when the minute is over (at the
+// address's next refusal, or by a timer when none comes).
+func (s *Server) logRefusal(r *http.Request, what string) {
+	if s.cfg.Log == nil {
+		return
+	}
+	addr := r.RemoteAddr
+	if h, _, err := net.SplitHostPort(addr); err == nil {
+		addr = h
+	}
+	now := s.cfg.Now()
+	s.logMu.Lock()
+	defer s.logMu.Unlock()
+	if g := s.refusals[addr]; g != nil {
+		if now.Sub(g.since) < refusalWindow {
+			g.more++
+			g.last = what
+			return
+		}
+		s.endRefusals(addr, g)
+	}
+	if s.refusals == nil {
+		s.refusals = map[string]*refusalGroup{}
+	}
+	g := &refusalGroup{since: now}
+	s.refusals[addr] = g
+	s.writeLog("refused " + what)
+	time.AfterFunc(refusalWindow, func() {
+		s.logMu.Lock()
+		defer s.logMu.Unlock()
+		if s.refusals[addr] == g {
+			s.endRefusals(addr, g)
+		}
+	})
+}
+
+// endRefusals logs the count of g's refusals, logMu held.
+func (s *Server) endRefusals(addr string, g *refusalGroup) {
+	delete(s.refusals, addr)
+	if g.more > 0 {
+		s.writeLog(fmt.Sprintf("refused %d more requests from %s since %s (the last: %s)", g.more, addr, g.since.Format("15:04:05"), g.last))
+	}
 }
 
 // join takes the token from a link once and keeps it as a cookie.
