@@ -156,7 +156,7 @@ func TestManyPhonesAtOnceLoseNothing(t *testing.T) {
 				code, err = send("/slip", url.Values{"session": {"test"}, "lane": {"left"}, "rt": {".030"}, "et60": {"1.601"},
 					"et330": {"4.660"}, "et660": {fmt.Sprintf("%.3f", et*0.636)}, "mph660": {"94.10"}, "et1000": {fmt.Sprintf("%.3f", et*0.832)},
 					"et1320": {fmt.Sprintf("%.3f", et)}, "mph1320": {"117.70"}, "time": {when(m)}, "notes": {fmt.Sprintf("load %d", m)}})
-				if err != nil || code != http.StatusOK {
+				if err != nil || code != http.StatusSeeOther {
 					fail("slip %d: %d %v", m, code, err)
 				}
 				time.Sleep(pace)

@@ -57,3 +57,39 @@ func TestRepeatedRefusalsAreGrouped(t *testing.T) {
 		t.Errorf("the log after a minute:\n%s", f.log.String())
 	}
 }
+
+// The slip's post answers with a redirect (a reload shows the result, it
+// does not post again), and the very same form posted again within minutes
+// (a reload of an old page, a second tap) is refused in words.
+func TestASlipIsLoggedOnceWhateverIsReloaded(t *testing.T) {
+	f := newFixture(t)
+	v := slip()
+	v.Del("time") // the pass at the time it is posted: nothing else tells a second post from a second pass
+	w := f.post("/slip", v)
+	loc := w.Header().Get("Location")
+	if w.Code != http.StatusSeeOther || !strings.HasPrefix(loc, "/slip?") {
+		t.Fatalf("a slip's post: %d to %q, want 303 to its result", w.Code, loc)
+	}
+	page := f.do("GET", loc, testTokens.Crew, nil).Body.String()
+	if !strings.Contains(page, "Logged round 3, left lane, at 20:31: 11.431 s") || strings.Contains(page, `name="csrf"`) {
+		t.Errorf("the result page:\n%s", page)
+	}
+	if again := f.do("GET", loc, testTokens.Crew, nil).Body.String(); again != page {
+		t.Errorf("the result must read the same on a reload")
+	}
+	before := f.snapshot()
+	for _, later := range []time.Duration{time.Minute, 9 * time.Minute} {
+		f.srv.cfg.Now = func() time.Time { return demoNow.Add(later) }
+		w = f.post("/slip", v)
+		if body := w.Body.String(); w.Code != http.StatusUnprocessableEntity || !strings.Contains(body, "this same slip was logged at 20:31") {
+			t.Errorf("the same slip again %v later: %d\n%s", later, w.Code, body)
+		}
+	}
+	f.unchanged(before, "the same slip posted again")
+	// A second pass is another form: its own figures, or its time of day.
+	v.Set("time", "20:58")
+	f.srv.cfg.Now = func() time.Time { return demoNow.Add(27 * time.Minute) }
+	if w := f.post("/slip", v); w.Code != http.StatusSeeOther {
+		t.Errorf("the same figures with their own time: %d\n%s", w.Code, w.Body)
+	}
+}

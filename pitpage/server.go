@@ -76,6 +76,7 @@ type Server struct {
 
 	cards memo[gathered]
 	fits  memo[fitted]
+	slips slipLog
 }
 
 // New makes the pit page's handler.
