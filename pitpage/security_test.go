@@ -93,3 +93,73 @@ func TestASlipIsLoggedOnceWhateverIsReloaded(t *testing.T) {
 		t.Errorf("the same figures with their own time: %d\n%s", w.Code, w.Body)
 	}
 }
+
+// A form is taken only from the page's own origin: the same scheme and
+// host as the request, never "null" (a sandboxed frame, a data: page).
+func TestFormsComeFromThePagesOwnOrigin(t *testing.T) {
+	for _, c := range []struct {
+		origin string
+		code   int
+	}{
+		{"", http.StatusSeeOther}, // an older browser or a script: the cookie and CSRF token guard it
+		{"http://example.com", http.StatusSeeOther},
+		{"http://example.com:80", http.StatusSeeOther},
+		{"null", http.StatusForbidden},
+		{"https://example.com", http.StatusForbidden},
+		{"ftp://example.com", http.StatusForbidden},
+		{"http://example.com:8080", http.StatusForbidden},
+		{"http://evil.example", http.StatusForbidden},
+		{"http://example.com.evil.example", http.StatusForbidden},
+	} {
+		t.Run(c.origin, func(t *testing.T) {
+			f := newFixture(t)
+			before := f.snapshot()
+			form := url.Values{"temp": {"80"}, "baro": {"27.6"}, "humidity": {"40"}, "time": {"20:50"}, "csrf": {testTokens.CSRF(testTokens.Crew)}}
+			r := httptest.NewRequest("POST", "/reading", strings.NewReader(form.Encode()))
+			r.Header.Set("Content-Type", "application/x-www-form-urlencoded")
+			if c.origin != "" {
+				r.Header.Set("Origin", c.origin)
+			}
+			r.AddCookie(&http.Cookie{Name: CookieName, Value: testTokens.Crew})
+			w := httptest.NewRecorder()
+			f.srv.ServeHTTP(w, r)
+			if w.Code != c.code {
+				t.Errorf("Origin %q: %d, want %d", c.origin, w.Code, c.code)
+			}
+			if c.code == http.StatusForbidden {
+				f.unchanged(before, "a form from another origin")
+			}
+		})
+	}
+}
+
+// Only the names the page is served at are answered: a site that points its
+// own name at the laptop's address (DNS rebinding) gets nothing.
+func TestOnlyTheServedHostIsAnswered(t *testing.T) {
+	f := newFixture(t)
+	f.srv.cfg.Hosts = []string{"192.168.1.20:8080", "localhost:8080", "pit-laptop.local:8080"}
+	for _, c := range []struct {
+		host string
+		code int
+	}{
+		{"192.168.1.20:8080", http.StatusOK},
+		{"LOCALHOST:8080", http.StatusOK},
+		{"pit-laptop.local:8080", http.StatusOK},
+		{"10.0.0.7:8080", http.StatusOK}, // an address no other site can make a phone send: the laptop's on another network
+		{"[fe80::1]:8080", http.StatusOK},
+		{"evil.example:8080", http.StatusForbidden},
+		{"evil.example", http.StatusForbidden},
+		{"192.168.1.20:9999", http.StatusForbidden},
+		{"192.168.1.20", http.StatusForbidden},
+		{"", http.StatusForbidden},
+	} {
+		r := httptest.NewRequest("GET", "/", nil)
+		r.Host = c.host
+		r.AddCookie(&http.Cookie{Name: CookieName, Value: testTokens.Crew})
+		w := httptest.NewRecorder()
+		f.srv.ServeHTTP(w, r)
+		if w.Code != c.code {
+			t.Errorf("Host %q: %d, want %d", c.host, w.Code, c.code)
+		}
+	}
+}

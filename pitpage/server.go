@@ -61,6 +61,13 @@ type Config struct {
 	// Log, when set, hears every write and every refused request, one
 	// line each: the laptop's terminal shows who did what.
 	Log io.Writer
+	// Hosts are the host:port names the page is served at: the join
+	// link's, and the laptop's other names. A request for another name is
+	// refused, so a page of another site that points its own name at the
+	// laptop (DNS rebinding) reads and writes nothing; an IP address on one
+	// of their ports is always answered (no other site can make a phone ask
+	// for it). Empty: any Host is answered.
+	Hosts []string
 }
 
 // Server is the pit page's http.Handler.
@@ -134,6 +141,10 @@ func (s *Server) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 	h.Set("Referrer-Policy", "no-referrer")
 	h.Set("Cache-Control", "no-store")
 	h.Set("Cross-Origin-Opener-Policy", "same-origin")
+	if !s.knownHost(r.Host) {
+		s.deny(w, r, "This address is not the pit page's: open the crew's or the view link as 'pitcard serve' printed it.")
+		return
+	}
 	if role, _ := s.roleOf(r); role != Nobody {
 		trust(r)
 	}
@@ -185,11 +196,9 @@ func (s *Server) writer(h func(*request)) http.HandlerFunc {
 			s.deny(w, r, "Nothing was written: the view link only reads. Entries need the crew's link.")
 			return
 		}
-		if o := r.Header.Get("Origin"); o != "" && o != "null" {
-			if u, err := url.Parse(o); err != nil || u.Host != r.Host {
-				s.deny(w, r, "Nothing was written: the form came from another site ("+o+").")
-				return
-			}
+		if why := foreignOrigin(r); why != "" {
+			s.deny(w, r, "Nothing was written: "+why)
+			return
 		}
 		r.Body = http.MaxBytesReader(w, r.Body, MaxBody)
 		if err := r.ParseForm(); err != nil {
