@@ -299,7 +299,7 @@ func TestSecurityHeadersAndNothingFromOutside(t *testing.T) {
 		if !strings.Contains(csp, "default-src 'none'") || !strings.Contains(csp, "frame-ancestors 'none'") || strings.Contains(csp, "http") {
 			t.Errorf("%s: CSP %q", path, csp)
 		}
-		if h.Get("X-Content-Type-Options") != "nosniff" || h.Get("X-Frame-Options") != "DENY" || h.Get("Referrer-Policy") != "no-referrer" {
+		if h.Get("X-Content-Type-Options") != "nosniff" || h.Get("X-Frame-Options") != "DENY" || h.Get("Referrer-Policy") != "same-origin" {
 			t.Errorf("%s: headers %v", path, h)
 		}
 		if m := external.FindString(w.Body.String()); m != "" {
