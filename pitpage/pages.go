@@ -13,6 +13,7 @@ import (
 	"pitcard/engine"
 	"pitcard/event"
 	"pitcard/prep"
+	"pitcard/scripts"
 	"pitcard/weather"
 )
 
@@ -385,6 +386,9 @@ func (s *Server) postChecklist(q *request) {
 	v := values(q.r.PostForm)
 	ses, day, err := roundOf(v)
 	if err == nil {
+		err = s.roundsItems(q, ses, day, q.r.PostForm["tick"])
+	}
+	if err == nil {
 		err = q.folder.SetTicks(day, ses, q.r.PostForm["tick"], q.now)
 	}
 	if err != nil {
@@ -393,6 +397,34 @@ func (s *Server) postChecklist(q *request) {
 	}
 	s.logf("checklist of %s saved by the crew from %s: %d ticked", ses, q.r.RemoteAddr, len(q.r.PostForm["tick"]))
 	http.Redirect(q.w, q.r, "/?saved=checklist"+roundParam(ses.String())+"#checklist", http.StatusSeeOther)
+}
+
+// roundsItems checks that ticked are items to tick of ses's card, and day
+// its day: the form offers nothing else, so anything else was not sent by
+// the page.
+func (s *Server) roundsItems(q *request, ses engine.Session, day string, ticked []string) error {
+	c, _, err := s.gather(q, ses.String())
+	if err != nil {
+		return fmt.Errorf("%s has no card to tick: %w", ses.Long(), err)
+	}
+	if d := c.Input.Call.Format(weather.DateLayout); d != day {
+		return &weather.InputError{Field: "day", Value: day, Reason: fmt.Sprintf("is not the round's day: %s's card is for %s", ses.Long(), d)}
+	}
+	items := map[string]bool{}
+	var names []string
+	for _, ch := range c.Checks {
+		if ch.Status == scripts.Confirm {
+			items[ch.Label] = true
+			names = append(names, "“"+ch.Label+"”")
+		}
+	}
+	for _, t := range ticked {
+		if !items[t] {
+			return &weather.InputError{Field: "checklist item", Value: t, Reason: fmt.Sprintf("is not one of %s's items to tick (they are %s)",
+				ses.Long(), strings.Join(names, ", "))}
+		}
+	}
+	return nil
 }
 
 func (s *Server) postOpponent(q *request) {

@@ -163,3 +163,33 @@ func TestOnlyTheServedHostIsAnswered(t *testing.T) {
 		}
 	}
 }
+
+// The checklist takes only the round's own items to tick, on the round's
+// own day: a label the card does not offer, a rule's pass line or another
+// day is refused and nothing is written.
+func TestTheChecklistTakesOnlyTheRoundsItems(t *testing.T) {
+	f := newFixture(t)
+	for _, c := range []struct {
+		name       string
+		round, day string
+		ticks      []string
+		want       string
+	}{
+		{"a label of no item", "E3", "2026-06-13", []string{"Tire pressures set", "Open the hood at the line"}, `checklist item "Open the hood at the line" is not one of round 3's items to tick`},
+		{"a check the rules passed, not one to tick", "E3", "2026-06-13", []string{"Parachute"}, `checklist item "Parachute" is not one of round 3's items`},
+		{"another day", "E3", "2026-06-12", []string{"Tire pressures set"}, `day "2026-06-12" is not the round's day: round 3's card is for 2026-06-13`},
+		{"a day far off", "E3", "1999-01-01", nil, `day "1999-01-01" is not the round's day`},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			before := f.snapshot()
+			w := f.post("/checklist", url.Values{"round": {c.round}, "day": {c.day}, "tick": c.ticks})
+			if w.Code != http.StatusUnprocessableEntity || !strings.Contains(w.Body.String(), c.want) {
+				t.Errorf("%d %s, want 422 saying %q", w.Code, w.Body, c.want)
+			}
+			f.unchanged(before, c.name)
+		})
+	}
+	if w := f.post("/checklist", url.Values{"round": {"E3"}, "day": {"2026-06-13"}, "tick": {"Tire pressures set"}}); w.Code != http.StatusSeeOther {
+		t.Errorf("the round's own item: %d %s", w.Code, w.Body)
+	}
+}
