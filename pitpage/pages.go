@@ -392,7 +392,7 @@ func (s *Server) postChecklist(q *request) {
 		err = q.folder.SetTicks(day, ses, q.r.PostForm["tick"], q.now)
 	}
 	if err != nil {
-		http.Error(q.w, "Nothing was saved: "+err.Error(), http.StatusUnprocessableEntity)
+		http.Error(q.w, "Nothing was saved: "+forPhone(q.folder, err.Error()), http.StatusUnprocessableEntity)
 		return
 	}
 	s.logf("checklist of %s saved by the crew from %s: %d ticked", ses, q.r.RemoteAddr, len(q.r.PostForm["tick"]))

@@ -2,12 +2,17 @@ package pitpage
 
 import (
 	"fmt"
+	"net"
 	"net/http"
 	"net/http/httptest"
 	"net/url"
+	"os"
+	"path/filepath"
 	"strings"
 	"testing"
 	"time"
+
+	"pitcard/event"
 )
 
 // Whatever a request sends reaches the laptop's terminal as printable text
@@ -191,5 +196,62 @@ func TestTheChecklistTakesOnlyTheRoundsItems(t *testing.T) {
 	}
 	if w := f.post("/checklist", url.Values{"round": {"E3"}, "day": {"2026-06-13"}, "tick": {"Tire pressures set"}}); w.Code != http.StatusSeeOther {
 		t.Errorf("the round's own item: %d %s", w.Code, w.Body)
+	}
+}
+
+// timeoutBody is a form body whose connection timed out, as the server's
+// socket says it.
+type timeoutBody struct{}
+
+func (timeoutBody) Read([]byte) (int, error) {
+	return 0, &net.OpError{Op: "read", Net: "tcp", Source: &net.TCPAddr{IP: net.IPv4(127, 0, 0, 1), Port: 8080},
+		Addr: &net.TCPAddr{IP: net.IPv4(127, 0, 0, 1), Port: 44336}, Err: os.ErrDeadlineExceeded}
+}
+
+// A phone is told what happened in words, never the laptop's folder path
+// or a socket's addresses.
+func TestPhonesSeeNoPathsOrSockets(t *testing.T) {
+	f := newFixture(t)
+	abs, err := filepath.Abs(f.dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	leaks := func(name, body string, want ...string) {
+		t.Helper()
+		for _, bad := range []string{abs, f.dir, filepath.Dir(f.dir), "127.0.0.1", "tcp"} {
+			if strings.Contains(body, bad) {
+				t.Errorf("%s shows %q:\n%s", name, bad, body)
+			}
+		}
+		for _, w := range want {
+			if !strings.Contains(body, w) {
+				t.Errorf("%s must say %q:\n%s", name, w, body)
+			}
+		}
+	}
+	if w := f.post("/slip", slip()); w.Code != http.StatusSeeOther {
+		t.Fatal(w.Code, w.Body)
+	}
+	v := slip()
+	v.Set("notes", "again") // another form, the same pass: the logbook's own check
+	w := f.post("/slip", v)
+	leaks("the same pass twice", w.Body.String(), "already in logbook.csv at line")
+
+	r := httptest.NewRequest("POST", "/reading", timeoutBody{})
+	r.Header.Set("Content-Type", "application/x-www-form-urlencoded")
+	r.AddCookie(&http.Cookie{Name: CookieName, Value: testTokens.Crew})
+	rec := httptest.NewRecorder()
+	f.srv.ServeHTTP(rec, r)
+	leaks("a form whose connection timed out", rec.Body.String(), "Nothing was written", "in time")
+
+	// The schedule of another day: its warning names the file, not where it is.
+	f.srv.cfg.Now = func() time.Time { return demoNow.Add(24 * time.Hour) }
+	leaks("the card a day later", f.do("GET", "/", testTokens.Crew, nil).Body.String(), "schedule.yaml is for 2026-06-13, not today")
+
+	if err := os.WriteFile(filepath.Join(f.dir, event.SettingsFile), []byte("units: furlongs\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	for _, path := range []string{"/", "/weather", "/passes", "/slip", "/reading"} {
+		leaks("a broken pitcard.yaml on "+path, f.do("GET", path, testTokens.Crew, nil).Body.String(), "pitcard.yaml")
 	}
 }

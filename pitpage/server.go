@@ -211,7 +211,7 @@ func (s *Server) writer(h func(*request)) http.HandlerFunc {
 				http.Error(w, fmt.Sprintf("Nothing was written: the form is larger than %d KiB.", MaxBody>>10), http.StatusRequestEntityTooLarge)
 				return
 			}
-			http.Error(w, "Nothing was written: the form could not be read ("+err.Error()+").", http.StatusBadRequest)
+			http.Error(w, "Nothing was written: "+formReadWords(err), http.StatusBadRequest)
 			return
 		}
 		if len(r.PostForm) > MaxFields {
@@ -248,7 +248,7 @@ func (s *Server) open(w http.ResponseWriter, r *http.Request, role Role, tok str
 		if event.IsBadInput(err) {
 			status = http.StatusOK // the crew's to fix: said on the page
 		}
-		p := page{Title: "The event folder", Nav: "card", Error: "The event folder could not be opened: " + err.Error()}
+		p := page{Title: "The event folder", Nav: "card", Error: forPhone(nil, "The event folder could not be opened: "+err.Error())}
 		w.WriteHeader(status)
 		_ = s.pages["list"].ExecuteTemplate(w, "layout", p)
 		return nil
@@ -427,6 +427,7 @@ func (s *Server) render(q *request, name string, p page, status int) {
 	if q.role == Crew {
 		p.CSRF = s.cfg.Tokens.CSRF(q.token)
 	}
+	p = plainPage(q.folder, p)
 	var buf bytes.Buffer
 	if err := s.pages[name].ExecuteTemplate(&buf, "layout", p); err != nil {
 		http.Error(q.w, "rendering the page: "+err.Error(), http.StatusInternalServerError)
