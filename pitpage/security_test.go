@@ -255,3 +255,27 @@ func TestPhonesSeeNoPathsOrSockets(t *testing.T) {
 		leaks("a broken pitcard.yaml on "+path, f.do("GET", path, testTokens.Crew, nil).Body.String(), "pitcard.yaml")
 	}
 }
+
+// A note typed on a phone that begins like a formula is kept as text in
+// weather.csv and logbook.csv (a spreadsheet shows it, does not run it),
+// and the pages show it as typed.
+func TestNotesThatLookLikeFormulasStayText(t *testing.T) {
+	f := newFixture(t)
+	if w := f.post("/reading", url.Values{"temp": {"80"}, "baro": {"27.6"}, "humidity": {"40"}, "time": {"20:50"}, "notes": {"=1+2"}}); w.Code != http.StatusSeeOther {
+		t.Fatal(w.Code, w.Body)
+	}
+	v := slip()
+	v.Set("notes", "@SUM(A1:A2)")
+	if w := f.post("/slip", v); w.Code != http.StatusSeeOther {
+		t.Fatal(w.Code, w.Body)
+	}
+	if w := f.file(event.WeatherFile); !strings.Contains(w, ",'=1+2\n") {
+		t.Errorf("weather.csv must hold the note as text:\n%s", w)
+	}
+	if lb := f.file(event.LogbookFile); !strings.Contains(lb, ",'@SUM(A1:A2)\n") {
+		t.Errorf("logbook.csv must hold the note as text:\n%s", lb[len(lb)-300:])
+	}
+	if p := f.do("GET", "/passes", testTokens.Crew, nil).Body.String(); !strings.Contains(p, "E3 20:48 (@SUM(A1:A2))") {
+		t.Errorf("the passes page must show the note as typed")
+	}
+}
