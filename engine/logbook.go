@@ -13,6 +13,7 @@ import (
 
 	"github.com/shopspring/decimal"
 
+	"pitcard/internal/csvtext"
 	"pitcard/weather"
 )
 
@@ -251,7 +252,7 @@ func ReadLogbookRecent(r io.Reader, name string, loc *time.Location, keep int) (
 		if len(extra) > 0 {
 			p.Extra = map[string]string{}
 			for _, x := range extra {
-				p.Extra[x.Name] = rec[x.Index]
+				p.Extra[x.Name] = csvtext.Text(rec[x.Index])
 			}
 		}
 		lb.Passes = append(lb.Passes, p)
@@ -321,10 +322,13 @@ func (lb *Logbook) Write(w io.Writer) error {
 	for _, p := range lb.Passes {
 		v := passValues(p)
 		for i, h := range header {
-			if at[i] >= 0 {
+			switch {
+			case at[i] < 0: // a crew's column: text
+				rec[i] = csvtext.Cell(p.Extra[h])
+			case textColumns[fieldColumns[at[i]]]:
+				rec[i] = csvtext.Cell(v[at[i]])
+			default:
 				rec[i] = v[at[i]]
-			} else {
-				rec[i] = p.Extra[h]
 			}
 		}
 		cw.Write(rec)
@@ -388,7 +392,11 @@ func newRowReader(col map[string]weather.Column) *rowReader {
 
 func (r *rowReader) pass(rec []string, loc *time.Location) (Pass, error) {
 	for i, c := range r.canon {
-		r.f.Values[c] = strings.TrimSpace(rec[r.index[i]])
+		v := strings.TrimSpace(rec[r.index[i]])
+		if textColumns[c] {
+			v = csvtext.Text(v)
+		}
+		r.f.Values[c] = v
 	}
 	return ParsePass(r.f, loc)
 }
@@ -606,13 +614,25 @@ func WriteLogbook(w io.Writer, passes []Pass) error {
 		return err
 	}
 	for _, p := range passes {
-		cw.Write(PassRecord(p))
+		rec := PassRecord(p)
+		for i, c := range LogbookColumns {
+			if textColumns[c] {
+				rec[i] = csvtext.Cell(rec[i])
+			}
+		}
+		cw.Write(rec)
 	}
 	cw.Flush()
 	return cw.Error()
 }
 
-// PassRecord is p as a row of logbook.csv's columns (LogbookColumns).
+// textColumns are logbook.csv's columns of free text (a crew's own columns
+// are too): written through csvtext, so a note that begins with = opens in a
+// spreadsheet as text, not as a formula, and reads back as typed.
+var textColumns = map[string]bool{"track": true, "notes": true}
+
+// PassRecord is p as a row of logbook.csv's columns (LogbookColumns), its
+// text as typed.
 func PassRecord(p Pass) []string {
 	return passValues(p)[:len(LogbookColumns)]
 }

@@ -1,10 +1,12 @@
 package pitpage
 
 import (
+	"bufio"
 	"fmt"
 	"io"
 	"net"
 	"net/http"
+	"net/http/httptrace"
 	"net/url"
 	"os"
 	"sort"
@@ -24,8 +26,8 @@ func serveLoopback(t *testing.T, f *fixture, lim Limits) string {
 	if err != nil {
 		t.Fatal(err)
 	}
-	hs := HTTPServer(f.srv, lim)
-	go func() { _ = hs.Serve(LimitListener(ln, lim.MaxConns)) }()
+	hs, gl := HTTPServer(f.srv, ln, lim)
+	go func() { _ = hs.Serve(gl) }()
 	t.Cleanup(func() { _ = hs.Close() })
 	return "http://" + ln.Addr().String()
 }
@@ -154,7 +156,7 @@ func TestManyPhonesAtOnceLoseNothing(t *testing.T) {
 				code, err = send("/slip", url.Values{"session": {"test"}, "lane": {"left"}, "rt": {".030"}, "et60": {"1.601"},
 					"et330": {"4.660"}, "et660": {fmt.Sprintf("%.3f", et*0.636)}, "mph660": {"94.10"}, "et1000": {fmt.Sprintf("%.3f", et*0.832)},
 					"et1320": {fmt.Sprintf("%.3f", et)}, "mph1320": {"117.70"}, "time": {when(m)}, "notes": {fmt.Sprintf("load %d", m)}})
-				if err != nil || code != http.StatusOK {
+				if err != nil || code != http.StatusSeeOther {
 					fail("slip %d: %d %v", m, code, err)
 				}
 				time.Sleep(pace)
@@ -243,4 +245,103 @@ func TestManyPhonesAtOnceLoseNothing(t *testing.T) {
 	q := func(p float64) time.Duration { return lat[int(p*float64(len(lat)-1))] }
 	t.Logf("%d writers × (%d readings + %d slips) and the laptop's %d of each, %v between posts, in %v with %d readers: %d cards, p50 %v, p99 %v, max %v",
 		writers, each, each, laptop, pace, took.Round(time.Millisecond), readers, len(lat), q(0.5).Round(time.Millisecond), q(0.99).Round(time.Millisecond), lat[len(lat)-1].Round(time.Millisecond))
+}
+
+// A stranger's idle keep-alive connections: each fetches the style (no
+// token needed) and then sits. A crew phone asking for the card after them
+// must be answered within a second, and a phone's own keep-alive connection
+// is not the one closed to make room.
+func TestIdleConnectionsDoNotLockOutAPhone(t *testing.T) {
+	for _, tc := range []struct {
+		name      string
+		strangers int
+		perClient int
+	}{
+		{"100 idle connections, no limit per address", 100, 0},
+		{"100 idle connections, the default limit per address", 100, DefaultLimits.PerClient},
+		{"64 idle connections, the default limit per address", 64, DefaultLimits.PerClient},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			f := newFixture(t)
+			f.do("GET", "/", testTokens.Crew, nil) // the card made once, as a phone had asked before
+			lim := DefaultLimits
+			lim.PerClient = tc.perClient
+			base := serveLoopback(t, f, lim)
+			addr := strings.TrimPrefix(base, "http://")
+			phone := &http.Client{Timeout: time.Second, Transport: &http.Transport{}}
+			card := func() (reused bool, err error) {
+				req, _ := http.NewRequest("GET", base+"/", nil)
+				req.AddCookie(&http.Cookie{Name: CookieName, Value: testTokens.Crew})
+				req = req.WithContext(httptrace.WithClientTrace(req.Context(), &httptrace.ClientTrace{
+					GotConn: func(i httptrace.GotConnInfo) { reused = i.Reused }}))
+				resp, err := phone.Do(req)
+				if err != nil {
+					return false, err
+				}
+				defer resp.Body.Close()
+				_, _ = io.Copy(io.Discard, resp.Body)
+				if resp.StatusCode != 200 {
+					return reused, fmt.Errorf("card: %d", resp.StatusCode)
+				}
+				return reused, nil
+			}
+			if _, err := card(); err != nil {
+				t.Fatalf("before the strangers: %v", err)
+			}
+			var wg sync.WaitGroup
+			conns := make([]net.Conn, tc.strangers)
+			for i := range conns {
+				c, err := net.Dial("tcp", addr)
+				if err != nil {
+					t.Fatal(err)
+				}
+				conns[i] = c
+				t.Cleanup(func() { c.Close() })
+				wg.Add(1)
+				go func() {
+					defer wg.Done()
+					_ = c.SetDeadline(time.Now().Add(2 * time.Second))
+					if _, err := io.WriteString(c, "GET /static/pit.css HTTP/1.1\r\nHost: "+addr+"\r\n\r\n"); err != nil {
+						return
+					}
+					if resp, err := http.ReadResponse(bufio.NewReader(c), nil); err == nil {
+						_, _ = io.Copy(io.Discard, resp.Body)
+						resp.Body.Close()
+					}
+				}()
+			}
+			wg.Wait()
+			start := time.Now()
+			reused, err := card()
+			if err != nil {
+				t.Fatalf("with %d idle connections of a stranger, the crew's card was not served within a second: %v", tc.strangers, err)
+			}
+			if !reused {
+				t.Errorf("the phone's own keep-alive connection was closed for a stranger's")
+			}
+			// A phone that had not been here before is served too.
+			fresh := &http.Client{Timeout: time.Second, Transport: &http.Transport{}}
+			req, _ := http.NewRequest("GET", base+"/", nil)
+			req.AddCookie(&http.Cookie{Name: CookieName, Value: testTokens.Crew})
+			resp, err := fresh.Do(req)
+			if err != nil {
+				t.Fatalf("a new phone was not served within a second: %v", err)
+			}
+			resp.Body.Close()
+			t.Logf("card in %v after %d idle connections", time.Since(start).Round(time.Millisecond), tc.strangers)
+			if tc.perClient > 0 {
+				open := 0
+				for _, c := range conns {
+					_ = c.SetReadDeadline(time.Now().Add(20 * time.Millisecond))
+					var b [1]byte
+					if _, err := c.Read(b[:]); isTimeout(err) {
+						open++
+					}
+				}
+				if open > tc.perClient {
+					t.Errorf("one address holds %d connections open, limit %d", open, tc.perClient)
+				}
+			}
+		})
+	}
 }

@@ -13,6 +13,7 @@ import (
 	"pitcard/engine"
 	"pitcard/event"
 	"pitcard/prep"
+	"pitcard/scripts"
 	"pitcard/weather"
 )
 
@@ -290,6 +291,10 @@ func (s *Server) slipDefaults(q *request, round string) ([]field, string) {
 }
 
 func (s *Server) slipPage(q *request) {
+	if id := q.r.URL.Query().Get("logged"); id != "" {
+		s.slipDone(q, id)
+		return
+	}
 	p := q.slipPage("")
 	p.Form, p.Round = s.slipDefaults(q, q.r.URL.Query().Get("round"))
 	p.Intro = "Times in seconds as the slip prints them (.021, 11.538). The air is taken from the weather log's reading nearest the pass."
@@ -318,6 +323,13 @@ func (s *Server) postSlip(q *request) {
 		}
 		np.Date, np.Time = when.Format(weather.DateLayout), when.Format(weather.TimeLayout)
 	}
+	key := slipKey(q.r.PostForm)
+	if was, ago, ok := s.slips.recent(key, s.cfg.Now()); ok {
+		p.Error = fmt.Sprintf("Nothing was saved: this same slip was logged at %s, %s ago (%s): a reload or a second tap sends a form again. "+
+			"If the car really made another pass with these very figures, give its time of day.", was.at.Format("15:04"), agoWords(ago), was.short)
+		s.render(q, "form", p, http.StatusUnprocessableEntity)
+		return
+	}
 	lp, err := q.folder.AddPass(np, q.now)
 	if err != nil {
 		p.Error = attach(p.Form, err)
@@ -326,21 +338,34 @@ func (s *Server) postSlip(q *request) {
 	}
 	pass := lp.Pass
 	et, ft, _ := pass.Finish()
-	logged := fmt.Sprintf("Logged %s, %s lane, at %s: %s s at %.0f ft (%s in the logbook).", pass.Session.Long(), pass.Lane,
-		pass.Time.Format("15:04"), engine.FormatSeconds(et, 3), ft, engine.Plural(lp.Count, "pass"))
+	res := slipResult{at: pass.Time, short: fmt.Sprintf("%s, %s lane, %s s", pass.Session.Long(), pass.Lane, engine.FormatSeconds(et, 3)), logged: fmt.Sprintf("Logged %s, %s lane, at %s: %s s at %.0f ft (%s in the logbook).", pass.Session.Long(), pass.Lane,
+		pass.Time.Format("15:04"), engine.FormatSeconds(et, 3), ft, engine.Plural(lp.Count, "pass"))}
 	s.logf("slip %s %s lane added by the crew from %s: %s s", pass.Session, pass.Lane, q.r.RemoteAddr, engine.FormatSeconds(et, 3))
-	p.Saved = logged
 	if lp.Source != "" {
-		p.Said = append(p.Said, "Conditions from "+lp.Source+".")
+		res.said = append(res.said, "Conditions from "+lp.Source+".")
 	}
 	if lp.Decided != "" {
-		p.Said = append(p.Said, lp.Decided)
+		res.said = append(res.said, lp.Decided)
 	}
-	p.Said = append(p.Said, lp.Warnings...)
-	// No form under the result: a reload cannot post the slip twice, and
-	// the next slip starts from the next round's defaults.
-	p.Form, p.CanWrite, p.Round = nil, false, ""
-	p.Heading, p.Intro = "The pass is logged", "Open the card for the next round, or the slip page for another pass."
+	res.said = append(res.said, lp.Warnings...)
+	// The answer is a redirect to the result: a reload shows it again and
+	// posts nothing.
+	id := s.slips.add(key, res, s.cfg.Now())
+	http.Redirect(q.w, q.r, "/slip?logged="+id, http.StatusSeeOther)
+}
+
+// slipDone is the page of a logged slip, by the id its post redirected to.
+func (s *Server) slipDone(q *request, id string) {
+	p := q.slipPage("")
+	// No form under the result: the next slip starts from the next round's
+	// defaults.
+	p.CanWrite, p.Heading = false, "The pass is logged"
+	if res, ok := s.slips.result(id); ok {
+		p.Saved, p.Said = res.logged, res.said
+		p.Intro = "Open the card for the next round, or the slip page for another pass."
+	} else {
+		p.Intro = "This confirmation is no longer kept (the pit page was restarted since): the Passes page lists what is logged."
+	}
 	s.render(q, "form", p, http.StatusOK)
 }
 
@@ -361,14 +386,45 @@ func (s *Server) postChecklist(q *request) {
 	v := values(q.r.PostForm)
 	ses, day, err := roundOf(v)
 	if err == nil {
+		err = s.roundsItems(q, ses, day, q.r.PostForm["tick"])
+	}
+	if err == nil {
 		err = q.folder.SetTicks(day, ses, q.r.PostForm["tick"], q.now)
 	}
 	if err != nil {
-		http.Error(q.w, "Nothing was saved: "+err.Error(), http.StatusUnprocessableEntity)
+		http.Error(q.w, "Nothing was saved: "+forPhone(q.folder, err.Error()), http.StatusUnprocessableEntity)
 		return
 	}
 	s.logf("checklist of %s saved by the crew from %s: %d ticked", ses, q.r.RemoteAddr, len(q.r.PostForm["tick"]))
 	http.Redirect(q.w, q.r, "/?saved=checklist"+roundParam(ses.String())+"#checklist", http.StatusSeeOther)
+}
+
+// roundsItems checks that ticked are items to tick of ses's card, and day
+// its day: the form offers nothing else, so anything else was not sent by
+// the page.
+func (s *Server) roundsItems(q *request, ses engine.Session, day string, ticked []string) error {
+	c, _, err := s.gather(q, ses.String())
+	if err != nil {
+		return fmt.Errorf("%s has no card to tick: %w", ses.Long(), err)
+	}
+	if d := c.Input.Call.Format(weather.DateLayout); d != day {
+		return &weather.InputError{Field: "day", Value: day, Reason: fmt.Sprintf("is not the round's day: %s's card is for %s", ses.Long(), d)}
+	}
+	items := map[string]bool{}
+	var names []string
+	for _, ch := range c.Checks {
+		if ch.Status == scripts.Confirm {
+			items[ch.Label] = true
+			names = append(names, "“"+ch.Label+"”")
+		}
+	}
+	for _, t := range ticked {
+		if !items[t] {
+			return &weather.InputError{Field: "checklist item", Value: t, Reason: fmt.Sprintf("is not one of %s's items to tick (they are %s)",
+				ses.Long(), strings.Join(names, ", "))}
+		}
+	}
+	return nil
 }
 
 func (s *Server) postOpponent(q *request) {

@@ -21,6 +21,7 @@ import (
 	"html/template"
 	"io"
 	"io/fs"
+	"net"
 	"net/http"
 	"net/url"
 	"os"
@@ -31,6 +32,7 @@ import (
 
 	"pitcard/engine"
 	"pitcard/event"
+	"pitcard/internal/printable"
 	"pitcard/prep"
 )
 
@@ -59,6 +61,13 @@ type Config struct {
 	// Log, when set, hears every write and every refused request, one
 	// line each: the laptop's terminal shows who did what.
 	Log io.Writer
+	// Hosts are the host:port names the page is served at: the join
+	// link's, and the laptop's other names. A request for another name is
+	// refused, so a page of another site that points its own name at the
+	// laptop (DNS rebinding) reads and writes nothing; an IP address on one
+	// of their ports is always answered (no other site can make a phone ask
+	// for it). Empty: any Host is answered.
+	Hosts []string
 }
 
 // Server is the pit page's http.Handler.
@@ -68,9 +77,13 @@ type Server struct {
 	pages  map[string]*template.Template
 	denied *template.Template
 	logMu  sync.Mutex
+	// refusals are the refused requests being counted, by client address
+	// (logMu held).
+	refusals map[string]*refusalGroup
 
 	cards memo[gathered]
 	fits  memo[fitted]
+	slips slipLog
 }
 
 // New makes the pit page's handler.
@@ -125,9 +138,19 @@ func (s *Server) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 		"connect-src 'self'; form-action 'self'; frame-ancestors 'none'; base-uri 'none'")
 	h.Set("X-Content-Type-Options", "nosniff")
 	h.Set("X-Frame-Options", "DENY")
-	h.Set("Referrer-Policy", "no-referrer")
+	// No address of the page leaves it; same-origin rather than no-referrer
+	// because under no-referrer a browser sends "Origin: null" with the
+	// page's own forms, and null is refused.
+	h.Set("Referrer-Policy", "same-origin")
 	h.Set("Cache-Control", "no-store")
 	h.Set("Cross-Origin-Opener-Policy", "same-origin")
+	if !s.knownHost(r.Host) {
+		s.deny(w, r, "This address is not the pit page's: open the crew's or the view link as 'pitcard serve' printed it.")
+		return
+	}
+	if role, _ := s.roleOf(r); role != Nobody {
+		trust(r)
+	}
 	s.mux.ServeHTTP(w, r)
 }
 
@@ -176,21 +199,19 @@ func (s *Server) writer(h func(*request)) http.HandlerFunc {
 			s.deny(w, r, "Nothing was written: the view link only reads. Entries need the crew's link.")
 			return
 		}
-		if o := r.Header.Get("Origin"); o != "" && o != "null" {
-			if u, err := url.Parse(o); err != nil || u.Host != r.Host {
-				s.deny(w, r, "Nothing was written: the form came from another site ("+o+").")
-				return
-			}
+		if why := foreignOrigin(r); why != "" {
+			s.deny(w, r, "Nothing was written: "+why)
+			return
 		}
 		r.Body = http.MaxBytesReader(w, r.Body, MaxBody)
 		if err := r.ParseForm(); err != nil {
 			var tooBig *http.MaxBytesError
 			if errors.As(err, &tooBig) {
-				s.logf("refused a %d-byte form from %s (limit %d)", r.ContentLength, r.RemoteAddr, MaxBody)
+				s.logRefusal(r, fmt.Sprintf("a %d-byte form from %s (limit %d)", r.ContentLength, r.RemoteAddr, MaxBody))
 				http.Error(w, fmt.Sprintf("Nothing was written: the form is larger than %d KiB.", MaxBody>>10), http.StatusRequestEntityTooLarge)
 				return
 			}
-			http.Error(w, "Nothing was written: the form could not be read ("+err.Error()+").", http.StatusBadRequest)
+			http.Error(w, "Nothing was written: "+formReadWords(err), http.StatusBadRequest)
 			return
 		}
 		if len(r.PostForm) > MaxFields {
@@ -227,7 +248,7 @@ func (s *Server) open(w http.ResponseWriter, r *http.Request, role Role, tok str
 		if event.IsBadInput(err) {
 			status = http.StatusOK // the crew's to fix: said on the page
 		}
-		p := page{Title: "The event folder", Nav: "card", Error: "The event folder could not be opened: " + err.Error()}
+		p := page{Title: "The event folder", Nav: "card", Error: forPhone(nil, "The event folder could not be opened: "+err.Error())}
 		w.WriteHeader(status)
 		_ = s.pages["list"].ExecuteTemplate(w, "layout", p)
 		return nil
@@ -236,7 +257,7 @@ func (s *Server) open(w http.ResponseWriter, r *http.Request, role Role, tok str
 }
 
 func (s *Server) deny(w http.ResponseWriter, r *http.Request, why string) {
-	s.logf("refused %s %s from %s: %s", r.Method, r.URL.Path, r.RemoteAddr, why)
+	s.logRefusal(r, fmt.Sprintf("%s %s from %s: %s", r.Method, r.URL.EscapedPath(), r.RemoteAddr, why))
 	w.Header().Set("Content-Type", "text/html; charset=utf-8")
 	w.WriteHeader(http.StatusForbidden)
 	_ = s.denied.ExecuteTemplate(w, "denied", why)
@@ -248,7 +269,71 @@ func (s *Server) logf(format string, a ...any) {
 	}
 	s.logMu.Lock()
 	defer s.logMu.Unlock()
-	fmt.Fprintf(s.cfg.Log, "%s %s\n", s.cfg.Now().Format("15:04:05"), fmt.Sprintf(format, a...))
+	s.writeLog(fmt.Sprintf(format, a...))
+}
+
+// writeLog writes one line to the log, logMu held. A path, a header or a
+// field a request sent is in it: printable.Line keeps its escape sequences
+// from reaching the terminal and its line breaks from forging lines.
+func (s *Server) writeLog(line string) {
+	fmt.Fprintf(s.cfg.Log, "%s %s\n", s.cfg.Now().Format("15:04:05"), printable.Line(line))
+}
+
+// refusalWindow is how long the refusals of one client address are counted
+// into one line: a script trying tokens cannot flood the crew's terminal.
+const refusalWindow = time.Minute
+
+// refusalGroup is the refusals of one client address since the first was
+// logged.
+type refusalGroup struct {
+	since time.Time
+	more  int    // refused after the first, not logged one by one
+	last  string // the latest of them
+}
+
+// logRefusal logs a refused request: the first from its address in a
+// minute as it is, the others as one count when the minute is over (at the
+// address's next refusal, or by a timer when none comes).
+func (s *Server) logRefusal(r *http.Request, what string) {
+	if s.cfg.Log == nil {
+		return
+	}
+	addr := r.RemoteAddr
+	if h, _, err := net.SplitHostPort(addr); err == nil {
+		addr = h
+	}
+	now := s.cfg.Now()
+	s.logMu.Lock()
+	defer s.logMu.Unlock()
+	if g := s.refusals[addr]; g != nil {
+		if now.Sub(g.since) < refusalWindow {
+			g.more++
+			g.last = what
+			return
+		}
+		s.endRefusals(addr, g)
+	}
+	if s.refusals == nil {
+		s.refusals = map[string]*refusalGroup{}
+	}
+	g := &refusalGroup{since: now}
+	s.refusals[addr] = g
+	s.writeLog("refused " + what)
+	time.AfterFunc(refusalWindow, func() {
+		s.logMu.Lock()
+		defer s.logMu.Unlock()
+		if s.refusals[addr] == g {
+			s.endRefusals(addr, g)
+		}
+	})
+}
+
+// endRefusals logs the count of g's refusals, logMu held.
+func (s *Server) endRefusals(addr string, g *refusalGroup) {
+	delete(s.refusals, addr)
+	if g.more > 0 {
+		s.writeLog(fmt.Sprintf("refused %d more requests from %s since %s (the last: %s)", g.more, addr, g.since.Format("15:04:05"), g.last))
+	}
 }
 
 // join takes the token from a link once and keeps it as a cookie.
@@ -342,6 +427,7 @@ func (s *Server) render(q *request, name string, p page, status int) {
 	if q.role == Crew {
 		p.CSRF = s.cfg.Tokens.CSRF(q.token)
 	}
+	p = plainPage(q.folder, p)
 	var buf bytes.Buffer
 	if err := s.pages[name].ExecuteTemplate(&buf, "layout", p); err != nil {
 		http.Error(q.w, "rendering the page: "+err.Error(), http.StatusInternalServerError)

@@ -6,10 +6,13 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
 	"time"
+
+	"pitcard/internal/csvtext"
 )
 
 // The weather log is weather.csv: one reading per row, in the columns below.
@@ -403,6 +406,7 @@ func logRow(rec []string, col map[string]Column, elev Length, loc *time.Location
 		}
 	}
 	r.Note, _, _ = get("notes")
+	r.Note = csvtext.Text(r.Note) // written by WriteLog with csvtext.Cell
 	if err := r.Validate(elev); err != nil {
 		var ie *InputError
 		if errors.As(err, &ie) {
@@ -448,8 +452,13 @@ func WriteLog(w io.Writer, readings []Reading) error {
 	if err := cw.Write(LogColumns); err != nil {
 		return err
 	}
+	notes := slices.Index(LogColumns, "notes")
 	for _, r := range readings {
-		if err := cw.Write(Record(r)); err != nil {
+		rec := Record(r)
+		// A note that begins with = opens in a spreadsheet as text, not as
+		// a formula.
+		rec[notes] = csvtext.Cell(rec[notes])
+		if err := cw.Write(rec); err != nil {
 			return err
 		}
 	}

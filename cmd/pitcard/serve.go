@@ -78,20 +78,22 @@ func serveRun(cmd *cobra.Command, o *serveOptions) error {
 	} else if tokens, made, err = pitpage.LoadTokens(e.Dir, o.NewTokens); err != nil {
 		return err
 	}
-	srv, err := pitpage.New(pitpage.Config{
-		Open:   func() (*eventFolder, error) { return o.g.open(cmd) },
-		Tokens: tokens,
-		Now:    o.s.Now,
-		Log:    o.s.Out,
-	})
-	if err != nil {
-		return err
-	}
 	ln, err := net.Listen("tcp", o.Addr)
 	if err != nil {
 		return userErrf("--addr %q: cannot listen there (%v); give another port, e.g. --addr :8090", o.Addr, err)
 	}
 	hosts, port := lanHosts(ln.Addr())
+	srv, err := pitpage.New(pitpage.Config{
+		Open:   func() (*eventFolder, error) { return o.g.open(cmd) },
+		Tokens: tokens,
+		Now:    o.s.Now,
+		Log:    o.s.Out,
+		Hosts:  servedHosts(hosts, port),
+	})
+	if err != nil {
+		ln.Close()
+		return err
+	}
 	base := "http://" + net.JoinHostPort(hosts[0], port)
 	crew, view := base+"/join/"+tokens.Crew, base+"/join/"+tokens.View
 	where := "the demo event (read-only)"
@@ -123,9 +125,9 @@ func serveRun(cmd *cobra.Command, o *serveOptions) error {
 	}
 	fmt.Fprintln(o.s.Out, "A LAN page without encryption: keep the links to the crew. Ctrl-C stops it.")
 
-	hs := pitpage.HTTPServer(srv, pitpage.DefaultLimits)
+	hs, gl := pitpage.HTTPServer(srv, ln, pitpage.DefaultLimits)
 	errc := make(chan error, 1)
-	go func() { errc <- hs.Serve(pitpage.LimitListener(ln, pitpage.DefaultLimits.MaxConns)) }()
+	go func() { errc <- hs.Serve(gl) }()
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
 	defer stop()
 	stopped := o.s.Stop
@@ -142,6 +144,21 @@ func serveRun(cmd *cobra.Command, o *serveOptions) error {
 	}
 	fmt.Fprintln(o.s.Out, "Stopped the pit page.")
 	return nil
+}
+
+// servedHosts are the names the pit page answers to: the links' hosts and
+// this machine's own names (a request for any other is refused).
+func servedHosts(hosts []string, port string) []string {
+	names := append([]string(nil), hosts...)
+	names = append(names, "localhost")
+	if h, err := os.Hostname(); err == nil && h != "" {
+		names = append(names, h, h+".local")
+	}
+	out := make([]string, len(names))
+	for i, h := range names {
+		out[i] = net.JoinHostPort(h, port)
+	}
+	return out
 }
 
 // lanHosts are the hosts a phone can reach the listener at: its own
