@@ -97,3 +97,63 @@ func TestSettleRefusesImpossibleSlips(t *testing.T) {
 		t.Error("a negative ET was settled")
 	}
 }
+
+// Both lanes fouled: nobody wins on the slips (common practice, no source:
+// the first to foul loses, and only the track's officials can say who that
+// was). Dropping the double-foul case hands the race to the right lane.
+func TestDoubleFoul(t *testing.T) {
+	foul := func(dial, rt, et string) LaneRun { r := run(dial, rt, et); r.Foul = true; return r }
+	cases := []struct {
+		name        string
+		left, right LaneRun
+	}{
+		{"both boundary fouls", foul("12.00", ".020", "12.05"), foul("12.00", ".030", "12.10")},
+		{"both boundary fouls, lanes swapped", foul("12.00", ".030", "12.10"), foul("12.00", ".020", "12.05")},
+		{"both boundary fouls, one also broke out", foul("12.00", ".020", "11.95"), foul("12.00", ".030", "12.10")},
+		{"both red-lit at the same instant", run("12.00", "-.010", "12.05"), run("12.00", "-.010", "12.10")},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			o, err := Settle(tc.left, tc.right, RaceRules{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if o.Winner != "" || o.Reason != ReasonDoubleFoul {
+				t.Errorf("winner %q (%s: %s), want none (%s)", o.Winner, o.Reason, o.Explanation, ReasonDoubleFoul)
+			}
+		})
+	}
+}
+
+// The margin in feet is the margin in seconds at the TRAILING car's speed
+// (physics: the distance the second car still has to cover; 1 mph =
+// 5280/3600 ft/s by definition). Both lanes carry a speed, so taking the
+// leader's or always one lane's speed gives a different number.
+func TestMarginInFeetTrailingLane(t *testing.T) {
+	withMPH := func(r LaneRun, mph string) LaneRun { r.MPH = decimal.NewNullDecimal(d(mph)); return r }
+	cases := []struct {
+		name        string
+		left, right LaneRun
+		first       Lane
+		trailingMPH float64
+	}{
+		// how-to example 1: left first by .010 s; right (105 mph) trails
+		{"left first, right trails", withMPH(run("14.20", ".520", "14.32"), "95"), withMPH(run("13.00", ".550", "13.10"), "105"), Left, 105},
+		{"right first, left trails", withMPH(run("13.00", ".550", "13.10"), "105"), withMPH(run("14.20", ".520", "14.32"), "95"), Right, 105},
+		{"right first, left trails (slower car trails)", withMPH(run("14.20", ".560", "14.32"), "95"), withMPH(run("13.00", ".550", "13.10"), "105"), Right, 95},
+		{"only the leader's speed known: it stands in", run("14.20", ".520", "14.32"), withMPH(run("13.00", ".550", "13.10"), "105"), Left, 105},
+		{"only the trailer's speed known", withMPH(run("14.20", ".520", "14.32"), "95"), run("13.00", ".550", "13.10"), Left, 95},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			o, err := Settle(tc.left, tc.right, RaceRules{RTZero: FromAmber})
+			if err != nil {
+				t.Fatal(err)
+			}
+			want := o.MarginS.InexactFloat64() * tc.trailingMPH * 5280 / 3600
+			if o.First != tc.first || !o.HasMarginFt || math.Abs(o.MarginFt-want) > 1e-9 || o.MarginS.IsZero() {
+				t.Errorf("first %q, margin %s s = %v ft, want first %q and %v ft (at %v mph)", o.First, o.MarginS, o.MarginFt, tc.first, want, tc.trailingMPH)
+			}
+		})
+	}
+}
