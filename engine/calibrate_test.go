@@ -317,3 +317,41 @@ func TestIntervalSaysWhenItCannotKnow(t *testing.T) {
 		t.Errorf("first pass of a day: SD %.4f (later the same day %.4f), notes %q", first.Finish().SD, same.Finish().SD, first.Notes)
 	}
 }
+
+// The outlier rule is two-sided: a pass far QUICKER than the model (a timing
+// fault, a beam tripped early) is as wrong as a pedaled one and is left out
+// too; a pass just inside the limit is kept. The limit is OutlierMADs robust
+// deviations (4 × 1.4826 × MAD: the 1.4826 makes the MAD a standard
+// deviation for normal scatter, a statistics identity; 4 of them is common
+// practice for a robust cut, from memory), never below OutlierFloor.
+func TestOutliersBothWays(t *testing.T) {
+	truth := Params{PowerScale: 0.95, TractionScale: 1.05, PressureExp: 1, TempExp: 0.5, TrackOptF: 110, TrackWidthF: 40}
+	g := gen{rng: rand.New(rand.NewPCG(3, 4)), truth: truth, car: testCar}
+	passes := g.season(4, 10)
+	plant := func(i int, add float64) {
+		et := passes[i].ET[4].Decimal.Add(decimal.NewFromFloat(add))
+		passes[i].ET[4] = decimal.NewNullDecimal(et)
+	}
+	plant(12, -0.40) // a timing fault: four tenths quick
+	plant(25, -0.25)
+	plant(36, +0.45) // a pedaled run
+	fit, err := Calibrate(CalibrateInput{Car: testCar, Track: testTrack, Passes: passes, Now: passes[len(passes)-1].Time.Add(time.Hour)})
+	if err != nil {
+		t.Fatal(err)
+	}
+	found := map[time.Time]string{}
+	for _, o := range fit.Outliers {
+		found[o.Pass.Time] = o.Reason
+	}
+	for _, i := range []int{12, 25, 36} {
+		if _, ok := found[passes[i].Time]; !ok {
+			t.Errorf("planted outlier %d not found; outliers %v", i, fit.Outliers)
+		}
+	}
+	if !strings.HasPrefix(found[passes[12].Time], "-0.") {
+		t.Errorf("the quick pass's reason %q does not give its signed miss", found[passes[12].Time])
+	}
+	if len(fit.Outliers) > 4 {
+		t.Errorf("%d outliers for 3 planted: %v", len(fit.Outliers), fit.Outliers)
+	}
+}

@@ -123,3 +123,48 @@ func TestRecentEstimate(t *testing.T) {
 		t.Error("one pass gave an estimate")
 	}
 }
+
+// RecentEstimate leaves out a pass beyond 4 robust deviations of the median
+// (4 × 1.4826 × MAD, the 1.4826 making the MAD a standard deviation for
+// normal scatter: a statistics identity; the 4 is common practice for a
+// robust cut, from memory), QUICK or slow, and keeps one inside. Five clean
+// passes 11.48–11.52 s have a MAD of 0.015 s, so 1.4826 × MAD = 0.0222 s
+// and the cut is 0.0890 s from the median (hand arithmetic): a pass 0.13 s
+// out is 5.8 deviations (left out; an 8-deviation rule would keep it), one
+// 0.075 s out is 3.4 (kept; a rule on the MAD alone would drop it).
+func TestRecentEstimateCut(t *testing.T) {
+	base := time.Date(2026, 6, 13, 12, 0, 0, 0, time.UTC)
+	clean := []string{"11.50", "11.52", "11.48", "11.51", "11.49"}
+	cases := []struct {
+		name  string
+		extra string
+		kept  bool
+	}{
+		{"slow by 5.8 deviations: left out", "11.635", false},
+		{"quick by 5.4 deviations (a timing fault): left out", "11.375", false},
+		{"slow by 3.4 deviations: kept", "11.580", true},
+		{"quick by 3.4 deviations: kept", "11.420", true},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			var passes []Pass
+			for i, et := range append(append([]string(nil), clean...), tc.extra) {
+				p := Pass{Time: base.Add(time.Duration(i) * time.Hour)}
+				p.ET[4] = decimal.NewNullDecimal(d(et))
+				passes = append(passes, p)
+			}
+			est, used, err := RecentEstimate(passes, 1320, 10)
+			if err != nil {
+				t.Fatal(err)
+			}
+			want := []float64{11.50, 11.52, 11.48, 11.51, 11.49}
+			if tc.kept {
+				want = append(want, d(tc.extra).InexactFloat64())
+			}
+			m, _ := MeanSD(want)
+			if len(used) != len(want) || math.Abs(est.ET-m) > 1e-9 {
+				t.Errorf("used %d passes, mean %.4f; want %d passes, mean %.4f", len(used), est.ET, len(want), m)
+			}
+		})
+	}
+}
