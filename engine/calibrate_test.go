@@ -165,6 +165,13 @@ func TestOutliersAreFound(t *testing.T) {
 }
 
 // No logbook: physics from car.yaml alone, with a wide interval that says so.
+// How wide: a car.yaml power figure 10 % off (dyno sheets flatter, crews
+// guess: common practice, from memory) moves the ET by 3.2 % (the cube-root
+// law, Huntington 1958), so one SD below 3.2 %/1.96 = 1.6 % of the ET would
+// claim more than car.yaml can know; one above 5 % (a 95 % interval past
+// ±10 %, wider than the 7.4 % between the power-weight relations' own ET
+// coefficients, 6.290 and 5.825) would know less than a rule of thumb. The
+// interval is the normal's 95 %: ±1.96 SD (definition), to 1 %.
 func TestPhysicsOnlyPrediction(t *testing.T) {
 	fit, err := Calibrate(CalibrateInput{Car: testCar, Track: testTrack, Now: time.Now()})
 	if err != nil {
@@ -172,8 +179,9 @@ func TestPhysicsOnlyPrediction(t *testing.T) {
 	}
 	pr := Predict(fit, PredictInput{Air: j1349Air, Prep: 1})
 	f := pr.Finish()
-	if !pr.PhysicsOnly || f.High-f.Low < 0.10*f.ET || pr.Estimate().SD < 0.02*f.ET {
-		t.Errorf("physics-only %+v", f)
+	sd := pr.Estimate().SD
+	if !pr.PhysicsOnly || sd < 0.016*f.ET || sd > 0.05*f.ET || math.Abs((f.High-f.Low)/(2*1.96*sd)-1) > 0.01 {
+		t.Errorf("physics-only %+v: SD %.4f s (%.2f %% of the ET; want 1.6–5 %%), interval %.3f–%.3f", f, sd, 100*sd/f.ET, f.Low, f.High)
 	}
 	if len(pr.Timers) != 5 || len(pr.Traps) != 2 {
 		t.Errorf("%d timers, %d traps", len(pr.Timers), len(pr.Traps))
@@ -181,7 +189,10 @@ func TestPhysicsOnlyPrediction(t *testing.T) {
 }
 
 // No power figure: estimated from the traps with the power-weight relations
-// (Huntington 1958, Fox 1973 and the later fit), and said so.
+// (Huntington 1958, Fox 1973 and the later fit), and said so. The relations
+// disagree among themselves by (234/224)³ = 14 % in power for the same trap
+// speed, so within 14 % of the true 480 hp (421–547 hp) is all they can
+// promise; the estimate was 454 hp when the test was written.
 func TestPowerFromTraps(t *testing.T) {
 	g := gen{rng: rand.New(rand.NewPCG(5, 6)), truth: DefaultParams(Natural), car: testCar}
 	passes := g.season(2, 8)
@@ -191,7 +202,7 @@ func TestPowerFromTraps(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if !fit.PowerEstimated || fit.PowerHP < 380 || fit.PowerHP > 600 || len(fit.Notes) == 0 {
+	if !fit.PowerEstimated || fit.PowerHP < 480/1.14 || fit.PowerHP > 480*1.14 || len(fit.Notes) == 0 {
 		t.Errorf("estimated %v hp (true 480), notes %v", fit.PowerHP, fit.Notes)
 	}
 	if _, err := Calibrate(CalibrateInput{Car: noPower, Track: testTrack, Now: time.Now()}); err == nil {
@@ -199,7 +210,12 @@ func TestPowerFromTraps(t *testing.T) {
 	}
 }
 
-// The interval widens when today's air is outside what the logbook has seen.
+// The interval widens when today's air is outside what the logbook has seen,
+// the further the wider: a fitted slope's prediction variance grows with
+// the squared distance from the data's centre (least squares, a statistics
+// identity). The logbook spans about 2600 ft of density altitude; 4000 ft
+// beyond it the SD must be at least twice the inside figure (3.8× when the
+// test was written), where a flat "outside" surcharge would give a constant.
 func TestIntervalWidensOutsideTheSeenAir(t *testing.T) {
 	g := gen{rng: rand.New(rand.NewPCG(9, 9)), truth: DefaultParams(Natural), car: testCar}
 	passes := g.season(3, 10)
@@ -209,8 +225,16 @@ func TestIntervalWidensOutsideTheSeenAir(t *testing.T) {
 	outside := ThinnerAir(inside, 4000)
 	a := Predict(fit, PredictInput{Air: inside, Prep: 1, Time: now}).Finish()
 	b := Predict(fit, PredictInput{Air: outside, Prep: 1, Time: now}).Finish()
-	if !(b.SD > a.SD*1.2) {
+	if !(b.SD > a.SD*2) {
 		t.Errorf("SD inside %.4f, 4000 ft beyond %.4f", a.SD, b.SD)
+	}
+	prev := a.SD
+	for _, ft := range []float64{1000, 2000, 3000, 4000} {
+		sd := Predict(fit, PredictInput{Air: ThinnerAir(inside, ft), Prep: 1, Time: now}).Finish().SD
+		if !(sd > prev) {
+			t.Errorf("SD %.4f at %v ft beyond, not above %.4f nearer", sd, ft, prev)
+		}
+		prev = sd
 	}
 }
 
