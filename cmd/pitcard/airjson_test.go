@@ -48,7 +48,7 @@ func TestAirJSONNumbers(t *testing.T) {
 			t.Errorf("%s: not a number in %v", tc.key, m[tc.key])
 			continue
 		}
-		if math.Abs(got-tc.want) > tc.half+1e-9 {
+		if !(math.Abs(got-tc.want) <= tc.half+1e-9) {
 			t.Errorf("%s = %v, from its formula %.6f (± %g)", tc.key, got, tc.want, tc.half)
 		}
 	}
