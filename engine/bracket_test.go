@@ -157,3 +157,40 @@ func TestMarginInFeetTrailingLane(t *testing.T) {
 		})
 	}
 }
+
+// The explanation names the lane that lost and why, whichever lane it is
+// (the same precedence as TestSettle; common practice, no source).
+func TestExplanationNamesTheLane(t *testing.T) {
+	foul := func(r LaneRun) LaneRun { r.Foul = true; return r }
+	green := RaceRules{}
+	cases := []struct {
+		name        string
+		left, right LaneRun
+		want        string
+	}{
+		{"left red light", run("12.00", "-.001", "12.05"), run("12.00", ".050", "11.90"), "left red-lit (reaction -0.001)"},
+		{"right red light", run("12.00", ".050", "11.90"), run("12.00", "-.001", "12.05"), "right red-lit (reaction -0.001)"},
+		{"both red, left first", run("12.00", "-.050", "12.10"), run("12.00", "-.002", "12.10"), "both red-lit; left left first (reaction -0.050) and loses"},
+		{"both red, right first", run("12.00", "-.002", "12.10"), run("12.00", "-.050", "12.10"), "both red-lit; right left first (reaction -0.050) and loses"},
+		{"left foul", foul(run("12.00", ".02", "12.01")), run("12.00", ".08", "12.20"), "left fouled (boundary or centreline)"},
+		{"right foul", run("12.00", ".08", "12.20"), foul(run("12.00", ".02", "12.01")), "right fouled (boundary or centreline)"},
+		{"left breakout", run("12.00", ".010", "11.99"), run("12.00", ".200", "12.30"), "left broke out by 0.010 (11.990 on a 12.00 dial)"},
+		{"right breakout", run("12.00", ".200", "12.30"), run("12.00", ".010", "11.99"), "right broke out by 0.010 (11.990 on a 12.00 dial)"},
+		{"both break out, left by less", run("12.00", ".010", "11.99"), run("12.00", ".010", "11.95"), "both broke out; left by less: 0.010 (11.990 on a 12.00 dial) against 0.050 (11.950 on a 12.00 dial)"},
+		{"both break out, right by less", run("12.00", ".010", "11.95"), run("12.00", ".010", "11.99"), "both broke out; right by less: 0.010 (11.990 on a 12.00 dial) against 0.050 (11.950 on a 12.00 dial)"},
+		{"double foul", foul(run("12.00", ".02", "12.01")), foul(run("12.00", ".03", "12.01")), "both lanes fouled: the first to foul loses, and the track's officials decide who that was"},
+		{"tie", run("10.50", ".030", "10.55"), run("11.20", ".020", "11.26"), "both reached the finish at the same thousandth"},
+		{"first to the finish", run("10.50", ".030", "10.55"), run("11.20", ".045", "11.26"), "left reached the finish first by 0.025 s; neither broke out"},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			o, err := Settle(tc.left, tc.right, green)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if o.Explanation != tc.want {
+				t.Errorf("explanation %q, want %q", o.Explanation, tc.want)
+			}
+		})
+	}
+}
