@@ -194,3 +194,25 @@ func TestExplanationNamesTheLane(t *testing.T) {
 		})
 	}
 }
+
+// The tree's delay from the last amber to the green: 0.5 s on a full
+// (sportsman) tree, 0.4 s on a pro tree (common practice, no source). On an
+// amber-counted slip a perfect light is then .500 or .400: reaction .000,
+// no red light.
+func TestTreeDelay(t *testing.T) {
+	if !FullTree.Delay().Equal(d("0.5")) || !ProTree.Delay().Equal(d("0.4")) {
+		t.Fatalf("delays: full %s, pro %s", FullTree.Delay(), ProTree.Delay())
+	}
+	for _, tc := range []struct {
+		tree    Tree
+		perfect string
+	}{{ProTree, ".400"}, {FullTree, ".500"}, {"", ".500"}} {
+		o, err := Settle(run("12.00", tc.perfect, "12.05"), run("12.00", tc.perfect, "12.06"), RaceRules{Tree: tc.tree, RTZero: FromAmber})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !o.Left.Reaction.IsZero() || o.Left.RedLight || o.Winner != Left || o.Reason != ReasonFirstToFinish || !o.Left.Finish.Equal(d("12.05")) {
+			t.Errorf("tree %q, light %s: reaction %s, red %v, %s %s, finish %s", tc.tree, tc.perfect, o.Left.Reaction, o.Left.RedLight, o.Winner, o.Reason, o.Left.Finish)
+		}
+	}
+}
