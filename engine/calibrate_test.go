@@ -379,3 +379,67 @@ func TestOutliersBothWays(t *testing.T) {
 		t.Errorf("%d outliers for 3 planted: %v", len(fit.Outliers), fit.Outliers)
 	}
 }
+
+// With fewer than FewForOutliers (8) clean passes only a gross miss, beyond
+// GrossOutlier (0.20 s), is left out: a handful of passes cannot say what
+// scatter is normal (pitcard's own rule, calibrate.go). From 8 passes on,
+// the robust limit applies and a 0.15 s miss is left out.
+func TestFewPassesLeaveOutOnlyGrossMisses(t *testing.T) {
+	truth := Params{PowerScale: 0.95, TractionScale: 1.05, PressureExp: 1, TempExp: 0.5, TrackOptF: 110, TrackWidthF: 40}
+	cases := []struct {
+		name    string
+		n       int
+		miss    float64
+		leftOut bool
+	}{
+		{"7 passes, a 0.15 s miss kept", 7, 0.15, false},
+		{"7 passes, a 0.30 s miss left out", 7, 0.30, true},
+		{"8 passes, a 0.15 s miss left out", 8, 0.15, true},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			g := gen{rng: rand.New(rand.NewPCG(11, 12)), truth: truth, car: testCar}
+			passes := g.day(time.Date(2026, 5, 2, 0, 0, 0, 0, time.UTC), tc.n, 29.0)
+			i := tc.n / 2
+			passes[i].ET[4] = decimal.NewNullDecimal(passes[i].ET[4].Decimal.Add(decimal.NewFromFloat(tc.miss)))
+			fit, err := Calibrate(CalibrateInput{Car: testCar, Track: testTrack, Passes: passes, Now: passes[tc.n-1].Time.Add(time.Hour)})
+			if err != nil {
+				t.Fatal(err)
+			}
+			found := false
+			for _, o := range fit.Outliers {
+				found = found || o.Pass.Time.Equal(passes[i].Time)
+			}
+			if found != tc.leftOut || len(fit.Outliers) > 1 {
+				t.Errorf("the %.2f s miss left out: %v, want %v; outliers %v", tc.miss, found, tc.leftOut, fit.Outliers)
+			}
+		})
+	}
+}
+
+// The robust limit is 4 × 1.4826 × MAD (see TestOutliersBothWays): in a
+// logbook that scatters 0.03 s (a car with some scatter, stats.go's band),
+// a pass 0.12 s off is inside it (about 4 SD) and kept; 0.30 s is not.
+func TestScatterSetsTheLimit(t *testing.T) {
+	truth := Params{PowerScale: 0.95, TractionScale: 1.05, PressureExp: 1, TempExp: 0.5, TrackOptF: 110, TrackWidthF: 40}
+	g := gen{rng: rand.New(rand.NewPCG(13, 14)), truth: truth, car: testCar}
+	passes := g.season(3, 10)
+	noise := rand.New(rand.NewPCG(15, 16))
+	for i := range passes {
+		passes[i].ET[4] = decimal.NewNullDecimal(passes[i].ET[4].Decimal.Add(decimal.NewFromFloat(noise.NormFloat64() * 0.03).Round(3)))
+	}
+	kept, out := 7, 22
+	passes[kept].ET[4] = decimal.NewNullDecimal(passes[kept].ET[4].Decimal.Add(decimal.NewFromFloat(0.12)))
+	passes[out].ET[4] = decimal.NewNullDecimal(passes[out].ET[4].Decimal.Add(decimal.NewFromFloat(0.30)))
+	fit, err := Calibrate(CalibrateInput{Car: testCar, Track: testTrack, Passes: passes, Now: passes[len(passes)-1].Time.Add(time.Hour)})
+	if err != nil {
+		t.Fatal(err)
+	}
+	found := map[time.Time]bool{}
+	for _, o := range fit.Outliers {
+		found[o.Pass.Time] = true
+	}
+	if found[passes[kept].Time] || !found[passes[out].Time] {
+		t.Errorf("0.12 s miss left out: %v (want kept); 0.30 s miss left out: %v (want so); outliers %v", found[passes[kept].Time], found[passes[out].Time], fit.Outliers)
+	}
+}
