@@ -237,3 +237,21 @@ func TestPressureWarningEdges(t *testing.T) {
 		})
 	}
 }
+
+// A value up to 40 characters is shown whole in an error; a longer text is
+// cut at 40 with its length said, a longer number shown in exponent form
+// (pitcard's own message rule, errors.go).
+func TestShortValueEdge(t *testing.T) {
+	forty := strings.Repeat("x", 40)
+	cases := map[string]string{
+		forty:                         forty,
+		forty + "y":                   forty + "… (41 characters)",
+		strings.Repeat("1", 40):       strings.Repeat("1", 40),
+		"1" + strings.Repeat("0", 40): "1e+40",
+	}
+	for in, want := range cases {
+		if got := shortValue(in); got != want {
+			t.Errorf("shortValue(%d characters) = %q, want %q", len(in), got, want)
+		}
+	}
+}
