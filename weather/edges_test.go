@@ -1,6 +1,7 @@
 package weather
 
 import (
+	"fmt"
 	"math"
 	"strings"
 	"testing"
@@ -253,5 +254,66 @@ func TestShortValueEdge(t *testing.T) {
 		if got := shortValue(in); got != want {
 			t.Errorf("shortValue(%d characters) = %q, want %q", len(in), got, want)
 		}
+	}
+}
+
+// A day start with minutes and seconds counts them (pitcard's race day,
+// raceday.go): with the day starting 04:30, 04:29:59 belongs to the day
+// before, 04:30:00, 04:30:30 and 04:31 to the day itself; a typed clock
+// time reads the same way.
+func TestRaceDayStartWithMinutes(t *testing.T) {
+	s, err := ParseDayStart("04:30")
+	if err != nil {
+		t.Fatal(err)
+	}
+	day := time.Date(2026, 6, 13, 0, 0, 0, 0, time.UTC)
+	for _, tc := range []struct {
+		h, m, sec int
+		dayBefore bool
+	}{{4, 29, 59, false}, {4, 30, 0, true}, {4, 30, 30, true}, {4, 31, 0, true}, {5, 29, 0, true}} {
+		at := time.Date(2026, 6, 14, tc.h, tc.m, tc.sec, 0, time.UTC)
+		want := map[bool]string{false: "2026-06-13", true: "2026-06-14"}[tc.dayBefore]
+		if got := s.Key(at); got != want {
+			t.Errorf("%02d:%02d:%02d is on the race day %s, want %s", tc.h, tc.m, tc.sec, got, want)
+		}
+		clock, err := s.Clock(fmt.Sprintf("%02d:%02d:%02d", tc.h, tc.m, tc.sec), day, time.UTC)
+		wantDate := map[bool]string{false: "2026-06-14", true: "2026-06-13"}[tc.dayBefore]
+		if err != nil || clock.Format("2006-01-02") != wantDate {
+			t.Errorf("clock %02d:%02d:%02d on the day of 06-13: %v (%v), want on %s", tc.h, tc.m, tc.sec, clock, err, wantDate)
+		}
+	}
+}
+
+// A zone whose daylight saving moves the clock half an hour (Lord Howe
+// Island, IANA zone database): 01:45 on the night it falls back happens
+// twice, and a logged time is the first of them, +11:00 (LocalTime's rule).
+func TestLocalTimeHalfHourFallBack(t *testing.T) {
+	loc, err := time.LoadLocation("Australia/Lord_Howe")
+	if err != nil {
+		t.Skipf("no zone database: %v", err)
+	}
+	got, err := LocalTime(2026, time.April, 5, 1, 45, 0, loc, "01:45")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, off := got.Zone(); off != 11*3600 {
+		t.Errorf("01:45 on the fall-back night is %v, want the first occurrence, +11:00", got)
+	}
+}
+
+// A header in one column holding semicolons or tabs is a file saved with
+// the wrong separator, said so; a wind of 0 with no direction is calm, not
+// a wind of unknown direction (weather.csv's reading, log.go).
+func TestLogSeparatorAndCalm(t *testing.T) {
+	if _, _, err := ReadHeaderExtra([]string{"time;temp_f;baro_inhg"}, "weather.csv", "weather log", []string{"time"}, nil, nil); err == nil || !strings.Contains(err.Error(), "semicolons or tabs") {
+		t.Errorf("a semicolon header: %v", err)
+	}
+	csv := "date,time,temp_f,baro_inhg,humidity_pct,wind_mph\n2026-06-13,18:00,88,28.9,40,0\n2026-06-13,18:15,88,28.9,40,5\n"
+	rs, err := ReadLog(strings.NewReader(csv), "weather.csv", Feet(900), time.UTC)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(rs) != 2 || rs[0].WindDirUnknown || !rs[1].WindDirUnknown {
+		t.Errorf("calm: direction unknown %v; 5 mph without a direction: unknown %v", rs[0].WindDirUnknown, rs[1].WindDirUnknown)
 	}
 }
