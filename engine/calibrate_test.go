@@ -443,3 +443,46 @@ func TestScatterSetsTheLimit(t *testing.T) {
 		t.Errorf("0.12 s miss left out: %v (want kept); 0.30 s miss left out: %v (want so); outliers %v", found[passes[kept].Time], found[passes[out].Time], fit.Outliers)
 	}
 }
+
+// Left out means left out of the fit: the passes named as outliers are not
+// among the fit's samples (calibrate.go refits without them), and the
+// prediction from a logbook with three planted misses (+0.45, +1.20 and
+// −0.40 s) matches the one from the same logbook without them within
+// 0.005 s.
+func TestOutliersAreLeftOutOfTheFit(t *testing.T) {
+	truth := Params{PowerScale: 0.95, TractionScale: 1.05, PressureExp: 1, TempExp: 0.5, TrackOptF: 110, TrackWidthF: 40}
+	g := gen{rng: rand.New(rand.NewPCG(3, 4)), truth: truth, car: testCar}
+	clean := g.season(4, 10)
+	planted := append([]Pass(nil), clean...)
+	for i, add := range map[int]float64{33: 0.45, 36: 1.20, 12: -0.40} {
+		planted[i].ET[4] = decimal.NewNullDecimal(planted[i].ET[4].Decimal.Add(decimal.NewFromFloat(add)))
+	}
+	now := clean[len(clean)-1].Time.Add(time.Hour)
+	fit := func(passes []Pass) Fit {
+		f, err := Calibrate(CalibrateInput{Car: testCar, Track: testTrack, Passes: passes, Now: now})
+		if err != nil {
+			t.Fatal(err)
+		}
+		return f
+	}
+	fc, fp := fit(clean), fit(planted)
+	if len(fp.Outliers) < 3 {
+		t.Fatalf("outliers %v", fp.Outliers)
+	}
+	for _, o := range fp.Outliers {
+		for _, s := range fp.Samples {
+			if s.Pass.Time.Equal(o.Pass.Time) {
+				t.Errorf("outlier %s is still a sample of the fit", o.Pass.Time.Format("01-02 15:04"))
+			}
+		}
+	}
+	if len(fp.Samples) != len(planted)-len(fp.Outliers) {
+		t.Errorf("%d samples from %d passes less %d outliers", len(fp.Samples), len(planted), len(fp.Outliers))
+	}
+	air := clean[len(clean)-1].Air
+	a := Predict(fc, PredictInput{Air: air, Prep: 1, Time: now}).Finish().ET
+	b := Predict(fp, PredictInput{Air: air, Prep: 1, Time: now}).Finish().ET
+	if math.Abs(a-b) > 0.005 {
+		t.Errorf("prediction %.4f s with the misses left out, %.4f s from the clean logbook", b, a)
+	}
+}
