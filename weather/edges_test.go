@@ -187,6 +187,12 @@ func TestValidateEdges(t *testing.T) {
 		{"dew point 0.01 °F above it", func(r *Reading) { r.DewPointSet, r.DewPoint = true, Fahrenheit(70.01) }, false},
 		{"altimeter 32.6 inHg", func(r *Reading) { r.Baro, r.BaroKind = InHg(32.6), AltimeterSetting }, false},
 	}
+	// an altimeter setting outside the range is refused as itself, before
+	// any station pressure is worked out from it
+	alt := Reading{Temp: Fahrenheit(70), Baro: InHg(32.6), BaroKind: AltimeterSetting, RH: 0.5}
+	if err := alt.Validate(0); err == nil || !strings.Contains(err.Error(), "is outside 15..32.5 inHg") || strings.Contains(err.Error(), "gives station") {
+		t.Errorf("altimeter 32.6 inHg: %v", err)
+	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
 			r := base
@@ -219,6 +225,7 @@ func TestPressureWarningEdges(t *testing.T) {
 		{"station 27.5 at 499 ft", Reading{Baro: InHg(27.5)}, 499, false},
 		{"station 29.9 at 500 ft", Reading{Baro: InHg(29.9)}, 500, false},  // 29.9 + 0.54 = 30.44: a believable setting
 		{"station 30.6 at 600 ft", Reading{Baro: InHg(30.6)}, 600, true},   // 31.25: rare
+		{"station 30.6 at 500 ft", Reading{Baro: InHg(30.6)}, 500, true},   // 31.15: rare; 500 ft is not "within 500 ft"
 		{"station 29.0 at 2000 ft", Reading{Baro: InHg(29.0)}, 2000, true}, // 31.1
 		{"station 28.5 at 2500 ft", Reading{Baro: InHg(28.5)}, 2500, true}, // 31.2, and 28.5 itself looks like a setting
 		{"station 28.49 at 2500 ft", Reading{Baro: InHg(28.49)}, 2500, false},
@@ -315,5 +322,31 @@ func TestLogSeparatorAndCalm(t *testing.T) {
 	}
 	if len(rs) != 2 || rs[0].WindDirUnknown || !rs[1].WindDirUnknown {
 		t.Errorf("calm: direction unknown %v; 5 mph without a direction: unknown %v", rs[0].WindDirUnknown, rs[1].WindDirUnknown)
+	}
+}
+
+// A pressure prints with the decimals a meter shows in its unit (pitcard's
+// own format, units.go): inHg and kPa 2, hPa and mbar 1.
+func TestPressureFormatDecimals(t *testing.T) {
+	p := HPa(1013.25)
+	for u, want := range map[PressureUnit]string{UnitInHg: "29.92 inHg", UnitKPa: "101.33 kPa", UnitHPa: "1013.2 hPa", UnitMbar: "1013.2 mbar"} {
+		if got := p.Format(u); got != want {
+			t.Errorf("Format(%v) = %q, want %q", u, got, want)
+		}
+	}
+}
+
+// A direction is degrees, bare or with ° or deg, or a compass point; any
+// other unit is refused (units.go).
+func TestParseDirectionUnits(t *testing.T) {
+	for in, want := range map[string]float64{"200": 200, "200°": 200, "200deg": 200, "SW": 225} {
+		if got, err := ParseDirection(in); err != nil || got != want {
+			t.Errorf("ParseDirection(%q) = %v, %v; want %v", in, got, err, want)
+		}
+	}
+	for _, in := range []string{"200x", "200 mph", "north-ish"} {
+		if _, err := ParseDirection(in); err == nil {
+			t.Errorf("ParseDirection(%q) accepted", in)
+		}
 	}
 }
