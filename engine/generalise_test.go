@@ -261,8 +261,8 @@ func TestAblation(t *testing.T) {
 	// The bar of TestModelGeneralisesToAnotherWorld holds with all on, and
 	// every mechanism pays for itself (DEVELOPERS.md: one that does not
 	// goes): switched off, the mean ratio to the floor is no better. The
-	// 0.005 allowed lets a tie pass (the split air law read 1.178 on and off
-	// when this was written: it earns its place on the engine's own world).
+	// 0.005 allowed lets a tie at the table's third decimal pass (the split
+	// air law read 1.178 on and off when this was written).
 	if all := means[""]; all > 1.2 {
 		t.Errorf("all mechanisms on: mean ratio %.3f (at most 1.2)", all)
 	}
