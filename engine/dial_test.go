@@ -161,9 +161,15 @@ func TestRecentEstimateCut(t *testing.T) {
 			if tc.kept {
 				want = append(want, d(tc.extra).InexactFloat64())
 			}
-			m, _ := MeanSD(want)
+			m, sd := MeanSD(want)
 			if len(used) != len(want) || math.Abs(est.ET-m) > 1e-9 {
 				t.Errorf("used %d passes, mean %.4f; want %d passes, mean %.4f", len(used), est.ET, len(want), m)
+			}
+			// the spread of a next pass from a sample of k: sd·√(1 + 1/k)
+			// (the prediction interval of a normal sample, statistics),
+			// here above MinSD
+			if next := sd * math.Sqrt(1+1/float64(len(want))); next <= MinSD || math.Abs(est.SD-next) > 1e-9 {
+				t.Errorf("spread %.5f, want %.5f (sample SD %.5f of %d)", est.SD, next, sd, len(want))
 			}
 		})
 	}
