@@ -174,3 +174,23 @@ func TestRecentEstimateCut(t *testing.T) {
 		})
 	}
 }
+
+// RecentEstimate takes the last n clean passes, no more, and two are enough
+// (pitcard's own rule, dial.go).
+func TestRecentEstimateTakesN(t *testing.T) {
+	base := time.Date(2026, 6, 13, 12, 0, 0, 0, time.UTC)
+	var passes []Pass
+	for i, et := range []string{"11.60", "11.50", "11.52", "11.48"} {
+		p := Pass{Time: base.Add(time.Duration(i) * time.Hour)}
+		p.ET[4] = decimal.NewNullDecimal(d(et))
+		passes = append(passes, p)
+	}
+	est, used, err := RecentEstimate(passes, 1320, 3)
+	if err != nil || len(used) != 3 || math.Abs(est.ET-11.50) > 1e-9 {
+		t.Errorf("last 3: %d used, mean %v, %v; want 3, 11.50", len(used), est.ET, err)
+	}
+	est, used, err = RecentEstimate(passes[2:], 1320, 10)
+	if err != nil || len(used) != 2 || math.Abs(est.ET-11.50) > 1e-9 {
+		t.Errorf("two passes: %d used, mean %v, %v; want 2, 11.50", len(used), est.ET, err)
+	}
+}

@@ -210,3 +210,31 @@ func BenchmarkWinChances11(b *testing.B) {
 		WinChances(in, cands)
 	}
 }
+
+// The shares are fractions of the draws (definition), and the rules' order
+// holds inside WinChances too: of two red lights the first to leave loses
+// (common practice, no source); of two dials that win equally, BestForWin
+// posts the slower (less breakout risk for the same chance).
+func TestWinChanceSharesAndRedLights(t *testing.T) {
+	tiny := 1e-7
+	opts := func(ourET, ourRT, oppMargin, oppRT float64) WinOption {
+		in := WinInput{Us: Estimate{ET: ourET, SD: tiny}, UsRT: RTModel{Mean: ourRT, SD: tiny}, Draws: 500, Seed: 7,
+			Opp: Opponent{Dial: decimal.RequireFromString("11.50"), Margin: oppMargin, MarginSD: tiny, RT: RTModel{Mean: oppRT, SD: tiny}}}
+		return WinChances(in, []decimal.Decimal{decimal.RequireFromString("11.50")})[0]
+	}
+	if w := opts(11.49, 0.02, -0.01, 0.03); w.BreakoutChance != 1 || w.OppBreakout != 1 || w.RedLightChance != 0 {
+		t.Errorf("both always break out: ours %v, theirs %v, red %v; want 1, 1, 0", w.BreakoutChance, w.OppBreakout, w.RedLightChance)
+	}
+	if w := opts(11.52, -0.010, 0.02, -0.020); w.Win != 1 || w.RedLightChance != 1 {
+		t.Errorf("both red, the other lane first (−.020 against our −.010): win %v, red %v; want 1, 1", w.Win, w.RedLightChance)
+	}
+	if w := opts(11.52, -0.020, 0.02, -0.010); w.Win != 0 {
+		t.Errorf("both red, ours first: win %v, want 0", w.Win)
+	}
+	slow, fast := WinOption{Dial: decimal.RequireFromString("11.47"), Win: 0.6}, WinOption{Dial: decimal.RequireFromString("11.45"), Win: 0.6}
+	for _, order := range [][]WinOption{{slow, fast}, {fast, slow}} {
+		if got := BestForWin(order); !got.Dial.Equal(slow.Dial) {
+			t.Errorf("equal chances %v: best %s, want the slower 11.47", order, got.Dial)
+		}
+	}
+}
