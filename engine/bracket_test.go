@@ -97,3 +97,122 @@ func TestSettleRefusesImpossibleSlips(t *testing.T) {
 		t.Error("a negative ET was settled")
 	}
 }
+
+// Both lanes fouled: nobody wins on the slips (common practice, no source:
+// the first to foul loses, and only the track's officials can say who that
+// was). Dropping the double-foul case hands the race to the right lane.
+func TestDoubleFoul(t *testing.T) {
+	foul := func(dial, rt, et string) LaneRun { r := run(dial, rt, et); r.Foul = true; return r }
+	cases := []struct {
+		name        string
+		left, right LaneRun
+	}{
+		{"both boundary fouls", foul("12.00", ".020", "12.05"), foul("12.00", ".030", "12.10")},
+		{"both boundary fouls, lanes swapped", foul("12.00", ".030", "12.10"), foul("12.00", ".020", "12.05")},
+		{"both boundary fouls, one also broke out", foul("12.00", ".020", "11.95"), foul("12.00", ".030", "12.10")},
+		{"both red-lit at the same instant", run("12.00", "-.010", "12.05"), run("12.00", "-.010", "12.10")},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			o, err := Settle(tc.left, tc.right, RaceRules{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if o.Winner != "" || o.Reason != ReasonDoubleFoul {
+				t.Errorf("winner %q (%s: %s), want none (%s)", o.Winner, o.Reason, o.Explanation, ReasonDoubleFoul)
+			}
+		})
+	}
+}
+
+// The margin in feet is the margin in seconds at the TRAILING car's speed
+// (physics: the distance the second car still has to cover; 1 mph =
+// 5280/3600 ft/s by definition). Both lanes carry a speed, so taking the
+// leader's or always one lane's speed gives a different number.
+func TestMarginInFeetTrailingLane(t *testing.T) {
+	withMPH := func(r LaneRun, mph string) LaneRun { r.MPH = decimal.NewNullDecimal(d(mph)); return r }
+	cases := []struct {
+		name        string
+		left, right LaneRun
+		first       Lane
+		trailingMPH float64
+	}{
+		// how-to example 1: left first by .010 s; right (105 mph) trails
+		{"left first, right trails", withMPH(run("14.20", ".520", "14.32"), "95"), withMPH(run("13.00", ".550", "13.10"), "105"), Left, 105},
+		{"right first, left trails", withMPH(run("13.00", ".550", "13.10"), "105"), withMPH(run("14.20", ".520", "14.32"), "95"), Right, 105},
+		{"right first, left trails (slower car trails)", withMPH(run("14.20", ".560", "14.32"), "95"), withMPH(run("13.00", ".550", "13.10"), "105"), Right, 95},
+		{"only the leader's speed known: it stands in", run("14.20", ".520", "14.32"), withMPH(run("13.00", ".550", "13.10"), "105"), Left, 105},
+		{"only the trailer's speed known", withMPH(run("14.20", ".520", "14.32"), "95"), run("13.00", ".550", "13.10"), Left, 95},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			o, err := Settle(tc.left, tc.right, RaceRules{RTZero: FromAmber})
+			if err != nil {
+				t.Fatal(err)
+			}
+			want := o.MarginS.InexactFloat64() * tc.trailingMPH * 5280 / 3600
+			if o.First != tc.first || !o.HasMarginFt || math.Abs(o.MarginFt-want) > 1e-9 || o.MarginS.IsZero() {
+				t.Errorf("first %q, margin %s s = %v ft, want first %q and %v ft (at %v mph)", o.First, o.MarginS, o.MarginFt, tc.first, want, tc.trailingMPH)
+			}
+		})
+	}
+}
+
+// The explanation names the lane that lost and why, whichever lane it is
+// (the same precedence as TestSettle; common practice, no source).
+func TestExplanationNamesTheLane(t *testing.T) {
+	foul := func(r LaneRun) LaneRun { r.Foul = true; return r }
+	green := RaceRules{}
+	cases := []struct {
+		name        string
+		left, right LaneRun
+		want        string
+	}{
+		{"left red light", run("12.00", "-.001", "12.05"), run("12.00", ".050", "11.90"), "left red-lit (reaction -0.001)"},
+		{"right red light", run("12.00", ".050", "11.90"), run("12.00", "-.001", "12.05"), "right red-lit (reaction -0.001)"},
+		{"both red, left first", run("12.00", "-.050", "12.10"), run("12.00", "-.002", "12.10"), "both red-lit; left left first (reaction -0.050) and loses"},
+		{"both red, right first", run("12.00", "-.002", "12.10"), run("12.00", "-.050", "12.10"), "both red-lit; right left first (reaction -0.050) and loses"},
+		{"left foul", foul(run("12.00", ".02", "12.01")), run("12.00", ".08", "12.20"), "left fouled (boundary or centerline)"},
+		{"right foul", run("12.00", ".08", "12.20"), foul(run("12.00", ".02", "12.01")), "right fouled (boundary or centerline)"},
+		{"left breakout", run("12.00", ".010", "11.99"), run("12.00", ".200", "12.30"), "left broke out by 0.010 (11.990 on a 12.00 dial)"},
+		{"right breakout", run("12.00", ".200", "12.30"), run("12.00", ".010", "11.99"), "right broke out by 0.010 (11.990 on a 12.00 dial)"},
+		{"both break out, left by less", run("12.00", ".010", "11.99"), run("12.00", ".010", "11.95"), "both broke out; left by less: 0.010 (11.990 on a 12.00 dial) against 0.050 (11.950 on a 12.00 dial)"},
+		{"both break out, right by less", run("12.00", ".010", "11.95"), run("12.00", ".010", "11.99"), "both broke out; right by less: 0.010 (11.990 on a 12.00 dial) against 0.050 (11.950 on a 12.00 dial)"},
+		{"double foul", foul(run("12.00", ".02", "12.01")), foul(run("12.00", ".03", "12.01")), "both lanes fouled: the first to foul loses, and the track's officials decide who that was"},
+		{"tie", run("10.50", ".030", "10.55"), run("11.20", ".020", "11.26"), "both reached the finish at the same thousandth"},
+		{"first to the finish", run("10.50", ".030", "10.55"), run("11.20", ".045", "11.26"), "left reached the finish first by 0.025 s; neither broke out"},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			o, err := Settle(tc.left, tc.right, green)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if o.Explanation != tc.want {
+				t.Errorf("explanation %q, want %q", o.Explanation, tc.want)
+			}
+		})
+	}
+}
+
+// The tree's delay from the last amber to the green: 0.5 s on a full
+// (sportsman) tree, 0.4 s on a pro tree (common practice, no source). On an
+// amber-counted slip a perfect light is then .500 or .400: reaction .000,
+// no red light.
+func TestTreeDelay(t *testing.T) {
+	if !FullTree.Delay().Equal(d("0.5")) || !ProTree.Delay().Equal(d("0.4")) {
+		t.Fatalf("delays: full %s, pro %s", FullTree.Delay(), ProTree.Delay())
+	}
+	for _, tc := range []struct {
+		tree    Tree
+		perfect string
+	}{{ProTree, ".400"}, {FullTree, ".500"}, {"", ".500"}} {
+		o, err := Settle(run("12.00", tc.perfect, "12.05"), run("12.00", tc.perfect, "12.06"), RaceRules{Tree: tc.tree, RTZero: FromAmber})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !o.Left.Reaction.IsZero() || o.Left.RedLight || o.Winner != Left || o.Reason != ReasonFirstToFinish || !o.Left.Finish.Equal(d("12.05")) {
+			t.Errorf("tree %q, light %s: reaction %s, red %v, %s %s, finish %s", tc.tree, tc.perfect, o.Left.Reaction, o.Left.RedLight, o.Winner, o.Reason, o.Left.Finish)
+		}
+	}
+}

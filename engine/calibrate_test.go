@@ -165,6 +165,13 @@ func TestOutliersAreFound(t *testing.T) {
 }
 
 // No logbook: physics from car.yaml alone, with a wide interval that says so.
+// How wide: a car.yaml power figure 10 % off (dyno sheets flatter, crews
+// guess: common practice, from memory) moves the ET by 3.2 % (the cube-root
+// law, Huntington 1958), so one SD below 3.2 %/1.96 = 1.6 % of the ET would
+// claim more than car.yaml can know; one above 5 % (a 95 % interval past
+// ±10 %, wider than the 7.4 % between the power-weight relations' own ET
+// coefficients, 6.290 and 5.825) would know less than a rule of thumb. The
+// interval is the normal's 95 %: ±1.96 SD (definition), to 1 %.
 func TestPhysicsOnlyPrediction(t *testing.T) {
 	fit, err := Calibrate(CalibrateInput{Car: testCar, Track: testTrack, Now: time.Now()})
 	if err != nil {
@@ -172,8 +179,9 @@ func TestPhysicsOnlyPrediction(t *testing.T) {
 	}
 	pr := Predict(fit, PredictInput{Air: j1349Air, Prep: 1})
 	f := pr.Finish()
-	if !pr.PhysicsOnly || f.High-f.Low < 0.10*f.ET || pr.Estimate().SD < 0.02*f.ET {
-		t.Errorf("physics-only %+v", f)
+	sd := pr.Estimate().SD
+	if !pr.PhysicsOnly || sd < 0.016*f.ET || sd > 0.05*f.ET || math.Abs((f.High-f.Low)/(2*1.96*sd)-1) > 0.01 {
+		t.Errorf("physics-only %+v: SD %.4f s (%.2f %% of the ET; want 1.6–5 %%), interval %.3f–%.3f", f, sd, 100*sd/f.ET, f.Low, f.High)
 	}
 	if len(pr.Timers) != 5 || len(pr.Traps) != 2 {
 		t.Errorf("%d timers, %d traps", len(pr.Timers), len(pr.Traps))
@@ -181,7 +189,10 @@ func TestPhysicsOnlyPrediction(t *testing.T) {
 }
 
 // No power figure: estimated from the traps with the power-weight relations
-// (Huntington 1958, Fox 1973 and the later fit), and said so.
+// (Huntington 1958, Fox 1973 and the later fit), and said so. The relations
+// disagree among themselves by (234/224)³ = 14 % in power for the same trap
+// speed, so within 14 % of the true 480 hp (421–547 hp) is all they can
+// promise; the estimate was 454 hp when the test was written.
 func TestPowerFromTraps(t *testing.T) {
 	g := gen{rng: rand.New(rand.NewPCG(5, 6)), truth: DefaultParams(Natural), car: testCar}
 	passes := g.season(2, 8)
@@ -191,7 +202,7 @@ func TestPowerFromTraps(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if !fit.PowerEstimated || fit.PowerHP < 380 || fit.PowerHP > 600 || len(fit.Notes) == 0 {
+	if !fit.PowerEstimated || fit.PowerHP < 480/1.14 || fit.PowerHP > 480*1.14 || len(fit.Notes) == 0 {
 		t.Errorf("estimated %v hp (true 480), notes %v", fit.PowerHP, fit.Notes)
 	}
 	if _, err := Calibrate(CalibrateInput{Car: noPower, Track: testTrack, Now: time.Now()}); err == nil {
@@ -199,7 +210,12 @@ func TestPowerFromTraps(t *testing.T) {
 	}
 }
 
-// The interval widens when today's air is outside what the logbook has seen.
+// The interval widens when today's air is outside what the logbook has seen,
+// the further the wider: a fitted slope's prediction variance grows with
+// the squared distance from the data's centre (least squares, a statistics
+// identity). The logbook spans about 2600 ft of density altitude; 4000 ft
+// beyond it the SD must be at least twice the inside figure (3.8× when the
+// test was written), where a flat "outside" surcharge would give a constant.
 func TestIntervalWidensOutsideTheSeenAir(t *testing.T) {
 	g := gen{rng: rand.New(rand.NewPCG(9, 9)), truth: DefaultParams(Natural), car: testCar}
 	passes := g.season(3, 10)
@@ -209,8 +225,16 @@ func TestIntervalWidensOutsideTheSeenAir(t *testing.T) {
 	outside := ThinnerAir(inside, 4000)
 	a := Predict(fit, PredictInput{Air: inside, Prep: 1, Time: now}).Finish()
 	b := Predict(fit, PredictInput{Air: outside, Prep: 1, Time: now}).Finish()
-	if !(b.SD > a.SD*1.2) {
+	if !(b.SD > a.SD*2) {
 		t.Errorf("SD inside %.4f, 4000 ft beyond %.4f", a.SD, b.SD)
+	}
+	prev := a.SD
+	for _, ft := range []float64{1000, 2000, 3000, 4000} {
+		sd := Predict(fit, PredictInput{Air: ThinnerAir(inside, ft), Prep: 1, Time: now}).Finish().SD
+		if !(sd > prev) {
+			t.Errorf("SD %.4f at %v ft beyond, not above %.4f nearer", sd, ft, prev)
+		}
+		prev = sd
 	}
 }
 
@@ -315,5 +339,150 @@ func TestIntervalSaysWhenItCannotKnow(t *testing.T) {
 	first := Predict(fit, PredictInput{Air: last.Air, Prep: 1, Time: nextDay})
 	if !(first.Finish().SD > same.Finish().SD) || !strings.Contains(strings.Join(first.Notes, " "), "first pass of the day") {
 		t.Errorf("first pass of a day: SD %.4f (later the same day %.4f), notes %q", first.Finish().SD, same.Finish().SD, first.Notes)
+	}
+}
+
+// The outlier rule is two-sided: a pass far QUICKER than the model (a timing
+// fault, a beam tripped early) is as wrong as a pedaled one and is left out
+// too; a pass just inside the limit is kept. The limit is OutlierMADs robust
+// deviations (4 × 1.4826 × MAD: the 1.4826 makes the MAD a standard
+// deviation for normal scatter, a statistics identity; 4 of them is common
+// practice for a robust cut, from memory), never below OutlierFloor.
+func TestOutliersBothWays(t *testing.T) {
+	truth := Params{PowerScale: 0.95, TractionScale: 1.05, PressureExp: 1, TempExp: 0.5, TrackOptF: 110, TrackWidthF: 40}
+	g := gen{rng: rand.New(rand.NewPCG(3, 4)), truth: truth, car: testCar}
+	passes := g.season(4, 10)
+	plant := func(i int, add float64) {
+		et := passes[i].ET[4].Decimal.Add(decimal.NewFromFloat(add))
+		passes[i].ET[4] = decimal.NewNullDecimal(et)
+	}
+	plant(12, -0.40) // a timing fault: four tenths quick
+	plant(25, -0.25)
+	plant(36, +0.45) // a pedaled run
+	fit, err := Calibrate(CalibrateInput{Car: testCar, Track: testTrack, Passes: passes, Now: passes[len(passes)-1].Time.Add(time.Hour)})
+	if err != nil {
+		t.Fatal(err)
+	}
+	found := map[time.Time]string{}
+	for _, o := range fit.Outliers {
+		found[o.Pass.Time] = o.Reason
+	}
+	for _, i := range []int{12, 25, 36} {
+		if _, ok := found[passes[i].Time]; !ok {
+			t.Errorf("planted outlier %d not found; outliers %v", i, fit.Outliers)
+		}
+	}
+	if !strings.HasPrefix(found[passes[12].Time], "ran 0.") || !strings.Contains(found[passes[12].Time], "quicker than the model expects") {
+		t.Errorf("the quick pass's reason %q does not give its signed miss", found[passes[12].Time])
+	}
+	if len(fit.Outliers) > 4 {
+		t.Errorf("%d outliers for 3 planted: %v", len(fit.Outliers), fit.Outliers)
+	}
+}
+
+// With fewer than FewForOutliers (8) clean passes only a gross miss, beyond
+// GrossOutlier (0.20 s), is left out: a handful of passes cannot say what
+// scatter is normal (pitcard's own rule, calibrate.go). From 8 passes on,
+// the robust limit applies and a 0.15 s miss is left out.
+func TestFewPassesLeaveOutOnlyGrossMisses(t *testing.T) {
+	truth := Params{PowerScale: 0.95, TractionScale: 1.05, PressureExp: 1, TempExp: 0.5, TrackOptF: 110, TrackWidthF: 40}
+	cases := []struct {
+		name    string
+		n       int
+		miss    float64
+		leftOut bool
+	}{
+		{"7 passes, a 0.15 s miss kept", 7, 0.15, false},
+		{"7 passes, a 0.30 s miss left out", 7, 0.30, true},
+		{"8 passes, a 0.15 s miss left out", 8, 0.15, true},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			g := gen{rng: rand.New(rand.NewPCG(11, 12)), truth: truth, car: testCar}
+			passes := g.day(time.Date(2026, 5, 2, 0, 0, 0, 0, time.UTC), tc.n, 29.0)
+			i := tc.n / 2
+			passes[i].ET[4] = decimal.NewNullDecimal(passes[i].ET[4].Decimal.Add(decimal.NewFromFloat(tc.miss)))
+			fit, err := Calibrate(CalibrateInput{Car: testCar, Track: testTrack, Passes: passes, Now: passes[tc.n-1].Time.Add(time.Hour)})
+			if err != nil {
+				t.Fatal(err)
+			}
+			found := false
+			for _, o := range fit.Outliers {
+				found = found || o.Pass.Time.Equal(passes[i].Time)
+			}
+			if found != tc.leftOut || len(fit.Outliers) > 1 {
+				t.Errorf("the %.2f s miss left out: %v, want %v; outliers %v", tc.miss, found, tc.leftOut, fit.Outliers)
+			}
+		})
+	}
+}
+
+// The robust limit is 4 × 1.4826 × MAD (see TestOutliersBothWays): in a
+// logbook that scatters 0.03 s (a car with some scatter, stats.go's band),
+// a pass 0.12 s off is inside it (about 4 SD) and kept; 0.30 s is not.
+func TestScatterSetsTheLimit(t *testing.T) {
+	truth := Params{PowerScale: 0.95, TractionScale: 1.05, PressureExp: 1, TempExp: 0.5, TrackOptF: 110, TrackWidthF: 40}
+	g := gen{rng: rand.New(rand.NewPCG(13, 14)), truth: truth, car: testCar}
+	passes := g.season(3, 10)
+	noise := rand.New(rand.NewPCG(15, 16))
+	for i := range passes {
+		passes[i].ET[4] = decimal.NewNullDecimal(passes[i].ET[4].Decimal.Add(decimal.NewFromFloat(noise.NormFloat64() * 0.03).Round(3)))
+	}
+	kept, out := 7, 22
+	passes[kept].ET[4] = decimal.NewNullDecimal(passes[kept].ET[4].Decimal.Add(decimal.NewFromFloat(0.12)))
+	passes[out].ET[4] = decimal.NewNullDecimal(passes[out].ET[4].Decimal.Add(decimal.NewFromFloat(0.30)))
+	fit, err := Calibrate(CalibrateInput{Car: testCar, Track: testTrack, Passes: passes, Now: passes[len(passes)-1].Time.Add(time.Hour)})
+	if err != nil {
+		t.Fatal(err)
+	}
+	found := map[time.Time]bool{}
+	for _, o := range fit.Outliers {
+		found[o.Pass.Time] = true
+	}
+	if found[passes[kept].Time] || !found[passes[out].Time] {
+		t.Errorf("0.12 s miss left out: %v (want kept); 0.30 s miss left out: %v (want so); outliers %v", found[passes[kept].Time], found[passes[out].Time], fit.Outliers)
+	}
+}
+
+// Left out means left out of the fit: the passes named as outliers are not
+// among the fit's samples (calibrate.go refits without them), and the
+// prediction from a logbook with three planted misses (+0.45, +1.20 and
+// −0.40 s) matches the one from the same logbook without them within
+// 0.005 s.
+func TestOutliersAreLeftOutOfTheFit(t *testing.T) {
+	truth := Params{PowerScale: 0.95, TractionScale: 1.05, PressureExp: 1, TempExp: 0.5, TrackOptF: 110, TrackWidthF: 40}
+	g := gen{rng: rand.New(rand.NewPCG(3, 4)), truth: truth, car: testCar}
+	clean := g.season(4, 10)
+	planted := append([]Pass(nil), clean...)
+	for i, add := range map[int]float64{33: 0.45, 36: 1.20, 12: -0.40} {
+		planted[i].ET[4] = decimal.NewNullDecimal(planted[i].ET[4].Decimal.Add(decimal.NewFromFloat(add)))
+	}
+	now := clean[len(clean)-1].Time.Add(time.Hour)
+	fit := func(passes []Pass) Fit {
+		f, err := Calibrate(CalibrateInput{Car: testCar, Track: testTrack, Passes: passes, Now: now})
+		if err != nil {
+			t.Fatal(err)
+		}
+		return f
+	}
+	fc, fp := fit(clean), fit(planted)
+	if len(fp.Outliers) < 3 {
+		t.Fatalf("outliers %v", fp.Outliers)
+	}
+	for _, o := range fp.Outliers {
+		for _, s := range fp.Samples {
+			if s.Pass.Time.Equal(o.Pass.Time) {
+				t.Errorf("outlier %s is still a sample of the fit", o.Pass.Time.Format("01-02 15:04"))
+			}
+		}
+	}
+	if len(fp.Samples) != len(planted)-len(fp.Outliers) {
+		t.Errorf("%d samples from %d passes less %d outliers", len(fp.Samples), len(planted), len(fp.Outliers))
+	}
+	air := clean[len(clean)-1].Air
+	a := Predict(fc, PredictInput{Air: air, Prep: 1, Time: now}).Finish().ET
+	b := Predict(fp, PredictInput{Air: air, Prep: 1, Time: now}).Finish().ET
+	if math.Abs(a-b) > 0.005 {
+		t.Errorf("prediction %.4f s with the misses left out, %.4f s from the clean logbook", b, a)
 	}
 }

@@ -164,3 +164,74 @@ func TestAbortedNotes(t *testing.T) {
 		t.Errorf("the crew's own words add to the defaults: %v", crew)
 	}
 }
+
+// RecentEstimate leaves out a pass beyond 4 robust deviations of the median
+// (4 × 1.4826 × MAD, the 1.4826 making the MAD a standard deviation for
+// normal scatter: a statistics identity; the 4 is common practice for a
+// robust cut, from memory), QUICK or slow, and keeps one inside. Five clean
+// passes 11.48–11.52 s have a MAD of 0.015 s, so 1.4826 × MAD = 0.0222 s
+// and the cut is 0.0890 s from the median (hand arithmetic): a pass 0.13 s
+// out is 5.8 deviations (left out; an 8-deviation rule would keep it), one
+// 0.075 s out is 3.4 (kept; a rule on the MAD alone would drop it).
+func TestRecentEstimateCut(t *testing.T) {
+	base := time.Date(2026, 6, 13, 12, 0, 0, 0, time.UTC)
+	clean := []string{"11.50", "11.52", "11.48", "11.51", "11.49"}
+	cases := []struct {
+		name  string
+		extra string
+		kept  bool
+	}{
+		{"slow by 5.8 deviations: left out", "11.635", false},
+		{"quick by 5.4 deviations (a timing fault): left out", "11.375", false},
+		{"slow by 3.4 deviations: kept", "11.580", true},
+		{"quick by 3.4 deviations: kept", "11.420", true},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			var passes []Pass
+			for i, et := range append(append([]string(nil), clean...), tc.extra) {
+				p := Pass{Time: base.Add(time.Duration(i) * time.Hour)}
+				p.ET[4] = decimal.NewNullDecimal(d(et))
+				passes = append(passes, p)
+			}
+			est, used, err := RecentEstimate(passes, 1320, 10, nil)
+			if err != nil {
+				t.Fatal(err)
+			}
+			want := []float64{11.50, 11.52, 11.48, 11.51, 11.49}
+			if tc.kept {
+				want = append(want, d(tc.extra).InexactFloat64())
+			}
+			m, sd := MeanSD(want)
+			if len(used) != len(want) || math.Abs(est.ET-m) > 1e-9 {
+				t.Errorf("used %d passes, mean %.4f; want %d passes, mean %.4f", len(used), est.ET, len(want), m)
+			}
+			// the spread of a next pass from a sample of k: sd·√(1 + 1/k)
+			// (the prediction interval of a normal sample, statistics),
+			// here above MinSD
+			if next := sd * math.Sqrt(1+1/float64(len(want))); next <= MinSD || math.Abs(est.SD-next) > 1e-9 {
+				t.Errorf("spread %.5f, want %.5f (sample SD %.5f of %d)", est.SD, next, sd, len(want))
+			}
+		})
+	}
+}
+
+// RecentEstimate takes the last n clean passes, no more, and two are enough
+// (pitcard's own rule, dial.go).
+func TestRecentEstimateTakesN(t *testing.T) {
+	base := time.Date(2026, 6, 13, 12, 0, 0, 0, time.UTC)
+	var passes []Pass
+	for i, et := range []string{"11.60", "11.50", "11.52", "11.48"} {
+		p := Pass{Time: base.Add(time.Duration(i) * time.Hour)}
+		p.ET[4] = decimal.NewNullDecimal(d(et))
+		passes = append(passes, p)
+	}
+	est, used, err := RecentEstimate(passes, 1320, 3, nil)
+	if err != nil || len(used) != 3 || math.Abs(est.ET-11.50) > 1e-9 {
+		t.Errorf("last 3: %d used, mean %v, %v; want 3, 11.50", len(used), est.ET, err)
+	}
+	est, used, err = RecentEstimate(passes[2:], 1320, 10, nil)
+	if err != nil || len(used) != 2 || math.Abs(est.ET-11.50) > 1e-9 {
+		t.Errorf("two passes: %d used, mean %v, %v; want 2, 11.50", len(used), est.ET, err)
+	}
+}

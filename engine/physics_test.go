@@ -117,19 +117,49 @@ func TestKinematics(t *testing.T) {
 	}
 }
 
-// Physics: the trap speed over 66 ft equals 66 ft over the time between the
-// two beams, by definition; the integrator's own times must agree.
+// The trap speed is the average over the 66 ft before the timer (common
+// practice, no source), checked with kinematics written here apart from the
+// integrator: between the 1000 ft and 1320 ft timers (and 330 and 660) the
+// acceleration changes slowly, so v² is close to linear in distance; the
+// mean speed over the last L feet is then L over ∫dx/v. For this car a
+// 66 ft trap sits 0.9 mph under the line speed at 1320 ft and a 132 ft one
+// 1.8 mph; at 660 ft, 1.7 and 3.5 mph. The linear v² is off by 0.06 mph at
+// 1320 ft and 0.20 at 660 ft, where the car still pulls hard (measured
+// when the test was written): the tolerances, 0.15 and 0.35 mph, sit
+// between that and what a 132 ft trap would move (0.9 and 1.8 mph).
 func TestTrapIsTheAverageOver66Feet(t *testing.T) {
 	c := Car{WeightLb: 3200, PowerHP: 400, Induction: Natural, DistanceFt: 1320}
 	v := NewVehicle(c, 0)
 	env := NewEnv(j1349Air, 0, 1, v.MassKg)
 	full := Simulate(&v, DefaultParams(Natural), env, 1320)
-	// The speed at 1320 ft and at 1254 ft bracket the average.
-	if !(full.MPH1320 < full.MPH[4]) {
-		t.Errorf("trap %.3f ≥ line speed %.3f", full.MPH1320, full.MPH[4])
+	trap := func(vFrom, vTo, spanFt, lengthFt float64) float64 {
+		// v² = vTo² − k·(end − x), k from the two timers' speeds
+		k := (vTo*vTo - vFrom*vFrom) / spanFt
+		const n = 1000
+		var tm float64
+		for i := range n {
+			x := lengthFt * (float64(i) + 0.5) / n // feet before the timer
+			tm += lengthFt / n / math.Sqrt(vTo*vTo-k*x)
+		}
+		return lengthFt / tm
 	}
-	if full.MPH1320 < full.MPH[4]*0.97 {
-		t.Errorf("trap %.3f far below the line speed %.3f", full.MPH1320, full.MPH[4])
+	cases := []struct {
+		name                 string
+		got, vFrom, vTo, tol float64
+		spanFt               float64
+	}{
+		{"quarter (1320 ft)", full.MPH1320, full.MPH[3], full.MPH[4], 0.15, 320},
+		{"eighth (660 ft)", full.MPH660, full.MPH[1], full.MPH[2], 0.35, 330},
+	}
+	for _, tc := range cases {
+		want := trap(tc.vFrom, tc.vTo, tc.spanFt, 66)
+		if math.Abs(tc.got-want) > tc.tol {
+			t.Errorf("%s trap %.3f mph; over the last 66 ft the kinematics give %.3f (132 ft: %.3f; line speed %.3f)",
+				tc.name, tc.got, want, trap(tc.vFrom, tc.vTo, tc.spanFt, 132), tc.vTo)
+		}
+		if testing.Verbose() {
+			t.Logf("%s: trap %.3f, 66 ft kinematics %.3f, 132 ft %.3f, line %.3f", tc.name, tc.got, want, trap(tc.vFrom, tc.vTo, tc.spanFt, 132), tc.vTo)
+		}
 	}
 }
 

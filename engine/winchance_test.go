@@ -63,12 +63,27 @@ func TestWinChanceLimits(t *testing.T) {
 	}
 }
 
-// Against an independent check: a plain Monte Carlo of 10⁶ races written
-// here, each slip built in decimals and settled by Settle itself, agrees
-// within 0.3 points (its own error is ±0.1 points, 95 %).
+// rtDraw is the reaction-time model as WinChances documents it, written
+// again here so the cross-check does not run the code under test: a normal
+// of Mean and SD, or with logged times one of them at random plus a normal
+// jitter of a fifth of their spread (a smoothed bootstrap).
+func rtDraw(m RTModel, r *rand.Rand) float64 {
+	if len(m.Samples) == 0 {
+		return m.Mean + m.SD*r.NormFloat64()
+	}
+	_, sd := MeanSD(m.Samples)
+	return m.Samples[r.IntN(len(m.Samples))] + 0.2*sd*r.NormFloat64()
+}
+
+// Against an independent check: a plain Monte Carlo of races written here,
+// each slip built in decimals, its reaction times from rtDraw, settled by
+// Settle itself. 10⁶ races agree within 0.3 points (WinChances' own error
+// is ±0.5 points at 95 %, the draws are seeded); under -short, 10⁵ races
+// within 0.8 (their error grows by √10).
 func TestWinChanceAgreesWithSettle(t *testing.T) {
+	n, tol := 1_000_000, 0.003
 	if testing.Short() {
-		t.Skip("10⁶ settled races; run without -short")
+		n, tol = 100_000, 0.008
 	}
 	cases := []WinInput{
 		{Us: Estimate{ET: 11.50, SD: 0.025}, UsRT: RTModel{Mean: 0.03, SD: 0.02},
@@ -80,7 +95,6 @@ func TestWinChanceAgreesWithSettle(t *testing.T) {
 		dial := decimal.NewFromFloat(in.Us.ET - 0.02).Round(2)
 		in.Seed = uint64(10 + ci)
 		got := WinChances(in, []decimal.Decimal{dial})[0].Win
-		const n = 1_000_000
 		var wins float64
 		var mu sync.Mutex
 		var wg sync.WaitGroup
@@ -92,8 +106,8 @@ func TestWinChanceAgreesWithSettle(t *testing.T) {
 				var w float64
 				for range n / 4 {
 					sec := func(v float64) decimal.Decimal { return decimal.NewFromFloat(v).Round(3) }
-					us := LaneRun{Dial: dial, RT: sec(in.UsRT.draw(r)), ET: sec(in.Us.ET + in.Us.SD*r.NormFloat64())}
-					op := LaneRun{Dial: in.Opp.Dial, RT: sec(in.Opp.RT.draw(r)), ET: sec(in.Opp.Dial.InexactFloat64() + in.Opp.Margin + in.Opp.MarginSD*r.NormFloat64())}
+					us := LaneRun{Dial: dial, RT: sec(rtDraw(in.UsRT, r)), ET: sec(in.Us.ET + in.Us.SD*r.NormFloat64())}
+					op := LaneRun{Dial: in.Opp.Dial, RT: sec(rtDraw(in.Opp.RT, r)), ET: sec(in.Opp.Dial.InexactFloat64() + in.Opp.Margin + in.Opp.MarginSD*r.NormFloat64())}
 					o, err := Settle(us, op, RaceRules{})
 					if err != nil {
 						continue
@@ -111,10 +125,59 @@ func TestWinChanceAgreesWithSettle(t *testing.T) {
 			}()
 		}
 		wg.Wait()
-		mc := wins / n
-		if math.Abs(got-mc) > 0.003 {
-			t.Errorf("case %d: WinChances %.4f, Monte Carlo with Settle %.4f", ci, got, mc)
+		mc := wins / float64(n)
+		if math.Abs(got-mc) > tol {
+			t.Errorf("case %d: WinChances %.4f, Monte Carlo with Settle %.4f (%d races; want within %.3f)", ci, got, mc, n, tol)
 		}
+		if testing.Verbose() {
+			t.Logf("case %d: WinChances %.4f, Monte Carlo %.4f (%d races)", ci, got, mc, n)
+		}
+	}
+}
+
+// The bootstrap's jitter, in closed form: a driver whose logged reaction
+// times are five .000s and five .060s (spread 0.0316 s) draws .000 half the
+// time, jittered by a normal of 0.2 × 0.0316 s; rounded to the thousandth a
+// slip shows, it is a red light below −0.0005 s, so the red-light share is
+// ½·Φ(−0.0005/0.00632) = 0.2342 (statistics, the model's own definition).
+// Without the jitter it would be 0, with half of it 0.218. Against a slow
+// opponent who never red-lights or breaks out, that is all we lose by.
+func TestWinChanceRTJitter(t *testing.T) {
+	logged := []float64{0, 0.06, 0, 0.06, 0, 0.06, 0, 0.06, 0, 0.06}
+	in := WinInput{Us: Estimate{ET: 11.60, SD: 0.005}, UsRT: NewRTModel(logged, 0, 0), Seed: 5,
+		Opp: Opponent{Dial: decimal.RequireFromString("12.00"), Margin: 0.30, MarginSD: 0.005, RT: RTModel{Mean: 0.05, SD: 0.005}}}
+	w := WinChances(in, []decimal.Decimal{decimal.RequireFromString("11.50")})[0]
+	sd := math.Sqrt(10 * 0.03 * 0.03 / 9)
+	red := 0.5 * NormalCDF(-0.0005/(0.2*sd))
+	// ±0.008: 3.8 standard errors of WinDraws draws (√(0.234·0.766/40000) = 0.0021)
+	if math.Abs(w.RedLightChance-red) > 0.008 || math.Abs(w.Win-(1-red)) > 0.008 {
+		t.Errorf("red lights %.4f, win %.4f; the smoothed bootstrap gives %.4f and %.4f", w.RedLightChance, w.Win, red, 1-red)
+	}
+}
+
+// Dead on the dial is not a breakout (common practice, no source): an ET
+// equal to the dial to the thousandth, ours or the opponent's, counts as
+// on it, so the race goes on the package.
+func TestWinChanceDeadOnTheDial(t *testing.T) {
+	tiny := 1e-7
+	cases := []struct {
+		name                     string
+		ourET, ourRT, oppMargin  float64
+		oppRT, win, bo, oppBreak float64
+	}{
+		{"we are dead on, they are over: our .020 light wins", 11.50, 0.020, 0.010, 0.040, 1, 0, 0},
+		{"they are dead on, we are over: their .020 light wins", 11.51, 0.040, 0, 0.020, 0, 0, 0},
+		{"both dead on: the better light wins", 11.50, 0.015, 0, 0.025, 1, 0, 0},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			in := WinInput{Us: Estimate{ET: c.ourET, SD: tiny}, UsRT: RTModel{Mean: c.ourRT, SD: tiny}, Draws: 500, Seed: 6,
+				Opp: Opponent{Dial: decimal.RequireFromString("11.80"), Margin: c.oppMargin, MarginSD: tiny, RT: RTModel{Mean: c.oppRT, SD: tiny}}}
+			w := WinChances(in, []decimal.Decimal{decimal.RequireFromString("11.50")})[0]
+			if w.Win != c.win || w.BreakoutChance != c.bo || w.OppBreakout != c.oppBreak {
+				t.Errorf("win %.3f, our breakout %.3f, theirs %.3f; want %v, %v, %v", w.Win, w.BreakoutChance, w.OppBreakout, c.win, c.bo, c.oppBreak)
+			}
+		})
 	}
 }
 
@@ -145,5 +208,33 @@ func BenchmarkWinChances11(b *testing.B) {
 	cands := dials(11.40, 0.01, 11)
 	for b.Loop() {
 		WinChances(in, cands)
+	}
+}
+
+// The shares are fractions of the draws (definition), and the rules' order
+// holds inside WinChances too: of two red lights the first to leave loses
+// (common practice, no source); of two dials that win equally, BestForWin
+// posts the slower (less breakout risk for the same chance).
+func TestWinChanceSharesAndRedLights(t *testing.T) {
+	tiny := 1e-7
+	opts := func(ourET, ourRT, oppMargin, oppRT float64) WinOption {
+		in := WinInput{Us: Estimate{ET: ourET, SD: tiny}, UsRT: RTModel{Mean: ourRT, SD: tiny}, Draws: 500, Seed: 7,
+			Opp: Opponent{Dial: decimal.RequireFromString("11.50"), Margin: oppMargin, MarginSD: tiny, RT: RTModel{Mean: oppRT, SD: tiny}}}
+		return WinChances(in, []decimal.Decimal{decimal.RequireFromString("11.50")})[0]
+	}
+	if w := opts(11.49, 0.02, -0.01, 0.03); w.BreakoutChance != 1 || w.OppBreakout != 1 || w.RedLightChance != 0 {
+		t.Errorf("both always break out: ours %v, theirs %v, red %v; want 1, 1, 0", w.BreakoutChance, w.OppBreakout, w.RedLightChance)
+	}
+	if w := opts(11.52, -0.010, 0.02, -0.020); w.Win != 1 || w.RedLightChance != 1 {
+		t.Errorf("both red, the other lane first (−.020 against our −.010): win %v, red %v; want 1, 1", w.Win, w.RedLightChance)
+	}
+	if w := opts(11.52, -0.020, 0.02, -0.010); w.Win != 0 {
+		t.Errorf("both red, ours first: win %v, want 0", w.Win)
+	}
+	slow, fast := WinOption{Dial: decimal.RequireFromString("11.47"), Win: 0.6}, WinOption{Dial: decimal.RequireFromString("11.45"), Win: 0.6}
+	for _, order := range [][]WinOption{{slow, fast}, {fast, slow}} {
+		if got := BestForWin(order); !got.Dial.Equal(slow.Dial) {
+			t.Errorf("equal chances %v: best %s, want the slower 11.47", order, got.Dial)
+		}
 	}
 }

@@ -102,8 +102,13 @@ func TestGather(t *testing.T) {
 		if err := render(&buf, c); err != nil {
 			t.Fatal(err)
 		}
-		if !strings.Contains(buf.String(), "Drag racing can kill") {
-			t.Errorf("a rendering lacks the cautions")
+		// every renderer carries what the crew acts on: the dial to post
+		// and the rules' total, the failed rule with its file and line, the
+		// flag on a total beyond the setting, and the cautions
+		for _, w := range []string{engine.FormatSeconds(c.FinalDial, 2), "the rules add up to -0.07 s", "rules/c.lua:2: boom", "Drag racing can kill"} {
+			if !strings.Contains(buf.String(), w) {
+				t.Errorf("a rendering (%.60q…) lacks %q", buf.String(), w)
+			}
 		}
 	}
 }

@@ -271,7 +271,7 @@ func newLibrary(limits Limits) *library {
 	L.SetGlobal("unpack", L.NewFunction(func(L *lua.LState) int {
 		t := L.CheckTable(1)
 		i, j := L.OptInt(2, 1), L.OptInt(3, t.Len())
-		if j-i > 10000 {
+		if j-i+1 > 10000 { // j-i+1 values: 10000 pass, 10001 do not
 			L.RaiseError("unpack: %d values at once; a rule may unpack at most 10000", j-i+1)
 		}
 		top := L.GetTop()

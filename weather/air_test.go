@@ -43,8 +43,8 @@ func TestDewPointFromRH(t *testing.T) {
 }
 
 // Source: U.S. Standard Atmosphere 1976 (dry air at sea level, 15 °C,
-// 1013.25 hPa = 1.2250 kg/m³); the moist value is the ideal-gas mixture and
-// agrees with CIPM-2007 (Picard et al., Metrologia 45, 2008) within 0.05 %.
+// 1013.25 hPa = 1.2250 kg/m³, itself an ideal-gas figure). Moist air is
+// checked against CIPM-2007 in TestAirDensityCIPM2007.
 func TestAirDensity(t *testing.T) {
 	cases := []struct {
 		name     string
@@ -53,7 +53,6 @@ func TestAirDensity(t *testing.T) {
 		tol      float64
 	}{
 		{"dry standard air, USSA 1976", 15, 1013.25, 0, 1.2250, 0.0001},
-		{"20 °C 50 % RH, CIPM-2007", 20, 1013.25, 0.5, 1.1988, 0.0005},
 	}
 	for _, tc := range cases {
 		e := VaporPressureRH(Celsius(tc.c), tc.rh)
@@ -75,12 +74,15 @@ func TestHumidAirIsLighter(t *testing.T) {
 }
 
 // Source: ASHRAE Handbook — Fundamentals, psychrometric tables: 80 °F, 50 % RH at
-// sea level holds about 76–77 grains of water per lb of dry air (tolerance 1 %).
+// sea level holds 76–77 grains of water per lb of dry air. The band is the
+// table's own (1.3 % wide), with nothing added: a humidity ratio 1 % off
+// (0.628 for 0.622) reads 77.2 and fails. The constant itself is pinned in
+// TestHumidityRatioConstant.
 func TestGrainsASHRAE(t *testing.T) {
 	e := VaporPressureRH(Fahrenheit(80), 0.5)
 	got := GrainsPerLb(e, HPa(1013.25))
-	if got < 76*0.99 || got > 77*1.01 {
-		t.Errorf("grains at 80 °F 50 %% RH = %.2f, want 76–77 (±1 %%)", got)
+	if got < 76 || got > 77 {
+		t.Errorf("grains at 80 °F 50 %% RH = %.2f, want 76–77", got)
 	}
 }
 
@@ -226,23 +228,30 @@ func TestCorrectionFactorsAtTheirStandard(t *testing.T) {
 		{"DIN 70020", CFDIN70020(Celsius(20), HPa(1013))},
 	}
 	for _, tc := range cases {
-		if math.Abs(tc.got-1) > 1e-12 {
+		if !(math.Abs(tc.got-1) <= 1e-12) { // NaN fails too
 			t.Errorf("%s at its standard = %.15f, want 1", tc.name, tc.got)
 		}
 	}
 }
 
-// Source: published dyno-correction worked examples (SAE J607 "STD"):
-// 85 °F, 85 % RH, 28.85 inHg → CF ≈ 1.10; 55 °F, 35 % RH, 30.10 inHg → CF ≈ 0.994.
+// Source: SAE J607 "STD", CF = (29.92/Pd_inHg)·√((T_°F + 459.67)/519.67)
+// on DRY pressure, worked by hand: 85 °F, 85 % RH, 28.85 inHg has
+// e = 0.85 × 41.12 hPa (Buck; CRC Handbook agrees within 0.1 %) = 1.032 inHg,
+// Pd = 27.818 inHg, CF = 1.0756 × 1.0238 = 1.1011; 55 °F, 35 % RH,
+// 30.10 inHg has e = 0.35 × 14.76 hPa = 0.153 inHg, Pd = 29.947 inHg,
+// CF = 0.99908 × 0.99518 = 0.9943. Dyno-correction notes quote the same
+// two as ≈ 1.10 and ≈ 0.994 (from memory). The tolerance, 0.0005, is the
+// hand arithmetic's rounding; a factor on total pressure is 3.6 % off in
+// the first case.
 func TestCFSTDWorkedExample(t *testing.T) {
 	cases := []struct{ f, rh, inHg, want float64 }{
-		{85, 0.85, 28.85, 1.10},
-		{55, 0.35, 30.10, 0.994},
+		{85, 0.85, 28.85, 1.1011},
+		{55, 0.35, 30.10, 0.9943},
 	}
 	for _, tc := range cases {
 		a := Reading{Temp: Fahrenheit(tc.f), Baro: InHg(tc.inHg), RH: tc.rh}.Derive(0)
-		if math.Abs(a.CFSTD-tc.want) > 0.003 {
-			t.Errorf("STD CF at %v °F %v %% %v inHg = %.4f, worked example %.3f ± 0.003", tc.f, tc.rh*100, tc.inHg, a.CFSTD, tc.want)
+		if math.Abs(a.CFSTD-tc.want) > 0.0005 {
+			t.Errorf("STD CF at %v °F %v %% %v inHg = %.4f, by hand from SAE J607 %.4f ± 0.0005", tc.f, tc.rh*100, tc.inHg, a.CFSTD, tc.want)
 		}
 	}
 }

@@ -4,9 +4,11 @@ import (
 	"bytes"
 	"encoding/json"
 	"flag"
+	"fmt"
 	"os"
 	"os/exec"
 	"path/filepath"
+	"regexp"
 	"strconv"
 	"strings"
 	"testing"
@@ -15,13 +17,19 @@ import (
 
 var update = flag.Bool("update", false, "rewrite the golden cards in testdata/")
 
-// The demo cards are golden files: a change shows as a diff to review.
-// Regenerate with: go test ./cmd/pitcard -run TestDemoCardGolden -update
+// The demo cards are golden files: a change shows as a diff to review, and
+// the diff is told figure by figure ("CF J1349 (2004) / DIN: 1.0990 →
+// 1.0871"), when the test fails and when -update rewrites them, so a change
+// of physics is seen as the figures it moved, not as a rewritten file.
+// Regenerate with: go test ./cmd/pitcard -run TestDemoCardGolden -update -v
 func TestDemoCardGolden(t *testing.T) {
 	for _, tc := range []struct{ format, file string }{{"text", "card-demo.txt"}, {"markdown", "card-demo.md"}} {
 		out := mustRun(t, "card", "--demo", "--format", tc.format)
 		path := filepath.Join("testdata", tc.file)
 		if *update {
+			if old, err := os.ReadFile(path); err == nil && string(old) != out {
+				t.Logf("%s: what changed, figure by figure:\n%s", path, strings.Join(figureChanges(string(old), out), "\n"))
+			}
 			if err := os.WriteFile(path, []byte(out), 0o644); err != nil {
 				t.Fatal(err)
 			}
@@ -32,8 +40,127 @@ func TestDemoCardGolden(t *testing.T) {
 			t.Fatalf("%v (run with -update to create it)", err)
 		}
 		if out != string(want) {
-			t.Errorf("%s card differs from %s (review, then regenerate with -update):\n%s", tc.format, path, firstDiff(out, string(want)))
+			t.Errorf("%s card differs from %s (review, then regenerate with -update -v):\n%s\n%s", tc.format, path,
+				strings.Join(figureChanges(string(want), out), "\n"), firstDiff(out, string(want)))
 		}
+	}
+}
+
+// figureRe is one figure of a card: a number with its sign and decimals, a
+// clock time (20:45) or a date (2026-06-13).
+var figureRe = regexp.MustCompile(`[-+]?\d+(?:[.:]\d+)*(?:-\d+)*`)
+
+// figureChanges lists what changed from old to new, two renderings of a
+// card: lines of the same shape (their words, the figures masked) are paired
+// in order (a longest common subsequence), and each figure that differs is
+// named by its row's label and its place in the row; lines without a pair
+// are listed as removed or added.
+func figureChanges(old, new string) []string {
+	ol, nl := strings.Split(old, "\n"), strings.Split(new, "\n")
+	shape := func(l string) string { return strings.Join(strings.Fields(figureRe.ReplaceAllString(l, "#")), " ") }
+	os, ns := make([]string, len(ol)), make([]string, len(nl))
+	for i, l := range ol {
+		os[i] = shape(l)
+	}
+	for j, l := range nl {
+		ns[j] = shape(l)
+	}
+	// lcs[i][j]: the longest common subsequence of os[i:] and ns[j:]
+	lcs := make([][]int, len(ol)+1)
+	for i := range lcs {
+		lcs[i] = make([]int, len(nl)+1)
+	}
+	for i := len(ol) - 1; i >= 0; i-- {
+		for j := len(nl) - 1; j >= 0; j-- {
+			if os[i] == ns[j] {
+				lcs[i][j] = lcs[i+1][j+1] + 1
+			} else {
+				lcs[i][j] = max(lcs[i+1][j], lcs[i][j+1])
+			}
+		}
+	}
+	// row splits a line into its label and its figures: a table row's label
+	// is its first non-empty cell and its figures those of the other cells
+	// (so J1349 in a label is no figure); another line's label is its text
+	// before the first figure
+	row := func(l string) (string, []string) {
+		sep := ""
+		for _, x := range []string{"│", "|"} {
+			if strings.Contains(l, x) {
+				sep = x
+				break
+			}
+		}
+		if sep == "" {
+			loc := figureRe.FindStringIndex(l)
+			if loc == nil {
+				return strings.TrimSpace(l), nil
+			}
+			return strings.Trim(l[:loc[0]], " #*-:"), figureRe.FindAllString(l, -1)
+		}
+		parts := strings.Split(l, sep)
+		for k, c := range parts {
+			if c = strings.Trim(c, " *"); c != "" {
+				var figs []string
+				for _, r := range parts[k+1:] {
+					figs = append(figs, figureRe.FindAllString(r, -1)...)
+				}
+				return c, figs
+			}
+		}
+		return "", nil
+	}
+	var out []string
+	i, j := 0, 0
+	for i < len(ol) || j < len(nl) {
+		switch {
+		case i < len(ol) && j < len(nl) && os[i] == ns[j]:
+			olab, of := row(ol[i])
+			nlab, nf := row(nl[j])
+			if olab != nlab {
+				out = append(out, fmt.Sprintf("row %s → %s", olab, nlab))
+			}
+			for k := range min(len(of), len(nf)) {
+				if of[k] != nf[k] {
+					place := ""
+					if len(of) > 1 {
+						place = fmt.Sprintf(" (figure %d of %d)", k+1, len(of))
+					}
+					out = append(out, fmt.Sprintf("%s: %s → %s%s", nlab, of[k], nf[k], place))
+				}
+			}
+			i, j = i+1, j+1
+		case j < len(nl) && (i == len(ol) || lcs[i][j+1] >= lcs[i+1][j]):
+			out = append(out, "added:   "+strings.TrimSpace(nl[j]))
+			j++
+		default:
+			out = append(out, "removed: "+strings.TrimSpace(ol[i]))
+			i++
+		}
+	}
+	if len(out) == 0 && old != new {
+		out = append(out, "no figure changed (spacing only)")
+	}
+	return out
+}
+
+// figureChanges names a moved figure by its row; a line that appears is
+// listed as added (the golden card's diff reader: no source needed).
+func TestFigureChanges(t *testing.T) {
+	old := "## Post this dial-in: **11.40**\n│ CF J1349 (2004) / DIN │ 1.0947 / 1.0990 │ 1.0940 / 1.0983 │\n| 11.37 | 0.0 % | 0.070 s |  |\nDrag racing can kill."
+	new := "## Post this dial-in: **11.39**\n│ CF J1349 (2004) / DIN │ 1.0947 / 1.0871 │ 1.0940 / 1.0983 │\n| 11.37 | 0.1 % | 0.070 s |  |\nA new line of 3 words.\nDrag racing can kill."
+	got := figureChanges(old, new)
+	want := []string{
+		"Post this dial-in: 11.40 → 11.39",
+		"CF J1349 (2004) / DIN: 1.0990 → 1.0871 (figure 2 of 4)",
+		"11.37: 0.0 → 0.1 (figure 1 of 2)",
+		"added:   A new line of 3 words.",
+	}
+	if strings.Join(got, "\n") != strings.Join(want, "\n") {
+		t.Errorf("changes:\n%s\nwant:\n%s", strings.Join(got, "\n"), strings.Join(want, "\n"))
+	}
+	if c := figureChanges(old, old); len(c) != 0 {
+		t.Errorf("no change listed as %v", c)
 	}
 }
 

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"bufio"
 	"bytes"
 	"encoding/json"
 	"fmt"
@@ -180,7 +181,10 @@ func TestDialFromLogbook(t *testing.T) {
 }
 
 // Crash safety: a writer killed mid-write leaves the logbook as it was or as
-// it was to become, never a mix. The child is this test binary.
+// it was to become, never a mix. The child is this test binary; it pauses at
+// a known point of the write (half the rows written, then each stage of
+// safefile.Write, through safefile.PauseAt) and says so, and only then is it
+// killed, so every run kills inside the write, however loaded the machine.
 func TestLogbookSurvivesAKilledWriter(t *testing.T) {
 	if os.Getenv("PITCARD_CRASH_CHILD") != "" {
 		t.Skip("in the child")
@@ -188,73 +192,128 @@ func TestLogbookSurvivesAKilledWriter(t *testing.T) {
 	dir := t.TempDir()
 	path := filepath.Join(dir, "logbook.csv")
 	oldData := season(50)
-	writeFile(t, path, oldData)
 	newPasses, err := engine.ReadLogbook(strings.NewReader(season(400)), "new", time.Local)
 	if err != nil {
 		t.Fatal(err)
 	}
 	var newData bytes.Buffer
 	_ = engine.WriteLogbook(&newData, newPasses)
-	for i, delay := range []time.Duration{5 * time.Millisecond, 30 * time.Millisecond, 80 * time.Millisecond, 5 * time.Second} {
-		writeFile(t, path, oldData)
-		child := exec.Command(os.Args[0], "-test.run=^TestCrashChild$")
-		child.Env = append(os.Environ(), "PITCARD_CRASH_CHILD="+path)
-		if err := child.Start(); err != nil {
-			t.Fatal(err)
-		}
-		done := make(chan error, 1)
-		go func() { done <- child.Wait() }()
-		select {
-		case <-time.After(delay):
+	cases := []struct {
+		at      string
+		want    string // "old" or "new"
+		tmpLeft bool   // the killed writer's temporary file is still there
+	}{
+		{"mid-write", "old", true},
+		{safefile.StageWritten, "old", true},
+		{safefile.StageSynced, "old", true},
+		{safefile.StageBackedUp, "old", true},
+		{safefile.StageRenamed, "new", false},
+	}
+	for _, tc := range cases {
+		t.Run(tc.at, func(t *testing.T) {
+			writeFile(t, path, oldData)
+			_ = os.Remove(path + ".bak")
+			child := exec.Command(os.Args[0], "-test.run=^TestCrashChild$")
+			child.Env = append(os.Environ(), "PITCARD_CRASH_CHILD="+path, "PITCARD_CRASH_AT="+tc.at)
+			out, err := child.StdoutPipe()
+			if err != nil {
+				t.Fatal(err)
+			}
+			if err := child.Start(); err != nil {
+				t.Fatal(err)
+			}
+			paused := make(chan bool, 1)
+			go func() {
+				sc := bufio.NewScanner(out)
+				for sc.Scan() {
+					if sc.Text() == "PAUSED "+tc.at {
+						paused <- true
+						return
+					}
+				}
+				paused <- false
+			}()
+			select {
+			case ok := <-paused:
+				if !ok {
+					_ = child.Wait()
+					t.Fatalf("the writer ended without pausing at %s", tc.at)
+				}
+			case <-time.After(60 * time.Second):
+				_ = child.Process.Kill()
+				_ = child.Wait()
+				t.Fatalf("the writer did not reach %s in 60 s", tc.at)
+			}
 			_ = child.Process.Signal(syscall.SIGKILL)
-			<-done
-		case <-done:
-		}
-		got, err := os.ReadFile(path)
-		if err != nil {
-			t.Fatal(err)
-		}
-		if string(got) != oldData && string(got) != newData.String() {
-			t.Fatalf("kill %d after %v: the logbook is neither the old nor the new version (%d bytes)", i, delay, len(got))
-		}
-		t.Logf("killed after %v: the logbook is the %s version", delay, map[bool]string{true: "old", false: "new"}[string(got) == oldData])
-		if _, err := engine.ReadLogbook(bytes.NewReader(got), "logbook.csv", time.Local); err != nil {
-			t.Fatalf("kill %d: the logbook no longer reads: %v", i, err)
-		}
+			_ = child.Wait()
+			got, err := os.ReadFile(path)
+			if err != nil {
+				t.Fatal(err)
+			}
+			want := map[string]string{"old": oldData, "new": newData.String()}[tc.want]
+			if string(got) != want {
+				t.Fatalf("killed at %s: the logbook is not the %s version (%d bytes; old %d, new %d)", tc.at, tc.want, len(got), len(oldData), newData.Len())
+			}
+			if _, err := engine.ReadLogbook(bytes.NewReader(got), "logbook.csv", time.Local); err != nil {
+				t.Fatalf("killed at %s: the logbook no longer reads: %v", tc.at, err)
+			}
+			if tc.at == safefile.StageBackedUp || tc.at == safefile.StageRenamed {
+				if bak, _ := os.ReadFile(path + ".bak"); string(bak) != oldData {
+					t.Errorf("killed at %s: logbook.csv.bak is not the old version (%d bytes)", tc.at, len(bak))
+				}
+			}
+			// the killed writer's temporary file proves the kill landed
+			// inside the write; the next write clears it away
+			tmps, _ := filepath.Glob(filepath.Join(dir, ".logbook.csv.tmp-*"))
+			if (len(tmps) > 0) != tc.tmpLeft {
+				t.Errorf("killed at %s: temporary files %v, want left behind: %v", tc.at, tmps, tc.tmpLeft)
+			}
+			if tc.at == "mid-write" && len(tmps) == 1 {
+				if st, err := os.Stat(tmps[0]); err != nil || st.Size() == 0 || st.Size() >= int64(newData.Len()) {
+					t.Errorf("killed mid-write: the temporary file is not part-written (%v, %v)", st, err)
+				}
+			}
+			if err := safefile.WriteBytes(path, []byte(oldData)); err != nil {
+				t.Fatal(err)
+			}
+			if tmps, _ := filepath.Glob(filepath.Join(dir, ".logbook.csv.tmp-*")); len(tmps) > 0 {
+				t.Errorf("the next write left the dead writer's temporary files: %v", tmps)
+			}
+		})
 	}
 }
 
 // TestCrashChild is the writer the crash test kills: it rewrites the logbook
-// slowly, a few hundred bytes at a time.
+// and, at the point PITCARD_CRASH_AT names, says "PAUSED <point>" on its
+// output and waits to be killed.
 func TestCrashChild(t *testing.T) {
 	path := os.Getenv("PITCARD_CRASH_CHILD")
 	if path == "" {
 		t.Skip("run by TestLogbookSurvivesAKilledWriter")
 	}
+	at := os.Getenv("PITCARD_CRASH_AT")
+	pause := func(point string) {
+		if point == at {
+			fmt.Fprintln(os.Stdout, "PAUSED "+point)
+			_ = os.Stdout.Sync()
+			time.Sleep(time.Hour) // until killed
+		}
+	}
 	passes, _ := engine.ReadLogbook(strings.NewReader(season(400)), "new", time.Local)
+	var all bytes.Buffer
+	_ = engine.WriteLogbook(&all, passes)
 	err := safefile.Write(path, func(w io.Writer) error {
-		return engine.WriteLogbook(slowWriter{w}, passes)
-	})
+		half := all.Len() / 2
+		if _, err := w.Write(all.Bytes()[:half]); err != nil {
+			return err
+		}
+		pause("mid-write")
+		_, err := w.Write(all.Bytes()[half:])
+		return err
+	}, safefile.PauseAt(pause))
 	if err != nil {
 		t.Fatal(err)
 	}
-}
-
-type slowWriter struct{ w io.Writer }
-
-func (s slowWriter) Write(p []byte) (int, error) {
-	n := 0
-	for len(p) > 0 {
-		k := min(len(p), 256)
-		m, err := s.w.Write(p[:k])
-		n += m
-		if err != nil {
-			return n, err
-		}
-		p = p[k:]
-		time.Sleep(time.Millisecond)
-	}
-	return n, nil
 }
 
 // Two pitcard processes writing at once lose no row: each child adds ten

@@ -453,10 +453,19 @@ func TestNoColourInDocuments(t *testing.T) {
 		{"log", "list", "--demo", "--format", "markdown"}, {"card", "--demo", "--format", "html"}, {"card", "--demo", "--format", "json"}} {
 		var out, errb bytes.Buffer
 		s := &IOStreams{In: strings.NewReader(""), Out: &out, Err: &errb, Now: func() time.Time { return fixedNow }, Terminal: true, Width: 120}
-		run(args, s)
+		if code := run(args, s); code != 0 || out.Len() < 200 {
+			t.Errorf("%v: exit %d, %d bytes written: %s", args, code, out.Len(), errb.String())
+		}
 		if strings.Contains(out.String(), "\x1b[") {
 			t.Errorf("%v: color codes in a document", args)
 		}
+	}
+	// the control: the same stream does colour a screen's text, so the
+	// documents' lack of it is the format's doing, not the stream's
+	var out bytes.Buffer
+	s := &IOStreams{In: strings.NewReader(""), Out: &out, Err: &bytes.Buffer{}, Now: func() time.Time { return fixedNow }, Terminal: true, Width: 120}
+	if code := run([]string{"dial", "--demo"}, s); code != 0 || !strings.Contains(out.String(), "\x1b[") {
+		t.Errorf("dial --demo on a terminal: exit %d, no colour codes; the control does not hold", code)
 	}
 }
 
@@ -471,11 +480,18 @@ func TestCommandLineConventions(t *testing.T) {
 	other := filepath.Join(t.TempDir(), "other-car.yaml")
 	data, _ := os.ReadFile(filepath.Join(dir, "car.yaml"))
 	_ = os.WriteFile(other, []byte(strings.Replace(string(data), "name: Whitlock 71 Ember", "name: Borrowed Sled", 1)), 0o644)
+	// a rule that logs the car's name: rules try shows what it logged, so
+	// the name read from --car-file must appear there
+	_ = os.WriteFile(filepath.Join(dir, "rules", "99-car-name.lua"), []byte("function notes(ctx)\n  pit.log(\"car\", ctx.car.name)\n  return {}\nend\n"), 0o644)
 	for _, args := range [][]string{{"card", "--round", "3", "--lane", "left"}, {"rules", "try", "--round", "3", "--lane", "left"}} {
-		if out := mustRun(t, append(args, "--dir", dir, "--car-file", other)...); !strings.Contains(out, "Borrowed Sled") && !strings.Contains(out, "ok") {
+		if out := mustRun(t, append(args, "--dir", dir, "--car-file", other)...); !strings.Contains(out, "Borrowed Sled") || strings.Contains(out, "Whitlock 71 Ember") {
 			t.Errorf("%v --car-file: the other car was not read:\n%.300s", args, out)
 		}
 	}
+	if out := mustRun(t, "rules", "try", "--round", "3", "--lane", "left", "--dir", dir); !strings.Contains(out, "log: car Whitlock 71 Ember") {
+		t.Errorf("rules try without --car-file: the folder's car was not read:\n%.300s", out)
+	}
+	_ = os.Remove(filepath.Join(dir, "rules", "99-car-name.lua"))
 	if out := mustRun(t, "card", "--dir", dir, "--car-file", other, "--round", "3", "--lane", "left"); !strings.Contains(out, "Borrowed Sled") {
 		t.Errorf("card --car-file:\n%.300s", out)
 	}

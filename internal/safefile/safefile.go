@@ -122,10 +122,36 @@ func Lock(path string) (unlock func(), err error) {
 	}
 }
 
+// Option changes how one Write goes.
+type Option func(*options)
+
+type options struct{ pause func(stage string) }
+
+// Stages of a Write, in order, as PauseAt names them.
+const (
+	StageWritten  = "written"   // the new content is in the temporary file
+	StageSynced   = "synced"    // flushed to disk and closed
+	StageBackedUp = "backed-up" // the old file kept as .bak
+	StageRenamed  = "renamed"   // the new file in place
+)
+
+// PauseAt has Write call f at each stage: the crash test stops a writer
+// there, so every kill lands at a known point of the write.
+func PauseAt(f func(stage string)) Option { return func(o *options) { o.pause = f } }
+
 // Write replaces path with what write produces, atomically: a reader sees the
 // old content or the new, never a mix. The old file, if any, is kept as
 // path+".bak". The caller should hold Lock(path) when it read the old content.
-func Write(path string, write func(io.Writer) error) (err error) {
+func Write(path string, write func(io.Writer) error, opts ...Option) (err error) {
+	var o options
+	for _, opt := range opts {
+		opt(&o)
+	}
+	stage := func(s string) {
+		if o.pause != nil {
+			o.pause(s)
+		}
+	}
 	if path, err = Resolve(path); err != nil {
 		return err
 	}
@@ -153,6 +179,7 @@ func Write(path string, write func(io.Writer) error) (err error) {
 	if err = write(tmp); err != nil {
 		return fmt.Errorf("writing %s: %w", path, err)
 	}
+	stage(StageWritten)
 	if err = tmp.Sync(); err != nil {
 		return fmt.Errorf("writing %s: %w", path, err)
 	}
@@ -162,12 +189,15 @@ func Write(path string, write func(io.Writer) error) (err error) {
 	if err = os.Chmod(tmp.Name(), mode); err != nil {
 		return fmt.Errorf("writing %s: %w", path, err)
 	}
+	stage(StageSynced)
 	if err = backup(path); err != nil {
 		return err
 	}
+	stage(StageBackedUp)
 	if err = os.Rename(tmp.Name(), path); err != nil {
 		return fmt.Errorf("writing %s: %w", path, err)
 	}
+	stage(StageRenamed)
 	syncDir(dir)
 	return nil
 }
