@@ -12,7 +12,8 @@ import (
 // A race night past midnight is one day for the model: a pass at 00:30
 // after an evening's passes is not the first of a day, and leans on the
 // evening's offset; with the day starting at midnight it is (synthetic
-// truth as in calibrate_test.go; the race day is pitcard's own rule).
+// truth as in calibrate_test.go; the race day is pitcard's own rule, and
+// that a race night is one day is common practice, no source).
 func TestRaceNightIsOneDayForTheModel(t *testing.T) {
 	g := gen{rng: rand.New(rand.NewPCG(9, 10)), truth: DefaultParams(Natural), car: testCar}
 	passes := g.season(4, 10)

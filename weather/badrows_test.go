@@ -8,7 +8,9 @@ import (
 )
 
 // A weather log's rows that cannot be read are named, each at its line, and
-// the rest are read: one bad row costs that row, not the day's log.
+// the rest are read: one bad row costs that row, not the day's log (pitcard's
+// own file format, README; common practice (no source) for a logger's file:
+// one bad line is the meter's hiccup, not the day).
 func TestReadLogSetsBadRowsAside(t *testing.T) {
 	log := strings.Join([]string{
 		strings.Join(LogColumns, ","),
@@ -36,7 +38,9 @@ func TestReadLogSetsBadRowsAside(t *testing.T) {
 }
 
 // A station pressure refused at the track's elevation is said in the crew's
-// units (a metric crew reads hPa and metres, not inHg and feet).
+// units (a metric crew reads hPa and meters, not inHg and feet). Source of
+// the limit: the NWS pressure-altitude formula (REFERENCE.md); 1019 hPa is
+// a pressure altitude near −160 ft, far below a 5,200 ft track.
 func TestImpossibleStationPressureInTheCrewsUnits(t *testing.T) {
 	r := Reading{Temp: Celsius(25), Baro: HPa(1019), BaroKind: StationPressure, RH: 0.3}
 	err := r.ValidateIn(Feet(5200), Metric)
