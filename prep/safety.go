@@ -66,77 +66,105 @@ func SafetyFor(car engine.Car, p engine.Prediction, day time.Time, u weather.Uni
 func SafetyChecks(in SafetyInput) []scripts.Check {
 	var out []scripts.Check
 	add := func(label, status, note string) {
-		out = append(out, scripts.Check{Label: label, Status: status, Note: note, File: SafetyFile})
+		if label != "" {
+			out = append(out, scripts.Check{Label: label, Status: status, Note: note, File: SafetyFile})
+		}
 	}
 	if in.CarUnread {
 		add("Safety limits", scripts.Warn, "car.yaml could not be read: no limit is being checked until it is fixed")
-		add("Rulebook and tech", scripts.Confirm, "equipment and ET/MPH limits verified against the current rulebook and at tech")
+		add(rulebookCheck())
 		return out
 	}
-	l := in.Limits
-	// speed is a trap speed as a slip prints it (hundredths of a mph), and
-	// in km/h beside it on a metric card.
-	speedIn := func(mph float64, places int) string {
-		t := strconv.FormatFloat(mph, 'f', places, 64) + " mph"
-		if in.Units.Speed == weather.UnitKMH {
-			t = weather.MPH(mph).Format(weather.UnitKMH, max(places, 0)) + " (" + t + ")"
-		}
-		return t
-	}
-	speed := func(mph float64) string { return speedIn(mph, 2) }  // predicted
-	limit := func(mph float64) string { return speedIn(mph, -1) } // as entered
-	for _, p := range l.Problems {
+	for _, p := range in.Limits.Problems {
 		add("Car's limits", scripts.Fail, p+": that limit is not being checked")
 	}
-	dist := TimerName(in.DistanceFt)
+	add(etCheck(in))
+	add(mphCheck(in))
+	add(chuteCheck(in))
+	add(beltsCheck(in.Limits, in.Day))
+	add(rulebookCheck())
+	return out
+}
 
+// rulebookCheck is the item a person ticks: pitcard's checks are only as
+// good as the limits entered.
+func rulebookCheck() (label, status, note string) {
+	return "Rulebook and tech", scripts.Confirm, "equipment and ET/MPH limits verified against the current rulebook and at tech"
+}
+
+// etCheck compares the quick end of the finish ET's interval with
+// limit_et; "" when limit_et was entered wrong (said among the problems).
+func etCheck(in SafetyInput) (label, status, note string) {
+	l, dist := in.Limits, TimerName(in.DistanceFt)
 	switch {
-	case l.Unreadable["limit_et"]: // said above
+	case l.Unreadable["limit_et"]:
+		return "", "", ""
 	case l.ET == 0:
-		add("ET limit", scripts.Warn, fmt.Sprintf("no limit_et in car.yaml: the ET is not being checked; enter the quickest %s ET your chassis and cage are certified for", dist))
+		return "ET limit", scripts.Warn, fmt.Sprintf("no limit_et in car.yaml: the ET is not being checked; enter the quickest %s ET your chassis and cage are certified for", dist)
 	case in.QuickET == 0:
-		add("ET limit", scripts.Warn, "no prediction to compare with the car's limit_et")
+		return "ET limit", scripts.Warn, "no prediction to compare with the car's limit_et"
 	case in.QuickET < l.ET:
-		add("ET limit", scripts.Fail, fmt.Sprintf("could run %.3f s (the quick end of the 95 %% interval): quicker than the car's %s limit of %s s", in.QuickET, dist, limitET(l.ET)))
+		return "ET limit", scripts.Fail, fmt.Sprintf("could run %.3f s (the quick end of the 95 %% interval): quicker than the car's %s limit of %s s", in.QuickET, dist, limitET(l.ET))
 	case in.QuickET < l.ET+WarnETMargin:
-		add("ET limit", scripts.Warn, fmt.Sprintf("could run %.3f s (the quick end of the 95 %% interval), within %.2f s of the car's %s limit of %s s", in.QuickET, WarnETMargin, dist, limitET(l.ET)))
-	default:
-		add("ET limit", scripts.Pass, fmt.Sprintf("quickest likely %.3f s (the quick end of the 95 %% interval) against the car's %s limit of %s s", in.QuickET, dist, limitET(l.ET)))
+		return "ET limit", scripts.Warn, fmt.Sprintf("could run %.3f s (the quick end of the 95 %% interval), within %.2f s of the car's %s limit of %s s", in.QuickET, WarnETMargin, dist, limitET(l.ET))
 	}
+	return "ET limit", scripts.Pass, fmt.Sprintf("quickest likely %.3f s (the quick end of the 95 %% interval) against the car's %s limit of %s s", in.QuickET, dist, limitET(l.ET))
+}
 
+// mphCheck compares the fast end of the finish trap's interval with
+// limit_mph.
+func mphCheck(in SafetyInput) (label, status, note string) {
+	l, dist := in.Limits, TimerName(in.DistanceFt)
+	trap, limit := in.speeds()
 	switch {
 	case l.Unreadable["limit_mph"]:
+		return "", "", ""
 	case l.MPH == 0:
-		add("MPH limit", scripts.Warn, fmt.Sprintf("no limit_mph in car.yaml: the trap speed is not being checked; enter the fastest %s trap speed allowed without more equipment", dist))
+		return "MPH limit", scripts.Warn, fmt.Sprintf("no limit_mph in car.yaml: the trap speed is not being checked; enter the fastest %s trap speed allowed without more equipment", dist)
 	case in.FastMPH == 0:
-		add("MPH limit", scripts.Warn, "no trap speed predicted to compare with the car's limit_mph")
+		return "MPH limit", scripts.Warn, "no trap speed predicted to compare with the car's limit_mph"
 	case in.FastMPH > l.MPH:
-		add("MPH limit", scripts.Fail, fmt.Sprintf("could trap %s (the fast end of the 95 %% interval): over the car's %s limit of %s", speed(in.FastMPH), dist, limit(l.MPH)))
+		return "MPH limit", scripts.Fail, fmt.Sprintf("could trap %s (the fast end of the 95 %% interval): over the car's %s limit of %s", trap(in.FastMPH), dist, limit(l.MPH))
 	case in.FastMPH > l.MPH-WarnMPHMargin:
-		add("MPH limit", scripts.Warn, fmt.Sprintf("could trap %s (the fast end of the 95 %% interval), within %.0f mph of the car's %s limit of %s", speed(in.FastMPH), WarnMPHMargin, dist, limit(l.MPH)))
-	default:
-		add("MPH limit", scripts.Pass, fmt.Sprintf("fastest likely %s (the fast end of the 95 %% interval) against the car's %s limit of %s", speed(in.FastMPH), dist, limit(l.MPH)))
+		return "MPH limit", scripts.Warn, fmt.Sprintf("could trap %s (the fast end of the 95 %% interval), within %.0f mph of the car's %s limit of %s", trap(in.FastMPH), WarnMPHMargin, dist, limit(l.MPH))
 	}
+	return "MPH limit", scripts.Pass, fmt.Sprintf("fastest likely %s (the fast end of the 95 %% interval) against the car's %s limit of %s", trap(in.FastMPH), dist, limit(l.MPH))
+}
 
+// chuteCheck: a trap speed that needs a parachute, and whether one is
+// fitted (not said counts as not fitted).
+func chuteCheck(in SafetyInput) (label, status, note string) {
+	l := in.Limits
+	trap, limit := in.speeds()
 	fitted := "no chute fitted"
 	if !l.ChuteSaid {
 		fitted = "car.yaml does not say a chute is fitted (chute: true)"
 	}
 	switch {
 	case l.Unreadable["chute_needed_mph"]:
+		return "", "", ""
 	case l.ChuteNeededMPH == 0:
-		add("Parachute", scripts.Warn, "no chute_needed_mph in car.yaml: the need for a parachute is not being checked")
+		return "Parachute", scripts.Warn, "no chute_needed_mph in car.yaml: the need for a parachute is not being checked"
 	case in.FastMPH == 0:
-		add("Parachute", scripts.Warn, "no trap speed predicted to compare with chute_needed_mph")
+		return "Parachute", scripts.Warn, "no trap speed predicted to compare with chute_needed_mph"
 	case in.FastMPH >= l.ChuteNeededMPH && !l.Chute:
-		add("Parachute", scripts.Fail, fmt.Sprintf("could trap %s and %s; you entered %s as needing one", speed(in.FastMPH), fitted, limit(l.ChuteNeededMPH)))
-	default:
-		add("Parachute", scripts.Pass, fmt.Sprintf("fastest likely %s; a chute is needed from %s", speed(in.FastMPH), limit(l.ChuteNeededMPH)))
+		return "Parachute", scripts.Fail, fmt.Sprintf("could trap %s and %s; you entered %s as needing one", trap(in.FastMPH), fitted, limit(l.ChuteNeededMPH))
 	}
+	return "Parachute", scripts.Pass, fmt.Sprintf("fastest likely %s; a chute is needed from %s", trap(in.FastMPH), limit(l.ChuteNeededMPH))
+}
 
-	add(beltsCheck(l, in.Day))
-	add("Rulebook and tech", scripts.Confirm, "equipment and ET/MPH limits verified against the current rulebook and at tech")
-	return out
+// speeds format a predicted trap speed as a slip prints it (hundredths of a
+// mph) and a limit as the crew entered it, each in km/h too on a metric
+// card.
+func (in SafetyInput) speeds() (trap, limit func(mph float64) string) {
+	in2 := func(mph float64, places int) string {
+		t := strconv.FormatFloat(mph, 'f', places, 64) + " mph"
+		if in.Units.Speed == weather.UnitKMH {
+			t = weather.MPH(mph).Format(weather.UnitKMH, max(places, 0)) + " (" + t + ")"
+		}
+		return t
+	}
+	return func(mph float64) string { return in2(mph, 2) }, func(mph float64) string { return in2(mph, -1) }
 }
 
 // limitET prints an ET limit as the crew wrote it, to hundredths at least:
