@@ -196,9 +196,14 @@ func (e *Folder) AddPass(np NewPass, now time.Time) (LoggedPass, error) {
 	}
 	var base *weather.Reading
 	source := ""
-	if log, err := e.WeatherLog(elev); err != nil {
+	log, bad, err := e.ReadableWeather(elev)
+	if err != nil {
 		return out, err
-	} else if r, ok := nearestReading(log, p.Time, time.Hour); ok {
+	}
+	if bad != nil { // the pass is logged all the same, its air from the rows that read
+		out.Warnings = append(out.Warnings, bad.Error())
+	}
+	if r, ok := nearestReading(log, p.Time, time.Hour); ok {
 		base, source = &r, "the weather log's "+r.Time.Format("15:04")+" reading"
 	} else if len(log) > 0 && start.Same(log[len(log)-1].Time, p.Time) {
 		// No reading within the hour, but the day's trend reaches the pass.

@@ -361,6 +361,18 @@ func (e *Folder) AppendReading(r weather.Reading, elev weather.Length, replace b
 	return len(log), safefile.Write(path, func(w io.Writer) error { return weather.WriteLog(w, log) })
 }
 
+// ReadableWeather is WeatherLog for a command that only reads it: the
+// readings that can be read, and apart from them the rows that cannot (nil
+// when every row reads), for the command to name; err is a log that cannot
+// be read at all. A command that writes the log uses WeatherLog and refuses.
+func (e *Folder) ReadableWeather(elev weather.Length) ([]weather.Reading, *weather.BadReadings, error) {
+	log, err := e.WeatherLog(elev)
+	if bad := new(weather.BadReadings); errors.As(err, &bad) {
+		return log, bad, nil
+	}
+	return log, nil, err
+}
+
 // weatherLog reads the folder's weather.csv (none yet: an empty log).
 func (e *Folder) WeatherLog(elev weather.Length) ([]weather.Reading, error) {
 	data, err := fs.ReadFile(e.FS, WeatherFile)

@@ -370,7 +370,7 @@ func (e *Folder) DemoClock(now time.Time) time.Time {
 	if err != nil {
 		return now
 	}
-	log, err := e.WeatherLog(trk.Elevation())
+	log, _, err := e.ReadableWeather(trk.Elevation())
 	if err != nil || len(log) == 0 {
 		return now
 	}

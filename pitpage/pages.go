@@ -150,7 +150,7 @@ func readingForm(e *event.Folder) []field {
 	if terr != nil {
 		return form
 	}
-	log, err := e.WeatherLog(trk.Elevation())
+	log, _, err := e.ReadableWeather(trk.Elevation())
 	if err != nil || len(log) == 0 {
 		return form
 	}

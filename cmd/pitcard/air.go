@@ -77,9 +77,12 @@ func airRun(cmd *cobra.Command, o *airOptions) error {
 	}
 	var base *weather.Reading
 	if o.Latest || (e.Demo && !o.reading.Given()) {
-		log, err := e.WeatherLog(elev)
+		log, bad, err := e.ReadableWeather(elev)
 		if err != nil {
 			return err
+		}
+		if bad != nil {
+			o.s.warn(bad.Error())
 		}
 		if len(log) == 0 {
 			return userErrf("%s has no readings: add one with 'pitcard weather add'", e.Name(event.WeatherFile))

@@ -36,6 +36,9 @@ type conditions struct {
 	Source    string            // where the air came from, in words
 	Forecast  *weather.Forecast // with --at
 	Warnings  []string
+	// BadRows are weather.csv rows that could not be read (the air is the
+	// rest): the command names them after its output and exits 2.
+	BadRows *weather.BadReadings
 }
 
 // resolve turns the flags into the air of the command. The demo with no
@@ -57,11 +60,9 @@ func (c *conditionFlags) resolve(e *eventFolder, now time.Time) (conditions, err
 	}
 	var base *weather.Reading
 	if c.Latest || c.At != "" || (e.Demo && !c.Given()) {
-		log, err := e.WeatherLog(out.Elevation)
-		var bad *weather.BadReadings
-		if errors.As(err, &bad) { // the good rows are the air; the bad ones named
-			out.Warnings = append(out.Warnings, err.Error())
-			err = nil
+		log, bad, err := e.ReadableWeather(out.Elevation)
+		if bad != nil { // the good rows are the air; the bad ones named after the output (exit 2)
+			out.BadRows = bad
 		}
 		if err != nil {
 			return out, err

@@ -143,7 +143,7 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 		askedLatest := o.cond.Latest
 		if !useModel {
 			if elev, _, err := e.SiteElevation(o.cond.ReadingFields); err == nil {
-				if log, err := e.WeatherLog(elev); err == nil && len(log) > 0 {
+				if log, _, err := e.ReadableWeather(elev); err == nil && len(log) > 0 {
 					o.cond.Latest, useModel = true, true
 				}
 			}

@@ -137,6 +137,19 @@ func TestABadWeatherRowCostsOnlyItself(t *testing.T) {
 	if after, _ := os.ReadFile(path); code != exitBadInput || string(after) != string(data) || !strings.Contains(errs, "nothing was written") {
 		t.Errorf("add: exit %d\n%s", code, errs)
 	}
+	// the slip is still logged (it does not write weather.csv), its air
+	// from the rows that read, the bad row named
+	out, errs, code = pitcard(t, "log", "add", "--dir", dir, "--round", "E4", "--lane", "left", "--rt", ".03", "--et1320", "11.46", "--mph1320", "117.9")
+	if code != 0 || !strings.Contains(out, "Logged") || !strings.Contains(errs, "line 20") {
+		t.Errorf("log add: exit %d\n%s%s", code, out, errs)
+	}
+	// the predictions print from the rest, name the row, exit 2
+	for _, args := range [][]string{{"dial"}, {"predict", "--latest"}, {"weather", "forecast", "--at", "20:45"}} {
+		out, errs, code := pitcard(t, append(args, "--dir", dir)...)
+		if code != exitBadInput || len(out) < 200 || !strings.Contains(errs, "line 20") {
+			t.Errorf("%v: exit %d, %d bytes\n%s", args, code, len(out), errs)
+		}
+	}
 }
 
 // A metric crew's logbook list speaks km/h and meters (it printed mph).

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"errors"
 	"fmt"
 	"strings"
 	"time"
@@ -122,6 +123,9 @@ func forecastNext(e *eventFolder, cond conditionFlags, prepFlag, weightFlag stri
 		return n, err
 	}
 	pred := engine.Predict(fit, engine.PredictInput{Air: c.Reading, Prep: prep, WeightLb: weight, Time: when})
+	if c.BadRows != nil {
+		leftOut = errors.Join(leftOut, c.BadRows)
+	}
 	return nextPass{Car: car, Cond: c, Pred: pred, Fit: fit, When: when, Prep: prep, Units: e.Settings.Units, LeftOut: leftOut}, nil
 }
 

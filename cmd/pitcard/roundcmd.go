@@ -108,9 +108,12 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 	}
 	u := e.Settings.Units
 	elev := trk.Elevation()
-	log, err := e.WeatherLog(elev)
+	log, bad, err := e.ReadableWeather(elev)
 	if err != nil {
 		return err
+	}
+	if bad != nil {
+		o.s.warn(bad.Error())
 	}
 	p := &prompter{in: bufio.NewReader(o.s.In), out: o.s.Out}
 

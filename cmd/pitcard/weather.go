@@ -303,9 +303,18 @@ func weatherForecastRun(cmd *cobra.Command, o *weatherForecastOptions) error {
 		return userErrf("--at is required: the time to forecast, e.g. --at 21:40")
 	}
 	e, elev, trackName, log, err := openWeather(cmd, o.g, o.Elev)
+	if bad := new(weather.BadReadings); errors.As(err, &bad) {
+		// the forecast from the rows that read; the others named after it
+		return errors.Join(weatherForecastPrint(o, e, elev, trackName, log), err)
+	}
 	if err != nil {
 		return err
 	}
+	return weatherForecastPrint(o, e, elev, trackName, log)
+}
+
+// weatherForecastPrint forecasts the air at --at from log and prints it.
+func weatherForecastPrint(o *weatherForecastOptions, e *eventFolder, elev weather.Length, trackName string, log []weather.Reading) error {
 	if len(log) == 0 {
 		return userErrf("%s has no readings: add some with 'pitcard weather add' first", e.Name(event.WeatherFile))
 	}
