@@ -76,13 +76,14 @@ func airRun(cmd *cobra.Command, o *airOptions) error {
 		}
 	}
 	var base *weather.Reading
+	var leftOut error // weather.csv rows that could not be read: named after the output, exit 2
 	if o.Latest || (e.Demo && !o.reading.Given()) {
 		log, bad, err := e.ReadableWeather(elev)
 		if err != nil {
 			return err
 		}
 		if bad != nil {
-			o.s.warn(bad.Error())
+			leftOut = bad
 		}
 		if len(log) == 0 {
 			return userErrf("%s has no readings: add one with 'pitcard weather add'", e.Name(event.WeatherFile))
@@ -108,7 +109,7 @@ func airRun(cmd *cobra.Command, o *airOptions) error {
 		rep.Warnings = []string{"the track elevation is unknown: no altimeter setting"}
 	}
 	if o.Format == "json" {
-		return writeJSON(o.s.Out, rep)
+		return errors.Join(writeJSON(o.s.Out, rep), leftOut)
 	}
 	title := "Air"
 	if trk.Name != "" {
@@ -118,7 +119,7 @@ func airRun(cmd *cobra.Command, o *airOptions) error {
 	t := newTable(o.s, title)
 	airRows(t, r, r.Derive(elev), elev, elevKnown, trk.HeadingDeg, trk.Name != "", e.Settings.Units, stationNote(r))
 	render(o.s, t, o.Format)
-	return nil
+	return leftOut
 }
 
 // airReport is the JSON form of `pitcard air`. The first block of keys is
