@@ -3,8 +3,10 @@ package event
 import (
 	"fmt"
 	"math"
+	"strconv"
 	"strings"
 	"time"
+	"unicode"
 
 	"github.com/shopspring/decimal"
 
@@ -162,10 +164,30 @@ func (e *Folder) AddPass(np NewPass, now time.Time) (LoggedPass, error) {
 			weight, weightMetric = fmt.Sprint(car.WeightLb), false
 		}
 	}
+	// A trap speed typed with a unit, or bare in a metric folder's km/h, is
+	// the logbook's mph (to the hundredth, as a slip prints it).
+	trap := func(flag, v string) (string, error) {
+		if v == "" || e.Settings.Units.Speed == weather.UnitMPH && !strings.ContainsFunc(v, unicode.IsLetter) {
+			return v, nil
+		}
+		sp, err := weather.ParseSpeed(v, e.Settings.Units.Speed)
+		if err != nil {
+			return "", FlagErr(err, flag)
+		}
+		return strconv.FormatFloat(math.Round(sp.MPH()*100)/100, 'f', 2, 64), nil
+	}
+	mph660, err := trap("--mph660", np.MPH660)
+	if err != nil {
+		return out, err
+	}
+	mph1320, err := trap("--mph1320", np.MPH1320)
+	if err != nil {
+		return out, err
+	}
 	f := engine.SlipFields{Values: map[string]string{
 		"date": date, "time": clock, "track": track, "session": np.Session, "lane": np.Lane,
 		"dial": np.Dial, "rt": np.RT, "et60": np.ET60, "et330": np.ET330, "et660": np.ET660, "et1000": np.ET1000, "et1320": np.ET1,
-		"mph660": np.MPH660, "mph1320": np.MPH1320, "weight_lb": weight, "notes": np.Notes,
+		"mph660": mph660, "mph1320": mph1320, "weight_lb": weight, "notes": np.Notes,
 	}, Names: map[string]string{}, Metric: map[string]bool{"weight_lb": weightMetric}}
 	for c := range f.Values {
 		f.Names[c] = "--" + strings.ReplaceAll(strings.TrimSuffix(c, "_lb"), "_", "-")

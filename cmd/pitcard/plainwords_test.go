@@ -161,3 +161,17 @@ func TestMetricLogList(t *testing.T) {
 		t.Errorf("metric log list:\n%s", out)
 	}
 }
+
+// In a metric folder a trap speed is typed in km/h (bare or with its unit)
+// and kept as the logbook's mph: 190 km/h is 118.06 mph (1 mph = 1.609344
+// km/h, NIST); in an imperial folder "190km/h" works too.
+func TestTrapSpeedsInTheCrewsUnits(t *testing.T) {
+	dir := demoCopy(t)
+	editFile(t, dir, "pitcard.yaml", func(s string) string { return strings.Replace(s, "units: imperial", "units: metric", 1) })
+	mustRun(t, "log", "add", "--dir", dir, "--round", "E7", "--lane", "left", "--time", "20:50", "--et1320", "11.45", "--mph1320", "190")
+	mustRun(t, "log", "add", "--dir", dir, "--round", "E8", "--lane", "left", "--time", "20:55", "--et1320", "11.45", "--mph1320", "190km/h")
+	book, _ := os.ReadFile(filepath.Join(dir, "logbook.csv"))
+	if n := strings.Count(string(book), ",11.45,,118.06,"); n != 2 {
+		t.Errorf("%d passes with 118.06 mph:\n%s", n, book)
+	}
+}

@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"strconv"
 	"strings"
 
 	"github.com/spf13/cobra"
@@ -309,13 +310,34 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 	}
 	questions := []struct{ key, question, def string }{
 		{"dial", "Dial-in posted", dial}, {"rt", "Reaction time (.021)", ""}, {"et60", "60 ft", ""}, {"et330", "330 ft", ""},
-		{"et660", "1/8 mile ET", ""}, {"mph660", "1/8 mile MPH", ""}, {"et1000", "1000 ft", ""}, {"et1320", "1/4 mile ET", ""},
-		{"mph1320", "1/4 mile MPH", ""}, {"notes", "Notes (lifted, pedaled ...)", ""},
+		{"et660", "1/8 mile ET", ""}, {"mph660", "1/8 mile trap, " + u.Speed.String(), ""}, {"et1000", "1000 ft", ""}, {"et1320", "1/4 mile ET", ""},
+		{"mph1320", "1/4 mile trap, " + u.Speed.String(), ""}, {"notes", "Notes (lifted, pedaled ...)", ""},
 	}
 	slip := engine.SlipFields{Values: map[string]string{"date": now.Format(weather.DateLayout), "time": now.Format("15:04"),
 		"track": trk.Name, "session": in.Session.String(), "lane": string(in.Lane)}, Names: map[string]string{}}
+	// A trap speed is typed in the crew's units (km/h in a metric folder)
+	// and kept as the logbook's mph.
+	toMPH := func(key, a string) (string, error) {
+		if a == "" || (key != "mph660" && key != "mph1320") {
+			return a, nil
+		}
+		sp, err := weather.ParseSpeed(a, u.Speed)
+		if err != nil {
+			return "", err
+		}
+		return strconv.FormatFloat(math.Round(sp.MPH()*100)/100, 'f', 2, 64), nil
+	}
 	askField := func(key, question, def string) error {
-		v, err := p.until(question, def, func(a string) error { return engine.CheckSlipField(key, question, a) })
+		v, err := p.until(question, def, func(a string) error {
+			m, err := toMPH(key, a)
+			if err != nil {
+				return err
+			}
+			return engine.CheckSlipField(key, question, m)
+		})
+		if m, merr := toMPH(key, v); merr == nil {
+			v = m
+		}
 		slip.Values[key] = v
 		return err
 	}
@@ -356,6 +378,9 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 		"--date", now.Format("2006-01-02"), "--time", now.Format("15:04")}
 	for _, q := range questions {
 		if v := slip.Values[q.key]; v != "" {
+			if q.key == "mph660" || q.key == "mph1320" {
+				v += "mph" // already the logbook's unit
+			}
 			args = append(args, "--"+q.key, v)
 		}
 	}
