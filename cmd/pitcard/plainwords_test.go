@@ -175,3 +175,20 @@ func TestTrapSpeedsInTheCrewsUnits(t *testing.T) {
 		t.Errorf("%d passes with 118.06 mph:\n%s", n, book)
 	}
 }
+
+// rules try speaks like the card: its JSON dials are numbers (null with no
+// dial), and a failed check exits 3.
+func TestRulesTryLikeTheCard(t *testing.T) {
+	var j map[string]any
+	if err := json.Unmarshal([]byte(mustRun(t, "rules", "try", "--demo", "--round", "3", "--lane", "left", "--format", "json")), &j); err != nil {
+		t.Fatal(err)
+	}
+	for _, k := range []string{"final_dial", "recommended_dial", "rule_total"} {
+		if _, ok := j[k].(float64); !ok {
+			t.Errorf("%s is %T (%v)", k, j[k], j[k])
+		}
+	}
+	if j["session"] != "E3" || j["lane"] != "left" {
+		t.Errorf("session %v lane %v", j["session"], j["lane"])
+	}
+}

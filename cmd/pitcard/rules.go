@@ -1,6 +1,8 @@
 package main
 
 import (
+	"encoding/json"
+	"errors"
 	"fmt"
 	"math"
 	"strings"
@@ -254,8 +256,16 @@ func rulesTryRun(cmd *cobra.Command, o *rulesTryOptions) error {
 			}
 			out = append(out, x)
 		}
-		return writeJSON(o.s.Out, map[string]any{"round": c.Title, "recommended_dial": recommendedText(c), "rules": out,
-			"rule_total": prep.DialText(c.TotalAdjust, in.Settings.DialStep), "final_dial": finalText(c), "flag": c.AdjustFlag})
+		j := map[string]any{"round": c.Title, "session": in.Session.String(), "lane": string(in.Lane), "rules": out,
+			"rule_total": json.Number(prep.DialText(c.TotalAdjust, in.Settings.DialStep)), "flag": c.AdjustFlag,
+			"recommended_dial": nil, "final_dial": nil, "checks_failed": append([]string{}, c.Failed...)}
+		if c.PlanErr == nil && len(c.Plan.Options) > 0 { // numbers with the dial's digits, null when there is none
+			j["recommended_dial"] = json.Number(recommendedText(c))
+		}
+		if c.HasFinal {
+			j["final_dial"] = json.Number(finalText(c))
+		}
+		return errors.Join(writeJSON(o.s.Out, j), failedChecks(c.Failed))
 	}
 	w := o.s.Out
 	fmt.Fprintf(w, "%s, called %s. Recommended dial before the rules: %s.\n", c.Title, in.Call.Format("15:04"), recommendedText(c))
@@ -284,7 +294,8 @@ func rulesTryRun(cmd *cobra.Command, o *rulesTryOptions) error {
 	if c.AdjustFlag != "" {
 		fmt.Fprintln(w, "Flag: "+c.AdjustFlag)
 	}
-	return nil
+	// A failed check stops the dial here as on the card (exit 3).
+	return failedChecks(c.Failed)
 }
 
 func recommendedText(c prep.Card) string {
