@@ -173,7 +173,8 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 				// as 'pitcard card', so both post one number.
 				est = c.Plan.Estimate
 				est.Basis += ", in " + c.Input.AirSource + " (the card's)"
-				post = dialPost{final: c.FinalDial, hasFinal: c.HasFinal, failed: c.Failed, adjustments: c.Adjustments, round: c.Title}
+				post = dialPost{final: c.FinalDial, hasFinal: c.HasFinal, failed: c.Failed, adjustments: c.Adjustments, round: c.Title,
+					opponent: c.Input.Opponent, usRT: c.Input.UsRT, bestForWin: c.Input.PostBestForWin && len(c.Win) > 0}
 			}
 			break
 		}
@@ -224,11 +225,15 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 	}
 	var wins []engine.WinOption
 	var opp *engine.Opponent
-	if oppDial.Valid {
-		passes, _ := e.RecentLogbook()
+	if oppDial.Valid || post.opponent != nil {
 		var usRT engine.RTModel
-		if opp, usRT, err = o.opp.Build(e.Settings, oppDial, passes); err != nil {
-			return err
+		if oppDial.Valid {
+			passes, _ := e.RecentLogbook()
+			if opp, usRT, err = o.opp.Build(e.Settings, oppDial, passes); err != nil {
+				return err
+			}
+		} else { // the other lane's dial the card races against (rounds.csv)
+			opp, usRT = post.opponent, post.usRT
 		}
 		var ds []decimal.Decimal
 		for _, op := range plan.Options {
@@ -311,8 +316,12 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 					rule = w
 				}
 			}
-			fmt.Fprintln(o.s.Out, prep.Wrap(fmt.Sprintf("The choice: %s breaks out %.1f %% of the time, more than the %.0f %% you accept; over %s it gains %.1f points of winning for %.1f points more breakout risk. Posted stays your rule's unless post_dial: best-for-win.",
-				j.BestForWin.Dial, 100*bo, 100*plan.Risk, j.Recommended, 100*(best.Win-rule.Win), 100*(bo-engine.BreakoutChance(est, plan.Recommended))), o.s.width(), "  "))
+			posted := "Posted stays your rule's unless post_dial: best-for-win."
+			if post.bestForWin {
+				posted = "Posted is the dial that wins most (post_dial: best-for-win)."
+			}
+			fmt.Fprintln(o.s.Out, prep.Wrap(fmt.Sprintf("The choice: %s breaks out %.1f %% of the time, more than the %.0f %% you accept; over %s it gains %.1f points of winning for %.1f points more breakout risk. %s",
+				j.BestForWin.Dial, 100*bo, 100*plan.Risk, j.Recommended, 100*(best.Win-rule.Win), 100*(bo-engine.BreakoutChance(est, plan.Recommended)), posted), o.s.width(), "  "))
 		}
 	}
 	return errors.Join(failedChecks(post.failed), leftOut)
@@ -325,6 +334,12 @@ type dialPost struct {
 	failed      []string
 	adjustments []prep.RuleLine
 	round       string // the card's title: "Round 2, right lane"
+	// opponent is the other lane the card races against (noted in
+	// rounds.csv, or --opponent-dial), with our reaction times; bestForWin:
+	// the card posts the dial that wins most (post_dial: best-for-win).
+	opponent   *engine.Opponent
+	usRT       engine.RTModel
+	bestForWin bool
 }
 
 // mark is the table's word beside the dial to post.
@@ -355,6 +370,9 @@ func (p dialPost) write(s *IOStreams, j dialJSON, plan engine.DialPlan) {
 		lead := "Post this dial"
 		if len(p.failed) > 0 {
 			lead = "The dial once the failed checks are cleared"
+		}
+		if p.bestForWin {
+			rule = "but the dial that wins most against the other lane is posted (post_dial: best-for-win)"
 		}
 		fmt.Fprintln(s.Out, prep.Wrap(fmt.Sprintf("%s for %s: %s (the breakout rule's %s, %s; %s), as the card gives it.", lead, strings.ToLower(p.round[:1])+p.round[1:], j.Post, j.Recommended, rule, how), s.width(), "  "))
 	default:

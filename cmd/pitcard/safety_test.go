@@ -3,6 +3,9 @@ package main
 import (
 	"encoding/json"
 	"math"
+
+	"pitcard/engine"
+	"pitcard/event"
 	"strings"
 	"testing"
 )
@@ -155,5 +158,22 @@ func TestTheIntervalWidensPastTheLogbook(t *testing.T) {
 			t.Errorf("track %s: ±%.3f s, no wider than ±%.3f s nearer the logbook", f, half, last)
 		}
 		last = half
+	}
+}
+
+// dial races the other lane the card races: its dial noted for the round in
+// rounds.csv (from the pit page) gives the table its chances to win.
+func TestDialReadsTheNotedOtherLane(t *testing.T) {
+	dir := demoCopy(t)
+	e, err := event.Open(event.OpenOptions{Dir: dir})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := e.SetOpponentDial("2026-06-13", engine.Session{Kind: engine.Elimination, N: 3}, "11.88", fixedNow); err != nil {
+		t.Fatal(err)
+	}
+	var d dialJSON
+	if err := json.Unmarshal([]byte(mustRun(t, "dial", "--dir", dir, "--format", "json")), &d); err != nil || d.BestForWin == nil || d.Options[0].WinChance == nil {
+		t.Errorf("dial without --opponent-dial, the card's other lane noted (%v): %+v", err, d)
 	}
 }
