@@ -3,11 +3,11 @@ package main
 import (
 	"encoding/json"
 	"math"
+	"strings"
+	"testing"
 
 	"pitcard/engine"
 	"pitcard/event"
-	"strings"
-	"testing"
 )
 
 // A limit the crew entered that the prediction breaks reaches the dial box
