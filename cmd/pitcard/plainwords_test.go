@@ -7,6 +7,8 @@ import (
 	"regexp"
 	"strings"
 	"testing"
+
+	"pitcard/engine"
 )
 
 // Words a racer reads: each screen says what a figure is, in one form.
@@ -190,5 +192,17 @@ func TestRulesTryLikeTheCard(t *testing.T) {
 	}
 	if j["session"] != "E3" || j["lane"] != "left" {
 		t.Errorf("session %v lane %v", j["session"], j["lane"])
+	}
+}
+
+// round asks for the reaction time as the slips print it: on an amber-zero
+// tree perfect is .500 (full) and .021 would be a red light (common
+// practice, no source: a full tree's green is .5 s after the last amber).
+func TestRoundAsksRTAsTheSlipsPrintIt(t *testing.T) {
+	if q := rtQuestion(engine.FromAmber); !strings.Contains(q, ".500") || strings.Contains(q, ".021") {
+		t.Errorf("amber: %q", q)
+	}
+	if q := rtQuestion(engine.FromGreen); !strings.Contains(q, ".021") || !strings.Contains(q, "red light is negative") {
+		t.Errorf("green: %q", q)
 	}
 }

@@ -309,7 +309,7 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 		dial = prep.DialText(c.FinalDial, e.Settings.DialStep)
 	}
 	questions := []struct{ key, question, def string }{
-		{"dial", "Dial-in posted", dial}, {"rt", "Reaction time (.021)", ""}, {"et60", "60 ft", ""}, {"et330", "330 ft", ""},
+		{"dial", "Dial-in posted", dial}, {"rt", rtQuestion(e.Settings.RTZero), ""}, {"et60", "60 ft", ""}, {"et330", "330 ft", ""},
 		{"et660", "1/8 mile ET", ""}, {"mph660", "1/8 mile trap, " + u.Speed.String(), ""}, {"et1000", "1000 ft", ""}, {"et1320", "1/4 mile ET", ""},
 		{"mph1320", "1/4 mile trap, " + u.Speed.String(), ""}, {"notes", "Notes (lifted, pedaled ...)", ""},
 	}
@@ -423,4 +423,13 @@ func inRange(field, typed string, v float64, unit string, r [2]float64) error {
 		return nil
 	}
 	return &weather.InputError{Field: field, Value: typed, Reason: fmt.Sprintf("is outside %g..%g %s", r[0], r[1], unit)}
+}
+
+// rtQuestion asks for a reaction time as the slips print it: from the green
+// (.021, a red light negative) or from the last amber (.521 on a full tree).
+func rtQuestion(zero engine.RTZero) string {
+	if zero == engine.FromAmber {
+		return "Reaction time (.521; perfect is .500 full tree, .400 pro)"
+	}
+	return "Reaction time (.021; a red light is negative)"
 }

@@ -221,7 +221,7 @@ func TestRoundAsksABadSlipFieldAgain(t *testing.T) {
 	if code != 0 {
 		t.Fatalf("exit %d\n%s\n%s", code, out, errs)
 	}
-	if strings.Count(out, "Reaction time (.021): ") != 2 || !strings.Contains(out, "1000 ft: 1/4 mile ET") || !regexp.MustCompile(`1000 ft: (Other lane|Logged)`).MatchString(out) || !strings.Contains(out, "increase with distance") ||
+	if strings.Count(out, "Reaction time (.021; a red light is negative): ") != 2 || !strings.Contains(out, "1000 ft: 1/4 mile ET") || !regexp.MustCompile(`1000 ft: (Other lane|Logged)`).MatchString(out) || !strings.Contains(out, "increase with distance") ||
 		!strings.Contains(out, "Logged 2026-06-13 20:40 round 3, left lane: 11.482") {
 		t.Errorf("the slip was not asked again field by field:\n%s", out)
 	}
