@@ -2,6 +2,9 @@ package pitpage
 
 import (
 	"context"
+	"fmt"
+	"net/http"
+	"net/http/httptest"
 	"os"
 	"os/exec"
 	"path/filepath"
@@ -104,8 +107,27 @@ func TestThePitPageOnAPhone(t *testing.T) {
 	base := serveLoopback(t, f, DefaultLimits)
 	css := func(s string) chromedp.CSS { return chromedp.CSS(s) }
 
+	// The crew's link opened from another app: a page of another site
+	// (localhost is another site than 127.0.0.1) links to it.
+	other := httptest.NewServer(http.HandlerFunc(func(w http.ResponseWriter, r *http.Request) {
+		fmt.Fprintf(w, `<!DOCTYPE html><title>a message</title><a id="go" href="%s/join/%s">the crew's link</a>`, base, testTokens.Crew)
+	}))
+	t.Cleanup(other.Close)
+	otherURL := strings.Replace(other.URL, "127.0.0.1", "localhost", 1)
+	do(t, ctx, chromedp.Navigate(otherURL), chromedp.Click(css("#go")))
+	landed := ""
+	for deadline := time.Now().Add(10 * time.Second); time.Now().Before(deadline); time.Sleep(100 * time.Millisecond) {
+		v, err := chromedp.Run(ctx, chromedp.Evaluate[string](`location.pathname + " " + (document.querySelector(".dial .num") || document.querySelector("h1") || {}).textContent`))
+		if landed = v; err == nil && strings.HasPrefix(v, "/ ") && !strings.HasSuffix(v, "undefined") {
+			break
+		}
+	}
+	if !strings.HasPrefix(landed, "/ 11.") {
+		t.Fatalf("the crew's link opened from another site lands on %q, want the card's dial", landed)
+	}
+
 	// The card: the dial to post in large type, above the fold; nothing wider than the phone.
-	do(t, ctx, chromedp.Navigate(base+"/join/"+testTokens.Crew), chromedp.WaitVisible(css(".dial .num")))
+	do(t, ctx, chromedp.Navigate(base+"/"), chromedp.WaitVisible(css(".dial .num")))
 	shot(t, ctx, "card")
 	if dial := textOf(t, ctx, ".dial .num"); !strings.HasPrefix(dial, "11.") {
 		t.Errorf("the dial reads %q", dial)
