@@ -440,7 +440,10 @@ func (s *Server) postOpponent(q *request) {
 		fill(p.Form, q.r.PostForm)
 		p.Error = attach(p.Form, err)
 		p.Heading, p.Action, p.Submit = "The other lane", "/opponent", "Save the other lane's dial"
-		p.Form = append(p.Form, field{Name: "day", Kind: "select", Label: "Day", Options: []string{day}, Value: day})
+		if ses, _, rerr := roundOf(v); rerr == nil {
+			// The round and its day as the card's form sent them: shown, kept hidden.
+			p.Heading, p.Day = "The other lane, "+ses.Long()+", "+day, day
+		}
 		s.render(q, "form", p, http.StatusUnprocessableEntity)
 		return
 	}

@@ -414,6 +414,27 @@ func TestReadingFormTour(t *testing.T) {
 	}
 }
 
+// A decimal comma (a phone set to a European language offers one) is
+// answered with how to type the figure, as typed, not lowercased.
+func TestADecimalCommaSaysHowToTypeIt(t *testing.T) {
+	f := newFixture(t)
+	for _, c := range []struct{ field, typed, want string }{
+		{"temp", "82,5F", "82.5F"},
+		{"baro", "27,62", "27.62"},
+		{"humidity", "41,5", "41.5"},
+	} {
+		t.Run(c.field, func(t *testing.T) {
+			v := url.Values{"temp": {"82F"}, "baro": {"27.62"}, "humidity": {"41"}}
+			v.Set(c.field, c.typed)
+			body := f.post("/reading", v).Body.String()
+			msg := html.UnescapeString(fieldError(body, c.field))
+			if !strings.Contains(msg, `"`+c.typed+`"`) || !strings.Contains(msg, "decimal point") || !strings.Contains(msg, c.want) {
+				t.Errorf("%s typed as %q: the message %q must quote it as typed and show it with a decimal point (%s)", c.field, c.typed, msg, c.want)
+			}
+		})
+	}
+}
+
 func slip() url.Values {
 	return url.Values{"session": {"E3"}, "lane": {"left"}, "dial": {"11.40"}, "rt": {".024"}, "et60": {"1.602"},
 		"et330": {"4.655"}, "et660": {"7.268"}, "mph660": {"94.02"}, "et1000": {"9.494"}, "et1320": {"11.431"},
@@ -526,6 +547,12 @@ func TestChecklistAndTheOtherLane(t *testing.T) {
 	w = f.post("/opponent", url.Values{"round": {"E3"}, "day": {"2026-06-13"}, "opponent-dial": {"eleven"}})
 	if w.Code != http.StatusUnprocessableEntity || fieldError(w.Body.String(), "opponent-dial") == "" {
 		t.Errorf("a bad dial: %d, message %q", w.Code, fieldError(w.Body.String(), "opponent-dial"))
+	}
+	// The refused form names its round and keeps the day as it came: the
+	// day is the round's, not a choice of one.
+	if body := w.Body.String(); !strings.Contains(body, "<h1>The other lane, round 3, 2026-06-13</h1>") ||
+		strings.Contains(body, `<select id="f-day"`) || !strings.Contains(body, `<input type="hidden" name="day" value="2026-06-13">`) {
+		t.Errorf("the refused other-lane form must name round 3 and its day, and keep the day hidden:\n%s", body)
 	}
 	if w := f.post("/checklist", url.Values{"round": {"Q"}, "day": {"2026-06-13"}}); w.Code != http.StatusUnprocessableEntity {
 		t.Errorf("a bad round: %d", w.Code)
