@@ -98,8 +98,8 @@ func (s *Server) cardPage(q *request) {
 	p.Rounds, p.Refresh, p.Stamp = q.rounds(), true, stamp(q.folder)
 	p.Saved = savedWords[q.r.URL.Query().Get("saved")]
 	c, warnings, err := s.gather(q, round)
-	p.Warnings = warnings
 	if err != nil {
+		p.Warnings = warnings
 		p.Round = round
 		p.Error = "No card: " + err.Error()
 		s.render(q, "card", p, http.StatusOK)
@@ -115,7 +115,7 @@ func (s *Server) cardPage(q *request) {
 	}
 	var body bytes.Buffer
 	form := &prep.ChecklistForm{Action: "/checklist", Round: p.Round, Day: p.Day, CSRF: csrf, ReadOnly: !p.CanWrite}
-	if err := prep.RenderHTMLBody(&body, c, form); err != nil {
+	if err := prep.RenderHTMLBody(&body, c, prep.BodyOptions{Checklist: form, Warnings: warnings}); err != nil {
 		p.Error = "The card could not be drawn: " + err.Error()
 	}
 	p.Card = template.HTML(body.String())

@@ -661,3 +661,19 @@ func TestAFailedCheckStopsThePagesDial(t *testing.T) {
 		t.Errorf("the page's dial box:\n%s", dial)
 	}
 }
+
+// A warning that changes what the crew should believe (the schedule is
+// another day's, the reading is old) sits in the dial's box, read with the
+// dial, not below the card.
+func TestWarningsSitWithTheDial(t *testing.T) {
+	f := newFixture(t)
+	f.srv.cfg.Now = func() time.Time { return demoNow.Add(26 * time.Hour) }
+	body := f.do("GET", "/", testTokens.Crew, nil).Body.String()
+	dial := regexp.MustCompile(`(?s)<div class="dial">.*?<div class="chart">`).FindString(body)
+	if !strings.Contains(dial, "schedule.yaml is for 2026-06-13, not today") {
+		t.Errorf("the schedule's warning must be in the dial's box, before the chart:\n%s", dial)
+	}
+	if strings.Count(body, "schedule.yaml is for 2026-06-13") != 1 {
+		t.Errorf("the warning must be said once")
+	}
+}

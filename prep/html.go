@@ -21,12 +21,26 @@ type ChecklistForm struct {
 	ReadOnly                 bool
 }
 
+// BodyOptions are what a page embedding the card adds to it.
+type BodyOptions struct {
+	// Checklist, when given, makes the checklist a form of boxes.
+	Checklist *ChecklistForm
+	// Warnings are said in the dial's box with the card's problems: a
+	// warning that changes what the crew should believe is read with the
+	// dial, not below the card.
+	Warnings []string
+}
+
 // RenderHTMLBody writes the card's content alone, for a page of another
 // front end to embed: no document, no style (the page brings its own
 // stylesheet; the markup's classes are the print page's), the checklist as
-// a form when form is given.
-func RenderHTMLBody(w io.Writer, c Card, form *ChecklistForm) error {
-	return cardHTML.ExecuteTemplate(w, "body", htmlData(c, form))
+// a form when opt.Checklist is given, the problems and opt.Warnings in the
+// dial's box.
+func RenderHTMLBody(w io.Writer, c Card, opt BodyOptions) error {
+	d := htmlData(c, opt.Checklist)
+	d.Beside = append(append([]string(nil), opt.Warnings...), d.V.Problems...)
+	d.Embedded = true
+	return cardHTML.ExecuteTemplate(w, "body", d)
 }
 
 type htmlCard struct {
@@ -34,6 +48,10 @@ type htmlCard struct {
 	Chart template.HTML
 	Sub   string
 	Form  *ChecklistForm
+	// Beside are said in the dial's box (the problems among them), and
+	// Embedded leaves the problems' lines below the top out.
+	Beside   []string
+	Embedded bool
 }
 
 func htmlData(c Card, form *ChecklistForm) htmlCard {
@@ -90,10 +108,10 @@ svg { width: 100%; height: auto; }
   <div class="dial">{{if .V.Stop}}<div class="num stop">STOP</div><p class="stop">{{.V.Stop}}</p>{{end}}{{if .V.Dial}}<div class="label">{{if .V.Stop}}THE DIAL ONCE THE FAILED CHECKS ARE CLEARED{{else}}POST THIS DIAL-IN{{end}}</div><div class="num">{{.V.Dial}}</div>
     <ul>{{range .V.DialLines}}<li>{{.}}</li>{{end}}</ul>{{if .V.DialAlert}}<p class="alert">Check: {{.V.DialAlert}}</p>{{end}}
     {{else if .V.NoDial}}<div class="label">NO DIAL YET</div><p class="alert">{{.V.NoDial}}</p>{{if .V.Guide}}<p>{{.V.Guide}}</p>{{end}}
-    {{else}}<div class="label">NO DIAL</div><p class="alert">See the problems.</p>{{end}}</div>
+    {{else}}<div class="label">NO DIAL</div><p class="alert">See the problems.</p>{{end}}{{if .Beside}}<ul class="beside">{{range .Beside}}<li>{{.}}</li>{{end}}</ul>{{end}}</div>
   <div class="chart">{{.Chart}}</div>
 </div>
-{{range .V.Problems}}<p class="alert">Problem: {{.}}</p>{{end}}
+{{if not .Embedded}}{{range .V.Problems}}<p class="alert">Problem: {{.}}</p>{{end}}{{end}}
 <div class="grid">
   <div>{{template "table" .V.Air}}<p class="small">{{.V.AirNote}}</p></div>
   <div>{{if .V.Prediction.Rows}}{{template "table" .V.Prediction}}<ul class="basis">{{range .V.Basis}}<li>{{.}}</li>{{end}}</ul>{{end}}</div>
