@@ -115,7 +115,7 @@ func (s *Server) cardPage(q *request) {
 	}
 	var body bytes.Buffer
 	form := &prep.ChecklistForm{Action: "/checklist", Round: p.Round, Day: p.Day, CSRF: csrf, ReadOnly: !p.CanWrite}
-	if err := prep.RenderHTMLBody(&body, c, prep.BodyOptions{Checklist: form, Warnings: warnings}); err != nil {
+	if err := prep.RenderHTMLBody(&body, c, prep.BodyOptions{Checklist: form, Warnings: plainAll(q.folder, warnings)}); err != nil {
 		p.Error = "The card could not be drawn: " + err.Error()
 	}
 	p.Card = template.HTML(body.String())
