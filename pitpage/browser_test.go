@@ -40,7 +40,7 @@ func browser(t *testing.T) context.Context {
 		chromedp.WindowSize(390, 844), chromedp.Flag("disable-quic", true), chromedp.Flag("hide-scrollbars", true))
 	alloc, cancelAlloc := chromedp.NewExecAllocator(context.Background(), opts...)
 	ctx, cancelCtx := chromedp.NewContext(alloc)
-	ctx, cancelTime := context.WithTimeout(ctx, 90*time.Second)
+	ctx, cancelTime := context.WithTimeout(ctx, 240*time.Second)
 	t.Cleanup(func() { cancelTime(); cancelCtx(); cancelAlloc() })
 	if err := chromedp.Do(ctx, chromedp.EmulateViewport(390, 844)); err != nil {
 		t.Fatalf("starting chromium: %v", err)
