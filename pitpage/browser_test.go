@@ -254,5 +254,9 @@ func TestThePitPageOnAPhone(t *testing.T) {
 	if !refreshed {
 		t.Fatal("the card did not refresh itself within 20 s of the folder changing")
 	}
+	// In place, and said in the polite live region.
+	if said := textOf(t, ctx, "#changed"); !strings.Contains(said, "Updated with new data") {
+		t.Errorf("the refresh must be said in the live region, which says %q", said)
+	}
 	shot(t, ctx, "card-refreshed")
 }

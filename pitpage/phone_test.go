@@ -62,6 +62,21 @@ const smallTargets = `(() => {
   return bad.slice(0, 12);
 })()`
 
+// faintPlaceholders lists the placeholders (the last reading's figures)
+// below 7:1 against the white field: the weakest text in sunlight
+// (WCAG 1.4.6's enhanced contrast).
+const faintPlaceholders = `(() => {
+  const lum = c => { const m = c.match(/[\d.]+/g).map(Number), f = v => { v /= 255; return v <= 0.03928 ? v / 12.92 : Math.pow((v + 0.055) / 1.055, 2.4); };
+    return 0.2126 * f(m[0]) + 0.7152 * f(m[1]) + 0.0722 * f(m[2]); };
+  const bad = [];
+  for (const el of document.querySelectorAll("input[placeholder]")) {
+    if (!el.placeholder) continue;
+    const c = getComputedStyle(el, "::placeholder").color, r = 1.05 / (lum(c) + 0.05);
+    if (r < 7) bad.push(el.id + " " + c + " " + r.toFixed(1) + ":1");
+  }
+  return bad;
+})()`
+
 // chartLabels lists the chart's labels drawn smaller than min px and the
 // labels that overlap each other or a marker, as drawn.
 const chartLabels = `((min) => {
@@ -111,6 +126,9 @@ func TestEveryPageOnAPhoneForBothLinks(t *testing.T) {
 		}
 		if small := eval[[]string](t, ctx, smallTargets); len(small) > 0 {
 			t.Errorf("%s: too small to tap (44×44 px):\n  %s", path, strings.Join(small, "\n  "))
+		}
+		if faint := eval[[]string](t, ctx, faintPlaceholders); len(faint) > 0 {
+			t.Errorf("%s: placeholders below 7:1: %v", path, faint)
 		}
 	}
 	for _, link := range []struct{ name, token string }{{"crew", testTokens.Crew}, {"view", testTokens.View}} {

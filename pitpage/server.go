@@ -434,6 +434,12 @@ func (s *Server) render(q *request, name string, p page, status int) {
 		p.CSRF = s.cfg.Tokens.CSRF(q.token)
 	}
 	p = plainPage(q.folder, p)
+	for i := range p.Form {
+		if p.Form[i].Error != "" {
+			p.Form[i].Focus = true
+			break
+		}
+	}
 	var buf bytes.Buffer
 	if err := s.pages[name].ExecuteTemplate(&buf, "layout", p); err != nil {
 		http.Error(q.w, "rendering the page: "+err.Error(), http.StatusInternalServerError)

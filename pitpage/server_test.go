@@ -677,3 +677,32 @@ func TestWarningsSitWithTheDial(t *testing.T) {
 		t.Errorf("the warning must be said once")
 	}
 }
+
+// What a screen reader needs of the pages (the rest axe-core checks in the
+// browser test): sections as headings, the current tab named, help tied to
+// its field, the focus on the first bad field of a refused form, and the
+// news of new data said politely.
+func TestThePagesSpeakToAScreenReader(t *testing.T) {
+	f := newFixture(t)
+	card := f.do("GET", "/", testTokens.Crew, nil).Body.String()
+	for _, want := range []string{"<h2>Air</h2>", "<h2>Checklist</h2>", `<a href="/?round=E3" class="here" aria-current="page">Card</a>`,
+		`id="changed" class="live" role="status" aria-live="polite"`} {
+		if !strings.Contains(card, want) {
+			t.Errorf("the card page lacks %s", want)
+		}
+	}
+	if strings.Contains(card, "<caption>") || strings.Contains(card, "<th></th>") || strings.Contains(card, `<th class="n"></th>`) {
+		t.Errorf("the card's sections are headings, not captions, and no header cell is empty")
+	}
+	reading := f.do("GET", "/reading", testTokens.Crew, nil).Body.String()
+	if !regexp.MustCompile(`<select id="f-baro-kind" name="baro-kind" aria-describedby="h-baro-kind">`).MatchString(reading) ||
+		!strings.Contains(reading, `<p class="help" id="h-baro-kind">`) {
+		t.Errorf("a field's help must be tied to it with aria-describedby")
+	}
+	w := f.post("/reading", url.Values{"temp": {"80"}, "baro": {"27.6x"}, "humidity": {"140"}})
+	body := w.Body.String()
+	if !strings.Contains(body, `id="f-baro" name="baro"`) || strings.Count(body, " autofocus") != 1 ||
+		!regexp.MustCompile(`<input id="f-baro"[^>]* autofocus`).MatchString(body) {
+		t.Errorf("a refused form must put the focus on its first bad field (baro), only there")
+	}
+}

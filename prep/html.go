@@ -84,7 +84,7 @@ h1 { font-size: 16px; margin: 0; }
 .dial p.stop { font-size: 10.5px; text-align: left; margin: 1px 0 3px; }
 .grid { display: grid; grid-template-columns: 1fr 1fr; gap: 4px 10px; margin-top: 4px; }
 table { border-collapse: collapse; width: 100%; }
-caption { text-align: left; font-weight: bold; font-size: 10.5px; padding: 2px 0; }
+h2 { text-align: left; font-weight: bold; font-size: 10.5px; padding: 2px 0; margin: 0; }
 th, td { border-bottom: 1px solid #ccc; padding: 1px 3px; text-align: left; vertical-align: top; }
 td.n, th.n { text-align: right; }
 tr.mark td { font-weight: bold; background: #eee; }
@@ -117,8 +117,8 @@ svg { width: 100%; height: auto; }
   <div>{{if .V.Prediction.Rows}}{{template "table" .V.Prediction}}<ul class="basis">{{range .V.Basis}}<li>{{.}}</li>{{end}}</ul>{{end}}</div>
   <div>{{if .V.Options.Rows}}{{template "table" .V.Options}}{{if .V.OptionsNote}}<p class="small">{{.V.OptionsNote}}</p>{{end}}{{end}}
        {{if .V.Rules.Rows}}{{template "table" .V.Rules}}{{end}}</div>
-  <div><table><caption>Checklist</caption></table>{{if .Form}}{{template "checkform" .}}{{else}}<ul class="checks">{{range .V.Checks}}<li class="{{cls .Status}}">{{if eq .Status "confirm"}}<span class="box{{if .Ticked}} ticked{{end}}">{{if .Ticked}}✓{{end}}</span>{{else}}<b>{{status .Status}}</b> {{end}}{{.Label}}{{if .Note}}: <span class="small">{{.Note}}</span>{{end}}{{if .Ticked}} <span class="small">(ticked {{.Ticked}})</span>{{end}}</li>{{end}}</ul>{{end}}
-       {{if .V.Notes}}<table><caption>Setup notes</caption></table><ul class="notes">{{range .V.Notes}}<li>{{.}}</li>{{end}}</ul>{{end}}
+  <div><h2>Checklist</h2>{{if .Form}}{{template "checkform" .}}{{else}}<ul class="checks">{{range .V.Checks}}<li class="{{cls .Status}}">{{if eq .Status "confirm"}}<span class="box{{if .Ticked}} ticked{{end}}">{{if .Ticked}}✓{{end}}</span>{{else}}<b>{{status .Status}}</b> {{end}}{{.Label}}{{if .Note}}: <span class="small">{{.Note}}</span>{{end}}{{if .Ticked}} <span class="small">(ticked {{.Ticked}})</span>{{end}}</li>{{end}}</ul>{{end}}
+       {{if .V.Notes}}<h2>Setup notes</h2><ul class="notes">{{range .V.Notes}}<li>{{.}}</li>{{end}}</ul>{{end}}
        {{if .V.Record.Rows}}<div class="record">{{template "table" .V.Record}}<p class="small">{{.V.RecordNote}}</p></div>{{end}}</div>
 </div>
 <div class="cautions">{{range .V.Cautions}}<p>⚠ {{.}}</p>{{end}}</div>
@@ -126,6 +126,6 @@ svg { width: 100%; height: auto; }
 {{define "checkform"}}<form method="post" action="{{.Form.Action}}" class="checkform" id="checklist">{{if not .Form.ReadOnly}}<input type="hidden" name="csrf" value="{{.Form.CSRF}}"><input type="hidden" name="round" value="{{.Form.Round}}"><input type="hidden" name="day" value="{{.Form.Day}}">{{end}}
 <ul class="checks">{{$ro := .Form.ReadOnly}}{{range .V.Checks}}<li class="{{cls .Status}}">{{if eq .Status "confirm"}}<label><input type="checkbox" name="tick" value="{{.Label}}"{{if .Ticked}} checked{{end}}{{if $ro}} disabled{{end}}> {{.Label}}{{if .Note}}: <span class="small">{{.Note}}</span>{{end}}{{if .Ticked}} <span class="small">(ticked {{.Ticked}})</span>{{end}}</label>{{else}}<b>{{status .Status}}</b> {{.Label}}{{if .Note}}: <span class="small">{{.Note}}</span>{{end}}{{end}}</li>{{end}}</ul>
 {{if not $ro}}<button type="submit" class="save-ticks">Save the checklist</button>{{end}}</form>{{end}}
-{{define "table"}}<table><caption>{{.Title}}</caption>{{if .Header}}<tr>{{range $i, $h := .Header}}<th{{if $i}} class="n"{{end}}>{{$h}}</th>{{end}}</tr>{{end}}
+{{define "table"}}<h2>{{.Title}}</h2><table>{{if .Header}}<tr>{{range $i, $h := .Header}}{{if $h}}<th{{if $i}} class="n"{{end}}>{{$h}}</th>{{else}}<td></td>{{end}}{{end}}</tr>{{end}}
 {{$t := .}}{{range $i, $r := .Rows}}<tr{{if marked $t $i}} class="mark"{{end}}>{{range $j, $c := $r}}<td{{if $j}} class="n"{{end}}>{{$c}}</td>{{end}}</tr>
 {{end}}</table>{{end}}`))
