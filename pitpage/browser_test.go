@@ -140,7 +140,10 @@ func TestThePitPageOnAPhone(t *testing.T) {
 	if wide := eval[[]string](t, ctx, tooWide); len(wide) > 0 {
 		t.Errorf("the card is wider than a 390 px phone: %v", wide)
 	}
-	if os.Getenv("PITCARD_SHOTS") != "" {
+	if dir := os.Getenv("PITCARD_SHOTS"); dir != "" {
+		if png, err := chromedp.Run(ctx, chromedp.FullScreenshot(100)); err == nil {
+			_ = os.WriteFile(filepath.Join(dir, "card-full.png"), png, 0o644)
+		}
 		for _, sel := range []string{"#checklist", "#opponent", ".cautions"} {
 			do(t, ctx, chromedp.ScrollIntoView(css(sel)))
 			shot(t, ctx, "card-"+strings.Trim(sel, "#."))

@@ -40,6 +40,9 @@ func RenderHTMLBody(w io.Writer, c Card, opt BodyOptions) error {
 	d := htmlData(c, opt.Checklist)
 	d.Beside = append(append([]string(nil), opt.Warnings...), d.V.Problems...)
 	d.Embedded = true
+	// A phone's chart beside the printed one: the page's style shows the
+	// one laid out for the width it has.
+	d.PhoneChart = template.HTML(ChartFor(c, PhoneChart))
 	return cardHTML.ExecuteTemplate(w, "body", d)
 }
 
@@ -50,8 +53,9 @@ type htmlCard struct {
 	Form  *ChecklistForm
 	// Beside are said in the dial's box (the problems among them), and
 	// Embedded leaves the problems' lines below the top out.
-	Beside   []string
-	Embedded bool
+	Beside     []string
+	Embedded   bool
+	PhoneChart template.HTML
 }
 
 func htmlData(c Card, form *ChecklistForm) htmlCard {
@@ -109,7 +113,7 @@ svg { width: 100%; height: auto; }
     <ul>{{range .V.DialLines}}<li>{{.}}</li>{{end}}</ul>{{if .V.DialAlert}}<p class="alert">Check: {{.V.DialAlert}}</p>{{end}}
     {{else if .V.NoDial}}<div class="label">NO DIAL YET</div><p class="alert">{{.V.NoDial}}</p>{{if .V.Guide}}<p>{{.V.Guide}}</p>{{end}}
     {{else}}<div class="label">NO DIAL</div><p class="alert">See the problems.</p>{{end}}{{if .Beside}}<ul class="beside">{{range .Beside}}<li>{{.}}</li>{{end}}</ul>{{end}}</div>
-  <div class="chart">{{.Chart}}</div>
+  <div class="chart">{{.PhoneChart}}{{.Chart}}</div>
 </div>
 {{if not .Embedded}}{{range .V.Problems}}<p class="alert">Problem: {{.}}</p>{{end}}{{end}}
 <div class="grid">
