@@ -2,6 +2,9 @@ package pitpage
 
 import (
 	"context"
+	"fmt"
+	"net/http"
+	"net/http/httptest"
 	"os"
 	"os/exec"
 	"path/filepath"
@@ -37,7 +40,7 @@ func browser(t *testing.T) context.Context {
 		chromedp.WindowSize(390, 844), chromedp.Flag("disable-quic", true), chromedp.Flag("hide-scrollbars", true))
 	alloc, cancelAlloc := chromedp.NewExecAllocator(context.Background(), opts...)
 	ctx, cancelCtx := chromedp.NewContext(alloc)
-	ctx, cancelTime := context.WithTimeout(ctx, 90*time.Second)
+	ctx, cancelTime := context.WithTimeout(ctx, 240*time.Second)
 	t.Cleanup(func() { cancelTime(); cancelCtx(); cancelAlloc() })
 	if err := chromedp.Do(ctx, chromedp.EmulateViewport(390, 844)); err != nil {
 		t.Fatalf("starting chromium: %v", err)
@@ -104,8 +107,27 @@ func TestThePitPageOnAPhone(t *testing.T) {
 	base := serveLoopback(t, f, DefaultLimits)
 	css := func(s string) chromedp.CSS { return chromedp.CSS(s) }
 
+	// The crew's link opened from another app: a page of another site
+	// (localhost is another site than 127.0.0.1) links to it.
+	other := httptest.NewServer(http.HandlerFunc(func(w http.ResponseWriter, r *http.Request) {
+		fmt.Fprintf(w, `<!DOCTYPE html><title>a message</title><a id="go" href="%s/join/%s">the crew's link</a>`, base, testTokens.Crew)
+	}))
+	t.Cleanup(other.Close)
+	otherURL := strings.Replace(other.URL, "127.0.0.1", "localhost", 1)
+	do(t, ctx, chromedp.Navigate(otherURL), chromedp.Click(css("#go")))
+	landed := ""
+	for deadline := time.Now().Add(10 * time.Second); time.Now().Before(deadline); time.Sleep(100 * time.Millisecond) {
+		v, err := chromedp.Run(ctx, chromedp.Evaluate[string](`location.pathname + " " + (document.querySelector(".dial .num") || document.querySelector("h1") || {}).textContent`))
+		if landed = v; err == nil && strings.HasPrefix(v, "/ ") && !strings.HasSuffix(v, "undefined") {
+			break
+		}
+	}
+	if !strings.HasPrefix(landed, "/ 11.") {
+		t.Fatalf("the crew's link opened from another site lands on %q, want the card's dial", landed)
+	}
+
 	// The card: the dial to post in large type, above the fold; nothing wider than the phone.
-	do(t, ctx, chromedp.Navigate(base+"/join/"+testTokens.Crew), chromedp.WaitVisible(css(".dial .num")))
+	do(t, ctx, chromedp.Navigate(base+"/"), chromedp.WaitVisible(css(".dial .num")))
 	shot(t, ctx, "card")
 	if dial := textOf(t, ctx, ".dial .num"); !strings.HasPrefix(dial, "11.") {
 		t.Errorf("the dial reads %q", dial)
@@ -118,7 +140,10 @@ func TestThePitPageOnAPhone(t *testing.T) {
 	if wide := eval[[]string](t, ctx, tooWide); len(wide) > 0 {
 		t.Errorf("the card is wider than a 390 px phone: %v", wide)
 	}
-	if os.Getenv("PITCARD_SHOTS") != "" {
+	if dir := os.Getenv("PITCARD_SHOTS"); dir != "" {
+		if png, err := chromedp.Run(ctx, chromedp.FullScreenshot(100)); err == nil {
+			_ = os.WriteFile(filepath.Join(dir, "card-full.png"), png, 0o644)
+		}
 		for _, sel := range []string{"#checklist", "#opponent", ".cautions"} {
 			do(t, ctx, chromedp.ScrollIntoView(css(sel)))
 			shot(t, ctx, "card-"+strings.Trim(sel, "#."))
@@ -231,6 +256,10 @@ func TestThePitPageOnAPhone(t *testing.T) {
 	}
 	if !refreshed {
 		t.Fatal("the card did not refresh itself within 20 s of the folder changing")
+	}
+	// In place, and said in the polite live region.
+	if said := textOf(t, ctx, "#changed"); !strings.Contains(said, "Updated with new data") {
+		t.Errorf("the refresh must be said in the live region, which says %q", said)
 	}
 	shot(t, ctx, "card-refreshed")
 }

@@ -2,6 +2,7 @@ package pitpage
 
 import (
 	"bytes"
+	"encoding/json"
 	"errors"
 	"fmt"
 	"html/template"
@@ -33,6 +34,21 @@ type field struct {
 	// Flag is the command line's name of the field when it is not Name:
 	// the slip's "session" is --round in the errors the page is given.
 	Flag string
+	// Focus: the first bad field of a refused form takes the focus, so a
+	// keyboard or a screen reader starts where the fix is.
+	Focus bool
+}
+
+// Describedby are the ids of the texts that describe f: its message, its help.
+func (f field) Describedby() string {
+	var ids []string
+	if f.Error != "" {
+		ids = append(ids, "e-"+f.Name)
+	}
+	if f.Help != "" {
+		ids = append(ids, "h-"+f.Name)
+	}
+	return strings.Join(ids, " ")
 }
 
 // flag is the command line's name of f, as errors name it.
@@ -98,8 +114,8 @@ func (s *Server) cardPage(q *request) {
 	p.Rounds, p.Refresh, p.Stamp = q.rounds(), true, stamp(q.folder)
 	p.Saved = savedWords[q.r.URL.Query().Get("saved")]
 	c, warnings, err := s.gather(q, round)
-	p.Warnings = warnings
 	if err != nil {
+		p.Warnings = warnings
 		p.Round = round
 		p.Error = "No card: " + err.Error()
 		s.render(q, "card", p, http.StatusOK)
@@ -115,7 +131,7 @@ func (s *Server) cardPage(q *request) {
 	}
 	var body bytes.Buffer
 	form := &prep.ChecklistForm{Action: "/checklist", Round: p.Round, Day: p.Day, CSRF: csrf, ReadOnly: !p.CanWrite}
-	if err := prep.RenderHTMLBody(&body, c, form); err != nil {
+	if err := prep.RenderHTMLBody(&body, c, prep.BodyOptions{Checklist: form, Warnings: plainAll(q.folder, warnings)}); err != nil {
 		p.Error = "The card could not be drawn: " + err.Error()
 	}
 	p.Card = template.HTML(body.String())
@@ -194,7 +210,7 @@ func (q *request) slipPage(round string) page {
 
 func (s *Server) readingPage(q *request) {
 	p := q.readingPage(q.r.URL.Query().Get("round"))
-	p.Intro = "Gray figures are the last reading's. A bare number is read in the event's units; 28.92inHg or 979hPa also work."
+	p.Intro = "The figures in italics are the last reading's. A bare number is read in the event's units; 28.92inHg or 979hPa also work."
 	s.render(q, "form", p, http.StatusOK)
 }
 
@@ -391,12 +407,31 @@ func (s *Server) postChecklist(q *request) {
 	if err == nil {
 		err = q.folder.SetTicks(day, ses, q.r.PostForm["tick"], q.now)
 	}
+	// The page's script saves a box as it is ticked and asks for JSON: the
+	// words to say and the folder's new stamp (its own write is no news).
+	script := strings.Contains(q.r.Header.Get("Accept"), "application/json")
 	if err != nil {
-		http.Error(q.w, "Nothing was saved: "+forPhone(q.folder, err.Error()), http.StatusUnprocessableEntity)
+		msg := "Nothing was saved: " + forPhone(q.folder, err.Error())
+		if script {
+			answerJSON(q.w, http.StatusUnprocessableEntity, map[string]string{"error": msg})
+			return
+		}
+		http.Error(q.w, msg, http.StatusUnprocessableEntity)
 		return
 	}
 	s.logf("checklist of %s saved by the crew from %s: %d ticked", ses, q.r.RemoteAddr, len(q.r.PostForm["tick"]))
+	if script {
+		answerJSON(q.w, http.StatusOK, map[string]string{"stamp": stamp(q.folder),
+			"saved": fmt.Sprintf("The checklist is saved: %s ticked.", engine.Plural(len(q.r.PostForm["tick"]), "item"))})
+		return
+	}
 	http.Redirect(q.w, q.r, "/?saved=checklist"+roundParam(ses.String())+"#checklist", http.StatusSeeOther)
+}
+
+func answerJSON(w http.ResponseWriter, status int, v map[string]string) {
+	w.Header().Set("Content-Type", "application/json")
+	w.WriteHeader(status)
+	_ = json.NewEncoder(w).Encode(v)
 }
 
 // roundsItems checks that ticked are items to tick of ses's card, and day
@@ -440,7 +475,10 @@ func (s *Server) postOpponent(q *request) {
 		fill(p.Form, q.r.PostForm)
 		p.Error = attach(p.Form, err)
 		p.Heading, p.Action, p.Submit = "The other lane", "/opponent", "Save the other lane's dial"
-		p.Form = append(p.Form, field{Name: "day", Kind: "select", Label: "Day", Options: []string{day}, Value: day})
+		if ses, _, rerr := roundOf(v); rerr == nil {
+			// The round and its day as the card's form sent them: shown, kept hidden.
+			p.Heading, p.Day = "The other lane, "+ses.Long()+", "+day, day
+		}
 		s.render(q, "form", p, http.StatusUnprocessableEntity)
 		return
 	}

@@ -336,7 +336,8 @@ func (s *Server) endRefusals(addr string, g *refusalGroup) {
 	}
 }
 
-// join takes the token from a link once and keeps it as a cookie.
+// join takes the token from a link once, keeps it as a cookie and
+// continues to the card.
 func (s *Server) join(w http.ResponseWriter, r *http.Request) {
 	tok := r.PathValue("token")
 	role := s.cfg.Tokens.RoleOf(tok)
@@ -347,7 +348,12 @@ func (s *Server) join(w http.ResponseWriter, r *http.Request) {
 	http.SetCookie(w, &http.Cookie{Name: CookieName, Value: tok, Path: "/", HttpOnly: true, SameSite: http.SameSiteStrictMode,
 		MaxAge: int(cookieMaxAge / time.Second)})
 	s.logf("a phone joined with the %s link from %s", role, r.RemoteAddr)
-	http.Redirect(w, r, "/", http.StatusSeeOther)
+	// A page that continues, not a redirect: a link opened from another app
+	// is a navigation from another site, and a redirect's next request
+	// belongs to that chain, so the Strict cookie would not go with it. The
+	// refresh is the page's own navigation, same-site, and the cookie goes.
+	w.Header().Set("Content-Type", "text/html; charset=utf-8")
+	_ = s.denied.ExecuteTemplate(w, "joined", role.String())
 }
 
 // static serves the embedded style and script.
@@ -428,6 +434,12 @@ func (s *Server) render(q *request, name string, p page, status int) {
 		p.CSRF = s.cfg.Tokens.CSRF(q.token)
 	}
 	p = plainPage(q.folder, p)
+	for i := range p.Form {
+		if p.Form[i].Error != "" {
+			p.Form[i].Focus = true
+			break
+		}
+	}
 	var buf bytes.Buffer
 	if err := s.pages[name].ExecuteTemplate(&buf, "layout", p); err != nil {
 		http.Error(q.w, "rendering the page: "+err.Error(), http.StatusInternalServerError)

@@ -209,12 +209,21 @@ func TestNoTokenNoPage(t *testing.T) {
 	f.unchanged(before, "requests without a valid token")
 }
 
+// A join link opened from another app (a message, a chat's page) is a
+// navigation from another site: a redirect's next request is still part of
+// that cross-site chain and carries no SameSite=Strict cookie, so the join
+// answers a page of its own that continues to the card as a same-origin
+// navigation.
 func TestJoinKeepsTheTokenInAPrivateCookie(t *testing.T) {
 	f := newFixture(t)
 	for _, tok := range []string{testTokens.Crew, testTokens.View} {
 		w := f.do("GET", "/join/"+tok, "", nil)
-		if w.Code != http.StatusSeeOther || w.Header().Get("Location") != "/" {
-			t.Fatalf("join: %d to %q", w.Code, w.Header().Get("Location"))
+		body := w.Body.String()
+		if w.Code != http.StatusOK || w.Header().Get("Location") != "" {
+			t.Fatalf("join: %d to %q, want 200 and a page of the pit page's own", w.Code, w.Header().Get("Location"))
+		}
+		if !strings.Contains(body, `<meta http-equiv="refresh" content="0; url=/">`) || !strings.Contains(body, `<a href="/">`) {
+			t.Errorf("the join page must continue to the card by itself and offer a link:\n%s", body)
 		}
 		cs := w.Result().Cookies()
 		if len(cs) != 1 || cs[0].Value != tok || !cs[0].HttpOnly || cs[0].SameSite != http.SameSiteStrictMode || cs[0].Path != "/" {
@@ -405,6 +414,27 @@ func TestReadingFormTour(t *testing.T) {
 	}
 }
 
+// A decimal comma (a phone set to a European language offers one) is
+// answered with how to type the figure, as typed, not lowercased.
+func TestADecimalCommaSaysHowToTypeIt(t *testing.T) {
+	f := newFixture(t)
+	for _, c := range []struct{ field, typed, want string }{
+		{"temp", "82,5F", "82.5F"},
+		{"baro", "27,62", "27.62"},
+		{"humidity", "41,5", "41.5"},
+	} {
+		t.Run(c.field, func(t *testing.T) {
+			v := url.Values{"temp": {"82F"}, "baro": {"27.62"}, "humidity": {"41"}}
+			v.Set(c.field, c.typed)
+			body := f.post("/reading", v).Body.String()
+			msg := html.UnescapeString(fieldError(body, c.field))
+			if !strings.Contains(msg, `"`+c.typed+`"`) || !strings.Contains(msg, "decimal point") || !strings.Contains(msg, c.want) {
+				t.Errorf("%s typed as %q: the message %q must quote it as typed and show it with a decimal point (%s)", c.field, c.typed, msg, c.want)
+			}
+		})
+	}
+}
+
 func slip() url.Values {
 	return url.Values{"session": {"E3"}, "lane": {"left"}, "dial": {"11.40"}, "rt": {".024"}, "et60": {"1.602"},
 		"et330": {"4.655"}, "et660": {"7.268"}, "mph660": {"94.02"}, "et1000": {"9.494"}, "et1320": {"11.431"},
@@ -518,6 +548,12 @@ func TestChecklistAndTheOtherLane(t *testing.T) {
 	if w.Code != http.StatusUnprocessableEntity || fieldError(w.Body.String(), "opponent-dial") == "" {
 		t.Errorf("a bad dial: %d, message %q", w.Code, fieldError(w.Body.String(), "opponent-dial"))
 	}
+	// The refused form names its round and keeps the day as it came: the
+	// day is the round's, not a choice of one.
+	if body := w.Body.String(); !strings.Contains(body, "<h1>The other lane, round 3, 2026-06-13</h1>") ||
+		strings.Contains(body, `<select id="f-day"`) || !strings.Contains(body, `<input type="hidden" name="day" value="2026-06-13">`) {
+		t.Errorf("the refused other-lane form must name round 3 and its day, and keep the day hidden:\n%s", body)
+	}
 	if w := f.post("/checklist", url.Values{"round": {"Q"}, "day": {"2026-06-13"}}); w.Code != http.StatusUnprocessableEntity {
 		t.Errorf("a bad round: %d", w.Code)
 	}
@@ -623,5 +659,50 @@ func TestAFailedCheckStopsThePagesDial(t *testing.T) {
 	if !strings.Contains(dial, `<div class="num stop">STOP</div>`) || !strings.Contains(dial, "A CHECK FAILED: ET limit") ||
 		!strings.Contains(dial, "1/4 mile limit of 11.50 s") || strings.Contains(dial, "POST THIS DIAL-IN") {
 		t.Errorf("the page's dial box:\n%s", dial)
+	}
+}
+
+// A warning that changes what the crew should believe (the schedule is
+// another day's, the reading is old) sits in the dial's box, read with the
+// dial, not below the card.
+func TestWarningsSitWithTheDial(t *testing.T) {
+	f := newFixture(t)
+	f.srv.cfg.Now = func() time.Time { return demoNow.Add(26 * time.Hour) }
+	body := f.do("GET", "/", testTokens.Crew, nil).Body.String()
+	dial := regexp.MustCompile(`(?s)<div class="dial">.*?<div class="chart">`).FindString(body)
+	if !strings.Contains(dial, "schedule.yaml is for 2026-06-13, not today") {
+		t.Errorf("the schedule's warning must be in the dial's box, before the chart:\n%s", dial)
+	}
+	if strings.Count(body, "schedule.yaml is for 2026-06-13") != 1 {
+		t.Errorf("the warning must be said once")
+	}
+}
+
+// What a screen reader needs of the pages (the rest axe-core checks in the
+// browser test): sections as headings, the current tab named, help tied to
+// its field, the focus on the first bad field of a refused form, and the
+// news of new data said politely.
+func TestThePagesSpeakToAScreenReader(t *testing.T) {
+	f := newFixture(t)
+	card := f.do("GET", "/", testTokens.Crew, nil).Body.String()
+	for _, want := range []string{"<h2>Air</h2>", "<h2>Checklist</h2>", `<a href="/?round=E3" class="here" aria-current="page">Card</a>`,
+		`id="changed" class="live" role="status" aria-live="polite"`} {
+		if !strings.Contains(card, want) {
+			t.Errorf("the card page lacks %s", want)
+		}
+	}
+	if strings.Contains(card, "<caption>") || strings.Contains(card, "<th></th>") || strings.Contains(card, `<th class="n"></th>`) {
+		t.Errorf("the card's sections are headings, not captions, and no header cell is empty")
+	}
+	reading := f.do("GET", "/reading", testTokens.Crew, nil).Body.String()
+	if !regexp.MustCompile(`<select id="f-baro-kind" name="baro-kind" aria-describedby="h-baro-kind">`).MatchString(reading) ||
+		!strings.Contains(reading, `<p class="help" id="h-baro-kind">`) {
+		t.Errorf("a field's help must be tied to it with aria-describedby")
+	}
+	w := f.post("/reading", url.Values{"temp": {"80"}, "baro": {"27.6x"}, "humidity": {"140"}})
+	body := w.Body.String()
+	if !strings.Contains(body, `id="f-baro" name="baro"`) || strings.Count(body, " autofocus") != 1 ||
+		!regexp.MustCompile(`<input id="f-baro"[^>]* autofocus`).MatchString(body) {
+		t.Errorf("a refused form must put the focus on its first bad field (baro), only there")
 	}
 }

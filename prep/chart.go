@@ -8,11 +8,62 @@ import (
 	"pitcard/engine"
 )
 
-// Chart draws, as inline SVG, the logbook's finish ETs against density
-// altitude, the calibrated model's line for today's track and wind (with
-// today's correction), today's passes, left-out passes, and the predicted
-// point with its interval. It returns "" when there is nothing to draw.
-func Chart(c Card) string {
+// ChartLayout is what a chart is laid out for: its drawing's size in user
+// units and its labels' size in the same units. A chart drawn Width px
+// wide shows its labels Font px tall; the tick spacing, the margins, the
+// legend's rows and the labels' places all follow from the two.
+type ChartLayout struct {
+	Name          string  // the svg's class, "chart-print"
+	Width, Height float64 // the viewBox
+	Font          float64 // the labels' size
+}
+
+var (
+	// PrintChart is beside the dial on a printed sheet (about 120 mm
+	// wide: 7 units print about 2 mm tall) and on a wide screen.
+	PrintChart = ChartLayout{Name: "chart-print", Width: 420, Height: 200, Font: 7}
+	// PhoneChart is the width of a phone's column, 340 px at 360 px less
+	// the page's margins: drawn about 1:1, its labels are 13 px tall, 12 px
+	// being the least a phone's label may be.
+	PhoneChart = ChartLayout{Name: "chart-phone", Width: 340, Height: 300, Font: 13}
+)
+
+// Chart draws the chart for the printed card (PrintChart).
+func Chart(c Card) string { return ChartFor(c, PrintChart) }
+
+// charWidth is an average glyph's width as a share of the font size, a
+// little wide for DejaVu Sans and system fonts' digits, so that a label's
+// estimated box holds the drawn one.
+const charWidth = 0.64
+
+// box is a rectangle in user units.
+type box struct{ x0, y0, x1, y1 float64 }
+
+func (a box) meets(b box) bool { return a.x0 < b.x1 && b.x0 < a.x1 && a.y0 < b.y1 && b.y0 < a.y1 }
+
+func (a box) inside(b box) bool { return a.x0 >= b.x0 && a.x1 <= b.x1 && a.y0 >= b.y0 && a.y1 <= b.y1 }
+
+// textBox is the box of text drawn from (x, y) with its baseline at y:
+// the ascent and descent of DejaVu Sans (0.93 and 0.24 of the size),
+// padded by pad on every side.
+func textBox(s string, x, y, font, pad float64, anchor string) box {
+	w := float64(len([]rune(s))) * charWidth * font
+	switch anchor {
+	case "end":
+		x -= w
+	case "middle":
+		x -= w / 2
+	}
+	return box{x - pad, y - 0.93*font - pad, x + w + pad, y + 0.24*font + pad}
+}
+
+// ChartFor draws, as inline SVG laid out for lay, the logbook's finish ETs
+// against density altitude, the calibrated model's line for today's track
+// and wind (with today's correction), today's passes, left-out passes, and
+// the predicted point with its interval. It returns "" when there is
+// nothing to draw. No label overlaps another label or a marker: a today's
+// pass whose label finds no free place is drawn unlabelled.
+func ChartFor(c Card, lay ChartLayout) string {
 	in := c.Input
 	dist := in.Car.DistanceFt
 	if dist == 0 || len(c.Prediction.Timers) == 0 {
@@ -50,25 +101,33 @@ func Chart(c Card) string {
 	pad := math.Max((yhi-ylo)*0.08, 0.02)
 	ylo, yhi = ylo-pad, yhi+pad
 
-	const W, H, L, R, T, B = 420.0, 200.0, 44.0, 10.0, 14.0, 30.0
+	W, H, fs := lay.Width, lay.Height, lay.Font
+	ms := fs / 7 // markers grow with the text
+	legend := chartLegend(lay, ms)
+	// The margins hold the ticks' labels and the axes' titles.
+	L := fs*(1.4+charWidth*5) + 3
+	R, T, B := charWidth*fs*2.5, legend.height, fs*2.9 // R: half the last tick's label
 	sx := func(x float64) float64 { return L + (x-xlo)/(xhi-xlo)*(W-L-R) }
 	sy := func(y float64) float64 { return T + (yhi-y)/(yhi-ylo)*(H-T-B) }
+	plot := box{L, T, W - R, H - B}
 	var b strings.Builder
-	fmt.Fprintf(&b, `<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 %.0f %.0f" role="img" aria-label="ET against density altitude">`, W, H)
+	fmt.Fprintf(&b, `<svg xmlns="http://www.w3.org/2000/svg" class="%s" viewBox="0 0 %.0f %.0f" role="img" aria-label="ET against density altitude">`, lay.Name, W, H)
 	fmt.Fprintf(&b, `<title>%s ET against density altitude</title>`, TimerName(dist))
 	fmt.Fprintf(&b, `<rect x="%.1f" y="%.1f" width="%.1f" height="%.1f" fill="none" stroke="#999" stroke-width="0.6"/>`, L, T, W-L-R, H-T-B)
-	// grid and ticks
-	for x := xlo; x <= xhi+1; x += tickStep(xhi - xlo) {
+	// The ticks: as many as their labels leave room for.
+	xstep := tickStep(xhi-xlo, (W-L-R)/(charWidth*fs*6))
+	for x := xlo; x <= xhi+1; x += xstep {
 		fmt.Fprintf(&b, `<line x1="%.1f" y1="%.1f" x2="%.1f" y2="%.1f" stroke="#ddd" stroke-width="0.5"/>`, sx(x), T, sx(x), H-B)
-		fmt.Fprintf(&b, `<text x="%.1f" y="%.1f" font-size="7" text-anchor="middle">%.0f</text>`, sx(x), H-B+9, x)
+		fmt.Fprintf(&b, `<text x="%.1f" y="%.1f" font-size="%g" text-anchor="middle">%.0f</text>`, sx(x), H-B+fs*1.1, fs, x)
 	}
-	ystep := niceStep((yhi - ylo) / 5)
+	ystep := niceStep((yhi - ylo) / math.Max(2, math.Min(5, (H-T-B)/(fs*2.2))))
 	for y := math.Ceil(ylo/ystep) * ystep; y <= yhi; y += ystep {
 		fmt.Fprintf(&b, `<line x1="%.1f" y1="%.1f" x2="%.1f" y2="%.1f" stroke="#ddd" stroke-width="0.5"/>`, L, sy(y), W-R, sy(y))
-		fmt.Fprintf(&b, `<text x="%.1f" y="%.1f" font-size="7" text-anchor="end">%.2f</text>`, L-3, sy(y)+2.5, y)
+		fmt.Fprintf(&b, `<text x="%.1f" y="%.1f" font-size="%g" text-anchor="end">%.2f</text>`, L-3, sy(y)+fs*0.35, fs, y)
 	}
-	fmt.Fprintf(&b, `<text x="%.1f" y="%.1f" font-size="8" text-anchor="middle">Density altitude (ft)</text>`, (L+W-R)/2, H-6)
-	fmt.Fprintf(&b, `<text x="10" y="%.1f" font-size="8" text-anchor="middle" transform="rotate(-90 10 %.1f)">%s ET (s)</text>`, (T+H-B)/2, (T+H-B)/2, TimerName(dist))
+	fmt.Fprintf(&b, `<text x="%.1f" y="%.1f" font-size="%g" text-anchor="middle">Density altitude (ft)</text>`, (L+W-R)/2, H-fs*0.35, fs)
+	fmt.Fprintf(&b, `<text x="%.1f" y="%.1f" font-size="%g" text-anchor="middle" transform="rotate(-90 %.1f %.1f)">%s ET (s)</text>`,
+		fs*1.05, (T+H-B)/2, fs, fs*1.05, (T+H-B)/2, TimerName(dist))
 	// the model's line: today's track and wind, corrected as today's prediction is
 	bias := f.ET - c.Prediction.Model.ETAt(dist)
 	var line []string
@@ -82,34 +141,138 @@ func Chart(c Card) string {
 		}
 	}
 	if len(line) > 1 {
-		fmt.Fprintf(&b, `<polyline points="%s" fill="none" stroke="#1f5fa8" stroke-width="1.4"/>`, strings.Join(line, " "))
+		fmt.Fprintf(&b, `<polyline points="%s" fill="none" stroke="#1f5fa8" stroke-width="%.1f"/>`, strings.Join(line, " "), 1.4*math.Sqrt(ms))
 	}
+	// The markers, each taking its place from the labels.
+	taken := []box{}
+	// labelAt is a place for a label: its anchor is by the side of the
+	// marker it is on, unless given.
+	type labelAt struct {
+		x, y   float64
+		anchor string
+	}
+	var todays []pt
 	for _, p := range pts {
 		if p.y < ylo || p.y > yhi || p.x < xlo || p.x > xhi {
 			continue
 		}
+		x, y := sx(p.x), sy(p.y)
 		switch {
 		case p.out:
-			fmt.Fprintf(&b, `<path d="M%.1f %.1fl4 4m0 -4l-4 4" stroke="#b00" stroke-width="1"/>`, sx(p.x)-2, sy(p.y)-2)
+			fmt.Fprintf(&b, `<path d="M%.1f %.1fl%.1f %.1fm0 %.1fl%.1f %.1f" stroke="#b00" stroke-width="1"/>`, x-2*ms, y-2*ms, 4*ms, 4*ms, -4*ms, -4*ms, 4*ms)
+			taken = append(taken, box{x - 2*ms, y - 2*ms, x + 2*ms, y + 2*ms})
 		case p.today:
-			fmt.Fprintf(&b, `<circle cx="%.1f" cy="%.1f" r="2.6" fill="#e07b00"/><text x="%.1f" y="%.1f" font-size="6">%s</text>`, sx(p.x), sy(p.y), sx(p.x)+3.5, sy(p.y)-2, p.label)
+			fmt.Fprintf(&b, `<circle cx="%.1f" cy="%.1f" r="%.1f" fill="#e07b00"/>`, x, y, 2.6*ms)
+			taken = append(taken, box{x - 2.6*ms, y - 2.6*ms, x + 2.6*ms, y + 2.6*ms})
+			todays = append(todays, p)
 		default:
-			fmt.Fprintf(&b, `<circle cx="%.1f" cy="%.1f" r="1.8" fill="#888"/>`, sx(p.x), sy(p.y))
+			fmt.Fprintf(&b, `<circle cx="%.1f" cy="%.1f" r="%.1f" fill="#888"/>`, x, y, 1.8*ms)
+			taken = append(taken, box{x - 1.8*ms, y - 1.8*ms, x + 1.8*ms, y + 1.8*ms})
 		}
 	}
 	// the prediction with its interval
 	px := sx(predX)
-	fmt.Fprintf(&b, `<line x1="%.1f" y1="%.1f" x2="%.1f" y2="%.1f" stroke="#111" stroke-width="1.4"/>`, px, sy(f.Low), px, sy(f.High))
-	fmt.Fprintf(&b, `<path d="M%.1f %.1fl4 4l-4 4l-4 -4z" fill="#111"/>`, px, sy(f.ET)-4)
-	fmt.Fprintf(&b, `<text x="%.1f" y="%.1f" font-size="7" font-weight="bold">next %.3f</text>`, px+6, sy(f.ET)+2.5, f.ET)
-	// legend
-	fmt.Fprintf(&b, `<g font-size="6.5"><circle cx="%.0f" cy="8" r="1.8" fill="#888"/><text x="%.0f" y="10">logbook</text>`, L+4, L+8)
-	fmt.Fprintf(&b, `<circle cx="%.0f" cy="8" r="2.4" fill="#e07b00"/><text x="%.0f" y="10">today</text>`, L+44, L+48)
-	fmt.Fprintf(&b, `<path d="M%.0f 6l4 4m0 -4l-4 4" stroke="#b00"/><text x="%.0f" y="10">left out</text>`, L+76, L+83)
-	fmt.Fprintf(&b, `<line x1="%.0f" y1="8" x2="%.0f" y2="8" stroke="#1f5fa8" stroke-width="1.4"/><text x="%.0f" y="10">model, today's track and wind</text>`, L+118, L+130, L+133)
-	fmt.Fprintf(&b, `<path d="M%.0f 4l4 4l-4 4l-4 -4z" fill="#111"/><text x="%.0f" y="10">prediction, 95 %% interval</text></g>`, L+236, L+242)
+	fmt.Fprintf(&b, `<line x1="%.1f" y1="%.1f" x2="%.1f" y2="%.1f" stroke="#111" stroke-width="%.1f"/>`, px, sy(f.Low), px, sy(f.High), 1.4*math.Sqrt(ms))
+	fmt.Fprintf(&b, `<path d="M%.1f %.1fl%.1f %.1fl%.1f %.1fl%.1f %.1fz" fill="#111"/>`, px, sy(f.ET)-4*ms, 4*ms, 4*ms, -4*ms, 4*ms, -4*ms, -4*ms)
+	taken = append(taken, box{px - 4*ms, sy(f.ET) - 4*ms, px + 4*ms, sy(f.ET) + 4*ms}, box{px - ms, sy(f.High), px + ms, sy(f.Low)})
+	// The labels: the prediction's first, then today's passes, each at the
+	// first free place around its marker.
+	place := func(text string, x, y, reach float64, bold bool, more ...labelAt) {
+		var spots []labelAt
+		for _, ring := range []float64{1, 2.5} {
+			gap := reach*ring + fs*0.3
+			spots = append(spots, labelAt{x + gap, y + fs*0.35, ""}, labelAt{x + gap, y - gap*0.3, ""}, labelAt{x + gap, y + fs*0.9, ""},
+				labelAt{x - gap, y + fs*0.35, ""}, labelAt{x - gap, y - gap*0.3, ""}, labelAt{x - gap, y + fs*0.9, ""},
+				labelAt{x, y - gap, ""}, labelAt{x, y + gap + fs*0.8, ""})
+		}
+		for _, at := range append(spots, more...) {
+			anchor := at.anchor
+			switch {
+			case anchor != "":
+			case at.x < x:
+				anchor = "end"
+			case at.x == x:
+				anchor = "middle"
+			default:
+				anchor = "start"
+			}
+			tb := textBox(text, at.x, at.y, fs, fs*0.15, anchor)
+			if !tb.inside(plot) {
+				continue
+			}
+			free := true
+			for _, o := range taken {
+				if tb.meets(o) {
+					free = false
+					break
+				}
+			}
+			if !free {
+				continue
+			}
+			weight := ""
+			if bold {
+				weight = ` font-weight="bold"`
+			}
+			fmt.Fprintf(&b, `<text x="%.1f" y="%.1f" font-size="%g"%s text-anchor="%s">%s</text>`, at.x, at.y, fs, weight, anchor, text)
+			taken = append(taken, tb)
+			return
+		}
+	}
+	// The prediction's label may also go above or below its interval, or,
+	// among a crowd of passes, to a corner of the plot.
+	gap := fs * 0.4
+	place(fmt.Sprintf("next %.3f", f.ET), px, sy(f.ET), 4*ms, true,
+		labelAt{px, sy(f.High) - gap, "middle"}, labelAt{px, sy(f.Low) + gap + fs, "middle"},
+		labelAt{L + gap, T + gap + fs, "start"}, labelAt{W - R - gap, T + gap + fs, "end"},
+		labelAt{W - R - gap, H - B - gap - fs*0.3, "end"}, labelAt{L + gap, H - B - gap - fs*0.3, "start"})
+	for _, p := range todays {
+		place(p.label, sx(p.x), sy(p.y), 2.6*ms, false)
+	}
+	b.WriteString(legend.svg)
 	b.WriteString(`</svg>`)
 	return b.String()
+}
+
+// legendPart is one entry of the chart's legend: its marker as SVG drawn
+// at (0, 0), and its words.
+type legendPart struct {
+	marker string
+	words  string
+	room   float64 // the marker's width, in markers' units
+}
+
+// chartLegend lays the legend out in rows above the plot, as many as the
+// width needs; height is the room it takes, the plot's top margin.
+func chartLegend(lay ChartLayout, ms float64) (out struct {
+	svg    string
+	height float64
+}) {
+	fs := lay.Font
+	parts := []legendPart{
+		{fmt.Sprintf(`<circle cx="0" cy="0" r="%.1f" fill="#888"/>`, 1.8*ms), "logbook", 3.6},
+		{fmt.Sprintf(`<circle cx="0" cy="0" r="%.1f" fill="#e07b00"/>`, 2.4*ms), "today", 4.8},
+		{fmt.Sprintf(`<path d="M%.1f %.1fl%.1f %.1fm0 %.1fl%.1f %.1f" stroke="#b00"/>`, -2*ms, -2*ms, 4*ms, 4*ms, -4*ms, -4*ms, 4*ms), "left out", 4},
+		{fmt.Sprintf(`<line x1="%.1f" y1="0" x2="%.1f" y2="0" stroke="#1f5fa8" stroke-width="1.4"/>`, -6*ms, 6*ms), "model, today's track and wind", 12},
+		{fmt.Sprintf(`<path d="M0 %.1fl%.1f %.1fl%.1f %.1fl%.1f %.1fz" fill="#111"/>`, -4*ms, 4*ms, 4*ms, -4*ms, 4*ms, -4*ms, -4*ms), "prediction, 95 % interval", 8},
+	}
+	var b strings.Builder
+	rowH := fs * 1.3
+	x, row := fs*0.4, 0
+	for _, p := range parts {
+		mark := p.room * ms
+		w := mark + fs*0.3 + float64(len([]rune(p.words)))*charWidth*fs
+		if x > fs*0.4 && x+w > lay.Width {
+			x, row = fs*0.4, row+1
+		}
+		cy := fs*0.2 + rowH*float64(row) + rowH/2
+		fmt.Fprintf(&b, `<g transform="translate(%.1f %.1f)">%s</g>`, x+mark/2, cy, p.marker)
+		fmt.Fprintf(&b, `<text x="%.1f" y="%.1f" font-size="%g">%s</text>`, x+mark+fs*0.3, cy+fs*0.35, fs, p.words)
+		x += w + fs
+	}
+	out.svg = b.String()
+	out.height = fs*0.2 + rowH*float64(row+1) + fs*0.6
+	return out
 }
 
 func minmax(v []float64) (float64, float64) {
@@ -120,14 +283,15 @@ func minmax(v []float64) (float64, float64) {
 	return lo, hi
 }
 
-func tickStep(span float64) float64 {
-	switch {
-	case span > 8000:
-		return 2000
-	case span > 4000:
-		return 1000
+// tickStep is the density altitude's tick spacing: the smallest of 500,
+// 1000, 2000 and 5000 ft that gives at most most ticks over span.
+func tickStep(span, most float64) float64 {
+	for _, s := range []float64{500, 1000, 2000} {
+		if span/s <= most {
+			return s
+		}
 	}
-	return 500
+	return 5000
 }
 
 // niceStep rounds a step up to 1, 2 or 5 times a power of ten.

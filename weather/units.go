@@ -479,6 +479,12 @@ func splitNumber(quantity, s string) (float64, string, error) {
 			digits++
 		}
 	}
+	// A decimal comma (what a phone set to many languages offers) is not
+	// read as one: "82,5" could as well be a slip of the finger, so the
+	// racer is shown the figure with a point to type.
+	if i < len(t) && t[i] == ',' && digits > 0 && i+1 < len(t) && t[i+1] >= '0' && t[i+1] <= '9' {
+		return 0, "", inputErr(quantity, s, "has a decimal comma: type a decimal point, %s", t[:i]+"."+t[i+1:])
+	}
 	if digits == 0 {
 		if t == "" {
 			return 0, "", inputErr(quantity, s, "is empty (give a number with its unit)")

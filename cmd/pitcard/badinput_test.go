@@ -82,6 +82,7 @@ func TestBadInputTour(t *testing.T) {
 		"air": {
 			{with([]string{"air", "--dir", good, "--temp", "85K", "--baro", "27.6", "--humidity", "35"}), 2, []string{"--temp", "85K", "F or C"}},
 			{with([]string{"air", "--dir", good, "--temp", "185F", "--baro", "27.6", "--humidity", "35"}), 2, []string{"--temp", "-40..140 °F"}},
+			{with([]string{"air", "--dir", good, "--temp", "82,5F", "--baro", "27.6", "--humidity", "35"}), 2, []string{"--temp", "82,5F", "decimal point", "82.5F"}},
 			{with([]string{"air", "--dir", missing, "--latest"}), 2, []string{"does not exist"}},
 			{with([]string{"air", "--dir", badWeather, "--latest"}), 2, []string{"weather.csv line 3", "time"}},
 			{with([]string{"air", "--dir", good, "--temperature", "85"}), 2, []string{"unknown flag", "--temperature"}},
