@@ -249,7 +249,7 @@ func TestManyPhonesAtOnceLoseNothing(t *testing.T) {
 
 // A stranger's idle keep-alive connections: each fetches the style (no
 // token needed) and then sits. A crew phone asking for the card after them
-// must be answered within a second, and a phone's own keep-alive connection
+// must be answered (within answerWithin), and a phone's own keep-alive connection
 // is not the one closed to make room.
 func TestIdleConnectionsDoNotLockOutAPhone(t *testing.T) {
 	for _, tc := range []struct {
@@ -268,7 +268,7 @@ func TestIdleConnectionsDoNotLockOutAPhone(t *testing.T) {
 			lim.PerClient = tc.perClient
 			base := serveLoopback(t, f, lim)
 			addr := strings.TrimPrefix(base, "http://")
-			phone := &http.Client{Timeout: time.Second, Transport: &http.Transport{}}
+			phone := &http.Client{Timeout: answerWithin, Transport: &http.Transport{}}
 			card := func() (reused bool, err error) {
 				req, _ := http.NewRequest("GET", base+"/", nil)
 				req.AddCookie(&http.Cookie{Name: CookieName, Value: testTokens.Crew})
@@ -314,18 +314,18 @@ func TestIdleConnectionsDoNotLockOutAPhone(t *testing.T) {
 			start := time.Now()
 			reused, err := card()
 			if err != nil {
-				t.Fatalf("with %d idle connections of a stranger, the crew's card was not served within a second: %v", tc.strangers, err)
+				t.Fatalf("with %d idle connections of a stranger, the crew's card was not served within %v: %v", tc.strangers, answerWithin, err)
 			}
 			if !reused {
 				t.Errorf("the phone's own keep-alive connection was closed for a stranger's")
 			}
 			// A phone that had not been here before is served too.
-			fresh := &http.Client{Timeout: time.Second, Transport: &http.Transport{}}
+			fresh := &http.Client{Timeout: answerWithin, Transport: &http.Transport{}}
 			req, _ := http.NewRequest("GET", base+"/", nil)
 			req.AddCookie(&http.Cookie{Name: CookieName, Value: testTokens.Crew})
 			resp, err := fresh.Do(req)
 			if err != nil {
-				t.Fatalf("a new phone was not served within a second: %v", err)
+				t.Fatalf("a new phone was not served within %v: %v", answerWithin, err)
 			}
 			resp.Body.Close()
 			t.Logf("card in %v after %d idle connections", time.Since(start).Round(time.Millisecond), tc.strangers)
@@ -345,3 +345,8 @@ func TestIdleConnectionsDoNotLockOutAPhone(t *testing.T) {
 		})
 	}
 }
+
+// answerWithin bounds a phone's wait behind idle connections: without the
+// guard it waits for the 60 s idle timeout; a second on a quiet machine,
+// five here so a loaded CI machine does not fail it for its own slowness.
+const answerWithin = 5 * time.Second

@@ -77,8 +77,17 @@ func get(t *testing.T, url string) (int, string) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	defer resp.Body.Close()
 	b, _ := io.ReadAll(resp.Body)
+	resp.Body.Close()
+	// A join link answers a page that continues to the card (as a phone's
+	// browser does by its refresh): follow it with the cookie it set.
+	if i := strings.Index(url, "/join/"); i >= 0 && resp.StatusCode == 200 {
+		if resp, err = c.Get(url[:i] + "/"); err != nil {
+			t.Fatal(err)
+		}
+		b, _ = io.ReadAll(resp.Body)
+		resp.Body.Close()
+	}
 	return resp.StatusCode, string(b)
 }
 
