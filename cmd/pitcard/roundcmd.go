@@ -347,7 +347,7 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 		}
 		slip.Names[q.key] = q.question
 		if err := askField(q.key, q.question, q.def); err != nil {
-			return fmt.Errorf("%w; the slip was not logged: log it with 'pitcard log add'", err)
+			return errors.Join(fmt.Errorf("%w; the slip was not logged: log it with 'pitcard log add'", err), broken)
 		}
 	}
 	// The checks across fields: the field named is asked again.
@@ -356,7 +356,7 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 		var ie *weather.InputError
 		if err == nil || !errors.As(err, &ie) || try == 3 {
 			if err != nil {
-				return fmt.Errorf("%w; the slip was not logged: log it with 'pitcard log add'", err)
+				return errors.Join(fmt.Errorf("%w; the slip was not logged: log it with 'pitcard log add'", err), broken)
 			}
 			break
 		}
@@ -368,10 +368,10 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 			}
 		}
 		if key == "" || p.eof {
-			return fmt.Errorf("%w; the slip was not logged: log it with 'pitcard log add'", err)
+			return errors.Join(fmt.Errorf("%w; the slip was not logged: log it with 'pitcard log add'", err), broken)
 		}
 		if err := askField(key, slip.Names[key], ""); err != nil {
-			return fmt.Errorf("%w; the slip was not logged: log it with 'pitcard log add'", err)
+			return errors.Join(fmt.Errorf("%w; the slip was not logged: log it with 'pitcard log add'", err), broken)
 		}
 	}
 	args := []string{"log", "add", "--dir", e.Dir, "--round", in.Session.String(), "--lane", string(in.Lane),
@@ -402,7 +402,7 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 		}
 	}
 	if code := run(args, o.s); code != exitOK {
-		return userErrf("the slip was not logged (see above); log it with 'pitcard log add'")
+		return errors.Join(userErrf("the slip was not logged (see above); log it with 'pitcard log add'"), broken)
 	}
 	fmt.Fprintln(o.s.Out, "Next round: pitcard round")
 	return broken

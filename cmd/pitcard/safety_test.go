@@ -177,3 +177,15 @@ func TestDialReadsTheNotedOtherLane(t *testing.T) {
 		t.Errorf("dial without --opponent-dial, the card's other lane noted (%v): %+v", err, d)
 	}
 }
+
+// A round whose card said STOP ends with exit 3 even when its slip is then
+// refused (3 wins over 2, as the README says).
+func TestRoundKeepsTheStopWhenTheSlipIsRefused(t *testing.T) {
+	dir := demoCopy(t)
+	editFile(t, dir, "car.yaml", func(s string) string { return strings.Replace(s, "limit_et: 10.65", "limit_et: 11.50", 1) })
+	answers := strings.Join([]string{"", "", "", "", "", "", "", "", "", "", "", "fast"}, "\n") + "\n"
+	out, errs, code := pitcardIn(t, answers, "round", "--dir", dir)
+	if code != exitCheckFailed || !strings.Contains(out, "A CHECK FAILED") || !strings.Contains(errs, "the slip was not logged") {
+		t.Errorf("exit %d\n%s\n%s", code, out, errs)
+	}
+}
