@@ -380,7 +380,10 @@ func (s *Server) slipDone(q *request, id string) {
 		p.Saved, p.Said = res.logged, res.said
 		p.Intro = "Open the card for the next round, or the slip page for another pass."
 	} else {
-		p.Intro = "This confirmation is no longer kept (the pit page was restarted since): the Passes page lists what is logged."
+		// An id this page did not hand out, or one it no longer keeps: it
+		// cannot say whether anything was logged, so it does not claim it.
+		p.Heading = "No such confirmation"
+		p.Intro = "This page keeps no confirmation by that name (it keeps the last few, and none from before it was restarted): the Passes page lists what is logged."
 	}
 	s.render(q, "form", p, http.StatusOK)
 }

@@ -279,3 +279,13 @@ func TestNotesThatLookLikeFormulasStayText(t *testing.T) {
 		t.Errorf("the passes page must show the note as typed")
 	}
 }
+
+// A confirmation the page never handed out does not claim a pass was
+// logged.
+func TestAnUnknownSlipConfirmationClaimsNothing(t *testing.T) {
+	f := newFixture(t)
+	body := f.do("GET", "/slip?logged=deadbeef", testTokens.Crew, nil).Body.String()
+	if strings.Contains(body, "The pass is logged") || !strings.Contains(body, "No such confirmation") {
+		t.Errorf("an unknown confirmation:\n%s", body)
+	}
+}
