@@ -415,6 +415,7 @@ func (s *Server) postChecklist(q *request) {
 	script := strings.Contains(q.r.Header.Get("Accept"), "application/json")
 	if err != nil {
 		msg := "Nothing was saved: " + forPhone(q.folder, err.Error())
+		s.logRefusal(q.r, fmt.Sprintf("%s %s from %s: %s", q.r.Method, q.r.URL.EscapedPath(), q.r.RemoteAddr, err.Error()))
 		if script {
 			answerJSON(q.w, http.StatusUnprocessableEntity, map[string]string{"error": msg})
 			return

@@ -289,3 +289,16 @@ func TestAnUnknownSlipConfirmationClaimsNothing(t *testing.T) {
 		t.Errorf("an unknown confirmation:\n%s", body)
 	}
 }
+
+// A form refused for its content (422) is heard on the laptop too, like a
+// refused token: the terminal hears every refusal.
+func TestARefusedFormIsLogged(t *testing.T) {
+	f := newFixture(t)
+	form := url.Values{"temp": {"abc"}, "baro": {"27.6"}, "humidity": {"40%"}}
+	if w := f.post("/reading", form); w.Code != http.StatusUnprocessableEntity {
+		t.Fatalf("a bad reading: %d", w.Code)
+	}
+	if !strings.Contains(f.log.String(), "refused POST /reading") || !strings.Contains(f.log.String(), "temp") {
+		t.Errorf("the log:\n%s", f.log.String())
+	}
+}

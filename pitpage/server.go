@@ -440,6 +440,16 @@ func (s *Server) render(q *request, name string, p page, status int) {
 			break
 		}
 	}
+	if status == http.StatusUnprocessableEntity { // the laptop hears every refusal, not only 403s
+		why := p.Error
+		for _, f := range p.Form {
+			if f.Error != "" { // the field marked says more than "fix the field marked below"
+				why = f.Name + ": " + f.Error
+				break
+			}
+		}
+		s.logRefusal(q.r, fmt.Sprintf("%s %s from %s: %s", q.r.Method, q.r.URL.EscapedPath(), q.r.RemoteAddr, why))
+	}
 	var buf bytes.Buffer
 	if err := s.pages[name].ExecuteTemplate(&buf, "layout", p); err != nil {
 		http.Error(q.w, "rendering the page: "+err.Error(), http.StatusInternalServerError)
