@@ -167,14 +167,8 @@ func (e *Folder) AddPass(np NewPass, now time.Time) (LoggedPass, error) {
 	// A trap speed typed with a unit, or bare in a metric folder's km/h, is
 	// the logbook's mph (to the hundredth, as a slip prints it).
 	trap := func(flag, v string) (string, error) {
-		if v == "" || e.Settings.Units.Speed == weather.UnitMPH && !strings.ContainsFunc(v, unicode.IsLetter) {
-			return v, nil
-		}
-		sp, err := weather.ParseSpeed(v, e.Settings.Units.Speed)
-		if err != nil {
-			return "", FlagErr(err, flag)
-		}
-		return strconv.FormatFloat(math.Round(sp.MPH()*100)/100, 'f', 2, 64), nil
+		m, err := TrapMPH(v, e.Settings.Units)
+		return m, FlagErr(err, flag)
 	}
 	mph660, err := trap("--mph660", np.MPH660)
 	if err != nil {
@@ -344,4 +338,19 @@ func signedSeconds(d decimal.Decimal) string {
 		return engine.FormatSeconds(d, 3)
 	}
 	return "+" + engine.FormatSeconds(d, 3)
+}
+
+// TrapMPH reads a trap speed as typed (108.2mph, 174.1km/h, or bare in the
+// crew's units) and gives it as the logbook keeps it: mph to the hundredth,
+// as a slip prints it. A bare figure in an imperial folder is kept as typed.
+// The one parser of a trap speed for the flags and round's questions.
+func TrapMPH(typed string, u weather.Units) (string, error) {
+	if typed == "" || u.Speed == weather.UnitMPH && !strings.ContainsFunc(typed, unicode.IsLetter) {
+		return typed, nil
+	}
+	sp, err := weather.ParseSpeed(typed, u.Speed)
+	if err != nil {
+		return "", err
+	}
+	return strconv.FormatFloat(math.Round(sp.MPH()*100)/100, 'f', 2, 64), nil
 }

@@ -352,13 +352,11 @@ func (e *Folder) GatherRound(r RoundRequest, now time.Time) (prep.Input, []strin
 	if err != nil {
 		return in, nil, err
 	}
-	log, err := e.WeatherLog(elev)
-	var badRows *weather.BadReadings
-	if errors.As(err, &badRows) {
+	log, badRows, err := e.ReadableWeather(elev)
+	if badRows != nil {
 		// Rows of weather.csv that cannot be read are named; the rest of
 		// the log is used, and the command exits 2, as for the logbook.
-		broken = append(broken, err)
-		err = nil
+		broken = append(broken, badRows)
 	}
 	if err != nil {
 		// A corrupt weather.csv costs the card nothing when the flags give

@@ -6,7 +6,6 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"strconv"
 	"strings"
 
 	"github.com/spf13/cobra"
@@ -318,14 +317,10 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 	// A trap speed is typed in the crew's units (km/h in a metric folder)
 	// and kept as the logbook's mph.
 	toMPH := func(key, a string) (string, error) {
-		if a == "" || (key != "mph660" && key != "mph1320") {
+		if key != "mph660" && key != "mph1320" {
 			return a, nil
 		}
-		sp, err := weather.ParseSpeed(a, u.Speed)
-		if err != nil {
-			return "", err
-		}
-		return strconv.FormatFloat(math.Round(sp.MPH()*100)/100, 'f', 2, 64), nil
+		return event.TrapMPH(a, u)
 	}
 	askField := func(key, question, def string) error {
 		v, err := p.until(question, def, func(a string) error {
