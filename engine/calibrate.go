@@ -226,8 +226,22 @@ func Calibrate(in CalibrateInput) (Fit, error) {
 		f.nuisance()
 		f.fit()
 	}
+	f.Params.SeenTrackF = seenTrack(f.Samples)
 	sort.SliceStable(f.Outliers, func(i, j int) bool { return f.Outliers[i].Pass.Time.After(f.Outliers[j].Pass.Time) })
 	return f, nil
+}
+
+// seenTrack is the range of surface temperatures of the fitted passes, °F.
+func seenTrack(ss []Sample) [2]float64 {
+	lo, hi := math.Inf(1), math.Inf(-1)
+	for _, s := range ss {
+		t := s.Env.TrackTemp.Fahrenheit()
+		lo, hi = math.Min(lo, t), math.Max(hi, t)
+	}
+	if len(ss) == 0 {
+		return [2]float64{}
+	}
+	return [2]float64{lo, hi}
 }
 
 func (f *Fit) sample(p Pass, in CalibrateInput, rank int) Sample {
@@ -287,10 +301,10 @@ func (t theta) params() Params {
 		t[3] = t[2] / 2
 	}
 	// The bounds keep a fit off physics no car has: traction from 0.6 to 1.65
-	// of the tire's, a grip band 20 to 120 °F wide, the air mattering at
+	// of the tire's, a grip well TrackWidthRangeF wide, the air mattering at
 	// least a little and at most twice a natural engine's.
 	return Params{PowerScale: math.Exp(c(t[0], -1.2, 1.2)), TractionScale: math.Exp(c(t[1], -0.5, 0.5)),
-		PressureExp: c(t[2], -0.3, 2), TempExp: c(t[3], 0, 1.5), TrackOptF: c(t[4], 50, 170), TrackWidthF: math.Exp(c(t[5], math.Log(20), math.Log(120)))}
+		PressureExp: c(t[2], -0.3, 2), TempExp: c(t[3], 0, 1.5), TrackOptF: c(t[4], 50, 170), TrackWidthF: math.Exp(c(t[5], math.Log(TrackWidthRangeF[0]), math.Log(TrackWidthRangeF[1])))}
 }
 
 func sq(x float64) float64 { return x * x }

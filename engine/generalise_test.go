@@ -96,18 +96,26 @@ func scoreWorld(t testing.TB, w truthsim.World, targetDays int, claimOff float64
 	}
 	s := heldOut{world: w.String()}
 	bayes := floors(passes, fin)
+	cache := engine.NewHeldOutCache()
 	var errs, floor, strict, last, first, later, floorFirst, floorLate []float64
 	for k, p := range passes {
 		if p.Day < w.Days-targetDays || p.Aborted {
 			continue
 		}
-		fit, err := engine.Calibrate(engine.CalibrateInput{Car: car, Track: trk, Passes: logged[:k], Now: p.Logged.Time})
+		pr, _, err := engine.Forecast(engine.CalibrateInput{Car: car, Track: trk, Passes: logged[:k], Now: p.Logged.Time},
+			engine.PredictInput{Air: p.Logged.Air, Prep: 1, WeightLb: p.Logged.WeightLb, Time: p.Logged.Time}, cache)
 		if err != nil {
 			t.Error(err)
 			return s
 		}
-		pr := engine.Predict(fit, engine.PredictInput{Air: p.Logged.Air, Prep: 1, WeightLb: p.Logged.WeightLb, Time: p.Logged.Time})
 		f := pr.Finish()
+		if os.Getenv("PITCARD_DEBUG_BLEND") != "" {
+			var maes []string
+			for _, m := range pr.Blend.Members {
+				maes = append(maes, fmt.Sprintf("%.3f@%.3f", m.Share, m.MAE))
+			}
+			t.Logf("%s #%d %s scale %.2f", w.Car.Name, k, strings.Join(maes, " "), pr.Blend.Scale)
+		}
 		actual, _ := p.Logged.ETAt(w.Car.DistanceFt)
 		e := math.Abs(f.ET - actual)
 		errs = append(errs, e)

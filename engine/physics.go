@@ -62,6 +62,7 @@ type Vehicle struct {
 	RearStatic  float64 // share of weight on the rear tires
 	HOverL      float64 // CG height over wheelbase
 	TireMu      float64
+	TireBestF   float64 // surface temperature the tire grips best at, °F (the prior's)
 	TireRadius  float64 // m; 0 = no gearing given
 	Gears       []float64
 	FinalDrive  float64
@@ -98,6 +99,7 @@ func NewVehicle(c Car, powerHP float64) Vehicle {
 		RearStatic: or(c.RearWeightPct, DefaultRearWeightPct) / 100,
 		HOverL:     or(c.CGHeightIn, DefaultCGHeightIn) / or(c.WheelbaseIn, DefaultWheelbaseIn),
 		TireMu:     TireMu(c.Tire),
+		TireBestF:  TireBestF(c.Tire),
 		PowerFrac:  DefaultPowerFraction,
 		MassKg:     c.WeightLb * weather.KgPerLb,
 		DistanceFt: c.DistanceFt,
@@ -132,8 +134,28 @@ type Params struct {
 	// engine feels the pressure much less.
 	PressureExp, TempExp float64
 	// The tire's grip against the surface temperature: best at TrackOptF,
-	// 10 % gone TrackWidthF away from it on either side (see TrackTempFactor).
+	// in a well TrackWidthF wide (see TrackTempFactor).
 	TrackOptF, TrackWidthF float64
+	// SeenTrackF is the range of surface temperatures (°F, low and high)
+	// the fit saw; the zero value, none. Beyond it the fitted band is not
+	// extrapolated (see Grip).
+	SeenTrackF [2]float64
+}
+
+// Grip is the share of best-temperature grip at surface temperature tF as
+// the model predicts it. Inside the surface temperatures the fit saw, it is
+// the fitted band (TrackTempFactor). Beyond them the fitted band is not
+// extrapolated, since no pass pins its shape there: the edge's value is
+// carried on by the tire's prior response (PriorGrip), which is gentle,
+// bounded and monotone on each side of the tire's best temperature.
+func (p Params) Grip(tF, tireBestF float64) float64 {
+	fitted := TrackTempFactor(weather.Fahrenheit(tF), p.TrackOptF, p.TrackWidthF)
+	lo, hi := p.SeenTrackF[0], p.SeenTrackF[1]
+	if !(hi >= lo) || (lo == 0 && hi == 0) || (tF >= lo && tF <= hi) {
+		return fitted
+	}
+	edge := math.Max(lo, math.Min(hi, tF))
+	return TrackTempFactor(weather.Fahrenheit(edge), p.TrackOptF, p.TrackWidthF) * PriorGrip(tF, tireBestF) / PriorGrip(edge, tireBestF)
 }
 
 // DefaultParams are the prior's center for a car of induction ind on drag
@@ -228,7 +250,7 @@ func Simulate(v *Vehicle, p Params, env Env, distanceFt float64) Run {
 	}
 	air := math.Pow(math.Max(env.DryRatio, 0.3), p.PressureExp) * math.Pow(math.Max(env.TempRatio, 0.5), p.TempExp)
 	power := v.Efficiency * (v.PowerW*p.PowerScale*air + v.NitrousW)
-	mu := v.TireMu * p.TractionScale * PrepFactor(env.Prep) * TrackTempFactor(env.TrackTemp, p.TrackOptF, p.TrackWidthF)
+	mu := v.TireMu * p.TractionScale * PrepFactor(env.Prep) * p.Grip(env.TrackTemp.Fahrenheit(), v.TireBestF)
 	run.Power, run.Mu = power, mu
 	// Traction with weight transfer: F = μ(m g r + F h/L) ⇒ F = μ m g r/(1 − μ h/L),
 	// at most μ m g (every pound on the rear tires: the front wheels are up).

@@ -101,7 +101,9 @@ type Prediction struct {
 	// plain average, not corrected for today's air.
 	Raw         bool
 	Sensitivity Sensitivity
-	Notes       []string
+	// Blend is what the finish leans on (Forecast); zero from Predict alone.
+	Blend Blend
+	Notes []string
 }
 
 // Finish is the prediction at the finish line.
@@ -369,7 +371,9 @@ func parameterSpread(f Fit, env Env, w []float64) float64 {
 	for k := range th {
 		t2 := th
 		t2[k] += 1e-4
-		g[k] = (change(t2.params()) - base) / 1e-4
+		p := t2.params()
+		p.SeenTrackF = f.Params.SeenTrackF
+		g[k] = (change(p) - base) / 1e-4
 	}
 	var v float64
 	for a := range NP {

@@ -18,18 +18,28 @@ import (
 //     drag radials 1.6, slicks 2.0.
 //   - Prep: none 0.70, light 0.85, full 1.00 of that (or a number 0..1 from
 //     none to full).
-//   - Surface temperature: each tire grips best inside a band (street tires
-//     near 100 °F, drag radials 110, slicks 120); below it the rubber is
-//     hard and the track lacks bite, above it the surface turns greasy. The
-//     band is flat-topped and falls away steeply on both sides: the loss is
-//     10 % × ((T − best)/width)⁴, so within half the width of the best
-//     less than 1 % is lost, at the width 10 %, a fifth beyond it 21 %. The
-//     best temperature and the width (40 °F to start) are fitted per car
-//     from its 60-ft times. The factor never falls below 0.6.
+//   - Surface temperature: each tire grips best at one surface temperature
+//     (street tires near 100 °F, drag radials 110, slicks 120); below it the
+//     rubber is hard and the track lacks bite, above it the surface turns
+//     greasy. The loss away from the best is a smooth, bounded well:
+//     GripLossMax × (1 − exp(−((T − best)/width)²)), so at most GripLossMax
+//     of the grip is ever lost, the response is monotone on each side of the
+//     best, and its steepest slope is GripLossMax·√2·e^(−½)/width per °F.
+//     The best temperature and the width (70 °F to start, held within
+//     TrackWidthRangeF) are fitted per car from its 60-ft times.
 const (
 	TrackBestF         = 110.0 // °F, a drag radial's best
-	TrackWidthDefaultF = 40.0  // °F from the best at which 10 % of the grip is gone
+	TrackWidthDefaultF = 70.0  // °F: the well's width (see TrackTempFactor)
+	// GripLossMax is the most of its best grip a tire loses to a cold or
+	// greasy surface (common practice, from memory: a cold track costs a
+	// drag tire a tenth or two of 60 ft, not its launch).
+	GripLossMax = 0.15
 )
+
+// TrackWidthRangeF bounds the fitted well's width, °F: narrow enough for a
+// tire with a real best, wide enough that no fit makes grip fall by more
+// than GripLossMax·√2·e^(−½)/45 ≈ 0.29 % per °F.
+var TrackWidthRangeF = [2]float64{45, 150}
 
 // TireBestF is the surface temperature a tire kind grips best at, °F (the
 // prior's center; common practice, from memory).
@@ -71,16 +81,22 @@ func ParsePrep(s string) (float64, error) {
 	return v, nil
 }
 
+// PriorGrip is the tire's prior share of best grip at surface temperature
+// tF, for a tire best at bestF: the well at its default width.
+func PriorGrip(tF, bestF float64) float64 {
+	return TrackTempFactor(weather.Fahrenheit(tF), bestF, TrackWidthDefaultF)
+}
+
 // PrepFactor is the share of full-prep traction at prep level p (0 = none,
 // 1 = full): 0.70 + 0.30·p, so light (0.5) is 0.85.
 func PrepFactor(p float64) float64 { return 0.70 + 0.30*p }
 
 // TrackTempFactor is the share of best-temperature traction at surface
-// temperature t, for a tire best at optF that has lost 10 % at widthF from
-// it.
+// temperature t, for a tire best at optF in a well widthF wide (see the
+// package's traction notes): 1 − GripLossMax·(1 − exp(−((T − optF)/widthF)²)).
 func TrackTempFactor(t weather.Temperature, optF, widthF float64) float64 {
 	d := (t.Fahrenheit() - optF) / widthF
-	return math.Max(0.6, math.Min(1, 1-0.1*d*d*d*d))
+	return 1 - GripLossMax*(1-math.Exp(-d*d))
 }
 
 // PrepName names a prep level in words.
