@@ -3,8 +3,6 @@ package engine
 import (
 	"fmt"
 	"math"
-	"slices"
-	"strings"
 
 	"github.com/shopspring/decimal"
 
@@ -92,15 +90,6 @@ func Giveaway(est Estimate, dial decimal.Decimal) float64 {
 	return (est.ET-d)*(1-NormalCDF(z)) + est.SD*NormalPDF(z)
 }
 
-// NormalCDF is the standard normal distribution function Φ(z).
-func NormalCDF(z float64) float64 { return 0.5 * math.Erfc(-z/math.Sqrt2) }
-
-// NormalPDF is the standard normal density φ(z).
-func NormalPDF(z float64) float64 { return math.Exp(-z*z/2) / math.Sqrt(2*math.Pi) }
-
-// NormalQuantile is Φ⁻¹(p), for 0 < p < 1.
-func NormalQuantile(p float64) float64 { return math.Sqrt2 * math.Erfinv(2*p-1) }
-
 // RoundDownToStep rounds v down to a multiple of step, exactly.
 func RoundDownToStep(v float64, step decimal.Decimal) decimal.Decimal {
 	return decimal.NewFromFloat(v).Div(step).Floor().Mul(step)
@@ -111,142 +100,6 @@ func RoundDownToStep(v float64, step decimal.Decimal) decimal.Decimal {
 func RoundToStep(d, step decimal.Decimal) decimal.Decimal {
 	return d.Div(step).Round(0).Mul(step)
 }
-
-// AbortWords are the words in a pass's notes that say it was not the car's
-// time (lifted, pedaled, spun the tires ...). A word matches at the start of
-// a word of the notes, in any case ("lift" finds "Lifted", never "shift");
-// a phrase ("tire shake") matches its words in order. An occurrence right
-// after a negation ("no shake", "didn't spin") does not count. The crew adds
-// its own with the setting abort_words; nil is DefaultAbortWords.
-type AbortWords []string
-
-// DefaultAbortWords is pitcard's list (common practice, no source): what a
-// crew writes on the slip of a run that did not show the car's pace. A
-// mild shake ("shook a little") is no reason to drop a pass: only a tire
-// shake or a hard one is.
-var DefaultAbortWords = AbortWords{
-	"lift", "pedal", "abort", "shut off", "shutoff", "broke", "spun", "spin", "smoked",
-	"tire shake", "tires shook", "shook hard", "hard shake", "bad shake", "shook bad",
-	"coast", "bog", "wheelie", "no good", "ng run",
-}
-
-// negations turn the abort word after them around ("no shake").
-var negations = []string{"no", "not", "never", "without", "didn't", "didnt", "did not", "wasn't", "wasnt"}
-
-// notAborts are phrases that hold an abort word but describe a full run:
-// a breakout is running quicker than the dial, the fullest run there is.
-var notAborts = []string{"broke out", "breakout", "brokeout"}
-
-// With is the list with the crew's own words added.
-func (a AbortWords) With(extra []string) AbortWords {
-	out := append(AbortWords(nil), a.orDefault()...)
-	for _, w := range extra {
-		if w = strings.ToLower(strings.TrimSpace(w)); w != "" {
-			out = append(out, w)
-		}
-	}
-	return out
-}
-
-func (a AbortWords) orDefault() AbortWords {
-	if a == nil {
-		return DefaultAbortWords
-	}
-	return a
-}
-
-// AbortNotesScanned is how much of a pass's notes, in bytes, is read for an
-// abort word: a slip's note says why a run was aborted in its first words,
-// and a fit reads every pass's notes many times over, so a pasted megabyte
-// must not be split into words each time.
-const AbortNotesScanned = 2000
-
-// Aborted reports whether notes say the pass was not a full-effort run: an
-// abort word not negated.
-func (a AbortWords) Aborted(notes string) bool {
-	if len(notes) > AbortNotesScanned {
-		notes = notes[:AbortNotesScanned]
-	}
-	words := noteWords(notes)
-	for _, w := range a.orDefault() {
-		phrase := strings.Fields(strings.ToLower(w))
-		if len(phrase) == 0 {
-			continue
-		}
-		for i := range words {
-			if matchPhrase(words[i:], phrase) && !negated(words[:i]) && !inNotAbort(words, i) {
-				return true
-			}
-		}
-	}
-	return false
-}
-
-// noteWords are notes in lower case as words; a clause's end (, ; . !) is
-// kept as a word of its own so a negation never reaches past it.
-func noteWords(notes string) []string {
-	var out []string
-	for _, f := range strings.Fields(strings.ToLower(notes)) {
-		end := ""
-		if t := strings.TrimRight(f, ",;.!?:"); t != f {
-			f, end = t, "|"
-		}
-		f = strings.Trim(f, "\"'()[]-/")
-		if f != "" {
-			out = append(out, f)
-		}
-		if end != "" {
-			out = append(out, end)
-		}
-	}
-	return out
-}
-
-// matchPhrase: the words start with the phrase, each word by its prefix
-// ("spin" finds "spinning"), the last one too ("lift" finds "lifted").
-func matchPhrase(words, phrase []string) bool {
-	if len(words) < len(phrase) {
-		return false
-	}
-	for j, p := range phrase {
-		if !strings.HasPrefix(words[j], p) {
-			return false
-		}
-	}
-	return true
-}
-
-// negated: one of the two words before (in the same clause) is a negation.
-func negated(before []string) bool {
-	for k := len(before) - 1; k >= 0 && k >= len(before)-2; k-- {
-		if before[k] == "|" {
-			return false
-		}
-		for _, n := range negations {
-			if matchPhrase(before[k:], strings.Fields(n)) || (strings.Contains(n, " ") && k > 0 && matchPhrase(before[k-1:], strings.Fields(n))) {
-				return true
-			}
-		}
-	}
-	return false
-}
-
-// inNotAbort: the word at i is part of a phrase that is a full run.
-func inNotAbort(words []string, i int) bool {
-	for _, na := range notAborts {
-		p := strings.Fields(na)
-		for k := max(0, i-len(p)+1); k <= i; k++ {
-			if k+len(p) <= len(words) && slices.Equal(words[k:k+len(p)], p) {
-				return true
-			}
-		}
-	}
-	return false
-}
-
-// Aborted reports whether notes say the pass was not a full-effort run, by
-// DefaultAbortWords; where the crew's settings are at hand, use theirs.
-func Aborted(notes string) bool { return DefaultAbortWords.Aborted(notes) }
 
 // MinSD is the least spread pitcard admits for a bracket car's ET, s: even the
 // most consistent car and driver vary by a few thousandths from the air,
@@ -295,34 +148,4 @@ func RecentEstimate(passes []Pass, ft float64, n int, aborts AbortWords) (Estima
 	}
 	basis := fmt.Sprintf("mean of the last %d clean passes at %.0f ft (%s), not corrected for the air", len(keep), ft, span)
 	return Estimate{ET: mean, SD: pred, Basis: basis}, kept, nil
-}
-
-func median(v []float64) float64 {
-	s := append([]float64(nil), v...)
-	for i := 1; i < len(s); i++ {
-		for j := i; j > 0 && s[j] < s[j-1]; j-- {
-			s[j], s[j-1] = s[j-1], s[j]
-		}
-	}
-	if len(s)%2 == 1 {
-		return s[len(s)/2]
-	}
-	return (s[len(s)/2-1] + s[len(s)/2]) / 2
-}
-
-// MeanSD is the mean and the sample standard deviation of v (0 for one value).
-func MeanSD(v []float64) (float64, float64) {
-	var m float64
-	for _, x := range v {
-		m += x
-	}
-	m /= float64(len(v))
-	var ss float64
-	for _, x := range v {
-		ss += (x - m) * (x - m)
-	}
-	if len(v) < 2 {
-		return m, 0
-	}
-	return m, math.Sqrt(ss / float64(len(v)-1))
 }

@@ -8,24 +8,6 @@ import (
 	"github.com/shopspring/decimal"
 )
 
-// Source: standard normal distribution table (e.g. NIST/SEMATECH e-Handbook of
-// Statistical Methods, "Cumulative distribution function of the standard normal").
-func TestNormalTable(t *testing.T) {
-	cases := []struct{ z, p float64 }{
-		{0, 0.5000}, {1, 0.8413}, {-1, 0.1587}, {1.645, 0.9500}, {-1.28, 0.1003}, {2, 0.9772}, {-2.326, 0.0100}, {3, 0.99865},
-	}
-	for _, tc := range cases {
-		if got := NormalCDF(tc.z); math.Abs(got-tc.p) > 0.00006 {
-			t.Errorf("Φ(%v) = %.5f, table %.4f", tc.z, got, tc.p)
-		}
-		if tc.p > 0.001 && tc.p < 0.999 {
-			if back := NormalQuantile(NormalCDF(tc.z)); math.Abs(back-tc.z) > 1e-9 {
-				t.Errorf("Φ⁻¹(Φ(%v)) = %v", tc.z, back)
-			}
-		}
-	}
-}
-
 // Breakout chance is the normal table value at (dial − ET)/SD; the expected
 // giveaway at a dial equal to the mean is σ/√(2π) (standard result for the
 // normal partial expectation).
@@ -121,47 +103,6 @@ func TestRecentEstimate(t *testing.T) {
 	}
 	if _, _, err := RecentEstimate(passes[:1], 1320, 10, nil); err == nil {
 		t.Error("one pass gave an estimate")
-	}
-}
-
-// What a crew writes on a slip, and whether the pass is the car's time.
-// Common practice (no source): spinning, smoking the tires, lifting and
-// pedaling lose the run; a mild shake or a negated word does not.
-func TestAbortedNotes(t *testing.T) {
-	for _, tc := range []struct {
-		notes string
-		want  bool
-	}{
-		{"spin", true},
-		{"spinning at the hit", true},
-		{"smoked the tires", true},
-		{"tire spin at the hit", true},
-		{"LIFT", true},
-		{"lifted at 1000", true},
-		{"pedaled it", true},
-		{"tire shake", true},
-		{"shook hard, pedaled", true},
-		{"no shake", false},
-		{"smooth, no shake", false},
-		{"shook a little", false},
-		{"no tire shake, clean", false},
-		{"didn't spin", false},
-		{"did not lift", false},
-		{"no spin, lifted at the stripe", true}, // the negation stays in its clause
-		{"broke out by .01", false},             // a breakout is a full run
-		{"broke a u-joint", true},
-		{"shifted late", false}, // "lift" inside "shifted" is not a word
-		{"", false},
-	} {
-		t.Run(tc.notes, func(t *testing.T) {
-			if got := Aborted(tc.notes); got != tc.want {
-				t.Errorf("Aborted(%q) = %v, want %v", tc.notes, got, tc.want)
-			}
-		})
-	}
-	crew := DefaultAbortWords.With([]string{"Chute out early", " "})
-	if !crew.Aborted("chute out early at 900") || Aborted("chute out early at 900") || !crew.Aborted("lifted") {
-		t.Errorf("the crew's own words add to the defaults: %v", crew)
 	}
 }
 

@@ -1,0 +1,42 @@
+package engine
+
+import "math"
+
+// NormalCDF is the standard normal distribution function Φ(z).
+func NormalCDF(z float64) float64 { return 0.5 * math.Erfc(-z/math.Sqrt2) }
+
+// NormalPDF is the standard normal density φ(z).
+func NormalPDF(z float64) float64 { return math.Exp(-z*z/2) / math.Sqrt(2*math.Pi) }
+
+// NormalQuantile is Φ⁻¹(p), for 0 < p < 1.
+func NormalQuantile(p float64) float64 { return math.Sqrt2 * math.Erfinv(2*p-1) }
+
+func median(v []float64) float64 {
+	s := append([]float64(nil), v...)
+	for i := 1; i < len(s); i++ {
+		for j := i; j > 0 && s[j] < s[j-1]; j-- {
+			s[j], s[j-1] = s[j-1], s[j]
+		}
+	}
+	if len(s)%2 == 1 {
+		return s[len(s)/2]
+	}
+	return (s[len(s)/2-1] + s[len(s)/2]) / 2
+}
+
+// MeanSD is the mean and the sample standard deviation of v (0 for one value).
+func MeanSD(v []float64) (float64, float64) {
+	var m float64
+	for _, x := range v {
+		m += x
+	}
+	m /= float64(len(v))
+	var ss float64
+	for _, x := range v {
+		ss += (x - m) * (x - m)
+	}
+	if len(v) < 2 {
+		return m, 0
+	}
+	return m, math.Sqrt(ss / float64(len(v)-1))
+}
