@@ -1,4 +1,6 @@
-package engine
+// Package stats is the small numeric kit pitcard's packages share: the
+// standard normal distribution, the median, the mean and spread.
+package stats
 
 import "math"
 
@@ -11,7 +13,9 @@ func NormalPDF(z float64) float64 { return math.Exp(-z*z/2) / math.Sqrt(2*math.P
 // NormalQuantile is Φ⁻¹(p), for 0 < p < 1.
 func NormalQuantile(p float64) float64 { return math.Sqrt2 * math.Erfinv(2*p-1) }
 
-func median(v []float64) float64 {
+// Median is the middle value of v (the mean of the two middle ones for an
+// even count), v left as it is; v must not be empty.
+func Median(v []float64) float64 {
 	s := append([]float64(nil), v...)
 	for i := 1; i < len(s); i++ {
 		for j := i; j > 0 && s[j] < s[j-1]; j-- {

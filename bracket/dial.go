@@ -1,4 +1,4 @@
-package engine
+package bracket
 
 import (
 	"fmt"
@@ -6,6 +6,8 @@ import (
 
 	"github.com/shopspring/decimal"
 
+	"pitcard/internal/stats"
+	"pitcard/logbook"
 	"pitcard/weather"
 )
 
@@ -50,8 +52,8 @@ func PlanDial(est Estimate, step decimal.Decimal, risk float64, rows int) (DialP
 	if !(est.SD > 0) || math.IsInf(est.SD, 0) {
 		return DialPlan{}, fmt.Errorf("the ET estimate has no spread (%v s): a dial needs an interval", est.SD)
 	}
-	if !(est.ET >= DialRange[0] && est.ET <= DialRange[1]) {
-		return DialPlan{}, &weather.InputError{Field: "et", Value: fmt.Sprintf("%.3f", est.ET), Reason: fmt.Sprintf("is outside %g..%g s", DialRange[0], DialRange[1])}
+	if !(est.ET >= logbook.DialRange[0] && est.ET <= logbook.DialRange[1]) {
+		return DialPlan{}, &weather.InputError{Field: "et", Value: fmt.Sprintf("%.3f", est.ET), Reason: fmt.Sprintf("is outside %g..%g s", logbook.DialRange[0], logbook.DialRange[1])}
 	}
 	if !(risk >= RiskRange[0] && risk <= RiskRange[1]) {
 		return DialPlan{}, &weather.InputError{Field: "breakout_risk", Value: fmt.Sprint(risk), Reason: fmt.Sprintf("is outside %g..%g (a fraction: 0.10 is 10 %%)", RiskRange[0], RiskRange[1])}
@@ -59,7 +61,7 @@ func PlanDial(est Estimate, step decimal.Decimal, risk float64, rows int) (DialP
 	if !step.IsPositive() {
 		return DialPlan{}, &weather.InputError{Field: "dial_step", Value: step.String(), Reason: "must be positive"}
 	}
-	best := est.ET + est.SD*NormalQuantile(risk)
+	best := est.ET + est.SD*stats.NormalQuantile(risk)
 	rec := RoundDownToStep(best, step)
 	// Guard the float-to-decimal rounding: the recommendation never exceeds the risk.
 	for BreakoutChance(est, rec) > risk {
@@ -79,7 +81,7 @@ func PlanDial(est Estimate, step decimal.Decimal, risk float64, rows int) (DialP
 
 // BreakoutChance is P(ET < dial) for a normal ET.
 func BreakoutChance(est Estimate, dial decimal.Decimal) float64 {
-	return NormalCDF((dial.InexactFloat64() - est.ET) / est.SD)
+	return stats.NormalCDF((dial.InexactFloat64() - est.ET) / est.SD)
 }
 
 // Giveaway is E[max(ET − dial, 0)] for a normal ET: (μ − d)·(1 − Φ(z)) + σ·φ(z),
@@ -87,7 +89,7 @@ func BreakoutChance(est Estimate, dial decimal.Decimal) float64 {
 func Giveaway(est Estimate, dial decimal.Decimal) float64 {
 	d := dial.InexactFloat64()
 	z := (d - est.ET) / est.SD
-	return (est.ET-d)*(1-NormalCDF(z)) + est.SD*NormalPDF(z)
+	return (est.ET-d)*(1-stats.NormalCDF(z)) + est.SD*stats.NormalPDF(z)
 }
 
 // RoundDownToStep rounds v down to a multiple of step, exactly.
@@ -111,9 +113,9 @@ const MinSD = 0.012
 // predicts. Passes whose notes say they were aborted, and those more than
 // 4 median absolute deviations from the median, are left out and named;
 // aborts are the words that mark an aborted pass (nil: DefaultAbortWords).
-func RecentEstimate(passes []Pass, ft float64, n int, aborts AbortWords) (Estimate, []Pass, error) {
+func RecentEstimate(passes []logbook.Pass, ft float64, n int, aborts logbook.AbortWords) (Estimate, []logbook.Pass, error) {
 	var ets []float64
-	var used []Pass
+	var used []logbook.Pass
 	for i := len(passes) - 1; i >= 0 && len(used) < n; i-- {
 		p := passes[i]
 		et, ok := p.ETAt(ft)
@@ -125,20 +127,20 @@ func RecentEstimate(passes []Pass, ft float64, n int, aborts AbortWords) (Estima
 	if len(ets) < 2 {
 		return Estimate{}, nil, fmt.Errorf("the logbook has %d clean pass(es) at %.0f ft: a dial needs at least 2 (or give --et and --sd)", len(ets), ft)
 	}
-	med := median(ets)
+	med := stats.Median(ets)
 	dev := make([]float64, len(ets))
 	for i, e := range ets {
 		dev[i] = math.Abs(e - med)
 	}
-	mad := math.Max(median(dev)*1.4826, MinSD)
+	mad := math.Max(stats.Median(dev)*1.4826, MinSD)
 	var keep []float64
-	var kept []Pass
+	var kept []logbook.Pass
 	for i, e := range ets {
 		if math.Abs(e-med) <= 4*mad {
 			keep, kept = append(keep, e), append(kept, used[i])
 		}
 	}
-	mean, sd := MeanSD(keep)
+	mean, sd := stats.MeanSD(keep)
 	k := float64(len(keep))
 	// the spread of a next pass: the sample spread widened for a short sample
 	pred := math.Max(sd*math.Sqrt(1+1/k), MinSD)

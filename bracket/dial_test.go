@@ -1,4 +1,4 @@
-package engine
+package bracket
 
 import (
 	"math"
@@ -6,6 +6,9 @@ import (
 	"time"
 
 	"github.com/shopspring/decimal"
+
+	"pitcard/internal/stats"
+	"pitcard/logbook"
 )
 
 // Breakout chance is the normal table value at (dial − ET)/SD; the expected
@@ -88,12 +91,12 @@ func TestRoundToStep(t *testing.T) {
 // time; a typo far from the rest is left out too.
 func TestRecentEstimate(t *testing.T) {
 	base := time.Date(2026, 6, 13, 12, 0, 0, 0, time.UTC)
-	mk := func(i int, et string, notes string) Pass {
-		p := Pass{Time: base.Add(time.Duration(i) * time.Hour), Notes: notes}
+	mk := func(i int, et string, notes string) logbook.Pass {
+		p := logbook.Pass{Time: base.Add(time.Duration(i) * time.Hour), Notes: notes}
 		p.ET[4] = decimal.NewNullDecimal(d(et))
 		return p
 	}
-	passes := []Pass{mk(0, "11.50", ""), mk(1, "11.52", ""), mk(2, "12.90", "lifted at 1000"), mk(3, "11.48", ""), mk(4, "13.40", ""), mk(5, "11.51", "")}
+	passes := []logbook.Pass{mk(0, "11.50", ""), mk(1, "11.52", ""), mk(2, "12.90", "lifted at 1000"), mk(3, "11.48", ""), mk(4, "13.40", ""), mk(5, "11.51", "")}
 	est, used, err := RecentEstimate(passes, 1320, 10, nil)
 	if err != nil {
 		t.Fatal(err)
@@ -129,9 +132,9 @@ func TestRecentEstimateCut(t *testing.T) {
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
-			var passes []Pass
+			var passes []logbook.Pass
 			for i, et := range append(append([]string(nil), clean...), tc.extra) {
-				p := Pass{Time: base.Add(time.Duration(i) * time.Hour)}
+				p := logbook.Pass{Time: base.Add(time.Duration(i) * time.Hour)}
 				p.ET[4] = decimal.NewNullDecimal(d(et))
 				passes = append(passes, p)
 			}
@@ -143,7 +146,7 @@ func TestRecentEstimateCut(t *testing.T) {
 			if tc.kept {
 				want = append(want, d(tc.extra).InexactFloat64())
 			}
-			m, sd := MeanSD(want)
+			m, sd := stats.MeanSD(want)
 			if len(used) != len(want) || math.Abs(est.ET-m) > 1e-9 {
 				t.Errorf("used %d passes, mean %.4f; want %d passes, mean %.4f", len(used), est.ET, len(want), m)
 			}
@@ -161,9 +164,9 @@ func TestRecentEstimateCut(t *testing.T) {
 // (pitcard's own rule, dial.go).
 func TestRecentEstimateTakesN(t *testing.T) {
 	base := time.Date(2026, 6, 13, 12, 0, 0, 0, time.UTC)
-	var passes []Pass
+	var passes []logbook.Pass
 	for i, et := range []string{"11.60", "11.50", "11.52", "11.48"} {
-		p := Pass{Time: base.Add(time.Duration(i) * time.Hour)}
+		p := logbook.Pass{Time: base.Add(time.Duration(i) * time.Hour)}
 		p.ET[4] = decimal.NewNullDecimal(d(et))
 		passes = append(passes, p)
 	}
