@@ -2,7 +2,10 @@
 // standard normal distribution, the median, the mean and spread.
 package stats
 
-import "math"
+import (
+	"math"
+	"sort"
+)
 
 // NormalCDF is the standard normal distribution function Φ(z).
 func NormalCDF(z float64) float64 { return 0.5 * math.Erfc(-z/math.Sqrt2) }
@@ -14,14 +17,11 @@ func NormalPDF(z float64) float64 { return math.Exp(-z*z/2) / math.Sqrt(2*math.P
 func NormalQuantile(p float64) float64 { return math.Sqrt2 * math.Erfinv(2*p-1) }
 
 // Median is the middle value of v (the mean of the two middle ones for an
-// even count), v left as it is; v must not be empty.
+// even count), v left as it is; v must not be empty. It sorts a copy:
+// O(n log n), so a long logbook's residuals cost no more than their sort.
 func Median(v []float64) float64 {
 	s := append([]float64(nil), v...)
-	for i := 1; i < len(s); i++ {
-		for j := i; j > 0 && s[j] < s[j-1]; j-- {
-			s[j], s[j-1] = s[j-1], s[j]
-		}
-	}
+	sort.Float64s(s)
 	if len(s)%2 == 1 {
 		return s[len(s)/2]
 	}
