@@ -445,12 +445,12 @@ func (e *Folder) SaveLogbook(add []logbook.Pass, extra ...string) (n int, kept e
 	return len(lb.Passes), kept, nil
 }
 
-// DuplicateOf says that p is already in the logbook as o.
-func DuplicateOf(p, o logbook.Pass, logbook string) *weather.InputError {
+// DuplicateOf says that p is already in the logbook file named file as o.
+func DuplicateOf(p, o logbook.Pass, file string) *weather.InputError {
 	where := "this pass"
 	if p.Line > 0 {
 		where = fmt.Sprintf("line %d", p.Line)
 	}
 	return &weather.InputError{Field: "pass", Value: p.Time.Format("2006-01-02 15:04") + " " + string(p.Lane),
-		Reason: fmt.Sprintf("(%s) is already in %s at line %d: the same pass entered twice", where, logbook, o.Line)}
+		Reason: fmt.Sprintf("(%s) is already in %s at line %d: the same pass entered twice", where, file, o.Line)}
 }
