@@ -9,7 +9,7 @@ import (
 	"testing"
 	"time"
 
-	"pitcard/engine"
+	"pitcard/logbook"
 	"pitcard/weather"
 )
 
@@ -29,13 +29,13 @@ func readMapFile(t testing.TB, name string, kind Kind) *Map {
 // The demo event's files, exported through each example map and imported
 // back through it, come back byte for byte.
 func TestExampleMapsRoundTrip(t *testing.T) {
-	logbook, err := os.ReadFile("../event/demo/logbook.csv")
+	demo, err := os.ReadFile("../event/demo/logbook.csv")
 	if err != nil {
 		t.Fatal(err)
 	}
 	m := readMapFile(t, "spreadsheet-map.yaml", Logbook)
 	var sheet bytes.Buffer
-	if err := m.Export(&sheet, logbook); err != nil {
+	if err := m.Export(&sheet, demo); err != nil {
 		t.Fatal(err)
 	}
 	if !strings.HasPrefix(sheet.String(), "Date;Time;Track;Run;Lane;Dial;R/T;60'") || !strings.Contains(sheet.String(), "28/03/2026;11:00;Salt Creek Dragway;test;left;;0,017;1,595") {
@@ -45,16 +45,16 @@ func TestExampleMapsRoundTrip(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	lb, err := engine.ReadLogbookFile(bytes.NewReader(tr.CSV), "season.csv", time.Local)
+	lb, err := logbook.ReadFile(bytes.NewReader(tr.CSV), "season.csv", time.Local)
 	if err != nil || len(lb.Bad) > 0 {
 		t.Fatalf("%v %v", err, lb.Bad)
 	}
 	var back bytes.Buffer
-	if err := engine.WriteLogbook(&back, lb.Passes); err != nil {
+	if err := logbook.Write(&back, lb.Passes); err != nil {
 		t.Fatal(err)
 	}
-	if back.String() != string(logbook) {
-		t.Errorf("the logbook through the spreadsheet map is not the same:\n%s", firstDiff(string(logbook), back.String()))
+	if back.String() != string(demo) {
+		t.Errorf("the logbook through the spreadsheet map is not the same:\n%s", firstDiff(string(demo), back.String()))
 	}
 
 	wlog, err := os.ReadFile("../event/demo/weather.csv")
@@ -313,7 +313,7 @@ func BenchmarkImport100000(b *testing.B) {
 		if err != nil {
 			b.Fatal(err)
 		}
-		lb, err := engine.ReadLogbookFile(bytes.NewReader(tr.CSV), "sheet.csv", time.Local)
+		lb, err := logbook.ReadFile(bytes.NewReader(tr.CSV), "sheet.csv", time.Local)
 		if err != nil || len(lb.Bad) > 0 || len(lb.Passes) != 100000 {
 			b.Fatalf("%v %d bad, %d passes", err, len(lb.Bad), len(lb.Passes))
 		}

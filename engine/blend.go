@@ -11,6 +11,10 @@ import (
 	"sync"
 	"time"
 
+	"pitcard/bracket"
+	"pitcard/internal/stats"
+	"pitcard/internal/text"
+	"pitcard/logbook"
 	"pitcard/weather"
 )
 
@@ -127,8 +131,8 @@ func (c *HeldOutCache) put(key string, e estimate) {
 
 // target is one scored pass: its index in the clean passes, and the actual.
 type target struct {
-	pass   Pass
-	before []Pass // every logbook pass before it
+	pass   logbook.Pass
+	before []logbook.Pass // every logbook pass before it
 	actual float64
 }
 
@@ -197,10 +201,10 @@ func Forecast(cal CalibrateInput, next PredictInput, cache *HeldOutCache) (Predi
 	}
 	if b.ColdStart {
 		pr.Notes = append(pr.Notes, fmt.Sprintf("only %s at %.0f ft: the prediction carries them to this air by the SAE J1349 factor alone; nothing is fitted yet",
-			Plural(len(fit.Samples), "clean pass"), dist))
+			text.Plural(len(fit.Samples), "clean pass"), dist))
 	} else {
 		pr.Notes = append(pr.Notes, fmt.Sprintf("the finish leans on %s (weighed by how each predicted the latest %s of this car); the interval is scaled ×%.2f to how often it covered them",
-			b.Text(), Plural(b.Scored, "pass"), b.Scale))
+			b.Text(), text.Plural(b.Scored, "pass"), b.Scale))
 	}
 	return pr, fit, nil
 }
@@ -208,9 +212,9 @@ func Forecast(cal CalibrateInput, next PredictInput, cache *HeldOutCache) (Predi
 // carried is the air-carried estimate of the next pass from passes: the
 // median of the latest clean passes carried by the SAE J1349 factor (today
 // only: the day's passes so far).
-func carried(cal CalibrateInput, passes []Pass, next PredictInput, elev weather.Length, today bool) estimate {
+func carried(cal CalibrateInput, passes []logbook.Pass, next PredictInput, elev weather.Length, today bool) estimate {
 	if today {
-		var same []Pass
+		var same []logbook.Pass
 		for _, p := range passes {
 			if !p.Time.After(next.Time) && cal.DayStart.Same(p.Time, next.Time) {
 				same = append(same, p)
@@ -231,7 +235,7 @@ func carried(cal CalibrateInput, passes []Pass, next PredictInput, elev weather.
 	if !ok {
 		return estimate{}
 	}
-	return estimate{ET: cc.ET, SD: MinSD, OK: true}
+	return estimate{ET: cc.ET, SD: bracket.MinSD, OK: true}
 }
 
 // scored is one scored pass: every member's held-out estimate and the actual.
@@ -244,8 +248,8 @@ type scored struct {
 // kept from the passes before it, by every member, oldest first.
 func scoreMembers(cal CalibrateInput, fit Fit, cache *HeldOutCache) []scored {
 	dist := cal.Car.DistanceFt
-	passes := append([]Pass(nil), cal.Passes...)
-	SortPasses(passes)
+	passes := append([]logbook.Pass(nil), cal.Passes...)
+	logbook.SortPasses(passes)
 	index := map[string]int{}
 	for i, p := range passes {
 		index[p.Key()] = i
@@ -384,7 +388,7 @@ func online(hist []scored) ([nMembers]float64, float64) {
 	const priorPoints = 8
 	for i := range priorPoints {
 		p := (float64(i) + 0.5) / priorPoints
-		zs = append(zs, score{NormalQuantile(0.5 + p/2), ConformalPrior / priorPoints})
+		zs = append(zs, score{stats.NormalQuantile(0.5 + p/2), ConformalPrior / priorPoints})
 	}
 	sort.Slice(zs, func(a, b int) bool { return zs[a].z < zs[b].z })
 	var total, cum float64
@@ -422,7 +426,7 @@ func expWeights(loss [nMembers]float64) [nMembers]float64 {
 }
 
 // missScale is the typical held-out miss of the members, s (their median
-// absolute miss, at least MinSD).
+// absolute miss, at least bracket.MinSD).
 func missScale(hist []scored) float64 {
 	var v []float64
 	for _, s := range hist {
@@ -433,9 +437,9 @@ func missScale(hist []scored) float64 {
 		}
 	}
 	if len(v) == 0 {
-		return MinSD
+		return bracket.MinSD
 	}
-	return math.Max(median(v), MinSD)
+	return math.Max(stats.Median(v), bracket.MinSD)
 }
 
 // mix is the weighted mean of the awake members and the mixture's spread.

@@ -7,6 +7,8 @@ import (
 	"strings"
 	"time"
 
+	"pitcard/internal/stats"
+	"pitcard/logbook"
 	"pitcard/weather"
 )
 
@@ -68,7 +70,7 @@ func priorSD(ind Induction) theta {
 
 // Sample is one logged pass prepared for the fit.
 type Sample struct {
-	Pass   Pass
+	Pass   logbook.Pass
 	Env    Env
 	Obs    [5]float64 // logged ET at each timer, NaN where not timed
 	Trap   [2]float64 // logged trap speeds at 660 and 1320, NaN where not timed
@@ -83,7 +85,7 @@ type Sample struct {
 
 // Outlier is a pass the fit left out, and why.
 type Outlier struct {
-	Pass   Pass
+	Pass   logbook.Pass
 	Reason string
 }
 
@@ -95,7 +97,7 @@ type Fit struct {
 	Params   Params
 	Cov      [NP][NP]float64 // covariance of the parameters, in the fit's terms (theta)
 	Samples  []Sample        // the clean passes it fitted, most recent first
-	NoAir    []Pass          // clean passes logged without their weather, most recent first
+	NoAir    []logbook.Pass  // clean passes logged without their weather, most recent first
 	Outliers []Outlier
 	Notes    []string // what the fit leaned on and assumed, in words
 	// PowerEstimated: car.yaml gave no power; it was estimated from the traps.
@@ -112,7 +114,7 @@ type CalibrateInput struct {
 	Car    Car
 	Track  Track            // the track of the day
 	Tracks map[string]Track // other tracks the logbook names, by lower-case name
-	Passes []Pass
+	Passes []logbook.Pass
 	Now    time.Time // the time of the prediction: recency counts back from it
 	// DayStart is when a race day begins (setting day_starts): passes
 	// either side of midnight on one race night are one day for the day
@@ -121,14 +123,14 @@ type CalibrateInput struct {
 	DayStart weather.DayStart
 	// Aborts are the words in notes that leave a pass out of the fit (the
 	// crew's setting abort_words); nil: DefaultAbortWords.
-	Aborts AbortWords
+	Aborts logbook.AbortWords
 }
 
 // Calibrate fits the car to its logbook.
 func Calibrate(in CalibrateInput) (Fit, error) {
 	f := Fit{Car: in.Car, Track: in.Track, DayStart: in.DayStart}
 	dist := in.Car.DistanceFt
-	var clean []Pass
+	var clean []logbook.Pass
 	for i := len(in.Passes) - 1; i >= 0; i-- {
 		p := in.Passes[i]
 		if p.Time.After(in.Now) {
@@ -162,7 +164,7 @@ func Calibrate(in CalibrateInput) (Fit, error) {
 		f.Notes = append(f.Notes, note)
 	}
 	f.Vehicle = NewVehicle(in.Car, f.PowerHP)
-	var before []Pass
+	var before []logbook.Pass
 	for _, p := range in.Passes {
 		if !p.Time.After(in.Now) {
 			before = append(before, p)
@@ -185,14 +187,14 @@ func Calibrate(in CalibrateInput) (Fit, error) {
 	// Leave out runs far from the rest (aborted, pedaled, a timing fault), refit.
 	res := make([]float64, len(f.Samples))
 	for i, s := range f.Samples {
-		res[i] = s.Obs[timerIndex(dist)] - s.Sim.ETAt(dist)
+		res[i] = s.Obs[logbook.TimerIndex(dist)] - s.Sim.ETAt(dist)
 	}
-	med := median(res)
+	med := stats.Median(res)
 	dev := make([]float64, len(res))
 	for i, r := range res {
 		dev[i] = math.Abs(r - med)
 	}
-	limit := math.Max(OutlierMADs*1.4826*median(dev), OutlierFloor)
+	limit := math.Max(OutlierMADs*1.4826*stats.Median(dev), OutlierFloor)
 	if len(res) < FewForOutliers {
 		// a handful of passes cannot say what scatter is normal: only a gross
 		// miss (a lift, a pedal) is left out
@@ -244,7 +246,7 @@ func seenTrack(ss []Sample) [2]float64 {
 	return [2]float64{lo, hi}
 }
 
-func (f *Fit) sample(p Pass, in CalibrateInput, rank int) Sample {
+func (f *Fit) sample(p logbook.Pass, in CalibrateInput, rank int) Sample {
 	trk := in.Track
 	weight := 1.0
 	if !strings.EqualFold(p.Track, in.Track.Name) {
@@ -268,9 +270,9 @@ func (f *Fit) sample(p Pass, in CalibrateInput, rank int) Sample {
 	age := in.Now.Sub(p.Time).Hours() / 24
 	weight *= math.Max(math.Pow(0.5, age/FitHalfLifeDays), FitAgeFloor) * math.Pow(0.5, float64(rank)/FitHalfLifePasses)
 	s := Sample{Pass: p, Env: NewEnv(p.Air, trk.HeadingDeg, prep, mass), Weight: weight}
-	for i := range Timers {
+	for i := range logbook.Timers {
 		s.Obs[i] = math.NaN()
-		if et, ok := p.ETAt(Timers[i]); ok && Timers[i] <= in.Car.DistanceFt {
+		if et, ok := p.ETAt(logbook.Timers[i]); ok && logbook.Timers[i] <= in.Car.DistanceFt {
 			s.Obs[i] = et
 		}
 	}
@@ -337,7 +339,7 @@ func (f *Fit) residuals(th theta, runs []Run) []float64 {
 			runs[i] = run
 		}
 		w := math.Sqrt(s.Weight)
-		for j := range Timers {
+		for j := range logbook.Timers {
 			if !math.IsNaN(s.Obs[j]) {
 				r = append(r, w*huber((run.ET[j]-(s.Obs[j]-s.Nuisance[j]))/timerSigma[j]))
 			}
@@ -513,7 +515,7 @@ func (f *Fit) Residuals(in CalibrateInput) map[string]float64 {
 // 229.3): P = W·(MPH/K)³. It uses the median quarter trap of the clean passes
 // (or the eighth trap × 1.25, common practice); aborts mark the passes left
 // out (nil: DefaultAbortWords).
-func EstimatePower(c Car, passes []Pass, aborts AbortWords) (float64, string, error) {
+func EstimatePower(c Car, passes []logbook.Pass, aborts logbook.AbortWords) (float64, string, error) {
 	const k = (224 + 230 + 234) / 3.0
 	var traps []float64
 	for _, p := range passes {
@@ -530,7 +532,7 @@ func EstimatePower(c Car, passes []Pass, aborts AbortWords) (float64, string, er
 	if len(traps) == 0 {
 		return 0, "", &weather.InputError{Field: "power_hp", Reason: "is missing from car.yaml and the logbook has no trap speeds to estimate it from: give the car's power"}
 	}
-	mph := median(traps)
+	mph := stats.Median(traps)
 	hp := c.WeightLb * math.Pow(mph/k, 3)
 	return hp, fmt.Sprintf("car.yaml gives no power: %.0f hp estimated from the median trap of %d passes (%.1f mph) by the power-weight relations (Huntington, Fox)", hp, len(traps), mph), nil
 }

@@ -10,6 +10,7 @@ import (
 
 	"github.com/shopspring/decimal"
 
+	"pitcard/logbook"
 	"pitcard/weather"
 )
 
@@ -31,9 +32,9 @@ type gen struct {
 // day makes n passes on one day: the afternoon heat falls away into the
 // evening (30 °F of air, 50 °F of track: a density-altitude swing of about
 // 2000 ft), the barometer drifts.
-func (g gen) day(date time.Time, n int, baro float64) []Pass {
+func (g gen) day(date time.Time, n int, baro float64) []logbook.Pass {
 	v := NewVehicle(g.car, 0)
-	var out []Pass
+	var out []logbook.Pass
 	t0 := 96 + g.rng.Float64()*8
 	for k := range n {
 		frac := float64(k) / float64(n-1)
@@ -48,8 +49,8 @@ func (g gen) day(date time.Time, n int, baro float64) []Pass {
 		e0 := g.rng.NormFloat64() * 0.008
 		gain := [5]float64{1, 1.3, 1.4, 1.5, 1.5}
 		sd := [5]float64{0, 0.005, 0.007, 0.008, 0.009}
-		p := Pass{Time: r.Time, Track: testTrack.Name, Session: Session{TimeTrial, k + 1}, Lane: Left, Air: r, HasAir: true}
-		for j := range Timers {
+		p := logbook.Pass{Time: r.Time, Track: testTrack.Name, Session: logbook.Session{Kind: logbook.TimeTrial, N: k + 1}, Lane: logbook.Left, Air: r, HasAir: true}
+		for j := range logbook.Timers {
 			et := run.ET[j] + e0*gain[j] + g.rng.NormFloat64()*sd[j]
 			p.ET[j] = decimal.NewNullDecimal(decimal.NewFromFloat(et).Round(3))
 		}
@@ -60,8 +61,8 @@ func (g gen) day(date time.Time, n int, baro float64) []Pass {
 	return out
 }
 
-func (g gen) season(days, perDay int) []Pass {
-	var all []Pass
+func (g gen) season(days, perDay int) []logbook.Pass {
+	var all []logbook.Pass
 	start := time.Date(2026, 5, 2, 0, 0, 0, 0, time.UTC)
 	for d := range days {
 		all = append(all, g.day(start.AddDate(0, 0, 7*d), perDay, 28.8+0.6*g.rng.Float64())...)
@@ -69,9 +70,9 @@ func (g gen) season(days, perDay int) []Pass {
 	return all
 }
 
-func finishOf(p Pass) float64 { et, _ := p.ETAt(1320); return et }
+func finishOf(p logbook.Pass) float64 { et, _ := p.ETAt(1320); return et }
 
-func daSwing(passes []Pass) float64 {
+func daSwing(passes []logbook.Pass) float64 {
 	lo, hi := math.Inf(1), math.Inf(-1)
 	for _, p := range passes {
 		d := p.Air.Derive(0).DensityAltitude.Feet()
@@ -453,12 +454,12 @@ func TestOutliersAreLeftOutOfTheFit(t *testing.T) {
 	truth := Params{PowerScale: 0.95, TractionScale: 1.05, PressureExp: 1, TempExp: 0.5, TrackOptF: 110, TrackWidthF: 40}
 	g := gen{rng: rand.New(rand.NewPCG(3, 4)), truth: truth, car: testCar}
 	clean := g.season(4, 10)
-	planted := append([]Pass(nil), clean...)
+	planted := append([]logbook.Pass(nil), clean...)
 	for i, add := range map[int]float64{33: 0.45, 36: 1.20, 12: -0.40} {
 		planted[i].ET[4] = decimal.NewNullDecimal(planted[i].ET[4].Decimal.Add(decimal.NewFromFloat(add)))
 	}
 	now := clean[len(clean)-1].Time.Add(time.Hour)
-	fit := func(passes []Pass) Fit {
+	fit := func(passes []logbook.Pass) Fit {
 		f, err := Calibrate(CalibrateInput{Car: testCar, Track: testTrack, Passes: passes, Now: now})
 		if err != nil {
 			t.Fatal(err)

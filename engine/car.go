@@ -2,16 +2,15 @@ package engine
 
 import (
 	"bytes"
-	"errors"
 	"fmt"
 	"io"
-	"math"
 	"slices"
 	"strings"
 
 	"go.yaml.in/yaml/v3"
 
 	"pitcard/internal/yamlfile"
+	"pitcard/logbook"
 
 	"pitcard/weather"
 )
@@ -115,48 +114,16 @@ func carKeys() []string {
 	return keys
 }
 
-// WeightRangeLb is the weight of car and driver pitcard accepts, lb: a
-// light dragster to a heavy truck, with room to spare.
-var WeightRangeLb = [2]float64{500, 10000}
-
-// ParseWeightLb reads a weight typed for field (a flag, a form field, a
-// logbook column): "3300lb", "1500kg", a bare number in unit bare. It
-// returns pounds, or an error naming the field with the one message every
-// weight input gives.
-func ParseWeightLb(field, s string, bare weather.WeightUnit) (float64, error) {
-	w, err := weather.ParseWeight(s, bare)
-	if err != nil {
-		var ie *weather.InputError
-		if errors.As(err, &ie) {
-			c := *ie
-			c.Field = field
-			return 0, &c
-		}
-		return 0, err
-	}
-	// Rounded to a millionth of a pound: the round trip through kg must
-	// not log 3350 as 3349.9999999999995.
-	lb := math.Round(w.Lb()*1e6) / 1e6
-	if !(lb >= WeightRangeLb[0] && lb <= WeightRangeLb[1]) {
-		return 0, &weather.InputError{Field: field, Value: s, Reason: weightRangeWords}
-	}
-	return lb, nil
-}
-
-// weightRangeWords is the range every weight input states.
-var weightRangeWords = fmt.Sprintf("is outside %.0f..%.0f lb (%.0f..%.0f kg)", WeightRangeLb[0], WeightRangeLb[1],
-	WeightRangeLb[0]*weather.KgPerLb, WeightRangeLb[1]*weather.KgPerLb)
-
 // Validate checks the car's fields against their ranges.
 func (c Car) Validate(file string) error {
 	bad := func(field string, v any, reason string) error {
 		return &weather.InputError{File: file, Field: field, Value: fmt.Sprint(v), Reason: reason}
 	}
-	if !(c.WeightLb >= WeightRangeLb[0] && c.WeightLb <= WeightRangeLb[1]) {
+	if !(c.WeightLb >= logbook.WeightRangeLb[0] && c.WeightLb <= logbook.WeightRangeLb[1]) {
 		if c.WeightLb == 0 {
 			return bad("weight_lb", "", "is missing (car and driver as raced, lb, 500..10000)")
 		}
-		return bad("weight_lb", c.WeightLb, weightRangeWords)
+		return bad("weight_lb", c.WeightLb, logbook.WeightRangeWords)
 	}
 	if c.PowerHP != 0 && !(c.PowerHP >= 20 && c.PowerHP <= 12000) {
 		return bad("power_hp", c.PowerHP, "is outside 20..12000 hp (or leave it out to estimate it from the traps)")

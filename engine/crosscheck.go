@@ -5,6 +5,8 @@ import (
 	"math"
 	"sort"
 
+	"pitcard/internal/text"
+	"pitcard/logbook"
 	"pitcard/weather"
 )
 
@@ -24,9 +26,9 @@ const DefaultCrossCheckMax = 0.05
 // alone, nothing fitted. It cannot extrapolate a track temperature, a wind
 // or a fitted grip curve, which is what makes it a check on the model.
 type CrossCheck struct {
-	ET     float64 // s: the median of the carried passes
-	Passes []Pass  // the passes carried, latest first
-	Basis  string  // in words
+	ET     float64        // s: the median of the carried passes
+	Passes []logbook.Pass // the passes carried, latest first
+	Basis  string         // in words
 }
 
 // AirCarried is the cross-check for air today: each of the latest
@@ -36,14 +38,14 @@ type CrossCheck struct {
 // cube-root law of Huntington, Rod & Custom 1958, and Fox, Am. J. Physics
 // 1973). elevation gives a pass's track's elevation (for a barometer
 // logged as an altimeter setting). ok is false with no such pass.
-func AirCarried(passes []Pass, ft float64, today weather.Reading, todayElev weather.Length, elevation func(track string) weather.Length) (CrossCheck, bool) {
+func AirCarried(passes []logbook.Pass, ft float64, today weather.Reading, todayElev weather.Length, elevation func(track string) weather.Length) (CrossCheck, bool) {
 	now := today.Derive(todayElev)
 	var ets []float64
-	var used []Pass
+	var used []logbook.Pass
 	for i := len(passes) - 1; i >= 0 && len(used) < CrossCheckPasses; i-- {
 		p := passes[i]
 		et, ok := p.ETAt(ft)
-		if !ok || !p.HasAir || Aborted(p.Notes) {
+		if !ok || !p.HasAir || logbook.Aborted(p.Notes) {
 			continue
 		}
 		then := p.Air.Derive(elevation(p.Track))
@@ -62,6 +64,6 @@ func AirCarried(passes []Pass, ft float64, today weather.Reading, todayElev weat
 		med = (ets[len(ets)/2-1] + ets[len(ets)/2]) / 2
 	}
 	basis := fmt.Sprintf("the median of the latest %s at %.0f ft, each carried to this air by the cube root of the SAE J1349 factor alone",
-		Plural(len(used), "clean pass"), ft)
+		text.Plural(len(used), "clean pass"), ft)
 	return CrossCheck{ET: med, Passes: used, Basis: basis}, true
 }

@@ -7,6 +7,7 @@ import (
 
 	"github.com/shopspring/decimal"
 
+	"pitcard/logbook"
 	"pitcard/weather"
 )
 
@@ -21,13 +22,13 @@ func TestAirCarried(t *testing.T) {
 		return weather.Reading{Time: tm, Temp: weather.Celsius(tC), Baro: weather.KPa(kPa), BaroKind: weather.StationPressure}
 	}
 	day := time.Date(2026, 6, 13, 18, 0, 0, 0, time.UTC)
-	pass := func(min int, et float64, air weather.Reading, notes string) Pass {
-		p := Pass{Time: day.Add(time.Duration(min) * time.Minute), Track: "Test Strip", Air: air, HasAir: true, Notes: notes}
+	pass := func(min int, et float64, air weather.Reading, notes string) logbook.Pass {
+		p := logbook.Pass{Time: day.Add(time.Duration(min) * time.Minute), Track: "Test Strip", Air: air, HasAir: true, Notes: notes}
 		p.ET[4] = decimal.NewNullDecimal(decimal.NewFromFloat(et))
 		return p
 	}
 	std := dry(day, 25, 99) // J1349's own standard: CF = 1 exactly
-	passes := []Pass{
+	passes := []logbook.Pass{
 		pass(0, 11.50, std, ""),
 		pass(30, 11.00, std, ""),
 		pass(60, 11.02, std, ""),

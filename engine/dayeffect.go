@@ -5,6 +5,8 @@ import (
 	"sort"
 	"time"
 
+	"pitcard/bracket"
+	"pitcard/logbook"
 	"pitcard/weather"
 )
 
@@ -38,7 +40,7 @@ type residualPriors struct {
 func timerPriors(j, fin int) residualPriors {
 	share := (float64(j) + 1) / (float64(fin) + 1)
 	return residualPriors{Sigma: timerSigma[j], Tau: DefaultTau * (0.3 + 0.7*share), Slope: SlopePriorSD * (0.3 + 0.7*share),
-		MinSigma: MinSD * (0.5 + 0.5*share), MinTau: MinTau * (0.5 + 0.5*share)}
+		MinSigma: bracket.MinSD * (0.5 + 0.5*share), MinTau: MinTau * (0.5 + 0.5*share)}
 }
 
 // trapPriors are the priors of a trap speed's residuals, mph.
@@ -287,14 +289,14 @@ func fitResiduals(ss []Sample, res func(Sample) (float64, bool), now time.Time, 
 // through the day, from the current fit's residuals, and stores them in the
 // samples for the next fit to take out.
 func (f *Fit) nuisance() {
-	fin := timerIndex(f.Car.DistanceFt)
+	fin := logbook.TimerIndex(f.Car.DistanceFt)
 	apply := func(res func(Sample) (float64, bool), pri residualPriors, set func(*Sample, float64)) {
 		d := dayStructure(f.Samples, res, pri, f.DayStart)
 		for i := range f.Samples {
 			set(&f.Samples[i], d.offset(f.Samples[i]))
 		}
 	}
-	for j := range Timers {
+	for j := range logbook.Timers {
 		if j > fin {
 			break
 		}

@@ -10,6 +10,7 @@ import (
 
 	"pitcard/engine"
 	"pitcard/internal/truthsim"
+	"pitcard/logbook"
 )
 
 // The acceptance test of the pass model (the standard here is not a
@@ -43,7 +44,7 @@ type heldOut struct {
 // from typical, shrunk toward none by the ratio of the pass-to-pass and the
 // day-to-day variances, both measured on the season itself).
 func floors(passes []truthsim.Pass, fin int) []float64 {
-	actual := func(p truthsim.Pass) float64 { et, _ := p.Logged.ETAt(engine.Timers[fin]); return et }
+	actual := func(p truthsim.Pass) float64 { et, _ := p.Logged.ETAt(logbook.Timers[fin]); return et }
 	var noise []float64
 	dayMeans := map[int][]float64{}
 	for _, p := range passes {
@@ -90,7 +91,7 @@ func scoreWorld(t testing.TB, w truthsim.World, targetDays int, claimOff float64
 	passes := w.Season()
 	car, trk := w.CarYAML(claimOff), w.EngineTrack()
 	fin := truthsim.FinishIndex(w.Car.DistanceFt)
-	logged := make([]engine.Pass, len(passes))
+	logged := make([]logbook.Pass, len(passes))
 	for i, p := range passes {
 		logged[i] = p.Logged
 	}

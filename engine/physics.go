@@ -4,6 +4,7 @@ import (
 	"math"
 	"strings"
 
+	"pitcard/logbook"
 	"pitcard/weather"
 )
 
@@ -224,7 +225,7 @@ type Run struct {
 
 // ETAt is the simulated elapsed time at timer ft.
 func (r Run) ETAt(ft float64) float64 {
-	if i := timerIndex(ft); i >= 0 {
+	if i := logbook.TimerIndex(ft); i >= 0 {
 		return r.ET[i]
 	}
 	return math.NaN()
@@ -365,7 +366,7 @@ func Simulate(v *Vehicle, p Params, env Env, distanceFt float64) Run {
 	at := func(s float64) (float64, float64) { return timeAt(pieces, s) }
 	t0, u0 := at(Rollout)
 	run.ClockStart, run.StartSpeed = t0, u0
-	for i, ft := range Timers {
+	for i, ft := range logbook.Timers {
 		if ft > distanceFt {
 			run.ET[i], run.MPH[i] = math.NaN(), math.NaN()
 			continue

@@ -7,6 +7,10 @@ import (
 	"strings"
 	"time"
 
+	"pitcard/bracket"
+	"pitcard/internal/stats"
+	"pitcard/internal/text"
+	"pitcard/logbook"
 	"pitcard/weather"
 )
 
@@ -56,7 +60,7 @@ type Trap struct {
 
 // Leaned is a pass the prediction leaned on.
 type Leaned struct {
-	Pass    Pass
+	Pass    logbook.Pass
 	Share   float64 // its share of the residual correction, 0..1
 	Carried float64 // its finish ET carried to today's conditions, s
 	ET      float64 // its logged finish ET, s
@@ -129,14 +133,14 @@ func (p Prediction) DialReady() (bool, string) {
 	}
 	what := "no clean pass"
 	if p.Passes > 0 {
-		what = fmt.Sprintf("only %s", Plural(p.Passes, "clean pass"))
+		what = fmt.Sprintf("only %s", text.Plural(p.Passes, "clean pass"))
 	}
 	return false, fmt.Sprintf("%s of this car at %.0f ft in the logbook (a dial is posted from %d): make a time trial first; the estimate is a guide only",
 		what, p.Distance, MinPassesForDial)
 }
 
 // Estimate is the finish prediction as a dial-in estimate.
-func (p Prediction) Estimate() Estimate {
+func (p Prediction) Estimate() bracket.Estimate {
 	f := p.Finish()
 	basis := "the pass model"
 	switch {
@@ -147,7 +151,7 @@ func (p Prediction) Estimate() Estimate {
 	case len(p.Leaned) > 0:
 		basis = fmt.Sprintf("the pass model calibrated to %d passes, corrected by the recent ones", len(p.Leaned))
 	}
-	return Estimate{ET: f.ET, SD: f.SD, Basis: basis}
+	return bracket.Estimate{ET: f.ET, SD: f.SD, Basis: basis}
 }
 
 // PredictInput is the conditions of the next pass.
@@ -187,7 +191,7 @@ func Predict(f Fit, in PredictInput) Prediction {
 	if !in.Quick {
 		pr.Sensitivity = sensitivity(f, in, env, model)
 	}
-	timers := TimersFor(dist)
+	timers := logbook.TimersFor(dist)
 
 	if len(f.Samples) == 0 && len(f.NoAir) >= 2 {
 		return rawPrediction(pr, f, timers)
@@ -211,7 +215,7 @@ func Predict(f Fit, in PredictInput) Prediction {
 
 	// The correction: the structure of the model's residuals (base, today,
 	// drift through the day), timer by timer.
-	fj := timerIndex(dist)
+	fj := logbook.TimerIndex(dist)
 	has := func(j int) func(Sample) (float64, bool) {
 		return func(s Sample) (float64, bool) { return s.Obs[j] - s.Sim.ET[j], !math.IsNaN(s.Obs[j]) }
 	}
@@ -237,7 +241,7 @@ func Predict(f Fit, in PredictInput) Prediction {
 	}
 	var unlogged []string
 	for _, ft := range timers {
-		j := timerIndex(ft)
+		j := logbook.TimerIndex(ft)
 		et, sd := model.ET[j], 2*relSD*model.ET[j]
 		rf := residualFit{}
 		if logged(has(j)) {
@@ -300,7 +304,7 @@ func rawPrediction(pr Prediction, f Fit, timers []float64) Prediction {
 	if len(passes) > 10 {
 		passes = passes[:10]
 	}
-	stat := func(get func(Pass) (float64, bool)) (float64, float64, bool) {
+	stat := func(get func(logbook.Pass) (float64, bool)) (float64, float64, bool) {
 		var v []float64
 		for _, p := range passes {
 			if x, ok := get(p); ok {
@@ -310,11 +314,11 @@ func rawPrediction(pr Prediction, f Fit, timers []float64) Prediction {
 		if len(v) < 2 {
 			return 0, 0, false
 		}
-		m, sd := MeanSD(v)
-		return m, math.Max(sd*math.Sqrt(1+1/float64(len(v))), MinSD), true
+		m, sd := stats.MeanSD(v)
+		return m, math.Max(sd*math.Sqrt(1+1/float64(len(v))), bracket.MinSD), true
 	}
 	for _, ft := range timers {
-		if m, sd, ok := stat(func(p Pass) (float64, bool) { return p.ETAt(ft) }); ok {
+		if m, sd, ok := stat(func(p logbook.Pass) (float64, bool) { return p.ETAt(ft) }); ok {
 			pr.Timers = append(pr.Timers, Timer{DistanceFt: ft, ET: m, SD: sd, Low: m - IntervalZ*sd, High: m + IntervalZ*sd, PhysicsOnly: pr.Model.ETAt(ft), ResidualSpread: sd})
 		} else {
 			et := pr.Model.ETAt(ft) // a timer the slips never had: the model's, wide
@@ -324,10 +328,10 @@ func rawPrediction(pr Prediction, f Fit, timers []float64) Prediction {
 	}
 	for _, tr := range []struct {
 		ft  float64
-		get func(Pass) (float64, bool)
+		get func(logbook.Pass) (float64, bool)
 	}{
-		{660, func(p Pass) (float64, bool) { return p.MPH660.Decimal.InexactFloat64(), p.MPH660.Valid }},
-		{1320, func(p Pass) (float64, bool) { return p.MPH1320.Decimal.InexactFloat64(), p.MPH1320.Valid }},
+		{660, func(p logbook.Pass) (float64, bool) { return p.MPH660.Decimal.InexactFloat64(), p.MPH660.Valid }},
+		{1320, func(p logbook.Pass) (float64, bool) { return p.MPH1320.Decimal.InexactFloat64(), p.MPH1320.Valid }},
 	} {
 		if tr.ft > f.Car.DistanceFt {
 			continue
@@ -486,7 +490,7 @@ func outsideText(s Sensitivity) string {
 // before it: the fit's parameters, the residual correction of the earlier
 // passes only. It is the card's "predicted against actual" for a pass of the
 // day. ok is false when p has no weather or no pass came before it.
-func Backcast(f Fit, p Pass, in CalibrateInput) (Timer, bool) {
+func Backcast(f Fit, p logbook.Pass, in CalibrateInput) (Timer, bool) {
 	if !p.HasAir {
 		return Timer{}, false
 	}
@@ -530,16 +534,4 @@ func ThinnerAir(r weather.Reading, dDA float64) weather.Reading {
 	}
 	r.Baro = (lo + hi) / 2
 	return r
-}
-
-// Plural is "1 clean pass" or "2 clean passes": a count in words, for
-// messages.
-func Plural(n int, noun string) string {
-	if n == 1 {
-		return "1 " + noun
-	}
-	if strings.HasSuffix(noun, "s") {
-		return fmt.Sprintf("%d %ses", n, noun)
-	}
-	return fmt.Sprintf("%d %ss", n, noun)
 }

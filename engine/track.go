@@ -4,11 +4,9 @@ import (
 	"errors"
 	"fmt"
 	"io"
-	"strings"
-
-	"golang.org/x/text/unicode/norm"
 
 	"pitcard/internal/yamlfile"
+	"pitcard/logbook"
 	"pitcard/weather"
 )
 
@@ -43,13 +41,8 @@ func ReadTrack(r io.Reader, name string) (Track, error) {
 	return t, doc.At(err)
 }
 
-// TrackName is a track's name as pitcard keeps it: trimmed, in Unicode's
-// composed form (NFC), so "Café" typed with a combining accent is the same
-// track as "Café" typed with é.
-func TrackName(s string) string { return norm.NFC.String(strings.TrimSpace(s)) }
-
 func (t Track) validate(name string) (Track, error) {
-	t.Name = TrackName(t.Name)
+	t.Name = logbook.TrackName(t.Name)
 	if t.Name == "" {
 		return t, &weather.InputError{File: name, Field: "name", Reason: "is missing (the track's name as the logbook spells it)"}
 	}

@@ -5,6 +5,7 @@ import (
 	"strings"
 	"testing"
 
+	"pitcard/logbook"
 	"pitcard/weather"
 )
 
@@ -85,19 +86,30 @@ func FuzzParseSlipFields(f *testing.F) {
 		f.Add(s)
 	}
 	f.Fuzz(func(t *testing.T, s string) {
-		if _, err := ParseSession(s); err != nil && !strings.Contains(err.Error(), "session") {
+		if _, err := logbook.ParseSession(s); err != nil && !strings.Contains(err.Error(), "session") {
 			t.Fatalf("session error %q", err)
 		}
-		if d, err := ParseSeconds("rt", s); err != nil && !strings.Contains(err.Error(), "rt") {
+		if d, err := logbook.ParseSeconds("rt", s); err != nil && !strings.Contains(err.Error(), "rt") {
 			t.Fatalf("seconds error %q", err)
-		} else if err == nil && FormatSeconds(d, 3) == "" {
+		} else if err == nil && logbook.FormatSeconds(d, 3) == "" {
 			t.Fatal("empty format")
 		}
-		if _, err := ParseLane(s); err != nil && !strings.Contains(err.Error(), "lane") {
+		if _, err := logbook.ParseLane(s); err != nil && !strings.Contains(err.Error(), "lane") {
 			t.Fatalf("lane error %q", err)
 		}
 		if _, err := ParsePrep(s); err != nil && !strings.Contains(err.Error(), "prep") {
 			t.Fatalf("prep error %q", err)
 		}
 	})
+}
+
+// A track.yaml whose name is typed in another Unicode form than the
+// logbook's (é as one code point, or e and a combining accent) names the
+// same track: ReadTrack keeps the name as logbook.TrackName does.
+func TestTrackYAMLNameUnicodeForms(t *testing.T) {
+	nfc, nfd := "Caf\u00e9 Raceway", "Cafe\u0301 Raceway"
+	trk, err := ReadTrack(strings.NewReader("name: "+nfd+"\nelevation_ft: 900\n"), "track.yaml")
+	if err != nil || trk.Name != logbook.TrackName(nfc) {
+		t.Errorf("track.yaml name %q, logbook's %q (%v)", trk.Name, logbook.TrackName(nfc), err)
+	}
 }

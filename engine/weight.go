@@ -6,6 +6,7 @@ import (
 	"sort"
 	"time"
 
+	"pitcard/logbook"
 	"pitcard/weather"
 )
 
@@ -26,7 +27,7 @@ type weightModel struct {
 	day    weather.DayStart // where one race day ends
 }
 
-func newWeightModel(car Car, passes []Pass, day weather.DayStart) *weightModel {
+func newWeightModel(car Car, passes []logbook.Pass, day weather.DayStart) *weightModel {
 	m := &weightModel{carLb: car.WeightLb, usual: car.WeightLb, start: map[string]float64{}, passes: map[string][]time.Time{}, day: day}
 	type obs struct{ idx, lb float64 }
 	byDay := map[string][]obs{}

@@ -10,7 +10,9 @@ import (
 
 	"github.com/shopspring/decimal"
 
+	"pitcard/bracket"
 	"pitcard/engine"
+	"pitcard/logbook"
 	"pitcard/weather"
 )
 
@@ -115,7 +117,7 @@ type NewPass struct {
 
 // LoggedPass is what AddPass wrote.
 type LoggedPass struct {
-	Pass      engine.Pass
+	Pass      logbook.Pass
 	Count     int    // passes in the logbook after it
 	Source    string // where the conditions came from; "" when none
 	Elevation weather.Length
@@ -178,7 +180,7 @@ func (e *Folder) AddPass(np NewPass, now time.Time) (LoggedPass, error) {
 	if err != nil {
 		return out, err
 	}
-	f := engine.SlipFields{Values: map[string]string{
+	f := logbook.SlipFields{Values: map[string]string{
 		"date": date, "time": clock, "track": track, "session": np.Session, "lane": np.Lane,
 		"dial": np.Dial, "rt": np.RT, "et60": np.ET60, "et330": np.ET330, "et660": np.ET660, "et1000": np.ET1000, "et1320": np.ET1,
 		"mph660": mph660, "mph1320": mph1320, "weight_lb": weight, "notes": np.Notes,
@@ -190,7 +192,7 @@ func (e *Folder) AddPass(np NewPass, now time.Time) (LoggedPass, error) {
 	if np.Session == "" || np.Lane == "" {
 		return out, userErrf("--round and --lane are required (e.g. --round E1 --lane left)")
 	}
-	p, err := engine.ParsePass(f, e.Zone())
+	p, err := logbook.ParsePass(f, e.Zone())
 	if err != nil {
 		return out, err
 	}
@@ -249,11 +251,11 @@ func (e *Folder) AddPass(np NewPass, now time.Time) (LoggedPass, error) {
 			return out, err
 		}
 	}
-	n, kept, err := e.SaveLogbook([]engine.Pass{p})
+	n, kept, err := e.SaveLogbook([]logbook.Pass{p})
 	if err != nil {
 		return out, err
 	}
-	if w := engine.DialWarning(p); w != "" {
+	if w := logbook.DialWarning(p); w != "" {
 		out.Warnings = append(out.Warnings, w)
 	}
 	if kept != nil {
@@ -285,7 +287,7 @@ func nearestReading(log []weather.Reading, t time.Time, tol time.Duration) (weat
 // slip: the reason (a red light, a breakout, the finish) and where the
 // margin came from, the package of reaction time and time over the dial in
 // each lane. The rules are Settle's.
-func DecidedBy(p engine.Pass, dial, rt, et string, s Settings) (string, error) {
+func DecidedBy(p logbook.Pass, dial, rt, et string, s Settings) (string, error) {
 	if dial == "" || rt == "" || et == "" {
 		return "", userErrf("give the other lane's slip whole: --opponent-dial, --opponent-rt and --opponent-et")
 	}
@@ -293,51 +295,51 @@ func DecidedBy(p engine.Pass, dial, rt, et string, s Settings) (string, error) {
 	if !p.Dial.Valid || !p.RT.Valid || !ok {
 		return "", userErrf("what decided the round needs our dial, reaction time and ET too (--dial, --rt, --et1320)")
 	}
-	var them engine.LaneRun
+	var them bracket.LaneRun
 	var err error
 	// The other lane's slip is read and range-checked as ours is.
 	for _, f := range []struct {
 		flag, v string
 		dst     *decimal.Decimal
 		valid   [2]float64
-	}{{"--opponent-dial", dial, &them.Dial, engine.DialRange}, {"--opponent-rt", rt, &them.RT, engine.RTRange}, {"--opponent-et", et, &them.ET, engine.DialRange}} {
-		if *f.dst, err = engine.ParseSlipTime(f.flag, f.v, f.valid); err != nil {
+	}{{"--opponent-dial", dial, &them.Dial, logbook.DialRange}, {"--opponent-rt", rt, &them.RT, logbook.RTRange}, {"--opponent-et", et, &them.ET, logbook.DialRange}} {
+		if *f.dst, err = logbook.ParseSlipTime(f.flag, f.v, f.valid); err != nil {
 			return "", err
 		}
 	}
-	us := engine.LaneRun{Dial: p.Dial.Decimal, RT: p.RT.Decimal, ET: fin}
+	us := bracket.LaneRun{Dial: p.Dial.Decimal, RT: p.RT.Decimal, ET: fin}
 	left, right := us, them
-	if p.Lane == engine.Right {
+	if p.Lane == logbook.Right {
 		left, right = them, us
 	}
-	o, err := engine.Settle(left, right, engine.RaceRules{Tree: s.Tree, RTZero: engine.FromGreen})
+	o, err := bracket.Settle(left, right, bracket.RaceRules{Tree: s.Tree, RTZero: bracket.FromGreen})
 	if err != nil {
 		return "", err
 	}
 	ours, theirs := o.Left, o.Right
-	if p.Lane == engine.Right {
+	if p.Lane == logbook.Right {
 		ours, theirs = o.Right, o.Left
 	}
 	verdict := "You won"
 	switch o.Winner {
 	case "":
 		verdict = "No winner"
-	case engine.Left, engine.Right:
-		if (o.Winner == engine.Right) != (p.Lane == engine.Right) {
+	case logbook.Left, logbook.Right:
+		if (o.Winner == logbook.Right) != (p.Lane == logbook.Right) {
 			verdict = "You lost"
 		}
 	}
-	pkg := func(x engine.LaneResult) string {
-		return fmt.Sprintf("%s reaction, %s over the dial: %s", engine.FormatSeconds(x.Reaction, 3), signedSeconds(x.OverDial), signedSeconds(x.Package))
+	pkg := func(x bracket.LaneResult) string {
+		return fmt.Sprintf("%s reaction, %s over the dial: %s", logbook.FormatSeconds(x.Reaction, 3), signedSeconds(x.OverDial), signedSeconds(x.Package))
 	}
 	return fmt.Sprintf("%s: %s (%s). Packages: yours %s; the other lane's %s.", verdict, o.Reason, o.Explanation, pkg(ours), pkg(theirs)), nil
 }
 
 func signedSeconds(d decimal.Decimal) string {
 	if d.IsNegative() {
-		return engine.FormatSeconds(d, 3)
+		return logbook.FormatSeconds(d, 3)
 	}
-	return "+" + engine.FormatSeconds(d, 3)
+	return "+" + logbook.FormatSeconds(d, 3)
 }
 
 // TrapMPH reads a trap speed as typed (108.2mph, 174.1km/h, or bare in the

@@ -4,11 +4,12 @@ import (
 	"io/fs"
 	"os"
 	"path/filepath"
-	"pitcard/engine"
 	"strings"
 	"testing"
 	"testing/fstest"
 	"time"
+
+	"pitcard/logbook"
 )
 
 func TestDemoOverlay(t *testing.T) {
@@ -55,7 +56,7 @@ func TestRoundNotesPersistAndReachTheCard(t *testing.T) {
 	}
 	now := time.Date(2026, 6, 13, 20, 30, 0, 0, time.Local) // the demo day's last reading
 	day := now.Format("2006-01-02")
-	ses := engine.Session{Kind: engine.Elimination, N: 3}
+	ses := logbook.Session{Kind: logbook.Elimination, N: 3}
 	if err := e.SetOpponentDial(day, ses, "11.62", now); err != nil {
 		t.Fatal(err)
 	}
@@ -79,7 +80,7 @@ func TestRoundNotesPersistAndReachTheCard(t *testing.T) {
 	if len(n.Ticked) != 2 || !n.Ticked["Fuel"].Equal(now.Truncate(time.Second)) || !n.Ticked["Belts"].Equal(later.Truncate(time.Second)) {
 		t.Errorf("ticks %v: Fuel keeps its first time, Belts is new, the unticked one is gone", n.Ticked)
 	}
-	other, _ := e.RoundNotes(day, engine.Session{Kind: engine.Elimination, N: 4})
+	other, _ := e.RoundNotes(day, logbook.Session{Kind: logbook.Elimination, N: 4})
 	if other.OpponentDial.Valid || len(other.Ticked) > 0 {
 		t.Errorf("another round's notes leaked: %+v", other)
 	}

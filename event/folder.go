@@ -15,8 +15,11 @@ import (
 
 	"github.com/shopspring/decimal"
 
+	"pitcard/bracket"
 	"pitcard/engine"
 	"pitcard/internal/safefile"
+	"pitcard/internal/text"
+	"pitcard/logbook"
 	"pitcard/prep"
 	"pitcard/scripts"
 	"pitcard/weather"
@@ -41,8 +44,8 @@ type Settings struct {
 	Units         weather.Units
 	DialStep      decimal.Decimal
 	BreakoutRisk  float64
-	Tree          engine.Tree
-	RTZero        engine.RTZero
+	Tree          bracket.Tree
+	RTZero        bracket.RTZero
 	MaxAdjust     decimal.Decimal
 	RuleLimits    scripts.Limits
 	MaxReadingAge time.Duration // a reading older than this is flagged on the card
@@ -56,8 +59,8 @@ type Settings struct {
 	OppMargin, OppMarginSD, OppRTMean, OppRTSD, RTMean, RTSD float64
 	PostBestForWin                                           bool
 	// AbortWords mark a pass in the logbook as not the car's time:
-	// engine.DefaultAbortWords and the crew's own (abort_words).
-	AbortWords engine.AbortWords
+	// logbook.DefaultAbortWords and the crew's own (abort_words).
+	AbortWords logbook.AbortWords
 }
 
 // Folder is an opened event folder (or the demo).
@@ -155,19 +158,19 @@ func (e *Folder) Car() (engine.Car, error) {
 
 // LogbookFile reads the folder's logbook.csv (none yet: an empty logbook),
 // keeping its bad rows aside. Its name is how messages call it.
-func (e *Folder) LogbookFile() (*engine.Logbook, string, error) { return e.readLogbook(0) }
+func (e *Folder) LogbookFile() (*logbook.Logbook, string, error) { return e.readLogbook(0) }
 
 // readLogbook reads the logbook keeping its latest keep passes (0: all).
-func (e *Folder) readLogbook(keep int) (*engine.Logbook, string, error) {
+func (e *Folder) readLogbook(keep int) (*logbook.Logbook, string, error) {
 	f, name, err := e.OpenFile(LogbookFile, e.LogbookPath)
 	if errors.Is(err, fs.ErrNotExist) {
-		return &engine.Logbook{}, name, nil
+		return &logbook.Logbook{}, name, nil
 	}
 	if err != nil {
 		return nil, name, err
 	}
 	defer f.Close()
-	lb, err := engine.ReadLogbookRecent(f, name, e.Zone(), keep)
+	lb, err := logbook.ReadRecent(f, name, e.Zone(), keep)
 	return lb, name, err
 }
 
@@ -178,14 +181,14 @@ const RecentPasses = 5000
 
 // RecentLogbook is Logbook for the commands that only predict: the last
 // RecentPasses good passes.
-func (e *Folder) RecentLogbook() ([]engine.Pass, error) { return e.readPasses(RecentPasses) }
+func (e *Folder) RecentLogbook() ([]logbook.Pass, error) { return e.readPasses(RecentPasses) }
 
 // Logbook is the folder's good passes. Rows it could not read come back as
 // a *LeftOutRows error beside the passes: the caller uses the passes and
 // says what was left out.
-func (e *Folder) Logbook() ([]engine.Pass, error) { return e.readPasses(0) }
+func (e *Folder) Logbook() ([]logbook.Pass, error) { return e.readPasses(0) }
 
-func (e *Folder) readPasses(keep int) ([]engine.Pass, error) {
+func (e *Folder) readPasses(keep int) ([]logbook.Pass, error) {
 	lb, name, err := e.readLogbook(keep)
 	if err != nil {
 		return nil, err
@@ -216,13 +219,13 @@ func (e *Folder) BackupOf(name string) string {
 type LeftOutRows struct {
 	file string
 	bak  string // the previous version, when there is one
-	rows engine.RowErrors
+	rows logbook.RowErrors
 	read int // the good rows
 }
 
 func (l *LeftOutRows) Error() string {
 	var b strings.Builder
-	fmt.Fprintf(&b, "%s: %s left out (the other %s are used):", l.file, engine.Plural(len(l.rows), "row"), engine.Plural(l.read, "pass"))
+	fmt.Fprintf(&b, "%s: %s left out (the other %s are used):", l.file, text.Plural(len(l.rows), "row"), text.Plural(l.read, "pass"))
 	for i, r := range l.rows {
 		if i == 10 {
 			fmt.Fprintf(&b, "\n  ... and %d more", len(l.rows)-i)
@@ -399,7 +402,7 @@ func SortReadings(log []weather.Reading) {
 // nothing, duplicates refused. Rows of the logbook pitcard cannot read are
 // written back as they were (and returned as kept, to be said); the crew's
 // own columns, the logbook's and those of extra, keep their values.
-func (e *Folder) SaveLogbook(add []engine.Pass, extra ...string) (n int, kept error, err error) {
+func (e *Folder) SaveLogbook(add []logbook.Pass, extra ...string) (n int, kept error, err error) {
 	path := e.Path(LogbookFile)
 	unlock, err := safefile.Lock(path)
 	if err != nil {
@@ -416,11 +419,11 @@ func (e *Folder) SaveLogbook(add []engine.Pass, extra ...string) (n int, kept er
 			return 0, nil, userErrf("%v\nNothing was written: a row that is not even valid CSV (an unmatched quote) could not be kept through a rewrite; fix it first", kept)
 		}
 	}
-	seen := map[string]engine.Pass{}
+	seen := map[string]logbook.Pass{}
 	for _, p := range lb.Passes {
 		seen[p.Key()] = p
 	}
-	var dups engine.RowErrors
+	var dups logbook.RowErrors
 	for _, p := range add {
 		if o, ok := seen[p.Key()]; ok {
 			dups = append(dups, DuplicateOf(p, o, name))
@@ -430,7 +433,7 @@ func (e *Folder) SaveLogbook(add []engine.Pass, extra ...string) (n int, kept er
 		return 0, nil, dups
 	}
 	lb.Passes = append(lb.Passes, add...)
-	engine.SortPasses(lb.Passes)
+	logbook.SortPasses(lb.Passes)
 	for _, x := range extra {
 		if !slices.Contains(lb.Extra, x) {
 			lb.Extra = append(lb.Extra, x)
@@ -442,12 +445,12 @@ func (e *Folder) SaveLogbook(add []engine.Pass, extra ...string) (n int, kept er
 	return len(lb.Passes), kept, nil
 }
 
-// DuplicateOf says that p is already in the logbook as o.
-func DuplicateOf(p, o engine.Pass, logbook string) *weather.InputError {
+// DuplicateOf says that p is already in the logbook file named file as o.
+func DuplicateOf(p, o logbook.Pass, file string) *weather.InputError {
 	where := "this pass"
 	if p.Line > 0 {
 		where = fmt.Sprintf("line %d", p.Line)
 	}
 	return &weather.InputError{Field: "pass", Value: p.Time.Format("2006-01-02 15:04") + " " + string(p.Lane),
-		Reason: fmt.Sprintf("(%s) is already in %s at line %d: the same pass entered twice", where, logbook, o.Line)}
+		Reason: fmt.Sprintf("(%s) is already in %s at line %d: the same pass entered twice", where, file, o.Line)}
 }

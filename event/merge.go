@@ -11,8 +11,9 @@ import (
 	"time"
 
 	"pitcard/colmap"
-	"pitcard/engine"
 	"pitcard/internal/safefile"
+	"pitcard/internal/text"
+	"pitcard/logbook"
 	"pitcard/weather"
 )
 
@@ -89,18 +90,18 @@ func OwnLayout(data []byte, kind colmap.Kind) bool {
 		_, err := weather.ReadLog(bytes.NewReader(head), "", 0, time.Local)
 		return err == nil
 	}
-	_, err := engine.ReadLogbookFile(bytes.NewReader(head), "", time.Local)
+	_, err := logbook.ReadFile(bytes.NewReader(head), "", time.Local)
 	return err == nil
 }
 
 // SourcePasses reads a source file's passes: every row checked; bad rows
 // come back in the logbook's Bad, at the file's own lines.
-func (s Source) Passes() (*engine.Logbook, error) {
+func (s Source) Passes() (*logbook.Logbook, error) {
 	data, tr, err := s.read()
 	if err != nil {
 		return nil, err
 	}
-	lb, err := engine.ReadLogbookFile(bytes.NewReader(data), s.Path, time.Local)
+	lb, err := logbook.ReadFile(bytes.NewReader(data), s.Path, time.Local)
 	if err != nil {
 		if tr != nil {
 			return nil, tr.Remap(err)
@@ -149,7 +150,7 @@ type Conflicts struct {
 
 func (c *Conflicts) Error() string {
 	return fmt.Sprintf("%s and %s disagree on %s (nothing was written; fix one copy, or leave the entry out of the import):\n%s",
-		c.Ours, c.TheirsIn, engine.Plural(len(c.List), "entry"), c.Entries())
+		c.Ours, c.TheirsIn, text.Plural(len(c.List), "entry"), c.Entries())
 }
 
 // Entries are the conflicts, each with the columns that differ and both rows.
@@ -172,41 +173,41 @@ func (c *Conflicts) BadInput() bool { return true }
 
 // PassMerge is what another copy's passes hold against ours.
 type PassMerge struct {
-	New       []engine.Pass // theirs, not in ours
-	Same      int           // theirs, already in ours exactly
-	Conflicts []Conflict    // theirs, in ours with another value in some field
+	New       []logbook.Pass // theirs, not in ours
+	Same      int            // theirs, already in ours exactly
+	Conflicts []Conflict     // theirs, in ours with another value in some field
 	// Logged are theirs that ours has (alike or not), each with ours.
-	Logged [][2]engine.Pass
+	Logged [][2]logbook.Pass
 }
 
 // MergePasses compares other's passes with ours, by pass (date, time, track,
 // lane) and then by every field.
-func MergePasses(ours, other []engine.Pass) PassMerge {
+func MergePasses(ours, other []logbook.Pass) PassMerge {
 	var m PassMerge
 	if len(ours) == 0 { // a first import: the file's own duplicates are its reader's to find
 		m.New = other
 		return m
 	}
-	byKey := make(map[string]engine.Pass, len(ours))
+	byKey := make(map[string]logbook.Pass, len(ours))
 	for _, p := range ours {
 		byKey[p.Key()] = p
 	}
 	for _, p := range other {
 		o, ok := byKey[p.Key()]
 		if ok {
-			m.Logged = append(m.Logged, [2]engine.Pass{p, o})
+			m.Logged = append(m.Logged, [2]logbook.Pass{p, o})
 		}
 		switch {
 		case !ok:
 			m.New = append(m.New, p)
 			byKey[p.Key()] = p
-		case slices.Equal(engine.PassRecord(o), engine.PassRecord(p)):
+		case slices.Equal(logbook.PassRecord(o), logbook.PassRecord(p)):
 			m.Same++
 		default:
 			m.Conflicts = append(m.Conflicts, Conflict{
 				What:    fmt.Sprintf("pass %s %s lane", p.Time.Format("2006-01-02 15:04"), p.Lane),
-				Differs: differs(engine.LogbookColumns, engine.PassRecord(o), engine.PassRecord(p)),
-				Ours:    strings.Join(engine.PassRecord(o), ","), Theirs: strings.Join(engine.PassRecord(p), ","),
+				Differs: differs(logbook.Columns, logbook.PassRecord(o), logbook.PassRecord(p)),
+				Ours:    strings.Join(logbook.PassRecord(o), ","), Theirs: strings.Join(logbook.PassRecord(p), ","),
 				OursLine: o.Line, TheirsLine: p.Line})
 		}
 	}
@@ -273,7 +274,7 @@ func (e *Folder) ImportReadings(add []weather.Reading, from string, elev weather
 	}
 	if m.Same > 0 && !skipExisting {
 		return 0, 0, 0, userErrf("%s has %s already in %s (the same minute): give --skip-existing to leave them out; nothing was written",
-			from, engine.Plural(m.Same, "reading"), e.Name(WeatherFile))
+			from, text.Plural(m.Same, "reading"), e.Name(WeatherFile))
 	}
 	log = append(log, m.New...)
 	SortReadings(log)

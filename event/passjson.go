@@ -10,6 +10,7 @@ import (
 	"github.com/shopspring/decimal"
 
 	"pitcard/engine"
+	"pitcard/logbook"
 	"pitcard/weather"
 )
 
@@ -55,7 +56,7 @@ type PassTrapJSON struct {
 // ElevationFor is the elevation of the track a pass ran at: this folder's
 // track, or sea level for another (conditions are station pressure, so the
 // density needs no elevation; only altimeter conversions would).
-func ElevationFor(p engine.Pass, trk engine.Track) weather.Length {
+func ElevationFor(p logbook.Pass, trk engine.Track) weather.Length {
 	if strings.EqualFold(p.Track, trk.Name) {
 		return trk.Elevation()
 	}
@@ -67,7 +68,7 @@ func optSec(d decimal.NullDecimal) *string {
 	if !d.Valid {
 		return nil
 	}
-	s := engine.FormatSeconds(d.Decimal, 0)
+	s := logbook.FormatSeconds(d.Decimal, 0)
 	return &s
 }
 
@@ -82,13 +83,13 @@ func OptFloat(v float64, ok bool, dec int) *float64 {
 }
 
 // PassAsJSON is p as JSON; trk is the folder's track (for the elevation).
-func PassAsJSON(p engine.Pass, trk engine.Track) PassJSON {
+func PassAsJSON(p logbook.Pass, trk engine.Track) PassJSON {
 	j := PassJSON{Time: p.Time.Format(time.RFC3339), Track: p.Track, Session: p.Session.String(), Lane: string(p.Lane),
 		Dial: optSec(p.Dial), RT: optSec(p.RT), Timers: []PassTimerJSON{}, Traps: []PassTrapJSON{},
 		ET: map[string]string{}, MPH: map[string]string{}, Notes: p.Notes}
-	for i, ft := range engine.Timers {
+	for i, ft := range logbook.Timers {
 		if p.ET[i].Valid {
-			et := engine.FormatSeconds(p.ET[i].Decimal, 0)
+			et := logbook.FormatSeconds(p.ET[i].Decimal, 0)
 			j.Timers = append(j.Timers, PassTimerJSON{ft, json.Number(et)})
 			j.ET[fmt.Sprintf("%.0f", ft)] = et
 		}
@@ -98,7 +99,7 @@ func PassAsJSON(p engine.Pass, trk engine.Track) PassJSON {
 		mph decimal.NullDecimal
 	}{{660, p.MPH660}, {1320, p.MPH1320}} {
 		if tr.mph.Valid {
-			mph := engine.FormatSeconds(tr.mph.Decimal, 0)
+			mph := logbook.FormatSeconds(tr.mph.Decimal, 0)
 			j.Traps = append(j.Traps, PassTrapJSON{tr.ft, json.Number(mph)})
 			j.MPH[fmt.Sprintf("%.0f", tr.ft)] = mph
 		}

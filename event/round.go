@@ -9,7 +9,10 @@ import (
 
 	"github.com/shopspring/decimal"
 
+	"pitcard/bracket"
 	"pitcard/engine"
+	"pitcard/internal/stats"
+	"pitcard/logbook"
 	"pitcard/prep"
 	"pitcard/scripts"
 	"pitcard/weather"
@@ -215,16 +218,16 @@ func Seconds(flag, v string, lo, hi float64) (float64, error) {
 
 // build turns the flags, the settings and the logbook into the other lane
 // and our driver's reaction times; nil when the opponent's dial is unknown.
-func (o *OpponentFields) Build(s Settings, dial decimal.NullDecimal, passes []engine.Pass) (*engine.Opponent, engine.RTModel, error) {
+func (o *OpponentFields) Build(s Settings, dial decimal.NullDecimal, passes []logbook.Pass) (*bracket.Opponent, bracket.RTModel, error) {
 	var logged []float64 // our reaction times, most recent first
 	for i := len(passes) - 1; i >= 0; i-- {
 		if p := passes[i]; p.RT.Valid && !s.AbortWords.Aborted(p.Notes) {
 			logged = append(logged, p.RT.Decimal.InexactFloat64())
 		}
 	}
-	us := engine.NewRTModel(logged, s.RTMean, s.RTSD)
+	us := bracket.NewRTModel(logged, s.RTMean, s.RTSD)
 	if o.OurRTMean != "" || o.OurRTSD != "" {
-		us = engine.RTModel{Mean: s.RTMean, SD: s.RTSD}
+		us = bracket.RTModel{Mean: s.RTMean, SD: s.RTSD}
 		var err error
 		if o.OurRTMean != "" {
 			if us.Mean, err = Seconds("--rt-mean", o.OurRTMean, -1, 2); err != nil {
@@ -240,7 +243,7 @@ func (o *OpponentFields) Build(s Settings, dial decimal.NullDecimal, passes []en
 	if !dial.Valid {
 		return nil, us, nil
 	}
-	opp := &engine.Opponent{Dial: dial.Decimal, Margin: s.OppMargin, MarginSD: s.OppMarginSD, RT: engine.RTModel{Mean: s.OppRTMean, SD: s.OppRTSD}}
+	opp := &bracket.Opponent{Dial: dial.Decimal, Margin: s.OppMargin, MarginSD: s.OppMarginSD, RT: bracket.RTModel{Mean: s.OppRTMean, SD: s.OppRTSD}}
 	list := func(flag string, vs []string, lo, hi float64) ([]float64, error) {
 		var out []float64
 		for _, v := range vs {
@@ -252,7 +255,7 @@ func (o *OpponentFields) Build(s Settings, dial decimal.NullDecimal, passes []en
 		}
 		return out, nil
 	}
-	ets, err := list("--opponent-et", o.ETs, engine.DialRange[0], engine.DialRange[1])
+	ets, err := list("--opponent-et", o.ETs, logbook.DialRange[0], logbook.DialRange[1])
 	if err != nil {
 		return nil, us, err
 	}
@@ -261,20 +264,20 @@ func (o *OpponentFields) Build(s Settings, dial decimal.NullDecimal, passes []en
 		for i := range ets {
 			ets[i] -= d
 		}
-		m, sd := engine.MeanSD(ets)
+		m, sd := stats.MeanSD(ets)
 		opp.Margin = m
 		if len(ets) >= 3 {
 			opp.MarginSD = sd
 		}
 	}
-	rts, err := list("--opponent-rt", o.RTs, engine.RTRange[0], engine.RTRange[1])
+	rts, err := list("--opponent-rt", o.RTs, logbook.RTRange[0], logbook.RTRange[1])
 	if err != nil {
 		return nil, us, err
 	}
 	if len(rts) > 0 {
-		opp.RT = engine.NewRTModel(rts, opp.RT.Mean, opp.RT.SD)
-		if len(rts) < engine.MinRTSamples {
-			m, sd := engine.MeanSD(rts)
+		opp.RT = bracket.NewRTModel(rts, opp.RT.Mean, opp.RT.SD)
+		if len(rts) < bracket.MinRTSamples {
+			m, sd := stats.MeanSD(rts)
 			opp.RT.Mean = m
 			if len(rts) >= 3 {
 				opp.RT.SD = sd
@@ -379,7 +382,7 @@ func (e *Folder) GatherRound(r RoundRequest, now time.Time) (prep.Input, []strin
 	haveSlot := false
 	switch {
 	case r.Round != "":
-		ses, err := engine.ParseSession(r.Round)
+		ses, err := logbook.ParseSession(r.Round)
 		if err != nil {
 			return in, nil, FlagErr(err, "--round")
 		}
@@ -422,7 +425,7 @@ func (e *Folder) GatherRound(r RoundRequest, now time.Time) (prep.Input, []strin
 	// The lane.
 	lane := slot.Lane
 	if r.Lane != "" {
-		if lane, err = engine.ParseLane(r.Lane); err != nil {
+		if lane, err = logbook.ParseLane(r.Lane); err != nil {
 			return in, nil, FlagErr(err, "--lane")
 		}
 	}
@@ -438,14 +441,14 @@ func (e *Folder) GatherRound(r RoundRequest, now time.Time) (prep.Input, []strin
 	opp := notes.OpponentDial
 	if opp.Valid && r.OpponentDial == "" {
 		warnings = append(warnings, fmt.Sprintf("the other lane's dial %s is the one noted for %s in %s (from the pit page); --opponent-dial replaces it",
-			engine.FormatSeconds(opp.Decimal, 2), slot.Session, RoundsFile))
+			logbook.FormatSeconds(opp.Decimal, 2), slot.Session, RoundsFile))
 	}
 	if r.OpponentDial != "" {
-		d, err := engine.ParseSeconds("--opponent-dial", r.OpponentDial)
+		d, err := logbook.ParseSeconds("--opponent-dial", r.OpponentDial)
 		if err != nil {
 			return in, nil, err
 		}
-		if err := RangeErr("--opponent-dial", d, engine.DialRange); err != nil {
+		if err := RangeErr("--opponent-dial", d, logbook.DialRange); err != nil {
 			return in, nil, err
 		}
 		opp = decimal.NewNullDecimal(d)
@@ -513,7 +516,7 @@ func (e *Folder) GatherRound(r RoundRequest, now time.Time) (prep.Input, []strin
 	}
 	weight := 0.0
 	if r.Weight != "" {
-		if weight, err = engine.ParseWeightLb("--weight", r.Weight, e.Settings.Units.Weight); err != nil {
+		if weight, err = logbook.ParseWeightLb("--weight", r.Weight, e.Settings.Units.Weight); err != nil {
 			return in, nil, err
 		}
 	}

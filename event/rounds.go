@@ -13,8 +13,8 @@ import (
 
 	"github.com/shopspring/decimal"
 
-	"pitcard/engine"
 	"pitcard/internal/safefile"
+	"pitcard/logbook"
 	"pitcard/weather"
 )
 
@@ -87,7 +87,7 @@ func (e *Folder) readRounds() ([]roundEntry, error) {
 }
 
 // RoundNotes are the notes of one round: session ses on date (YYYY-MM-DD).
-func (e *Folder) RoundNotes(date string, ses engine.Session) (RoundNotes, error) {
+func (e *Folder) RoundNotes(date string, ses logbook.Session) (RoundNotes, error) {
 	n := RoundNotes{Ticked: map[string]time.Time{}}
 	entries, err := e.readRounds()
 	if err != nil {
@@ -110,14 +110,14 @@ func (e *Folder) RoundNotes(date string, ses engine.Session) (RoundNotes, error)
 }
 
 // SetOpponentDial notes the other lane's dial for a round ("" clears it).
-func (e *Folder) SetOpponentDial(date string, ses engine.Session, dial string, now time.Time) error {
+func (e *Folder) SetOpponentDial(date string, ses logbook.Session, dial string, now time.Time) error {
 	value := ""
 	if strings.TrimSpace(dial) != "" {
-		d, err := engine.ParseSeconds("--opponent-dial", dial)
+		d, err := logbook.ParseSeconds("--opponent-dial", dial)
 		if err != nil {
 			return err
 		}
-		if err := RangeErr("--opponent-dial", d, engine.DialRange); err != nil {
+		if err := RangeErr("--opponent-dial", d, logbook.DialRange); err != nil {
 			return err
 		}
 		value = d.String()
@@ -135,7 +135,7 @@ func (e *Folder) SetOpponentDial(date string, ses engine.Session, dial string, n
 
 // SetTicks makes the round's ticked checklist items exactly ticked; an item
 // already ticked keeps the time it was ticked.
-func (e *Folder) SetTicks(date string, ses engine.Session, ticked []string, now time.Time) error {
+func (e *Folder) SetTicks(date string, ses logbook.Session, ticked []string, now time.Time) error {
 	for _, t := range ticked {
 		if len(t) > 200 {
 			return &weather.InputError{Field: "checklist item", Value: t, Reason: "is longer than 200 characters"}

@@ -6,7 +6,7 @@ import (
 	"strings"
 	"testing"
 
-	"pitcard/engine"
+	"pitcard/logbook"
 )
 
 // FuzzReadRounds: any rounds.csv is read or refused with the file named,
@@ -36,7 +36,7 @@ func FuzzReadRounds(f *testing.F) {
 		if err != nil || len(again) != len(entries) {
 			t.Fatalf("rewritten rounds.csv reads %d entries (%v), was %d", len(again), err, len(entries))
 		}
-		_, _ = e.RoundNotes("2026-06-13", engine.Session{Kind: engine.Elimination, N: 3})
+		_, _ = e.RoundNotes("2026-06-13", logbook.Session{Kind: logbook.Elimination, N: 3})
 	})
 }
 

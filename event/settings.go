@@ -15,8 +15,10 @@ import (
 	"github.com/spf13/viper"
 	"go.yaml.in/yaml/v3"
 
+	"pitcard/bracket"
 	"pitcard/engine"
 	"pitcard/internal/yamlfile"
+	"pitcard/logbook"
 	"pitcard/scripts"
 	"pitcard/weather"
 )
@@ -50,7 +52,7 @@ var SettingDefaults = map[string]any{
 	// breakout-rule (the slowest dial within breakout_risk) or best-for-win
 	"post_dial": "breakout-rule",
 	// Words in a pass's notes that mark it as not the car's time, added to
-	// engine.DefaultAbortWords (a list, or one string of comma-separated words).
+	// logbook.DefaultAbortWords (a list, or one string of comma-separated words).
 	"abort_words": []string{},
 }
 
@@ -203,20 +205,20 @@ func Open(o OpenOptions) (*Folder, error) {
 		return nil, settingErr("dial_step", &weather.InputError{Field: "dial_step", Value: v.GetString("dial_step"), Reason: "is outside 0.001..0.1 s"})
 	}
 	s.DialStep = step
-	riskWords := fmt.Sprintf("%g..%g, a fraction: 0.10 accepts a 10 %% breakout chance", engine.RiskRange[0], engine.RiskRange[1])
+	riskWords := fmt.Sprintf("%g..%g, a fraction: 0.10 accepts a 10 %% breakout chance", bracket.RiskRange[0], bracket.RiskRange[1])
 	risk, err := settingNumber("breakout_risk", v.GetString("breakout_risk"), riskWords)
 	if err != nil {
 		return nil, settingErr("breakout_risk", err)
 	}
 	s.BreakoutRisk = risk.InexactFloat64()
-	if r := s.BreakoutRisk; !(r >= engine.RiskRange[0] && r <= engine.RiskRange[1]) {
+	if r := s.BreakoutRisk; !(r >= bracket.RiskRange[0] && r <= bracket.RiskRange[1]) {
 		return nil, settingErr("breakout_risk", &weather.InputError{Field: "breakout_risk", Value: v.GetString("breakout_risk"),
 			Reason: "is outside " + strings.Replace(riskWords, ", ", " (", 1) + ")"})
 	}
-	if s.Tree, err = engine.ParseTree(v.GetString("tree")); err != nil {
+	if s.Tree, err = bracket.ParseTree(v.GetString("tree")); err != nil {
 		return nil, settingErr("tree", err)
 	}
-	if s.RTZero, err = engine.ParseRTZero(v.GetString("rt_zero")); err != nil {
+	if s.RTZero, err = bracket.ParseRTZero(v.GetString("rt_zero")); err != nil {
 		return nil, settingErr("rt_zero", err)
 	}
 	adj, err := settingNumber("max_rule_adjust", v.GetString("max_rule_adjust"), "0..1 s")
@@ -296,7 +298,7 @@ func Open(o OpenOptions) (*Folder, error) {
 
 // abortWords reads the setting abort_words: a YAML list of words, or (from
 // the environment or a flag) one string of comma-separated words.
-func abortWords(v any) (engine.AbortWords, error) {
+func abortWords(v any) (logbook.AbortWords, error) {
 	var extra []string
 	switch x := v.(type) {
 	case nil:
@@ -315,7 +317,7 @@ func abortWords(v any) (engine.AbortWords, error) {
 	default:
 		return nil, &weather.InputError{Field: "abort_words", Value: fmt.Sprint(v), Reason: "is not a list of words (e.g. [chute early, lost fire])"}
 	}
-	return engine.DefaultAbortWords.With(extra), nil
+	return logbook.DefaultAbortWords.With(extra), nil
 }
 
 // listSettings are the settings written as a YAML list.

@@ -15,8 +15,8 @@ import (
 
 	"github.com/chromedp/chromedp"
 
-	"pitcard/engine"
 	"pitcard/event"
+	"pitcard/logbook"
 )
 
 // browser starts headless Chromium at a phone's size, or skips (fails on
@@ -245,7 +245,7 @@ func TestThePitPageOnAPhone(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if err := e.SetTicks("2026-06-13", engine.Session{Kind: engine.Elimination, N: 4}, []string{"Tire pressures set"}, f.srv.cfg.Now()); err != nil {
+	if err := e.SetTicks("2026-06-13", logbook.Session{Kind: logbook.Elimination, N: 4}, []string{"Tire pressures set"}, f.srv.cfg.Now()); err != nil {
 		t.Fatal(err)
 	}
 	// The page reloads itself: ask from outside, across the reload.

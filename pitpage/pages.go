@@ -11,8 +11,9 @@ import (
 	"strings"
 	"time"
 
-	"pitcard/engine"
 	"pitcard/event"
+	words "pitcard/internal/text"
+	"pitcard/logbook"
 	"pitcard/prep"
 	"pitcard/scripts"
 	"pitcard/weather"
@@ -123,7 +124,7 @@ func (s *Server) cardPage(q *request) {
 	}
 	in := c.Input
 	p.Round, p.Day = in.Session.String(), in.Call.Format(weather.DateLayout)
-	p.Elimination = in.Session.Kind == engine.Elimination
+	p.Elimination = in.Session.Kind == logbook.Elimination
 	p.Title = c.Title
 	csrf := ""
 	if q.role == Crew {
@@ -136,7 +137,7 @@ func (s *Server) cardPage(q *request) {
 	}
 	p.Card = template.HTML(body.String())
 	if in.OpponentDial.Valid {
-		p.OppDial = engine.FormatSeconds(in.OpponentDial.Decimal, 2)
+		p.OppDial = logbook.FormatSeconds(in.OpponentDial.Decimal, 2)
 	}
 	f := text("opponent-dial", "Other lane's dial", "s", "11.62")
 	f.Value, f.Help = p.OppDial, "As posted on its window; blank clears it. The card then shows the chance to win for each dial."
@@ -292,7 +293,7 @@ func (s *Server) slipDefaults(q *request, round string) ([]field, string) {
 	}
 	in := c.Input
 	set := map[string]string{"session": in.Session.String(), "lane": string(in.Lane)}
-	if c.HasFinal && in.Session.Kind == engine.Elimination {
+	if c.HasFinal && in.Session.Kind == logbook.Elimination {
 		set["dial"] = prep.DialText(c.FinalDial, in.Settings.DialStep)
 	}
 	if in.OpponentDial.Valid {
@@ -354,9 +355,9 @@ func (s *Server) postSlip(q *request) {
 	}
 	pass := lp.Pass
 	et, ft, _ := pass.Finish()
-	res := slipResult{at: pass.Time, short: fmt.Sprintf("%s, %s lane, %s s", pass.Session.Long(), pass.Lane, engine.FormatSeconds(et, 3)), logged: fmt.Sprintf("Logged %s, %s lane, at %s: %s s at %.0f ft (%s in the logbook).", pass.Session.Long(), pass.Lane,
-		pass.Time.Format("15:04"), engine.FormatSeconds(et, 3), ft, engine.Plural(lp.Count, "pass"))}
-	s.logf("slip %s %s lane added by the crew from %s: %s s", pass.Session, pass.Lane, q.r.RemoteAddr, engine.FormatSeconds(et, 3))
+	res := slipResult{at: pass.Time, short: fmt.Sprintf("%s, %s lane, %s s", pass.Session.Long(), pass.Lane, logbook.FormatSeconds(et, 3)), logged: fmt.Sprintf("Logged %s, %s lane, at %s: %s s at %.0f ft (%s in the logbook).", pass.Session.Long(), pass.Lane,
+		pass.Time.Format("15:04"), logbook.FormatSeconds(et, 3), ft, words.Plural(lp.Count, "pass"))}
+	s.logf("slip %s %s lane added by the crew from %s: %s s", pass.Session, pass.Lane, q.r.RemoteAddr, logbook.FormatSeconds(et, 3))
 	if lp.Source != "" {
 		res.said = append(res.said, "Conditions from "+lp.Source+".")
 	}
@@ -389,8 +390,8 @@ func (s *Server) slipDone(q *request, id string) {
 }
 
 // roundOf reads the round and day a checklist or dial form names.
-func roundOf(v func(string) string) (engine.Session, string, error) {
-	ses, err := engine.ParseSession(v("round"))
+func roundOf(v func(string) string) (logbook.Session, string, error) {
+	ses, err := logbook.ParseSession(v("round"))
 	if err != nil {
 		return ses, "", err
 	}
@@ -426,7 +427,7 @@ func (s *Server) postChecklist(q *request) {
 	s.logf("checklist of %s saved by the crew from %s: %d ticked", ses, q.r.RemoteAddr, len(q.r.PostForm["tick"]))
 	if script {
 		answerJSON(q.w, http.StatusOK, map[string]string{"stamp": stamp(q.folder),
-			"saved": fmt.Sprintf("The checklist is saved: %s ticked.", engine.Plural(len(q.r.PostForm["tick"]), "item"))})
+			"saved": fmt.Sprintf("The checklist is saved: %s ticked.", words.Plural(len(q.r.PostForm["tick"]), "item"))})
 		return
 	}
 	http.Redirect(q.w, q.r, "/?saved=checklist"+roundParam(ses.String())+"#checklist", http.StatusSeeOther)
@@ -441,7 +442,7 @@ func answerJSON(w http.ResponseWriter, status int, v map[string]string) {
 // roundsItems checks that ticked are items to tick of ses's card, and day
 // its day: the form offers nothing else, so anything else was not sent by
 // the page.
-func (s *Server) roundsItems(q *request, ses engine.Session, day string, ticked []string) error {
+func (s *Server) roundsItems(q *request, ses logbook.Session, day string, ticked []string) error {
 	c, _, err := s.gather(q, ses.String())
 	if err != nil {
 		return fmt.Errorf("%s has no card to tick: %w", ses.Long(), err)
@@ -505,7 +506,7 @@ func (s *Server) passesPage(q *request) {
 	p.Round = in.Session.String()
 	p.Refresh, p.Stamp = true, stamp(q.folder)
 	dist := in.Car.DistanceFt
-	t := listTable{Title: fmt.Sprintf("%s, %s: predicted against actual", prep.OrDash(in.Track.Name), in.Call.Format("Mon 2006-01-02")),
+	t := listTable{Title: fmt.Sprintf("%s, %s: predicted against actual", words.OrDash(in.Track.Name), in.Call.Format("Mon 2006-01-02")),
 		Header: []string{"Pass", "Lane", "Predicted", "Ran", "Off by"}}
 	for _, l := range c.Record {
 		pred, off := "—", "—"
@@ -555,7 +556,7 @@ func (s *Server) weatherPage(q *request) {
 	}
 	start := q.folder.Settings.DayStart // the latest reading's race day, past midnight included
 	day := start.Key(log[len(log)-1].Time)
-	t := listTable{Title: fmt.Sprintf("%s, %s", prep.OrDash(trk.Name), day), Header: []string{"Time", "Air", "Baro", "RH", "Track", "DA"}}
+	t := listTable{Title: fmt.Sprintf("%s, %s", words.OrDash(trk.Name), day), Header: []string{"Time", "Air", "Baro", "RH", "Track", "DA"}}
 	var today []weather.Reading
 	for _, r := range log {
 		if start.Key(r.Time) != day {
@@ -581,7 +582,7 @@ func (s *Server) weatherPage(q *request) {
 		if f, err := weather.ForecastAt(today, call, elev); err == nil {
 			trend := fmt.Sprintf("At the %s call (%s): density altitude %s ± %s, %s.", call.Format("15:04"), c.Input.Session.Long(),
 				f.Air.DensityAltitude.FormatDensityAltitude(u.Length), f.DAError.Format(u.Length), f.Reading.Temp.Format(u.Temp, 1))
-			p.Said = append(p.Said, trend, prep.UpperFirst(strings.Join(f.Notes, "; "))+".")
+			p.Said = append(p.Said, trend, words.UpperFirst(strings.Join(f.Notes, "; "))+".")
 			if !f.Trusted {
 				p.Said = append(p.Said, "Not to be trusted: take a fresh reading.")
 			}

@@ -9,7 +9,7 @@ import (
 	"sync"
 	"time"
 
-	"pitcard/engine"
+	words "pitcard/internal/text"
 )
 
 // repeatWindow is how long a slip's exact form is remembered: the same
@@ -78,7 +78,7 @@ func agoWords(d time.Duration) string {
 	if d < time.Minute {
 		return "a moment"
 	}
-	return engine.Plural(int(d/time.Minute), "minute")
+	return words.Plural(int(d/time.Minute), "minute")
 }
 
 // add keeps res and its form's key, and returns the id of its page.

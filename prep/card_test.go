@@ -14,6 +14,7 @@ import (
 	"github.com/shopspring/decimal"
 
 	"pitcard/engine"
+	"pitcard/logbook"
 	"pitcard/scripts"
 	"pitcard/weather"
 )
@@ -24,20 +25,20 @@ var (
 		Extra: map[string]any{"limit_et": 10.0, "chute": false}}
 )
 
-// logbook makes n passes from the model with a driver's scatter (invented
+// modelLogbook makes n passes from the model with a driver's scatter (invented
 // data for the tests; the physics is the model's own).
-func logbook(n int) []engine.Pass {
+func modelLogbook(n int) []logbook.Pass {
 	rng := rand.New(rand.NewPCG(4, 2))
 	v := engine.NewVehicle(testCar, 0)
 	start := time.Date(2020, 4, 1, 14, 0, 0, 0, time.UTC)
-	out := make([]engine.Pass, 0, n)
+	out := make([]logbook.Pass, 0, n)
 	for i := range n {
 		tm := start.Add(time.Duration(i/10)*24*time.Hour + time.Duration(i%10)*40*time.Minute)
 		r := weather.Reading{Time: tm, Temp: weather.Fahrenheit(70 + 25*rng.Float64()), Baro: weather.InHg(28.6 + 0.6*rng.Float64()),
 			RH: 0.2 + 0.5*rng.Float64(), TrackTemp: weather.Fahrenheit(80 + 50*rng.Float64()), HasTrack: true}
 		run := engine.Simulate(&v, engine.DefaultParams(engine.Natural), engine.NewEnv(r, 90, 1, v.MassKg), 1320)
-		p := engine.Pass{Time: tm, Track: testTrack.Name, Session: engine.Session{Kind: engine.TimeTrial, N: i%10 + 1}, Lane: engine.Left, Air: r, HasAir: true}
-		for j := range engine.Timers {
+		p := logbook.Pass{Time: tm, Track: testTrack.Name, Session: logbook.Session{Kind: logbook.TimeTrial, N: i%10 + 1}, Lane: logbook.Left, Air: r, HasAir: true}
+		for j := range logbook.Timers {
 			p.ET[j] = decimal.NewNullDecimal(decimal.NewFromFloat(run.ET[j] + rng.NormFloat64()*0.01).Round(3))
 		}
 		p.MPH1320 = decimal.NewNullDecimal(decimal.NewFromFloat(run.MPH1320).Round(2))
@@ -46,13 +47,13 @@ func logbook(n int) []engine.Pass {
 	return out
 }
 
-func input(passes []engine.Pass, rules []*scripts.Rule, fsys fs.FS) Input {
+func input(passes []logbook.Pass, rules []*scripts.Rule, fsys fs.FS) Input {
 	last := passes[len(passes)-1].Time
 	air := passes[len(passes)-1].Air
 	air.Time = last.Add(time.Hour)
 	return Input{Car: testCar, Track: testTrack, Passes: passes,
 		Settings: Settings{Units: weather.Imperial, DialStep: decimal.New(1, -2), BreakoutRisk: 0.1, MaxRuleAdjust: decimal.New(5, -2), RuleLimits: scripts.DefaultLimits},
-		Session:  engine.Session{Kind: engine.Elimination, N: 2}, Lane: engine.Left, Call: air.Time, Now: air.Time.Add(-10 * time.Minute),
+		Session:  logbook.Session{Kind: logbook.Elimination, N: 2}, Lane: logbook.Left, Call: air.Time, Now: air.Time.Add(-10 * time.Minute),
 		Air: air, AirSource: "the test reading", Elevation: testTrack.Elevation(), Prep: 1, Rules: rules, RulesFS: fsys}
 }
 
@@ -75,7 +76,7 @@ func TestGather(t *testing.T) {
 		"c.lua": "function dial(ctx)\n  error('boom')\nend",
 		"d.lua": "function checks(ctx) return {{label='ET', status=ctx.prediction.low > ctx.car.limit_et and 'pass' or 'fail'}} end",
 	})
-	c := Gather(input(logbook(60), rules, fsys))
+	c := Gather(input(modelLogbook(60), rules, fsys))
 	if !c.TotalAdjust.Equal(decimal.RequireFromString("-0.07")) || c.AdjustFlag == "" {
 		t.Errorf("total %s, flag %q", c.TotalAdjust, c.AdjustFlag)
 	}
@@ -105,7 +106,7 @@ func TestGather(t *testing.T) {
 		// every renderer carries what the crew acts on: the dial to post
 		// and the rules' total, the failed rule with its file and line, the
 		// flag on a total beyond the setting, and the cautions
-		for _, w := range []string{engine.FormatSeconds(c.FinalDial, 2), "the rules add up to -0.07 s", "rules/c.lua:2: boom", "Drag racing can kill"} {
+		for _, w := range []string{logbook.FormatSeconds(c.FinalDial, 2), "the rules add up to -0.07 s", "rules/c.lua:2: boom", "Drag racing can kill"} {
 			if !strings.Contains(buf.String(), w) {
 				t.Errorf("a rendering (%.60q…) lacks %q", buf.String(), w)
 			}
@@ -116,14 +117,14 @@ func TestGather(t *testing.T) {
 // With no logbook the card still prints: physics alone, as a guide, and
 // no dial (engine.MinPassesForDial); with few passes the dial says so.
 func TestGatherWithoutALogbook(t *testing.T) {
-	in := input(logbook(1), nil, nil)
+	in := input(modelLogbook(1), nil, nil)
 	in.Passes = nil
 	c := Gather(in)
 	if !c.Prediction.PhysicsOnly || c.HasFinal || c.NoDial == "" || len(c.Plan.Options) > 0 {
 		t.Errorf("physics only %v, final %v, no dial %q, problems %v", c.Prediction.PhysicsOnly, c.HasFinal, c.NoDial, c.Problems)
 	}
 	for n, want := range map[int]bool{2: false, 3: true} {
-		in := input(logbook(n), nil, nil)
+		in := input(modelLogbook(n), nil, nil)
 		c := Gather(in)
 		if c.HasFinal != want || (want && c.FewPasses == "") {
 			t.Errorf("%d passes: dial posted %v (want %v), few-passes note %q", n, c.HasFinal, want, c.FewPasses)
@@ -141,7 +142,7 @@ func TestGatherWithoutALogbook(t *testing.T) {
 }
 
 func BenchmarkCard5000Passes20Rules(b *testing.B) {
-	passes := logbook(5000)
+	passes := modelLogbook(5000)
 	m := fstest.MapFS{}
 	shipped, _ := fs.Glob(scripts.Shipped(), "rules/*.lua")
 	for i := range 20 {
@@ -166,7 +167,7 @@ func BenchmarkCard5000Passes20Rules(b *testing.B) {
 // "120F" reached the rules as 120.00000000000004 (stored in kelvin, read back
 // in °F) and a rule's table picked the wrong row at its 120 °F boundary.
 func TestRulesSeeFiguresAsRead(t *testing.T) {
-	in := input(logbook(8), nil, nil)
+	in := input(modelLogbook(8), nil, nil)
 	in.Air.TrackTemp, in.Air.HasTrack, in.Air.Temp = weather.Fahrenheit(120), true, weather.Fahrenheit(88.7)
 	if raw := weather.Fahrenheit(120).Fahrenheit(); raw == 120 {
 		t.Logf("this platform reads 120F back exactly; the test still checks the rounding")

@@ -6,6 +6,7 @@ import (
 	"strings"
 
 	"pitcard/engine"
+	"pitcard/logbook"
 )
 
 // ChartLayout is what a chart is laid out for: its drawing's size in user
@@ -85,7 +86,7 @@ func ChartFor(c Card, lay ChartLayout) string {
 			continue
 		}
 		pts = append(pts, pt{x: p.Air.Derive(0).DensityAltitude.Feet(), y: et, today: in.Settings.DayStart.Same(p.Time, in.Call),
-			out: left[p.Key()] || engine.Aborted(p.Notes), label: p.Session.String()})
+			out: left[p.Key()] || logbook.Aborted(p.Notes), label: p.Session.String()})
 	}
 	f := c.Prediction.Finish()
 	predX := c.AirCall.DensityAltitude.Feet()

@@ -4,7 +4,9 @@ import (
 	"math"
 	"strconv"
 
+	"pitcard/bracket"
 	"pitcard/engine"
+	"pitcard/logbook"
 	"pitcard/scripts"
 	"pitcard/weather"
 )
@@ -49,7 +51,7 @@ func RuleContext(c Card) map[string]any {
 		"induction": string(in.Car.Induction), "distance_ft": in.Car.DistanceFt, "tire": in.Car.Tire, "nitrous_hp": in.Car.NitrousHP} {
 		car[k] = v
 	}
-	kind := map[engine.SessionKind]string{engine.TimeTrial: "time trial", engine.Elimination: "elimination", engine.Test: "test"}[in.Session.Kind]
+	kind := map[logbook.SessionKind]string{logbook.TimeTrial: "time trial", logbook.Elimination: "elimination", logbook.Test: "test"}[in.Session.Kind]
 	round := map[string]any{
 		"session": in.Session.String(), "kind": kind, "number": in.Session.N,
 		"date": in.Call.Format("2006-01-02"), "call_time": in.Call.Format("15:04"),
@@ -91,16 +93,16 @@ func RuleContext(c Card) map[string]any {
 	if c.PlanErr == nil && len(c.Plan.Options) > 0 {
 		dial := map[string]any{"recommended": c.Plan.Recommended.InexactFloat64(), "recommended_text": dialText(c.Plan.Recommended, c.Plan.Step),
 			"step": c.Plan.Step.String(), "breakout_risk": c.Plan.Risk,
-			"breakout_chance": engine.BreakoutChance(c.Plan.Estimate, c.Plan.Recommended)}
+			"breakout_chance": bracket.BreakoutChance(c.Plan.Estimate, c.Plan.Recommended)}
 		if len(c.Win) > 0 {
 			if w, ok := winOf(c, c.Plan.Recommended); ok {
 				dial["win_chance"] = w
 			}
 			dial["best_for_win"] = map[string]any{"dial": c.BestForWin.Dial.InexactFloat64(), "win_chance": c.BestForWin.Win,
-				"breakout_chance": engine.BreakoutChance(c.Plan.Estimate, c.BestForWin.Dial)}
+				"breakout_chance": bracket.BreakoutChance(c.Plan.Estimate, c.BestForWin.Dial)}
 			var opts []any
 			for _, o := range c.Win {
-				opts = append(opts, map[string]any{"dial": o.Dial.InexactFloat64(), "win_chance": o.Win, "breakout_chance": engine.BreakoutChance(c.Plan.Estimate, o.Dial)})
+				opts = append(opts, map[string]any{"dial": o.Dial.InexactFloat64(), "win_chance": o.Win, "breakout_chance": bracket.BreakoutChance(c.Plan.Estimate, o.Dial)})
 			}
 			dial["options"] = opts
 		}
@@ -145,7 +147,7 @@ func tidy(v any) any {
 	return v
 }
 
-func passMap(p engine.Pass) map[string]any {
+func passMap(p logbook.Pass) map[string]any {
 	m := map[string]any{"date": p.Time.Format("2006-01-02"), "time": p.Time.Format("15:04"), "session": p.Session.String(),
 		"lane": string(p.Lane), "notes": p.Notes, "track": p.Track}
 	if p.Dial.Valid {
@@ -154,7 +156,7 @@ func passMap(p engine.Pass) map[string]any {
 	if p.RT.Valid {
 		m["rt"] = p.RT.Decimal.InexactFloat64()
 	}
-	for i, ft := range engine.Timers {
+	for i, ft := range logbook.Timers {
 		if p.ET[i].Valid {
 			m["et"+itoa(ft)] = p.ET[i].Decimal.InexactFloat64()
 		}

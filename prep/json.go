@@ -7,6 +7,7 @@ import (
 	"strings"
 	"time"
 
+	"pitcard/bracket"
 	"pitcard/engine"
 	"pitcard/scripts"
 	"pitcard/weather"
@@ -84,16 +85,16 @@ func RenderJSON(w io.Writer, c Card) error {
 			"post": c.HasFinal && len(c.Failed) == 0}
 		if len(c.Win) > 0 {
 			j["best_for_win"] = map[string]any{"dial": json.Number(dialText(c.BestForWin.Dial, c.Plan.Step)), "win_chance": round(c.BestForWin.Win, 4),
-				"breakout_chance": round(engine.BreakoutChance(c.Plan.Estimate, c.BestForWin.Dial), 4)}
-			j["head_start_s"] = engine.HeadStart(c.Plan.Recommended, in.Opponent.Dial).InexactFloat64()
-			j["win_draws"] = engine.WinDraws
+				"breakout_chance": round(bracket.BreakoutChance(c.Plan.Estimate, c.BestForWin.Dial), 4)}
+			j["head_start_s"] = bracket.HeadStart(c.Plan.Recommended, in.Opponent.Dial).InexactFloat64()
+			j["win_draws"] = bracket.WinDraws
 			if c.WinTrade != "" {
 				j["win_trade"] = c.WinTrade
 			}
 		}
 		if c.HasFinal {
 			j["final_dial"] = json.Number(dialText(c.FinalDial, c.Plan.Step))
-			j["final_breakout_chance"] = round(engine.BreakoutChance(c.Plan.Estimate, c.FinalDial), 4)
+			j["final_breakout_chance"] = round(bracket.BreakoutChance(c.Plan.Estimate, c.FinalDial), 4)
 		}
 	}
 	var rules []map[string]any

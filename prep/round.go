@@ -17,7 +17,10 @@ import (
 
 	"github.com/shopspring/decimal"
 
+	"pitcard/bracket"
 	"pitcard/engine"
+	"pitcard/internal/text"
+	"pitcard/logbook"
 	"pitcard/scripts"
 	"pitcard/weather"
 )
@@ -47,8 +50,8 @@ type Settings struct {
 	// passes are the call's race day's, past midnight included.
 	DayStart weather.DayStart
 	// Aborts are the words in a pass's notes that leave it out of the fit
-	// and the card's figures (nil: engine.DefaultAbortWords).
-	Aborts engine.AbortWords
+	// and the card's figures (nil: logbook.DefaultAbortWords).
+	Aborts logbook.AbortWords
 }
 
 // DefaultMaxReadingAge is how old the latest reading may be before the card
@@ -60,17 +63,17 @@ type Input struct {
 	Car      engine.Car
 	Track    engine.Track
 	Tracks   map[string]engine.Track
-	Passes   []engine.Pass
+	Passes   []logbook.Pass
 	Settings Settings
 
-	Session      engine.Session
-	Lane         engine.Lane // "" when not known
+	Session      logbook.Session
+	Lane         logbook.Lane // "" when not known
 	OpponentDial decimal.NullDecimal
 	// Opponent is what is known of the other lane (its dial, its margin over
 	// it, its reaction times) and UsRT our driver's reaction times: with
 	// both, the dial options carry the chance to win. Nil: no opponent dial.
-	Opponent *engine.Opponent
-	UsRT     engine.RTModel
+	Opponent *bracket.Opponent
+	UsRT     bracket.RTModel
 	// PostBestForWin posts the dial that wins most instead of the breakout
 	// rule's (the setting post_dial: best-for-win).
 	PostBestForWin bool
@@ -112,7 +115,7 @@ type RuleLine struct {
 // RecordLine is one earlier pass of the day: what the model predicted for it
 // from the passes before it, and what the car ran.
 type RecordLine struct {
-	Pass      engine.Pass
+	Pass      logbook.Pass
 	Predicted float64 // s; NaN when it could not be predicted
 	Actual    float64
 	Error     float64 // actual − predicted
@@ -130,14 +133,14 @@ type Card struct {
 	AirCall      weather.Air
 	Prediction   engine.Prediction
 	Fit          engine.Fit
-	Plan         engine.DialPlan
+	Plan         bracket.DialPlan
 	PlanErr      error
 	// Win: the chance to win against the opponent for each dial considered
 	// (the plan's options and those around them), the one that wins most,
 	// and what choosing it over the breakout rule's trades. Empty without an
 	// opponent.
-	Win        []engine.WinOption
-	BestForWin engine.WinOption
+	Win        []bracket.WinOption
+	BestForWin bracket.WinOption
 	WinTrade   string
 	// NoDial says why no dial is posted though there is a prediction (too
 	// few passes of the car): the estimate is shown as a guide.
@@ -228,7 +231,7 @@ func Gather(in Input) Card {
 			c.NoDial = why
 			c.PlanErr = errors.New(why)
 		} else {
-			c.Plan, c.PlanErr = engine.PlanDial(c.Prediction.Estimate(), in.Settings.DialStep, in.Settings.BreakoutRisk, 4)
+			c.Plan, c.PlanErr = bracket.PlanDial(c.Prediction.Estimate(), in.Settings.DialStep, in.Settings.BreakoutRisk, 4)
 			if c.PlanErr != nil {
 				c.Problems = append(c.Problems, "no dial table: "+c.PlanErr.Error())
 			}
@@ -266,7 +269,7 @@ func Gather(in Input) Card {
 		if in.PostBestForWin && len(c.Win) > 0 {
 			base = c.BestForWin.Dial
 		}
-		c.FinalDial = engine.RoundToStep(base.Add(c.TotalAdjust), in.Settings.DialStep)
+		c.FinalDial = bracket.RoundToStep(base.Add(c.TotalAdjust), in.Settings.DialStep)
 		c.HasFinal = true
 	}
 	c.Failed = Failed(c.Checks)
@@ -297,7 +300,7 @@ func crossCheck(p engine.Prediction, in Input) (engine.CrossCheck, bool, string)
 			dir = "quicker"
 		}
 		return cc, true, fmt.Sprintf("the model's %.3f s is %.3f s %s than the cross-check's %.3f s (the latest %s carried by the air alone), past the %.2f s allowed (cross_check_max_s): the model may be reaching past what the logbook has seen; look again before dialing on it",
-			model, math.Abs(d), dir, cc.ET, engine.Plural(len(cc.Passes), "pass"), limit)
+			model, math.Abs(d), dir, cc.ET, text.Plural(len(cc.Passes), "pass"), limit)
 	}
 	return cc, true, ""
 }
@@ -325,7 +328,7 @@ func latest(ts ...any) time.Time {
 			if v.After(t) {
 				t = v
 			}
-		case []engine.Pass:
+		case []logbook.Pass:
 			if len(v) > 0 && v[len(v)-1].Time.After(t) {
 				t = v[len(v)-1].Time
 			}
@@ -371,7 +374,7 @@ const WinRows = 10
 // winChances are the chances to win of the dials around the plan's
 // recommendation, the best of them, and in words what posting it over the
 // breakout rule's dial trades when it breaks the crew's limit.
-func winChances(c Card, in Input) ([]engine.WinOption, engine.WinOption, string) {
+func winChances(c Card, in Input) ([]bracket.WinOption, bracket.WinOption, string) {
 	step := in.Settings.DialStep
 	var cands []decimal.Decimal
 	for i := -WinRows; i <= WinRows; i++ {
@@ -379,19 +382,19 @@ func winChances(c Card, in Input) ([]engine.WinOption, engine.WinOption, string)
 			cands = append(cands, d)
 		}
 	}
-	opts := engine.WinChances(engine.WinInput{Us: c.Plan.Estimate, UsRT: in.UsRT, Opp: *in.Opponent, Seed: 1}, cands)
-	best := engine.BestForWin(opts)
+	opts := bracket.WinChances(bracket.WinInput{Us: c.Plan.Estimate, UsRT: in.UsRT, Opp: *in.Opponent, Seed: 1}, cands)
+	best := bracket.BestForWin(opts)
 	trade := ""
-	var rule engine.WinOption
+	var rule bracket.WinOption
 	for _, o := range opts {
 		if o.Dial.Equal(c.Plan.Recommended) {
 			rule = o
 		}
 	}
-	if bo := engine.BreakoutChance(c.Plan.Estimate, best.Dial); bo > c.Plan.Risk && !best.Dial.Equal(c.Plan.Recommended) {
+	if bo := bracket.BreakoutChance(c.Plan.Estimate, best.Dial); bo > c.Plan.Risk && !best.Dial.Equal(c.Plan.Recommended) {
 		trade = fmt.Sprintf("the dial that wins most, %s, breaks out %.1f %% of the time, more than the %.0f %% you accept: over your rule's %s it gains %.1f points of winning for %.1f points more breakout risk",
 			dialText(best.Dial, step), 100*bo, 100*c.Plan.Risk, dialText(c.Plan.Recommended, step), 100*(best.Win-rule.Win),
-			100*(bo-engine.BreakoutChance(c.Plan.Estimate, c.Plan.Recommended)))
+			100*(bo-bracket.BreakoutChance(c.Plan.Estimate, c.Plan.Recommended)))
 	}
 	return opts, best, trade
 }

@@ -117,7 +117,7 @@ func TestSafetyWithoutACar(t *testing.T) {
 // A failed check reaches the dial box in every format, and the JSON says it
 // where a script looks first.
 func TestAFailedCheckStopsTheDial(t *testing.T) {
-	in := input(logbook(40), nil, nil)
+	in := input(modelLogbook(40), nil, nil)
 	in.Car.Extra = map[string]any{"limit_et": 29.0, "limit_mph": 126, "chute_needed_mph": 141, "belts_expire": "2027-03"}
 	c := Gather(in)
 	if !c.HasFinal || len(c.Failed) != 1 || !strings.Contains(c.Failed[0], "ET limit") {

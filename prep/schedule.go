@@ -7,8 +7,8 @@ import (
 	"time"
 
 	"pitcard/internal/yamlfile"
+	"pitcard/logbook"
 
-	"pitcard/engine"
 	"pitcard/weather"
 )
 
@@ -30,9 +30,9 @@ type Schedule struct {
 
 // Slot is one session of the schedule.
 type Slot struct {
-	Session engine.Session
+	Session logbook.Session
 	Call    time.Time
-	Lane    engine.Lane // "" when not known in advance
+	Lane    logbook.Lane // "" when not known in advance
 }
 
 // ReadSchedule reads a schedule.yaml; name is the file's name for messages,
@@ -65,7 +65,7 @@ func ReadSchedule(r io.Reader, name string, loc *time.Location, start weather.Da
 	s.Date = d
 	for i, x := range raw.Sessions {
 		where := fmt.Sprintf("sessions[%d].", i)
-		ses, err := engine.ParseSession(x.Session)
+		ses, err := logbook.ParseSession(x.Session)
 		if err != nil {
 			return s, err.(*weather.InputError).Named(where+"session").At(name, doc.Line(where+"session"))
 		}
@@ -75,7 +75,7 @@ func ReadSchedule(r io.Reader, name string, loc *time.Location, start weather.Da
 		}
 		slot := Slot{Session: ses, Call: call}
 		if x.Lane != "" {
-			if slot.Lane, err = engine.ParseLane(x.Lane); err != nil {
+			if slot.Lane, err = logbook.ParseLane(x.Lane); err != nil {
 				return s, err.(*weather.InputError).Named(where+"lane").At(name, doc.Line(where+"lane"))
 			}
 		}
@@ -85,7 +85,7 @@ func ReadSchedule(r io.Reader, name string, loc *time.Location, start weather.Da
 }
 
 // Find is the slot of a session, and whether the schedule has it.
-func (s Schedule) Find(ses engine.Session) (Slot, bool) {
+func (s Schedule) Find(ses logbook.Session) (Slot, bool) {
 	for _, x := range s.Sessions {
 		if x.Session == ses {
 			return x, true
@@ -96,8 +96,8 @@ func (s Schedule) Find(ses engine.Session) (Slot, bool) {
 
 // Next is the first session of the schedule the logbook has no pass for on
 // the schedule's race day, and whether there is one.
-func (s Schedule) Next(passes []engine.Pass) (Slot, bool) {
-	run := map[engine.Session]bool{}
+func (s Schedule) Next(passes []logbook.Pass) (Slot, bool) {
+	run := map[logbook.Session]bool{}
 	day := s.Date.Format(weather.DateLayout)
 	for _, p := range passes {
 		if s.Start.Key(p.Time) == day {

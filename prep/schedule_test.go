@@ -5,7 +5,7 @@ import (
 	"testing"
 	"time"
 
-	"pitcard/engine"
+	"pitcard/logbook"
 	"pitcard/weather"
 )
 
@@ -14,8 +14,8 @@ func TestReadSchedule(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	slot, ok := s.Find(engine.Session{Kind: engine.Elimination, N: 3})
-	if !ok || slot.Lane != engine.Left || slot.Call.Format("2006-01-02 15:04") != "2026-06-13 20:45" {
+	slot, ok := s.Find(logbook.Session{Kind: logbook.Elimination, N: 3})
+	if !ok || slot.Lane != logbook.Left || slot.Call.Format("2006-01-02 15:04") != "2026-06-13 20:45" {
 		t.Errorf("E3 %+v %v", slot, ok)
 	}
 	moved := s.OnDay(time.Date(2026, 7, 4, 9, 0, 0, 0, time.UTC))
@@ -44,16 +44,16 @@ func TestScheduleAcrossMidnight(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	e6, _ := s.Find(engine.Session{Kind: engine.Elimination, N: 6})
+	e6, _ := s.Find(logbook.Session{Kind: logbook.Elimination, N: 6})
 	if got := e6.Call.Format("2006-01-02 15:04"); got != "2026-06-14 00:15" {
 		t.Errorf("E6 called %s, want 2026-06-14 00:15", got)
 	}
-	e5pass := engine.Pass{Time: time.Date(2026, 6, 13, 22, 18, 0, 0, time.UTC), Session: engine.Session{Kind: engine.Elimination, N: 5}}
-	if next, ok := s.Next([]engine.Pass{e5pass}); !ok || next.Session != e6.Session {
+	e5pass := logbook.Pass{Time: time.Date(2026, 6, 13, 22, 18, 0, 0, time.UTC), Session: logbook.Session{Kind: logbook.Elimination, N: 5}}
+	if next, ok := s.Next([]logbook.Pass{e5pass}); !ok || next.Session != e6.Session {
 		t.Errorf("after E5 the next is %v, %v; want E6", next.Session, ok)
 	}
-	e6pass := engine.Pass{Time: time.Date(2026, 6, 14, 0, 21, 0, 0, time.UTC), Session: e6.Session}
-	if next, ok := s.Next([]engine.Pass{e5pass, e6pass}); ok {
+	e6pass := logbook.Pass{Time: time.Date(2026, 6, 14, 0, 21, 0, 0, time.UTC), Session: e6.Session}
+	if next, ok := s.Next([]logbook.Pass{e5pass, e6pass}); ok {
 		t.Errorf("E6 run at 00:21 is on the race day; next is %v", next.Session)
 	}
 	moved := s.OnDay(time.Date(2026, 7, 5, 1, 0, 0, 0, time.UTC)) // 01:00 on the 5th: the race day of the 4th

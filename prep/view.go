@@ -3,13 +3,15 @@ package prep
 import (
 	"fmt"
 	"math"
-	"pitcard/internal/printable"
 	"strings"
 	"time"
 
 	"github.com/shopspring/decimal"
 
+	"pitcard/bracket"
 	"pitcard/engine"
+	"pitcard/internal/printable"
+	"pitcard/internal/text"
 	"pitcard/scripts"
 	"pitcard/weather"
 )
@@ -108,7 +110,7 @@ func newView(c Card) view {
 	u := in.Settings.Units
 	v := view{Title: c.Title, Cautions: c.Cautions}
 	day := in.Call.Format("Mon 2006-01-02")
-	v.Subtitle = append(v.Subtitle, fmt.Sprintf("%s · %s", OrDash(in.Track.Name), day))
+	v.Subtitle = append(v.Subtitle, fmt.Sprintf("%s · %s", text.OrDash(in.Track.Name), day))
 	call := "called " + in.Call.Format("15:04")
 	switch m := math.Round(c.MinutesToGo); {
 	case m > 0:
@@ -119,7 +121,7 @@ func newView(c Card) view {
 		call += " (" + Minutes(time.Duration(-m)*time.Minute) + " ago)"
 	}
 	v.Subtitle = append(v.Subtitle, call)
-	car := OrDash(in.Car.Name)
+	car := text.OrDash(in.Car.Name)
 	if in.OpponentDial.Valid {
 		car += " · the other lane dials " + DialText(in.OpponentDial.Decimal, in.Settings.DialStep)
 	}
@@ -130,7 +132,7 @@ func newView(c Card) view {
 	if c.HasFinal {
 		v.Dial = dialText(c.FinalDial, step)
 		rec := fmt.Sprintf("before the rules %s: %.1f %% chance of breaking out (risk accepted %.0f %%)",
-			dialText(c.Plan.Recommended, step), 100*engine.BreakoutChance(c.Plan.Estimate, c.Plan.Recommended), 100*c.Plan.Risk)
+			dialText(c.Plan.Recommended, step), 100*bracket.BreakoutChance(c.Plan.Estimate, c.Plan.Recommended), 100*c.Plan.Risk)
 		v.DialLines = append(v.DialLines, rec)
 		if c.FewPasses != "" {
 			v.DialLines = append(v.DialLines, "NOTE: "+c.FewPasses)
@@ -140,7 +142,7 @@ func newView(c Card) view {
 			if w, ok := winOf(c, c.Plan.Recommended); ok {
 				v.DialLines = append(v.DialLines, fmt.Sprintf("against the other lane: %.1f %% to win on %s; the dial that wins most is %s (%.1f %% to win, %.1f %% breakout)%s",
 					100*w, dialText(c.Plan.Recommended, step), dialText(c.BestForWin.Dial, step), 100*c.BestForWin.Win,
-					100*engine.BreakoutChance(c.Plan.Estimate, c.BestForWin.Dial), postedWords(in.PostBestForWin)))
+					100*bracket.BreakoutChance(c.Plan.Estimate, c.BestForWin.Dial), postedWords(in.PostBestForWin)))
 			}
 			if c.WinTrade != "" {
 				v.DialLines = append(v.DialLines, "CHOICE: "+c.WinTrade)
@@ -151,7 +153,7 @@ func newView(c Card) view {
 		}
 
 		if len(c.Adjustments) > 0 {
-			chance := engine.BreakoutChance(c.Plan.Estimate, c.FinalDial)
+			chance := bracket.BreakoutChance(c.Plan.Estimate, c.FinalDial)
 			line := fmt.Sprintf("final %s: %.1f %% chance of breaking out", v.Dial, 100*chance)
 			if chance > c.Plan.Risk {
 				line += fmt.Sprintf(", more than the %.0f %% you accept: the rules dialed past the recommendation", 100*c.Plan.Risk)
@@ -160,7 +162,7 @@ func newView(c Card) view {
 		}
 		if c.HasCross && c.CrossFlag == "" {
 			v.DialLines = append(v.DialLines, fmt.Sprintf("cross-check %.3f s, the latest %s carried by the air alone: the model agrees within %.2f s",
-				c.Cross.ET, engine.Plural(len(c.Cross.Passes), "pass"), crossLimit(in.Settings)))
+				c.Cross.ET, text.Plural(len(c.Cross.Passes), "pass"), crossLimit(in.Settings)))
 		}
 	}
 	v.DialAlert = c.AdjustFlag
@@ -171,12 +173,12 @@ func newView(c Card) view {
 		v.Stop = failedWords(c.Failed)
 	}
 	if c.NoDial != "" {
-		v.NoDial = UpperFirst(c.NoDial) + "."
+		v.NoDial = text.UpperFirst(c.NoDial) + "."
 		if f := c.Prediction; len(f.Timers) > 0 {
 			t := f.Finish()
 			from := "physics and car.yaml"
 			if n := f.Passes; n > 0 {
-				from = fmt.Sprintf("the model on %s", engine.Plural(n, "pass"))
+				from = fmt.Sprintf("the model on %s", text.Plural(n, "pass"))
 			}
 			v.Guide = fmt.Sprintf("Guide from %s: %s %.2f s, 95 %% interval %.2f–%.2f s. Not a dial-in.", from, TimerName(t.DistanceFt), t.ET, t.Low, t.High)
 		}
@@ -274,7 +276,7 @@ func newView(c Card) view {
 		}
 		if len(c.Win) > 0 {
 			v.OptionsNote = fmt.Sprintf("To win: against the other lane's %s dial, its car %+.3f s over its dial (± %.3f) and its driver's reaction %.3f ± %.3f s; %d races drawn per dial (good to ±0.5 points).",
-				dialText(in.Opponent.Dial, step), in.Opponent.Margin, in.Opponent.MarginSD, in.Opponent.RT.Mean, in.Opponent.RT.SD, engine.WinDraws)
+				dialText(in.Opponent.Dial, step), in.Opponent.Margin, in.Opponent.MarginSD, in.Opponent.RT.Mean, in.Opponent.RT.SD, bracket.WinDraws)
 		}
 	}
 
@@ -349,17 +351,9 @@ func Explain(p engine.Prediction, f engine.Fit, u weather.Units) []string {
 		if strings.HasPrefix(n, "calibrated to") {
 			continue // said above
 		}
-		out = append(out, UpperFirst(n)+".")
+		out = append(out, text.UpperFirst(n)+".")
 	}
 	return out
-}
-
-// UpperFirst is s with its first letter a capital: a phrase made a sentence.
-func UpperFirst(s string) string {
-	if s == "" {
-		return s
-	}
-	return strings.ToUpper(s[:1]) + s[1:]
 }
 
 // sensitivityWords says what each change of conditions, alone, is worth to
@@ -394,12 +388,12 @@ func sensitivityWords(s engine.Sensitivity, u weather.Units) string {
 	return fmt.Sprintf("This car today, each change alone: %s %s; %s %s; 10 %% more humidity %s; %s %s; %s %s. "+
 		"(%s from the barometer alone: %s.)",
 		warm, effect(kT*s.Per10FAir), baro, effect(kP*s.PerTenthInHg), effect(s.Per10PctRH), hot, effect(kT*s.Per10FTrack),
-		wind, effect(kW*s.Per10Headwind), UpperFirst(da), effect(kDA*s.PerKDA))
+		wind, effect(kW*s.Per10Headwind), text.UpperFirst(da), effect(kDA*s.PerKDA))
 }
 
 // HeadStartWords says who leaves first, and by how much.
 func HeadStartWords(us, opp decimal.Decimal) string {
-	h := engine.HeadStart(us, opp)
+	h := bracket.HeadStart(us, opp)
 	switch {
 	case h.IsPositive():
 		return fmt.Sprintf("you leave %s s after the other lane (its dial is slower)", DialText(h, hundredth))
@@ -461,14 +455,6 @@ func HeadwindWords(r weather.Reading, heading float64, u weather.Units) string {
 
 // dialText is DialText, as the card's layout calls it.
 func dialText(d, step decimal.Decimal) string { return DialText(d, step) }
-
-// OrDash is s, or a dash where it is blank (a table cell with nothing known).
-func OrDash(s string) string {
-	if strings.TrimSpace(s) == "" {
-		return "–"
-	}
-	return s
-}
 
 // statusWord is how a check's status reads on paper.
 func statusWord(s string) string {

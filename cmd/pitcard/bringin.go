@@ -11,9 +11,10 @@ import (
 	"github.com/spf13/cobra"
 
 	"pitcard/colmap"
-	"pitcard/engine"
 	"pitcard/event"
 	"pitcard/internal/safefile"
+	"pitcard/internal/text"
+	"pitcard/logbook"
 	"pitcard/weather"
 )
 
@@ -161,9 +162,9 @@ conflict: both versions are listed and nothing is written.`,
 			if err != nil {
 				return err
 			}
-			fmt.Fprintf(o.s.Out, "Imported %s from %s", engine.Plural(added, "reading"), args[0])
+			fmt.Fprintf(o.s.Out, "Imported %s from %s", text.Plural(added, "reading"), args[0])
 			if skipped > 0 {
-				fmt.Fprintf(o.s.Out, " (%s already logged, skipped)", engine.Plural(skipped, "reading"))
+				fmt.Fprintf(o.s.Out, " (%s already logged, skipped)", text.Plural(skipped, "reading"))
 			}
 			fmt.Fprintf(o.s.Out, "; %s now holds %d.\n", e.Name(event.WeatherFile), total)
 			return nil
@@ -215,22 +216,22 @@ value in some field, both versions shown. It writes nothing.`,
 			}
 			m := event.MergePasses(ours, theirs.Passes)
 			fmt.Fprintf(o.s.Out, "%s against %s: %s only in %s, %s alike in both, %s.\n", args[0], e.Name(event.LogbookFile),
-				engine.Plural(len(m.New), "pass"), args[0], engine.Plural(m.Same, "pass"), engine.Plural(len(m.Conflicts), "conflict"))
+				text.Plural(len(m.New), "pass"), args[0], text.Plural(m.Same, "pass"), text.Plural(len(m.Conflicts), "conflict"))
 			if len(m.New) > 0 {
 				fmt.Fprintf(o.s.Out, "\nOnly in %s:\n", args[0])
 				for _, p := range m.New {
 					et, ft, _ := p.Finish()
 					fmt.Fprintf(o.s.Out, "  line %d: %s %s, %s lane, %s, %s s at %.0f ft\n", p.Line, p.Time.Format("2006-01-02 15:04"),
-						p.Session, p.Lane, p.Track, engine.FormatSeconds(et, 3), ft)
+						p.Session, p.Lane, p.Track, logbook.FormatSeconds(et, 3), ft)
 				}
 			}
 			if len(m.Conflicts) > 0 {
 				c := &event.Conflicts{List: m.Conflicts, Ours: e.Name(event.LogbookFile), TheirsIn: args[0]}
-				fmt.Fprintf(o.s.Out, "\n%s and %s disagree on %s:\n%s\n", c.Ours, c.TheirsIn, engine.Plural(len(c.List), "entry"), c.Entries())
+				fmt.Fprintf(o.s.Out, "\n%s and %s disagree on %s:\n%s\n", c.Ours, c.TheirsIn, text.Plural(len(c.List), "entry"), c.Entries())
 			}
 			if len(theirs.Bad) > 0 {
 				fmt.Fprintf(o.s.Err, "pitcard: warning: %s has %s pitcard cannot read, left out of the comparison:\n%v\n", args[0],
-					engine.Plural(len(theirs.Bad), "row"), engine.RowErrors(theirs.Bad))
+					text.Plural(len(theirs.Bad), "row"), logbook.RowErrors(theirs.Bad))
 			}
 			return leftOut
 		},
@@ -272,7 +273,7 @@ mark (the same maps 'log import --map' reads, so an export imports back).`,
 				return err
 			}
 			var buf bytes.Buffer
-			if err := engine.WriteLogbook(&buf, passes); err != nil {
+			if err := logbook.Write(&buf, passes); err != nil {
 				return err
 			}
 			out := buf.Bytes()
@@ -291,7 +292,7 @@ mark (the same maps 'log import --map' reads, so an export imports back).`,
 				if err := safefile.WriteNoBackup(o.Out, out); err != nil {
 					return fmt.Errorf("writing %s: %w", o.Out, err)
 				}
-				fmt.Fprintf(o.s.Out, "Wrote %s to %s.\n", engine.Plural(len(passes), "pass"), o.Out)
+				fmt.Fprintf(o.s.Out, "Wrote %s to %s.\n", text.Plural(len(passes), "pass"), o.Out)
 				return leftOut
 			}
 			if _, err := o.s.Out.Write(out); err != nil {
@@ -309,7 +310,7 @@ mark (the same maps 'log import --map' reads, so an export imports back).`,
 
 // bounded keeps the passes on or after since (YYYY-MM-DD), at track, and
 // then the last n (0: all).
-func bounded(passes []engine.Pass, since string, n int, track string) ([]engine.Pass, error) {
+func bounded(passes []logbook.Pass, since string, n int, track string) ([]logbook.Pass, error) {
 	var from time.Time
 	if since != "" {
 		t, err := time.ParseInLocation(weather.DateLayout, strings.TrimSpace(since), time.Local)
@@ -321,9 +322,9 @@ func bounded(passes []engine.Pass, since string, n int, track string) ([]engine.
 	if n < 0 {
 		return nil, &weather.InputError{Field: "--last", Value: fmt.Sprint(n), Reason: "is negative (0 for all)"}
 	}
-	var out []engine.Pass
+	var out []logbook.Pass
 	for _, p := range passes {
-		if (since == "" || !p.Time.Before(from)) && (track == "" || strings.EqualFold(engine.TrackName(track), p.Track)) {
+		if (since == "" || !p.Time.Before(from)) && (track == "" || strings.EqualFold(logbook.TrackName(track), p.Track)) {
 			out = append(out, p)
 		}
 	}

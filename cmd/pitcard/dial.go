@@ -12,8 +12,10 @@ import (
 	"github.com/shopspring/decimal"
 	"github.com/spf13/cobra"
 
+	"pitcard/bracket"
 	"pitcard/engine"
 	"pitcard/event"
+	"pitcard/logbook"
 	"pitcard/prep"
 	"pitcard/weather"
 )
@@ -117,7 +119,7 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 	if err != nil {
 		return err
 	}
-	var est engine.Estimate
+	var est bracket.Estimate
 	var leftOut error // logbook rows that could not be read: reported after the table
 	// post is the dial to post (the card's final, after the crew's rules)
 	// and the checks it must pass; without a round to gather, the breakout
@@ -137,7 +139,7 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 		if err != nil || !(sd > 0 && sd < 2) {
 			return &weather.InputError{Field: "--sd", Value: o.SD, Reason: "is not a spread in seconds (0..2, e.g. 0.025)"}
 		}
-		est = engine.Estimate{ET: et, SD: sd, Basis: "the --et and --sd given"}
+		est = bracket.Estimate{ET: et, SD: sd, Basis: "the --et and --sd given"}
 	default:
 		useModel := o.cond.Given() || o.cond.Latest || o.cond.At != "" || e.Demo
 		askedLatest := o.cond.Latest
@@ -187,7 +189,7 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 			return lo
 		}
 		leftOut = lo
-		if est, _, err = engine.RecentEstimate(passes, car.DistanceFt, o.CleanPasses, e.Settings.AbortWords); err != nil {
+		if est, _, err = bracket.RecentEstimate(passes, car.DistanceFt, o.CleanPasses, e.Settings.AbortWords); err != nil {
 			return userErr(err)
 		}
 	}
@@ -201,7 +203,7 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 		post.failed = prep.Failed(prep.SafetyChecks(prep.SafetyInput{Limits: car.Limits(), DistanceFt: car.DistanceFt,
 			QuickET: est.ET - engine.IntervalZ*est.SD, Day: o.s.Now(), Units: e.Settings.Units}))
 	}
-	plan, err := engine.PlanDial(est, e.Settings.DialStep, e.Settings.BreakoutRisk, o.Rows)
+	plan, err := bracket.PlanDial(est, e.Settings.DialStep, e.Settings.BreakoutRisk, o.Rows)
 	if err != nil {
 		return err
 	}
@@ -214,19 +216,19 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 	// Against the other lane: the chance to win of every option.
 	var oppDial decimal.NullDecimal
 	if o.OppDial != "" {
-		d, err := engine.ParseSeconds("--opponent-dial", o.OppDial)
+		d, err := logbook.ParseSeconds("--opponent-dial", o.OppDial)
 		if err != nil {
 			return err
 		}
-		if err := event.RangeErr("--opponent-dial", d, engine.DialRange); err != nil {
+		if err := event.RangeErr("--opponent-dial", d, logbook.DialRange); err != nil {
 			return err
 		}
 		oppDial = decimal.NewNullDecimal(d)
 	}
-	var wins []engine.WinOption
-	var opp *engine.Opponent
+	var wins []bracket.WinOption
+	var opp *bracket.Opponent
 	if oppDial.Valid || post.opponent != nil {
-		var usRT engine.RTModel
+		var usRT bracket.RTModel
 		if oppDial.Valid {
 			passes, _ := e.RecentLogbook()
 			if opp, usRT, err = o.opp.Build(e.Settings, oppDial, passes); err != nil {
@@ -239,10 +241,10 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 		for _, op := range plan.Options {
 			ds = append(ds, op.Dial)
 		}
-		wins = engine.WinChances(engine.WinInput{Us: est, UsRT: usRT, Opp: *opp, Seed: 1}, ds)
-		best := engine.BestForWin(wins)
+		wins = bracket.WinChances(bracket.WinInput{Us: est, UsRT: usRT, Opp: *opp, Seed: 1}, ds)
+		best := bracket.BestForWin(wins)
 		j.BestForWin = &bestForWinJSON{Dial: json.Number(prep.DialText(best.Dial, plan.Step)), WinChance: round(best.Win, 4)}
-		h := engine.HeadStart(plan.Recommended, opp.Dial).InexactFloat64()
+		h := bracket.HeadStart(plan.Recommended, opp.Dial).InexactFloat64()
 		j.HeadStartS = &h
 	}
 	for i, op := range plan.Options {
@@ -307,10 +309,10 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 	post.write(o.s, j, plan)
 	if opp != nil {
 		fmt.Fprintln(o.s.Out, prep.Wrap(fmt.Sprintf("Against the other lane's %s: %s; the dial that wins most is %s (%.1f %% to win). Chances from %d races drawn per dial, good to ±0.5 points.",
-			prep.DialText(opp.Dial, plan.Step), prep.HeadStartWords(plan.Recommended, opp.Dial), j.BestForWin.Dial, 100*j.BestForWin.WinChance, engine.WinDraws), o.s.width(), "  "))
-		best := engine.BestForWin(wins)
-		if bo := engine.BreakoutChance(est, best.Dial); bo > plan.Risk {
-			var rule engine.WinOption
+			prep.DialText(opp.Dial, plan.Step), prep.HeadStartWords(plan.Recommended, opp.Dial), j.BestForWin.Dial, 100*j.BestForWin.WinChance, bracket.WinDraws), o.s.width(), "  "))
+		best := bracket.BestForWin(wins)
+		if bo := bracket.BreakoutChance(est, best.Dial); bo > plan.Risk {
+			var rule bracket.WinOption
 			for _, w := range wins {
 				if w.Dial.Equal(plan.Recommended) {
 					rule = w
@@ -321,7 +323,7 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 				posted = "Posted is the dial that wins most (post_dial: best-for-win)."
 			}
 			fmt.Fprintln(o.s.Out, prep.Wrap(fmt.Sprintf("The choice: %s breaks out %.1f %% of the time, more than the %.0f %% you accept; over %s it gains %.1f points of winning for %.1f points more breakout risk. %s",
-				j.BestForWin.Dial, 100*bo, 100*plan.Risk, j.Recommended, 100*(best.Win-rule.Win), 100*(bo-engine.BreakoutChance(est, plan.Recommended)), posted), o.s.width(), "  "))
+				j.BestForWin.Dial, 100*bo, 100*plan.Risk, j.Recommended, 100*(best.Win-rule.Win), 100*(bo-bracket.BreakoutChance(est, plan.Recommended)), posted), o.s.width(), "  "))
 		}
 	}
 	return errors.Join(failedChecks(post.failed), leftOut)
@@ -337,8 +339,8 @@ type dialPost struct {
 	// opponent is the other lane the card races against (noted in
 	// rounds.csv, or --opponent-dial), with our reaction times; bestForWin:
 	// the card posts the dial that wins most (post_dial: best-for-win).
-	opponent   *engine.Opponent
-	usRT       engine.RTModel
+	opponent   *bracket.Opponent
+	usRT       bracket.RTModel
 	bestForWin bool
 }
 
@@ -355,7 +357,7 @@ func (p dialPost) mark() string {
 
 // write prints the post line: the dial to post, how the rules moved it, and
 // any failed check in the same line's type.
-func (p dialPost) write(s *IOStreams, j dialJSON, plan engine.DialPlan) {
+func (p dialPost) write(s *IOStreams, j dialJSON, plan bracket.DialPlan) {
 	rule := fmt.Sprintf("the slowest dial with at most a %.0f %% chance of breaking out", plan.Risk*100)
 	switch {
 	case p.hasFinal:
@@ -413,7 +415,7 @@ func (o *dialOptions) card(e *eventFolder, latest bool) (prep.Card, bool, error)
 
 // noDial prints the estimate as a guide when there are too few passes to
 // post a dial from (engine.MinPassesForDial).
-func noDial(o *dialOptions, est engine.Estimate, why string, leftOut error) error {
+func noDial(o *dialOptions, est bracket.Estimate, why string, leftOut error) error {
 	if o.Format == "csv" {
 		return errors.Join(writeCSV(o.s.Out, [][]string{{"predicted_et", "sd", "no_dial"}, {fmt.Sprint(round(est.ET, 4)), fmt.Sprint(round(est.SD, 4)), why}}), leftOut)
 	}

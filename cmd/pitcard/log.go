@@ -3,18 +3,20 @@ package main
 import (
 	"errors"
 	"fmt"
-	"pitcard/internal/printable"
 	"strconv"
 	"strings"
 
 	"github.com/jedib0t/go-pretty/v6/table"
-	"github.com/jedib0t/go-pretty/v6/text"
+	prettytext "github.com/jedib0t/go-pretty/v6/text"
 	"github.com/shopspring/decimal"
 	"github.com/spf13/cobra"
 
 	"pitcard/colmap"
 	"pitcard/engine"
 	"pitcard/event"
+	"pitcard/internal/printable"
+	"pitcard/internal/text"
+	"pitcard/logbook"
 	"pitcard/prep"
 	"pitcard/weather"
 )
@@ -125,7 +127,7 @@ func logAddRun(cmd *cobra.Command, o *logAddOptions) error {
 	p := lp.Pass
 	et, ft, _ := p.Finish()
 	fmt.Fprintf(o.s.Out, "Logged %s %s, %s lane: %s s at %.0f ft (%s in %s).\n",
-		p.Time.Format("2006-01-02 15:04"), p.Session.Long(), p.Lane, engine.FormatSeconds(et, 3), ft, engine.Plural(lp.Count, "pass"), e.Name(event.LogbookFile))
+		p.Time.Format("2006-01-02 15:04"), p.Session.Long(), p.Lane, logbook.FormatSeconds(et, 3), ft, text.Plural(lp.Count, "pass"), e.Name(event.LogbookFile))
 	if p.HasAir {
 		fmt.Fprintf(o.s.Out, "Conditions from %s: %s, density altitude %s.\n", lp.Source,
 			p.Air.Temp.Format(e.Settings.Units.Temp, 1), p.Air.Derive(lp.Elevation).DensityAltitude.FormatDensityAltitude(e.Settings.Units.Length))
@@ -153,7 +155,7 @@ func oneValue(flag string, vs []string) (string, error) {
 // altimeterLooking warns when rows' barometer figures look like sea-level
 // (altimeter) settings for their track's elevation: the logbook holds
 // station pressure, and mixing the two is the commonest weather mistake.
-func altimeterLooking(e *eventFolder, passes []engine.Pass, file string) string {
+func altimeterLooking(e *eventFolder, passes []logbook.Pass, file string) string {
 	trk, _ := e.Track()
 	tracks, _ := e.OtherTracks()
 	var lines []string
@@ -181,7 +183,7 @@ func altimeterLooking(e *eventFolder, passes []engine.Pass, file string) string 
 		shown = append(shown[:8:8], "...")
 	}
 	return fmt.Sprintf("%s: %s have baro_inhg figures that look like sea-level (altimeter) settings for their track's elevation (lines %s); "+
-		"the logbook holds station pressure: convert them, or the air of those passes is wrong", file, engine.Plural(len(lines), "row"), strings.Join(shown, ", "))
+		"the logbook holds station pressure: convert them, or the air of those passes is wrong", file, text.Plural(len(lines), "row"), strings.Join(shown, ", "))
 }
 
 type logImportOptions struct {
@@ -237,7 +239,7 @@ nothing is written. 'pitcard log diff FILE' shows the same without writing.`,
 			merge := event.MergePasses(cur, src.Passes)
 			if len(src.Bad) > 0 || (len(merge.Logged) > 0 && !o.SkipExisting) {
 				// All or nothing: list every bad row, and the good rows that are already logged.
-				problems := append(engine.RowErrors(nil), src.Bad...)
+				problems := append(logbook.RowErrors(nil), src.Bad...)
 				for _, l := range merge.Logged {
 					problems = append(problems, event.DuplicateOf(l[0], l[1], e.Name(event.LogbookFile)))
 				}
@@ -252,7 +254,7 @@ nothing is written. 'pitcard log diff FILE' shows the same without writing.`,
 			passes := merge.New
 			if len(passes) == 0 {
 				if merge.Same > 0 {
-					fmt.Fprintf(o.s.Out, "Nothing to import: the %s of %s are already in %s.\n", engine.Plural(merge.Same, "pass"), args[0], e.Name(event.LogbookFile))
+					fmt.Fprintf(o.s.Out, "Nothing to import: the %s of %s are already in %s.\n", text.Plural(merge.Same, "pass"), args[0], e.Name(event.LogbookFile))
 					return nil
 				}
 				return userErrf("%s has no passes to import", args[0])
@@ -267,9 +269,9 @@ nothing is written. 'pitcard log diff FILE' shows the same without writing.`,
 			if kept != nil {
 				o.s.warn(kept.Error())
 			}
-			fmt.Fprintf(o.s.Out, "Imported %s from %s", engine.Plural(len(passes), "pass"), args[0])
+			fmt.Fprintf(o.s.Out, "Imported %s from %s", text.Plural(len(passes), "pass"), args[0])
 			if merge.Same > 0 {
-				fmt.Fprintf(o.s.Out, " (%s already logged, skipped)", engine.Plural(merge.Same, "pass"))
+				fmt.Fprintf(o.s.Out, " (%s already logged, skipped)", text.Plural(merge.Same, "pass"))
 			}
 			fmt.Fprintf(o.s.Out, "; %s now holds %d.\n", e.Name(event.LogbookFile), n)
 			return nil
@@ -322,7 +324,7 @@ func logListRun(cmd *cobra.Command, o *logListOptions) error {
 	}
 	switch o.Format {
 	case "csv":
-		if err := engine.WriteLogbook(o.s.Out, passes); err != nil {
+		if err := logbook.Write(o.s.Out, passes); err != nil {
 			return err
 		}
 		return leftOut
@@ -341,7 +343,7 @@ func logListRun(cmd *cobra.Command, o *logListOptions) error {
 		return leftOut
 	}
 	u := e.Settings.Units
-	t := newTable(o.s, fmt.Sprintf("Logbook (%s), last %s", e.Name(event.LogbookFile), engine.Plural(len(passes), "pass")))
+	t := newTable(o.s, fmt.Sprintf("Logbook (%s), last %s", e.Name(event.LogbookFile), text.Plural(len(passes), "pass")))
 	// Trap speeds and density altitude in the crew's units, the unit in
 	// the header.
 	spd, daHead := u.Speed.String(), "DA "+u.Length.String()
@@ -369,7 +371,7 @@ func logListRun(cmd *cobra.Command, o *logListOptions) error {
 			da = p.Air.Derive(event.ElevationFor(p, trk)).DensityAltitude.FormatDensityAltitude(u.Length)
 		}
 		row := table.Row{p.Time.Format("2006-01-02"), p.Time.Format("15:04"), p.Session.String(), p.Lane, sec(p.Dial, 2), sec(p.RT, 3)}
-		for i, ft := range engine.Timers {
+		for i, ft := range logbook.Timers {
 			if !o.Wide && (ft == 330 || ft == 1000) {
 				continue
 			}
@@ -405,7 +407,7 @@ func logListRun(cmd *cobra.Command, o *logListOptions) error {
 func alignRight(from, to int) []table.ColumnConfig {
 	var c []table.ColumnConfig
 	for n := from; n <= to; n++ {
-		c = append(c, table.ColumnConfig{Number: n, Align: text.AlignRight})
+		c = append(c, table.ColumnConfig{Number: n, Align: prettytext.AlignRight})
 	}
 	return c
 }
@@ -415,7 +417,7 @@ func sec(d decimal.NullDecimal, min int) string {
 	if !d.Valid {
 		return ""
 	}
-	return engine.FormatSeconds(d.Decimal, min)
+	return logbook.FormatSeconds(d.Decimal, min)
 }
 
 type logStatsOptions struct {
@@ -494,12 +496,12 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 	if err != nil {
 		return err
 	}
-	stats := engine.Stats(shown, residual, e.Settings.DayStart, e.Settings.AbortWords)
-	judge := func(s engine.GroupStats) string {
+	stats := logbook.Stats(shown, residual, e.Settings.DayStart, e.Settings.AbortWords)
+	judge := func(s logbook.GroupStats) string {
 		if corrected && s.CorrectedN > 0 {
-			return engine.Consistency(s.CorrectedSD, s.CorrectedN)
+			return logbook.Consistency(s.CorrectedSD, s.CorrectedN)
 		}
-		return engine.Consistency(s.ETSD, s.Clean)
+		return logbook.Consistency(s.ETSD, s.Clean)
 	}
 	if o.Format == "json" || o.Format == "csv" {
 		out := []statsJSON{}
@@ -580,7 +582,7 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 	return leftOut
 }
 
-func countDays(stats []engine.GroupStats) int {
+func countDays(stats []logbook.GroupStats) int {
 	n := 0
 	for _, s := range stats {
 		if s.All {

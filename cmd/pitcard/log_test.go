@@ -14,8 +14,9 @@ import (
 	"testing"
 	"time"
 
-	"pitcard/engine"
+	"pitcard/bracket"
 	"pitcard/internal/safefile"
+	"pitcard/logbook"
 )
 
 const slipHeader = "date,time,track,session,lane,dial,rt,et60,et330,et660,et1000,et1320,mph660,mph1320,temp_f,baro_inhg,humidity_pct,track_temp_f,wind_mph,wind_from_deg,weight_lb,notes\n"
@@ -143,7 +144,7 @@ func TestRaceJSON(t *testing.T) {
 	if err := json.Unmarshal([]byte(out), &j); err != nil {
 		t.Fatal(err)
 	}
-	if j["winner"] != "left" || j["reason"] != engine.ReasonFirstToFinish || j["margin_s"] != 0.01 || j["margin_ft"].(float64) != 1.5 {
+	if j["winner"] != "left" || j["reason"] != bracket.ReasonFirstToFinish || j["margin_s"] != 0.01 || j["margin_ft"].(float64) != 1.5 {
 		t.Errorf("race %v", j)
 	}
 	if _, errs, code := pitcard(t, "race", "--left-dial", "14.20", "--left-rt", ".520"); code != 2 || !strings.Contains(errs, "--left-et is required") {
@@ -192,12 +193,12 @@ func TestLogbookSurvivesAKilledWriter(t *testing.T) {
 	dir := t.TempDir()
 	path := filepath.Join(dir, "logbook.csv")
 	oldData := season(50)
-	newPasses, err := engine.ReadLogbook(strings.NewReader(season(400)), "new", time.Local)
+	newPasses, err := logbook.Read(strings.NewReader(season(400)), "new", time.Local)
 	if err != nil {
 		t.Fatal(err)
 	}
 	var newData bytes.Buffer
-	_ = engine.WriteLogbook(&newData, newPasses)
+	_ = logbook.Write(&newData, newPasses)
 	cases := []struct {
 		at      string
 		want    string // "old" or "new"
@@ -254,7 +255,7 @@ func TestLogbookSurvivesAKilledWriter(t *testing.T) {
 			if string(got) != want {
 				t.Fatalf("killed at %s: the logbook is not the %s version (%d bytes; old %d, new %d)", tc.at, tc.want, len(got), len(oldData), newData.Len())
 			}
-			if _, err := engine.ReadLogbook(bytes.NewReader(got), "logbook.csv", time.Local); err != nil {
+			if _, err := logbook.Read(bytes.NewReader(got), "logbook.csv", time.Local); err != nil {
 				t.Fatalf("killed at %s: the logbook no longer reads: %v", tc.at, err)
 			}
 			if tc.at == safefile.StageBackedUp || tc.at == safefile.StageRenamed {
@@ -299,9 +300,9 @@ func TestCrashChild(t *testing.T) {
 			time.Sleep(time.Hour) // until killed
 		}
 	}
-	passes, _ := engine.ReadLogbook(strings.NewReader(season(400)), "new", time.Local)
+	passes, _ := logbook.Read(strings.NewReader(season(400)), "new", time.Local)
 	var all bytes.Buffer
-	_ = engine.WriteLogbook(&all, passes)
+	_ = logbook.Write(&all, passes)
 	err := safefile.Write(path, func(w io.Writer) error {
 		half := all.Len() / 2
 		if _, err := w.Write(all.Bytes()[:half]); err != nil {

@@ -8,7 +8,7 @@ import (
 	"strings"
 	"testing"
 
-	"pitcard/engine"
+	"pitcard/bracket"
 )
 
 // Words a racer reads: each screen says what a figure is, in one form.
@@ -199,10 +199,10 @@ func TestRulesTryLikeTheCard(t *testing.T) {
 // tree perfect is .500 (full) and .021 would be a red light (common
 // practice, no source: a full tree's green is .5 s after the last amber).
 func TestRoundAsksRTAsTheSlipsPrintIt(t *testing.T) {
-	if q := rtQuestion(engine.FromAmber); !strings.Contains(q, ".500") || strings.Contains(q, ".021") {
+	if q := rtQuestion(bracket.FromAmber); !strings.Contains(q, ".500") || strings.Contains(q, ".021") {
 		t.Errorf("amber: %q", q)
 	}
-	if q := rtQuestion(engine.FromGreen); !strings.Contains(q, ".021") || !strings.Contains(q, "red light is negative") {
+	if q := rtQuestion(bracket.FromGreen); !strings.Contains(q, ".021") || !strings.Contains(q, "red light is negative") {
 		t.Errorf("green: %q", q)
 	}
 }

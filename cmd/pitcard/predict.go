@@ -11,6 +11,7 @@ import (
 
 	"pitcard/engine"
 	"pitcard/event"
+	"pitcard/logbook"
 	"pitcard/prep"
 	"pitcard/weather"
 )
@@ -105,7 +106,7 @@ func forecastNext(e *eventFolder, cond conditionFlags, prepFlag, weightFlag stri
 	}
 	weight := 0.0
 	if weightFlag != "" {
-		if weight, err = engine.ParseWeightLb("--weight", weightFlag, e.Settings.Units.Weight); err != nil {
+		if weight, err = logbook.ParseWeightLb("--weight", weightFlag, e.Settings.Units.Weight); err != nil {
 			return n, err
 		}
 	}

@@ -8,8 +8,9 @@ import (
 	"github.com/shopspring/decimal"
 	"github.com/spf13/cobra"
 
-	"pitcard/engine"
+	"pitcard/bracket"
 	"pitcard/event"
+	"pitcard/logbook"
 	"pitcard/prep"
 )
 
@@ -59,24 +60,24 @@ read (settings tree and rt_zero).`,
 	return cmd
 }
 
-func (l raceLane) run(name string) (engine.LaneRun, error) {
-	var r engine.LaneRun
+func (l raceLane) run(name string) (bracket.LaneRun, error) {
+	var r bracket.LaneRun
 	var err error
 	// Each lane's figures are read and range-checked as a slip's are.
 	for _, f := range []struct {
 		flag, v string
 		dst     *decimal.Decimal
 		valid   [2]float64
-	}{{"dial", l.Dial, &r.Dial, engine.DialRange}, {"rt", l.RT, &r.RT, engine.RTRange}, {"et", l.ET, &r.ET, engine.DialRange}} {
+	}{{"dial", l.Dial, &r.Dial, logbook.DialRange}, {"rt", l.RT, &r.RT, logbook.RTRange}, {"et", l.ET, &r.ET, logbook.DialRange}} {
 		if f.v == "" {
 			return r, userErrf("--%s-%s is required", name, f.flag)
 		}
-		if *f.dst, err = engine.ParseSlipTime("--"+name+"-"+f.flag, f.v, f.valid); err != nil {
+		if *f.dst, err = logbook.ParseSlipTime("--"+name+"-"+f.flag, f.v, f.valid); err != nil {
 			return r, err
 		}
 	}
 	if l.MPH != "" {
-		m, err := engine.ParseSeconds("--"+name+"-mph", l.MPH)
+		m, err := logbook.ParseSeconds("--"+name+"-mph", l.MPH)
 		if err != nil || !m.IsPositive() {
 			return r, userErrf("--%s-mph %q is not a speed in mph", name, l.MPH)
 		}
@@ -129,19 +130,19 @@ func raceRun(cmd *cobra.Command, o *raceOptions) error {
 	if err != nil {
 		return err
 	}
-	rules := engine.RaceRules{Tree: e.Settings.Tree, RTZero: e.Settings.RTZero}
-	out, err := engine.Settle(left, right, rules)
+	rules := bracket.RaceRules{Tree: e.Settings.Tree, RTZero: e.Settings.RTZero}
+	out, err := bracket.Settle(left, right, rules)
 	if err != nil {
 		return err
 	}
-	laneJSON := func(r engine.LaneRun, x engine.LaneResult) raceLaneJSON {
+	laneJSON := func(r bracket.LaneRun, x bracket.LaneResult) raceLaneJSON {
 		// numbers with the slip's digits: 0.520, 14.20
-		f := func(d decimal.Decimal) json.Number { return json.Number(engine.FormatSeconds(d, 3)) }
+		f := func(d decimal.Decimal) json.Number { return json.Number(logbook.FormatSeconds(d, 3)) }
 		return raceLaneJSON{Dial: json.Number(prep.DialText(r.Dial, e.Settings.DialStep)), RT: f(r.RT), ET: f(r.ET), Start: f(x.Start), Reaction: f(x.Reaction),
 			Finish: f(x.Finish), OverDial: f(x.OverDial), Package: f(x.Package), RedLight: x.RedLight, Breakout: x.Breakout, Foul: x.Foul}
 	}
 	j := raceJSON{Winner: string(out.Winner), Reason: out.Reason, Explanation: out.Explanation, First: string(out.First),
-		MarginS: json.Number(engine.FormatSeconds(out.MarginS, 3)), MarginFt: event.OptFloat(out.MarginFt, out.HasMarginFt, 1),
+		MarginS: json.Number(logbook.FormatSeconds(out.MarginS, 3)), MarginFt: event.OptFloat(out.MarginFt, out.HasMarginFt, 1),
 		Tree: string(rules.Tree), RTZero: string(rules.RTZero), Left: laneJSON(left, out.Left), Right: laneJSON(right, out.Right)}
 	if o.Format == "json" {
 		return writeJSON(o.s.Out, j)
@@ -149,7 +150,7 @@ func raceRun(cmd *cobra.Command, o *raceOptions) error {
 	headline := "Tie"
 	if out.Winner != "" {
 		headline = "Winner: " + string(out.Winner) + " lane"
-	} else if out.Reason == engine.ReasonDoubleFoul {
+	} else if out.Reason == bracket.ReasonDoubleFoul {
 		headline = "No winner on the slips"
 	}
 	margin := string(j.MarginS) + " s"

@@ -10,8 +10,9 @@ import (
 
 	"github.com/spf13/cobra"
 
-	"pitcard/engine"
+	"pitcard/bracket"
 	"pitcard/event"
+	"pitcard/logbook"
 	"pitcard/prep"
 	"pitcard/weather"
 )
@@ -137,7 +138,7 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 		}
 	}
 	if rf.Round, err = p.until("Round (3, E3, T2 ...)", rf.Round, func(a string) error {
-		_, err := engine.ParseSession(a)
+		_, err := logbook.ParseSession(a)
 		return err
 	}); err != nil {
 		return err
@@ -237,13 +238,13 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 		o.s.warn(w)
 	}
 	if rf.Lane, err = p.until("Lane (left or right)", rf.Lane, func(a string) error {
-		_, err := engine.ParseLane(a)
+		_, err := logbook.ParseLane(a)
 		return err
 	}); err != nil {
 		return err
 	}
 	// Only an elimination has another lane to race: a time trial runs alone.
-	if s, _ := engine.ParseSession(rf.Round); s.Kind == engine.Elimination {
+	if s, _ := logbook.ParseSession(rf.Round); s.Kind == logbook.Elimination {
 		rf.OpponentDial = p.ask("Other lane's dial (Enter if not known)", "")
 	}
 
@@ -304,7 +305,7 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 		return broken
 	}
 	dial := ""
-	if c.HasFinal && in.Session.Kind == engine.Elimination {
+	if c.HasFinal && in.Session.Kind == logbook.Elimination {
 		dial = prep.DialText(c.FinalDial, e.Settings.DialStep)
 	}
 	questions := []struct{ key, question, def string }{
@@ -312,7 +313,7 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 		{"et660", "1/8 mile ET", ""}, {"mph660", "1/8 mile trap, " + u.Speed.String(), ""}, {"et1000", "1000 ft", ""}, {"et1320", "1/4 mile ET", ""},
 		{"mph1320", "1/4 mile trap, " + u.Speed.String(), ""}, {"notes", "Notes (lifted, pedaled ...)", ""},
 	}
-	slip := engine.SlipFields{Values: map[string]string{"date": now.Format(weather.DateLayout), "time": now.Format("15:04"),
+	slip := logbook.SlipFields{Values: map[string]string{"date": now.Format(weather.DateLayout), "time": now.Format("15:04"),
 		"track": trk.Name, "session": in.Session.String(), "lane": string(in.Lane)}, Names: map[string]string{}}
 	// A trap speed is typed in the crew's units (km/h in a metric folder)
 	// and kept as the logbook's mph.
@@ -328,7 +329,7 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 			if err != nil {
 				return err
 			}
-			return engine.CheckSlipField(key, question, m)
+			return logbook.CheckSlipField(key, question, m)
 		})
 		if m, merr := toMPH(key, v); merr == nil {
 			v = m
@@ -347,7 +348,7 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 	}
 	// The checks across fields: the field named is asked again.
 	for try := 0; ; try++ {
-		_, err := engine.ParsePass(slip, e.Zone())
+		_, err := logbook.ParsePass(slip, e.Zone())
 		var ie *weather.InputError
 		if err == nil || !errors.As(err, &ie) || try == 3 {
 			if err != nil {
@@ -380,17 +381,17 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 		}
 	}
 	// The other lane's slip, in an elimination: what decided the round.
-	if in.Session.Kind == engine.Elimination {
+	if in.Session.Kind == logbook.Elimination {
 		oppDial := ""
 		if in.OpponentDial.Valid {
 			oppDial = prep.DialText(in.OpponentDial.Decimal, e.Settings.DialStep)
 		}
 		check := func(name string) func(string) error {
-			return func(a string) error { return engine.CheckSlipField("rt", name, a) }
+			return func(a string) error { return logbook.CheckSlipField("rt", name, a) }
 		}
 		if d := p.ask("Other lane's dial (Enter to skip its slip)", oppDial); d != "" && !p.eof {
 			rt, err1 := p.until("Other lane's reaction time", "", check("other lane's reaction time"))
-			et, err2 := p.until("Other lane's ET", "", func(a string) error { return engine.CheckSlipField("dial", "other lane's ET", a) })
+			et, err2 := p.until("Other lane's ET", "", func(a string) error { return logbook.CheckSlipField("dial", "other lane's ET", a) })
 			if err1 == nil && err2 == nil && rt != "" && et != "" {
 				args = append(args, "--opponent-dial", d, "--opponent-rt", rt, "--opponent-et", et)
 			}
@@ -422,8 +423,8 @@ func inRange(field, typed string, v float64, unit string, r [2]float64) error {
 
 // rtQuestion asks for a reaction time as the slips print it: from the green
 // (.021, a red light negative) or from the last amber (.521 on a full tree).
-func rtQuestion(zero engine.RTZero) string {
-	if zero == engine.FromAmber {
+func rtQuestion(zero bracket.RTZero) string {
+	if zero == bracket.FromAmber {
 		return "Reaction time (.521; perfect is .500 full tree, .400 pro)"
 	}
 	return "Reaction time (.021; a red light is negative)"

@@ -10,8 +10,8 @@ import (
 	"github.com/jedib0t/go-pretty/v6/table"
 	"github.com/spf13/cobra"
 
-	"pitcard/engine"
 	"pitcard/event"
+	"pitcard/internal/text"
 	"pitcard/prep"
 	"pitcard/scripts"
 )
@@ -168,9 +168,9 @@ func newRulesCheckCmd(s *IOStreams, g *globalOptions) *cobra.Command {
 			}
 			fmt.Fprintf(s.Out, "(rules %s)\n", hooks)
 			if bad > 0 {
-				return userErrf("%d of %s failed", bad, engine.Plural(len(rules), "rule"))
+				return userErrf("%d of %s failed", bad, text.Plural(len(rules), "rule"))
 			}
-			fmt.Fprintf(s.Out, "All %s load.\n", engine.Plural(len(rules), "rule"))
+			fmt.Fprintf(s.Out, "All %s load.\n", text.Plural(len(rules), "rule"))
 			return nil
 		},
 	}

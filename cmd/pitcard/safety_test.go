@@ -6,8 +6,8 @@ import (
 	"strings"
 	"testing"
 
-	"pitcard/engine"
 	"pitcard/event"
+	"pitcard/logbook"
 )
 
 // A limit the crew entered that the prediction breaks reaches the dial box
@@ -169,7 +169,7 @@ func TestDialReadsTheNotedOtherLane(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if err := e.SetOpponentDial("2026-06-13", engine.Session{Kind: engine.Elimination, N: 3}, "11.88", fixedNow); err != nil {
+	if err := e.SetOpponentDial("2026-06-13", logbook.Session{Kind: logbook.Elimination, N: 3}, "11.88", fixedNow); err != nil {
 		t.Fatal(err)
 	}
 	var d dialJSON

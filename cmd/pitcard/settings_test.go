@@ -10,7 +10,7 @@ import (
 
 	"github.com/shopspring/decimal"
 
-	"pitcard/engine"
+	"pitcard/bracket"
 	"pitcard/event"
 )
 
@@ -124,10 +124,10 @@ func settingsInRange(s event.Settings) error {
 			return err
 		}
 	}
-	if s.Tree != engine.FullTree && s.Tree != engine.ProTree {
+	if s.Tree != bracket.FullTree && s.Tree != bracket.ProTree {
 		return fmt.Errorf("tree = %q", s.Tree)
 	}
-	if s.RTZero != engine.FromGreen && s.RTZero != engine.FromAmber {
+	if s.RTZero != bracket.FromGreen && s.RTZero != bracket.FromAmber {
 		return fmt.Errorf("rt_zero = %q", s.RTZero)
 	}
 	if s.RuleLimits.DialStep.Cmp(s.DialStep) != 0 {

@@ -13,8 +13,8 @@ import (
 	"time"
 	"unicode/utf8"
 
-	"pitcard/engine"
 	"pitcard/internal/safefile"
+	"pitcard/logbook"
 )
 
 // Tests that guard what the card and the commands may claim: each names the
@@ -105,7 +105,7 @@ func TestCrewColumnsAreKept(t *testing.T) {
 	}
 }
 
-func logbookHeaderNames() []string { return engine.LogbookColumns }
+func logbookHeaderNames() []string { return logbook.Columns }
 
 // With the last reading at 13:30 and the clock at 20:40 the card used to say
 // "now 13:30" with no caution. Now it says how old the reading is and flags

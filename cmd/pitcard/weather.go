@@ -10,8 +10,8 @@ import (
 	"github.com/spf13/cobra"
 
 	"pitcard/colmap"
-	"pitcard/engine"
 	"pitcard/event"
+	"pitcard/internal/text"
 	"pitcard/prep"
 	"pitcard/weather"
 )
@@ -117,7 +117,7 @@ func weatherAddRun(cmd *cobra.Command, o *weatherAddOptions) error {
 	a := r.Derive(added.Elevation)
 	u := e.Settings.Units
 	fmt.Fprintf(o.s.Out, "Added the %s reading to %s (%s): density altitude %s, %s, %.0f %% RH.\n",
-		r.Time.Format("15:04"), e.Name(event.WeatherFile), engine.Plural(added.Count, "reading"), a.DensityAltitude.FormatDensityAltitude(u.Length), r.Temp.Format(u.Temp, 1), a.RH*100)
+		r.Time.Format("15:04"), e.Name(event.WeatherFile), text.Plural(added.Count, "reading"), a.DensityAltitude.FormatDensityAltitude(u.Length), r.Temp.Format(u.Temp, 1), a.RH*100)
 	return nil
 }
 
@@ -148,10 +148,10 @@ func weatherStreamRun(cmd *cobra.Command, o *weatherAddOptions) error {
 	if err != nil {
 		return err
 	}
-	fmt.Fprintf(o.s.Out, "Added %s to %s", engine.Plural(added, "reading"), e.Name(event.WeatherFile))
+	fmt.Fprintf(o.s.Out, "Added %s to %s", text.Plural(added, "reading"), e.Name(event.WeatherFile))
 	if bad > 0 {
-		fmt.Fprintf(o.s.Out, "; %s skipped (see above).\n", engine.Plural(bad, "bad line"))
-		return userErrf("standard input: %s not added", engine.Plural(bad, "bad line"))
+		fmt.Fprintf(o.s.Out, "; %s skipped (see above).\n", text.Plural(bad, "bad line"))
+		return userErrf("standard input: %s not added", text.Plural(bad, "bad line"))
 	}
 	fmt.Fprintln(o.s.Out, ".")
 	return nil
@@ -348,7 +348,7 @@ func weatherForecastPrint(o *weatherForecastOptions, e *eventFolder, elev weathe
 	case f.Interval:
 		fmt.Fprintf(o.s.Out, "Between 2 readings %.0f min apart; %s.\n", f.Span.Minutes(), trust)
 	default:
-		fmt.Fprintf(o.s.Out, "Leaned on %s, %.0f min of trend; %s.\n", engine.Plural(f.Used, "reading"), f.Span.Minutes(), trust)
+		fmt.Fprintf(o.s.Out, "Leaned on %s, %.0f min of trend; %s.\n", text.Plural(f.Used, "reading"), f.Span.Minutes(), trust)
 	}
 	if f.DAError > 0 {
 		fmt.Fprintf(o.s.Out, "Density altitude ± %s (one standard error).\n", f.DAError.FormatDensityAltitude(e.Settings.Units.Length))

@@ -29,7 +29,7 @@ func lastLogbookRow(t *testing.T, dir string) map[string]string {
 
 // A weight was read three ways: predict took "1500kg" as 1500 lb, card and
 // predict took "3300abc" as 3300, and log add refused "1500kg" as out of
-// range. Every weight now goes through engine.ParseWeightLb: a unit is
+// range. Every weight now goes through logbook.ParseWeightLb: a unit is
 // read, a bare number is in the crew's units, and one message is given.
 func TestOneParserForWeight(t *testing.T) {
 	reading := []string{"--temp", "85F", "--baro", "27.6inHg", "--humidity", "35%"}

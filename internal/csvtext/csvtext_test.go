@@ -6,8 +6,8 @@ import (
 	"testing"
 	"time"
 
-	"pitcard/engine"
 	"pitcard/internal/csvtext"
+	"pitcard/logbook"
 	"pitcard/weather"
 )
 
@@ -48,13 +48,13 @@ func TestCellAndText(t *testing.T) {
 func TestTheLogsWriteFormulasAsText(t *testing.T) {
 	loc := time.UTC
 	note := "=HYPERLINK(\"http://evil.example\")"
-	p, err := engine.ParsePass(engine.SlipFields{Values: map[string]string{"date": "2026-06-13", "time": "20:48", "track": "@Juniper Bend",
+	p, err := logbook.ParsePass(logbook.SlipFields{Values: map[string]string{"date": "2026-06-13", "time": "20:48", "track": "@Juniper Bend",
 		"session": "E3", "lane": "left", "rt": "-0.034", "et60": "1.602", "et1320": "11.431", "mph1320": "117.61", "notes": note}}, loc)
 	if err != nil {
 		t.Fatal(err)
 	}
 	var lb bytes.Buffer
-	if err := engine.WriteLogbook(&lb, []engine.Pass{p}); err != nil {
+	if err := logbook.Write(&lb, []logbook.Pass{p}); err != nil {
 		t.Fatal(err)
 	}
 	for _, want := range []string{",'@Juniper Bend,", ",-0.034,", `"'=HYPERLINK(""http://evil.example"")"`} {
@@ -62,7 +62,7 @@ func TestTheLogsWriteFormulasAsText(t *testing.T) {
 			t.Errorf("logbook.csv lacks %s:\n%s", want, lb.String())
 		}
 	}
-	back, err := engine.ReadLogbook(strings.NewReader(lb.String()), "logbook.csv", loc)
+	back, err := logbook.Read(strings.NewReader(lb.String()), "logbook.csv", loc)
 	if err != nil || len(back) != 1 || back[0].Notes != note || back[0].Track != "@Juniper Bend" || back[0].RT.Decimal.String() != "-0.034" {
 		t.Errorf("logbook.csv read back: %+v %v", back, err)
 	}

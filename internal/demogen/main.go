@@ -21,6 +21,7 @@ import (
 	"github.com/shopspring/decimal"
 
 	"pitcard/engine"
+	"pitcard/logbook"
 	"pitcard/weather"
 )
 
@@ -78,7 +79,7 @@ func generate(outDir string) (int, int, error) {
 		{time.Date(2026, 5, 30, 0, 0, 0, 0, time.Local), home, 90, 20, stn(home, 29.92), 0.18, 0.32, 134, []string{"T1", "T2", "T3", "E1", "E2", "E3", "E4", "E5", "E6"}, "13:30", 45},
 		{time.Date(2026, 6, 6, 0, 0, 0, 0, time.Local), home, 93, 17, stn(home, 29.97), 0.22, 0.38, 139, []string{"T1", "T2", "T3", "E1", "E2", "E3", "E4"}, "14:00", 55},
 	}
-	var passes []engine.Pass
+	var passes []logbook.Pass
 	v := engine.NewVehicle(car, 0)
 	for _, d := range days {
 		first, _ := weather.ParseClock(d.firstPass, d.date, time.Local)
@@ -123,7 +124,7 @@ func generate(outDir string) (int, int, error) {
 
 	must(os.MkdirAll(filepath.Join(*out, "tracks"), 0o755))
 	var lb bytes.Buffer
-	must(engine.WriteLogbook(&lb, passes))
+	must(logbook.Write(&lb, passes))
 	must(os.WriteFile(filepath.Join(*out, "logbook.csv"), lb.Bytes(), 0o644))
 	var wb bytes.Buffer
 	must(weather.WriteLog(&wb, log))
@@ -147,23 +148,23 @@ func generate(outDir string) (int, int, error) {
 
 // pass is the model's run in r with a driver's scatter: 60 ft ±0.008 s
 // carried 1.5× to the finish, ±0.009 s more of its own (0.015 s in all).
-func pass(rng *rand.Rand, v *engine.Vehicle, t engine.Track, r weather.Reading, session string, k int) engine.Pass {
+func pass(rng *rand.Rand, v *engine.Vehicle, t engine.Track, r weather.Reading, session string, k int) logbook.Pass {
 	prep, _ := engine.ParsePrep(t.Prep)
 	run := engine.Simulate(v, truth, engine.NewEnv(r, t.HeadingDeg, prep, v.MassKg), 1320)
-	s, err := engine.ParseSession(session)
+	s, err := logbook.ParseSession(session)
 	must(err)
-	p := engine.Pass{Time: r.Time, Track: t.Name, Session: s, Lane: []engine.Lane{engine.Left, engine.Right}[k%2], Air: r, HasAir: true, WeightLb: car.WeightLb}
+	p := logbook.Pass{Time: r.Time, Track: t.Name, Session: s, Lane: []logbook.Lane{logbook.Left, logbook.Right}[k%2], Air: r, HasAir: true, WeightLb: car.WeightLb}
 	e0 := rng.NormFloat64() * 0.008
 	gain := [5]float64{1, 1.3, 1.4, 1.5, 1.5}
 	sd := [5]float64{0, 0.005, 0.007, 0.008, 0.009}
-	for j := range engine.Timers {
+	for j := range logbook.Timers {
 		p.ET[j] = dec(run.ET[j]+e0*gain[j]+rng.NormFloat64()*sd[j], 3)
 	}
 	p.MPH660 = dec(run.MPH660+rng.NormFloat64()*0.25, 2)
 	p.MPH1320 = dec(run.MPH1320+rng.NormFloat64()*0.3, 2)
 	rt := 0.012 + math.Abs(rng.NormFloat64())*0.025
 	p.RT = dec(rt, 3)
-	if s.Kind == engine.Elimination {
+	if s.Kind == logbook.Elimination {
 		// the crew dials a few hundredths under what the car runs
 		p.Dial = dec(math.Floor((run.ET[4]-0.03)*100)/100, 2)
 	}
@@ -172,8 +173,8 @@ func pass(rng *rand.Rand, v *engine.Vehicle, t engine.Track, r weather.Reading, 
 }
 
 // lift turns a pass into one the driver got out of: slower from 660 ft on.
-func lift(p *engine.Pass, lost, mph float64, note string) {
-	for j, ft := range engine.Timers {
+func lift(p *logbook.Pass, lost, mph float64, note string) {
+	for j, ft := range logbook.Timers {
 		if ft > 660 {
 			et := p.ET[j].Decimal.InexactFloat64() + lost*(ft-660)/660
 			p.ET[j] = dec(et, 3)

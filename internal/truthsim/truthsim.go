@@ -33,6 +33,7 @@ import (
 	"github.com/shopspring/decimal"
 
 	"pitcard/engine"
+	"pitcard/logbook"
 	"pitcard/weather"
 )
 
@@ -81,7 +82,7 @@ type World struct {
 // Pass is one generated pass: the slip and conditions as a crew logs them,
 // and what the truth knows of it.
 type Pass struct {
-	Logged engine.Pass
+	Logged logbook.Pass
 	Oracle [5]float64 // the run without the per-pass noise, s (NaN past the distance)
 	// Typical is the run without the noise and with the day's tune-up and
 	// prep at their usual: what the physics alone says before the day shows
@@ -395,14 +396,14 @@ func (w World) simulate(dy day, c cond, massLb float64, n noise, abort bool) run
 
 // logged is what the crew writes down: the slip to the thousandth, the
 // weather as their meters read it (a little off), the weight when weighed.
-func (w World) logged(c cond, t time.Time, k int, massLb float64, ran run, r *rand.Rand) engine.Pass {
+func (w World) logged(c cond, t time.Time, k int, massLb float64, ran run, r *rand.Rand) logbook.Pass {
 	et := ran.et
-	ses := engine.Session{Kind: engine.TimeTrial, N: k + 1}
+	ses := logbook.Session{Kind: logbook.TimeTrial, N: k + 1}
 	if k >= 3 {
-		ses = engine.Session{Kind: engine.Elimination, N: k - 2}
+		ses = logbook.Session{Kind: logbook.Elimination, N: k - 2}
 	}
-	p := engine.Pass{Time: t, Track: w.Track.Name, Session: ses, Lane: []engine.Lane{engine.Left, engine.Right}[r.IntN(2)]}
-	for i, ft := range engine.Timers {
+	p := logbook.Pass{Time: t, Track: w.Track.Name, Session: ses, Lane: []logbook.Lane{logbook.Left, logbook.Right}[r.IntN(2)]}
+	for i, ft := range logbook.Timers {
 		if ft <= w.Car.DistanceFt && !math.IsNaN(et[i]) {
 			p.ET[i] = decimal.NewNullDecimal(decimal.NewFromFloat(et[i]).Round(3))
 		}
@@ -494,12 +495,12 @@ func Worlds() []World {
 	}
 }
 
-// FinishIndex is the index in engine.Timers of a distance's finish line.
+// FinishIndex is the index in logbook.Timers of a distance's finish line.
 func FinishIndex(ft float64) int {
-	for i, t := range engine.Timers {
+	for i, t := range logbook.Timers {
 		if t == ft {
 			return i
 		}
 	}
-	return len(engine.Timers) - 1
+	return len(logbook.Timers) - 1
 }

@@ -1,4 +1,4 @@
-package engine
+package bracket
 
 import (
 	"math"
@@ -7,6 +7,9 @@ import (
 	"testing"
 
 	"github.com/shopspring/decimal"
+
+	"pitcard/internal/stats"
+	"pitcard/logbook"
 )
 
 func dials(from, step float64, n int) []decimal.Decimal {
@@ -56,7 +59,7 @@ func TestWinChanceLimits(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		want := map[Lane]float64{Left: 1, Right: 0, "": 0.5}[o.Winner]
+		want := map[logbook.Lane]float64{logbook.Left: 1, logbook.Right: 0, "": 0.5}[o.Winner]
 		if got != want {
 			t.Errorf("%+v: win %.3f, Settle says %s (%s)", c, got, o.Winner, o.Explanation)
 		}
@@ -71,7 +74,7 @@ func rtDraw(m RTModel, r *rand.Rand) float64 {
 	if len(m.Samples) == 0 {
 		return m.Mean + m.SD*r.NormFloat64()
 	}
-	_, sd := MeanSD(m.Samples)
+	_, sd := stats.MeanSD(m.Samples)
 	return m.Samples[r.IntN(len(m.Samples))] + 0.2*sd*r.NormFloat64()
 }
 
@@ -113,7 +116,7 @@ func TestWinChanceAgreesWithSettle(t *testing.T) {
 						continue
 					}
 					switch o.Winner {
-					case Left:
+					case logbook.Left:
 						w++
 					case "":
 						w += 0.5
@@ -148,7 +151,7 @@ func TestWinChanceRTJitter(t *testing.T) {
 		Opp: Opponent{Dial: decimal.RequireFromString("12.00"), Margin: 0.30, MarginSD: 0.005, RT: RTModel{Mean: 0.05, SD: 0.005}}}
 	w := WinChances(in, []decimal.Decimal{decimal.RequireFromString("11.50")})[0]
 	sd := math.Sqrt(10 * 0.03 * 0.03 / 9)
-	red := 0.5 * NormalCDF(-0.0005/(0.2*sd))
+	red := 0.5 * stats.NormalCDF(-0.0005/(0.2*sd))
 	// ±0.008: 3.8 standard errors of WinDraws draws (√(0.234·0.766/40000) = 0.0021)
 	if math.Abs(w.RedLightChance-red) > 0.008 || math.Abs(w.Win-(1-red)) > 0.008 {
 		t.Errorf("red lights %.4f, win %.4f; the smoothed bootstrap gives %.4f and %.4f", w.RedLightChance, w.Win, red, 1-red)

@@ -1,9 +1,10 @@
-package engine
+package logbook
 
 import (
 	"math"
 	"time"
 
+	"pitcard/internal/stats"
 	"pitcard/weather"
 )
 
@@ -78,20 +79,20 @@ func Stats(passes []Pass, residual map[string]float64, day weather.DayStart, abo
 		}
 		s.Clean = len(ets)
 		if len(ets) > 0 {
-			s.ETMean, s.ETSD = MeanSD(ets)
+			s.ETMean, s.ETSD = stats.MeanSD(ets)
 			s.ETMin, s.ETMax = minMax(ets)
 		}
 		s.RTN = len(rts)
 		if len(rts) > 0 {
-			s.RTMean, s.RTSD = MeanSD(rts)
+			s.RTMean, s.RTSD = stats.MeanSD(rts)
 		}
 		s.CorrectedN = len(res)
 		if len(res) > 1 {
-			_, s.CorrectedSD = MeanSD(res)
+			_, s.CorrectedSD = stats.MeanSD(res)
 		}
 		s.SixtyN = len(sixties)
 		if len(sixties) > 1 {
-			_, s.SixtySD = MeanSD(sixties)
+			_, s.SixtySD = stats.MeanSD(sixties)
 		}
 		out = append(out, s)
 	}

@@ -1,4 +1,4 @@
-package engine
+package bracket
 
 import (
 	"fmt"
@@ -6,6 +6,7 @@ import (
 
 	"github.com/shopspring/decimal"
 
+	"pitcard/logbook"
 	"pitcard/weather"
 )
 
@@ -119,11 +120,11 @@ const (
 
 // Outcome is a settled race.
 type Outcome struct {
-	Winner      Lane   // "" for a tie or a double foul nobody wins
-	Reason      string // one of the Reason constants
-	Explanation string // the decision in words
+	Winner      logbook.Lane // "" for a tie or a double foul nobody wins
+	Reason      string       // one of the Reason constants
+	Explanation string       // the decision in words
 	Left, Right LaneResult
-	First       Lane            // first to the finish ("" when level)
+	First       logbook.Lane    // first to the finish ("" when level)
 	MarginS     decimal.Decimal // difference at the finish, s (≥ 0)
 	MarginFt    float64         // MarginS at the trailing car's speed, ft; 0 without a speed
 	HasMarginFt bool
@@ -169,12 +170,12 @@ func Settle(left, right LaneRun, rules RaceRules) (Outcome, error) {
 	o.MarginS = o.Left.Finish.Sub(o.Right.Finish).Abs()
 	switch o.Left.Finish.Cmp(o.Right.Finish) {
 	case -1:
-		o.First = Left
+		o.First = logbook.Left
 	case 1:
-		o.First = Right
+		o.First = logbook.Right
 	}
 	trailing := right.MPH
-	if o.First == Right {
+	if o.First == logbook.Right {
 		trailing = left.MPH
 	}
 	if !trailing.Valid {
@@ -210,51 +211,51 @@ type raceFacts struct {
 // decide is the bracket rules themselves, the one place they are written:
 // Settle applies them to two slips, WinChances to every draw of a race not
 // yet run.
-func decide(f raceFacts) (Lane, string) {
+func decide(f raceFacts) (logbook.Lane, string) {
 	L, R := f.L, f.R
 	switch { // fouls first: red lights, then boundary fouls
 	case L.RedLight && R.RedLight:
 		switch f.Leave {
 		case -1:
-			return Right, ReasonRedLight
+			return logbook.Right, ReasonRedLight
 		case 1:
-			return Left, ReasonRedLight
+			return logbook.Left, ReasonRedLight
 		}
 		return "", ReasonDoubleFoul
 	case L.RedLight:
-		return Right, ReasonRedLight
+		return logbook.Right, ReasonRedLight
 	case R.RedLight:
-		return Left, ReasonRedLight
+		return logbook.Left, ReasonRedLight
 	case L.Foul && R.Foul:
 		return "", ReasonDoubleFoul
 	case L.Foul:
-		return Right, ReasonFoul
+		return logbook.Right, ReasonFoul
 	case R.Foul:
-		return Left, ReasonFoul
+		return logbook.Left, ReasonFoul
 	}
-	first := Lane("")
+	first := logbook.Lane("")
 	switch f.Finish {
 	case -1:
-		first = Left
+		first = logbook.Left
 	case 1:
-		first = Right
+		first = logbook.Right
 	}
 	switch {
 	case L.Breakout && R.Breakout:
 		switch f.OverDial {
 		case 1:
-			return Left, ReasonDoubleBreakout
+			return logbook.Left, ReasonDoubleBreakout
 		case -1:
-			return Right, ReasonDoubleBreakout
+			return logbook.Right, ReasonDoubleBreakout
 		}
 		if first != "" {
 			return first, ReasonDoubleBreakout
 		}
 		return "", ReasonTie
 	case L.Breakout:
-		return Right, ReasonBreakout
+		return logbook.Right, ReasonBreakout
 	case R.Breakout:
-		return Left, ReasonBreakout
+		return logbook.Left, ReasonBreakout
 	}
 	if first == "" {
 		return "", ReasonTie
@@ -265,19 +266,19 @@ func decide(f raceFacts) (Lane, string) {
 // explain says a settled race's decision in words.
 func explain(o Outcome, f raceFacts, left, right LaneRun) string {
 	L, R := o.Left, o.Right
-	rt := func(x LaneResult) string { return FormatSeconds(x.Reaction, 3) }
+	rt := func(x LaneResult) string { return logbook.FormatSeconds(x.Reaction, 3) }
 	bo := func(x LaneResult, r LaneRun) string {
-		return fmt.Sprintf("%s (%s on a %s dial)", FormatSeconds(x.OverDial.Abs(), 3), FormatSeconds(r.ET, 3), FormatSeconds(r.Dial, 2))
+		return fmt.Sprintf("%s (%s on a %s dial)", logbook.FormatSeconds(x.OverDial.Abs(), 3), logbook.FormatSeconds(r.ET, 3), logbook.FormatSeconds(r.Dial, 2))
 	}
 	switch o.Reason {
 	case ReasonRedLight:
 		if L.RedLight && R.RedLight {
-			if o.Winner == Right {
+			if o.Winner == logbook.Right {
 				return fmt.Sprintf("both red-lit; left left first (reaction %s) and loses", rt(L))
 			}
 			return fmt.Sprintf("both red-lit; right left first (reaction %s) and loses", rt(R))
 		}
-		if o.Winner == Right {
+		if o.Winner == logbook.Right {
 			return fmt.Sprintf("left red-lit (reaction %s)", rt(L))
 		}
 		return fmt.Sprintf("right red-lit (reaction %s)", rt(R))
@@ -287,7 +288,7 @@ func explain(o Outcome, f raceFacts, left, right LaneRun) string {
 		}
 		return "both lanes fouled: the first to foul loses, and the track's officials decide who that was"
 	case ReasonFoul:
-		if o.Winner == Right {
+		if o.Winner == logbook.Right {
 			return "left fouled (boundary or centerline)"
 		}
 		return "right fouled (boundary or centerline)"
@@ -298,9 +299,9 @@ func explain(o Outcome, f raceFacts, left, right LaneRun) string {
 		case -1:
 			return fmt.Sprintf("both broke out; right by less: %s against %s", bo(R, right), bo(L, left))
 		}
-		return fmt.Sprintf("both broke out by the same %s; %s reached the finish first", FormatSeconds(L.OverDial.Abs(), 3), o.First)
+		return fmt.Sprintf("both broke out by the same %s; %s reached the finish first", logbook.FormatSeconds(L.OverDial.Abs(), 3), o.First)
 	case ReasonBreakout:
-		if o.Winner == Right {
+		if o.Winner == logbook.Right {
 			return fmt.Sprintf("left broke out by %s", bo(L, left))
 		}
 		return fmt.Sprintf("right broke out by %s", bo(R, right))
@@ -310,5 +311,5 @@ func explain(o Outcome, f raceFacts, left, right LaneRun) string {
 		}
 		return "both reached the finish at the same thousandth"
 	}
-	return fmt.Sprintf("%s reached the finish first by %s s; neither broke out", o.First, FormatSeconds(o.MarginS, 3))
+	return fmt.Sprintf("%s reached the finish first by %s s; neither broke out", o.First, logbook.FormatSeconds(o.MarginS, 3))
 }

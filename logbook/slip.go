@@ -1,4 +1,4 @@
-package engine
+package logbook
 
 import (
 	"fmt"
@@ -6,9 +6,15 @@ import (
 	"strings"
 
 	"github.com/shopspring/decimal"
+	"golang.org/x/text/unicode/norm"
 
 	"pitcard/weather"
 )
+
+// TrackName is a track's name as pitcard keeps it: trimmed, in Unicode's
+// composed form (NFC), so "Café" typed with a combining accent is the same
+// track as "Café" typed with é.
+func TrackName(s string) string { return norm.NFC.String(strings.TrimSpace(s)) }
 
 // Timers are the distances, in feet, a drag strip times: 60 ft, 330 ft, the
 // eighth mile (660), 1000 ft and the quarter mile (1320).
@@ -25,8 +31,8 @@ func TimersFor(distance float64) []float64 {
 	return out
 }
 
-// timerIndex is the index in Timers of distance ft, or -1.
-func timerIndex(ft float64) int {
+// TimerIndex is the index in Timers (and in Pass.ET) of distance ft, or -1.
+func TimerIndex(ft float64) int {
 	for i, t := range Timers {
 		if t == ft {
 			return i

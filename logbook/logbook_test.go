@@ -1,4 +1,4 @@
-package engine
+package logbook
 
 import (
 	"bytes"
@@ -8,7 +8,12 @@ import (
 	"time"
 
 	"pitcard/weather"
+
+	"github.com/shopspring/decimal"
 )
+
+// d is a slip figure as typed, exact.
+func d(s string) decimal.Decimal { return decimal.RequireFromString(s) }
 
 const header = "date,time,track,session,lane,dial,rt,et60,et330,et660,et1000,et1320,mph660,mph1320,temp_f,baro_inhg,humidity_pct,track_temp_f,wind_mph,wind_from_deg,weight_lb,notes\n"
 
@@ -17,7 +22,7 @@ const header = "date,time,track,session,lane,dial,rt,et60,et330,et660,et1000,et1
 const goodRow = "2026-06-13,18:42,Test Strip,E1,left,11.52,0.021,1.612,4.689,7.321,9.605,11.538,92.44,116.79,88,28.91,38,121,6,210,3350,\n"
 
 func TestReadLogbook(t *testing.T) {
-	passes, err := ReadLogbook(strings.NewReader(header+goodRow), "logbook.csv", time.UTC)
+	passes, err := Read(strings.NewReader(header+goodRow), "logbook.csv", time.UTC)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -28,7 +33,7 @@ func TestReadLogbook(t *testing.T) {
 		t.Errorf("read %+v", p)
 	}
 	var buf bytes.Buffer
-	if err := WriteLogbook(&buf, passes); err != nil {
+	if err := Write(&buf, passes); err != nil {
 		t.Fatal(err)
 	}
 	if buf.String() != header+goodRow {
@@ -39,7 +44,7 @@ func TestReadLogbook(t *testing.T) {
 func TestReadLogbookMetric(t *testing.T) {
 	csv := "date,time,track,session,lane,et1320,temp_c,baro_hpa,humidity_pct,track_temp_c,wind_kmh,weight_kg\n" +
 		"2026-06-13,18:42,Test Strip,T1,right,11.538,31,979,38,50,10,1520\n"
-	passes, err := ReadLogbook(strings.NewReader(csv), "logbook.csv", time.UTC)
+	passes, err := Read(strings.NewReader(csv), "logbook.csv", time.UTC)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -77,7 +82,7 @@ func TestReadLogbookErrors(t *testing.T) {
 		{"date;time;track;session;lane;et1320\n", []string{"line 1", "semicolons", "commas"}},
 	}
 	for _, tc := range cases {
-		_, err := ReadLogbook(strings.NewReader(tc.csv), "logbook.csv", time.UTC)
+		_, err := Read(strings.NewReader(tc.csv), "logbook.csv", time.UTC)
 		if err == nil {
 			t.Errorf("no error for\n%s", tc.csv)
 			continue
@@ -90,7 +95,7 @@ func TestReadLogbookErrors(t *testing.T) {
 	}
 	// every bad row is reported at once
 	many := header + row(func(f []string) { f[14] = "190" }) + row(func(f []string) { f[1] = "19:00"; f[4] = "x" })
-	_, err := ReadLogbook(strings.NewReader(many), "logbook.csv", time.UTC)
+	_, err := Read(strings.NewReader(many), "logbook.csv", time.UTC)
 	var re RowErrors
 	if !errors.As(err, &re) || len(re) != 2 {
 		t.Errorf("want 2 row errors, got %v", err)
@@ -105,7 +110,7 @@ func TestLogbookKeepsBadRowsAndCrewColumns(t *testing.T) {
 		"2026-06-13,18:42,Test Strip,E1,left,8 gal,1.612,11.538,\n" +
 		"2026-06-13,19:30,Test Strip,E2,left,7 gal,1.610,11.54\n" + // cut short: one field missing
 		"2026-06-13,20:15,Test Strip,E3,left,6 gal,1.605,41.5,\n" // out of range
-	lb, err := ReadLogbookFile(strings.NewReader(file), "logbook.csv", time.UTC)
+	lb, err := ReadFile(strings.NewReader(file), "logbook.csv", time.UTC)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -119,7 +124,7 @@ func TestLogbookKeepsBadRowsAndCrewColumns(t *testing.T) {
 			}
 		}
 	}
-	if _, err := ReadLogbook(strings.NewReader(file), "logbook.csv", time.UTC); err == nil {
+	if _, err := Read(strings.NewReader(file), "logbook.csv", time.UTC); err == nil {
 		t.Error("the strict reader (import) took a file with bad rows")
 	}
 	added := lb.Passes[0]
@@ -130,7 +135,7 @@ func TestLogbookKeepsBadRowsAndCrewColumns(t *testing.T) {
 		t.Fatal(err)
 	}
 	written := buf.String()
-	again, err := ReadLogbookFile(&buf, "logbook.csv", time.UTC)
+	again, err := ReadFile(&buf, "logbook.csv", time.UTC)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -164,7 +169,7 @@ func FuzzReadLogbook(f *testing.F) {
 	f.Add(header + strings.Replace(goodRow, "11.538", "-0", 1))
 	f.Add("date,time,track,session,lane,et1320\n\"a\nb\",1,2,3,4,5\n")
 	f.Fuzz(func(t *testing.T, s string) {
-		passes, err := ReadLogbook(strings.NewReader(s), "logbook.csv", time.UTC)
+		passes, err := Read(strings.NewReader(s), "logbook.csv", time.UTC)
 		if err != nil {
 			var re RowErrors
 			var ie *weather.InputError
@@ -186,10 +191,10 @@ func FuzzReadLogbook(f *testing.F) {
 		}
 		// what was accepted writes and reads back the same
 		var buf bytes.Buffer
-		if err := WriteLogbook(&buf, passes); err != nil {
+		if err := Write(&buf, passes); err != nil {
 			t.Fatal(err)
 		}
-		again, err := ReadLogbook(&buf, "logbook.csv", time.UTC)
+		again, err := Read(&buf, "logbook.csv", time.UTC)
 		if err != nil || len(again) != len(passes) {
 			t.Fatalf("accepted rows did not read back: %v\n%s", err, buf.String())
 		}
@@ -217,7 +222,7 @@ func TestParseSecondsAsSlipsPrintThem(t *testing.T) {
 // read.
 func TestLogbookRepeatedHeaderAndLineEndings(t *testing.T) {
 	second := strings.Replace(goodRow, "2026-06-13", "2026-06-14", 1)
-	lb, err := ReadLogbookFile(strings.NewReader(header+goodRow+header+second), "logbook.csv", time.UTC)
+	lb, err := ReadFile(strings.NewReader(header+goodRow+header+second), "logbook.csv", time.UTC)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -231,7 +236,7 @@ func TestLogbookRepeatedHeaderAndLineEndings(t *testing.T) {
 			if tc.name == "mixed" {
 				data = h + "\r\n" + a + "\r" + b + "\n"
 			}
-			passes, err := ReadLogbook(strings.NewReader(data), "logbook.csv", time.UTC)
+			passes, err := Read(strings.NewReader(data), "logbook.csv", time.UTC)
 			if err != nil || len(passes) != 2 {
 				t.Errorf("%d passes, %v", len(passes), err)
 			}
@@ -242,21 +247,22 @@ func TestLogbookRepeatedHeaderAndLineEndings(t *testing.T) {
 // The same track name typed in two Unicode forms (é as one code point, or e
 // and a combining accent, as some keyboards and spreadsheets write it) is one
 // track: the same pass in both forms is the same pass, and a track.yaml in
-// one form names the logbook's rows in the other.
+// one form names the logbook's rows in the other (engine checks track.yaml's
+// side).
 func TestTrackNameUnicodeForms(t *testing.T) {
 	nfc, nfd := "Caf\u00e9 Raceway", "Cafe\u0301 Raceway"
 	a := strings.Replace(goodRow, "Test Strip", nfc, 1)
 	b := strings.Replace(goodRow, "Test Strip", nfd, 1)
-	lb, err := ReadLogbookFile(strings.NewReader(header+a+b), "logbook.csv", time.UTC)
+	lb, err := ReadFile(strings.NewReader(header+a+b), "logbook.csv", time.UTC)
 	if err != nil {
 		t.Fatal(err)
 	}
 	if len(lb.Passes) != 1 || len(lb.Bad) != 1 || !strings.Contains(lb.Bad[0].Error(), "same pass") {
 		t.Errorf("passes %d, bad %v", len(lb.Passes), lb.Bad)
 	}
-	trk, err := ReadTrack(strings.NewReader("name: "+nfd+"\nelevation_ft: 900\n"), "track.yaml")
-	if err != nil || trk.Name != lb.Passes[0].Track {
-		t.Errorf("track.yaml name %q, logbook %q (%v)", trk.Name, lb.Passes[0].Track, err)
+	// track.yaml's name goes through TrackName too (engine's TestTrackYAMLNameUnicodeForms).
+	if TrackName(nfd) != lb.Passes[0].Track || TrackName(nfc) != lb.Passes[0].Track {
+		t.Errorf("TrackName %q and %q, logbook %q", TrackName(nfd), TrackName(nfc), lb.Passes[0].Track)
 	}
 }
 
@@ -264,7 +270,7 @@ func TestTrackNameUnicodeForms(t *testing.T) {
 // line is still named as a header, not as a row of the wrong length.
 func TestLogbookRepeatedHeaderOtherOrder(t *testing.T) {
 	other := "time,date,track,session,lane,dial,rt,et60,et1320,mph1320,notes\n"
-	lb, err := ReadLogbookFile(strings.NewReader(header+goodRow+other), "logbook.csv", time.UTC)
+	lb, err := ReadFile(strings.NewReader(header+goodRow+other), "logbook.csv", time.UTC)
 	if err != nil {
 		t.Fatal(err)
 	}

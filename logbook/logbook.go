@@ -1,4 +1,4 @@
-package engine
+package logbook
 
 import (
 	"encoding/csv"
@@ -45,7 +45,7 @@ type Pass struct {
 
 // ETAt is the elapsed time at timer ft as a float, and whether it was timed.
 func (p Pass) ETAt(ft float64) (float64, bool) {
-	i := timerIndex(ft)
+	i := TimerIndex(ft)
 	if i < 0 || !p.ET[i].Valid {
 		return 0, false
 	}
@@ -72,8 +72,8 @@ func (p Pass) Key() string {
 // timerColumns are the logbook's elapsed-time columns, one per timer.
 var timerColumns = [5]string{"et60", "et330", "et660", "et1000", "et1320"}
 
-// LogbookColumns are logbook.csv's columns, in order. Units are in the names.
-var LogbookColumns = []string{"date", "time", "track", "session", "lane", "dial", "rt",
+// Columns are logbook.csv's columns, in order. Units are in the names.
+var Columns = []string{"date", "time", "track", "session", "lane", "dial", "rt",
 	"et60", "et330", "et660", "et1000", "et1320", "mph660", "mph1320",
 	"temp_f", "baro_inhg", "humidity_pct", "track_temp_f", "wind_mph", "wind_from_deg", "weight_lb", "notes"}
 
@@ -142,20 +142,20 @@ func (lb *Logbook) Kept() bool {
 	return true
 }
 
-// ReadLogbookFile reads a logbook from r; name is the file's name for
+// ReadFile reads a logbook from r; name is the file's name for
 // messages and loc the zone of its times. A row that fails its checks (or
 // repeats a pass) is set aside in Bad with its file, line, column, value and
 // rule, and the rest are read; only a header pitcard cannot read, or a
 // failing reader, is an error. Passes come back in time order.
-func ReadLogbookFile(r io.Reader, name string, loc *time.Location) (*Logbook, error) {
-	return ReadLogbookRecent(r, name, loc, 0)
+func ReadFile(r io.Reader, name string, loc *time.Location) (*Logbook, error) {
+	return ReadRecent(r, name, loc, 0)
 }
 
-// ReadLogbookRecent is ReadLogbookFile that keeps only the last keep passes
+// ReadRecent is ReadFile that keeps only the last keep passes
 // (0: all), every row still checked: what a card needs from a long logbook
 // (a fit uses its recent passes) without holding ten seasons in memory. A
 // logbook read so must not be written back.
-func ReadLogbookRecent(r io.Reader, name string, loc *time.Location, keep int) (*Logbook, error) {
+func ReadRecent(r io.Reader, name string, loc *time.Location, keep int) (*Logbook, error) {
 	cr, header, err := weather.OpenCSV(r, name)
 	if err != nil {
 		return nil, err
@@ -265,11 +265,11 @@ func ReadLogbookRecent(r io.Reader, name string, loc *time.Location, keep int) (
 	return lb, nil
 }
 
-// ReadLogbook reads a logbook strictly, as an import does: when any row
+// Read reads a logbook strictly, as an import does: when any row
 // fails, the result is RowErrors naming each bad row (the first
 // maxRowErrors of them) and no passes.
-func ReadLogbook(r io.Reader, name string, loc *time.Location) ([]Pass, error) {
-	lb, err := ReadLogbookFile(r, name, loc)
+func Read(r io.Reader, name string, loc *time.Location) ([]Pass, error) {
+	lb, err := ReadFile(r, name, loc)
 	if err != nil {
 		return nil, err
 	}
@@ -286,7 +286,7 @@ func ReadLogbook(r io.Reader, name string, loc *time.Location) ([]Pass, error) {
 func (lb *Logbook) Write(w io.Writer) error {
 	header := append([]string(nil), lb.Header...)
 	if len(header) == 0 {
-		header = append(append(header, LogbookColumns...), lb.Extra...)
+		header = append(append(header, Columns...), lb.Extra...)
 	}
 	has := map[string]bool{}
 	for _, h := range header {
@@ -295,7 +295,7 @@ func (lb *Logbook) Write(w io.Writer) error {
 			has[c] = true
 		}
 	}
-	for _, c := range LogbookColumns {
+	for _, c := range Columns {
 		if !has[c] {
 			header = append(header, c)
 		}
@@ -353,7 +353,7 @@ func SortPasses(p []Pass) {
 }
 
 func logbookHeader(header []string, name string) (map[string]weather.Column, []weather.Column, error) {
-	col, extra, err := weather.ReadHeaderExtra(header, name, "logbook", LogbookColumns, logbookAlternatives, []string{"date", "time", "track", "session", "lane"})
+	col, extra, err := weather.ReadHeaderExtra(header, name, "logbook", Columns, logbookAlternatives, []string{"date", "time", "track", "session", "lane"})
 	if err != nil {
 		return nil, nil, err
 	}
@@ -492,7 +492,7 @@ func ParsePass(f SlipFields, loc *time.Location) (Pass, error) {
 			if ratio := d.InexactFloat64() / avg; ratio < TrapRatioRange[0] || ratio > TrapRatioRange[1] {
 				return p, &weather.InputError{Field: name(trap.c), Value: v,
 					Reason: fmt.Sprintf("is not plausible with et%.0f %s: the average speed to %.0f ft is %.1f mph, and a trap speed is %.2f..%.1f times that",
-						trap.ft, FormatSeconds(p.ET[timerIndex(trap.ft)].Decimal, 3), trap.ft, avg, TrapRatioRange[0], TrapRatioRange[1])}
+						trap.ft, FormatSeconds(p.ET[TimerIndex(trap.ft)].Decimal, 3), trap.ft, avg, TrapRatioRange[0], TrapRatioRange[1])}
 			}
 		}
 		*trap.dst = decimal.NewNullDecimal(d)
@@ -606,16 +606,16 @@ func logbookColumn(field string, f SlipFields) string {
 	return c
 }
 
-// WriteLogbook writes passes as logbook.csv with its header, in imperial
+// Write writes passes as logbook.csv with its header, in imperial
 // columns, times with the digits they were typed with.
-func WriteLogbook(w io.Writer, passes []Pass) error {
+func Write(w io.Writer, passes []Pass) error {
 	cw := csv.NewWriter(w)
-	if err := cw.Write(LogbookColumns); err != nil {
+	if err := cw.Write(Columns); err != nil {
 		return err
 	}
 	for _, p := range passes {
 		rec := PassRecord(p)
-		for i, c := range LogbookColumns {
+		for i, c := range Columns {
 			if textColumns[c] {
 				rec[i] = csvtext.Cell(rec[i])
 			}
@@ -631,15 +631,15 @@ func WriteLogbook(w io.Writer, passes []Pass) error {
 // spreadsheet as text, not as a formula, and reads back as typed.
 var textColumns = map[string]bool{"track": true, "notes": true}
 
-// PassRecord is p as a row of logbook.csv's columns (LogbookColumns), its
+// PassRecord is p as a row of logbook.csv's columns (Columns), its
 // text as typed.
 func PassRecord(p Pass) []string {
-	return passValues(p)[:len(LogbookColumns)]
+	return passValues(p)[:len(Columns)]
 }
 
 // fieldColumns are every column passValues fills: logbook.csv's and their
 // metric twins; fieldIndex finds a column's place.
-var fieldColumns = append(append([]string(nil), LogbookColumns...), "temp_c", "baro_hpa", "track_temp_c", "wind_kmh", "weight_kg")
+var fieldColumns = append(append([]string(nil), Columns...), "temp_c", "baro_hpa", "track_temp_c", "wind_kmh", "weight_kg")
 
 var fieldIndex = func() map[string]int {
 	m := make(map[string]int, len(fieldColumns))

@@ -1,4 +1,4 @@
-package engine
+package bracket
 
 import (
 	"math"
@@ -6,25 +6,10 @@ import (
 	"time"
 
 	"github.com/shopspring/decimal"
-)
 
-// Source: standard normal distribution table (e.g. NIST/SEMATECH e-Handbook of
-// Statistical Methods, "Cumulative distribution function of the standard normal").
-func TestNormalTable(t *testing.T) {
-	cases := []struct{ z, p float64 }{
-		{0, 0.5000}, {1, 0.8413}, {-1, 0.1587}, {1.645, 0.9500}, {-1.28, 0.1003}, {2, 0.9772}, {-2.326, 0.0100}, {3, 0.99865},
-	}
-	for _, tc := range cases {
-		if got := NormalCDF(tc.z); math.Abs(got-tc.p) > 0.00006 {
-			t.Errorf("Φ(%v) = %.5f, table %.4f", tc.z, got, tc.p)
-		}
-		if tc.p > 0.001 && tc.p < 0.999 {
-			if back := NormalQuantile(NormalCDF(tc.z)); math.Abs(back-tc.z) > 1e-9 {
-				t.Errorf("Φ⁻¹(Φ(%v)) = %v", tc.z, back)
-			}
-		}
-	}
-}
+	"pitcard/internal/stats"
+	"pitcard/logbook"
+)
 
 // Breakout chance is the normal table value at (dial − ET)/SD; the expected
 // giveaway at a dial equal to the mean is σ/√(2π) (standard result for the
@@ -106,12 +91,12 @@ func TestRoundToStep(t *testing.T) {
 // time; a typo far from the rest is left out too.
 func TestRecentEstimate(t *testing.T) {
 	base := time.Date(2026, 6, 13, 12, 0, 0, 0, time.UTC)
-	mk := func(i int, et string, notes string) Pass {
-		p := Pass{Time: base.Add(time.Duration(i) * time.Hour), Notes: notes}
+	mk := func(i int, et string, notes string) logbook.Pass {
+		p := logbook.Pass{Time: base.Add(time.Duration(i) * time.Hour), Notes: notes}
 		p.ET[4] = decimal.NewNullDecimal(d(et))
 		return p
 	}
-	passes := []Pass{mk(0, "11.50", ""), mk(1, "11.52", ""), mk(2, "12.90", "lifted at 1000"), mk(3, "11.48", ""), mk(4, "13.40", ""), mk(5, "11.51", "")}
+	passes := []logbook.Pass{mk(0, "11.50", ""), mk(1, "11.52", ""), mk(2, "12.90", "lifted at 1000"), mk(3, "11.48", ""), mk(4, "13.40", ""), mk(5, "11.51", "")}
 	est, used, err := RecentEstimate(passes, 1320, 10, nil)
 	if err != nil {
 		t.Fatal(err)
@@ -121,47 +106,6 @@ func TestRecentEstimate(t *testing.T) {
 	}
 	if _, _, err := RecentEstimate(passes[:1], 1320, 10, nil); err == nil {
 		t.Error("one pass gave an estimate")
-	}
-}
-
-// What a crew writes on a slip, and whether the pass is the car's time.
-// Common practice (no source): spinning, smoking the tires, lifting and
-// pedaling lose the run; a mild shake or a negated word does not.
-func TestAbortedNotes(t *testing.T) {
-	for _, tc := range []struct {
-		notes string
-		want  bool
-	}{
-		{"spin", true},
-		{"spinning at the hit", true},
-		{"smoked the tires", true},
-		{"tire spin at the hit", true},
-		{"LIFT", true},
-		{"lifted at 1000", true},
-		{"pedaled it", true},
-		{"tire shake", true},
-		{"shook hard, pedaled", true},
-		{"no shake", false},
-		{"smooth, no shake", false},
-		{"shook a little", false},
-		{"no tire shake, clean", false},
-		{"didn't spin", false},
-		{"did not lift", false},
-		{"no spin, lifted at the stripe", true}, // the negation stays in its clause
-		{"broke out by .01", false},             // a breakout is a full run
-		{"broke a u-joint", true},
-		{"shifted late", false}, // "lift" inside "shifted" is not a word
-		{"", false},
-	} {
-		t.Run(tc.notes, func(t *testing.T) {
-			if got := Aborted(tc.notes); got != tc.want {
-				t.Errorf("Aborted(%q) = %v, want %v", tc.notes, got, tc.want)
-			}
-		})
-	}
-	crew := DefaultAbortWords.With([]string{"Chute out early", " "})
-	if !crew.Aborted("chute out early at 900") || Aborted("chute out early at 900") || !crew.Aborted("lifted") {
-		t.Errorf("the crew's own words add to the defaults: %v", crew)
 	}
 }
 
@@ -188,9 +132,9 @@ func TestRecentEstimateCut(t *testing.T) {
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
-			var passes []Pass
+			var passes []logbook.Pass
 			for i, et := range append(append([]string(nil), clean...), tc.extra) {
-				p := Pass{Time: base.Add(time.Duration(i) * time.Hour)}
+				p := logbook.Pass{Time: base.Add(time.Duration(i) * time.Hour)}
 				p.ET[4] = decimal.NewNullDecimal(d(et))
 				passes = append(passes, p)
 			}
@@ -202,7 +146,7 @@ func TestRecentEstimateCut(t *testing.T) {
 			if tc.kept {
 				want = append(want, d(tc.extra).InexactFloat64())
 			}
-			m, sd := MeanSD(want)
+			m, sd := stats.MeanSD(want)
 			if len(used) != len(want) || math.Abs(est.ET-m) > 1e-9 {
 				t.Errorf("used %d passes, mean %.4f; want %d passes, mean %.4f", len(used), est.ET, len(want), m)
 			}
@@ -220,9 +164,9 @@ func TestRecentEstimateCut(t *testing.T) {
 // (pitcard's own rule, dial.go).
 func TestRecentEstimateTakesN(t *testing.T) {
 	base := time.Date(2026, 6, 13, 12, 0, 0, 0, time.UTC)
-	var passes []Pass
+	var passes []logbook.Pass
 	for i, et := range []string{"11.60", "11.50", "11.52", "11.48"} {
-		p := Pass{Time: base.Add(time.Duration(i) * time.Hour)}
+		p := logbook.Pass{Time: base.Add(time.Duration(i) * time.Hour)}
 		p.ET[4] = decimal.NewNullDecimal(d(et))
 		passes = append(passes, p)
 	}

@@ -1,10 +1,12 @@
-package engine
+package bracket
 
 import (
 	"math"
 	"testing"
 
 	"github.com/shopspring/decimal"
+
+	"pitcard/logbook"
 )
 
 func d(s string) decimal.Decimal { return decimal.RequireFromString(s) }
@@ -21,38 +23,38 @@ func TestSettle(t *testing.T) {
 		name        string
 		left, right LaneRun
 		rules       RaceRules
-		winner      Lane
+		winner      logbook.Lane
 		reason      string
 		margin      string
 	}{
 		{"how-to example 1: 14.20 car wins by .010 on a .500 full tree",
-			run("14.20", ".520", "14.32"), run("13.00", ".550", "13.10"), amberFull, Left, ReasonFirstToFinish, "0.010"},
+			run("14.20", ".520", "14.32"), run("13.00", ".550", "13.10"), amberFull, logbook.Left, ReasonFirstToFinish, "0.010"},
 		{"how-to example 1, lanes swapped",
-			run("13.00", ".550", "13.10"), run("14.20", ".520", "14.32"), amberFull, Right, ReasonFirstToFinish, "0.010"},
+			run("13.00", ".550", "13.10"), run("14.20", ".520", "14.32"), amberFull, logbook.Right, ReasonFirstToFinish, "0.010"},
 		{"how-to example 2: both break out, the 14.19 on 14.20 wins",
-			run("14.20", ".520", "14.19"), run("13.00", ".510", "12.96"), amberFull, Left, ReasonDoubleBreakout, ""},
+			run("14.20", ".520", "14.19"), run("13.00", ".510", "12.96"), amberFull, logbook.Left, ReasonDoubleBreakout, ""},
 		{"one breakout loses even when first to the finish",
-			run("12.00", ".010", "11.99"), run("12.00", ".200", "12.30"), green, Right, ReasonBreakout, ""},
+			run("12.00", ".010", "11.99"), run("12.00", ".200", "12.30"), green, logbook.Right, ReasonBreakout, ""},
 		{"red light beats a breakout",
-			run("12.00", "-.001", "12.05"), run("12.00", ".050", "11.90"), green, Right, ReasonRedLight, ""},
+			run("12.00", "-.001", "12.05"), run("12.00", ".050", "11.90"), green, logbook.Right, ReasonRedLight, ""},
 		{"red light on an amber-counted full tree is below .500",
-			run("12.00", ".499", "12.05"), run("12.00", ".550", "12.10"), amberFull, Right, ReasonRedLight, ""},
+			run("12.00", ".499", "12.05"), run("12.00", ".550", "12.10"), amberFull, logbook.Right, ReasonRedLight, ""},
 		{"red light on an amber-counted pro tree is below .400",
-			run("12.00", ".450", "12.05"), run("12.00", ".390", "12.10"), RaceRules{Tree: ProTree, RTZero: FromAmber}, Left, ReasonRedLight, ""},
+			run("12.00", ".450", "12.05"), run("12.00", ".390", "12.10"), RaceRules{Tree: ProTree, RTZero: FromAmber}, logbook.Left, ReasonRedLight, ""},
 		{"both red: the first to leave loses (the 14.00 car, green first, left at -.002 s; the 12.00 car at 2.00 - .050)",
-			run("14.00", "-.002", "14.10"), run("12.00", "-.050", "12.10"), green, Right, ReasonRedLight, ""},
+			run("14.00", "-.002", "14.10"), run("12.00", "-.050", "12.10"), green, logbook.Right, ReasonRedLight, ""},
 		{"red light before a boundary foul",
-			run("12.00", "-.010", "12.10"), LaneRun{Dial: d("12.00"), RT: d(".02"), ET: d("12.1"), Foul: true}, green, Right, ReasonRedLight, ""},
+			run("12.00", "-.010", "12.10"), LaneRun{Dial: d("12.00"), RT: d(".02"), ET: d("12.1"), Foul: true}, green, logbook.Right, ReasonRedLight, ""},
 		{"boundary foul loses",
-			LaneRun{Dial: d("12.00"), RT: d(".02"), ET: d("12.01"), Foul: true}, run("12.00", ".08", "12.20"), green, Right, ReasonFoul, ""},
+			LaneRun{Dial: d("12.00"), RT: d(".02"), ET: d("12.01"), Foul: true}, run("12.00", ".08", "12.20"), green, logbook.Right, ReasonFoul, ""},
 		{"first to the finish, no breakouts",
-			run("10.50", ".030", "10.55"), run("11.20", ".045", "11.26"), green, Left, ReasonFirstToFinish, "0.025"},
+			run("10.50", ".030", "10.55"), run("11.20", ".045", "11.26"), green, logbook.Left, ReasonFirstToFinish, "0.025"},
 		{"exact tie",
 			run("10.50", ".030", "10.55"), run("11.20", ".020", "11.26"), green, "", ReasonTie, "0.000"},
 		{"dead on the dial is not a breakout",
-			run("10.50", ".030", "10.50"), run("10.50", ".040", "10.52"), green, Left, ReasonFirstToFinish, "0.030"},
+			run("10.50", ".030", "10.50"), run("10.50", ".040", "10.52"), green, logbook.Left, ReasonFirstToFinish, "0.030"},
 		{"equal breakouts: first to the finish",
-			run("10.50", ".030", "10.49"), run("10.50", ".040", "10.49"), green, Left, ReasonDoubleBreakout, "0.010"},
+			run("10.50", ".030", "10.49"), run("10.50", ".040", "10.49"), green, logbook.Left, ReasonDoubleBreakout, "0.010"},
 	}
 	for _, tc := range cases {
 		o, err := Settle(tc.left, tc.right, tc.rules)
@@ -134,15 +136,15 @@ func TestMarginInFeetTrailingLane(t *testing.T) {
 	cases := []struct {
 		name        string
 		left, right LaneRun
-		first       Lane
+		first       logbook.Lane
 		trailingMPH float64
 	}{
 		// how-to example 1: left first by .010 s; right (105 mph) trails
-		{"left first, right trails", withMPH(run("14.20", ".520", "14.32"), "95"), withMPH(run("13.00", ".550", "13.10"), "105"), Left, 105},
-		{"right first, left trails", withMPH(run("13.00", ".550", "13.10"), "105"), withMPH(run("14.20", ".520", "14.32"), "95"), Right, 105},
-		{"right first, left trails (slower car trails)", withMPH(run("14.20", ".560", "14.32"), "95"), withMPH(run("13.00", ".550", "13.10"), "105"), Right, 95},
-		{"only the leader's speed known: it stands in", run("14.20", ".520", "14.32"), withMPH(run("13.00", ".550", "13.10"), "105"), Left, 105},
-		{"only the trailer's speed known", withMPH(run("14.20", ".520", "14.32"), "95"), run("13.00", ".550", "13.10"), Left, 95},
+		{"left first, right trails", withMPH(run("14.20", ".520", "14.32"), "95"), withMPH(run("13.00", ".550", "13.10"), "105"), logbook.Left, 105},
+		{"right first, left trails", withMPH(run("13.00", ".550", "13.10"), "105"), withMPH(run("14.20", ".520", "14.32"), "95"), logbook.Right, 105},
+		{"right first, left trails (slower car trails)", withMPH(run("14.20", ".560", "14.32"), "95"), withMPH(run("13.00", ".550", "13.10"), "105"), logbook.Right, 95},
+		{"only the leader's speed known: it stands in", run("14.20", ".520", "14.32"), withMPH(run("13.00", ".550", "13.10"), "105"), logbook.Left, 105},
+		{"only the trailer's speed known", withMPH(run("14.20", ".520", "14.32"), "95"), run("13.00", ".550", "13.10"), logbook.Left, 95},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
@@ -211,7 +213,7 @@ func TestTreeDelay(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		if !o.Left.Reaction.IsZero() || o.Left.RedLight || o.Winner != Left || o.Reason != ReasonFirstToFinish || !o.Left.Finish.Equal(d("12.05")) {
+		if !o.Left.Reaction.IsZero() || o.Left.RedLight || o.Winner != logbook.Left || o.Reason != ReasonFirstToFinish || !o.Left.Finish.Equal(d("12.05")) {
 			t.Errorf("tree %q, light %s: reaction %s, red %v, %s %s, finish %s", tc.tree, tc.perfect, o.Left.Reaction, o.Left.RedLight, o.Winner, o.Reason, o.Left.Finish)
 		}
 	}

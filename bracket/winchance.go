@@ -1,4 +1,4 @@
-package engine
+package bracket
 
 import (
 	"math"
@@ -6,6 +6,9 @@ import (
 	"sort"
 
 	"github.com/shopspring/decimal"
+
+	"pitcard/internal/stats"
+	"pitcard/logbook"
 )
 
 // The chance to win a round against one car: both lanes' reaction times
@@ -42,7 +45,7 @@ func NewRTModel(logged []float64, mean, sd float64) RTModel {
 	m := RTModel{Mean: mean, SD: sd}
 	if len(logged) >= MinRTSamples {
 		m.Samples = append([]float64(nil), logged...)
-		m.Mean, m.SD = MeanSD(m.Samples)
+		m.Mean, m.SD = stats.MeanSD(m.Samples)
 	}
 	return m
 }
@@ -60,7 +63,7 @@ func (m RTModel) draw(r *rand.Rand) float64 {
 // RedLightChance is the share of this driver's reaction times below zero.
 func (m RTModel) RedLightChance() float64 {
 	if len(m.Samples) == 0 {
-		return NormalCDF(-m.Mean / m.SD)
+		return stats.NormalCDF(-m.Mean / m.SD)
 	}
 	n := 0
 	for _, x := range m.Samples {
@@ -137,7 +140,7 @@ func WinChances(in WinInput, dials []decimal.Decimal) []WinOption {
 				OverDial: cmp(x.et-dial, x.oet-odial),
 				Leave:    cmp(startUs+x.rt, startOp+x.ort)}
 			switch w, _ := decide(f); w {
-			case Left:
+			case logbook.Left:
 				wins++
 			case "":
 				wins += 0.5
