@@ -58,6 +58,9 @@ type Settings struct {
 	// AbortWords mark a pass in the logbook as not the car's time:
 	// engine.DefaultAbortWords and the crew's own (abort_words).
 	AbortWords engine.AbortWords
+	// ChangeWords say in a pass's notes that the car was changed:
+	// engine.DefaultChangeWords and the crew's own (change_words).
+	ChangeWords engine.ChangeWords
 }
 
 // Folder is an opened event folder (or the demo).
