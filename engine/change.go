@@ -13,6 +13,30 @@ import (
 // story goes in the notes.
 const MaxChangeLen = 200
 
+// ChangeColumn is the logbook's column of a pass's change. It is written
+// only where a pass has one: a logbook whose car never changed keeps the
+// columns it had, byte for byte.
+const ChangeColumn = "change"
+
+// AnyChange reports whether a pass of passes has a change to write.
+func AnyChange(passes []Pass) bool {
+	for _, p := range passes {
+		if p.Change != "" {
+			return true
+		}
+	}
+	return false
+}
+
+// writtenColumns are the columns WriteLogbook writes for passes: every
+// column of LogbookColumns, the change last and only when one is there.
+func writtenColumns(passes []Pass) []string {
+	if AnyChange(passes) {
+		return LogbookColumns
+	}
+	return LogbookColumns[:len(LogbookColumns)-1]
+}
+
 // ParseChange reads a pass's change (the crew's words for what changed on
 // the car before it; "" for nothing): one line of printable text of at most
 // MaxChangeLen bytes. field names it in messages (the change column, the

@@ -299,7 +299,7 @@ func (lb *Logbook) Write(w io.Writer) error {
 		}
 	}
 	for _, c := range LogbookColumns {
-		if !has[c] {
+		if !has[c] && (c != ChangeColumn || AnyChange(lb.Passes)) {
 			header = append(header, c)
 		}
 	}
@@ -616,12 +616,13 @@ func logbookColumn(field string, f SlipFields) string {
 // columns, times with the digits they were typed with.
 func WriteLogbook(w io.Writer, passes []Pass) error {
 	cw := csv.NewWriter(w)
-	if err := cw.Write(LogbookColumns); err != nil {
+	cols := writtenColumns(passes)
+	if err := cw.Write(cols); err != nil {
 		return err
 	}
 	for _, p := range passes {
-		rec := PassRecord(p)
-		for i, c := range LogbookColumns {
+		rec := PassRecord(p)[:len(cols)]
+		for i, c := range cols {
 			if textColumns[c] {
 				rec[i] = csvtext.Cell(rec[i])
 			}

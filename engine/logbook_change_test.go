@@ -8,8 +8,9 @@ import (
 )
 
 // The change column: written beside the notes, read back as typed (commas,
-// quotes, a leading = kept from a spreadsheet's formulas), and a file
-// without it reads, and keeps its columns' order when rewritten.
+// quotes, a leading = kept from a spreadsheet's formulas); a file without it
+// reads, is rewritten without the column while no pass has a change, and gets the
+// column after its own ones when one does.
 func TestLogbookChangeColumn(t *testing.T) {
 	passes, err := ReadLogbook(strings.NewReader(header+goodRow), "logbook.csv", time.UTC)
 	if err != nil {
@@ -47,6 +48,13 @@ func TestLogbookChangeColumn(t *testing.T) {
 	}
 	if lb.Passes[0].Change != "" {
 		t.Errorf("no change column, change %q", lb.Passes[0].Change)
+	}
+	var same bytes.Buffer
+	if err := lb.Write(&same); err != nil || strings.Contains(same.String(), "change") {
+		t.Errorf("an old logbook with no change rewritten with the column:\n%s", same.String())
+	}
+	if LogbookColumns[len(LogbookColumns)-1] != ChangeColumn {
+		t.Error("the change must stay the last of LogbookColumns: WriteLogbook leaves it off by length")
 	}
 	added := lb.Passes[0]
 	added.Time, added.Session, added.Change = added.Time.Add(time.Hour), Session{Elimination, 2}, "new converter, 5400 stall"
