@@ -74,7 +74,7 @@ var logbookFields = []field{
 	{"et1320", "et1320", seconds}, {"mph660", "mph660", trapSpeed}, {"mph1320", "mph1320", trapSpeed},
 	{"temp", "temp_f", temperature}, {"baro", "baro_inhg", pressure}, {"humidity", "humidity_pct", percent},
 	{"track_temp", "track_temp_f", temperature}, {"wind", "wind_mph", speed}, {"wind_from", "wind_from_deg", degrees},
-	{"weight", "weight_lb", weight}, {"notes", "notes", text},
+	{"weight", "weight_lb", weight}, {"notes", "notes", text}, {"change", "change", text},
 }
 
 func fieldsOf(k Kind) []field {

@@ -48,6 +48,8 @@ var synonyms = []struct {
 	{"mph1320", []Kind{Logbook}, []string{"1 4 mph", "quarter mph", "1320 mph", "mph 1320", "mph", "speed", "trap"}, nil},
 	{"et1320", []Kind{Logbook}, []string{"1 4 et", "1 4", "quarter", "1320 ft", "1320ft", "1320", "et"}, nil},
 	{"weight", []Kind{Logbook}, []string{"weight", "wt"}, nil},
+	// what changed on the car before the pass
+	{"change", []Kind{Logbook}, []string{"car change", "setup change", "change", "changes", "changed"}, nil},
 }
 
 // header units: a unit written into a header, and what it is for.

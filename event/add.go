@@ -109,6 +109,8 @@ type NewPass struct {
 	Lane, Dial, RT, Weight, Notes   string
 	ET60, ET330, ET660, ET1000, ET1 string
 	MPH660, MPH1320                 string
+	// Change is what changed on the car before the pass ("" nothing).
+	Change string
 	// Fields of the reading that replace the weather log's.
 	Reading ReadingFields
 	// The other lane's slip, when it is entered too: what decided the round.
@@ -184,6 +186,7 @@ func (e *Folder) AddPass(np NewPass, now time.Time) (LoggedPass, error) {
 		"date": date, "time": clock, "track": track, "session": np.Session, "lane": np.Lane,
 		"dial": np.Dial, "rt": np.RT, "et60": np.ET60, "et330": np.ET330, "et660": np.ET660, "et1000": np.ET1000, "et1320": np.ET1,
 		"mph660": mph660, "mph1320": mph1320, "weight_lb": weight, "notes": np.Notes,
+		"change": np.Change,
 	}, Names: map[string]string{}, Metric: map[string]bool{"weight_lb": weightMetric}}
 	for c := range f.Values {
 		f.Names[c] = "--" + strings.ReplaceAll(strings.TrimSuffix(c, "_lb"), "_", "-")

@@ -61,6 +61,9 @@ type Settings struct {
 	// AbortWords mark a pass in the logbook as not the car's time:
 	// logbook.DefaultAbortWords and the crew's own (abort_words).
 	AbortWords logbook.AbortWords
+	// ChangeWords say in a pass's notes that the car was changed:
+	// logbook.DefaultChangeWords and the crew's own (change_words).
+	ChangeWords logbook.ChangeWords
 }
 
 // Folder is an opened event folder (or the demo).

@@ -39,6 +39,7 @@ type PassJSON struct {
 	DAFt     *float64          `json:"density_altitude_ft"`
 	WeightLb *float64          `json:"weight_lb"`
 	Notes    string            `json:"notes"`
+	Change   string            `json:"change"` // what changed on the car before it; "" nothing
 }
 
 // PassTimerJSON is one timer of a pass: the ET to distance_ft.
@@ -86,7 +87,7 @@ func OptFloat(v float64, ok bool, dec int) *float64 {
 func PassAsJSON(p logbook.Pass, trk engine.Track) PassJSON {
 	j := PassJSON{Time: p.Time.Format(time.RFC3339), Track: p.Track, Session: p.Session.String(), Lane: string(p.Lane),
 		Dial: optSec(p.Dial), RT: optSec(p.RT), Timers: []PassTimerJSON{}, Traps: []PassTrapJSON{},
-		ET: map[string]string{}, MPH: map[string]string{}, Notes: p.Notes}
+		ET: map[string]string{}, MPH: map[string]string{}, Notes: p.Notes, Change: p.Change}
 	for i, ft := range logbook.Timers {
 		if p.ET[i].Valid {
 			et := logbook.FormatSeconds(p.ET[i].Decimal, 0)

@@ -54,6 +54,10 @@ var SettingDefaults = map[string]any{
 	// Words in a pass's notes that mark it as not the car's time, added to
 	// logbook.DefaultAbortWords (a list, or one string of comma-separated words).
 	"abort_words": []string{},
+	// Words in a pass's notes that say the car was changed before it,
+	// added to logbook.DefaultChangeWords (a list, or one string of
+	// comma-separated words).
+	"change_words": []string{},
 }
 
 // OpenOptions say which folder to open and what the front end sets over
@@ -286,6 +290,11 @@ func Open(o OpenOptions) (*Folder, error) {
 	if s.AbortWords, err = abortWords(v.Get("abort_words")); err != nil {
 		return nil, settingErr("abort_words", err)
 	}
+	change, err := wordList("change_words", v.Get("change_words"), "[chute packed, new slicks]")
+	if err != nil {
+		return nil, settingErr("change_words", err)
+	}
+	s.ChangeWords = logbook.DefaultChangeWords.With(change)
 	switch pd := v.GetString("post_dial"); pd {
 	case "breakout-rule":
 	case "best-for-win":
@@ -299,6 +308,17 @@ func Open(o OpenOptions) (*Folder, error) {
 // abortWords reads the setting abort_words: a YAML list of words, or (from
 // the environment or a flag) one string of comma-separated words.
 func abortWords(v any) (logbook.AbortWords, error) {
+	extra, err := wordList("abort_words", v, "[chute early, lost fire]")
+	if err != nil {
+		return nil, err
+	}
+	return logbook.DefaultAbortWords.With(extra), nil
+}
+
+// wordList reads a list setting of words (abort_words, change_words): a
+// YAML list, or (from the environment or a flag) one string of
+// comma-separated words; eg is an example for the message.
+func wordList(key string, v any, eg string) ([]string, error) {
 	var extra []string
 	switch x := v.(type) {
 	case nil:
@@ -310,18 +330,18 @@ func abortWords(v any) (logbook.AbortWords, error) {
 		for _, w := range x {
 			s, ok := w.(string)
 			if !ok {
-				return nil, &weather.InputError{Field: "abort_words", Value: fmt.Sprint(w), Reason: "is not a word (give a list of words, e.g. [chute early, lost fire])"}
+				return nil, &weather.InputError{Field: key, Value: fmt.Sprint(w), Reason: "is not a word (give a list of words, e.g. " + eg + ")"}
 			}
 			extra = append(extra, s)
 		}
 	default:
-		return nil, &weather.InputError{Field: "abort_words", Value: fmt.Sprint(v), Reason: "is not a list of words (e.g. [chute early, lost fire])"}
+		return nil, &weather.InputError{Field: key, Value: fmt.Sprint(v), Reason: "is not a list of words (e.g. " + eg + ")"}
 	}
-	return logbook.DefaultAbortWords.With(extra), nil
+	return extra, nil
 }
 
 // listSettings are the settings written as a YAML list.
-var listSettings = map[string]bool{"abort_words": true}
+var listSettings = map[string]bool{"abort_words": true, "change_words": true}
 
 // CheckSettingsKeys refuses keys pitcard.yaml does not know: a misspelt
 // setting would otherwise be silently ignored.
@@ -349,7 +369,7 @@ func CheckSettingsKeys(data []byte, name string) error {
 				Reason: "is not a pitcard setting (settings: " + strings.Join(known, ", ") + ")"}
 		}
 		// A list or a map would be read as blank, and the default used;
-		// only a list setting (abort_words) may be one, and only a list.
+		// only a list setting (abort_words, change_words) may be one, and only a list.
 		if val := m.Content[i+1]; val.Kind != yaml.ScalarNode && !(listSettings[k.Value] && val.Kind == yaml.SequenceNode) {
 			shape := map[yaml.Kind]string{yaml.SequenceNode: "a list", yaml.MappingNode: "a map"}[val.Kind]
 			if shape == "" {

@@ -38,6 +38,9 @@ type Pass struct {
 	HasAir   bool
 	WeightLb float64 // car and driver as run; 0 = not recorded
 	Notes    string
+	// Change is the crew's words for what changed on the car before this
+	// pass ("new converter", "+2 psi boost"); "" for nothing (ChangeNoted).
+	Change string
 	// Extra holds the crew's own columns (those pitcard does not read), by
 	// their header name, so a rewrite keeps them.
 	Extra map[string]string
@@ -75,7 +78,7 @@ var timerColumns = [5]string{"et60", "et330", "et660", "et1000", "et1320"}
 // Columns are logbook.csv's columns, in order. Units are in the names.
 var Columns = []string{"date", "time", "track", "session", "lane", "dial", "rt",
 	"et60", "et330", "et660", "et1000", "et1320", "mph660", "mph1320",
-	"temp_f", "baro_inhg", "humidity_pct", "track_temp_f", "wind_mph", "wind_from_deg", "weight_lb", "notes"}
+	"temp_f", "baro_inhg", "humidity_pct", "track_temp_f", "wind_mph", "wind_from_deg", "weight_lb", "notes", "change"}
 
 var logbookAlternatives = map[string]string{
 	"temp_c": "temp_f", "baro_hpa": "baro_inhg", "track_temp_c": "track_temp_f",
@@ -296,7 +299,7 @@ func (lb *Logbook) Write(w io.Writer) error {
 		}
 	}
 	for _, c := range Columns {
-		if !has[c] {
+		if !has[c] && (c != ChangeColumn || AnyChange(lb.Passes)) {
 			header = append(header, c)
 		}
 	}
@@ -512,6 +515,9 @@ func ParsePass(f SlipFields, loc *time.Location) (Pass, error) {
 		p.WeightLb = w
 	}
 	p.Notes = get("notes")
+	if p.Change, err = ParseChange(name("change"), get("change")); err != nil {
+		return p, err
+	}
 	return p, nil
 }
 
@@ -610,12 +616,13 @@ func logbookColumn(field string, f SlipFields) string {
 // columns, times with the digits they were typed with.
 func Write(w io.Writer, passes []Pass) error {
 	cw := csv.NewWriter(w)
-	if err := cw.Write(Columns); err != nil {
+	cols := writtenColumns(passes)
+	if err := cw.Write(cols); err != nil {
 		return err
 	}
 	for _, p := range passes {
-		rec := PassRecord(p)
-		for i, c := range Columns {
+		rec := PassRecord(p)[:len(cols)]
+		for i, c := range cols {
 			if textColumns[c] {
 				rec[i] = csvtext.Cell(rec[i])
 			}
@@ -629,7 +636,7 @@ func Write(w io.Writer, passes []Pass) error {
 // textColumns are logbook.csv's columns of free text (a crew's own columns
 // are too): written through csvtext, so a note that begins with = opens in a
 // spreadsheet as text, not as a formula, and reads back as typed.
-var textColumns = map[string]bool{"track": true, "notes": true}
+var textColumns = map[string]bool{"track": true, "notes": true, "change": true}
 
 // PassRecord is p as a row of logbook.csv's columns (Columns), its
 // text as typed.
@@ -679,6 +686,7 @@ func passValues(p Pass) []string {
 	set("mph660", sec(p.MPH660))
 	set("mph1320", sec(p.MPH1320))
 	set("notes", p.Notes)
+	set("change", p.Change)
 	for i := range Timers {
 		set(timerColumns[i], sec(p.ET[i]))
 	}
@@ -725,6 +733,9 @@ func CheckSlipField(col, name, v string) error {
 		lo, hi = RTRange[0], RTRange[1]
 	case "mph660", "mph1320":
 		lo, hi, unit = MPHRange[0], MPHRange[1], "mph"
+	case "change":
+		_, err := ParseChange(name, v)
+		return err
 	default:
 		i := -1
 		for j, t := range Timers {

@@ -263,6 +263,8 @@ func slipForm(dist float64, w weather.WeightUnit) []field {
 		text("et1320", "1/4 mile ET", "s", ""),
 		text("mph1320", "1/4 mile speed", "mph", ""),
 		{Name: "notes", Label: "Notes", Placeholder: "lifted, pedaled, new tires ...", Max: MaxNotesLen},
+		{Name: "change", Label: "What changed on the car", Placeholder: "new converter, +2 psi boost ...", Max: logbook.MaxChangeLen,
+			Help: "Before this pass; blank if nothing changed."},
 		text("opponent-dial", "Other lane's dial", "s", ""),
 		text("opponent-rt", "Other lane's reaction time", "s", ""),
 		text("opponent-et", "Other lane's ET", "s", ""),
@@ -327,7 +329,7 @@ func (s *Server) postSlip(q *request) {
 	}
 	p.Form = slipForm(dist, q.folder.Settings.Units.Weight)
 	fill(p.Form, q.r.PostForm)
-	np := event.NewPass{Session: v("session"), Lane: v("lane"), Dial: v("dial"), RT: v("rt"), Weight: v("weight"), Notes: v("notes"),
+	np := event.NewPass{Session: v("session"), Lane: v("lane"), Dial: v("dial"), RT: v("rt"), Weight: v("weight"), Notes: v("notes"), Change: v("change"),
 		ET60: v("et60"), ET330: v("et330"), ET660: v("et660"), ET1000: v("et1000"), ET1: v("et1320"),
 		MPH660: v("mph660"), MPH1320: v("mph1320"), OppDial: v("opponent-dial"), OppRT: v("opponent-rt"), OppET: v("opponent-et")}
 	if t := v("time"); t != "" {

@@ -59,6 +59,11 @@ func TestBadInputTour(t *testing.T) {
 	joined := filepath.Join(t.TempDir(), "joined.csv")
 	_ = os.WriteFile(joined, []byte(slipHeader+"2026-07-01,18:00,X,E1,left,11.5,0.02,1.6,,,,11.5,,116,88,28.9,40,,,,,\n"+slipHeader+
 		"2026-07-01,18:30,X,E2,left,11.5,0.02,1.6,,,,11.5,,116,88,28.9,40,,,,,\n"), 0o644)
+	// a change that is not one line of text, and one too long to be a few words
+	badChange := filepath.Join(t.TempDir(), "changes.csv")
+	_ = os.WriteFile(badChange, []byte(strings.TrimSuffix(slipHeader, "\n")+",change\n"+
+		"2026-07-01,18:00,X,E1,left,11.5,0.02,1.6,,,,11.5,,116,88,28.9,40,,,,,,\"new\nconverter\"\n"+
+		"2026-07-01,18:30,X,E2,left,11.5,0.02,1.6,,,,11.5,,116,88,28.9,40,,,,,,"+strings.Repeat("new converter ", 20)+"\n"), 0o644)
 	binary := filepath.Join(t.TempDir(), "season.xls")
 	_ = os.WriteFile(binary, []byte("\xd0\xcf\x11\xe0\x00\x00binary"), 0o644)
 
@@ -119,6 +124,8 @@ func TestBadInputTour(t *testing.T) {
 			{[]string{"log", "add", "--dir", good, "--session", "E9", "--lane", "left", "--et1320", "11.5", "--time", "20:42", "--track", "Junipr Bend"}, 0, []string{`--track "Junipr Bend"`, "neither track.yaml's name", "Juniper Bend Raceway"}},
 			{[]string{"log", "add", "--dir", good, "--session", "E9", "--lane", "left", "--et1320", "11.5", "--weight", "50"}, 2, []string{"--weight", "500..10000"}},
 			{[]string{"log", "add", "--dir", good, "--session", "E9", "--lane", "left", "--et1320", "11.5", "--date", "2500-06-01"}, 2, []string{"--date", "2500-06-01", "in the future", "today is 2026-06-13"}},
+			{[]string{"log", "add", "--dir", good, "--session", "E9", "--lane", "left", "--et1320", "11.5", "--change", strings.Repeat("new converter ", 20)}, 2, []string{"--change", "is 279 bytes long (at most 200)", "the rest goes in the notes"}},
+			{[]string{"log", "add", "--dir", good, "--session", "E9", "--lane", "left", "--et1320", "11.5", "--change", "new\x1b[2Jconverter"}, 2, []string{"--change", `"new\\x1b[2Jconverter"`, "control character", "one line"}},
 		},
 		"log import/list/stats": {
 			{[]string{"log", "import", "--dir", good, missing}, 2, []string{"cannot read"}},
@@ -126,6 +133,7 @@ func TestBadInputTour(t *testing.T) {
 			{[]string{"log", "import", "--dir", good}, 2, []string{"accepts 1 arg"}},
 			{[]string{"log", "import", "--dir", good, badAndDup}, 2, []string{"both.csv line 2", "humidity_pct", "line 3) is already in", "Nothing was imported"}},
 			{[]string{"log", "import", "--dir", good, joined}, 2, []string{"joined.csv line 3", "header line again", "Nothing was imported"}},
+			{[]string{"log", "import", "--dir", good, badChange}, 2, []string{"changes.csv line 2: change", "control character", "changes.csv line 4: change", "at most 200", "Nothing was imported"}},
 			{[]string{"log", "import", "--dir", good, binary}, 2, []string{"season.xls is not a text (CSV) file", "save it from the spreadsheet as CSV"}},
 			{[]string{"log", "list", "--dir", badLog}, 2, []string{"logbook.csv line"}},
 			{[]string{"log", "list", "--dir", good, "--last", "x"}, 2, []string{"--last"}},

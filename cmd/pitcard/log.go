@@ -50,6 +50,7 @@ type logAddOptions struct {
 	Lane, Dial, RT, Weight, Notes   string
 	ET60, ET330, ET660, ET1000, ET1 string
 	MPH660, MPH1320                 string
+	Change                          string
 	// The other lane's slip, when it is entered too: what decided the round.
 	OppDial      string
 	OppRT, OppET []string
@@ -67,7 +68,8 @@ given replaces that field; the track defaults to track.yaml's name and the
 weight to car.yaml's.`,
 		Example: `  pitcard log add --round E1 --lane left --dial 11.52 --rt .021 --et60 1.612 --et330 4.689 \
       --et660 7.321 --mph660 92.44 --et1000 9.605 --et1320 11.538 --mph1320 116.79
-  pitcard log add --round T2 --lane right --et60 1.65 --et1320 11.71 --mph1320 115.2 --notes "lifted early"`,
+  pitcard log add --round T2 --lane right --et60 1.65 --et1320 11.71 --mph1320 115.2 --notes "lifted early"
+  pitcard log add --round T3 --lane left --et60 1.59 --et1320 11.42 --change "new converter, 5400 stall"`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, _ []string) error { return logAddRun(cmd, o) },
 	}
@@ -90,6 +92,7 @@ weight to car.yaml's.`,
 	fl.StringVar(&o.MPH1320, "mph1320", "", "quarter-mile trap speed: 116.8mph or 188.0km/h, a bare number in the crew's units")
 	fl.StringVar(&o.Weight, "weight", "", "car and driver as run: 3300lb or 1500kg, a bare number in the crew's units (default: car.yaml's weight_lb)")
 	fl.StringVar(&o.Notes, "notes", "", "free text: lifted, pedaled, new tires ...")
+	fl.StringVar(&o.Change, "change", "", "what changed on the car before this pass: new converter, 4.10 gear, +2 psi boost ... (blank: nothing)")
 	fl.StringVar(&o.OppDial, "opponent-dial", "", "the other lane's dial-in from its slip (with --opponent-rt and --opponent-et: what decided the round)")
 	// A list, as on card and dial (the other lane's slips of the day), of
 	// one value here: a pass has one slip.
@@ -115,7 +118,7 @@ func logAddRun(cmd *cobra.Command, o *logAddOptions) error {
 	lp, err := e.AddPass(event.NewPass{
 		Date: o.Date, Time: o.Time, Track: o.Track, Session: o.Session, Lane: o.Lane, Dial: o.Dial, RT: o.RT,
 		Weight: o.Weight, Notes: o.Notes, ET60: o.ET60, ET330: o.ET330, ET660: o.ET660, ET1000: o.ET1000, ET1: o.ET1,
-		MPH660: o.MPH660, MPH1320: o.MPH1320, Reading: o.reading.ReadingFields,
+		MPH660: o.MPH660, MPH1320: o.MPH1320, Change: o.Change, Reading: o.reading.ReadingFields,
 		OppDial: o.OppDial, OppRT: oppRT, OppET: oppET,
 	}, o.s.Now())
 	if err != nil {
@@ -381,10 +384,10 @@ func logListRun(cmd *cobra.Command, o *logListOptions) error {
 			}
 		}
 		row = append(row, trap(p.MPH1320), strings.TrimSuffix(da, " "+u.Length.String()))
-		if !notesBelow {
-			row = append(row, printable.Line(p.Notes))
-		} else if p.Notes != "" {
-			below = append(below, prep.Wrap(fmt.Sprintf("%s %s: %s", p.Time.Format("2006-01-02 15:04"), p.Session, printable.Line(p.Notes)), o.s.width(), "  "))
+		if notes := passNotes(p); !notesBelow {
+			row = append(row, printable.Line(notes))
+		} else if notes != "" {
+			below = append(below, prep.Wrap(fmt.Sprintf("%s %s: %s", p.Time.Format("2006-01-02 15:04"), p.Session, printable.Line(notes)), o.s.width(), "  "))
 		}
 		t.AppendRow(row)
 	}
@@ -410,6 +413,30 @@ func alignRight(from, to int) []table.ColumnConfig {
 		c = append(c, table.ColumnConfig{Number: n, Align: prettytext.AlignRight})
 	}
 	return c
+}
+
+// listChangeRunes is how much of a pass's change the list shows: enough to
+// know the car changed and how; 'log list --format json' has it whole.
+const listChangeRunes = 24
+
+// passNotes is a pass's notes as the list shows them: its change first,
+// briefly ("changed: new converter; good launch").
+func passNotes(p logbook.Pass) string {
+	if p.Change == "" {
+		return p.Notes
+	}
+	c := p.Change
+	if r := []rune(c); len(r) > listChangeRunes {
+		c = string(r[:listChangeRunes-1])
+		if i := strings.LastIndex(c, " "); i > 0 { // cut at a word
+			c = c[:i]
+		}
+		c = strings.TrimRight(c, " ,;") + "…"
+	}
+	if p.Notes == "" {
+		return "changed: " + c
+	}
+	return "changed: " + c + "; " + p.Notes
 }
 
 // sec prints a slip time with at least min decimals, or "" when not timed.

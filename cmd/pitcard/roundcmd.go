@@ -312,6 +312,7 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 		{"dial", "Dial-in posted", dial}, {"rt", rtQuestion(e.Settings.RTZero), ""}, {"et60", "60 ft", ""}, {"et330", "330 ft", ""},
 		{"et660", "1/8 mile ET", ""}, {"mph660", "1/8 mile trap, " + u.Speed.String(), ""}, {"et1000", "1000 ft", ""}, {"et1320", "1/4 mile ET", ""},
 		{"mph1320", "1/4 mile trap, " + u.Speed.String(), ""}, {"notes", "Notes (lifted, pedaled ...)", ""},
+		{"change", "What changed on the car before this pass (new converter, +2 psi ...; Enter: nothing)", ""},
 	}
 	slip := logbook.SlipFields{Values: map[string]string{"date": now.Format(weather.DateLayout), "time": now.Format("15:04"),
 		"track": trk.Name, "session": in.Session.String(), "lane": string(in.Lane)}, Names: map[string]string{}}

@@ -21,6 +21,7 @@ func FuzzSettings(f *testing.F) {
 	f.Add("units: imperial\ntree: pro\nrt_zero: amber\nmax_rule_adjust: 0.1\nrule_time_ms: 500\nrule_memory_mib: 32\n")
 	f.Add("dial_step: [1]\n")
 	f.Add("abort_words: [chute early, {a: 1}]\n")
+	f.Add("change_words: [new slicks, [x]]\n")
 	f.Add("unknown: 1\n")
 	f.Add(": :\n")
 	// just outside each range: refused, or (were a check lost) caught by
@@ -54,7 +55,7 @@ func FuzzSettings(f *testing.F) {
 			t.Fatalf("a stack trace for %q: %s", yaml, errs)
 		}
 		ok := strings.Contains(errs, "pitcard.yaml")
-		for _, k := range []string{"units", "dial_step", "breakout_risk", "tree", "rt-zero", "rt_zero", "max_rule_adjust", "rule_time_ms", "rule_memory_mib", "abort_words"} {
+		for _, k := range []string{"units", "dial_step", "breakout_risk", "tree", "rt-zero", "rt_zero", "max_rule_adjust", "rule_time_ms", "rule_memory_mib", "abort_words", "change_words"} {
 			ok = ok || strings.Contains(errs, k)
 		}
 		if !ok {
