@@ -3,6 +3,8 @@ package engine
 import (
 	"crypto/sha256"
 	"encoding/hex"
+	"encoding/json"
+	"io"
 	"fmt"
 	"math"
 	"runtime"
@@ -98,17 +100,25 @@ type estimate struct {
 }
 
 // HeldOutCache keeps the pass model's held-out predictions by the content
-// they were computed from (the car, the tracks, the passes before and the
-// target's conditions), so each new pass costs one new calibration. The
-// zero value is not usable: NewHeldOutCache. Safe for concurrent use.
+// they were computed from (the car, the tracks, the settings, the passes
+// before and the target's conditions), so each new pass costs one new
+// calibration. The zero value is not usable: NewHeldOutCache. Safe for
+// concurrent use.
 type HeldOutCache struct {
 	mu      sync.Mutex
 	entries map[string]estimate
+	used    map[string]bool // asked for or added since it was made or read
 	changed bool
 }
 
+// MaxHeldOutEntries bounds a cache kept in memory (the pit page's): past it,
+// it starts afresh.
+const MaxHeldOutEntries = 100000
+
 // NewHeldOutCache is an empty cache.
-func NewHeldOutCache() *HeldOutCache { return &HeldOutCache{entries: map[string]estimate{}} }
+func NewHeldOutCache() *HeldOutCache {
+	return &HeldOutCache{entries: map[string]estimate{}, used: map[string]bool{}}
+}
 
 func (c *HeldOutCache) get(key string) (estimate, bool) {
 	if c == nil {
@@ -117,6 +127,9 @@ func (c *HeldOutCache) get(key string) (estimate, bool) {
 	c.mu.Lock()
 	defer c.mu.Unlock()
 	e, ok := c.entries[key]
+	if ok {
+		c.used[key] = true
+	}
 	return e, ok
 }
 
@@ -126,7 +139,64 @@ func (c *HeldOutCache) put(key string, e estimate) {
 	}
 	c.mu.Lock()
 	defer c.mu.Unlock()
-	c.entries[key], c.changed = e, true
+	if len(c.entries) >= MaxHeldOutEntries {
+		c.entries, c.used = map[string]estimate{}, map[string]bool{}
+	}
+	c.entries[key], c.used[key], c.changed = e, true, true
+}
+
+// heldOutFile is the cache as written: a version and the entries.
+type heldOutFile struct {
+	Version int                   `json:"version"`
+	Entries map[string][3]float64 `json:"entries"` // ET, SD, 1 if the model could predict
+}
+
+// heldOutVersion changes whenever the model changes what it predicts: a
+// cache of another version is not read.
+const heldOutVersion = 3
+
+// ReadHeldOutCache reads a cache WriteTo wrote. A cache of another version,
+// or one that cannot be read, is an empty cache: it is only ever a saving.
+func ReadHeldOutCache(r io.Reader) *HeldOutCache {
+	c := NewHeldOutCache()
+	var f heldOutFile
+	if err := json.NewDecoder(io.LimitReader(r, 64<<20)).Decode(&f); err != nil || f.Version != heldOutVersion {
+		return c
+	}
+	for k, v := range f.Entries {
+		c.entries[k] = estimate{ET: v[0], SD: v[1], OK: v[2] == 1}
+	}
+	return c
+}
+
+// Changed says whether a prediction was added since the cache was made or
+// read: whether it is worth writing.
+func (c *HeldOutCache) Changed() bool {
+	c.mu.Lock()
+	defer c.mu.Unlock()
+	return c.changed
+}
+
+// WriteTo writes the entries used since the cache was made or read (those
+// the next card will ask for again; the rest are left behind).
+func (c *HeldOutCache) WriteTo(w io.Writer) (int64, error) {
+	c.mu.Lock()
+	f := heldOutFile{Version: heldOutVersion, Entries: map[string][3]float64{}}
+	for k := range c.used {
+		e := c.entries[k]
+		ok := 0.0
+		if e.OK {
+			ok = 1
+		}
+		f.Entries[k] = [3]float64{e.ET, e.SD, ok}
+	}
+	c.mu.Unlock()
+	data, err := json.Marshal(f)
+	if err != nil {
+		return 0, err
+	}
+	n, err := w.Write(data)
+	return int64(n), err
 }
 
 // target is one scored pass: its index in the clean passes, and the actual.
@@ -222,6 +292,7 @@ func carried(cal CalibrateInput, passes []logbook.Pass, next PredictInput, elev 
 		}
 		passes = same
 	}
+	passes = sinceChange(passes, cal.Changes)
 	elevation := func(track string) weather.Length {
 		if strings.EqualFold(track, cal.Track.Name) {
 			return cal.Track.Elevation()
@@ -337,7 +408,7 @@ func baseKey(cal CalibrateInput) string {
 		names = append(names, n)
 	}
 	sort.Strings(names)
-	fmt.Fprintf(h, "v1|%+v|%+v|%v|%v", cal.Car, cal.Track, cal.DayStart, cal.Aborts)
+	fmt.Fprintf(h, "v1|%+v|%+v|%v|%v|%v", cal.Car, cal.Track, cal.DayStart, cal.Aborts, cal.Changes)
 	for _, n := range names {
 		fmt.Fprintf(h, "|%+v", cal.Tracks[n])
 	}
@@ -356,8 +427,8 @@ func heldOutKey(base string, c CalibrateInput, next PredictInput) string {
 
 // online replays the scored passes in order as the blend would have seen
 // them: it returns the members' weights for the next pass (the discounted
-// exponentially weighted average of their squared misses, in units of the
-// typical miss) and the conformal scale of the blend's spread (the factor
+// exponentially weighted average of their capped absolute misses, in units
+// of the typical miss) and the conformal scale of the blend's spread (the factor
 // that makes its 95 % interval cover 95 % of the scored passes, each scored
 // by its miss over the spread the blend gave it then; recent passes count
 // more, and ConformalPrior passes at a scale of 1 steady a short history).
@@ -378,9 +449,9 @@ func online(hist []scored) ([nMembers]float64, float64) {
 		for m := range nMembers {
 			loss[m] *= BlendForget
 			if s.est[m].OK {
-				loss[m] += sq((s.actual-s.est[m].ET)/ref) / 2
+				loss[m] += missLoss(s.actual-s.est[m].ET, ref)
 			} else {
-				loss[m] += sq((s.actual-et)/ref) / 2 // asleep: it neither gains nor loses on the blend
+				loss[m] += missLoss(s.actual-et, ref) // asleep: it neither gains nor loses on the blend
 			}
 		}
 	}
@@ -406,8 +477,20 @@ func online(hist []scored) ([nMembers]float64, float64) {
 	return expWeights(loss), scale
 }
 
-// expWeights turns discounted losses into weights (η = 1 in units of the
-// typical miss), from the members' prior.
+// BlendLearningRate is η of the weights, per typical miss; MissLossCap
+// caps one pass's loss (in typical misses), so one odd pass (a pedal, a
+// timing fault the notes missed) cannot hand the blend to another member.
+const (
+	BlendLearningRate = 0.5
+	MissLossCap       = 3.0
+)
+
+// missLoss is a member's loss on one pass: its miss in typical misses,
+// capped (an absolute loss, not a squared one: the weights move with a
+// member's steady advantage, not with its worst pass).
+func missLoss(miss, ref float64) float64 { return math.Min(math.Abs(miss)/ref, MissLossCap) }
+
+// expWeights turns discounted losses into weights, from the members' prior.
 func expWeights(loss [nMembers]float64) [nMembers]float64 {
 	least := math.Inf(1)
 	for _, l := range loss {
@@ -416,7 +499,7 @@ func expWeights(loss [nMembers]float64) [nMembers]float64 {
 	var w [nMembers]float64
 	var sum float64
 	for m := range nMembers {
-		w[m] = memberPrior[m] * math.Exp(-(loss[m] - least))
+		w[m] = memberPrior[m] * math.Exp(-BlendLearningRate*(loss[m]-least))
 		sum += w[m]
 	}
 	for m := range w {

@@ -107,6 +107,9 @@ type Fit struct {
 	Weight *weightModel
 	// DayStart is the input's: where one race day ends and the next begins.
 	DayStart weather.DayStart
+	// Change is the latest change of the car among the fitted passes (nil:
+	// none): the passes before it are carried across it.
+	Change *Change
 }
 
 // CalibrateInput is what a fit needs.
@@ -124,6 +127,10 @@ type CalibrateInput struct {
 	// Aborts are the words in notes that leave a pass out of the fit (the
 	// crew's setting abort_words); nil: DefaultAbortWords.
 	Aborts logbook.AbortWords
+	// Changes are the words in notes that say the car was changed (the
+	// crew's setting change_words); nil: logbook.DefaultChangeWords. A
+	// pass's change column counts whatever the notes say.
+	Changes logbook.ChangeWords
 }
 
 // Calibrate fits the car to its logbook.
@@ -184,6 +191,9 @@ func Calibrate(in CalibrateInput) (Fit, error) {
 		f.Samples[i] = f.sample(p, in, i)
 	}
 	f.fit()
+	if f.carryAcrossChange(in.Changes) {
+		f.fit()
+	}
 	// Leave out runs far from the rest (aborted, pedaled, a timing fault), refit.
 	res := make([]float64, len(f.Samples))
 	for i, s := range f.Samples {

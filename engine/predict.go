@@ -230,6 +230,11 @@ func Predict(f Fit, in PredictInput) Prediction {
 	if !in.Quick {
 		extra, paramSD = extrapolation(pr.Sensitivity, model.ETAt(dist)), parameterSpread(f, env, w)
 	}
+	changeSD := 0.0
+	if f.Change != nil {
+		changeSD = f.Change.OffsetSD
+		pr.Notes = append(pr.Notes, f.Change.Text())
+	}
 	relSD := math.Sqrt(fin.Var()) / model.ETAt(dist)
 	logged := func(res func(Sample) (float64, bool)) bool {
 		for _, s := range f.Samples {
@@ -252,7 +257,7 @@ func Predict(f Fit, in PredictInput) Prediction {
 			unlogged = append(unlogged, fmt.Sprintf("%.0f ft", ft))
 		}
 		scale := et / model.ETAt(dist) // extrapolation and parameters scale with the ET
-		sd = math.Sqrt(sq(sd) + sq(paramSD*scale) + sq(extra*scale))
+		sd = math.Sqrt(sq(sd) + sq(paramSD*scale) + sq(extra*scale) + sq(changeSD*scale))
 		pr.Timers = append(pr.Timers, Timer{DistanceFt: ft, ET: et, SD: sd, Low: et - IntervalZ*sd, High: et + IntervalZ*sd,
 			PhysicsOnly: model.ET[j], ResidualSpread: math.Sqrt(rf.Sigma2)})
 	}

@@ -76,6 +76,8 @@ type Folder struct {
 	CarPath, TrackPath, LogbookPath string
 	// Loc is the zone of the folder's local times; nil is time.Local (Zone).
 	Loc *time.Location
+	// heldOut is the cache of the model's held-out predictions (HeldOut).
+	heldOut *engine.HeldOutCache
 }
 
 // Zone is the zone of the folder's local times: its files' dates and times

@@ -533,10 +533,10 @@ func (e *Folder) GatherRound(r RoundRequest, now time.Time) (prep.Input, []strin
 		Settings: prep.Settings{Units: e.Settings.Units, DialStep: e.Settings.DialStep, BreakoutRisk: e.Settings.BreakoutRisk,
 			MaxRuleAdjust: e.Settings.MaxAdjust, RuleLimits: e.Settings.RuleLimits, MaxReadingAge: e.Settings.MaxReadingAge,
 			CrossCheckMax: e.Settings.CrossCheckMax,
-			DayStart:      e.Settings.DayStart, Aborts: e.Settings.AbortWords},
+			DayStart:      e.Settings.DayStart, Aborts: e.Settings.AbortWords, Changes: e.Settings.ChangeWords},
 		Session: slot.Session, Lane: lane, OpponentDial: opp, Opponent: opponent, UsRT: usRT, PostBestForWin: e.Settings.PostBestForWin, Call: call, Now: now,
 		Air: air, AirSource: source, AirNow: airNow, Forecast: forecast, Elevation: elev, Prep: prepLvl, WeightLb: weight,
-		Rules: rules, RulesFS: e.FS, Ticked: notes.Ticked,
+		Rules: rules, RulesFS: e.FS, Ticked: notes.Ticked, HeldOut: e.HeldOut(),
 	}
 	for _, b := range broken {
 		in.Problems = append(in.Problems, b.Error())

@@ -82,7 +82,8 @@ type Server struct {
 	refusals map[string]*refusalGroup
 
 	cards memo[gathered]
-	fits  memo[fitted]
+	// heldOut keeps the pass model's held-out predictions between cards.
+	heldOut *engine.HeldOutCache
 	slips slipLog
 }
 
@@ -94,7 +95,7 @@ func New(cfg Config) (*Server, error) {
 	if cfg.Tokens.Crew == "" || cfg.Tokens.View == "" || cfg.Tokens.Secret == "" {
 		return nil, errors.New("pitpage: the crew, view and secret tokens are required")
 	}
-	s := &Server{cfg: cfg, mux: http.NewServeMux(), pages: map[string]*template.Template{}}
+	s := &Server{cfg: cfg, mux: http.NewServeMux(), pages: map[string]*template.Template{}, heldOut: engine.NewHeldOutCache()}
 	funcs := template.FuncMap{}
 	base, err := template.New("").Funcs(funcs).ParseFS(assets, "assets/layout.html")
 	if err != nil {
@@ -466,11 +467,6 @@ func stamp(e *event.Folder) string {
 		event.ScheduleFile, event.RoundsFile}, event.RulesDir, "tracks")
 }
 
-// fitStamp changes whenever a file the model's fit is made from does.
-func fitStamp(e *event.Folder) string {
-	return filesStamp(e, []string{event.SettingsFile, event.CarFile, event.TrackFile, event.LogbookFile}, "tracks")
-}
-
 func filesStamp(e *event.Folder, names []string, dirs ...string) string {
 	if e.Demo {
 		return "demo"
@@ -518,16 +514,7 @@ func (s *Server) gather(q *request, round string) (prep.Card, []string, error) {
 		if !event.Usable(err) {
 			return gathered{warnings: warnings, err: err}
 		}
-		// The fit is made from the car, the tracks, the logbook and the
-		// clock: a new reading, a tick or the other lane's dial leave it.
-		fitKey := fitStamp(q.folder) + "|" + round + "|" + minute
-		in.Calibrate = func(cal engine.CalibrateInput) (engine.Fit, error) {
-			f := s.fits.get(fitKey, func() fitted {
-				fit, err := engine.Calibrate(cal)
-				return fitted{fit, err}
-			})
-			return f.fit, f.err
-		}
+		in.HeldOut = s.heldOut
 		return gathered{card: prep.Gather(in), warnings: warnings}
 	})
 	return c.card, c.warnings, c.err
@@ -537,11 +524,6 @@ type gathered struct {
 	card     prep.Card
 	warnings []string
 	err      error
-}
-
-type fitted struct {
-	fit engine.Fit
-	err error
 }
 
 // memo keeps values by key, made once: a caller asking for a value being

@@ -52,6 +52,9 @@ type Settings struct {
 	// Aborts are the words in a pass's notes that leave it out of the fit
 	// and the card's figures (nil: logbook.DefaultAbortWords).
 	Aborts logbook.AbortWords
+	// Changes are the words in a pass's notes that say the car was changed
+	// before it (change_words); nil: the defaults.
+	Changes logbook.ChangeWords
 }
 
 // DefaultMaxReadingAge is how old the latest reading may be before the card
@@ -94,11 +97,12 @@ type Input struct {
 	// label), with when.
 	Ticked map[string]time.Time
 
-	// Calibrate, when set, calibrates in place of engine.Calibrate: a
-	// front end that keeps fits while the files they are made from do not
-	// change (the pit page) gives its memo here. It must return what
-	// engine.Calibrate would for the same input.
-	Calibrate func(engine.CalibrateInput) (engine.Fit, error)
+	// HeldOut keeps the pass model's held-out predictions of the logbook's
+	// recent passes, which weigh the prediction's members (engine.Forecast):
+	// a front end that keeps it between cards (the pit page; the folder's
+	// cache for the command line) spends one calibration per new pass. Nil:
+	// computed afresh.
+	HeldOut *engine.HeldOutCache
 
 	// Problems found before gathering (a broken car.yaml, say): printed on
 	// the card with whatever else can be computed.
@@ -208,16 +212,12 @@ func Gather(in Input) Card {
 	}
 
 	cal := engine.CalibrateInput{Car: in.Car, Track: in.Track, Tracks: in.Tracks, Passes: in.Passes, Now: latest(in.Now, in.Call, in.Passes),
-		DayStart: in.Settings.DayStart, Aborts: in.Settings.Aborts}
+		DayStart: in.Settings.DayStart, Aborts: in.Settings.Aborts, Changes: in.Settings.Changes}
 	var fit engine.Fit
 	carErr := in.Car.Validate("car.yaml")
 	err := carErr
 	if err == nil {
-		calibrate := engine.Calibrate
-		if in.Calibrate != nil {
-			calibrate = in.Calibrate
-		}
-		fit, err = calibrate(cal)
+		c.Prediction, fit, err = engine.Forecast(cal, engine.PredictInput{Air: in.Air, Prep: in.Prep, WeightLb: in.WeightLb, Time: in.Call}, in.HeldOut)
 	}
 	switch {
 	case err != nil && len(in.Problems) > 0:
@@ -226,7 +226,6 @@ func Gather(in Input) Card {
 		c.Problems = append(c.Problems, "no prediction: "+err.Error())
 	default:
 		c.Fit = fit
-		c.Prediction = engine.Predict(fit, engine.PredictInput{Air: in.Air, Prep: in.Prep, WeightLb: in.WeightLb, Time: in.Call})
 		if ok, why := c.Prediction.DialReady(); !ok {
 			c.NoDial = why
 			c.PlanErr = errors.New(why)

@@ -65,6 +65,7 @@ func cardRun(cmd *cobra.Command, o *cardOptions) error {
 		o.s.warn(w)
 	}
 	c := prep.Gather(in)
+	keepHeldOut(e, o.s)
 	if c.CrossFlag != "" {
 		o.s.warn(c.CrossFlag)
 	}
@@ -97,4 +98,13 @@ func cardRun(cmd *cobra.Command, o *cardOptions) error {
 		return err
 	}
 	return errors.Join(failedChecks(c.Failed), broken)
+}
+
+// keepHeldOut writes the folder's cache of the model's held-out predictions
+// when the card computed a new one; a cache that cannot be written costs
+// only time, and the crew hears why.
+func keepHeldOut(e *event.Folder, s *IOStreams) {
+	if err := e.KeepHeldOut(); err != nil {
+		s.warn(fmt.Sprintf("the model's cache in %s was not kept (%v): the next card computes it again", event.CacheDir, err))
+	}
 }

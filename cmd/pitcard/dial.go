@@ -407,6 +407,7 @@ func (o *dialOptions) card(e *eventFolder, latest bool) (prep.Card, bool, error)
 		return prep.Card{}, false, nil
 	}
 	c := prep.Gather(in)
+	_ = e.KeepHeldOut() // a cache that cannot be written costs only time
 	if !c.HasFinal || c.PlanErr != nil {
 		return prep.Card{}, false, nil
 	}

@@ -513,7 +513,7 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 	if car, err := e.Car(); err == nil && len(passes) > 0 {
 		trk, _ := e.Track()
 		tracks, _ := e.OtherTracks()
-		in := engine.CalibrateInput{Car: car, Track: trk, Tracks: tracks, Passes: passes, Now: passes[len(passes)-1].Time, DayStart: e.Settings.DayStart, Aborts: e.Settings.AbortWords}
+		in := engine.CalibrateInput{Car: car, Track: trk, Tracks: tracks, Passes: passes, Now: passes[len(passes)-1].Time, DayStart: e.Settings.DayStart, Aborts: e.Settings.AbortWords, Changes: e.Settings.ChangeWords}
 		if fit, err := engine.Calibrate(in); err == nil && len(fit.Samples) > 0 {
 			residual, corrected = fit.Residuals(in), true
 		}

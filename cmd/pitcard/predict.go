@@ -119,11 +119,12 @@ func forecastNext(e *eventFolder, cond conditionFlags, prepFlag, weightFlag stri
 	if len(passes) > 0 && passes[len(passes)-1].Time.After(upTo) {
 		upTo = passes[len(passes)-1].Time
 	}
-	fit, err := engine.Calibrate(engine.CalibrateInput{Car: car, Track: c.Track, Tracks: tracks, Passes: passes, Now: upTo, DayStart: e.Settings.DayStart, Aborts: e.Settings.AbortWords})
+	pred, fit, err := engine.Forecast(engine.CalibrateInput{Car: car, Track: c.Track, Tracks: tracks, Passes: passes, Now: upTo, DayStart: e.Settings.DayStart, Aborts: e.Settings.AbortWords, Changes: e.Settings.ChangeWords},
+		engine.PredictInput{Air: c.Reading, Prep: prep, WeightLb: weight, Time: when}, e.HeldOut())
 	if err != nil {
 		return n, err
 	}
-	pred := engine.Predict(fit, engine.PredictInput{Air: c.Reading, Prep: prep, WeightLb: weight, Time: when})
+	_ = e.KeepHeldOut() // a cache that cannot be written costs only time
 	if c.BadRows != nil {
 		leftOut = errors.Join(leftOut, c.BadRows)
 	}

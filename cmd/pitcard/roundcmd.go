@@ -284,6 +284,7 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 		o.s.warn(w)
 	}
 	c := prep.Gather(in)
+	keepHeldOut(e, o.s)
 	fmt.Fprintln(o.s.Out)
 	if err := prep.RenderTextWidth(o.s.Out, c, o.s.Terminal, o.s.width()); err != nil {
 		return err

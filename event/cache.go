@@ -1,0 +1,66 @@
+package event
+
+import (
+	"bytes"
+	"os"
+	"path/filepath"
+
+	"pitcard/engine"
+	"pitcard/internal/safefile"
+)
+
+// CacheDir is the folder's cache: what pitcard can compute again, kept to
+// save time (the pass model's held-out predictions). A crew may delete it
+// at any time. It carries a CACHEDIR.TAG (the Cache Directory Tagging
+// Specification, which backup tools honour) and a .gitignore that ignores
+// it all, so version control and backups leave it out.
+const CacheDir = ".pitcard-cache"
+
+// heldOutFile is the held-out predictions' file in CacheDir.
+const heldOutFile = "heldout.json"
+
+// cacheTag is the tag the Cache Directory Tagging Specification asks for.
+const cacheTag = "Signature: 8a477f597d28d172789f06886806bc55\n# This file is a cache directory tag created by pitcard: the folder holds what pitcard can compute again.\n"
+
+// HeldOut is the folder's cache of the model's held-out predictions, read
+// once: from CacheDir on disk, an empty one for the demo or where the file
+// is missing or unreadable (a cache is only ever a saving).
+func (e *Folder) HeldOut() *engine.HeldOutCache {
+	if e.heldOut != nil {
+		return e.heldOut
+	}
+	e.heldOut = engine.NewHeldOutCache()
+	if e.Demo || e.Dir == "" {
+		return e.heldOut
+	}
+	if f, err := os.Open(filepath.Join(e.Dir, CacheDir, heldOutFile)); err == nil {
+		e.heldOut = engine.ReadHeldOutCache(f)
+		_ = f.Close()
+	}
+	return e.heldOut
+}
+
+// KeepHeldOut writes the held-out predictions back to CacheDir when a new
+// one was computed. A cache that cannot be written is left (the next card
+// computes it again); the error says why, for a warning.
+func (e *Folder) KeepHeldOut() error {
+	if e.heldOut == nil || e.Demo || e.Dir == "" || !e.heldOut.Changed() {
+		return nil
+	}
+	dir := filepath.Join(e.Dir, CacheDir)
+	if err := os.MkdirAll(dir, 0o755); err != nil {
+		return err
+	}
+	for name, body := range map[string]string{"CACHEDIR.TAG": cacheTag, ".gitignore": "# pitcard's cache: safe to delete, never worth keeping\n*\n"} {
+		if _, err := os.Stat(filepath.Join(dir, name)); err != nil {
+			if err := safefile.WriteNoBackup(filepath.Join(dir, name), []byte(body)); err != nil {
+				return err
+			}
+		}
+	}
+	var buf bytes.Buffer
+	if _, err := e.heldOut.WriteTo(&buf); err != nil {
+		return err
+	}
+	return safefile.WriteNoBackup(filepath.Join(dir, heldOutFile), buf.Bytes())
+}
