@@ -84,7 +84,7 @@ type Server struct {
 	cards memo[gathered]
 	// heldOut keeps the pass model's held-out predictions between cards.
 	heldOut *engine.HeldOutCache
-	slips slipLog
+	slips   slipLog
 }
 
 // New makes the pit page's handler.
