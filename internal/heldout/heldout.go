@@ -184,7 +184,7 @@ func (t *tally) add(day int, et, sd, actual, oracle float64) {
 }
 
 // Covered: actual lies inside et ± 1.96 sd, the 95 % interval of a normal.
-func Covered(et, sd, actual float64) bool { return math.Abs(actual-et) <= 1.96*sd }
+func Covered(et, sd, actual float64) bool { return math.Abs(actual-et) <= 1.96*sd+1e-9 }
 
 // Dial is the dial posted for a breakout risk of risk: et plus the normal
 // quantile of risk times sd, rounded down to the hundredth (a dial is
