@@ -11,6 +11,9 @@ import "pitcard/internal/truthsim"
 // pass-to-pass and the day-to-day variances, both measured on the season
 // itself). fin is the finish's index in the timers, ft its distance. The
 // standard is computed, not quoted: no source.
+//
+// A season of fewer than minDays days takes the day-to-day variance as the
+// effects' mean square about none (see below).
 func Floors(passes []truthsim.Pass, fin int, ft float64) []float64 {
 	actual := func(p truthsim.Pass) float64 { et, _ := finishAt(p.Logged, ft); return et }
 	var noise []float64
@@ -27,6 +30,15 @@ func Floors(passes []truthsim.Pass, fin int, ft float64) []float64 {
 		effects = append(effects, mean(v))
 	}
 	sigma2, tau2 := variance(noise), variance(effects)
+	if len(effects) < minDays {
+		// a season of a day or two says nothing of the spread between days
+		// about their mean: the effects are departures from typical, whose
+		// mean is none, so their mean square is the spread
+		tau2 = 0
+		for _, e := range effects {
+			tau2 += e * e / float64(len(effects))
+		}
+	}
 	out := make([]float64, len(passes))
 	for k, p := range passes {
 		var dev []float64
@@ -43,3 +55,7 @@ func Floors(passes []truthsim.Pass, fin int, ft float64) []float64 {
 	}
 	return out
 }
+
+// minDays is the fewest race days whose effects' variance about their own
+// mean is taken as the day-to-day variance.
+const minDays = 3

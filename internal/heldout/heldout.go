@@ -89,9 +89,16 @@ type WorldScore struct {
 	Days         []Day
 }
 
+// MinScored is the fewest passes scored for a world's ratio to its floor to
+// count in the median and the 90th percentile: a ratio of one or two
+// passes is noise. Every scored pass counts in the other figures.
+const MinScored = 5
+
 // Summary is a predictor's figures across worlds.
 type Summary struct {
-	MedianRatio, P90Ratio float64 // of the worlds' ratios to their floors
+	// MedianRatio, P90Ratio: of the ratios to their floors of the worlds
+	// with MinScored passes scored or more.
+	MedianRatio, P90Ratio float64
 	Oracle                float64 // the worst single |predicted − oracle|, s
 	OracleWorld           string
 	Coverage              float64 // share inside ± 1.96 sd (0.95 wanted)
@@ -250,8 +257,7 @@ func conditionsOf(p truthsim.Pass) Conditions {
 	return c
 }
 
-// summarise gathers one predictor's figures across worlds (worlds with no
-// target pass left out).
+// summarise gathers one predictor's figures across worlds.
 func summarise(ws []WorldScore, of func(WorldScore) Figures) Summary {
 	var s Summary
 	var ratios []float64
@@ -261,7 +267,9 @@ func summarise(ws []WorldScore, of func(WorldScore) Figures) Summary {
 		if f.N == 0 {
 			continue
 		}
-		ratios = append(ratios, f.Ratio)
+		if f.N >= MinScored {
+			ratios = append(ratios, f.Ratio)
+		}
 		s.N += f.N
 		covered += f.Covered
 		broke += f.Broke

@@ -68,7 +68,7 @@ func TestHarnessAgainstTheTruth(t *testing.T) {
 	if p := s.Plain.Ratio; p < 4 || p > 6 {
 		t.Errorf("the plain rule: %.2f× the floor, want 4–6", p)
 	}
-	if !strings.Contains(r.Table(), "| median ratio to floor |") {
+	if !strings.Contains(r.Table(), "| median ratio to floor") {
 		t.Errorf("the table has no median ratio:\n%s", r.Table())
 	}
 }
@@ -151,5 +151,23 @@ func TestPlainRule(t *testing.T) {
 	in.Before = in.Before[:0]
 	if _, _, ok := PlainRule(in); ok {
 		t.Error("no pass: a prediction")
+	}
+}
+
+// A season of one race day still gives the floor the day's earlier passes:
+// with a single day's effect the variance between days about their mean is
+// nothing, which would shrink every day estimate to none (the standard is
+// the floor's own definition: no source).
+func TestFloorOfOneDay(t *testing.T) {
+	w := truthsim.Worlds()[4]
+	w.Days = 1
+	passes := w.Season()
+	fin := truthsim.FinishIndex(w.Car.DistanceFt)
+	f := Floors(passes, fin, w.Car.DistanceFt)
+	if f[0] != passes[0].TypicalMeasured[fin] {
+		t.Errorf("the day's first pass: floor %.4f, want the typical run %.4f", f[0], passes[0].TypicalMeasured[fin])
+	}
+	if d := math.Abs(f[3] - passes[3].TypicalMeasured[fin]); d < 1e-4 {
+		t.Errorf("the day's fourth pass: floor %.4f, the typical run %.4f: the day's earlier passes were not used", f[3], passes[3].TypicalMeasured[fin])
 	}
 }

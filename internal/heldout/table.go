@@ -23,7 +23,7 @@ func (r Report) Table() string {
 	}
 	b.WriteString("\n| across worlds | predictor | plain rule |\n|---|---:|---:|\n")
 	fmt.Fprintf(&b, "| passes scored | %d | %d |\n", r.Model.N, r.Plain.N)
-	fmt.Fprintf(&b, "| median ratio to floor | %.2f | %.2f |\n", r.Model.MedianRatio, r.Plain.MedianRatio)
+	fmt.Fprintf(&b, "| median ratio to floor (worlds of %d+ passes scored) | %.2f | %.2f |\n", MinScored, r.Model.MedianRatio, r.Plain.MedianRatio)
 	fmt.Fprintf(&b, "| 90th percentile ratio to floor | %.2f | %.2f |\n", r.Model.P90Ratio, r.Plain.P90Ratio)
 	fmt.Fprintf(&b, "| car-days more than %.2f s worse than the plain rule | %d of %d | |\n", WorseBy, r.WorseDays, r.CarDays)
 	fmt.Fprintf(&b, "| worst miss of the noiseless truth, s | %.3f | %.3f |\n", r.Model.Oracle, r.Plain.Oracle)
