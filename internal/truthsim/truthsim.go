@@ -566,9 +566,8 @@ func (w World) logged(c cond, readAt, t time.Time, k int, massLb float64, ran ru
 				p.ET[i] = decimal.NullDecimal{}
 			}
 		}
-		p.MPH660 = decimal.NullDecimal{}
-		if fin != len(p.ET)-1 {
-			p.MPH1320 = decimal.NullDecimal{}
+		if fin > 2 { // the eighth's trap, unless it is the finish's
+			p.MPH660 = decimal.NullDecimal{}
 		}
 	case u < L.FinishOnly+L.No1000 && fin > 3: // the 1000-ft clock was down
 		p.ET[3] = decimal.NullDecimal{}
