@@ -9,6 +9,7 @@ import (
 	"testing"
 
 	"pitcard/engine"
+	"pitcard/internal/heldout"
 	"pitcard/internal/truthsim"
 	"pitcard/logbook"
 )
@@ -35,56 +36,6 @@ type heldOut struct {
 	floorFirst, floorLate float64
 }
 
-// floors computes, for every pass, what a predictor that knew this physics
-// and the car exactly would have said as the race day ran: the truth's
-// typical run in the pass's conditions as the crew measured them (the
-// meters' small errors are all a predictor can know), plus its best estimate
-// of the day's
-// effect from the day's earlier clean passes (the mean of their departures
-// from typical, shrunk toward none by the ratio of the pass-to-pass and the
-// day-to-day variances, both measured on the season itself).
-func floors(passes []truthsim.Pass, fin int) []float64 {
-	actual := func(p truthsim.Pass) float64 { et, _ := p.Logged.ETAt(logbook.Timers[fin]); return et }
-	var noise []float64
-	dayMeans := map[int][]float64{}
-	for _, p := range passes {
-		if p.Aborted {
-			continue
-		}
-		noise = append(noise, actual(p)-p.Oracle[fin])
-		dayMeans[p.Day] = append(dayMeans[p.Day], p.Oracle[fin]-p.Typical[fin])
-	}
-	var effects []float64
-	for _, v := range dayMeans {
-		effects = append(effects, meanOf(v))
-	}
-	sigma2, tau2 := variance(noise), variance(effects)
-	out := make([]float64, len(passes))
-	for k, p := range passes {
-		var dev []float64
-		for j := k - 1; j >= 0 && passes[j].Day == p.Day; j-- {
-			if !passes[j].Aborted {
-				dev = append(dev, actual(passes[j])-passes[j].TypicalMeasured[fin])
-			}
-		}
-		est := 0.0
-		if n := float64(len(dev)); n > 0 {
-			est = meanOf(dev) * n * tau2 / (n*tau2 + sigma2)
-		}
-		out[k] = p.TypicalMeasured[fin] + est
-	}
-	return out
-}
-
-func variance(v []float64) float64 {
-	m := meanOf(v)
-	var s float64
-	for _, x := range v {
-		s += (x - m) * (x - m)
-	}
-	return s / float64(max(len(v)-1, 1))
-}
-
 // scoreWorld predicts each clean pass of the last `targets` days of w from
 // the passes before it.
 func scoreWorld(t testing.TB, w truthsim.World, targetDays int, claimOff float64) heldOut {
@@ -96,7 +47,7 @@ func scoreWorld(t testing.TB, w truthsim.World, targetDays int, claimOff float64
 		logged[i] = p.Logged
 	}
 	s := heldOut{world: w.String()}
-	bayes := floors(passes, fin)
+	bayes := heldout.Floors(passes, fin, w.Car.DistanceFt) // the noise floor, as the held-out harness computes it
 	cache := engine.NewHeldOutCache()
 	var errs, floor, strict, last, first, later, floorFirst, floorLate []float64
 	for k, p := range passes {

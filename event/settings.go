@@ -90,7 +90,8 @@ var OtherVariables = []string{"PITCARD_DIR"}
 // developerVariables steer pitcard's own tests and tools (DEVELOPERS.md):
 // passed over, and not offered to a crew.
 var developerVariables = []string{"PITCARD_LOAD_PACE", "PITCARD_LOAD_WRITERS", "PITCARD_SHOTS", "PITCARD_TRUTH_SEED", "PITCARD_ABLATE", "PITCARD_ABLATION",
-	"PITCARD_SCORE_OUT", "PITCARD_CRASH_CHILD", "PITCARD_CRASH_AT", "PITCARD_WRITER_CHILD", "PITCARD_WRITER_HOUR", "PITCARD_AXE"}
+	"PITCARD_SCORE_OUT", "PITCARD_CRASH_CHILD", "PITCARD_CRASH_AT", "PITCARD_WRITER_CHILD", "PITCARD_WRITER_HOUR", "PITCARD_AXE",
+	"PITCARD_FAMILY", "PITCARD_FAMILY_HELDOUT"}
 
 // checkVariables refuses a PITCARD_ variable that names no setting: a
 // misspelt one (PITCARD_DIAL_SETP) would otherwise be silently ignored.

@@ -1,0 +1,36 @@
+// Command heldout scores pitcard's pass model and the plain rule on worlds
+// of the truth simulator and prints the report's table (Markdown):
+//
+//	go run ./internal/heldout/cmd/heldout -n 20          # tuning draws 1..20
+//	go run ./internal/heldout/cmd/heldout -n 40 -heldout # held-out draws
+//	go run ./internal/heldout/cmd/heldout -fixed         # the six fixed worlds
+//
+// A developer's tool: never part of the pitcard command.
+package main
+
+import (
+	"flag"
+	"fmt"
+	"os"
+
+	"pitcard/internal/heldout"
+	"pitcard/internal/truthsim"
+)
+
+func main() {
+	n := flag.Int("n", 0, "number of drawn worlds to score")
+	held := flag.Bool("heldout", false, "score the held-out draws, not the tuning draws")
+	fixed := flag.Bool("fixed", false, "score the six fixed worlds (truthsim.Worlds)")
+	flag.Parse()
+	worlds := heldout.Draws(*n, *held)
+	if *fixed {
+		worlds = append(worlds, truthsim.Worlds()...)
+	}
+	if len(worlds) == 0 {
+		fmt.Fprintln(os.Stderr, "heldout: nothing to score: give -n N (1..) or -fixed")
+		os.Exit(2)
+	}
+	r := heldout.Score(worlds, heldout.Pitcard)
+	fmt.Print(r.Table())
+	fmt.Printf("\n%d worlds scored in %s\n", len(worlds), r.Elapsed.Round(100_000_000))
+}
