@@ -273,7 +273,7 @@ func Forecast(cal CalibrateInput, next PredictInput, cache *HeldOutCache) (Predi
 		pr.Notes = append(pr.Notes, fmt.Sprintf("only %s at %.0f ft: the prediction carries them to this air by the SAE J1349 factor alone; nothing is fitted yet",
 			text.Plural(len(fit.Samples), "clean pass"), dist))
 	} else {
-		pr.Notes = append(pr.Notes, fmt.Sprintf("the finish leans on %s (weighed by how each predicted the latest %s of this car); the interval is scaled ×%.2f to how often it covered them",
+		pr.Notes = append(pr.Notes, fmt.Sprintf("leaned on %s (weighed on the latest %s); interval ×%.2f from their misses",
 			b.Text(), text.Plural(b.Scored, "pass"), b.Scale))
 	}
 	return pr, fit, nil

@@ -332,7 +332,7 @@ func Explain(p engine.Prediction, f engine.Fit, u weather.Units) []string {
 	if len(p.Leaned) > 0 {
 		var parts []string
 		for i, l := range p.Leaned {
-			if i == 3 {
+			if i == 2 {
 				break
 			}
 			parts = append(parts, fmt.Sprintf("%s %s (ran %.3f; %.3f in this round's conditions; %.0f %% of the weight)",
@@ -341,11 +341,14 @@ func Explain(p engine.Prediction, f engine.Fit, u weather.Units) []string {
 		out = append(out, fmt.Sprintf("Calibrated to %d passes. It leans most on: %s.", len(f.Samples), strings.Join(parts, "; ")))
 	}
 	for i, o := range p.Outliers {
-		if i == 2 {
-			out = append(out, fmt.Sprintf("... and %d more left out.", len(p.Outliers)-2))
+		if i == 1 {
 			break
 		}
-		out = append(out, fmt.Sprintf("Left out %s %s: %s.", o.Pass.Time.Format("01-02"), o.Pass.Session.Long(), passNotes(o.Reason)))
+		more := ""
+		if len(p.Outliers) > 1 {
+			more = fmt.Sprintf(" (and %d more left out)", len(p.Outliers)-1)
+		}
+		out = append(out, fmt.Sprintf("Left out %s %s: %s%s.", o.Pass.Time.Format("01-02"), o.Pass.Session.Long(), passNotes(o.Reason), more))
 	}
 	for _, n := range p.Notes {
 		if strings.HasPrefix(n, "calibrated to") {

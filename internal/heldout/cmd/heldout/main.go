@@ -21,6 +21,7 @@ func main() {
 	n := flag.Int("n", 0, "number of drawn worlds to score")
 	held := flag.Bool("heldout", false, "score the held-out draws, not the tuning draws")
 	fixed := flag.Bool("fixed", false, "score the six fixed worlds (truthsim.Worlds)")
+	model := flag.String("model", "pitcard", "the predictor: pitcard (the card's blend) or physics (the calibrated model alone)")
 	flag.Parse()
 	worlds := heldout.Draws(*n, *held)
 	if *fixed {
@@ -30,7 +31,11 @@ func main() {
 		fmt.Fprintln(os.Stderr, "heldout: nothing to score: give -n N (1..) or -fixed")
 		os.Exit(2)
 	}
-	r := heldout.Score(worlds, heldout.Pitcard)
+	p := heldout.Pitcard
+	if *model == "physics" {
+		p = heldout.PhysicsOnly
+	}
+	r := heldout.Score(worlds, p)
 	fmt.Print(r.Table())
 	fmt.Printf("\n%d worlds scored in %s\n", len(worlds), r.Elapsed.Round(100_000_000))
 }
