@@ -22,18 +22,35 @@ const heldOutFile = "heldout.json"
 // cacheTag is the tag the Cache Directory Tagging Specification asks for.
 const cacheTag = "Signature: 8a477f597d28d172789f06886806bc55\n# This file is a cache directory tag created by pitcard: the folder holds what pitcard can compute again.\n"
 
+// cacheDir is where the folder's cache lives: CacheDir in the folder, and
+// for the read-only demo the user's cache directory (os.UserCacheDir, e.g.
+// ~/.cache/pitcard/demo). "" where there is none.
+func (e *Folder) cacheDir() string {
+	if e.Demo {
+		if d, err := os.UserCacheDir(); err == nil {
+			return filepath.Join(d, "pitcard", "demo")
+		}
+		return ""
+	}
+	if e.Dir == "" {
+		return ""
+	}
+	return filepath.Join(e.Dir, CacheDir)
+}
+
 // HeldOut is the folder's cache of the model's held-out predictions, read
-// once: from CacheDir on disk, an empty one for the demo or where the file
-// is missing or unreadable (a cache is only ever a saving).
+// once from its cache directory; an empty one where the file is missing or
+// unreadable (a cache is only ever a saving).
 func (e *Folder) HeldOut() *engine.HeldOutCache {
 	if e.heldOut != nil {
 		return e.heldOut
 	}
 	e.heldOut = engine.NewHeldOutCache()
-	if e.Demo || e.Dir == "" {
+	dir := e.cacheDir()
+	if dir == "" {
 		return e.heldOut
 	}
-	if f, err := os.Open(filepath.Join(e.Dir, CacheDir, heldOutFile)); err == nil {
+	if f, err := os.Open(filepath.Join(dir, heldOutFile)); err == nil {
 		e.heldOut = engine.ReadHeldOutCache(f)
 		_ = f.Close()
 	}
@@ -44,10 +61,10 @@ func (e *Folder) HeldOut() *engine.HeldOutCache {
 // one was computed. A cache that cannot be written is left (the next card
 // computes it again); the error says why, for a warning.
 func (e *Folder) KeepHeldOut() error {
-	if e.heldOut == nil || e.Demo || e.Dir == "" || !e.heldOut.Changed() {
+	dir := e.cacheDir()
+	if e.heldOut == nil || dir == "" || !e.heldOut.Changed() {
 		return nil
 	}
-	dir := filepath.Join(e.Dir, CacheDir)
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		return err
 	}

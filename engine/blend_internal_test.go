@@ -1,0 +1,113 @@
+package engine
+
+import (
+	"bytes"
+	"math"
+	"strings"
+	"testing"
+
+	"pitcard/internal/stats"
+)
+
+// The exponentially weighted average forecaster (Cesa-Bianchi and Lugosi
+// 2006, ch. 2): a member that misses less on the scored passes takes the
+// weight, one that cannot predict a pass (asleep) neither gains nor loses
+// there, and one odd pass cannot hand the blend to another member
+// (MissLossCap).
+func TestOnlineWeights(t *testing.T) {
+	hist := func(n int, miss [nMembers]float64, asleep int) []scored {
+		var h []scored
+		for k := range n {
+			s := scored{actual: 10}
+			for m := range nMembers {
+				sign := 1.0
+				if k%2 == 1 {
+					sign = -1
+				}
+				s.est[m] = estimate{ET: 10 + sign*miss[m], SD: 0.02, OK: int(m) != asleep}
+			}
+			h = append(h, s)
+		}
+		return h
+	}
+	t.Run("the better member takes the weight", func(t *testing.T) {
+		w, _ := online(hist(30, [nMembers]float64{0.05, 0.01, 0.05}, -1))
+		if w[airMember] < 0.9 {
+			t.Errorf("weights %v: the member missing by 0.01 s against 0.05 s should hold over 90 %%", w)
+		}
+	})
+	t.Run("equal members keep the prior", func(t *testing.T) {
+		w, _ := online(hist(30, [nMembers]float64{0.02, 0.02, 0.02}, -1))
+		for m := range nMembers {
+			if math.Abs(w[m]-memberPrior[m]) > 1e-9 {
+				t.Errorf("weights %v, want the prior %v", w, memberPrior)
+			}
+		}
+	})
+	t.Run("asleep neither gains nor loses", func(t *testing.T) {
+		w, _ := online(hist(30, [nMembers]float64{0.02, 0.02, 0.02}, int(todayMember)))
+		if math.Abs(w[todayMember]-memberPrior[todayMember]) > 0.02 {
+			t.Errorf("weights %v: a member asleep on every pass keeps about its prior %.2f", w, memberPrior[todayMember])
+		}
+	})
+	t.Run("one odd pass does not swing the weights", func(t *testing.T) {
+		h := hist(20, [nMembers]float64{0.01, 0.02, 0.02}, -1)
+		before, _ := online(h)
+		h = append(h, scored{actual: 10, est: [nMembers]estimate{{ET: 10.4, SD: 0.02, OK: true}, {ET: 10.02, SD: 0.02, OK: true}, {ET: 10.02, SD: 0.02, OK: true}}})
+		after, _ := online(h)
+		if after[physicsMember] < before[physicsMember]/6 {
+			t.Errorf("one 0.4 s miss cut the pass model's weight from %.3f to %.3f", before[physicsMember], after[physicsMember])
+		}
+	})
+}
+
+// Split conformal calibration with normalized scores (Vovk, Gammerman and
+// Shafer 2005): misses twice the spread the members claim widen the
+// interval about twice; with no history the scale is 1.
+func TestConformalScale(t *testing.T) {
+	if _, s := online(nil); math.Abs(s-1) > 0.1 {
+		t.Errorf("no history: scale %.2f, want about 1", s)
+	}
+	var h []scored
+	for k := range 200 {
+		// misses spread as a normal with twice the claimed SD: the
+		// quantiles of |z| at (k+0.5)/200
+		q := (k * 37) % 200 // the quantiles in a scrambled order: recent passes count more
+		z := 2 * stats.NormalQuantile(0.5+(float64(q)+0.5)/400)
+		if k%2 == 1 {
+			z = -z
+		}
+		s := scored{actual: 10 + 0.01*z}
+		for m := range nMembers {
+			s.est[m] = estimate{ET: 10, SD: 0.01, OK: true}
+		}
+		h = append(h, s)
+	}
+	if _, s := online(h); s < 1.6 || s > 2.4 {
+		t.Errorf("misses at twice the claimed spread: scale %.2f, want about 2", s)
+	}
+}
+
+// The cache writes what was used and reads it back; a cache of another
+// version or a broken file is an empty cache, never an error.
+func TestHeldOutCacheRoundTrip(t *testing.T) {
+	c := NewHeldOutCache()
+	c.put("a", estimate{ET: 11.4, SD: 0.02, OK: true})
+	c.put("b", estimate{})
+	var buf bytes.Buffer
+	if _, err := c.WriteTo(&buf); err != nil {
+		t.Fatal(err)
+	}
+	back := ReadHeldOutCache(&buf)
+	if e, ok := back.get("a"); !ok || e.ET != 11.4 || e.SD != 0.02 || !e.OK {
+		t.Errorf("read back %+v %v", e, ok)
+	}
+	if e, ok := back.get("b"); !ok || e.OK {
+		t.Errorf("a pass the model could not predict reads back %+v %v", e, ok)
+	}
+	for _, broken := range []string{"", "{", `{"version": 1, "entries": {"a": [1, 2, 1]}}`, "not json"} {
+		if c := ReadHeldOutCache(strings.NewReader(broken)); len(c.entries) != 0 {
+			t.Errorf("%q read as %d entries", broken, len(c.entries))
+		}
+	}
+}
