@@ -75,4 +75,3 @@ func TestACarChangeIsCarried(t *testing.T) {
 		t.Errorf("the prediction does not say it rests on the passes since the change: %q", noted.Notes)
 	}
 }
-
