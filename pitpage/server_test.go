@@ -444,7 +444,7 @@ func slip() url.Values {
 func TestSlipFormTour(t *testing.T) {
 	f := newFixture(t)
 	page := f.do("GET", "/slip", testTokens.Crew, nil).Body.String()
-	if fieldValue(page, "session") != "E3" || !strings.Contains(page, `value="left" checked`) || fieldValue(page, "dial") != "11.39" {
+	if fieldValue(page, "session") != "E3" || !strings.Contains(page, `value="left" checked`) || fieldValue(page, "dial") != "11.40" {
 		t.Errorf("the slip must be preselected: session %q, dial %q, left lane checked %v", fieldValue(page, "session"),
 			fieldValue(page, "dial"), strings.Contains(page, `value="left" checked`))
 	}
