@@ -242,8 +242,11 @@ func Forecast(cal CalibrateInput, next PredictInput, cache *HeldOutCache) (Predi
 		// Cold start: too few passes to fit anything; carry them by the air.
 		b.ColdStart = true
 		w := [nMembers]float64{airMember: 1}
-		blendET, blendSD = mix(now, w)
-		blendSD = fin.SD
+		blendET, _ = mix(now, w)
+		blendSD = fin.SD // the model's spread, which carries the day-to-day prior
+		if math.IsNaN(blendET) {
+			blendET, w = fin.ET, [nMembers]float64{physicsMember: 1}
+		}
 		b.Members = shares(now, w, [nMembers]float64{math.NaN(), math.NaN(), math.NaN()})
 	} else {
 		hist := scoreMembers(cal, fit, cache)
