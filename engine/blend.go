@@ -8,6 +8,7 @@ import (
 	"io"
 	"math"
 	"runtime"
+	"slices"
 	"sort"
 	"strings"
 	"sync"
@@ -30,12 +31,13 @@ const (
 	physicsMember member = iota // the calibrated pass model (Calibrate, Predict)
 	airMember                   // the latest clean passes carried by the air alone (AirCarried)
 	todayMember                 // today's clean passes carried by the air alone
+	similarMember               // the passes on a surface nearest today's temperature, carried by the air
 	nMembers
 )
 
 // Name is the member in words, as the card says what it leaned on.
 func (m member) Name() string {
-	return [...]string{"the pass model", "the latest passes carried by the air", "today's passes"}[m]
+	return [...]string{"the pass model", "the latest passes carried by the air", "today's passes", "passes on a surface like today's"}[m]
 }
 
 // Blend settings.
@@ -60,7 +62,7 @@ const (
 )
 
 // memberPrior is each member's weight before any pass is scored.
-var memberPrior = [nMembers]float64{0.6, 0.25, 0.15}
+var memberPrior = [nMembers]float64{0.55, 0.2, 0.1, 0.15}
 
 // MemberShare is a member's share of the blended finish ET.
 type MemberShare struct {
@@ -153,7 +155,7 @@ type heldOutFile struct {
 
 // heldOutVersion changes whenever the model changes what it predicts: a
 // cache of another version is not read.
-const heldOutVersion = 3
+const heldOutVersion = 4
 
 // ReadHeldOutCache reads a cache WriteTo wrote. A cache of another version,
 // or one that cannot be read, is an empty cache: it is only ever a saving.
@@ -233,8 +235,7 @@ func Forecast(cal CalibrateInput, next PredictInput, cache *HeldOutCache) (Predi
 	fin := pr.Finish()
 	now := [nMembers]estimate{physicsMember: {ET: fin.ET, SD: fin.SD, OK: true}}
 	elev := cal.Track.Elevation()
-	now[airMember] = carried(cal, cal.Passes, next, elev, false)
-	now[todayMember] = carried(cal, cal.Passes, next, elev, true)
+	now[airMember], now[todayMember], now[similarMember] = carriedMembers(cal, cal.Passes, next, elev)
 
 	b := Blend{Scale: 1}
 	var blendET, blendSD float64
@@ -247,7 +248,11 @@ func Forecast(cal CalibrateInput, next PredictInput, cache *HeldOutCache) (Predi
 		if math.IsNaN(blendET) {
 			blendET, w = fin.ET, [nMembers]float64{physicsMember: 1}
 		}
-		b.Members = shares(now, w, [nMembers]float64{math.NaN(), math.NaN(), math.NaN()})
+		var none [nMembers]float64
+		for m := range none {
+			none[m] = math.NaN()
+		}
+		b.Members = shares(now, w, none)
 	} else {
 		hist := scoreMembers(cal, fit, cache)
 		w, scale := online(hist)
@@ -282,34 +287,125 @@ func Forecast(cal CalibrateInput, next PredictInput, cache *HeldOutCache) (Predi
 	return pr, fit, nil
 }
 
-// carried is the air-carried estimate of the next pass from passes: the
-// median of the latest clean passes carried by the SAE J1349 factor (today
-// only: the day's passes so far).
-func carried(cal CalibrateInput, passes []logbook.Pass, next PredictInput, elev weather.Length, today bool) estimate {
-	if today {
-		var same []logbook.Pass
-		for _, p := range passes {
-			if !p.Time.After(next.Time) && cal.DayStart.Same(p.Time, next.Time) {
-				same = append(same, p)
-			}
-		}
-		passes = same
-	}
+// carriedPass is one clean pass carried to the next pass's air by the SAE
+// J1349 factor alone.
+type carriedPass struct {
+	et     float64   // its finish ET carried to the next pass's air, s
+	trackF float64   // its surface temperature, °F (the air's + 10 where not read)
+	time   time.Time // when it ran
+}
+
+// Carried-pass members' settings.
+const (
+	// CarriedLatest is how many of the latest clean passes the air member
+	// carries (their median is taken), as the cross-check does.
+	CarriedLatest = CrossCheckPasses
+	// SimilarTrackF and SimilarPasses: the similar-track member carries the
+	// SimilarPasses passes whose surface temperature lies nearest the next
+	// pass's, within SimilarTrackF, from the latest SimilarWindow.
+	SimilarTrackF = 8.0
+	SimilarPasses = 3
+	SimilarWindow = 60
+	// CarriedGross: a carried pass further than this from the median of
+	// the latest CarriedRef carried passes (or 4 robust deviations, if
+	// more) is taken for a run the notes did not mark (a lift, a pedal).
+	CarriedGross = 0.20
+	CarriedRef   = 7
+)
+
+// carryAll carries the clean passes before next (since the latest change of
+// the car) to next's air, most recent first, leaving out gross outliers.
+func carryAll(cal CalibrateInput, passes []logbook.Pass, next PredictInput, elev weather.Length) []carriedPass {
 	passes = sinceChange(passes, cal.Changes)
-	elevation := func(track string) weather.Length {
-		if strings.EqualFold(track, cal.Track.Name) {
-			return cal.Track.Elevation()
-		}
-		if t, ok := cal.Tracks[strings.ToLower(track)]; ok {
-			return t.Elevation()
-		}
-		return elev
+	now := next.Air.Derive(elev)
+	if !(now.CFJ1349 > 0) {
+		return nil
 	}
-	cc, ok := AirCarried(passes, cal.Car.DistanceFt, next.Air, elev, elevation)
-	if !ok {
-		return estimate{}
+	var out []carriedPass
+	for i := len(passes) - 1; i >= 0 && len(out) < SimilarWindow; i-- {
+		p := passes[i]
+		et, ok := p.ETAt(cal.Car.DistanceFt)
+		if !ok || !p.HasAir || p.Time.After(next.Time) || cal.Aborts.Aborted(p.Notes) {
+			continue
+		}
+		then := p.Air.Derive(trackOf(cal, p.Track).Elevation())
+		if !(then.CFJ1349 > 0) {
+			continue
+		}
+		out = append(out, carriedPass{et: et * math.Cbrt(now.CFJ1349/then.CFJ1349), trackF: surfaceF(p.Air), time: p.Time})
 	}
-	return estimate{ET: cc.ET, SD: bracket.MinSD, OK: true}
+	if len(out) < 3 {
+		return out
+	}
+	ref := make([]float64, 0, CarriedRef)
+	for _, c := range out[:min(CarriedRef, len(out))] {
+		ref = append(ref, c.et)
+	}
+	med := stats.Median(ref)
+	dev := make([]float64, len(ref))
+	for i, v := range ref {
+		dev[i] = math.Abs(v - med)
+	}
+	limit := math.Max(CarriedGross, 4*1.4826*stats.Median(dev))
+	kept := out[:0]
+	for _, c := range out {
+		if math.Abs(c.et-med) <= limit {
+			kept = append(kept, c)
+		}
+	}
+	return kept
+}
+
+// surfaceF is a reading's surface temperature, °F: the air's + 10 where
+// the track was not read (as NewEnv takes it).
+func surfaceF(r weather.Reading) float64 {
+	if r.HasTrack {
+		return r.TrackTemp.Fahrenheit()
+	}
+	return r.Temp.Fahrenheit() + 10
+}
+
+// carriedMembers are the members that carry passes by the air alone: the
+// latest passes, today's passes, and the passes run on a surface nearest
+// today's in temperature.
+func carriedMembers(cal CalibrateInput, passes []logbook.Pass, next PredictInput, elev weather.Length) (latest, today, similar estimate) {
+	all := carryAll(cal, passes, next, elev)
+	med := func(cs []carriedPass) estimate {
+		if len(cs) == 0 {
+			return estimate{}
+		}
+		v := make([]float64, len(cs))
+		for i, c := range cs {
+			v[i] = c.et
+		}
+		return estimate{ET: stats.Median(v), SD: bracket.MinSD, OK: true}
+	}
+	latest = med(all[:min(CarriedLatest, len(all))])
+	var same []carriedPass
+	for _, c := range all {
+		if cal.DayStart.Same(c.time, next.Time) && len(same) < CarriedLatest {
+			same = append(same, c)
+		}
+	}
+	today = med(same)
+	t := surfaceF(next.Air)
+	near := slices.Clone(all)
+	near = slices.DeleteFunc(near, func(c carriedPass) bool { return math.Abs(c.trackF-t) > SimilarTrackF })
+	slices.SortStableFunc(near, func(a, b carriedPass) int { return cmpFloat(math.Abs(a.trackF-t), math.Abs(b.trackF-t)) })
+	if len(near) >= 2 {
+		similar = med(near[:min(SimilarPasses, len(near))])
+	}
+	return latest, today, similar
+}
+
+func cmpFloat(a, b float64) int {
+	switch {
+	case a < b:
+		return -1
+	case a > b:
+		return 1
+	}
+	return 0
 }
 
 // scored is one scored pass: every member's held-out estimate and the actual.
@@ -386,8 +482,7 @@ func scoreOne(cal CalibrateInput, t target, base string, cache *HeldOutCache) sc
 		cache.put(key, s.est[physicsMember])
 	}
 	elev := c.Track.Elevation()
-	s.est[airMember] = carried(c, t.before, next, elev, false)
-	s.est[todayMember] = carried(c, t.before, next, elev, true)
+	s.est[airMember], s.est[todayMember], s.est[similarMember] = carriedMembers(c, t.before, next, elev)
 	return s
 }
 
