@@ -37,7 +37,7 @@ const (
 
 // Name is the member in words, as the card says what it leaned on.
 func (m member) Name() string {
-	return [...]string{"the pass model", "the latest passes carried by the air", "today's passes", "passes on a surface like today's"}[m]
+	return [...]string{"the pass model", "the latest passes by air", "today's passes", "passes on a like surface"}[m]
 }
 
 // Blend settings.
@@ -88,7 +88,7 @@ type Blend struct {
 func (b Blend) Text() string {
 	var parts []string
 	for _, m := range b.Members {
-		if m.Share >= 0.005 {
+		if m.Share >= 0.03 { // a share under 3 % moves the ET under a thousandth in most cases
 			parts = append(parts, fmt.Sprintf("%s %.0f %%", m.Name, 100*m.Share))
 		}
 	}
@@ -111,6 +111,14 @@ type HeldOutCache struct {
 	entries map[string]estimate
 	used    map[string]bool // asked for or added since it was made or read
 	changed bool
+	cores   int // calibrations at once when scoring; 0: GOMAXPROCS
+}
+
+// OnCores limits the calibrations a forecast with this cache runs at once
+// (a server leaves cores to the requests that write). It returns c.
+func (c *HeldOutCache) OnCores(n int) *HeldOutCache {
+	c.cores = n
+	return c
 }
 
 // MaxHeldOutEntries bounds a cache kept in memory (the pit page's): past it,
@@ -281,7 +289,7 @@ func Forecast(cal CalibrateInput, next PredictInput, cache *HeldOutCache) (Predi
 		pr.Notes = append(pr.Notes, fmt.Sprintf("only %s at %.0f ft: the prediction carries them to this air by the SAE J1349 factor alone; nothing is fitted yet",
 			text.Plural(len(fit.Samples), "clean pass"), dist))
 	} else {
-		pr.Notes = append(pr.Notes, fmt.Sprintf("leaned on %s (weighed on the latest %s); interval ×%.2f from their misses",
+		pr.Notes = append(pr.Notes, fmt.Sprintf("leaned on %s (by the last %s); interval ×%.2f from their misses",
 			b.Text(), text.Plural(b.Scored, "pass"), b.Scale))
 	}
 	return pr, fit, nil
@@ -443,7 +451,11 @@ func scoreMembers(cal CalibrateInput, fit Fit, cache *HeldOutCache) []scored {
 	out := make([]scored, len(targets))
 	work := make(chan int)
 	var wg sync.WaitGroup
-	for range max(1, min(runtime.GOMAXPROCS(0), len(targets))) {
+	workers := runtime.GOMAXPROCS(0)
+	if cache != nil && cache.cores > 0 {
+		workers = cache.cores
+	}
+	for range max(1, min(workers, len(targets))) {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()

@@ -84,6 +84,7 @@ type Server struct {
 	cards memo[gathered]
 	// heldOut keeps the pass model's held-out predictions between cards.
 	heldOut *engine.HeldOutCache
+	making  chan struct{} // one card made at a time (gather)
 	slips   slipLog
 }
 
@@ -95,7 +96,7 @@ func New(cfg Config) (*Server, error) {
 	if cfg.Tokens.Crew == "" || cfg.Tokens.View == "" || cfg.Tokens.Secret == "" {
 		return nil, errors.New("pitpage: the crew, view and secret tokens are required")
 	}
-	s := &Server{cfg: cfg, mux: http.NewServeMux(), pages: map[string]*template.Template{}, heldOut: engine.NewHeldOutCache()}
+	s := &Server{cfg: cfg, mux: http.NewServeMux(), pages: map[string]*template.Template{}, heldOut: engine.NewHeldOutCache().OnCores(1), making: make(chan struct{}, 1)}
 	funcs := template.FuncMap{}
 	base, err := template.New("").Funcs(funcs).ParseFS(assets, "assets/layout.html")
 	if err != nil {
@@ -515,6 +516,12 @@ func (s *Server) gather(q *request, round string) (prep.Card, []string, error) {
 			return gathered{warnings: warnings, err: err}
 		}
 		in.HeldOut = s.heldOut
+		// One card is made at a time, on one core for its held-out scoring:
+		// a logbook changing under many phones makes every card start cold,
+		// and the slips and readings being posted must keep a core to be
+		// written on.
+		s.making <- struct{}{}
+		defer func() { <-s.making }()
 		return gathered{card: prep.Gather(in), warnings: warnings}
 	})
 	return c.card, c.warnings, c.err
