@@ -263,9 +263,11 @@ func Forecast(cal CalibrateInput, next PredictInput, cache *HeldOutCache) (Predi
 		b.Members = shares(now, w, none)
 	} else {
 		hist := scoreMembers(cal, fit, cache)
-		w, scale := online(hist)
+		calib := online(hist, memberPrior)
+		w := calib.weights
 		blendET, blendSD = mix(now, w)
-		b.Scale = scale
+		b.Scale = calib.Scale
+		pr.DialSD = blendSD * calib.DialScale
 		b.Scored = len(hist)
 		blendSD *= b.Scale
 		b.Members = shares(now, w, memberMAE(hist))
@@ -535,26 +537,38 @@ func heldOutKey(base string, c CalibrateInput, next PredictInput) string {
 	return hex.EncodeToString(h.Sum(nil))
 }
 
+// calibration is what the scored passes say of the blend: the members'
+// weights for the next pass and the scales of its spread.
+type calibration struct {
+	weights [nMembers]float64
+	// Scale makes the 95 % interval cover 95 % of the scored passes;
+	// DialScale makes the quick tail right where a dial is posted (the
+	// 10 % quantile), which heavy tails can put elsewhere than a normal
+	// with the interval's spread says.
+	Scale, DialScale float64
+}
+
 // online replays the scored passes in order as the blend would have seen
-// them: it returns the members' weights for the next pass (the discounted
+// them: the members' weights for the next pass (the discounted
 // exponentially weighted average of their capped absolute misses, in units
-// of the typical miss) and the conformal scale of the blend's spread (the factor
-// that makes its 95 % interval cover 95 % of the scored passes, each scored
-// by its miss over the spread the blend gave it then; recent passes count
-// more, and ConformalPrior passes at a scale of 1 steady a short history).
-func online(hist []scored) ([nMembers]float64, float64) {
-	type score struct{ z, weight float64 }
-	var zs []score
+// of the typical miss, from prior) and the conformal scales of the blend's
+// spread: each scored pass's miss over the spread the blend gave it then,
+// recent passes weighted more, ConformalPrior passes of a normal's scores
+// steadying a short history, and the level raised by the finite-sample
+// correction of split conformal prediction, (1 − α)(1 + 1/n) with n the
+// scores' effective number.
+func online(hist []scored, prior [nMembers]float64) calibration {
+	var zs []weighted
 	var loss [nMembers]float64
 	ref := missScale(hist)
 	for k, s := range hist {
-		w := expWeights(loss)
+		w := expWeights(loss, prior)
 		et, sd := mix(s.est, w)
 		if math.IsNaN(et) {
 			continue
 		}
 		if sd > 0 {
-			zs = append(zs, score{math.Abs(s.actual-et) / sd, math.Pow(ConformalForget, float64(len(hist)-1-k))})
+			zs = append(zs, weighted{(s.actual - et) / sd, math.Pow(ConformalForget, float64(len(hist)-1-k))})
 		}
 		for m := range nMembers {
 			loss[m] *= BlendForget
@@ -566,26 +580,51 @@ func online(hist []scored) ([nMembers]float64, float64) {
 		}
 	}
 	// the prior: ConformalPrior passes whose scores spread as a normal's
-	const priorPoints = 8
+	const priorPoints = 16
 	for i := range priorPoints {
-		p := (float64(i) + 0.5) / priorPoints
-		zs = append(zs, score{stats.NormalQuantile(0.5 + p/2), ConformalPrior / priorPoints})
+		zs = append(zs, weighted{stats.NormalQuantile((float64(i) + 0.5) / priorPoints), ConformalPrior / priorPoints})
 	}
-	sort.Slice(zs, func(a, b int) bool { return zs[a].z < zs[b].z })
+	var sum, sum2 float64
+	abs := make([]weighted, len(zs))
+	for i, z := range zs {
+		abs[i] = weighted{math.Abs(z.v), z.w}
+		sum += z.w
+		sum2 += z.w * z.w
+	}
+	level := math.Min(1, 0.95*(1+sum2/(sum*sum))) // 1/n_eff = Σw²/(Σw)²
+	c := calibration{weights: expWeights(loss, prior)}
+	c.Scale = clampScale(weightedQuantile(abs, level) / IntervalZ)
+	c.DialScale = clampScale(weightedQuantile(zs, DialQuantile) / stats.NormalQuantile(DialQuantile))
+	return c
+}
+
+// DialQuantile is where the dial's quick tail is calibrated: the breakout
+// risk a crew most often accepts (common practice, no source: 5–10 %).
+const DialQuantile = 0.10
+
+func clampScale(v float64) float64 { return math.Max(0.5, math.Min(4, v)) }
+
+// weighted is a value with its weight.
+type weighted struct{ v, w float64 }
+
+// weightedQuantile is the smallest value whose weight at or below it
+// reaches q of the whole.
+func weightedQuantile(vs []weighted, q float64) float64 {
+	vs = slices.Clone(vs)
+	slices.SortFunc(vs, func(a, b weighted) int { return cmpFloat(a.v, b.v) })
 	var total, cum float64
-	for _, e := range zs {
-		total += e.weight
+	for _, e := range vs {
+		total += e.w
 	}
-	scale := 1.0
-	for _, e := range zs {
-		cum += e.weight
-		if cum >= 0.95*total {
-			scale = math.Max(0.5, math.Min(4, e.z/IntervalZ))
-			break
+	for _, e := range vs {
+		cum += e.w
+		if cum >= q*total-1e-12 {
+			return e.v
 		}
 	}
-	return expWeights(loss), scale
+	return vs[len(vs)-1].v
 }
+
 
 // BlendLearningRate is η of the weights, per typical miss; MissLossCap
 // caps one pass's loss (in typical misses), so one odd pass (a pedal, a
@@ -601,7 +640,7 @@ const (
 func missLoss(miss, ref float64) float64 { return math.Min(math.Abs(miss)/ref, MissLossCap) }
 
 // expWeights turns discounted losses into weights, from the members' prior.
-func expWeights(loss [nMembers]float64) [nMembers]float64 {
+func expWeights(loss, prior [nMembers]float64) [nMembers]float64 {
 	least := math.Inf(1)
 	for _, l := range loss {
 		least = math.Min(least, l)
@@ -609,7 +648,7 @@ func expWeights(loss [nMembers]float64) [nMembers]float64 {
 	var w [nMembers]float64
 	var sum float64
 	for m := range nMembers {
-		w[m] = memberPrior[m] * math.Exp(-BlendLearningRate*(loss[m]-least))
+		w[m] = prior[m] * math.Exp(-BlendLearningRate*(loss[m]-least))
 		sum += w[m]
 	}
 	for m := range w {

@@ -31,13 +31,13 @@ func TestOnlineWeights(t *testing.T) {
 		return h
 	}
 	t.Run("the better member takes the weight", func(t *testing.T) {
-		w, _ := online(hist(30, [nMembers]float64{0.05, 0.01, 0.05, 0.05}, -1))
+		w := online(hist(30, [nMembers]float64{0.05, 0.01, 0.05, 0.05}, -1), memberPrior).weights
 		if w[airMember] < 0.9 {
 			t.Errorf("weights %v: the member missing by 0.01 s against 0.05 s should hold over 90 %%", w)
 		}
 	})
 	t.Run("equal members keep the prior", func(t *testing.T) {
-		w, _ := online(hist(30, [nMembers]float64{0.02, 0.02, 0.02, 0.02}, -1))
+		w := online(hist(30, [nMembers]float64{0.02, 0.02, 0.02, 0.02}, -1), memberPrior).weights
 		for m := range nMembers {
 			if math.Abs(w[m]-memberPrior[m]) > 1e-9 {
 				t.Errorf("weights %v, want the prior %v", w, memberPrior)
@@ -45,16 +45,16 @@ func TestOnlineWeights(t *testing.T) {
 		}
 	})
 	t.Run("asleep neither gains nor loses", func(t *testing.T) {
-		w, _ := online(hist(30, [nMembers]float64{0.02, 0.02, 0.02, 0.02}, int(todayMember)))
+		w := online(hist(30, [nMembers]float64{0.02, 0.02, 0.02, 0.02}, int(todayMember)), memberPrior).weights
 		if math.Abs(w[todayMember]-memberPrior[todayMember]) > 0.02 {
 			t.Errorf("weights %v: a member asleep on every pass keeps about its prior %.2f", w, memberPrior[todayMember])
 		}
 	})
 	t.Run("one odd pass does not swing the weights", func(t *testing.T) {
 		h := hist(20, [nMembers]float64{0.01, 0.02, 0.02, 0.02}, -1)
-		before, _ := online(h)
+		before := online(h, memberPrior).weights
 		h = append(h, scored{actual: 10, est: [nMembers]estimate{{ET: 10.4, SD: 0.02, OK: true}, {ET: 10.02, SD: 0.02, OK: true}, {ET: 10.02, SD: 0.02, OK: true}, {ET: 10.02, SD: 0.02, OK: true}}})
-		after, _ := online(h)
+		after := online(h, memberPrior).weights
 		if after[physicsMember] < before[physicsMember]/6 {
 			t.Errorf("one 0.4 s miss cut the pass model's weight from %.3f to %.3f", before[physicsMember], after[physicsMember])
 		}
@@ -65,7 +65,7 @@ func TestOnlineWeights(t *testing.T) {
 // Shafer 2005): misses twice the spread the members claim widen the
 // interval about twice; with no history the scale is 1.
 func TestConformalScale(t *testing.T) {
-	if _, s := online(nil); math.Abs(s-1) > 0.1 {
+	if s := online(nil, memberPrior).Scale; math.Abs(s-1) > 0.1 {
 		t.Errorf("no history: scale %.2f, want about 1", s)
 	}
 	var h []scored
@@ -83,7 +83,7 @@ func TestConformalScale(t *testing.T) {
 		}
 		h = append(h, s)
 	}
-	if _, s := online(h); s < 1.6 || s > 2.4 {
+	if s := online(h, memberPrior).Scale; s < 1.6 || s > 2.4 {
 		t.Errorf("misses at twice the claimed spread: scale %.2f, want about 2", s)
 	}
 }

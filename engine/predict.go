@@ -107,6 +107,10 @@ type Prediction struct {
 	Sensitivity Sensitivity
 	// Blend is what the finish leans on (Forecast); zero from Predict alone.
 	Blend Blend
+	// DialSD is the finish's spread for the dial's breakout chances, where
+	// Forecast calibrated the quick tail apart from the interval (0: the
+	// finish's SD).
+	DialSD float64
 	Notes []string
 }
 
@@ -151,7 +155,11 @@ func (p Prediction) Estimate() bracket.Estimate {
 	case len(p.Leaned) > 0:
 		basis = fmt.Sprintf("the pass model calibrated to %d passes, corrected by the recent ones", len(p.Leaned))
 	}
-	return bracket.Estimate{ET: f.ET, SD: f.SD, Basis: basis}
+	sd := f.SD
+	if p.DialSD > 0 {
+		sd = p.DialSD
+	}
+	return bracket.Estimate{ET: f.ET, SD: sd, Basis: basis}
 }
 
 // PredictInput is the conditions of the next pass.

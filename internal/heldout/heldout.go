@@ -62,6 +62,11 @@ type Input struct {
 // ok false: no prediction.
 type Predictor func(in Input) (et, sd float64, ok bool)
 
+// A DialPredictor is a Predictor that also says the spread its dial is
+// planned with (pitcard calibrates the quick tail apart from the interval):
+// Score uses it for the breakout share when the predictor is one.
+type DialPredictor func(in Input) (et, sd, dialSD float64, ok bool)
+
 // Figures are one predictor's score on a set of passes.
 type Figures struct {
 	N       int     // passes predicted
@@ -128,6 +133,14 @@ const workers = 2
 
 // Score scores p and PlainRule on every world, two worlds at a time.
 func Score(worlds []truthsim.World, p Predictor) Report {
+	return ScoreDial(worlds, func(in Input) (float64, float64, float64, bool) {
+		et, sd, ok := p(in)
+		return et, sd, sd, ok
+	})
+}
+
+// ScoreDial is Score for a predictor whose dial has its own spread.
+func ScoreDial(worlds []truthsim.World, p DialPredictor) Report {
 	start := time.Now()
 	scores := make([]WorldScore, len(worlds))
 	next := make(chan int)
@@ -174,7 +187,7 @@ type tally struct {
 	dayErrs map[int][]float64
 }
 
-func (t *tally) add(day int, et, sd, actual, oracle float64) {
+func (t *tally) add(day int, et, sd, dialSD, actual, oracle float64) {
 	e := math.Abs(et - actual)
 	t.errs = append(t.errs, e)
 	if t.dayErrs == nil {
@@ -185,7 +198,7 @@ func (t *tally) add(day int, et, sd, actual, oracle float64) {
 	if Covered(et, sd, actual) {
 		t.Covered++
 	}
-	if actual < Dial(et, sd, Risk)-1e-9 {
+	if actual < Dial(et, dialSD, Risk)-1e-9 {
 		t.Broke++
 	}
 }
@@ -201,7 +214,7 @@ func Dial(et, sd, risk float64) float64 {
 }
 
 // scoreWorld predicts every clean pass of w after the logbook's first Skip.
-func scoreWorld(w truthsim.World, p Predictor) WorldScore {
+func scoreWorld(w truthsim.World, p DialPredictor) WorldScore {
 	passes := w.Season()
 	car, tracks, logged := inputs(w, passes)
 	fin := truthsim.FinishIndex(w.Car.DistanceFt)
@@ -216,13 +229,13 @@ func scoreWorld(w truthsim.World, p Predictor) WorldScore {
 			continue
 		}
 		in := Input{Car: car, Track: ps.Track.Engine(), Tracks: tracks, Before: logged[:k], Target: conditionsOf(ps)}
-		et, sd, ok := p(in)
+		et, sd, dialSD, ok := p(in)
 		pet, psd, pok := PlainRule(in)
 		if !ok || !pok { // scored on the passes both predicted
 			continue
 		}
-		model.add(ps.Day, et, sd, actual, ps.Oracle[fin])
-		plain.add(ps.Day, pet, psd, actual, ps.Oracle[fin])
+		model.add(ps.Day, et, sd, dialSD, actual, ps.Oracle[fin])
+		plain.add(ps.Day, pet, psd, psd, actual, ps.Oracle[fin])
 		f := math.Abs(floor[k] - actual)
 		floors = append(floors, f)
 		dayFloor[ps.Day] = append(dayFloor[ps.Day], f)

@@ -32,7 +32,7 @@ func TestFamily(t *testing.T) {
 		t.Fatalf("PITCARD_FAMILY=%q: want a number of worlds, 1 or more", v)
 	}
 	held := os.Getenv("PITCARD_FAMILY_HELDOUT") == "1"
-	r := Score(Draws(n, held), Pitcard)
+	r := ScoreDial(Draws(n, held), Pitcard)
 	t.Logf("%d drawn worlds (held out: %v) in %s\n%s", n, held, r.Elapsed.Round(time.Second/10), r.Table())
 }
 
@@ -107,10 +107,10 @@ func TestFigures(t *testing.T) {
 	}
 	// tallies: 4 passes, 3 inside their interval, 1 quicker than its dial
 	var tl tally
-	tl.add(0, 10, 0.05, 10.01, 10) // inside, no breakout (dial 9.93)
-	tl.add(0, 10, 0.05, 9.92, 10)  // inside, quicker than 9.93
-	tl.add(1, 10, 0.05, 10.2, 10)  // outside
-	tl.add(1, 10, 0.05, 9.95, 9.9) // inside; 0.1 from the truth
+	tl.add(0, 10, 0.05, 0.05, 10.01, 10) // inside, no breakout (dial 9.93)
+	tl.add(0, 10, 0.05, 0.05, 9.92, 10)  // inside, quicker than 9.93
+	tl.add(1, 10, 0.05, 0.05, 10.2, 10)  // outside
+	tl.add(1, 10, 0.05, 0.05, 9.95, 9.9) // inside; 0.1 from the truth
 	f := tl.figures(0.05)
 	if f.N != 4 || f.Covered != 3 || f.Broke != 1 || math.Abs(f.MAE-0.085) > 1e-12 || math.Abs(f.Ratio-1.7) > 1e-9 || math.Abs(f.Oracle-0.1) > 1e-9 {
 		t.Errorf("figures %+v, want N 4, covered 3, broke 1, MAE 0.085, ratio 1.7, oracle 0.1", f)

@@ -15,14 +15,14 @@ import (
 // rewrite swaps this function alone. Its held-out predictions are kept in
 // one cache for every world (keys are digests of their inputs), so each
 // new pass costs one new calibration, as on the card.
-func Pitcard(in Input) (et, sd float64, ok bool) {
+func Pitcard(in Input) (et, sd, dialSD float64, ok bool) {
 	pr, _, err := engine.Forecast(engine.CalibrateInput{Car: in.Car, Track: in.Track, Tracks: in.Tracks, Passes: in.Before, Now: in.Target.Time},
 		engine.PredictInput{Air: in.Target.Air, Prep: in.Target.Prep, WeightLb: in.Target.WeightLb, Time: in.Target.Time}, pitcardCache)
 	if err != nil || len(pr.Timers) == 0 {
-		return 0, 0, false
+		return 0, 0, 0, false
 	}
-	f := pr.Finish()
-	return f.ET, f.SD, true
+	est := pr.Estimate()
+	return est.ET, pr.Finish().SD, est.SD, true
 }
 
 // pitcardCache is Pitcard's cache of held-out predictions.

@@ -31,11 +31,10 @@ func main() {
 		fmt.Fprintln(os.Stderr, "heldout: nothing to score: give -n N (1..) or -fixed")
 		os.Exit(2)
 	}
-	p := heldout.Pitcard
+	r := heldout.ScoreDial(worlds, heldout.Pitcard)
 	if *model == "physics" {
-		p = heldout.PhysicsOnly
+		r = heldout.Score(worlds, heldout.PhysicsOnly)
 	}
-	r := heldout.Score(worlds, p)
 	fmt.Print(r.Table())
 	fmt.Printf("\n%d worlds scored in %s\n", len(worlds), r.Elapsed.Round(100_000_000))
 }
