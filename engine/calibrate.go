@@ -119,6 +119,7 @@ type Fit struct {
 	// improving; Notes says so when it did not. False when nothing was
 	// fitted (no clean passes).
 	Converged bool
+	lastGain  float64 // the last step's share of the cost, for the note
 	// Ablation is the input's: which mechanisms were switched off (zero:
 	// none), for Predict to honour too.
 	Ablation Ablation
@@ -198,6 +199,10 @@ func Calibrate(in CalibrateInput) (Fit, error) {
 			f.nuisance()
 			f.fit()
 		}
+	}
+	if !f.Converged {
+		f.Notes = append(f.Notes, fmt.Sprintf("the fit stopped at its limit of %d steps while still improving (the last by %.2f %% of its cost): the parameters are close to, not at, their best",
+			lmMaxIterations, 100*f.lastGain))
 	}
 	f.Params.SeenTrackF = seenTrack(f.Samples)
 	sort.SliceStable(f.Outliers, func(i, j int) bool { return f.Outliers[i].Pass.Time.After(f.Outliers[j].Pass.Time) })
@@ -516,6 +521,7 @@ func (f *Fit) fit() {
 			f.Converged = true // no damped step lowers the cost: at the minimum
 			break
 		}
+		f.lastGain = math.Abs(cost-c2) / cost
 		small := math.Abs(cost-c2) < lmTolerance*cost
 		th, r, cost = t2, r2, c2
 		if small {

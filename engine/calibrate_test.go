@@ -481,3 +481,30 @@ func TestOutliersAreLeftOutOfTheFit(t *testing.T) {
 		t.Errorf("prediction %.4f s with the misses left out, %.4f s from the clean logbook", b, a)
 	}
 }
+
+// The fit says whether Levenberg–Marquardt reached its minimum, and the
+// notes say so when it did not (common practice, no source: a bounded
+// iterative fit reports hitting its bound).
+func TestFitReportsConvergence(t *testing.T) {
+	truth := Params{PowerScale: 0.95, TractionScale: 1.05, PressureExp: 0.95, TempExp: 0.5, TrackOptF: 105, TrackWidthF: 40}
+	g := gen{rng: rand.New(rand.NewPCG(3, 4)), truth: truth, car: testCar}
+	passes := g.season(6, 10)
+	for _, tc := range []struct {
+		name string
+		n    int
+	}{{"short logbook", 6}, {"long logbook", len(passes)}} {
+		t.Run(tc.name, func(t *testing.T) {
+			fit, err := Calibrate(CalibrateInput{Car: testCar, Track: testTrack, Passes: passes[:tc.n], Now: passes[tc.n-1].Time.Add(time.Hour)})
+			if err != nil {
+				t.Fatal(err)
+			}
+			noted := strings.Contains(strings.Join(fit.Notes, "\n"), "stopped at its limit")
+			if noted == fit.Converged {
+				t.Errorf("converged %v, note %v: the note must appear exactly when the fit did not converge", fit.Converged, noted)
+			}
+			if tc.n == 6 && !fit.Converged {
+				t.Errorf("a six-pass fit leaning on the prior should converge within %d steps", lmMaxIterations)
+			}
+		})
+	}
+}

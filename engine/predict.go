@@ -115,9 +115,8 @@ func (p Prediction) Finish() Timer { return p.Timers[len(p.Timers)-1] }
 // source: most racers make two or three time trials before dialing).
 const MinPassesForDial = 3
 
-// FewPassesForDial: a dial resting on fewer passes than this is posted,
-// and the card says FewPassesForDial's worth were not there yet (it rests
-// on few).
+// FewPassesForDial is the number of passes below which a dial is still
+// posted but the card says it rests on few.
 const FewPassesForDial = 6
 
 // DialReady says whether the prediction may post a dial-in, and why not.
