@@ -389,83 +389,38 @@ func (d structure) offset(s Sample) float64 {
 }
 
 // dayStructure measures the scatter within days, the spread between them
-// and the drift through them (as fitResiduals does), and returns each day's
-// offset shrunk toward the days' mean.
+// and the drift through them with the same estimators as fitResiduals
+// (withinDays, betweenDays, over every day the fit has), and returns each
+// day's offset from the days' mean, shrunk by n·τ²/(n·τ² + σ²) as today's
+// is there.
 func dayStructure(ss []Sample, res func(Sample) (float64, bool), pri residualPriors, day weather.DayStart) structure {
-	d := structure{day: day, level: map[string]float64{}, first: map[string]time.Time{}}
-	type obs struct{ r, h float64 }
-	byDay := map[string][]obs{}
-	for _, s := range ss {
-		k := day.Key(s.Pass.Time)
-		if f, ok := d.first[k]; !ok || s.Pass.Time.Before(f) {
-			d.first[k] = s.Pass.Time
-		}
-	}
-	var all []obs
-	for _, s := range ss {
-		if r, ok := res(s); ok {
-			k := day.Key(s.Pass.Time)
-			o := obs{r, s.Pass.Time.Sub(d.first[k]).Hours()}
-			byDay[k] = append(byDay[k], o)
-			all = append(all, o)
-		}
-	}
-	if len(byDay) < 2 {
+	g := groupByDay(ss, res, day)
+	d := structure{day: day, level: map[string]float64{}, first: g.first}
+	if len(g.byDay) < 2 {
 		return d
 	}
-	var sxy, sxx, within, hsum float64
-	n := 0
-	means := map[string][2]float64{} // each day's mean residual and hours
-	for k, os := range byDay {
-		var mr, mh float64
-		for _, o := range os {
-			mr += o.r
-			mh += o.h
-		}
-		mr /= float64(len(os))
-		mh /= float64(len(os))
-		means[k] = [2]float64{mr, mh}
-		for _, o := range os {
-			sxy += (o.h - mh) * (o.r - mr)
-			sxx += sq(o.h - mh)
-			hsum += o.h
-		}
-		n += len(os) - 1
+	w := g.withinDays(pri)
+	d.slope = w.slope
+	var hsum float64
+	for _, o := range g.obs {
+		hsum += o.h
 	}
-	sigma2 := sq(pri.Sigma)
-	for range 2 { // the slope's shrinkage needs σ², σ² needs the slope
-		d.slope = sxy / (sxx + sigma2/sq(pri.Slope))
-		within = 0
-		for k, os := range byDay {
-			m := means[k]
-			for _, o := range os {
-				within += sq(o.r - m[0] - d.slope*(o.h-m[1]))
-			}
-		}
-		sigma2 = math.Max((within+3*sq(pri.Sigma))/float64(n+3), sq(pri.MinSigma))
-	}
-	d.center = hsum / float64(len(all))
-	levels := map[string]float64{}
+	d.center = hsum / float64(len(g.obs))
+	var days []dayLevel
 	var mean float64
-	for k, os := range byDay {
+	for k, idx := range g.byDay {
 		var lv float64
-		for _, o := range os {
-			lv += o.r - d.slope*(o.h-d.center)
+		for _, j := range idx {
+			lv += g.obs[j].r - d.slope*(g.obs[j].h-d.center)
 		}
-		levels[k] = lv / float64(len(os))
-		mean += levels[k]
+		days = append(days, dayLevel{key: k, level: lv / float64(len(idx)), n: len(idx)})
+		mean += lv / float64(len(idx))
 	}
-	mean /= float64(len(levels))
-	var v, noise float64
-	for k, os := range byDay {
-		v += sq(levels[k] - mean)
-		noise += sigma2 / float64(len(os))
-	}
-	m := float64(len(levels))
-	tau2 := math.Max((v/math.Max(m-1, 1)-noise/m)*(m-1)/(m+1)+2*sq(pri.Tau)/(m+1), sq(pri.MinTau))
-	for k, os := range byDay {
-		c := float64(len(os))
-		d.level[k] = (levels[k] - mean) * c * tau2 / (c*tau2 + sigma2)
+	mean /= float64(len(days))
+	tau2 := betweenDays(days, w.sigma2, pri)
+	for _, dl := range days {
+		c := float64(dl.n)
+		d.level[dl.key] = (dl.level - mean) * c * tau2 / (c*tau2 + w.sigma2)
 	}
 	return d
 }
