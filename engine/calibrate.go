@@ -201,7 +201,7 @@ func Calibrate(in CalibrateInput) (Fit, error) {
 		}
 	}
 	if !f.Converged {
-		f.Notes = append(f.Notes, fmt.Sprintf("the fit stopped at its limit of %d steps while still improving (the last by %.2f %% of its cost): the parameters are close to, not at, their best",
+		f.Notes = append(f.Notes, fmt.Sprintf("the fit stopped at its limit of %d steps, still gaining %.2f %% a step",
 			lmMaxIterations, 100*f.lastGain))
 	}
 	f.Params.SeenTrackF = seenTrack(f.Samples)
