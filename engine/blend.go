@@ -161,7 +161,7 @@ type heldOutFile struct {
 
 // heldOutVersion changes whenever the model changes what it predicts: a
 // cache of another version is not read.
-const heldOutVersion = 3
+const heldOutVersion = 4
 
 // ReadHeldOutCache reads a cache WriteTo wrote. A cache of another version,
 // or one that cannot be read, is an empty cache: it is only ever a saving.
@@ -423,7 +423,7 @@ func baseKey(cal CalibrateInput) string {
 		names = append(names, n)
 	}
 	sort.Strings(names)
-	fmt.Fprintf(h, "v1|%+v|%+v|%v|%v|%v", cal.Car, cal.Track, cal.DayStart, cal.Aborts, cal.Changes)
+	fmt.Fprintf(h, "v1|%+v|%+v|%v|%v|%v|%+v", cal.Car, cal.Track, cal.DayStart, cal.Aborts, cal.Changes, cal.Ablation)
 	for _, n := range names {
 		fmt.Fprintf(h, "|%+v", cal.Tracks[n])
 	}
