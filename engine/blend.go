@@ -520,7 +520,7 @@ func baseKey(cal CalibrateInput) string {
 		names = append(names, n)
 	}
 	sort.Strings(names)
-	fmt.Fprintf(h, "v1|%+v|%+v|%v|%v|%v", cal.Car, cal.Track, cal.DayStart, cal.Aborts, cal.Changes)
+	fmt.Fprintf(h, "v1|%+v|%+v|%v|%v|%v|%+v", cal.Car, cal.Track, cal.DayStart, cal.Aborts, cal.Changes, cal.Ablation)
 	for _, n := range names {
 		fmt.Fprintf(h, "|%+v", cal.Tracks[n])
 	}

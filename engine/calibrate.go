@@ -12,41 +12,44 @@ import (
 	"pitcard/weather"
 )
 
-// Calibration fits the physics model to the car's own logbook: a maximum a
-// posteriori fit of six parameters (effective power, traction, how power
-// follows the air's pressure and its temperature, the grip band's best
-// surface temperature and its width) by weighted least squares of
-// simulated against logged timers and traps, with car.yaml, the induction
-// type and the tire as the prior. A short logbook leans on the prior; a
-// long one on the car's history. Recent passes weigh more, passes at the
-// track of the day more than elsewhere; each day's offset and the drift
-// through a day are taken out first (dayeffect.go).
-
 // Calibration settings.
 const (
 	// NuisanceRounds is how many times the day offsets are estimated and the
-	// physics refitted around them.
+	// physics refitted around them (Calibrate's last step).
 	NuisanceRounds = 1
 	// FitWindow is the most clean passes a fit uses (the most recent).
 	FitWindow = 60
-	// FitHalfLifeDays and FitHalfLifePasses set the recency weights of the
-	// fit: a pass's weight halves every 120 days and every 20 passes back,
-	// but never falls below FitAgeFloor for age alone, so a winter's break
-	// does not hand the whole fit to the first few passes of spring.
-	FitHalfLifeDays   = 120.0
+	// FitHalfLifeDays is the calendar half-life of a pass's weight in the
+	// fit: it halves every 120 days back (and every FitHalfLifePasses).
+	FitHalfLifeDays = 120.0
+	// FitHalfLifePasses is the half-life of a pass's weight in passes: it
+	// halves every 20 passes back.
 	FitHalfLifePasses = 20.0
-	FitAgeFloor       = 0.25
+	// FitAgeFloor is the least a pass's weight falls for its age alone, so a
+	// winter's break does not hand the whole fit to the first few passes of
+	// spring.
+	FitAgeFloor = 0.25
 	// OtherTrackWeight is the weight of a pass at another track.
 	OtherTrackWeight = 0.5
 	// OutlierMADs: a finish residual beyond this many robust deviations (and
 	// beyond OutlierFloor) is taken for an aborted or pedaled run.
-	OutlierMADs  = 4.0
-	OutlierFloor = 0.05 // s
+	OutlierMADs = 4.0
+	// OutlierFloor is the least finish residual, s, taken for an outlier,
+	// however tight the other passes lie.
+	OutlierFloor = 0.05
 	// FewForOutliers: with fewer clean passes than this, a pass is left out
 	// only beyond GrossOutlier.
 	FewForOutliers = 8
-	GrossOutlier   = 0.20 // s
+	// GrossOutlier is the finish residual, s, beyond which a pass is left
+	// out even from a handful (a lift, a pedal).
+	GrossOutlier = 0.20
 )
+
+// madToSD is the normal-consistency constant of the median absolute
+// deviation: 1/Φ⁻¹(¾) ≈ 1.4826, so 1.4826·MAD estimates the standard
+// deviation of normal data while a few wild passes cannot move it (Hampel
+// 1974; Rousseeuw & Croux 1993).
+const madToSD = 1.4826
 
 // timerSigma is the scatter of a clean pass at each timer (s) and of a trap
 // speed (mph): the weights of the least squares (common practice for a
@@ -110,6 +113,16 @@ type Fit struct {
 	// Change is the latest change of the car among the fitted passes (nil:
 	// none): the passes before it are carried across it.
 	Change *Change
+	// Converged: the last Levenberg–Marquardt run ended at a minimum (a step
+	// that lowered the cost by less than lmTolerance of it, or no damped
+	// step that lowered it at all), not at lmMaxIterations while still
+	// improving; Notes says so when it did not. False when nothing was
+	// fitted (no clean passes).
+	Converged bool
+	lastGain  float64 // the last step's share of the cost, for the note
+	// Ablation is the input's: which mechanisms were switched off (zero:
+	// none), for Predict to honour too.
+	Ablation Ablation
 }
 
 // CalibrateInput is what a fit needs.
@@ -131,19 +144,88 @@ type CalibrateInput struct {
 	// crew's setting change_words); nil: logbook.DefaultChangeWords. A
 	// pass's change column counts whatever the notes say.
 	Changes logbook.ChangeWords
+	// Ablation switches mechanisms of the model off, for the ablation test
+	// only; the zero value is the model as it ships.
+	Ablation Ablation
 }
 
-// Calibrate fits the car to its logbook.
+// Calibrate fits the physics model to the car's own logbook: a maximum a
+// posteriori (MAP) fit of the six Params (effective power, traction, how
+// power follows the air's pressure and its temperature, the grip band's best
+// surface temperature and its width) by weighted least squares of simulated
+// against logged timers and traps (residuals, robust by Huber's weights),
+// with car.yaml, the induction type and the tire as the prior
+// (DefaultParamsFor, priorSD), minimised by Levenberg–Marquardt (fit). A
+// short logbook leans on the prior; a long one on the car's history. Recent
+// passes weigh more, passes at the track of the day more than elsewhere.
+//
+// The steps, in order:
+//  1. cleanPasses: the latest FitWindow clean passes with their weather;
+//     aborted ones go to Outliers, ones without weather to NoAir;
+//  2. setPrior: the power (car.yaml's or EstimatePower's), the vehicle, the
+//     weight model and the prior as the starting point;
+//  3. fit, then carryAcrossChange (change.go) and a refit when the car was
+//     changed among the passes;
+//  4. dropOutliers: a robust cut on the finish residuals (median and MAD),
+//     and a refit without them;
+//  5. NuisanceRounds of nuisance (dayeffect.go: each day's offset and the
+//     drift through the day, taken out of the logged times) and a refit, so
+//     the physics learns the air's and the track's effects from what changes
+//     within and across days, not from one day's tune-up that happened to
+//     come with a low barometer.
 func Calibrate(in CalibrateInput) (Fit, error) {
-	f := Fit{Car: in.Car, Track: in.Track, DayStart: in.DayStart}
-	dist := in.Car.DistanceFt
+	f := Fit{Car: in.Car, Track: in.Track, DayStart: in.DayStart, Ablation: in.Ablation}
+	clean := f.cleanPasses(in)
+	if err := f.setPrior(in); err != nil {
+		return f, err
+	}
+	if len(clean) == 0 {
+		f.Notes = append(f.Notes, "no clean passes with their weather at this distance: physics from car.yaml alone")
+		return f, nil
+	}
+	f.Samples = make([]Sample, len(clean))
+	for i, p := range clean {
+		f.Samples[i] = f.sample(p, in, i)
+	}
+	f.fit()
+	if f.carryAcrossChange(in.Changes) {
+		f.fit()
+	}
+	if f.dropOutliers() {
+		f.fit()
+	}
+	if !in.Ablation.NoNuisance {
+		for range NuisanceRounds {
+			f.nuisance()
+			f.fit()
+		}
+	}
+	if !f.Converged && f.lastGain > lmNoteGain {
+		f.Notes = append(f.Notes, fmt.Sprintf("the fit stopped at its limit of %d steps, still gaining %.2f %% a step",
+			lmMaxIterations, 100*f.lastGain))
+	}
+	f.Params.SeenTrackF = seenTrack(f.Samples)
+	sort.SliceStable(f.Outliers, func(i, j int) bool { return f.Outliers[i].Pass.Time.After(f.Outliers[j].Pass.Time) })
+	return f, nil
+}
+
+// cleanPasses walks the logbook back from in.Now and returns the latest
+// clean passes with their weather at the distance raced, most recent first:
+// at most FitWindow (40 under Ablation.Window40). On the way it files the
+// passes the notes call aborted under f.Outliers and the clean passes logged
+// without their weather under f.NoAir (at most FitWindow of those too).
+func (f *Fit) cleanPasses(in CalibrateInput) []logbook.Pass {
+	window := FitWindow
+	if in.Ablation.Window40 {
+		window = 40
+	}
 	var clean []logbook.Pass
 	for i := len(in.Passes) - 1; i >= 0; i-- {
 		p := in.Passes[i]
 		if p.Time.After(in.Now) {
 			continue
 		}
-		if _, ok := p.ETAt(dist); !ok {
+		if _, ok := p.ETAt(in.Car.DistanceFt); !ok {
 			continue
 		}
 		if in.Aborts.Aborted(p.Notes) {
@@ -157,15 +239,24 @@ func Calibrate(in CalibrateInput) (Fit, error) {
 			continue
 		}
 		clean = append(clean, p)
-		if len(clean) == FitWindow || (ablation.window40 && len(clean) == 40) {
+		if len(clean) == window {
 			break
 		}
 	}
+	return clean
+}
+
+// setPrior sets what the fit starts from: the power (car.yaml's, or
+// EstimatePower's from the traps when car.yaml gives none), the vehicle, the
+// weight model of the passes up to in.Now, and the parameters at the prior
+// with the prior's covariance. It fails only when the power can be neither
+// read nor estimated.
+func (f *Fit) setPrior(in CalibrateInput) error {
 	f.PowerHP = in.Car.PowerHP
 	if f.PowerHP == 0 {
 		hp, note, err := EstimatePower(in.Car, in.Passes, in.Aborts)
 		if err != nil {
-			return f, err
+			return err
 		}
 		f.PowerHP, f.PowerEstimated = hp, true
 		f.Notes = append(f.Notes, note)
@@ -182,19 +273,18 @@ func Calibrate(in CalibrateInput) (Fit, error) {
 	for k := range f.Cov {
 		f.Cov[k][k] = sq(priorSD(in.Car.Induction)[k])
 	}
-	if len(clean) == 0 {
-		f.Notes = append(f.Notes, "no clean passes with their weather at this distance: physics from car.yaml alone")
-		return f, nil
-	}
-	f.Samples = make([]Sample, len(clean))
-	for i, p := range clean {
-		f.Samples[i] = f.sample(p, in, i)
-	}
-	f.fit()
-	if f.carryAcrossChange(in.Changes) {
-		f.fit()
-	}
-	// Leave out runs far from the rest (aborted, pedaled, a timing fault), refit.
+	return nil
+}
+
+// dropOutliers leaves out runs far from the rest (aborted, pedaled, a timing
+// fault): a finish residual more than OutlierMADs robust deviations
+// (madToSD·MAD about the median) and more than OutlierFloor from the median,
+// or beyond GrossOutlier when fewer than FewForOutliers passes cannot say
+// what scatter is normal. Each goes to f.Outliers with the reason in words.
+// It reports whether any sample was dropped (and some kept): the fit must
+// then be rerun.
+func (f *Fit) dropOutliers() bool {
+	dist := f.Car.DistanceFt
 	res := make([]float64, len(f.Samples))
 	for i, s := range f.Samples {
 		res[i] = s.Obs[logbook.TimerIndex(dist)] - s.Sim.ETAt(dist)
@@ -204,7 +294,7 @@ func Calibrate(in CalibrateInput) (Fit, error) {
 	for i, r := range res {
 		dev[i] = math.Abs(r - med)
 	}
-	limit := math.Max(OutlierMADs*1.4826*stats.Median(dev), OutlierFloor)
+	limit := math.Max(OutlierMADs*madToSD*stats.Median(dev), OutlierFloor)
 	if len(res) < FewForOutliers {
 		// a handful of passes cannot say what scatter is normal: only a gross
 		// miss (a lift, a pedal) is left out
@@ -225,23 +315,16 @@ func Calibrate(in CalibrateInput) (Fit, error) {
 	}
 	if len(kept) < len(f.Samples) && len(kept) > 0 {
 		f.Samples = kept
-		f.fit()
+		return true
 	}
-	// The day offsets and the drift through the day, as nuisances: taken out
-	// of the logged times so the physics learns the air's and the track's
-	// effects from what changes within and across days, not from one day's
-	// tune-up that happened to come with a low barometer.
-	for range NuisanceRounds {
-		if ablation.noNuisance {
-			break
-		}
-		f.nuisance()
-		f.fit()
-	}
-	f.Params.SeenTrackF = seenTrack(f.Samples)
-	sort.SliceStable(f.Outliers, func(i, j int) bool { return f.Outliers[i].Pass.Time.After(f.Outliers[j].Pass.Time) })
-	return f, nil
+	return false
 }
+
+// lmNoteGain: a fit stopped at lmMaxIterations still gaining more than
+// this share of its cost a step is said on the card; below it the step
+// moves the prediction by well under a thousandth (measured on the demo:
+// 0.02 % a step), and a note would only be noise at the ropes.
+const lmNoteGain = 0.005
 
 // seenTrack is the range of surface temperatures of the fitted passes, °F.
 func seenTrack(ss []Sample) [2]float64 {
@@ -256,6 +339,11 @@ func seenTrack(ss []Sample) [2]float64 {
 	return [2]float64{lo, hi}
 }
 
+// sample prepares pass p, the rank-th most recent clean pass, for the fit:
+// its track's heading and prep, its weight (logged, else the weight model's,
+// else car.yaml's), its weight in the fit (OtherTrackWeight away from the
+// track of the day, halving with FitHalfLifeDays and FitHalfLifePasses down
+// to FitAgeFloor for age) and its logged timers and traps.
 func (f *Fit) sample(p logbook.Pass, in CalibrateInput, rank int) Sample {
 	trk := in.Track
 	weight := 1.0
@@ -274,7 +362,7 @@ func (f *Fit) sample(p logbook.Pass, in CalibrateInput, rank int) Sample {
 	switch {
 	case p.WeightLb > 0:
 		mass = p.WeightLb * weather.KgPerLb
-	case f.Weight != nil && !ablation.noWeightFill:
+	case f.Weight != nil && !f.Ablation.NoWeightFill:
 		mass = f.Weight.At(p.Time) * weather.KgPerLb
 	}
 	age := in.Now.Sub(p.Time).Hours() / 24
@@ -299,17 +387,21 @@ func (f *Fit) sample(p logbook.Pass, in CalibrateInput, rank int) Sample {
 // NP is the number of fitted parameters.
 const NP = 6
 
-// The fit works on θ = (ln power scale, ln traction scale, pressure
-// exponent, temperature exponent, best track °F, ln track width).
+// theta is the parameters as the fit works on them: θ = (ln power scale,
+// ln traction scale, pressure exponent, temperature exponent, best track
+// °F, ln track width). The logs keep the scales positive and make their
+// prior spreads relative.
 type theta [NP]float64
 
 func (p Params) theta() theta {
 	return theta{math.Log(p.PowerScale), math.Log(p.TractionScale), p.PressureExp, p.TempExp, p.TrackOptF, math.Log(p.TrackWidthF)}
 }
 
-func (t theta) params() Params {
+// params is θ as Params, clamped to the bounds; under ab.OneAirExponent the
+// temperature exponent is tied to half the pressure exponent.
+func (t theta) params(ab Ablation) Params {
 	c := func(v, lo, hi float64) float64 { return math.Max(lo, math.Min(hi, v)) }
-	if ablation.oneAirExponent {
+	if ab.OneAirExponent {
 		t[3] = t[2] / 2
 	}
 	// The bounds keep a fit off physics no car has: traction from 0.6 to 1.65
@@ -322,8 +414,10 @@ func (t theta) params() Params {
 func sq(x float64) float64 { return x * x }
 
 // huberK is where the fit stops trusting a residual quadratically, in
-// standard deviations: beyond it a residual pulls linearly (Huber's loss), so
-// a bad day or a mislabelled pass cannot drag the car's physics with it.
+// standard deviations: beyond it a residual pulls linearly (Huber's loss,
+// Huber 1964), so a bad day or a mislabelled pass cannot drag the car's
+// physics with it. 3σ leaves a normal pass's residual quadratic almost
+// always (99.7 %).
 const huberK = 3.0
 
 // huber maps a scaled residual to one whose square is Huber's loss (×2):
@@ -336,9 +430,17 @@ func huber(r float64) float64 {
 	return math.Copysign(math.Sqrt(2*huberK*a-huberK*huberK), r)
 }
 
-// residuals are the weighted residuals of every sample and the prior rows.
+// heldAtPriorSD is the prior spread that holds a parameter at the prior
+// (Ablation.NoGripBand), in θ's units.
+const heldAtPriorSD = 1e-4
+
+// residuals are the weighted residuals of every sample and the prior rows:
+// the MAP fit's cost is their sum of squares. A sample's row is
+// √weight·huber((simulated − (logged − nuisance))/σ) at each timer
+// (timerSigma) and trap (trapSigma) it has; a prior row is
+// (θₖ − priorₖ)/priorSDₖ. runs, if not nil, receives each sample's run.
 func (f *Fit) residuals(th theta, runs []Run) []float64 {
-	p := th.params()
+	p := th.params(f.Ablation)
 	prior := DefaultParamsFor(f.Car).theta()
 	sd := priorSD(f.Car.Induction)
 	var r []float64
@@ -362,81 +464,78 @@ func (f *Fit) residuals(th theta, runs []Run) []float64 {
 	}
 	for k := range th {
 		s := sd[k]
-		if ablation.noGripBand && k >= 4 {
-			s = 1e-4 // held at the prior
+		if f.Ablation.NoGripBand && k >= 4 {
+			s = heldAtPriorSD
 		}
 		r = append(r, (th[k]-prior[k])/s)
 	}
 	return r
 }
 
-// fit runs Levenberg–Marquardt from the current parameters.
+// Settings of the Levenberg–Marquardt fit (Levenberg 1944, Marquardt 1963:
+// Gauss–Newton steps on JᵀJ with its diagonal scaled by 1+λ, λ lowered after
+// a step that lowers the cost and raised after one that does not).
+const (
+	// lmMaxIterations bounds the steps of one fit. It starts from the
+	// prior or the previous fit, and six parameters with a prior settle in
+	// a handful of steps; each step costs NP+1 simulations of every sample,
+	// so the bound keeps a 60-pass calibration in tens of milliseconds. A
+	// fit that reaches it still improving says so (Fit.Converged).
+	lmMaxIterations = 12
+	// lmMaxTries is how many times one step raises λ tenfold before giving
+	// up: eight take λ up by 10⁸, to a step a tiny fraction of the
+	// gradient's; if none of those lowers the cost the fit is at a minimum
+	// (or against a bound) as far as the finite differences can tell.
+	lmMaxTries = 8
+	// lmInitialDamping is λ at the start of a fit (Marquardt's customary
+	// 10⁻³: nearly Gauss–Newton, the prior keeping JᵀJ well conditioned).
+	lmInitialDamping = 1e-3
+	// lmDampingFactor is how much λ falls after a step that lowers the cost
+	// and rises after one that does not.
+	lmDampingFactor = 10
+	// lmMinDamping is the least λ: it stops λ underflowing over a long run
+	// of good steps, so one bad step is undone in a few tries.
+	lmMinDamping = 1e-7
+	// lmTolerance: a step that lowers the cost by less than this share of it
+	// ends the fit as converged (a hundredth of a percent of the cost: well
+	// under a thousandth of a second).
+	lmTolerance = 1e-4
+	// jacobianStep is the forward difference's step in θ, for the Jacobian
+	// (and the parameters' gradient in parameterSpread): small against
+	// every parameter's prior spread, large against the simulation's
+	// rounding.
+	jacobianStep = 1e-4
+)
+
+// fit runs Levenberg–Marquardt from the current parameters to the MAP
+// estimate, and sets f.Params, each sample's Sim at them, f.Cov (the
+// inverse of the last JᵀJ, the Laplace approximation of the posterior's
+// covariance in θ) and f.Converged.
 func (f *Fit) fit() {
 	th := f.Params.theta()
 	runs := make([]Run, len(f.Samples))
 	r := f.residuals(th, runs)
 	cost := dot(r, r)
-	lambda := 1e-3
+	lambda := lmInitialDamping
 	var jtj [NP][NP]float64
-	for iter := 0; iter < 12; iter++ {
-		// Jacobian by forward differences.
-		var jac [NP][]float64
-		for k := range th {
-			h := 1e-4
-			t2 := th
-			t2[k] += h
-			rk := f.residuals(t2, nil)
-			jac[k] = make([]float64, len(r))
-			for i := range r {
-				jac[k][i] = (rk[i] - r[i]) / h
-			}
-		}
+	f.Converged = false
+	for range lmMaxIterations {
 		var g [NP]float64
-		for a := range NP {
-			g[a] = dot(jac[a], r)
-			for b := range NP {
-				jtj[a][b] = dot(jac[a], jac[b])
-			}
+		g, jtj = normalEquations(f.jacobian(th, r), r)
+		t2, r2, c2, ok := f.lmStep(th, g, jtj, cost, &lambda)
+		if !ok {
+			f.Converged = true // no damped step lowers the cost: at the minimum
+			break
 		}
-		improved := false
-		for try := 0; try < 8; try++ {
-			var m [NP][NP]float64
-			var rhs [NP]float64
-			for a := range NP {
-				for b := range NP {
-					m[a][b] = jtj[a][b]
-				}
-				m[a][a] *= 1 + lambda
-				rhs[a] = -g[a]
-			}
-			step, ok := solveNP(m, rhs)
-			if !ok {
-				lambda *= 10
-				continue
-			}
-			t2 := th
-			for k := range th {
-				t2[k] += step[k]
-			}
-			t2 = t2.params().theta() // clamp to bounds
-			r2 := f.residuals(t2, nil)
-			if c2 := dot(r2, r2); c2 < cost {
-				small := math.Abs(cost-c2) < 1e-4*cost // a hundredth of a percent of the cost: well under a thousandth of a second
-				th, r, cost = t2, r2, c2
-				lambda = math.Max(lambda/10, 1e-7)
-				improved = true
-				if small {
-					iter = 99
-				}
-				break
-			}
-			lambda *= 10
-		}
-		if !improved {
+		f.lastGain = math.Abs(cost-c2) / cost
+		small := math.Abs(cost-c2) < lmTolerance*cost
+		th, r, cost = t2, r2, c2
+		if small {
+			f.Converged = true
 			break
 		}
 	}
-	f.Params = th.params()
+	f.Params = th.params(f.Ablation)
 	f.residuals(th, runs)
 	for i := range f.Samples {
 		f.Samples[i].Sim = runs[i]
@@ -446,6 +545,72 @@ func (f *Fit) fit() {
 	}
 }
 
+// jacobian is the residuals' Jacobian at th by forward differences (r are
+// the residuals at th), one row per parameter.
+func (f *Fit) jacobian(th theta, r []float64) [NP][]float64 {
+	var jac [NP][]float64
+	for k := range th {
+		h := jacobianStep
+		t2 := th
+		t2[k] += h
+		rk := f.residuals(t2, nil)
+		jac[k] = make([]float64, len(r))
+		for i := range r {
+			jac[k][i] = (rk[i] - r[i]) / h
+		}
+	}
+	return jac
+}
+
+// normalEquations are the gradient Jᵀr and the Gauss–Newton matrix JᵀJ.
+func normalEquations(jac [NP][]float64, r []float64) (g [NP]float64, jtj [NP][NP]float64) {
+	for a := range NP {
+		g[a] = dot(jac[a], r)
+		for b := range NP {
+			jtj[a][b] = dot(jac[a], jac[b])
+		}
+	}
+	return g, jtj
+}
+
+// lmStep is one Levenberg–Marquardt step from th: it solves
+// (JᵀJ + λ·diag(JᵀJ))·δ = −Jᵀr, clamps θ+δ to the bounds, and takes it if it
+// lowers the cost (λ then falls by lmDampingFactor, to at least
+// lmMinDamping); otherwise λ rises by lmDampingFactor and it tries again, at
+// most lmMaxTries times. It returns the new θ, its residuals and cost, and
+// whether a step was taken.
+func (f *Fit) lmStep(th theta, g [NP]float64, jtj [NP][NP]float64, cost float64, lambda *float64) (theta, []float64, float64, bool) {
+	for range lmMaxTries {
+		var m [NP][NP]float64
+		var rhs [NP]float64
+		for a := range NP {
+			for b := range NP {
+				m[a][b] = jtj[a][b]
+			}
+			m[a][a] *= 1 + *lambda
+			rhs[a] = -g[a]
+		}
+		step, ok := solveNP(m, rhs)
+		if !ok {
+			*lambda *= lmDampingFactor
+			continue
+		}
+		t2 := th
+		for k := range th {
+			t2[k] += step[k]
+		}
+		t2 = t2.params(f.Ablation).theta() // clamp to bounds
+		r2 := f.residuals(t2, nil)
+		if c2 := dot(r2, r2); c2 < cost {
+			*lambda = math.Max(*lambda/lmDampingFactor, lmMinDamping)
+			return t2, r2, c2, true
+		}
+		*lambda *= lmDampingFactor
+	}
+	return th, nil, cost, false
+}
+
+// dot is the dot product of two vectors of one length.
 func dot(a, b []float64) float64 {
 	var s float64
 	for i := range a {
@@ -487,6 +652,8 @@ func solveNP(m [NP][NP]float64, b [NP]float64) ([NP]float64, bool) {
 	return x, true
 }
 
+// invertNP inverts m column by column with solveNP; false when m is
+// singular.
 func invertNP(m [NP][NP]float64) ([NP][NP]float64, bool) {
 	var inv [NP][NP]float64
 	for c := range NP {

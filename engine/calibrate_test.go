@@ -87,10 +87,7 @@ func daSwing(passes []logbook.Pass) float64 {
 func TestCalibrationRecoversTheTruth(t *testing.T) {
 	// PITCARD_ABLATION names a mechanism to switch off, for the ablation
 	// table's column on the model's own world.
-	if m := os.Getenv("PITCARD_ABLATION"); m != "" {
-		SetAblation(m)
-		defer SetAblation("")
-	}
+	ab := AblationOf(os.Getenv("PITCARD_ABLATION"))
 	for _, truth := range []Params{
 		{PowerScale: 0.92, TractionScale: 1.10, PressureExp: 1.0, TempExp: 0.5, TrackOptF: 100, TrackWidthF: 33},
 		{PowerScale: 1.08, TractionScale: 0.90, PressureExp: 0.85, TempExp: 0.45, TrackOptF: 118, TrackWidthF: 50},
@@ -103,7 +100,7 @@ func TestCalibrationRecoversTheTruth(t *testing.T) {
 			if sameDay(held.Time, passes[k-1].Time) == false {
 				continue // the first pass of a day has no "last pass" of the day to compare with
 			}
-			fit, err := Calibrate(CalibrateInput{Car: testCar, Track: testTrack, Passes: passes[:k], Now: held.Time})
+			fit, err := Calibrate(CalibrateInput{Car: testCar, Track: testTrack, Passes: passes[:k], Now: held.Time, Ablation: ab})
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -276,10 +273,7 @@ func TestPredictionFromPassesWithoutWeather(t *testing.T) {
 // The same recovery for a boosted eighth-mile car: the fit works on the
 // timers and the trap the distance has (synthetic truth, as above).
 func TestCalibrationEighthMileTurbo(t *testing.T) {
-	if m := os.Getenv("PITCARD_ABLATION"); m != "" { // see TestCalibrationRecoversTheTruth
-		SetAblation(m)
-		defer SetAblation("")
-	}
+	ab := AblationOf(os.Getenv("PITCARD_ABLATION")) // see TestCalibrationRecoversTheTruth
 	car := Car{Name: "turbo eighth", WeightLb: 3100, PowerHP: 700, Induction: Turbo, DistanceFt: 660, Tire: "slick"}
 	truth := Params{PowerScale: 0.9, TractionScale: 1.05, PressureExp: 0.35, TempExp: 0.5, TrackOptF: 115, TrackWidthF: 40}
 	g := gen{rng: rand.New(rand.NewPCG(11, 12)), truth: truth, car: car}
@@ -290,7 +284,7 @@ func TestCalibrationEighthMileTurbo(t *testing.T) {
 	var errs, last, oracle []float64
 	v := NewVehicle(car, 0)
 	for k := len(passes) - 20; k < len(passes); k++ {
-		fit, err := Calibrate(CalibrateInput{Car: car, Track: testTrack, Passes: passes[:k], Now: passes[k].Time})
+		fit, err := Calibrate(CalibrateInput{Car: car, Track: testTrack, Passes: passes[:k], Now: passes[k].Time, Ablation: ab})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -485,5 +479,32 @@ func TestOutliersAreLeftOutOfTheFit(t *testing.T) {
 	b := Predict(fp, PredictInput{Air: air, Prep: 1, Time: now}).Finish().ET
 	if math.Abs(a-b) > 0.005 {
 		t.Errorf("prediction %.4f s with the misses left out, %.4f s from the clean logbook", b, a)
+	}
+}
+
+// The fit says whether Levenberg–Marquardt reached its minimum, and the
+// notes say so when it did not (common practice, no source: a bounded
+// iterative fit reports hitting its bound).
+func TestFitReportsConvergence(t *testing.T) {
+	truth := Params{PowerScale: 0.95, TractionScale: 1.05, PressureExp: 0.95, TempExp: 0.5, TrackOptF: 105, TrackWidthF: 40}
+	g := gen{rng: rand.New(rand.NewPCG(3, 4)), truth: truth, car: testCar}
+	passes := g.season(6, 10)
+	for _, tc := range []struct {
+		name string
+		n    int
+	}{{"short logbook", 6}, {"long logbook", len(passes)}} {
+		t.Run(tc.name, func(t *testing.T) {
+			fit, err := Calibrate(CalibrateInput{Car: testCar, Track: testTrack, Passes: passes[:tc.n], Now: passes[tc.n-1].Time.Add(time.Hour)})
+			if err != nil {
+				t.Fatal(err)
+			}
+			noted := strings.Contains(strings.Join(fit.Notes, "\n"), "stopped at its limit")
+			if want := !fit.Converged && fit.lastGain > lmNoteGain; noted != want {
+				t.Errorf("converged %v (last gain %.4f), note %v: the note must appear exactly when the fit stopped still gaining more than %.1f %%", fit.Converged, fit.lastGain, noted, 100*lmNoteGain)
+			}
+			if tc.n == 6 && !fit.Converged {
+				t.Errorf("a six-pass fit leaning on the prior should converge within %d steps", lmMaxIterations)
+			}
+		})
 	}
 }

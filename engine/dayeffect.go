@@ -10,23 +10,6 @@ import (
 	"pitcard/weather"
 )
 
-// What the calibrated physics gets wrong has a structure, and the prediction
-// carries it: a level the car holds over weeks (the base), an offset each
-// race day brings (the tune-up, tire pressures, the track's prep that day: a
-// random effect, so a day with few passes leans on the base and a day with
-// many on itself), a drift through the day as rubber goes down and the
-// surface cools (a slope in hours since the day's first pass, shared by the
-// days), and the pass-to-pass scatter. For one timer's residuals r (logged
-// minus model):
-//
-//	r = base + day + slope·hours + noise,  day ~ N(0, τ²), noise ~ N(0, σ²)
-//
-// σ² is measured within days, τ² between them (method of moments), the slope
-// by the days' pooled within-day regression shrunk toward none; the base is
-// the recency-weighted, precision-weighted mean of the earlier days; today's
-// offset is the mean of today's passes shrunk by n·τ²/(n·τ² + σ²). A first
-// pass of the day carries the whole τ² in its interval.
-
 // residualPriors are what the structure assumes before the logbook shows
 // otherwise, in the residual's unit (s for a timer, mph for a trap).
 type residualPriors struct {
@@ -88,59 +71,126 @@ func (r residualFit) Var() float64 {
 	return r.Sigma2 + r.BaseVar + r.TodayVar + r.Hours*r.Hours*r.SlopeVar
 }
 
-// fitResiduals fits the structure to the samples' residuals, res(s) giving
-// one sample's residual and whether it has one, for a pass at time now.
-// Weights are each sample's share of Mean (they add to 1), for the
-// explanation and the parameters' uncertainty.
-func fitResiduals(ss []Sample, res func(Sample) (float64, bool), now time.Time, pri residualPriors, day weather.DayStart) residualFit {
-	type obs struct {
-		i     int
-		r, h  float64
-		day   string
-		today bool
-		wt    float64 // today's passes: weight in today's level
+// fitResiduals fits the structure of what the calibrated physics gets wrong
+// to the samples' residuals (res(s) giving one sample's residual, logged
+// minus model, and whether it has one), for a pass at time now. The
+// structure: a level the car holds over weeks (the base), an offset each
+// race day brings (the tune-up, tire pressures, the track's prep that day: a
+// random effect, so a day with few passes leans on the base and a day with
+// many on itself), a drift through the day as rubber goes down and the
+// surface cools (a slope in hours since the day's first pass, shared by the
+// days), and the pass-to-pass scatter:
+//
+//	r = base + day + slope·hours + noise,  day ~ N(0, τ²), noise ~ N(0, σ²)
+//
+// The steps: σ² and the slope within days (withinDays: the days' pooled
+// within-day regression, the slope shrunk toward none); τ² between days
+// (betweenDays: the method of moments, the spread of the earlier days'
+// levels less what their own scatter explains); the base (setBase: the
+// recency-weighted, precision-weighted mean of the earlier days' levels);
+// today's offset (setToday: the mean of today's passes, the latest weighing
+// most, shrunk toward the base by n·τ²/(n·τ² + σ²), the best linear
+// unbiased predictor of a random effect). A first pass of the day carries
+// the whole τ² in its interval. Weights are each sample's share of Mean
+// (they add to 1), for the explanation and the parameters' uncertainty.
+// Under ab.NoDayStructure it is recencyMean instead.
+func fitResiduals(ss []Sample, res func(Sample) (float64, bool), now time.Time, pri residualPriors, day weather.DayStart, ab Ablation) residualFit {
+	if ab.NoDayStructure {
+		return recencyMean(ss, res, now, pri, day)
 	}
-	dayKey := day.Key // a race night past midnight is one day
-	first := map[string]time.Time{}
-	for _, s := range ss {
-		k := dayKey(s.Pass.Time)
-		if f, ok := first[k]; !ok || s.Pass.Time.Before(f) {
-			first[k] = s.Pass.Time
+	out := residualFit{Weights: make([]float64, len(ss)), Sigma2: sq(pri.Sigma), Tau2: sq(pri.Tau), SlopeVar: sq(pri.Slope)}
+	g := groupByDay(ss, res, day)
+	today := day.Key(now) // a race night past midnight is one day
+	if f, ok := g.first[today]; ok && !f.After(now) {
+		out.Hours = now.Sub(f).Hours()
+	}
+	if len(g.obs) == 0 {
+		out.BaseVar = sq(PhysicsOnlySpread * 10) // nothing to go on: stands for "unknown"
+		return out
+	}
+	w := g.withinDays(pri)
+	out.Sigma2, out.Slope = w.sigma2, w.slope
+	out.SlopeVar = 1 / (w.sxx/w.sigma2 + 1/sq(pri.Slope))
+	days, todayLevel := g.dayLevels(ss, w.slope, today, ab)
+	out.Tau2 = betweenDays(days, w.sigma2, pri)
+	dayW := out.setBase(days, now)
+	k := out.setToday(todayLevel)
+	// Each sample's share of the correction.
+	for r, d := range days {
+		for _, j := range g.byDay[d.key] {
+			out.Weights[g.obs[j].i] += (1 - k) * dayW[r] / float64(d.n)
 		}
 	}
-	today := dayKey(now)
-	var os []obs
-	byDay := map[string][]int{}
+	if todayLevel != nil {
+		var sw float64
+		for _, j := range g.byDay[today] {
+			sw += g.obs[j].wt
+		}
+		for _, j := range g.byDay[today] {
+			out.Weights[g.obs[j].i] += k * g.obs[j].wt / sw
+		}
+	}
+	return out
+}
+
+// residualObs is one sample's residual as the day structure sees it.
+type residualObs struct {
+	i    int     // the sample's index
+	r, h float64 // the residual; hours since its day's first pass
+	wt   float64 // today's passes only: its weight in today's level
+}
+
+// residualDays are the samples' residuals grouped by race day.
+type residualDays struct {
+	obs   []residualObs
+	byDay map[string][]int     // indexes into obs, by day key (weather.DayStart.Key)
+	first map[string]time.Time // each day's first pass, among all the samples
+}
+
+// groupByDay gathers the samples' residuals (those res has) by race day,
+// with each one's hours since its day's first pass.
+func groupByDay(ss []Sample, res func(Sample) (float64, bool), day weather.DayStart) residualDays {
+	g := residualDays{byDay: map[string][]int{}, first: map[string]time.Time{}}
+	for _, s := range ss {
+		k := day.Key(s.Pass.Time)
+		if f, ok := g.first[k]; !ok || s.Pass.Time.Before(f) {
+			g.first[k] = s.Pass.Time
+		}
+	}
 	for i, s := range ss {
 		r, ok := res(s)
 		if !ok {
 			continue
 		}
-		k := dayKey(s.Pass.Time)
-		o := obs{i: i, r: r, h: s.Pass.Time.Sub(first[k]).Hours(), day: k, today: k == today && !s.Pass.Time.After(now)}
-		byDay[k] = append(byDay[k], len(os))
-		os = append(os, o)
+		k := day.Key(s.Pass.Time)
+		g.byDay[k] = append(g.byDay[k], len(g.obs))
+		g.obs = append(g.obs, residualObs{i: i, r: r, h: s.Pass.Time.Sub(g.first[k]).Hours()})
 	}
-	out := residualFit{Weights: make([]float64, len(ss)), Sigma2: sq(pri.Sigma), Tau2: sq(pri.Tau), SlopeVar: sq(pri.Slope)}
-	if ablation.noDayStructure {
-		return recencyMean(ss, res, now, pri, day)
-	}
-	if f, ok := first[today]; ok && !f.After(now) {
-		out.Hours = now.Sub(f).Hours()
-	}
-	if len(os) == 0 {
-		out.BaseVar = sq(PhysicsOnlySpread * 10) // nothing to go on: stands for "unknown"
-		return out
-	}
-	// Within days: the pooled slope and scatter.
-	var sxy, sxx, within float64
+	return g
+}
+
+// withinDay is what the passes within each day say: the scatter σ², the
+// drift per hour, and Σ(h − h̄)² (the slope's information, times σ²).
+type withinDay struct {
+	sigma2, slope, sxx float64
+}
+
+// withinDays measures the scatter and the drift within days: the pooled
+// within-day regression of the residual on the hours, its slope shrunk
+// toward none by the prior (ridge: σ²/SlopePrior² added to Σ(h − h̄)²), σ²
+// the residual sum of squares about each day's line with three passes' worth
+// of the prior scatter added, when at least three degrees of freedom are
+// there to measure it. The slope's shrinkage needs σ² and σ² needs the
+// slope: two rounds settle both.
+func (g residualDays) withinDays(pri residualPriors) withinDay {
+	var sxy, sxx float64
 	withinN := 0
 	dayMean := map[string][2]float64{} // mean r, mean h
-	for k, idx := range byDay {
+	for k, idx := range g.byDay {
 		var mr, mh float64
 		for _, j := range idx {
-			mr += os[j].r
-			mh += os[j].h
+			mr += g.obs[j].r
+			mh += g.obs[j].h
 		}
 		mr /= float64(len(idx))
 		mh /= float64(len(idx))
@@ -149,8 +199,8 @@ func fitResiduals(ss []Sample, res func(Sample) (float64, bool), now time.Time, 
 			continue
 		}
 		for _, j := range idx {
-			sxy += (os[j].h - mh) * (os[j].r - mr)
-			sxx += sq(os[j].h - mh)
+			sxy += (g.obs[j].h - mh) * (g.obs[j].r - mr)
+			sxx += sq(g.obs[j].h - mh)
 		}
 		withinN += len(idx) - 1
 	}
@@ -158,14 +208,14 @@ func fitResiduals(ss []Sample, res func(Sample) (float64, bool), now time.Time, 
 	slope := 0.0
 	for range 2 { // the slope's shrinkage needs σ², σ² needs the slope
 		slope = sxy / (sxx + sigma2/sq(pri.Slope))
-		within = 0
-		for k, idx := range byDay {
+		within := 0.0
+		for k, idx := range g.byDay {
 			if len(idx) < 2 {
 				continue
 			}
 			m := dayMean[k]
 			for _, j := range idx {
-				within += sq(os[j].r - m[0] - slope*(os[j].h-m[1]))
+				within += sq(g.obs[j].r - m[0] - slope*(g.obs[j].h-m[1]))
 			}
 		}
 		if withinN >= 3 {
@@ -173,51 +223,67 @@ func fitResiduals(ss []Sample, res func(Sample) (float64, bool), now time.Time, 
 			sigma2 = (within + 3*sq(pri.Sigma)) / float64(withinN-1+3)
 		}
 	}
-	sigma2 = math.Max(sigma2, sq(pri.MinSigma))
-	out.Sigma2, out.Slope = sigma2, slope
-	out.SlopeVar = 1 / (sxx/sigma2 + 1/sq(pri.Slope))
-	// Between days: each day's level with the slope taken out.
-	type dayLevel struct {
-		key   string
-		level float64
-		n     int
-		nEff  float64 // today's: the weighted passes' worth
-		last  time.Time
-	}
+	return withinDay{sigma2: math.Max(sigma2, sq(pri.MinSigma)), slope: slope, sxx: sxx}
+}
+
+// dayLevel is one race day's level: its passes' mean residual with the
+// drift taken out.
+type dayLevel struct {
+	key   string
+	level float64
+	n     int
+	nEff  float64 // today's: the weighted passes' worth
+	last  time.Time
+}
+
+// dayLevels are the earlier days' levels, latest first, and today's (nil
+// when today has no pass). Today's leans on its latest passes: a pass's
+// weight halves every TodayHalfLife passes back (all alike under
+// ab.NoTodayRecency), and g.obs records each one's.
+func (g residualDays) dayLevels(ss []Sample, slope float64, today string, ab Ablation) ([]dayLevel, *dayLevel) {
 	var days []dayLevel
 	var todayLevel *dayLevel
-	for k, idx := range byDay {
+	for k, idx := range g.byDay {
 		var lv float64
 		last := time.Time{}
 		for _, j := range idx {
-			lv += os[j].r - slope*os[j].h
-			if t := ss[os[j].i].Pass.Time; t.After(last) {
+			lv += g.obs[j].r - slope*g.obs[j].h
+			if t := ss[g.obs[j].i].Pass.Time; t.After(last) {
 				last = t
 			}
 		}
 		d := dayLevel{key: k, level: lv / float64(len(idx)), n: len(idx), nEff: float64(len(idx)), last: last}
 		if k == today {
-			// today's offset leans on its latest passes
 			sorted := append([]int(nil), idx...)
-			sort.Slice(sorted, func(a, b int) bool { return ss[os[sorted[a]].i].Pass.Time.After(ss[os[sorted[b]].i].Pass.Time) })
+			sort.Slice(sorted, func(a, b int) bool {
+				return ss[g.obs[sorted[a]].i].Pass.Time.After(ss[g.obs[sorted[b]].i].Pass.Time)
+			})
 			var sw, sw2, m float64
 			for r, j := range sorted {
 				wt := math.Pow(0.5, float64(r)/TodayHalfLife)
-				if ablation.noTodayRecency {
+				if ab.NoTodayRecency {
 					wt = 1
 				}
 				sw += wt
 				sw2 += wt * wt
-				m += wt * (os[j].r - slope*os[j].h)
-				os[j].wt = wt
+				m += wt * (g.obs[j].r - slope*g.obs[j].h)
+				g.obs[j].wt = wt
 			}
-			d.level, d.nEff = m/sw, sw*sw/sw2
+			d.level, d.nEff = m/sw, sw*sw/sw2 // Kish's effective number of passes
 			todayLevel = &d
 			continue
 		}
 		days = append(days, d)
 	}
 	sort.Slice(days, func(a, b int) bool { return days[a].last.After(days[b].last) })
+	return days, todayLevel
+}
+
+// betweenDays is the day-to-day spread τ² by the method of moments: the
+// variance of the earlier days' levels less the part their own scatter
+// explains (the mean of σ²/nᵢ), from three days on, with one day's worth of
+// the prior τ² added; never below MinTau².
+func betweenDays(days []dayLevel, sigma2 float64, pri residualPriors) float64 {
 	tau2 := sq(pri.Tau)
 	if len(days) >= 3 {
 		var mean, v, noise float64
@@ -233,9 +299,15 @@ func fitResiduals(ss []Sample, res func(Sample) (float64, bool), now time.Time, 
 		// lean on the default with few days, as for σ²
 		tau2 = (est*float64(len(days)-1) + sq(pri.Tau)) / float64(len(days)-1+1)
 	}
-	tau2 = math.Max(tau2, sq(pri.MinTau))
-	out.Tau2 = tau2
-	// The base: earlier days, recent ones and well-measured ones more.
+	return math.Max(tau2, sq(pri.MinTau))
+}
+
+// setBase sets the base, the car's level, and its variance: the earlier
+// days' levels weighted by their precision 1/(τ² + σ²/n), halving every
+// DayHalfLife race days and every BaseHalfLifeDays of calendar back. It
+// returns each day's weight (they add to 1).
+func (out *residualFit) setBase(days []dayLevel, now time.Time) []float64 {
+	tau2, sigma2 := out.Tau2, out.Sigma2
 	dayW := make([]float64, len(days))
 	var sw, base, bvar float64
 	for r, d := range days {
@@ -253,35 +325,26 @@ func fitResiduals(ss []Sample, res func(Sample) (float64, bool), now time.Time, 
 		bvar = tau2 + sigma2
 	}
 	out.Base, out.BaseVar = base, bvar
-	// Today: its own passes, shrunk toward the base.
-	k := 0.0
-	if todayLevel != nil {
-		n := todayLevel.nEff
-		k = n * tau2 / (n*tau2 + sigma2)
-		out.Today = k * (todayLevel.level - base)
-		out.TodayVar = tau2 * sigma2 / (n*tau2 + sigma2)
-		out.TodayN = todayLevel.n
-		// the base's own uncertainty is shrunk away with it
-		out.BaseVar *= sq(1 - k)
-	} else {
+	return dayW
+}
+
+// setToday sets today's offset from the base: today's level shrunk toward
+// the base by k = n·τ²/(n·τ² + σ²) (n: today's passes' worth), with its
+// variance τ²σ²/(n·τ² + σ²); with no pass today, none and the whole τ². The
+// base's own uncertainty is shrunk away by (1 − k)². It returns k.
+func (out *residualFit) setToday(today *dayLevel) float64 {
+	tau2, sigma2 := out.Tau2, out.Sigma2
+	if today == nil {
 		out.TodayVar = tau2
+		return 0
 	}
-	// Each sample's share of the correction.
-	for r, d := range days {
-		for _, j := range byDay[d.key] {
-			out.Weights[os[j].i] += (1 - k) * dayW[r] / float64(d.n)
-		}
-	}
-	if todayLevel != nil {
-		var sw float64
-		for _, j := range byDay[today] {
-			sw += os[j].wt
-		}
-		for _, j := range byDay[today] {
-			out.Weights[os[j].i] += k * os[j].wt / sw
-		}
-	}
-	return out
+	n := today.nEff
+	k := n * tau2 / (n*tau2 + sigma2)
+	out.Today = k * (today.level - out.Base)
+	out.TodayVar = tau2 * sigma2 / (n*tau2 + sigma2)
+	out.TodayN = today.n
+	out.BaseVar *= sq(1 - k)
+	return k
 }
 
 // nuisance estimates, for every timer and trap, each day's offset (relative
@@ -326,83 +389,38 @@ func (d structure) offset(s Sample) float64 {
 }
 
 // dayStructure measures the scatter within days, the spread between them
-// and the drift through them (as fitResiduals does), and returns each day's
-// offset shrunk toward the days' mean.
+// and the drift through them with the same estimators as fitResiduals
+// (withinDays, betweenDays, over every day the fit has), and returns each
+// day's offset from the days' mean, shrunk by n·τ²/(n·τ² + σ²) as today's
+// is there.
 func dayStructure(ss []Sample, res func(Sample) (float64, bool), pri residualPriors, day weather.DayStart) structure {
-	d := structure{day: day, level: map[string]float64{}, first: map[string]time.Time{}}
-	type obs struct{ r, h float64 }
-	byDay := map[string][]obs{}
-	for _, s := range ss {
-		k := day.Key(s.Pass.Time)
-		if f, ok := d.first[k]; !ok || s.Pass.Time.Before(f) {
-			d.first[k] = s.Pass.Time
-		}
-	}
-	var all []obs
-	for _, s := range ss {
-		if r, ok := res(s); ok {
-			k := day.Key(s.Pass.Time)
-			o := obs{r, s.Pass.Time.Sub(d.first[k]).Hours()}
-			byDay[k] = append(byDay[k], o)
-			all = append(all, o)
-		}
-	}
-	if len(byDay) < 2 {
+	g := groupByDay(ss, res, day)
+	d := structure{day: day, level: map[string]float64{}, first: g.first}
+	if len(g.byDay) < 2 {
 		return d
 	}
-	var sxy, sxx, within, hsum float64
-	n := 0
-	means := map[string][2]float64{} // each day's mean residual and hours
-	for k, os := range byDay {
-		var mr, mh float64
-		for _, o := range os {
-			mr += o.r
-			mh += o.h
-		}
-		mr /= float64(len(os))
-		mh /= float64(len(os))
-		means[k] = [2]float64{mr, mh}
-		for _, o := range os {
-			sxy += (o.h - mh) * (o.r - mr)
-			sxx += sq(o.h - mh)
-			hsum += o.h
-		}
-		n += len(os) - 1
+	w := g.withinDays(pri)
+	d.slope = w.slope
+	var hsum float64
+	for _, o := range g.obs {
+		hsum += o.h
 	}
-	sigma2 := sq(pri.Sigma)
-	for range 2 { // the slope's shrinkage needs σ², σ² needs the slope
-		d.slope = sxy / (sxx + sigma2/sq(pri.Slope))
-		within = 0
-		for k, os := range byDay {
-			m := means[k]
-			for _, o := range os {
-				within += sq(o.r - m[0] - d.slope*(o.h-m[1]))
-			}
-		}
-		sigma2 = math.Max((within+3*sq(pri.Sigma))/float64(n+3), sq(pri.MinSigma))
-	}
-	d.center = hsum / float64(len(all))
-	levels := map[string]float64{}
+	d.center = hsum / float64(len(g.obs))
+	var days []dayLevel
 	var mean float64
-	for k, os := range byDay {
+	for k, idx := range g.byDay {
 		var lv float64
-		for _, o := range os {
-			lv += o.r - d.slope*(o.h-d.center)
+		for _, j := range idx {
+			lv += g.obs[j].r - d.slope*(g.obs[j].h-d.center)
 		}
-		levels[k] = lv / float64(len(os))
-		mean += levels[k]
+		days = append(days, dayLevel{key: k, level: lv / float64(len(idx)), n: len(idx)})
+		mean += lv / float64(len(idx))
 	}
-	mean /= float64(len(levels))
-	var v, noise float64
-	for k, os := range byDay {
-		v += sq(levels[k] - mean)
-		noise += sigma2 / float64(len(os))
-	}
-	m := float64(len(levels))
-	tau2 := math.Max((v/math.Max(m-1, 1)-noise/m)*(m-1)/(m+1)+2*sq(pri.Tau)/(m+1), sq(pri.MinTau))
-	for k, os := range byDay {
-		c := float64(len(os))
-		d.level[k] = (levels[k] - mean) * c * tau2 / (c*tau2 + sigma2)
+	mean /= float64(len(days))
+	tau2 := betweenDays(days, w.sigma2, pri)
+	for _, dl := range days {
+		c := float64(dl.n)
+		d.level[dl.key] = (dl.level - mean) * c * tau2 / (c*tau2 + w.sigma2)
 	}
 	return d
 }

@@ -38,7 +38,7 @@ type heldOut struct {
 
 // scoreWorld predicts each clean pass of the last `targets` days of w from
 // the passes before it.
-func scoreWorld(t testing.TB, w truthsim.World, targetDays int, claimOff float64) heldOut {
+func scoreWorld(t testing.TB, w truthsim.World, targetDays int, claimOff float64, ab engine.Ablation) heldOut {
 	passes := w.Season()
 	car, trk := w.CarYAML(claimOff), w.EngineTrack()
 	fin := truthsim.FinishIndex(w.Car.DistanceFt)
@@ -54,7 +54,7 @@ func scoreWorld(t testing.TB, w truthsim.World, targetDays int, claimOff float64
 		if p.Day < w.Days-targetDays || p.Aborted {
 			continue
 		}
-		pr, _, err := engine.Forecast(engine.CalibrateInput{Car: car, Track: trk, Passes: logged[:k], Now: p.Logged.Time},
+		pr, _, err := engine.Forecast(engine.CalibrateInput{Car: car, Track: trk, Passes: logged[:k], Now: p.Logged.Time, Ablation: ab},
 			engine.PredictInput{Air: p.Logged.Air, Prep: 1, WeightLb: p.Logged.WeightLb, Time: p.Logged.Time}, cache)
 		if err != nil {
 			t.Error(err)
@@ -117,8 +117,8 @@ var claims = []float64{0.06, -0.05, 0.10, 0.0, -0.08, 0.04}
 
 // scoreAll scores every world of the season drawn with the seeds shifted
 // by shift: the average of the worlds' ratios to their floors, the worst,
-// and the interval's coverage.
-func scoreAll(t *testing.T, shift uint64) (avg, worst float64, covered, n int, lines []string) {
+// and the interval's coverage; ab switches mechanisms off (zero: none).
+func scoreAll(t *testing.T, shift uint64, ab engine.Ablation) (avg, worst float64, covered, n int, lines []string) {
 	worlds := truthsim.Worlds()
 	for i := range worlds {
 		worlds[i].Seed += shift
@@ -129,7 +129,7 @@ func scoreAll(t *testing.T, shift uint64) (avg, worst float64, covered, n int, l
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			scores[i] = scoreWorld(t, w, 5, claims[i%len(claims)])
+			scores[i] = scoreWorld(t, w, 5, claims[i%len(claims)], ab)
 		}()
 	}
 	wg.Wait()
@@ -167,7 +167,7 @@ func TestModelGeneralisesToAnotherWorld(t *testing.T) {
 			fmt.Sscan(v, &extra)
 			shift += extra
 		}
-		avg, worst, c, k, lines := scoreAll(t, shift)
+		avg, worst, c, k, lines := scoreAll(t, shift, engine.Ablation{})
 		for _, l := range lines {
 			t.Log(l)
 		}
@@ -202,12 +202,12 @@ func TestAblation(t *testing.T) {
 	}
 	means := map[string]float64{}
 	for _, m := range append([]string{""}, engine.Mechanisms...) {
-		engine.SetAblation(m)
+		ab := engine.AblationOf(m)
 		var parts []string
 		var sum float64
 		var covered, n int
 		for _, shift := range []uint64{0, 1000, 2000, 3000} {
-			avg, worst, c, k, _ := scoreAll(t, shift)
+			avg, worst, c, k, _ := scoreAll(t, shift, ab)
 			sum += avg
 			covered, n = covered+c, n+k
 			parts = append(parts, fmt.Sprintf("%.2f (worst %.2f)", avg, worst))
@@ -219,7 +219,6 @@ func TestAblation(t *testing.T) {
 		t.Logf("| %s off | %s | mean %.3f | coverage %.1f %% |", name, strings.Join(parts, " | "), sum/4, 100*float64(covered)/float64(n))
 		means[m] = sum / 4
 	}
-	engine.SetAblation("")
 	// The bar of TestModelGeneralisesToAnotherWorld holds with all on, and
 	// every mechanism pays for itself (DEVELOPERS.md: one that does not
 	// goes): switched off, the mean ratio to the floor is no better. The

@@ -22,13 +22,21 @@ import (
 // Defaults of the optional car.yaml fields (assumptions for an ordinary
 // full-bodied bracket car; calibration absorbs what they get wrong).
 const (
-	DefaultDrivetrainLoss = 0.15  // automatic, solid axle
-	DefaultCdA            = 0.75  // m²: Cd 0.38 × 2.0 m² frontal area
-	DefaultRollingCoeff   = 0.015 // drag-tire rolling resistance
-	DefaultWheelbaseIn    = 108.0
-	DefaultCGHeightIn     = 20.0
-	DefaultRearWeightPct  = 48.0
-	DefaultShiftTime      = 0.15 // s per shift, with gears given
+	// DefaultDrivetrainLoss is the share of flywheel power lost before the
+	// tires: an automatic, solid axle.
+	DefaultDrivetrainLoss = 0.15
+	// DefaultCdA is the drag area, m²: Cd 0.38 × 2.0 m² frontal area.
+	DefaultCdA = 0.75
+	// DefaultRollingCoeff is a drag tire's rolling resistance coefficient.
+	DefaultRollingCoeff = 0.015
+	// DefaultWheelbaseIn is the wheelbase, in.
+	DefaultWheelbaseIn = 108.0
+	// DefaultCGHeightIn is the centre of gravity's height, in.
+	DefaultCGHeightIn = 20.0
+	// DefaultRearWeightPct is the share of the weight on the rear axle, %.
+	DefaultRearWeightPct = 48.0
+	// DefaultShiftTime is the time of one shift, s, with gears given.
+	DefaultShiftTime = 0.15
 	// DefaultPowerFraction is the share of peak power the engine delivers
 	// through the gears at speed when no gearing is given: the rpm falls at
 	// every shift (assumption, from memory). At low speed the converter or
@@ -37,8 +45,12 @@ const (
 	// 67 mph). The shape puts a car's eighth-to-quarter ratios inside the
 	// trade's bands; calibration fits the level.
 	DefaultPowerFraction = 0.88
-	LaunchPowerLoss      = 0.40
-	LaunchPowerSpeed     = 30.0 // m/s
+	// LaunchPowerLoss is the share of power lost at a standstill (see
+	// DefaultPowerFraction).
+	LaunchPowerLoss = 0.40
+	// LaunchPowerSpeed is the speed, m/s, over which the launch loss fades
+	// (see DefaultPowerFraction).
+	LaunchPowerSpeed = 30.0
 	// Rollout is how far the car moves before the clock starts: the front
 	// tire has to clear the staging beam (common practice: about a foot).
 	Rollout = 1.0 * MetrePerFt

@@ -14,13 +14,6 @@ import (
 	"pitcard/weather"
 )
 
-// Prediction: the calibrated model run in the conditions of the next pass,
-// corrected by the structure of its residuals (what the model has got wrong:
-// the car's level, today, the drift through the day; see dayeffect.go), each
-// recent pass thereby "carried" to today's conditions. The interval comes from the spread of
-// those residuals, widened by the parameters' uncertainty and by how far
-// today's air and track lie outside what the logbook has seen.
-
 // Prediction settings.
 const (
 	// BaseHalfLifeDays: an earlier race day's weight in the car's level
@@ -126,8 +119,8 @@ func (p Prediction) Finish() Timer { return p.Timers[len(p.Timers)-1] }
 // source: most racers make two or three time trials before dialing).
 const MinPassesForDial = 3
 
-// FewPassesForDial: a dial resting on fewer passes than this is posted, and
-// the card says it rests on few.
+// FewPassesForDial is the number of passes below which a dial is still
+// posted but the card says it rests on few.
 const FewPassesForDial = 6
 
 // DialReady says whether the prediction may post a dial-in, and why not.
@@ -173,17 +166,19 @@ type PredictInput struct {
 	Quick bool
 }
 
-// Predict predicts every timer and trap of the next pass from fit.
+// Predict predicts every timer and trap of the next pass from fit: the
+// calibrated model run in the conditions of the next pass, corrected by the
+// structure of its residuals (what the model has got wrong: the car's
+// level, today, the drift through the day; fitResiduals), each recent pass
+// thereby "carried" to today's conditions. The interval comes from the
+// spread of those residuals, widened by the parameters' uncertainty
+// (parameterSpread), by how far today's air and track lie outside what the
+// logbook has seen (extrapolation) and by a noted car change.
+//
+// With no clean pass with its weather it falls back on rawPrediction (two
+// or more passes without weather) or physicsOnlyPrediction (car.yaml alone).
 func Predict(f Fit, in PredictInput) Prediction {
-	mass := f.Car.WeightLb * weather.KgPerLb
-	weightNote := ""
-	switch {
-	case in.WeightLb > 0:
-		mass = in.WeightLb * weather.KgPerLb
-	case f.Weight != nil && f.Weight.logged > 0 && !ablation.noWeightFill:
-		mass = f.Weight.At(in.Time) * weather.KgPerLb
-		weightNote = f.Weight.note(in.Time)
-	}
+	mass, weightNote := predictMass(f, in)
 	env := NewEnv(in.Air, f.Track.HeadingDeg, in.Prep, mass)
 	dist := f.Car.DistanceFt
 	model := Simulate(&f.Vehicle, f.Params, env, dist)
@@ -205,93 +200,33 @@ func Predict(f Fit, in PredictInput) Prediction {
 		return rawPrediction(pr, f, timers)
 	}
 	if len(f.Samples) == 0 {
-		pr.PhysicsOnly = true
-		for _, ft := range timers {
-			et := model.ETAt(ft)
-			sd := PhysicsOnlySpread * et
-			pr.Timers = append(pr.Timers, Timer{DistanceFt: ft, ET: et, SD: sd, Low: et - IntervalZ*sd, High: et + IntervalZ*sd, PhysicsOnly: et})
-		}
-		for j, ft := range []float64{660, 1320} {
-			if ft <= dist {
-				mph := []float64{model.MPH660, model.MPH1320}[j]
-				sd := PhysicsOnlySpread * mph
-				pr.Traps = append(pr.Traps, Trap{DistanceFt: ft, MPH: mph, SD: sd, Low: mph - IntervalZ*sd, High: mph + IntervalZ*sd})
-			}
-		}
-		return pr
+		return physicsOnlyPrediction(pr, timers)
 	}
 
 	// The correction: the structure of the model's residuals (base, today,
 	// drift through the day), timer by timer.
 	fj := logbook.TimerIndex(dist)
-	has := func(j int) func(Sample) (float64, bool) {
-		return func(s Sample) (float64, bool) { return s.Obs[j] - s.Sim.ET[j], !math.IsNaN(s.Obs[j]) }
-	}
-	fin := fitResiduals(f.Samples, has(fj), in.Time, timerPriors(fj, fj), f.DayStart)
+	fin := fitResiduals(f.Samples, timerResidual(fj), in.Time, timerPriors(fj, fj), f.DayStart, f.Ablation)
 	w := fin.Weights
 	var w2 float64
 	for _, x := range w {
 		w2 += x * x
 	}
-	kEff := 1 / math.Max(w2, 1e-9)
-	extra, paramSD := 0.0, 0.0
+	kEff := 1 / math.Max(w2, 1e-9) // Kish's effective number of passes leaned on
+	u := modelSpread{}
 	if !in.Quick {
-		extra, paramSD = extrapolation(pr.Sensitivity, model.ETAt(dist)), parameterSpread(f, env, w)
+		u.extra, u.param = extrapolation(pr.Sensitivity, model.ETAt(dist)), parameterSpread(f, env, w)
 	}
-	changeSD := 0.0
 	if f.Change != nil {
-		changeSD = f.Change.OffsetSD
+		u.change = f.Change.OffsetSD
 		pr.Notes = append(pr.Notes, f.Change.Text())
 	}
-	relSD := math.Sqrt(fin.Var()) / model.ETAt(dist)
-	logged := func(res func(Sample) (float64, bool)) bool {
-		for _, s := range f.Samples {
-			if _, ok := res(s); ok {
-				return true
-			}
-		}
-		return false
-	}
-	var unlogged []string
-	for _, ft := range timers {
-		j := logbook.TimerIndex(ft)
-		et, sd := model.ET[j], 2*relSD*model.ET[j]
-		rf := residualFit{}
-		if logged(has(j)) {
-			rf = fitResiduals(f.Samples, has(j), in.Time, timerPriors(j, fj), f.DayStart)
-			et += rf.Mean()
-			sd = math.Sqrt(rf.Var())
-		} else { // no pass logged this timer: the model's, with twice the finish's relative spread
-			unlogged = append(unlogged, fmt.Sprintf("%.0f ft", ft))
-		}
-		scale := et / model.ETAt(dist) // extrapolation and parameters scale with the ET
-		sd = math.Sqrt(sq(sd) + sq(paramSD*scale) + sq(extra*scale) + sq(changeSD*scale))
-		pr.Timers = append(pr.Timers, Timer{DistanceFt: ft, ET: et, SD: sd, Low: et - IntervalZ*sd, High: et + IntervalZ*sd,
-			PhysicsOnly: model.ET[j], ResidualSpread: math.Sqrt(rf.Sigma2)})
-	}
+	u.rel = math.Sqrt(fin.Var()) / model.ETAt(dist)
+	unlogged := predictTimers(&pr, f, in, timers, u)
 	if j := fin; j.TodayN == 0 {
 		pr.Notes = append(pr.Notes, fmt.Sprintf("the first pass of the day: the interval carries the day-to-day spread (±%.3f s)", math.Sqrt(j.Tau2)))
 	}
-	for j, ft := range []float64{660, 1320} {
-		if ft > dist {
-			continue
-		}
-		sim := []float64{model.MPH660, model.MPH1320}[j]
-		res := func(s Sample) (float64, bool) {
-			return s.Trap[j] - []float64{s.Sim.MPH660, s.Sim.MPH1320}[j], !math.IsNaN(s.Trap[j])
-		}
-		mph, sd := sim, 2*relSD*sim
-		if logged(res) {
-			rf := fitResiduals(f.Samples, res, in.Time, trapPriors, f.DayStart)
-			mph += rf.Mean()
-			sd = math.Sqrt(rf.Var())
-		} else {
-			unlogged = append(unlogged, fmt.Sprintf("the %.0f-ft trap", ft))
-		}
-		rel := (paramSD + extra) / pr.Finish().ET // the ET's relative model uncertainty, carried to the speed
-		sd = math.Sqrt(sq(sd) + sq(mph*rel))
-		pr.Traps = append(pr.Traps, Trap{DistanceFt: ft, MPH: mph, SD: sd, Low: mph - IntervalZ*sd, High: mph + IntervalZ*sd})
-	}
+	unlogged = append(unlogged, predictTraps(&pr, f, in, u)...)
 	if len(unlogged) > 0 {
 		pr.Notes = append(pr.Notes, "no logged times at "+strings.Join(unlogged, ", ")+": those come from the model, with a wider interval")
 	}
@@ -301,11 +236,139 @@ func Predict(f Fit, in PredictInput) Prediction {
 	sort.SliceStable(pr.Leaned, func(a, b int) bool { return pr.Leaned[a].Share > pr.Leaned[b].Share })
 	pr.Notes = append(pr.Notes, fmt.Sprintf("calibrated to %d clean passes (%s to %s); the correction leans mostly on the latest %d",
 		len(f.Samples), f.Samples[len(f.Samples)-1].Pass.Time.Format("2006-01-02"), f.Samples[0].Pass.Time.Format("2006-01-02"), max(1, int(math.Round(kEff)))))
-	if extra > 0.0005 {
+	if u.extra > 0.0005 {
 		pr.Notes = append(pr.Notes, fmt.Sprintf("today lies outside the conditions of the passes leaned on (%s): the interval is widened by %.3f s",
-			outsideText(pr.Sensitivity), extra))
+			outsideText(pr.Sensitivity), u.extra))
 	}
 	return pr
+}
+
+// predictMass is the car's mass for the next pass, kg: the input's weight,
+// else the weight model's (with its note) when passes logged a weight, else
+// car.yaml's.
+func predictMass(f Fit, in PredictInput) (float64, string) {
+	switch {
+	case in.WeightLb > 0:
+		return in.WeightLb * weather.KgPerLb, ""
+	case f.Weight != nil && f.Weight.logged > 0 && !f.Ablation.NoWeightFill:
+		return f.Weight.At(in.Time) * weather.KgPerLb, f.Weight.note(in.Time)
+	}
+	return f.Car.WeightLb * weather.KgPerLb, ""
+}
+
+// interval is the IntervalZ interval of a normal spread sd about x.
+func interval(x, sd float64) (lo, hi float64) {
+	return x - IntervalZ*sd, x + IntervalZ*sd
+}
+
+// newTimer is a timer's prediction with its interval.
+func newTimer(ft, et, sd, physicsOnly, spread float64) Timer {
+	lo, hi := interval(et, sd)
+	return Timer{DistanceFt: ft, ET: et, SD: sd, Low: lo, High: hi, PhysicsOnly: physicsOnly, ResidualSpread: spread}
+}
+
+// newTrap is a trap speed's prediction with its interval.
+func newTrap(ft, mph, sd float64) Trap {
+	lo, hi := interval(mph, sd)
+	return Trap{DistanceFt: ft, MPH: mph, SD: sd, Low: lo, High: hi}
+}
+
+// physicsOnlyPrediction is the calibrated model alone (no pass to calibrate
+// to), each figure ± PhysicsOnlySpread of itself.
+func physicsOnlyPrediction(pr Prediction, timers []float64) Prediction {
+	pr.PhysicsOnly = true
+	for _, ft := range timers {
+		et := pr.Model.ETAt(ft)
+		pr.Timers = append(pr.Timers, newTimer(ft, et, PhysicsOnlySpread*et, et, 0))
+	}
+	for j, ft := range []float64{660, 1320} {
+		if ft <= pr.Distance {
+			mph := []float64{pr.Model.MPH660, pr.Model.MPH1320}[j]
+			pr.Traps = append(pr.Traps, newTrap(ft, mph, PhysicsOnlySpread*mph))
+		}
+	}
+	return pr
+}
+
+// modelSpread is the part of the finish's spread the residuals do not
+// carry, s: the parameters' uncertainty, the extrapolation beyond the
+// conditions seen, a car change's offset; and rel, the finish's relative
+// spread from the residuals, for a timer or trap no pass logged.
+type modelSpread struct {
+	param, extra, change, rel float64
+}
+
+// timerResidual is timer j's residual of a sample, logged minus model.
+func timerResidual(j int) func(Sample) (float64, bool) {
+	return func(s Sample) (float64, bool) { return s.Obs[j] - s.Sim.ET[j], !math.IsNaN(s.Obs[j]) }
+}
+
+// trapResidual is trap j's residual of a sample (0: 660 ft, 1: 1320 ft),
+// logged minus model, mph.
+func trapResidual(j int) func(Sample) (float64, bool) {
+	return func(s Sample) (float64, bool) {
+		return s.Trap[j] - []float64{s.Sim.MPH660, s.Sim.MPH1320}[j], !math.IsNaN(s.Trap[j])
+	}
+}
+
+// anyLogged says whether some sample has the residual res.
+func anyLogged(f Fit, res func(Sample) (float64, bool)) bool {
+	for _, s := range f.Samples {
+		if _, ok := res(s); ok {
+			return true
+		}
+	}
+	return false
+}
+
+// predictTimers appends each timer's prediction to pr: the model corrected
+// by its residuals' structure, the spread widened by u in proportion to the
+// ET. A timer no pass logged is the model's with twice the finish's
+// relative spread; predictTimers returns those, in words.
+func predictTimers(pr *Prediction, f Fit, in PredictInput, timers []float64, u modelSpread) (unlogged []string) {
+	model, dist := pr.Model, pr.Distance
+	fj := logbook.TimerIndex(dist)
+	for _, ft := range timers {
+		j := logbook.TimerIndex(ft)
+		et, sd := model.ET[j], 2*u.rel*model.ET[j]
+		rf := residualFit{}
+		if res := timerResidual(j); anyLogged(f, res) {
+			rf = fitResiduals(f.Samples, res, in.Time, timerPriors(j, fj), f.DayStart, f.Ablation)
+			et += rf.Mean()
+			sd = math.Sqrt(rf.Var())
+		} else {
+			unlogged = append(unlogged, fmt.Sprintf("%.0f ft", ft))
+		}
+		scale := et / model.ETAt(dist) // extrapolation and parameters scale with the ET
+		sd = math.Sqrt(sq(sd) + sq(u.param*scale) + sq(u.extra*scale) + sq(u.change*scale))
+		pr.Timers = append(pr.Timers, newTimer(ft, et, sd, model.ET[j], math.Sqrt(rf.Sigma2)))
+	}
+	return unlogged
+}
+
+// predictTraps appends each trap speed's prediction to pr, as predictTimers
+// does the timers; the model's relative uncertainty of the finish ET is
+// carried to the speed. It returns the traps no pass logged, in words.
+func predictTraps(pr *Prediction, f Fit, in PredictInput, u modelSpread) (unlogged []string) {
+	model := pr.Model
+	for j, ft := range []float64{660, 1320} {
+		if ft > pr.Distance {
+			continue
+		}
+		sim := []float64{model.MPH660, model.MPH1320}[j]
+		mph, sd := sim, 2*u.rel*sim
+		if res := trapResidual(j); anyLogged(f, res) {
+			rf := fitResiduals(f.Samples, res, in.Time, trapPriors, f.DayStart, f.Ablation)
+			mph += rf.Mean()
+			sd = math.Sqrt(rf.Var())
+		} else {
+			unlogged = append(unlogged, fmt.Sprintf("the %.0f-ft trap", ft))
+		}
+		rel := (u.param + u.extra) / pr.Finish().ET // the ET's relative model uncertainty, carried to the speed
+		sd = math.Sqrt(sq(sd) + sq(mph*rel))
+		pr.Traps = append(pr.Traps, newTrap(ft, mph, sd))
+	}
+	return unlogged
 }
 
 // rawPrediction is the plain average of recent passes without weather, each
@@ -332,11 +395,10 @@ func rawPrediction(pr Prediction, f Fit, timers []float64) Prediction {
 	}
 	for _, ft := range timers {
 		if m, sd, ok := stat(func(p logbook.Pass) (float64, bool) { return p.ETAt(ft) }); ok {
-			pr.Timers = append(pr.Timers, Timer{DistanceFt: ft, ET: m, SD: sd, Low: m - IntervalZ*sd, High: m + IntervalZ*sd, PhysicsOnly: pr.Model.ETAt(ft), ResidualSpread: sd})
+			pr.Timers = append(pr.Timers, newTimer(ft, m, sd, pr.Model.ETAt(ft), sd))
 		} else {
 			et := pr.Model.ETAt(ft) // a timer the slips never had: the model's, wide
-			s := PhysicsOnlySpread * et
-			pr.Timers = append(pr.Timers, Timer{DistanceFt: ft, ET: et, SD: s, Low: et - IntervalZ*s, High: et + IntervalZ*s, PhysicsOnly: et})
+			pr.Timers = append(pr.Timers, newTimer(ft, et, PhysicsOnlySpread*et, et, 0))
 		}
 	}
 	for _, tr := range []struct {
@@ -350,7 +412,7 @@ func rawPrediction(pr Prediction, f Fit, timers []float64) Prediction {
 			continue
 		}
 		if m, sd, ok := stat(tr.get); ok {
-			pr.Traps = append(pr.Traps, Trap{DistanceFt: tr.ft, MPH: m, SD: sd, Low: m - IntervalZ*sd, High: m + IntervalZ*sd})
+			pr.Traps = append(pr.Traps, newTrap(tr.ft, m, sd))
 		}
 	}
 	fin := f.Car.DistanceFt
@@ -387,10 +449,10 @@ func parameterSpread(f Fit, env Env, w []float64) float64 {
 	var g [NP]float64
 	for k := range th {
 		t2 := th
-		t2[k] += 1e-4
-		p := t2.params()
+		t2[k] += jacobianStep
+		p := t2.params(f.Ablation)
 		p.SeenTrackF = f.Params.SeenTrackF
-		g[k] = (change(p) - base) / 1e-4
+		g[k] = (change(p) - base) / jacobianStep
 	}
 	var v float64
 	for a := range NP {

@@ -28,8 +28,12 @@ import (
 //     The best temperature and the width (70 °F to start, held within
 //     TrackWidthRangeF) are fitted per car from its 60-ft times.
 const (
-	TrackBestF         = 110.0 // °F, a drag radial's best
-	TrackWidthDefaultF = 70.0  // °F: the well's width (see TrackTempFactor)
+	// TrackBestF is the prior's best surface temperature, °F: a drag
+	// radial's.
+	TrackBestF = 110.0
+	// TrackWidthDefaultF is the prior's width of the grip well, °F (see
+	// TrackTempFactor).
+	TrackWidthDefaultF = 70.0
 	// GripLossMax is the most of its best grip a tire loses to a cold or
 	// greasy surface (common practice, from memory: a cold track costs a
 	// drag tire a tenth or two of 60 ft, not its launch).

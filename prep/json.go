@@ -153,7 +153,8 @@ func airJSON(a weather.Air, r weather.Reading, in Input) map[string]any {
 
 // PredictionJSON is a prediction as JSON, the same object under "prediction"
 // in the card's JSON and in 'pitcard predict --format json': its timers
-// [{distance_ft, et, low, high, sd}] have the keys of a logged pass's.
+// [{distance_ft, et, low, high, sd}] have the keys of a logged pass's; its
+// "blend" is what the finish rests on (BlendJSON, null when not blended).
 func PredictionJSON(p engine.Prediction, fit engine.Fit) map[string]any {
 	timers, traps, leaned, out := []map[string]any{}, []map[string]any{}, []map[string]any{}, []map[string]any{}
 	for _, t := range p.Timers {
@@ -175,7 +176,8 @@ func PredictionJSON(p engine.Prediction, fit engine.Fit) map[string]any {
 	s := p.Sensitivity
 	return map[string]any{"timers": timers, "traps": traps, "physics_only": p.PhysicsOnly, "leaned_on": leaned, "left_out": out,
 		"passes_calibrated": len(fit.Samples), "passes_at_distance": p.Passes, "interval_pct": 95, "notes": nonNil(p.Notes),
-		"et_per_1000ft_da_s": round(s.PerKDA, 4), "et_per_10f_track_s": round(s.Per10FTrack, 4), "et_per_10mph_headwind_s": round(s.Per10Headwind, 4)}
+		"et_per_1000ft_da_s": round(s.PerKDA, 4), "et_per_10f_track_s": round(s.Per10FTrack, 4), "et_per_10mph_headwind_s": round(s.Per10Headwind, 4),
+		"blend": BlendJSON(p, fit)}
 }
 
 func round(v float64, d int) float64 {

@@ -240,6 +240,10 @@ func newView(c Card) view {
 			v.Prediction.Rows = append(v.Prediction.Rows, r)
 		}
 		v.Basis = Explain(p, c.Fit, u)
+		if l := RestsOnLine(p, c.Fit, u); l != "" {
+			// One line, as the blend's note was: the card is at its page limit.
+			v.Basis = append(v.Basis, "Leaned on "+l+".")
+		}
 	}
 
 	// The dial options.
@@ -322,7 +326,8 @@ func newView(c Card) view {
 
 // Explain says, in lines, why a prediction is what it is: physics alone or
 // not, what each change of conditions is worth to the car today, the passes
-// it leaned on most, those it left out and why, and its notes.
+// it leaned on most, those it left out and why, and its notes but those
+// RestsOn says (the blend, the change, today outside the logbook).
 func Explain(p engine.Prediction, f engine.Fit, u weather.Units) []string {
 	var out []string
 	if p.PhysicsOnly {
@@ -351,8 +356,8 @@ func Explain(p engine.Prediction, f engine.Fit, u weather.Units) []string {
 		out = append(out, fmt.Sprintf("Left out %s %s: %s%s.", o.Pass.Time.Format("01-02"), o.Pass.Session.Long(), passNotes(o.Reason), more))
 	}
 	for _, n := range p.Notes {
-		if strings.HasPrefix(n, "calibrated to") {
-			continue // said above
+		if strings.HasPrefix(n, "calibrated to") || said(p, f, n) {
+			continue // said above, or by RestsOn
 		}
 		out = append(out, text.UpperFirst(n)+".")
 	}

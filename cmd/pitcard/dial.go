@@ -94,18 +94,21 @@ type dialJSON struct {
 	// Post is the dial to post: the card's final dial after the crew's
 	// rules, "" when there is no round to gather (the recommendation is
 	// then the breakout rule's alone). PostOK is false when a check failed.
-	Post         json.Number      `json:"post_dial,omitempty"`
-	PostOK       bool             `json:"post"`
-	ChecksFailed []string         `json:"checks_failed"`
-	PredictedET  float64          `json:"predicted_et"`
-	SD           float64          `json:"sd"`
-	Basis        string           `json:"basis"`
-	Step         json.Number      `json:"step"`
-	Risk         float64          `json:"breakout_risk"`
-	Recommended  json.Number      `json:"recommended_dial"`
-	Options      []dialOptionJSON `json:"options"`
-	BestForWin   *bestForWinJSON  `json:"best_for_win,omitempty"`
-	HeadStartS   *float64         `json:"head_start_s,omitempty"`
+	Post         json.Number `json:"post_dial,omitempty"`
+	PostOK       bool        `json:"post"`
+	ChecksFailed []string    `json:"checks_failed"`
+	PredictedET  float64     `json:"predicted_et"`
+	SD           float64     `json:"sd"`
+	Basis        string      `json:"basis"`
+	// Blend is what the estimate rests on (prep.BlendJSON), null when it
+	// rests on no blend (--et and --sd, or passes without weather).
+	Blend       map[string]any   `json:"blend"`
+	Step        json.Number      `json:"step"`
+	Risk        float64          `json:"breakout_risk"`
+	Recommended json.Number      `json:"recommended_dial"`
+	Options     []dialOptionJSON `json:"options"`
+	BestForWin  *bestForWinJSON  `json:"best_for_win,omitempty"`
+	HeadStartS  *float64         `json:"head_start_s,omitempty"`
 }
 
 func dialRun(cmd *cobra.Command, o *dialOptions) error {
@@ -126,6 +129,8 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 	// rule's pick labeled as before the rules, and pitcard's own safety
 	// checks on the estimate.
 	var post dialPost
+	// rests is what the estimate rests on, in one line and as JSON.
+	var rests restsOn
 	switch {
 	case o.ET != "" || o.SD != "":
 		if o.ET == "" || o.SD == "" {
@@ -161,9 +166,10 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 			est = n.Pred.Estimate()
 			est.Basis += ", in " + n.Cond.Source
 			leftOut = n.LeftOut
+			rests = restsOnOf(n.Pred, n.Fit, n.Units)
 			if ok, why := n.Pred.DialReady(); !ok {
 				// No dial table from too few passes: the estimate is a guide.
-				return noDial(o, est, why, leftOut)
+				return noDial(o, est, why, rests, leftOut)
 			}
 			post = dialPost{failed: prep.Failed(prep.SafetyChecks(prep.SafetyFor(n.Car, n.Pred, n.When, e.Settings.Units)))}
 			c, ok, err := o.card(e, askedLatest)
@@ -175,6 +181,7 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 				// as 'pitcard card', so both post one number.
 				est = c.Plan.Estimate
 				est.Basis += ", in " + c.Input.AirSource + " (the card's)"
+				rests = restsOnOf(c.Prediction, c.Fit, c.Input.Settings.Units)
 				post = dialPost{final: c.FinalDial, hasFinal: c.HasFinal, failed: c.Failed, adjustments: c.Adjustments, round: c.Title,
 					opponent: c.Input.Opponent, usRT: c.Input.UsRT, bestForWin: c.Input.PostBestForWin && len(c.Win) > 0}
 			}
@@ -208,7 +215,8 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 		return err
 	}
 	j := dialJSON{PredictedET: round(est.ET, 4), SD: round(est.SD, 4), Basis: est.Basis, Step: json.Number(plan.Step.String()),
-		Risk: plan.Risk, Recommended: json.Number(prep.DialText(plan.Recommended, plan.Step)), ChecksFailed: append([]string{}, post.failed...)}
+		Risk: plan.Risk, Recommended: json.Number(prep.DialText(plan.Recommended, plan.Step)), ChecksFailed: append([]string{}, post.failed...),
+		Blend: rests.json}
 	if post.hasFinal {
 		j.Post = json.Number(prep.DialText(post.final, plan.Step))
 	}
@@ -276,6 +284,7 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 		return errors.Join(writeCSV(o.s.Out, rows), failedChecks(post.failed), leftOut)
 	}
 	fmt.Fprintln(o.s.Out, prep.Wrap(fmt.Sprintf("Predicted ET %.3f s ± %.3f (one standard deviation): %s.", est.ET, est.SD, est.Basis), o.s.width(), "  "))
+	rests.write(o.s)
 	t := newTable(o.s, fmt.Sprintf("Dial-ins (step %s s, risk ≤ %.0f %%)", plan.Step, plan.Risk*100))
 	header := table.Row{"Dial", "Breakout chance", "Over dial (exp.)", ""}
 	if wins != nil {
@@ -416,13 +425,13 @@ func (o *dialOptions) card(e *eventFolder, latest bool) (prep.Card, bool, error)
 
 // noDial prints the estimate as a guide when there are too few passes to
 // post a dial from (engine.MinPassesForDial).
-func noDial(o *dialOptions, est bracket.Estimate, why string, leftOut error) error {
+func noDial(o *dialOptions, est bracket.Estimate, why string, rests restsOn, leftOut error) error {
 	if o.Format == "csv" {
 		return errors.Join(writeCSV(o.s.Out, [][]string{{"predicted_et", "sd", "no_dial"}, {fmt.Sprint(round(est.ET, 4)), fmt.Sprint(round(est.SD, 4)), why}}), leftOut)
 	}
 	if o.Format == "json" {
 		if err := writeJSON(o.s.Out, map[string]any{"predicted_et": round(est.ET, 4), "sd": round(est.SD, 4), "basis": est.Basis,
-			"recommended": nil, "no_dial": why}); err != nil {
+			"recommended": nil, "no_dial": why, "blend": rests.json}); err != nil {
 			return err
 		}
 		return leftOut
@@ -430,6 +439,26 @@ func noDial(o *dialOptions, est bracket.Estimate, why string, leftOut error) err
 	w := o.s.width()
 	fmt.Fprintln(o.s.Out, prep.Wrap(fmt.Sprintf("No dial yet: %s.", why), w, "  "))
 	fmt.Fprintln(o.s.Out, prep.Wrap(fmt.Sprintf("Guide: %.2f s ± %.2f (one standard deviation), %s.", est.ET, est.SD, est.Basis), w, "  "))
+	rests.write(o.s)
 	fmt.Fprintln(o.s.Out, "For a table anyway, give your own estimate: --et and --sd.")
 	return leftOut
+}
+
+// restsOn is what dial's estimate rests on: the card's one line and the
+// JSON object (prep.RestsOnLine, prep.BlendJSON); empty when it rests on
+// no blend.
+type restsOn struct {
+	line string
+	json map[string]any
+}
+
+func restsOnOf(p engine.Prediction, f engine.Fit, u weather.Units) restsOn {
+	return restsOn{line: prep.RestsOnLine(p, f, u), json: prep.BlendJSON(p, f)}
+}
+
+// write prints the line, if there is one.
+func (r restsOn) write(s *IOStreams) {
+	if r.line != "" {
+		fmt.Fprintln(s.Out, prep.Wrap("Rests on "+r.line+".", s.width(), "  "))
+	}
 }

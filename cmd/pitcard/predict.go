@@ -296,6 +296,16 @@ func printPrediction(s *IOStreams, n nextPass, format string) {
 	}
 	fmt.Fprintln(s.Out, prep.Wrap(fmt.Sprintf("Air: density altitude %s, %s, %s, prep %s (%s).", a.DensityAltitude.FormatDensityAltitude(u.Length),
 		n.Cond.Reading.Temp.Format(u.Temp, 1), track, engine.PrepName(n.Prep), n.Cond.Source), s.width(), "  "))
+	if rests := prep.RestsOn(p, n.Fit, u); len(rests) > 0 {
+		fmt.Fprintln(s.Out, "Rests on:")
+		lead := "  " // a list in markdown, an indented block in text
+		if format == "markdown" {
+			lead = "- "
+		}
+		for _, l := range rests {
+			fmt.Fprintln(s.Out, prep.Wrap(lead+l, s.width(), "    "))
+		}
+	}
 	for _, l := range prep.Explain(p, n.Fit, n.Units) {
 		fmt.Fprintln(s.Out, prep.Wrap("- "+l, s.width(), "  "))
 	}
