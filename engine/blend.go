@@ -32,12 +32,13 @@ const (
 	airMember                   // the latest clean passes carried by the air alone (AirCarried)
 	todayMember                 // today's clean passes carried by the air alone
 	similarMember               // the passes on a surface nearest today's temperature, carried by the air
+	modelCarriedMember          // the latest passes carried by the calibrated model (its run today less its run then)
 	nMembers
 )
 
 // Name is the member in words, as the card says what it leaned on.
 func (m member) Name() string {
-	return [...]string{"the pass model", "the latest passes by air", "today's passes", "passes on a like surface"}[m]
+	return [...]string{"the pass model", "the latest passes by air", "today's passes", "passes on a like surface", "the latest passes by the model"}[m]
 }
 
 // Blend settings.
@@ -62,7 +63,7 @@ const (
 )
 
 // memberPrior is each member's weight before any pass is scored.
-var memberPrior = [nMembers]float64{0.55, 0.2, 0.1, 0.15}
+var memberPrior = [nMembers]float64{0.45, 0.15, 0.1, 0.1, 0.2}
 
 // MemberShare is a member's share of the blended finish ET.
 type MemberShare struct {
@@ -108,7 +109,7 @@ type estimate struct {
 // concurrent use.
 type HeldOutCache struct {
 	mu      sync.Mutex
-	entries map[string]estimate
+	entries map[string]heldOutEntry
 	used    map[string]bool // asked for or added since it was made or read
 	changed bool
 	cores   int // calibrations at once when scoring; 0: GOMAXPROCS
@@ -127,12 +128,16 @@ const MaxHeldOutEntries = 100000
 
 // NewHeldOutCache is an empty cache.
 func NewHeldOutCache() *HeldOutCache {
-	return &HeldOutCache{entries: map[string]estimate{}, used: map[string]bool{}}
+	return &HeldOutCache{entries: map[string]heldOutEntry{}, used: map[string]bool{}}
 }
 
-func (c *HeldOutCache) get(key string) (estimate, bool) {
+// heldOutEntry is what one held-out calibration gives: the pass model's
+// prediction and the latest passes carried by it.
+type heldOutEntry struct{ model, carried estimate }
+
+func (c *HeldOutCache) get(key string) (heldOutEntry, bool) {
 	if c == nil {
-		return estimate{}, false
+		return heldOutEntry{}, false
 	}
 	c.mu.Lock()
 	defer c.mu.Unlock()
@@ -143,14 +148,14 @@ func (c *HeldOutCache) get(key string) (estimate, bool) {
 	return e, ok
 }
 
-func (c *HeldOutCache) put(key string, e estimate) {
+func (c *HeldOutCache) put(key string, e heldOutEntry) {
 	if c == nil {
 		return
 	}
 	c.mu.Lock()
 	defer c.mu.Unlock()
 	if len(c.entries) >= MaxHeldOutEntries {
-		c.entries, c.used = map[string]estimate{}, map[string]bool{}
+		c.entries, c.used = map[string]heldOutEntry{}, map[string]bool{}
 	}
 	c.entries[key], c.used[key], c.changed = e, true, true
 }
@@ -158,12 +163,12 @@ func (c *HeldOutCache) put(key string, e estimate) {
 // heldOutFile is the cache as written: a version and the entries.
 type heldOutFile struct {
 	Version int                   `json:"version"`
-	Entries map[string][3]float64 `json:"entries"` // ET, SD, 1 if the model could predict
+	Entries map[string][6]float64 `json:"entries"` // the model's ET, SD, 1 if it could predict; the same of the passes it carried
 }
 
 // heldOutVersion changes whenever the model changes what it predicts: a
 // cache of another version is not read.
-const heldOutVersion = 4
+const heldOutVersion = 5
 
 // ReadHeldOutCache reads a cache WriteTo wrote. A cache of another version,
 // or one that cannot be read, is an empty cache: it is only ever a saving.
@@ -174,7 +179,7 @@ func ReadHeldOutCache(r io.Reader) *HeldOutCache {
 		return c
 	}
 	for k, v := range f.Entries {
-		c.entries[k] = estimate{ET: v[0], SD: v[1], OK: v[2] == 1}
+		c.entries[k] = heldOutEntry{estimate{ET: v[0], SD: v[1], OK: v[2] == 1}, estimate{ET: v[3], SD: v[4], OK: v[5] == 1}}
 	}
 	return c
 }
@@ -191,14 +196,16 @@ func (c *HeldOutCache) Changed() bool {
 // the next card will ask for again; the rest are left behind).
 func (c *HeldOutCache) WriteTo(w io.Writer) (int64, error) {
 	c.mu.Lock()
-	f := heldOutFile{Version: heldOutVersion, Entries: map[string][3]float64{}}
+	f := heldOutFile{Version: heldOutVersion, Entries: map[string][6]float64{}}
+	flag := func(ok bool) float64 {
+		if ok {
+			return 1
+		}
+		return 0
+	}
 	for k := range c.used {
 		e := c.entries[k]
-		ok := 0.0
-		if e.OK {
-			ok = 1
-		}
-		f.Entries[k] = [3]float64{e.ET, e.SD, ok}
+		f.Entries[k] = [6]float64{e.model.ET, e.model.SD, flag(e.model.OK), e.carried.ET, e.carried.SD, flag(e.carried.OK)}
 	}
 	c.mu.Unlock()
 	data, err := json.Marshal(f)
@@ -241,7 +248,7 @@ func Forecast(cal CalibrateInput, next PredictInput, cache *HeldOutCache) (Predi
 	}
 	dist := cal.Car.DistanceFt
 	fin := pr.Finish()
-	now := [nMembers]estimate{physicsMember: {ET: fin.ET, SD: fin.SD, OK: true}}
+	now := [nMembers]estimate{physicsMember: {ET: fin.ET, SD: fin.SD, OK: true}, modelCarriedMember: modelCarried(fit, pr)}
 	elev := cal.Track.Elevation()
 	now[airMember], now[todayMember], now[similarMember] = carriedMembers(cal, cal.Passes, next, elev)
 
@@ -295,6 +302,28 @@ func Forecast(cal CalibrateInput, next PredictInput, cache *HeldOutCache) (Predi
 			b.Text(), text.Plural(b.Scored, "pass"), b.Scale))
 	}
 	return pr, fit, nil
+}
+
+// modelCarried is the median of the latest CarriedLatest passes the fit
+// kept, each carried to the next pass by the calibrated model: its logged
+// finish plus the model's run in the next pass's conditions less its run in
+// that pass's. Where the model's shape is right and its level drifts, this
+// follows the car sooner than the model's own shrunk correction.
+func modelCarried(fit Fit, pr Prediction) estimate {
+	fj := logbook.TimerIndex(fit.Car.DistanceFt)
+	if fj < 0 || len(fit.Samples) == 0 || len(pr.Timers) == 0 {
+		return estimate{}
+	}
+	var v []float64
+	for _, s := range fit.Samples[:min(CarriedLatest, len(fit.Samples))] {
+		if !math.IsNaN(s.Obs[fj]) {
+			v = append(v, s.Obs[fj]+pr.Model.ET[fj]-s.Sim.ET[fj])
+		}
+	}
+	if len(v) == 0 {
+		return estimate{}
+	}
+	return estimate{ET: stats.Median(v), SD: pr.Finish().SD, OK: true}
 }
 
 // carriedPass is one clean pass carried to the next pass's air by the SAE
@@ -486,15 +515,16 @@ func scoreOne(cal CalibrateInput, t target, base string, cache *HeldOutCache) sc
 	next := PredictInput{Air: t.pass.Air, Prep: prep, WeightLb: t.pass.WeightLb, Time: t.pass.Time}
 	s := scored{actual: t.actual}
 	key := heldOutKey(base, c, next)
-	if e, ok := cache.get(key); ok {
-		s.est[physicsMember] = e
-	} else {
+	e, ok := cache.get(key)
+	if !ok {
 		if fit, err := Calibrate(c); err == nil && len(fit.Samples) > 0 {
-			f := Predict(fit, next).Finish()
-			s.est[physicsMember] = estimate{ET: f.ET, SD: f.SD, OK: true}
+			pr := Predict(fit, next)
+			f := pr.Finish()
+			e = heldOutEntry{estimate{ET: f.ET, SD: f.SD, OK: true}, modelCarried(fit, pr)}
 		}
-		cache.put(key, s.est[physicsMember])
+		cache.put(key, e)
 	}
+	s.est[physicsMember], s.est[modelCarriedMember] = e.model, e.carried
 	elev := c.Track.Elevation()
 	s.est[airMember], s.est[todayMember], s.est[similarMember] = carriedMembers(c, t.before, next, elev)
 	return s
