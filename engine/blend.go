@@ -62,6 +62,12 @@ const (
 	ConformalForget = 0.97
 )
 
+// ChangePriorShare is the spread, as a share of the ET, of what a change
+// of the car no pass has shown yet is worth: a jet, a tune or a few psi of
+// boost is worth a few percent of power, a third of that in ET; a gear or a
+// converter about as much (common practice, from memory).
+const ChangePriorShare = 0.01
+
 // memberPrior is each member's weight before any pass is scored.
 var memberPrior = [nMembers]float64{0.45, 0.15, 0.1, 0.1, 0.2}
 
@@ -280,6 +286,16 @@ func Forecast(cal CalibrateInput, next PredictInput, cache *HeldOutCache) (Predi
 		b.Members = shares(now, w, memberMAE(hist))
 	}
 	pr.Blend = b
+	if next.Change != "" {
+		// a change no pass has shown yet: its size is unknown
+		extra := ChangePriorShare * blendET
+		blendSD = math.Hypot(blendSD, extra)
+		if pr.DialSD > 0 {
+			pr.DialSD = math.Hypot(pr.DialSD, extra)
+		}
+		pr.Notes = append(pr.Notes, fmt.Sprintf("the car was changed since its last pass (%q): the interval carries a change of unknown size (±%.3f s) until a pass shows it",
+			next.Change, extra))
+	}
 	shift := blendET - fin.ET
 	ratio := blendSD / fin.SD
 	for i := range pr.Timers {

@@ -161,6 +161,10 @@ type PredictInput struct {
 	Prep     float64         // prep level of the surface, 0 none .. 1 full
 	WeightLb float64         // 0: car.yaml's
 	Time     time.Time       // when the pass will run
+	// Change is the crew's words for a change made to the car since its
+	// last pass (empty: none). No pass has shown yet what it is worth, so
+	// Forecast widens the interval by ChangePriorShare of the ET.
+	Change string
 	// Quick skips the sensitivities and the parameters' share of the
 	// interval (a backcast of an earlier pass needs only the ET).
 	Quick bool

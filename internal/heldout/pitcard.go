@@ -17,7 +17,7 @@ import (
 // new pass costs one new calibration, as on the card.
 func Pitcard(in Input) (et, sd, dialSD float64, ok bool) {
 	pr, _, err := engine.Forecast(engine.CalibrateInput{Car: in.Car, Track: in.Track, Tracks: in.Tracks, Passes: in.Before, Now: in.Target.Time},
-		engine.PredictInput{Air: in.Target.Air, Prep: in.Target.Prep, WeightLb: in.Target.WeightLb, Time: in.Target.Time}, pitcardCache)
+		engine.PredictInput{Air: in.Target.Air, Prep: in.Target.Prep, WeightLb: in.Target.WeightLb, Time: in.Target.Time, Change: in.Target.Change}, pitcardCache)
 	if err != nil || len(pr.Timers) == 0 {
 		return 0, 0, 0, false
 	}
