@@ -45,6 +45,9 @@ type RoundRequest struct {
 	Round, Lane  string
 	OpponentDial string
 	Prep, Weight string
+	// Change is the crew's words for a change made to the car since its
+	// last pass (--change): the prediction widens for it.
+	Change string
 	// Unsaved is a reading that could not be written (a full disk): the
 	// round's card still uses it.
 	Unsaved  *weather.Reading
@@ -520,6 +523,10 @@ func (e *Folder) GatherRound(r RoundRequest, now time.Time) (prep.Input, []strin
 			return in, nil, err
 		}
 	}
+	change, err := logbook.ParseChange("--change", r.Change)
+	if err != nil {
+		return in, nil, err
+	}
 	opponent, usRT, err := r.Opponent.Build(e.Settings, opp, passes)
 	if err != nil {
 		return in, nil, err
@@ -535,7 +542,7 @@ func (e *Folder) GatherRound(r RoundRequest, now time.Time) (prep.Input, []strin
 			CrossCheckMax: e.Settings.CrossCheckMax,
 			DayStart:      e.Settings.DayStart, Aborts: e.Settings.AbortWords, Changes: e.Settings.ChangeWords},
 		Session: slot.Session, Lane: lane, OpponentDial: opp, Opponent: opponent, UsRT: usRT, PostBestForWin: e.Settings.PostBestForWin, Call: call, Now: now,
-		Air: air, AirSource: source, AirNow: airNow, Forecast: forecast, Elevation: elev, Prep: prepLvl, WeightLb: weight,
+		Air: air, AirSource: source, AirNow: airNow, Forecast: forecast, Elevation: elev, Prep: prepLvl, WeightLb: weight, Change: change,
 		Rules: rules, RulesFS: e.FS, Ticked: notes.Ticked, HeldOut: e.HeldOut(),
 	}
 	for _, b := range broken {

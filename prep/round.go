@@ -90,6 +90,9 @@ type Input struct {
 	Elevation weather.Length
 	Prep      float64
 	WeightLb  float64
+	// Change is the crew's words for a change made to the car since its
+	// last pass (empty: none): the prediction widens for it.
+	Change string
 
 	Rules   []*scripts.Rule
 	RulesFS fs.FS
@@ -217,7 +220,7 @@ func Gather(in Input) Card {
 	carErr := in.Car.Validate("car.yaml")
 	err := carErr
 	if err == nil {
-		c.Prediction, fit, err = engine.Forecast(cal, engine.PredictInput{Air: in.Air, Prep: in.Prep, WeightLb: in.WeightLb, Time: in.Call}, in.HeldOut)
+		c.Prediction, fit, err = engine.Forecast(cal, engine.PredictInput{Air: in.Air, Prep: in.Prep, WeightLb: in.WeightLb, Time: in.Call, Change: in.Change}, in.HeldOut)
 	}
 	switch {
 	case err != nil && len(in.Problems) > 0:

@@ -91,3 +91,37 @@ func TestGuidedRoundAsksForTheChange(t *testing.T) {
 		t.Errorf("no change: %s", row)
 	}
 }
+
+// A change made since the last pass (card --change) is not yet shown by any
+// pass: the card says so and its interval widens by a change of unknown
+// size, which moves the dial quicker; without it the demo's card is as
+// before. A change of a few percent of power is common practice (no source).
+func TestCardWithAPendingChange(t *testing.T) {
+	plain := mustRun(t, "card", "--demo", "--format", "json")
+	changed, _, code := pitcard(t, "card", "--demo", "--change", "new converter", "--format", "json")
+	if code != 0 {
+		t.Fatalf("card --change exit %d", code)
+	}
+	width := func(out string) float64 {
+		var j struct {
+			Prediction struct {
+				Timers []map[string]float64 `json:"timers"`
+			} `json:"prediction"`
+		}
+		if err := json.Unmarshal([]byte(out), &j); err != nil || len(j.Prediction.Timers) == 0 {
+			t.Fatalf("card JSON: %v", err)
+		}
+		fin := j.Prediction.Timers[len(j.Prediction.Timers)-1]
+		return fin["high"] - fin["low"]
+	}
+	if a, b := width(plain), width(changed); b < a+0.1 {
+		t.Errorf("the finish interval is %.3f s wide without the change and %.3f s with it: a pending change must widen it", a, b)
+	}
+	text := mustRun(t, "card", "--demo", "--change", "new converter")
+	if !strings.Contains(text, `changed since its last pass ("new converter")`) {
+		t.Errorf("the card does not say the car was changed:\n%s", text)
+	}
+	if _, errOut, code := pitcard(t, "card", "--demo", "--change", "a\x01b"); code != 2 || !strings.Contains(errOut, "--change") {
+		t.Errorf("a change with a control character: exit %d, %s", code, errOut)
+	}
+}

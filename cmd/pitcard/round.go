@@ -16,6 +16,7 @@ type roundFlags struct {
 	OpponentDial string
 	Prep         string
 	Weight       string
+	Change       string
 	// Unsaved is a reading that could not be written (a full disk): the
 	// round's card still uses it.
 	Unsaved *weather.Reading
@@ -25,7 +26,7 @@ type roundFlags struct {
 // request is the round as the event folder takes it.
 func (r roundFlags) request() event.RoundRequest {
 	return event.RoundRequest{Reading: r.cond.ReadingFields, At: r.cond.At, Round: r.Round, Lane: r.Lane, OpponentDial: r.OpponentDial,
-		Prep: r.Prep, Weight: r.Weight, Unsaved: r.Unsaved, Opponent: r.opp.OpponentFields}
+		Prep: r.Prep, Weight: r.Weight, Change: r.Change, Unsaved: r.Unsaved, Opponent: r.opp.OpponentFields}
 }
 
 func (r *roundFlags) bind(cmd *cobra.Command) {
@@ -36,6 +37,7 @@ func (r *roundFlags) bind(cmd *cobra.Command) {
 	fl.StringVar(&r.Lane, "lane", "", "left or right")
 	fl.StringVar(&r.OpponentDial, "opponent-dial", "", "the other lane's dial-in, s, if known")
 	fl.StringVar(&r.Prep, "prep", "", "track prep today: none, light, full or 0..1 (default: track.yaml's)")
+	fl.StringVar(&r.Change, "change", "", "what was changed on the car since its last pass, in your words (widens the interval until a pass shows what it is worth)")
 	fl.StringVar(&r.Weight, "weight", "", "car and driver as it will run: 3300lb or 1500kg, a bare number in the crew's units (default: car.yaml's)")
 	bindSettingFlags(cmd)
 	r.opp.bind(cmd)
