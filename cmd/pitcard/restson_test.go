@@ -50,7 +50,7 @@ func (b *blendJSON) check(t *testing.T, what string) {
 			t.Errorf("%s: member %q share %v outside 0..1", what, m.Name, m.Share)
 		}
 	}
-	if len(b.Members) != 3 || math.Abs(sum-1) > 0.002 || !names["the pass model"] {
+	if len(b.Members) != 5 || math.Abs(sum-1) > 0.002 || !names["the pass model"] {
 		t.Errorf("%s: members %+v (shares sum to %.4f, want 1)", what, b.Members, sum)
 	}
 	if !(b.Scale > 0) {
@@ -93,7 +93,7 @@ func TestPredictRestsOn(t *testing.T) {
 	}
 	text := oneLine(mustRun(t, "predict", "--demo"))
 	block := text[strings.Index(text, "Rests on:"):]
-	for _, w := range []string{"Rests on:", "the pass model 9", "today's passes", "mean miss", "interval ×", "from the car's own misses on 30 passes"} {
+	for _, w := range []string{"Rests on:", "the pass model 7", "the latest passes by the model", "mean miss", "interval ×", "from the car's own misses on 30 passes"} {
 		if !strings.Contains(block, w) {
 			t.Errorf("predict's text lacks %q:\n%s", w, text)
 		}
@@ -146,7 +146,7 @@ func TestDialRestsOn(t *testing.T) {
 		t.Error("dial's basis words are gone")
 	}
 	text := oneLine(mustRun(t, "dial", "--demo"))
-	if !strings.Contains(text, "Rests on the pass model 9") || !strings.Contains(text, "from the car's own misses on 30 passes") {
+	if !strings.Contains(text, "Rests on the pass model 7") || !strings.Contains(text, "from the car's own misses on 30 passes") {
 		t.Errorf("dial's text:\n%s", text)
 	}
 	// An estimate given by hand rests on no blend.
