@@ -28,11 +28,11 @@ import (
 type member int
 
 const (
-	physicsMember member = iota // the calibrated pass model (Calibrate, Predict)
-	airMember                   // the latest clean passes carried by the air alone (AirCarried)
-	todayMember                 // today's clean passes carried by the air alone
-	similarMember               // the passes on a surface nearest today's temperature, carried by the air
-	modelCarriedMember          // the latest passes carried by the calibrated model (its run today less its run then)
+	physicsMember      member = iota // the calibrated pass model (Calibrate, Predict)
+	airMember                        // the latest clean passes carried by the air alone (AirCarried)
+	todayMember                      // today's clean passes carried by the air alone
+	similarMember                    // the passes on a surface nearest today's temperature, carried by the air
+	modelCarriedMember               // the latest passes carried by the calibrated model (its run today less its run then)
 	nMembers
 )
 
@@ -670,7 +670,6 @@ func weightedQuantile(vs []weighted, q float64) float64 {
 	}
 	return vs[len(vs)-1].v
 }
-
 
 // BlendLearningRate is η of the weights, per typical miss; MissLossCap
 // caps one pass's loss (in typical misses), so one odd pass (a pedal, a

@@ -104,7 +104,7 @@ type Prediction struct {
 	// Forecast calibrated the quick tail apart from the interval (0: the
 	// finish's SD).
 	DialSD float64
-	Notes []string
+	Notes  []string
 }
 
 // Finish is the prediction at the finish line.
