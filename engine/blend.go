@@ -249,7 +249,7 @@ func Forecast(cal CalibrateInput, next PredictInput, cache *HeldOutCache) (Predi
 		return Prediction{}, fit, err
 	}
 	pr := Predict(fit, next)
-	if pr.PhysicsOnly || pr.Raw || len(pr.Timers) == 0 {
+	if pr.PhysicsOnly || pr.Raw || len(pr.Timers) == 0 || cal.Ablation.NoBlend {
 		return pr, fit, nil
 	}
 	dist := cal.Car.DistanceFt
@@ -276,7 +276,19 @@ func Forecast(cal CalibrateInput, next PredictInput, cache *HeldOutCache) (Predi
 		b.Members = shares(now, w, none)
 	} else {
 		hist := scoreMembers(cal, fit, cache)
-		calib := online(hist, memberPrior)
+		prior := memberPrior
+		for m := range prior {
+			if cal.Ablation.NoMember == member(m).Name() {
+				prior[m] = 0
+			}
+		}
+		calib := online(hist, prior)
+		if cal.Ablation.NoConformal {
+			calib.Scale, calib.DialScale = 1, 1
+		}
+		if cal.Ablation.NoDialScale {
+			calib.DialScale = calib.Scale
+		}
 		w := calib.weights
 		blendET, blendSD = mix(now, w)
 		b.Scale = calib.Scale
@@ -371,7 +383,9 @@ const (
 // carryAll carries the clean passes before next (since the latest change of
 // the car) to next's air, most recent first, leaving out gross outliers.
 func carryAll(cal CalibrateInput, passes []logbook.Pass, next PredictInput, elev weather.Length) []carriedPass {
-	passes = sinceChange(passes, cal.Changes)
+	if !cal.Ablation.NoChangeCarry {
+		passes = sinceChange(passes, cal.Changes)
+	}
 	now := next.Air.Derive(elev)
 	if !(now.CFJ1349 > 0) {
 		return nil

@@ -188,7 +188,7 @@ func Calibrate(in CalibrateInput) (Fit, error) {
 		f.Samples[i] = f.sample(p, in, i)
 	}
 	f.fit()
-	if f.carryAcrossChange(in.Changes) {
+	if !in.Ablation.NoChangeCarry && f.carryAcrossChange(in.Changes) {
 		f.fit()
 	}
 	if f.dropOutliers() {
@@ -204,7 +204,9 @@ func Calibrate(in CalibrateInput) (Fit, error) {
 		f.Notes = append(f.Notes, fmt.Sprintf("the fit stopped at its limit of %d steps, still gaining %.2f %% a step",
 			lmMaxIterations, 100*f.lastGain))
 	}
-	f.Params.SeenTrackF = seenTrack(f.Samples)
+	if !in.Ablation.NoGripEdge {
+		f.Params.SeenTrackF = seenTrack(f.Samples)
+	}
 	sort.SliceStable(f.Outliers, func(i, j int) bool { return f.Outliers[i].Pass.Time.After(f.Outliers[j].Pass.Time) })
 	return f, nil
 }

@@ -15,8 +15,19 @@ import (
 // rewrite swaps this function alone. Its held-out predictions are kept in
 // one cache for every world (keys are digests of their inputs), so each
 // new pass costs one new calibration, as on the card.
-func Pitcard(in Input) (et, sd, dialSD float64, ok bool) {
-	pr, _, err := engine.Forecast(engine.CalibrateInput{Car: in.Car, Track: in.Track, Tracks: in.Tracks, Passes: in.Before, Now: in.Target.Time},
+func Pitcard(in Input) (et, sd, dialSD float64, ok bool) { return PitcardWithout("")(in) }
+
+// PitcardWithout is Pitcard with one mechanism switched off (a name of
+// engine.Mechanisms; "" none), for the ablation table.
+func PitcardWithout(mechanism string) DialPredictor {
+	ab := engine.AblationNamed(mechanism)
+	return func(in Input) (et, sd, dialSD float64, ok bool) {
+		return forecast(in, ab)
+	}
+}
+
+func forecast(in Input, ab engine.Ablation) (et, sd, dialSD float64, ok bool) {
+	pr, _, err := engine.Forecast(engine.CalibrateInput{Car: in.Car, Track: in.Track, Tracks: in.Tracks, Passes: in.Before, Now: in.Target.Time, Ablation: ab},
 		engine.PredictInput{Air: in.Target.Air, Prep: in.Target.Prep, WeightLb: in.Target.WeightLb, Time: in.Target.Time, Change: in.Target.Change}, pitcardCache)
 	if err != nil || len(pr.Timers) == 0 {
 		return 0, 0, 0, false

@@ -22,6 +22,7 @@ func main() {
 	held := flag.Bool("heldout", false, "score the held-out draws, not the tuning draws")
 	fixed := flag.Bool("fixed", false, "score the six fixed worlds (truthsim.Worlds)")
 	model := flag.String("model", "pitcard", "the predictor: pitcard (the card's blend) or physics (the calibrated model alone)")
+	without := flag.String("without", "", "pitcard with one mechanism switched off (a name of engine.Mechanisms), for the ablation table")
 	flag.Parse()
 	worlds := heldout.Draws(*n, *held)
 	if *fixed {
@@ -31,7 +32,7 @@ func main() {
 		fmt.Fprintln(os.Stderr, "heldout: nothing to score: give -n N (1..) or -fixed")
 		os.Exit(2)
 	}
-	r := heldout.ScoreDial(worlds, heldout.Pitcard)
+	r := heldout.ScoreDial(worlds, heldout.PitcardWithout(*without))
 	if *model == "physics" {
 		r = heldout.Score(worlds, heldout.PhysicsOnly)
 	}
