@@ -45,7 +45,7 @@ func (m member) Name() string {
 const (
 	// ScoredPasses is how many of the latest clean passes each member is
 	// scored on (each predicted from the passes before it).
-	ScoredPasses = 30
+	ScoredPasses = 20
 	// BlendForget is the discount per scored pass of a member's past
 	// losses: a loss ten passes back counts about a third, so the weights
 	// follow a car that changes.
@@ -174,7 +174,7 @@ type heldOutFile struct {
 
 // heldOutVersion changes whenever the model changes what it predicts: a
 // cache of another version is not read.
-const heldOutVersion = 5
+const heldOutVersion = 7
 
 // ReadHeldOutCache reads a cache WriteTo wrote. A cache of another version,
 // or one that cannot be read, is an empty cache: it is only ever a saving.

@@ -42,8 +42,8 @@ const (
 
 // TrackWidthRangeF bounds the fitted well's width, °F: narrow enough for a
 // tire with a real best, wide enough that no fit makes grip fall by more
-// than GripLossMax·√2·e^(−½)/55 ≈ 0.23 % per °F.
-var TrackWidthRangeF = [2]float64{55, 150}
+// than GripLossMax·√2·e^(−½)/60 ≈ 0.21 % per °F.
+var TrackWidthRangeF = [2]float64{60, 150}
 
 // TireBestF is the surface temperature a tire kind grips best at, °F (the
 // prior's center; common practice, from memory).

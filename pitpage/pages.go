@@ -114,7 +114,11 @@ func (s *Server) cardPage(q *request) {
 	p := q.newPage("Card", "card")
 	p.Rounds, p.Refresh, p.Stamp = q.rounds(), true, stamp(q.folder)
 	p.Saved = savedWords[q.r.URL.Query().Get("saved")]
-	c, warnings, err := s.gather(q, round)
+	g := s.gathered(q, round)
+	c, warnings, err := g.card, g.warnings, g.err
+	if g.stamp != "" {
+		p.Stamp = g.stamp // a card made before the latest change reloads when the new one is ready
+	}
 	if err != nil {
 		p.Warnings = warnings
 		p.Round = round

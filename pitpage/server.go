@@ -26,6 +26,7 @@ import (
 	"net/url"
 	"os"
 	"path"
+	"slices"
 	"sort"
 	"sync"
 	"time"
@@ -84,8 +85,12 @@ type Server struct {
 	cards memo[gathered]
 	// heldOut keeps the pass model's held-out predictions between cards.
 	heldOut *engine.HeldOutCache
-	making  chan struct{} // one card made at a time (gather)
-	slips   slipLog
+	making  chan struct{} // one card made at a time (gathered)
+	// latest is the latest card made of each round, for a phone asking
+	// while another is being made.
+	latestMu sync.Mutex
+	latest   map[string]gathered
+	slips    slipLog
 }
 
 // New makes the pit page's handler.
@@ -504,33 +509,72 @@ func (s *Server) changes(q *request) {
 }
 
 // gather makes the card of the round asked for (the schedule's next when
-// none is), as the command line's card does. Cards are kept while nothing
-// they are made from changes: the same folder files (the stamp), the same
-// round and the same minute of the clock; phones asking at once for a card
-// being made wait for it instead of making it again.
+// none is), as the command line's card does.
 func (s *Server) gather(q *request, round string) (prep.Card, []string, error) {
+	c := s.gathered(q, round)
+	return c.card, c.warnings, c.err
+}
+
+// gathered is gather's card with the folder stamp it was made from. Cards
+// are kept while nothing they are made from changes: the same folder files
+// (the stamp), the same round and the same minute of the clock. One card is
+// made at a time, its held-out scoring on one core, so the slips and
+// readings being posted keep a core to be written on; while one is being
+// made, a phone asking for another is answered at once with the latest card
+// of its round, marked as such and carrying the stamp it was made from, so
+// the page reloads when the new card is ready (a phone waiting for a card
+// would hold one of the server's few connections).
+func (s *Server) gathered(q *request, round string) gathered {
+	now := stamp(q.folder)
 	minute := q.now.Truncate(time.Minute).Format(time.RFC3339)
-	c := s.cards.get(stamp(q.folder)+"|"+round+"|"+minute, func() gathered {
+	key := now + "|" + round + "|" + minute
+	if c, ok := s.cards.peek(key); ok {
+		return c
+	}
+	select {
+	case s.making <- struct{}{}:
+	default:
+		if last, ok := s.latestCard(round); ok {
+			last.warnings = append(slices.Clone(last.warnings), "the logbook or the weather changed since this card was made: a new card is being made and the page reloads with it")
+			return last
+		}
+		s.making <- struct{}{}
+	}
+	defer func() { <-s.making }()
+	c := s.cards.get(key, func() gathered {
 		in, warnings, err := q.folder.GatherRound(event.RoundRequest{Round: round}, q.now)
 		if !event.Usable(err) {
-			return gathered{warnings: warnings, err: err}
+			return gathered{warnings: warnings, err: err, stamp: now}
 		}
 		in.HeldOut = s.heldOut
-		// One card is made at a time, on one core for its held-out scoring:
-		// a logbook changing under many phones makes every card start cold,
-		// and the slips and readings being posted must keep a core to be
-		// written on.
-		s.making <- struct{}{}
-		defer func() { <-s.making }()
-		return gathered{card: prep.Gather(in), warnings: warnings}
+		return gathered{card: prep.Gather(in), warnings: warnings, stamp: now}
 	})
-	return c.card, c.warnings, c.err
+	s.keepLatest(round, c)
+	return c
+}
+
+// latestCard is the latest card made of round.
+func (s *Server) latestCard(round string) (gathered, bool) {
+	s.latestMu.Lock()
+	defer s.latestMu.Unlock()
+	c, ok := s.latest[round]
+	return c, ok
+}
+
+func (s *Server) keepLatest(round string, c gathered) {
+	s.latestMu.Lock()
+	defer s.latestMu.Unlock()
+	if s.latest == nil || len(s.latest) >= maxMemo {
+		s.latest = map[string]gathered{}
+	}
+	s.latest[round] = c
 }
 
 type gathered struct {
 	card     prep.Card
 	warnings []string
 	err      error
+	stamp    string // the folder's when the card was made
 }
 
 // memo keeps values by key, made once: a caller asking for a value being
@@ -549,6 +593,23 @@ type memoEntry[V any] struct {
 }
 
 const maxMemo = 8
+
+// peek is the value kept for key, if it is made.
+func (c *memo[V]) peek(key string) (V, bool) {
+	c.mu.Lock()
+	e, ok := c.m[key]
+	c.mu.Unlock()
+	var zero V
+	if !ok {
+		return zero, false
+	}
+	select {
+	case <-e.ready:
+		return e.v, true
+	default:
+		return zero, false
+	}
+}
 
 func (c *memo[V]) get(key string, build func() V) V {
 	c.mu.Lock()
