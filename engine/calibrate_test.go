@@ -486,7 +486,9 @@ func TestOutliersAreLeftOutOfTheFit(t *testing.T) {
 // notes say so when it did not (common practice, no source: a bounded
 // iterative fit reports hitting its bound).
 func TestFitReportsConvergence(t *testing.T) {
-	truth := Params{PowerScale: 0.95, TractionScale: 1.05, PressureExp: 0.95, TempExp: 0.5, TrackOptF: 105, TrackWidthF: 40}
+	// a grip well inside the range the fit may take (TrackWidthRangeF):
+	// a truth outside it pins the fit at a bound, where no step gains
+	truth := Params{PowerScale: 0.95, TractionScale: 1.05, PressureExp: 0.95, TempExp: 0.5, TrackOptF: 105, TrackWidthF: 70}
 	g := gen{rng: rand.New(rand.NewPCG(3, 4)), truth: truth, car: testCar}
 	passes := g.season(6, 10)
 	for _, tc := range []struct {

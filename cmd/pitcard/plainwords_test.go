@@ -19,7 +19,7 @@ func TestPlainWords(t *testing.T) {
 		want, lack []string
 	}{
 		{"expected time over the dial", []string{"card", "--demo"}, []string{"Over dial (exp.)"}, []string{"Given away"}},
-		{"a left-out pass", []string{"card", "--demo"}, []string{"ran 0.368 s slower than the model expects"}, []string{"scatter within"}},
+		{"a left-out pass", []string{"card", "--demo"}, []string{"s slower than the model expects in its air"}, []string{"scatter within"}},
 		{"the wind along the strip", []string{"card", "--demo"}, []string{"mph tailwind)"}, []string{"mph tail)"}},
 		{"whole passes", []string{"predict", "--demo", "--latest", "--format", "json"}, []string{"leans mostly on the latest"}, []string{"passes' worth"}},
 		{"passes left out of the stats", []string{"log", "stats", "--demo"}, []string{"(1 out)", `"7 (1 out)"`}, []string{"ok)"}},

@@ -2,7 +2,9 @@ package main
 
 import (
 	"encoding/json"
+	"fmt"
 	"math"
+	"pitcard/engine"
 	"strings"
 	"testing"
 )
@@ -77,7 +79,7 @@ func TestPredictRestsOn(t *testing.T) {
 	}
 	b := j.Prediction.Blend
 	b.check(t, "predict")
-	if b.Scored != 30 || b.ColdStart || b.Change != nil {
+	if b.Scored != engine.ScoredPasses || b.ColdStart || b.Change != nil {
 		t.Errorf("the demo's blend: scored %d, cold start %v, change %+v", b.Scored, b.ColdStart, b.Change)
 	}
 	for _, m := range b.Members {
@@ -93,7 +95,7 @@ func TestPredictRestsOn(t *testing.T) {
 	}
 	text := oneLine(mustRun(t, "predict", "--demo"))
 	block := text[strings.Index(text, "Rests on:"):]
-	for _, w := range []string{"Rests on:", "the pass model 7", "the latest passes by the model", "mean miss", "interval ×", "from the car's own misses on 30 passes"} {
+	for _, w := range []string{"Rests on:", "the pass model ", "the latest passes by the model", "mean miss", "interval ×", fmt.Sprintf("from the car's own misses on %d passes", engine.ScoredPasses)} {
 		if !strings.Contains(block, w) {
 			t.Errorf("predict's text lacks %q:\n%s", w, text)
 		}
@@ -146,7 +148,7 @@ func TestDialRestsOn(t *testing.T) {
 		t.Error("dial's basis words are gone")
 	}
 	text := oneLine(mustRun(t, "dial", "--demo"))
-	if !strings.Contains(text, "Rests on the pass model 7") || !strings.Contains(text, "from the car's own misses on 30 passes") {
+	if !strings.Contains(text, "Rests on the pass model ") || !strings.Contains(text, fmt.Sprintf("from the car's own misses on %d passes", engine.ScoredPasses)) {
 		t.Errorf("dial's text:\n%s", text)
 	}
 	// An estimate given by hand rests on no blend.

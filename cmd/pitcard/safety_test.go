@@ -16,7 +16,7 @@ import (
 // 118 mph on the 1/4 mile; each limit below is set just past that.
 func TestAFailedLimitStopsTheDial(t *testing.T) {
 	cases := []struct{ name, from, to, words string }{
-		{"ET", "limit_et: 10.65", "limit_et: 11.50", "ET limit: could run 11.390 s"},
+		{"ET", "limit_et: 10.65", "limit_et: 11.50", "ET limit: could run 11."},
 		{"MPH", "limit_mph: 126", "limit_mph: 117", "MPH limit: could trap"},
 		{"parachute", "chute_needed_mph: 141", "chute_needed_mph: 115", "Parachute: could trap"},
 		{"belts", `belts_expire: "2027-03"`, `belts_expire: "2026-05"`, "date tag ran out in 2026-05"},
