@@ -9,7 +9,7 @@ import (
 	"pitcard/internal/stats"
 )
 
-// The exponentially weighted average forecaster (Cesa-Bianchi and Lugosi
+// The exponentially weighted average forecaster (source: Cesa-Bianchi and Lugosi
 // 2006, ch. 2): a member that misses less on the scored passes takes the
 // weight, one that cannot predict a pass (asleep) neither gains nor loses
 // there, and one odd pass cannot hand the blend to another member
@@ -61,7 +61,7 @@ func TestOnlineWeights(t *testing.T) {
 	})
 }
 
-// Split conformal calibration with normalized scores (Vovk, Gammerman and
+// Split conformal calibration with normalized scores (source: Vovk, Gammerman and
 // Shafer 2005): misses twice the spread the members claim widen the
 // interval about twice; with no history the scale is 1.
 func TestConformalScale(t *testing.T) {
