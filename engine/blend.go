@@ -394,7 +394,7 @@ func carryAll(cal CalibrateInput, passes []logbook.Pass, next PredictInput, elev
 	for i := len(passes) - 1; i >= 0 && len(out) < SimilarWindow; i-- {
 		p := passes[i]
 		et, ok := p.ETAt(cal.Car.DistanceFt)
-		if !ok || !p.HasAir || p.Time.After(next.Time) || cal.Aborts.Aborted(p.Notes) {
+		if !ok || !p.HasAir || p.Time.After(cal.Now) || cal.Aborts.Aborted(p.Notes) {
 			continue
 		}
 		then := p.Air.Derive(trackOf(cal, p.Track).Elevation())

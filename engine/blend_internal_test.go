@@ -3,8 +3,10 @@ package engine
 import (
 	"bytes"
 	"math"
+	"math/rand/v2"
 	"strings"
 	"testing"
+	"time"
 
 	"pitcard/internal/stats"
 )
@@ -108,6 +110,27 @@ func TestHeldOutCacheRoundTrip(t *testing.T) {
 	for _, broken := range []string{"", "{", `{"version": 1, "entries": {"a": [1, 2, 1]}}`, "not json"} {
 		if c := ReadHeldOutCache(strings.NewReader(broken)); len(c.entries) != 0 {
 			t.Errorf("%q read as %d entries", broken, len(c.entries))
+		}
+	}
+}
+
+// With one or two clean passes nothing is fitted: the prediction is those
+// passes carried by the SAE J1349 factor alone (the cold start), even when
+// the round's call time is earlier than the latest pass (a schedule left at
+// the morning's time). Source: the cube-root carry of AirCarried, SAE J1349.
+func TestColdStartCarriesThePasses(t *testing.T) {
+	g := gen{rng: rand.New(rand.NewPCG(5, 6)), truth: Params{PowerScale: 0.95, TractionScale: 1.05, PressureExp: 0.95, TempExp: 0.5, TrackOptF: 105, TrackWidthF: 70}, car: testCar}
+	passes := g.season(1, 4)[:1] // one pass (a day of one divides by zero in gen)
+	p := passes[0]
+	for _, call := range []time.Duration{time.Hour, -time.Hour} {
+		pr, _, err := Forecast(CalibrateInput{Car: testCar, Track: testTrack, Passes: passes, Now: p.Time},
+			PredictInput{Air: p.Air, Prep: 1, Time: p.Time.Add(call)}, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		et, _ := p.ETAt(testCar.DistanceFt)
+		if !pr.Blend.ColdStart || pr.Blend.Members[airMember].Share != 1 || math.Abs(pr.Finish().ET-et) > 1e-6 {
+			t.Errorf("call %v after the pass: cold start %v, shares %+v, ET %.4f (the pass ran %.4f in this very air)", call, pr.Blend.ColdStart, pr.Blend.Members, pr.Finish().ET, et)
 		}
 	}
 }
