@@ -101,7 +101,7 @@ func New(cfg Config) (*Server, error) {
 	if cfg.Tokens.Crew == "" || cfg.Tokens.View == "" || cfg.Tokens.Secret == "" {
 		return nil, errors.New("pitpage: the crew, view and secret tokens are required")
 	}
-	s := &Server{cfg: cfg, mux: http.NewServeMux(), pages: map[string]*template.Template{}, heldOut: engine.NewHeldOutCache().OnCores(1), making: make(chan struct{}, 1)}
+	s := &Server{cfg: cfg, mux: http.NewServeMux(), pages: map[string]*template.Template{}, heldOut: sharedHeldOut, making: make(chan struct{}, 1)}
 	funcs := template.FuncMap{}
 	base, err := template.New("").Funcs(funcs).ParseFS(assets, "assets/layout.html")
 	if err != nil {
@@ -576,6 +576,13 @@ type gathered struct {
 	err      error
 	stamp    string // the folder's when the card was made
 }
+
+// sharedHeldOut is the held-out predictions every Server of the process
+// keeps: its keys are digests of everything a prediction is made from, so
+// one folder's entries are right for another's with the same passes (a
+// copy of the event), and a server restarted in the process starts warm.
+// Bounded by engine.MaxHeldOutEntries; scored on one core (see gathered).
+var sharedHeldOut = engine.NewHeldOutCache().OnCores(1)
 
 // memo keeps values by key, made once: a caller asking for a value being
 // made waits for it. It holds at most maxMemo values, then starts afresh:
