@@ -139,7 +139,15 @@ func (g *guard) admit(c *guardConn) (bool, error) {
 		}
 	}
 	for len(g.conns) >= g.lim.MaxConns {
-		if v := g.idlest(func(*guardConn) bool { return true }); v != nil {
+		// A newcomer is a stranger until a token is seen: a phone's idle
+		// connection is given up only when no stranger holds a slot at all;
+		// while strangers are busy, wait for one of them to finish (their
+		// read limits bound the wait), so the phone keeps its keep-alive.
+		v := g.idlest(func(o *guardConn) bool { return !o.trusted })
+		if v == nil && !g.anyStranger() {
+			v = g.idlest(func(*guardConn) bool { return true })
+		}
+		if v != nil {
 			closing = append(closing, g.drop(v))
 			continue
 		}
@@ -155,6 +163,17 @@ func (g *guard) admit(c *guardConn) (bool, error) {
 	g.perAddr[c.addr]++
 	g.mu.Unlock()
 	return true, nil
+}
+
+// anyStranger reports whether a connection no token has been seen on holds
+// a slot. Called with mu held.
+func (g *guard) anyStranger() bool {
+	for o := range g.conns {
+		if !o.trusted {
+			return true
+		}
+	}
+	return false
 }
 
 // idlest is the idle connection among those that match to close first: a
