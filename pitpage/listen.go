@@ -73,7 +73,7 @@ type guard struct {
 	mu        sync.Mutex
 	conns     map[*guardConn]struct{}
 	perAddr   map[string]int
-	free      chan struct{} // a connection closed: a waiting Accept looks again
+	free      chan struct{} // a connection closed or went idle: a waiting Accept looks again
 	done      chan struct{}
 	closeOnce sync.Once
 }
@@ -109,6 +109,10 @@ func (g *guard) Accept() (net.Conn, error) {
 		c.Close() // this address holds its share and none of it is idle
 	}
 }
+
+// lookAgain is how long a newcomer waiting for a slot sleeps before it looks
+// at the slots again even if no wake came.
+const lookAgain = 250 * time.Millisecond
 
 // admit makes room for c, closing idle connections as the limits say, and
 // counts it; it waits while every slot is busy with a request.
@@ -152,8 +156,11 @@ func (g *guard) admit(c *guardConn) (bool, error) {
 			continue
 		}
 		g.mu.Unlock()
+		// Woken when a connection closes or goes idle; the timer is a
+		// backstop so that a missed wake costs a look, never a lockout.
 		select {
 		case <-g.free:
+		case <-time.After(lookAgain):
 		case <-g.done:
 			return false, net.ErrClosed
 		}
@@ -199,12 +206,17 @@ func (g *guard) drop(c *guardConn) *guardConn {
 		if g.perAddr[c.addr]--; g.perAddr[c.addr] <= 0 {
 			delete(g.perAddr, c.addr)
 		}
-		select {
-		case g.free <- struct{}{}:
-		default:
-		}
+		g.wake()
 	}
 	return c
+}
+
+// wake tells a waiting Accept to look at the slots again.
+func (g *guard) wake() {
+	select {
+	case g.free <- struct{}{}:
+	default:
+	}
 }
 
 // state follows the server's view of each connection: idle between
@@ -219,6 +231,7 @@ func (g *guard) state(nc net.Conn, st http.ConnState) {
 	switch st {
 	case http.StateIdle:
 		c.idleSince = time.Now()
+		g.wake() // an idle connection can now be given up for a waiting newcomer
 	case http.StateNew, http.StateActive:
 		c.idleSince = time.Time{}
 	case http.StateClosed, http.StateHijacked:
