@@ -118,13 +118,24 @@ type HeldOutCache struct {
 	entries map[string]heldOutEntry
 	used    map[string]bool // asked for or added since it was made or read
 	changed bool
-	cores   int // calibrations at once when scoring; 0: GOMAXPROCS
+	cores   int           // calibrations at once when scoring; 0: GOMAXPROCS
+	parent  *HeldOutCache // looked in on a miss and given every put (Behind); nil: none
 }
 
 // OnCores limits the calibrations a forecast with this cache runs at once
 // (a server leaves cores to the requests that write). It returns c.
 func (c *HeldOutCache) OnCores(n int) *HeldOutCache {
 	c.cores = n
+	return c
+}
+
+// Behind puts c in front of parent: a key c lacks is looked up in parent
+// (and kept in c, so c's file has it), and what c is given, parent is given
+// too. The keys are digests of everything a prediction is made from, so a
+// process-wide parent shared by every folder's cache can never answer with
+// another logbook's prediction. It returns c.
+func (c *HeldOutCache) Behind(parent *HeldOutCache) *HeldOutCache {
+	c.parent = parent
 	return c
 }
 
@@ -146,10 +157,17 @@ func (c *HeldOutCache) get(key string) (heldOutEntry, bool) {
 		return heldOutEntry{}, false
 	}
 	c.mu.Lock()
-	defer c.mu.Unlock()
 	e, ok := c.entries[key]
 	if ok {
 		c.used[key] = true
+	}
+	c.mu.Unlock()
+	if ok || c.parent == nil {
+		return e, ok
+	}
+	// one cache locked at a time: the parent is shared by many
+	if e, ok = c.parent.get(key); ok {
+		c.keep(key, e)
 	}
 	return e, ok
 }
@@ -158,6 +176,14 @@ func (c *HeldOutCache) put(key string, e heldOutEntry) {
 	if c == nil {
 		return
 	}
+	c.keep(key, e)
+	if c.parent != nil {
+		c.parent.put(key, e)
+	}
+}
+
+// keep adds an entry to c alone, bounded by MaxHeldOutEntries.
+func (c *HeldOutCache) keep(key string, e heldOutEntry) {
 	c.mu.Lock()
 	defer c.mu.Unlock()
 	if len(c.entries) >= MaxHeldOutEntries {

@@ -38,23 +38,34 @@ func (e *Folder) cacheDir() string {
 	return filepath.Join(e.Dir, CacheDir)
 }
 
+// processHeldOut is the held-out predictions every folder of the process
+// shares behind its own file: its keys are digests of everything a
+// prediction is made from, so one folder's entries are right for another's
+// with the same passes (a copy of the event, the same folder opened again),
+// and a long-lived process (the pit page's) or a second card of the same
+// logbook starts warm. Bounded by engine.MaxHeldOutEntries.
+var processHeldOut = engine.NewHeldOutCache()
+
+// ProcessHeldOut is the process-wide cache behind every folder's HeldOut,
+// for a front end that keeps its own cache in memory to put in front of.
+func ProcessHeldOut() *engine.HeldOutCache { return processHeldOut }
+
 // HeldOut is the folder's cache of the model's held-out predictions, read
 // once from its cache directory; an empty one where the file is missing or
-// unreadable (a cache is only ever a saving).
+// unreadable (a cache is only ever a saving). A prediction it lacks is
+// looked up in the process's (ProcessHeldOut), and kept in the folder's.
 func (e *Folder) HeldOut() *engine.HeldOutCache {
 	if e.heldOut != nil {
 		return e.heldOut
 	}
 	e.heldOut = engine.NewHeldOutCache()
-	dir := e.cacheDir()
-	if dir == "" {
-		return e.heldOut
+	if dir := e.cacheDir(); dir != "" {
+		if f, err := os.Open(filepath.Join(dir, heldOutFile)); err == nil {
+			e.heldOut = engine.ReadHeldOutCache(f)
+			_ = f.Close()
+		}
 	}
-	if f, err := os.Open(filepath.Join(dir, heldOutFile)); err == nil {
-		e.heldOut = engine.ReadHeldOutCache(f)
-		_ = f.Close()
-	}
-	return e.heldOut
+	return e.heldOut.Behind(processHeldOut)
 }
 
 // KeepHeldOut writes the held-out predictions back to CacheDir when a new

@@ -582,7 +582,9 @@ type gathered struct {
 // one folder's entries are right for another's with the same passes (a
 // copy of the event), and a server restarted in the process starts warm.
 // Bounded by engine.MaxHeldOutEntries; scored on one core (see gathered).
-var sharedHeldOut = engine.NewHeldOutCache().OnCores(1)
+// It sits in front of the process-wide cache every event folder's shares,
+// so a card the command line made in this process is warm here too.
+var sharedHeldOut = engine.NewHeldOutCache().OnCores(1).Behind(event.ProcessHeldOut())
 
 // memo keeps values by key, made once: a caller asking for a value being
 // made waits for it. It holds at most maxMemo values, then starts afresh:
