@@ -53,9 +53,13 @@ func AblationNamed(name string) Ablation {
 
 // Mechanisms are the names AblationNamed knows: the second generation's
 // seven (the pass model's fit) and the third's (the blend around it).
-var Mechanisms = func() []string {
-	names := []string{"day structure", "split air law", "grip band", "day offsets out of the physics fit", "weight fill", "today's recency", "60-pass window",
-		"blend", "conformal scale", "dial's own tail", "change carry", "grip edge"}
+var Mechanisms = append([]string{"day structure", "split air law", "grip band", "day offsets out of the physics fit", "weight fill", "today's recency", "60-pass window"},
+	BlendMechanisms...)
+
+// BlendMechanisms are the third generation's mechanisms (Forecast and what
+// it added to the fit), each member of the blend one of them.
+var BlendMechanisms = func() []string {
+	names := []string{"blend", "conformal scale", "dial's own tail", "change carry", "grip edge"}
 	for m := range nMembers {
 		names = append(names, "member: "+member(m).Name())
 	}

@@ -33,13 +33,13 @@ func TestOnlineWeights(t *testing.T) {
 		return h
 	}
 	t.Run("the better member takes the weight", func(t *testing.T) {
-		w := online(hist(30, [nMembers]float64{0.05, 0.01, 0.05, 0.05, 0.05}, -1), memberPrior).weights
+		w := online(hist(30, [nMembers]float64{0.05, 0.01, 0.05, 0.05, 0.05, 0.05}, -1), memberPrior).weights
 		if w[airMember] < 0.9 {
 			t.Errorf("weights %v: the member missing by 0.01 s against 0.05 s should hold over 90 %%", w)
 		}
 	})
 	t.Run("equal members keep the prior", func(t *testing.T) {
-		w := online(hist(30, [nMembers]float64{0.02, 0.02, 0.02, 0.02, 0.02}, -1), memberPrior).weights
+		w := online(hist(30, [nMembers]float64{0.02, 0.02, 0.02, 0.02, 0.02, 0.02}, -1), memberPrior).weights
 		for m := range nMembers {
 			if math.Abs(w[m]-memberPrior[m]) > 1e-9 {
 				t.Errorf("weights %v, want the prior %v", w, memberPrior)
@@ -47,15 +47,15 @@ func TestOnlineWeights(t *testing.T) {
 		}
 	})
 	t.Run("asleep neither gains nor loses", func(t *testing.T) {
-		w := online(hist(30, [nMembers]float64{0.02, 0.02, 0.02, 0.02, 0.02}, int(todayMember)), memberPrior).weights
+		w := online(hist(30, [nMembers]float64{0.02, 0.02, 0.02, 0.02, 0.02, 0.02}, int(todayMember)), memberPrior).weights
 		if math.Abs(w[todayMember]-memberPrior[todayMember]) > 0.02 {
 			t.Errorf("weights %v: a member asleep on every pass keeps about its prior %.2f", w, memberPrior[todayMember])
 		}
 	})
 	t.Run("one odd pass does not swing the weights", func(t *testing.T) {
-		h := hist(20, [nMembers]float64{0.01, 0.02, 0.02, 0.02, 0.02}, -1)
+		h := hist(20, [nMembers]float64{0.01, 0.02, 0.02, 0.02, 0.02, 0.02}, -1)
 		before := online(h, memberPrior).weights
-		h = append(h, scored{actual: 10, est: [nMembers]estimate{{ET: 10.4, SD: 0.02, OK: true}, {ET: 10.02, SD: 0.02, OK: true}, {ET: 10.02, SD: 0.02, OK: true}, {ET: 10.02, SD: 0.02, OK: true}, {ET: 10.02, SD: 0.02, OK: true}}})
+		h = append(h, scored{actual: 10, est: [nMembers]estimate{{ET: 10.4, SD: 0.02, OK: true}, {ET: 10.02, SD: 0.02, OK: true}, {ET: 10.02, SD: 0.02, OK: true}, {ET: 10.02, SD: 0.02, OK: true}, {ET: 10.02, SD: 0.02, OK: true}, {ET: 10.02, SD: 0.02, OK: true}}})
 		after := online(h, memberPrior).weights
 		if after[physicsMember] < before[physicsMember]/6 {
 			t.Errorf("one 0.4 s miss cut the pass model's weight from %.3f to %.3f", before[physicsMember], after[physicsMember])

@@ -39,3 +39,34 @@ func share(k, n int) string {
 	}
 	return fmt.Sprintf("%.0f %%", 100*float64(k)/float64(n))
 }
+
+// LostDays lists the car-days where the predictor's mean miss is more than
+// WorseBy worse than the plain rule's (Markdown), for finding where a
+// predictor loses.
+func (r Report) LostDays() string {
+	var b strings.Builder
+	b.WriteString("\n| world | day | passes | floor s | predictor MAE s | plain MAE s |\n|---|---:|---:|---:|---:|---:|\n")
+	for _, w := range r.Worlds {
+		for _, d := range w.Days {
+			if d.Model > d.Plain+WorseBy {
+				fmt.Fprintf(&b, "| %s | %d | %d | %.4f | %.4f | %.4f |\n", w.Name, d.Day, d.N, d.Floor, d.Model, d.Plain)
+			}
+		}
+	}
+	return b.String()
+}
+
+// AblationHeader heads the rows of AblationRow (Markdown).
+func AblationHeader() string {
+	return "| switched off | median ratio | 90th pct ratio | car-days lost | worst vs truth s | 95 % cover | breakout at 10 % |\n|---|---:|---:|---:|---:|---:|---:|\n"
+}
+
+// AblationRow is the report's figures across worlds in one line, for the
+// ablation table; mechanism "" is pitcard as it ships.
+func (r Report) AblationRow(mechanism string) string {
+	if mechanism == "" {
+		mechanism = "nothing (as it ships)"
+	}
+	return fmt.Sprintf("| %s | %.2f | %.2f | %d of %d | %.3f | %.1f %% | %.1f %% |\n", mechanism, r.Model.MedianRatio, r.Model.P90Ratio,
+		r.WorseDays, r.CarDays, r.Model.Oracle, 100*r.Model.Coverage, 100*r.Model.Breakout)
+}

@@ -13,6 +13,7 @@ import (
 	"fmt"
 	"os"
 
+	"pitcard/engine"
 	"pitcard/internal/heldout"
 	"pitcard/internal/truthsim"
 )
@@ -22,6 +23,8 @@ func main() {
 	held := flag.Bool("heldout", false, "score the held-out draws, not the tuning draws")
 	fixed := flag.Bool("fixed", false, "score the six fixed worlds (truthsim.Worlds)")
 	model := flag.String("model", "pitcard", "the predictor: pitcard (the card's blend) or physics (the calibrated model alone)")
+	days := flag.Bool("days", false, "also list the car-days the predictor lost to the plain rule")
+	ablate := flag.String("ablate", "", "the ablation table: pitcard as it ships, then with each mechanism switched off in turn, one line each: all (engine.Mechanisms) or third (the third generation's: engine.BlendMechanisms)")
 	without := flag.String("without", "", "pitcard with one mechanism switched off (a name of engine.Mechanisms), for the ablation table")
 	flag.Parse()
 	worlds := heldout.Draws(*n, *held)
@@ -32,10 +35,25 @@ func main() {
 		fmt.Fprintln(os.Stderr, "heldout: nothing to score: give -n N (1..) or -fixed")
 		os.Exit(2)
 	}
+	if *ablate != "" {
+		names := engine.Mechanisms
+		if *ablate == "third" {
+			names = engine.BlendMechanisms
+		}
+		fmt.Print(heldout.AblationHeader())
+		for _, name := range append([]string{""}, names...) {
+			r := heldout.ScoreDial(worlds, heldout.PitcardWithout(name))
+			fmt.Print(r.AblationRow(name))
+		}
+		return
+	}
 	r := heldout.ScoreDial(worlds, heldout.PitcardWithout(*without))
 	if *model == "physics" {
 		r = heldout.Score(worlds, heldout.PhysicsOnly)
 	}
 	fmt.Print(r.Table())
+	if *days {
+		fmt.Print(r.LostDays())
+	}
 	fmt.Printf("\n%d worlds scored in %s\n", len(worlds), r.Elapsed.Round(100_000_000))
 }
