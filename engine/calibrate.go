@@ -264,18 +264,35 @@ func (f *Fit) setPrior(in CalibrateInput) error {
 		f.Notes = append(f.Notes, note)
 	}
 	f.Vehicle = NewVehicle(in.Car, f.PowerHP)
-	var before []logbook.Pass
-	for _, p := range in.Passes {
-		if !p.Time.After(in.Now) {
-			before = append(before, p)
-		}
-	}
-	f.Weight = newWeightModel(in.Car, before, in.DayStart)
+	f.Weight = newWeightModel(in.Car, passesUpTo(in.Passes, in.Now), in.DayStart)
 	f.Params = DefaultParamsFor(in.Car)
 	for k := range f.Cov {
 		f.Cov[k][k] = sq(priorSD(in.Car.Induction)[k])
 	}
 	return nil
+}
+
+// passesUpTo are the passes not after now, in their order. Where none is
+// after now (every held-out fit: its passes are those before its target) it
+// is passes itself, not a copy: a copy of a 5,000-pass logbook for each of
+// a card's fits cost more than the weight model made from it.
+func passesUpTo(passes []logbook.Pass, now time.Time) []logbook.Pass {
+	n := 0
+	for i := range passes {
+		if !passes[i].Time.After(now) {
+			n++
+		}
+	}
+	if n == len(passes) {
+		return passes
+	}
+	out := make([]logbook.Pass, 0, n)
+	for _, p := range passes {
+		if !p.Time.After(now) {
+			out = append(out, p)
+		}
+	}
+	return out
 }
 
 // dropOutliers leaves out runs far from the rest (aborted, pedaled, a timing
