@@ -36,3 +36,14 @@ func BenchmarkCalibrate60(b *testing.B) {
 		}
 	}
 }
+
+// BenchmarkSimulate is one simulated quarter-mile pass of the test car: the
+// unit every calibration repeats.
+func BenchmarkSimulate(b *testing.B) {
+	v := NewVehicle(testCar, 0)
+	env := NewEnv(j1349Air, testTrack.HeadingDeg, 1, v.MassKg)
+	p := DefaultParams(Natural)
+	for b.Loop() {
+		Simulate(&v, p, env, 1320)
+	}
+}
