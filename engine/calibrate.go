@@ -120,6 +120,10 @@ type Fit struct {
 	// fitted (no clean passes).
 	Converged bool
 	lastGain  float64 // the last step's share of the cost, for the note
+	// simsAt are the parameters each sample's Sim was run at, when simsValid:
+	// a refit that starts there takes them rather than running them again.
+	simsAt    Params
+	simsValid bool
 	// Ablation is the input's: which mechanisms were switched off (zero:
 	// none), for Predict to honour too.
 	Ablation Ablation
@@ -460,15 +464,24 @@ const heldAtPriorSD = 1e-4
 // (θₖ − priorₖ)/priorSDₖ. runs, if not nil, receives each sample's run.
 func (f *Fit) residuals(th theta, runs []Run) []float64 {
 	p := th.params(f.Ablation)
+	return f.residualsOf(th, func(i int) Run {
+		run := Simulate(&f.Vehicle, p, f.Samples[i].Env, f.Car.DistanceFt)
+		if runs != nil {
+			runs[i] = run
+		}
+		return run
+	})
+}
+
+// residualsOf are the residuals at th with each sample's run given by run
+// (its index in f.Samples).
+func (f *Fit) residualsOf(th theta, run func(int) Run) []float64 {
 	prior := DefaultParamsFor(f.Car).theta()
 	sd := priorSD(f.Car.Induction)
 	var r []float64
 	for i := range f.Samples {
 		s := &f.Samples[i]
-		run := Simulate(&f.Vehicle, p, s.Env, f.Car.DistanceFt)
-		if runs != nil {
-			runs[i] = run
-		}
+		run := run(i)
 		w := math.Sqrt(s.Weight)
 		for j := range logbook.Timers {
 			if !math.IsNaN(s.Obs[j]) {
@@ -529,11 +542,18 @@ const (
 // fit runs Levenberg–Marquardt from the current parameters to the MAP
 // estimate, and sets f.Params, each sample's Sim at them, f.Cov (the
 // inverse of the last JᵀJ, the Laplace approximation of the posterior's
-// covariance in θ) and f.Converged.
+// covariance in θ) and f.Converged. It keeps the runs of the step it took
+// last (and, starting where the previous fit ended, that fit's), rather than
+// running them again: they are the same numbers.
 func (f *Fit) fit() {
 	th := f.Params.theta()
-	runs := make([]Run, len(f.Samples))
-	r := f.residuals(th, runs)
+	runs, trial := make([]Run, len(f.Samples)), make([]Run, len(f.Samples))
+	var r []float64
+	if f.simsValid && th.params(f.Ablation) == f.simsAt {
+		r = f.residualsOf(th, func(i int) Run { runs[i] = f.Samples[i].Sim; return runs[i] })
+	} else {
+		r = f.residuals(th, runs)
+	}
 	cost := dot(r, r)
 	lambda := lmInitialDamping
 	var jtj [NP][NP]float64
@@ -541,7 +561,7 @@ func (f *Fit) fit() {
 	for range lmMaxIterations {
 		var g [NP]float64
 		g, jtj = normalEquations(f.jacobian(th, r), r)
-		t2, r2, c2, ok := f.lmStep(th, g, jtj, cost, &lambda)
+		t2, r2, c2, ok := f.lmStep(th, g, jtj, cost, &lambda, trial)
 		if !ok {
 			f.Converged = true // no damped step lowers the cost: at the minimum
 			break
@@ -549,16 +569,17 @@ func (f *Fit) fit() {
 		f.lastGain = math.Abs(cost-c2) / cost
 		small := math.Abs(cost-c2) < lmTolerance*cost
 		th, r, cost = t2, r2, c2
+		runs, trial = trial, runs
 		if small {
 			f.Converged = true
 			break
 		}
 	}
 	f.Params = th.params(f.Ablation)
-	f.residuals(th, runs)
 	for i := range f.Samples {
 		f.Samples[i].Sim = runs[i]
 	}
+	f.simsAt, f.simsValid = f.Params, true
 	if inv, ok := invertNP(jtj); ok {
 		f.Cov = inv
 	}
@@ -597,8 +618,9 @@ func normalEquations(jac [NP][]float64, r []float64) (g [NP]float64, jtj [NP][NP
 // lowers the cost (λ then falls by lmDampingFactor, to at least
 // lmMinDamping); otherwise λ rises by lmDampingFactor and it tries again, at
 // most lmMaxTries times. It returns the new θ, its residuals and cost, and
-// whether a step was taken.
-func (f *Fit) lmStep(th theta, g [NP]float64, jtj [NP][NP]float64, cost float64, lambda *float64) (theta, []float64, float64, bool) {
+// whether a step was taken; runs receives each sample's run at each θ it
+// tries (at the new θ when a step was taken).
+func (f *Fit) lmStep(th theta, g [NP]float64, jtj [NP][NP]float64, cost float64, lambda *float64, runs []Run) (theta, []float64, float64, bool) {
 	for range lmMaxTries {
 		var m [NP][NP]float64
 		var rhs [NP]float64
@@ -619,7 +641,7 @@ func (f *Fit) lmStep(th theta, g [NP]float64, jtj [NP][NP]float64, cost float64,
 			t2[k] += step[k]
 		}
 		t2 = t2.params(f.Ablation).theta() // clamp to bounds
-		r2 := f.residuals(t2, nil)
+		r2 := f.residuals(t2, runs)
 		if c2 := dot(r2, r2); c2 < cost {
 			*lambda = math.Max(*lambda/lmDampingFactor, lmMinDamping)
 			return t2, r2, c2, true
