@@ -452,13 +452,17 @@ func timeAt(pieces []piece, s float64) (float64, float64) {
 	// Solve x(v) = s on the Hermite cubic by Newton from the linear guess.
 	h := p.v1 - p.v0
 	w := (s - p.x0) / (p.x1 - p.x0)
-	w = math.Max(0, math.Min(1, w))
+	w = max(0, min(1, w))
 	for range 6 {
 		xw, dxw := hermite(w, p.x0, p.x1, p.dx0*h, p.dx1*h)
 		if dxw <= 0 {
 			break
 		}
-		w = math.Max(0, math.Min(1, w-(xw-s)/dxw))
+		next := max(0, min(1, w-(xw-s)/dxw))
+		if next == w {
+			break // a fixed point: the steps left would give w again
+		}
+		w = next
 	}
 	tw, _ := hermite(w, p.t0, p.t1, p.dt0*h, p.dt1*h)
 	return tw, p.v0 + w*h
