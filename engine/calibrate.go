@@ -463,6 +463,17 @@ const heldAtPriorSD = 1e-4
 // (timerSigma) and trap (trapSigma) it has; a prior row is
 // (θₖ − priorₖ)/priorSDₖ. runs, if not nil, receives each sample's run.
 func (f *Fit) residuals(th theta, runs []Run) []float64 {
+	r, _ := f.residualsBelow(th, runs, math.Inf(1))
+	return r
+}
+
+// residualsBelow are residuals, unless their cost (sum of squares) is
+// sure to reach limit: it stops simulating the samples, and returns false,
+// once the squares so far exceed limit (every row adds a square, so the cost
+// can only grow; the margin covers a sum rounded otherwise than dot's). A
+// damped step that does not lower the cost is known for one without
+// simulating every sample.
+func (f *Fit) residualsBelow(th theta, runs []Run, limit float64) ([]float64, bool) {
 	p := th.params(f.Ablation)
 	return f.residualsOf(th, func(i int) Run {
 		run := Simulate(&f.Vehicle, p, f.Samples[i].Env, f.Car.DistanceFt)
@@ -470,16 +481,27 @@ func (f *Fit) residuals(th theta, runs []Run) []float64 {
 			runs[i] = run
 		}
 		return run
-	})
+	}, limit)
 }
 
+// costMargin: residualsBelow stops only when the squares so far exceed its
+// limit by this share, far beyond any difference of rounding.
+const costMargin = 1e-9
+
 // residualsOf are the residuals at th with each sample's run given by run
-// (its index in f.Samples).
-func (f *Fit) residualsOf(th theta, run func(int) Run) []float64 {
+// (its index in f.Samples), or nil and false once the squares of the
+// samples' rows exceed limit·(1 + costMargin) (see residualsBelow).
+func (f *Fit) residualsOf(th theta, run func(int) Run, limit float64) ([]float64, bool) {
 	prior := DefaultParamsFor(f.Car).theta()
 	sd := priorSD(f.Car.Induction)
-	var r []float64
+	r := make([]float64, 0, len(f.Samples)*(len(logbook.Timers)+2)+NP)
+	stop := limit * (1 + costMargin)
+	var sum float64
 	for i := range f.Samples {
+		if sum > stop {
+			return nil, false
+		}
+		rows := len(r)
 		s := &f.Samples[i]
 		run := run(i)
 		w := math.Sqrt(s.Weight)
@@ -493,6 +515,9 @@ func (f *Fit) residualsOf(th theta, run func(int) Run) []float64 {
 				r = append(r, w*huber((sim-(s.Trap[j]-s.TrapNuisance[j]))/trapSigma))
 			}
 		}
+		for _, x := range r[rows:] {
+			sum += x * x
+		}
 	}
 	for k := range th {
 		s := sd[k]
@@ -501,7 +526,7 @@ func (f *Fit) residualsOf(th theta, run func(int) Run) []float64 {
 		}
 		r = append(r, (th[k]-prior[k])/s)
 	}
-	return r
+	return r, true
 }
 
 // Settings of the Levenberg–Marquardt fit (Levenberg 1944, Marquardt 1963:
@@ -550,7 +575,7 @@ func (f *Fit) fit() {
 	runs, trial := make([]Run, len(f.Samples)), make([]Run, len(f.Samples))
 	var r []float64
 	if f.simsValid && th.params(f.Ablation) == f.simsAt {
-		r = f.residualsOf(th, func(i int) Run { runs[i] = f.Samples[i].Sim; return runs[i] })
+		r, _ = f.residualsOf(th, func(i int) Run { runs[i] = f.Samples[i].Sim; return runs[i] }, math.Inf(1))
 	} else {
 		r = f.residuals(th, runs)
 	}
@@ -641,7 +666,11 @@ func (f *Fit) lmStep(th theta, g [NP]float64, jtj [NP][NP]float64, cost float64,
 			t2[k] += step[k]
 		}
 		t2 = t2.params(f.Ablation).theta() // clamp to bounds
-		r2 := f.residuals(t2, runs)
+		r2, below := f.residualsBelow(t2, runs, cost)
+		if !below {
+			*lambda *= lmDampingFactor // its cost is sure to reach the current one
+			continue
+		}
 		if c2 := dot(r2, r2); c2 < cost {
 			*lambda = math.Max(*lambda/lmDampingFactor, lmMinDamping)
 			return t2, r2, c2, true
