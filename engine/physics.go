@@ -322,24 +322,13 @@ func simulate(v *Vehicle, p Params, env Env, distanceFt float64, pieces []piece)
 	// mode) less drag (with the wind) and rolling resistance.
 	net := func(u float64) float64 {
 		var drive float64
-		if gear < 0 {
-			if u <= cross {
-				drive = trac
-			} else {
-				drive = pp * (1 - LaunchPowerLoss*math.Exp(-u/LaunchPowerSpeed)) / u
-			}
-		} else {
-			ratio := v.Gears[gear] * v.FinalDrive
-			shaft := u / v.TireRadius * ratio * 60 / (2 * math.Pi) // rpm the wheels turn the engine
-			rpm := max(shaft*1.03, v.LaunchRPM)                    // converter or clutch slip
-			r := rpm / v.PeakRPM
-			pe := power * max(r+r*r-r*r*r, 0.05) // W at this rpm: peak at PeakRPM
-			torque := pe / (rpm * 2 * math.Pi / 60)
-			tm := 1.0
-			if v.Automatic {
-				tm = 1 + max(0, 1-shaft/rpm/0.85) // converter torque multiplication, 2:1 at stall
-			}
-			drive = min(trac, torque*ratio*tm/v.TireRadius)
+		switch {
+		case gear >= 0:
+			drive = gearedDrive(v, gear, u, power, trac)
+		case u <= cross:
+			drive = trac
+		default:
+			drive = pp * (1 - LaunchPowerLoss*math.Exp(-u/LaunchPowerSpeed)) / u
 		}
 		a := u + headwind
 		return drive - half*a*math.Abs(a) - roll
@@ -428,6 +417,22 @@ func simulate(v *Vehicle, p Params, env Env, distanceFt float64, pieces []piece)
 	run.PeakG = peak
 	run.Limited = cross
 	return run, pieces
+}
+
+// gearedDrive is the tire force, N, at speed u in gear gi with the engine's
+// power (W at PeakRPM) in this air, at most the traction trac.
+func gearedDrive(v *Vehicle, gi int, u, power, trac float64) float64 {
+	ratio := v.Gears[gi] * v.FinalDrive
+	shaft := u / v.TireRadius * ratio * 60 / (2 * math.Pi) // rpm the wheels turn the engine
+	rpm := max(shaft*1.03, v.LaunchRPM)                    // converter or clutch slip
+	r := rpm / v.PeakRPM
+	pe := power * max(r+r*r-r*r*r, 0.05) // W at this rpm: peak at PeakRPM
+	torque := pe / (rpm * 2 * math.Pi / 60)
+	tm := 1.0
+	if v.Automatic {
+		tm = 1 + max(0, 1-shaft/rpm/0.85) // converter torque multiplication, 2:1 at stall
+	}
+	return min(trac, torque*ratio*tm/v.TireRadius)
 }
 
 // timeAt is the time and speed at which the car has traveled s meters.
