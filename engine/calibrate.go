@@ -120,6 +120,10 @@ type Fit struct {
 	// fitted (no clean passes).
 	Converged bool
 	lastGain  float64 // the last step's share of the cost, for the note
+	// simsAt are the parameters each sample's Sim was run at, when simsValid:
+	// a refit that starts there takes them rather than running them again.
+	simsAt    Params
+	simsValid bool
 	// Ablation is the input's: which mechanisms were switched off (zero:
 	// none), for Predict to honour too.
 	Ablation Ablation
@@ -264,18 +268,35 @@ func (f *Fit) setPrior(in CalibrateInput) error {
 		f.Notes = append(f.Notes, note)
 	}
 	f.Vehicle = NewVehicle(in.Car, f.PowerHP)
-	var before []logbook.Pass
-	for _, p := range in.Passes {
-		if !p.Time.After(in.Now) {
-			before = append(before, p)
-		}
-	}
-	f.Weight = newWeightModel(in.Car, before, in.DayStart)
+	f.Weight = newWeightModel(in.Car, passesUpTo(in.Passes, in.Now), in.DayStart)
 	f.Params = DefaultParamsFor(in.Car)
 	for k := range f.Cov {
 		f.Cov[k][k] = sq(priorSD(in.Car.Induction)[k])
 	}
 	return nil
+}
+
+// passesUpTo are the passes not after now, in their order. Where none is
+// after now (every held-out fit: its passes are those before its target) it
+// is passes itself, not a copy: a copy of a 5,000-pass logbook for each of
+// a card's fits cost more than the weight model made from it.
+func passesUpTo(passes []logbook.Pass, now time.Time) []logbook.Pass {
+	n := 0
+	for i := range passes {
+		if !passes[i].Time.After(now) {
+			n++
+		}
+	}
+	if n == len(passes) {
+		return passes
+	}
+	out := make([]logbook.Pass, 0, n)
+	for _, p := range passes {
+		if !p.Time.After(now) {
+			out = append(out, p)
+		}
+	}
+	return out
 }
 
 // dropOutliers leaves out runs far from the rest (aborted, pedaled, a timing
@@ -442,16 +463,47 @@ const heldAtPriorSD = 1e-4
 // (timerSigma) and trap (trapSigma) it has; a prior row is
 // (θₖ − priorₖ)/priorSDₖ. runs, if not nil, receives each sample's run.
 func (f *Fit) residuals(th theta, runs []Run) []float64 {
+	r, _ := f.residualsBelow(th, runs, math.Inf(1))
+	return r
+}
+
+// residualsBelow are residuals, unless their cost (sum of squares) is
+// sure to reach limit: it stops simulating the samples, and returns false,
+// once the squares so far exceed limit (every row adds a square, so the cost
+// can only grow; the margin covers a sum rounded otherwise than dot's). A
+// damped step that does not lower the cost is known for one without
+// simulating every sample.
+func (f *Fit) residualsBelow(th theta, runs []Run, limit float64) ([]float64, bool) {
 	p := th.params(f.Ablation)
-	prior := DefaultParamsFor(f.Car).theta()
-	sd := priorSD(f.Car.Induction)
-	var r []float64
-	for i := range f.Samples {
-		s := &f.Samples[i]
-		run := Simulate(&f.Vehicle, p, s.Env, f.Car.DistanceFt)
+	return f.residualsOf(th, func(i int) Run {
+		run := Simulate(&f.Vehicle, p, f.Samples[i].Env, f.Car.DistanceFt)
 		if runs != nil {
 			runs[i] = run
 		}
+		return run
+	}, limit)
+}
+
+// costMargin: residualsBelow stops only when the squares so far exceed its
+// limit by this share, far beyond any difference of rounding.
+const costMargin = 1e-9
+
+// residualsOf are the residuals at th with each sample's run given by run
+// (its index in f.Samples), or nil and false once the squares of the
+// samples' rows exceed limit·(1 + costMargin) (see residualsBelow).
+func (f *Fit) residualsOf(th theta, run func(int) Run, limit float64) ([]float64, bool) {
+	prior := DefaultParamsFor(f.Car).theta()
+	sd := priorSD(f.Car.Induction)
+	r := make([]float64, 0, len(f.Samples)*(len(logbook.Timers)+2)+NP)
+	stop := limit * (1 + costMargin)
+	var sum float64
+	for i := range f.Samples {
+		if sum > stop {
+			return nil, false
+		}
+		rows := len(r)
+		s := &f.Samples[i]
+		run := run(i)
 		w := math.Sqrt(s.Weight)
 		for j := range logbook.Timers {
 			if !math.IsNaN(s.Obs[j]) {
@@ -463,6 +515,9 @@ func (f *Fit) residuals(th theta, runs []Run) []float64 {
 				r = append(r, w*huber((sim-(s.Trap[j]-s.TrapNuisance[j]))/trapSigma))
 			}
 		}
+		for _, x := range r[rows:] {
+			sum += x * x
+		}
 	}
 	for k := range th {
 		s := sd[k]
@@ -471,7 +526,7 @@ func (f *Fit) residuals(th theta, runs []Run) []float64 {
 		}
 		r = append(r, (th[k]-prior[k])/s)
 	}
-	return r
+	return r, true
 }
 
 // Settings of the Levenberg–Marquardt fit (Levenberg 1944, Marquardt 1963:
@@ -512,11 +567,18 @@ const (
 // fit runs Levenberg–Marquardt from the current parameters to the MAP
 // estimate, and sets f.Params, each sample's Sim at them, f.Cov (the
 // inverse of the last JᵀJ, the Laplace approximation of the posterior's
-// covariance in θ) and f.Converged.
+// covariance in θ) and f.Converged. It keeps the runs of the step it took
+// last (and, starting where the previous fit ended, that fit's), rather than
+// running them again: they are the same numbers.
 func (f *Fit) fit() {
 	th := f.Params.theta()
-	runs := make([]Run, len(f.Samples))
-	r := f.residuals(th, runs)
+	runs, trial := make([]Run, len(f.Samples)), make([]Run, len(f.Samples))
+	var r []float64
+	if f.simsValid && th.params(f.Ablation) == f.simsAt {
+		r, _ = f.residualsOf(th, func(i int) Run { runs[i] = f.Samples[i].Sim; return runs[i] }, math.Inf(1))
+	} else {
+		r = f.residuals(th, runs)
+	}
 	cost := dot(r, r)
 	lambda := lmInitialDamping
 	var jtj [NP][NP]float64
@@ -524,7 +586,7 @@ func (f *Fit) fit() {
 	for range lmMaxIterations {
 		var g [NP]float64
 		g, jtj = normalEquations(f.jacobian(th, r), r)
-		t2, r2, c2, ok := f.lmStep(th, g, jtj, cost, &lambda)
+		t2, r2, c2, ok := f.lmStep(th, g, jtj, cost, &lambda, trial)
 		if !ok {
 			f.Converged = true // no damped step lowers the cost: at the minimum
 			break
@@ -532,16 +594,17 @@ func (f *Fit) fit() {
 		f.lastGain = math.Abs(cost-c2) / cost
 		small := math.Abs(cost-c2) < lmTolerance*cost
 		th, r, cost = t2, r2, c2
+		runs, trial = trial, runs
 		if small {
 			f.Converged = true
 			break
 		}
 	}
 	f.Params = th.params(f.Ablation)
-	f.residuals(th, runs)
 	for i := range f.Samples {
 		f.Samples[i].Sim = runs[i]
 	}
+	f.simsAt, f.simsValid = f.Params, true
 	if inv, ok := invertNP(jtj); ok {
 		f.Cov = inv
 	}
@@ -580,8 +643,9 @@ func normalEquations(jac [NP][]float64, r []float64) (g [NP]float64, jtj [NP][NP
 // lowers the cost (λ then falls by lmDampingFactor, to at least
 // lmMinDamping); otherwise λ rises by lmDampingFactor and it tries again, at
 // most lmMaxTries times. It returns the new θ, its residuals and cost, and
-// whether a step was taken.
-func (f *Fit) lmStep(th theta, g [NP]float64, jtj [NP][NP]float64, cost float64, lambda *float64) (theta, []float64, float64, bool) {
+// whether a step was taken; runs receives each sample's run at each θ it
+// tries (at the new θ when a step was taken).
+func (f *Fit) lmStep(th theta, g [NP]float64, jtj [NP][NP]float64, cost float64, lambda *float64, runs []Run) (theta, []float64, float64, bool) {
 	for range lmMaxTries {
 		var m [NP][NP]float64
 		var rhs [NP]float64
@@ -602,7 +666,11 @@ func (f *Fit) lmStep(th theta, g [NP]float64, jtj [NP][NP]float64, cost float64,
 			t2[k] += step[k]
 		}
 		t2 = t2.params(f.Ablation).theta() // clamp to bounds
-		r2 := f.residuals(t2, nil)
+		r2, below := f.residualsBelow(t2, runs, cost)
+		if !below {
+			*lambda *= lmDampingFactor // its cost is sure to reach the current one
+			continue
+		}
 		if c2 := dot(r2, r2); c2 < cost {
 			*lambda = math.Max(*lambda/lmDampingFactor, lmMinDamping)
 			return t2, r2, c2, true

@@ -145,6 +145,10 @@ type residualDays struct {
 	obs   []residualObs
 	byDay map[string][]int     // indexes into obs, by day key (weather.DayStart.Key)
 	first map[string]time.Time // each day's first pass, among all the samples
+	// keys are byDay's keys in the order the samples first name them (the
+	// latest day first): the sums over days run in this order, not a map's,
+	// so a fit is the same to the last bit every time.
+	keys []string
 }
 
 // groupByDay gathers the samples' residuals (those res has) by race day,
@@ -163,6 +167,9 @@ func groupByDay(ss []Sample, res func(Sample) (float64, bool), day weather.DaySt
 			continue
 		}
 		k := day.Key(s.Pass.Time)
+		if _, ok := g.byDay[k]; !ok {
+			g.keys = append(g.keys, k)
+		}
 		g.byDay[k] = append(g.byDay[k], len(g.obs))
 		g.obs = append(g.obs, residualObs{i: i, r: r, h: s.Pass.Time.Sub(g.first[k]).Hours()})
 	}
@@ -186,7 +193,8 @@ func (g residualDays) withinDays(pri residualPriors) withinDay {
 	var sxy, sxx float64
 	withinN := 0
 	dayMean := map[string][2]float64{} // mean r, mean h
-	for k, idx := range g.byDay {
+	for _, k := range g.keys {
+		idx := g.byDay[k]
 		var mr, mh float64
 		for _, j := range idx {
 			mr += g.obs[j].r
@@ -209,7 +217,8 @@ func (g residualDays) withinDays(pri residualPriors) withinDay {
 	for range 2 { // the slope's shrinkage needs σ², σ² needs the slope
 		slope = sxy / (sxx + sigma2/sq(pri.Slope))
 		within := 0.0
-		for k, idx := range g.byDay {
+		for _, k := range g.keys {
+			idx := g.byDay[k]
 			if len(idx) < 2 {
 				continue
 			}
@@ -243,7 +252,8 @@ type dayLevel struct {
 func (g residualDays) dayLevels(ss []Sample, slope float64, today string, ab Ablation) ([]dayLevel, *dayLevel) {
 	var days []dayLevel
 	var todayLevel *dayLevel
-	for k, idx := range g.byDay {
+	for _, k := range g.keys {
+		idx := g.byDay[k]
 		var lv float64
 		last := time.Time{}
 		for _, j := range idx {
@@ -408,7 +418,8 @@ func dayStructure(ss []Sample, res func(Sample) (float64, bool), pri residualPri
 	d.center = hsum / float64(len(g.obs))
 	var days []dayLevel
 	var mean float64
-	for k, idx := range g.byDay {
+	for _, k := range g.keys {
+		idx := g.byDay[k]
 		var lv float64
 		for _, j := range idx {
 			lv += g.obs[j].r - d.slope*(g.obs[j].h-d.center)

@@ -3,6 +3,7 @@ package engine
 import (
 	"math"
 	"strings"
+	"sync"
 
 	"pitcard/logbook"
 	"pitcard/weather"
@@ -253,15 +254,34 @@ type piece struct {
 	dx0, dx1       float64 // dx/dv at the ends
 }
 
+// piecePool holds the pieces' buffers of finished simulations: a
+// calibration runs hundreds of thousands of passes, and a buffer in use
+// again stays in the cache where a fresh one would be allocated and cleared.
+var piecePool = sync.Pool{New: func() any { b := make([]piece, 0, 256); return &b }} // a pass is ~150 pieces
+
 // Simulate runs one pass of vehicle v with parameters p in env, to
 // distanceFt (660, 1000 or 1320).
 func Simulate(v *Vehicle, p Params, env Env, distanceFt float64) Run {
+	buf := piecePool.Get().(*[]piece)
+	run, pieces := simulate(v, p, env, distanceFt, (*buf)[:0])
+	*buf = pieces
+	piecePool.Put(buf)
+	return run
+}
+
+// simulate is Simulate, integrating into pieces (empty, with room); it
+// returns the pieces too, for their buffer. One numeric loop: the force is
+// written out in it, and each quotient of a node is carried to the next
+// step, rather than computed again (the calibration's cost is this loop).
+func simulate(v *Vehicle, p Params, env Env, distanceFt float64, pieces []piece) (Run, []piece) {
 	var run Run
 	m := env.MassKg
 	if m <= 0 {
 		m = v.MassKg
 	}
-	air := math.Pow(math.Max(env.DryRatio, 0.3), p.PressureExp) * math.Pow(math.Max(env.TempRatio, 0.5), p.TempExp)
+	// builtin max and min: the special cases of math.Max and math.Min (NaN,
+	// ±0, ±Inf) and inlined
+	air := math.Pow(max(env.DryRatio, 0.3), p.PressureExp) * math.Pow(max(env.TempRatio, 0.5), p.TempExp)
 	power := v.Efficiency * (v.PowerW*p.PowerScale*air + v.NitrousW)
 	mu := v.TireMu * p.TractionScale * PrepFactor(env.Prep) * p.Grip(env.TrackTemp.Fahrenheit(), v.TireBestF)
 	run.Power, run.Mu = power, mu
@@ -269,30 +289,24 @@ func Simulate(v *Vehicle, p Params, env Env, distanceFt float64) Run {
 	// at most μ m g (every pound on the rear tires: the front wheels are up).
 	trac := mu * m * g0
 	if d := 1 - mu*v.HOverL; d > 0 {
-		trac = math.Min(trac, mu*m*g0*v.RearStatic/d)
+		trac = min(trac, mu*m*g0*v.RearStatic/d)
 	}
 	roll := v.Crr * m * g0
 	half := 0.5 * env.Density * v.CdA
-	drag := func(u float64) float64 {
-		a := u + env.Headwind
-		return half * a * math.Abs(a)
-	}
+	headwind := env.Headwind
 	end := distanceFt*MetrePerFt + 1
-	pieces := make([]piece, 0, 256) // a pass is ~150 pieces: one allocation
 	var peak float64
 	t, x, u := 0.0, 0.0, 0.0
 
-	// drive is the tire force at speed u in gear gi (gi < 0: simple mode).
-	simple := func(u float64) float64 { // wheel power in simple mode, W
-		return power * v.PowerFrac * (1 - LaunchPowerLoss*math.Exp(-u/LaunchPowerSpeed))
-	}
+	// simple mode's wheel power at u is pp·(1 − LaunchPowerLoss·e^(−u/LaunchPowerSpeed)), W
+	pp := power * v.PowerFrac
 	// crossover: the speed where power, not traction, limits (simple mode)
 	cross := 0.0
 	if len(v.Gears) == 0 {
 		lo, hi := 0.0, 200.0
 		for range 50 {
 			mid := (lo + hi) / 2
-			if mid*trac < simple(mid) {
+			if mid*trac < pp*(1-LaunchPowerLoss*math.Exp(-mid/LaunchPowerSpeed)) {
 				lo = mid
 			} else {
 				hi = mid
@@ -300,28 +314,24 @@ func Simulate(v *Vehicle, p Params, env Env, distanceFt float64) Run {
 		}
 		cross = lo
 	}
-	drive := func(u float64, gi int) float64 {
-		if gi < 0 {
-			if u <= cross {
-				return trac
-			}
-			return simple(u) / u
-		}
-		ratio := v.Gears[gi] * v.FinalDrive
-		shaft := u / v.TireRadius * ratio * 60 / (2 * math.Pi) // rpm the wheels turn the engine
-		rpm := math.Max(shaft*1.03, v.LaunchRPM)               // converter or clutch slip
-		r := rpm / v.PeakRPM
-		pe := power * math.Max(r+r*r-r*r*r, 0.05) // W at this rpm: peak at PeakRPM
-		torque := pe / (rpm * 2 * math.Pi / 60)
-		tm := 1.0
-		if v.Automatic {
-			tm = 1 + math.Max(0, 1-shaft/rpm/0.85) // converter torque multiplication, 2:1 at stall
-		}
-		return math.Min(trac, torque*ratio*tm/v.TireRadius)
-	}
 	gear := -1
 	if len(v.Gears) > 0 {
 		gear = 0
+	}
+	// net is the tire force at speed u in the current gear (gear < 0: simple
+	// mode) less drag (with the wind) and rolling resistance.
+	net := func(u float64) float64 {
+		var drive float64
+		switch {
+		case gear >= 0:
+			drive = gearedDrive(v, gear, u, power, trac)
+		case u <= cross:
+			drive = trac
+		default:
+			drive = pp * (1 - LaunchPowerLoss*math.Exp(-u/LaunchPowerSpeed)) / u
+		}
+		a := u + headwind
+		return drive - half*a*math.Abs(a) - roll
 	}
 	shiftAt := func(gi int) float64 {
 		if gi < 0 || gi >= len(v.Gears)-1 {
@@ -329,24 +339,25 @@ func Simulate(v *Vehicle, p Params, env Env, distanceFt float64) Run {
 		}
 		return v.ShiftRPM / 1.03 * 2 * math.Pi / 60 * v.TireRadius / (v.Gears[gi] * v.FinalDrive)
 	}
-	net := func(u float64) float64 { return drive(u, gear) - drag(u) - roll }
-	const dv = 0.4                   // m/s between nodes
-	carried, haveCarry := 0.0, false // the force at u from the last node, when still in its gear
+	const dv = 0.4 // m/s between nodes
+	// the force at u from the last node, and its m/F and m·u/F, when still in its gear
+	carried, carriedDt, carriedDx, haveCarry := 0.0, 0.0, 0.0, false
+	shift := shiftAt(gear)
 	for x < end {
-		f0 := carried
+		f0, dt0, dx0 := carried, carriedDt, carriedDx
 		if !haveCarry {
 			f0 = net(u)
+			dt0, dx0 = m/f0, m*u/f0
 		}
 		if f0 < 0.01*m*g0 { // at terminal speed: cruise to the end
-			pieces = append(pieces, piece{coast: true, v0: u, v1: u, t0: t, x0: x, t1: t + (end-x)/math.Max(u, 0.1), x1: end})
+			pieces = append(pieces, piece{coast: true, v0: u, v1: u, t0: t, x0: x, t1: t + (end-x)/max(u, 0.1), x1: end})
 			break
 		}
-		peak = math.Max(peak, f0/(m*g0))
+		peak = max(peak, f0/(m*g0))
 		next := u + dv
 		if gear < 0 && u < cross && next > cross {
 			next = cross // node at the crossover kink
 		}
-		shift := shiftAt(gear)
 		if next > shift {
 			next = shift
 		}
@@ -356,42 +367,47 @@ func Simulate(v *Vehicle, p Params, env Env, distanceFt float64) Run {
 		mid := (u + next) / 2
 		fm, f1 := net(mid), net(next)
 		if fm <= 0 || f1 <= 0 {
-			pieces = append(pieces, piece{coast: true, v0: u, v1: u, t0: t, x0: x, t1: t + (end-x)/math.Max(u, 0.1), x1: end})
+			pieces = append(pieces, piece{coast: true, v0: u, v1: u, t0: t, x0: x, t1: t + (end-x)/max(u, 0.1), x1: end})
 			break
 		}
 		h := next - u
-		dt := h / 6 * (m/f0 + 4*m/fm + m/f1)
-		dx := h / 6 * (m*u/f0 + 4*m*mid/fm + m*next/f1)
+		dt1, dx1 := m/f1, m*next/f1
+		dt := h / 6 * (dt0 + 4*m/fm + dt1)
+		dx := h / 6 * (dx0 + 4*m*mid/fm + dx1)
 		pieces = append(pieces, piece{v0: u, v1: next, t0: t, t1: t + dt, x0: x, x1: x + dx,
-			dt0: m / f0, dt1: m / f1, dx0: m * u / f0, dx1: m * next / f1})
+			dt0: dt0, dt1: dt1, dx0: dx0, dx1: dx1})
 		t, x, u = t+dt, x+dx, next
-		carried, haveCarry = f1, true
+		carried, carriedDt, carriedDx, haveCarry = f1, dt1, dx1, true
 		if u >= shift && x < end { // shift: no drive for the shift time
 			haveCarry = false
-			decel := (drag(u) + roll) / m
+			a := u + headwind
+			decel := (half*a*math.Abs(a) + roll) / m
 			du := decel * v.ShiftTime
 			pieces = append(pieces, piece{coast: true, v0: u, v1: u - du, t0: t, t1: t + v.ShiftTime, x0: x, x1: x + (u-du/2)*v.ShiftTime})
 			t, x, u = t+v.ShiftTime, x+(u-du/2)*v.ShiftTime, u-du
 			gear++
+			shift = shiftAt(gear)
 		}
 	}
-	at := func(s float64) (float64, float64) { return timeAt(pieces, s) }
-	t0, u0 := at(Rollout)
+	t0, u0 := timeAt(pieces, Rollout)
 	run.ClockStart, run.StartSpeed = t0, u0
+	var clock [len(run.ET)]float64 // time from first motion at each timer, for the traps
 	for i, ft := range logbook.Timers {
 		if ft > distanceFt {
 			run.ET[i], run.MPH[i] = math.NaN(), math.NaN()
 			continue
 		}
-		ti, ui := at(ft * MetrePerFt)
+		ti, ui := timeAt(pieces, ft*MetrePerFt)
+		clock[i] = ti
 		run.ET[i], run.MPH[i] = ti-t0, ui/weather.MpsPerMph
 		if ft == 60 {
 			run.AvgG60 = (ui - u0) / (ti - t0) / g0
 		}
 	}
+	// a trap ends at a timer: its end's time is the timer's, looked up once
 	trap := func(ft float64) float64 {
-		t1, _ := at(ft * MetrePerFt)
-		ta, _ := at((ft - TrapLengthFt) * MetrePerFt)
+		t1 := clock[logbook.TimerIndex(ft)]
+		ta, _ := timeAt(pieces, (ft-TrapLengthFt)*MetrePerFt)
 		return TrapLengthFt * MetrePerFt / (t1 - ta) / weather.MpsPerMph
 	}
 	run.MPH660, run.MPH1320 = trap(660), math.NaN()
@@ -400,7 +416,23 @@ func Simulate(v *Vehicle, p Params, env Env, distanceFt float64) Run {
 	}
 	run.PeakG = peak
 	run.Limited = cross
-	return run
+	return run, pieces
+}
+
+// gearedDrive is the tire force, N, at speed u in gear gi with the engine's
+// power (W at PeakRPM) in this air, at most the traction trac.
+func gearedDrive(v *Vehicle, gi int, u, power, trac float64) float64 {
+	ratio := v.Gears[gi] * v.FinalDrive
+	shaft := u / v.TireRadius * ratio * 60 / (2 * math.Pi) // rpm the wheels turn the engine
+	rpm := max(shaft*1.03, v.LaunchRPM)                    // converter or clutch slip
+	r := rpm / v.PeakRPM
+	pe := power * max(r+r*r-r*r*r, 0.05) // W at this rpm: peak at PeakRPM
+	torque := pe / (rpm * 2 * math.Pi / 60)
+	tm := 1.0
+	if v.Automatic {
+		tm = 1 + max(0, 1-shaft/rpm/0.85) // converter torque multiplication, 2:1 at stall
+	}
+	return min(trac, torque*ratio*tm/v.TireRadius)
 }
 
 // timeAt is the time and speed at which the car has traveled s meters.
@@ -425,13 +457,17 @@ func timeAt(pieces []piece, s float64) (float64, float64) {
 	// Solve x(v) = s on the Hermite cubic by Newton from the linear guess.
 	h := p.v1 - p.v0
 	w := (s - p.x0) / (p.x1 - p.x0)
-	w = math.Max(0, math.Min(1, w))
+	w = max(0, min(1, w))
 	for range 6 {
 		xw, dxw := hermite(w, p.x0, p.x1, p.dx0*h, p.dx1*h)
 		if dxw <= 0 {
 			break
 		}
-		w = math.Max(0, math.Min(1, w-(xw-s)/dxw))
+		next := max(0, min(1, w-(xw-s)/dxw))
+		if next == w {
+			break // a fixed point: the steps left would give w again
+		}
+		w = next
 	}
 	tw, _ := hermite(w, p.t0, p.t1, p.dt0*h, p.dt1*h)
 	return tw, p.v0 + w*h
