@@ -48,8 +48,16 @@ func newWeightModel(car Car, passes []logbook.Pass, day weather.DayStart) *weigh
 	if m.logged == 0 {
 		return m
 	}
+	// the days in order, so the sums (and the card) come out the same to the
+	// last bit every time, not in a map's order
+	days := make([]string, 0, len(byDay))
+	for k := range byDay {
+		days = append(days, k)
+	}
+	sort.Strings(days)
 	var sxy, sxx float64
-	for _, os := range byDay {
+	for _, k := range days {
+		os := byDay[k]
 		if len(os) < 2 {
 			continue
 		}
@@ -69,16 +77,14 @@ func newWeightModel(car Car, passes []logbook.Pass, day weather.DayStart) *weigh
 		// a weak prior of no burn: a day or two of two weighings do not set it
 		m.burn = math.Max(-40, math.Min(5, sxy/(sxx+2)))
 	}
-	var days []string
-	for k, os := range byDay {
+	for _, k := range days {
+		os := byDay[k]
 		var s float64
 		for _, o := range os {
 			s += o.lb - m.burn*o.idx
 		}
 		m.start[k] = s / float64(len(os))
-		days = append(days, k)
 	}
-	sort.Strings(days)
 	if len(days) > 5 {
 		days = days[len(days)-5:]
 	}
