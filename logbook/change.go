@@ -50,7 +50,7 @@ func ParseChange(field, s string) (string, error) {
 	if printable.Line(s) != s {
 		// A line break would split the logbook's row in a spreadsheet, an
 		// escape would reach the terminal of whoever lists the logbook.
-		return "", &weather.InputError{Field: field, Value: printable.Line(s),
+		return "", &weather.InputError{Field: field, Value: s, // quoted with its control characters escaped
 			Reason: "holds a control character (a line break, a tab, an escape ...): write it on one line of plain text"}
 	}
 	return s, nil

@@ -103,15 +103,17 @@ func TestChangeNotesScanned(t *testing.T) {
 func TestParseChange(t *testing.T) {
 	for _, tc := range []struct {
 		name, in, want, reason string
+		shows                  string // how the message shows the value: escaped, one line
 	}{
-		{"plain", " +2 psi boost ", "+2 psi boost", ""},
-		{"commas and quotes", `4.10 gear, "big" converter`, `4.10 gear, "big" converter`, ""},
-		{"blank", "", "", ""},
-		{"at the limit", strings.Repeat("x", MaxChangeLen), strings.Repeat("x", MaxChangeLen), ""},
-		{"too long", strings.Repeat("x", MaxChangeLen+1), "", "at most 200"},
-		{"a line break", "new\nconverter", "", "control character"},
-		{"an escape", "new \x1b[31mconverter", "", "control character"},
-		{"broken UTF-8", "new \xff converter", "", "control character"},
+		{"plain", " +2 psi boost ", "+2 psi boost", "", ""},
+		{"commas and quotes", `4.10 gear, "big" converter`, `4.10 gear, "big" converter`, "", ""},
+		{"blank", "", "", "", ""},
+		{"at the limit", strings.Repeat("x", MaxChangeLen), strings.Repeat("x", MaxChangeLen), "", ""},
+		{"too long", strings.Repeat("x", MaxChangeLen+1), "", "at most 200", ""},
+		{"a line break", "new\nconverter", "", "control character", `"new\nconverter"`},
+		{"a tab", "new\tconverter", "", "control character", `"new\tconverter"`},
+		{"an escape", "new \x1b[31mconverter", "", "control character", `"new \x1b[31mconverter"`},
+		{"broken UTF-8", "new \xff converter", "", "control character", `"new \xff converter"`},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			got, err := ParseChange("change", tc.in)
@@ -125,8 +127,11 @@ func TestParseChange(t *testing.T) {
 			if !errors.As(err, &ie) || ie.Field != "change" || !strings.Contains(err.Error(), tc.reason) {
 				t.Fatalf("ParseChange(%q): %v, want an input error on change saying %q", tc.in, err, tc.reason)
 			}
-			if strings.ContainsAny(err.Error(), "\n\x1b") {
+			if strings.ContainsAny(err.Error(), "\n\t\x1b") {
 				t.Errorf("the message carries the control character: %q", err.Error())
+			}
+			if tc.shows != "" && !strings.Contains(err.Error(), tc.shows) {
+				t.Errorf("the message %q should show the value as %s, where the character is", err.Error(), tc.shows)
 			}
 		})
 	}
