@@ -129,6 +129,13 @@ func TestGatherWithoutALogbook(t *testing.T) {
 		if c.HasFinal != want || (want && c.FewPasses == "") {
 			t.Errorf("%d passes: dial posted %v (want %v), few-passes note %q", n, c.HasFinal, want, c.FewPasses)
 		}
+		if !want {
+			// two passes are carried by the air, not fitted: the guide says so
+			var buf bytes.Buffer
+			if err := RenderText(&buf, c, false); err != nil || !strings.Contains(buf.String(), "Guide from 2 passes carried to this air") {
+				t.Errorf("%d passes: the guide should say the passes are carried by the air: %v\n%s", n, err, buf.String())
+			}
+		}
 	}
 	in.Car.PowerHP = 0 // and no power: no prediction, the card still renders
 	c = Gather(in)

@@ -177,7 +177,11 @@ func newView(c Card) view {
 		if f := c.Prediction; len(f.Timers) > 0 {
 			t := f.Finish()
 			from := "physics and car.yaml"
-			if n := f.Passes; n > 0 {
+			switch n := f.Passes; {
+			case n > 0 && f.Blend.ColdStart:
+				// too few passes to fit anything: they are carried by the air
+				from = fmt.Sprintf("%s carried to this air", text.Plural(n, "pass"))
+			case n > 0:
 				from = fmt.Sprintf("the model on %s", text.Plural(n, "pass"))
 			}
 			v.Guide = fmt.Sprintf("Guide from %s: %s %.2f s, 95 %% interval %.2f–%.2f s. Not a dial-in.", from, TimerName(t.DistanceFt), t.ET, t.Low, t.High)
