@@ -87,25 +87,38 @@ func (f *ReadingFields) ReadingAt(u weather.Units, now time.Time, base *weather.
 	if base != nil {
 		r = *base
 	} else {
-		for _, req := range []struct{ name, v string }{{"--temp", f.Temp}, {"--baro", f.Baro}} {
-			if req.v == "" {
-				return r, &MissingField{What: req.name}
-			}
-		}
-		if f.Humidity == "" && f.DewPoint == "" {
-			return r, &MissingField{What: "--humidity or --dewpoint"}
-		}
 		r.Time = now
 	}
+	r, err := f.parseOnto(r, u, base == nil)
+	if err != nil || base != nil {
+		return r, err
+	}
+	// Checked after the values given, so a bad one is named before a
+	// missing one ("--track-temp abc" is answered about abc).
+	for _, req := range []struct{ name, v string }{{"--temp", f.Temp}, {"--baro", f.Baro}} {
+		if req.v == "" {
+			return r, &MissingField{What: req.name}
+		}
+	}
+	if f.Humidity == "" && f.DewPoint == "" {
+		return r, &MissingField{What: "--humidity or --dewpoint"}
+	}
+	return r, nil
+}
+
+// parseOnto puts the fields given onto r; fresh says r is a new reading (not
+// a logged one whose fields the flags replace). A value that does not parse
+// is answered with its flag and, where it has one, its valid range.
+func (f *ReadingFields) parseOnto(r weather.Reading, u weather.Units, fresh bool) (weather.Reading, error) {
 	var err error
 	if f.Temp != "" {
 		if r.Temp, err = weather.ParseTemperature(f.Temp, u.Temp); err != nil {
-			return r, FlagErr(err, "--temp")
+			return r, rangedErr(err, "temp", u)
 		}
 	}
 	if f.Baro != "" {
 		if r.Baro, err = weather.ParsePressure(f.Baro, u.Pressure); err != nil {
-			return r, FlagErr(err, "--baro")
+			return r, rangedErr(err, "baro", u)
 		}
 		r.BaroKind = weather.StationPressure
 	}
@@ -119,7 +132,7 @@ func (f *ReadingFields) ReadingAt(u weather.Units, now time.Time, base *weather.
 	}
 	if f.Humidity != "" {
 		if r.RH, err = weather.ParsePercent(f.Humidity); err != nil {
-			return r, FlagErr(err, "--humidity")
+			return r, rangedErr(err, "humidity", u)
 		}
 		r.DewPointSet = false
 	}
@@ -131,10 +144,10 @@ func (f *ReadingFields) ReadingAt(u weather.Units, now time.Time, base *weather.
 	}
 	if f.Wind != "" {
 		if r.Wind, err = weather.ParseSpeed(f.Wind, u.Speed); err != nil {
-			return r, FlagErr(err, "--wind")
+			return r, rangedErr(err, "wind", u)
 		}
 		r.WindUnknown = false
-	} else if base == nil {
+	} else if fresh {
 		r.WindUnknown = true // not read: blank in weather.csv, never "calm"
 	}
 	if f.WindFrom != "" {
@@ -142,16 +155,31 @@ func (f *ReadingFields) ReadingAt(u weather.Units, now time.Time, base *weather.
 			return r, FlagErr(err, "--wind-from")
 		}
 		r.WindDirUnknown = false
-	} else if f.Wind != "" && base == nil && r.Wind > 0 {
+	} else if f.Wind != "" && fresh && r.Wind > 0 {
 		r.WindDirUnknown = true // a speed without a direction: neither head- nor tailwind
 	}
 	if f.TrackTemp != "" {
 		if r.TrackTemp, err = weather.ParseTemperature(f.TrackTemp, u.Temp); err != nil {
-			return r, FlagErr(err, "--track-temp")
+			return r, rangedErr(err, "track-temp", u)
 		}
 		r.HasTrack = true
 	}
 	return r, nil
+}
+
+// rangedErr names the flag --field in a parser's InputError and adds the
+// field's valid range in the crew's units: "--track-temp "abc" is not a
+// number with a unit (valid -20..200 °F)".
+func rangedErr(err error, field string, u weather.Units) error {
+	var ie *weather.InputError
+	if !errors.As(err, &ie) {
+		return err
+	}
+	named := ie.Named("--" + field)
+	if r := weather.RangeText(field, u); r != "" {
+		named.Reason += " (valid " + r + ")"
+	}
+	return named
 }
 
 // MissingField is a reading without a field it needs (and no reading to

@@ -73,6 +73,29 @@ var (
 	TrackTempRange = [2]float64{-20, 200}     // °F
 )
 
+// RangeText is the valid range of a reading's field, in units u, as
+// ValidateIn says it ("-20..200 °F" for "track-temp"), so a value that does
+// not even parse can be answered with what would have been taken. "" for a
+// field without a range of its own here.
+func RangeText(field string, u Units) string {
+	temp := func(r [2]float64) string {
+		return trimFloat(Fahrenheit(r[0]).In(u.Temp)) + ".." + trimFloat(Fahrenheit(r[1]).In(u.Temp)) + " " + u.Temp.String()
+	}
+	switch field {
+	case "temp":
+		return temp(TempRange)
+	case "track-temp":
+		return temp(TrackTempRange)
+	case "humidity":
+		return "0..100 %"
+	case "wind":
+		return trimFloat(MPH(WindRange[0]).In(u.Speed)) + ".." + trimFloat(MPH(WindRange[1]).In(u.Speed)) + " " + u.Speed.String()
+	case "baro":
+		return trimFloat(InHg(StationRange[0]).In(u.Pressure)) + ".." + trimFloat(InHg(StationRange[1]).In(u.Pressure)) + " " + u.Pressure.String()
+	}
+	return ""
+}
+
 func outside(v float64, r [2]float64) bool { return !(v >= r[0] && v <= r[1]) } // NaN is outside
 
 func rangeErr(field string, v float64, unit string, r [2]float64) *InputError {

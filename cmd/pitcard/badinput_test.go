@@ -125,7 +125,7 @@ func TestBadInputTour(t *testing.T) {
 			{[]string{"log", "add", "--dir", good, "--session", "E9", "--lane", "left", "--et1320", "11.5", "--weight", "50"}, 2, []string{"--weight", "500..10000"}},
 			{[]string{"log", "add", "--dir", good, "--session", "E9", "--lane", "left", "--et1320", "11.5", "--date", "2500-06-01"}, 2, []string{"--date", "2500-06-01", "in the future", "today is 2026-06-13"}},
 			{[]string{"log", "add", "--dir", good, "--session", "E9", "--lane", "left", "--et1320", "11.5", "--change", strings.Repeat("new converter ", 20)}, 2, []string{"--change", "is 279 bytes long (at most 200)", "the rest goes in the notes"}},
-			{[]string{"log", "add", "--dir", good, "--session", "E9", "--lane", "left", "--et1320", "11.5", "--change", "new\x1b[2Jconverter"}, 2, []string{"--change", `"new\\x1b[2Jconverter"`, "control character", "one line"}},
+			{[]string{"log", "add", "--dir", good, "--session", "E9", "--lane", "left", "--et1320", "11.5", "--change", "new\x1b[2Jconverter"}, 2, []string{"--change", `"new\x1b[2Jconverter"`, "control character", "one line"}},
 		},
 		"log import/list/stats": {
 			{[]string{"log", "import", "--dir", good, missing}, 2, []string{"cannot read"}},
@@ -171,6 +171,9 @@ func TestBadInputTour(t *testing.T) {
 			{[]string{"dial", "--dir", good, "--dial-step", "1"}, 2, []string{"--dial-step", "0.001..0.1"}},
 			{[]string{"dial", "--dir", badSettings}, 2, []string{"dial_step"}},
 			{[]string{"dial", "--dir", good, "--rows", "0"}, 2, []string{"--rows"}},
+			// a bad value is named before a missing one, with its range
+			{[]string{"dial", "--dir", good, "--track-temp", "abc"}, 2, []string{`--track-temp "abc"`, "not a number", "-20..200 °F"}},
+			{[]string{"dial", "--dir", good, "--latest", "--track-temp", "900F"}, 2, []string{"--track-temp", "900", "-20..200 °F"}},
 		},
 		"predict": {
 			{with([]string{"predict", "--dir", badCar}, reading...), 2, []string{"car.yaml", "weight_lb", "500..10000"}},
@@ -178,6 +181,10 @@ func TestBadInputTour(t *testing.T) {
 			{with([]string{"predict", "--dir", good, "--logbook", missing}, reading...), 2, []string{"cannot read"}},
 			{with([]string{"predict", "--dir", badLog}, reading...), 2, []string{"logbook.csv line"}},
 			{with([]string{"predict", "--dir", good, "--track-temp", "300F"}, reading...), 2, []string{"--track-temp", "-20..200"}},
+			{[]string{"predict", "--dir", good, "--latest", "--track-temp", "abc"}, 2, []string{`--track-temp "abc"`, "not a number", "-20..200 °F"}},
+			{[]string{"predict", "--dir", good, "--track-temp", "abc"}, 2, []string{`--track-temp "abc"`, "-20..200 °F"}},
+			{[]string{"predict", "--dir", good, "--latest", "--wind", "breezy"}, 2, []string{`--wind "breezy"`, "0..60 mph"}},
+			{[]string{"--units", "metric", "predict", "--dir", good, "--latest", "--track-temp", "hot"}, 2, []string{`--track-temp "hot"`, "-28.89..93.33 °C"}},
 			{with([]string{"predict", "--dir", good, "--at", "09:00"}), 2, []string{"before the first reading"}},
 		},
 		"rules": {
@@ -197,6 +204,10 @@ func TestBadInputTour(t *testing.T) {
 			{[]string{"card", "--dir", good, "--format", "pdf"}, 2, []string{"--format", "pdf"}},
 			{[]string{"card", "--dir", good, "--opponent-dial", "11,4"}, 2, []string{"--opponent-dial"}},
 			{[]string{"card", "--dir", good, "--at", "8pm"}, 2, []string{"--at"}},
+			{[]string{"card", "--dir", good, "--track-temp", "abc"}, 2, []string{`--track-temp "abc"`, "-20..200 °F"}},
+			{[]string{"card", "--dir", good, "--track-temp", "900F"}, 2, []string{`--track-temp "900 °F"`, "-20..200 °F"}},
+			{[]string{"card", "--dir", good, "--change", "new\tconverter"}, 2, []string{"--change", `"new\tconverter"`, "control character"}},
+			{[]string{"card", "--dir", good, "--change", strings.Repeat("x", 500)}, 2, []string{"--change", "500 bytes long (at most 200)"}},
 			{[]string{"card", "--dir", badCar}, 2, []string{"car.yaml", "weight_lb"}},
 			// a bad weather.csv row costs that row: the card prints from the rest (and the flags), names it, exits 2
 			{with([]string{"card", "--dir", badWeather, "--round", "3", "--lane", "left"}, reading...), 2, []string{"POST THIS", "weather.csv line 3", "1 row(s) cannot be read, left out"}},
