@@ -174,6 +174,8 @@ func TestBadInputTour(t *testing.T) {
 			// a bad value is named before a missing one, with its range
 			{[]string{"dial", "--dir", good, "--track-temp", "abc"}, 2, []string{`--track-temp "abc"`, "not a number", "-20..200 °F"}},
 			{[]string{"dial", "--dir", good, "--latest", "--track-temp", "900F"}, 2, []string{"--track-temp", "900", "-20..200 °F"}},
+			{[]string{"dial", "--dir", good, "--change", "new\tconverter"}, 2, []string{"--change", `"new\tconverter"`, "control character"}},
+			{[]string{"dial", "--dir", good, "--change", strings.Repeat("x", 500)}, 2, []string{"--change", "500 bytes long (at most 200)"}},
 		},
 		"predict": {
 			{with([]string{"predict", "--dir", badCar}, reading...), 2, []string{"car.yaml", "weight_lb", "500..10000"}},

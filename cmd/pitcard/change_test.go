@@ -125,3 +125,53 @@ func TestCardWithAPendingChange(t *testing.T) {
 		t.Errorf("a change with a control character: exit %d, %s", code, errOut)
 	}
 }
+
+// dial takes --change as the card does (the README promises it on card,
+// dial and round): a change not yet run widens the spread of both the
+// round's dial and the --latest estimate, and the dial posted moves with
+// the card's.
+func TestDialWithAPendingChange(t *testing.T) {
+	type dialOut struct {
+		SD          float64     `json:"sd"`
+		Recommended json.Number `json:"recommended_dial"`
+	}
+	read := func(t *testing.T, args ...string) dialOut {
+		t.Helper()
+		out, errOut, code := pitcard(t, append([]string{"dial", "--demo", "--format", "json"}, args...)...)
+		if code != 0 {
+			t.Fatalf("dial %v: exit %d: %s", args, code, errOut)
+		}
+		var j dialOut
+		if err := json.Unmarshal([]byte(out), &j); err != nil {
+			t.Fatalf("dial %v JSON: %v", args, err)
+		}
+		return j
+	}
+	for _, tc := range []struct {
+		name string
+		args []string
+	}{{"the round's card", nil}, {"the latest reading", []string{"--latest"}}} {
+		t.Run(tc.name, func(t *testing.T) {
+			plain := read(t, tc.args...)
+			changed := read(t, append(tc.args, "--change", "new converter")...)
+			// engine.ChangePriorShare: 1 % of an 11.4 s ET, added in quadrature
+			if changed.SD < plain.SD+0.05 {
+				t.Errorf("sd %.4f s without the change, %.4f s with it: a pending change must widen it", plain.SD, changed.SD)
+			}
+		})
+	}
+	// the same round, the same pick before the rules as the card's
+	card := mustRun(t, "card", "--demo", "--change", "new converter", "--format", "json")
+	var c struct {
+		Dial struct {
+			Recommended json.Number `json:"recommended"`
+		} `json:"dial"`
+	}
+	if err := json.Unmarshal([]byte(card), &c); err != nil {
+		t.Fatal(err)
+	}
+	d := read(t, "--change", "new converter")
+	if d.Recommended != c.Dial.Recommended {
+		t.Errorf("dial --change picks %s before the rules, the card %s", d.Recommended, c.Dial.Recommended)
+	}
+}

@@ -33,7 +33,10 @@ type dialOptions struct {
 	// Round and Lane pick the round whose card the dial is posted from
 	// (default: the schedule's next, as the card's).
 	Round, Lane string
-	opp         opponentFlags
+	// Change is a change made to the car since its last pass and not yet
+	// run: the interval carries it, as the card's --change.
+	Change string
+	opp    opponentFlags
 }
 
 func newDialCmd(s *IOStreams, g *globalOptions) *cobra.Command {
@@ -69,6 +72,7 @@ passes at the distance raced, not corrected for the air, and says so.`,
 	cmd.Flags().StringVar(&o.OppDial, "opponent-dial", "", "the other lane's dial-in, s: adds each dial's chance to win")
 	cmd.Flags().StringVar(&o.Round, "round", "", roundFlagHelp+" (default: the schedule's next, as the card's)")
 	cmd.Flags().StringVar(&o.Lane, "lane", "", "left or right (default: the schedule's)")
+	cmd.Flags().StringVar(&o.Change, "change", "", "what was changed on the car since its last pass, in your words (widens the interval until a pass shows what it is worth)")
 	o.opp.bind(cmd)
 	withOut(cmd, s)
 	return cmd
@@ -118,6 +122,10 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 	if o.Rows < 1 || o.Rows > 50 {
 		return &weather.InputError{Field: "--rows", Value: fmt.Sprint(o.Rows), Reason: "is outside 1..50"}
 	}
+	change, err := logbook.ParseChange("--change", o.Change)
+	if err != nil {
+		return err
+	}
 	e, err := o.g.open(cmd)
 	if err != nil {
 		return err
@@ -156,7 +164,7 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 			}
 		}
 		if useModel {
-			n, err := forecastNext(e, o.cond, o.Prep, "", o.s.Now())
+			n, err := forecastNext(e, o.cond, o.Prep, "", change, o.s.Now())
 			if err != nil {
 				return err
 			}
@@ -172,7 +180,7 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 				return noDial(o, est, why, rests, leftOut)
 			}
 			post = dialPost{failed: prep.Failed(prep.SafetyChecks(prep.SafetyFor(n.Car, n.Pred, n.When, e.Settings.Units)))}
-			c, ok, err := o.card(e, askedLatest)
+			c, ok, err := o.card(e, askedLatest, change)
 			if err != nil {
 				return err
 			}
@@ -399,7 +407,7 @@ func (p dialPost) write(s *IOStreams, j dialJSON, plan bracket.DialPlan) {
 // --at), or with --latest (the air of the last reading, not the call's).
 // A round asked for (--round, --lane) that cannot be gathered is an error,
 // not a quiet fall back to another number.
-func (o *dialOptions) card(e *eventFolder, latest bool) (prep.Card, bool, error) {
+func (o *dialOptions) card(e *eventFolder, latest bool, change string) (prep.Card, bool, error) {
 	asked := o.Round != "" || o.Lane != ""
 	if latest {
 		if asked {
@@ -408,7 +416,7 @@ func (o *dialOptions) card(e *eventFolder, latest bool) (prep.Card, bool, error)
 		return prep.Card{}, false, nil
 	}
 	in, _, err := e.GatherRound(event.RoundRequest{Reading: o.cond.ReadingFields, At: o.cond.At, Prep: o.Prep, Round: o.Round, Lane: o.Lane,
-		OpponentDial: o.OppDial, Opponent: o.opp.OpponentFields}, e.DemoClock(o.s.Now()))
+		OpponentDial: o.OppDial, Opponent: o.opp.OpponentFields, Change: change}, e.DemoClock(o.s.Now()))
 	if err != nil && !event.Usable(err) || err != nil && asked {
 		if asked {
 			return prep.Card{}, false, err

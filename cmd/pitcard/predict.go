@@ -82,7 +82,7 @@ type nextPass struct {
 	Units   weather.Units
 }
 
-func forecastNext(e *eventFolder, cond conditionFlags, prepFlag, weightFlag string, now time.Time) (nextPass, error) {
+func forecastNext(e *eventFolder, cond conditionFlags, prepFlag, weightFlag, change string, now time.Time) (nextPass, error) {
 	var n nextPass
 	car, err := e.Car()
 	if err != nil {
@@ -120,7 +120,7 @@ func forecastNext(e *eventFolder, cond conditionFlags, prepFlag, weightFlag stri
 		upTo = passes[len(passes)-1].Time
 	}
 	pred, fit, err := engine.Forecast(engine.CalibrateInput{Car: car, Track: c.Track, Tracks: tracks, Passes: passes, Now: upTo, DayStart: e.Settings.DayStart, Aborts: e.Settings.AbortWords, Changes: e.Settings.ChangeWords},
-		engine.PredictInput{Air: c.Reading, Prep: prep, WeightLb: weight, Time: when}, e.HeldOut())
+		engine.PredictInput{Air: c.Reading, Prep: prep, WeightLb: weight, Time: when, Change: change}, e.HeldOut())
 	if err != nil {
 		return n, err
 	}
@@ -147,7 +147,7 @@ func predictRun(cmd *cobra.Command, o *predictOptions) error {
 			*f.dst = f.v
 		}
 	}
-	n, err := forecastNext(e, o.cond, o.Prep, o.Weight, o.s.Now())
+	n, err := forecastNext(e, o.cond, o.Prep, o.Weight, "", o.s.Now())
 	if err != nil {
 		return err
 	}
