@@ -52,7 +52,9 @@ func (b *blendJSON) check(t *testing.T, what string) {
 			t.Errorf("%s: member %q share %v outside 0..1", what, m.Name, m.Share)
 		}
 	}
-	if len(b.Members) != 5 || math.Abs(sum-1) > 0.002 || !names["the pass model"] {
+	// six members: the pass model, the latest passes by air, today's passes,
+	// passes on a like surface, the latest passes by the model, the last pass by air
+	if len(b.Members) != 6 || math.Abs(sum-1) > 0.002 || !names["the pass model"] {
 		t.Errorf("%s: members %+v (shares sum to %.4f, want 1)", what, b.Members, sum)
 	}
 	if !(b.Scale > 0) {

@@ -209,7 +209,7 @@ func TestSettingsWords(t *testing.T) {
 	}{
 		{"env step in e-notation", "PITCARD_DIAL_STEP=1e-2", "", 0, []string{"Dial-ins (step 0.01 s"}},
 		{"yaml step in e-notation", "", "dial_step: 1e-2", 0, []string{"Dial-ins (step 0.01 s"}},
-		{"env step 0.010", "PITCARD_DIAL_STEP=0.010", "", 0, []string{"the breakout rule's 11.41,"}},
+		{"env step 0.010", "PITCARD_DIAL_STEP=0.010", "", 0, []string{"the breakout rule's 11.40,"}},
 		{"env risk not a number", "PITCARD_BREAKOUT_RISK=abc", "", 2, []string{"PITCARD_BREAKOUT_RISK", `"abc" is not a number`, "0.001..0.5"}},
 		{"yaml risk not a number", "", "breakout_risk: abc", 2, []string{"pitcard.yaml line", "breakout_risk", "is not a number"}},
 		{"env rule time not a number", "PITCARD_RULE_TIME_MS=fast", "", 2, []string{"PITCARD_RULE_TIME_MS", "is not a number", "10..10000 ms"}},
