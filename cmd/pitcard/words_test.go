@@ -123,7 +123,7 @@ func TestOneFormatterForADial(t *testing.T) {
 		{"card", []string{"card", "--demo", "--dial-step", "0.005", "--opponent-dial", "10.125"},
 			[]string{"the other lane dials 10.125", "the other lane's 10.125 dial"}, []string{"10.13"}},
 		{"dial json", []string{"dial", "--demo", "--dial-step", "0.005", "--opponent-dial", "10.125", "--format", "json"},
-			[]string{`"recommended_dial": 11.410`, `"post_dial": 11.400`}, nil},
+			[]string{`"recommended_dial": 11.405`, `"post_dial": 11.395`}, nil},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			out := mustRun(t, tc.args...)
