@@ -185,3 +185,34 @@ func TestRulesSeeFiguresAsRead(t *testing.T) {
 		t.Errorf("rules see track %v °F, air %v °F", air["track_temp_f"], air["temp_f"])
 	}
 }
+
+// A card on one or two passes never says it was calibrated to them, nor
+// gives a pass a share of weights nothing was fitted with: "Calibrated to
+// 1 passes ... 45 % of the weight" beside "nothing fitted" contradicted
+// itself. From three passes on it says how many it was calibrated to, in
+// good English (common practice, no source: what the crew reads).
+func TestExplainOnFewPasses(t *testing.T) {
+	for _, tc := range []struct {
+		passes    int
+		want, not []string
+	}{
+		{1, []string{"Carried by the air from ", "(ran "}, []string{"Calibrated to", "of the weight", "1 passes"}},
+		{2, []string{"Carried by the air from ", "(ran "}, []string{"Calibrated to", "of the weight"}},
+		{3, []string{"Calibrated to 3 passes.", "of the weight"}, []string{"Carried by the air from"}},
+	} {
+		t.Run(fmt.Sprintf("passes=%d", tc.passes), func(t *testing.T) {
+			c := Gather(input(modelLogbook(tc.passes), nil, nil))
+			words := strings.Join(Explain(c.Prediction, c.Fit, weather.Imperial), "\n")
+			for _, w := range tc.want {
+				if !strings.Contains(words, w) {
+					t.Errorf("lacks %q:\n%s", w, words)
+				}
+			}
+			for _, w := range tc.not {
+				if strings.Contains(words, w) {
+					t.Errorf("says %q:\n%s", w, words)
+				}
+			}
+		})
+	}
+}

@@ -176,15 +176,7 @@ func newView(c Card) view {
 		v.NoDial = text.UpperFirst(c.NoDial) + "."
 		if f := c.Prediction; len(f.Timers) > 0 {
 			t := f.Finish()
-			from := "physics and car.yaml"
-			switch n := f.Passes; {
-			case n > 0 && f.Blend.ColdStart:
-				// too few passes to fit anything: they are carried by the air
-				from = fmt.Sprintf("%s carried to this air", text.Plural(n, "pass"))
-			case n > 0:
-				from = fmt.Sprintf("the model on %s", text.Plural(n, "pass"))
-			}
-			v.Guide = fmt.Sprintf("Guide from %s: %s %.2f s, 95 %% interval %.2f–%.2f s. Not a dial-in.", from, TimerName(t.DistanceFt), t.ET, t.Low, t.High)
+			v.Guide = fmt.Sprintf("Guide from %s: %s %.2f s, 95 %% interval %.2f–%.2f s. Not a dial-in.", GuideFrom(f), TimerName(t.DistanceFt), t.ET, t.Low, t.High)
 		}
 	}
 
@@ -328,6 +320,20 @@ func newView(c Card) view {
 	return v
 }
 
+// GuideFrom says what a no-dial guide was made from: "physics and
+// car.yaml", "2 passes carried to this air" (too few to fit anything: they
+// are carried by the air) or "the model on 5 passes". The card's guide and
+// dial's say it alike.
+func GuideFrom(p engine.Prediction) string {
+	switch n := p.Passes; {
+	case n > 0 && p.Blend.ColdStart:
+		return fmt.Sprintf("%s carried to this air", text.Plural(n, "pass"))
+	case n > 0:
+		return fmt.Sprintf("the model on %s", text.Plural(n, "pass"))
+	}
+	return "physics and car.yaml"
+}
+
 // Explain says, in lines, why a prediction is what it is: physics alone or
 // not, what each change of conditions is worth to the car today, the passes
 // it leaned on most, those it left out and why, and its notes but those
@@ -338,7 +344,19 @@ func Explain(p engine.Prediction, f engine.Fit, u weather.Units) []string {
 		out = append(out, "Physics from car.yaml alone: no logbook passes with their weather to calibrate to, so the interval is wide.")
 	}
 	out = append(out, sensitivityWords(p.Sensitivity, u))
-	if len(p.Leaned) > 0 {
+	switch {
+	case len(p.Leaned) > 0 && p.Blend.ColdStart:
+		// Nothing is fitted on so few: the passes are carried by the air
+		// alone, so neither a calibration nor the model's weights apply.
+		var parts []string
+		for i, l := range p.Leaned {
+			if i == 2 {
+				break
+			}
+			parts = append(parts, fmt.Sprintf("%s %s (ran %.3f)", l.Pass.Time.Format("01-02"), l.Pass.Session.Long(), l.ET))
+		}
+		out = append(out, fmt.Sprintf("Carried by the air from %s.", strings.Join(parts, "; ")))
+	case len(p.Leaned) > 0:
 		var parts []string
 		for i, l := range p.Leaned {
 			if i == 2 {
@@ -347,7 +365,7 @@ func Explain(p engine.Prediction, f engine.Fit, u weather.Units) []string {
 			parts = append(parts, fmt.Sprintf("%s %s (ran %.3f; %.3f in this round's conditions; %.0f %% of the weight)",
 				l.Pass.Time.Format("01-02"), l.Pass.Session.Long(), l.ET, l.Carried, 100*l.Share))
 		}
-		out = append(out, fmt.Sprintf("Calibrated to %d passes. It leans most on: %s.", len(f.Samples), strings.Join(parts, "; ")))
+		out = append(out, fmt.Sprintf("Calibrated to %s. It leans most on: %s.", text.Plural(len(f.Samples), "pass"), strings.Join(parts, "; ")))
 	}
 	for i, o := range p.Outliers {
 		if i == 1 {

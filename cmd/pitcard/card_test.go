@@ -315,3 +315,32 @@ func TestHTMLCardPrintsOnOnePage(t *testing.T) {
 		}
 	}
 }
+
+// dial's guide on too few passes says what it is made from as the card's
+// does: one or two passes carried by the air, never "the pass model
+// calibrated to 2 passes" beside "nothing fitted"; none, physics.
+func TestDialGuideOnFewPasses(t *testing.T) {
+	for _, tc := range []struct {
+		keep int // the demo's latest passes kept
+		want string
+	}{{0, "Guide from physics and car.yaml"}, {1, "Guide from 1 pass carried to this air"}, {2, "Guide from 2 passes carried to this air"}} {
+		t.Run(fmt.Sprintf("passes=%d", tc.keep), func(t *testing.T) {
+			dir := demoCopy(t)
+			editFile(t, dir, "logbook.csv", func(s string) string {
+				lines := strings.Split(strings.TrimRight(s, "\n"), "\n")
+				return strings.Join(append(lines[:1], lines[len(lines)-tc.keep:]...), "\n") + "\n"
+			})
+			out := oneLine(mustRun(t, "dial", "--dir", dir, "--latest"))
+			if !strings.Contains(out, tc.want) || strings.Contains(out, "calibrated to") {
+				t.Errorf("dial's guide should say %q, not a calibration:\n%s", tc.want, out)
+			}
+			var j struct{ Basis string }
+			if err := json.Unmarshal([]byte(mustRun(t, "dial", "--dir", dir, "--latest", "--format", "json")), &j); err != nil {
+				t.Fatal(err)
+			}
+			if !strings.HasPrefix("Guide from "+j.Basis, tc.want) {
+				t.Errorf("dial's JSON basis %q, want it to begin as %q", j.Basis, strings.TrimPrefix(tc.want, "Guide from "))
+			}
+		})
+	}
+}

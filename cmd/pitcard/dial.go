@@ -176,7 +176,9 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 			leftOut = n.LeftOut
 			rests = restsOnOf(n.Pred, n.Fit, n.Units)
 			if ok, why := n.Pred.DialReady(); !ok {
-				// No dial table from too few passes: the estimate is a guide.
+				// No dial table from too few passes: the estimate is a
+				// guide, said as the card's guide says what it is from.
+				est.Basis = prep.GuideFrom(n.Pred) + ", in " + n.Cond.Source
 				return noDial(o, est, why, rests, leftOut)
 			}
 			post = dialPost{failed: prep.Failed(prep.SafetyChecks(prep.SafetyFor(n.Car, n.Pred, n.When, e.Settings.Units)))}
@@ -446,7 +448,7 @@ func noDial(o *dialOptions, est bracket.Estimate, why string, rests restsOn, lef
 	}
 	w := o.s.width()
 	fmt.Fprintln(o.s.Out, prep.Wrap(fmt.Sprintf("No dial yet: %s.", why), w, "  "))
-	fmt.Fprintln(o.s.Out, prep.Wrap(fmt.Sprintf("Guide: %.2f s ± %.2f (one standard deviation), %s.", est.ET, est.SD, est.Basis), w, "  "))
+	fmt.Fprintln(o.s.Out, prep.Wrap(fmt.Sprintf("Guide from %s: %.2f s ± %.2f (one standard deviation).", est.Basis, est.ET, est.SD), w, "  "))
 	rests.write(o.s)
 	fmt.Fprintln(o.s.Out, "For a table anyway, give your own estimate: --et and --sd.")
 	return leftOut
