@@ -43,7 +43,7 @@ const (
 
 // Name is the member in words, as the card says what it leaned on.
 func (m member) Name() string {
-	return [...]string{"the pass model", "the latest passes by air", "today's passes", "passes on a like surface", "the latest passes by the model", "the last pass by air"}[m]
+	return [...]string{"the pass model", "the latest passes carried by the air", "today's passes", "passes on a like surface", "the latest passes carried by the model", "the last pass carried by the air"}[m]
 }
 
 // Blend settings.
@@ -85,7 +85,7 @@ var memberPrior = [nMembers]float64{0.36, 0.12, 0.08, 0.08, 0.16, 0.20}
 type MemberShare struct {
 	Name  string
 	Share float64 // 0..1
-	ET    float64 // its own finish ET for the next pass, s
+	ET    float64 // its own finish ET for the next pass, s (NaN: it has none)
 	MAE   float64 // its mean miss on the scored passes, s (NaN: none scored)
 }
 
@@ -101,15 +101,40 @@ type Blend struct {
 }
 
 // Text says what the blend leaned on, e.g. "the pass model 70 %, today's
-// passes 30 %".
+// passes 30 %": whole percents that add up to 100 (largest remainders), a
+// member that rounds to none left out.
 func (b Blend) Text() string {
 	var parts []string
-	for _, m := range b.Members {
-		if m.Share >= 0.03 { // a share under 3 % moves the ET under a thousandth in most cases
-			parts = append(parts, fmt.Sprintf("%s %.0f %%", m.Name, 100*m.Share))
+	for i, pct := range b.Percents() {
+		if pct > 0 {
+			parts = append(parts, fmt.Sprintf("%s %d %%", b.Members[i].Name, pct))
 		}
 	}
 	return strings.Join(parts, ", ")
+}
+
+// Percents are the members' shares in whole percents adding up to 100 (the
+// largest-remainder method: each share rounded down, the points left over
+// going to the largest remainders), so the card's shares never sum to 97.
+func (b Blend) Percents() []int {
+	out := make([]int, len(b.Members))
+	rem := make([]int, 0, len(b.Members))
+	total := 0
+	for i, m := range b.Members {
+		out[i] = int(math.Floor(100 * m.Share))
+		total += out[i]
+		rem = append(rem, i)
+	}
+	if total == 0 {
+		return out // no shares (nothing blended)
+	}
+	frac := func(i int) float64 { return 100*b.Members[i].Share - float64(out[i]) }
+	slices.SortStableFunc(rem, func(a, c int) int { return cmpFloat(frac(c), frac(a)) })
+	for k := 0; total < 100 && k < len(rem); k++ {
+		out[rem[k]]++
+		total++
+	}
+	return out
 }
 
 // estimate is one member's prediction of one pass.
@@ -359,6 +384,9 @@ func Forecast(cal CalibrateInput, next PredictInput, cache *HeldOutCache) (Predi
 		t.Low, t.High = t.MPH-IntervalZ*t.SD, t.MPH+IntervalZ*t.SD
 	}
 	if b.ColdStart {
+		// nothing is fitted: the model's own account of its calibration
+		// would contradict the cold start
+		pr.Notes = slices.DeleteFunc(pr.Notes, func(n string) bool { return strings.HasPrefix(n, "calibrated to ") })
 		pr.Notes = append(pr.Notes, fmt.Sprintf("only %s at %.0f ft: the prediction carries them to this air by the SAE J1349 factor alone; nothing is fitted yet",
 			text.Plural(len(fit.Samples), "clean pass"), dist))
 	} else {
@@ -420,7 +448,7 @@ const (
 // the car) to next's air, most recent first, leaving out gross outliers.
 func carryAll(cal CalibrateInput, passes []logbook.Pass, next PredictInput, elev weather.Length) []carriedPass {
 	if !cal.Ablation.NoChangeCarry {
-		passes = sinceChange(passes, cal.Changes)
+		passes = logbook.SinceChange(passes, cal.Changes)
 	}
 	now := next.Air.Derive(elev)
 	if !(now.CFJ1349 > 0) {
@@ -906,6 +934,9 @@ func shares(now [nMembers]estimate, w [nMembers]float64, mae [nMembers]float64) 
 	out := make([]MemberShare, nMembers)
 	for m := range nMembers {
 		out[m] = MemberShare{Name: member(m).Name(), ET: now[m].ET, MAE: mae[m]}
+		if !now[m].OK {
+			out[m].ET = math.NaN() // no estimate of its own for the next pass
+		}
 		if now[m].OK && sum > 0 {
 			out[m].Share = w[m] / sum
 		}

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"math"
 	"math/rand/v2"
+	"slices"
 	"strings"
 	"testing"
 	"time"
@@ -131,6 +132,43 @@ func TestColdStartCarriesThePasses(t *testing.T) {
 		et, _ := p.ETAt(testCar.DistanceFt)
 		if !pr.Blend.ColdStart || pr.Blend.Members[airMember].Share != 1 || math.Abs(pr.Finish().ET-et) > 1e-6 {
 			t.Errorf("call %v after the pass: cold start %v, shares %+v, ET %.4f (the pass ran %.4f in this very air)", call, pr.Blend.ColdStart, pr.Blend.Members, pr.Finish().ET, et)
+		}
+		// what it says of itself: carried, not calibrated
+		for _, n := range pr.Notes {
+			if strings.HasPrefix(n, "calibrated to") {
+				t.Errorf("a cold start says %q", n)
+			}
+		}
+		if b := pr.Estimate().Basis; !strings.Contains(b, "1 pass carried") {
+			t.Errorf("a cold start's basis %q, want the pass carried to this air", b)
+		}
+		if e := pr.Blend.Members[similarMember].ET; !math.IsNaN(e) {
+			t.Errorf("a member with no estimate shows an ET of %v, want none (NaN)", e)
+		}
+	}
+}
+
+// The shares the card prints are whole percents that add up to 100: each
+// rounded down, the points left going to the largest remainders (the
+// largest-remainder method of apportionment, Hamilton 1792; source: any
+// text on apportionment).
+func TestBlendPercentsAddUp(t *testing.T) {
+	for _, tc := range []struct {
+		shares []float64
+		want   []int
+	}{
+		{[]float64{0.56, 0.0288, 0.05, 0.0, 0.22, 0.1412}, []int{56, 3, 5, 0, 22, 14}},
+		{[]float64{1.0 / 3, 1.0 / 3, 1.0 / 3}, []int{34, 33, 33}},
+		{[]float64{0.004, 0.996}, []int{0, 100}},
+		{[]float64{1, 0}, []int{100, 0}},
+	} {
+		b := Blend{}
+		for _, sh := range tc.shares {
+			b.Members = append(b.Members, MemberShare{Share: sh})
+		}
+		got := b.Percents()
+		if !slices.Equal(got, tc.want) {
+			t.Errorf("shares %v: percents %v, want %v", tc.shares, got, tc.want)
 		}
 	}
 }

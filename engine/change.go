@@ -106,14 +106,3 @@ func meanOf(v []float64) float64 {
 	}
 	return s / float64(len(v))
 }
-
-// sinceChange is passes from the latest that notes a change of the car on
-// (all of them when none does): what the changed car has run.
-func sinceChange(passes []logbook.Pass, words logbook.ChangeWords) []logbook.Pass {
-	for i := len(passes) - 1; i >= 0; i-- {
-		if _, ok := logbook.ChangeNoted(passes[i], words); ok {
-			return passes[i:]
-		}
-	}
-	return passes
-}

@@ -67,6 +67,14 @@ func TestACarChangeIsCarried(t *testing.T) {
 	if missNoted > missUnnoted/2 {
 		t.Errorf("the note does not help: miss %.3f with it, %.3f without", missNoted, missUnnoted)
 	}
+	// the passes leaned on show what they ran, as on the slip; the change's
+	// offset is in what they carry to today, not in the logged time
+	for _, l := range noted.Leaned {
+		if logged, _ := l.Pass.ETAt(w.Car.DistanceFt); math.Abs(l.ET-logged) > 1e-9 {
+			t.Errorf("the pass of %s leaned on shows %.3f, logged %.3f", l.Pass.Time.Format("01-02 15:04"), l.ET, logged)
+			break
+		}
+	}
 	var said bool
 	for _, n := range noted.Notes {
 		said = said || strings.Contains(n, "changed") && strings.Contains(n, "since the change")

@@ -145,8 +145,10 @@ func (p Prediction) Estimate() bracket.Estimate {
 		basis = "physics from car.yaml alone (no logbook passes to calibrate to: wide interval)"
 	case p.Raw:
 		basis = fmt.Sprintf("the plain average of %d recent passes logged without their weather (not corrected for the air)", len(p.Leaned))
+	case p.Blend.ColdStart && len(p.Leaned) > 0:
+		basis = fmt.Sprintf("%s carried to this air by the SAE J1349 factor (nothing fitted yet)", text.Plural(len(p.Leaned), "pass"))
 	case len(p.Leaned) > 0:
-		basis = fmt.Sprintf("the pass model calibrated to %d passes, corrected by the recent ones", len(p.Leaned))
+		basis = fmt.Sprintf("the pass model calibrated to %s, corrected by the recent ones", text.Plural(len(p.Leaned), "pass"))
 	}
 	sd := f.SD
 	if p.DialSD > 0 {
@@ -235,11 +237,16 @@ func Predict(f Fit, in PredictInput) Prediction {
 		pr.Notes = append(pr.Notes, "no logged times at "+strings.Join(unlogged, ", ")+": those come from the model, with a wider interval")
 	}
 	for i, s := range f.Samples {
-		pr.Leaned = append(pr.Leaned, Leaned{Pass: s.Pass, Share: w[i], ET: s.Obs[fj], Carried: s.Obs[fj] + model.ET[fj] - s.Sim.ET[fj]})
+		// ET is the pass as logged; Obs may carry a change's offset
+		logged, ok := s.Pass.ETAt(f.Car.DistanceFt)
+		if !ok {
+			logged = s.Obs[fj]
+		}
+		pr.Leaned = append(pr.Leaned, Leaned{Pass: s.Pass, Share: w[i], ET: logged, Carried: s.Obs[fj] + model.ET[fj] - s.Sim.ET[fj]})
 	}
 	sort.SliceStable(pr.Leaned, func(a, b int) bool { return pr.Leaned[a].Share > pr.Leaned[b].Share })
-	pr.Notes = append(pr.Notes, fmt.Sprintf("calibrated to %d clean passes (%s to %s); the correction leans mostly on the latest %d",
-		len(f.Samples), f.Samples[len(f.Samples)-1].Pass.Time.Format("2006-01-02"), f.Samples[0].Pass.Time.Format("2006-01-02"), max(1, int(math.Round(kEff)))))
+	pr.Notes = append(pr.Notes, fmt.Sprintf("calibrated to %s (%s to %s); the correction leans mostly on the latest %d",
+		text.Plural(len(f.Samples), "clean pass"), f.Samples[len(f.Samples)-1].Pass.Time.Format("2006-01-02"), f.Samples[0].Pass.Time.Format("2006-01-02"), max(1, int(math.Round(kEff)))))
 	if u.extra > 0.0005 {
 		pr.Notes = append(pr.Notes, fmt.Sprintf("today lies outside the conditions of the passes leaned on (%s): the interval is widened by %.3f s",
 			outsideText(pr.Sensitivity), u.extra))

@@ -335,3 +335,15 @@ func clauseOf(words []noteWord, i int) string {
 	}
 	return strings.Join(typed, " ")
 }
+
+// SinceChange is passes from the latest that notes a change of the car on
+// (all of them when none does): what the changed car has run. words nil is
+// DefaultChangeWords.
+func SinceChange(passes []Pass, words ChangeWords) []Pass {
+	for i := len(passes) - 1; i >= 0; i-- {
+		if _, ok := ChangeNoted(passes[i], words); ok {
+			return passes[i:]
+		}
+	}
+	return passes
+}

@@ -216,3 +216,30 @@ func TestExplainOnFewPasses(t *testing.T) {
 		})
 	}
 }
+
+// After a noted change of the car the cross-check carries only the passes
+// since it: the passes before ran another car, and carrying them would
+// blame the model for the change (a converter worth −0.30 s: common
+// practice, no source).
+func TestCrossCheckStartsAtTheChange(t *testing.T) {
+	passes := modelLogbook(12)
+	const k = 10 // the change comes before pass k: two passes since
+	for i := k; i < len(passes); i++ {
+		for j, v := range passes[i].ET {
+			if v.Valid {
+				f := v.Decimal.InexactFloat64()
+				passes[i].ET[j] = decimal.NewNullDecimal(decimal.NewFromFloat(f * (1 - 0.30/11.5)).Round(3))
+			}
+		}
+	}
+	passes[k].Change = "new converter"
+	c := Gather(input(passes, nil, nil))
+	for _, p := range c.Cross.Passes {
+		if p.Time.Before(passes[k].Time) {
+			t.Errorf("the cross-check carries the pass of %s, before the change", p.Time.Format("01-02 15:04"))
+		}
+	}
+	if c.CrossFlag != "" {
+		t.Errorf("after a noted change the cross-check flags the model: %s", c.CrossFlag)
+	}
+}

@@ -80,12 +80,13 @@ func said(p engine.Prediction, f engine.Fit, note string) bool {
 
 // missWords is each member's mean miss on the car's own latest passes,
 // each predicted from the passes before it: "mean miss on the car's own
-// passes: the pass model 0.018 s, today's passes 0.025 s" (members with a
-// share the blend shows and a pass scored).
+// passes: the pass model 0.018 s, today's passes 0.025 s" (the members
+// the shares name, with a pass scored).
 func missWords(b engine.Blend) string {
 	var parts []string
-	for _, m := range b.Members {
-		if m.Share >= 0.005 && !math.IsNaN(m.MAE) {
+	pct := b.Percents()
+	for i, m := range b.Members {
+		if pct[i] > 0 && !math.IsNaN(m.MAE) { // the members the shares line names
 			parts = append(parts, fmt.Sprintf("%s %.3f s", m.Name, m.MAE))
 		}
 	}

@@ -290,7 +290,8 @@ func crossCheck(p engine.Prediction, in Input) (engine.CrossCheck, bool, string)
 		}
 		return in.Elevation
 	}
-	cc, ok := engine.AirCarried(in.Passes, in.Car.DistanceFt, in.Air, in.Elevation, elevation)
+	// the car as it is: passes before a noted change ran another car
+	cc, ok := engine.AirCarried(logbook.SinceChange(in.Passes, in.Settings.Changes), in.Car.DistanceFt, in.Air, in.Elevation, elevation)
 	if !ok || len(p.Timers) == 0 {
 		return cc, ok, ""
 	}
