@@ -164,6 +164,20 @@ func (f *ReadingFields) parseOnto(r weather.Reading, u weather.Units, fresh bool
 		}
 		r.HasTrack = true
 	}
+	// each value given is checked against its range now, so a reading that
+	// lacks another field is not answered about the missing one first
+	for _, c := range []struct {
+		field, given string
+		v            float64
+		lim          [2]float64
+	}{
+		{"temp", f.Temp, r.Temp.Fahrenheit(), weather.TempRange},
+		{"track-temp", f.TrackTemp, r.TrackTemp.Fahrenheit(), weather.TrackTempRange},
+	} {
+		if c.given != "" && !(c.v >= c.lim[0] && c.v <= c.lim[1]) {
+			return r, &weather.InputError{Field: "--" + c.field, Value: c.given, Reason: "is outside " + weather.RangeText(c.field, u)}
+		}
+	}
 	return r, nil
 }
 

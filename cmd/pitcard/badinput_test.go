@@ -174,6 +174,9 @@ func TestBadInputTour(t *testing.T) {
 			// a bad value is named before a missing one, with its range
 			{[]string{"dial", "--dir", good, "--track-temp", "abc"}, 2, []string{`--track-temp "abc"`, "not a number", "-20..200 °F"}},
 			{[]string{"dial", "--dir", good, "--latest", "--track-temp", "900F"}, 2, []string{"--track-temp", "900", "-20..200 °F"}},
+			// out of range with the rest of the reading missing: the value is answered first
+			{[]string{"dial", "--dir", good, "--track-temp", "900F"}, 2, []string{`--track-temp "900F"`, "outside -20..200 °F"}},
+			{[]string{"predict", "--dir", good, "--temp", "-80F"}, 2, []string{`--temp "-80F"`, "outside"}},
 			{[]string{"dial", "--dir", good, "--change", "new\tconverter"}, 2, []string{"--change", `"new\tconverter"`, "control character"}},
 			{[]string{"dial", "--dir", good, "--change", strings.Repeat("x", 500)}, 2, []string{"--change", "500 bytes long (at most 200)"}},
 		},
@@ -207,7 +210,7 @@ func TestBadInputTour(t *testing.T) {
 			{[]string{"card", "--dir", good, "--opponent-dial", "11,4"}, 2, []string{"--opponent-dial"}},
 			{[]string{"card", "--dir", good, "--at", "8pm"}, 2, []string{"--at"}},
 			{[]string{"card", "--dir", good, "--track-temp", "abc"}, 2, []string{`--track-temp "abc"`, "-20..200 °F"}},
-			{[]string{"card", "--dir", good, "--track-temp", "900F"}, 2, []string{`--track-temp "900 °F"`, "-20..200 °F"}},
+			{[]string{"card", "--dir", good, "--track-temp", "900F"}, 2, []string{`--track-temp "900F"`, "-20..200 °F"}},
 			{[]string{"card", "--dir", good, "--change", "new\tconverter"}, 2, []string{"--change", `"new\tconverter"`, "control character"}},
 			{[]string{"card", "--dir", good, "--change", strings.Repeat("x", 500)}, 2, []string{"--change", "500 bytes long (at most 200)"}},
 			{[]string{"card", "--dir", badCar}, 2, []string{"car.yaml", "weight_lb"}},
