@@ -34,13 +34,13 @@ func TestOnlineWeights(t *testing.T) {
 		return h
 	}
 	t.Run("the better member takes the weight", func(t *testing.T) {
-		w := online(hist(30, [nMembers]float64{0.05, 0.01, 0.05, 0.05, 0.05, 0.05}, -1), memberPrior).weights
+		w := online(hist(30, [nMembers]float64{0.05, 0.01, 0.05, 0.05, 0.05}, -1), memberPrior).weights
 		if w[airMember] < 0.9 {
 			t.Errorf("weights %v: the member missing by 0.01 s against 0.05 s should hold over 90 %%", w)
 		}
 	})
 	t.Run("equal members keep the prior", func(t *testing.T) {
-		w := online(hist(30, [nMembers]float64{0.02, 0.02, 0.02, 0.02, 0.02, 0.02}, -1), memberPrior).weights
+		w := online(hist(30, [nMembers]float64{0.02, 0.02, 0.02, 0.02, 0.02}, -1), memberPrior).weights
 		for m := range nMembers {
 			if math.Abs(w[m]-memberPrior[m]) > 1e-9 {
 				t.Errorf("weights %v, want the prior %v", w, memberPrior)
@@ -48,15 +48,15 @@ func TestOnlineWeights(t *testing.T) {
 		}
 	})
 	t.Run("asleep neither gains nor loses", func(t *testing.T) {
-		w := online(hist(30, [nMembers]float64{0.02, 0.02, 0.02, 0.02, 0.02, 0.02}, int(todayMember)), memberPrior).weights
+		w := online(hist(30, [nMembers]float64{0.02, 0.02, 0.02, 0.02, 0.02}, int(todayMember)), memberPrior).weights
 		if math.Abs(w[todayMember]-memberPrior[todayMember]) > 0.02 {
 			t.Errorf("weights %v: a member asleep on every pass keeps about its prior %.2f", w, memberPrior[todayMember])
 		}
 	})
 	t.Run("one odd pass does not swing the weights", func(t *testing.T) {
-		h := hist(20, [nMembers]float64{0.01, 0.02, 0.02, 0.02, 0.02, 0.02}, -1)
+		h := hist(20, [nMembers]float64{0.01, 0.02, 0.02, 0.02, 0.02}, -1)
 		before := online(h, memberPrior).weights
-		h = append(h, scored{actual: 10, est: [nMembers]estimate{{ET: 10.4, SD: 0.02, OK: true}, {ET: 10.02, SD: 0.02, OK: true}, {ET: 10.02, SD: 0.02, OK: true}, {ET: 10.02, SD: 0.02, OK: true}, {ET: 10.02, SD: 0.02, OK: true}, {ET: 10.02, SD: 0.02, OK: true}}})
+		h = append(h, scored{actual: 10, est: [nMembers]estimate{{ET: 10.4, SD: 0.02, OK: true}, {ET: 10.02, SD: 0.02, OK: true}, {ET: 10.02, SD: 0.02, OK: true}, {ET: 10.02, SD: 0.02, OK: true}, {ET: 10.02, SD: 0.02, OK: true}}})
 		after := online(h, memberPrior).weights
 		if after[physicsMember] < before[physicsMember]/6 {
 			t.Errorf("one 0.4 s miss cut the pass model's weight from %.3f to %.3f", before[physicsMember], after[physicsMember])
@@ -95,17 +95,17 @@ func TestConformalScale(t *testing.T) {
 // version or a broken file is an empty cache, never an error.
 func TestHeldOutCacheRoundTrip(t *testing.T) {
 	c := NewHeldOutCache()
-	c.put("a", heldOutEntry{estimate{ET: 11.4, SD: 0.02, OK: true}, estimate{ET: 11.38, SD: 0.02, OK: true}})
+	c.put("a", heldOutEntry{estimate{ET: 11.4, SD: 0.02, OK: true}})
 	c.put("b", heldOutEntry{})
 	var buf bytes.Buffer
 	if _, err := c.WriteTo(&buf); err != nil {
 		t.Fatal(err)
 	}
 	back := ReadHeldOutCache(&buf)
-	if e, ok := back.get("a"); !ok || e.model.ET != 11.4 || e.model.SD != 0.02 || !e.model.OK || e.carried.ET != 11.38 || !e.carried.OK {
+	if e, ok := back.get("a"); !ok || e.model.ET != 11.4 || e.model.SD != 0.02 || !e.model.OK {
 		t.Errorf("read back %+v %v", e, ok)
 	}
-	if e, ok := back.get("b"); !ok || e.model.OK || e.carried.OK {
+	if e, ok := back.get("b"); !ok || e.model.OK {
 		t.Errorf("a pass the model could not predict reads back %+v %v", e, ok)
 	}
 	for _, broken := range []string{"", "{", `{"version": 1, "entries": {"a": [1, 2, 1]}}`, "not json"} {

@@ -12,12 +12,12 @@ import (
 	"pitcard/prep"
 )
 
-// heldOutEntries reads a held-out cache's file as written: key → the six
+// heldOutEntries reads a held-out cache's file as written: key → the three
 // figures of one held-out prediction.
-func heldOutEntries(t *testing.T, data []byte) map[string][6]float64 {
+func heldOutEntries(t *testing.T, data []byte) map[string][3]float64 {
 	t.Helper()
 	var f struct {
-		Entries map[string][6]float64 `json:"entries"`
+		Entries map[string][3]float64 `json:"entries"`
 	}
 	if err := json.Unmarshal(data, &f); err != nil {
 		t.Fatal(err)
@@ -33,7 +33,7 @@ func TestFoldersShareTheProcessHeldOut(t *testing.T) {
 	t.Cleanup(func() { processHeldOut = saved })
 	processHeldOut = engine.NewHeldOutCache()
 	now := time.Date(2026, 6, 13, 20, 30, 0, 0, time.Local) // the demo day's last reading
-	card := func(dir string) map[string][6]float64 {
+	card := func(dir string) map[string][3]float64 {
 		t.Helper()
 		if _, err := Create(dir, true, now); err != nil {
 			t.Fatal(err)
@@ -69,7 +69,7 @@ func TestFoldersShareTheProcessHeldOut(t *testing.T) {
 	}
 	// The process's entries moved by a second tell a lookup there from a
 	// calibration made again.
-	moved := map[string][6]float64{}
+	moved := map[string][3]float64{}
 	for k, v := range first {
 		v[0]++
 		moved[k] = v

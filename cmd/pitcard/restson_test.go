@@ -52,9 +52,9 @@ func (b *blendJSON) check(t *testing.T, what string) {
 			t.Errorf("%s: member %q share %v outside 0..1", what, m.Name, m.Share)
 		}
 	}
-	// six members: the pass model, the latest passes carried by the air, today's passes,
-	// passes on a like surface, the latest passes carried by the model, the last pass carried by the air
-	if len(b.Members) != 6 || math.Abs(sum-1) > 0.002 || !names["the pass model"] {
+	// five members: the pass model, the latest passes carried by the air, today's passes,
+	// passes on a like surface, the last pass carried by the air
+	if len(b.Members) != 5 || math.Abs(sum-1) > 0.002 || !names["the pass model"] {
 		t.Errorf("%s: members %+v (shares sum to %.4f, want 1)", what, b.Members, sum)
 	}
 	if !(b.Scale > 0) {
@@ -97,7 +97,7 @@ func TestPredictRestsOn(t *testing.T) {
 	}
 	text := oneLine(mustRun(t, "predict", "--demo"))
 	block := text[strings.Index(text, "Rests on:"):]
-	for _, w := range []string{"Rests on:", "the pass model ", "the latest passes carried by the model", "mean miss", "interval ×", fmt.Sprintf("from the car's own misses on %d passes", engine.ScoredPasses)} {
+	for _, w := range []string{"Rests on:", "the pass model ", "the last pass carried by the air", "mean miss", "interval ×", fmt.Sprintf("from the car's own misses on %d passes", engine.ScoredPasses)} {
 		if !strings.Contains(block, w) {
 			t.Errorf("predict's text lacks %q:\n%s", w, text)
 		}
