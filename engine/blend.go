@@ -32,11 +32,11 @@ import (
 type member int
 
 const (
-	physicsMember      member = iota // the calibrated pass model (Calibrate, Predict)
-	airMember                        // the latest clean passes carried by the air alone (AirCarried)
-	todayMember                      // today's clean passes carried by the air alone
-	similarMember                    // the passes on a surface nearest today's temperature, carried by the air
-	latestMember                     // the latest clean pass carried by the air alone (the paper rule)
+	physicsMember member = iota // the calibrated pass model (Calibrate, Predict)
+	airMember                   // the latest clean passes carried by the air alone (AirCarried)
+	todayMember                 // today's clean passes carried by the air alone
+	similarMember               // the passes on a surface nearest today's temperature, carried by the air
+	latestMember                // the latest clean pass carried by the air alone (the paper rule)
 	nMembers
 )
 
