@@ -168,14 +168,17 @@ func (f *ReadingFields) parseOnto(r weather.Reading, u weather.Units, fresh bool
 	// lacks another field is not answered about the missing one first
 	for _, c := range []struct {
 		field, given string
-		v            float64
+		t            weather.Temperature
 		lim          [2]float64
 	}{
-		{"temp", f.Temp, r.Temp.Fahrenheit(), weather.TempRange},
-		{"track-temp", f.TrackTemp, r.TrackTemp.Fahrenheit(), weather.TrackTempRange},
+		{"temp", f.Temp, r.Temp, weather.TempRange},
+		{"track-temp", f.TrackTemp, r.TrackTemp, weather.TrackTempRange},
 	} {
-		if c.given != "" && !(c.v >= c.lim[0] && c.v <= c.lim[1]) {
-			return r, &weather.InputError{Field: "--" + c.field, Value: c.given, Reason: "is outside " + weather.RangeText(c.field, u)}
+		if c.given == "" {
+			continue
+		}
+		if err := weather.CheckTemp(c.field, c.t, c.lim, u); err != nil {
+			return r, FlagErr(err, "--"+c.field)
 		}
 	}
 	return r, nil

@@ -129,6 +129,15 @@ func (r Reading) Station(h Length) Pressure {
 	return r.Baro
 }
 
+// CheckTemp reports a temperature outside rg (°F), the value and the range
+// said in units u as Validate says them: "68 °C ... is outside -40..60 °C".
+func CheckTemp(field string, t Temperature, rg [2]float64, u Units) error {
+	if outside(t.Fahrenheit(), rg) {
+		return rangeErr(field, t.In(u.Temp), u.Temp.String(), [2]float64{Fahrenheit(rg[0]).In(u.Temp), Fahrenheit(rg[1]).In(u.Temp)})
+	}
+	return nil
+}
+
 // Validate checks every field of the reading taken at elevation h against its
 // valid range and returns the first that fails, naming the field, the value,
 // its unit and the range (in imperial units: ValidateIn speaks the crew's).
@@ -140,12 +149,7 @@ func (r Reading) ValidateIn(h Length, u Units) error {
 	if outside(h.Feet(), ElevationRange) {
 		return rangeErr("elevation", h.In(u.Length), u.Length.String(), [2]float64{Feet(ElevationRange[0]).In(u.Length), Feet(ElevationRange[1]).In(u.Length)})
 	}
-	temp := func(field string, t Temperature, rg [2]float64) error {
-		if outside(t.Fahrenheit(), rg) {
-			return rangeErr(field, t.In(u.Temp), u.Temp.String(), [2]float64{Fahrenheit(rg[0]).In(u.Temp), Fahrenheit(rg[1]).In(u.Temp)})
-		}
-		return nil
-	}
+	temp := func(field string, t Temperature, rg [2]float64) error { return CheckTemp(field, t, rg, u) }
 	pres := func(p float64) [2]float64 { // a range in inHg, in the crew's unit
 		return [2]float64{InHg(p).In(u.Pressure), InHg(StationRange[1]).In(u.Pressure)}
 	}
