@@ -6,6 +6,10 @@ import (
 	"time"
 )
 
+// Benchmarks of the issues' speed targets: they measure time, check no
+// computed value, and so need no source; the logbooks are invented by the
+// model's own generator (gen).
+
 // BenchmarkForecast5000Cold is the card's pass model on a 5,000-pass logbook
 // with an empty held-out cache: the fit for the next pass and the
 // ScoredPasses held-out fits, each from the passes before its target. Run
