@@ -211,17 +211,16 @@ func wrap(s string, width int, indent string) string {
 	return strings.Join(append(lines, cur), "\n")
 }
 
-// units are the words a figure is never parted from at a line's end.
-var units = map[string]bool{"%": true, "%,": true, "%;": true, "%)": true, "%.": true, "s": true, "s,": true, "s;": true, "s)": true, "s.": true,
-	"°F": true, "°F,": true, "°F;": true, "°F)": true, "°F.": true, "°C": true, "°C,": true, "°C)": true, "°C.": true,
-	"mph": true, "mph,": true, "mph)": true, "mph.": true, "ft": true, "ft,": true, "ft)": true, "ft.": true, "lb": true, "lb,": true, "lb)": true, "inHg": true, "inHg,": true, "inHg)": true}
+// units are the words a figure is never parted from at a line's end (with
+// any punctuation that follows them: "s;", "%)").
+var units = map[string]bool{"%": true, "s": true, "°F": true, "°C": true, "mph": true, "ft": true, "lb": true, "inHg": true}
 
 // keepUnits makes a unit and the figure before it ("22 %", "0.018 s") one
 // word to the wrapping, so a wrapped line never ends on a bare number.
 func keepUnits(words []string) []string {
 	out := words[:0:0]
 	for _, w := range words {
-		if n := len(out); n > 0 && units[w] && endsInDigit(out[n-1]) {
+		if n := len(out); n > 0 && units[strings.TrimRight(w, ",;.)")] && endsInDigit(out[n-1]) {
 			out[n-1] += " " + w
 			continue
 		}
