@@ -25,25 +25,39 @@ import (
 //     GripLossMax × (1 − exp(−((T − best)/width)²)), so at most GripLossMax
 //     of the grip is ever lost, the response is monotone on each side of the
 //     best, and its steepest slope is GripLossMax·√2·e^(−½)/width per °F.
-//     The best temperature and the width (70 °F to start, held within
+//     The best temperature and the width (128 °F to start, held within
 //     TrackWidthRangeF) are fitted per car from its 60-ft times.
 const (
 	// TrackBestF is the prior's best surface temperature, °F: a drag
 	// radial's.
 	TrackBestF = 110.0
 	// TrackWidthDefaultF is the prior's width of the grip well, °F (see
-	// TrackTempFactor).
-	TrackWidthDefaultF = 70.0
-	// GripLossMax is the most of its best grip a tire loses to a cold or
-	// greasy surface (common practice, from memory: a cold track costs a
-	// drag tire a tenth or two of 60 ft, not its launch).
-	GripLossMax = 0.15
+	// TrackTempFactor). With GripLossMax it sets the prior's curvature at
+	// the best, GripLossMax/width² = 3.05e-5 per °F²: a tire 20 °F off its
+	// best keeps 98.8 % of its grip, 40 °F off 95 % (common practice, from
+	// memory: a cold track costs a drag tire a tenth or two of 60 ft, not
+	// its launch).
+	TrackWidthDefaultF = 128.0
+	// GripLossMax is the most of its best grip a tire can lose to a cold
+	// or greasy surface: a bound, not a typical loss. A slick on a cold
+	// track spins where it should bite, and a tire can fall off a cliff of
+	// grip within a few degrees. A bound of 0.15 (the second generation's)
+	// held the well too shallow for that: on internal/truthsim's tuning
+	// draws a car slowed by a second on a cold evening was predicted at
+	// its warm-track time (misses of 1.0–1.2 s). At 0.5, with the width's
+	// prior widened so the curvature at the best is unchanged, the median
+	// ratio to the noise floor went from 1.56 to 1.49 on draws 1–20 and
+	// from 1.30 to 1.27 on draws 21–40, the worst tenth from 1.89 to 1.69
+	// on 21–40, the worst miss from 1.21 to 1.04 s.
+	GripLossMax = 0.5
 )
 
 // TrackWidthRangeF bounds the fitted well's width, °F: narrow enough for a
-// tire with a real best, wide enough that no fit makes grip fall by more
-// than GripLossMax·√2·e^(−½)/60 ≈ 0.21 % per °F.
-var TrackWidthRangeF = [2]float64{60, 150}
+// tire whose grip falls off within a few tens of degrees, wide enough that
+// no fit makes grip fall faster than GripLossMax·√2·e^(−½)/25 ≈ 1.7 % per
+// °F. The fit leaves the width at its prior unless the logbook's 60-ft
+// times at several surface temperatures pin it down (the MAP prior).
+var TrackWidthRangeF = [2]float64{25, 250}
 
 // TireBestF is the surface temperature a tire kind grips best at, °F (the
 // prior's center; common practice, from memory).
@@ -86,10 +100,25 @@ func ParsePrep(s string) (float64, error) {
 }
 
 // PriorGrip is the tire's prior share of best grip at surface temperature
-// tF, for a tire best at bestF: the well at its default width.
+// tF, for a tire best at bestF, as the model carries grip past the surface
+// temperatures its logbook has seen (Params.Grip): the gentlest well a
+// tire is given, ExtrapolationLoss deep and ExtrapolationWidthF wide. No
+// pass says how deep the well goes out there; this says little, so a
+// sweep of the surface temperature past the logbook moves the prediction
+// by hundredths per 10 °F, not tenths.
 func PriorGrip(tF, bestF float64) float64 {
-	return TrackTempFactor(weather.Fahrenheit(tF), bestF, TrackWidthDefaultF)
+	d := (tF - bestF) / ExtrapolationWidthF
+	return 1 - ExtrapolationLoss*(1-math.Exp(-d*d))
 }
+
+// The well grip is carried by past the logged surface temperatures
+// (PriorGrip): the second generation's prior well, 0.15 deep and 70 °F
+// wide (common practice, from memory: a cold track costs a drag tire a
+// tenth or two of 60 ft, not its launch).
+const (
+	ExtrapolationLoss   = 0.15
+	ExtrapolationWidthF = 70.0
+)
 
 // PrepFactor is the share of full-prep traction at prep level p (0 = none,
 // 1 = full): 0.70 + 0.30·p, so light (0.5) is 0.85.

@@ -25,13 +25,16 @@ import (
 	"pitcard/weather"
 )
 
-// The invented world of the demo.
+// The invented world of the demo. The demo car's grip well (best 105 °F,
+// 120 °F wide, engine.GripLossMax deep) loses grip as fast 30 °F from its
+// best as the one its logbook was first written with (0.15 deep, 60 °F
+// wide): 0.196 % per °F.
 var (
 	home    = engine.Track{Name: "Juniper Bend Raceway", ElevationFt: 2240, HeadingDeg: 72, Prep: "full"}
 	low     = engine.Track{Name: "Salt Creek Dragway", ElevationFt: 460, HeadingDeg: 10, Prep: "full"}
 	high    = engine.Track{Name: "Granite Pass Motorplex", ElevationFt: 5100, HeadingDeg: 300, Prep: "light"}
 	car     = engine.Car{Name: "Whitlock 71 Ember", WeightLb: 3350, PowerHP: 520, Induction: engine.Natural, DistanceFt: 1320, Tire: "radial"}
-	truth   = engine.Params{PowerScale: 0.96, TractionScale: 1.05, PressureExp: 0.95, TempExp: 0.5, TrackOptF: 105, TrackWidthF: 36}
+	truth   = engine.Params{PowerScale: 0.96, TractionScale: 1.05, PressureExp: 0.95, TempExp: 0.5, TrackOptF: 105, TrackWidthF: 120}
 	demoDay = time.Date(2026, 6, 13, 0, 0, 0, 0, time.Local)
 )
 

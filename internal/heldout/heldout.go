@@ -90,6 +90,7 @@ type WorldScore struct {
 	Name         string
 	Passes       int     // in the logbook
 	Floor        float64 // the noise floor's MAE, s
+	FloorOracle  float64 // the truth-knowing predictor's worst |predicted − oracle|, s
 	Model, Plain Figures
 	Days         []Day
 }
@@ -118,7 +119,16 @@ type Report struct {
 	// WorseDays is the number of car-days where the predictor's MAE is more
 	// than WorseBy worse than PlainRule's, of CarDays.
 	WorseDays, CarDays int
-	Elapsed            time.Duration
+	// FloorWorseDays counts the car-days where the truth-knowing predictor
+	// (Floors) is itself more than WorseBy worse than PlainRule: the
+	// car-days a lucky plain rule wins by noise alone, which no honest
+	// predictor can be sure of winning back.
+	FloorWorseDays int
+	// FloorOracle is the truth-knowing predictor's worst miss of the
+	// noiseless truth, s: the day's effect it cannot know before the day's
+	// first pass, the meters' errors.
+	FloorOracle float64
+	Elapsed     time.Duration
 }
 
 // WorseBy is the margin a car-day's MAE must lose to PlainRule's by to count
@@ -169,10 +179,14 @@ func ScoreDial(worlds []truthsim.World, p DialPredictor) Report {
 	r.Model = summarise(scores, func(s WorldScore) Figures { return s.Model })
 	r.Plain = summarise(scores, func(s WorldScore) Figures { return s.Plain })
 	for _, s := range scores {
+		r.FloorOracle = math.Max(r.FloorOracle, s.FloorOracle)
 		for _, d := range s.Days {
 			r.CarDays++
 			if d.Model > d.Plain+WorseBy {
 				r.WorseDays++
+			}
+			if d.Floor > d.Plain+WorseBy {
+				r.FloorWorseDays++
 			}
 		}
 	}
@@ -238,6 +252,7 @@ func scoreWorld(w truthsim.World, p DialPredictor) WorldScore {
 		plain.add(ps.Day, pet, psd, psd, actual, ps.Oracle[fin])
 		f := math.Abs(floor[k] - actual)
 		floors = append(floors, f)
+		s.FloorOracle = math.Max(s.FloorOracle, math.Abs(floor[k]-ps.Oracle[fin]))
 		dayFloor[ps.Day] = append(dayFloor[ps.Day], f)
 	}
 	s.Floor = mean(floors)

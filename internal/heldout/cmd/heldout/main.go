@@ -20,6 +20,7 @@ import (
 
 func main() {
 	n := flag.Int("n", 0, "number of drawn worlds to score")
+	skip := flag.Int("skip", 0, "leave out the first K of the n draws (-n 40 -skip 20: the tuning draws 21..40)")
 	held := flag.Bool("heldout", false, "score the held-out draws, not the tuning draws")
 	fixed := flag.Bool("fixed", false, "score the six fixed worlds (truthsim.Worlds)")
 	model := flag.String("model", "pitcard", "the predictor: pitcard (the card's blend) or physics (the calibrated model alone)")
@@ -27,7 +28,7 @@ func main() {
 	ablate := flag.String("ablate", "", "the ablation table: pitcard as it ships, then with each mechanism switched off in turn, one line each: all (engine.Mechanisms) or third (the third generation's: engine.BlendMechanisms)")
 	without := flag.String("without", "", "pitcard with one mechanism switched off (a name of engine.Mechanisms), for the ablation table")
 	flag.Parse()
-	worlds := heldout.Draws(*n, *held)
+	worlds := heldout.Draws(*n, *held)[min(*skip, *n):]
 	if *fixed {
 		worlds = append(worlds, truthsim.Worlds()...)
 	}
