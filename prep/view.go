@@ -313,12 +313,16 @@ func newView(c Card) view {
 				fmt.Sprintf("%.3f", r.Actual), off, passNotes(r.Pass.Notes)})
 		}
 		if !math.IsNaN(c.RecordMAE) {
-			v.RecordNote = fmt.Sprintf("Mean miss today: %.3f s (each predicted from the passes before it).", c.RecordMAE)
+			v.RecordNote = fmt.Sprintf("Mean miss today: %.3f s (each predicted from the passes before it).", c.RecordMAE) + "\n"
 		}
+		v.RecordNote += compareHint
 	}
 	v.Problems = c.Problems
 	return v
 }
+
+// compareHint points from today's record to the segment comparison.
+const compareHint = "See 'pitcard log compare' for where each pass gained or lost time."
 
 // GuideFrom says what a no-dial guide was made from: "physics and
 // car.yaml", "2 passes carried to this air" (too few to fit anything: they
