@@ -8,9 +8,11 @@ import (
 	"html/template"
 	"net/http"
 	"net/url"
+	"slices"
 	"strings"
 	"time"
 
+	"pitcard/engine"
 	"pitcard/event"
 	words "pitcard/internal/text"
 	"pitcard/logbook"
@@ -530,8 +532,68 @@ func (s *Server) passesPage(q *request) {
 	} else {
 		t.Note = fmt.Sprintf("Each pass predicted from the passes before it, at %.0f ft; mean miss %.3f s.", dist, c.RecordMAE)
 	}
-	p.Tables = []listTable{t}
+	p.Tables = append([]listTable{t}, segmentTables(c.Record, dist, in.Track, q.folder.Settings.Units.Speed)...)
 	s.render(q, "list", p, http.StatusOK)
+}
+
+// segmentTables are today's passes cut into their segments (logbook.Segments),
+// each against the pass before it today, with the air taken out where both
+// logged their weather: what 'pitcard log compare --with last' prints.
+func segmentTables(record []prep.RecordLine, dist float64, trk engine.Track, speed weather.SpeedUnit) []listTable {
+	var out []listTable
+	cell := func(v float64, ok bool, format string) string {
+		if !ok || v != v {
+			return "—"
+		}
+		return fmt.Sprintf(format, v)
+	}
+	for k, l := range record {
+		pr := logbook.Segments(l.Pass, dist)
+		t := listTable{Title: l.Pass.Session.String() + " " + l.Pass.Time.Format("15:04") + ": segments",
+			Header: []string{"Segment", "Time s", "Avg " + speed.String(), "g", "vs before"}}
+		var diffs []logbook.SegmentDiff
+		carried := false
+		if k > 0 {
+			before := record[k-1].Pass
+			carry, ok := event.AirCarryBetween(l.Pass, before, trk)
+			carried = ok
+			diffs = logbook.Compare(pr, logbook.Segments(before, dist), carry)
+		}
+		for i, sg := range pr.Segments {
+			vs := "—"
+			if i < len(diffs) && diffs[i].OK {
+				vs = cell(diffs[i].Diff, true, "%+.3f")
+				if carried {
+					vs = cell(diffs[i].Carried, true, "%+.3f")
+				}
+			}
+			t.Rows = append(t.Rows, []string{sg.Name(), cell(sg.Time, sg.Timed, "%.3f"),
+				cell(weather.MPH(sg.MPH()).In(speed), sg.Timed, "%.1f"), cell(sg.AccelG, sg.HasAccel, "%.2f"), vs})
+		}
+		var note []string
+		if pr.HasLaunch {
+			note = append(note, fmt.Sprintf("Launch %.2f g over the first 60 ft from rest.", pr.LaunchG))
+		}
+		for _, sg := range pr.Segments {
+			if !sg.Timed && !slices.Contains(note, sg.Missing+".") {
+				note = append(note, sg.Missing+".")
+			}
+		}
+		switch {
+		case k == 0:
+			note = append(note, "The day's first pass: nothing before it to set it against.")
+		case carried:
+			note = append(note, "vs before: this segment's time less the pass before's, carried to this air by the SAE J1349 factors' cube root (+ slower).")
+		default:
+			note = append(note, "vs before: this segment's time less the pass before's, as run: the air is not taken out (+ slower).")
+		}
+		t.Note = strings.Join(note, " ")
+		out = append(out, t)
+	}
+	if len(out) > 0 {
+		out[len(out)-1].Note += " Average acceleration over a segment is below the peak a data logger shows."
+	}
+	return out
 }
 
 // weatherPage is the day's weather log with its density altitude and the

@@ -2,6 +2,7 @@ package pitpage
 
 import (
 	"bytes"
+	"fmt"
 	"html"
 	"io"
 	"net/http"
@@ -10,6 +11,7 @@ import (
 	"os"
 	"path/filepath"
 	"regexp"
+	"strconv"
 	"strings"
 	"testing"
 	"time"
@@ -709,5 +711,38 @@ func TestThePagesSpeakToAScreenReader(t *testing.T) {
 	if !strings.Contains(body, `id="f-baro" name="baro"`) || strings.Count(body, " autofocus") != 1 ||
 		!regexp.MustCompile(`<input id="f-baro"[^>]* autofocus`).MatchString(body) {
 		t.Errorf("a refused form must put the focus on its first bad field (baro), only there")
+	}
+}
+
+// The passes page cuts each of today's passes into its segments: times
+// that are the differences of the slip's timers, the launch 2·60/t² in g
+// (common practice, no source; g = 32.174 ft/s², ISO 80000-3), and the
+// note that an average is below a data logger's peak.
+func TestPassesPageShowsTheSegments(t *testing.T) {
+	f := newFixture(t) // a copy of the demo, at its evening of 2026-06-13
+	body := f.do("GET", "/passes", testTokens.Crew, nil).Body.String()
+	for _, w := range []string{"E2 20:13: segments", "0–60 ft", "1000–1320 ft", "below the peak a data logger shows", "SAE J1349"} {
+		if !strings.Contains(body, w) {
+			t.Errorf("the passes page lacks %q", w)
+		}
+	}
+	// The demo's E2 of 2026-06-13 as its slip reads in logbook.csv.
+	var et60, et330 float64
+	for _, line := range strings.Split(f.file(event.LogbookFile), "\n") {
+		if strings.HasPrefix(line, "2026-06-13,20:13,") {
+			c := strings.Split(line, ",")
+			et60, _ = strconv.ParseFloat(c[7], 64)
+			et330, _ = strconv.ParseFloat(c[8], 64)
+		}
+	}
+	if et60 == 0 {
+		t.Fatal("the demo has no E2 at 20:13 on 2026-06-13")
+	}
+	launch := fmt.Sprintf("Launch %.2f g over the first 60 ft from rest.", 2*60/(et60*et60)/32.174)
+	seg := fmt.Sprintf("<td>60–330 ft</td><td class=\"n\">%.3f</td>", et330-et60)
+	for _, w := range []string{launch, seg} {
+		if !strings.Contains(body, w) {
+			t.Errorf("the passes page lacks %q", w)
+		}
 	}
 }
