@@ -35,7 +35,8 @@ previous logbook as logbook.csv.bak.`,
   pitcard log diff ../theo-laptop/logbook.csv
   pitcard log export --since 2026-06-01 --out june.csv
   pitcard log list --last 10
-  pitcard log stats --last 40`,
+  pitcard log stats --last 40
+  pitcard log compare E2 --with best`,
 	}
 	cmd.AddCommand(newLogAddCmd(s, g), newLogImportCmd(s, g), newLogListCmd(s, g), newLogStatsCmd(s, g), newLogDiffCmd(s, g), newLogExportCmd(s, g),
 		newLogCompareCmd(s, g))
