@@ -76,8 +76,8 @@ func RenderMarkdown(w io.Writer, c Card) error {
 	}
 	if len(v.Record.Rows) > 0 {
 		mdTable(&b, v.Record)
-		if v.RecordNote != "" {
-			fmt.Fprintf(&b, "%s\n\n", v.RecordNote)
+		if note := strings.TrimSpace(v.RecordNote + "\n" + v.RecordHint); note != "" {
+			fmt.Fprintf(&b, "%s\n\n", note)
 		}
 	}
 	b.WriteString("### Cautions\n\n")

@@ -130,8 +130,10 @@ func RenderTextWidth(w io.Writer, c Card, color bool, width int) error {
 	}
 	if len(v.Record.Rows) > 0 {
 		writeTable(&b, v.Record, color, Width)
-		if v.RecordNote != "" {
-			b.WriteString(v.RecordNote + "\n")
+		for _, n := range []string{v.RecordNote, v.RecordHint} {
+			if n != "" {
+				b.WriteString(n + "\n")
+			}
 		}
 		b.WriteString("\n")
 	}

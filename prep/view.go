@@ -41,8 +41,11 @@ type view struct {
 	Notes       []string
 	Record      table
 	RecordNote  string
-	Problems    []string
-	Cautions    []string
+	// RecordHint points the terminal's and Markdown's reader to the
+	// segment comparison; the HTML card leaves it out (one printed page).
+	RecordHint string
+	Problems   []string
+	Cautions   []string
 }
 
 // MaxPassNotes is the most characters of a pass's notes the card prints
@@ -313,9 +316,9 @@ func newView(c Card) view {
 				fmt.Sprintf("%.3f", r.Actual), off, passNotes(r.Pass.Notes)})
 		}
 		if !math.IsNaN(c.RecordMAE) {
-			v.RecordNote = fmt.Sprintf("Mean miss today: %.3f s (each predicted from the passes before it).", c.RecordMAE) + "\n"
+			v.RecordNote = fmt.Sprintf("Mean miss today: %.3f s (each predicted from the passes before it).", c.RecordMAE)
 		}
-		v.RecordNote += compareHint
+		v.RecordHint = compareHint
 	}
 	v.Problems = c.Problems
 	return v
