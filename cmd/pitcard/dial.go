@@ -249,7 +249,8 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 		var usRT bracket.RTModel
 		if oppDial.Valid {
 			passes, _ := e.RecentLogbook()
-			if opp, usRT, err = o.opp.Build(e.Settings, oppDial, passes); err != nil {
+			book, _ := e.OpponentBook() // a bad book: the settings' figures (the card names its rows)
+			if opp, usRT, err = o.opp.Build(e.Settings, oppDial, passes, book); err != nil {
 				return err
 			}
 		} else { // the other lane's dial the card races against (rounds.csv)
