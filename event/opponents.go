@@ -396,3 +396,20 @@ func (b *OpponentBook) Cars(aborts logbook.AbortWords) []OpponentHistory {
 	}
 	return out
 }
+
+// opponentBookWritable checks, before a pass is logged, that the book can
+// take its slip: readable, without a row a rewrite would lose, and
+// without another slip of the same car, day and round.
+func (e *Folder) opponentBookWritable(p OpponentPass) error {
+	book, err := e.OpponentBook()
+	if err != nil {
+		return err
+	}
+	if book.broken {
+		return userErrf("%v\nNothing was written: a row of %s that is not even valid CSV could not be kept through a rewrite; fix it first", book.BadRows(), e.Name(OpponentsFile))
+	}
+	if m := MergeOpponents(book.Passes, []OpponentPass{p}); len(m.Conflicts) > 0 {
+		return &Conflicts{List: m.Conflicts, Ours: e.Name(OpponentsFile), TheirsIn: "this slip"}
+	}
+	return nil
+}

@@ -510,6 +510,9 @@ func (e *Folder) GatherRound(r RoundRequest, now time.Time) (prep.Input, []strin
 		warnings = append(warnings, fmt.Sprintf("the other lane's dial %s is the one noted for %s in %s (from the pit page); --opponent-dial replaces it",
 			logbook.FormatSeconds(opp.Decimal, 2), slot.Session, RoundsFile))
 	}
+	if notes.OpponentCar != "" && r.Opponent.Car == "" { // named on the pit page
+		r.Opponent.Car = notes.OpponentCar
+	}
 	if r.OpponentDial != "" {
 		d, err := logbook.ParseSeconds("--opponent-dial", r.OpponentDial)
 		if err != nil {

@@ -54,6 +54,7 @@ type logAddOptions struct {
 	// The other lane's slip, when it is entered too: what decided the round.
 	OppDial      string
 	OppRT, OppET []string
+	OppCar       string // the other car: its slip goes into opponents.csv
 }
 
 func newLogAddCmd(s *IOStreams, g *globalOptions) *cobra.Command {
@@ -98,6 +99,7 @@ weight to car.yaml's.`,
 	// one value here: a pass has one slip.
 	fl.StringSliceVar(&o.OppRT, "opponent-rt", nil, "the other lane's reaction time from its slip, s (a list on card and dial; one value here)")
 	fl.StringSliceVar(&o.OppET, "opponent-et", nil, "the other lane's ET from its slip, s (a list on card and dial; one value here)")
+	fl.StringVar(&o.OppCar, "opponent", "", "the other car's number or name (4471): with its slip, kept in opponents.csv for the next time you race it")
 	o.reading.bind(cmd)
 	return cmd
 }
@@ -119,7 +121,7 @@ func logAddRun(cmd *cobra.Command, o *logAddOptions) error {
 		Date: o.Date, Time: o.Time, Track: o.Track, Session: o.Session, Lane: o.Lane, Dial: o.Dial, RT: o.RT,
 		Weight: o.Weight, Notes: o.Notes, ET60: o.ET60, ET330: o.ET330, ET660: o.ET660, ET1000: o.ET1000, ET1: o.ET1,
 		MPH660: o.MPH660, MPH1320: o.MPH1320, Change: o.Change, Reading: o.reading.ReadingFields,
-		OppDial: o.OppDial, OppRT: oppRT, OppET: oppET,
+		OppDial: o.OppDial, OppRT: oppRT, OppET: oppET, OppCar: o.OppCar,
 	}, o.s.Now())
 	if err != nil {
 		return err
@@ -138,7 +140,10 @@ func logAddRun(cmd *cobra.Command, o *logAddOptions) error {
 	if lp.Decided != "" {
 		fmt.Fprintln(o.s.Out, prep.Wrap(lp.Decided, o.s.width(), "  "))
 	}
-	return nil
+	if lp.Opponent != nil {
+		fmt.Fprintf(o.s.Out, "The other lane's slip is kept in %s as car %s's.\n", e.Name(event.OpponentsFile), lp.Opponent.Car)
+	}
+	return lp.OpponentErr
 }
 
 // oneValue is the single value of a list flag that takes one slip's
