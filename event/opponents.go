@@ -56,7 +56,7 @@ func (p OpponentPass) Record() []string {
 	if p.Breakout {
 		bo = "yes"
 	}
-	return []string{csvtext.Cell(p.Car), p.Date, p.Round.String(), p.Dial.String(), p.RT.String(), p.ET.String(), bo, csvtext.Cell(p.Notes)}
+	return []string{csvtext.Cell(p.Car), p.Date, p.Round.String(), logbook.FormatSeconds(p.Dial, 2), logbook.FormatSeconds(p.RT, 3), logbook.FormatSeconds(p.ET, 3), bo, csvtext.Cell(p.Notes)}
 }
 
 // key is what makes two rows the same slip: the car, the day and the

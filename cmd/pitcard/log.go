@@ -38,6 +38,7 @@ previous logbook as logbook.csv.bak.`,
   pitcard log stats --last 40`,
 	}
 	cmd.AddCommand(newLogAddCmd(s, g), newLogImportCmd(s, g), newLogListCmd(s, g), newLogStatsCmd(s, g), newLogDiffCmd(s, g), newLogExportCmd(s, g))
+	cmd.AddCommand(newLogOpponentsCmd(s, g))
 	groupCmd(cmd)
 	return cmd
 }
