@@ -278,6 +278,12 @@ func (e *Folder) OpponentBook() (*OpponentBook, error) {
 // conflict and nothing is written. Rows of the book that could not be read
 // are written back as they were. It returns how many were added and skipped.
 func (e *Folder) AddOpponentPasses(add []OpponentPass, from string) (added, skipped int, err error) {
+	return e.addOpponents(add, from, true)
+}
+
+// addOpponents is AddOpponentPasses; without skipSame a slip already in
+// the book stops the write too.
+func (e *Folder) addOpponents(add []OpponentPass, from string, skipSame bool) (added, skipped int, err error) {
 	if err := e.Writable(); err != nil {
 		return 0, 0, err
 	}
@@ -297,6 +303,10 @@ func (e *Folder) AddOpponentPasses(add []OpponentPass, from string) (added, skip
 	m := MergeOpponents(book.Passes, add)
 	if len(m.Conflicts) > 0 {
 		return 0, 0, &Conflicts{List: m.Conflicts, Ours: e.Name(OpponentsFile), TheirsIn: from}
+	}
+	if m.Same > 0 && !skipSame {
+		return 0, 0, userErrf("%s has %s already in %s: give --skip-existing to leave them out; nothing was written",
+			from, text.Plural(m.Same, "slip"), e.Name(OpponentsFile))
 	}
 	if len(m.New) == 0 {
 		return 0, m.Same, nil
@@ -412,4 +422,30 @@ func (e *Folder) opponentBookWritable(p OpponentPass) error {
 		return &Conflicts{List: m.Conflicts, Ours: e.Name(OpponentsFile), TheirsIn: "this slip"}
 	}
 	return nil
+}
+
+// IsOpponentBook reports whether data (a file to import) is an opponent
+// book: its first line is the book's header.
+func IsOpponentBook(data []byte) bool {
+	first, _, _ := bytes.Cut(bytes.TrimPrefix(data, []byte("\xef\xbb\xbf")), []byte("\n"))
+	return strings.TrimRight(string(first), "\r") == strings.Join(OpponentColumns, ",")
+}
+
+// ImportOpponents adds another copy's opponent book (data, read from the
+// file from) to the folder's, all or nothing: a row that cannot be read,
+// a conflict, or (without skipExisting) a slip already in the book stops
+// it and nothing is written. It returns how many slips were added and
+// skipped.
+func (e *Folder) ImportOpponents(data []byte, from string, skipExisting bool) (added, skipped int, err error) {
+	theirs, err := ReadOpponents(bytes.NewReader(data), from)
+	if err != nil {
+		return 0, 0, err
+	}
+	if len(theirs.Bad) > 0 {
+		return 0, 0, fmt.Errorf("%w\nNothing was imported", theirs.BadRows())
+	}
+	if len(theirs.Passes) == 0 {
+		return 0, 0, userErrf("%s has no slips to import", from)
+	}
+	return e.addOpponents(theirs.Passes, from, skipExisting)
 }

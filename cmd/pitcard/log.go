@@ -220,7 +220,12 @@ a map from FILE's header, prints it, and imports with it only when given
 With --skip-existing (a crewmate's copy of the logbook), a pass already
 logged with the same values is skipped and counted; the same pass with
 another value in any field is a conflict: both versions are listed and
-nothing is written. 'pitcard log diff FILE' shows the same without writing.`,
+nothing is written. 'pitcard log diff FILE' shows the same without writing.
+
+A crewmate's opponents.csv (the other lane's slips; its header tells it) is
+added to this folder's opponent book the same way: all or nothing, a slip
+already there skipped with --skip-existing, another figure for the same car,
+day and round a conflict.`,
 		Example: `  pitcard log import season-2026.csv
   pitcard log import season.csv --map spreadsheet-map.yaml
   pitcard log import ../theo-laptop/logbook.csv --skip-existing`,
@@ -231,6 +236,9 @@ nothing is written. 'pitcard log diff FILE' shows the same without writing.`,
 				return err
 			}
 			if err := e.Writable(); err != nil {
+				return err
+			}
+			if done, err := importOpponents(o.s, e, args[0], o.SkipExisting); done {
 				return err
 			}
 			source, err := o.maps.source(o.s, e, args[0], colmap.Logbook)

@@ -101,3 +101,22 @@ func logOpponentsRun(cmd *cobra.Command, o *logOpponentsOptions) error {
 		st.OppMargin, st.OppMarginSD, st.OppRTMean, st.OppRTSD, bracket.PriorPasses), o.s.width(), ""))
 	return bad
 }
+
+// importOpponents imports FILE into the opponent book when it is one (its
+// header is opponents.csv's): done says it was, and err how it went.
+func importOpponents(s *IOStreams, e *eventFolder, path string, skipExisting bool) (done bool, err error) {
+	data, err := event.ReadSourceFile(path)
+	if err != nil || !event.IsOpponentBook(data) {
+		return false, nil // the logbook's import reads it and says what is wrong
+	}
+	added, skipped, err := e.ImportOpponents(data, path, skipExisting)
+	if err != nil {
+		return true, err
+	}
+	fmt.Fprintf(s.Out, "Imported %s of the other lane from %s into %s", text.Plural(added, "slip"), path, e.Name(event.OpponentsFile))
+	if skipped > 0 {
+		fmt.Fprintf(s.Out, " (%s already there, skipped)", text.Plural(skipped, "slip"))
+	}
+	fmt.Fprintln(s.Out, ".")
+	return true, nil
+}
