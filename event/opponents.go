@@ -256,7 +256,11 @@ func (b *OpponentBook) BadRows() error {
 	if len(b.Bad) == 0 {
 		return nil
 	}
-	return BrokenInput{append([]error{fmt.Errorf("%s of the opponent book left out (fix them; the rest is used):", text.Plural(len(b.Bad), "row"))}, b.Bad...)}
+	fix := "them"
+	if len(b.Bad) == 1 {
+		fix = "it"
+	}
+	return BrokenInput{append([]error{fmt.Errorf("%s of the opponent book left out (fix %s; the rest is used):", text.Plural(len(b.Bad), "row"), fix)}, b.Bad...)}
 }
 
 // OpponentBook reads the folder's opponent book (none yet: an empty one).
