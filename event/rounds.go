@@ -149,6 +149,10 @@ func (e *Folder) SetOpponentCar(date string, ses logbook.Session, car string, no
 		}
 		value = c
 	}
+	// Unchanged (most often: no car named, none noted): nothing written.
+	if n, err := e.RoundNotes(date, ses); err == nil && n.OpponentCar == value {
+		return nil
+	}
 	return e.editRounds(func(es []roundEntry) []roundEntry {
 		es = slices.DeleteFunc(es, func(x roundEntry) bool {
 			return x.date == date && x.session == ses.String() && x.entry == entryOpponentCar

@@ -494,10 +494,12 @@ func (s *Server) roundsItems(q *request, ses logbook.Session, day string, ticked
 func (s *Server) postOpponent(q *request) {
 	v := values(q.r.PostForm)
 	ses, day, err := roundOf(v)
+	if err == nil && strings.TrimSpace(v("opponent")) != "" {
+		_, err = event.ParseCar("--opponent", v("opponent")) // checked first: a bad name leaves the dial as it was too
+	}
 	if err == nil {
-		// the car first: a bad name leaves the dial as it was too
-		if err = q.folder.SetOpponentCar(day, ses, v("opponent"), q.now); err == nil {
-			err = q.folder.SetOpponentDial(day, ses, v("opponent-dial"), q.now)
+		if err = q.folder.SetOpponentDial(day, ses, v("opponent-dial"), q.now); err == nil {
+			err = q.folder.SetOpponentCar(day, ses, v("opponent"), q.now)
 		}
 	}
 	if err != nil {
