@@ -260,7 +260,7 @@ func (b *OpponentBook) BadRows() error {
 	if len(b.Bad) == 1 {
 		fix = "it"
 	}
-	return BrokenInput{append([]error{fmt.Errorf("%s of the opponent book left out (fix %s; the rest is used):", text.Plural(len(b.Bad), "row"), fix)}, b.Bad...)}
+	return BrokenInput{append([]error{fmt.Errorf("%s of the opponent book left out (fix %s; the rest is used)", text.Plural(len(b.Bad), "row"), fix)}, b.Bad...)}
 }
 
 // OpponentBook reads the folder's opponent book (none yet: an empty one).
