@@ -81,6 +81,9 @@ type Opponent struct {
 	// (negative margin: it tends to break out).
 	Margin, MarginSD float64
 	RT               RTModel
+	// From says where the figures came from when a car was named ("from 6
+	// passes of car 4471 (3 events)"); "" for the settings' and flags'.
+	From string
 }
 
 // WinOption is one candidate dial against the opponent.

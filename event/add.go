@@ -115,6 +115,9 @@ type NewPass struct {
 	Reading ReadingFields
 	// The other lane's slip, when it is entered too: what decided the round.
 	OppDial, OppRT, OppET string
+	// OppCar is the other car's number or name: with its slip, a row of
+	// the opponent book (OpponentsFile).
+	OppCar string
 }
 
 // LoggedPass is what AddPass wrote.
@@ -125,6 +128,10 @@ type LoggedPass struct {
 	Elevation weather.Length
 	Decided   string   // what decided the round, with the other lane's slip
 	Warnings  []string // worth saying, none stopping the write
+	// Opponent is the other lane's slip kept in the opponent book (nil:
+	// none); OpponentErr why it could not be kept after the pass was.
+	Opponent    *OpponentPass
+	OpponentErr error
 }
 
 // AddPass checks a slip, takes its conditions from the weather log (the
@@ -254,9 +261,37 @@ func (e *Folder) AddPass(np NewPass, now time.Time) (LoggedPass, error) {
 			return out, err
 		}
 	}
+	// The other lane's slip for the opponent book, checked before anything
+	// is written so a bad one stops the pass too.
+	var oppPass *OpponentPass
+	switch {
+	case np.OppCar != "" && out.Decided == "":
+		return out, userErrf("--opponent %s: give the other lane's slip with it (--opponent-dial, --opponent-rt, --opponent-et) to keep it in %s", np.OppCar, OpponentsFile)
+	case np.OppCar != "":
+		op, err := NewOpponentPass(np.OppCar, p.Time.Format(weather.DateLayout), p.Session, np.OppDial, np.OppRT, np.OppET, "")
+		if err != nil {
+			return out, err
+		}
+		oppPass = &op
+		if err := e.opponentBookWritable(op); err != nil {
+			return out, err
+		}
+	case out.Decided != "":
+		out.Warnings = append(out.Warnings, fmt.Sprintf("the other lane's slip is not kept: name its car with --opponent (its number) and %s remembers it for the next time you race it", OpponentsFile))
+	}
 	n, kept, err := e.SaveLogbook([]logbook.Pass{p})
 	if err != nil {
 		return out, err
+	}
+	if oppPass != nil {
+		// Two files cannot change in one atomic step: the pass is logged
+		// first (it is what the model learns from); a failure here is said,
+		// and the slip can be added again with the next pass's or by hand.
+		if _, _, err := e.AddOpponentPasses([]OpponentPass{*oppPass}, "this slip"); err != nil {
+			out.OpponentErr = fmt.Errorf("the pass is logged, but the other lane's slip was not kept in %s: %w", e.Name(OpponentsFile), err)
+		} else {
+			out.Opponent = oppPass
+		}
 	}
 	if w := logbook.DialWarning(p); w != "" {
 		out.Warnings = append(out.Warnings, w)

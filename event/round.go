@@ -32,6 +32,9 @@ type ReadingFields struct {
 // OpponentFields are what is known of the other lane, and of our driver's
 // reaction times, as typed; each blank takes its setting.
 type OpponentFields struct {
+	// Car names the other car (--opponent): its history in the opponent
+	// book sets its margin, spread and reaction times.
+	Car                      string
 	Margin, SD, RTMean, RTSD string
 	ETs, RTs                 []string
 	OurRTMean, OurRTSD       string
@@ -264,9 +267,12 @@ func Seconds(flag, v string, lo, hi float64) (float64, error) {
 	return x, nil
 }
 
-// build turns the flags, the settings and the logbook into the other lane
-// and our driver's reaction times; nil when the opponent's dial is unknown.
-func (o *OpponentFields) Build(s Settings, dial decimal.NullDecimal, passes []logbook.Pass) (*bracket.Opponent, bracket.RTModel, error) {
+// Build turns the flags, the settings, the logbook and the opponent book
+// (nil: none) into the other lane and our driver's reaction times; nil when
+// the other lane's dial is unknown. A named car's history replaces the
+// settings' defaults (shrunk toward them, Shrunk); the day's slips and the
+// flags given replace both.
+func (o *OpponentFields) Build(s Settings, dial decimal.NullDecimal, passes []logbook.Pass, book *OpponentBook) (*bracket.Opponent, bracket.RTModel, error) {
 	var logged []float64 // our reaction times, most recent first
 	for i := len(passes) - 1; i >= 0; i-- {
 		if p := passes[i]; p.RT.Valid && !s.AbortWords.Aborted(p.Notes) {
@@ -292,6 +298,19 @@ func (o *OpponentFields) Build(s Settings, dial decimal.NullDecimal, passes []lo
 		return nil, us, nil
 	}
 	opp := &bracket.Opponent{Dial: dial.Decimal, Margin: s.OppMargin, MarginSD: s.OppMarginSD, RT: bracket.RTModel{Mean: s.OppRTMean, SD: s.OppRTSD}}
+	if o.Car != "" {
+		car, err := ParseCar("--opponent", o.Car)
+		if err != nil {
+			return nil, us, err
+		}
+		if book == nil {
+			book = &OpponentBook{}
+		}
+		h := book.History(car, s.AbortWords)
+		opp.Margin, opp.MarginSD = bracket.Shrunk(h.Margins, s.OppMargin, s.OppMarginSD, bracket.PriorPasses)
+		opp.RT.Mean, opp.RT.SD = bracket.Shrunk(h.RTs, s.OppRTMean, s.OppRTSD, bracket.PriorPasses)
+		opp.From = h.Words()
+	}
 	list := func(flag string, vs []string, lo, hi float64) ([]float64, error) {
 		var out []float64
 		for _, v := range vs {
@@ -491,6 +510,9 @@ func (e *Folder) GatherRound(r RoundRequest, now time.Time) (prep.Input, []strin
 		warnings = append(warnings, fmt.Sprintf("the other lane's dial %s is the one noted for %s in %s (from the pit page); --opponent-dial replaces it",
 			logbook.FormatSeconds(opp.Decimal, 2), slot.Session, RoundsFile))
 	}
+	if notes.OpponentCar != "" && r.Opponent.Car == "" { // named on the pit page
+		r.Opponent.Car = notes.OpponentCar
+	}
 	if r.OpponentDial != "" {
 		d, err := logbook.ParseSeconds("--opponent-dial", r.OpponentDial)
 		if err != nil {
@@ -572,7 +594,19 @@ func (e *Folder) GatherRound(r RoundRequest, now time.Time) (prep.Input, []strin
 	if err != nil {
 		return in, nil, err
 	}
-	opponent, usRT, err := r.Opponent.Build(e.Settings, opp, passes)
+	book, err := e.OpponentBook()
+	if err != nil && !IsBadInput(err) {
+		return in, nil, err
+	}
+	if err != nil { // a wrong header: the car's history is unknown, the card prints
+		broken = append(broken, err)
+	} else if bad := book.BadRows(); bad != nil && r.Opponent.Car != "" {
+		broken = append(broken, bad)
+	}
+	if r.Opponent.Car != "" && !opp.Valid {
+		warnings = append(warnings, fmt.Sprintf("--opponent %s: the chance to win needs the other lane's dial too (--opponent-dial)", r.Opponent.Car))
+	}
+	opponent, usRT, err := r.Opponent.Build(e.Settings, opp, passes, book)
 	if err != nil {
 		return in, nil, err
 	}

@@ -28,6 +28,7 @@ var roundsHeader = []string{"date", "session", "entry", "value", "at"}
 
 const (
 	entryOpponentDial = "opponent_dial"
+	entryOpponentCar  = "opponent_car"
 	entryChecked      = "checked"
 )
 
@@ -35,7 +36,9 @@ const (
 // checklist items ticked, by label, with when.
 type RoundNotes struct {
 	OpponentDial decimal.NullDecimal
-	Ticked       map[string]time.Time
+	// OpponentCar is the other car named on the pit page ("" none).
+	OpponentCar string
+	Ticked      map[string]time.Time
 }
 
 type roundEntry struct {
@@ -79,8 +82,8 @@ func (e *Folder) readRounds() ([]roundEntry, error) {
 		if err != nil {
 			return nil, &weather.InputError{File: name, Line: line, Field: "at", Value: rec[4], Reason: "is not a time as 2006-01-02T15:04:05-07:00"}
 		}
-		if rec[2] != entryOpponentDial && rec[2] != entryChecked {
-			return nil, &weather.InputError{File: name, Line: line, Field: "entry", Value: rec[2], Reason: "is not opponent_dial or checked"}
+		if rec[2] != entryOpponentDial && rec[2] != entryOpponentCar && rec[2] != entryChecked {
+			return nil, &weather.InputError{File: name, Line: line, Field: "entry", Value: rec[2], Reason: "is not opponent_dial, opponent_car or checked"}
 		}
 		out = append(out, roundEntry{date: rec[0], session: rec[1], entry: rec[2], value: rec[3], at: at})
 	}
@@ -102,6 +105,8 @@ func (e *Folder) RoundNotes(date string, ses logbook.Session) (RoundNotes, error
 			if d, err := decimal.NewFromString(x.value); err == nil {
 				n.OpponentDial = decimal.NewNullDecimal(d)
 			}
+		case entryOpponentCar:
+			n.OpponentCar = x.value
 		case entryChecked:
 			n.Ticked[x.value] = x.at
 		}
@@ -128,6 +133,32 @@ func (e *Folder) SetOpponentDial(date string, ses logbook.Session, dial string, 
 		})
 		if value != "" {
 			es = append(es, roundEntry{date, ses.String(), entryOpponentDial, value, now})
+		}
+		return es
+	})
+}
+
+// SetOpponentCar notes the other car of a round, by its number or name
+// (--opponent; "" clears it): the card races against its history.
+func (e *Folder) SetOpponentCar(date string, ses logbook.Session, car string, now time.Time) error {
+	value := ""
+	if strings.TrimSpace(car) != "" {
+		c, err := ParseCar("--opponent", car)
+		if err != nil {
+			return err
+		}
+		value = c
+	}
+	// Unchanged (most often: no car named, none noted): nothing written.
+	if n, err := e.RoundNotes(date, ses); err == nil && n.OpponentCar == value {
+		return nil
+	}
+	return e.editRounds(func(es []roundEntry) []roundEntry {
+		es = slices.DeleteFunc(es, func(x roundEntry) bool {
+			return x.date == date && x.session == ses.String() && x.entry == entryOpponentCar
+		})
+		if value != "" {
+			es = append(es, roundEntry{date, ses.String(), entryOpponentCar, value, now})
 		}
 		return es
 	})

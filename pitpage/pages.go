@@ -66,6 +66,12 @@ func text(name, label, unit, placeholder string) field {
 	return field{Name: name, Label: label, Unit: unit, Placeholder: placeholder, Mode: "decimal", Max: MaxFieldLen}
 }
 
+// oppCarField is the other car's number or name, as --opponent.
+func oppCarField() field {
+	return field{Name: "opponent", Label: "Other lane's car", Placeholder: "its number: 4471", Max: event.MaxCarLen,
+		Help: "Its slips are kept in opponents.csv; the card then races against its history."}
+}
+
 // fill puts the posted values back into the form (a bad submission keeps
 // every field as typed).
 func fill(form []field, v url.Values) {
@@ -147,7 +153,11 @@ func (s *Server) cardPage(q *request) {
 	}
 	f := text("opponent-dial", "Other lane's dial", "s", "11.62")
 	f.Value, f.Help = p.OppDial, "As posted on its window; blank clears it. The card then shows the chance to win for each dial."
-	p.Form = []field{f}
+	car := oppCarField()
+	if notes, err := q.folder.RoundNotes(p.Day, in.Session); err == nil {
+		car.Value = notes.OpponentCar
+	}
+	p.Form = []field{f, car}
 	s.render(q, "card", p, http.StatusOK)
 }
 
@@ -274,6 +284,7 @@ func slipForm(dist float64, w weather.WeightUnit) []field {
 		text("opponent-dial", "Other lane's dial", "s", ""),
 		text("opponent-rt", "Other lane's reaction time", "s", ""),
 		text("opponent-et", "Other lane's ET", "s", ""),
+		oppCarField(),
 		{Name: "time", Label: "Time of the pass", Placeholder: "now (or 20:47)", Max: 40, Help: "Blank for now."},
 		{Name: "weight", Label: "Weight as run", Unit: w.String(), Placeholder: "car.yaml's", Mode: "decimal", Max: 20},
 	}
@@ -337,7 +348,8 @@ func (s *Server) postSlip(q *request) {
 	fill(p.Form, q.r.PostForm)
 	np := event.NewPass{Session: v("session"), Lane: v("lane"), Dial: v("dial"), RT: v("rt"), Weight: v("weight"), Notes: v("notes"), Change: v("change"),
 		ET60: v("et60"), ET330: v("et330"), ET660: v("et660"), ET1000: v("et1000"), ET1: v("et1320"),
-		MPH660: v("mph660"), MPH1320: v("mph1320"), OppDial: v("opponent-dial"), OppRT: v("opponent-rt"), OppET: v("opponent-et")}
+		MPH660: v("mph660"), MPH1320: v("mph1320"), OppDial: v("opponent-dial"), OppRT: v("opponent-rt"), OppET: v("opponent-et"),
+		OppCar: v("opponent")}
 	if t := v("time"); t != "" {
 		start := q.folder.Settings.DayStart
 		when, err := event.ParseWhen(t, start.Day(q.now), start)
@@ -373,6 +385,12 @@ func (s *Server) postSlip(q *request) {
 		res.said = append(res.said, lp.Decided)
 	}
 	res.said = append(res.said, lp.Warnings...)
+	if lp.Opponent != nil {
+		res.said = append(res.said, "The other lane's slip is kept as car "+lp.Opponent.Car+"'s.")
+	}
+	if lp.OpponentErr != nil {
+		res.said = append(res.said, lp.OpponentErr.Error())
+	}
 	// The answer is a redirect to the result: a reload shows it again and
 	// posts nothing.
 	id := s.slips.add(key, res, s.cfg.Now())
@@ -478,13 +496,18 @@ func (s *Server) roundsItems(q *request, ses logbook.Session, day string, ticked
 func (s *Server) postOpponent(q *request) {
 	v := values(q.r.PostForm)
 	ses, day, err := roundOf(v)
+	if err == nil && strings.TrimSpace(v("opponent")) != "" {
+		_, err = event.ParseCar("--opponent", v("opponent")) // checked first: a bad name leaves the dial as it was too
+	}
 	if err == nil {
-		err = q.folder.SetOpponentDial(day, ses, v("opponent-dial"), q.now)
+		if err = q.folder.SetOpponentDial(day, ses, v("opponent-dial"), q.now); err == nil {
+			err = q.folder.SetOpponentCar(day, ses, v("opponent"), q.now)
+		}
 	}
 	if err != nil {
 		p := q.newPage("Card", "card")
 		p.Round = v("round")
-		p.Form = []field{text("opponent-dial", "Other lane's dial", "s", "11.62")}
+		p.Form = []field{text("opponent-dial", "Other lane's dial", "s", "11.62"), oppCarField()}
 		fill(p.Form, q.r.PostForm)
 		p.Error = attach(p.Form, err)
 		p.Heading, p.Action, p.Submit = "The other lane", "/opponent", "Save the other lane's dial"

@@ -280,6 +280,9 @@ func newView(c Card) view {
 		if len(c.Win) > 0 {
 			v.OptionsNote = fmt.Sprintf("To win: against the other lane's %s dial, its car %+.3f s over its dial (± %.3f) and its driver's reaction %.3f ± %.3f s; %d races drawn per dial (good to ±0.5 points).",
 				dialText(in.Opponent.Dial, step), in.Opponent.Margin, in.Opponent.MarginSD, in.Opponent.RT.Mean, in.Opponent.RT.SD, bracket.WinDraws)
+			if in.Opponent.From != "" { // a named car: where its figures came from
+				v.OptionsNote += " Its figures: " + in.Opponent.From + "."
+			}
 		}
 	}
 

@@ -76,6 +76,13 @@ func TestBadInputTour(t *testing.T) {
 	sheet := filepath.Join(mapsDir, "sheet.csv")
 	_ = os.WriteFile(sheet, []byte("Date;Time;Extra\n13/06/2026;20:13;1\n"), 0o644)
 
+	// an opponent book with a reaction time of 4.5 s on line 3 (invented cars)
+	oppBook := "car,date,round,dial,rt,et,breakout,notes\n4471,2026-06-12,E1,11.80,0.045,11.842,no,\n4471,2026-06-12,E2,11.80,4.5,11.851,no,\n"
+	badOpp, badOppAdd := demoCopy(t), demoCopy(t)
+	for _, d := range []string{badOpp, badOppAdd} {
+		_ = os.WriteFile(filepath.Join(d, "opponents.csv"), []byte(oppBook), 0o644)
+	}
+
 	reading := []string{"--temp", "85F", "--baro", "27.6inHg", "--humidity", "35%"}
 	type tc struct {
 		args []string
@@ -126,6 +133,15 @@ func TestBadInputTour(t *testing.T) {
 			{[]string{"log", "add", "--dir", good, "--session", "E9", "--lane", "left", "--et1320", "11.5", "--date", "2500-06-01"}, 2, []string{"--date", "2500-06-01", "in the future", "today is 2026-06-13"}},
 			{[]string{"log", "add", "--dir", good, "--session", "E9", "--lane", "left", "--et1320", "11.5", "--change", strings.Repeat("new converter ", 20)}, 2, []string{"--change", "is 279 bytes long (at most 200)", "the rest goes in the notes"}},
 			{[]string{"log", "add", "--dir", good, "--session", "E9", "--lane", "left", "--et1320", "11.5", "--change", "new\x1b[2Jconverter"}, 2, []string{"--change", `"new\x1b[2Jconverter"`, "control character", "one line"}},
+		},
+		"opponent book": {
+			{[]string{"log", "opponents", "--dir", badOpp}, 2, []string{"opponents.csv line 3", `rt "4.5" is outside -1..2 s`, "4471"}},
+			{[]string{"card", "--dir", badOpp, "--round", "E3", "--lane", "left", "--opponent-dial", "11.80", "--opponent", "4471"}, 2, []string{"opponents.csv line 3", "rt", "from 1 pass of car 4471 (1 event)"}},
+			{[]string{"card", "--dir", good, "--round", "E3", "--lane", "left", "--opponent-dial", "11.80", "--opponent", strings.Repeat("9", 41)}, 2, []string{"--opponent", "longer than 40"}},
+			{[]string{"log", "add", "--dir", good, "--session", "E9", "--lane", "left", "--et1320", "11.5", "--opponent", "4471"}, 2, []string{"--opponent 4471", "--opponent-dial, --opponent-rt, --opponent-et"}},
+			// the bad row stays in the book through an append (checked below)
+			{[]string{"log", "add", "--dir", badOppAdd, "--session", "E9", "--lane", "left", "--dial", "11.45", "--rt", ".02", "--et1320", "11.5", "--time", "20:44",
+				"--opponent-dial", "11.80", "--opponent-rt", ".04", "--opponent-et", "11.83", "--opponent", "4471"}, 0, []string{"kept in", "as car 4471's"}},
 		},
 		"log import/list/stats": {
 			{[]string{"log", "import", "--dir", good, missing}, 2, []string{"cannot read"}},
@@ -241,6 +257,12 @@ func TestBadInputTour(t *testing.T) {
 			{[]string{"--units", "furlongs", "air", "--dir", good, "--latest"}, 2, []string{"units", "imperial or metric"}},
 		},
 	}
+	defer func() { // nothing of the opponent book lost: its bad row is written back as it was
+		data, _ := os.ReadFile(filepath.Join(badOppAdd, "opponents.csv"))
+		if !strings.Contains(string(data), "4471,2026-06-12,E2,11.80,4.5,11.851,no,") || strings.Count(string(data), "\n") != 4 {
+			t.Errorf("the opponent book after an append:\n%s", data)
+		}
+	}()
 	for name, cases := range tour {
 		for _, c := range cases {
 			out, errs, code := pitcard(t, c.args...)

@@ -249,7 +249,8 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 		var usRT bracket.RTModel
 		if oppDial.Valid {
 			passes, _ := e.RecentLogbook()
-			if opp, usRT, err = o.opp.Build(e.Settings, oppDial, passes); err != nil {
+			book, _ := e.OpponentBook() // a bad book: the settings' figures (the card names its rows)
+			if opp, usRT, err = o.opp.Build(e.Settings, oppDial, passes, book); err != nil {
 				return err
 			}
 		} else { // the other lane's dial the card races against (rounds.csv)
@@ -329,6 +330,9 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 	if opp != nil {
 		fmt.Fprintln(o.s.Out, prep.Wrap(fmt.Sprintf("Against the other lane's %s: %s; the dial that wins most is %s (%.1f %% to win). Chances from %d races drawn per dial, good to ±0.5 points.",
 			prep.DialText(opp.Dial, plan.Step), prep.HeadStartWords(plan.Recommended, opp.Dial), j.BestForWin.Dial, 100*j.BestForWin.WinChance, bracket.WinDraws), o.s.width(), "  "))
+		if opp.From != "" { // a named car (--opponent): where its figures came from
+			fmt.Fprintln(o.s.Out, prep.Wrap("The other lane's figures: "+opp.From+".", o.s.width(), "  "))
+		}
 		best := bracket.BestForWin(wins)
 		if bo := bracket.BreakoutChance(est, best.Dial); bo > plan.Risk {
 			var rule bracket.WinOption

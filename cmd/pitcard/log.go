@@ -39,7 +39,7 @@ previous logbook as logbook.csv.bak.`,
   pitcard log compare E2 --with best`,
 	}
 	cmd.AddCommand(newLogAddCmd(s, g), newLogImportCmd(s, g), newLogListCmd(s, g), newLogStatsCmd(s, g), newLogDiffCmd(s, g), newLogExportCmd(s, g),
-		newLogCompareCmd(s, g))
+		newLogCompareCmd(s, g), newLogOpponentsCmd(s, g))
 	groupCmd(cmd)
 	return cmd
 }
@@ -56,6 +56,7 @@ type logAddOptions struct {
 	// The other lane's slip, when it is entered too: what decided the round.
 	OppDial      string
 	OppRT, OppET []string
+	OppCar       string // the other car: its slip goes into opponents.csv
 }
 
 func newLogAddCmd(s *IOStreams, g *globalOptions) *cobra.Command {
@@ -100,6 +101,7 @@ weight to car.yaml's.`,
 	// one value here: a pass has one slip.
 	fl.StringSliceVar(&o.OppRT, "opponent-rt", nil, "the other lane's reaction time from its slip, s (a list on card and dial; one value here)")
 	fl.StringSliceVar(&o.OppET, "opponent-et", nil, "the other lane's ET from its slip, s (a list on card and dial; one value here)")
+	fl.StringVar(&o.OppCar, "opponent", "", "the other car's number or name (4471): with its slip, kept in opponents.csv for the next time you race it")
 	o.reading.bind(cmd)
 	return cmd
 }
@@ -121,7 +123,7 @@ func logAddRun(cmd *cobra.Command, o *logAddOptions) error {
 		Date: o.Date, Time: o.Time, Track: o.Track, Session: o.Session, Lane: o.Lane, Dial: o.Dial, RT: o.RT,
 		Weight: o.Weight, Notes: o.Notes, ET60: o.ET60, ET330: o.ET330, ET660: o.ET660, ET1000: o.ET1000, ET1: o.ET1,
 		MPH660: o.MPH660, MPH1320: o.MPH1320, Change: o.Change, Reading: o.reading.ReadingFields,
-		OppDial: o.OppDial, OppRT: oppRT, OppET: oppET,
+		OppDial: o.OppDial, OppRT: oppRT, OppET: oppET, OppCar: o.OppCar,
 	}, o.s.Now())
 	if err != nil {
 		return err
@@ -140,7 +142,10 @@ func logAddRun(cmd *cobra.Command, o *logAddOptions) error {
 	if lp.Decided != "" {
 		fmt.Fprintln(o.s.Out, prep.Wrap(lp.Decided, o.s.width(), "  "))
 	}
-	return nil
+	if lp.Opponent != nil {
+		fmt.Fprintf(o.s.Out, "The other lane's slip is kept in %s as car %s's.\n", e.Name(event.OpponentsFile), lp.Opponent.Car)
+	}
+	return lp.OpponentErr
 }
 
 // oneValue is the single value of a list flag that takes one slip's
@@ -216,7 +221,12 @@ a map from FILE's header, prints it, and imports with it only when given
 With --skip-existing (a crewmate's copy of the logbook), a pass already
 logged with the same values is skipped and counted; the same pass with
 another value in any field is a conflict: both versions are listed and
-nothing is written. 'pitcard log diff FILE' shows the same without writing.`,
+nothing is written. 'pitcard log diff FILE' shows the same without writing.
+
+A crewmate's opponents.csv (the other lane's slips; its header tells it) is
+added to this folder's opponent book the same way: all or nothing, a slip
+already there skipped with --skip-existing, another figure for the same car,
+day and round a conflict.`,
 		Example: `  pitcard log import season-2026.csv
   pitcard log import season.csv --map spreadsheet-map.yaml
   pitcard log import ../theo-laptop/logbook.csv --skip-existing`,
@@ -227,6 +237,9 @@ nothing is written. 'pitcard log diff FILE' shows the same without writing.`,
 				return err
 			}
 			if err := e.Writable(); err != nil {
+				return err
+			}
+			if done, err := importOpponents(o.s, e, args[0], o.SkipExisting); done {
 				return err
 			}
 			source, err := o.maps.source(o.s, e, args[0], colmap.Logbook)

@@ -16,6 +16,7 @@ type opponentFlags struct{ event.OpponentFields }
 
 func (o *opponentFlags) bind(cmd *cobra.Command) {
 	fl := cmd.Flags()
+	fl.StringVar(&o.Car, "opponent", "", "the other car's number or name (4471): its slips in opponents.csv set its margin, spread and reaction times")
 	fl.StringVar(&o.Margin, "opponent-margin", "", "the other lane's ET over its dial, mean, s (setting opponent_margin; default 0.02)")
 	fl.StringVar(&o.SD, "opponent-margin-sd", "", "the other lane's ET over its dial, spread, s (setting opponent_margin_sd; default 0.03)")
 	fl.StringVar(&o.SD, "opponent-sd", "", "")

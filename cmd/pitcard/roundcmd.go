@@ -396,6 +396,10 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 			et, err2 := p.until("Other lane's ET", "", func(a string) error { return logbook.CheckSlipField("dial", "other lane's ET", a) })
 			if err1 == nil && err2 == nil && rt != "" && et != "" {
 				args = append(args, "--opponent-dial", d, "--opponent-rt", rt, "--opponent-et", et)
+				// Its car, to keep the slip in the opponent book (--opponent on round is the default).
+				if car := p.ask("Other lane's car, its number (Enter to skip)", rf.opp.Car); car != "" {
+					args = append(args, "--opponent", car)
+				}
 			}
 		}
 	}

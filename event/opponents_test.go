@@ -1,0 +1,205 @@
+package event
+
+import (
+	"errors"
+	"math"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+	"time"
+
+	"github.com/shopspring/decimal"
+
+	"pitcard/bracket"
+	"pitcard/logbook"
+	"pitcard/weather"
+)
+
+// An invented book: car 4471 of an invented track's season, car "Blue Nova".
+const bookHead = "car,date,round,dial,rt,et,breakout,notes\n"
+
+func TestReadOpponentsRows(t *testing.T) {
+	for _, tc := range []struct {
+		name       string
+		rows       string
+		good       int
+		badField   string // the field the first bad row names
+		badLine    int
+		badContain string // the valid range or rule
+	}{
+		{"good", "4471,2026-06-13,E3,11.80,.045,11.842,no,\n\"#Blue Nova\",2026-06-14,T1,12.10,-.012,12.081,yes,red light\n", 2, "", 0, ""},
+		{"blank breakout is worked out", "4471,2026-06-13,E3,11.80,.045,11.79,,\n", 1, "", 0, ""},
+		{"rt out of range", "4471,2026-06-13,E3,11.80,.045,11.842,no,\n4471,2026-06-13,E4,11.80,4.5,11.842,no,\n", 1, "rt", 3, "-1..2 s"},
+		{"dial out of range", "4471,2026-06-13,E3,0.9,.045,11.842,no,\n", 0, "dial", 2, "1.5..40 s"},
+		{"breakout disagrees", "4471,2026-06-13,E3,11.80,.045,11.842,yes,\n", 0, "breakout", 2, "disagrees"},
+		{"bad round", "4471,2026-06-13,Q3,11.80,.045,11.842,no,\n", 0, "round", 2, "T1, T2"},
+		{"bad date", "4471,13/06/2026,E3,11.80,.045,11.842,no,\n", 0, "date", 2, "YYYY-MM-DD"},
+		{"blank car", ",2026-06-13,E3,11.80,.045,11.842,no,\n", 0, "car", 2, "blank"},
+		{"short row", "4471,2026-06-13,E3\n", 0, "row", 2, "has 3 fields"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			b, err := ReadOpponents(strings.NewReader(bookHead+tc.rows), "opponents.csv")
+			if err != nil {
+				t.Fatal(err)
+			}
+			if len(b.Passes) != tc.good {
+				t.Errorf("%d good rows, want %d (%v)", len(b.Passes), tc.good, b.Bad)
+			}
+			if tc.badField == "" {
+				if len(b.Bad) > 0 {
+					t.Errorf("bad rows: %v", b.Bad)
+				}
+				return
+			}
+			var ie *weather.InputError
+			if len(b.Bad) == 0 || !errors.As(b.Bad[0], &ie) {
+				t.Fatalf("no bad row named: %v", b.Bad)
+			}
+			if ie.File != "opponents.csv" || ie.Line != tc.badLine || ie.Field != tc.badField || !strings.Contains(ie.Error(), tc.badContain) {
+				t.Errorf("bad row said %q (file %q line %d field %q), want line %d field %q with %q", ie.Error(), ie.File, ie.Line, ie.Field, tc.badLine, tc.badField, tc.badContain)
+			}
+		})
+	}
+	if _, err := ReadOpponents(strings.NewReader("car,date\n"), "opponents.csv"); err == nil || !strings.Contains(err.Error(), "opponents.csv") {
+		t.Errorf("a wrong header must be refused naming the file: %v", err)
+	}
+	// A bare # starts a comment line; quoted, "#Blue Nova" is the car Blue Nova.
+	b, _ := ReadOpponents(strings.NewReader(bookHead+"\"#Blue Nova\",2026-06-14,T1,12.10,-.012,12.081,yes,red light\n#a comment\n"), "x")
+	if len(b.Passes) != 1 || b.Passes[0].Car != "Blue Nova" || !b.Passes[0].Breakout {
+		t.Errorf("\"#Blue Nova\" was read as %+v", b.Passes)
+	}
+}
+
+// Appending keeps the bad rows as they were, skips a slip already there and
+// refuses another figure for the same car, day and round.
+func TestAddOpponentPasses(t *testing.T) {
+	dir := t.TempDir()
+	bad := "4471,2026-06-12,E1,11.80,9.9,11.842,no,typo\n"
+	if err := os.WriteFile(filepath.Join(dir, OpponentsFile), []byte(bookHead+bad), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	e := &Folder{Dir: dir, FS: os.DirFS(dir)}
+	e3 := logbook.Session{Kind: logbook.Elimination, N: 3}
+	p, err := NewOpponentPass("#4471", "2026-06-13", e3, "11.80", ".045", "11.842", "")
+	if err != nil || p.Car != "4471" {
+		t.Fatalf("%+v %v", p, err)
+	}
+	if n, _, err := e.AddOpponentPasses([]OpponentPass{p}, "this slip"); err != nil || n != 1 {
+		t.Fatalf("added %d: %v", n, err)
+	}
+	if n, same, err := e.AddOpponentPasses([]OpponentPass{p}, "this slip"); err != nil || n != 0 || same != 1 {
+		t.Errorf("the same slip again: added %d, same %d, %v", n, same, err)
+	}
+	other := p
+	other.ET = decimal.RequireFromString("11.901")
+	var c *Conflicts
+	if _, _, err := e.AddOpponentPasses([]OpponentPass{other}, "this slip"); !errors.As(err, &c) {
+		t.Errorf("another ET for the same car, day and round must be a conflict: %v", err)
+	}
+	data, _ := os.ReadFile(filepath.Join(dir, OpponentsFile))
+	if !strings.Contains(string(data), strings.TrimSuffix(bad, "\n")) || !strings.Contains(string(data), "4471,2026-06-13,E3,11.80,0.045,11.842,no,") {
+		t.Errorf("the book lost a row or rewrote one:\n%s", data)
+	}
+	if _, err := NewOpponentPass("4471", "2026-06-13", e3, "11.80", "3", "11.842", ""); err == nil || !strings.Contains(err.Error(), "--opponent-rt") {
+		t.Errorf("a bad slip must name its flag: %v", err)
+	}
+}
+
+// A named car's history sets the other lane (shrunk toward the settings'
+// figures: bracket.Shrunk, k = 3, common practice, no source), and the
+// chance to win moves with it.
+func TestBuildFromTheBook(t *testing.T) {
+	s := Settings{OppMargin: 0.02, OppMarginSD: 0.03, OppRTMean: 0.04, OppRTSD: 0.025, RTMean: 0.04, RTSD: 0.025}
+	book := func(n int, margin, rt float64, notes string) *OpponentBook {
+		b := &OpponentBook{}
+		for i := range n {
+			dial := decimal.RequireFromString("11.80")
+			jitter := 0.004 * float64(i%5-2) // -0.008 .. 0.008
+			b.Passes = append(b.Passes, OpponentPass{Car: "4471", Date: time.Date(2026, 5, 1+i%10, 0, 0, 0, 0, time.UTC).Format("2006-01-02"),
+				Round: logbook.Session{Kind: logbook.Elimination, N: 1 + i/10}, Dial: dial,
+				ET: dial.Add(decimal.NewFromFloat(margin + jitter).Round(3)), RT: decimal.NewFromFloat(rt + jitter).Round(3), Notes: notes})
+		}
+		return b
+	}
+	dial := decimal.NewNullDecimal(decimal.RequireFromString("11.80"))
+	build := func(b *OpponentBook, car string) *bracket.Opponent {
+		o := OpponentFields{Car: car}
+		opp, _, err := o.Build(s, dial, nil, b)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return opp
+	}
+	// A car that runs 0.12 over its dial and leaves late (0.09): a soft car.
+	one, fifty := build(book(1, 0.12, 0.09, ""), "4471"), build(book(50, 0.12, 0.09, ""), "4471")
+	if math.Abs(one.Margin-0.045) > 0.003 || math.Abs(one.MarginSD-0.03) > 1e-9 || math.Abs(one.RT.Mean-0.0525) > 0.003 {
+		t.Errorf("one pass: %+.4f ± %.4f, RT %.4f; want near the defaults: (3·0.02+0.12)/4 = 0.045 ± 0.030, RT (3·0.04+0.09)/4 = 0.0525", one.Margin, one.MarginSD, one.RT.Mean)
+	}
+	if math.Abs(fifty.Margin-0.12) > 0.007 || fifty.MarginSD > 0.012 || math.Abs(fifty.RT.Mean-0.09) > 0.004 {
+		t.Errorf("fifty passes: %+.4f ± %.4f, RT %.4f; want near the book's 0.12 ± 0.006, RT 0.09", fifty.Margin, fifty.MarginSD, fifty.RT.Mean)
+	}
+	if !strings.Contains(fifty.From, "from 50 passes of car 4471 (10 events)") {
+		t.Errorf("From = %q", fifty.From)
+	}
+	unknown := build(book(50, 0.12, 0.09, ""), "999")
+	if unknown.Margin != s.OppMargin || !strings.Contains(unknown.From, "no passes of car 999") {
+		t.Errorf("an unknown car: %+v", unknown)
+	}
+	// Aborted slips give their reaction times, not their ETs.
+	lifted := build(book(50, 0.9, 0.09, "lifted at half track"), "4471")
+	if lifted.Margin != s.OppMargin || math.Abs(lifted.RT.Mean-0.09) > 0.004 {
+		t.Errorf("lifted slips: margin %.4f (want the default), RT %.4f", lifted.Margin, lifted.RT.Mean)
+	}
+	// The chance to win (bracket.WinChances) against the soft car's history
+	// beats that against an unknown car on the same dial: it gives away more.
+	us := bracket.Estimate{ET: 11.45, SD: 0.03}
+	ds := []decimal.Decimal{decimal.RequireFromString("11.42")}
+	win := func(o *bracket.Opponent) float64 {
+		return bracket.WinChances(bracket.WinInput{Us: us, UsRT: bracket.RTModel{Mean: 0.04, SD: 0.025}, Opp: *o, Seed: 1}, ds)[0].Win
+	}
+	wOne, wFifty, wUnknown := win(one), win(fifty), win(unknown)
+	if !(wFifty > wOne+0.05 && wOne > wUnknown) {
+		t.Errorf("to win: unknown %.3f, one pass %.3f, fifty %.3f: the history must move it, more with more passes", wUnknown, wOne, wFifty)
+	}
+}
+
+// FuzzReadOpponents: any opponents.csv is read or refused with the file
+// named, never a panic; what is read is written back and read the same.
+func FuzzReadOpponents(f *testing.F) {
+	f.Add(bookHead + "4471,2026-06-13,E3,11.80,.045,11.842,no,\n")
+	f.Add(bookHead + "\"#7\",2026-06-13,E3,11.80,.045,11.842,no,\n4471,2026-06-13,E3,11.80,4.5,11.842,no,x\n")
+	f.Add("\xef\xbb\xbf" + bookHead + "=1+1,2026-06-13,test,11.80,-.045,11.7,,\"a, b\"\r\n")
+	f.Add(bookHead + "4471,2026-06-13,E3,\"11.80\n")
+	f.Add("car,date\n1,2\n")
+	f.Fuzz(func(t *testing.T, data string) {
+		b, err := ReadOpponents(strings.NewReader(data), OpponentsFile)
+		if err != nil {
+			if !strings.Contains(err.Error(), OpponentsFile) {
+				t.Fatalf("the error does not name the file: %v", err)
+			}
+			return
+		}
+		for _, e := range b.Bad {
+			if !strings.Contains(e.Error(), OpponentsFile) {
+				t.Fatalf("a bad row does not name the file: %v", e)
+			}
+		}
+		if b.broken {
+			return
+		}
+		var w strings.Builder
+		if err := b.Write(&w); err != nil {
+			t.Fatal(err)
+		}
+		again, err := ReadOpponents(strings.NewReader(w.String()), OpponentsFile)
+		if err != nil || len(again.Passes) != len(b.Passes) || len(again.Bad) != len(b.Bad) {
+			t.Fatalf("rewritten: %d good %d bad (%v), was %d good %d bad\n%q", len(again.Passes), len(again.Bad), err, len(b.Passes), len(b.Bad), w.String())
+		}
+		for i := range b.Passes {
+			if strings.Join(again.Passes[i].Record(), ",") != strings.Join(b.Passes[i].Record(), ",") {
+				t.Fatalf("row %d rewritten as %v, was %v", i, again.Passes[i].Record(), b.Passes[i].Record())
+			}
+		}
+	})
+}
