@@ -80,7 +80,7 @@ func ParseCar(field, s string) (string, error) {
 	c := strings.TrimSpace(strings.TrimPrefix(strings.TrimSpace(s), "#"))
 	switch {
 	case c == "":
-		return "", &weather.InputError{Field: field, Value: s, Reason: "is blank: give the other car's number or name (4471, Blue Nova)"}
+		return "", &weather.InputError{Field: field, Value: s, Reason: "is blank: give the other car's number or name (4471, Copper Wren)"}
 	case len(c) > MaxCarLen:
 		return "", &weather.InputError{Field: field, Value: s, Reason: fmt.Sprintf("is longer than %d characters: give the car's number or a short name", MaxCarLen)}
 	case strings.ContainsFunc(c, func(r rune) bool { return !unicode.IsPrint(r) }) || c == "\uFFFD":

@@ -16,7 +16,7 @@ import (
 	"pitcard/weather"
 )
 
-// An invented book: car 4471 of an invented track's season, car "Blue Nova".
+// An invented book: car 4471 of an invented track's season, car "Copper Wren".
 const bookHead = "car,date,round,dial,rt,et,breakout,notes\n"
 
 func TestReadOpponentsRows(t *testing.T) {
@@ -28,7 +28,7 @@ func TestReadOpponentsRows(t *testing.T) {
 		badLine    int
 		badContain string // the valid range or rule
 	}{
-		{"good", "4471,2026-06-13,E3,11.80,.045,11.842,no,\n\"#Blue Nova\",2026-06-14,T1,12.10,-.012,12.081,yes,red light\n", 2, "", 0, ""},
+		{"good", "4471,2026-06-13,E3,11.80,.045,11.842,no,\n\"#Copper Wren\",2026-06-14,T1,12.10,-.012,12.081,yes,red light\n", 2, "", 0, ""},
 		{"blank breakout is worked out", "4471,2026-06-13,E3,11.80,.045,11.79,,\n", 1, "", 0, ""},
 		{"rt out of range", "4471,2026-06-13,E3,11.80,.045,11.842,no,\n4471,2026-06-13,E4,11.80,4.5,11.842,no,\n", 1, "rt", 3, "-1..2 s"},
 		{"dial out of range", "4471,2026-06-13,E3,0.9,.045,11.842,no,\n", 0, "dial", 2, "1.5..40 s"},
@@ -64,10 +64,10 @@ func TestReadOpponentsRows(t *testing.T) {
 	if _, err := ReadOpponents(strings.NewReader("car,date\n"), "opponents.csv"); err == nil || !strings.Contains(err.Error(), "opponents.csv") {
 		t.Errorf("a wrong header must be refused naming the file: %v", err)
 	}
-	// A bare # starts a comment line; quoted, "#Blue Nova" is the car Blue Nova.
-	b, _ := ReadOpponents(strings.NewReader(bookHead+"\"#Blue Nova\",2026-06-14,T1,12.10,-.012,12.081,yes,red light\n#a comment\n"), "x")
-	if len(b.Passes) != 1 || b.Passes[0].Car != "Blue Nova" || !b.Passes[0].Breakout {
-		t.Errorf("\"#Blue Nova\" was read as %+v", b.Passes)
+	// A bare # starts a comment line; quoted, "#Copper Wren" is the car Copper Wren.
+	b, _ := ReadOpponents(strings.NewReader(bookHead+"\"#Copper Wren\",2026-06-14,T1,12.10,-.012,12.081,yes,red light\n#a comment\n"), "x")
+	if len(b.Passes) != 1 || b.Passes[0].Car != "Copper Wren" || !b.Passes[0].Breakout {
+		t.Errorf("\"#Copper Wren\" was read as %+v", b.Passes)
 	}
 }
 
