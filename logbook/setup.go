@@ -1,12 +1,15 @@
 package logbook
 
 import (
+	"encoding/csv"
 	"fmt"
+	"io"
 	"math"
 	"slices"
 	"strconv"
 	"strings"
 
+	"pitcard/internal/csvtext"
 	"pitcard/weather"
 )
 
@@ -252,4 +255,32 @@ func checkSetup(cols []setupColumn, rec []string) *weather.InputError {
 		rec[c.index] = cell
 	}
 	return nil
+}
+
+// WriteWith is Write with the crew's columns extra after logbook.csv's
+// (the setup items' among them), each pass's value as it keeps it: an
+// export that imports back with its setup.
+func WriteWith(w io.Writer, passes []Pass, extra []string) error {
+	if len(extra) == 0 {
+		return Write(w, passes)
+	}
+	cw := csv.NewWriter(w)
+	cols := writtenColumns(passes)
+	if err := cw.Write(append(append([]string(nil), cols...), extra...)); err != nil {
+		return err
+	}
+	for _, p := range passes {
+		rec := PassRecord(p)[:len(cols)]
+		for i, c := range cols {
+			if textColumns[c] {
+				rec[i] = csvtext.Cell(rec[i])
+			}
+		}
+		for _, x := range extra {
+			rec = append(rec, csvtext.Cell(p.Extra[x]))
+		}
+		cw.Write(rec)
+	}
+	cw.Flush()
+	return cw.Error()
 }
