@@ -114,7 +114,8 @@ type NewPass struct {
 	// Fields of the reading that replace the weather log's.
 	Reading ReadingFields
 	// The other lane's slip, when it is entered too: what decided the round.
-	OppDial, OppRT, OppET string // Set are the pass's setup, "name=value" (the --set flags): each an
+	OppDial, OppRT, OppET string
+	// Set are the pass's setup, "name=value" (the --set flags): each an
 	// item of car.yaml's setup; an item not given keeps the last pass's value.
 	Set []string
 }
