@@ -307,6 +307,7 @@ type target struct {
 // 2018), the older scores discounted as Barber, Candès, Ramdas and
 // Tibshirani (Ann. Statist. 2023) do for data that drift. cache may be nil.
 func Forecast(cal CalibrateInput, next PredictInput, cache *HeldOutCache) (Prediction, Fit, error) {
+	cal.Passes = MarkSetupChanges(cal.Passes, cal.Car.Setup) // a changed choice item is a change of the car
 	fit, err := Calibrate(cal)
 	if err != nil {
 		return Prediction{}, fit, err

@@ -37,7 +37,7 @@ previous logbook as logbook.csv.bak.`,
   pitcard log list --last 10
   pitcard log stats --last 40`,
 	}
-	cmd.AddCommand(newLogAddCmd(s, g), newLogImportCmd(s, g), newLogListCmd(s, g), newLogStatsCmd(s, g), newLogDiffCmd(s, g), newLogExportCmd(s, g))
+	cmd.AddCommand(newLogAddCmd(s, g), newLogImportCmd(s, g), newLogListCmd(s, g), newLogStatsCmd(s, g), newLogDiffCmd(s, g), newLogExportCmd(s, g), newLogSetupCmd(s, g))
 	groupCmd(cmd)
 	return cmd
 }

@@ -62,3 +62,27 @@ func TestLogAddSet(t *testing.T) {
 		t.Errorf("list with a bad cell: %s", errs)
 	}
 }
+
+// log setup names each item: the numeric one with its passes and values
+// (or "not enough variation"), the choice one with the pass it changed on.
+func TestLogSetupCommand(t *testing.T) {
+	dir := setupFolder(t)
+	lines := strings.Split(strings.TrimSpace(season(30)), "\n")
+	lines[0] += ",rear_psi,converter"
+	for i := 1; i < len(lines); i++ {
+		conv := "stock"
+		if i > 20 {
+			conv = "5400-stall"
+		}
+		lines[i] += "," + []string{"14", "15", "16", "17", "18"}[i%5] + "," + conv
+	}
+	src := filepath.Join(t.TempDir(), "season.csv")
+	writeFile(t, src, strings.Join(lines, "\n")+"\n")
+	mustRun(t, "log", "import", "--dir", dir, src)
+	out := mustRun(t, "log", "setup", "--dir", dir)
+	for _, w := range []string{"rear_psi: ", "from 30 passes with 14–18 psi", "converter: a choice, changed on 2026-05-04 17:00", "(stock → 5400-stall)"} {
+		if !strings.Contains(out, w) {
+			t.Errorf("log setup lacks %q:\n%s", w, out)
+		}
+	}
+}
