@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"math"
 	"slices"
+	"strconv"
+	"strings"
 
 	"pitcard/internal/text"
 	"pitcard/logbook"
@@ -197,12 +199,12 @@ func (e SetupEffect) Text() string {
 		}
 		belief := "the prior: none"
 		if e.Prior != [2]float64{} {
-			belief = fmt.Sprintf("the crew's belief: 60 ft %+.4f, finish %+.4f s per %s", e.Prior[0], e.Prior[1], u)
+			belief = fmt.Sprintf("the crew's belief: 60 ft %s, finish %s s per %s", signedN(e.Prior[0], 4), signedN(e.Prior[1], 4), u)
 		}
 		return fmt.Sprintf("%s: not enough variation to say (%s); %s", e.Item.Name, why, belief)
 	}
-	return fmt.Sprintf("%s: 60 ft %+.4f ± %.4f s per %s, finish %+.4f ± %.4f, from %s",
-		e.Item.Name, e.Effect[0], e.SE[0], u, e.Effect[1], e.SE[1], varied)
+	return fmt.Sprintf("%s: 60 ft %s ± %.4f s per %s, finish %s ± %.4f, from %s",
+		e.Item.Name, signedN(e.Effect[0], 4), e.SE[0], u, signedN(e.Effect[1], 4), e.SE[1], varied)
 }
 
 // num prints a setup value as short as it reads.
@@ -256,4 +258,132 @@ func MarkSetupChanges(passes []logbook.Pass, setup logbook.Setup) []logbook.Pass
 		out[i].Change = what
 	}
 	return out
+}
+
+// SetupChange is one planned change of a numeric setup item for the next
+// pass (card --set), with what the item is worth.
+type SetupChange struct {
+	Effect        SetupEffect
+	Planned, Last float64 // the planned value and the last pass's
+}
+
+// Move is what the change moves the 60 ft (0) and the finish (1), s, and
+// the SD of that: the effect times the change, its SE times the change.
+func (c SetupChange) Move() (shift, sd [2]float64) {
+	d := c.Planned - c.Last
+	for k := range 2 {
+		shift[k], sd[k] = c.Effect.Effect[k]*d, math.Abs(c.Effect.SE[k]*d)
+	}
+	return shift, sd
+}
+
+// Text says the change for the card: "rear_psi 15 psi (was 16): 60 ft
+// −0.009 ± 0.001, finish −0.014 ± 0.001, from 60 passes with 12.5–20.5
+// psi", or on the crew's belief when the logbook cannot say.
+func (c SetupChange) Text() string {
+	e := c.Effect
+	shift, sd := c.Move()
+	from := fmt.Sprintf("from %s with %s–%s %s", text.Plural(e.Passes, "pass"), num(e.Lo), num(e.Hi), e.Item.Unit)
+	if !e.Enough {
+		from = "not enough variation in the logbook to say: the crew's expect in car.yaml"
+		if e.Prior == [2]float64{} {
+			from = "not enough variation in the logbook to say: no effect assumed, the interval widened for it"
+		}
+	}
+	return fmt.Sprintf("setup: %s %s %s (was %s): 60 ft %s ± %.3f, finish %s ± %.3f, %s",
+		e.Item.Name, num(c.Planned), e.Item.Unit, num(c.Last), signed(shift[0]), sd[0], signed(shift[1]), sd[1], from)
+}
+
+// signed prints a shift in s with its sign, a true minus for quicker.
+func signed(x float64) string { return signedN(x, 3) }
+
+// signedN prints x with its sign and dec decimals, a true minus.
+func signedN(x float64, dec int) string {
+	s := fmt.Sprintf("%+.*f", dec, x)
+	if s[0] == '-' {
+		return "−" + s[1:]
+	}
+	return s
+}
+
+// ApplySetup moves the prediction by the planned changes: the 60 ft by
+// their 60-ft moves, the finish by their finish moves, every other timer by
+// the finish's in proportion to its time (as the blend moves them); each
+// SD widened by the moves' SDs (added in quadrature: the items' effects
+// are fitted apart and taken as independent), the dial's spread with the
+// finish's. The changes' texts are added to the notes.
+func ApplySetup(pr *Prediction, changes []SetupChange) {
+	if len(changes) == 0 || len(pr.Timers) == 0 {
+		return
+	}
+	var shift, v [2]float64
+	for _, c := range changes {
+		s, sd := c.Move()
+		for k := range 2 {
+			shift[k] += s[k]
+			v[k] += sd[k] * sd[k]
+		}
+		pr.Notes = append(pr.Notes, c.Text())
+	}
+	fin := pr.Finish()
+	for i := range pr.Timers {
+		t := &pr.Timers[i]
+		var sh, sd float64
+		switch {
+		case t.DistanceFt == 60:
+			sh, sd = shift[0], math.Sqrt(v[0])
+		case t.DistanceFt == fin.DistanceFt:
+			sh, sd = shift[1], math.Sqrt(v[1])
+		default:
+			scale := t.ET / fin.ET
+			sh, sd = shift[1]*scale, math.Sqrt(v[1])*scale
+		}
+		t.ET += sh
+		t.SD = math.Hypot(t.SD, sd)
+		t.Low, t.High = t.ET-IntervalZ*t.SD, t.ET+IntervalZ*t.SD
+	}
+	if pr.DialSD > 0 {
+		pr.DialSD = math.Hypot(pr.DialSD, math.Sqrt(v[1]))
+	}
+}
+
+// PlannedSetup are the changes of the planned setup against the last
+// pass's (each a name and its cell, as logbook.LastSetup gives them) for
+// the numeric items of effs; an item unchanged, or without a last value, is
+// no change. A choice item changed is a change of the car, which
+// ChoiceChanges says.
+func PlannedSetup(effs []SetupEffect, planned, last map[string]string) []SetupChange {
+	var out []SetupChange
+	for _, e := range effs {
+		p, okP := planned[e.Item.Name]
+		l, okL := last[e.Item.Name]
+		if !okP || !okL || p == l {
+			continue
+		}
+		pv, err1 := strconv.ParseFloat(p, 64)
+		lv, err2 := strconv.ParseFloat(l, 64)
+		if err1 != nil || err2 != nil || pv == lv {
+			continue
+		}
+		out = append(out, SetupChange{Effect: e, Planned: pv, Last: lv})
+	}
+	return out
+}
+
+// ChoiceChanges says the planned choice items that differ from the last
+// pass's, as a change of the car ("converter: stock → 5400-stall"), or "".
+func ChoiceChanges(setup logbook.Setup, planned, last map[string]string) string {
+	var parts []string
+	for _, it := range setup {
+		if it.Numeric() {
+			continue
+		}
+		if p, l := planned[it.Name], last[it.Name]; p != "" && p != l {
+			if l == "" {
+				l = "not recorded"
+			}
+			parts = append(parts, fmt.Sprintf("%s: %s → %s", it.Name, l, p))
+		}
+	}
+	return strings.Join(parts, "; ")
 }

@@ -117,3 +117,55 @@ func TestSetupChoiceIsAChange(t *testing.T) {
 		t.Errorf("fit's change %+v", fit.Change)
 	}
 }
+
+// A planned change moves the prediction by the fitted effect times the
+// change (the 60 ft by the 60-ft effect, the finish by the finish's, the
+// timers between in proportion) and widens each interval by the effect's
+// SE times the change, in quadrature (pitcard's own rule, no source).
+func TestPlannedSetupMovesThePrediction(t *testing.T) {
+	rng := rand.New(rand.NewPCG(21, 3))
+	g := gen{rng: rng, truth: DefaultParams(Natural), car: testCar}
+	passes := g.season(6, 8)
+	plantPSI(rng, passes, 1.5, 0.010, 0.015)
+	car := testCar
+	car.Setup = psiSetup
+	in := CalibrateInput{Car: car, Track: testTrack, Passes: passes, Now: passes[len(passes)-1].Time}
+	pr, fit, err := Forecast(in, PredictInput{Air: passes[len(passes)-1].Air, Prep: 1, Time: in.Now.Add(time.Hour)}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	effs := SetupEffects(fit)
+	last := logbook.LastSetup(passes, psiSetup)
+	lastPSI, _ := strconv.ParseFloat(last["rear_psi"], 64)
+	planned := map[string]string{"rear_psi": strconv.FormatFloat(lastPSI-2, 'f', -1, 64)}
+	changes := PlannedSetup(effs, planned, last)
+	if len(changes) != 1 || len(PlannedSetup(effs, last, last)) != 0 {
+		t.Fatalf("changes %+v", changes)
+	}
+	moved := pr
+	moved.Timers = append([]Timer(nil), pr.Timers...)
+	ApplySetup(&moved, changes)
+	e := effs[0]
+	for i, tm := range pr.Timers {
+		want, wantSD := -2*e.Effect[1]*tm.ET/pr.Finish().ET, 2*e.SE[1]*tm.ET/pr.Finish().ET
+		if tm.DistanceFt == 60 {
+			want, wantSD = -2*e.Effect[0], 2*e.SE[0]
+		}
+		if got := moved.Timers[i].ET - tm.ET; math.Abs(got-want) > 1e-12 {
+			t.Errorf("%.0f ft moved %.5f, want %.5f", tm.DistanceFt, got, want)
+		}
+		if got := moved.Timers[i].SD; math.Abs(got-math.Hypot(tm.SD, wantSD)) > 1e-12 || moved.Timers[i].High-moved.Timers[i].Low <= tm.High-tm.Low {
+			t.Errorf("%.0f ft SD %.5f, want %.5f", tm.DistanceFt, got, math.Hypot(tm.SD, wantSD))
+		}
+	}
+	// about 0.02 s quicker at 60 ft for 2 psi less: the planted truth
+	if d := moved.Timers[0].ET - pr.Timers[0].ET; d > -0.016 || d < -0.024 {
+		t.Errorf("2 psi less moved the 60 ft %.4f s (planted −0.020)", d)
+	}
+	if n := moved.Notes[len(moved.Notes)-1]; !strings.HasPrefix(n, "setup: rear_psi "+planned["rear_psi"]+" psi (was "+last["rear_psi"]+"): 60 ft −0.0") {
+		t.Errorf("note %q", n)
+	}
+	if ChoiceChanges(logbook.Setup{{Name: "converter", Choices: []string{"a", "b"}}}, map[string]string{"converter": "b"}, map[string]string{"converter": "a"}) != "converter: a → b" {
+		t.Error("a planned choice is a change of the car")
+	}
+}

@@ -86,3 +86,45 @@ func TestLogSetupCommand(t *testing.T) {
 		}
 	}
 }
+
+// card --set: the prediction carries a line per changed item, the finish
+// moves, and a rule sees ctx.setup's planned and last values.
+func TestCardSetAndRules(t *testing.T) {
+	dir := demoCopy(t)
+	car, _ := os.ReadFile(filepath.Join(dir, "car.yaml"))
+	writeFile(t, filepath.Join(dir, "car.yaml"), string(car)+"\nsetup:\n  - {name: rear_psi, unit: psi, range: [6, 40], expect: {et60: 0.010}}\n")
+	book, _ := os.ReadFile(filepath.Join(dir, "logbook.csv"))
+	lines := strings.Split(strings.TrimSpace(string(book)), "\n")
+	lines[0] += ",rear_psi"
+	for i := 1; i < len(lines); i++ {
+		lines[i] += "," + []string{"15", "16", "17", "16.5", "15.5"}[i%5]
+	}
+	writeFile(t, filepath.Join(dir, "logbook.csv"), strings.Join(lines, "\n")+"\n")
+	writeFile(t, filepath.Join(dir, "rules", "70-psi.lua"), `function dial(ctx)
+  local s = ctx.setup
+  if s and s.planned.rear_psi < s.last.rear_psi then
+    return 0.01, string.format("planned %.1f psi, last %.1f", s.planned.rear_psi, s.last.rear_psi)
+  end
+  return 0
+end
+`)
+	last := strings.Split(lines[len(lines)-1], ",")
+	lastPSI := last[len(last)-1]
+	args := []string{"card", "--dir", dir, "--round", "3", "--lane", "left", "--at", "20:45", "--format", "json"}
+	plain := mustRun(t, args...)
+	set := mustRun(t, append(args, "--set", "rear_psi=12")...)
+	if !strings.Contains(set, "setup: rear_psi 12 psi (was "+lastPSI+"): 60 ft") || strings.Contains(plain, "setup: rear_psi") {
+		t.Errorf("card --set lacks the setup line:\n%s", set)
+	}
+	if plain == set {
+		t.Error("a planned setup changed nothing")
+	}
+	try := mustRun(t, "rules", "try", "--dir", dir, "--round", "3", "--lane", "left", "--at", "20:45", "--set", "rear_psi=12")
+	if !strings.Contains(try, "planned 12.0 psi, last "+lastPSI) {
+		t.Errorf("the rule did not see ctx.setup:\n%s", try)
+	}
+	_, errs, code := pitcard(t, append(args, "--set", "rear_psi=99")...)
+	if code != 2 || !strings.Contains(errs, `--set rear_psi "99" is outside 6..40 psi`) {
+		t.Errorf("exit %d: %s", code, errs)
+	}
+}
