@@ -307,6 +307,7 @@ type target struct {
 // 2018), the older scores discounted as Barber, Candès, Ramdas and
 // Tibshirani (Ann. Statist. 2023) do for data that drift. cache may be nil.
 func Forecast(cal CalibrateInput, next PredictInput, cache *HeldOutCache) (Prediction, Fit, error) {
+	cal.Passes = MarkSetupChanges(cal.Passes, cal.Car.Setup) // a changed choice item is a change of the car
 	fit, err := Calibrate(cal)
 	if err != nil {
 		return Prediction{}, fit, err
@@ -687,6 +688,7 @@ func heldOutKey(base string, c CalibrateInput, next PredictInput) string {
 		str(r.Note)
 	}
 	h := sha256.New()
+	var keys []string // the sorted keys of the last pass's Extra
 	fmt.Fprintf(h, "v2|%s|%+v|", base, c.Track)
 	reading(next.Air)
 	float(next.Prep)
@@ -715,7 +717,11 @@ func heldOutKey(base string, c CalibrateInput, next PredictInput) string {
 		str(p.Notes)
 		str(p.Change)
 		num(int64(len(p.Extra)))
-		for _, k := range slices.Sorted(maps.Keys(p.Extra)) {
+		if !sameKeys(keys, p.Extra) { // the crew's columns: sorted once for a run of passes with the same ones
+			keys = slices.AppendSeq(keys[:0], maps.Keys(p.Extra))
+			slices.Sort(keys)
+		}
+		for _, k := range keys {
 			str(k)
 			str(p.Extra[k])
 		}
@@ -922,4 +928,17 @@ func shares(now [nMembers]estimate, w [nMembers]float64, mae [nMembers]float64) 
 		}
 	}
 	return out
+}
+
+// sameKeys reports whether keys (distinct) are exactly the keys of m.
+func sameKeys(keys []string, m map[string]string) bool {
+	if len(keys) != len(m) {
+		return false
+	}
+	for _, k := range keys {
+		if _, ok := m[k]; !ok {
+			return false
+		}
+	}
+	return true
 }

@@ -178,6 +178,7 @@ type CalibrateInput struct {
 //     within and across days, not from one day's tune-up that happened to
 //     come with a low barometer.
 func Calibrate(in CalibrateInput) (Fit, error) {
+	in.Passes = MarkSetupChanges(in.Passes, in.Car.Setup) // a changed choice item is a change of the car
 	f := Fit{Car: in.Car, Track: in.Track, DayStart: in.DayStart, Ablation: in.Ablation}
 	clean := f.cleanPasses(in)
 	if err := f.setPrior(in); err != nil {

@@ -2,6 +2,7 @@ package engine
 
 import (
 	"bytes"
+	"errors"
 	"fmt"
 	"io"
 	"slices"
@@ -62,6 +63,10 @@ type Car struct {
 	Tire           string    `yaml:"tire"`         // street, radial or slick (radial)
 	Transmission   string    `yaml:"transmission"` // automatic (converter) or manual (automatic)
 
+	// Setup are the crew's setup items (rear tire psi, launch rpm, converter
+	// ...): each a logbook column of its own, typed and checked.
+	Setup logbook.Setup `yaml:"setup"`
+
 	// Extra holds any other keys the crew adds; the rules see them.
 	Extra map[string]any `yaml:"-"`
 	// Warnings are what a person should hear about the file (a yes/no
@@ -99,7 +104,21 @@ func ReadCar(r io.Reader, name string) (Car, error) {
 	if c.Induction == "" {
 		c.Induction = Natural
 	}
-	return c, doc.At(c.Validate(name))
+	return c, doc.At(atItem(doc, c.Validate(name)))
+}
+
+// atItem puts the line of a setup item on a message about a key it lacks
+// ("setup[2].unit is missing": the line of setup[2]).
+func atItem(doc *yamlfile.Doc, err error) error {
+	var ie *weather.InputError
+	if !errors.As(err, &ie) || ie.Line != 0 || doc.Line(ie.Field) != 0 || !strings.HasPrefix(ie.Field, "setup[") {
+		return err
+	}
+	item, _, _ := strings.Cut(ie.Field, "]")
+	if l := doc.Line(item + "]"); l > 0 {
+		return ie.At(doc.File, l)
+	}
+	return err
 }
 
 func carKeys() []string {
@@ -188,5 +207,5 @@ func (c Car) Validate(file string) error {
 	default:
 		return bad("tire", c.Tire, "is not a tire kind (street, radial or slick)")
 	}
-	return nil
+	return c.Setup.Validate(file)
 }

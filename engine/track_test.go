@@ -61,6 +61,7 @@ func FuzzReadCar(f *testing.F) {
 	f.Add("weight_lb: 3350\npower_hp: 0\ninduction: turbo\ndistance_ft: 660\ngears: [2.48, 1.48, 1.0]\nfinal_drive: 3.73\ntire_diameter_in: 28\n")
 	f.Add("weight_lb: 3350\ninduction: nitrous\nnitrous_hp: 150\ndistance_ft: 1000\nlimit_et: 10.0\nchute: false\nextra: {a: [1, 2]}\n")
 	f.Add("weight_lb: [1]\n")
+	f.Add("weight_lb: 3350\ninduction: natural\ndistance_ft: 1320\nsetup:\n  - {name: rear_psi, unit: psi, range: [6, 40], expect: {et60: 0.01}}\n  - {name: converter, choices: [stock, 5400-stall]}\n")
 	f.Fuzz(func(t *testing.T, s string) {
 		c, err := ReadCar(strings.NewReader(s), "car.yaml")
 		if err != nil {

@@ -118,6 +118,9 @@ type NewPass struct {
 	// OppCar is the other car's number or name: with its slip, a row of
 	// the opponent book (OpponentsFile).
 	OppCar string
+	// Set are the pass's setup, "name=value" (the --set flags): each an
+	// item of car.yaml's setup; an item not given keeps the last pass's value.
+	Set []string
 }
 
 // LoggedPass is what AddPass wrote.
@@ -279,7 +282,11 @@ func (e *Folder) AddPass(np NewPass, now time.Time) (LoggedPass, error) {
 	case out.Decided != "":
 		out.Warnings = append(out.Warnings, fmt.Sprintf("the other lane's slip is not kept: name its car with --opponent (its number) and %s remembers it for the next time you race it", OpponentsFile))
 	}
-	n, kept, err := e.SaveLogbook([]logbook.Pass{p})
+	setupCols, err := e.passSetup(&p, np.Set)
+	if err != nil {
+		return out, err
+	}
+	n, kept, err := e.SaveLogbook([]logbook.Pass{p}, setupCols...)
 	if err != nil {
 		return out, err
 	}
@@ -304,6 +311,52 @@ func (e *Folder) AddPass(np NewPass, now time.Time) (LoggedPass, error) {
 	}
 	out.Pass, out.Count, out.Source, out.Elevation = p, n, source, elev
 	return out, nil
+}
+
+// passSetup puts the pass's setup in its columns: the items of set
+// ("name=value", checked against car.yaml's setup), every other item the
+// last pass's value. It returns the columns the logbook must have.
+func (e *Folder) passSetup(p *logbook.Pass, set []string) ([]string, error) {
+	var setup logbook.Setup
+	car, carErr := e.Car()
+	if carErr == nil {
+		setup = car.Setup
+	}
+	if len(set) > 0 && carErr != nil {
+		return nil, carErr
+	}
+	given, err := logbook.ParseSetAssignments("--set", set, setup)
+	if err != nil || len(setup) == 0 {
+		return nil, err
+	}
+	lb, _, err := e.LogbookFile()
+	if err != nil {
+		return nil, err
+	}
+	before := lb.Passes
+	for i, q := range before {
+		if !q.Time.Before(p.Time) {
+			before = before[:i]
+			break
+		}
+	}
+	last := logbook.LastSetup(before, setup)
+	var cols []string
+	for _, it := range setup {
+		v, ok := given[it.Name]
+		if !ok {
+			v = last[it.Name]
+		}
+		if v == "" {
+			continue
+		}
+		if p.Extra == nil {
+			p.Extra = map[string]string{}
+		}
+		p.Extra[it.Name] = v
+		cols = append(cols, it.Name)
+	}
+	return cols, nil
 }
 
 // nearestReading is the reading of log closest in time to t, within tol.

@@ -175,8 +175,19 @@ func (e *Folder) readLogbook(keep int) (*logbook.Logbook, string, error) {
 		return nil, name, err
 	}
 	defer f.Close()
-	lb, err := logbook.ReadRecent(f, name, e.Zone(), keep)
+	lb, err := logbook.ReadSetup(f, name, e.Zone(), keep, e.setup())
 	return lb, name, err
+}
+
+// setup is car.yaml's setup items, which type the logbook's columns of
+// their names; a car.yaml that cannot be read types none (the command that
+// needs the car says why).
+func (e *Folder) setup() logbook.Setup {
+	car, err := e.Car()
+	if err != nil {
+		return nil
+	}
+	return car.Setup
 }
 
 // RecentPasses is how many of the logbook's latest passes a card, a

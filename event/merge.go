@@ -26,6 +26,9 @@ type Source struct {
 	Path string
 	Data []byte      // the file's bytes when already read (nil: read Path)
 	Map  *colmap.Map // nil: pitcard's own columns
+	// Setup types the file's columns of car.yaml's setup items, as the
+	// folder's logbook is typed (nil: none).
+	Setup logbook.Setup
 }
 
 // SourceData reads a source file: its bytes, translated through its map
@@ -101,7 +104,7 @@ func (s Source) Passes() (*logbook.Logbook, error) {
 	if err != nil {
 		return nil, err
 	}
-	lb, err := logbook.ReadFile(bytes.NewReader(data), s.Path, time.Local)
+	lb, err := logbook.ReadSetup(bytes.NewReader(data), s.Path, time.Local, 0, s.Setup)
 	if err != nil {
 		if tr != nil {
 			return nil, tr.Remap(err)

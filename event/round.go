@@ -55,6 +55,9 @@ type RoundRequest struct {
 	// round's card still uses it.
 	Unsaved  *weather.Reading
 	Opponent OpponentFields
+	// Set is the planned setup, "name=value" (--set): each an item of
+	// car.yaml's setup; an item not given is the last pass's.
+	Set []string
 }
 
 // IsBadInput reports whether err is the crew's to fix: a front end answers
@@ -594,6 +597,10 @@ func (e *Folder) GatherRound(r RoundRequest, now time.Time) (prep.Input, []strin
 	if err != nil {
 		return in, nil, err
 	}
+	planned, err := logbook.ParseSetAssignments("--set", r.Set, car.Setup)
+	if err != nil {
+		return in, nil, err
+	}
 	book, err := e.OpponentBook()
 	if err != nil && !IsBadInput(err) {
 		return in, nil, err
@@ -622,6 +629,7 @@ func (e *Folder) GatherRound(r RoundRequest, now time.Time) (prep.Input, []strin
 			DayStart:      e.Settings.DayStart, Aborts: e.Settings.AbortWords, Changes: e.Settings.ChangeWords},
 		Session: slot.Session, Lane: lane, OpponentDial: opp, Opponent: opponent, UsRT: usRT, PostBestForWin: e.Settings.PostBestForWin, Call: call, Now: now,
 		Air: air, AirSource: source, AirNow: airNow, Forecast: forecast, Elevation: elev, Prep: prepLvl, WeightLb: weight, Change: change,
+		Setup: planned,
 		Rules: rules, RulesFS: e.FS, Ticked: notes.Ticked, HeldOut: e.HeldOut(),
 	}
 	for _, b := range broken {

@@ -159,6 +159,14 @@ func ReadFile(r io.Reader, name string, loc *time.Location) (*Logbook, error) {
 // (a fit uses its recent passes) without holding ten seasons in memory. A
 // logbook read so must not be written back.
 func ReadRecent(r io.Reader, name string, loc *time.Location, keep int) (*Logbook, error) {
+	return ReadSetup(r, name, loc, keep, nil)
+}
+
+// ReadSetup is ReadRecent with car.yaml's setup items: a column headed by an
+// item's name is typed, each cell a number in the item's range or one of its
+// choices (kept as the logbook writes it: "15.5 psi" as 15.5, a choice as
+// car.yaml spells it); a bad cell sets its row aside as any bad row is.
+func ReadSetup(r io.Reader, name string, loc *time.Location, keep int, setup Setup) (*Logbook, error) {
 	cr, header, err := weather.OpenCSV(r, name)
 	if err != nil {
 		return nil, err
@@ -175,8 +183,12 @@ func ReadRecent(r io.Reader, name string, loc *time.Location, keep int) (*Logboo
 	for i, h := range header {
 		lb.Header[i] = strings.TrimSpace(strings.TrimPrefix(h, "\ufeff"))
 	}
+	var typed []setupColumn
 	for _, x := range extra {
 		lb.Extra = append(lb.Extra, x.Name)
+		if it, ok := setup.Item(x.Name); ok {
+			typed = append(typed, setupColumn{it, x.Index})
+		}
 	}
 	bad := func(ie *weather.InputError, raw []string) {
 		lb.Bad = append(lb.Bad, ie)
@@ -250,6 +262,13 @@ func ReadRecent(r io.Reader, name string, loc *time.Location, keep int) (*Logboo
 			bad(&weather.InputError{File: name, Line: line, Field: "row",
 				Reason: fmt.Sprintf("is the same pass as line %d (%s, %s lane): entered twice", first, p.Time.Format("2006-01-02 15:04"), p.Lane)}, append([]string(nil), rec...))
 			continue
+		}
+		if len(typed) > 0 {
+			raw := append([]string(nil), rec...)
+			if ie := checkSetup(typed, rec); ie != nil {
+				bad(ie.At(name, line), raw)
+				continue
+			}
 		}
 		seen[key] = line
 		if len(extra) > 0 {

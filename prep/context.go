@@ -37,6 +37,10 @@ const RecentPasses = 10
 //	ctx.passes      the last 10 passes, most recent first: date, time,
 //	                session, lane, dial, rt, et60 ... et1320, mph660, mph1320,
 //	                temp_f, track_temp_f, density_altitude_ft, notes
+//	ctx.setup       with setup items in car.yaml: planned {name = value} (the
+//	                round's, card --set over the last pass's) and last {name =
+//	                value} (the last pass's); a number for a numeric item, the
+//	                choice's name for a choice; an item never recorded absent
 func RuleContext(c Card) map[string]any {
 	in := c.Input
 	air := scripts.AirFigures(c.AirCall, in.Air)
@@ -117,6 +121,10 @@ func RuleContext(c Card) map[string]any {
 		passes = append(passes, passMap(in.Passes[i]))
 	}
 	ctx["passes"] = passes
+	if len(in.Car.Setup) > 0 {
+		planned, last := plannedSetup(in)
+		ctx["setup"] = map[string]any{"planned": setupValues(in.Car.Setup, planned), "last": setupValues(in.Car.Setup, last)}
+	}
 	return tidy(ctx).(map[string]any)
 }
 
@@ -204,4 +212,24 @@ func plain(v any) any {
 		return float64(x)
 	}
 	return v
+}
+
+// setupValues are setup cells as the rules see them: a numeric item's as a
+// number, a choice's as its name.
+func setupValues(setup logbook.Setup, cells map[string]string) map[string]any {
+	out := map[string]any{}
+	for _, it := range setup {
+		v, ok := cells[it.Name]
+		if !ok || v == "" {
+			continue
+		}
+		if !it.Numeric() {
+			out[it.Name] = v
+			continue
+		}
+		if x, err := strconv.ParseFloat(v, 64); err == nil {
+			out[it.Name] = x
+		}
+	}
+	return out
 }

@@ -10,6 +10,7 @@ import (
 	"errors"
 	"fmt"
 	"io/fs"
+	"maps"
 	"math"
 	"sort"
 	"strings"
@@ -93,6 +94,9 @@ type Input struct {
 	// Change is the crew's words for a change made to the car since its
 	// last pass (empty: none): the prediction widens for it.
 	Change string
+	// Setup is the planned setup given for the round (card --set), item
+	// name to its cell; an item not given is the last pass's.
+	Setup map[string]string
 
 	Rules   []*scripts.Rule
 	RulesFS fs.FS
@@ -220,7 +224,15 @@ func Gather(in Input) Card {
 	carErr := in.Car.Validate("car.yaml")
 	err := carErr
 	if err == nil {
-		c.Prediction, fit, err = engine.Forecast(cal, engine.PredictInput{Air: in.Air, Prep: in.Prep, WeightLb: in.WeightLb, Time: in.Call, Change: in.Change}, in.HeldOut)
+		planned, last := plannedSetup(in)
+		change := in.Change
+		if cc := engine.ChoiceChanges(in.Car.Setup, planned, last); cc != "" { // a changed choice is a change of the car
+			change = strings.TrimPrefix(change+"; "+cc, "; ")
+		}
+		c.Prediction, fit, err = engine.Forecast(cal, engine.PredictInput{Air: in.Air, Prep: in.Prep, WeightLb: in.WeightLb, Time: in.Call, Change: change}, in.HeldOut)
+		if err == nil {
+			engine.ApplySetup(&c.Prediction, engine.PlannedSetup(engine.SetupEffects(fit), planned, last))
+		}
 	}
 	switch {
 	case err != nil && len(in.Problems) > 0:
@@ -410,4 +422,13 @@ func winOf(c Card, d decimal.Decimal) (float64, bool) {
 		}
 	}
 	return 0, false
+}
+
+// plannedSetup is the round's planned setup (the last pass's, each item
+// given replacing its value) and the last pass's, item name to cell.
+func plannedSetup(in Input) (planned, last map[string]string) {
+	last = logbook.LastSetup(in.Passes, in.Car.Setup)
+	planned = maps.Clone(last)
+	maps.Copy(planned, in.Setup)
+	return planned, last
 }

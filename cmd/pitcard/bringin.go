@@ -273,7 +273,11 @@ mark (the same maps 'log import --map' reads, so an export imports back).`,
 				return err
 			}
 			var buf bytes.Buffer
-			if err := logbook.Write(&buf, passes); err != nil {
+			var setupCols []string // a map's export has the map's columns only
+			if o.Map == "" {
+				setupCols = setupColumns(e)
+			}
+			if err := logbook.WriteWith(&buf, passes, setupCols); err != nil {
 				return err
 			}
 			out := buf.Bytes()

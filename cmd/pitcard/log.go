@@ -39,7 +39,7 @@ previous logbook as logbook.csv.bak.`,
   pitcard log compare E2 --with best`,
 	}
 	cmd.AddCommand(newLogAddCmd(s, g), newLogImportCmd(s, g), newLogListCmd(s, g), newLogStatsCmd(s, g), newLogDiffCmd(s, g), newLogExportCmd(s, g),
-		newLogCompareCmd(s, g), newLogOpponentsCmd(s, g))
+		newLogCompareCmd(s, g), newLogOpponentsCmd(s, g), newLogSetupCmd(s, g))
 	groupCmd(cmd)
 	return cmd
 }
@@ -56,7 +56,8 @@ type logAddOptions struct {
 	// The other lane's slip, when it is entered too: what decided the round.
 	OppDial      string
 	OppRT, OppET []string
-	OppCar       string // the other car: its slip goes into opponents.csv
+	OppCar       string   // the other car: its slip goes into opponents.csv
+	Set          []string // the pass's setup, name=value
 }
 
 func newLogAddCmd(s *IOStreams, g *globalOptions) *cobra.Command {
@@ -102,6 +103,7 @@ weight to car.yaml's.`,
 	fl.StringSliceVar(&o.OppRT, "opponent-rt", nil, "the other lane's reaction time from its slip, s (a list on card and dial; one value here)")
 	fl.StringSliceVar(&o.OppET, "opponent-et", nil, "the other lane's ET from its slip, s (a list on card and dial; one value here)")
 	fl.StringVar(&o.OppCar, "opponent", "", "the other car's number or name (4471): with its slip, kept in opponents.csv for the next time you race it")
+	fl.StringArrayVar(&o.Set, "set", nil, "a setup item of car.yaml's setup: and its value, name=value (repeat for each; an item not given keeps the last pass's value)")
 	o.reading.bind(cmd)
 	return cmd
 }
@@ -123,7 +125,7 @@ func logAddRun(cmd *cobra.Command, o *logAddOptions) error {
 		Date: o.Date, Time: o.Time, Track: o.Track, Session: o.Session, Lane: o.Lane, Dial: o.Dial, RT: o.RT,
 		Weight: o.Weight, Notes: o.Notes, ET60: o.ET60, ET330: o.ET330, ET660: o.ET660, ET1000: o.ET1000, ET1: o.ET1,
 		MPH660: o.MPH660, MPH1320: o.MPH1320, Change: o.Change, Reading: o.reading.ReadingFields,
-		OppDial: o.OppDial, OppRT: oppRT, OppET: oppET, OppCar: o.OppCar,
+		OppDial: o.OppDial, OppRT: oppRT, OppET: oppET, OppCar: o.OppCar, Set: o.Set,
 	}, o.s.Now())
 	if err != nil {
 		return err
@@ -138,6 +140,9 @@ func logAddRun(cmd *cobra.Command, o *logAddOptions) error {
 	if p.HasAir {
 		fmt.Fprintf(o.s.Out, "Conditions from %s: %s, density altitude %s.\n", lp.Source,
 			p.Air.Temp.Format(e.Settings.Units.Temp, 1), p.Air.Derive(lp.Elevation).DensityAltitude.FormatDensityAltitude(e.Settings.Units.Length))
+	}
+	if line := setupLine(e, p, o.Set); line != "" {
+		fmt.Fprintln(o.s.Out, prep.Wrap(line, o.s.width(), "  "))
 	}
 	if lp.Decided != "" {
 		fmt.Fprintln(o.s.Out, prep.Wrap(lp.Decided, o.s.width(), "  "))
@@ -248,6 +253,9 @@ day and round a conflict.`,
 			}
 			if err != nil {
 				return err
+			}
+			if car, err := e.Car(); err == nil {
+				source.Setup = car.Setup // the setup columns are checked as the logbook's are
 			}
 			src, err := source.Passes()
 			if err != nil {

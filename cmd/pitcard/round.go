@@ -17,6 +17,7 @@ type roundFlags struct {
 	Prep         string
 	Weight       string
 	Change       string
+	Set          []string // the planned setup, name=value
 	// Unsaved is a reading that could not be written (a full disk): the
 	// round's card still uses it.
 	Unsaved *weather.Reading
@@ -26,7 +27,7 @@ type roundFlags struct {
 // request is the round as the event folder takes it.
 func (r roundFlags) request() event.RoundRequest {
 	return event.RoundRequest{Reading: r.cond.ReadingFields, At: r.cond.At, Round: r.Round, Lane: r.Lane, OpponentDial: r.OpponentDial,
-		Prep: r.Prep, Weight: r.Weight, Change: r.Change, Unsaved: r.Unsaved, Opponent: r.opp.OpponentFields}
+		Prep: r.Prep, Weight: r.Weight, Change: r.Change, Unsaved: r.Unsaved, Opponent: r.opp.OpponentFields, Set: r.Set}
 }
 
 func (r *roundFlags) bind(cmd *cobra.Command) {
@@ -39,6 +40,7 @@ func (r *roundFlags) bind(cmd *cobra.Command) {
 	fl.StringVar(&r.Prep, "prep", "", "track prep today: none, light, full or 0..1 (default: track.yaml's)")
 	fl.StringVar(&r.Change, "change", "", "what was changed on the car since its last pass, in your words (widens the interval until a pass shows what it is worth)")
 	fl.StringVar(&r.Weight, "weight", "", "car and driver as it will run: 3300lb or 1500kg, a bare number in the crew's units (default: car.yaml's)")
+	fl.StringArrayVar(&r.Set, "set", nil, "the planned setup, name=value, an item of car.yaml's setup: (repeat for each; an item not given is the last pass's): the prediction moves by what each change is worth")
 	bindSettingFlags(cmd)
 	r.opp.bind(cmd)
 }

@@ -1,0 +1,130 @@
+package main
+
+import (
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// setupFolder is a new folder whose car.yaml names two setup items.
+func setupFolder(t *testing.T) string {
+	t.Helper()
+	dir := newFolder(t)
+	car, err := os.ReadFile(filepath.Join(dir, "car.yaml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	writeFile(t, filepath.Join(dir, "car.yaml"), string(car)+"\nsetup:\n  - {name: rear_psi, unit: psi, range: [6, 40], expect: {et60: 0.010}}\n  - {name: converter, choices: [stock, 5400-stall]}\n")
+	return dir
+}
+
+// log add --set writes the setup into its columns; an item not given keeps
+// the last pass's value; an out-of-range value is refused and nothing is
+// written (pitcard's own rules).
+func TestLogAddSet(t *testing.T) {
+	dir := setupFolder(t)
+	slip := []string{"log", "add", "--dir", dir, "--round", "T1", "--lane", "left", "--et60", "1.61", "--et1320", "11.52", "--time", "18:00"}
+	out := mustRun(t, append(slip, "--set", "rear_psi=16", "--set", "converter=stock")...)
+	if !strings.Contains(out, "Setup: rear_psi 16 psi, converter stock.") {
+		t.Errorf("log add said %q", out)
+	}
+	slip[5], slip[len(slip)-1] = "T2", "18:40"
+	out = mustRun(t, append(slip, "--set", "rear_psi=15.5")...)
+	if !strings.Contains(out, "rear_psi 15.5 psi, converter stock (kept from the last pass)") {
+		t.Errorf("log add said %q", out)
+	}
+	book, _ := os.ReadFile(filepath.Join(dir, "logbook.csv"))
+	lines := strings.Split(strings.TrimSpace(string(book)), "\n")
+	if !strings.HasSuffix(lines[0], ",rear_psi,converter") || !strings.HasSuffix(lines[2], ",15.5,stock") {
+		t.Errorf("logbook:\n%s", book)
+	}
+	slip[5], slip[len(slip)-1] = "T3", "19:20"
+	_, errs, code := pitcard(t, append(slip, "--set", "rear_psi=55")...)
+	if code != 2 || !strings.Contains(errs, `--set rear_psi "55" is outside 6..40 psi`) {
+		t.Errorf("exit %d: %s", code, errs)
+	}
+	if after, _ := os.ReadFile(filepath.Join(dir, "logbook.csv")); string(after) != string(book) {
+		t.Error("a refused pass changed the logbook")
+	}
+	// export and import into a new folder: the setup comes back
+	csv := filepath.Join(t.TempDir(), "out.csv")
+	mustRun(t, "log", "export", "--dir", dir, "--out", csv)
+	other := setupFolder(t)
+	mustRun(t, "log", "import", "--dir", other, csv)
+	if again, _ := os.ReadFile(filepath.Join(other, "logbook.csv")); !strings.Contains(string(again), ",15.5,stock") {
+		t.Errorf("imported:\n%s", again)
+	}
+	// a bad cell typed into the file by hand is named by line and column, the rest still read
+	writeFile(t, filepath.Join(dir, "logbook.csv"), strings.Replace(string(book), ",15.5,stock", ",15.5,turbo", 1))
+	_, errs, _ = pitcard(t, "log", "list", "--dir", dir)
+	if !strings.Contains(errs, "logbook.csv line 3: converter \"turbo\" is not one of stock, 5400-stall") || !strings.Contains(errs, "the other 1 pass") {
+		t.Errorf("list with a bad cell: %s", errs)
+	}
+}
+
+// log setup names each item: the numeric one with its passes and values
+// (or "not enough variation"), the choice one with the pass it changed on.
+func TestLogSetupCommand(t *testing.T) {
+	dir := setupFolder(t)
+	lines := strings.Split(strings.TrimSpace(season(30)), "\n")
+	lines[0] += ",rear_psi,converter"
+	for i := 1; i < len(lines); i++ {
+		conv := "stock"
+		if i > 20 {
+			conv = "5400-stall"
+		}
+		lines[i] += "," + []string{"14", "15", "16", "17", "18"}[i%5] + "," + conv
+	}
+	src := filepath.Join(t.TempDir(), "season.csv")
+	writeFile(t, src, strings.Join(lines, "\n")+"\n")
+	mustRun(t, "log", "import", "--dir", dir, src)
+	out := mustRun(t, "log", "setup", "--dir", dir)
+	for _, w := range []string{"rear_psi: ", "from 30 passes with 14–18 psi", "converter: a choice, changed on 2026-05-04 17:00", "(stock → 5400-stall)"} {
+		if !strings.Contains(out, w) {
+			t.Errorf("log setup lacks %q:\n%s", w, out)
+		}
+	}
+}
+
+// card --set: the prediction carries a line per changed item, the finish
+// moves, and a rule sees ctx.setup's planned and last values.
+func TestCardSetAndRules(t *testing.T) {
+	dir := demoCopy(t)
+	car, _ := os.ReadFile(filepath.Join(dir, "car.yaml"))
+	writeFile(t, filepath.Join(dir, "car.yaml"), string(car)+"\nsetup:\n  - {name: rear_psi, unit: psi, range: [6, 40], expect: {et60: 0.010}}\n")
+	book, _ := os.ReadFile(filepath.Join(dir, "logbook.csv"))
+	lines := strings.Split(strings.TrimSpace(string(book)), "\n")
+	lines[0] += ",rear_psi"
+	for i := 1; i < len(lines); i++ {
+		lines[i] += "," + []string{"15", "16", "17", "16.5", "15.5"}[i%5]
+	}
+	writeFile(t, filepath.Join(dir, "logbook.csv"), strings.Join(lines, "\n")+"\n")
+	writeFile(t, filepath.Join(dir, "rules", "70-psi.lua"), `function dial(ctx)
+  local s = ctx.setup
+  if s and s.planned.rear_psi < s.last.rear_psi then
+    return 0.01, string.format("planned %.1f psi, last %.1f", s.planned.rear_psi, s.last.rear_psi)
+  end
+  return 0
+end
+`)
+	last := strings.Split(lines[len(lines)-1], ",")
+	lastPSI := last[len(last)-1]
+	args := []string{"card", "--dir", dir, "--round", "3", "--lane", "left", "--at", "20:45", "--format", "json"}
+	plain := mustRun(t, args...)
+	set := mustRun(t, append(args, "--set", "rear_psi=12")...)
+	if !strings.Contains(set, "setup: rear_psi 12 psi (was "+lastPSI+"): 60 ft") || strings.Contains(plain, "setup: rear_psi") {
+		t.Errorf("card --set lacks the setup line:\n%s", set)
+	}
+	if plain == set {
+		t.Error("a planned setup changed nothing")
+	}
+	try := mustRun(t, "rules", "try", "--dir", dir, "--round", "3", "--lane", "left", "--at", "20:45", "--set", "rear_psi=12")
+	if !strings.Contains(try, "planned 12.0 psi, last "+lastPSI) {
+		t.Errorf("the rule did not see ctx.setup:\n%s", try)
+	}
+	_, errs, code := pitcard(t, append(args, "--set", "rear_psi=99")...)
+	if code != 2 || !strings.Contains(errs, `--set rear_psi "99" is outside 6..40 psi`) {
+		t.Errorf("exit %d: %s", code, errs)
+	}
+}
