@@ -3,6 +3,7 @@ package event
 import (
 	"errors"
 	"fmt"
+	"maps"
 	"strconv"
 	"strings"
 	"time"
@@ -597,9 +598,12 @@ func (e *Folder) GatherRound(r RoundRequest, now time.Time) (prep.Input, []strin
 	if err != nil {
 		return in, nil, err
 	}
-	planned, err := logbook.ParseSetAssignments("--set", r.Set, car.Setup)
+	planned, noted, err := plannedSetup(r.Set, notes.Setup, car.Setup, e.Name(RoundsFile))
 	if err != nil {
 		return in, nil, err
+	}
+	if noted != nil { // a noted setup that no longer reads: the card plans without it and says so
+		broken = append(broken, noted)
 	}
 	book, err := e.OpponentBook()
 	if err != nil && !IsBadInput(err) {
@@ -667,4 +671,24 @@ func RangeErr(field string, d decimal.Decimal, r [2]float64) error {
 		return &weather.InputError{Field: field, Value: d.String(), Reason: fmt.Sprintf("is outside %g..%g s", r[0], r[1])}
 	}
 	return nil
+}
+
+// plannedSetup is the round's planned setup: what was noted for it in
+// rounds.csv (the pit page's form), each item given with --set replacing
+// the noted one. A noted setup that no longer reads (an item car.yaml no
+// longer names, a value now out of its range) is left out whole and comes
+// back as bad, naming file: the card plans without it and says so; a bad
+// --set is refused (err).
+func plannedSetup(flags, noted []string, setup logbook.Setup, file string) (planned map[string]string, bad, err error) {
+	planned, bad = logbook.ParseSetAssignments("the setup noted in "+file, noted, setup)
+	if bad != nil {
+		planned = map[string]string{}
+		bad = userErrf("%v; the card plans the last pass's setup (set it again on the pit page's setup form)", bad)
+	}
+	given, err := logbook.ParseSetAssignments("--set", flags, setup)
+	if err != nil {
+		return nil, nil, err
+	}
+	maps.Copy(planned, given)
+	return planned, bad, nil
 }

@@ -30,6 +30,9 @@ const (
 	entryOpponentDial = "opponent_dial"
 	entryOpponentCar  = "opponent_car"
 	entryChecked      = "checked"
+	// entrySetup is one planned setup item, "name=value" (the pit page's
+	// planned setup form; card --set gives the same on the command line).
+	entrySetup = "setup"
 )
 
 // RoundNotes are a round's notes: the other lane's dial (or none) and the
@@ -39,6 +42,9 @@ type RoundNotes struct {
 	// OpponentCar is the other car named on the pit page ("" none).
 	OpponentCar string
 	Ticked      map[string]time.Time
+	// Setup is the planned setup noted for the round, "name=value" each
+	// (the pit page's setup form), in the order noted.
+	Setup []string
 }
 
 type roundEntry struct {
@@ -82,8 +88,8 @@ func (e *Folder) readRounds() ([]roundEntry, error) {
 		if err != nil {
 			return nil, &weather.InputError{File: name, Line: line, Field: "at", Value: rec[4], Reason: "is not a time as 2006-01-02T15:04:05-07:00"}
 		}
-		if rec[2] != entryOpponentDial && rec[2] != entryOpponentCar && rec[2] != entryChecked {
-			return nil, &weather.InputError{File: name, Line: line, Field: "entry", Value: rec[2], Reason: "is not opponent_dial, opponent_car or checked"}
+		if !slices.Contains([]string{entryOpponentDial, entryOpponentCar, entryChecked, entrySetup}, rec[2]) {
+			return nil, &weather.InputError{File: name, Line: line, Field: "entry", Value: rec[2], Reason: "is not opponent_dial, opponent_car, checked or setup"}
 		}
 		out = append(out, roundEntry{date: rec[0], session: rec[1], entry: rec[2], value: rec[3], at: at})
 	}
@@ -109,6 +115,8 @@ func (e *Folder) RoundNotes(date string, ses logbook.Session) (RoundNotes, error
 			n.OpponentCar = x.value
 		case entryChecked:
 			n.Ticked[x.value] = x.at
+		case entrySetup:
+			n.Setup = append(n.Setup, x.value)
 		}
 	}
 	return n, nil
@@ -159,6 +167,42 @@ func (e *Folder) SetOpponentCar(date string, ses logbook.Session, car string, no
 		})
 		if value != "" {
 			es = append(es, roundEntry{date, ses.String(), entryOpponentCar, value, now})
+		}
+		return es
+	})
+}
+
+// SetPlannedSetup notes the planned setup of a round: sets are "name=value"
+// for items of the car's setup, each checked as --set checks it (a blank
+// value drops the item: the card then plans the last pass's). It replaces
+// what was noted before for the round; nothing is written when nothing
+// changed.
+func (e *Folder) SetPlannedSetup(date string, ses logbook.Session, sets []string, setup logbook.Setup, now time.Time) error {
+	var given []string
+	for _, s := range sets {
+		if name, v, ok := strings.Cut(s, "="); !ok || strings.TrimSpace(v) != "" || strings.TrimSpace(name) == "" {
+			given = append(given, s)
+		}
+	}
+	planned, err := logbook.ParseSetAssignments("--set", given, setup)
+	if err != nil {
+		return err
+	}
+	var values []string
+	for _, it := range setup { // car.yaml's order
+		if v, ok := planned[it.Name]; ok {
+			values = append(values, it.Name+"="+v)
+		}
+	}
+	if n, err := e.RoundNotes(date, ses); err == nil && slices.Equal(n.Setup, values) {
+		return nil
+	}
+	return e.editRounds(func(es []roundEntry) []roundEntry {
+		es = slices.DeleteFunc(es, func(x roundEntry) bool {
+			return x.date == date && x.session == ses.String() && x.entry == entrySetup
+		})
+		for _, v := range values {
+			es = append(es, roundEntry{date, ses.String(), entrySetup, v, now})
 		}
 		return es
 	})

@@ -36,7 +36,9 @@ type dialOptions struct {
 	// Change is a change made to the car since its last pass and not yet
 	// run: the interval carries it, as the card's --change.
 	Change string
-	opp    opponentFlags
+	// Set is the planned setup, name=value (as the card's --set).
+	Set []string
+	opp opponentFlags
 }
 
 func newDialCmd(s *IOStreams, g *globalOptions) *cobra.Command {
@@ -73,6 +75,7 @@ passes at the distance raced, not corrected for the air, and says so.`,
 	cmd.Flags().StringVar(&o.Round, "round", "", roundFlagHelp+" (default: the schedule's next, as the card's)")
 	cmd.Flags().StringVar(&o.Lane, "lane", "", "left or right (default: the schedule's)")
 	cmd.Flags().StringVar(&o.Change, "change", "", "what was changed on the car since its last pass, in your words (widens the interval until a pass shows what it is worth)")
+	cmd.Flags().StringArrayVar(&o.Set, "set", nil, "the planned setup, name=value, an item of car.yaml's setup: (as the card's --set: the dial is the card's with it)")
 	o.opp.bind(cmd)
 	withOut(cmd, s)
 	return cmd
@@ -144,6 +147,9 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 		if o.ET == "" || o.SD == "" {
 			return userErrf("give --et and --sd together (the predicted ET and its spread)")
 		}
+		if len(o.Set) > 0 {
+			return userErrf("--set moves the model's prediction and --et replaces it: give one of them")
+		}
 		et, err := strconv.ParseFloat(o.ET, 64)
 		if err != nil {
 			return &weather.InputError{Field: "--et", Value: o.ET, Reason: "is not a time in seconds"}
@@ -196,6 +202,9 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 					opponent: c.Input.Opponent, usRT: c.Input.UsRT, bestForWin: c.Input.PostBestForWin && len(c.Win) > 0}
 			}
 			break
+		}
+		if len(o.Set) > 0 {
+			return userErrf("--set moves the model's prediction, which needs the air: log a reading ('pitcard weather add') or give the reading flags")
 		}
 		car, err := e.Car()
 		if err != nil {
@@ -414,15 +423,15 @@ func (p dialPost) write(s *IOStreams, j dialJSON, plan bracket.DialPlan) {
 // A round asked for (--round, --lane) that cannot be gathered is an error,
 // not a quiet fall back to another number.
 func (o *dialOptions) card(e *eventFolder, latest bool, change string) (prep.Card, bool, error) {
-	asked := o.Round != "" || o.Lane != ""
+	asked := o.Round != "" || o.Lane != "" || len(o.Set) > 0
 	if latest {
 		if asked {
-			return prep.Card{}, false, userErrf("--round and --lane post the card's dial, in the air forecast for its call: drop --latest")
+			return prep.Card{}, false, userErrf("--round, --lane and --set post the card's dial, in the air forecast for its call: drop --latest")
 		}
 		return prep.Card{}, false, nil
 	}
 	in, _, err := e.GatherRound(event.RoundRequest{Reading: o.cond.ReadingFields, At: o.cond.At, Prep: o.Prep, Round: o.Round, Lane: o.Lane,
-		OpponentDial: o.OppDial, Opponent: o.opp.OpponentFields, Change: change}, e.DemoClock(o.s.Now()))
+		OpponentDial: o.OppDial, Opponent: o.opp.OpponentFields, Change: change, Set: o.Set}, e.DemoClock(o.s.Now()))
 	if err != nil && !event.Usable(err) || err != nil && asked {
 		if asked {
 			return prep.Card{}, false, err

@@ -7,6 +7,7 @@ import (
 	"io"
 	"math"
 	"strings"
+	"time"
 
 	"github.com/spf13/cobra"
 
@@ -243,6 +244,9 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 	}); err != nil {
 		return err
 	}
+	if rf.Set, err = askSetup(e, p, rf.Round, now); err != nil {
+		return err
+	}
 	// Only an elimination has another lane to race: a time trial runs alone.
 	if s, _ := logbook.ParseSession(rf.Round); s.Kind == logbook.Elimination {
 		rf.OpponentDial = p.ask("Other lane's dial (Enter if not known)", "")
@@ -382,6 +386,9 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 			args = append(args, "--"+q.key, v)
 		}
 	}
+	for _, set := range rf.Set { // the setup the car ran: the one planned for its card
+		args = append(args, "--set", set)
+	}
 	// The other lane's slip, in an elimination: what decided the round.
 	if in.Session.Kind == logbook.Elimination {
 		oppDial := ""
@@ -408,6 +415,50 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 	}
 	fmt.Fprintln(o.s.Out, "Next round: pitcard round")
 	return broken
+}
+
+// askSetup asks the car's setup for the round, item by item, as car.yaml's
+// setup: names them; each defaults to what the pit page noted for the round
+// or else the last pass's value, so Enter keeps it. A car without setup
+// items is asked nothing. The answers are --set's name=value.
+func askSetup(e *eventFolder, p *prompter, round string, now time.Time) ([]string, error) {
+	car, err := e.Car()
+	if err != nil || len(car.Setup) == 0 {
+		return nil, nil // a car.yaml that cannot be read: the card says why
+	}
+	passes, _ := e.RecentLogbook() // rows left out: the card names them
+	def := logbook.LastSetup(passes, car.Setup)
+	if ses, err := logbook.ParseSession(round); err == nil {
+		if notes, err := e.RoundNotes(now.Format(weather.DateLayout), ses); err == nil {
+			for _, set := range notes.Setup {
+				if name, v, ok := strings.Cut(set, "="); ok {
+					def[name] = v
+				}
+			}
+		}
+	}
+	fmt.Fprintln(p.out, "Setup for this pass (car.yaml's setup:): Enter keeps the value in [brackets].")
+	var sets []string
+	for _, it := range car.Setup {
+		question := it.Name
+		switch {
+		case !it.Numeric():
+			question += " (" + strings.Join(it.Choices, ", ") + ")"
+		case it.Unit != "":
+			question += fmt.Sprintf(", %s (%g..%g)", it.Unit, it.Range[0], it.Range[1])
+		}
+		cell := ""
+		if _, err := p.until(question, def[it.Name], func(a string) error {
+			cell, err = it.Check("--set "+it.Name, a)
+			return err
+		}); err != nil {
+			return nil, err
+		}
+		if cell != "" {
+			sets = append(sets, it.Name+"="+cell)
+		}
+	}
+	return sets, nil
 }
 
 // slipTimerFt is the distance of each timed field of the slip, ft.

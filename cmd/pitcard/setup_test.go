@@ -1,6 +1,7 @@
 package main
 
 import (
+	"encoding/json"
 	"os"
 	"path/filepath"
 	"strings"
@@ -125,6 +126,88 @@ end
 	}
 	_, errs, code := pitcard(t, append(args, "--set", "rear_psi=99")...)
 	if code != 2 || !strings.Contains(errs, `--set rear_psi "99" is outside 6..40 psi`) {
+		t.Errorf("exit %d: %s", code, errs)
+	}
+}
+
+// The guided round asks each setup item, Enter keeping the last pass's
+// value; the card plans the typed one and the slip logs it.
+func TestGuidedRoundSetup(t *testing.T) {
+	dir := demoCopy(t)
+	car, _ := os.ReadFile(filepath.Join(dir, "car.yaml"))
+	writeFile(t, filepath.Join(dir, "car.yaml"), string(car)+"\nsetup:\n  - {name: rear_psi, unit: psi, range: [6, 40], expect: {et60: 0.010}}\n  - {name: converter, choices: [stock, 5400-stall]}\n")
+	book, _ := os.ReadFile(filepath.Join(dir, "logbook.csv"))
+	lines := strings.Split(strings.TrimSpace(string(book)), "\n")
+	lines[0] += ",rear_psi,converter"
+	for i := 1; i < len(lines); i++ {
+		lines[i] += "," + []string{"15", "16", "17", "16.5", "15.5"}[i%5] + ",stock"
+	}
+	writeFile(t, filepath.Join(dir, "logbook.csv"), strings.Join(lines, "\n")+"\n")
+	last := strings.Split(lines[len(lines)-1], ",")
+	lastPSI := last[len(last)-2]
+	answers := strings.Join([]string{
+		"", "81.5F", "", "52F", "2", "SE", "88", "", // round and the air, the lane
+		"55",    // rear_psi out of range: asked again
+		"12psi", // rear_psi with its unit
+		"",      // converter: keep stock
+		"11.52", // opponent's dial
+		"",      // the round is run
+		"", ".024", "1.611", "4.681", "7.301", "93.81", "9.566", "11.482", "117.52", "", "",
+	}, "\n") + "\n"
+	out, errs, code := pitcardIn(t, answers, "round", "--dir", dir)
+	if code != 0 {
+		t.Fatalf("exit %d\n%s\n%s", code, errs, out)
+	}
+	for _, w := range []string{"rear_psi, psi (6..40) [" + lastPSI + "]", `--set rear_psi "55" is outside 6..40 psi`, "converter (stock, 5400-stall) [stock]",
+		"Setup: rear_psi 12 psi (was " + lastPSI + "): 60 ft", "Setup: rear_psi 12 psi, converter stock."} {
+		if !strings.Contains(out, w) {
+			t.Errorf("the round lacks %q:\n%s", w, out)
+		}
+	}
+	after, _ := os.ReadFile(filepath.Join(dir, "logbook.csv"))
+	rows := strings.Split(strings.TrimSpace(string(after)), "\n")
+	if !strings.HasSuffix(rows[len(rows)-1], ",12,stock") {
+		t.Errorf("the slip's setup: %s", rows[len(rows)-1])
+	}
+}
+
+// dial --set posts the card's dial with the planned setup: the same number
+// as card --set, and a refused value names the item and its range.
+func TestDialSet(t *testing.T) {
+	dir := demoCopy(t)
+	car, _ := os.ReadFile(filepath.Join(dir, "car.yaml"))
+	writeFile(t, filepath.Join(dir, "car.yaml"), string(car)+"\nsetup:\n  - {name: ballast_lb, unit: lb, range: [0, 300]}\n")
+	book, _ := os.ReadFile(filepath.Join(dir, "logbook.csv"))
+	lines := strings.Split(strings.TrimSpace(string(book)), "\n")
+	lines[0] += ",ballast_lb"
+	for i := 1; i < len(lines); i++ {
+		lines[i] += "," + []string{"0", "50", "100", "150", "200"}[i%5]
+	}
+	writeFile(t, filepath.Join(dir, "logbook.csv"), strings.Join(lines, "\n")+"\n")
+	at := []string{"--dir", dir, "--round", "3", "--lane", "left", "--at", "20:45", "--format", "json"}
+	var d struct {
+		Post json.Number `json:"post_dial"`
+	}
+	var c struct {
+		Final json.Number `json:"final_dial"`
+	}
+	for _, set := range []string{"ballast_lb=0", "ballast_lb=300"} {
+		if err := json.Unmarshal([]byte(mustRun(t, append([]string{"dial", "--set", set}, at...)...)), &d); err != nil {
+			t.Fatal(err)
+		}
+		if err := json.Unmarshal([]byte(mustRun(t, append([]string{"card", "--set", set}, at...)...)), &c); err != nil {
+			t.Fatal(err)
+		}
+		if d.Post == "" || d.Post != c.Final {
+			t.Errorf("--set %s: dial posts %q, the card %q", set, d.Post, c.Final)
+		}
+	}
+	_, errs, code := pitcard(t, append([]string{"dial", "--set", "ballast_lb=400"}, at...)...)
+	if code != 2 || !strings.Contains(errs, `--set ballast_lb "400" is outside 0..300 lb`) {
+		t.Errorf("exit %d: %s", code, errs)
+	}
+	_, errs, code = pitcard(t, "dial", "--dir", dir, "--et", "11.5", "--sd", "0.02", "--set", "ballast_lb=10")
+	if code != 2 || !strings.Contains(errs, "give one of them") {
 		t.Errorf("exit %d: %s", code, errs)
 	}
 }
