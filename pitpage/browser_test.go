@@ -149,7 +149,7 @@ func TestThePitPageOnAPhone(t *testing.T) {
 			shot(t, ctx, "card-"+strings.Trim(sel, "#."))
 		}
 	}
-	for _, path := range []string{"/reading", "/slip", "/passes", "/weather", "/?round=E4"} {
+	for _, path := range []string{"/reading", "/slip", "/setup", "/passes", "/weather", "/?round=E4"} {
 		do(t, ctx, chromedp.Navigate(base+path), chromedp.WaitReady(css("footer")))
 		shot(t, ctx, strings.NewReplacer("/", "", "?", "-", "=", "").Replace(path))
 		if wide := eval[[]string](t, ctx, tooWide); len(wide) > 0 {
@@ -186,7 +186,7 @@ func TestThePitPageOnAPhone(t *testing.T) {
 
 	// The narrowest phones the page is laid out for.
 	do(t, ctx, chromedp.EmulateViewport(360, 740))
-	for _, path := range []string{"/", "/reading", "/slip", "/passes", "/weather"} {
+	for _, path := range []string{"/", "/reading", "/slip", "/setup", "/passes", "/weather"} {
 		do(t, ctx, chromedp.Navigate(base+path), chromedp.WaitReady(css("footer")))
 		if wide := eval[[]string](t, ctx, tooWide); len(wide) > 0 {
 			t.Errorf("%s is wider than a 360 px phone: %v", path, wide)

@@ -115,6 +115,7 @@ var savedWords = map[string]string{
 	"reading":   "The reading is saved: the card below uses it.",
 	"checklist": "The checklist is saved.",
 	"opponent":  "The other lane's dial is saved: the card below races against it.",
+	"setup":     "The planned setup is saved: the card below predicts with it.",
 }
 
 func (s *Server) cardPage(q *request) {
@@ -138,6 +139,12 @@ func (s *Server) cardPage(q *request) {
 	p.Round, p.Day = in.Session.String(), in.Call.Format(weather.DateLayout)
 	p.Elimination = in.Session.Kind == logbook.Elimination
 	p.Title = c.Title
+	if len(in.Car.Setup) > 0 {
+		p.Setup = setupLine(in.Car.Setup, in.Setup, logbook.LastSetup(in.Passes, in.Car.Setup))
+		if p.Setup == "" {
+			p.Setup = "none logged yet"
+		}
+	}
 	csrf := ""
 	if q.role == Crew {
 		csrf = s.cfg.Tokens.CSRF(q.token)
@@ -318,6 +325,9 @@ func (s *Server) slipDefaults(q *request, round string) ([]field, string) {
 	if in.OpponentDial.Valid {
 		set["opponent-dial"] = prep.DialText(in.OpponentDial.Decimal, in.Settings.DialStep)
 	}
+	// The setup the car runs: the round's planned, else the last pass's.
+	last := logbook.LastSetup(in.Passes, in.Car.Setup)
+	form = append(form, setupFields(in.Car.Setup, plannedOrLast(in.Setup, last), last)...)
 	for i := range form {
 		if v, ok := set[form[i].Name]; ok {
 			form[i].Value = v
@@ -341,15 +351,19 @@ func (s *Server) postSlip(q *request) {
 	v := values(q.r.PostForm)
 	p := q.slipPage(v("round"))
 	dist := 1320.0
-	if car, err := q.folder.Car(); err == nil && car.DistanceFt > 0 {
-		dist = car.DistanceFt
+	var setup logbook.Setup
+	if car, err := q.folder.Car(); err == nil {
+		if car.DistanceFt > 0 {
+			dist = car.DistanceFt
+		}
+		setup = car.Setup
 	}
-	p.Form = slipForm(dist, q.folder.Settings.Units.Weight)
+	p.Form = append(slipForm(dist, q.folder.Settings.Units.Weight), setupFields(setup, nil, nil)...)
 	fill(p.Form, q.r.PostForm)
 	np := event.NewPass{Session: v("session"), Lane: v("lane"), Dial: v("dial"), RT: v("rt"), Weight: v("weight"), Notes: v("notes"), Change: v("change"),
 		ET60: v("et60"), ET330: v("et330"), ET660: v("et660"), ET1000: v("et1000"), ET1: v("et1320"),
 		MPH660: v("mph660"), MPH1320: v("mph1320"), OppDial: v("opponent-dial"), OppRT: v("opponent-rt"), OppET: v("opponent-et"),
-		OppCar: v("opponent")}
+		OppCar: v("opponent"), Set: setupValues(setup, q.r.PostForm)}
 	if t := v("time"); t != "" {
 		start := q.folder.Settings.DayStart
 		when, err := event.ParseWhen(t, start.Day(q.now), start)

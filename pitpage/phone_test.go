@@ -109,10 +109,11 @@ func TestEveryPageOnAPhoneForBothLinks(t *testing.T) {
 	ctx := browser(t)
 	axe := axeSource(t)
 	f := newFixture(t)
+	withSetup(t, f) // the setup form and the slip's setup fields too
 	start := time.Now()
 	f.srv.cfg.Now = func() time.Time { return demoNow.Add(time.Since(start)) }
 	base := serveLoopback(t, f, DefaultLimits)
-	pages := []string{"/", "/?round=E4", "/reading", "/slip", "/passes", "/weather"}
+	pages := []string{"/", "/?round=E4", "/reading", "/slip", "/setup?round=E4", "/passes", "/weather"}
 	check := func(t *testing.T, path string) {
 		if got, err := chromedp.Run(ctx, chromedp.Evaluate[bool](`typeof axe !== "undefined"`)); err != nil || !got {
 			eval[bool](t, ctx, axe+";true")

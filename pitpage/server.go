@@ -132,6 +132,8 @@ func (s *Server) routes() {
 	m.HandleFunc("POST /slip", s.writer(s.postSlip))
 	m.HandleFunc("POST /checklist", s.writer(s.postChecklist))
 	m.HandleFunc("POST /opponent", s.writer(s.postOpponent))
+	m.HandleFunc("GET /setup", s.reader(s.setupPage))
+	m.HandleFunc("POST /setup", s.writer(s.postSetup))
 	m.HandleFunc("GET /passes", s.reader(s.passesPage))
 	m.HandleFunc("GET /weather", s.reader(s.weatherPage))
 	m.HandleFunc("GET /changes", s.reader(s.changes))
@@ -400,7 +402,10 @@ type page struct {
 	Warnings    []string
 	Card        template.HTML
 	OppDial     string
-	Heading     string
+	// Setup is the round's planned setup in one line ("" when car.yaml
+	// names no setup items).
+	Setup   string
+	Heading string
 	Intro       string
 	Action      string
 	Submit      string
