@@ -18,6 +18,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"regexp"
 	"strconv"
 	"strings"
 	"time"
@@ -51,6 +52,10 @@ const (
 	seconds
 	trapSpeed
 	weight
+	// crew is a crew column (a setup item, a note of their own): text,
+	// except that a plain number in the file's decimal comma ("15,5") is
+	// read as the number it is, so a numeric setup item checks it.
+	crew
 )
 
 // field is one pitcard field a map may fill: its name in the map, its
@@ -561,7 +566,7 @@ func (m *Map) Translate(data []byte, name string) (*Translation, error) {
 	}
 	for _, f := range m.Order {
 		if _, ok := known[f]; !ok {
-			cols = append(cols, out{col: f, f: field{f, f, text}, src: m.Fields[f], idx: indexOf(m.Fields[f])})
+			cols = append(cols, out{col: f, f: field{f, f, crew}, src: m.Fields[f], idx: indexOf(m.Fields[f])})
 		}
 	}
 	tr.source, tr.from = data, map[string]fromColumn{}
@@ -649,6 +654,10 @@ func (m *Map) Translate(data []byte, name string) (*Translation, error) {
 					}
 				}
 			case text:
+			case crew:
+				if tr.Layout.Decimal == ',' && commaNumber.MatchString(v) {
+					v = strings.Replace(v, ",", ".", 1)
+				}
 			default:
 				if v != "" && tr.Layout.Decimal == ',' {
 					v = strings.Replace(v, ",", ".", 1)
@@ -666,6 +675,13 @@ func (m *Map) Translate(data []byte, name string) (*Translation, error) {
 	tr.CSV = buf.Bytes()
 	return tr, nil
 }
+
+// commaNumber and pointNumber are a plain number with a decimal comma and
+// with a decimal point: what a crew column's cell is converted between.
+var (
+	commaNumber = regexp.MustCompile(`^\s*[+-]?[0-9]+,[0-9]+\s*$`)
+	pointNumber = regexp.MustCompile(`^[+-]?[0-9]+\.[0-9]+$`)
+)
 
 func valueOf(rec []string, index map[string]int, s *Source) string {
 	if s.Column == "" {
@@ -757,8 +773,11 @@ func (m *Map) Export(w io.Writer, canonical []byte) error {
 		for i, f := range fields {
 			s := m.Fields[f]
 			fd, isKnown := known[f]
-			if !isKnown {
+			if !isKnown { // a crew column: a plain number takes the map's decimal mark
 				row[i] = get(f)
+				if dec == ',' && pointNumber.MatchString(row[i]) {
+					row[i] = strings.Replace(row[i], ".", ",", 1)
+				}
 				continue
 			}
 			v := get(fd.column)

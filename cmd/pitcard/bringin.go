@@ -273,11 +273,9 @@ mark (the same maps 'log import --map' reads, so an export imports back).`,
 				return err
 			}
 			var buf bytes.Buffer
-			var setupCols []string // a map's export has the map's columns only
-			if o.Map == "" {
-				setupCols = setupColumns(e)
-			}
-			if err := logbook.WriteWith(&buf, passes, setupCols); err != nil {
+			// The setup columns go out too: a map may name them (and its
+			// export keeps only the map's columns).
+			if err := logbook.WriteWith(&buf, passes, setupColumns(e)); err != nil {
 				return err
 			}
 			out := buf.Bytes()

@@ -211,3 +211,32 @@ func TestDialSet(t *testing.T) {
 		t.Errorf("exit %d: %s", code, errs)
 	}
 }
+
+// A column map maps a spreadsheet's column to a setup item; the import
+// checks it as the item's column (a value out of range names the file, the
+// line and the column), and export writes it back in the map's layout.
+func TestSetupThroughAColumnMap(t *testing.T) {
+	dir := setupFolder(t)
+	src := t.TempDir()
+	sheet := filepath.Join(src, "sheet.csv")
+	writeFile(t, sheet, "Date;Time;Track;Run;Lane;1/4;Tire PSI\n13/06/2026;18:42;Test Strip;E1;left;11,538;15,5\n13/06/2026;19:42;Test Strip;E2;left;11,541;16\n")
+	m := filepath.Join(src, "map.yaml")
+	writeFile(t, m, "kind: logbook\nseparator: \";\"\ndecimal: \",\"\ndate: {column: Date, format: \"02/01/2006\"}\ntime: {column: Time}\n"+
+		"track: {column: Track}\nsession: {column: Run}\nlane: {column: Lane}\net1320: {column: \"1/4\"}\nrear_psi: {column: Tire PSI}\n")
+	mustRun(t, "log", "import", "--dir", dir, sheet, "--map", m)
+	book, _ := os.ReadFile(filepath.Join(dir, "logbook.csv"))
+	if lines := strings.Split(strings.TrimSpace(string(book)), "\n"); len(lines) != 3 || !strings.Contains(lines[0], "rear_psi") || !strings.Contains(lines[1], ",15.5") {
+		t.Errorf("imported:\n%s", book)
+	}
+	out := filepath.Join(src, "back.csv")
+	mustRun(t, "log", "export", "--dir", dir, "--map", m, "--out", out)
+	if back, _ := os.ReadFile(out); !strings.Contains(string(back), "Tire PSI") || !strings.Contains(string(back), ";15,5") {
+		t.Errorf("exported in the map's layout:\n%s", back)
+	}
+	bad := filepath.Join(src, "bad.csv")
+	writeFile(t, bad, "Date;Time;Track;Run;Lane;1/4;Tire PSI\n14/06/2026;18:42;Test Strip;E1;left;11,538;55\n")
+	_, errs, code := pitcard(t, "log", "import", "--dir", dir, bad, "--map", m)
+	if code != 2 || !strings.Contains(errs, "bad.csv line 2") || !strings.Contains(errs, `"55" is outside 6..40 psi`) {
+		t.Errorf("exit %d: %s", code, errs)
+	}
+}
