@@ -406,12 +406,12 @@ type page struct {
 	// names no setup items).
 	Setup   string
 	Heading string
-	Intro       string
-	Action      string
-	Submit      string
-	Form        []field
-	Said        []string
-	Tables      []listTable
+	Intro   string
+	Action  string
+	Submit  string
+	Form    []field
+	Said    []string
+	Tables  []listTable
 }
 
 // RoundQuery keeps the round in the navigation's links.
