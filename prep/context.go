@@ -33,7 +33,9 @@ const RecentPasses = 10
 //	                breakout_chance} and options {dial, win_chance,
 //	                breakout_chance} (the dials searched)
 //	ctx.opponent    with an opponent dial: dial, margin and margin_sd (its
-//	                ET over its dial, s), rt_mean, rt_sd, red_light_chance
+//	                ET over its dial, s), rt_mean, rt_sd, red_light_chance,
+//	                from (where they came from: "from 6 passes of car 4471
+//	                (3 events)", or "" for the settings' figures)
 //	ctx.passes      the last 10 passes, most recent first: date, time,
 //	                session, lane, dial, rt, et60 ... et1320, mph660, mph1320,
 //	                temp_f, track_temp_f, density_altitude_ft, notes
@@ -114,7 +116,7 @@ func RuleContext(c Card) map[string]any {
 	}
 	if o := in.Opponent; o != nil {
 		ctx["opponent"] = map[string]any{"dial": o.Dial.InexactFloat64(), "margin": o.Margin, "margin_sd": o.MarginSD,
-			"rt_mean": o.RT.Mean, "rt_sd": o.RT.SD, "red_light_chance": o.RT.RedLightChance()}
+			"rt_mean": o.RT.Mean, "rt_sd": o.RT.SD, "red_light_chance": o.RT.RedLightChance(), "from": o.From}
 	}
 	var passes []any
 	for i := len(in.Passes) - 1; i >= 0 && len(passes) < RecentPasses; i-- {

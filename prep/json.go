@@ -38,6 +38,11 @@ func RenderJSON(w io.Writer, c Card) error {
 	if in.OpponentDial.Valid {
 		j["opponent_dial"] = json.Number(dialText(in.OpponentDial.Decimal, in.Settings.DialStep))
 	}
+	if o := in.Opponent; o != nil {
+		// What the chance to win assumed of the other lane, and from where.
+		j["opponent"] = map[string]any{"margin_s": round(o.Margin, 4), "margin_sd_s": round(o.MarginSD, 4), "rt_mean": round(o.RT.Mean, 4),
+			"rt_sd": round(o.RT.SD, 4), "from": o.From}
+	}
 	if in.Forecast != nil {
 		j["forecast"] = map[string]any{"readings_used": in.Forecast.Used, "trend_minutes": round(in.Forecast.Span.Minutes(), 1),
 			"ahead_minutes": round(in.Forecast.Ahead.Minutes(), 1), "trusted": in.Forecast.Trusted, "notes": in.Forecast.Notes,

@@ -41,3 +41,30 @@ func TestOpponentBookImportAndList(t *testing.T) {
 		t.Errorf("the table:\n%s", text)
 	}
 }
+
+// The card's JSON and the rules' ctx.opponent say where the other lane's
+// figures came from (invented car 4471).
+func TestOpponentFromInJSONAndRules(t *testing.T) {
+	dir := demoCopy(t)
+	writeFile(t, filepath.Join(dir, "opponents.csv"), "car,date,round,dial,rt,et,breakout,notes\n4471,2026-06-12,E1,11.80,0.045,11.842,no,\n4471,2026-06-13,E2,11.80,0.051,11.861,no,\n")
+	writeFile(t, filepath.Join(dir, "rules", "80-other.lua"), `function dial(ctx)
+  if ctx.opponent then return 0.01, "other lane " .. ctx.opponent.from end
+  return 0
+end
+`)
+	args := []string{"--dir", dir, "--round", "3", "--lane", "left", "--at", "20:45", "--opponent-dial", "11.80", "--opponent", "4471"}
+	var j struct {
+		Opponent struct {
+			From string `json:"from"`
+		} `json:"opponent"`
+	}
+	if err := json.Unmarshal([]byte(mustRun(t, append([]string{"card", "--format", "json"}, args...)...)), &j); err != nil {
+		t.Fatal(err)
+	}
+	if j.Opponent.From != "from 2 passes of car 4471 (2 events)" {
+		t.Errorf("the card's JSON says the other lane's figures are %q", j.Opponent.From)
+	}
+	if try := mustRun(t, append([]string{"rules", "try"}, args...)...); !strings.Contains(try, "other lane from 2 passes of car 4471") {
+		t.Errorf("the rule did not see ctx.opponent.from:\n%s", try)
+	}
+}
