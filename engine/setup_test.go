@@ -81,6 +81,14 @@ func TestSetupEffectRecoversPlanted(t *testing.T) {
 	if e.Enough || e.Effect[0] != 0.004 || e.SE[0] != SetupPriorSpan[0]/34 || !strings.Contains(e.Text(), "not enough variation to say") {
 		t.Errorf("a pressure never changed: %+v, %s", e, e.Text())
 	}
+	// The crew named the 60 ft only: the finish's belief is the 60 ft's
+	// carried down the track, more than one for one (a softer launch is
+	// also slower past 60 ft; common practice, no source: a hundredth at
+	// 60 ft is worth one and a half to two at the finish, from memory).
+	t.Logf("carried: %s", e.Text())
+	if carry := e.Effect[1] / e.Effect[0]; !e.CarriedPrior || carry < 1.2 || carry > 2.5 || !strings.Contains(e.Text(), "carried from the 60 ft") {
+		t.Errorf("the finish's belief carried %.2f× the 60 ft's: %s", carry, e.Text())
+	}
 }
 
 // A changed choice item is a change of the car: the pass it changed on
