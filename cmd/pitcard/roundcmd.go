@@ -5,13 +5,13 @@ import (
 	"errors"
 	"fmt"
 	"io"
-	"math"
 	"strings"
 	"time"
 
 	"github.com/spf13/cobra"
 
 	"pitcard/bracket"
+	"pitcard/engine"
 	"pitcard/event"
 	"pitcard/logbook"
 	"pitcard/prep"
@@ -96,241 +96,374 @@ func (p *prompter) until(question, def string, check func(string) error) (string
 	}
 }
 
+// guidedRound is one guided round's state: the folder, its units and the
+// track's elevation, the prompts, the round's clock and what was chosen.
+type guidedRound struct {
+	o    *roundCmdOptions
+	e    *eventFolder
+	trk  engine.Track
+	u    weather.Units
+	elev weather.Length
+	log  []weather.Reading // the weather log, oldest first
+	p    *prompter
+	now  time.Time // the round's clock: for the card, the reading and the slip
+	rf   roundFlags
+}
+
+// roundCmdRun is the guided round, step by step: the round, the air, the
+// lane and the setup, the card, then the slip.
 func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
-	e, err := o.g.open(cmd)
+	g, err := newGuidedRound(cmd, o)
 	if err != nil {
 		return err
 	}
-	if err := e.Writable(); err != nil {
+	if err := g.chooseRound(); err != nil {
 		return err
 	}
-	trk, err := e.Track()
+	fmt.Fprintf(o.s.Out, "Readings: Enter keeps the value in [brackets]; a bare number is in %s units.\n", g.u.Name())
+	r, err := g.askReading()
 	if err != nil {
 		return err
 	}
-	u := e.Settings.Units
-	elev := trk.Elevation()
-	log, bad, err := e.ReadableWeather(elev)
-	if err != nil {
-		return err
-	}
-	if bad != nil {
-		o.s.warn(bad.Error())
-	}
-	p := &prompter{in: bufio.NewReader(o.s.In), out: o.s.Out}
-
-	// Which round, and its clock: one clock for the card, the reading and the slip.
-	rf := roundFlags{Round: o.Round, Lane: o.Lane}
-	sched, haveSched, err := e.Schedule()
-	if err != nil {
-		return err
-	}
-	now, _, _ := e.ClockFor(sched, haveSched, log, o.s.Now())
-	if rf.Round == "" && haveSched {
-		passes, err := e.Logbook()
-		if !event.OnlyLeftOut(err) {
-			return err
-		}
-		if next, ok := sched.Next(passes); ok {
-			rf.Round = next.Session.String()
-			if rf.Lane == "" && next.Lane != "" {
-				rf.Lane = string(next.Lane)
-			}
-		}
-	}
-	if rf.Round, err = p.until("Round (3, E3, T2 ...)", rf.Round, func(a string) error {
-		_, err := logbook.ParseSession(a)
-		return err
-	}); err != nil {
-		return err
-	}
-	fmt.Fprintf(o.s.Out, "Readings: Enter keeps the value in [brackets]; a bare number is in %s units.\n", u.Name())
-
-	// The readings, each defaulting to the last one.
-	var last weather.Reading
-	if len(log) > 0 {
-		last = log[len(log)-1]
-	}
-	has := len(log) > 0
-	def := func(f func() string) string {
-		if !has {
-			return ""
-		}
-		return f()
-	}
-	r := weather.Reading{Time: now, BaroKind: weather.StationPressure}
-	if _, err := p.until("Air temperature", def(func() string { return last.Temp.Format(u.Temp, 1) }), func(a string) error {
-		if r.Temp, err = weather.ParseTemperature(a, u.Temp); err != nil {
-			return event.FlagErr(err, "temperature")
-		}
-		return inRange("temperature", a, r.Temp.In(u.Temp), u.Temp.String(), inUnits(weather.TempRange, func(f float64) float64 { return weather.Fahrenheit(f).In(u.Temp) }))
-	}); err != nil {
-		return err
-	}
-	station := weather.Pressure(0)
-	if has {
-		station = last.Derive(elev).Station
-	}
-	if _, err := p.until("Barometer, station (uncorrected)", def(func() string { return station.Format(u.Pressure) }), func(a string) error {
-		if r.Baro, err = weather.ParsePressure(a, u.Pressure); err != nil {
-			return event.FlagErr(err, "barometer")
-		}
-		return inRange("barometer", a, r.Baro.In(u.Pressure), u.Pressure.String(), inUnits(weather.StationRange, func(p float64) float64 { return weather.InHg(p).In(u.Pressure) }))
-	}); err != nil {
-		return err
-	}
-	humDef := def(func() string { return fmt.Sprintf("%.0f%%", last.Derive(elev).RH*100) })
-	if _, err := p.until("Humidity % (or a dew point with its unit, 52F)", humDef, func(a string) error {
-		if t, err := weather.ParseTemperature(a, u.Temp); err == nil && strings.ContainsAny(strings.ToLower(a), "fc") {
-			r.DewPointSet, r.DewPoint = true, t
-			return nil
-		}
-		r.DewPointSet = false
-		if r.RH, err = weather.ParsePercent(a); err != nil {
-			return event.FlagErr(err, "humidity")
-		}
-		return inRange("humidity", a, r.RH*100, "%", [2]float64{0, 100})
-	}); err != nil {
-		return err
-	}
-	if _, err := p.until("Wind speed", def(func() string { return last.Wind.Format(u.Speed, 0) }), func(a string) error {
-		if a == "" || a == "calm" {
-			r.Wind = 0
-			return nil
-		}
-		if r.Wind, err = weather.ParseSpeed(a, u.Speed); err != nil {
-			return event.FlagErr(err, "wind")
-		}
-		return inRange("wind", a, r.Wind.In(u.Speed), u.Speed.String(), inUnits(weather.WindRange, func(v float64) float64 { return weather.MPH(v).In(u.Speed) }))
-	}); err != nil {
-		return err
-	}
-	if _, err := p.until("Wind from (degrees or N, SW ...)", def(func() string { return fmt.Sprintf("%.0f", last.WindFrom) }), func(a string) error {
-		if a == "" {
-			r.WindDirUnknown = r.Wind > 0
-			return nil
-		}
-		r.WindFrom, err = weather.ParseDirection(a)
-		return event.FlagErr(err, "wind from")
-	}); err != nil {
-		return err
-	}
-	trackDef := ""
-	if has && last.HasTrack {
-		trackDef = last.TrackTemp.Format(u.Temp, 0)
-	}
-	if _, err := p.until("Track temperature (Enter to skip)", trackDef, func(a string) error {
-		if a == "" {
-			r.HasTrack = false
-			return nil
-		}
-		r.HasTrack = true
-		if r.TrackTemp, err = weather.ParseTemperature(a, u.Temp); err != nil {
-			return event.FlagErr(err, "track temperature")
-		}
-		return inRange("track temperature", a, r.TrackTemp.In(u.Temp), u.Temp.String(), inUnits(weather.TrackTempRange, func(f float64) float64 { return weather.Fahrenheit(f).In(u.Temp) }))
-	}); err != nil {
-		return err
-	}
-	if err := r.ValidateIn(elev, u); err != nil {
-		return err
-	}
-	if w := r.PressureWarning(elev); w != "" {
-		o.s.warn(w)
-	}
-	if rf.Lane, err = p.until("Lane (left or right)", rf.Lane, func(a string) error {
+	if g.rf.Lane, err = g.p.until("Lane (left or right)", g.rf.Lane, func(a string) error {
 		_, err := logbook.ParseLane(a)
 		return err
 	}); err != nil {
 		return err
 	}
-	if rf.Set, err = askSetup(e, p, rf.Round, now); err != nil {
+	if g.rf.Set, err = askSetup(g.e, g.p, g.rf.Round, g.now); err != nil {
 		return err
 	}
 	// Only an elimination has another lane to race: a time trial runs alone.
-	if s, _ := logbook.ParseSession(rf.Round); s.Kind == logbook.Elimination {
-		rf.OpponentDial = p.ask("Other lane's dial (Enter if not known)", "")
+	if s, _ := logbook.ParseSession(g.rf.Round); s.Kind == logbook.Elimination {
+		g.rf.OpponentDial = g.p.ask("Other lane's dial (Enter if not known)", "")
 	}
-
-	// Log the reading, then the card. A reading the disk refuses still
-	// makes the card; the crew hears it was not saved.
-	var unsaved error
-	if _, err := e.AppendReading(r, elev, false); err != nil {
-		var same *event.SameMinute
-		switch {
-		case errors.As(err, &same) && same.Old.Same(r, elev):
-			fmt.Fprintf(o.s.Out, "The %s reading already logged has these values: kept as it is.\n", same.Old.Time.Format("15:04"))
-		case errors.As(err, &same):
-			a := p.ask(fmt.Sprintf("A reading at %s is already logged with other values: replace it? (y/N)", same.Old.Time.Format("15:04")), "N")
-			if strings.HasPrefix(strings.ToLower(a), "y") {
-				if _, err := e.AppendReading(r, elev, true); err != nil {
-					unsaved = err
-				}
-			} else {
-				fmt.Fprintln(o.s.Out, "Kept the logged reading; yours was not saved, and the card uses the logged one.")
-			}
-		case isBadInput(err):
-			return err
-		default:
-			unsaved = err
-		}
-	}
-	if unsaved != nil {
-		rf.Unsaved = &r
-		fmt.Fprintf(o.s.Err, "pitcard: the reading was NOT saved (%v): the card below uses it anyway; write it down\n", unsaved)
-	}
-	in, warnings, err := e.GatherRound(rf.request(), now)
-	if !event.Usable(err) {
+	unsaved, err := g.saveReading(r)
+	if err != nil {
 		return err
 	}
-	broken := err
-	for _, w := range warnings {
-		o.s.warn(w)
-	}
-	c := prep.Gather(in)
-	keepHeldOut(e, o.s)
-	fmt.Fprintln(o.s.Out)
-	if err := prep.RenderTextWidth(o.s.Out, c, o.s.Terminal, o.s.width()); err != nil {
+	c, broken, err := g.printCard()
+	if err != nil {
 		return err
 	}
-	// A failed check stops the dial: the round goes on (the slip is still
-	// logged when the car runs), and the command ends with exit 3.
-	broken = errors.Join(failedChecks(c.Failed), broken)
 	if unsaved != nil {
 		return fmt.Errorf("the reading was not saved: %w", unsaved)
 	}
 	if o.NoLog {
 		return broken
 	}
+	return errors.Join(g.logSlip(c), broken)
+}
 
-	// After the round: the slip, each field checked as it is typed.
-	fmt.Fprintln(o.s.Out)
-	if a := p.ask("Run the round, then press Enter for the slip (or type skip)", ""); strings.EqualFold(a, "skip") || p.eof {
-		fmt.Fprintln(o.s.Out, "No slip logged. Log it later with 'pitcard log add'.")
-		return broken
+// newGuidedRound opens the folder for writing and reads its weather log.
+func newGuidedRound(cmd *cobra.Command, o *roundCmdOptions) (*guidedRound, error) {
+	e, err := o.g.open(cmd)
+	if err != nil {
+		return nil, err
 	}
+	if err := e.Writable(); err != nil {
+		return nil, err
+	}
+	trk, err := e.Track()
+	if err != nil {
+		return nil, err
+	}
+	g := &guidedRound{o: o, e: e, trk: trk, u: e.Settings.Units, elev: trk.Elevation(),
+		p: &prompter{in: bufio.NewReader(o.s.In), out: o.s.Out}, rf: roundFlags{Round: o.Round, Lane: o.Lane}}
+	log, bad, err := e.ReadableWeather(g.elev)
+	if err != nil {
+		return nil, err
+	}
+	if bad != nil {
+		o.s.warn(bad.Error())
+	}
+	g.log = log
+	return g, nil
+}
+
+// chooseRound sets the round's clock and asks which round it is, the
+// schedule's next (and its lane) offered.
+func (g *guidedRound) chooseRound() error {
+	sched, haveSched, err := g.e.Schedule()
+	if err != nil {
+		return err
+	}
+	g.now, _, _ = g.e.ClockFor(sched, haveSched, g.log, g.o.s.Now())
+	if g.rf.Round == "" && haveSched {
+		passes, err := g.e.Logbook()
+		if !event.OnlyLeftOut(err) {
+			return err
+		}
+		if next, ok := sched.Next(passes); ok {
+			g.rf.Round = next.Session.String()
+			if g.rf.Lane == "" && next.Lane != "" {
+				g.rf.Lane = string(next.Lane)
+			}
+		}
+	}
+	g.rf.Round, err = g.p.until("Round (3, E3, T2 ...)", g.rf.Round, func(a string) error {
+		_, err := logbook.ParseSession(a)
+		return err
+	})
+	return err
+}
+
+// readingPrompt is one question of the air: its words, its default from
+// the last reading, and the reading field (as its flag) the answer fills.
+type readingPrompt struct {
+	question string
+	def      func(g *guidedRound, last weather.Reading) string
+	set      func(f *event.ReadingFields, answer string)
+	// required: Enter with no default is asked again.
+	required bool
+}
+
+// readingPrompts are the guided round's questions of the air, in order.
+var readingPrompts = []readingPrompt{
+	{"Air temperature", func(g *guidedRound, l weather.Reading) string { return l.Temp.Format(g.u.Temp, 1) },
+		func(f *event.ReadingFields, a string) { f.Temp = a }, true},
+	{"Barometer, station (uncorrected)", func(g *guidedRound, l weather.Reading) string { return l.Derive(g.elev).Station.Format(g.u.Pressure) },
+		func(f *event.ReadingFields, a string) { f.Baro, f.BaroKind = a, "station" }, true},
+	{"Humidity % (or a dew point with its unit, 52F)", func(g *guidedRound, l weather.Reading) string {
+		return fmt.Sprintf("%.0f%%", l.Derive(g.elev).RH*100)
+	}, setHumidity, true},
+	{"Wind speed", func(g *guidedRound, l weather.Reading) string { return l.Wind.Format(g.u.Speed, 0) },
+		func(f *event.ReadingFields, a string) {
+			if f.Wind = a; a == "" || strings.EqualFold(a, "calm") {
+				f.Wind = "0" // Enter with nothing logged: calm, as the prompt has always read it
+			}
+		}, false},
+	{"Wind from (degrees or N, SW ...)", func(g *guidedRound, l weather.Reading) string { return fmt.Sprintf("%.0f", l.WindFrom) },
+		func(f *event.ReadingFields, a string) { f.WindFrom = a }, false},
+	{"Track temperature (Enter to skip)", func(g *guidedRound, l weather.Reading) string {
+		if !l.HasTrack {
+			return ""
+		}
+		return l.TrackTemp.Format(g.u.Temp, 0)
+	}, func(f *event.ReadingFields, a string) { f.TrackTemp = a }, false},
+}
+
+// setHumidity reads the humidity answer: a temperature with its unit is a
+// dew point, anything else a relative humidity.
+func setHumidity(f *event.ReadingFields, a string) {
+	f.Humidity, f.DewPoint = a, ""
+	if _, err := weather.ParseTemperature(a, weather.DegF); err == nil && strings.ContainsAny(strings.ToLower(a), "fc") {
+		f.Humidity, f.DewPoint = "", a
+	}
+}
+
+// askReading asks the air, field by field, each defaulting to the last
+// reading's. Each answer is checked as its flag is (event.ReadingFields,
+// the one parser of a typed reading) within a reading whose other fields
+// are known good, so a refusal is about the field just typed and asks it
+// again.
+func (g *guidedRound) askReading() (weather.Reading, error) {
+	var last weather.Reading
+	has := len(g.log) > 0
+	if has {
+		last = g.log[len(g.log)-1]
+	}
+	base := g.goodBase(last, has)
+	var fields event.ReadingFields
+	for _, q := range readingPrompts {
+		def := ""
+		if has {
+			def = q.def(g, last)
+		}
+		if _, err := g.p.until(q.question, def, func(a string) error {
+			if a == "" && q.required {
+				return &weather.InputError{Field: strings.ToLower(q.question), Reason: "is needed"}
+			}
+			f := fields
+			q.set(&f, a)
+			r, err := f.ReadingAt(g.u, g.now, &base)
+			if err == nil {
+				err = event.ValidateFields(r, g.elev, g.u)
+			}
+			if err != nil {
+				return promptWords(err)
+			}
+			fields = f
+			return nil
+		}); err != nil {
+			return weather.Reading{}, err
+		}
+	}
+	r, err := fields.ReadingAt(g.u, g.now, nil)
+	if err != nil {
+		return r, err
+	}
+	if err := r.ValidateIn(g.elev, g.u); err != nil {
+		return r, err
+	}
+	if w := r.PressureWarning(g.elev); w != "" {
+		g.o.s.warn(w)
+	}
+	return r, nil
+}
+
+// fieldWords are the reading flags as a prompt's answer is told about them.
+var fieldWords = map[string]string{"--temp": "temperature", "--baro": "barometer", "--humidity": "humidity", "--dewpoint": "dew point",
+	"--wind": "wind", "--wind-from": "wind from", "--track-temp": "track temperature"}
+
+// promptWords names the field in a reading flag's refusal as the prompt
+// asks it: `temperature "150 °F" is outside -40..140 °F`, not --temp.
+func promptWords(err error) error {
+	var ie *weather.InputError
+	if !errors.As(err, &ie) {
+		return err
+	}
+	if w, ok := fieldWords[ie.Field]; ok {
+		c := *ie
+		c.Field = w
+		return &c
+	}
+	return err
+}
+
+// goodBase is a reading every field of which is valid at the track: the
+// last one (its humidity as a relative humidity, so a new air temperature
+// is not refused for an old dew point), or the standard atmosphere at the
+// track's elevation.
+func (g *guidedRound) goodBase(last weather.Reading, has bool) weather.Reading {
+	if has && event.ValidateFields(last, g.elev, g.u) == nil {
+		b := last
+		b.RH, b.DewPointSet = last.Derive(g.elev).RH, false
+		return b
+	}
+	std := weather.StandardAtmosphere(g.elev)
+	return weather.Reading{Time: g.now, Temp: std.Temp, Baro: std.Pressure, BaroKind: weather.StationPressure, RH: 0.5}
+}
+
+// saveReading logs the round's reading. One already logged in the same
+// minute with other values is replaced only when the crew says so. A
+// reading the disk refuses still makes the card (unsaved): the crew hears
+// it was not saved.
+func (g *guidedRound) saveReading(r weather.Reading) (unsaved error, err error) {
+	_, err = g.e.AppendReading(r, g.elev, false)
+	var same *event.SameMinute
+	switch {
+	case err == nil:
+	case errors.As(err, &same) && same.Old.Same(r, g.elev):
+		fmt.Fprintf(g.o.s.Out, "The %s reading already logged has these values: kept as it is.\n", same.Old.Time.Format("15:04"))
+	case errors.As(err, &same):
+		a := g.p.ask(fmt.Sprintf("A reading at %s is already logged with other values: replace it? (y/N)", same.Old.Time.Format("15:04")), "N")
+		if strings.HasPrefix(strings.ToLower(a), "y") {
+			if _, err := g.e.AppendReading(r, g.elev, true); err != nil {
+				unsaved = err
+			}
+		} else {
+			fmt.Fprintln(g.o.s.Out, "Kept the logged reading; yours was not saved, and the card uses the logged one.")
+		}
+	case isBadInput(err):
+		return nil, err
+	default:
+		unsaved = err
+	}
+	if unsaved != nil {
+		g.rf.Unsaved = &r
+		fmt.Fprintf(g.o.s.Err, "pitcard: the reading was NOT saved (%v): the card below uses it anyway; write it down\n", unsaved)
+	}
+	return unsaved, nil
+}
+
+// printCard gathers and prints the round's card. broken is what the card
+// printed around (rows left out, a failed check: a failed check stops the
+// dial, and the command ends with exit 3, while the round goes on).
+func (g *guidedRound) printCard() (c prep.Card, broken error, err error) {
+	in, warnings, err := g.e.GatherRound(g.rf.request(), g.now)
+	if !event.Usable(err) {
+		return c, nil, err
+	}
+	broken = err
+	for _, w := range warnings {
+		g.o.s.warn(w)
+	}
+	c = prep.Gather(in)
+	keepHeldOut(g.e, g.o.s)
+	fmt.Fprintln(g.o.s.Out)
+	if err := prep.RenderTextWidth(g.o.s.Out, c, g.o.s.Terminal, g.o.s.width()); err != nil {
+		return c, nil, err
+	}
+	return c, errors.Join(failedChecks(c.Failed), broken), nil
+}
+
+// slipQuestion is one field of the slip as the guided round asks it.
+type slipQuestion struct{ key, question, def string }
+
+// slipQuestions are the slip's fields in the order a slip prints them, the
+// card's dial offered in an elimination.
+func (g *guidedRound) slipQuestions(c prep.Card) []slipQuestion {
 	dial := ""
-	if c.HasFinal && in.Session.Kind == logbook.Elimination {
-		dial = prep.DialText(c.FinalDial, e.Settings.DialStep)
+	if c.HasFinal && c.Input.Session.Kind == logbook.Elimination {
+		dial = prep.DialText(c.FinalDial, g.e.Settings.DialStep)
 	}
-	questions := []struct{ key, question, def string }{
-		{"dial", "Dial-in posted", dial}, {"rt", rtQuestion(e.Settings.RTZero), ""}, {"et60", "60 ft", ""}, {"et330", "330 ft", ""},
-		{"et660", "1/8 mile ET", ""}, {"mph660", "1/8 mile trap, " + u.Speed.String(), ""}, {"et1000", "1000 ft", ""}, {"et1320", "1/4 mile ET", ""},
-		{"mph1320", "1/4 mile trap, " + u.Speed.String(), ""}, {"notes", "Notes (lifted, pedaled ...)", ""},
+	speed := g.u.Speed.String()
+	return []slipQuestion{
+		{"dial", "Dial-in posted", dial}, {"rt", rtQuestion(g.e.Settings.RTZero), ""}, {"et60", "60 ft", ""}, {"et330", "330 ft", ""},
+		{"et660", "1/8 mile ET", ""}, {"mph660", "1/8 mile trap, " + speed, ""}, {"et1000", "1000 ft", ""}, {"et1320", "1/4 mile ET", ""},
+		{"mph1320", "1/4 mile trap, " + speed, ""}, {"notes", "Notes (lifted, pedaled ...)", ""},
 		{"change", "What changed on the car before this pass (new converter, +2 psi ...; Enter: nothing)", ""},
 	}
-	slip := logbook.SlipFields{Values: map[string]string{"date": now.Format(weather.DateLayout), "time": now.Format("15:04"),
-		"track": trk.Name, "session": in.Session.String(), "lane": string(in.Lane)}, Names: map[string]string{}}
+}
+
+// logSlip asks for the slip after the round, each field checked as it is
+// typed and the checks across fields asked again by field, then logs it
+// (with the setup planned and the other lane's slip) through 'log add'.
+func (g *guidedRound) logSlip(c prep.Card) error {
+	fmt.Fprintln(g.o.s.Out)
+	if a := g.p.ask("Run the round, then press Enter for the slip (or type skip)", ""); strings.EqualFold(a, "skip") || g.p.eof {
+		fmt.Fprintln(g.o.s.Out, "No slip logged. Log it later with 'pitcard log add'.")
+		return nil
+	}
+	in := c.Input
+	notLogged := func(err error) error {
+		return fmt.Errorf("%w; the slip was not logged: log it with 'pitcard log add'", err)
+	}
+	questions := g.slipQuestions(c)
+	slip, err := g.askSlip(questions, in)
+	if err != nil {
+		return notLogged(err)
+	}
+	args := []string{"log", "add", "--dir", g.e.Dir, "--round", in.Session.String(), "--lane", string(in.Lane),
+		"--date", g.now.Format(weather.DateLayout), "--time", g.now.Format("15:04")}
+	for _, q := range questions {
+		if v := slip.Values[q.key]; v != "" {
+			if q.key == "mph660" || q.key == "mph1320" {
+				v += "mph" // already the logbook's unit
+			}
+			args = append(args, "--"+q.key, v)
+		}
+	}
+	for _, set := range g.rf.Set { // the setup the car ran: the one planned for its card
+		args = append(args, "--set", set)
+	}
+	if in.Session.Kind == logbook.Elimination {
+		args = append(args, g.askOtherLane(in)...)
+	}
+	if code := run(args, g.o.s); code != exitOK {
+		return userErrf("the slip was not logged (see above); log it with 'pitcard log add'")
+	}
+	fmt.Fprintln(g.o.s.Out, "Next round: pitcard round")
+	return nil
+}
+
+// askSlip asks each field of the slip up to the car's finish line, then
+// the checks across fields (a 1/8 mile slower than the 1/4 ...), asking the
+// field named again, up to three times.
+func (g *guidedRound) askSlip(questions []slipQuestion, in prep.Input) (logbook.SlipFields, error) {
+	slip := logbook.SlipFields{Values: map[string]string{"date": g.now.Format(weather.DateLayout), "time": g.now.Format("15:04"),
+		"track": g.trk.Name, "session": in.Session.String(), "lane": string(in.Lane)}, Names: map[string]string{}}
 	// A trap speed is typed in the crew's units (km/h in a metric folder)
 	// and kept as the logbook's mph.
 	toMPH := func(key, a string) (string, error) {
 		if key != "mph660" && key != "mph1320" {
 			return a, nil
 		}
-		return event.TrapMPH(a, u)
+		return event.TrapMPH(a, g.u)
 	}
 	askField := func(key, question, def string) error {
-		v, err := p.until(question, def, func(a string) error {
+		v, err := g.p.until(question, def, func(a string) error {
 			m, err := toMPH(key, a)
 			if err != nil {
 				return err
@@ -349,72 +482,59 @@ func roundCmdRun(cmd *cobra.Command, o *roundCmdOptions) error {
 		}
 		slip.Names[q.key] = q.question
 		if err := askField(q.key, q.question, q.def); err != nil {
-			return errors.Join(fmt.Errorf("%w; the slip was not logged: log it with 'pitcard log add'", err), broken)
+			return slip, err
 		}
 	}
-	// The checks across fields: the field named is asked again.
 	for try := 0; ; try++ {
-		_, err := logbook.ParsePass(slip, e.Zone())
+		_, err := logbook.ParsePass(slip, g.e.Zone())
 		var ie *weather.InputError
-		if err == nil || !errors.As(err, &ie) || try == 3 {
-			if err != nil {
-				return errors.Join(fmt.Errorf("%w; the slip was not logged: log it with 'pitcard log add'", err), broken)
-			}
-			break
+		if err == nil {
+			return slip, nil
 		}
-		fmt.Fprintln(o.s.Out, "  ", err)
+		if !errors.As(err, &ie) || try == 3 {
+			return slip, err
+		}
+		fmt.Fprintln(g.o.s.Out, "  ", err)
 		key := ""
 		for k, name := range slip.Names {
 			if name == ie.Field {
 				key = k
 			}
 		}
-		if key == "" || p.eof {
-			return errors.Join(fmt.Errorf("%w; the slip was not logged: log it with 'pitcard log add'", err), broken)
+		if key == "" || g.p.eof {
+			return slip, err
 		}
 		if err := askField(key, slip.Names[key], ""); err != nil {
-			return errors.Join(fmt.Errorf("%w; the slip was not logged: log it with 'pitcard log add'", err), broken)
+			return slip, err
 		}
 	}
-	args := []string{"log", "add", "--dir", e.Dir, "--round", in.Session.String(), "--lane", string(in.Lane),
-		"--date", now.Format("2006-01-02"), "--time", now.Format("15:04")}
-	for _, q := range questions {
-		if v := slip.Values[q.key]; v != "" {
-			if q.key == "mph660" || q.key == "mph1320" {
-				v += "mph" // already the logbook's unit
-			}
-			args = append(args, "--"+q.key, v)
-		}
+}
+
+// askOtherLane asks the other lane's slip, what decided the round, and its
+// car for the opponent book: the flags 'log add' takes for them (none when
+// skipped).
+func (g *guidedRound) askOtherLane(in prep.Input) []string {
+	oppDial := ""
+	if in.OpponentDial.Valid {
+		oppDial = prep.DialText(in.OpponentDial.Decimal, g.e.Settings.DialStep)
 	}
-	for _, set := range rf.Set { // the setup the car ran: the one planned for its card
-		args = append(args, "--set", set)
+	d := g.p.ask("Other lane's dial (Enter to skip its slip)", oppDial)
+	if d == "" || g.p.eof {
+		return nil
 	}
-	// The other lane's slip, in an elimination: what decided the round.
-	if in.Session.Kind == logbook.Elimination {
-		oppDial := ""
-		if in.OpponentDial.Valid {
-			oppDial = prep.DialText(in.OpponentDial.Decimal, e.Settings.DialStep)
-		}
-		check := func(name string) func(string) error {
-			return func(a string) error { return logbook.CheckSlipField("rt", name, a) }
-		}
-		if d := p.ask("Other lane's dial (Enter to skip its slip)", oppDial); d != "" && !p.eof {
-			rt, err1 := p.until("Other lane's reaction time", "", check("other lane's reaction time"))
-			et, err2 := p.until("Other lane's ET", "", func(a string) error { return logbook.CheckSlipField("dial", "other lane's ET", a) })
-			if err1 == nil && err2 == nil && rt != "" && et != "" {
-				args = append(args, "--opponent-dial", d, "--opponent-rt", rt, "--opponent-et", et)
-				// Its car, to keep the slip in the opponent book (--opponent on round is the default).
-				if car := p.ask("Other lane's car, its number (Enter to skip)", rf.opp.Car); car != "" {
-					args = append(args, "--opponent", car)
-				}
-			}
-		}
+	rt, err1 := g.p.until("Other lane's reaction time", "", func(a string) error {
+		return logbook.CheckSlipField("rt", "other lane's reaction time", a)
+	})
+	et, err2 := g.p.until("Other lane's ET", "", func(a string) error { return logbook.CheckSlipField("dial", "other lane's ET", a) })
+	if err1 != nil || err2 != nil || rt == "" || et == "" {
+		return nil
 	}
-	if code := run(args, o.s); code != exitOK {
-		return errors.Join(userErrf("the slip was not logged (see above); log it with 'pitcard log add'"), broken)
+	args := []string{"--opponent-dial", d, "--opponent-rt", rt, "--opponent-et", et}
+	// Its car, to keep the slip in the opponent book (--opponent on round is the default).
+	if car := g.p.ask("Other lane's car, its number (Enter to skip)", g.rf.opp.Car); car != "" {
+		args = append(args, "--opponent", car)
 	}
-	fmt.Fprintln(o.s.Out, "Next round: pitcard round")
-	return broken
+	return args
 }
 
 // askSetup asks the car's setup for the round, item by item, as car.yaml's
@@ -463,20 +583,6 @@ func askSetup(e *eventFolder, p *prompter, round string, now time.Time) ([]strin
 
 // slipTimerFt is the distance of each timed field of the slip, ft.
 var slipTimerFt = map[string]float64{"et660": 660, "mph660": 660, "et1000": 1000, "et1320": 1320, "mph1320": 1320}
-
-// inUnits says a range given in pitcard's imperial limits in the crew's
-// units (conv converts one end), to two decimals.
-func inUnits(r [2]float64, conv func(float64) float64) [2]float64 {
-	return [2]float64{math.Round(conv(r[0])*100) / 100, math.Round(conv(r[1])*100) / 100}
-}
-
-// inRange refuses a value outside its valid range, naming the field.
-func inRange(field, typed string, v float64, unit string, r [2]float64) error {
-	if v >= r[0] && v <= r[1] {
-		return nil
-	}
-	return &weather.InputError{Field: field, Value: typed, Reason: fmt.Sprintf("is outside %g..%g %s", r[0], r[1], unit)}
-}
 
 // rtQuestion asks for a reaction time as the slips print it: from the green
 // (.021, a red light negative) or from the last amber (.521 on a full tree).
