@@ -398,20 +398,30 @@ func winChances(c Card, in Input) ([]bracket.WinOption, bracket.WinOption, strin
 		}
 	}
 	opts := bracket.WinChances(bracket.WinInput{Us: c.Plan.Estimate, UsRT: in.UsRT, Opp: *in.Opponent, Seed: 1}, cands)
+	return opts, bracket.BestForWin(opts), WinTradeWords(c.Plan.Estimate, c.Plan.Risk, c.Plan.Recommended, step, opts)
+}
+
+// WinTradeWords says what posting the dial that wins most among opts
+// trades against the breakout rule's dial rule, for an estimate est and
+// the crew's risk: "the dial that wins most, 11.38, breaks out 14.2 % of
+// the time, more than the 10 % you accept: over your rule's 11.40 it gains
+// 3.1 points of winning for 4.0 points more breakout risk". "" when it
+// keeps within the risk (or is the rule's own dial). The card and the dial
+// command print these same words.
+func WinTradeWords(est bracket.Estimate, risk float64, rule decimal.Decimal, step decimal.Decimal, opts []bracket.WinOption) string {
 	best := bracket.BestForWin(opts)
-	trade := ""
-	var rule bracket.WinOption
+	var atRule bracket.WinOption
 	for _, o := range opts {
-		if o.Dial.Equal(c.Plan.Recommended) {
-			rule = o
+		if o.Dial.Equal(rule) {
+			atRule = o
 		}
 	}
-	if bo := bracket.BreakoutChance(c.Plan.Estimate, best.Dial); bo > c.Plan.Risk && !best.Dial.Equal(c.Plan.Recommended) {
-		trade = fmt.Sprintf("the dial that wins most, %s, breaks out %.1f %% of the time, more than the %.0f %% you accept: over your rule's %s it gains %.1f points of winning for %.1f points more breakout risk",
-			dialText(best.Dial, step), 100*bo, 100*c.Plan.Risk, dialText(c.Plan.Recommended, step), 100*(best.Win-rule.Win),
-			100*(bo-bracket.BreakoutChance(c.Plan.Estimate, c.Plan.Recommended)))
+	bo := bracket.BreakoutChance(est, best.Dial)
+	if bo <= risk || best.Dial.Equal(rule) {
+		return ""
 	}
-	return opts, best, trade
+	return fmt.Sprintf("the dial that wins most, %s, breaks out %.1f %% of the time, more than the %.0f %% you accept: over your rule's %s it gains %.1f points of winning for %.1f points more breakout risk",
+		dialText(best.Dial, step), 100*bo, 100*risk, dialText(rule, step), 100*(best.Win-atRule.Win), 100*(bo-bracket.BreakoutChance(est, rule)))
 }
 
 // winOf is the chance to win of dial d, and whether it was computed.

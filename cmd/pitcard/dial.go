@@ -4,6 +4,7 @@ import (
 	"encoding/json"
 	"errors"
 	"fmt"
+	"io"
 	"strconv"
 	"strings"
 
@@ -118,6 +119,32 @@ type dialJSON struct {
 	HeadStartS  *float64         `json:"head_start_s,omitempty"`
 }
 
+// dialBasis is what the dial table is computed from: the estimate, what it
+// rests on, the dial to post with its checks, and the logbook rows left out.
+type dialBasis struct {
+	est bracket.Estimate
+	// post is the dial to post (the card's final, after the crew's rules)
+	// and the checks it must pass; without a round to gather, the breakout
+	// rule's pick labeled as before the rules, and pitcard's own safety
+	// checks on the estimate.
+	post dialPost
+	// rests is what the estimate rests on, in one line and as JSON.
+	rests restsOn
+	// leftOut: logbook rows that could not be read, reported after the table.
+	leftOut error
+}
+
+// dialAgainst is the table against the other lane: each option's chance
+// to win, the other lane as raced, and the trade-off of the dial that wins
+// most in words ("" when it keeps within the crew's risk).
+type dialAgainst struct {
+	wins  []bracket.WinOption
+	opp   *bracket.Opponent
+	trade string
+}
+
+// dialRun is the dial command: the estimate, the plan of dial-ins around
+// it, the chances against the other lane, printed in the format asked.
 func dialRun(cmd *cobra.Command, o *dialOptions) error {
 	if err := checkFormat(o.Format, "text", "markdown", "json", "csv"); err != nil {
 		return err
@@ -133,181 +160,247 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 	if err != nil {
 		return err
 	}
-	var est bracket.Estimate
-	var leftOut error // logbook rows that could not be read: reported after the table
-	// post is the dial to post (the card's final, after the crew's rules)
-	// and the checks it must pass; without a round to gather, the breakout
-	// rule's pick labeled as before the rules, and pitcard's own safety
-	// checks on the estimate.
-	var post dialPost
-	// rests is what the estimate rests on, in one line and as JSON.
-	var rests restsOn
+	b, done, err := o.basis(e, change)
+	if err != nil || done {
+		return err
+	}
+	plan, err := bracket.PlanDial(b.est, e.Settings.DialStep, e.Settings.BreakoutRisk, o.Rows)
+	if err != nil {
+		return err
+	}
+	vs, err := o.against(e, b, plan)
+	if err != nil {
+		return err
+	}
+	j := dialJSONOf(b, plan, vs)
+	switch o.Format {
+	case "json":
+		if err := writeJSON(o.s.Out, j); err != nil {
+			return err
+		}
+	case "csv":
+		if err := writeDialCSV(o.s.Out, j); err != nil {
+			return err
+		}
+	default:
+		o.writeText(b, plan, vs, j)
+	}
+	return errors.Join(failedChecks(b.post.failed), b.leftOut)
+}
+
+// basis is the estimate the dial rests on: --et and --sd as given; else
+// the round's card (the model in the call's air, the crew's rules and
+// checks), or the model alone with --latest; else, with no weather at all,
+// the car's recent clean passes. done: too few passes for a dial table, and
+// the guide was printed instead.
+func (o *dialOptions) basis(e *eventFolder, change string) (b dialBasis, done bool, err error) {
+	askedLatest := o.cond.Latest // useModel turns it on for a weather log: the card is still gathered
 	switch {
 	case o.ET != "" || o.SD != "":
-		if o.ET == "" || o.SD == "" {
-			return userErrf("give --et and --sd together (the predicted ET and its spread)")
-		}
-		if len(o.Set) > 0 {
-			return userErrf("--set moves the model's prediction and --et replaces it: give one of them")
-		}
-		et, err := strconv.ParseFloat(o.ET, 64)
+		b.est, err = o.givenEstimate()
 		if err != nil {
-			return &weather.InputError{Field: "--et", Value: o.ET, Reason: "is not a time in seconds"}
+			return b, false, err
 		}
-		sd, err := strconv.ParseFloat(o.SD, 64)
-		if err != nil || !(sd > 0 && sd < 2) {
-			return &weather.InputError{Field: "--sd", Value: o.SD, Reason: "is not a spread in seconds (0..2, e.g. 0.025)"}
+	case o.useModel(e):
+		var ok bool
+		if b, ok, err = o.modelBasis(e, change, askedLatest); err != nil || !ok {
+			return b, true, err
 		}
-		est = bracket.Estimate{ET: et, SD: sd, Basis: "the --et and --sd given"}
 	default:
-		useModel := o.cond.Given() || o.cond.Latest || o.cond.At != "" || e.Demo
-		askedLatest := o.cond.Latest
-		if !useModel {
-			if elev, _, err := e.SiteElevation(o.cond.ReadingFields); err == nil {
-				if log, _, err := e.ReadableWeather(elev); err == nil && len(log) > 0 {
-					o.cond.Latest, useModel = true, true
-				}
-			}
-		}
-		if useModel {
-			n, err := forecastNext(e, o.cond, o.Prep, "", change, o.s.Now())
-			if err != nil {
-				return err
-			}
-			for _, w := range n.Cond.Warnings {
-				o.s.warn(w)
-			}
-			est = n.Pred.Estimate()
-			est.Basis += ", in " + n.Cond.Source
-			leftOut = n.LeftOut
-			rests = restsOnOf(n.Pred, n.Fit, n.Units)
-			if ok, why := n.Pred.DialReady(); !ok {
-				// No dial table from too few passes: the estimate is a
-				// guide, said as the card's guide says what it is from.
-				est.Basis = prep.GuideFrom(n.Pred) + ", in " + n.Cond.Source
-				return noDial(o, est, why, rests, leftOut)
-			}
-			post = dialPost{failed: prep.Failed(prep.SafetyChecks(prep.SafetyFor(n.Car, n.Pred, n.When, e.Settings.Units)))}
-			c, ok, err := o.card(e, askedLatest, change)
-			if err != nil {
-				return err
-			}
-			if ok {
-				// The round's card: the same prediction, rules and checks
-				// as 'pitcard card', so both post one number.
-				est = c.Plan.Estimate
-				est.Basis += ", in " + c.Input.AirSource + " (the card's)"
-				rests = restsOnOf(c.Prediction, c.Fit, c.Input.Settings.Units)
-				post = dialPost{final: c.FinalDial, hasFinal: c.HasFinal, failed: c.Failed, adjustments: c.Adjustments, round: c.Title,
-					opponent: c.Input.Opponent, usRT: c.Input.UsRT, bestForWin: c.Input.PostBestForWin && len(c.Win) > 0}
-			}
-			break
-		}
 		if len(o.Set) > 0 {
-			return userErrf("--set moves the model's prediction, which needs the air: log a reading ('pitcard weather add') or give the reading flags")
+			return b, false, userErrf("--set moves the model's prediction, which needs the air: log a reading ('pitcard weather add') or give the reading flags")
 		}
 		car, err := e.Car()
 		if err != nil {
-			return err
+			return b, false, err
 		}
 		passes, lo := e.Logbook()
 		if !event.OnlyLeftOut(lo) {
-			return lo
+			return b, false, lo
 		}
-		leftOut = lo
-		if est, _, err = bracket.RecentEstimate(passes, car.DistanceFt, o.CleanPasses, e.Settings.AbortWords); err != nil {
-			return userErr(err)
+		b.leftOut = lo
+		if b.est, _, err = bracket.RecentEstimate(passes, car.DistanceFt, o.CleanPasses, e.Settings.AbortWords); err != nil {
+			return b, false, userErr(err)
 		}
 	}
-	if post.failed == nil && !post.hasFinal {
+	if b.post.failed == nil && !b.post.hasFinal {
 		// The estimate's quick end against the car's limits (no trap speed
 		// from an ET alone: the checks say so).
 		car, err := e.Car()
 		if err != nil {
-			return err
+			return b, false, err
 		}
-		post.failed = prep.Failed(prep.SafetyChecks(prep.SafetyInput{Limits: car.Limits(), DistanceFt: car.DistanceFt,
-			QuickET: est.ET - engine.IntervalZ*est.SD, Day: o.s.Now(), Units: e.Settings.Units}))
+		b.post.failed = prep.Failed(prep.SafetyChecks(prep.SafetyInput{Limits: car.Limits(), DistanceFt: car.DistanceFt,
+			QuickET: b.est.ET - engine.IntervalZ*b.est.SD, Day: o.s.Now(), Units: e.Settings.Units}))
 	}
-	plan, err := bracket.PlanDial(est, e.Settings.DialStep, e.Settings.BreakoutRisk, o.Rows)
+	return b, false, nil
+}
+
+// givenEstimate is --et with its spread --sd.
+func (o *dialOptions) givenEstimate() (bracket.Estimate, error) {
+	if o.ET == "" || o.SD == "" {
+		return bracket.Estimate{}, userErrf("give --et and --sd together (the predicted ET and its spread)")
+	}
+	if len(o.Set) > 0 {
+		return bracket.Estimate{}, userErrf("--set moves the model's prediction and --et replaces it: give one of them")
+	}
+	et, err := strconv.ParseFloat(o.ET, 64)
 	if err != nil {
-		return err
+		return bracket.Estimate{}, &weather.InputError{Field: "--et", Value: o.ET, Reason: "is not a time in seconds"}
 	}
-	j := dialJSON{PredictedET: round(est.ET, 4), SD: round(est.SD, 4), Basis: est.Basis, Step: json.Number(plan.Step.String()),
-		Risk: plan.Risk, Recommended: json.Number(prep.DialText(plan.Recommended, plan.Step)), ChecksFailed: append([]string{}, post.failed...),
-		Blend: rests.json}
-	if post.hasFinal {
-		j.Post = json.Number(prep.DialText(post.final, plan.Step))
+	sd, err := strconv.ParseFloat(o.SD, 64)
+	if err != nil || !(sd > 0 && sd < 2) {
+		return bracket.Estimate{}, &weather.InputError{Field: "--sd", Value: o.SD, Reason: "is not a spread in seconds (0..2, e.g. 0.025)"}
 	}
-	j.PostOK = len(post.failed) == 0
-	// Against the other lane: the chance to win of every option.
+	return bracket.Estimate{ET: et, SD: sd, Basis: "the --et and --sd given"}, nil
+}
+
+// useModel: the air is known (flags, --latest, --at, the demo, or a
+// weather log with a reading), so the model predicts. A weather log found
+// here turns --latest on.
+func (o *dialOptions) useModel(e *eventFolder) bool {
+	if o.cond.Given() || o.cond.Latest || o.cond.At != "" || e.Demo {
+		return true
+	}
+	if elev, _, err := e.SiteElevation(o.cond.ReadingFields); err == nil {
+		if log, _, err := e.ReadableWeather(elev); err == nil && len(log) > 0 {
+			o.cond.Latest = true
+			return true
+		}
+	}
+	return false
+}
+
+// modelBasis is the model's estimate, the round's card's where one is
+// gathered (the same prediction, rules and checks as 'pitcard card', so
+// both post one number; not with --latest asked, askedLatest). ok is false
+// when there are too few passes for a dial table: the guide was printed
+// instead.
+func (o *dialOptions) modelBasis(e *eventFolder, change string, askedLatest bool) (b dialBasis, ok bool, err error) {
+	n, err := forecastNext(e, o.cond, o.Prep, "", change, o.s.Now())
+	if err != nil {
+		return b, false, err
+	}
+	for _, w := range n.Cond.Warnings {
+		o.s.warn(w)
+	}
+	b.est = n.Pred.Estimate()
+	b.est.Basis += ", in " + n.Cond.Source
+	b.leftOut = n.LeftOut
+	b.rests = restsOnOf(n.Pred, n.Fit, n.Units)
+	if ready, why := n.Pred.DialReady(); !ready {
+		// No dial table from too few passes: the estimate is a guide, said
+		// as the card's guide says what it is from.
+		b.est.Basis = prep.GuideFrom(n.Pred) + ", in " + n.Cond.Source
+		return b, false, noDial(o, b.est, why, b.rests, b.leftOut)
+	}
+	b.post = dialPost{failed: prep.Failed(prep.SafetyChecks(prep.SafetyFor(n.Car, n.Pred, n.When, e.Settings.Units)))}
+	c, gathered, err := o.card(e, askedLatest, change)
+	if err != nil {
+		return b, false, err
+	}
+	if gathered {
+		b.est = c.Plan.Estimate
+		b.est.Basis += ", in " + c.Input.AirSource + " (the card's)"
+		b.rests = restsOnOf(c.Prediction, c.Fit, c.Input.Settings.Units)
+		b.post = dialPost{final: c.FinalDial, hasFinal: c.HasFinal, failed: c.Failed, adjustments: c.Adjustments, round: c.Title,
+			opponent: c.Input.Opponent, usRT: c.Input.UsRT, bestForWin: c.Input.PostBestForWin && len(c.Win) > 0}
+	}
+	return b, true, nil
+}
+
+// against is every option's chance to win against the other lane: its
+// dial given here (--opponent-dial, with --opponent's history), or the one
+// the card races against (rounds.csv). None without either.
+func (o *dialOptions) against(e *eventFolder, b dialBasis, plan bracket.DialPlan) (dialAgainst, error) {
+	var vs dialAgainst
 	var oppDial decimal.NullDecimal
 	if o.OppDial != "" {
 		d, err := logbook.ParseSeconds("--opponent-dial", o.OppDial)
 		if err != nil {
-			return err
+			return vs, err
 		}
 		if err := event.RangeErr("--opponent-dial", d, logbook.DialRange); err != nil {
-			return err
+			return vs, err
 		}
 		oppDial = decimal.NewNullDecimal(d)
 	}
-	var wins []bracket.WinOption
-	var opp *bracket.Opponent
-	if oppDial.Valid || post.opponent != nil {
-		var usRT bracket.RTModel
-		if oppDial.Valid {
-			passes, _ := e.RecentLogbook()
-			book, _ := e.OpponentBook() // a bad book: the settings' figures (the card names its rows)
-			if opp, usRT, err = o.opp.Build(e.Settings, oppDial, passes, book); err != nil {
-				return err
-			}
-		} else { // the other lane's dial the card races against (rounds.csv)
-			opp, usRT = post.opponent, post.usRT
+	if !oppDial.Valid && b.post.opponent == nil {
+		return vs, nil
+	}
+	var usRT bracket.RTModel
+	if oppDial.Valid {
+		passes, _ := e.RecentLogbook()
+		book, _ := e.OpponentBook() // a bad book: the settings' figures (the card names its rows)
+		var err error
+		if vs.opp, usRT, err = o.opp.Build(e.Settings, oppDial, passes, book); err != nil {
+			return vs, err
 		}
-		var ds []decimal.Decimal
-		for _, op := range plan.Options {
-			ds = append(ds, op.Dial)
-		}
-		wins = bracket.WinChances(bracket.WinInput{Us: est, UsRT: usRT, Opp: *opp, Seed: 1}, ds)
-		best := bracket.BestForWin(wins)
+	} else { // the other lane's dial the card races against (rounds.csv)
+		vs.opp, usRT = b.post.opponent, b.post.usRT
+	}
+	var ds []decimal.Decimal
+	for _, op := range plan.Options {
+		ds = append(ds, op.Dial)
+	}
+	vs.wins = bracket.WinChances(bracket.WinInput{Us: b.est, UsRT: usRT, Opp: *vs.opp, Seed: 1}, ds)
+	vs.trade = prep.WinTradeWords(b.est, plan.Risk, plan.Recommended, plan.Step, vs.wins)
+	return vs, nil
+}
+
+// dialJSONOf is the dial table as the JSON answer gives it (and as the
+// text and CSV print it).
+func dialJSONOf(b dialBasis, plan bracket.DialPlan, vs dialAgainst) dialJSON {
+	est, post := b.est, b.post
+	j := dialJSON{PredictedET: round(est.ET, 4), SD: round(est.SD, 4), Basis: est.Basis, Step: json.Number(plan.Step.String()),
+		Risk: plan.Risk, Recommended: json.Number(prep.DialText(plan.Recommended, plan.Step)), ChecksFailed: append([]string{}, post.failed...),
+		Blend: b.rests.json}
+	if post.hasFinal {
+		j.Post = json.Number(prep.DialText(post.final, plan.Step))
+	}
+	j.PostOK = len(post.failed) == 0
+	if vs.opp != nil {
+		best := bracket.BestForWin(vs.wins)
 		j.BestForWin = &bestForWinJSON{Dial: json.Number(prep.DialText(best.Dial, plan.Step)), WinChance: round(best.Win, 4)}
-		h := bracket.HeadStart(plan.Recommended, opp.Dial).InexactFloat64()
+		h := bracket.HeadStart(plan.Recommended, vs.opp.Dial).InexactFloat64()
 		j.HeadStartS = &h
 	}
 	for i, op := range plan.Options {
 		oj := dialOptionJSON{Dial: json.Number(prep.DialText(op.Dial, plan.Step)), BreakoutChance: round(op.BreakoutChance, 4),
 			GiveawayS: round(op.Giveaway, 4), Recommended: op.Recommended}
 		oj.Post = post.hasFinal && oj.Dial == j.Post || !post.hasFinal && op.Recommended
-		if wins != nil {
-			w := round(wins[i].Win, 4)
+		if vs.wins != nil {
+			w := round(vs.wins[i].Win, 4)
 			oj.WinChance = &w
 		}
 		j.Options = append(j.Options, oj)
 	}
-	if o.Format == "json" {
-		if err := writeJSON(o.s.Out, j); err != nil {
-			return err
+	return j
+}
+
+// writeDialCSV is the dial table as CSV, a row per option.
+func writeDialCSV(w io.Writer, j dialJSON) error {
+	rows := [][]string{{"dial", "breakout_chance", "expected_giveaway_s", "win_chance", "recommended", "post", "checks_failed", "predicted_et", "sd"}}
+	for _, op := range j.Options {
+		win := ""
+		if op.WinChance != nil {
+			win = fmt.Sprint(*op.WinChance)
 		}
-		return errors.Join(failedChecks(post.failed), leftOut)
+		rows = append(rows, []string{string(op.Dial), fmt.Sprint(op.BreakoutChance), fmt.Sprint(op.GiveawayS), win, fmt.Sprint(op.Recommended),
+			fmt.Sprint(op.Post), strings.Join(j.ChecksFailed, "; "), fmt.Sprint(j.PredictedET), fmt.Sprint(j.SD)})
 	}
-	if o.Format == "csv" {
-		rows := [][]string{{"dial", "breakout_chance", "expected_giveaway_s", "win_chance", "recommended", "post", "checks_failed", "predicted_et", "sd"}}
-		for _, op := range j.Options {
-			win := ""
-			if op.WinChance != nil {
-				win = fmt.Sprint(*op.WinChance)
-			}
-			rows = append(rows, []string{string(op.Dial), fmt.Sprint(op.BreakoutChance), fmt.Sprint(op.GiveawayS), win, fmt.Sprint(op.Recommended),
-				fmt.Sprint(op.Post), strings.Join(j.ChecksFailed, "; "), fmt.Sprint(j.PredictedET), fmt.Sprint(j.SD)})
-		}
-		return errors.Join(writeCSV(o.s.Out, rows), failedChecks(post.failed), leftOut)
-	}
+	return writeCSV(w, rows)
+}
+
+// writeText prints the estimate, the table of options with the dial to
+// post marked, the post line and the other lane's chances in words.
+func (o *dialOptions) writeText(b dialBasis, plan bracket.DialPlan, vs dialAgainst, j dialJSON) {
+	est, post := b.est, b.post
 	fmt.Fprintln(o.s.Out, prep.Wrap(fmt.Sprintf("Predicted ET %.3f s ± %.3f (one standard deviation): %s.", est.ET, est.SD, est.Basis), o.s.width(), "  "))
-	rests.write(o.s)
+	b.rests.write(o.s)
 	t := newTable(o.s, fmt.Sprintf("Dial-ins (step %s s, risk ≤ %.0f %%)", plan.Step, plan.Risk*100))
 	header := table.Row{"Dial", "Breakout chance", "Over dial (exp.)", ""}
-	if wins != nil {
+	if vs.wins != nil {
 		header = table.Row{"Dial", "Breakout chance", "Over dial (exp.)", "To win", ""}
 	}
 	t.AppendHeader(header)
@@ -333,32 +426,23 @@ func dialRun(cmd *cobra.Command, o *dialOptions) error {
 		}
 		t.AppendRow(append(row, mark))
 	}
-	configs := alignRight(1, len(header)-1)
-	render(o.s, t, o.Format, configs...)
+	render(o.s, t, o.Format, alignRight(1, len(header)-1)...)
 	post.write(o.s, j, plan)
-	if opp != nil {
-		fmt.Fprintln(o.s.Out, prep.Wrap(fmt.Sprintf("Against the other lane's %s: %s; the dial that wins most is %s (%.1f %% to win). Chances from %d races drawn per dial, good to ±0.5 points.",
-			prep.DialText(opp.Dial, plan.Step), prep.HeadStartWords(plan.Recommended, opp.Dial), j.BestForWin.Dial, 100*j.BestForWin.WinChance, bracket.WinDraws), o.s.width(), "  "))
-		if opp.From != "" { // a named car (--opponent): where its figures came from
-			fmt.Fprintln(o.s.Out, prep.Wrap("The other lane's figures: "+opp.From+".", o.s.width(), "  "))
-		}
-		best := bracket.BestForWin(wins)
-		if bo := bracket.BreakoutChance(est, best.Dial); bo > plan.Risk {
-			var rule bracket.WinOption
-			for _, w := range wins {
-				if w.Dial.Equal(plan.Recommended) {
-					rule = w
-				}
-			}
-			posted := "Posted stays your rule's unless post_dial: best-for-win."
-			if post.bestForWin {
-				posted = "Posted is the dial that wins most (post_dial: best-for-win)."
-			}
-			fmt.Fprintln(o.s.Out, prep.Wrap(fmt.Sprintf("The choice: %s breaks out %.1f %% of the time, more than the %.0f %% you accept; over %s it gains %.1f points of winning for %.1f points more breakout risk. %s",
-				j.BestForWin.Dial, 100*bo, 100*plan.Risk, j.Recommended, 100*(best.Win-rule.Win), 100*(bo-bracket.BreakoutChance(est, plan.Recommended)), posted), o.s.width(), "  "))
-		}
+	if vs.opp == nil {
+		return
 	}
-	return errors.Join(failedChecks(post.failed), leftOut)
+	fmt.Fprintln(o.s.Out, prep.Wrap(fmt.Sprintf("Against the other lane's %s: %s; the dial that wins most is %s (%.1f %% to win). Chances from %d races drawn per dial, good to ±0.5 points.",
+		prep.DialText(vs.opp.Dial, plan.Step), prep.HeadStartWords(plan.Recommended, vs.opp.Dial), j.BestForWin.Dial, 100*j.BestForWin.WinChance, bracket.WinDraws), o.s.width(), "  "))
+	if vs.opp.From != "" { // a named car (--opponent): where its figures came from
+		fmt.Fprintln(o.s.Out, prep.Wrap("The other lane's figures: "+vs.opp.From+".", o.s.width(), "  "))
+	}
+	if vs.trade != "" {
+		posted := "Posted stays your rule's unless post_dial: best-for-win."
+		if post.bestForWin {
+			posted = "Posted is the dial that wins most (post_dial: best-for-win)."
+		}
+		fmt.Fprintln(o.s.Out, prep.Wrap("The choice: "+vs.trade+". "+posted, o.s.width(), "  "))
+	}
 }
 
 // dialPost is the dial to post and the checks it must pass.
