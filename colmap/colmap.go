@@ -134,6 +134,7 @@ func Read(data []byte, name string, kind Kind) (*Map, error) {
 	m := &Map{File: name, Kind: kind, Fields: map[string]*Source{}, lines: doc.Lines}
 	var root yaml.Node
 	if err := yaml.Unmarshal(data, &root); err != nil {
+		// The YAML parser's words only: what to check for is the map's InputError.
 		return nil, m.errAt(0, "map", "", "is not YAML: "+strings.TrimPrefix(err.Error(), "yaml: "))
 	}
 	if len(root.Content) == 0 || root.Content[0].Kind != yaml.MappingNode {

@@ -50,6 +50,7 @@ func ParseSeconds(field, s string) (decimal.Decimal, error) {
 	}
 	d, err := decimal.NewFromString(t)
 	if err != nil {
+		// The decimal parser's words only: what to check for is the InputError.
 		return decimal.Decimal{}, &weather.InputError{Field: field, Value: s, Reason: "is not a time in seconds: " + err.Error()}
 	}
 	return d, nil

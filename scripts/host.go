@@ -698,6 +698,7 @@ func (s *sandbox) callWithin(f func() error, budget time.Duration) *Error {
 	go func() {
 		defer func() {
 			if p := recover(); p != nil {
+				// %v, not %w: p is a recovered panic value, not an error chain a caller could check.
 				done <- fmt.Errorf("the rule crashed the Lua host: %v", p)
 			}
 		}()
