@@ -32,8 +32,8 @@ import (
 type Kind string
 
 const (
-	Weather Kind = "weather"
-	Logbook Kind = "logbook"
+	Weather Kind = "weather" // a map for weather.csv
+	Logbook Kind = "logbook" // a map for logbook.csv
 )
 
 // value types of fields: what a unit may be and how a value is read.
@@ -344,6 +344,7 @@ type Layout struct {
 	Detected  bool // either was found in the file, not set in the map
 }
 
+// String says the layout in words, as a map's report prints it.
 func (l Layout) String() string {
 	sep := map[rune]string{',': "comma", ';': "semicolon", '\t': "tab"}[l.Separator]
 	dec := "decimal point"

@@ -133,6 +133,7 @@ type Session struct {
 	N    int // round or time-trial number; 0 for a test
 }
 
+// String is the session's short form: T1, E2 or test.
 func (s Session) String() string {
 	switch s.Kind {
 	case TimeTrial:

@@ -86,7 +86,7 @@ func (l Limits) clip(s string) string {
 	return s
 }
 
-// The functions a rule file may define.
+// Hooks are the functions a rule file may define.
 var Hooks = []string{"dial", "checks", "notes"}
 
 // Rule is one compiled rule file.
@@ -107,6 +107,7 @@ type Error struct {
 	timedOut bool
 }
 
+// Error names the rule file, the line when known, and what went wrong.
 func (e *Error) Error() string {
 	if e.Line > 0 {
 		return fmt.Sprintf("%s:%d: %s", e.File, e.Line, e.Msg)

@@ -17,6 +17,8 @@ type InputError struct {
 	Reason string // what is wrong and what is valid, e.g. "is outside -40..140 °F"
 }
 
+// Error says where (file and line, when known), the field, the value and
+// what would have been valid.
 func (e *InputError) Error() string {
 	where := ""
 	switch {

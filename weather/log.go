@@ -15,7 +15,8 @@ import (
 	"pitcard/internal/csvtext"
 )
 
-// The weather log is weather.csv: one reading per row, in the columns below.
+// LogColumns are the weather log's columns, in order. The weather log is
+// weather.csv: one reading per row, in the columns below.
 // Units are in the names. Imperial columns are written; the metric columns
 // are accepted on reading in their place.
 //
@@ -130,6 +131,7 @@ type BadReadings struct {
 	Good int // the readings that were read
 }
 
+// Error lists the rows left out of the weather log.
 func (b *BadReadings) Error() string {
 	var s strings.Builder
 	fmt.Fprintf(&s, "%s: %d row(s) cannot be read, left out (the other %d readings are used):", b.File, len(b.Rows), b.Good)
