@@ -21,7 +21,7 @@ func chicago(t testing.TB) *time.Location {
 // past midnight).
 func TestRaceDay(t *testing.T) {
 	loc := chicago(t)
-	at := func(y int, m time.Month, d, h, min int) time.Time { return time.Date(y, m, d, h, min, 0, 0, loc) }
+	at := func(y int, m time.Month, d, h, minute int) time.Time { return time.Date(y, m, d, h, minute, 0, 0, loc) }
 	cases := []struct {
 		name  string
 		start DayStart
