@@ -1,6 +1,7 @@
 package bracket
 
 import (
+	"fmt"
 	"math"
 	"testing"
 
@@ -57,16 +58,18 @@ func TestSettle(t *testing.T) {
 			run("10.50", ".030", "10.49"), run("10.50", ".040", "10.49"), green, logbook.Left, ReasonDoubleBreakout, "0.010"},
 	}
 	for _, tc := range cases {
-		o, err := Settle(tc.left, tc.right, tc.rules)
-		if err != nil {
-			t.Fatalf("%s: %v", tc.name, err)
-		}
-		if o.Winner != tc.winner || o.Reason != tc.reason {
-			t.Errorf("%s: winner %q (%s: %s), want %q (%s)", tc.name, o.Winner, o.Reason, o.Explanation, tc.winner, tc.reason)
-		}
-		if tc.margin != "" && !o.MarginS.Equal(d(tc.margin)) {
-			t.Errorf("%s: margin %s s, want %s", tc.name, o.MarginS, tc.margin)
-		}
+		t.Run(tc.name, func(t *testing.T) {
+			o, err := Settle(tc.left, tc.right, tc.rules)
+			if err != nil {
+				t.Fatalf("%s: %v", tc.name, err)
+			}
+			if o.Winner != tc.winner || o.Reason != tc.reason {
+				t.Errorf("%s: winner %q (%s: %s), want %q (%s)", tc.name, o.Winner, o.Reason, o.Explanation, tc.winner, tc.reason)
+			}
+			if tc.margin != "" && !o.MarginS.Equal(d(tc.margin)) {
+				t.Errorf("%s: margin %s s, want %s", tc.name, o.MarginS, tc.margin)
+			}
+		})
 	}
 }
 
@@ -209,12 +212,14 @@ func TestTreeDelay(t *testing.T) {
 		tree    Tree
 		perfect string
 	}{{ProTree, ".400"}, {FullTree, ".500"}, {"", ".500"}} {
-		o, err := Settle(run("12.00", tc.perfect, "12.05"), run("12.00", tc.perfect, "12.06"), RaceRules{Tree: tc.tree, RTZero: FromAmber})
-		if err != nil {
-			t.Fatal(err)
-		}
-		if !o.Left.Reaction.IsZero() || o.Left.RedLight || o.Winner != logbook.Left || o.Reason != ReasonFirstToFinish || !o.Left.Finish.Equal(d("12.05")) {
-			t.Errorf("tree %q, light %s: reaction %s, red %v, %s %s, finish %s", tc.tree, tc.perfect, o.Left.Reaction, o.Left.RedLight, o.Winner, o.Reason, o.Left.Finish)
-		}
+		t.Run(fmt.Sprintf("tree %q", tc.tree), func(t *testing.T) {
+			o, err := Settle(run("12.00", tc.perfect, "12.05"), run("12.00", tc.perfect, "12.06"), RaceRules{Tree: tc.tree, RTZero: FromAmber})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if !o.Left.Reaction.IsZero() || o.Left.RedLight || o.Winner != logbook.Left || o.Reason != ReasonFirstToFinish || !o.Left.Finish.Equal(d("12.05")) {
+				t.Errorf("tree %q, light %s: reaction %s, red %v, %s %s, finish %s", tc.tree, tc.perfect, o.Left.Reaction, o.Left.RedLight, o.Winner, o.Reason, o.Left.Finish)
+			}
+		})
 	}
 }

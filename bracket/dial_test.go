@@ -1,6 +1,7 @@
 package bracket
 
 import (
+	"fmt"
 	"math"
 	"testing"
 	"time"
@@ -21,9 +22,11 @@ func TestBreakoutChanceAndGiveaway(t *testing.T) {
 		p    float64
 	}{{"11.500", 0.5}, {"11.470", 0.1587}, {"11.530", 0.8413}, {"11.440", 0.0228}}
 	for _, tc := range cases {
-		if got := BreakoutChance(est, d(tc.dial)); math.Abs(got-tc.p) > 0.0001 {
-			t.Errorf("dial %s: breakout chance %.4f, table %.4f", tc.dial, got, tc.p)
-		}
+		t.Run(fmt.Sprintf("dial %s", tc.dial), func(t *testing.T) {
+			if got := BreakoutChance(est, d(tc.dial)); math.Abs(got-tc.p) > 0.0001 {
+				t.Errorf("dial %s: breakout chance %.4f, table %.4f", tc.dial, got, tc.p)
+			}
+		})
 	}
 	if g := Giveaway(est, d("11.500")); math.Abs(g-0.030/math.Sqrt(2*math.Pi)) > 1e-12 {
 		t.Errorf("giveaway at the mean %.6f", g)
@@ -78,9 +81,11 @@ func TestRoundToStep(t *testing.T) {
 		{"11.46", "0.05", "11.45"},
 	}
 	for _, tc := range cases {
-		if got := RoundToStep(d(tc.in), d(tc.step)); !got.Equal(d(tc.want)) {
-			t.Errorf("RoundToStep(%s, %s) = %s, want %s", tc.in, tc.step, got, tc.want)
-		}
+		t.Run(fmt.Sprintf("%s to %s", tc.in, tc.step), func(t *testing.T) {
+			if got := RoundToStep(d(tc.in), d(tc.step)); !got.Equal(d(tc.want)) {
+				t.Errorf("RoundToStep(%s, %s) = %s, want %s", tc.in, tc.step, got, tc.want)
+			}
+		})
 	}
 	if got := RoundDownToStep(10.12, d("0.01")); got.String() != "10.12" {
 		t.Errorf("RoundDownToStep(10.12) = %s", got)

@@ -1,6 +1,7 @@
 package bracket
 
 import (
+	"fmt"
 	"math"
 	"math/rand/v2"
 	"sync"
@@ -51,18 +52,20 @@ func TestWinChanceLimits(t *testing.T) {
 		{11.52, 0.010, 0.040, 0.040, "11.50"}, // we win on the package
 		{11.52, -0.010, 0.040, 0.040, "11.50"},
 	} {
-		in := WinInput{Us: Estimate{ET: c.ourET, SD: tiny}, UsRT: RTModel{Mean: c.ourRT, SD: tiny},
-			Opp: Opponent{Dial: decimal.RequireFromString("11.60"), Margin: c.oppMargin, MarginSD: tiny, RT: RTModel{Mean: c.oppRT, SD: tiny}}, Draws: 500, Seed: 3}
-		got := WinChances(in, []decimal.Decimal{decimal.RequireFromString(c.dial)})[0].Win
-		o, err := Settle(LaneRun{Dial: decimal.RequireFromString(c.dial), RT: decimal.NewFromFloat(c.ourRT), ET: decimal.NewFromFloat(c.ourET)},
-			LaneRun{Dial: decimal.RequireFromString("11.60"), RT: decimal.NewFromFloat(c.oppRT), ET: decimal.NewFromFloat(11.60 + c.oppMargin)}, RaceRules{})
-		if err != nil {
-			t.Fatal(err)
-		}
-		want := map[logbook.Lane]float64{logbook.Left: 1, logbook.Right: 0, "": 0.5}[o.Winner]
-		if got != want {
-			t.Errorf("%+v: win %.3f, Settle says %s (%s)", c, got, o.Winner, o.Explanation)
-		}
+		t.Run(fmt.Sprintf("ET %.2f RT %.3f on %s", c.ourET, c.ourRT, c.dial), func(t *testing.T) {
+			in := WinInput{Us: Estimate{ET: c.ourET, SD: tiny}, UsRT: RTModel{Mean: c.ourRT, SD: tiny},
+				Opp: Opponent{Dial: decimal.RequireFromString("11.60"), Margin: c.oppMargin, MarginSD: tiny, RT: RTModel{Mean: c.oppRT, SD: tiny}}, Draws: 500, Seed: 3}
+			got := WinChances(in, []decimal.Decimal{decimal.RequireFromString(c.dial)})[0].Win
+			o, err := Settle(LaneRun{Dial: decimal.RequireFromString(c.dial), RT: decimal.NewFromFloat(c.ourRT), ET: decimal.NewFromFloat(c.ourET)},
+				LaneRun{Dial: decimal.RequireFromString("11.60"), RT: decimal.NewFromFloat(c.oppRT), ET: decimal.NewFromFloat(11.60 + c.oppMargin)}, RaceRules{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			want := map[logbook.Lane]float64{logbook.Left: 1, logbook.Right: 0, "": 0.5}[o.Winner]
+			if got != want {
+				t.Errorf("%+v: win %.3f, Settle says %s (%s)", c, got, o.Winner, o.Explanation)
+			}
+		})
 	}
 }
 
@@ -95,46 +98,48 @@ func TestWinChanceAgreesWithSettle(t *testing.T) {
 			Opp: Opponent{Dial: decimal.RequireFromString("9.80"), Margin: 0.005, MarginSD: 0.01, RT: RTModel{Mean: 0.02, SD: 0.01}}},
 	}
 	for ci, in := range cases {
-		dial := decimal.NewFromFloat(in.Us.ET - 0.02).Round(2)
-		in.Seed = uint64(10 + ci)
-		got := WinChances(in, []decimal.Decimal{dial})[0].Win
-		var wins float64
-		var mu sync.Mutex
-		var wg sync.WaitGroup
-		for g := range 4 {
-			wg.Add(1)
-			go func() {
-				defer wg.Done()
-				r := rand.New(rand.NewPCG(uint64(99+g), uint64(ci)))
-				var w float64
-				for range n / 4 {
-					sec := func(v float64) decimal.Decimal { return decimal.NewFromFloat(v).Round(3) }
-					us := LaneRun{Dial: dial, RT: sec(rtDraw(in.UsRT, r)), ET: sec(in.Us.ET + in.Us.SD*r.NormFloat64())}
-					op := LaneRun{Dial: in.Opp.Dial, RT: sec(rtDraw(in.Opp.RT, r)), ET: sec(in.Opp.Dial.InexactFloat64() + in.Opp.Margin + in.Opp.MarginSD*r.NormFloat64())}
-					o, err := Settle(us, op, RaceRules{})
-					if err != nil {
-						continue
+		t.Run(fmt.Sprintf("ET %.2f against %s", in.Us.ET, in.Opp.Dial), func(t *testing.T) {
+			dial := decimal.NewFromFloat(in.Us.ET - 0.02).Round(2)
+			in.Seed = uint64(10 + ci)
+			got := WinChances(in, []decimal.Decimal{dial})[0].Win
+			var wins float64
+			var mu sync.Mutex
+			var wg sync.WaitGroup
+			for g := range 4 {
+				wg.Add(1)
+				go func() {
+					defer wg.Done()
+					r := rand.New(rand.NewPCG(uint64(99+g), uint64(ci)))
+					var w float64
+					for range n / 4 {
+						sec := func(v float64) decimal.Decimal { return decimal.NewFromFloat(v).Round(3) }
+						us := LaneRun{Dial: dial, RT: sec(rtDraw(in.UsRT, r)), ET: sec(in.Us.ET + in.Us.SD*r.NormFloat64())}
+						op := LaneRun{Dial: in.Opp.Dial, RT: sec(rtDraw(in.Opp.RT, r)), ET: sec(in.Opp.Dial.InexactFloat64() + in.Opp.Margin + in.Opp.MarginSD*r.NormFloat64())}
+						o, err := Settle(us, op, RaceRules{})
+						if err != nil {
+							continue
+						}
+						switch o.Winner {
+						case logbook.Left:
+							w++
+						case "":
+							w += 0.5
+						}
 					}
-					switch o.Winner {
-					case logbook.Left:
-						w++
-					case "":
-						w += 0.5
-					}
-				}
-				mu.Lock()
-				wins += w
-				mu.Unlock()
-			}()
-		}
-		wg.Wait()
-		mc := wins / float64(n)
-		if math.Abs(got-mc) > tol {
-			t.Errorf("case %d: WinChances %.4f, Monte Carlo with Settle %.4f (%d races; want within %.3f)", ci, got, mc, n, tol)
-		}
-		if testing.Verbose() {
-			t.Logf("case %d: WinChances %.4f, Monte Carlo %.4f (%d races)", ci, got, mc, n)
-		}
+					mu.Lock()
+					wins += w
+					mu.Unlock()
+				}()
+			}
+			wg.Wait()
+			mc := wins / float64(n)
+			if math.Abs(got-mc) > tol {
+				t.Errorf("case %d: WinChances %.4f, Monte Carlo with Settle %.4f (%d races; want within %.3f)", ci, got, mc, n, tol)
+			}
+			if testing.Verbose() {
+				t.Logf("case %d: WinChances %.4f, Monte Carlo %.4f (%d races)", ci, got, mc, n)
+			}
+		})
 	}
 }
 

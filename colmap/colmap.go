@@ -33,8 +33,8 @@ import (
 type Kind string
 
 const (
-	Weather Kind = "weather"
-	Logbook Kind = "logbook"
+	Weather Kind = "weather" // a map for weather.csv
+	Logbook Kind = "logbook" // a map for logbook.csv
 )
 
 // value types of fields: what a unit may be and how a value is read.
@@ -139,6 +139,7 @@ func Read(data []byte, name string, kind Kind) (*Map, error) {
 	m := &Map{File: name, Kind: kind, Fields: map[string]*Source{}, lines: doc.Lines}
 	var root yaml.Node
 	if err := yaml.Unmarshal(data, &root); err != nil {
+		// The YAML parser's words only: what to check for is the map's InputError.
 		return nil, m.errAt(0, "map", "", "is not YAML: "+strings.TrimPrefix(err.Error(), "yaml: "))
 	}
 	if len(root.Content) == 0 || root.Content[0].Kind != yaml.MappingNode {
@@ -348,6 +349,7 @@ type Layout struct {
 	Detected  bool // either was found in the file, not set in the map
 }
 
+// String says the layout in words, as a map's report prints it.
 func (l Layout) String() string {
 	sep := map[rune]string{',': "comma", ';': "semicolon", '\t': "tab"}[l.Separator]
 	dec := "decimal point"

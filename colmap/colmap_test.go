@@ -3,6 +3,7 @@ package colmap
 import (
 	"bytes"
 	"errors"
+	"fmt"
 	"os"
 	"path/filepath"
 	"strings"
@@ -167,23 +168,25 @@ func TestMapErrorsNameTheMapAndLine(t *testing.T) {
 		{"not a layout", "time: {column: Stamp, format: \"dd.mm.yyyy\"}\n", []string{"m.yaml line 1", "time.format", "is not a Go time layout"}},
 		{"a bad barometer kind", "baro: {column: B, kind: gauge}\n", []string{"m.yaml line 1", "baro.kind", "station or altimeter"}},
 	} {
-		m, err := Read([]byte(c.mapText), "m.yaml", Weather)
-		if err == nil {
-			_, err = m.Translate(meter, "meter.csv")
-		}
-		if err == nil {
-			t.Errorf("%s: accepted", c.name)
-			continue
-		}
-		var ie *weather.InputError
-		if !errors.As(err, &ie) {
-			t.Errorf("%s: not an input error: %v", c.name, err)
-		}
-		for _, w := range c.want {
-			if !strings.Contains(err.Error(), w) {
-				t.Errorf("%s: %q lacks %q", c.name, err, w)
+		t.Run(c.name, func(t *testing.T) {
+			m, err := Read([]byte(c.mapText), "m.yaml", Weather)
+			if err == nil {
+				_, err = m.Translate(meter, "meter.csv")
 			}
-		}
+			if err == nil {
+				t.Errorf("%s: accepted", c.name)
+				return
+			}
+			var ie *weather.InputError
+			if !errors.As(err, &ie) {
+				t.Errorf("%s: not an input error: %v", c.name, err)
+			}
+			for _, w := range c.want {
+				if !strings.Contains(err.Error(), w) {
+					t.Errorf("%s: %q lacks %q", c.name, err, w)
+				}
+			}
+		})
 	}
 }
 
@@ -218,10 +221,12 @@ func TestSniff(t *testing.T) {
 		{"\xef\xbb\xbfa;b\r\n12,75;x\r\n", ';', ','},
 		{"name;notes\nx;\"a, b\"\n", ';', '.'},
 	} {
-		l := Sniff([]byte(c.data))
-		if l.Separator != c.sep || l.Decimal != c.dec {
-			t.Errorf("%q: %q %q, want %q %q", c.data, l.Separator, l.Decimal, c.sep, c.dec)
-		}
+		t.Run(fmt.Sprintf("separator %q, decimal %q", c.sep, c.dec), func(t *testing.T) {
+			l := Sniff([]byte(c.data))
+			if l.Separator != c.sep || l.Decimal != c.dec {
+				t.Errorf("%q: %q %q, want %q %q", c.data, l.Separator, l.Decimal, c.sep, c.dec)
+			}
+		})
 	}
 }
 
@@ -232,10 +237,12 @@ func TestGuessReadsUnitsFromHeaders(t *testing.T) {
 		"humidity": {Column: "RH (%)"}, "wind": {Column: "Wind (km/h)", Unit: "km/h"}, "wind_from": {Column: "Dir"}, "track_temp": {Column: "Surface (C)", Unit: "C"},
 	}
 	for f, w := range want {
-		got := m.Fields[f]
-		if got == nil || got.Column != w.Column || got.Unit != w.Unit || got.Format != w.Format {
-			t.Errorf("%s: %+v, want %+v", f, got, w)
-		}
+		t.Run(f, func(t *testing.T) {
+			got := m.Fields[f]
+			if got == nil || got.Column != w.Column || got.Unit != w.Unit || got.Format != w.Format {
+				t.Errorf("%s: %+v, want %+v", f, got, w)
+			}
+		})
 	}
 	if len(m.Skip) != 1 || m.Skip[0] != "Batt" || len(notes) != 1 {
 		t.Errorf("skip %v, notes %v", m.Skip, notes)
@@ -260,9 +267,11 @@ func TestGuessReadsUnitsFromHeaders(t *testing.T) {
 	}
 	sheet, _ := Guess([]byte("Date,Time,Run,Lane,Dial,R/T,60',1/8,1/8 mph,1/4,1/4 mph\n06/13/2026,19:23,E1,left,11.45,.021,1.61,7.3,94,11.44,117\n"), "s.csv", Logbook, nil)
 	for f, col := range map[string]string{"session": "Run", "rt": "R/T", "et60": "60'", "et660": "1/8", "mph660": "1/8 mph", "et1320": "1/4", "mph1320": "1/4 mph"} {
-		if s := sheet.Fields[f]; s == nil || s.Column != col {
-			t.Errorf("%s: %+v, want column %q", f, s, col)
-		}
+		t.Run(f, func(t *testing.T) {
+			if s := sheet.Fields[f]; s == nil || s.Column != col {
+				t.Errorf("%s: %+v, want column %q", f, s, col)
+			}
+		})
 	}
 	if s := sheet.Fields["date"]; s == nil || s.Format != "01/02/2006" {
 		t.Errorf("date: %+v", s)
@@ -334,15 +343,17 @@ func TestBOMCRLFAndTabs(t *testing.T) {
 		"commas":          "When,T,P,RH\n2026-06-13 14:00,34.4,932.1,21\n",
 		"semicolons":      "When;T;P;RH\n2026-06-13 14:00;34.4;932.1;21\n",
 	} {
-		tr, err := m.Translate([]byte(data), "x.csv")
-		if err != nil {
-			t.Errorf("%s: %v", name, err)
-			continue
-		}
-		log, err := weather.ReadLog(bytes.NewReader(tr.CSV), "x.csv", weather.Feet(2240), time.Local)
-		if err != nil || len(log) != 1 || log[0].Temp.Fahrenheit() < 93.91 || log[0].Temp.Fahrenheit() > 93.93 {
-			t.Errorf("%s: %v %+v", name, err, log)
-		}
+		t.Run(name, func(t *testing.T) {
+			tr, err := m.Translate([]byte(data), "x.csv")
+			if err != nil {
+				t.Errorf("%s: %v", name, err)
+				return
+			}
+			log, err := weather.ReadLog(bytes.NewReader(tr.CSV), "x.csv", weather.Feet(2240), time.Local)
+			if err != nil || len(log) != 1 || log[0].Temp.Fahrenheit() < 93.91 || log[0].Temp.Fahrenheit() > 93.93 {
+				t.Errorf("%s: %v %+v", name, err, log)
+			}
+		})
 	}
 }
 

@@ -63,12 +63,12 @@ type residualFit struct {
 }
 
 // Mean is the correction the structure gives the predicted pass.
-func (r residualFit) Mean() float64 { return r.Base + r.Today + r.Slope*r.Hours }
+func (rf residualFit) Mean() float64 { return rf.Base + rf.Today + rf.Slope*rf.Hours }
 
 // Var is the variance of the predicted pass around the model plus Mean:
 // its own scatter and what is not known of the base, today and the slope.
-func (r residualFit) Var() float64 {
-	return r.Sigma2 + r.BaseVar + r.TodayVar + r.Hours*r.Hours*r.SlopeVar
+func (rf residualFit) Var() float64 {
+	return rf.Sigma2 + rf.BaseVar + rf.TodayVar + rf.Hours*rf.Hours*rf.SlopeVar
 }
 
 // fitResiduals fits the structure of what the calibrated physics gets wrong
@@ -316,8 +316,8 @@ func betweenDays(days []dayLevel, sigma2 float64, pri residualPriors) float64 {
 // days' levels weighted by their precision 1/(τ² + σ²/n), halving every
 // DayHalfLife race days and every BaseHalfLifeDays of calendar back. It
 // returns each day's weight (they add to 1).
-func (out *residualFit) setBase(days []dayLevel, now time.Time) []float64 {
-	tau2, sigma2 := out.Tau2, out.Sigma2
+func (rf *residualFit) setBase(days []dayLevel, now time.Time) []float64 {
+	tau2, sigma2 := rf.Tau2, rf.Sigma2
 	dayW := make([]float64, len(days))
 	var sw, base, bvar float64
 	for r, d := range days {
@@ -334,7 +334,7 @@ func (out *residualFit) setBase(days []dayLevel, now time.Time) []float64 {
 	} else {
 		bvar = tau2 + sigma2
 	}
-	out.Base, out.BaseVar = base, bvar
+	rf.Base, rf.BaseVar = base, bvar
 	return dayW
 }
 
@@ -342,18 +342,18 @@ func (out *residualFit) setBase(days []dayLevel, now time.Time) []float64 {
 // the base by k = n·τ²/(n·τ² + σ²) (n: today's passes' worth), with its
 // variance τ²σ²/(n·τ² + σ²); with no pass today, none and the whole τ². The
 // base's own uncertainty is shrunk away by (1 − k)². It returns k.
-func (out *residualFit) setToday(today *dayLevel) float64 {
-	tau2, sigma2 := out.Tau2, out.Sigma2
+func (rf *residualFit) setToday(today *dayLevel) float64 {
+	tau2, sigma2 := rf.Tau2, rf.Sigma2
 	if today == nil {
-		out.TodayVar = tau2
+		rf.TodayVar = tau2
 		return 0
 	}
 	n := today.nEff
 	k := n * tau2 / (n*tau2 + sigma2)
-	out.Today = k * (today.level - out.Base)
-	out.TodayVar = tau2 * sigma2 / (n*tau2 + sigma2)
-	out.TodayN = today.n
-	out.BaseVar *= sq(1 - k)
+	rf.Today = k * (today.level - rf.Base)
+	rf.TodayVar = tau2 * sigma2 / (n*tau2 + sigma2)
+	rf.TodayN = today.n
+	rf.BaseVar *= sq(1 - k)
 	return k
 }
 

@@ -239,6 +239,7 @@ type LeftOutRows struct {
 	read int // the good rows
 }
 
+// Error lists the rows left out (the first ten) and how to fix them.
 func (l *LeftOutRows) Error() string {
 	var b strings.Builder
 	fmt.Fprintf(&b, "%s: %s left out (the other %s are used):", l.file, text.Plural(len(l.rows), "row"), text.Plural(l.read, "pass"))
@@ -256,6 +257,7 @@ func (l *LeftOutRows) Error() string {
 	return b.String()
 }
 
+// BadInput marks the rows as the crew's to fix.
 func (l *LeftOutRows) BadInput() bool { return true }
 
 // OnlyLeftOut reports whether err is nothing worse than rows left out.
@@ -335,17 +337,20 @@ func (e *Folder) ClockFor(sched prep.Schedule, haveSched bool, log []weather.Rea
 		e.Name(ScheduleFile), sched.Date.Format("2006-01-02"), start.Key(now))}
 }
 
-// SameMinute: the weather log already has a reading in that minute.
+// SameMinute is the error of a reading the weather log already has one in
+// the minute of.
 type SameMinute struct {
 	file string
 	Old  weather.Reading
 }
 
+// Error names the file and the minute, and the two ways out.
 func (s *SameMinute) Error() string {
 	return fmt.Sprintf("%s already has a reading at %s: give another --time, or --replace to put this one in its place",
 		s.file, s.Old.Time.Format("2006-01-02 15:04"))
 }
 
+// BadInput marks the error as the crew's to fix.
 func (s *SameMinute) BadInput() bool { return true }
 
 // AppendReading adds a reading to the weather log under its lock, and
@@ -392,7 +397,7 @@ func (e *Folder) ReadableWeather(elev weather.Length) ([]weather.Reading, *weath
 	return log, nil, err
 }
 
-// weatherLog reads the folder's weather.csv (none yet: an empty log).
+// WeatherLog reads the folder's weather.csv (none yet: an empty log).
 func (e *Folder) WeatherLog(elev weather.Length) ([]weather.Reading, error) {
 	data, err := fs.ReadFile(e.FS, WeatherFile)
 	if errors.Is(err, fs.ErrNotExist) {

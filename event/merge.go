@@ -97,7 +97,7 @@ func OwnLayout(data []byte, kind colmap.Kind) bool {
 	return err == nil
 }
 
-// SourcePasses reads a source file's passes: every row checked; bad rows
+// Passes reads a source file's passes: every row checked; bad rows
 // come back in the logbook's Bad, at the file's own lines.
 func (s Source) Passes() (*logbook.Logbook, error) {
 	data, tr, err := s.read()
@@ -151,6 +151,7 @@ type Conflicts struct {
 	Ours, TheirsIn string // the two files
 }
 
+// Error names the two files and lists the entries they disagree on.
 func (c *Conflicts) Error() string {
 	return fmt.Sprintf("%s and %s disagree on %s (nothing was written; fix one copy, or leave the entry out of the import):\n%s",
 		c.Ours, c.TheirsIn, text.Plural(len(c.List), "entry"), c.Entries())
@@ -172,6 +173,7 @@ func (c *Conflicts) Entries() string {
 	return b.String()
 }
 
+// BadInput marks the conflicts as the crew's to settle.
 func (c *Conflicts) BadInput() bool { return true }
 
 // PassMerge is what another copy's passes hold against ours.

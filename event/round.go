@@ -68,13 +68,14 @@ func IsBadInput(err error) bool {
 	return errors.As(err, &b) && b.BadInput()
 }
 
-// given reports whether any reading flag was set.
+// Given reports whether any reading field (flag or form field) was set.
 func (f *ReadingFields) Given() bool {
 	return f.Temp != "" || f.Baro != "" || f.BaroKind != "" || f.Humidity != "" || f.DewPoint != "" ||
 		f.Wind != "" || f.WindFrom != "" || f.TrackTemp != ""
 }
 
-// elevation is --elevation, or the track's.
+// SiteElevation is the elevation the fields give (--elevation), or else the
+// track's when haveTrack; neither is an error naming --elevation.
 func (f *ReadingFields) SiteElevation(u weather.Units, track weather.Length, haveTrack bool) (weather.Length, error) {
 	if f.Elevation == "" {
 		if !haveTrack {
@@ -86,7 +87,7 @@ func (f *ReadingFields) SiteElevation(u weather.Units, track weather.Length, hav
 	return h, FlagErr(err, "--elevation")
 }
 
-// reading builds a reading from the flags at time now. With base (the latest
+// ReadingAt builds a reading from the fields at time now. With base (the latest
 // logged reading, say) the flags given replace its fields; without it temp,
 // baro and humidity (or dew point) are required.
 func (f *ReadingFields) ReadingAt(u weather.Units, now time.Time, base *weather.Reading) (weather.Reading, error) {
@@ -211,10 +212,14 @@ func rangedErr(err error, field string, u weather.Units) error {
 // instead says so beside it.
 type MissingField struct{ What string }
 
-func (m *MissingField) Error() string  { return m.What + " is required" }
+// Error says which field is required.
+func (m *MissingField) Error() string { return m.What + " is required" }
+
+// BadInput marks the error as the crew's to fix.
 func (m *MissingField) BadInput() bool { return true }
 
-// flagErr names the flag in an InputError from a parser.
+// FlagErr names the flag in an InputError from a parser; any other error
+// (and nil) passes unchanged.
 func FlagErr(err error, flag string) error {
 	var ie *weather.InputError
 	if errors.As(err, &ie) {
@@ -234,7 +239,8 @@ func ValidateFields(r weather.Reading, h weather.Length, u weather.Units) error 
 	return err
 }
 
-// prepLevel is --prep, or the track's usual prep.
+// PrepLevel is the prep level the --prep flag gives, or else the track's
+// usual prep from track.yaml.
 func PrepLevel(flag string, trk engine.Track) (float64, error) {
 	if flag != "" {
 		p, err := engine.ParsePrep(flag)
@@ -262,7 +268,7 @@ func ParseWhen(s string, day time.Time, start weather.DayStart) (time.Time, erro
 	return t, FlagErr(err, "--time")
 }
 
-// seconds reads a flag's time in seconds within lo..hi.
+// Seconds reads the time v given for flag, in seconds within lo..hi.
 func Seconds(flag, v string, lo, hi float64) (float64, error) {
 	x, err := strconv.ParseFloat(strings.TrimSpace(v), 64)
 	if err != nil || !(x >= lo && x <= hi) {
@@ -378,7 +384,7 @@ func (o *OpponentFields) Build(s Settings, dial decimal.NullDecimal, passes []lo
 	return opp, us, nil
 }
 
-// roundInput gathers everything a round's card is made from. Problems that
+// GatherRound gathers everything a round's card is made from. Problems that
 // leave part of the card blank (no weather log, a forecast too far ahead)
 // come back as warnings, not errors: the card still prints what it can.
 func (e *Folder) GatherRound(r RoundRequest, now time.Time) (prep.Input, []string, error) {
@@ -650,6 +656,7 @@ func (e *Folder) GatherRound(r RoundRequest, now time.Time) (prep.Input, []strin
 // usable, and the errors are reported after the card.
 type BrokenInput struct{ errs []error }
 
+// Error lists the errors, one a line.
 func (b BrokenInput) Error() string {
 	msgs := make([]string, len(b.errs))
 	for i, e := range b.errs {
@@ -658,14 +665,22 @@ func (b BrokenInput) Error() string {
 	return strings.Join(msgs, "\n")
 }
 
+// BadInput marks the errors as the crew's to fix.
 func (b BrokenInput) BadInput() bool { return true }
 
-// usable reports whether roundInput's error still left an input to gather.
+// Unwrap gives the errors collected, so errors.Is and errors.As reach each
+// of them (an InputError among them, say).
+func (b BrokenInput) Unwrap() []error { return b.errs }
+
+// Usable reports whether GatherRound's error err still left an input to
+// print a card from: none, or a BrokenInput.
 func Usable(err error) bool {
 	var b BrokenInput
 	return err == nil || errors.As(err, &b)
 }
 
+// RangeErr is an InputError for field when the seconds d lie outside r,
+// and nil when they lie within it.
 func RangeErr(field string, d decimal.Decimal, r [2]float64) error {
 	if f := d.InexactFloat64(); f < r[0] || f > r[1] {
 		return &weather.InputError{Field: field, Value: d.String(), Reason: fmt.Sprintf("is outside %g..%g s", r[0], r[1])}

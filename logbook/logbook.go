@@ -102,6 +102,7 @@ var (
 // RowErrors is every bad row of a file, so a crew can fix them all at once.
 type RowErrors []*weather.InputError
 
+// Error lists the bad rows, one a line.
 func (e RowErrors) Error() string {
 	var b strings.Builder
 	for i, x := range e {

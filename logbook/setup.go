@@ -2,6 +2,7 @@ package logbook
 
 import (
 	"encoding/csv"
+	"errors"
 	"fmt"
 	"io"
 	"math"
@@ -250,7 +251,13 @@ func checkSetup(cols []setupColumn, rec []string) *weather.InputError {
 	for _, c := range cols {
 		cell, err := c.item.Check(c.item.Name, rec[c.index])
 		if err != nil {
-			return err.(*weather.InputError)
+			var ie *weather.InputError
+			if errors.As(err, &ie) {
+				return ie
+			}
+			// Check gives only InputErrors; another kind is still the cell's fault
+			// (its words only: what to check for is the InputError).
+			return &weather.InputError{Field: c.item.Name, Value: rec[c.index], Reason: "is not valid: " + err.Error()}
 		}
 		rec[c.index] = cell
 	}

@@ -50,6 +50,7 @@ func ParseSeconds(field, s string) (decimal.Decimal, error) {
 	}
 	d, err := decimal.NewFromString(t)
 	if err != nil {
+		// The decimal parser's words only: what to check for is the InputError.
 		return decimal.Decimal{}, &weather.InputError{Field: field, Value: s, Reason: "is not a time in seconds: " + err.Error()}
 	}
 	return d, nil
@@ -132,6 +133,7 @@ type Session struct {
 	N    int // round or time-trial number; 0 for a test
 }
 
+// String is the session's short form: T1, E2 or test.
 func (s Session) String() string {
 	switch s.Kind {
 	case TimeTrial:

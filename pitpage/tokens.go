@@ -35,6 +35,7 @@ const (
 	Crew               // reads, and writes readings, slips, the checklist and the other lane's dial
 )
 
+// String is the role's name.
 func (r Role) String() string {
 	switch r {
 	case Crew:

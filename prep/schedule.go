@@ -1,6 +1,7 @@
 package prep
 
 import (
+	"errors"
 	"fmt"
 	"io"
 	"strings"
@@ -67,21 +68,32 @@ func ReadSchedule(r io.Reader, name string, loc *time.Location, start weather.Da
 		where := fmt.Sprintf("sessions[%d].", i)
 		ses, err := logbook.ParseSession(x.Session)
 		if err != nil {
-			return s, err.(*weather.InputError).Named(where+"session").At(name, doc.Line(where+"session"))
+			return s, located(err, where+"session", name, doc.Line(where+"session"))
 		}
 		call, err := start.Clock(x.Call, d, loc)
 		if err != nil {
-			return s, err.(*weather.InputError).Named(where+"call").At(name, doc.Line(where+"call"))
+			return s, located(err, where+"call", name, doc.Line(where+"call"))
 		}
 		slot := Slot{Session: ses, Call: call}
 		if x.Lane != "" {
 			if slot.Lane, err = logbook.ParseLane(x.Lane); err != nil {
-				return s, err.(*weather.InputError).Named(where+"lane").At(name, doc.Line(where+"lane"))
+				return s, located(err, where+"lane", name, doc.Line(where+"lane"))
 			}
 		}
 		s.Sessions = append(s.Sessions, slot)
 	}
 	return s, nil
+}
+
+// located names field in err, when it is (or wraps) a *weather.InputError,
+// and places it at file and line; any other error passes unchanged rather
+// than panicking.
+func located(err error, field, file string, line int) error {
+	var ie *weather.InputError
+	if errors.As(err, &ie) {
+		return ie.Named(field).At(file, line)
+	}
+	return err
 }
 
 // Find is the slot of a session, and whether the schedule has it.

@@ -179,10 +179,11 @@ func writeTable(b *strings.Builder, t table, color bool, width int) {
 	b.WriteString(FitRender(tw, width, nil) + "\n")
 }
 
-// wrap breaks s into lines of at most width, continuing with indent.
-// Wrap is wrap for the command line's prose.
+// Wrap breaks s into lines of at most width, continuing with indent: the
+// card's wrapping, for the command line's prose.
 func Wrap(s string, width int, indent string) string { return wrap(s, width, indent) }
 
+// wrap breaks s into lines of at most width, continuing with indent.
 func wrap(s string, width int, indent string) string {
 	if strings.Contains(s, "\n") { // each line of a message wrapped on its own
 		parts := strings.Split(s, "\n")

@@ -459,6 +459,7 @@ func crossLimit(s Settings) float64 {
 	return engine.DefaultCrossCheckMax
 }
 
+// TimerName names a timer by its distance in feet ("60 ft", "1/8 mile").
 func TimerName(ft float64) string {
 	switch ft {
 	case 660:

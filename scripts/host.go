@@ -86,7 +86,7 @@ func (l Limits) clip(s string) string {
 	return s
 }
 
-// The functions a rule file may define.
+// Hooks are the functions a rule file may define.
 var Hooks = []string{"dial", "checks", "notes"}
 
 // Rule is one compiled rule file.
@@ -107,6 +107,7 @@ type Error struct {
 	timedOut bool
 }
 
+// Error names the rule file, the line when known, and what went wrong.
 func (e *Error) Error() string {
 	if e.Line > 0 {
 		return fmt.Sprintf("%s:%d: %s", e.File, e.Line, e.Msg)
@@ -698,6 +699,7 @@ func (s *sandbox) callWithin(f func() error, budget time.Duration) *Error {
 	go func() {
 		defer func() {
 			if p := recover(); p != nil {
+				// %v, not %w: p is a recovered panic value, not an error chain a caller could check.
 				done <- fmt.Errorf("the rule crashed the Lua host: %v", p)
 			}
 		}()

@@ -93,29 +93,31 @@ func TestHostileRules(t *testing.T) {
 		{"round_dial inf", "function dial(ctx)\n  return pit.round_dial(1/0), 'x'\nend", "rules/t.lua:2: pit.round_dial was given an infinite number"},
 	}
 	for _, tc := range cases {
-		start := time.Now()
-		res := runSrc(t, tc.src)
-		took := time.Since(start)
-		if len(res.Errors) == 0 {
-			t.Errorf("%s: no error (%+v)", tc.name, res)
-			continue
-		}
-		msg := res.Errors[0].Error()
-		if !strings.Contains(msg, tc.want) || !strings.HasPrefix(msg, "rules/t.lua") {
-			t.Errorf("%s: error %q, want it to name rules/t.lua and contain %q", tc.name, msg, tc.want)
-		}
-		if took > 3*time.Second { // an endless loop gets (1 + RetryBudget) budgets; generous for a loaded machine
-			t.Errorf("%s: took %v to stop", tc.name, took)
-		}
-		if len(res.Checks) == 0 || res.Checks[0].Status != Fail {
-			t.Errorf("%s: the failure is not a failed check: %+v", tc.name, res.Checks)
-		}
-		var m runtime.MemStats
-		runtime.ReadMemStats(&m)
-		if m.HeapAlloc > 512<<20 {
-			t.Errorf("%s: heap %d MiB", tc.name, m.HeapAlloc>>20)
-		}
-		runtime.GC()
+		t.Run(tc.name, func(t *testing.T) {
+			start := time.Now()
+			res := runSrc(t, tc.src)
+			took := time.Since(start)
+			if len(res.Errors) == 0 {
+				t.Errorf("%s: no error (%+v)", tc.name, res)
+				return
+			}
+			msg := res.Errors[0].Error()
+			if !strings.Contains(msg, tc.want) || !strings.HasPrefix(msg, "rules/t.lua") {
+				t.Errorf("%s: error %q, want it to name rules/t.lua and contain %q", tc.name, msg, tc.want)
+			}
+			if took > 3*time.Second { // an endless loop gets (1 + RetryBudget) budgets; generous for a loaded machine
+				t.Errorf("%s: took %v to stop", tc.name, took)
+			}
+			if len(res.Checks) == 0 || res.Checks[0].Status != Fail {
+				t.Errorf("%s: the failure is not a failed check: %+v", tc.name, res.Checks)
+			}
+			var m runtime.MemStats
+			runtime.ReadMemStats(&m)
+			if m.HeapAlloc > 512<<20 {
+				t.Errorf("%s: heap %d MiB", tc.name, m.HeapAlloc>>20)
+			}
+			runtime.GC()
+		})
 	}
 }
 

@@ -1,6 +1,7 @@
 package scripts
 
 import (
+	"fmt"
 	"io/fs"
 	"os"
 	"strings"
@@ -37,9 +38,11 @@ func TestShippedRulesLoad(t *testing.T) {
 		t.Fatalf("%d rules, %v", len(rules), err)
 	}
 	for _, r := range rules {
-		if r.Err != nil || len(r.Defines) == 0 {
-			t.Errorf("%s: %v, defines %v", r.File, r.Err, r.Defines)
-		}
+		t.Run(r.File, func(t *testing.T) {
+			if r.Err != nil || len(r.Defines) == 0 {
+				t.Errorf("%s: %v, defines %v", r.File, r.Err, r.Defines)
+			}
+		})
 	}
 }
 
@@ -76,24 +79,28 @@ func TestTirePressureRule(t *testing.T) {
 	cases := map[float64]string{75: "16.5 psi", 95: "16.0 psi", 118: "15.5 psi", 135: "15.0 psi", 150: "14.5 psi", 0: "no track temperature"}
 	for _, tire := range []any{nil, "", "radial", "Radial"} { // car.yaml's default is radial
 		for track, want := range cases {
-			c := ctxFor("left", 15, track)
-			c["car"].(map[string]any)["tire"] = tire
-			res := runWith(t, r, c)
-			if len(res.Notes) != 1 || !strings.Contains(res.Notes[0], want) {
-				t.Errorf("tire %v, track %v: %v, want %q", tire, track, res.Notes, want)
-				continue
-			}
-			if track != 0 && (!strings.Contains(res.Notes[0], "drag radials") || !strings.Contains(res.Notes[0], "tire maker's minimum comes first")) {
-				t.Errorf("tire %v, track %v: %q does not say whose numbers these are", tire, track, res.Notes[0])
-			}
+			t.Run(fmt.Sprintf("tire %v, track %v °F", tire, track), func(t *testing.T) {
+				c := ctxFor("left", 15, track)
+				c["car"].(map[string]any)["tire"] = tire
+				res := runWith(t, r, c)
+				if len(res.Notes) != 1 || !strings.Contains(res.Notes[0], want) {
+					t.Errorf("tire %v, track %v: %v, want %q", tire, track, res.Notes, want)
+					return
+				}
+				if track != 0 && (!strings.Contains(res.Notes[0], "drag radials") || !strings.Contains(res.Notes[0], "tire maker's minimum comes first")) {
+					t.Errorf("tire %v, track %v: %q does not say whose numbers these are", tire, track, res.Notes[0])
+				}
+			})
 		}
 	}
 	for _, tire := range []string{"street", "slick", "SLICK"} {
-		c := ctxFor("left", 15, 95)
-		c["car"].(map[string]any)["tire"] = tire
-		if res := runWith(t, r, c); len(res.Notes) != 0 {
-			t.Errorf("%s tires got %q", tire, res.Notes)
-		}
+		t.Run(tire, func(t *testing.T) {
+			c := ctxFor("left", 15, 95)
+			c["car"].(map[string]any)["tire"] = tire
+			if res := runWith(t, r, c); len(res.Notes) != 0 {
+				t.Errorf("%s tires got %q", tire, res.Notes)
+			}
+		})
 	}
 }
 

@@ -1,6 +1,7 @@
 package weather
 
 import (
+	"fmt"
 	"math"
 	"testing"
 )
@@ -15,10 +16,12 @@ func TestSaturationVaporPressureCRC(t *testing.T) {
 		{0, 0.6113}, {10, 1.2282}, {20, 2.3393}, {25, 3.1699}, {30, 4.2470}, {40, 7.3849},
 	}
 	for _, tc := range cases {
-		got := SaturationVaporPressure(Celsius(tc.c)).KPa()
-		if e := relErr(got, tc.kPa); e > 0.001 {
-			t.Errorf("es(%v °C) = %.4f kPa, CRC Handbook %.4f kPa (%.3f %% off, want ≤ 0.1 %%)", tc.c, got, tc.kPa, 100*e)
-		}
+		t.Run(fmt.Sprintf("CRC %g °C", tc.c), func(t *testing.T) {
+			got := SaturationVaporPressure(Celsius(tc.c)).KPa()
+			if e := relErr(got, tc.kPa); e > 0.001 {
+				t.Errorf("es(%v °C) = %.4f kPa, CRC Handbook %.4f kPa (%.3f %% off, want ≤ 0.1 %%)", tc.c, got, tc.kPa, 100*e)
+			}
+		})
 	}
 }
 
@@ -55,11 +58,13 @@ func TestAirDensity(t *testing.T) {
 		{"dry standard air, USSA 1976", 15, 1013.25, 0, 1.2250, 0.0001},
 	}
 	for _, tc := range cases {
-		e := VaporPressureRH(Celsius(tc.c), tc.rh)
-		got := AirDensity(HPa(tc.hPa), Celsius(tc.c), e)
-		if relErr(got, tc.want) > tc.tol {
-			t.Errorf("%s: density %.5f kg/m³, want %.4f (rel tol %g)", tc.name, got, tc.want, tc.tol)
-		}
+		t.Run(tc.name, func(t *testing.T) {
+			e := VaporPressureRH(Celsius(tc.c), tc.rh)
+			got := AirDensity(HPa(tc.hPa), Celsius(tc.c), e)
+			if relErr(got, tc.want) > tc.tol {
+				t.Errorf("%s: density %.5f kg/m³, want %.4f (rel tol %g)", tc.name, got, tc.want, tc.tol)
+			}
+		})
 	}
 }
 
@@ -99,16 +104,18 @@ var ussa1976 = []struct {
 
 func TestStandardAtmosphereTable(t *testing.T) {
 	for _, tc := range ussa1976 {
-		s := StandardAtmosphere(Metres(tc.m))
-		if math.Abs(s.Temp.Celsius()-tc.c) > 0.01 {
-			t.Errorf("%v m: T %.3f °C, USSA 1976 %.2f", tc.m, s.Temp.Celsius(), tc.c)
-		}
-		if relErr(s.Pressure.HPa(), tc.hPa) > 0.0001 {
-			t.Errorf("%v m: P %.3f hPa, USSA 1976 %.2f", tc.m, s.Pressure.HPa(), tc.hPa)
-		}
-		if relErr(s.Density, tc.rho) > 0.0002 {
-			t.Errorf("%v m: ρ %.5f, USSA 1976 %.5f", tc.m, s.Density, tc.rho)
-		}
+		t.Run(fmt.Sprintf("USSA 1976 at %g m", tc.m), func(t *testing.T) {
+			s := StandardAtmosphere(Metres(tc.m))
+			if math.Abs(s.Temp.Celsius()-tc.c) > 0.01 {
+				t.Errorf("%v m: T %.3f °C, USSA 1976 %.2f", tc.m, s.Temp.Celsius(), tc.c)
+			}
+			if relErr(s.Pressure.HPa(), tc.hPa) > 0.0001 {
+				t.Errorf("%v m: P %.3f hPa, USSA 1976 %.2f", tc.m, s.Pressure.HPa(), tc.hPa)
+			}
+			if relErr(s.Density, tc.rho) > 0.0002 {
+				t.Errorf("%v m: ρ %.5f, USSA 1976 %.5f", tc.m, s.Density, tc.rho)
+			}
+		})
 	}
 }
 
@@ -116,14 +123,16 @@ func TestStandardAtmosphereTable(t *testing.T) {
 // density altitude of h, and a pressure altitude of h (within 10 ft).
 func TestDensityAltitudeOfStandardAir(t *testing.T) {
 	for _, tc := range ussa1976 {
-		want := Metres(tc.m).Feet()
-		rho := AirDensity(HPa(tc.hPa), Celsius(tc.c), 0)
-		if got := DensityAltitude(rho).Feet(); math.Abs(got-want) > 10 {
-			t.Errorf("DA of USSA %v m air = %.0f ft, want %.0f ± 10", tc.m, got, want)
-		}
-		if got := PressureAltitude(HPa(tc.hPa)).Feet(); math.Abs(got-want) > 10 {
-			t.Errorf("PA of USSA %v m air = %.0f ft, want %.0f ± 10", tc.m, got, want)
-		}
+		t.Run(fmt.Sprintf("USSA 1976 at %g m", tc.m), func(t *testing.T) {
+			want := Metres(tc.m).Feet()
+			rho := AirDensity(HPa(tc.hPa), Celsius(tc.c), 0)
+			if got := DensityAltitude(rho).Feet(); math.Abs(got-want) > 10 {
+				t.Errorf("DA of USSA %v m air = %.0f ft, want %.0f ± 10", tc.m, got, want)
+			}
+			if got := PressureAltitude(HPa(tc.hPa)).Feet(); math.Abs(got-want) > 10 {
+				t.Errorf("PA of USSA %v m air = %.0f ft, want %.0f ± 10", tc.m, got, want)
+			}
+		})
 	}
 	// Every 500 ft from 0 to 10,000 ft through the model's own standard atmosphere.
 	for ft := 0.0; ft <= 10000; ft += 500 {
@@ -143,11 +152,13 @@ func TestDensityAltitudeNWSVirtualTemperature(t *testing.T) {
 		{Temp: Fahrenheit(40), Baro: InHg(25.10), RH: 0.80},
 		{Temp: Fahrenheit(110), Baro: InHg(27.0), RH: 0.15},
 	} {
-		a := r.Derive(0)
-		nws := 145442.16 * (1 - math.Pow(17.326*a.Station.InHg()/a.VirtualTemp.Rankine(), 0.235))
-		if got := a.DensityAltitude.Feet(); math.Abs(got-nws) > 25 {
-			t.Errorf("%v: DA %.0f ft, NWS virtual-temperature form %.0f ft", r.Temp, got, nws)
-		}
+		t.Run(fmt.Sprintf("%v %v", r.Temp, r.Baro), func(t *testing.T) {
+			a := r.Derive(0)
+			nws := 145442.16 * (1 - math.Pow(17.326*a.Station.InHg()/a.VirtualTemp.Rankine(), 0.235))
+			if got := a.DensityAltitude.Feet(); math.Abs(got-nws) > 25 {
+				t.Errorf("%v: DA %.0f ft, NWS virtual-temperature form %.0f ft", r.Temp, got, nws)
+			}
+		})
 	}
 }
 
@@ -172,11 +183,13 @@ func TestDensityAltitudeFAARuleOfThumb(t *testing.T) {
 // altitude ≈ elevation + 1000 ft per inHg the altimeter setting is below 29.92.
 func TestPressureAltitudeRuleOfThumb(t *testing.T) {
 	for _, tc := range []struct{ elevFt, alt float64 }{{0, 29.92}, {1000, 29.42}, {4500, 30.20}, {5280, 29.70}} {
-		p := StationFromAltimeter(InHg(tc.alt), Feet(tc.elevFt))
-		rule := tc.elevFt + 1000*(29.92-tc.alt)
-		if got := PressureAltitude(p).Feet(); math.Abs(got-rule) > 100 {
-			t.Errorf("elev %v ft, altimeter %v: PA %.0f ft, rule %.0f ft", tc.elevFt, tc.alt, got, rule)
-		}
+		t.Run(fmt.Sprintf("%g ft altimeter %g inHg", tc.elevFt, tc.alt), func(t *testing.T) {
+			p := StationFromAltimeter(InHg(tc.alt), Feet(tc.elevFt))
+			rule := tc.elevFt + 1000*(29.92-tc.alt)
+			if got := PressureAltitude(p).Feet(); math.Abs(got-rule) > 100 {
+				t.Errorf("elev %v ft, altimeter %v: PA %.0f ft, rule %.0f ft", tc.elevFt, tc.alt, got, rule)
+			}
+		})
 	}
 }
 
@@ -228,9 +241,11 @@ func TestCorrectionFactorsAtTheirStandard(t *testing.T) {
 		{"DIN 70020", CFDIN70020(Celsius(20), HPa(1013))},
 	}
 	for _, tc := range cases {
-		if !(math.Abs(tc.got-1) <= 1e-12) { // NaN fails too
-			t.Errorf("%s at its standard = %.15f, want 1", tc.name, tc.got)
-		}
+		t.Run(tc.name, func(t *testing.T) {
+			if !(math.Abs(tc.got-1) <= 1e-12) { // NaN fails too
+				t.Errorf("%s at its standard = %.15f, want 1", tc.name, tc.got)
+			}
+		})
 	}
 }
 
@@ -249,10 +264,12 @@ func TestCFSTDWorkedExample(t *testing.T) {
 		{55, 0.35, 30.10, 0.9943},
 	}
 	for _, tc := range cases {
-		a := Reading{Temp: Fahrenheit(tc.f), Baro: InHg(tc.inHg), RH: tc.rh}.Derive(0)
-		if math.Abs(a.CFSTD-tc.want) > 0.0005 {
-			t.Errorf("STD CF at %v °F %v %% %v inHg = %.4f, by hand from SAE J607 %.4f ± 0.0005", tc.f, tc.rh*100, tc.inHg, a.CFSTD, tc.want)
-		}
+		t.Run(fmt.Sprintf("SAE J607 at %g °F %g RH %g inHg", tc.f, tc.rh, tc.inHg), func(t *testing.T) {
+			a := Reading{Temp: Fahrenheit(tc.f), Baro: InHg(tc.inHg), RH: tc.rh}.Derive(0)
+			if math.Abs(a.CFSTD-tc.want) > 0.0005 {
+				t.Errorf("STD CF at %v °F %v %% %v inHg = %.4f, by hand from SAE J607 %.4f ± 0.0005", tc.f, tc.rh*100, tc.inHg, a.CFSTD, tc.want)
+			}
+		})
 	}
 }
 
@@ -279,8 +296,10 @@ func TestHeadwindComponent(t *testing.T) {
 	r := Reading{Wind: MPH(10), WindFrom: 90}
 	cases := []struct{ heading, want float64 }{{90, 10}, {270, -10}, {0, 0}, {30, 5}}
 	for _, tc := range cases {
-		if got := r.HeadwindComponent(tc.heading).MPH(); math.Abs(got-tc.want) > 1e-9 {
-			t.Errorf("heading %v: headwind %.3f mph, want %v", tc.heading, got, tc.want)
-		}
+		t.Run(fmt.Sprintf("heading %g°", tc.heading), func(t *testing.T) {
+			if got := r.HeadwindComponent(tc.heading).MPH(); math.Abs(got-tc.want) > 1e-9 {
+				t.Errorf("heading %v: headwind %.3f mph, want %v", tc.heading, got, tc.want)
+			}
+		})
 	}
 }

@@ -1,6 +1,7 @@
 package weather
 
 import (
+	"fmt"
 	"math"
 	"testing"
 )
@@ -49,12 +50,14 @@ func TestAirDensityCIPM2007(t *testing.T) {
 		{30, 950, 0.8}, {35, 920, 0.9}, {38, 980, 0.6},
 	}
 	for _, tc := range cases {
-		want, z := cipm2007(tc.c, tc.hPa*100, tc.rh)
-		got := AirDensity(HPa(tc.hPa), Celsius(tc.c), VaporPressureRH(Celsius(tc.c), tc.rh))
-		if e := relErr(got/z, want); !(e <= 0.0001) {
-			t.Errorf("%v °C %v hPa %v %%: ideal-gas %.5f / Z %.6f = %.5f kg/m³, CIPM-2007 %.5f (%.4f %% off, want ≤ 0.01 %%)",
-				tc.c, tc.hPa, tc.rh*100, got, z, got/z, want, 100*e)
-		}
+		t.Run(fmt.Sprintf("CIPM-2007 %g °C %g hPa %g RH", tc.c, tc.hPa, tc.rh), func(t *testing.T) {
+			want, z := cipm2007(tc.c, tc.hPa*100, tc.rh)
+			got := AirDensity(HPa(tc.hPa), Celsius(tc.c), VaporPressureRH(Celsius(tc.c), tc.rh))
+			if e := relErr(got/z, want); !(e <= 0.0001) {
+				t.Errorf("%v °C %v hPa %v %%: ideal-gas %.5f / Z %.6f = %.5f kg/m³, CIPM-2007 %.5f (%.4f %% off, want ≤ 0.01 %%)",
+					tc.c, tc.hPa, tc.rh*100, got, z, got/z, want, 100*e)
+			}
+		})
 	}
 }
 
@@ -71,9 +74,11 @@ func TestGasConstants(t *testing.T) {
 		{"water vapour", RVapor, 8.31432 / 18.01528e-3},
 	}
 	for _, tc := range cases {
-		if e := relErr(tc.got, tc.want); !(e <= 0.0001) {
-			t.Errorf("R of %s = %v J/(kg·K), R*/M = %.3f (%.4f %% off)", tc.name, tc.got, tc.want, 100*e)
-		}
+		t.Run(tc.name, func(t *testing.T) {
+			if e := relErr(tc.got, tc.want); !(e <= 0.0001) {
+				t.Errorf("R of %s = %v J/(kg·K), R*/M = %.3f (%.4f %% off)", tc.name, tc.got, tc.want, 100*e)
+			}
+		})
 	}
 }
 
@@ -84,13 +89,15 @@ func TestGasConstants(t *testing.T) {
 func TestHumidityRatioConstant(t *testing.T) {
 	cases := []struct{ e, p float64 }{{10, 1010}, {42, 950}, {3, 1013.25}}
 	for _, tc := range cases {
-		want := 18.015268 / 28.966 * tc.e / (tc.p - tc.e)
-		if got := HumidityRatio(HPa(tc.e), HPa(tc.p)); !(relErr(got, want) <= 1e-6) {
-			t.Errorf("W(e %v, p %v hPa) = %.7f, ASHRAE %.7f", tc.e, tc.p, got, want)
-		}
-		if got := GrainsPerLb(HPa(tc.e), HPa(tc.p)); !(relErr(got, 7000*want) <= 1e-6) {
-			t.Errorf("grains(e %v, p %v hPa) = %.3f, want %.3f", tc.e, tc.p, got, 7000*want)
-		}
+		t.Run(fmt.Sprintf("ASHRAE e %g hPa p %g hPa", tc.e, tc.p), func(t *testing.T) {
+			want := 18.015268 / 28.966 * tc.e / (tc.p - tc.e)
+			if got := HumidityRatio(HPa(tc.e), HPa(tc.p)); !(relErr(got, want) <= 1e-6) {
+				t.Errorf("W(e %v, p %v hPa) = %.7f, ASHRAE %.7f", tc.e, tc.p, got, want)
+			}
+			if got := GrainsPerLb(HPa(tc.e), HPa(tc.p)); !(relErr(got, 7000*want) <= 1e-6) {
+				t.Errorf("grains(e %v, p %v hPa) = %.3f, want %.3f", tc.e, tc.p, got, 7000*want)
+			}
+		})
 	}
 }
 
@@ -122,8 +129,10 @@ func TestDeriveUsesEachStandardsPressure(t *testing.T) {
 		t.Fatalf("the case is meant to be humid: e/p = %.3f", e/p)
 	}
 	for _, tc := range cases {
-		if !(relErr(tc.got, tc.want) <= 1e-6) { // NaN fails too
-			t.Errorf("%s = %.6f, from the standard's formula %.6f", tc.name, tc.got, tc.want)
-		}
+		t.Run(tc.name, func(t *testing.T) {
+			if !(relErr(tc.got, tc.want) <= 1e-6) { // NaN fails too
+				t.Errorf("%s = %.6f, from the standard's formula %.6f", tc.name, tc.got, tc.want)
+			}
+		})
 	}
 }

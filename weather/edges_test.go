@@ -26,9 +26,11 @@ func TestFitLine(t *testing.T) {
 		{"residual spread", l.s, math.Sqrt(3.6 / 3)}, {"prediction error at 15", l.predictionError(15), math.Sqrt(1.2) * math.Sqrt(2.425)},
 	}
 	for _, tc := range cases {
-		if !(math.Abs(tc.got-tc.want) <= 1e-9) {
-			t.Errorf("%s = %v, want %v", tc.name, tc.got, tc.want)
-		}
+		t.Run(tc.name, func(t *testing.T) {
+			if !(math.Abs(tc.got-tc.want) <= 1e-9) {
+				t.Errorf("%s = %v, want %v", tc.name, tc.got, tc.want)
+			}
+		})
 	}
 	// every x the same: no slope, the mean, and the spread alone
 	flat := fitLine([]float64{5, 5, 5}, []float64{1, 2, 6})
@@ -41,9 +43,11 @@ func TestFitLine(t *testing.T) {
 func TestRoundMin(t *testing.T) {
 	for d, want := range map[time.Duration]string{59 * time.Minute: "59 min", 60 * time.Minute: "1 h", 90 * time.Minute: "1 h 30 min",
 		125 * time.Minute: "2 h 05 min", 120 * time.Minute: "2 h", 29 * time.Second: "0 min"} {
-		if got := roundMin(d); got != want {
-			t.Errorf("roundMin(%v) = %q, want %q", d, got, want)
-		}
+		t.Run(want, func(t *testing.T) {
+			if got := roundMin(d); got != want {
+				t.Errorf("roundMin(%v) = %q, want %q", d, got, want)
+			}
+		})
 	}
 }
 
@@ -71,9 +75,11 @@ func TestForecastInterpolatesBetweenNeighbours(t *testing.T) {
 		{"track °F", f.Reading.TrackTemp.Fahrenheit(), 100 + w*(140-100)},
 	}
 	for _, tc := range cases {
-		if !(math.Abs(tc.got-tc.want) <= 1e-9) {
-			t.Errorf("%s at 18:40 = %v, want %v", tc.name, tc.got, tc.want)
-		}
+		t.Run(tc.name, func(t *testing.T) {
+			if !(math.Abs(tc.got-tc.want) <= 1e-9) {
+				t.Errorf("%s at 18:40 = %v, want %v", tc.name, tc.got, tc.want)
+			}
+		})
 	}
 	if f.Used != 2 || f.Span != 30*time.Minute || !f.Trusted || !f.Interval || !strings.Contains(f.Notes[0], "between the readings of 18:30 and 19:00") {
 		t.Errorf("used %d span %v trusted %v notes %q", f.Used, f.Span, f.Trusted, f.Notes)
@@ -258,9 +264,11 @@ func TestShortValueEdge(t *testing.T) {
 		"1" + strings.Repeat("0", 40): "1e+40",
 	}
 	for in, want := range cases {
-		if got := shortValue(in); got != want {
-			t.Errorf("shortValue(%d characters) = %q, want %q", len(in), got, want)
-		}
+		t.Run(fmt.Sprintf("%d characters", len(in)), func(t *testing.T) {
+			if got := shortValue(in); got != want {
+				t.Errorf("shortValue(%d characters) = %q, want %q", len(in), got, want)
+			}
+		})
 	}
 }
 
@@ -278,16 +286,18 @@ func TestRaceDayStartWithMinutes(t *testing.T) {
 		h, m, sec int
 		dayBefore bool
 	}{{4, 29, 59, false}, {4, 30, 0, true}, {4, 30, 30, true}, {4, 31, 0, true}, {5, 29, 0, true}} {
-		at := time.Date(2026, 6, 14, tc.h, tc.m, tc.sec, 0, time.UTC)
-		want := map[bool]string{false: "2026-06-13", true: "2026-06-14"}[tc.dayBefore]
-		if got := s.Key(at); got != want {
-			t.Errorf("%02d:%02d:%02d is on the race day %s, want %s", tc.h, tc.m, tc.sec, got, want)
-		}
-		clock, err := s.Clock(fmt.Sprintf("%02d:%02d:%02d", tc.h, tc.m, tc.sec), day, time.UTC)
-		wantDate := map[bool]string{false: "2026-06-14", true: "2026-06-13"}[tc.dayBefore]
-		if err != nil || clock.Format("2006-01-02") != wantDate {
-			t.Errorf("clock %02d:%02d:%02d on the day of 06-13: %v (%v), want on %s", tc.h, tc.m, tc.sec, clock, err, wantDate)
-		}
+		t.Run(fmt.Sprintf("%02d:%02d:%02d", tc.h, tc.m, tc.sec), func(t *testing.T) {
+			at := time.Date(2026, 6, 14, tc.h, tc.m, tc.sec, 0, time.UTC)
+			want := map[bool]string{false: "2026-06-13", true: "2026-06-14"}[tc.dayBefore]
+			if got := s.Key(at); got != want {
+				t.Errorf("%02d:%02d:%02d is on the race day %s, want %s", tc.h, tc.m, tc.sec, got, want)
+			}
+			clock, err := s.Clock(fmt.Sprintf("%02d:%02d:%02d", tc.h, tc.m, tc.sec), day, time.UTC)
+			wantDate := map[bool]string{false: "2026-06-14", true: "2026-06-13"}[tc.dayBefore]
+			if err != nil || clock.Format("2006-01-02") != wantDate {
+				t.Errorf("clock %02d:%02d:%02d on the day of 06-13: %v (%v), want on %s", tc.h, tc.m, tc.sec, clock, err, wantDate)
+			}
+		})
 	}
 }
 
@@ -330,9 +340,11 @@ func TestLogSeparatorAndCalm(t *testing.T) {
 func TestPressureFormatDecimals(t *testing.T) {
 	p := HPa(1013.25)
 	for u, want := range map[PressureUnit]string{UnitInHg: "29.92 inHg", UnitKPa: "101.33 kPa", UnitHPa: "1013.2 hPa", UnitMbar: "1013.2 mbar"} {
-		if got := p.Format(u); got != want {
-			t.Errorf("Format(%v) = %q, want %q", u, got, want)
-		}
+		t.Run(u.String(), func(t *testing.T) {
+			if got := p.Format(u); got != want {
+				t.Errorf("Format(%v) = %q, want %q", u, got, want)
+			}
+		})
 	}
 }
 
@@ -340,13 +352,17 @@ func TestPressureFormatDecimals(t *testing.T) {
 // other unit is refused (units.go).
 func TestParseDirectionUnits(t *testing.T) {
 	for in, want := range map[string]float64{"200": 200, "200°": 200, "200deg": 200, "SW": 225} {
-		if got, err := ParseDirection(in); err != nil || got != want {
-			t.Errorf("ParseDirection(%q) = %v, %v; want %v", in, got, err, want)
-		}
+		t.Run(in, func(t *testing.T) {
+			if got, err := ParseDirection(in); err != nil || got != want {
+				t.Errorf("ParseDirection(%q) = %v, %v; want %v", in, got, err, want)
+			}
+		})
 	}
 	for _, in := range []string{"200x", "200 mph", "north-ish"} {
-		if _, err := ParseDirection(in); err == nil {
-			t.Errorf("ParseDirection(%q) accepted", in)
-		}
+		t.Run(in, func(t *testing.T) {
+			if _, err := ParseDirection(in); err == nil {
+				t.Errorf("ParseDirection(%q) accepted", in)
+			}
+		})
 	}
 }

@@ -17,6 +17,8 @@ type InputError struct {
 	Reason string // what is wrong and what is valid, e.g. "is outside -40..140 °F"
 }
 
+// Error says where (file and line, when known), the field, the value and
+// what would have been valid.
 func (e *InputError) Error() string {
 	where := ""
 	switch {
@@ -35,14 +37,14 @@ func (e *InputError) Error() string {
 // many digits (1e308 read as a decimal) is shown in exponent form, a long
 // text is cut with its length said.
 func shortValue(v string) string {
-	const max = 40
-	if len(v) <= max {
+	const maxShown = 40
+	if len(v) <= maxShown {
 		return v
 	}
 	if f, err := strconv.ParseFloat(v, 64); err == nil {
 		return strconv.FormatFloat(f, 'g', 6, 64)
 	}
-	return fmt.Sprintf("%s… (%d characters)", v[:max], len(v))
+	return fmt.Sprintf("%s… (%d characters)", v[:maxShown], len(v))
 }
 
 // BadInput marks the error as the user's to fix (pitcard exits with code 2).

@@ -28,7 +28,7 @@ const (
 	MeterDAFeet = 30.0
 )
 
-// TrackTrendReach, °F: how far past the highest or lowest track reading of
+// TrackTrendReach is, in °F, how far past the highest or lowest track reading of
 // its window a forecast's track temperature may go. A surface warms and
 // cools on a curve (sun up, sun down), which a straight line run forward
 // overshoots (common practice, no source).

@@ -15,7 +15,8 @@ import (
 	"pitcard/internal/csvtext"
 )
 
-// The weather log is weather.csv: one reading per row, in the columns below.
+// LogColumns are the weather log's columns, in order. The weather log is
+// weather.csv: one reading per row, in the columns below.
 // Units are in the names. Imperial columns are written; the metric columns
 // are accepted on reading in their place.
 //
@@ -130,6 +131,7 @@ type BadReadings struct {
 	Good int // the readings that were read
 }
 
+// Error lists the rows left out of the weather log.
 func (b *BadReadings) Error() string {
 	var s strings.Builder
 	fmt.Fprintf(&s, "%s: %d row(s) cannot be read, left out (the other %d readings are used):", b.File, len(b.Rows), b.Good)
@@ -250,6 +252,7 @@ func RepeatedHeader(rec, header []string, name string, line int) *InputError {
 func CSVError(name string, err error) error {
 	var pe *csv.ParseError
 	if errors.As(err, &pe) {
+		// The parser's words only: the row is the user's to fix, not a csv error to check for.
 		return &InputError{File: name, Line: pe.Line, Field: "row", Reason: "is not valid CSV: " + pe.Err.Error()}
 	}
 	return fmt.Errorf("%s: %w", name, err)
@@ -357,15 +360,15 @@ func logRow(rec []string, col map[string]Column, elev Length, loc *time.Location
 
 	v, name, metric := get("temp_f")
 	if r.Temp, err = ParseTemperature(v, unitIf(metric, DegC, DegF)); err != nil {
-		return r, err.(*InputError).Named(name)
+		return r, renamed(err, name)
 	}
 	v, name, metric = get("baro_inhg")
 	if r.Baro, err = ParsePressure(v, unitIf(metric, UnitHPa, UnitInHg)); err != nil {
-		return r, err.(*InputError).Named(name)
+		return r, renamed(err, name)
 	}
 	if v, _, _ := get("baro_kind"); v != "" {
 		if r.BaroKind, err = ParsePressureKind(strings.ToLower(v)); err != nil {
-			return r, err.(*InputError).Named("baro_kind")
+			return r, renamed(err, "baro_kind")
 		}
 	}
 	rh, _, _ := get("humidity_pct")
@@ -374,18 +377,18 @@ func logRow(rec []string, col map[string]Column, elev Length, loc *time.Location
 	case dp != "":
 		r.DewPointSet = true
 		if r.DewPoint, err = ParseTemperature(dp, unitIf(dpMetric, DegC, DegF)); err != nil {
-			return r, err.(*InputError).Named(dpName)
+			return r, renamed(err, dpName)
 		}
 	case rh != "":
 		if r.RH, err = ParsePercent(rh); err != nil {
-			return r, err.(*InputError).Named("humidity_pct")
+			return r, renamed(err, "humidity_pct")
 		}
 	default:
 		return r, inputErr("humidity_pct", "", "is blank, and so is dewpoint_f (give one)")
 	}
 	if v, name, metric := get("wind_mph"); v != "" {
 		if r.Wind, err = ParseSpeed(v, unitIf(metric, UnitKMH, UnitMPH)); err != nil {
-			return r, err.(*InputError).Named(name)
+			return r, renamed(err, name)
 		}
 	} else {
 		r.WindUnknown = true
@@ -394,7 +397,7 @@ func logRow(rec []string, col map[string]Column, elev Length, loc *time.Location
 		// no speed: a direction alone says nothing of the wind
 	} else if v != "" {
 		if r.WindFrom, err = ParseDirection(v); err != nil {
-			return r, err.(*InputError).Named("wind_from_deg")
+			return r, renamed(err, "wind_from_deg")
 		}
 	} else if r.Wind > 0 {
 		r.WindDirUnknown = true
@@ -402,7 +405,7 @@ func logRow(rec []string, col map[string]Column, elev Length, loc *time.Location
 	if v, name, metric := get("track_temp_f"); v != "" {
 		r.HasTrack = true
 		if r.TrackTemp, err = ParseTemperature(v, unitIf(metric, DegC, DegF)); err != nil {
-			return r, err.(*InputError).Named(name)
+			return r, renamed(err, name)
 		}
 	}
 	r.Note, _, _ = get("notes")
@@ -415,6 +418,16 @@ func logRow(rec []string, col map[string]Column, elev Length, loc *time.Location
 		return r, err
 	}
 	return r, nil
+}
+
+// renamed gives err, when it is (or wraps) an *InputError, the column name
+// field; any other error passes unchanged rather than panicking.
+func renamed(err error, field string) error {
+	var ie *InputError
+	if errors.As(err, &ie) {
+		return ie.Named(field)
+	}
+	return err
 }
 
 // fileColumn names, in weather.csv's terms, a field Validate names in flag terms.

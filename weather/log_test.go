@@ -44,19 +44,21 @@ func TestValidateRanges(t *testing.T) {
 		{"nan", func(r *Reading) { r.Temp = Temperature(math.NaN()) }, 900, []string{"temp", "-40..140"}},
 	}
 	for _, tc := range cases {
-		r := ok
-		tc.edit(&r)
-		err := r.Validate(Feet(tc.elev))
-		var ie *InputError
-		if !errors.As(err, &ie) {
-			t.Errorf("%s: got %v, want an InputError", tc.name, err)
-			continue
-		}
-		for _, w := range tc.want {
-			if !strings.Contains(err.Error(), w) {
-				t.Errorf("%s: %q lacks %q", tc.name, err, w)
+		t.Run(tc.name, func(t *testing.T) {
+			r := ok
+			tc.edit(&r)
+			err := r.Validate(Feet(tc.elev))
+			var ie *InputError
+			if !errors.As(err, &ie) {
+				t.Errorf("%s: got %v, want an InputError", tc.name, err)
+				return
 			}
-		}
+			for _, w := range tc.want {
+				if !strings.Contains(err.Error(), w) {
+					t.Errorf("%s: %q lacks %q", tc.name, err, w)
+				}
+			}
+		})
 	}
 }
 
@@ -138,16 +140,18 @@ func TestReadLogErrorsNameFileLineColumn(t *testing.T) {
 		{head + "2026-06-13,18:30,88,28.9,\n", []string{"line 2", "humidity_pct", "blank"}},
 	}
 	for _, tc := range cases {
-		_, err := ReadLog(strings.NewReader(tc.csv), "weather.csv", Feet(900), time.UTC)
-		if err == nil {
-			t.Errorf("%q: no error", tc.csv)
-			continue
-		}
-		for _, w := range tc.want {
-			if !strings.Contains(err.Error(), w) {
-				t.Errorf("%q: %q lacks %q", tc.csv, err, w)
+		t.Run(strings.Join(tc.want, " "), func(t *testing.T) {
+			_, err := ReadLog(strings.NewReader(tc.csv), "weather.csv", Feet(900), time.UTC)
+			if err == nil {
+				t.Errorf("%q: no error", tc.csv)
+				return
 			}
-		}
+			for _, w := range tc.want {
+				if !strings.Contains(err.Error(), w) {
+					t.Errorf("%q: %q lacks %q", tc.csv, err, w)
+				}
+			}
+		})
 	}
 }
 

@@ -21,7 +21,7 @@ func chicago(t testing.TB) *time.Location {
 // past midnight).
 func TestRaceDay(t *testing.T) {
 	loc := chicago(t)
-	at := func(y int, m time.Month, d, h, min int) time.Time { return time.Date(y, m, d, h, min, 0, 0, loc) }
+	at := func(y int, m time.Month, d, h, minute int) time.Time { return time.Date(y, m, d, h, minute, 0, 0, loc) }
 	cases := []struct {
 		name  string
 		start DayStart
@@ -129,9 +129,11 @@ func TestLocalTimeAcrossDaylightSaving(t *testing.T) {
 		{"01:59", time.Date(2026, 3, 8, 7, 59, 0, 0, time.UTC)},
 		{"03:00", time.Date(2026, 3, 8, 8, 0, 0, 0, time.UTC)},
 	} {
-		if got, err := ParseClock(tc.clock, spring, loc); err != nil || !got.Equal(tc.want) {
-			t.Errorf("ParseClock(%s) = %v, %v; want %v", tc.clock, got, err, tc.want)
-		}
+		t.Run(tc.clock, func(t *testing.T) {
+			if got, err := ParseClock(tc.clock, spring, loc); err != nil || !got.Equal(tc.want) {
+				t.Errorf("ParseClock(%s) = %v, %v; want %v", tc.clock, got, err, tc.want)
+			}
+		})
 	}
 	fall := time.Date(2026, 11, 1, 0, 0, 0, 0, loc)
 	got, err := ParseClock("01:30", fall, loc)

@@ -20,6 +20,7 @@ const (
 	AltimeterSetting
 )
 
+// String is the kind as weather.csv's baro_kind writes it.
 func (k PressureKind) String() string {
 	if k == AltimeterSetting {
 		return "altimeter"

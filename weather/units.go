@@ -54,6 +54,7 @@ const (
 	DegC
 )
 
+// String is the unit's symbol.
 func (u TempUnit) String() string {
 	if u == DegC {
 		return "°C"
@@ -134,6 +135,7 @@ const (
 	UnitKPa
 )
 
+// String is the unit's symbol.
 func (u PressureUnit) String() string {
 	switch u {
 	case UnitHPa:
@@ -215,6 +217,7 @@ const (
 	UnitM
 )
 
+// String is the unit's symbol.
 func (u LengthUnit) String() string {
 	if u == UnitM {
 		return "m"
@@ -312,6 +315,7 @@ const (
 	UnitMPS
 )
 
+// String is the unit's symbol.
 func (u SpeedUnit) String() string {
 	switch u {
 	case UnitKMH:
@@ -389,6 +393,7 @@ const (
 	UnitKg
 )
 
+// String is the unit's symbol.
 func (u WeightUnit) String() string {
 	if u == UnitKg {
 		return "kg"

@@ -2,6 +2,7 @@ package weather
 
 import (
 	"errors"
+	"fmt"
 	"math"
 	"strings"
 	"testing"
@@ -20,10 +21,12 @@ func TestParseQuantities(t *testing.T) {
 		{"-40f", DegF, -40}, {"-40C", DegF, -40}, {"72", DegF, 72}, {"20", DegC, 68}, {" 100c ", DegF, 212},
 	}
 	for _, tc := range temps {
-		got, err := ParseTemperature(tc.in, tc.bare)
-		if err != nil || !near(got.Fahrenheit(), tc.f) {
-			t.Errorf("ParseTemperature(%q) = %v °F, %v; want %v °F", tc.in, got.Fahrenheit(), err, tc.f)
-		}
+		t.Run(tc.in, func(t *testing.T) {
+			got, err := ParseTemperature(tc.in, tc.bare)
+			if err != nil || !near(got.Fahrenheit(), tc.f) {
+				t.Errorf("ParseTemperature(%q) = %v °F, %v; want %v °F", tc.in, got.Fahrenheit(), err, tc.f)
+			}
+		})
 	}
 	pressures := []struct {
 		in   string
@@ -35,10 +38,12 @@ func TestParseQuantities(t *testing.T) {
 		{"98.6kPa", UnitInHg, 98600}, {"29.92", UnitInHg, 29.92 * 3386.389}, {"1013.25", UnitHPa, 101325},
 	}
 	for _, tc := range pressures {
-		got, err := ParsePressure(tc.in, tc.bare)
-		if err != nil || !near(got.Pa(), tc.pa) {
-			t.Errorf("ParsePressure(%q) = %v Pa, %v; want %v", tc.in, got.Pa(), err, tc.pa)
-		}
+		t.Run(tc.in, func(t *testing.T) {
+			got, err := ParsePressure(tc.in, tc.bare)
+			if err != nil || !near(got.Pa(), tc.pa) {
+				t.Errorf("ParsePressure(%q) = %v Pa, %v; want %v", tc.in, got.Pa(), err, tc.pa)
+			}
+		})
 	}
 	lengths := []struct {
 		in   string
@@ -48,10 +53,12 @@ func TestParseQuantities(t *testing.T) {
 		{"1850ft", UnitM, 1850 * 0.3048}, {"1850 ft", UnitM, 563.88}, {"564m", UnitFt, 564}, {"1000", UnitFt, 304.8},
 	}
 	for _, tc := range lengths {
-		got, err := ParseLength(tc.in, tc.bare)
-		if err != nil || !near(got.Metres(), tc.m) {
-			t.Errorf("ParseLength(%q) = %v m, %v; want %v", tc.in, got.Metres(), err, tc.m)
-		}
+		t.Run(tc.in, func(t *testing.T) {
+			got, err := ParseLength(tc.in, tc.bare)
+			if err != nil || !near(got.Metres(), tc.m) {
+				t.Errorf("ParseLength(%q) = %v m, %v; want %v", tc.in, got.Metres(), err, tc.m)
+			}
+		})
 	}
 	speeds := []struct {
 		in   string
@@ -62,15 +69,19 @@ func TestParseQuantities(t *testing.T) {
 		{"10kt", UnitMPH, 10 * 1852.0 / 3600}, {"5", UnitMPH, 2.2352},
 	}
 	for _, tc := range speeds {
-		got, err := ParseSpeed(tc.in, tc.bare)
-		if err != nil || !near(got.MPS(), tc.mps) {
-			t.Errorf("ParseSpeed(%q) = %v m/s, %v; want %v", tc.in, got.MPS(), err, tc.mps)
-		}
+		t.Run(tc.in, func(t *testing.T) {
+			got, err := ParseSpeed(tc.in, tc.bare)
+			if err != nil || !near(got.MPS(), tc.mps) {
+				t.Errorf("ParseSpeed(%q) = %v m/s, %v; want %v", tc.in, got.MPS(), err, tc.mps)
+			}
+		})
 	}
 	for in, want := range map[string]float64{"45": 0.45, "45%": 0.45, "45 %RH": 0.45, "0": 0} {
-		if got, err := ParsePercent(in); err != nil || !near(got, want) {
-			t.Errorf("ParsePercent(%q) = %v, %v", in, got, err)
-		}
+		t.Run(in, func(t *testing.T) {
+			if got, err := ParsePercent(in); err != nil || !near(got, want) {
+				t.Errorf("ParsePercent(%q) = %v, %v", in, got, err)
+			}
+		})
 	}
 }
 
@@ -90,40 +101,44 @@ func TestParseErrorsNameTheProblem(t *testing.T) {
 		{"50g/kg", func(s string) error { _, err := ParsePercent(s); return err }, "percent"},
 	}
 	for _, tc := range cases {
-		err := tc.fn(tc.in)
-		var ie *InputError
-		if !errors.As(err, &ie) {
-			t.Errorf("%q: error %v is not an InputError", tc.in, err)
-			continue
-		}
-		if !strings.Contains(err.Error(), tc.want) || ie.Value != tc.in {
-			t.Errorf("%q: error %q should contain %q and quote the value", tc.in, err, tc.want)
-		}
+		t.Run(fmt.Sprintf("%q", tc.in), func(t *testing.T) {
+			err := tc.fn(tc.in)
+			var ie *InputError
+			if !errors.As(err, &ie) {
+				t.Errorf("%q: error %v is not an InputError", tc.in, err)
+				return
+			}
+			if !strings.Contains(err.Error(), tc.want) || ie.Value != tc.in {
+				t.Errorf("%q: error %q should contain %q and quote the value", tc.in, err, tc.want)
+			}
+		})
 	}
 }
 
 func TestFormatRoundTrip(t *testing.T) {
 	for _, u := range []Units{Imperial, Metric} {
-		temp := Fahrenheit(88.3)
-		back, err := ParseTemperature(temp.Format(u.Temp, 1), DegF)
-		if err != nil || math.Abs(back.Fahrenheit()-88.3) > 0.1 {
-			t.Errorf("%s: temperature %q came back as %v (%v)", u.Name(), temp.Format(u.Temp, 1), back, err)
-		}
-		p := InHg(29.12)
-		pb, err := ParsePressure(p.Format(u.Pressure), UnitInHg)
-		if err != nil || math.Abs(pb.HPa()-p.HPa()) > 0.06 {
-			t.Errorf("%s: pressure %q came back as %v (%v)", u.Name(), p.Format(u.Pressure), pb, err)
-		}
-		l := Feet(1850)
-		lb, err := ParseLength(l.Format(u.Length), UnitFt)
-		if err != nil || math.Abs(lb.Metres()-l.Metres()) > 0.5 {
-			t.Errorf("%s: length %q came back as %v (%v)", u.Name(), l.Format(u.Length), lb, err)
-		}
-		v := MPH(8)
-		vb, err := ParseSpeed(v.Format(u.Speed, 1), UnitMPH)
-		if err != nil || math.Abs(vb.MPH()-8) > 0.05 {
-			t.Errorf("%s: speed %q came back as %v (%v)", u.Name(), v.Format(u.Speed, 1), vb, err)
-		}
+		t.Run(u.Name(), func(t *testing.T) {
+			temp := Fahrenheit(88.3)
+			back, err := ParseTemperature(temp.Format(u.Temp, 1), DegF)
+			if err != nil || math.Abs(back.Fahrenheit()-88.3) > 0.1 {
+				t.Errorf("%s: temperature %q came back as %v (%v)", u.Name(), temp.Format(u.Temp, 1), back, err)
+			}
+			p := InHg(29.12)
+			pb, err := ParsePressure(p.Format(u.Pressure), UnitInHg)
+			if err != nil || math.Abs(pb.HPa()-p.HPa()) > 0.06 {
+				t.Errorf("%s: pressure %q came back as %v (%v)", u.Name(), p.Format(u.Pressure), pb, err)
+			}
+			l := Feet(1850)
+			lb, err := ParseLength(l.Format(u.Length), UnitFt)
+			if err != nil || math.Abs(lb.Metres()-l.Metres()) > 0.5 {
+				t.Errorf("%s: length %q came back as %v (%v)", u.Name(), l.Format(u.Length), lb, err)
+			}
+			v := MPH(8)
+			vb, err := ParseSpeed(v.Format(u.Speed, 1), UnitMPH)
+			if err != nil || math.Abs(vb.MPH()-8) > 0.05 {
+				t.Errorf("%s: speed %q came back as %v (%v)", u.Name(), v.Format(u.Speed, 1), vb, err)
+			}
+		})
 	}
 }
 

@@ -66,19 +66,19 @@ func (f *mapFlags) source(s *IOStreams, e *eventFolder, path string, kind colmap
 		defaults["track"] = trk.Name
 	}
 	guess, notes := colmap.Guess(data, path, kind, defaults)
-	text := guess.YAML()
+	mapText := guess.YAML()
 	fmt.Fprintf(s.Out, "%s is not in pitcard's columns. The map pitcard guesses from its header (%s):\n\n%s\n",
-		path, colmap.Sniff(data), indent(string(text)))
+		path, colmap.Sniff(data), indent(string(mapText)))
 	for _, n := range notes {
 		fmt.Fprintln(s.Out, "  note:", n)
 	}
 	if f.WriteMap != "" {
-		if err := safefile.WriteNoBackup(f.WriteMap, text); err != nil {
+		if err := safefile.WriteNoBackup(f.WriteMap, mapText); err != nil {
 			return src, fmt.Errorf("writing %s: %w", f.WriteMap, err)
 		}
 		fmt.Fprintf(s.Out, "Wrote the map to %s: edit it and import with --map %s.\n", f.WriteMap, f.WriteMap)
 	}
-	m, err := colmap.Read(text, "the guessed map", kind)
+	m, err := colmap.Read(mapText, "the guessed map", kind)
 	if f.WriteMap != "" && !f.Yes { // the map was asked for, and written: done
 		if err != nil {
 			fmt.Fprintf(s.Out, "Nothing was imported: the map is not enough yet (%v); complete it, then import with --map %s.\n", err, f.WriteMap)

@@ -55,15 +55,15 @@ var figureRe = regexp.MustCompile(`[-+]?\d+(?:[.:]\d+)*(?:-\d+)*`)
 // in order (a longest common subsequence), and each figure that differs is
 // named by its row's label and its place in the row; lines without a pair
 // are listed as removed or added.
-func figureChanges(old, new string) []string {
-	ol, nl := strings.Split(old, "\n"), strings.Split(new, "\n")
+func figureChanges(old, newText string) []string {
+	ol, nl := strings.Split(old, "\n"), strings.Split(newText, "\n")
 	shape := func(l string) string { return strings.Join(strings.Fields(figureRe.ReplaceAllString(l, "#")), " ") }
-	os, ns := make([]string, len(ol)), make([]string, len(nl))
+	oldShapes, newShapes := make([]string, len(ol)), make([]string, len(nl))
 	for i, l := range ol {
-		os[i] = shape(l)
+		oldShapes[i] = shape(l)
 	}
 	for j, l := range nl {
-		ns[j] = shape(l)
+		newShapes[j] = shape(l)
 	}
 	// lcs[i][j]: the longest common subsequence of os[i:] and ns[j:]
 	lcs := make([][]int, len(ol)+1)
@@ -72,7 +72,7 @@ func figureChanges(old, new string) []string {
 	}
 	for i := len(ol) - 1; i >= 0; i-- {
 		for j := len(nl) - 1; j >= 0; j-- {
-			if os[i] == ns[j] {
+			if oldShapes[i] == newShapes[j] {
 				lcs[i][j] = lcs[i+1][j+1] + 1
 			} else {
 				lcs[i][j] = max(lcs[i+1][j], lcs[i][j+1])
@@ -114,7 +114,7 @@ func figureChanges(old, new string) []string {
 	i, j := 0, 0
 	for i < len(ol) || j < len(nl) {
 		switch {
-		case i < len(ol) && j < len(nl) && os[i] == ns[j]:
+		case i < len(ol) && j < len(nl) && oldShapes[i] == newShapes[j]:
 			olab, of := row(ol[i])
 			nlab, nf := row(nl[j])
 			if olab != nlab {
@@ -138,7 +138,7 @@ func figureChanges(old, new string) []string {
 			i++
 		}
 	}
-	if len(out) == 0 && old != new {
+	if len(out) == 0 && old != newText {
 		out = append(out, "no figure changed (spacing only)")
 	}
 	return out
@@ -148,8 +148,8 @@ func figureChanges(old, new string) []string {
 // listed as added (the golden card's diff reader: no source needed).
 func TestFigureChanges(t *testing.T) {
 	old := "## Post this dial-in: **11.40**\n│ CF J1349 (2004) / DIN │ 1.0947 / 1.0990 │ 1.0940 / 1.0983 │\n| 11.37 | 0.0 % | 0.070 s |  |\nDrag racing can kill."
-	new := "## Post this dial-in: **11.39**\n│ CF J1349 (2004) / DIN │ 1.0947 / 1.0871 │ 1.0940 / 1.0983 │\n| 11.37 | 0.1 % | 0.070 s |  |\nA new line of 3 words.\nDrag racing can kill."
-	got := figureChanges(old, new)
+	changed := "## Post this dial-in: **11.39**\n│ CF J1349 (2004) / DIN │ 1.0947 / 1.0871 │ 1.0940 / 1.0983 │\n| 11.37 | 0.1 % | 0.070 s |  |\nA new line of 3 words.\nDrag racing can kill."
+	got := figureChanges(old, changed)
 	want := []string{
 		"Post this dial-in: 11.40 → 11.39",
 		"CF J1349 (2004) / DIN: 1.0990 → 1.0871 (figure 2 of 4)",

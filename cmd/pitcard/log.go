@@ -462,12 +462,12 @@ func passNotes(p logbook.Pass) string {
 	return "changed: " + c + "; " + p.Notes
 }
 
-// sec prints a slip time with at least min decimals, or "" when not timed.
-func sec(d decimal.NullDecimal, min int) string {
+// sec prints a slip time with at least places decimals, or "" when not timed.
+func sec(d decimal.NullDecimal, places int) string {
 	if !d.Valid {
 		return ""
 	}
-	return logbook.FormatSeconds(d.Decimal, min)
+	return logbook.FormatSeconds(d.Decimal, places)
 }
 
 type logStatsOptions struct {

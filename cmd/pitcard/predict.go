@@ -100,7 +100,7 @@ func forecastNext(e *eventFolder, cond conditionFlags, prepFlag, weightFlag, cha
 	if err != nil {
 		return n, err
 	}
-	prep, err := event.PrepLevel(prepFlag, c.Track)
+	prepLvl, err := event.PrepLevel(prepFlag, c.Track)
 	if err != nil {
 		return n, err
 	}
@@ -120,7 +120,7 @@ func forecastNext(e *eventFolder, cond conditionFlags, prepFlag, weightFlag, cha
 		upTo = passes[len(passes)-1].Time
 	}
 	pred, fit, err := engine.Forecast(engine.CalibrateInput{Car: car, Track: c.Track, Tracks: tracks, Passes: passes, Now: upTo, DayStart: e.Settings.DayStart, Aborts: e.Settings.AbortWords, Changes: e.Settings.ChangeWords},
-		engine.PredictInput{Air: c.Reading, Prep: prep, WeightLb: weight, Time: when, Change: change}, e.HeldOut())
+		engine.PredictInput{Air: c.Reading, Prep: prepLvl, WeightLb: weight, Time: when, Change: change}, e.HeldOut())
 	if err != nil {
 		return n, err
 	}
@@ -128,7 +128,7 @@ func forecastNext(e *eventFolder, cond conditionFlags, prepFlag, weightFlag, cha
 	if c.BadRows != nil {
 		leftOut = errors.Join(leftOut, c.BadRows)
 	}
-	return nextPass{Car: car, Cond: c, Pred: pred, Fit: fit, When: when, Prep: prep, Units: e.Settings.Units, LeftOut: leftOut}, nil
+	return nextPass{Car: car, Cond: c, Pred: pred, Fit: fit, When: when, Prep: prepLvl, Units: e.Settings.Units, LeftOut: leftOut}, nil
 }
 
 func predictRun(cmd *cobra.Command, o *predictOptions) error {

@@ -114,11 +114,11 @@ func firstComment(src string) string {
 		}
 		words = append(words, c)
 	}
-	text := strings.Join(words, " ")
-	if i := strings.Index(text, ". "); i >= 0 {
-		text = text[:i+1]
+	joined := strings.Join(words, " ")
+	if i := strings.Index(joined, ". "); i >= 0 {
+		joined = joined[:i+1]
 	}
-	return text
+	return joined
 }
 
 func newRulesCheckCmd(s *IOStreams, g *globalOptions) *cobra.Command {

@@ -248,8 +248,9 @@ func TestLogAddWarnsOfADialFarFromTheETs(t *testing.T) {
 // 'round' asks, 'weather add' refuses unless --replace.
 func TestRoundOnAFullDiskStillPrintsTheCard(t *testing.T) {
 	dir := demoCopy(t)
+	saved := safefile.FailWrites
+	t.Cleanup(func() { safefile.FailWrites = saved }) // the seam is the process's: give it back as found
 	safefile.FailWrites = func(string) error { return syscall.ENOSPC }
-	defer func() { safefile.FailWrites = nil }()
 	out, errs, code := pitcardIn(t, "E3\n81.5F\n\n\n\n\n\nleft\n\n", "round", "--dir", dir, "--no-log")
 	if code != 1 || !strings.Contains(out, "POST THIS") || !strings.Contains(errs, "the reading was NOT saved") ||
 		!strings.Contains(errs, "no space left on device") || !strings.Contains(out, "81.5 °F") {

@@ -21,12 +21,15 @@ import (
 	"pitcard/weather"
 )
 
-// Seeds of the drawn worlds: Tuning(i) for i = 1.. are the worlds a model is
-// tuned on; HeldOut(i) the worlds it is judged on and never tuned to.
-func Tuning(i int) uint64  { return uint64(i) }
+// Tuning is the start value of the i-th drawn world a model is tuned on
+// (i = 1..).
+func Tuning(i int) uint64 { return uint64(i) }
+
+// HeldOut is the start value of the i-th drawn world a model is judged on
+// and never tuned to (i = 1..).
 func HeldOut(i int) uint64 { return heldOutBase + uint64(i) }
 
-// heldOutBase puts the held-out seeds far from any tuning seed.
+// heldOutBase puts the held-out start values far from any tuning one.
 const heldOutBase = 100000
 
 // Skip is how many passes open each logbook before the first target: the
@@ -217,7 +220,8 @@ func (t *tally) add(day int, et, sd, dialSD, actual, oracle float64) {
 	}
 }
 
-// Covered: actual lies inside et ± 1.96 sd, the 95 % interval of a normal.
+// Covered reports whether actual lies inside et ± 1.96 sd, the 95 % interval
+// of a normal.
 func Covered(et, sd, actual float64) bool { return math.Abs(actual-et) <= 1.96*sd+1e-9 }
 
 // Dial is the dial posted for a breakout risk of risk: et plus the normal

@@ -25,16 +25,18 @@ func TestParseRefusesAndExplains(t *testing.T) {
 		{"name: X\n  bad: indent\n", []string{"car.yaml line 2", "not valid YAML"}},
 	}
 	for _, tc := range cases {
-		_, err := Parse([]byte(tc.yaml), "car.yaml")
-		if err == nil {
-			t.Errorf("%q: accepted", tc.yaml)
-			continue
-		}
-		for _, w := range tc.want {
-			if !strings.Contains(err.Error(), w) {
-				t.Errorf("%q: %q lacks %q", tc.yaml, err, w)
+		t.Run(tc.want[1], func(t *testing.T) {
+			_, err := Parse([]byte(tc.yaml), "car.yaml")
+			if err == nil {
+				t.Errorf("%q: accepted", tc.yaml)
+				return
 			}
-		}
+			for _, w := range tc.want {
+				if !strings.Contains(err.Error(), w) {
+					t.Errorf("%q: %q lacks %q", tc.yaml, err, w)
+				}
+			}
+		})
 	}
 	// quoted ".nan" is text the crew wrote on purpose
 	if _, err := Parse([]byte("note: \".nan\"\n"), "car.yaml"); err != nil {
@@ -64,24 +66,26 @@ func TestDecodeSpeaksPlainly(t *testing.T) {
 		{"name: X\nsurface: concrete\n", []string{"track.yaml line 2", "surface", "not a key of this file", "elevation_ft, name"}, "type"},
 		{"name: X\nelevation_ft: high\n", []string{"track.yaml line 2", "elevation_ft", "high", "is not a number"}, "float64"},
 	} {
-		d, err := Parse([]byte(tc.yaml), "track.yaml")
-		if err != nil {
-			t.Fatal(err)
-		}
-		var v track
-		err = d.Decode(&v, true)
-		if err == nil {
-			t.Errorf("%q decoded", tc.yaml)
-			continue
-		}
-		for _, w := range tc.want {
-			if !strings.Contains(err.Error(), w) {
-				t.Errorf("%q lacks %q", err, w)
+		t.Run(tc.want[1], func(t *testing.T) {
+			d, err := Parse([]byte(tc.yaml), "track.yaml")
+			if err != nil {
+				t.Fatal(err)
 			}
-		}
-		if strings.Contains(err.Error(), tc.not) {
-			t.Errorf("%q speaks Go: %q", err, tc.not)
-		}
+			var v track
+			err = d.Decode(&v, true)
+			if err == nil {
+				t.Errorf("%q decoded", tc.yaml)
+				return
+			}
+			for _, w := range tc.want {
+				if !strings.Contains(err.Error(), w) {
+					t.Errorf("%q lacks %q", err, w)
+				}
+			}
+			if strings.Contains(err.Error(), tc.not) {
+				t.Errorf("%q speaks Go: %q", err, tc.not)
+			}
+		})
 	}
 }
 
