@@ -388,137 +388,206 @@ func (o *OpponentFields) Build(s Settings, dial decimal.NullDecimal, passes []lo
 // leave part of the card blank (no weather log, a forecast too far ahead)
 // come back as warnings, not errors: the card still prints what it can.
 func (e *Folder) GatherRound(r RoundRequest, now time.Time) (prep.Input, []string, error) {
-	var in prep.Input
-	var warnings []string
-	// A broken car.yaml or logbook.csv does not stop the card: it prints
-	// what it can (the air, the rules, the checklist, the cautions) and
-	// says what is wrong; the command then exits 2.
-	var broken []error
-	car, err := e.Car()
-	if err != nil {
-		if !IsBadInput(err) {
-			return in, nil, err
+	g := &gathering{e: e, r: r, now: now}
+	for _, step := range []func() error{g.readFolder, g.readWeather, g.chooseSlot, g.chooseCall, g.readNotes, g.airAtCall, g.roundOptions, g.otherLane} {
+		if err := step(); err != nil {
+			return prep.Input{}, nil, err
 		}
-		broken = append(broken, err)
 	}
-	trk, err := e.Track()
+	in, err := g.input()
 	if err != nil {
-		return in, nil, err
+		return prep.Input{}, nil, err
 	}
-	passes, err := e.RecentLogbook()
+	if len(g.broken) > 0 {
+		return in, g.warnings, BrokenInput{g.broken}
+	}
+	return in, g.warnings, nil
+}
+
+// gathering is one GatherRound in progress: what the request asked, what
+// the folder holds, and what each step found. A step returns an error that
+// stops the card; bad input the card can print around goes to broken (a
+// broken car.yaml or logbook.csv does not stop the card: it prints what it
+// can, the air, the rules, the checklist, the cautions, and says what is
+// wrong; the command then exits 2).
+type gathering struct {
+	e        *Folder
+	r        RoundRequest
+	now      time.Time
+	broken   []error
+	warnings []string
+
+	car       engine.Car
+	trk       engine.Track
+	tracks    map[string]engine.Track
+	passes    []logbook.Pass
+	sched     prep.Schedule
+	haveSched bool
+	elev      weather.Length
+	log       []weather.Reading // the weather log, oldest first
+
+	slot     prep.Slot
+	haveSlot bool
+	call     time.Time
+	lane     logbook.Lane
+	notes    RoundNotes
+	opp      decimal.NullDecimal // the other lane's dial
+
+	air      weather.Reading
+	source   string
+	airNow   *weather.Reading
+	forecast *weather.Forecast
+
+	prepLvl, weight float64
+	change          string
+	planned         map[string]string
+	opponent        *bracket.Opponent
+	usRT            bracket.RTModel
+}
+
+// readFolder reads the car, the track and the other tracks, the logbook's
+// recent passes and the schedule, and the site's elevation.
+func (g *gathering) readFolder() error {
+	e, r := g.e, g.r
+	var err error
+	if g.car, err = e.Car(); err != nil {
+		if !IsBadInput(err) {
+			return err
+		}
+		g.broken = append(g.broken, err)
+	}
+	if g.trk, err = e.Track(); err != nil {
+		return err
+	}
+	g.passes, err = e.RecentLogbook()
 	switch {
 	case OnlyLeftOut(err) && err != nil: // the good rows are used, the bad ones named
-		broken = append(broken, err)
+		g.broken = append(g.broken, err)
 	case err != nil && !IsBadInput(err):
-		return in, nil, err
+		return err
 	case err != nil: // a header pitcard cannot read: no passes at all
-		broken = append(broken, err)
-		passes = nil
+		g.broken = append(g.broken, err)
+		g.passes = nil
 	}
-	tracks, err := e.OtherTracks()
-	if err != nil {
-		return in, nil, err
+	if g.tracks, err = e.OtherTracks(); err != nil {
+		return err
 	}
-	sched, haveSched, err := e.Schedule()
+	g.sched, g.haveSched, err = e.Schedule()
 	switch {
 	case err != nil && r.Round != "" && IsBadInput(err):
 		// the round is given: a broken schedule costs only its call time
-		broken = append(broken, err)
-		sched, haveSched = prep.Schedule{}, false
+		g.broken = append(g.broken, err)
+		g.sched, g.haveSched = prep.Schedule{}, false
 	case err != nil:
-		return in, nil, err
+		return err
 	}
-	elev, err := r.Reading.SiteElevation(e.Settings.Units, trk.Elevation(), true)
-	if err != nil {
-		return in, nil, err
-	}
-	log, badRows, err := e.ReadableWeather(elev)
+	g.elev, err = r.Reading.SiteElevation(e.Settings.Units, g.trk.Elevation(), true)
+	return err
+}
+
+// readWeather reads the weather log and sets the clock from it and the
+// schedule (ClockFor).
+func (g *gathering) readWeather() error {
+	e, r := g.e, g.r
+	log, badRows, err := e.ReadableWeather(g.elev)
 	if badRows != nil {
 		// Rows of weather.csv that cannot be read are named; the rest of
 		// the log is used, and the command exits 2, as for the logbook.
-		broken = append(broken, badRows)
+		g.broken = append(g.broken, badRows)
 	}
 	if err != nil {
 		// A corrupt weather.csv costs the card nothing when the flags give
 		// a whole reading: the card prints from them and names the bad
 		// row, and the command exits 2 as for a bad logbook row.
-		if _, ferr := r.Reading.ReadingAt(e.Settings.Units, now, nil); !IsBadInput(err) || ferr != nil {
-			return in, nil, err
+		if _, ferr := r.Reading.ReadingAt(e.Settings.Units, g.now, nil); !IsBadInput(err) || ferr != nil {
+			return err
 		}
-		broken = append(broken, fmt.Errorf("%w (the weather log could not be read: the card's air is the reading flags)", err))
+		g.broken = append(g.broken, fmt.Errorf("%w (the weather log could not be read: the card's air is the reading flags)", err))
 		log = nil
 	}
-	now, sched, warnings = e.ClockFor(sched, haveSched, log, now)
+	g.now, g.sched, g.warnings = e.ClockFor(g.sched, g.haveSched, log, g.now)
 	if r.Unsaved != nil { // a reading the disk refused: the card still uses it
 		log = append(log, *r.Unsaved)
 		SortReadings(log)
 	}
+	g.log = log
+	return nil
+}
 
-	// The session and its slot in the schedule.
-	var slot prep.Slot
-	haveSlot := false
+// chooseSlot is the session and its slot in the schedule: --round, or the
+// schedule's next round without a pass.
+func (g *gathering) chooseSlot() error {
 	switch {
-	case r.Round != "":
-		ses, err := logbook.ParseSession(r.Round)
+	case g.r.Round != "":
+		ses, err := logbook.ParseSession(g.r.Round)
 		if err != nil {
-			return in, nil, FlagErr(err, "--round")
+			return FlagErr(err, "--round")
 		}
-		slot.Session = ses
-		if s, ok := sched.Find(ses); ok {
-			slot, haveSlot = s, true
+		g.slot.Session = ses
+		if s, ok := g.sched.Find(ses); ok {
+			g.slot, g.haveSlot = s, true
 		}
-	case haveSched:
-		if s, ok := sched.Next(passes); ok {
-			slot, haveSlot = s, true
-		} else {
-			return in, nil, userErrf("every round of %s has a pass in the logbook: give --round for another", e.Name(ScheduleFile))
+	case g.haveSched:
+		s, ok := g.sched.Next(g.passes)
+		if !ok {
+			return userErrf("every round of %s has a pass in the logbook: give --round for another", g.e.Name(ScheduleFile))
 		}
+		g.slot, g.haveSlot = s, true
 	default:
-		return in, nil, userErrf("which round? give --round (3, E3, T2 ...), or write %s with the day's call times", ScheduleFile)
+		return userErrf("which round? give --round (3, E3, T2 ...), or write %s with the day's call times", ScheduleFile)
 	}
+	return nil
+}
 
-	// The call time: --at (on the schedule's race day, or the latest
-	// reading's, or today's), the schedule's, or now.
-	start := e.Settings.DayStart
-	day := start.Day(now)
+// chooseCall is the call time: --at (on the schedule's race day, or the
+// latest reading's, or today's), the schedule's, or now; and the lane.
+func (g *gathering) chooseCall() error {
+	start := g.e.Settings.DayStart
+	day := start.Day(g.now)
 	switch {
-	case haveSched:
-		day = sched.Date
-	case len(log) > 0:
-		day = start.Day(log[len(log)-1].Time)
+	case g.haveSched:
+		day = g.sched.Date
+	case len(g.log) > 0:
+		day = start.Day(g.log[len(g.log)-1].Time)
 	}
-	call := now
+	g.call = g.now
 	switch {
-	case r.At != "":
-		t, err := ParseWhen(r.At, day, start)
+	case g.r.At != "":
+		t, err := ParseWhen(g.r.At, day, start)
 		if err != nil {
-			return in, nil, FlagErr(err, "--at")
+			return FlagErr(err, "--at")
 		}
-		call = t
-	case haveSlot:
-		call = slot.Call
+		g.call = t
+	case g.haveSlot:
+		g.call = g.slot.Call
 	}
+	g.lane = g.slot.Lane
+	if g.r.Lane != "" {
+		lane, err := logbook.ParseLane(g.r.Lane)
+		if err != nil {
+			return FlagErr(err, "--lane")
+		}
+		g.lane = lane
+	}
+	return nil
+}
 
-	// The lane.
-	lane := slot.Lane
-	if r.Lane != "" {
-		if lane, err = logbook.ParseLane(r.Lane); err != nil {
-			return in, nil, FlagErr(err, "--lane")
-		}
-	}
-	// The round's notes: the other lane's dial entered earlier (on the
-	// page, say) and the checklist ticked.
-	notes, err := e.RoundNotes(call.Format(weather.DateLayout), slot.Session)
+// readNotes reads the round's notes (the other lane's dial and car entered
+// earlier, on the page say, the checklist ticked, the planned setup) and
+// the other lane's dial, --opponent-dial over the noted one.
+func (g *gathering) readNotes() error {
+	r := &g.r
+	notes, err := g.e.RoundNotes(g.call.Format(weather.DateLayout), g.slot.Session)
 	if err != nil {
 		if !IsBadInput(err) {
-			return in, nil, err
+			return err
 		}
-		broken = append(broken, err)
+		g.broken = append(g.broken, err)
 	}
-	opp := notes.OpponentDial
-	if opp.Valid && r.OpponentDial == "" {
-		warnings = append(warnings, fmt.Sprintf("the other lane's dial %s is the one noted for %s in %s (from the pit page); --opponent-dial replaces it",
-			logbook.FormatSeconds(opp.Decimal, 2), slot.Session, RoundsFile))
+	g.notes, g.opp = notes, notes.OpponentDial
+	if g.opp.Valid && r.OpponentDial == "" {
+		g.warnings = append(g.warnings, fmt.Sprintf("the other lane's dial %s is the one noted for %s in %s (from the pit page); --opponent-dial replaces it",
+			logbook.FormatSeconds(g.opp.Decimal, 2), g.slot.Session, RoundsFile))
 	}
 	if notes.OpponentCar != "" && r.Opponent.Car == "" { // named on the pit page
 		r.Opponent.Car = notes.OpponentCar
@@ -526,130 +595,147 @@ func (e *Folder) GatherRound(r RoundRequest, now time.Time) (prep.Input, []strin
 	if r.OpponentDial != "" {
 		d, err := logbook.ParseSeconds("--opponent-dial", r.OpponentDial)
 		if err != nil {
-			return in, nil, err
+			return err
 		}
 		if err := RangeErr("--opponent-dial", d, logbook.DialRange); err != nil {
-			return in, nil, err
+			return err
 		}
-		opp = decimal.NewNullDecimal(d)
+		g.opp = decimal.NewNullDecimal(d)
 	}
+	return nil
+}
 
-	// The air at the call: the log's forecast (flags replace its fields), or the flags alone.
-	var air weather.Reading
-	var source string
-	var airNow *weather.Reading
-	var forecast *weather.Forecast
+// airAtCall is the air at the call: the race day's log forecast to it (the
+// reading flags replace its fields), or the flags alone; checked against
+// the ranges at the site.
+func (g *gathering) airAtCall() error {
+	e, r, start := g.e, g.r, g.e.Settings.DayStart
 	// Only the call's race day's readings forecast its air.
 	var dayLog []weather.Reading
-	for _, r := range log {
-		if start.Same(r.Time, call) {
-			dayLog = append(dayLog, r)
+	for _, rd := range g.log {
+		if start.Same(rd.Time, g.call) {
+			dayLog = append(dayLog, rd)
 		}
 	}
-	if len(dayLog) == 0 && len(log) > 0 {
-		warnings = append(warnings, fmt.Sprintf("no weather reading on the race day of %s: the air is the last reading, of %s; take a fresh one",
-			start.Key(call), log[len(log)-1].Time.Format("2006-01-02 15:04")))
-		dayLog = log[len(log)-1:]
+	if len(dayLog) == 0 && len(g.log) > 0 {
+		g.warnings = append(g.warnings, fmt.Sprintf("no weather reading on the race day of %s: the air is the last reading, of %s; take a fresh one",
+			start.Key(g.call), g.log[len(g.log)-1].Time.Format("2006-01-02 15:04")))
+		dayLog = g.log[len(g.log)-1:]
 	}
-	log = dayLog
+	var err error
 	switch {
-	case len(log) > 0:
-		last := log[len(log)-1]
-		airNow = &last
+	case len(dayLog) > 0:
+		last := dayLog[len(dayLog)-1]
+		g.airNow = &last
 		base := last
-		source = "the " + last.Time.Format("15:04") + " reading"
-		if f, err := weather.ForecastAt(log, call, elev); err == nil {
-			forecast = &f
+		g.source = "the " + last.Time.Format("15:04") + " reading"
+		if f, ferr := weather.ForecastAt(dayLog, g.call, g.elev); ferr == nil {
+			g.forecast = &f
 			base = f.Reading
-			source = "forecast for " + call.Format("15:04") + ": " + strings.Join(f.Notes, "; ")
+			g.source = "forecast for " + g.call.Format("15:04") + ": " + strings.Join(f.Notes, "; ")
 			if !f.Trusted {
-				warnings = append(warnings, "the weather forecast is not to be trusted: "+strings.Join(f.Notes, "; "))
+				g.warnings = append(g.warnings, "the weather forecast is not to be trusted: "+strings.Join(f.Notes, "; "))
 			}
 		} else {
-			warnings = append(warnings, fmt.Sprintf("no forecast for the %s call (%v): the air is the %s reading", call.Format("15:04"), err, last.Time.Format("15:04")))
+			g.warnings = append(g.warnings, fmt.Sprintf("no forecast for the %s call (%v): the air is the %s reading", g.call.Format("15:04"), ferr, last.Time.Format("15:04")))
 		}
-		if air, err = r.Reading.ReadingAt(e.Settings.Units, call, &base); err != nil {
-			return in, nil, err
+		if g.air, err = r.Reading.ReadingAt(e.Settings.Units, g.call, &base); err != nil {
+			return err
 		}
 		if r.Reading.Given() {
-			source += ", with the flags given"
+			g.source += ", with the flags given"
 		}
 	case r.Reading.Given():
-		if air, err = r.Reading.ReadingAt(e.Settings.Units, call, nil); err != nil {
-			return in, nil, err
+		if g.air, err = r.Reading.ReadingAt(e.Settings.Units, g.call, nil); err != nil {
+			return err
 		}
-		source = "the reading flags"
+		g.source = "the reading flags"
 	default:
-		return in, nil, userErrf("no air for the round: %s has no readings; add one with 'pitcard weather add' or give --temp, --baro and --humidity",
+		return userErrf("no air for the round: %s has no readings; add one with 'pitcard weather add' or give --temp, --baro and --humidity",
 			e.Name(WeatherFile))
 	}
-	if err := ValidateFields(air, elev, e.Settings.Units); err != nil {
-		return in, nil, err
+	if err := ValidateFields(g.air, g.elev, e.Settings.Units); err != nil {
+		return err
 	}
-	if w := air.PressureWarning(elev); w != "" {
-		warnings = append(warnings, w)
+	if w := g.air.PressureWarning(g.elev); w != "" {
+		g.warnings = append(g.warnings, w)
 	}
-	air.Time = call
-	prepLvl, err := PrepLevel(r.Prep, trk)
-	if err != nil {
-		return in, nil, err
+	g.air.Time = g.call
+	return nil
+}
+
+// roundOptions reads what the crew set for the round: the track's prep,
+// the weight as run, a change to the car, the planned setup.
+func (g *gathering) roundOptions() error {
+	e, r := g.e, g.r
+	var err error
+	if g.prepLvl, err = PrepLevel(r.Prep, g.trk); err != nil {
+		return err
 	}
-	weight := 0.0
 	if r.Weight != "" {
-		if weight, err = logbook.ParseWeightLb("--weight", r.Weight, e.Settings.Units.Weight); err != nil {
-			return in, nil, err
+		if g.weight, err = logbook.ParseWeightLb("--weight", r.Weight, e.Settings.Units.Weight); err != nil {
+			return err
 		}
 	}
-	change, err := logbook.ParseChange("--change", r.Change)
-	if err != nil {
-		return in, nil, err
+	if g.change, err = logbook.ParseChange("--change", r.Change); err != nil {
+		return err
 	}
-	planned, noted, err := plannedSetup(r.Set, notes.Setup, car.Setup, e.Name(RoundsFile))
+	planned, noted, err := plannedSetup(r.Set, g.notes.Setup, g.car.Setup, e.Name(RoundsFile))
 	if err != nil {
-		return in, nil, err
+		return err
 	}
 	if noted != nil { // a noted setup that no longer reads: the card plans without it and says so
-		broken = append(broken, noted)
+		g.broken = append(g.broken, noted)
 	}
-	book, err := e.OpponentBook()
+	g.planned = planned
+	return nil
+}
+
+// otherLane is what is known of the other lane (its dial, and its car's
+// history in the opponent book) and of our driver's reaction times.
+func (g *gathering) otherLane() error {
+	r := g.r
+	book, err := g.e.OpponentBook()
 	if err != nil && !IsBadInput(err) {
-		return in, nil, err
+		return err
 	}
 	if err != nil { // a wrong header: the car's history is unknown, the card prints
-		broken = append(broken, err)
+		g.broken = append(g.broken, err)
 	} else if bad := book.BadRows(); bad != nil && r.Opponent.Car != "" {
-		broken = append(broken, bad)
+		g.broken = append(g.broken, bad)
 	}
-	if r.Opponent.Car != "" && !opp.Valid {
-		warnings = append(warnings, fmt.Sprintf("--opponent %s: the chance to win needs the other lane's dial too (--opponent-dial)", r.Opponent.Car))
+	if r.Opponent.Car != "" && !g.opp.Valid {
+		g.warnings = append(g.warnings, fmt.Sprintf("--opponent %s: the chance to win needs the other lane's dial too (--opponent-dial)", r.Opponent.Car))
 	}
-	opponent, usRT, err := r.Opponent.Build(e.Settings, opp, passes, book)
-	if err != nil {
-		return in, nil, err
-	}
+	g.opponent, g.usRT, err = r.Opponent.Build(g.e.Settings, g.opp, g.passes, book)
+	return err
+}
+
+// input is the card's input from what the steps found, with the crew's
+// rules loaded and the problems the card prints.
+func (g *gathering) input() (prep.Input, error) {
+	e := g.e
 	rules, err := scripts.Load(e.FS, e.Settings.RuleLimits)
 	if err != nil {
-		return in, nil, err
+		return prep.Input{}, err
 	}
-	in = prep.Input{
-		Car: car, Track: trk, Tracks: tracks, Passes: passes,
+	in := prep.Input{
+		Car: g.car, Track: g.trk, Tracks: g.tracks, Passes: g.passes,
 		Settings: prep.Settings{Units: e.Settings.Units, DialStep: e.Settings.DialStep, BreakoutRisk: e.Settings.BreakoutRisk,
 			MaxRuleAdjust: e.Settings.MaxAdjust, RuleLimits: e.Settings.RuleLimits, MaxReadingAge: e.Settings.MaxReadingAge,
 			CrossCheckMax: e.Settings.CrossCheckMax,
 			DayStart:      e.Settings.DayStart, Aborts: e.Settings.AbortWords, Changes: e.Settings.ChangeWords},
-		Session: slot.Session, Lane: lane, OpponentDial: opp, Opponent: opponent, UsRT: usRT, PostBestForWin: e.Settings.PostBestForWin, Call: call, Now: now,
-		Air: air, AirSource: source, AirNow: airNow, Forecast: forecast, Elevation: elev, Prep: prepLvl, WeightLb: weight, Change: change,
-		Setup: planned,
-		Rules: rules, RulesFS: e.FS, Ticked: notes.Ticked, HeldOut: e.HeldOut(),
+		Session: g.slot.Session, Lane: g.lane, OpponentDial: g.opp, Opponent: g.opponent, UsRT: g.usRT, PostBestForWin: e.Settings.PostBestForWin,
+		Call: g.call, Now: g.now,
+		Air: g.air, AirSource: g.source, AirNow: g.airNow, Forecast: g.forecast, Elevation: g.elev, Prep: g.prepLvl, WeightLb: g.weight,
+		Change: g.change, Setup: g.planned,
+		Rules: rules, RulesFS: e.FS, Ticked: g.notes.Ticked, HeldOut: e.HeldOut(),
 	}
-	for _, b := range broken {
+	for _, b := range g.broken {
 		in.Problems = append(in.Problems, b.Error())
 	}
-	in.Problems = append(in.Problems, car.Warnings...)
-	if len(broken) > 0 {
-		return in, warnings, BrokenInput{broken}
-	}
-	return in, warnings, nil
+	in.Problems = append(in.Problems, g.car.Warnings...)
+	return in, nil
 }
 
 // BrokenInput is bad input the card could print around: the input is
