@@ -130,25 +130,67 @@ func settingNumber(key, text, valid string) (decimal.Decimal, error) {
 // front end's > PITCARD_* environment > pitcard.yaml > defaults.
 func Open(o OpenOptions) (*Folder, error) {
 	e := &Folder{Demo: o.Demo, CarPath: o.CarFile, TrackPath: o.TrackFile, LogbookPath: o.LogbookFile, Loc: o.Loc}
-	if o.Demo {
-		e.FS = Demo(scripts.Shipped())
-	} else {
-		st, err := os.Stat(o.Dir)
-		switch {
-		case err == nil && !st.IsDir():
-			return nil, userErrf("--dir %q is a file, not an event folder: give the folder that holds car.yaml and track.yaml", o.Dir)
-		case errors.Is(err, fs.ErrNotExist):
-			return nil, userErrf("event folder %q does not exist (create one with 'pitcard init %s', or pass --dir)", o.Dir, o.Dir)
-		case err != nil:
-			return nil, fmt.Errorf("event folder %q: %w", o.Dir, err)
-		}
-		e.Dir, e.FS = o.Dir, os.DirFS(o.Dir)
+	if err := e.openFS(o); err != nil {
+		return nil, err
 	}
 	if o.Environ != nil {
 		if err := checkVariables(o.Environ()); err != nil {
 			return nil, err
 		}
 	}
+	src, err := e.settingSources(o)
+	if err != nil {
+		return nil, err
+	}
+	for _, read := range []func(*Settings, settingSource) error{readPostingSettings, readRuleSettings, readRaceSettings} {
+		if err := read(&e.Settings, src); err != nil {
+			return nil, err
+		}
+	}
+	return e, nil
+}
+
+// openFS opens the folder's files: the built-in demo, or the folder o.Dir,
+// which must exist and be a folder.
+func (e *Folder) openFS(o OpenOptions) error {
+	if o.Demo {
+		e.FS = Demo(scripts.Shipped())
+		return nil
+	}
+	st, err := os.Stat(o.Dir)
+	switch {
+	case err == nil && !st.IsDir():
+		return userErrf("--dir %q is a file, not an event folder: give the folder that holds car.yaml and track.yaml", o.Dir)
+	case errors.Is(err, fs.ErrNotExist):
+		return userErrf("event folder %q does not exist (create one with 'pitcard init %s', or pass --dir)", o.Dir, o.Dir)
+	case err != nil:
+		return fmt.Errorf("event folder %q: %w", o.Dir, err)
+	}
+	e.Dir, e.FS = o.Dir, os.DirFS(o.Dir)
+	return nil
+}
+
+// settingSource is the settings as given, by key (the defaults, under
+// pitcard.yaml, under the PITCARD_ variables, under the front end's), and
+// where a bad one came from.
+type settingSource struct {
+	v *viper.Viper
+	// bad names a bad setting where it came from: the flag, the PITCARD_
+	// variable, or pitcard.yaml's line.
+	bad func(key string, err error) error
+}
+
+// get is a setting's value as given.
+func (src settingSource) get(key string) string { return src.v.GetString(key) }
+
+// outside is the error of a setting's value outside its valid range.
+func (src settingSource) outside(key, valid string) error {
+	return src.bad(key, &weather.InputError{Field: key, Value: src.get(key), Reason: "is outside " + valid})
+}
+
+// settingSources reads pitcard.yaml (its keys checked), the environment
+// and the front end's settings over the defaults.
+func (e *Folder) settingSources(o OpenOptions) (settingSource, error) {
 	v := viper.New()
 	for k, d := range SettingDefaults {
 		v.SetDefault(k, d)
@@ -162,15 +204,15 @@ func Open(o OpenOptions) (*Folder, error) {
 	var settingsDoc *yamlfile.Doc
 	if data, err := fs.ReadFile(e.FS, SettingsFile); err == nil {
 		if err := CheckSettingsKeys(data, e.Name(SettingsFile)); err != nil {
-			return nil, err
+			return settingSource{}, err
 		}
 		settingsDoc, _ = yamlfile.Parse(data, e.Name(SettingsFile))
 		v.SetConfigType("yaml")
 		if err := v.ReadConfig(bytes.NewReader(data)); err != nil {
-			return nil, userErrf("%s: %v", e.Name(SettingsFile), err)
+			return settingSource{}, userErrf("%s: %v", e.Name(SettingsFile), err)
 		}
 	} else if !errors.Is(err, fs.ErrNotExist) {
-		return nil, err
+		return settingSource{}, err
 	}
 	for k := range SettingDefaults { // the environment over the file, the front end's over both
 		if val := env(k); val != "" {
@@ -180,9 +222,7 @@ func Open(o OpenOptions) (*Folder, error) {
 	for k, val := range o.Set {
 		v.Set(k, val)
 	}
-	// settingErr names a bad setting where it came from: the flag, the
-	// PITCARD_ variable, or pitcard.yaml's line.
-	settingErr := func(key string, err error) error {
+	bad := func(key string, err error) error {
 		var ie *weather.InputError
 		if !errors.As(err, &ie) {
 			return err
@@ -197,80 +237,106 @@ func Open(o OpenOptions) (*Folder, error) {
 		}
 		return &c
 	}
-	s := &e.Settings
+	return settingSource{v: v, bad: bad}, nil
+}
+
+// readPostingSettings reads what posting a dial takes: the units, the dial
+// step, the breakout risk, the tree and the reaction time's zero, how far
+// the rules may move the dial, and which dial is posted.
+func readPostingSettings(s *Settings, src settingSource) error {
 	var err error
-	if s.Units, err = weather.ParseUnits(v.GetString("units")); err != nil {
-		return nil, settingErr("units", err)
+	if s.Units, err = weather.ParseUnits(src.get("units")); err != nil {
+		return src.bad("units", err)
 	}
-	step, err := settingNumber("dial_step", v.GetString("dial_step"), "0.001..0.1 s")
+	step, err := settingNumber("dial_step", src.get("dial_step"), "0.001..0.1 s")
 	if err != nil {
-		return nil, settingErr("dial_step", err)
+		return src.bad("dial_step", err)
 	}
 	if step.LessThan(decimal.New(1, -3)) || step.GreaterThan(decimal.New(1, -1)) {
-		return nil, settingErr("dial_step", &weather.InputError{Field: "dial_step", Value: v.GetString("dial_step"), Reason: "is outside 0.001..0.1 s"})
+		return src.outside("dial_step", "0.001..0.1 s")
 	}
 	s.DialStep = step
 	riskWords := fmt.Sprintf("%g..%g, a fraction: 0.10 accepts a 10 %% breakout chance", bracket.RiskRange[0], bracket.RiskRange[1])
-	risk, err := settingNumber("breakout_risk", v.GetString("breakout_risk"), riskWords)
+	risk, err := settingNumber("breakout_risk", src.get("breakout_risk"), riskWords)
 	if err != nil {
-		return nil, settingErr("breakout_risk", err)
+		return src.bad("breakout_risk", err)
 	}
 	s.BreakoutRisk = risk.InexactFloat64()
 	if r := s.BreakoutRisk; !(r >= bracket.RiskRange[0] && r <= bracket.RiskRange[1]) {
-		return nil, settingErr("breakout_risk", &weather.InputError{Field: "breakout_risk", Value: v.GetString("breakout_risk"),
-			Reason: "is outside " + strings.Replace(riskWords, ", ", " (", 1) + ")"})
+		return src.outside("breakout_risk", strings.Replace(riskWords, ", ", " (", 1)+")")
 	}
-	if s.Tree, err = bracket.ParseTree(v.GetString("tree")); err != nil {
-		return nil, settingErr("tree", err)
+	if s.Tree, err = bracket.ParseTree(src.get("tree")); err != nil {
+		return src.bad("tree", err)
 	}
-	if s.RTZero, err = bracket.ParseRTZero(v.GetString("rt_zero")); err != nil {
-		return nil, settingErr("rt_zero", err)
+	if s.RTZero, err = bracket.ParseRTZero(src.get("rt_zero")); err != nil {
+		return src.bad("rt_zero", err)
 	}
-	adj, err := settingNumber("max_rule_adjust", v.GetString("max_rule_adjust"), "0..1 s")
+	adj, err := settingNumber("max_rule_adjust", src.get("max_rule_adjust"), "0..1 s")
 	if err != nil {
-		return nil, settingErr("max_rule_adjust", err)
+		return src.bad("max_rule_adjust", err)
 	}
 	if adj.IsNegative() || adj.GreaterThan(decimal.NewFromInt(1)) {
-		return nil, settingErr("max_rule_adjust", &weather.InputError{Field: "max_rule_adjust", Value: v.GetString("max_rule_adjust"), Reason: "is outside 0..1 s"})
+		return src.outside("max_rule_adjust", "0..1 s")
 	}
 	s.MaxAdjust = adj
-	lim := scripts.DefaultLimits
-	lim.DialStep = step
+	switch pd := src.get("post_dial"); pd {
+	case "breakout-rule":
+	case "best-for-win":
+		s.PostBestForWin = true
+	default:
+		return src.bad("post_dial", &weather.InputError{Field: "post_dial", Value: pd, Reason: "is not breakout-rule or best-for-win"})
+	}
+	return nil
+}
+
+// readRuleSettings reads the rules' budgets (time and memory, the dial
+// step they round to) and the age a reading may have before the card
+// says it is stale.
+func readRuleSettings(s *Settings, src settingSource) error {
 	var ms, mib, age int
 	for _, x := range []struct {
 		key, valid string
 		dst        *int
 	}{{"rule_time_ms", "10..10000 ms", &ms}, {"rule_memory_mib", "4..256 MiB", &mib}, {"reading_max_age_min", "5..1440 minutes", &age}} {
-		n, err := settingNumber(x.key, v.GetString(x.key), x.valid)
+		n, err := settingNumber(x.key, src.get(x.key), x.valid)
 		if err != nil {
-			return nil, settingErr(x.key, err)
+			return src.bad(x.key, err)
 		}
 		if !n.IsInteger() {
-			return nil, settingErr(x.key, &weather.InputError{Field: x.key, Value: v.GetString(x.key), Reason: "is not a whole number (" + x.valid + ")"})
+			return src.bad(x.key, &weather.InputError{Field: x.key, Value: src.get(x.key), Reason: "is not a whole number (" + x.valid + ")"})
 		}
 		*x.dst = int(n.IntPart())
 	}
 	if ms < 10 || ms > 10000 {
-		return nil, settingErr("rule_time_ms", &weather.InputError{Field: "rule_time_ms", Value: v.GetString("rule_time_ms"), Reason: "is outside 10..10000 ms"})
+		return src.outside("rule_time_ms", "10..10000 ms")
 	}
 	if mib < 4 || mib > 256 {
-		return nil, settingErr("rule_memory_mib", &weather.InputError{Field: "rule_memory_mib", Value: v.GetString("rule_memory_mib"), Reason: "is outside 4..256 MiB"})
+		return src.outside("rule_memory_mib", "4..256 MiB")
 	}
+	lim := scripts.DefaultLimits
+	lim.DialStep = s.DialStep
 	lim.Time, lim.Memory = time.Duration(ms)*time.Millisecond, int64(mib)<<20
 	s.RuleLimits = lim
 	if age < 5 || age > 24*60 {
-		return nil, settingErr("reading_max_age_min", &weather.InputError{Field: "reading_max_age_min", Value: v.GetString("reading_max_age_min"), Reason: "is outside 5..1440 minutes"})
+		return src.outside("reading_max_age_min", "5..1440 minutes")
 	}
 	s.MaxReadingAge = time.Duration(age) * time.Minute
-	cross, err := settingNumber("cross_check_max_s", v.GetString("cross_check_max_s"), "0.01..1 s")
+	return nil
+}
+
+// readRaceSettings reads the race day's settings: the cross-check's limit,
+// when a race day starts, the other lane's and our driver's figures, and
+// the words of an aborted pass and of a change to the car.
+func readRaceSettings(s *Settings, src settingSource) error {
+	cross, err := settingNumber("cross_check_max_s", src.get("cross_check_max_s"), "0.01..1 s")
 	if err != nil {
-		return nil, settingErr("cross_check_max_s", err)
+		return src.bad("cross_check_max_s", err)
 	}
 	if s.CrossCheckMax = cross.InexactFloat64(); !(s.CrossCheckMax >= 0.01 && s.CrossCheckMax <= 1) {
-		return nil, settingErr("cross_check_max_s", &weather.InputError{Field: "cross_check_max_s", Value: v.GetString("cross_check_max_s"), Reason: "is outside 0.01..1 s"})
+		return src.outside("cross_check_max_s", "0.01..1 s")
 	}
-	if s.DayStart, err = weather.ParseDayStart(v.GetString("day_starts")); err != nil {
-		return nil, settingErr("day_starts", err)
+	if s.DayStart, err = weather.ParseDayStart(src.get("day_starts")); err != nil {
+		return src.bad("day_starts", err)
 	}
 	for _, x := range []struct {
 		key    string
@@ -279,31 +345,23 @@ func Open(o OpenOptions) (*Folder, error) {
 	}{{"opponent_margin", &s.OppMargin, -1, 2}, {"opponent_margin_sd", &s.OppMarginSD, 0.001, 1},
 		{"opponent_rt_mean", &s.OppRTMean, -1, 2}, {"opponent_rt_sd", &s.OppRTSD, 0.001, 1},
 		{"rt_mean", &s.RTMean, -1, 2}, {"rt_sd", &s.RTSD, 0.001, 1}} {
-		n, err := settingNumber(x.key, v.GetString(x.key), fmt.Sprintf("%g..%g s", x.lo, x.hi))
+		n, err := settingNumber(x.key, src.get(x.key), fmt.Sprintf("%g..%g s", x.lo, x.hi))
 		if err != nil {
-			return nil, settingErr(x.key, err)
+			return src.bad(x.key, err)
 		}
-		*x.dst = n.InexactFloat64()
-		if !(*x.dst >= x.lo && *x.dst <= x.hi) {
-			return nil, settingErr(x.key, &weather.InputError{Field: x.key, Value: v.GetString(x.key), Reason: fmt.Sprintf("is outside %g..%g s", x.lo, x.hi)})
+		if *x.dst = n.InexactFloat64(); !(*x.dst >= x.lo && *x.dst <= x.hi) {
+			return src.outside(x.key, fmt.Sprintf("%g..%g s", x.lo, x.hi))
 		}
 	}
-	if s.AbortWords, err = abortWords(v.Get("abort_words")); err != nil {
-		return nil, settingErr("abort_words", err)
+	if s.AbortWords, err = abortWords(src.v.Get("abort_words")); err != nil {
+		return src.bad("abort_words", err)
 	}
-	change, err := wordList("change_words", v.Get("change_words"), "[chute packed, new slicks]")
+	change, err := wordList("change_words", src.v.Get("change_words"), "[chute packed, new slicks]")
 	if err != nil {
-		return nil, settingErr("change_words", err)
+		return src.bad("change_words", err)
 	}
 	s.ChangeWords = logbook.DefaultChangeWords.With(change)
-	switch pd := v.GetString("post_dial"); pd {
-	case "breakout-rule":
-	case "best-for-win":
-		s.PostBestForWin = true
-	default:
-		return nil, settingErr("post_dial", &weather.InputError{Field: "post_dial", Value: pd, Reason: "is not breakout-rule or best-for-win"})
-	}
-	return e, nil
+	return nil
 }
 
 // abortWords reads the setting abort_words: a YAML list of words, or (from
