@@ -283,61 +283,93 @@ func Seconds(flag, v string, lo, hi float64) (float64, error) {
 // settings' defaults (shrunk toward them, Shrunk); the day's slips and the
 // flags given replace both.
 func (o *OpponentFields) Build(s Settings, dial decimal.NullDecimal, passes []logbook.Pass, book *OpponentBook) (*bracket.Opponent, bracket.RTModel, error) {
-	var logged []float64 // our reaction times, most recent first
+	us, err := o.ourRT(s, passes)
+	if err != nil || !dial.Valid {
+		return nil, us, err
+	}
+	opp := &bracket.Opponent{Dial: dial.Decimal, Margin: s.OppMargin, MarginSD: s.OppMarginSD, RT: bracket.RTModel{Mean: s.OppRTMean, SD: s.OppRTSD}}
+	for _, step := range []func(*bracket.Opponent) error{
+		func(opp *bracket.Opponent) error { return o.fromBook(opp, s, book) },
+		o.fromSlips,
+		o.fromFlags,
+	} {
+		if err := step(opp); err != nil {
+			return nil, us, err
+		}
+	}
+	return opp, us, nil
+}
+
+// ourRT is our driver's reaction times: the logbook's (aborted passes left
+// out), shrunk to the settings' (NewRTModel), or --rt-mean and --rt-sd.
+func (o *OpponentFields) ourRT(s Settings, passes []logbook.Pass) (bracket.RTModel, error) {
+	var logged []float64 // most recent first
 	for i := len(passes) - 1; i >= 0; i-- {
 		if p := passes[i]; p.RT.Valid && !s.AbortWords.Aborted(p.Notes) {
 			logged = append(logged, p.RT.Decimal.InexactFloat64())
 		}
 	}
-	us := bracket.NewRTModel(logged, s.RTMean, s.RTSD)
-	if o.OurRTMean != "" || o.OurRTSD != "" {
-		us = bracket.RTModel{Mean: s.RTMean, SD: s.RTSD}
-		var err error
-		if o.OurRTMean != "" {
-			if us.Mean, err = Seconds("--rt-mean", o.OurRTMean, -1, 2); err != nil {
-				return nil, us, err
-			}
-		}
-		if o.OurRTSD != "" {
-			if us.SD, err = Seconds("--rt-sd", o.OurRTSD, 0.001, 1); err != nil {
-				return nil, us, err
-			}
+	if o.OurRTMean == "" && o.OurRTSD == "" {
+		return bracket.NewRTModel(logged, s.RTMean, s.RTSD), nil
+	}
+	us := bracket.RTModel{Mean: s.RTMean, SD: s.RTSD}
+	var err error
+	if o.OurRTMean != "" {
+		if us.Mean, err = Seconds("--rt-mean", o.OurRTMean, -1, 2); err != nil {
+			return us, err
 		}
 	}
-	if !dial.Valid {
-		return nil, us, nil
-	}
-	opp := &bracket.Opponent{Dial: dial.Decimal, Margin: s.OppMargin, MarginSD: s.OppMarginSD, RT: bracket.RTModel{Mean: s.OppRTMean, SD: s.OppRTSD}}
-	if o.Car != "" {
-		car, err := ParseCar("--opponent", o.Car)
-		if err != nil {
-			return nil, us, err
+	if o.OurRTSD != "" {
+		if us.SD, err = Seconds("--rt-sd", o.OurRTSD, 0.001, 1); err != nil {
+			return us, err
 		}
-		if book == nil {
-			book = &OpponentBook{}
-		}
-		h := book.History(car, s.AbortWords)
-		opp.Margin, opp.MarginSD = bracket.Shrunk(h.Margins, s.OppMargin, s.OppMarginSD, bracket.PriorPasses)
-		opp.RT.Mean, opp.RT.SD = bracket.Shrunk(h.RTs, s.OppRTMean, s.OppRTSD, bracket.PriorPasses)
-		opp.From = h.Words()
 	}
-	list := func(flag string, vs []string, lo, hi float64) ([]float64, error) {
-		var out []float64
-		for _, v := range vs {
-			x, err := Seconds(flag, v, lo, hi)
-			if err != nil {
-				return nil, err
-			}
-			out = append(out, x)
-		}
-		return out, nil
+	return us, nil
+}
+
+// fromBook puts the named car's history in the opponent book (nil: none)
+// over the settings' figures, shrunk toward them (bracket.Shrunk).
+func (o *OpponentFields) fromBook(opp *bracket.Opponent, s Settings, book *OpponentBook) error {
+	if o.Car == "" {
+		return nil
 	}
-	ets, err := list("--opponent-et", o.ETs, logbook.DialRange[0], logbook.DialRange[1])
+	car, err := ParseCar("--opponent", o.Car)
 	if err != nil {
-		return nil, us, err
+		return err
 	}
-	if len(ets) > 0 { // what its slips showed: their margin over its dial
-		d := dial.Decimal.InexactFloat64()
+	if book == nil {
+		book = &OpponentBook{}
+	}
+	h := book.History(car, s.AbortWords)
+	opp.Margin, opp.MarginSD = bracket.Shrunk(h.Margins, s.OppMargin, s.OppMarginSD, bracket.PriorPasses)
+	opp.RT.Mean, opp.RT.SD = bracket.Shrunk(h.RTs, s.OppRTMean, s.OppRTSD, bracket.PriorPasses)
+	opp.From = h.Words()
+	return nil
+}
+
+// secondsList reads each of vs for flag, in seconds within lo..hi.
+func secondsList(flag string, vs []string, lo, hi float64) ([]float64, error) {
+	var out []float64
+	for _, v := range vs {
+		x, err := Seconds(flag, v, lo, hi)
+		if err != nil {
+			return nil, err
+		}
+		out = append(out, x)
+	}
+	return out, nil
+}
+
+// fromSlips puts what the other lane's slips of the day showed over the
+// book's and the settings' figures: its ETs' margin over its dial, its
+// reaction times (a spread only from three or more).
+func (o *OpponentFields) fromSlips(opp *bracket.Opponent) error {
+	ets, err := secondsList("--opponent-et", o.ETs, logbook.DialRange[0], logbook.DialRange[1])
+	if err != nil {
+		return err
+	}
+	if len(ets) > 0 {
+		d := opp.Dial.InexactFloat64()
 		for i := range ets {
 			ets[i] -= d
 		}
@@ -347,26 +379,28 @@ func (o *OpponentFields) Build(s Settings, dial decimal.NullDecimal, passes []lo
 			opp.MarginSD = sd
 		}
 	}
-	rts, err := list("--opponent-rt", o.RTs, logbook.RTRange[0], logbook.RTRange[1])
-	if err != nil {
-		return nil, us, err
+	rts, err := secondsList("--opponent-rt", o.RTs, logbook.RTRange[0], logbook.RTRange[1])
+	if err != nil || len(rts) == 0 {
+		return err
 	}
-	if len(rts) > 0 {
-		opp.RT = bracket.NewRTModel(rts, opp.RT.Mean, opp.RT.SD)
-		if len(rts) < bracket.MinRTSamples {
-			m, sd := stats.MeanSD(rts)
-			opp.RT.Mean = m
-			if len(rts) >= 3 {
-				opp.RT.SD = sd
-			}
+	opp.RT = bracket.NewRTModel(rts, opp.RT.Mean, opp.RT.SD)
+	if len(rts) < bracket.MinRTSamples {
+		m, sd := stats.MeanSD(rts)
+		opp.RT.Mean = m
+		if len(rts) >= 3 {
+			opp.RT.SD = sd
 		}
 	}
+	return nil
+}
+
+// fromFlags puts the figures given as flags over everything else.
+func (o *OpponentFields) fromFlags(opp *bracket.Opponent) error {
 	for _, f := range []struct {
-		flag string
-		v    string
-		dst  *float64
-		lo   float64
-		hi   float64
+		flag   string
+		v      string
+		dst    *float64
+		lo, hi float64
 	}{{"--opponent-margin", o.Margin, &opp.Margin, -1, 2}, {"--opponent-margin-sd", o.SD, &opp.MarginSD, 0.001, 1},
 		{"--opponent-rt-mean", o.RTMean, &opp.RT.Mean, -1, 2}, {"--opponent-rt-sd", o.RTSD, &opp.RT.SD, 0.001, 1}} {
 		if f.v == "" {
@@ -374,14 +408,14 @@ func (o *OpponentFields) Build(s Settings, dial decimal.NullDecimal, passes []lo
 		}
 		x, err := Seconds(f.flag, f.v, f.lo, f.hi)
 		if err != nil {
-			return nil, us, err
+			return err
 		}
 		*f.dst = x
 		if f.flag == "--opponent-rt-mean" || f.flag == "--opponent-rt-sd" {
 			opp.RT.Samples = nil
 		}
 	}
-	return opp, us, nil
+	return nil
 }
 
 // GatherRound gathers everything a round's card is made from. Problems that
