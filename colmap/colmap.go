@@ -500,77 +500,11 @@ func (m *Map) Translate(data []byte, name string) (*Translation, error) {
 	if err != nil {
 		return nil, weather.CSVError(name, err)
 	}
-	index := map[string]int{}
-	for i, h := range header {
-		h = strings.TrimSpace(h)
-		if _, dup := index[h]; dup {
-			return nil, &weather.InputError{File: name, Line: 1, Field: "column", Value: h, Reason: "appears twice in the header"}
-		}
-		index[h] = i
+	index, err := m.checkHeader(header, name, tr.Layout)
+	if err != nil {
+		return nil, err
 	}
-	// Every column the map names must be there; every other column must be
-	// named or skipped (a misspelt map would otherwise drop data silently).
-	used := map[string]bool{}
-	for _, f := range m.Order {
-		s := m.Fields[f]
-		if s.Column == "" {
-			continue
-		}
-		if _, ok := index[s.Column]; !ok {
-			return nil, m.errAt(m.lineOf(f+".column", s.Line), f+".column", s.Column,
-				fmt.Sprintf("is not a column of %s (its columns: %s; read as %s)", name, quoteList(header), tr.Layout))
-		}
-		used[s.Column] = true
-	}
-	for _, c := range m.Skip {
-		used[c] = true
-	}
-	for _, h := range header {
-		if h = strings.TrimSpace(h); !used[h] {
-			return nil, &weather.InputError{File: name, Line: 1, Field: "column", Value: h,
-				Reason: fmt.Sprintf("is not in the map %s: map it to a field or list it under skip", m.File)}
-		}
-	}
-	// pitcard's columns, in its order, then crew columns.
-	known := map[string]field{}
-	for _, f := range fieldsOf(m.Kind) {
-		known[f.name] = f
-	}
-	indexOf := func(s *Source) int { // the source column's place, or -1 for a constant
-		if s.Column == "" {
-			return -1
-		}
-		return index[s.Column]
-	}
-	type out struct {
-		col string
-		f   field
-		src *Source
-		idx int
-	}
-	var cols []out
-	for _, f := range fieldsOf(m.Kind) {
-		if f.name == "date" && m.Fields["date"] == nil {
-			cols = append(cols, out{col: "date", f: f, idx: -1})
-			continue
-		}
-		if s := m.Fields[f.name]; s != nil {
-			idx := indexOf(s)
-			col := f.column
-			if f.typ == weight && strings.EqualFold(s.Unit, "kg") {
-				col = "weight_kg" // the logbook's metric twin reads it as it is
-			}
-			cols = append(cols, out{col: col, f: f, src: s, idx: idx})
-			if f.name == "baro" && s.Kind != "" && m.Kind == Weather && m.Fields["baro_kind"] == nil {
-				cols = append(cols, out{col: "baro_kind", f: field{"baro_kind", "baro_kind", text}, src: &Source{Value: strings.ToLower(s.Kind)}, idx: -1})
-			}
-		}
-	}
-	for _, f := range m.Order {
-		if _, ok := known[f]; !ok {
-			cols = append(cols, out{col: f, f: field{f, f, crew}, src: m.Fields[f], idx: indexOf(m.Fields[f])})
-		}
-	}
+	cols := m.outColumns(index)
 	tr.source, tr.from = data, map[string]fromColumn{}
 	for _, c := range cols {
 		if c.idx >= 0 && c.f.typ != date && c.f.typ != clock {
@@ -584,9 +518,7 @@ func (m *Map) Translate(data []byte, name string) (*Translation, error) {
 		head[i] = c.col
 	}
 	_ = cw.Write(head)
-	row := make([]string, len(cols))
-	timeSrc := m.Fields["time"]
-	dateSrc := m.Fields["date"]
+	rt := rowTranslator{m: m, name: name, index: index, cols: cols, layout: tr.Layout, row: make([]string, len(cols))}
 	for {
 		rec, err := cr.Read()
 		if errors.Is(err, io.EOF) {
@@ -606,69 +538,9 @@ func (m *Map) Translate(data []byte, name string) (*Translation, error) {
 			return nil, &weather.InputError{File: name, Line: line, Field: "row",
 				Reason: fmt.Sprintf("has %d fields, the header has %d (read as %s)", len(rec), len(header), tr.Layout)}
 		}
-		get := func(c out) string {
-			if c.idx < 0 {
-				if c.src == nil {
-					return ""
-				}
-				return c.src.Value
-			}
-			return strings.TrimSpace(rec[c.idx])
-		}
-		// parse reads a date or time field by its map's layout.
-		parse := func(src *Source, field, v string) (time.Time, error) {
-			t, err := time.ParseInLocation(src.Format, v, time.Local)
-			if err != nil {
-				return t, &weather.InputError{File: name, Line: line, Field: src.Column, Value: v,
-					Reason: fmt.Sprintf("does not match the %s format %q of %s line %d", field, src.Format, m.File, m.lineOf(field+".format", src.Line))}
-			}
-			return t, nil
-		}
-		var when time.Time
-		haveWhen := false
-		if timeSrc != nil && timeSrc.Format != "" {
-			if v := strings.TrimSpace(valueOf(rec, index, timeSrc)); v != "" {
-				if when, err = parse(timeSrc, "time", v); err != nil {
-					return nil, err
-				}
-				haveWhen = true
-			}
-		}
-		for i, c := range cols {
-			v := get(c)
-			switch c.f.typ {
-			case date:
-				switch {
-				case dateSrc == nil && haveWhen:
-					v = when.Format(weather.DateLayout)
-				case dateSrc != nil && dateSrc.Format != "" && v != "":
-					d, err := parse(dateSrc, "date", v)
-					if err != nil {
-						return nil, err
-					}
-					v = d.Format(weather.DateLayout)
-				}
-			case clock:
-				if haveWhen {
-					v = when.Format("15:04:05")
-					if m.Kind == Logbook {
-						v = when.Format(weather.TimeLayout)
-					}
-				}
-			case text:
-			case crew:
-				if tr.Layout.Decimal == ',' && commaNumber.MatchString(v) {
-					v = strings.Replace(v, ",", ".", 1)
-				}
-			default:
-				if v != "" && tr.Layout.Decimal == ',' {
-					v = strings.Replace(v, ",", ".", 1)
-				}
-				if v != "" && c.src != nil && c.src.Unit != "" {
-					v = withUnit(v, c.src.Unit, c.f.typ)
-				}
-			}
-			row[i] = strings.ReplaceAll(strings.ReplaceAll(v, "\r", " "), "\n", " ")
+		row, err := rt.translate(rec, line)
+		if err != nil {
+			return nil, err
 		}
 		_ = cw.Write(row)
 		tr.lines = append(tr.lines, line)
@@ -676,6 +548,171 @@ func (m *Map) Translate(data []byte, name string) (*Translation, error) {
 	cw.Flush()
 	tr.CSV = buf.Bytes()
 	return tr, nil
+}
+
+// checkHeader is the file's columns by name. Every column the map names
+// must be there; every other column must be named or skipped (a misspelt
+// map would otherwise drop data silently); no column twice.
+func (m *Map) checkHeader(header []string, name string, layout Layout) (map[string]int, error) {
+	index := map[string]int{}
+	for i, h := range header {
+		h = strings.TrimSpace(h)
+		if _, dup := index[h]; dup {
+			return nil, &weather.InputError{File: name, Line: 1, Field: "column", Value: h, Reason: "appears twice in the header"}
+		}
+		index[h] = i
+	}
+	used := map[string]bool{}
+	for _, f := range m.Order {
+		s := m.Fields[f]
+		if s.Column == "" {
+			continue
+		}
+		if _, ok := index[s.Column]; !ok {
+			return nil, m.errAt(m.lineOf(f+".column", s.Line), f+".column", s.Column,
+				fmt.Sprintf("is not a column of %s (its columns: %s; read as %s)", name, quoteList(header), layout))
+		}
+		used[s.Column] = true
+	}
+	for _, c := range m.Skip {
+		used[c] = true
+	}
+	for _, h := range header {
+		if h = strings.TrimSpace(h); !used[h] {
+			return nil, &weather.InputError{File: name, Line: 1, Field: "column", Value: h,
+				Reason: fmt.Sprintf("is not in the map %s: map it to a field or list it under skip", m.File)}
+		}
+	}
+	return index, nil
+}
+
+// outColumn is one column of the translation: its name in pitcard's CSV,
+// the field it fills, the map's source for it and the source column's
+// place (-1 for a constant).
+type outColumn struct {
+	col string
+	f   field
+	src *Source
+	idx int
+}
+
+// outColumns are the translation's columns: pitcard's, in its order, then
+// the crew columns in the map's.
+func (m *Map) outColumns(index map[string]int) []outColumn {
+	known := map[string]field{}
+	for _, f := range fieldsOf(m.Kind) {
+		known[f.name] = f
+	}
+	indexOf := func(s *Source) int {
+		if s.Column == "" {
+			return -1
+		}
+		return index[s.Column]
+	}
+	var cols []outColumn
+	for _, f := range fieldsOf(m.Kind) {
+		if f.name == "date" && m.Fields["date"] == nil {
+			cols = append(cols, outColumn{col: "date", f: f, idx: -1})
+			continue
+		}
+		if s := m.Fields[f.name]; s != nil {
+			col := f.column
+			if f.typ == weight && strings.EqualFold(s.Unit, "kg") {
+				col = "weight_kg" // the logbook's metric twin reads it as it is
+			}
+			cols = append(cols, outColumn{col: col, f: f, src: s, idx: indexOf(s)})
+			if f.name == "baro" && s.Kind != "" && m.Kind == Weather && m.Fields["baro_kind"] == nil {
+				cols = append(cols, outColumn{col: "baro_kind", f: field{"baro_kind", "baro_kind", text}, src: &Source{Value: strings.ToLower(s.Kind)}, idx: -1})
+			}
+		}
+	}
+	for _, f := range m.Order {
+		if _, ok := known[f]; !ok {
+			cols = append(cols, outColumn{col: f, f: field{f, f, crew}, src: m.Fields[f], idx: indexOf(m.Fields[f])})
+		}
+	}
+	return cols
+}
+
+// rowTranslator turns one source row into a row of pitcard's CSV: dates
+// and times by the map's layouts, numbers with a point and their unit.
+type rowTranslator struct {
+	m      *Map
+	name   string // the source file, for messages
+	index  map[string]int
+	cols   []outColumn
+	layout Layout
+	row    []string // reused: each row is written before the next is read
+}
+
+// parse reads a date or time field by its map's layout.
+func (rt *rowTranslator) parse(src *Source, field, v string, line int) (time.Time, error) {
+	t, err := time.ParseInLocation(src.Format, v, time.Local)
+	if err != nil {
+		return t, &weather.InputError{File: rt.name, Line: line, Field: src.Column, Value: v,
+			Reason: fmt.Sprintf("does not match the %s format %q of %s line %d", field, src.Format, rt.m.File, rt.m.lineOf(field+".format", src.Line))}
+	}
+	return t, nil
+}
+
+// translate is the row rec (the file's line) in pitcard's columns.
+func (rt *rowTranslator) translate(rec []string, line int) ([]string, error) {
+	m := rt.m
+	timeSrc, dateSrc := m.Fields["time"], m.Fields["date"]
+	var when time.Time
+	haveWhen := false
+	if timeSrc != nil && timeSrc.Format != "" {
+		if v := strings.TrimSpace(valueOf(rec, rt.index, timeSrc)); v != "" {
+			t, err := rt.parse(timeSrc, "time", v, line)
+			if err != nil {
+				return nil, err
+			}
+			when, haveWhen = t, true
+		}
+	}
+	for i, c := range rt.cols {
+		v := ""
+		switch {
+		case c.idx >= 0:
+			v = strings.TrimSpace(rec[c.idx])
+		case c.src != nil:
+			v = c.src.Value
+		}
+		switch c.f.typ {
+		case date:
+			switch {
+			case dateSrc == nil && haveWhen:
+				v = when.Format(weather.DateLayout)
+			case dateSrc != nil && dateSrc.Format != "" && v != "":
+				d, err := rt.parse(dateSrc, "date", v, line)
+				if err != nil {
+					return nil, err
+				}
+				v = d.Format(weather.DateLayout)
+			}
+		case clock:
+			if haveWhen {
+				v = when.Format("15:04:05")
+				if m.Kind == Logbook {
+					v = when.Format(weather.TimeLayout)
+				}
+			}
+		case text:
+		case crew:
+			if rt.layout.Decimal == ',' && commaNumber.MatchString(v) {
+				v = strings.Replace(v, ",", ".", 1)
+			}
+		default:
+			if v != "" && rt.layout.Decimal == ',' {
+				v = strings.Replace(v, ",", ".", 1)
+			}
+			if v != "" && c.src != nil && c.src.Unit != "" {
+				v = withUnit(v, c.src.Unit, c.f.typ)
+			}
+		}
+		rt.row[i] = strings.ReplaceAll(strings.ReplaceAll(v, "\r", " "), "\n", " ")
+	}
+	return rt.row, nil
 }
 
 // commaNumber and pointNumber are a plain number with a decimal comma and
