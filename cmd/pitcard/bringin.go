@@ -200,21 +200,20 @@ value in some field, both versions shown. It writes nothing.`,
 			if err != nil {
 				return err
 			}
-			ours, leftOut := e.Logbook()
-			if !event.OnlyLeftOut(leftOut) {
-				return leftOut
-			}
 			src := event.Source{Path: args[0]}
 			if o.maps.Map != "" {
 				if src.Map, err = readMap(o.maps.Map, colmap.Logbook); err != nil {
 					return err
 				}
 			}
-			theirs, err := src.Passes()
-			if err != nil {
-				return err
+			if car, err := e.Car(); err == nil {
+				src.Setup = car.Setup // the setup columns are checked as the logbook's are
 			}
-			m := event.MergePasses(ours, theirs.Passes)
+			// Compared a block of rows at a time: counts and lines are kept, not the passes.
+			m, leftOut := e.DiffLogbook(src)
+			if !event.OnlyLeftOut(leftOut) {
+				return leftOut
+			}
 			fmt.Fprintf(o.s.Out, "%s against %s: %s only in %s, %s alike in both, %s.\n", args[0], e.Name(event.LogbookFile),
 				text.Plural(len(m.New), "pass"), args[0], text.Plural(m.Same, "pass"), text.Plural(len(m.Conflicts), "conflict"))
 			if len(m.New) > 0 {
@@ -229,9 +228,9 @@ value in some field, both versions shown. It writes nothing.`,
 				c := &event.Conflicts{List: m.Conflicts, Ours: e.Name(event.LogbookFile), TheirsIn: args[0]}
 				fmt.Fprintf(o.s.Out, "\n%s and %s disagree on %s:\n%s\n", c.Ours, c.TheirsIn, text.Plural(len(c.List), "entry"), c.Entries())
 			}
-			if len(theirs.Bad) > 0 {
+			if len(m.TheirBad) > 0 {
 				fmt.Fprintf(o.s.Err, "pitcard: warning: %s has %s pitcard cannot read, left out of the comparison:\n%v\n", args[0],
-					text.Plural(len(theirs.Bad), "row"), logbook.RowErrors(theirs.Bad))
+					text.Plural(len(m.TheirBad), "row"), m.TheirBad)
 			}
 			return leftOut
 		},

@@ -215,9 +215,9 @@ func newLogImportCmd(s *IOStreams, g *globalOptions) *cobra.Command {
 		Short: "Import passes from a CSV: logbook.csv's columns, a spreadsheet through a map (all or nothing)",
 		Long: `Reads FILE, checks every row, and adds them all to the logbook, or none: when
 any row is bad, or a pass is already in the logbook, every problem is listed
-and nothing is written. FILE may be in logbook.csv's columns (the metric
-columns temp_c, baro_hpa, track_temp_c, wind_kmh and weight_kg are accepted),
-or in any layout with --map MAP.yaml (which column is which field, in which
+and nothing is written (a file already imported says so in one line). FILE
+may be in logbook.csv's columns (the metric columns temp_c, baro_hpa,
+track_temp_c, wind_kmh and weight_kg are accepted), or in any layout with --map MAP.yaml (which column is which field, in which
 unit and date layout; comma, semicolon or tab separated; decimal point or
 comma, detected when the map leaves them out). Without --map pitcard guesses
 a map from FILE's header, prints it, and imports with it only when given
@@ -263,11 +263,16 @@ day and round a conflict.`,
 			}
 			cur, _ := e.Logbook()
 			merge := event.MergePasses(cur, src.Passes)
+			if len(src.Bad) == 0 && len(src.Passes) > 0 && merge.Same == len(src.Passes) && !o.SkipExisting {
+				// A file already imported: said in one line, not a line per pass.
+				return userErrf("nothing new in %s: its %s are already in %s, alike (the same pass entered twice); nothing was imported",
+					args[0], text.Plural(merge.Same, "pass"), e.Name(event.LogbookFile))
+			}
 			if len(src.Bad) > 0 || (len(merge.Logged) > 0 && !o.SkipExisting) {
 				// All or nothing: list every bad row, and the good rows that are already logged.
 				problems := append(logbook.RowErrors(nil), src.Bad...)
 				for _, l := range merge.Logged {
-					problems = append(problems, event.DuplicateOf(l[0], l[1], e.Name(event.LogbookFile)))
+					problems = append(problems, event.DuplicateOf(src.Passes[l.Index], logbook.Pass{Line: l.OursLine}, e.Name(event.LogbookFile)))
 				}
 				if len(src.Bad) == 0 {
 					return fmt.Errorf("%w\nNothing was imported (give --skip-existing to leave out the passes already logged)", problems)
