@@ -4,7 +4,6 @@ import (
 	"bytes"
 	"os"
 	"path/filepath"
-	"runtime"
 	"testing"
 	"time"
 
@@ -46,34 +45,12 @@ func BenchmarkDiffLogbook300000(b *testing.B) {
 	data, lines = nil, nil
 	var peak uint64
 	for b.Loop() {
-		runtime.GC()
-		stop := heapPeak(&peak)
+		stop := biglog.WatchHeap()
 		d, err := e.DiffLogbook(Source{Path: theirs})
-		stop()
+		peak = max(peak, stop())
 		if err != nil || len(d.Conflicts) != 10 || d.Same != 300000-10 {
 			b.Fatalf("%v: %d conflicts, %d alike", err, len(d.Conflicts), d.Same)
 		}
 	}
 	b.ReportMetric(float64(peak)/(1<<20), "peak-heap-MB")
-}
-
-// heapPeak samples the heap in use every 20 ms into peak, until stop.
-func heapPeak(peak *uint64) (stop func()) {
-	done, finished := make(chan struct{}), make(chan struct{})
-	go func() {
-		defer close(finished)
-		t := time.NewTicker(20 * time.Millisecond)
-		defer t.Stop()
-		var m runtime.MemStats
-		for {
-			runtime.ReadMemStats(&m)
-			*peak = max(*peak, m.HeapInuse)
-			select {
-			case <-done:
-				return
-			case <-t.C:
-			}
-		}
-	}()
-	return func() { close(done); <-finished }
 }

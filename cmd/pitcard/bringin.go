@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"os"
+	"slices"
 	"strings"
 	"time"
 
@@ -325,14 +326,25 @@ func bounded(passes []logbook.Pass, since string, n int, track string) ([]logboo
 	if n < 0 {
 		return nil, &weather.InputError{Field: "--last", Value: fmt.Sprint(n), Reason: "is negative (0 for all)"}
 	}
+	name := logbook.TrackName(track)
+	match := func(p logbook.Pass) bool {
+		return (since == "" || !p.Time.Before(from)) && (track == "" || strings.EqualFold(name, p.Track))
+	}
+	if n > 0 { // the last n, found from the end: the rest is not looked at
+		var out []logbook.Pass
+		for i := len(passes) - 1; i >= 0 && len(out) < n; i-- {
+			if match(passes[i]) {
+				out = append(out, passes[i])
+			}
+		}
+		slices.Reverse(out)
+		return out, nil
+	}
 	var out []logbook.Pass
 	for _, p := range passes {
-		if (since == "" || !p.Time.Before(from)) && (track == "" || strings.EqualFold(logbook.TrackName(track), p.Track)) {
+		if match(p) {
 			out = append(out, p)
 		}
-	}
-	if n > 0 && len(out) > n {
-		out = out[len(out)-n:]
 	}
 	return out, nil
 }

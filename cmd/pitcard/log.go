@@ -535,21 +535,24 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 	if !event.OnlyLeftOut(leftOut) {
 		return leftOut
 	}
-	// With car.yaml and the weather of the passes, take the air out of the spread.
-	var residual map[string]float64
-	corrected := false
-	if car, err := e.Car(); err == nil && len(passes) > 0 {
-		trk, _ := e.Track()
-		tracks, _ := e.OtherTracks()
-		in := engine.CalibrateInput{Car: car, Track: trk, Tracks: tracks, Passes: passes, Now: passes[len(passes)-1].Time, DayStart: e.Settings.DayStart, Aborts: e.Settings.AbortWords, Changes: e.Settings.ChangeWords}
-		if fit, err := engine.Calibrate(in); err == nil && len(fit.Samples) > 0 {
-			residual, corrected = fit.Residuals(in), true
-		}
-	}
-	// The air is taken out with the whole logbook's fit; the table shows the passes asked for.
 	shown, err := bounded(passes, o.Since, o.Last, o.Track)
 	if err != nil {
 		return err
+	}
+	// With car.yaml and the weather of the passes, take the air out of the
+	// spread: the model is fitted as a card's is (on the latest passes, of
+	// the last RecentPasses), and only the passes shown are simulated.
+	var residual map[string]float64
+	corrected := false
+	if car, err := e.Car(); err == nil && len(passes) > 0 && len(shown) > 0 {
+		trk, _ := e.Track()
+		tracks, _ := e.OtherTracks()
+		recent := passes[max(0, len(passes)-event.RecentPasses):]
+		in := engine.CalibrateInput{Car: car, Track: trk, Tracks: tracks, Passes: recent, Now: passes[len(passes)-1].Time, DayStart: e.Settings.DayStart, Aborts: e.Settings.AbortWords, Changes: e.Settings.ChangeWords}
+		if fit, err := engine.Calibrate(in); err == nil && len(fit.Samples) > 0 {
+			in.Passes = shown
+			residual, corrected = fit.Residuals(in), true
+		}
 	}
 	stats := logbook.Stats(shown, residual, e.Settings.DayStart, e.Settings.AbortWords)
 	judge := func(s logbook.GroupStats) string {

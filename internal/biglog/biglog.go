@@ -9,6 +9,7 @@ import (
 	"encoding/csv"
 	"fmt"
 	"os"
+	"runtime"
 	"sort"
 	"time"
 )
@@ -76,4 +77,33 @@ func Rows(data []byte, n int) ([]byte, error) {
 	_ = w.Write(head)
 	_ = w.WriteAll(append(extra, own...))
 	return buf.Bytes(), w.Error()
+}
+
+// WatchHeap samples the Go heap in use every 20 ms until the returned stop
+// is called, which gives the most seen (bytes): a benchmark's peak memory.
+// Sampling stops the world briefly, so it is coarse on purpose.
+func WatchHeap() (stop func() uint64) {
+	runtime.GC()
+	done, finished := make(chan struct{}), make(chan struct{})
+	var peak uint64
+	go func() {
+		defer close(finished)
+		t := time.NewTicker(20 * time.Millisecond)
+		defer t.Stop()
+		var m runtime.MemStats
+		for {
+			runtime.ReadMemStats(&m)
+			peak = max(peak, m.HeapInuse)
+			select {
+			case <-done:
+				return
+			case <-t.C:
+			}
+		}
+	}()
+	return func() uint64 {
+		close(done)
+		<-finished
+		return peak
+	}
 }
