@@ -265,7 +265,7 @@ day and round a conflict.`,
 			merge := event.MergePasses(cur, src.Passes)
 			if len(src.Bad) == 0 && len(src.Passes) > 0 && merge.Same == len(src.Passes) && !o.SkipExisting {
 				// A file already imported: said in one line, not a line per pass.
-				return userErrf("nothing new in %s: its %s are already in %s, alike (the same pass entered twice); nothing was imported",
+				return userErrf("nothing new in %s: its %s are already in %s, alike (the same pass entered twice); nothing was imported (give --skip-existing to leave out the passes already logged)",
 					args[0], text.Plural(merge.Same, "pass"), e.Name(event.LogbookFile))
 			}
 			if len(src.Bad) > 0 || (len(merge.Logged) > 0 && !o.SkipExisting) {
