@@ -271,7 +271,12 @@ day and round a conflict.`,
 			if len(src.Bad) > 0 || (len(merge.Logged) > 0 && !o.SkipExisting) {
 				// All or nothing: list every bad row, and the good rows that are already logged.
 				problems := append(logbook.RowErrors(nil), src.Bad...)
-				for _, l := range merge.Logged {
+				for i, l := range merge.Logged {
+					if i == shownDuplicates { // the rest counted, not listed
+						problems = append(problems, &weather.InputError{File: args[0], Field: fmt.Sprintf("%d more passes", len(merge.Logged)-i),
+							Reason: fmt.Sprintf("are already in %s too (not listed)", e.Name(event.LogbookFile))})
+						break
+					}
 					problems = append(problems, event.DuplicateOf(src.Passes[l.Index], logbook.Pass{Line: l.OursLine}, e.Name(event.LogbookFile)))
 				}
 				if len(src.Bad) == 0 {
@@ -312,6 +317,10 @@ day and round a conflict.`,
 	cmd.Flags().BoolVar(&o.SkipExisting, "skip-existing", false, "skip passes already logged with the same values (a different one stops the import)")
 	return cmd
 }
+
+// shownDuplicates is how many passes already logged an import lists one
+// by one; the rest are counted.
+const shownDuplicates = 20
 
 type logListOptions struct {
 	g      *globalOptions
