@@ -400,6 +400,9 @@ func scanRows(r io.Reader, head func(h []byte, lines int) error, row func(b []by
 			}
 		}
 		if err != nil {
+			if len(cur) > 0 { // an unclosed quote runs to the end: the last row
+				return row(cur, start, lines)
+			}
 			return nil
 		}
 	}
