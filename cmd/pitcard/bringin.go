@@ -207,9 +207,6 @@ value in some field, both versions shown. It writes nothing.`,
 					return err
 				}
 			}
-			if car, err := e.Car(); err == nil {
-				src.Setup = car.Setup // the setup columns are checked as the logbook's are
-			}
 			// Compared a block of rows at a time: counts and lines are kept, not the passes.
 			m, leftOut := e.DiffLogbook(src)
 			if !event.OnlyLeftOut(leftOut) {
