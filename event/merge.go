@@ -181,40 +181,72 @@ type PassMerge struct {
 	New       []logbook.Pass // theirs, not in ours
 	Same      int            // theirs, already in ours exactly
 	Conflicts []Conflict     // theirs, in ours with another value in some field
-	// Logged are theirs that ours has (alike or not), each with ours.
-	Logged [][2]logbook.Pass
+	// Logged are theirs that ours has (alike or not): where each is in
+	// both, not the passes (a crewmate's copy of ten seasons shares them
+	// all).
+	Logged []Logged
+}
+
+// Logged is one of another copy's passes that ours has: its index in the
+// passes compared, and the line of ours (of theirs, when the copy holds
+// the pass twice and ours not at all).
+type Logged struct {
+	Index    int
+	OursLine int
+}
+
+// passKey is a pass's identity: its minute, track (lower case) and lane.
+type passKey struct {
+	minute      int64
+	track, lane string
 }
 
 // MergePasses compares other's passes with ours, by pass (date, time, track,
-// lane) and then by every field.
+// lane) and then by every field. It keeps the new passes, the conflicts and
+// where the shared ones are; not a copy of either logbook.
 func MergePasses(ours, other []logbook.Pass) PassMerge {
 	var m PassMerge
 	if len(ours) == 0 { // a first import: the file's own duplicates are its reader's to find
 		m.New = other
 		return m
 	}
-	byKey := make(map[string]logbook.Pass, len(ours))
-	for _, p := range ours {
-		byKey[p.Key()] = p
+	lower := map[string]string{} // each track's name in lower case, made once
+	key := func(p logbook.Pass) passKey {
+		t, ok := lower[p.Track]
+		if !ok {
+			t = strings.ToLower(p.Track)
+			lower[p.Track] = t
+		}
+		return passKey{p.Time.Unix() / 60, t, string(p.Lane)}
 	}
-	for _, p := range other {
-		o, ok := byKey[p.Key()]
-		if ok {
-			m.Logged = append(m.Logged, [2]logbook.Pass{p, o})
-		}
-		switch {
-		case !ok:
+	// byKey is where each pass is: i ≥ 0 ours[i], i < 0 other[-i-1] (a new
+	// pass, so another in other with its key is compared with it).
+	byKey := make(map[passKey]int, len(ours))
+	for i, p := range ours {
+		byKey[key(p)] = i
+	}
+	for i, p := range other {
+		k := key(p)
+		j, ok := byKey[k]
+		if !ok {
 			m.New = append(m.New, p)
-			byKey[p.Key()] = p
-		case slices.Equal(logbook.PassRecord(o), logbook.PassRecord(p)):
-			m.Same++
-		default:
-			m.Conflicts = append(m.Conflicts, Conflict{
-				What:    fmt.Sprintf("pass %s %s lane", p.Time.Format("2006-01-02 15:04"), p.Lane),
-				Differs: differs(logbook.Columns, logbook.PassRecord(o), logbook.PassRecord(p)),
-				Ours:    strings.Join(logbook.PassRecord(o), ","), Theirs: strings.Join(logbook.PassRecord(p), ","),
-				OursLine: o.Line, TheirsLine: p.Line})
+			byKey[k] = -i - 1
+			continue
 		}
+		o := &ours[max(j, 0)]
+		if j < 0 {
+			o = &other[-j-1]
+		}
+		m.Logged = append(m.Logged, Logged{Index: i, OursLine: o.Line})
+		if slices.Equal(logbook.PassRecord(*o), logbook.PassRecord(p)) {
+			m.Same++
+			continue
+		}
+		m.Conflicts = append(m.Conflicts, Conflict{
+			What:    fmt.Sprintf("pass %s %s lane", p.Time.Format("2006-01-02 15:04"), p.Lane),
+			Differs: differs(logbook.Columns, logbook.PassRecord(*o), logbook.PassRecord(p)),
+			Ours:    strings.Join(logbook.PassRecord(*o), ","), Theirs: strings.Join(logbook.PassRecord(p), ","),
+			OursLine: o.Line, TheirsLine: p.Line})
 	}
 	return m
 }

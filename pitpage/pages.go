@@ -149,12 +149,16 @@ func (s *Server) cardPage(q *request) {
 	if q.role == Crew {
 		csrf = s.cfg.Tokens.CSRF(q.token)
 	}
-	var body bytes.Buffer
-	form := &prep.ChecklistForm{Action: "/checklist", Round: p.Round, Day: p.Day, CSRF: csrf, ReadOnly: !p.CanWrite}
-	if err := prep.RenderHTMLBody(&body, c, prep.BodyOptions{Checklist: form, Warnings: plainAll(q.folder, warnings)}); err != nil {
-		p.Error = "The card could not be drawn: " + err.Error()
+	body := g.body(csrf, !p.CanWrite, func() renderedBody {
+		var body bytes.Buffer
+		form := &prep.ChecklistForm{Action: "/checklist", Round: p.Round, Day: p.Day, CSRF: csrf, ReadOnly: !p.CanWrite}
+		err := prep.RenderHTMLBody(&body, c, prep.BodyOptions{Checklist: form, Warnings: plainAll(q.folder, warnings)})
+		return renderedBody{body.String(), err}
+	})
+	if body.err != nil {
+		p.Error = "The card could not be drawn: " + body.err.Error()
 	}
-	p.Card = template.HTML(body.String())
+	p.Card = template.HTML(body.html)
 	if in.OpponentDial.Valid {
 		p.OppDial = logbook.FormatSeconds(in.OpponentDial.Decimal, 2)
 	}

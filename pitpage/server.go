@@ -541,6 +541,7 @@ func (s *Server) gathered(q *request, round string) gathered {
 	default:
 		if last, ok := s.latestCard(round); ok {
 			last.warnings = append(slices.Clone(last.warnings), "the logbook or the weather changed since this card was made: a new card is being made and the page reloads with it")
+			last.bodies = nil // its warnings are not the kept body's
 			return last
 		}
 		s.making <- struct{}{}
@@ -552,7 +553,7 @@ func (s *Server) gathered(q *request, round string) gathered {
 			return gathered{warnings: warnings, err: err, stamp: now}
 		}
 		in.HeldOut = s.heldOut
-		return gathered{card: prep.Gather(in), warnings: warnings, stamp: now}
+		return gathered{card: prep.Gather(in), warnings: warnings, stamp: now, bodies: &memo[renderedBody]{}}
 	})
 	s.keepLatest(round, c)
 	return c
@@ -580,6 +581,26 @@ type gathered struct {
 	warnings []string
 	err      error
 	stamp    string // the folder's when the card was made
+	// bodies are the card's rendered HTML, kept with it (so dropped with
+	// it when the folder changes), one per checklist form (its CSRF token
+	// and whether it may be sent); nil: render each time.
+	bodies *memo[renderedBody]
+}
+
+// renderedBody is a card's HTML as the page embeds it, or why it could not
+// be drawn.
+type renderedBody struct {
+	html string
+	err  error
+}
+
+// body is the card's HTML for a checklist form with the CSRF token csrf,
+// read-only or not: rendered by render once per card and form.
+func (g gathered) body(csrf string, readOnly bool, render func() renderedBody) renderedBody {
+	if g.bodies == nil {
+		return render()
+	}
+	return g.bodies.get(fmt.Sprintf("%s|%t", csrf, readOnly), render)
 }
 
 // sharedHeldOut is the held-out predictions every Server of the process

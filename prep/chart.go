@@ -70,11 +70,6 @@ func ChartFor(c Card, lay ChartLayout) string {
 	if dist == 0 || len(c.Prediction.Timers) == 0 {
 		return ""
 	}
-	type pt struct {
-		x, y       float64
-		today, out bool
-		label      string
-	}
 	left := map[string]bool{}
 	for _, o := range c.Prediction.Outliers {
 		left[o.Pass.Key()] = true
@@ -88,6 +83,25 @@ func ChartFor(c Card, lay ChartLayout) string {
 		pts = append(pts, pt{x: p.Air.Derive(0).DensityAltitude.Feet(), y: et, today: in.Settings.DayStart.Same(p.Time, in.Call),
 			out: left[p.Key()] || logbook.Aborted(p.Notes), label: p.Session.String()})
 	}
+	// A long logbook: its latest passes (and all of today's) are drawn,
+	// the earlier ones summarised as shaded cells, so the chart's size does
+	// not grow with the logbook.
+	var earlier []pt
+	earlierOut := 0
+	if len(pts) > ChartMarks {
+		recent := make([]pt, 0, ChartMarks)
+		for i, p := range pts {
+			switch {
+			case i >= len(pts)-ChartMarks || p.today:
+				recent = append(recent, p)
+			case p.out:
+				earlierOut++
+			default:
+				earlier = append(earlier, p)
+			}
+		}
+		pts = recent
+	}
 	f := c.Prediction.Finish()
 	predX := c.AirCall.DensityAltitude.Feet()
 	xs, ys := []float64{predX}, []float64{f.Low, f.High}
@@ -95,6 +109,9 @@ func ChartFor(c Card, lay ChartLayout) string {
 		if !p.out {
 			xs, ys = append(xs, p.x), append(ys, p.y)
 		}
+	}
+	for _, p := range earlier {
+		xs, ys = append(xs, p.x), append(ys, p.y)
 	}
 	xlo, xhi := minmax(xs)
 	ylo, yhi := minmax(ys)
@@ -104,7 +121,7 @@ func ChartFor(c Card, lay ChartLayout) string {
 
 	W, H, fs := lay.Width, lay.Height, lay.Font
 	ms := fs / 7 // markers grow with the text
-	legend := chartLegend(lay, ms)
+	legend := chartLegend(lay, ms, len(earlier), earlierOut)
 	// The margins hold the ticks' labels and the axes' titles.
 	L := fs*(1.4+charWidth*5) + 3
 	R, T, B := charWidth*fs*2.5, legend.height, fs*2.9 // R: half the last tick's label
@@ -144,6 +161,7 @@ func ChartFor(c Card, lay ChartLayout) string {
 	if len(line) > 1 {
 		fmt.Fprintf(&b, `<polyline points="%s" fill="none" stroke="#1f5fa8" stroke-width="%.1f"/>`, strings.Join(line, " "), 1.4*math.Sqrt(ms))
 	}
+	b.WriteString(shadeCells(earlier, plot, sx, sy))
 	// The markers, each taking its place from the labels.
 	taken := []box{}
 	// labelAt is a place for a label: its anchor is by the side of the
@@ -245,7 +263,7 @@ type legendPart struct {
 
 // chartLegend lays the legend out in rows above the plot, as many as the
 // width needs; height is the room it takes, the plot's top margin.
-func chartLegend(lay ChartLayout, ms float64) (out struct {
+func chartLegend(lay ChartLayout, ms float64, earlier, earlierOut int) (out struct {
 	svg    string
 	height float64
 }) {
@@ -256,6 +274,14 @@ func chartLegend(lay ChartLayout, ms float64) (out struct {
 		{fmt.Sprintf(`<path d="M%.1f %.1fl%.1f %.1fm0 %.1fl%.1f %.1f" stroke="#b00"/>`, -2*ms, -2*ms, 4*ms, 4*ms, -4*ms, -4*ms, 4*ms), "left out", 4},
 		{fmt.Sprintf(`<line x1="%.1f" y1="0" x2="%.1f" y2="0" stroke="#1f5fa8" stroke-width="1.4"/>`, -6*ms, 6*ms), "model, today's track and wind", 12},
 		{fmt.Sprintf(`<path d="M0 %.1fl%.1f %.1fl%.1f %.1fl%.1f %.1fz" fill="#111"/>`, -4*ms, 4*ms, 4*ms, -4*ms, 4*ms, -4*ms, -4*ms), "prediction, 95 % interval", 8},
+	}
+	if earlier+earlierOut > 0 {
+		parts[0].words = fmt.Sprintf("latest %d", ChartMarks)
+		words := fmt.Sprintf("%s earlier, darker where more", thousands(earlier))
+		if earlierOut > 0 {
+			words += fmt.Sprintf(" (%s left out not drawn)", thousands(earlierOut))
+		}
+		parts = append(parts, legendPart{fmt.Sprintf(`<rect x="%.1f" y="%.1f" width="%.1f" height="%.1f" fill="#888" fill-opacity="0.45"/>`, -2.5*ms, -2.5*ms, 5*ms, 5*ms), words, 5})
 	}
 	var b strings.Builder
 	rowH := fs * 1.3
@@ -304,4 +330,69 @@ func niceStep(s float64) float64 {
 		}
 	}
 	return 10 * p
+}
+
+// pt is a pass on the chart: its density altitude and ET, whether it is
+// today's or left out, and its label (its session).
+type pt struct {
+	x, y       float64
+	today, out bool
+	label      string
+}
+
+// ChartMarks is how many of the logbook's latest passes a chart draws one
+// by one (and all of today's): the earlier ones are shaded cells, so a
+// chart of ten seasons is the size of one of a season.
+const ChartMarks = 100
+
+// Shading of the earlier passes: a grid of cellsX by cellsY cells over the
+// plot, each holding any drawn in one of shadeLevels greys by its count
+// against the fullest cell's.
+const (
+	cellsX, cellsY = 24, 12
+	shadeLevels    = 4
+)
+
+// shadeCells draws the earlier passes, those inside the plot, as the grid's
+// cells that hold any, darker where more (one path per shade, so the
+// drawing's size is bounded by the grid, whatever the count).
+func shadeCells(earlier []pt, plot box, sx, sy func(float64) float64) string {
+	if len(earlier) == 0 {
+		return ""
+	}
+	var count [cellsX * cellsY]int
+	cw, ch := (plot.x1-plot.x0)/cellsX, (plot.y1-plot.y0)/cellsY
+	most := 0
+	for _, p := range earlier {
+		x, y := sx(p.x), sy(p.y)
+		if x < plot.x0 || x > plot.x1 || y < plot.y0 || y > plot.y1 {
+			continue
+		}
+		i := min(int((x-plot.x0)/cw), cellsX-1) + cellsX*min(int((y-plot.y0)/ch), cellsY-1)
+		count[i]++
+		most = max(most, count[i])
+	}
+	var b strings.Builder
+	for level := 1; level <= shadeLevels; level++ {
+		var d strings.Builder
+		for i, n := range count {
+			if n == 0 || (n*shadeLevels+most-1)/most != level {
+				continue
+			}
+			fmt.Fprintf(&d, "M%.1f %.1fh%.1fv%.1fh%.1fz", plot.x0+float64(i%cellsX)*cw, plot.y0+float64(i/cellsX)*ch, cw, ch, -cw)
+		}
+		if d.Len() > 0 {
+			fmt.Fprintf(&b, `<path d="%s" fill="#888" fill-opacity="%.2f"/>`, d.String(), 0.6*float64(level)/shadeLevels)
+		}
+	}
+	return b.String()
+}
+
+// thousands is n with a comma between its thousands: "4,935".
+func thousands(n int) string {
+	s := fmt.Sprint(n)
+	for i := len(s) - 3; i > 0; i -= 3 {
+		s = s[:i] + "," + s[i:]
+	}
+	return s
 }

@@ -2,11 +2,10 @@ package main
 
 import (
 	"bytes"
-	"encoding/csv"
 	"fmt"
 	"os"
 	"path/filepath"
-	"sort"
+	"pitcard/internal/biglog"
 	"strings"
 	"testing"
 	"time"
@@ -21,52 +20,71 @@ func bigFolder(b *testing.B, n int) string {
 	if code := run([]string{"init", "--demo", dir}, &IOStreams{In: strings.NewReader(""), Out: &out, Err: &errb, Now: time.Now}); code != 0 {
 		b.Fatal(errb.String())
 	}
-	path := filepath.Join(dir, "logbook.csv")
-	f, _ := os.Open(path)
-	rows, err := csv.NewReader(f).ReadAll()
-	f.Close()
-	if err != nil {
-		b.Fatal(err)
-	}
-	head, demo := rows[0], rows[1:]
-	seen := map[string]bool{}
-	var extra [][]string
-	for c := 1; len(extra) < n-len(demo); c++ {
-		for _, r := range demo {
-			t, _ := time.Parse("2006-01-02 15:04", r[0]+" "+r[1])
-			t = t.Add(-time.Duration(c) * (80*time.Hour + 37*time.Minute))
-			key := t.Format("2006-01-02 15:04") + r[2] + r[4]
-			if seen[key] || len(extra) >= n-len(demo) {
-				continue
-			}
-			seen[key] = true
-			x := append([]string(nil), r...)
-			x[0], x[1] = t.Format("2006-01-02"), t.Format("15:04")
-			extra = append(extra, x)
-		}
-	}
-	sort.Slice(extra, func(i, j int) bool { return extra[i][0]+extra[i][1] < extra[j][0]+extra[j][1] })
-	var buf bytes.Buffer
-	w := csv.NewWriter(&buf)
-	_ = w.Write(head)
-	_ = w.WriteAll(append(extra, demo...))
-	if err := os.WriteFile(path, buf.Bytes(), 0o644); err != nil {
+	if err := biglog.Grow(filepath.Join(dir, "logbook.csv"), n); err != nil {
 		b.Fatal(err)
 	}
 	return dir
 }
 
 // The whole card from a 100,000-pass logbook: reading and checking every
-// row, the fit, the prediction, the rules, the render. Target: 1 s.
+// row, the fit, the prediction, the rules, the render. Target: 0.5 s, and
+// a peak heap (reported) under 80 MB.
 func BenchmarkCard100000Passes(b *testing.B) {
 	dir := bigFolder(b, 100000)
+	benchLoop(b, "card", "--dir", dir, "--round", "3", "--lane", "left")
+}
+
+// BenchmarkLogStatsLast100At100000 is 'pitcard log stats --last 100' of a
+// 100,000-pass logbook: the fit on the latest passes, the air taken out of
+// the last 100 only.
+func BenchmarkLogStatsLast100At100000(b *testing.B) {
+	dir := bigFolder(b, 100000)
+	benchLoop(b, "log", "stats", "--last", "100", "--dir", dir)
+}
+
+// BenchmarkLogDiff300000 is 'pitcard log diff' of a 300,000-pass logbook
+// against a copy with 10 passes changed; its peak heap is reported
+// (target: the process under 200 MB).
+func BenchmarkLogDiff300000(b *testing.B) {
+	dir := bigFolder(b, 300000)
+	data, err := os.ReadFile(filepath.Join(dir, "logbook.csv"))
+	if err != nil {
+		b.Fatal(err)
+	}
+	lines := bytes.Split(data, []byte("\n"))
+	for i := 1; i <= 10; i++ { // another 60-ft time (the 8th column)
+		f := bytes.Split(lines[i*1000], []byte(","))
+		f[7] = []byte("1.999")
+		lines[i*1000] = bytes.Join(f, []byte(","))
+	}
+	theirs := filepath.Join(b.TempDir(), "theirs.csv")
+	writeBench(b, theirs, bytes.Join(lines, []byte("\n")))
+	data, lines = nil, nil
+	out := benchLoop(b, "log", "diff", theirs, "--dir", dir)
+	if !strings.Contains(out, "299990 passes alike in both, 10 conflicts") {
+		b.Fatalf("diff said:\n%.500s", out)
+	}
+}
+
+// benchLoop runs the command args in a loop and reports the peak heap of
+// the runs (MB); it returns the last run's output.
+func benchLoop(b *testing.B, args ...string) string {
+	b.Helper()
+	var peak uint64
+	var out bytes.Buffer
 	for b.Loop() {
-		var out, errb bytes.Buffer
+		var errb bytes.Buffer
+		out.Reset()
 		s := &IOStreams{In: strings.NewReader(""), Out: &out, Err: &errb, Now: func() time.Time { return fixedNow }}
-		if code := run([]string{"card", "--dir", dir, "--round", "3", "--lane", "left"}, s); code != 0 {
+		stop := biglog.WatchHeap()
+		code := run(args, s)
+		peak = max(peak, stop())
+		if code != 0 {
 			b.Fatal(fmt.Sprint(code, errb.String()))
 		}
 	}
+	b.ReportMetric(float64(peak)/(1<<20), "peak-heap-MB")
+	return out.String()
 }
 
 // BenchmarkLogImport100000Mapped is the whole 'pitcard log import FILE --map

@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"os"
+	"slices"
 	"strings"
 	"time"
 
@@ -200,21 +201,17 @@ value in some field, both versions shown. It writes nothing.`,
 			if err != nil {
 				return err
 			}
-			ours, leftOut := e.Logbook()
-			if !event.OnlyLeftOut(leftOut) {
-				return leftOut
-			}
 			src := event.Source{Path: args[0]}
 			if o.maps.Map != "" {
 				if src.Map, err = readMap(o.maps.Map, colmap.Logbook); err != nil {
 					return err
 				}
 			}
-			theirs, err := src.Passes()
-			if err != nil {
-				return err
+			// Compared a block of rows at a time: counts and lines are kept, not the passes.
+			m, leftOut := e.DiffLogbook(src)
+			if !event.OnlyLeftOut(leftOut) {
+				return leftOut
 			}
-			m := event.MergePasses(ours, theirs.Passes)
 			fmt.Fprintf(o.s.Out, "%s against %s: %s only in %s, %s alike in both, %s.\n", args[0], e.Name(event.LogbookFile),
 				text.Plural(len(m.New), "pass"), args[0], text.Plural(m.Same, "pass"), text.Plural(len(m.Conflicts), "conflict"))
 			if len(m.New) > 0 {
@@ -229,9 +226,9 @@ value in some field, both versions shown. It writes nothing.`,
 				c := &event.Conflicts{List: m.Conflicts, Ours: e.Name(event.LogbookFile), TheirsIn: args[0]}
 				fmt.Fprintf(o.s.Out, "\n%s and %s disagree on %s:\n%s\n", c.Ours, c.TheirsIn, text.Plural(len(c.List), "entry"), c.Entries())
 			}
-			if len(theirs.Bad) > 0 {
+			if len(m.TheirBad) > 0 {
 				fmt.Fprintf(o.s.Err, "pitcard: warning: %s has %s pitcard cannot read, left out of the comparison:\n%v\n", args[0],
-					text.Plural(len(theirs.Bad), "row"), logbook.RowErrors(theirs.Bad))
+					text.Plural(len(m.TheirBad), "row"), m.TheirBad)
 			}
 			return leftOut
 		},
@@ -324,14 +321,25 @@ func bounded(passes []logbook.Pass, since string, n int, track string) ([]logboo
 	if n < 0 {
 		return nil, &weather.InputError{Field: "--last", Value: fmt.Sprint(n), Reason: "is negative (0 for all)"}
 	}
+	name := logbook.TrackName(track)
+	match := func(p logbook.Pass) bool {
+		return (since == "" || !p.Time.Before(from)) && (track == "" || strings.EqualFold(name, p.Track))
+	}
+	if n > 0 { // the last n, found from the end: the rest is not looked at
+		var out []logbook.Pass
+		for i := len(passes) - 1; i >= 0 && len(out) < n; i-- {
+			if match(passes[i]) {
+				out = append(out, passes[i])
+			}
+		}
+		slices.Reverse(out)
+		return out, nil
+	}
 	var out []logbook.Pass
 	for _, p := range passes {
-		if (since == "" || !p.Time.Before(from)) && (track == "" || strings.EqualFold(logbook.TrackName(track), p.Track)) {
+		if match(p) {
 			out = append(out, p)
 		}
-	}
-	if n > 0 && len(out) > n {
-		out = out[len(out)-n:]
 	}
 	return out, nil
 }

@@ -215,9 +215,9 @@ func newLogImportCmd(s *IOStreams, g *globalOptions) *cobra.Command {
 		Short: "Import passes from a CSV: logbook.csv's columns, a spreadsheet through a map (all or nothing)",
 		Long: `Reads FILE, checks every row, and adds them all to the logbook, or none: when
 any row is bad, or a pass is already in the logbook, every problem is listed
-and nothing is written. FILE may be in logbook.csv's columns (the metric
-columns temp_c, baro_hpa, track_temp_c, wind_kmh and weight_kg are accepted),
-or in any layout with --map MAP.yaml (which column is which field, in which
+and nothing is written (a file already imported says so in one line). FILE
+may be in logbook.csv's columns (the metric columns temp_c, baro_hpa,
+track_temp_c, wind_kmh and weight_kg are accepted), or in any layout with --map MAP.yaml (which column is which field, in which
 unit and date layout; comma, semicolon or tab separated; decimal point or
 comma, detected when the map leaves them out). Without --map pitcard guesses
 a map from FILE's header, prints it, and imports with it only when given
@@ -263,11 +263,21 @@ day and round a conflict.`,
 			}
 			cur, _ := e.Logbook()
 			merge := event.MergePasses(cur, src.Passes)
+			if len(src.Bad) == 0 && len(src.Passes) > 0 && merge.Same == len(src.Passes) && !o.SkipExisting {
+				// A file already imported: said in one line, not a line per pass.
+				return userErrf("nothing new in %s: its %s are already in %s, alike (the same pass entered twice); nothing was imported (give --skip-existing to leave out the passes already logged)",
+					args[0], text.Plural(merge.Same, "pass"), e.Name(event.LogbookFile))
+			}
 			if len(src.Bad) > 0 || (len(merge.Logged) > 0 && !o.SkipExisting) {
 				// All or nothing: list every bad row, and the good rows that are already logged.
 				problems := append(logbook.RowErrors(nil), src.Bad...)
-				for _, l := range merge.Logged {
-					problems = append(problems, event.DuplicateOf(l[0], l[1], e.Name(event.LogbookFile)))
+				for i, l := range merge.Logged {
+					if i == shownDuplicates { // the rest counted, not listed
+						problems = append(problems, &weather.InputError{File: args[0], Field: fmt.Sprintf("%d more passes", len(merge.Logged)-i),
+							Reason: fmt.Sprintf("are already in %s too (not listed)", e.Name(event.LogbookFile))})
+						break
+					}
+					problems = append(problems, event.DuplicateOf(src.Passes[l.Index], logbook.Pass{Line: l.OursLine}, e.Name(event.LogbookFile)))
 				}
 				if len(src.Bad) == 0 {
 					return fmt.Errorf("%w\nNothing was imported (give --skip-existing to leave out the passes already logged)", problems)
@@ -307,6 +317,10 @@ day and round a conflict.`,
 	cmd.Flags().BoolVar(&o.SkipExisting, "skip-existing", false, "skip passes already logged with the same values (a different one stops the import)")
 	return cmd
 }
+
+// shownDuplicates is how many passes already logged an import lists one
+// by one; the rest are counted.
+const shownDuplicates = 20
 
 type logListOptions struct {
 	g      *globalOptions
@@ -530,21 +544,24 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 	if !event.OnlyLeftOut(leftOut) {
 		return leftOut
 	}
-	// With car.yaml and the weather of the passes, take the air out of the spread.
-	var residual map[string]float64
-	corrected := false
-	if car, err := e.Car(); err == nil && len(passes) > 0 {
-		trk, _ := e.Track()
-		tracks, _ := e.OtherTracks()
-		in := engine.CalibrateInput{Car: car, Track: trk, Tracks: tracks, Passes: passes, Now: passes[len(passes)-1].Time, DayStart: e.Settings.DayStart, Aborts: e.Settings.AbortWords, Changes: e.Settings.ChangeWords}
-		if fit, err := engine.Calibrate(in); err == nil && len(fit.Samples) > 0 {
-			residual, corrected = fit.Residuals(in), true
-		}
-	}
-	// The air is taken out with the whole logbook's fit; the table shows the passes asked for.
 	shown, err := bounded(passes, o.Since, o.Last, o.Track)
 	if err != nil {
 		return err
+	}
+	// With car.yaml and the weather of the passes, take the air out of the
+	// spread: the model is fitted as a card's is (on the latest passes, of
+	// the last RecentPasses), and only the passes shown are simulated.
+	var residual map[string]float64
+	corrected := false
+	if car, err := e.Car(); err == nil && len(passes) > 0 && len(shown) > 0 {
+		trk, _ := e.Track()
+		tracks, _ := e.OtherTracks()
+		recent := passes[max(0, len(passes)-event.RecentPasses):]
+		in := engine.CalibrateInput{Car: car, Track: trk, Tracks: tracks, Passes: recent, Now: passes[len(passes)-1].Time, DayStart: e.Settings.DayStart, Aborts: e.Settings.AbortWords, Changes: e.Settings.ChangeWords}
+		if fit, err := engine.Calibrate(in); err == nil && len(fit.Samples) > 0 {
+			in.Passes = shown
+			residual, corrected = fit.Residuals(in), true
+		}
 	}
 	stats := logbook.Stats(shown, residual, e.Settings.DayStart, e.Settings.AbortWords)
 	judge := func(s logbook.GroupStats) string {

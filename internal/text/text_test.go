@@ -20,6 +20,11 @@ func TestPlural(t *testing.T) {
 		{2, "reading", "2 readings"},
 		{5, "minute", "5 minutes"},
 		{2, "y", "2 ys"},
+		{0, "entry", "0 entries"},
+		{2, "battery", "2 batteries"},
+		{4, "tray", "4 trays"},
+		{2, "boy", "2 boys"},
+		{12, "opponent entry", "12 opponent entries"},
 	} {
 		t.Run(tc.want, func(t *testing.T) {
 			if got := Plural(tc.n, tc.noun); got != tc.want {
