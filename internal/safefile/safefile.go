@@ -9,7 +9,22 @@
 // written through the link: the lock, the temporary file, the rename and the
 // .bak all happen beside the link's target, so the shared file gets the row.
 // Temporary files are named .NAME.tmp-PID-RANDOM; one left by a writer that
-// died (kill -9, a power cut) is removed by the next write of that file.
+// died (kill -9, a power cut) is removed by the next write of that file: its
+// process id no longer runs, or it is older than StaleAge and carries no
+// process id, or it is older than StaleLiveAge whatever it carries (process
+// ids are reused, on Windows within minutes).
+//
+// On Windows the same guarantees hold, with these differences: whether a
+// writer still runs is asked of the process table (OpenProcess and its exit
+// code) instead of kill(pid, 0); os.Rename replaces the file with
+// MoveFileEx(MOVEFILE_REPLACE_EXISTING), which fails while another program
+// (a spreadsheet, a virus scanner, the pit page reading) has the old file
+// open without sharing delete, so a rename that fails so is tried again for
+// up to RenameRetry before the write gives up with the old file intact; the
+// lock (gofrs/flock) is LockFileEx on NAME.lock; symbolic links need
+// Developer Mode or an administrator to make but are followed the same way.
+// WritePrivate's mode 0600 is a Unix mode: on Windows the file keeps the
+// folder's access list (a user's profile folder is private to that user).
 package safefile
 
 import (
@@ -21,7 +36,6 @@ import (
 	"path/filepath"
 	"strconv"
 	"strings"
-	"syscall"
 	"time"
 
 	"github.com/gofrs/flock"
@@ -56,40 +70,100 @@ func tempPattern(path string) string {
 // must be before it is taken as left behind.
 var StaleAge = 10 * time.Minute
 
-// removeStale deletes the temporary files of path whose writer is gone: its
-// process id no longer runs, or the name carries none and the file is older
-// than StaleAge.
+// StaleLiveAge is how old a temporary file must be to be taken as left
+// behind even though a process with its id runs: no write takes that long,
+// and the id may be another program's by now.
+var StaleLiveAge = 24 * time.Hour
+
+// removeStale deletes the temporary files of path whose writer is gone.
 func removeStale(path string) {
 	prefix := "." + filepath.Base(path) + ".tmp-"
 	entries, err := os.ReadDir(filepath.Dir(path))
 	if err != nil {
 		return
 	}
+	now := time.Now()
 	for _, de := range entries {
 		name := de.Name()
 		if !strings.HasPrefix(name, prefix) {
 			continue
 		}
-		full := filepath.Join(filepath.Dir(path), name)
-		pid, _, hasPID := strings.Cut(strings.TrimPrefix(name, prefix), "-")
-		if n, err := strconv.Atoi(pid); hasPID && err == nil && n > 0 {
-			if n == os.Getpid() || processAlive(n) {
-				continue
-			}
-			os.Remove(full)
+		info, err := de.Info()
+		if err != nil {
 			continue
 		}
-		if info, err := de.Info(); err == nil && time.Since(info.ModTime()) > StaleAge {
-			os.Remove(full)
+		if isStale(strings.TrimPrefix(name, prefix), now.Sub(info.ModTime()), os.Getpid(), platform.alive) {
+			os.Remove(filepath.Join(filepath.Dir(path), name))
 		}
 	}
 }
 
-// processAlive reports whether a process with that id exists (signal 0
-// checks without sending anything; EPERM means it exists as another user).
-func processAlive(pid int) bool {
-	err := syscall.Kill(pid, 0)
-	return err == nil || errors.Is(err, syscall.EPERM)
+// isStale decides whether a temporary file is left behind, from what
+// follows ".NAME.tmp-" in its name ("PID-RANDOM", or "RANDOM" from an older
+// pitcard), its age, this process's id and whether a process id runs. The
+// same on every platform; only alive differs.
+func isStale(suffix string, age time.Duration, self int, alive func(pid int) bool) bool {
+	if age > StaleLiveAge {
+		return true
+	}
+	pid, _, hasPID := strings.Cut(suffix, "-")
+	if n, err := strconv.Atoi(pid); hasPID && err == nil && n > 0 {
+		return n != self && !alive(n)
+	}
+	return age > StaleAge
+}
+
+// system is what safefile asks of the operating system that differs per
+// platform (system_unix.go, system_windows.go); tests put in a fake.
+type system interface {
+	// alive reports whether a process with that id runs.
+	alive(pid int) bool
+	// busy reports whether a rename failed only because another process
+	// has the file open: worth trying again shortly.
+	busy(err error) bool
+	// rename moves from over to, replacing it.
+	rename(from, to string) error
+}
+
+// platform is this platform's system.
+var platform system = osSystem{}
+
+// RenameRetry is how long a rename that fails because the old file is open
+// elsewhere (Windows) is tried again before the write gives up.
+var RenameRetry = 3 * time.Second
+
+// replace renames tmp over path. A rename refused because another process
+// has path open is tried again, waiting 10 ms, then twice as long each time
+// up to 250 ms, for RenameRetry in all. A rename that reports an error but
+// landed (tmp gone, path now the very file tmp was) counts as done.
+func replace(sys system, tmp, path string) error {
+	before, _ := os.Stat(tmp)
+	deadline := time.Now().Add(RenameRetry)
+	wait := 10 * time.Millisecond
+	for {
+		err := sys.rename(tmp, path)
+		if err == nil || landed(before, tmp, path) {
+			return nil
+		}
+		if !sys.busy(err) || time.Now().Add(wait).After(deadline) {
+			return err
+		}
+		time.Sleep(wait)
+		wait = min(2*wait, 250*time.Millisecond)
+	}
+}
+
+// landed reports whether a rename of tmp (which was before) to path took
+// place although it reported an error.
+func landed(before fs.FileInfo, tmp, path string) bool {
+	if before == nil {
+		return false
+	}
+	if _, err := os.Lstat(tmp); !errors.Is(err, fs.ErrNotExist) {
+		return false
+	}
+	now, err := os.Stat(path)
+	return err == nil && os.SameFile(before, now)
 }
 
 // FailWrites, when set, is asked before every write and its error returned
@@ -194,7 +268,7 @@ func Write(path string, write func(io.Writer) error, opts ...Option) (err error)
 		return err
 	}
 	stage(StageBackedUp)
-	if err = os.Rename(tmp.Name(), path); err != nil {
+	if err = replace(platform, tmp.Name(), path); err != nil {
 		return fmt.Errorf("writing %s: %w", path, err)
 	}
 	stage(StageRenamed)
@@ -253,7 +327,7 @@ func writeMode(path string, data []byte, mode os.FileMode) error {
 		err = os.Chmod(tmp.Name(), mode)
 	}
 	if err == nil {
-		err = os.Rename(tmp.Name(), path)
+		err = replace(platform, tmp.Name(), path)
 	}
 	if err != nil {
 		os.Remove(tmp.Name())
