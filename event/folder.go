@@ -418,6 +418,10 @@ func SortReadings(log []weather.Reading) {
 // nothing, duplicates refused. Rows of the logbook pitcard cannot read are
 // written back as they were (and returned as kept, to be said); the crew's
 // own columns, the logbook's and those of extra, keep their values.
+//
+// One pass later than every logged pass, whose columns the file has, is
+// appended (appendPass: constant time in the logbook's size); anything else
+// reads and rewrites the whole file, keeping the old one as .bak.
 func (e *Folder) SaveLogbook(add []logbook.Pass, extra ...string) (n int, kept error, err error) {
 	path := e.Path(LogbookFile)
 	unlock, err := safefile.Lock(path)
@@ -425,6 +429,14 @@ func (e *Folder) SaveLogbook(add []logbook.Pass, extra ...string) (n int, kept e
 		return 0, nil, err
 	}
 	defer unlock()
+	if len(add) == 1 && !e.Demo {
+		if target, rerr := safefile.Resolve(path); rerr == nil {
+			n, done, err := e.appendPass(target, e.Name(LogbookFile), add[0], extra)
+			if done {
+				return n, nil, err
+			}
+		}
+	}
 	lb, name, err := e.LogbookFile()
 	if err != nil {
 		return 0, nil, err
@@ -457,6 +469,9 @@ func (e *Folder) SaveLogbook(add []logbook.Pass, extra ...string) (n int, kept e
 	}
 	if err := safefile.Write(path, lb.Write); err != nil {
 		return 0, nil, err
+	}
+	if target, err := safefile.Resolve(path); err == nil {
+		writeCount(target, len(lb.Passes), len(lb.Bad))
 	}
 	return len(lb.Passes), kept, nil
 }

@@ -1,0 +1,109 @@
+package logbook
+
+import (
+	"bytes"
+	"io"
+	"time"
+)
+
+// Tail is the end of a logbook file, read from the end: its header and its
+// last rows, enough of them to hold every pass from a given minute on. It is
+// what an append needs to refuse a duplicate, without reading the file.
+type Tail struct {
+	Logbook       // Header, Extra and the tail's rows (Passes, Bad)
+	EndsLine bool // the file ends with a line end (a row may follow)
+	// Whole is true when the tail reaches back to the header: every row of
+	// the file was read.
+	Whole bool
+	// InOrder is true when the tail's passes are in time order in the file,
+	// as pitcard writes them.
+	InOrder bool
+
+	r           io.ReaderAt
+	rowStart    int64 // the byte where the tail's first row begins
+	headerLines int
+}
+
+// maxTail is the most ReadTail reads back before it gives up (the caller
+// then reads the whole file): far more than a race day's passes.
+const maxTail = 1 << 20
+
+// ReadTail reads the end of the logbook file r (size bytes) back to the
+// last pass before from's minute, or to the header: Passes are the rows
+// from there on. It returns nil (and no error) when the file is not one a
+// tail can be read from: empty, no header line, rows longer than maxTail.
+// What it does not check: the rows before the tail (a bad row, a pass out
+// of time order or a duplicate there is the next full read's to say).
+func ReadTail(r io.ReaderAt, size int64, name string, loc *time.Location, setup Setup, from time.Time) (*Tail, error) {
+	if size <= 0 {
+		return nil, nil
+	}
+	head := make([]byte, min(size, 64<<10))
+	if _, err := r.ReadAt(head, 0); err != nil && err != io.EOF {
+		return nil, err
+	}
+	nl := bytes.IndexByte(head, '\n')
+	if nl < 0 {
+		return nil, nil
+	}
+	header := head[:nl+1]
+	hdrEnd := int64(nl + 1)
+	var last [1]byte
+	if _, err := r.ReadAt(last[:], size-1); err != nil && err != io.EOF {
+		return nil, err
+	}
+	minute := from.Truncate(time.Minute)
+	for chunk := int64(16 << 10); ; chunk *= 4 {
+		start := max(hdrEnd, size-chunk)
+		buf := make([]byte, size-start)
+		if _, err := r.ReadAt(buf, start); err != nil && err != io.EOF {
+			return nil, err
+		}
+		rows := buf
+		if start > hdrEnd { // begin at a line's start: drop the part line
+			i := bytes.IndexByte(buf, '\n')
+			if i < 0 {
+				return nil, nil
+			}
+			rows, start = buf[i+1:], start+int64(i+1)
+		}
+		lb, err := ReadSetup(io.MultiReader(bytes.NewReader(header), bytes.NewReader(rows)), name, loc, 0, setup)
+		if err != nil {
+			return nil, err
+		}
+		t := &Tail{Logbook: *lb, EndsLine: last[0] == '\n', Whole: start == hdrEnd, r: r, rowStart: start, headerLines: bytes.Count(header, []byte{'\n'})}
+		t.InOrder = true
+		for i := 1; i < len(t.Passes); i++ {
+			if t.Passes[i].Line < t.Passes[i-1].Line {
+				t.InOrder = false
+			}
+		}
+		if t.Whole || (len(t.Passes) > 0 && t.Passes[0].Time.Before(minute)) {
+			return t, nil
+		}
+		if chunk >= maxTail || start == hdrEnd {
+			return nil, nil
+		}
+	}
+}
+
+// FileLine is the line in the file of a line of the tail (a pass's Line,
+// a bad row's): it counts the line ends before the tail, so it reads the
+// file up to there (said only in a message, where that is no matter).
+func (t *Tail) FileLine(line int) (int, error) {
+	n := 0
+	buf := make([]byte, 64<<10)
+	for off := int64(0); off < t.rowStart; {
+		b := buf[:min(int64(len(buf)), t.rowStart-off)]
+		k, err := t.r.ReadAt(b, off)
+		n += bytes.Count(b[:k], []byte{'\n'})
+		off += int64(k)
+		if err != nil && err != io.EOF {
+			return 0, err
+		}
+		if k == 0 {
+			break
+		}
+	}
+	return n + line - t.headerLines, nil
+}
