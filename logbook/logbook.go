@@ -1,6 +1,7 @@
 package logbook
 
 import (
+	"bytes"
 	"encoding/csv"
 	"errors"
 	"fmt"
@@ -169,13 +170,22 @@ func ReadRecent(r io.Reader, name string, loc *time.Location, keep int) (*Logboo
 // choices (kept as the logbook writes it: "15.5 psi" as 15.5, a choice as
 // car.yaml spells it); a bad cell sets its row aside as any bad row is.
 func ReadSetup(r io.Reader, name string, loc *time.Location, keep int, setup Setup) (*Logbook, error) {
-	size := int64(-1) // the file's size when known: room for its passes at once
-	if lr, ok := r.(interface{ Len() int }); ok {
-		size = int64(lr.Len())
-	} else if st, ok := r.(interface{ Stat() (fs.FileInfo, error) }); ok {
-		if fi, err := st.Stat(); err == nil && fi.Mode().IsRegular() {
-			size = fi.Size()
+	lines := -1 // the file's lines when known: room for its passes at once
+	if st, ok := r.(interface{ Stat() (fs.FileInfo, error) }); ok {
+		// A file on disk is read whole, in one buffer of its size (a
+		// passing cost: ~140 bytes a pass), to count its lines, so the
+		// passes' slice is made once, at its size, and never copied.
+		if fi, err := st.Stat(); err == nil && fi.Mode().IsRegular() && fi.Size() < 1<<31 {
+			buf := make([]byte, fi.Size())
+			n, err := io.ReadFull(r, buf)
+			if err != nil && !errors.Is(err, io.ErrUnexpectedEOF) {
+				return nil, fmt.Errorf("%s: %w", name, err)
+			}
+			lines = bytes.Count(buf[:n], []byte{'\n'}) + 1
+			r = bytes.NewReader(buf[:n])
 		}
+	} else if lr, ok := r.(interface{ Len() int }); ok {
+		lines = lr.Len()/minRowBytes + 1
 	}
 	end := &endReader{r: r}
 	cr, header, err := weather.OpenCSV(end, name)
@@ -215,10 +225,10 @@ func ReadSetup(r io.Reader, name string, loc *time.Location, keep int, setup Set
 	seen := map[passKey]int{}
 	lower := map[string]string{}
 	rows := newRowReader(col)
-	if size >= 0 && keep == 0 {
-		// Room for the file's rows at once (a row is ~140 bytes or more),
-		// not a copy of every pass on each doubling.
-		lb.Passes = make([]Pass, 0, size/minRowBytes+1)
+	if lines >= 0 && keep == 0 {
+		// Room for the file's rows at once, not a copy of every pass on
+		// each doubling.
+		lb.Passes = make([]Pass, 0, lines)
 	}
 	if keep > 0 {
 		lb.Passes = make([]Pass, 0, 2*keep)
@@ -493,10 +503,58 @@ type rowReader struct {
 	f     SlipFields
 	canon []string
 	index []int
+	// The values read so far, shared by every pass that has them: a
+	// decimal's digits (a *big.Int, never changed once made), a track's
+	// name. A season repeats its times and tracks, so a pass holds no
+	// digits or text of its own, and no row's text stays alive through
+	// one of its fields.
+	decimals [len(decimalColumns)]map[string]decimal.Decimal
+	tracks   map[string]string
+}
+
+// decimalColumns are the columns read as decimals, as decimalFields lists
+// them.
+var decimalColumns = [...]string{"dial", "rt", "et60", "et330", "et660", "et1000", "et1320", "mph660", "mph1320"}
+
+func decimalFields(p *Pass) [len(decimalColumns)]*decimal.NullDecimal {
+	return [...]*decimal.NullDecimal{&p.Dial, &p.RT, &p.ET[0], &p.ET[1], &p.ET[2], &p.ET[3], &p.ET[4], &p.MPH660, &p.MPH1320}
+}
+
+// maxShared bounds each table of shared values (a logbook of all-different
+// values keeps its own beyond it).
+const maxShared = 1 << 14
+
+// share makes p's values the shared ones (see rowReader).
+func (r *rowReader) share(p *Pass) {
+	for i, d := range decimalFields(p) {
+		if !d.Valid {
+			continue
+		}
+		v := r.f.Values[decimalColumns[i]]
+		m := r.decimals[i]
+		if m == nil {
+			m = map[string]decimal.Decimal{}
+			r.decimals[i] = m
+		}
+		if s, ok := m[v]; ok {
+			d.Decimal = s
+		} else if len(m) < maxShared {
+			m[strings.Clone(v)] = d.Decimal
+		}
+	}
+	if t, ok := r.tracks[p.Track]; ok {
+		p.Track = t
+	} else {
+		p.Track = strings.Clone(p.Track)
+		if len(r.tracks) < maxShared {
+			r.tracks[p.Track] = p.Track
+		}
+	}
+	p.Notes, p.Change = strings.Clone(p.Notes), strings.Clone(p.Change)
 }
 
 func newRowReader(col map[string]weather.Column) *rowReader {
-	r := &rowReader{f: SlipFields{Values: map[string]string{}, Metric: map[string]bool{}, Names: map[string]string{}}}
+	r := &rowReader{f: SlipFields{Values: map[string]string{}, Metric: map[string]bool{}, Names: map[string]string{}}, tracks: map[string]string{}}
 	for canon, c := range col {
 		r.f.Metric[canon], r.f.Names[canon] = c.Metric, c.Name
 		r.canon, r.index = append(r.canon, canon), append(r.index, c.Index)
@@ -512,7 +570,11 @@ func (r *rowReader) pass(rec []string, loc *time.Location) (Pass, error) {
 		}
 		r.f.Values[c] = v
 	}
-	return ParsePass(r.f, loc)
+	p, err := ParsePass(r.f, loc)
+	if err == nil {
+		r.share(&p)
+	}
+	return p, err
 }
 
 // ParsePass builds a pass from its fields and validates it.
