@@ -1,13 +1,19 @@
 package event
 
 import (
+	"bytes"
+	"encoding/csv"
 	"fmt"
+	"io"
 	"os"
 	"path/filepath"
 	"slices"
+	"strings"
+	"time"
 
 	"pitcard/internal/safefile"
 	"pitcard/logbook"
+	"pitcard/weather"
 )
 
 // The append path of SaveLogbook: one new pass later than every logged
@@ -21,12 +27,17 @@ import (
 // the count, takes the full rewrite (with its .bak) and the count is set
 // again.
 
-// countFile is the count file of the logbook at path (its link's target).
+// The weather log is appended to the same way (appendReading): a reading
+// in a later minute than its last, into a log with a valid count file.
+
+// countFile is the count file of the logbook or weather log at path (its
+// link's target).
 func countFile(path string) string {
 	return filepath.Join(filepath.Dir(path), "."+filepath.Base(path)+".count")
 }
 
-// logCount is what the count file knows of a logbook file.
+// logCount is what the count file knows of a logbook or weather log: its
+// good rows (passes, readings) and its bad ones.
 type logCount struct {
 	size, modNano int64
 	passes, bad   int
@@ -40,7 +51,7 @@ func readCount(path string) (logCount, bool) {
 		return logCount{}, false
 	}
 	var c logCount
-	if n, err := fmt.Sscanf(string(data), "pitcard logbook count 1: size %d changed %d passes %d bad %d\n", &c.size, &c.modNano, &c.passes, &c.bad); err != nil || n != 4 {
+	if n, err := fmt.Sscanf(string(data), "pitcard count 1: size %d changed %d rows %d bad %d\n", &c.size, &c.modNano, &c.passes, &c.bad); err != nil || n != 4 {
 		return logCount{}, false
 	}
 	st, err := os.Stat(path)
@@ -58,7 +69,7 @@ func writeCount(path string, passes, bad int) {
 	if err != nil {
 		return
 	}
-	_ = os.WriteFile(countFile(path), fmt.Appendf(nil, "pitcard logbook count 1: size %d changed %d passes %d bad %d\n",
+	_ = os.WriteFile(countFile(path), fmt.Appendf(nil, "pitcard count 1: size %d changed %d rows %d bad %d\n",
 		st.Size(), st.ModTime().UnixNano(), passes, bad), 0o644)
 }
 
@@ -122,4 +133,64 @@ func (e *Folder) appendPass(path, name string, p logbook.Pass, extra []string) (
 	}
 	writeCount(path, c.passes+1, 0)
 	return c.passes + 1, true, nil
+}
+
+// appendReading adds r at the end of the weather log at path (resolved,
+// locked by the caller) when it can: done is false when the full rewrite
+// must do it (no valid count file, a header pitcard does not write, a torn
+// or unreadable last line, r not in a later minute than the last reading).
+// A later minute than the last reading's is no minute the log has, the log
+// being in time order as pitcard writes it; what it does not check is a
+// row before the last (the next full read names a bad one).
+func (e *Folder) appendReading(path string, r weather.Reading, elev weather.Length) (n int, done bool) {
+	c, ok := readCount(path)
+	if !ok || c.bad > 0 {
+		return 0, false
+	}
+	f, err := os.Open(path)
+	if err != nil {
+		return 0, false
+	}
+	defer f.Close()
+	var hb strings.Builder
+	cw := csv.NewWriter(&hb)
+	cw.Write(weather.LogColumns)
+	cw.Flush()
+	header := hb.String()
+	head := make([]byte, len(header))
+	if _, err := f.ReadAt(head, 0); err != nil || string(head) != header || c.size <= int64(len(header)) {
+		return 0, false
+	}
+	start := max(int64(len(header)), c.size-4096)
+	buf := make([]byte, c.size-start)
+	if _, err := f.ReadAt(buf, start); err != nil || buf[len(buf)-1] != '\n' {
+		return 0, false
+	}
+	rows := buf
+	if start > int64(len(header)) {
+		i := bytes.IndexByte(buf, '\n')
+		rows = buf[i+1:]
+	}
+	tail, err := weather.ReadLog(io.MultiReader(strings.NewReader(header), bytes.NewReader(rows)), e.Name(WeatherFile), elev, e.Zone())
+	if err != nil || len(tail) == 0 {
+		return 0, false
+	}
+	for i := 1; i < len(tail); i++ {
+		if tail[i].Time.Before(tail[i-1].Time) {
+			return 0, false
+		}
+	}
+	if !tail[len(tail)-1].Time.Truncate(time.Minute).Before(r.Time.Truncate(time.Minute)) {
+		return 0, false // the same minute or earlier: the full path refuses, replaces or sorts it in
+	}
+	var row bytes.Buffer
+	if err := weather.WriteLog(&row, []weather.Reading{r}); err != nil {
+		return 0, false
+	}
+	line := row.Bytes()[len(header):]
+	if err := safefile.Append(path, line); err != nil {
+		return 0, false
+	}
+	writeCount(path, c.passes+1, 0)
+	return c.passes + 1, true
 }

@@ -16,6 +16,7 @@ import (
 
 	"pitcard/internal/safefile"
 	"pitcard/logbook"
+	"pitcard/weather"
 )
 
 // appendFolder is an invented folder (the Hollow Pines strip, an invented
@@ -220,4 +221,54 @@ func TestAppendCrashChild(t *testing.T) {
 	e := &Folder{Dir: dir, FS: os.DirFS(dir), Loc: time.UTC}
 	_, _, err := e.SaveLogbook([]logbook.Pass{slipAt(time.Date(2026, 3, 2, 9, 0, 0, 0, time.UTC), logbook.Right)})
 	t.Fatalf("the append was not stopped at %s: %v", at, err)
+}
+
+// The weather log's append path: a later reading is appended (no .bak), one
+// in a minute the log has is still refused, an earlier one sorted in by the
+// rewrite. Invented readings; the rules are pitcard's own (no source).
+func TestAppendReading(t *testing.T) {
+	dir := t.TempDir()
+	e := &Folder{Dir: dir, FS: os.DirFS(dir), Loc: time.UTC}
+	path := filepath.Join(dir, WeatherFile)
+	at := func(h, m int) weather.Reading {
+		return weather.Reading{Time: time.Date(2026, 5, 9, h, m, 0, 0, time.UTC), Temp: weather.Fahrenheit(71), Baro: weather.InHg(29.1), RH: 0.4}
+	}
+	for i, tc := range []struct {
+		r      weather.Reading
+		n      int
+		bak    bool // a rewrite (it keeps a .bak)
+		errHas string
+	}{
+		{at(10, 0), 1, false, ""}, // a new log: written whole (and counted), nothing to keep
+		{at(10, 5), 2, false, ""},
+		{at(10, 10), 3, false, ""},
+		{at(10, 30), 4, false, ""},
+		{at(10, 30), 0, false, "already has a reading at 2026-05-09 10:30"},
+		{at(9, 0), 5, true, ""},
+		{at(11, 0), 6, false, ""},
+	} {
+		os.Remove(path + ".bak")
+		n, err := e.AppendReading(tc.r, 0, false)
+		if tc.errHas != "" {
+			if err == nil || !strings.Contains(err.Error(), tc.errHas) {
+				t.Fatalf("%d: %v, want %q", i, err, tc.errHas)
+			}
+			continue
+		}
+		if err != nil || n != tc.n {
+			t.Fatalf("%d: n %d, %v; want %d", i, n, err, tc.n)
+		}
+		if _, err := os.Stat(path + ".bak"); (err == nil) != tc.bak {
+			t.Fatalf("%d: .bak kept %v, want %v", i, err == nil, tc.bak)
+		}
+	}
+	log, err := e.WeatherLog(0)
+	if err != nil || len(log) != 6 {
+		t.Fatalf("read back %d readings, %v", len(log), err)
+	}
+	for i := 1; i < len(log); i++ {
+		if !log[i-1].Time.Before(log[i].Time) {
+			t.Fatalf("readings out of order at %d", i)
+		}
+	}
 }

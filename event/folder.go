@@ -351,6 +351,8 @@ func (s *SameMinute) BadInput() bool { return true }
 // AppendReading adds a reading to the weather log under its lock, and
 // returns how many readings the log holds. A reading in a minute the log
 // already has is refused (*SameMinute), or with replace takes its place.
+// A reading later than the last is appended (appendReading: constant time
+// in the log's size); anything else rewrites the log.
 func (e *Folder) AppendReading(r weather.Reading, elev weather.Length, replace bool) (int, error) {
 	path := e.Path(WeatherFile)
 	unlock, err := safefile.Lock(path)
@@ -358,6 +360,11 @@ func (e *Folder) AppendReading(r weather.Reading, elev weather.Length, replace b
 		return 0, err
 	}
 	defer unlock()
+	if target, err := safefile.Resolve(path); err == nil && !e.Demo {
+		if n, done := e.appendReading(target, r, elev); done {
+			return n, nil
+		}
+	}
 	log, err := e.WeatherLog(elev)
 	if bad := new(weather.BadReadings); errors.As(err, &bad) {
 		// Writing the log back would drop the rows that cannot be read.
@@ -377,7 +384,13 @@ func (e *Folder) AppendReading(r weather.Reading, elev weather.Length, replace b
 	}
 	log = append(log, r)
 	SortReadings(log)
-	return len(log), safefile.Write(path, func(w io.Writer) error { return weather.WriteLog(w, log) })
+	if err := safefile.Write(path, func(w io.Writer) error { return weather.WriteLog(w, log) }); err != nil {
+		return 0, err
+	}
+	if target, err := safefile.Resolve(path); err == nil {
+		writeCount(target, len(log), 0)
+	}
+	return len(log), nil
 }
 
 // ReadableWeather is WeatherLog for a command that only reads it: the
