@@ -175,7 +175,18 @@ func (e *Folder) readLogbook(keep int) (*logbook.Logbook, string, error) {
 		return nil, name, err
 	}
 	defer f.Close()
-	lb, err := logbook.ReadSetup(f, name, e.Zone(), keep, e.setup())
+	setup := e.setup()
+	if ra, ok := f.(io.ReaderAt); ok && keep > 0 {
+		// The recent window, read from the end of the file (see
+		// logbook.ReadLast for what that leaves unchecked).
+		if st, err := f.Stat(); err == nil && st.Mode().IsRegular() {
+			lb, err := logbook.ReadLast(ra, st.Size(), name, e.Zone(), setup, keep)
+			if err != nil || lb != nil {
+				return lb, name, err
+			}
+		}
+	}
+	lb, err := logbook.ReadSetup(f, name, e.Zone(), keep, setup)
 	return lb, name, err
 }
 
@@ -191,12 +202,15 @@ func (e *Folder) setup() logbook.Setup {
 }
 
 // RecentPasses is how many of the logbook's latest passes a card, a
-// prediction or a dial reads (every row is still checked): far more than a
-// fit uses, far less than ten seasons.
+// prediction or a dial reads, from the end of the file (the rows before them
+// are not checked: logbook.ReadLast): far more than a fit uses, far less
+// than ten seasons.
 const RecentPasses = 5000
 
 // RecentLogbook is Logbook for the commands that only predict: the last
-// RecentPasses good passes.
+// RecentPasses good passes, read from the end of the file; a bad row is
+// named only when it is among them (Logbook, for log list and log stats,
+// names every one).
 func (e *Folder) RecentLogbook() ([]logbook.Pass, error) { return e.readPasses(RecentPasses) }
 
 // Logbook is the folder's good passes. Rows it could not read come back as

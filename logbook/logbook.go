@@ -233,7 +233,7 @@ func ReadSetup(r io.Reader, name string, loc *time.Location, keep int, setup Set
 	if keep > 0 {
 		lb.Passes = make([]Pass, 0, 2*keep)
 	}
-	trim := func() { // keep the latest keep, in place
+	trim := func(keep int) { // keep the latest keep, in place
 		if keep > 0 && len(lb.Passes) > keep {
 			SortPasses(lb.Passes)
 			n := copy(lb.Passes, lb.Passes[len(lb.Passes)-keep:])
@@ -306,7 +306,7 @@ func ReadSetup(r io.Reader, name string, loc *time.Location, keep int, setup Set
 		lb.Passes = append(lb.Passes, p)
 		last, lastLine = rec, line
 		if keep > 0 && len(lb.Passes) >= 2*keep {
-			trim()
+			trim(keep + 1) // one more: the last row may yet be found torn
 		}
 	}
 	torn := end.n > 0 && end.last != '\n' && end.last != '\r'
@@ -328,7 +328,7 @@ func ReadSetup(r io.Reader, name string, loc *time.Location, keep int, setup Set
 			Reason: TornReason}, append([]string(nil), last...))
 	}
 	SortPasses(lb.Passes)
-	trim()
+	trim(keep)
 	return lb, nil
 }
 

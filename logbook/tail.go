@@ -3,6 +3,7 @@ package logbook
 import (
 	"bytes"
 	"io"
+	"slices"
 	"time"
 )
 
@@ -35,6 +36,16 @@ const maxTail = 1 << 20
 // What it does not check: the rows before the tail (a bad row, a pass out
 // of time order or a duplicate there is the next full read's to say).
 func ReadTail(r io.ReaderAt, size int64, name string, loc *time.Location, setup Setup, from time.Time) (*Tail, error) {
+	minute := from.Truncate(time.Minute)
+	return readBack(r, size, name, loc, setup, maxTail, func(lb *Logbook) bool {
+		return len(lb.Passes) > 0 && lb.Passes[0].Time.Before(minute)
+	})
+}
+
+// readBack reads the end of the logbook file r (size bytes) in growing
+// chunks, up to most bytes, until enough says the rows read suffice or the
+// chunk reaches the header; nil when it cannot (see ReadTail).
+func readBack(r io.ReaderAt, size int64, name string, loc *time.Location, setup Setup, most int64, enough func(*Logbook) bool) (*Tail, error) {
 	if size <= 0 {
 		return nil, nil
 	}
@@ -52,7 +63,6 @@ func ReadTail(r io.ReaderAt, size int64, name string, loc *time.Location, setup 
 	if _, err := r.ReadAt(last[:], size-1); err != nil && err != io.EOF {
 		return nil, err
 	}
-	minute := from.Truncate(time.Minute)
 	for chunk := int64(16 << 10); ; chunk *= 4 {
 		start := max(hdrEnd, size-chunk)
 		buf := make([]byte, size-start)
@@ -78,13 +88,61 @@ func ReadTail(r io.ReaderAt, size int64, name string, loc *time.Location, setup 
 				t.InOrder = false
 			}
 		}
-		if t.Whole || (len(t.Passes) > 0 && t.Passes[0].Time.Before(minute)) {
+		if t.Whole || enough(&t.Logbook) {
 			return t, nil
 		}
-		if chunk >= maxTail || start == hdrEnd {
+		if chunk >= most || start == hdrEnd {
 			return nil, nil
 		}
 	}
+}
+
+// ReadLast reads the last keep passes of the logbook file r (size bytes)
+// from its end, not the whole file: what a card, a prediction or a dial
+// needs from ten seasons. Lines are the file's. It returns nil (read the
+// whole file instead) when the end cannot stand for the file: its rows out
+// of time order, a row not even CSV, too few rows.
+//
+// What it no longer checks, unlike ReadRecent: the rows before the window.
+// A bad row there is not named, a pass there entered twice is not found,
+// and a pass there later than the window's (a file out of time order before
+// its last keep rows) is not seen. 'log list', 'log stats' and every
+// command that writes the logbook read the whole file and name them.
+func ReadLast(r io.ReaderAt, size int64, name string, loc *time.Location, setup Setup, keep int) (*Logbook, error) {
+	t, err := readBack(r, size, name, loc, setup, size, func(lb *Logbook) bool {
+		return len(lb.Passes) > keep // one row more: the first may be a cut quoted cell
+	})
+	if err != nil || t == nil || !t.InOrder || !t.Kept() {
+		return nil, err
+	}
+	lb := t.Logbook
+	off, err := t.FileLine(0)
+	if err != nil {
+		return nil, err
+	}
+	if !t.Whole {
+		// the window's first row may be a cell's second line (a quoted cell
+		// across lines began before it): it is left out, and said nowhere
+		first := t.headerLines + 1
+		lb.Passes = slices.DeleteFunc(lb.Passes, func(p Pass) bool { return p.Line == first })
+		for i := 0; i < len(lb.Bad); i++ {
+			if lb.Bad[i].Line == first {
+				lb.Bad = slices.Delete(lb.Bad, i, i+1)
+				lb.BadRows = slices.Delete(lb.BadRows, i, i+1)
+				i--
+			}
+		}
+	}
+	for i := range lb.Passes {
+		lb.Passes[i].Line += off
+	}
+	for _, b := range lb.Bad {
+		b.Line += off
+	}
+	if len(lb.Passes) > keep {
+		lb.Passes = slices.Clip(lb.Passes[len(lb.Passes)-keep:])
+	}
+	return &lb, nil
 }
 
 // FileLine is the line in the file of a line of the tail (a pass's Line,
