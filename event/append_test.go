@@ -272,3 +272,36 @@ func TestAppendReading(t *testing.T) {
 		}
 	}
 }
+
+// A last line without its line end while a writer holds the lock is an
+// append under way: a reader takes it as not there yet and says nothing;
+// once no writer holds the lock it is torn, and said. Invented scenario (no
+// source).
+func TestLineBeingAppended(t *testing.T) {
+	e, path := appendFolder(t, 5)
+	data, _ := os.ReadFile(path)
+	os.WriteFile(path, append(data, "2026-02-01,12:00,Hollow Pines,T1,ri"...), 0o644)
+	wpath := filepath.Join(e.Dir, WeatherFile)
+	os.WriteFile(wpath, []byte("date,time,temp_f,baro_inhg,baro_kind,humidity_pct,dewpoint_f,wind_mph,wind_from_deg,track_temp_f,notes\n2026-02-01,11:00,70,29.1,station,40,,,,,\n2026-02-01,11:30,7"), 0o644)
+	unlock, err := safefile.Lock(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	wunlock, err := safefile.Lock(wpath)
+	if err != nil {
+		t.Fatal(err)
+	}
+	passes, err := e.Logbook()
+	if len(passes) != 5 || err != nil {
+		t.Fatalf("a line being appended: %d passes, %v", len(passes), err)
+	}
+	if log, err := e.WeatherLog(0); len(log) != 1 || err != nil {
+		t.Fatalf("a reading being appended: %d readings, %v", len(log), err)
+	}
+	unlock()
+	wunlock()
+	passes, err = e.Logbook()
+	if len(passes) != 5 || err == nil || !strings.Contains(err.Error(), "line 7") || !strings.Contains(err.Error(), "no line end") {
+		t.Fatalf("a torn line: %d passes, %v", len(passes), err)
+	}
+}

@@ -166,7 +166,26 @@ func (e *Folder) Car() (engine.Car, error) {
 func (e *Folder) LogbookFile() (*logbook.Logbook, string, error) { return e.readLogbook(0) }
 
 // readLogbook reads the logbook keeping its latest keep passes (0: all).
+// A last line without its line end that a writer is appending right now is
+// taken as not there yet; one no writer holds is torn, and set aside.
 func (e *Folder) readLogbook(keep int) (*logbook.Logbook, string, error) {
+	lb, name, err := e.readLogbookHeld(keep, false)
+	if err != nil || lb == nil {
+		return lb, name, err
+	}
+	for i, b := range lb.Bad {
+		if b.Reason == logbook.TornReason && !e.Demo && !safefile.Torn(e.Path(LogbookFile)) {
+			lb.Bad = slices.Delete(lb.Bad, i, i+1)
+			lb.BadRows = slices.Delete(lb.BadRows, i, i+1)
+			break
+		}
+	}
+	return lb, name, err
+}
+
+// readLogbookHeld is readLogbook for a caller that holds the logbook's lock
+// (held: a last line without its line end is torn).
+func (e *Folder) readLogbookHeld(keep int, held bool) (*logbook.Logbook, string, error) {
 	f, name, err := e.OpenFile(LogbookFile, e.LogbookPath)
 	if errors.Is(err, fs.ErrNotExist) {
 		return &logbook.Logbook{}, name, nil
@@ -379,7 +398,7 @@ func (e *Folder) AppendReading(r weather.Reading, elev weather.Length, replace b
 			return n, nil
 		}
 	}
-	log, err := e.WeatherLog(elev)
+	log, err := e.weatherLog(elev, true)
 	if bad := new(weather.BadReadings); errors.As(err, &bad) {
 		// Writing the log back would drop the rows that cannot be read.
 		return 0, fmt.Errorf("%w\nnothing was written: correct or delete the row(s) named, then add the reading again", err)
@@ -420,13 +439,24 @@ func (e *Folder) ReadableWeather(elev weather.Length) ([]weather.Reading, *weath
 }
 
 // weatherLog reads the folder's weather.csv (none yet: an empty log).
+// A last line without its line end that a writer is appending right now is
+// taken as not there yet.
 func (e *Folder) WeatherLog(elev weather.Length) ([]weather.Reading, error) {
+	return e.weatherLog(elev, false)
+}
+
+// weatherLog is WeatherLog; held: the caller holds the log's lock (a last
+// line without its line end is torn, and read as it is).
+func (e *Folder) weatherLog(elev weather.Length, held bool) ([]weather.Reading, error) {
 	data, err := fs.ReadFile(e.FS, WeatherFile)
 	if errors.Is(err, fs.ErrNotExist) {
 		return nil, nil
 	}
 	if err != nil {
 		return nil, err
+	}
+	if n := len(data); n > 0 && data[n-1] != '\n' && data[n-1] != '\r' && !held && !e.Demo && !safefile.Torn(e.Path(WeatherFile)) {
+		data = data[:bytes.LastIndexByte(data, '\n')+1] // being appended: not there yet
 	}
 	return weather.ReadLog(bytes.NewReader(data), e.Name(WeatherFile), elev, e.Zone())
 }
@@ -464,7 +494,7 @@ func (e *Folder) SaveLogbook(add []logbook.Pass, extra ...string) (n int, kept e
 			}
 		}
 	}
-	lb, name, err := e.LogbookFile()
+	lb, name, err := e.readLogbookHeld(0, true)
 	if err != nil {
 		return 0, nil, err
 	}

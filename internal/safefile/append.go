@@ -3,6 +3,8 @@ package safefile
 import (
 	"fmt"
 	"os"
+
+	"github.com/gofrs/flock"
 )
 
 // Stages of an Append, in order, as PauseAt names them.
@@ -90,4 +92,25 @@ func EndsWithLineEnd(path string) (bool, error) {
 		return false, err
 	}
 	return b[0] == '\n', nil
+}
+
+// Torn reports whether the file at path ends in a line a writer left cut
+// short (a crash mid-append), not one being appended right now: it does not
+// end with a line end, and no writer holds its lock. A reader that finds a
+// last line without its line end asks this before it says the line is torn;
+// a line being appended is taken as not there yet. A caller holding the
+// lock itself must not ask (the line is torn: no one else is writing).
+func Torn(path string) bool {
+	path, err := Resolve(path)
+	if err != nil {
+		return false
+	}
+	l := flock.New(path + ".lock")
+	ok, err := l.TryLock()
+	if err != nil || !ok {
+		return false // a writer is at it
+	}
+	defer func() { _ = l.Unlock() }()
+	ends, err := EndsWithLineEnd(path)
+	return err == nil && !ends
 }
