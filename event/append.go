@@ -90,6 +90,10 @@ func (e *Folder) appendPass(path, name string, p logbook.Pass, extra []string) (
 		return 0, false, nil
 	}
 	defer f.Close()
+	var end [1]byte
+	if _, err := f.ReadAt(end[:], c.size-1); err != nil || end[0] != '\n' {
+		return 0, false, nil // torn or empty: the rewrite
+	}
 	tail, err := logbook.ReadTail(f, c.size, name, e.Zone(), e.setup(), p.Time)
 	if err != nil || tail == nil || !tail.EndsLine || len(tail.Bad) > 0 || !tail.InOrder {
 		return 0, false, nil

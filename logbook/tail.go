@@ -30,7 +30,8 @@ type Tail struct {
 const maxTail = 1 << 20
 
 // ReadTail reads the end of the logbook file r (size bytes) back to the
-// last pass before from's minute, or to the header: Passes are the rows
+// last pass before from's minute, or to the header, or only until a pass
+// later than from is read (from is then not the last): Passes are the rows
 // from there on. It returns nil (and no error) when the file is not one a
 // tail can be read from: empty, no header line, rows longer than maxTail.
 // What it does not check: the rows before the tail (a bad row, a pass out
@@ -38,7 +39,10 @@ const maxTail = 1 << 20
 func ReadTail(r io.ReaderAt, size int64, name string, loc *time.Location, setup Setup, from time.Time) (*Tail, error) {
 	minute := from.Truncate(time.Minute)
 	return readBack(r, size, name, loc, setup, maxTail, func(lb *Logbook) bool {
-		return len(lb.Passes) > 0 && lb.Passes[0].Time.Before(minute)
+		n := len(lb.Passes)
+		// back to a pass before from's minute, or no further once a pass
+		// is later than from (an append is out of the question)
+		return n > 0 && (lb.Passes[0].Time.Before(minute) || from.Before(lb.Passes[n-1].Time))
 	})
 }
 
