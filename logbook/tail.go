@@ -17,7 +17,7 @@ type Tail struct {
 	// the file was read.
 	Whole bool
 	// InOrder is true when the tail's passes are in time order in the file,
-	// as pitcard writes them.
+	// as pitcard writes them (inFileOrder).
 	InOrder bool
 
 	r           io.ReaderAt
@@ -86,12 +86,7 @@ func readBack(r io.ReaderAt, size int64, name string, loc *time.Location, setup 
 			return nil, err
 		}
 		t := &Tail{Logbook: *lb, EndsLine: last[0] == '\n', Whole: start == hdrEnd, r: r, rowStart: start, headerLines: bytes.Count(header, []byte{'\n'})}
-		t.InOrder = true
-		for i := 1; i < len(t.Passes); i++ {
-			if t.Passes[i].Line < t.Passes[i-1].Line {
-				t.InOrder = false
-			}
-		}
+		t.InOrder = inFileOrder(t.Passes)
 		if t.Whole || enough(&t.Logbook) {
 			return t, nil
 		}
@@ -168,4 +163,19 @@ func (t *Tail) FileLine(line int) (int, error) {
 		}
 	}
 	return n + line - t.headerLines, nil
+}
+
+// inFileOrder reports whether passes (in time order) stand in the file in
+// that order, lines rising with time, give or take the hour a clock is set
+// back at the end of summer time (01:30 before 01:10 local, an hour
+// apart, are in order as the file's local times read).
+func inFileOrder(passes []Pass) bool {
+	byLine := slices.Clone(passes)
+	slices.SortFunc(byLine, func(a, b Pass) int { return a.Line - b.Line })
+	for i := 1; i < len(byLine); i++ {
+		if byLine[i].Time.Before(byLine[i-1].Time.Add(-time.Hour)) {
+			return false
+		}
+	}
+	return true
 }
