@@ -329,18 +329,28 @@ func (e *Folder) passSetup(p *logbook.Pass, set []string) ([]string, error) {
 	if err != nil || len(setup) == 0 {
 		return nil, err
 	}
-	lb, _, err := e.LogbookFile()
-	if err != nil {
-		return nil, err
-	}
-	before := lb.Passes
-	for i, q := range before {
-		if !q.Time.Before(p.Time) {
-			before = before[:i]
+	// The last passes, from the end of the file, most often hold every
+	// item's last value; when not (an item unrecorded for long, a pass
+	// earlier than them), the whole logbook is read.
+	const window = 200
+	var last map[string]string
+	for _, keep := range []int{window, 0} {
+		lb, _, err := e.readLogbook(keep)
+		if err != nil {
+			return nil, err
+		}
+		before := lb.Passes
+		for i, q := range before {
+			if !q.Time.Before(p.Time) {
+				before = before[:i]
+				break
+			}
+		}
+		last = logbook.LastSetup(before, setup)
+		if len(last) == len(setup) || len(lb.Passes) < window {
 			break
 		}
 	}
-	last := logbook.LastSetup(before, setup)
 	var cols []string
 	for _, it := range setup {
 		v, ok := given[it.Name]

@@ -166,7 +166,26 @@ func (e *Folder) Car() (engine.Car, error) {
 func (e *Folder) LogbookFile() (*logbook.Logbook, string, error) { return e.readLogbook(0) }
 
 // readLogbook reads the logbook keeping its latest keep passes (0: all).
+// A last line without its line end that a writer is appending right now is
+// taken as not there yet; one no writer holds is torn, and set aside.
 func (e *Folder) readLogbook(keep int) (*logbook.Logbook, string, error) {
+	lb, name, err := e.readLogbookHeld(keep, false)
+	if err != nil || lb == nil {
+		return lb, name, err
+	}
+	for i, b := range lb.Bad {
+		if b.Reason == logbook.TornReason && !e.Demo && !safefile.Torn(e.Path(LogbookFile)) {
+			lb.Bad = slices.Delete(lb.Bad, i, i+1)
+			lb.BadRows = slices.Delete(lb.BadRows, i, i+1)
+			break
+		}
+	}
+	return lb, name, err
+}
+
+// readLogbookHeld is readLogbook for a caller that holds the logbook's lock
+// (held: a last line without its line end is torn).
+func (e *Folder) readLogbookHeld(keep int, held bool) (*logbook.Logbook, string, error) {
 	f, name, err := e.OpenFile(LogbookFile, e.LogbookPath)
 	if errors.Is(err, fs.ErrNotExist) {
 		return &logbook.Logbook{}, name, nil
@@ -175,7 +194,18 @@ func (e *Folder) readLogbook(keep int) (*logbook.Logbook, string, error) {
 		return nil, name, err
 	}
 	defer f.Close()
-	lb, err := logbook.ReadSetup(f, name, e.Zone(), keep, e.setup())
+	setup := e.setup()
+	if ra, ok := f.(io.ReaderAt); ok && keep > 0 {
+		// The recent window, read from the end of the file (see
+		// logbook.ReadLast for what that leaves unchecked).
+		if st, err := f.Stat(); err == nil && st.Mode().IsRegular() {
+			lb, err := logbook.ReadLast(ra, st.Size(), name, e.Zone(), setup, keep)
+			if err != nil || lb != nil {
+				return lb, name, err
+			}
+		}
+	}
+	lb, err := logbook.ReadSetup(f, name, e.Zone(), keep, setup)
 	return lb, name, err
 }
 
@@ -191,12 +221,15 @@ func (e *Folder) setup() logbook.Setup {
 }
 
 // RecentPasses is how many of the logbook's latest passes a card, a
-// prediction or a dial reads (every row is still checked): far more than a
-// fit uses, far less than ten seasons.
+// prediction or a dial reads, from the end of the file (the rows before them
+// are not checked: logbook.ReadLast): far more than a fit uses, far less
+// than ten seasons.
 const RecentPasses = 5000
 
 // RecentLogbook is Logbook for the commands that only predict: the last
-// RecentPasses good passes.
+// RecentPasses good passes, read from the end of the file; a bad row is
+// named only when it is among them (Logbook, for log list and log stats,
+// names every one).
 func (e *Folder) RecentLogbook() ([]logbook.Pass, error) { return e.readPasses(RecentPasses) }
 
 // Logbook is the folder's good passes. Rows it could not read come back as
@@ -356,6 +389,8 @@ func (s *SameMinute) BadInput() bool { return true }
 // AppendReading adds a reading to the weather log under its lock, and
 // returns how many readings the log holds. A reading in a minute the log
 // already has is refused (*SameMinute), or with replace takes its place.
+// A reading later than the last is appended (appendReading: constant time
+// in the log's size); anything else rewrites the log.
 func (e *Folder) AppendReading(r weather.Reading, elev weather.Length, replace bool) (int, error) {
 	path := e.Path(WeatherFile)
 	unlock, err := safefile.Lock(path)
@@ -363,7 +398,12 @@ func (e *Folder) AppendReading(r weather.Reading, elev weather.Length, replace b
 		return 0, err
 	}
 	defer unlock()
-	log, err := e.WeatherLog(elev)
+	if target, err := safefile.Resolve(path); err == nil && !e.Demo {
+		if n, done := e.appendReading(target, r, elev); done {
+			return n, nil
+		}
+	}
+	log, err := e.weatherLog(elev, true)
 	if bad := new(weather.BadReadings); errors.As(err, &bad) {
 		// Writing the log back would drop the rows that cannot be read.
 		return 0, fmt.Errorf("%w\nnothing was written: correct or delete the row(s) named, then add the reading again", err)
@@ -382,7 +422,13 @@ func (e *Folder) AppendReading(r weather.Reading, elev weather.Length, replace b
 	}
 	log = append(log, r)
 	SortReadings(log)
-	return len(log), safefile.Write(path, func(w io.Writer) error { return weather.WriteLog(w, log) })
+	if err := safefile.Write(path, func(w io.Writer) error { return weather.WriteLog(w, log) }); err != nil {
+		return 0, err
+	}
+	if target, err := safefile.Resolve(path); err == nil {
+		writeCount(target, len(log), 0)
+	}
+	return len(log), nil
 }
 
 // ReadableWeather is WeatherLog for a command that only reads it: the
@@ -398,13 +444,24 @@ func (e *Folder) ReadableWeather(elev weather.Length) ([]weather.Reading, *weath
 }
 
 // WeatherLog reads the folder's weather.csv (none yet: an empty log).
+// A last line without its line end that a writer is appending right now is
+// taken as not there yet.
 func (e *Folder) WeatherLog(elev weather.Length) ([]weather.Reading, error) {
+	return e.weatherLog(elev, false)
+}
+
+// weatherLog is WeatherLog; held: the caller holds the log's lock (a last
+// line without its line end is torn, and read as it is).
+func (e *Folder) weatherLog(elev weather.Length, held bool) ([]weather.Reading, error) {
 	data, err := fs.ReadFile(e.FS, WeatherFile)
 	if errors.Is(err, fs.ErrNotExist) {
 		return nil, nil
 	}
 	if err != nil {
 		return nil, err
+	}
+	if n := len(data); n > 0 && data[n-1] != '\n' && data[n-1] != '\r' && !held && !e.Demo && !safefile.Torn(e.Path(WeatherFile)) {
+		data = data[:bytes.LastIndexByte(data, '\n')+1] // being appended: not there yet
 	}
 	return weather.ReadLog(bytes.NewReader(data), e.Name(WeatherFile), elev, e.Zone())
 }
@@ -423,6 +480,10 @@ func SortReadings(log []weather.Reading) {
 // nothing, duplicates refused. Rows of the logbook pitcard cannot read are
 // written back as they were (and returned as kept, to be said); the crew's
 // own columns, the logbook's and those of extra, keep their values.
+//
+// One pass later than every logged pass, whose columns the file has, is
+// appended (appendPass: constant time in the logbook's size); anything else
+// reads and rewrites the whole file, keeping the old one as .bak.
 func (e *Folder) SaveLogbook(add []logbook.Pass, extra ...string) (n int, kept error, err error) {
 	path := e.Path(LogbookFile)
 	unlock, err := safefile.Lock(path)
@@ -430,7 +491,15 @@ func (e *Folder) SaveLogbook(add []logbook.Pass, extra ...string) (n int, kept e
 		return 0, nil, err
 	}
 	defer unlock()
-	lb, name, err := e.LogbookFile()
+	if len(add) == 1 && !e.Demo {
+		if target, rerr := safefile.Resolve(path); rerr == nil {
+			n, done, err := e.appendPass(target, e.Name(LogbookFile), add[0], extra)
+			if done {
+				return n, nil, err
+			}
+		}
+	}
+	lb, name, err := e.readLogbookHeld(0, true)
 	if err != nil {
 		return 0, nil, err
 	}
@@ -462,6 +531,9 @@ func (e *Folder) SaveLogbook(add []logbook.Pass, extra ...string) (n int, kept e
 	}
 	if err := safefile.Write(path, lb.Write); err != nil {
 		return 0, nil, err
+	}
+	if target, err := safefile.Resolve(path); err == nil {
+		writeCount(target, len(lb.Passes), len(lb.Bad))
 	}
 	return len(lb.Passes), kept, nil
 }

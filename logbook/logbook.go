@@ -1,11 +1,14 @@
 package logbook
 
 import (
+	"bytes"
 	"encoding/csv"
 	"errors"
 	"fmt"
 	"io"
+	"io/fs"
 	"math"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
@@ -168,7 +171,25 @@ func ReadRecent(r io.Reader, name string, loc *time.Location, keep int) (*Logboo
 // choices (kept as the logbook writes it: "15.5 psi" as 15.5, a choice as
 // car.yaml spells it); a bad cell sets its row aside as any bad row is.
 func ReadSetup(r io.Reader, name string, loc *time.Location, keep int, setup Setup) (*Logbook, error) {
-	cr, header, err := weather.OpenCSV(r, name)
+	lines := -1 // the file's lines when known: room for its passes at once
+	if st, ok := r.(interface{ Stat() (fs.FileInfo, error) }); ok {
+		// A file on disk is read whole, in one buffer of its size (a
+		// passing cost: ~140 bytes a pass), to count its lines, so the
+		// passes' slice is made once, at its size, and never copied.
+		if fi, err := st.Stat(); err == nil && fi.Mode().IsRegular() && fi.Size() < 1<<31 {
+			buf := make([]byte, fi.Size())
+			n, err := io.ReadFull(r, buf)
+			if err != nil && !errors.Is(err, io.ErrUnexpectedEOF) {
+				return nil, fmt.Errorf("%s: %w", name, err)
+			}
+			lines = bytes.Count(buf[:n], []byte{'\n'}) + 1
+			r = bytes.NewReader(buf[:n])
+		}
+	} else if lr, ok := r.(interface{ Len() int }); ok {
+		lines = lr.Len()/minRowBytes + 1
+	}
+	end := &endReader{r: r}
+	cr, header, err := weather.OpenCSV(end, name)
 	if err != nil {
 		return nil, err
 	}
@@ -191,7 +212,9 @@ func ReadSetup(r io.Reader, name string, loc *time.Location, keep int, setup Set
 			typed = append(typed, setupColumn{it, x.Index})
 		}
 	}
+	lastBad := -1 // the last row read, when it was bad: its place in Bad
 	bad := func(ie *weather.InputError, raw []string) {
+		lastBad = len(lb.Bad)
 		lb.Bad = append(lb.Bad, ie)
 		lb.BadRows = append(lb.BadRows, raw)
 	}
@@ -203,15 +226,15 @@ func ReadSetup(r io.Reader, name string, loc *time.Location, keep int, setup Set
 	seen := map[passKey]int{}
 	lower := map[string]string{}
 	rows := newRowReader(col)
-	if lr, ok := r.(interface{ Len() int }); ok && keep == 0 {
-		// A file in memory: room for its rows at once (a row is ~150 bytes),
-		// not a copy of every pass on each doubling.
-		lb.Passes = make([]Pass, 0, lr.Len()/140+1)
+	if lines >= 0 && keep == 0 {
+		// Room for the file's rows at once, not a copy of every pass on
+		// each doubling.
+		lb.Passes = make([]Pass, 0, lines)
 	}
 	if keep > 0 {
 		lb.Passes = make([]Pass, 0, 2*keep)
 	}
-	trim := func() { // keep the latest keep, in place
+	trim := func(keep int) { // keep the latest keep, in place
 		if keep > 0 && len(lb.Passes) > keep {
 			SortPasses(lb.Passes)
 			n := copy(lb.Passes, lb.Passes[len(lb.Passes)-keep:])
@@ -220,11 +243,14 @@ func ReadSetup(r io.Reader, name string, loc *time.Location, keep int, setup Set
 		}
 	}
 	cr.ReuseRecord = true
+	var last []string // the last row read (for a torn last line), nil if not a pass
+	lastLine := 0
 	for {
 		rec, err := cr.Read()
 		if errors.Is(err, io.EOF) {
 			break
 		}
+		last, lastBad = nil, -1
 		if err != nil {
 			var ie *weather.InputError
 			if err = weather.CSVError(name, err); !errors.As(err, &ie) {
@@ -279,13 +305,56 @@ func ReadSetup(r io.Reader, name string, loc *time.Location, keep int, setup Set
 			}
 		}
 		lb.Passes = append(lb.Passes, p)
+		last, lastLine = rec, line
 		if keep > 0 && len(lb.Passes) >= 2*keep {
-			trim()
+			trim(keep + 1) // one more: the last row may yet be found torn
 		}
 	}
+	torn := end.n > 0 && end.last != '\n' && end.last != '\r'
+	if torn && lastBad >= 0 { // cut short: say why
+		lb.Bad[lastBad].Reason = TornReason
+	}
+	if torn && last != nil {
+		// A last line without its line end is a row a crash cut short (an
+		// append torn by kill -9 or a power cut): its last field may be
+		// cut too, so it is set aside, not read as a pass. The rows an
+		// append adds always end with one.
+		for i := len(lb.Passes) - 1; i >= 0; i-- {
+			if lb.Passes[i].Line == lastLine {
+				lb.Passes = slices.Delete(lb.Passes, i, i+1)
+				break
+			}
+		}
+		bad(&weather.InputError{File: name, Line: lastLine, Field: "row",
+			Reason: TornReason}, append([]string(nil), last...))
+	}
 	SortPasses(lb.Passes)
-	trim()
+	trim(keep)
 	return lb, nil
+}
+
+// TornReason is why a last line without its line end is set aside.
+const TornReason = "is the last line and has no line end: a write cut short (pitcard stopped by a crash or a power cut?); it is left out. If the row is whole, end it with a line end (Enter) in a text editor"
+
+// minRowBytes is the fewest bytes a logbook row of a pass takes in practice
+// (date, time, track, session, lane and a timer: ~60; the demo's ~140):
+// a file's size over it bounds its rows, to size the passes' slice once.
+const minRowBytes = 100
+
+// endReader remembers the last byte read and how many.
+type endReader struct {
+	r    io.Reader
+	n    int64
+	last byte
+}
+
+func (e *endReader) Read(p []byte) (int, error) {
+	n, err := e.r.Read(p)
+	if n > 0 {
+		e.n += int64(n)
+		e.last = p[n-1]
+	}
+	return n, err
 }
 
 // Read reads a logbook strictly, as an import does: when any row
@@ -307,6 +376,33 @@ func Read(r io.Reader, name string, loc *time.Location) ([]Pass, error) {
 // order, then every bad row as it was read. A crew's own columns keep their
 // values.
 func (lb *Logbook) Write(w io.Writer) error {
+	header := lb.WriteHeader()
+	cw := csv.NewWriter(w)
+	if err := cw.Write(header); err != nil {
+		return err
+	}
+	rw := newRowWriter(header)
+	for _, p := range lb.Passes {
+		cw.Write(rw.record(p))
+	}
+	for _, raw := range lb.BadRows {
+		if raw == nil {
+			continue
+		}
+		rec := raw
+		if len(raw) == len(lb.Header) && len(header) > len(raw) { // same layout: pad the added columns
+			rec = append(append([]string(nil), raw...), make([]string, len(header)-len(raw))...)
+		}
+		cw.Write(rec)
+	}
+	cw.Flush()
+	return cw.Error()
+}
+
+// WriteHeader is the header Write writes: the file's own, with any column
+// pitcard writes that it lacked added at the end (the change column only
+// when a pass has a change), then the crew's columns it lacks.
+func (lb *Logbook) WriteHeader() []string {
 	header := append([]string(nil), lb.Header...)
 	if len(header) == 0 {
 		header = append(append(header, Columns...), lb.Extra...)
@@ -329,45 +425,51 @@ func (lb *Logbook) Write(w io.Writer) error {
 			has[strings.ToLower(x)] = true
 		}
 	}
-	cw := csv.NewWriter(w)
-	if err := cw.Write(header); err != nil {
-		return err
-	}
-	at := make([]int, len(header)) // each header column's place in passValues, or -1 for a crew column
+	return header
+}
+
+// AppendRow is p as one line of a logbook file whose header is header (as
+// WriteHeader gives it), line end included: what an append adds.
+func AppendRow(p Pass, header []string) ([]byte, error) {
+	var b strings.Builder
+	cw := csv.NewWriter(&b)
+	cw.Write(newRowWriter(header).record(p))
+	cw.Flush()
+	return []byte(b.String()), cw.Error()
+}
+
+// rowWriter lays passes out in a header's columns.
+type rowWriter struct {
+	header []string
+	at     []int // each header column's place in passValues, or -1 for a crew column
+	rec    []string
+}
+
+func newRowWriter(header []string) *rowWriter {
+	w := &rowWriter{header: header, at: make([]int, len(header)), rec: make([]string, len(header))}
 	for i, h := range header {
 		if j, ok := fieldIndex[strings.ToLower(h)]; ok {
-			at[i] = j
+			w.at[i] = j
 		} else {
-			at[i] = -1
+			w.at[i] = -1
 		}
 	}
-	rec := make([]string, len(header))
-	for _, p := range lb.Passes {
-		v := passValues(p)
-		for i, h := range header {
-			switch {
-			case at[i] < 0: // a crew's column: text
-				rec[i] = csvtext.Cell(p.Extra[h])
-			case textColumns[fieldColumns[at[i]]]:
-				rec[i] = csvtext.Cell(v[at[i]])
-			default:
-				rec[i] = v[at[i]]
-			}
+	return w
+}
+
+func (w *rowWriter) record(p Pass) []string {
+	v := passValues(p)
+	for i, h := range w.header {
+		switch {
+		case w.at[i] < 0: // a crew's column: text
+			w.rec[i] = csvtext.Cell(p.Extra[h])
+		case textColumns[fieldColumns[w.at[i]]]:
+			w.rec[i] = csvtext.Cell(v[w.at[i]])
+		default:
+			w.rec[i] = v[w.at[i]]
 		}
-		cw.Write(rec)
 	}
-	for _, raw := range lb.BadRows {
-		if raw == nil {
-			continue
-		}
-		rec := raw
-		if len(raw) == len(lb.Header) && len(header) > len(raw) { // same layout: pad the added columns
-			rec = append(append([]string(nil), raw...), make([]string, len(header)-len(raw))...)
-		}
-		cw.Write(rec)
-	}
-	cw.Flush()
-	return cw.Error()
+	return w.rec
 }
 
 // SortPasses sorts passes in time order, stably.
@@ -402,10 +504,58 @@ type rowReader struct {
 	f     SlipFields
 	canon []string
 	index []int
+	// The values read so far, shared by every pass that has them: a
+	// decimal's digits (a *big.Int, never changed once made), a track's
+	// name. A season repeats its times and tracks, so a pass holds no
+	// digits or text of its own, and no row's text stays alive through
+	// one of its fields.
+	decimals [len(decimalColumns)]map[string]decimal.Decimal
+	tracks   map[string]string
+}
+
+// decimalColumns are the columns read as decimals, as decimalFields lists
+// them.
+var decimalColumns = [...]string{"dial", "rt", "et60", "et330", "et660", "et1000", "et1320", "mph660", "mph1320"}
+
+func decimalFields(p *Pass) [len(decimalColumns)]*decimal.NullDecimal {
+	return [...]*decimal.NullDecimal{&p.Dial, &p.RT, &p.ET[0], &p.ET[1], &p.ET[2], &p.ET[3], &p.ET[4], &p.MPH660, &p.MPH1320}
+}
+
+// maxShared bounds each table of shared values (a logbook of all-different
+// values keeps its own beyond it).
+const maxShared = 1 << 14
+
+// share makes p's values the shared ones (see rowReader).
+func (r *rowReader) share(p *Pass) {
+	for i, d := range decimalFields(p) {
+		if !d.Valid {
+			continue
+		}
+		v := r.f.Values[decimalColumns[i]]
+		m := r.decimals[i]
+		if m == nil {
+			m = map[string]decimal.Decimal{}
+			r.decimals[i] = m
+		}
+		if s, ok := m[v]; ok {
+			d.Decimal = s
+		} else if len(m) < maxShared {
+			m[strings.Clone(v)] = d.Decimal
+		}
+	}
+	if t, ok := r.tracks[p.Track]; ok {
+		p.Track = t
+	} else {
+		p.Track = strings.Clone(p.Track)
+		if len(r.tracks) < maxShared {
+			r.tracks[p.Track] = p.Track
+		}
+	}
+	p.Notes, p.Change = strings.Clone(p.Notes), strings.Clone(p.Change)
 }
 
 func newRowReader(col map[string]weather.Column) *rowReader {
-	r := &rowReader{f: SlipFields{Values: map[string]string{}, Metric: map[string]bool{}, Names: map[string]string{}}}
+	r := &rowReader{f: SlipFields{Values: map[string]string{}, Metric: map[string]bool{}, Names: map[string]string{}}, tracks: map[string]string{}}
 	for canon, c := range col {
 		r.f.Metric[canon], r.f.Names[canon] = c.Metric, c.Name
 		r.canon, r.index = append(r.canon, canon), append(r.index, c.Index)
@@ -421,7 +571,11 @@ func (r *rowReader) pass(rec []string, loc *time.Location) (Pass, error) {
 		}
 		r.f.Values[c] = v
 	}
-	return ParsePass(r.f, loc)
+	p, err := ParsePass(r.f, loc)
+	if err == nil {
+		r.share(&p)
+	}
+	return p, err
 }
 
 // ParsePass builds a pass from its fields and validates it.

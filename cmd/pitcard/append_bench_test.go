@@ -1,0 +1,67 @@
+package main
+
+import (
+	"bytes"
+	"fmt"
+	"os"
+	"path/filepath"
+	"sort"
+	"strings"
+	"testing"
+	"time"
+)
+
+// benchLogAdd is 'pitcard log add' of one slip into a copy of the demo
+// whose logbook holds n passes, each slip a minute after the last: the
+// append path. The first slip, before the clock starts, takes the full
+// rewrite (the folder has no count file yet).
+func benchLogAdd(b *testing.B, n int) {
+	dir := bigFolder(b, n)
+	at := time.Date(2026, 7, 1, 9, 0, 0, 0, time.Local)
+	add := func() {
+		var out, errb bytes.Buffer
+		s := &IOStreams{In: strings.NewReader(""), Out: &out, Err: &errb, Now: func() time.Time { return at.Add(time.Hour) }}
+		args := []string{"log", "add", "--dir", dir, "--date", at.Format("2006-01-02"), "--time", at.Format("15:04"),
+			"--round", "T1", "--lane", "left", "--rt", "0.031", "--et60", "1.601", "--et1320", "11.452", "--mph1320", "117.6"}
+		if code := run(args, s); code != 0 {
+			b.Fatal(fmt.Sprint(code, errb.String()))
+		}
+		at = at.Add(time.Minute)
+	}
+	add()
+	b.ResetTimer()
+	for b.Loop() {
+		add()
+	}
+}
+
+// BenchmarkLogAdd1000 and BenchmarkLogAdd100000: a slip costs the same
+// whatever the logbook's size (target: 100k within 2x of 1k).
+func BenchmarkLogAdd1000(b *testing.B)   { benchLogAdd(b, 1000) }
+func BenchmarkLogAdd100000(b *testing.B) { benchLogAdd(b, 100000) }
+
+// BenchmarkCard100000Sorted is BenchmarkCard100000Passes with the logbook
+// in time order, as pitcard writes it (bigFolder's ends with the demo's own
+// rows, which are not the latest): the card reads its recent window from
+// the end of the file.
+func BenchmarkCard100000Sorted(b *testing.B) {
+	dir := bigFolder(b, 100000)
+	path := filepath.Join(dir, "logbook.csv")
+	data, err := os.ReadFile(path)
+	if err != nil {
+		b.Fatal(err)
+	}
+	lines := strings.Split(strings.TrimSuffix(string(data), "\n"), "\n")
+	rows := lines[1:]
+	sort.SliceStable(rows, func(i, j int) bool { return rows[i][:16] < rows[j][:16] }) // date,time
+	if err := os.WriteFile(path, []byte(strings.Join(lines, "\n")+"\n"), 0o644); err != nil {
+		b.Fatal(err)
+	}
+	for b.Loop() {
+		var out, errb bytes.Buffer
+		s := &IOStreams{In: strings.NewReader(""), Out: &out, Err: &errb, Now: func() time.Time { return fixedNow }}
+		if code := run([]string{"card", "--dir", dir, "--round", "3", "--lane", "left"}, s); code != 0 {
+			b.Fatal(fmt.Sprint(code, errb.String()))
+		}
+	}
+}
