@@ -232,7 +232,14 @@ func ReadSetup(r io.Reader, name string, loc *time.Location, keep int, setup Set
 		lb.Passes = make([]Pass, 0, lines)
 	}
 	if keep > 0 {
-		lb.Passes = make([]Pass, 0, 2*keep)
+		// Room for the window and as many again before it is trimmed, but
+		// never more than the file has rows (a 65-pass logbook takes 65,
+		// not 2×keep: the card used to zero 4.6 MB for nothing).
+		n := 2 * keep
+		if lines >= 0 && lines < n {
+			n = lines
+		}
+		lb.Passes = make([]Pass, 0, n)
 	}
 	trim := func(keep int) { // keep the latest keep, in place
 		if keep > 0 && len(lb.Passes) > keep {
