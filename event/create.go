@@ -21,6 +21,8 @@ const ignoreText = `# pitcard's working files: locks, backups and half-written t
 *.lock
 *.bak
 .*.tmp-*
+# what pitcard remembers of a file between writes (its rows, for the quick append)
+.*.count
 # the pit page's access links: anyone holding them can read (or write) the logbook
 ` + TokensFile + "\n"
 
