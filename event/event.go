@@ -1,10 +1,17 @@
-// Package event is pitcard's event folder: the names of its files, the
-// commented starter folder that `pitcard init` writes, and the built-in demo
-// event (an invented track, car and race day) that `--demo` reads. Both are
-// embedded in the binary, so nothing is downloaded at run time.
+// Package event is pitcard's event folder and what is done to it: its
+// files and their names, the settings (pitcard.yaml, the PITCARD_
+// variables, the flags), the locks and safe writes, and the steps every
+// front end shares, from typed input to a logged pass or reading, a
+// gathered round (GatherRound) and an import or merge. The command line
+// and the pit page are thin over it. It does not predict (engine), settle a
+// race (bracket) or lay out a card (prep): it hands them what the folder
+// holds.
 //
-// The demo lives here rather than under testdata/ because go:embed can only
-// reach files inside the embedding package's own folder.
+// The commented starter folder that `pitcard init` writes and the built-in
+// demo event (an invented track, car and race day) that `--demo` reads are
+// embedded in the binary, so nothing is downloaded at run time. The demo
+// lives here rather than under testdata/ because go:embed can only reach
+// files inside the embedding package's own folder.
 package event
 
 import (

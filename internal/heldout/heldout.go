@@ -5,7 +5,7 @@
 // computed noise floor and a plain rule's. It never ships in the pitcard
 // command; a test and a command-line runner share it.
 //
-// Seeds (DEVELOPERS.md): drawn worlds truthsim.Draw(1) .. Draw(40) are for
+// Draws (DEVELOPERS.md): drawn worlds truthsim.Draw(1) .. Draw(40) are for
 // tuning; Draw(100001) .. Draw(100040) are held out, scored only to report,
 // never to choose a model by.
 package heldout

@@ -1,6 +1,8 @@
 // Package printable makes text that came from outside pitcard (a rule's
 // reason, a pass's notes, a crewmate's logbook) safe to print: no control
 // character reaches a terminal, a one-line field stays one line.
+//
+// It does not escape for HTML or CSV: html/template and internal/csvtext do.
 package printable
 
 import (

@@ -1,5 +1,7 @@
 // Package stats is the small numeric kit pitcard's packages share: the
 // standard normal distribution, the median, the mean and spread.
+//
+// It holds no racing: a formula of the trade lives with its package.
 package stats
 
 import (

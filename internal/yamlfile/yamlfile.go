@@ -5,6 +5,8 @@
 // person meant as a yes/no (chute: yes) is pointed out; an unknown key or a
 // value of the wrong type is said in plain words with the keys the file may
 // hold, never in Go's type names.
+//
+// It does not know what a key means: each file's reader checks its values.
 package yamlfile
 
 import (
