@@ -3,9 +3,6 @@ package main
 import (
 	"bytes"
 	"fmt"
-	"os"
-	"path/filepath"
-	"sort"
 	"strings"
 	"testing"
 	"time"
@@ -39,29 +36,3 @@ func benchLogAdd(b *testing.B, n int) {
 // whatever the logbook's size (target: 100k within 2x of 1k).
 func BenchmarkLogAdd1000(b *testing.B)   { benchLogAdd(b, 1000) }
 func BenchmarkLogAdd100000(b *testing.B) { benchLogAdd(b, 100000) }
-
-// BenchmarkCard100000Sorted is BenchmarkCard100000Passes with the logbook
-// in time order, as pitcard writes it (bigFolder's ends with the demo's own
-// rows, which are not the latest): the card reads its recent window from
-// the end of the file.
-func BenchmarkCard100000Sorted(b *testing.B) {
-	dir := bigFolder(b, 100000)
-	path := filepath.Join(dir, "logbook.csv")
-	data, err := os.ReadFile(path)
-	if err != nil {
-		b.Fatal(err)
-	}
-	lines := strings.Split(strings.TrimSuffix(string(data), "\n"), "\n")
-	rows := lines[1:]
-	sort.SliceStable(rows, func(i, j int) bool { return rows[i][:16] < rows[j][:16] }) // date,time
-	if err := os.WriteFile(path, []byte(strings.Join(lines, "\n")+"\n"), 0o644); err != nil {
-		b.Fatal(err)
-	}
-	for b.Loop() {
-		var out, errb bytes.Buffer
-		s := &IOStreams{In: strings.NewReader(""), Out: &out, Err: &errb, Now: func() time.Time { return fixedNow }}
-		if code := run([]string{"card", "--dir", dir, "--round", "3", "--lane", "left"}, s); code != 0 {
-			b.Fatal(fmt.Sprint(code, errb.String()))
-		}
-	}
-}

@@ -71,11 +71,15 @@ func Rows(data []byte, n int) ([]byte, error) {
 			extra = append(extra, x)
 		}
 	}
-	sort.SliceStable(extra, func(i, j int) bool { return extra[i][0]+extra[i][1] < extra[j][0]+extra[j][1] })
+	// One time order over the copies and the logbook's own rows, as
+	// pitcard keeps a logbook (a copy of a late pass lands among the
+	// logbook's own earlier rows).
+	all := append(extra, own...)
+	sort.SliceStable(all, func(i, j int) bool { return all[i][0]+all[i][1] < all[j][0]+all[j][1] })
 	var buf bytes.Buffer
 	w := csv.NewWriter(&buf)
 	_ = w.Write(head)
-	_ = w.WriteAll(append(extra, own...))
+	_ = w.WriteAll(all)
 	return buf.Bytes(), w.Error()
 }
 
