@@ -350,13 +350,9 @@ func logListRun(cmd *cobra.Command, o *logListOptions) error {
 	if err := checkFormat(o.Format, "text", "markdown", "json", "csv"); err != nil {
 		return err
 	}
-	e, err := o.g.open(cmd)
+	e, passes, leftOut, err := o.g.openLogbook(cmd)
 	if err != nil {
 		return err
-	}
-	passes, leftOut := e.Logbook()
-	if !event.OnlyLeftOut(leftOut) {
-		return leftOut
 	}
 	trk, _ := e.Track()
 	if o.Last > 0 && len(passes) > o.Last {
@@ -536,13 +532,9 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 	if err := checkFormat(o.Format, "text", "markdown", "json", "csv"); err != nil {
 		return err
 	}
-	e, err := o.g.open(cmd)
+	e, passes, leftOut, err := o.g.openLogbook(cmd)
 	if err != nil {
 		return err
-	}
-	passes, leftOut := e.Logbook()
-	if !event.OnlyLeftOut(leftOut) {
-		return leftOut
 	}
 	shown, err := bounded(passes, o.Since, o.Last, o.Track)
 	if err != nil {
