@@ -540,59 +540,10 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 	if err != nil {
 		return err
 	}
-	// With car.yaml and the weather of the passes, take the air out of the
-	// spread: the model is fitted as a card's is (on the latest passes, of
-	// the last RecentPasses), and only the passes shown are simulated.
-	var residual map[string]float64
-	corrected := false
-	if car, err := e.Car(); err == nil && len(passes) > 0 && len(shown) > 0 {
-		trk, _ := e.Track()
-		tracks, _ := e.OtherTracks()
-		recent := passes[max(0, len(passes)-event.RecentPasses):]
-		in := engine.CalibrateInput{Car: car, Track: trk, Tracks: tracks, Passes: recent, Now: passes[len(passes)-1].Time, DayStart: e.Settings.DayStart, Aborts: e.Settings.AbortWords, Changes: e.Settings.ChangeWords}
-		if fit, err := engine.Calibrate(in); err == nil && len(fit.Samples) > 0 {
-			in.Passes = shown
-			residual, corrected = fit.Residuals(in), true
-		}
-	}
+	residual, corrected := airResiduals(e, passes, shown)
 	stats := logbook.Stats(shown, residual, e.Settings.DayStart, e.Settings.AbortWords)
-	judge := func(s logbook.GroupStats) string {
-		if corrected && s.CorrectedN > 0 {
-			return logbook.Consistency(s.CorrectedSD, s.CorrectedN)
-		}
-		return logbook.Consistency(s.ETSD, s.Clean)
-	}
 	if o.Format == "json" || o.Format == "csv" {
-		out := []statsJSON{}
-		for _, s := range stats {
-			sessions := s.Kind.String()
-			if s.All {
-				sessions = "all"
-			}
-			out = append(out, statsJSON{Day: s.Day.Format("2006-01-02"), Sessions: sessions, Passes: s.Passes, Clean: s.Clean, FinishFt: s.Finish,
-				ETMean: event.OptFloat(s.ETMean, s.Clean > 0, 4), ETSD: event.OptFloat(s.ETSD, s.Clean > 1, 4),
-				ETMin: event.OptFloat(s.ETMin, s.Clean > 0, 4), ETMax: event.OptFloat(s.ETMax, s.Clean > 0, 4),
-				RTMean: event.OptFloat(s.RTMean, s.RTN > 0, 4), RTSD: event.OptFloat(s.RTSD, s.RTN > 1, 4),
-				SixtySD: event.OptFloat(s.SixtySD, s.SixtyN > 1, 4), CorrectedSD: event.OptFloat(s.CorrectedSD, s.CorrectedN > 1, 4), Consistency: judge(s)})
-		}
-		if o.Format == "csv" {
-			opt := func(v *float64) string {
-				if v == nil {
-					return ""
-				}
-				return fmt.Sprint(*v)
-			}
-			rows := [][]string{{"day", "sessions", "passes", "clean", "finish_ft", "et_mean", "et_sd", "et_min", "et_max", "rt_mean", "rt_sd", "et60_sd", "et_sd_corrected", "consistency"}} // the JSON's names
-			for _, x := range out {
-				rows = append(rows, []string{x.Day, x.Sessions, fmt.Sprint(x.Passes), fmt.Sprint(x.Clean), fmt.Sprint(x.FinishFt), opt(x.ETMean), opt(x.ETSD),
-					opt(x.ETMin), opt(x.ETMax), opt(x.RTMean), opt(x.RTSD), opt(x.SixtySD), opt(x.CorrectedSD), x.Consistency})
-			}
-			return errors.Join(writeCSV(o.s.Out, rows), leftOut)
-		}
-		if err := writeJSON(o.s.Out, out); err != nil {
-			return err
-		}
-		return leftOut
+		return writeStatsData(o, statsAsJSON(stats, corrected), leftOut)
 	}
 	if len(shown) == 0 {
 		if len(passes) > 0 {
@@ -602,10 +553,91 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 		fmt.Fprintf(o.s.Out, "%s has no passes yet.\n", e.Name(event.LogbookFile))
 		return leftOut
 	}
+	renderStatsTable(o, stats, corrected)
+	printStatsNotes(o, stats, corrected)
+	return leftOut
+}
+
+// airResiduals takes the air out of the spread, with car.yaml and the
+// weather of the passes: the model is fitted as a card's is (on the latest
+// passes, of the last RecentPasses), and only the passes shown are
+// simulated. It returns each shown pass's ET less the model's, and whether
+// the fit was made; without car.yaml or a fit it returns nil, false (the
+// spread is then given as run). It does not judge consistency.
+func airResiduals(e *eventFolder, passes, shown []logbook.Pass) (map[string]float64, bool) {
+	car, err := e.Car()
+	if err != nil || len(passes) == 0 || len(shown) == 0 {
+		return nil, false
+	}
+	trk, _ := e.Track()
+	tracks, _ := e.OtherTracks()
+	recent := passes[max(0, len(passes)-event.RecentPasses):]
+	in := engine.CalibrateInput{Car: car, Track: trk, Tracks: tracks, Passes: recent, Now: passes[len(passes)-1].Time, DayStart: e.Settings.DayStart, Aborts: e.Settings.AbortWords, Changes: e.Settings.ChangeWords}
+	fit, err := engine.Calibrate(in)
+	if err != nil || len(fit.Samples) == 0 {
+		return nil, false
+	}
+	in.Passes = shown
+	return fit.Residuals(in), true
+}
+
+// statsConsistency is a group's consistency in words, judged on the spread
+// corrected for the air when there is one, else on the spread as run.
+func statsConsistency(s logbook.GroupStats, corrected bool) string {
+	if corrected && s.CorrectedN > 0 {
+		return logbook.Consistency(s.CorrectedSD, s.CorrectedN)
+	}
+	return logbook.Consistency(s.ETSD, s.Clean)
+}
+
+// statsAsJSON is the stats as 'log stats --format json' writes them, one
+// entry per day and per session within it; a figure without enough passes
+// behind it is null.
+func statsAsJSON(stats []logbook.GroupStats, corrected bool) []statsJSON {
+	out := []statsJSON{}
+	for _, s := range stats {
+		sessions := s.Kind.String()
+		if s.All {
+			sessions = "all"
+		}
+		out = append(out, statsJSON{Day: s.Day.Format("2006-01-02"), Sessions: sessions, Passes: s.Passes, Clean: s.Clean, FinishFt: s.Finish,
+			ETMean: event.OptFloat(s.ETMean, s.Clean > 0, 4), ETSD: event.OptFloat(s.ETSD, s.Clean > 1, 4),
+			ETMin: event.OptFloat(s.ETMin, s.Clean > 0, 4), ETMax: event.OptFloat(s.ETMax, s.Clean > 0, 4),
+			RTMean: event.OptFloat(s.RTMean, s.RTN > 0, 4), RTSD: event.OptFloat(s.RTSD, s.RTN > 1, 4),
+			SixtySD: event.OptFloat(s.SixtySD, s.SixtyN > 1, 4), CorrectedSD: event.OptFloat(s.CorrectedSD, s.CorrectedN > 1, 4), Consistency: statsConsistency(s, corrected)})
+	}
+	return out
+}
+
+// writeStatsData writes the stats as JSON or, with --format csv, as CSV
+// with the JSON's names for columns (null is an empty cell), then returns
+// leftOut (the rows left out of the logbook) joined with any write error.
+func writeStatsData(o *logStatsOptions, out []statsJSON, leftOut error) error {
+	if o.Format != "csv" {
+		if err := writeJSON(o.s.Out, out); err != nil {
+			return err
+		}
+		return leftOut
+	}
+	opt := func(v *float64) string {
+		if v == nil {
+			return ""
+		}
+		return fmt.Sprint(*v)
+	}
+	rows := [][]string{{"day", "sessions", "passes", "clean", "finish_ft", "et_mean", "et_sd", "et_min", "et_max", "rt_mean", "rt_sd", "et60_sd", "et_sd_corrected", "consistency"}} // the JSON's names
+	for _, x := range out {
+		rows = append(rows, []string{x.Day, x.Sessions, fmt.Sprint(x.Passes), fmt.Sprint(x.Clean), fmt.Sprint(x.FinishFt), opt(x.ETMean), opt(x.ETSD),
+			opt(x.ETMin), opt(x.ETMax), opt(x.RTMean), opt(x.RTSD), opt(x.SixtySD), opt(x.CorrectedSD), x.Consistency})
+	}
+	return errors.Join(writeCSV(o.s.Out, rows), leftOut)
+}
+
+// renderStatsTable prints the stats as a text or markdown table. The day
+// and its sessions share a column (the day's date on the row of all its
+// passes): the table fits an 80-column terminal. It prints no notes.
+func renderStatsTable(o *logStatsOptions, stats []logbook.GroupStats, corrected bool) {
 	t := newTable(o.s, "Consistency by day and session")
-	// The day and its sessions share a column (the day's date on the row of
-	// all its passes):
-	// the table fits an 80-column terminal.
 	t.AppendHeader(table.Row{"Day,\nsessions", "Passes", "ET\nmean", "ET\nspread", "spread\ncorrected", "RT\nmean", "RT\nspread", "60 ft\nspread", "Consistency"})
 	f3 := func(v float64, ok bool) string {
 		if !ok {
@@ -624,11 +656,17 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 			passes = fmt.Sprintf("%d (%d out)", s.Passes, s.Passes-s.Clean)
 		}
 		t.AppendRow(table.Row{day, passes, f3(s.ETMean, s.Clean > 0), f3(s.ETSD, s.Clean > 1), f3(s.CorrectedSD, s.CorrectedN > 1),
-			f3(s.RTMean, s.RTN > 0), f3(s.RTSD, s.RTN > 1), f3(s.SixtySD, s.SixtyN > 1), judge(s)})
+			f3(s.RTMean, s.RTN > 0), f3(s.RTSD, s.RTN > 1), f3(s.SixtySD, s.SixtyN > 1), statsConsistency(s, corrected)})
 	}
 	configs := alignRight(3, 8)
 	compact(t)
 	render(o.s, t, o.Format, configs...)
+}
+
+// printStatsNotes prints what the table's figures mean under it, and on
+// the error stream a hint to bound the days when more than 30 are shown
+// unbounded.
+func printStatsNotes(o *logStatsOptions, stats []logbook.GroupStats, corrected bool) {
 	note := "Spreads are one standard deviation, as run (no car.yaml or no weather in the logbook): the air moving through a day counts as scatter."
 	if corrected {
 		note = "Spreads are one standard deviation. Corrected: the ET spread once the air and track of each pass are taken out (each ET less the calibrated model's for its conditions); consistency is judged on it."
@@ -638,7 +676,6 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 	if days := countDays(stats); days > 30 && o.Since == "" && o.Last == 0 {
 		fmt.Fprintf(o.s.Err, "pitcard: %d days shown: bound them with --since DATE, --last N or --track NAME\n", days)
 	}
-	return leftOut
 }
 
 func countDays(stats []logbook.GroupStats) int {
