@@ -378,55 +378,86 @@ func logListRun(cmd *cobra.Command, o *logListOptions) error {
 		fmt.Fprintf(o.s.Out, "%s has no passes yet: add one with 'pitcard log add' or 'pitcard log import'.\n", e.Name(event.LogbookFile))
 		return leftOut
 	}
-	u := e.Settings.Units
-	t := newTable(o.s, fmt.Sprintf("Logbook (%s), last %s", e.Name(event.LogbookFile), text.Plural(len(passes), "pass")))
-	// Trap speeds and density altitude in the crew's units, the unit in
-	// the header.
-	spd, daHead := u.Speed.String(), "DA "+u.Length.String()
+	renderLogList(o, e, passes, trk)
+	if o.Format == "text" {
+		fmt.Fprintf(o.s.Out, "Round: T time trial, E elimination. DA: density altitude, %s.\n--wide adds the 330 and 1000 ft timers.\n", e.Settings.Units.Length)
+	}
+	return leftOut
+}
+
+// listColumns says how the list's table is laid out: the crew's units,
+// whether every timer is shown (--wide), and whether the notes go under
+// the table rather than in its last column.
+type listColumns struct {
+	u          weather.Units
+	wide       bool
+	notesBelow bool
+}
+
+// header is the list's header row: trap speeds and density altitude in
+// the crew's units, the unit in the header.
+func (l listColumns) header() table.Row {
+	spd, daHead := l.u.Speed.String(), "DA "+l.u.Length.String()
 	header := table.Row{"Date", "Time", "Round", "Lane", "Dial", "RT", "60 ft", "1/8", spd, "1/4", spd, daHead, "Notes"}
-	if o.Wide {
+	if l.wide {
 		header = table.Row{"Date", "Time", "Round", "Lane", "Dial", "RT", "60 ft", "330", "1/8", spd, "1000", "1/4", spd, daHead, "Notes"}
 	}
-	trap := func(d decimal.NullDecimal) string {
-		if !d.Valid || u.Speed == weather.UnitMPH {
-			return sec(d, 2)
-		}
-		return strconv.FormatFloat(weather.MPH(d.Decimal.InexactFloat64()).In(u.Speed), 'f', 2, 64)
-	}
-	// Narrower than the list with its notes (a terminal under 100 columns):
-	// the notes go under the table, each with its pass.
-	notesBelow := o.Format == "text" && o.s.width() < prep.Width
-	if notesBelow {
+	if l.notesBelow {
 		header = header[:len(header)-1]
 	}
+	return header
+}
+
+// trap is a trap speed in the crew's unit, or "" when not timed.
+func (l listColumns) trap(d decimal.NullDecimal) string {
+	if !d.Valid || l.u.Speed == weather.UnitMPH {
+		return sec(d, 2)
+	}
+	return strconv.FormatFloat(weather.MPH(d.Decimal.InexactFloat64()).In(l.u.Speed), 'f', 2, 64)
+}
+
+// row is one pass's row of the list, its notes in the last column unless
+// they go under the table. It does not print the notes that go below.
+func (l listColumns) row(p logbook.Pass, trk engine.Track) table.Row {
+	da := ""
+	if p.HasAir {
+		da = p.Air.Derive(event.ElevationFor(p, trk)).DensityAltitude.FormatDensityAltitude(l.u.Length)
+	}
+	row := table.Row{p.Time.Format("2006-01-02"), p.Time.Format("15:04"), p.Session.String(), p.Lane, sec(p.Dial, 2), sec(p.RT, 3)}
+	for i, ft := range logbook.Timers {
+		if !l.wide && (ft == 330 || ft == 1000) {
+			continue
+		}
+		row = append(row, sec(p.ET[i], 3))
+		if ft == 660 {
+			row = append(row, l.trap(p.MPH660))
+		}
+	}
+	row = append(row, l.trap(p.MPH1320), strings.TrimSuffix(da, " "+l.u.Length.String()))
+	if !l.notesBelow {
+		row = append(row, printable.Line(passNotes(p)))
+	}
+	return row
+}
+
+// renderLogList prints the passes as a text or markdown table. Narrower
+// than the list with its notes (a terminal under 100 columns), the notes go
+// under the table, each with its pass. It prints no key to the columns.
+func renderLogList(o *logListOptions, e *eventFolder, passes []logbook.Pass, trk engine.Track) {
+	l := listColumns{u: e.Settings.Units, wide: o.Wide, notesBelow: o.Format == "text" && o.s.width() < prep.Width}
+	t := newTable(o.s, fmt.Sprintf("Logbook (%s), last %s", e.Name(event.LogbookFile), text.Plural(len(passes), "pass")))
+	header := l.header()
 	t.AppendHeader(header)
 	var below []string
 	for _, p := range passes {
-		da := ""
-		if p.HasAir {
-			da = p.Air.Derive(event.ElevationFor(p, trk)).DensityAltitude.FormatDensityAltitude(u.Length)
-		}
-		row := table.Row{p.Time.Format("2006-01-02"), p.Time.Format("15:04"), p.Session.String(), p.Lane, sec(p.Dial, 2), sec(p.RT, 3)}
-		for i, ft := range logbook.Timers {
-			if !o.Wide && (ft == 330 || ft == 1000) {
-				continue
-			}
-			row = append(row, sec(p.ET[i], 3))
-			if ft == 660 {
-				row = append(row, trap(p.MPH660))
-			}
-		}
-		row = append(row, trap(p.MPH1320), strings.TrimSuffix(da, " "+u.Length.String()))
-		if notes := passNotes(p); !notesBelow {
-			row = append(row, printable.Line(notes))
-		} else if notes != "" {
+		if notes := passNotes(p); l.notesBelow && notes != "" {
 			below = append(below, prep.Wrap(fmt.Sprintf("%s %s: %s", p.Time.Format("2006-01-02 15:04"), p.Session, printable.Line(notes)), o.s.width(), "  "))
 		}
-		t.AppendRow(row)
+		t.AppendRow(l.row(p, trk))
 	}
 	n := len(header)
 	configs := append([]table.ColumnConfig{{Number: n, WidthMax: 16}}, alignRight(5, n-1)...)
-	if notesBelow {
+	if l.notesBelow {
 		configs = alignRight(5, n)
 	}
 	compact(t)
@@ -434,10 +465,6 @@ func logListRun(cmd *cobra.Command, o *logListOptions) error {
 	if len(below) > 0 {
 		fmt.Fprintln(o.s.Out, "Notes:\n"+strings.Join(below, "\n"))
 	}
-	if o.Format == "text" {
-		fmt.Fprintf(o.s.Out, "Round: T time trial, E elimination. DA: density altitude, %s.\n--wide adds the 330 and 1000 ft timers.\n", u.Length)
-	}
-	return leftOut
 }
 
 func alignRight(from, to int) []table.ColumnConfig {
