@@ -236,86 +236,102 @@ day and round a conflict.`,
   pitcard log import season.csv --map spreadsheet-map.yaml
   pitcard log import ../theo-laptop/logbook.csv --skip-existing`,
 		Args: cobra.ExactArgs(1),
-		RunE: func(cmd *cobra.Command, args []string) error {
-			e, err := o.g.open(cmd)
-			if err != nil {
-				return err
-			}
-			if err := e.Writable(); err != nil {
-				return err
-			}
-			if done, err := importOpponents(o.s, e, args[0], o.SkipExisting); done {
-				return err
-			}
-			source, err := o.maps.source(o.s, e, args[0], colmap.Logbook)
-			if errors.Is(err, errOnlyTheMap) {
-				return nil
-			}
-			if err != nil {
-				return err
-			}
-			if car, err := e.Car(); err == nil {
-				source.Setup = car.Setup // the setup columns are checked as the logbook's are
-			}
-			src, err := source.Passes()
-			if err != nil {
-				return err
-			}
-			cur, _ := e.Logbook()
-			merge := event.MergePasses(cur, src.Passes)
-			if len(src.Bad) == 0 && len(src.Passes) > 0 && merge.Same == len(src.Passes) && !o.SkipExisting {
-				// A file already imported: said in one line, not a line per pass.
-				return userErrf("nothing new in %s: its %s are already in %s, alike (the same pass entered twice); nothing was imported (give --skip-existing to leave out the passes already logged)",
-					args[0], text.Plural(merge.Same, "pass"), e.Name(event.LogbookFile))
-			}
-			if len(src.Bad) > 0 || (len(merge.Logged) > 0 && !o.SkipExisting) {
-				// All or nothing: list every bad row, and the good rows that are already logged.
-				problems := append(logbook.RowErrors(nil), src.Bad...)
-				for i, l := range merge.Logged {
-					if i == shownDuplicates { // the rest counted, not listed
-						problems = append(problems, &weather.InputError{File: args[0], Field: fmt.Sprintf("%d more passes", len(merge.Logged)-i),
-							Reason: fmt.Sprintf("are already in %s too (not listed)", e.Name(event.LogbookFile))})
-						break
-					}
-					problems = append(problems, event.DuplicateOf(src.Passes[l.Index], logbook.Pass{Line: l.OursLine}, e.Name(event.LogbookFile)))
-				}
-				if len(src.Bad) == 0 {
-					return fmt.Errorf("%w\nNothing was imported (give --skip-existing to leave out the passes already logged)", problems)
-				}
-				return fmt.Errorf("%w\nNothing was imported", problems)
-			}
-			if len(merge.Conflicts) > 0 {
-				return &event.Conflicts{List: merge.Conflicts, Ours: e.Name(event.LogbookFile), TheirsIn: args[0]}
-			}
-			passes := merge.New
-			if len(passes) == 0 {
-				if merge.Same > 0 {
-					fmt.Fprintf(o.s.Out, "Nothing to import: the %s of %s are already in %s.\n", text.Plural(merge.Same, "pass"), args[0], e.Name(event.LogbookFile))
-					return nil
-				}
-				return userErrf("%s has no passes to import", args[0])
-			}
-			if w := altimeterLooking(e, passes, args[0]); w != "" {
-				o.s.warn(w)
-			}
-			n, kept, err := e.SaveLogbook(passes, src.Extra...)
-			if err != nil {
-				return err
-			}
-			if kept != nil {
-				o.s.warn(kept.Error())
-			}
-			fmt.Fprintf(o.s.Out, "Imported %s from %s", text.Plural(len(passes), "pass"), args[0])
-			if merge.Same > 0 {
-				fmt.Fprintf(o.s.Out, " (%s already logged, skipped)", text.Plural(merge.Same, "pass"))
-			}
-			fmt.Fprintf(o.s.Out, "; %s now holds %d.\n", e.Name(event.LogbookFile), n)
-			return nil
-		},
+		RunE: func(cmd *cobra.Command, args []string) error { return logImportRun(cmd, o, args[0]) },
 	}
 	o.maps.bind(cmd, true)
 	cmd.Flags().BoolVar(&o.SkipExisting, "skip-existing", false, "skip passes already logged with the same values (a different one stops the import)")
 	return cmd
+}
+
+// logImportRun imports file's passes into the logbook, or a crewmate's
+// opponents.csv into the opponent book: all or nothing.
+func logImportRun(cmd *cobra.Command, o *logImportOptions, file string) error {
+	e, err := o.g.open(cmd)
+	if err != nil {
+		return err
+	}
+	if err := e.Writable(); err != nil {
+		return err
+	}
+	if done, err := importOpponents(o.s, e, file, o.SkipExisting); done {
+		return err
+	}
+	source, err := o.maps.source(o.s, e, file, colmap.Logbook)
+	if errors.Is(err, errOnlyTheMap) {
+		return nil
+	}
+	if err != nil {
+		return err
+	}
+	if car, err := e.Car(); err == nil {
+		source.Setup = car.Setup // the setup columns are checked as the logbook's are
+	}
+	src, err := source.Passes()
+	if err != nil {
+		return err
+	}
+	cur, _ := e.Logbook()
+	merge := event.MergePasses(cur, src.Passes)
+	if err := importRefused(e, src, merge, file, o.SkipExisting); err != nil {
+		return err
+	}
+	passes := merge.New
+	if len(passes) == 0 {
+		if merge.Same > 0 {
+			fmt.Fprintf(o.s.Out, "Nothing to import: the %s of %s are already in %s.\n", text.Plural(merge.Same, "pass"), file, e.Name(event.LogbookFile))
+			return nil
+		}
+		return userErrf("%s has no passes to import", file)
+	}
+	if w := altimeterLooking(e, passes, file); w != "" {
+		o.s.warn(w)
+	}
+	n, kept, err := e.SaveLogbook(passes, src.Extra...)
+	if err != nil {
+		return err
+	}
+	if kept != nil {
+		o.s.warn(kept.Error())
+	}
+	fmt.Fprintf(o.s.Out, "Imported %s from %s", text.Plural(len(passes), "pass"), file)
+	if merge.Same > 0 {
+		fmt.Fprintf(o.s.Out, " (%s already logged, skipped)", text.Plural(merge.Same, "pass"))
+	}
+	fmt.Fprintf(o.s.Out, "; %s now holds %d.\n", e.Name(event.LogbookFile), n)
+	return nil
+}
+
+// importRefused is why nothing of file may be imported, or nil: a file
+// already imported whole (said in one line), bad rows or passes already
+// logged without --skip-existing (every one listed, the duplicates past
+// shownDuplicates counted), or a pass logged with another value (a
+// conflict). It writes nothing.
+func importRefused(e *eventFolder, src *logbook.Logbook, merge event.PassMerge, file string, skipExisting bool) error {
+	if len(src.Bad) == 0 && len(src.Passes) > 0 && merge.Same == len(src.Passes) && !skipExisting {
+		// A file already imported: said in one line, not a line per pass.
+		return userErrf("nothing new in %s: its %s are already in %s, alike (the same pass entered twice); nothing was imported (give --skip-existing to leave out the passes already logged)",
+			file, text.Plural(merge.Same, "pass"), e.Name(event.LogbookFile))
+	}
+	if len(src.Bad) > 0 || (len(merge.Logged) > 0 && !skipExisting) {
+		// All or nothing: list every bad row, and the good rows that are already logged.
+		problems := append(logbook.RowErrors(nil), src.Bad...)
+		for i, l := range merge.Logged {
+			if i == shownDuplicates { // the rest counted, not listed
+				problems = append(problems, &weather.InputError{File: file, Field: fmt.Sprintf("%d more passes", len(merge.Logged)-i),
+					Reason: fmt.Sprintf("are already in %s too (not listed)", e.Name(event.LogbookFile))})
+				break
+			}
+			problems = append(problems, event.DuplicateOf(src.Passes[l.Index], logbook.Pass{Line: l.OursLine}, e.Name(event.LogbookFile)))
+		}
+		if len(src.Bad) == 0 {
+			return fmt.Errorf("%w\nNothing was imported (give --skip-existing to leave out the passes already logged)", problems)
+		}
+		return fmt.Errorf("%w\nNothing was imported", problems)
+	}
+	if len(merge.Conflicts) > 0 {
+		return &event.Conflicts{List: merge.Conflicts, Ours: e.Name(event.LogbookFile), TheirsIn: file}
+	}
+	return nil
 }
 
 // shownDuplicates is how many passes already logged an import lists one
