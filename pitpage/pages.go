@@ -89,25 +89,50 @@ func values(v url.Values) func(string) string {
 
 // attach puts err next to the field it names, in the form's words; an error
 // naming no field goes to the top. It returns the top message.
+//
+// Which field an error is about is read from its structure, not its words:
+// a *weather.InputError's Field is the flag's name, the field is found by
+// it, and the message names the field by its label. It does not parse a
+// message to find a field.
 func attach(form []field, err error) string {
+	named := flagsAsLabels(form)
+	var ie *weather.InputError
+	if errors.As(err, &ie) {
+		if i := fieldOf(form, ie.Field); i >= 0 {
+			c := *ie
+			c.Field = form[i].Label
+			form[i].Error = named.Replace(c.Error())
+			return "Nothing was saved: fix the field marked below."
+		}
+	}
+	return "Nothing was saved: " + named.Replace(err.Error())
+}
+
+// fieldOf is the index in form of the field whose flag is name (with or
+// without its dashes: "--temp" or "temp"), or -1.
+func fieldOf(form []field, name string) int {
+	name = strings.TrimPrefix(name, "--")
+	for i := range form {
+		if form[i].flag() == name {
+			return i
+		}
+	}
+	return -1
+}
+
+// flagsAsLabels rewrites "--temp"-style flag names found inside a
+// message's free text into the form's labels (“Air temp”). It is the
+// fallback, kept because the event package writes its sentences for the
+// command line ("give --baro with --temp", a reason naming another flag, an
+// error that is not an InputError at all): a flag named inside a sentence
+// has no structure to find it by, and a phone has no flags. Where an error
+// has a Field, attach places and names it by that instead.
+func flagsAsLabels(form []field) *strings.Replacer {
 	pairs := []string{}
 	for _, f := range form {
 		pairs = append(pairs, "--"+f.flag(), "“"+f.Label+"”")
 	}
-	named := strings.NewReplacer(pairs...)
-	var ie *weather.InputError
-	if errors.As(err, &ie) {
-		name := strings.TrimPrefix(ie.Field, "--")
-		for i := range form {
-			if form[i].flag() == name {
-				c := *ie
-				c.Field = form[i].Label
-				form[i].Error = named.Replace(c.Error())
-				return "Nothing was saved: fix the field marked below."
-			}
-		}
-	}
-	return "Nothing was saved: " + named.Replace(err.Error())
+	return strings.NewReplacer(pairs...)
 }
 
 // savedWords are the card page's confirmations, by what was saved.

@@ -1,7 +1,10 @@
 // Package pitpage is pitcard's second front end: the card and the
 // between-rounds entries as web pages for the crew's phones, served from the
-// event folder on the trailer's laptop. It reads and writes the folder only
-// through package event, as the command line does, so a reading typed on a
+// event folder on the trailer's laptop.
+//
+// It does not read or write the event's data itself (the one file it
+// writes is its own link tokens): every reading, slip and setup goes
+// through package event, as the command line's do, so a reading typed on a
 // phone is checked, locked and written exactly as 'pitcard weather add'
 // would, and the card it shows is the card 'pitcard card' prints.
 //

@@ -257,13 +257,9 @@ mark (the same maps 'log import --map' reads, so an export imports back).`,
   pitcard log export --map spreadsheet-map.yaml --out season.csv`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, _ []string) error {
-			e, err := o.g.open(cmd)
+			e, passes, leftOut, err := o.g.openLogbook(cmd)
 			if err != nil {
 				return err
-			}
-			passes, leftOut := e.Logbook()
-			if !event.OnlyLeftOut(leftOut) {
-				return leftOut
 			}
 			passes, err = bounded(passes, o.Since, 0, o.Track)
 			if err != nil {

@@ -64,13 +64,9 @@ func logCompareRun(cmd *cobra.Command, o *logCompareOptions, name string) error 
 	if err := checkFormat(o.Format, "text", "markdown", "json"); err != nil {
 		return err
 	}
-	e, err := o.g.open(cmd)
+	e, passes, leftOut, err := o.g.openLogbook(cmd)
 	if err != nil {
 		return err
-	}
-	passes, leftOut := e.Logbook()
-	if !event.OnlyLeftOut(leftOut) {
-		return leftOut
 	}
 	i, err := event.PassNamed(passes, name, "PASS")
 	if err != nil {

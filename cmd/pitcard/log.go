@@ -236,86 +236,102 @@ day and round a conflict.`,
   pitcard log import season.csv --map spreadsheet-map.yaml
   pitcard log import ../theo-laptop/logbook.csv --skip-existing`,
 		Args: cobra.ExactArgs(1),
-		RunE: func(cmd *cobra.Command, args []string) error {
-			e, err := o.g.open(cmd)
-			if err != nil {
-				return err
-			}
-			if err := e.Writable(); err != nil {
-				return err
-			}
-			if done, err := importOpponents(o.s, e, args[0], o.SkipExisting); done {
-				return err
-			}
-			source, err := o.maps.source(o.s, e, args[0], colmap.Logbook)
-			if errors.Is(err, errOnlyTheMap) {
-				return nil
-			}
-			if err != nil {
-				return err
-			}
-			if car, err := e.Car(); err == nil {
-				source.Setup = car.Setup // the setup columns are checked as the logbook's are
-			}
-			src, err := source.Passes()
-			if err != nil {
-				return err
-			}
-			cur, _ := e.Logbook()
-			merge := event.MergePasses(cur, src.Passes)
-			if len(src.Bad) == 0 && len(src.Passes) > 0 && merge.Same == len(src.Passes) && !o.SkipExisting {
-				// A file already imported: said in one line, not a line per pass.
-				return userErrf("nothing new in %s: its %s are already in %s, alike (the same pass entered twice); nothing was imported (give --skip-existing to leave out the passes already logged)",
-					args[0], text.Plural(merge.Same, "pass"), e.Name(event.LogbookFile))
-			}
-			if len(src.Bad) > 0 || (len(merge.Logged) > 0 && !o.SkipExisting) {
-				// All or nothing: list every bad row, and the good rows that are already logged.
-				problems := append(logbook.RowErrors(nil), src.Bad...)
-				for i, l := range merge.Logged {
-					if i == shownDuplicates { // the rest counted, not listed
-						problems = append(problems, &weather.InputError{File: args[0], Field: fmt.Sprintf("%d more passes", len(merge.Logged)-i),
-							Reason: fmt.Sprintf("are already in %s too (not listed)", e.Name(event.LogbookFile))})
-						break
-					}
-					problems = append(problems, event.DuplicateOf(src.Passes[l.Index], logbook.Pass{Line: l.OursLine}, e.Name(event.LogbookFile)))
-				}
-				if len(src.Bad) == 0 {
-					return fmt.Errorf("%w\nNothing was imported (give --skip-existing to leave out the passes already logged)", problems)
-				}
-				return fmt.Errorf("%w\nNothing was imported", problems)
-			}
-			if len(merge.Conflicts) > 0 {
-				return &event.Conflicts{List: merge.Conflicts, Ours: e.Name(event.LogbookFile), TheirsIn: args[0]}
-			}
-			passes := merge.New
-			if len(passes) == 0 {
-				if merge.Same > 0 {
-					fmt.Fprintf(o.s.Out, "Nothing to import: the %s of %s are already in %s.\n", text.Plural(merge.Same, "pass"), args[0], e.Name(event.LogbookFile))
-					return nil
-				}
-				return userErrf("%s has no passes to import", args[0])
-			}
-			if w := altimeterLooking(e, passes, args[0]); w != "" {
-				o.s.warn(w)
-			}
-			n, kept, err := e.SaveLogbook(passes, src.Extra...)
-			if err != nil {
-				return err
-			}
-			if kept != nil {
-				o.s.warn(kept.Error())
-			}
-			fmt.Fprintf(o.s.Out, "Imported %s from %s", text.Plural(len(passes), "pass"), args[0])
-			if merge.Same > 0 {
-				fmt.Fprintf(o.s.Out, " (%s already logged, skipped)", text.Plural(merge.Same, "pass"))
-			}
-			fmt.Fprintf(o.s.Out, "; %s now holds %d.\n", e.Name(event.LogbookFile), n)
-			return nil
-		},
+		RunE: func(cmd *cobra.Command, args []string) error { return logImportRun(cmd, o, args[0]) },
 	}
 	o.maps.bind(cmd, true)
 	cmd.Flags().BoolVar(&o.SkipExisting, "skip-existing", false, "skip passes already logged with the same values (a different one stops the import)")
 	return cmd
+}
+
+// logImportRun imports file's passes into the logbook, or a crewmate's
+// opponents.csv into the opponent book: all or nothing.
+func logImportRun(cmd *cobra.Command, o *logImportOptions, file string) error {
+	e, err := o.g.open(cmd)
+	if err != nil {
+		return err
+	}
+	if err := e.Writable(); err != nil {
+		return err
+	}
+	if done, err := importOpponents(o.s, e, file, o.SkipExisting); done {
+		return err
+	}
+	source, err := o.maps.source(o.s, e, file, colmap.Logbook)
+	if errors.Is(err, errOnlyTheMap) {
+		return nil
+	}
+	if err != nil {
+		return err
+	}
+	if car, err := e.Car(); err == nil {
+		source.Setup = car.Setup // the setup columns are checked as the logbook's are
+	}
+	src, err := source.Passes()
+	if err != nil {
+		return err
+	}
+	cur, _ := e.Logbook()
+	merge := event.MergePasses(cur, src.Passes)
+	if err := importRefused(e, src, merge, file, o.SkipExisting); err != nil {
+		return err
+	}
+	passes := merge.New
+	if len(passes) == 0 {
+		if merge.Same > 0 {
+			fmt.Fprintf(o.s.Out, "Nothing to import: the %s of %s are already in %s.\n", text.Plural(merge.Same, "pass"), file, e.Name(event.LogbookFile))
+			return nil
+		}
+		return userErrf("%s has no passes to import", file)
+	}
+	if w := altimeterLooking(e, passes, file); w != "" {
+		o.s.warn(w)
+	}
+	n, kept, err := e.SaveLogbook(passes, src.Extra...)
+	if err != nil {
+		return err
+	}
+	if kept != nil {
+		o.s.warn(kept.Error())
+	}
+	fmt.Fprintf(o.s.Out, "Imported %s from %s", text.Plural(len(passes), "pass"), file)
+	if merge.Same > 0 {
+		fmt.Fprintf(o.s.Out, " (%s already logged, skipped)", text.Plural(merge.Same, "pass"))
+	}
+	fmt.Fprintf(o.s.Out, "; %s now holds %d.\n", e.Name(event.LogbookFile), n)
+	return nil
+}
+
+// importRefused is why nothing of file may be imported, or nil: a file
+// already imported whole (said in one line), bad rows or passes already
+// logged without --skip-existing (every one listed, the duplicates past
+// shownDuplicates counted), or a pass logged with another value (a
+// conflict). It writes nothing.
+func importRefused(e *eventFolder, src *logbook.Logbook, merge event.PassMerge, file string, skipExisting bool) error {
+	if len(src.Bad) == 0 && len(src.Passes) > 0 && merge.Same == len(src.Passes) && !skipExisting {
+		// A file already imported: said in one line, not a line per pass.
+		return userErrf("nothing new in %s: its %s are already in %s, alike (the same pass entered twice); nothing was imported (give --skip-existing to leave out the passes already logged)",
+			file, text.Plural(merge.Same, "pass"), e.Name(event.LogbookFile))
+	}
+	if len(src.Bad) > 0 || (len(merge.Logged) > 0 && !skipExisting) {
+		// All or nothing: list every bad row, and the good rows that are already logged.
+		problems := append(logbook.RowErrors(nil), src.Bad...)
+		for i, l := range merge.Logged {
+			if i == shownDuplicates { // the rest counted, not listed
+				problems = append(problems, &weather.InputError{File: file, Field: fmt.Sprintf("%d more passes", len(merge.Logged)-i),
+					Reason: fmt.Sprintf("are already in %s too (not listed)", e.Name(event.LogbookFile))})
+				break
+			}
+			problems = append(problems, event.DuplicateOf(src.Passes[l.Index], logbook.Pass{Line: l.OursLine}, e.Name(event.LogbookFile)))
+		}
+		if len(src.Bad) == 0 {
+			return fmt.Errorf("%w\nNothing was imported (give --skip-existing to leave out the passes already logged)", problems)
+		}
+		return fmt.Errorf("%w\nNothing was imported", problems)
+	}
+	if len(merge.Conflicts) > 0 {
+		return &event.Conflicts{List: merge.Conflicts, Ours: e.Name(event.LogbookFile), TheirsIn: file}
+	}
+	return nil
 }
 
 // shownDuplicates is how many passes already logged an import lists one
@@ -350,13 +366,9 @@ func logListRun(cmd *cobra.Command, o *logListOptions) error {
 	if err := checkFormat(o.Format, "text", "markdown", "json", "csv"); err != nil {
 		return err
 	}
-	e, err := o.g.open(cmd)
+	e, passes, leftOut, err := o.g.openLogbook(cmd)
 	if err != nil {
 		return err
-	}
-	passes, leftOut := e.Logbook()
-	if !event.OnlyLeftOut(leftOut) {
-		return leftOut
 	}
 	trk, _ := e.Track()
 	if o.Last > 0 && len(passes) > o.Last {
@@ -382,55 +394,86 @@ func logListRun(cmd *cobra.Command, o *logListOptions) error {
 		fmt.Fprintf(o.s.Out, "%s has no passes yet: add one with 'pitcard log add' or 'pitcard log import'.\n", e.Name(event.LogbookFile))
 		return leftOut
 	}
-	u := e.Settings.Units
-	t := newTable(o.s, fmt.Sprintf("Logbook (%s), last %s", e.Name(event.LogbookFile), text.Plural(len(passes), "pass")))
-	// Trap speeds and density altitude in the crew's units, the unit in
-	// the header.
-	spd, daHead := u.Speed.String(), "DA "+u.Length.String()
+	renderLogList(o, e, passes, trk)
+	if o.Format == "text" {
+		fmt.Fprintf(o.s.Out, "Round: T time trial, E elimination. DA: density altitude, %s.\n--wide adds the 330 and 1000 ft timers.\n", e.Settings.Units.Length)
+	}
+	return leftOut
+}
+
+// listColumns says how the list's table is laid out: the crew's units,
+// whether every timer is shown (--wide), and whether the notes go under
+// the table rather than in its last column.
+type listColumns struct {
+	u          weather.Units
+	wide       bool
+	notesBelow bool
+}
+
+// header is the list's header row: trap speeds and density altitude in
+// the crew's units, the unit in the header.
+func (l listColumns) header() table.Row {
+	spd, daHead := l.u.Speed.String(), "DA "+l.u.Length.String()
 	header := table.Row{"Date", "Time", "Round", "Lane", "Dial", "RT", "60 ft", "1/8", spd, "1/4", spd, daHead, "Notes"}
-	if o.Wide {
+	if l.wide {
 		header = table.Row{"Date", "Time", "Round", "Lane", "Dial", "RT", "60 ft", "330", "1/8", spd, "1000", "1/4", spd, daHead, "Notes"}
 	}
-	trap := func(d decimal.NullDecimal) string {
-		if !d.Valid || u.Speed == weather.UnitMPH {
-			return sec(d, 2)
-		}
-		return strconv.FormatFloat(weather.MPH(d.Decimal.InexactFloat64()).In(u.Speed), 'f', 2, 64)
-	}
-	// Narrower than the list with its notes (a terminal under 100 columns):
-	// the notes go under the table, each with its pass.
-	notesBelow := o.Format == "text" && o.s.width() < prep.Width
-	if notesBelow {
+	if l.notesBelow {
 		header = header[:len(header)-1]
 	}
+	return header
+}
+
+// trap is a trap speed in the crew's unit, or "" when not timed.
+func (l listColumns) trap(d decimal.NullDecimal) string {
+	if !d.Valid || l.u.Speed == weather.UnitMPH {
+		return sec(d, 2)
+	}
+	return strconv.FormatFloat(weather.MPH(d.Decimal.InexactFloat64()).In(l.u.Speed), 'f', 2, 64)
+}
+
+// row is one pass's row of the list, its notes in the last column unless
+// they go under the table. It does not print the notes that go below.
+func (l listColumns) row(p logbook.Pass, trk engine.Track) table.Row {
+	da := ""
+	if p.HasAir {
+		da = p.Air.Derive(event.ElevationFor(p, trk)).DensityAltitude.FormatDensityAltitude(l.u.Length)
+	}
+	row := table.Row{p.Time.Format("2006-01-02"), p.Time.Format("15:04"), p.Session.String(), p.Lane, sec(p.Dial, 2), sec(p.RT, 3)}
+	for i, ft := range logbook.Timers {
+		if !l.wide && (ft == 330 || ft == 1000) {
+			continue
+		}
+		row = append(row, sec(p.ET[i], 3))
+		if ft == 660 {
+			row = append(row, l.trap(p.MPH660))
+		}
+	}
+	row = append(row, l.trap(p.MPH1320), strings.TrimSuffix(da, " "+l.u.Length.String()))
+	if !l.notesBelow {
+		row = append(row, printable.Line(passNotes(p)))
+	}
+	return row
+}
+
+// renderLogList prints the passes as a text or markdown table. Narrower
+// than the list with its notes (a terminal under 100 columns), the notes go
+// under the table, each with its pass. It prints no key to the columns.
+func renderLogList(o *logListOptions, e *eventFolder, passes []logbook.Pass, trk engine.Track) {
+	l := listColumns{u: e.Settings.Units, wide: o.Wide, notesBelow: o.Format == "text" && o.s.width() < prep.Width}
+	t := newTable(o.s, fmt.Sprintf("Logbook (%s), last %s", e.Name(event.LogbookFile), text.Plural(len(passes), "pass")))
+	header := l.header()
 	t.AppendHeader(header)
 	var below []string
 	for _, p := range passes {
-		da := ""
-		if p.HasAir {
-			da = p.Air.Derive(event.ElevationFor(p, trk)).DensityAltitude.FormatDensityAltitude(u.Length)
-		}
-		row := table.Row{p.Time.Format("2006-01-02"), p.Time.Format("15:04"), p.Session.String(), p.Lane, sec(p.Dial, 2), sec(p.RT, 3)}
-		for i, ft := range logbook.Timers {
-			if !o.Wide && (ft == 330 || ft == 1000) {
-				continue
-			}
-			row = append(row, sec(p.ET[i], 3))
-			if ft == 660 {
-				row = append(row, trap(p.MPH660))
-			}
-		}
-		row = append(row, trap(p.MPH1320), strings.TrimSuffix(da, " "+u.Length.String()))
-		if notes := passNotes(p); !notesBelow {
-			row = append(row, printable.Line(notes))
-		} else if notes != "" {
+		if notes := passNotes(p); l.notesBelow && notes != "" {
 			below = append(below, prep.Wrap(fmt.Sprintf("%s %s: %s", p.Time.Format("2006-01-02 15:04"), p.Session, printable.Line(notes)), o.s.width(), "  "))
 		}
-		t.AppendRow(row)
+		t.AppendRow(l.row(p, trk))
 	}
 	n := len(header)
 	configs := append([]table.ColumnConfig{{Number: n, WidthMax: 16}}, alignRight(5, n-1)...)
-	if notesBelow {
+	if l.notesBelow {
 		configs = alignRight(5, n)
 	}
 	compact(t)
@@ -438,10 +481,6 @@ func logListRun(cmd *cobra.Command, o *logListOptions) error {
 	if len(below) > 0 {
 		fmt.Fprintln(o.s.Out, "Notes:\n"+strings.Join(below, "\n"))
 	}
-	if o.Format == "text" {
-		fmt.Fprintf(o.s.Out, "Round: T time trial, E elimination. DA: density altitude, %s.\n--wide adds the 330 and 1000 ft timers.\n", u.Length)
-	}
-	return leftOut
 }
 
 func alignRight(from, to int) []table.ColumnConfig {
@@ -536,71 +575,18 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 	if err := checkFormat(o.Format, "text", "markdown", "json", "csv"); err != nil {
 		return err
 	}
-	e, err := o.g.open(cmd)
+	e, passes, leftOut, err := o.g.openLogbook(cmd)
 	if err != nil {
 		return err
-	}
-	passes, leftOut := e.Logbook()
-	if !event.OnlyLeftOut(leftOut) {
-		return leftOut
 	}
 	shown, err := bounded(passes, o.Since, o.Last, o.Track)
 	if err != nil {
 		return err
 	}
-	// With car.yaml and the weather of the passes, take the air out of the
-	// spread: the model is fitted as a card's is (on the latest passes, of
-	// the last RecentPasses), and only the passes shown are simulated.
-	var residual map[string]float64
-	corrected := false
-	if car, err := e.Car(); err == nil && len(passes) > 0 && len(shown) > 0 {
-		trk, _ := e.Track()
-		tracks, _ := e.OtherTracks()
-		recent := passes[max(0, len(passes)-event.RecentPasses):]
-		in := engine.CalibrateInput{Car: car, Track: trk, Tracks: tracks, Passes: recent, Now: passes[len(passes)-1].Time, DayStart: e.Settings.DayStart, Aborts: e.Settings.AbortWords, Changes: e.Settings.ChangeWords}
-		if fit, err := engine.Calibrate(in); err == nil && len(fit.Samples) > 0 {
-			in.Passes = shown
-			residual, corrected = fit.Residuals(in), true
-		}
-	}
+	residual, corrected := airResiduals(e, passes, shown)
 	stats := logbook.Stats(shown, residual, e.Settings.DayStart, e.Settings.AbortWords)
-	judge := func(s logbook.GroupStats) string {
-		if corrected && s.CorrectedN > 0 {
-			return logbook.Consistency(s.CorrectedSD, s.CorrectedN)
-		}
-		return logbook.Consistency(s.ETSD, s.Clean)
-	}
 	if o.Format == "json" || o.Format == "csv" {
-		out := []statsJSON{}
-		for _, s := range stats {
-			sessions := s.Kind.String()
-			if s.All {
-				sessions = "all"
-			}
-			out = append(out, statsJSON{Day: s.Day.Format("2006-01-02"), Sessions: sessions, Passes: s.Passes, Clean: s.Clean, FinishFt: s.Finish,
-				ETMean: event.OptFloat(s.ETMean, s.Clean > 0, 4), ETSD: event.OptFloat(s.ETSD, s.Clean > 1, 4),
-				ETMin: event.OptFloat(s.ETMin, s.Clean > 0, 4), ETMax: event.OptFloat(s.ETMax, s.Clean > 0, 4),
-				RTMean: event.OptFloat(s.RTMean, s.RTN > 0, 4), RTSD: event.OptFloat(s.RTSD, s.RTN > 1, 4),
-				SixtySD: event.OptFloat(s.SixtySD, s.SixtyN > 1, 4), CorrectedSD: event.OptFloat(s.CorrectedSD, s.CorrectedN > 1, 4), Consistency: judge(s)})
-		}
-		if o.Format == "csv" {
-			opt := func(v *float64) string {
-				if v == nil {
-					return ""
-				}
-				return fmt.Sprint(*v)
-			}
-			rows := [][]string{{"day", "sessions", "passes", "clean", "finish_ft", "et_mean", "et_sd", "et_min", "et_max", "rt_mean", "rt_sd", "et60_sd", "et_sd_corrected", "consistency"}} // the JSON's names
-			for _, x := range out {
-				rows = append(rows, []string{x.Day, x.Sessions, fmt.Sprint(x.Passes), fmt.Sprint(x.Clean), fmt.Sprint(x.FinishFt), opt(x.ETMean), opt(x.ETSD),
-					opt(x.ETMin), opt(x.ETMax), opt(x.RTMean), opt(x.RTSD), opt(x.SixtySD), opt(x.CorrectedSD), x.Consistency})
-			}
-			return errors.Join(writeCSV(o.s.Out, rows), leftOut)
-		}
-		if err := writeJSON(o.s.Out, out); err != nil {
-			return err
-		}
-		return leftOut
+		return writeStatsData(o, statsAsJSON(stats, corrected), leftOut)
 	}
 	if len(shown) == 0 {
 		if len(passes) > 0 {
@@ -610,10 +596,91 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 		fmt.Fprintf(o.s.Out, "%s has no passes yet.\n", e.Name(event.LogbookFile))
 		return leftOut
 	}
+	renderStatsTable(o, stats, corrected)
+	printStatsNotes(o, stats, corrected)
+	return leftOut
+}
+
+// airResiduals takes the air out of the spread, with car.yaml and the
+// weather of the passes: the model is fitted as a card's is (on the latest
+// passes, of the last RecentPasses), and only the passes shown are
+// simulated. It returns each shown pass's ET less the model's, and whether
+// the fit was made; without car.yaml or a fit it returns nil, false (the
+// spread is then given as run). It does not judge consistency.
+func airResiduals(e *eventFolder, passes, shown []logbook.Pass) (map[string]float64, bool) {
+	car, err := e.Car()
+	if err != nil || len(passes) == 0 || len(shown) == 0 {
+		return nil, false
+	}
+	trk, _ := e.Track()
+	tracks, _ := e.OtherTracks()
+	recent := passes[max(0, len(passes)-event.RecentPasses):]
+	in := engine.CalibrateInput{Car: car, Track: trk, Tracks: tracks, Passes: recent, Now: passes[len(passes)-1].Time, DayStart: e.Settings.DayStart, Aborts: e.Settings.AbortWords, Changes: e.Settings.ChangeWords}
+	fit, err := engine.Calibrate(in)
+	if err != nil || len(fit.Samples) == 0 {
+		return nil, false
+	}
+	in.Passes = shown
+	return fit.Residuals(in), true
+}
+
+// statsConsistency is a group's consistency in words, judged on the spread
+// corrected for the air when there is one, else on the spread as run.
+func statsConsistency(s logbook.GroupStats, corrected bool) string {
+	if corrected && s.CorrectedN > 0 {
+		return logbook.Consistency(s.CorrectedSD, s.CorrectedN)
+	}
+	return logbook.Consistency(s.ETSD, s.Clean)
+}
+
+// statsAsJSON is the stats as 'log stats --format json' writes them, one
+// entry per day and per session within it; a figure without enough passes
+// behind it is null.
+func statsAsJSON(stats []logbook.GroupStats, corrected bool) []statsJSON {
+	out := []statsJSON{}
+	for _, s := range stats {
+		sessions := s.Kind.String()
+		if s.All {
+			sessions = "all"
+		}
+		out = append(out, statsJSON{Day: s.Day.Format("2006-01-02"), Sessions: sessions, Passes: s.Passes, Clean: s.Clean, FinishFt: s.Finish,
+			ETMean: event.OptFloat(s.ETMean, s.Clean > 0, 4), ETSD: event.OptFloat(s.ETSD, s.Clean > 1, 4),
+			ETMin: event.OptFloat(s.ETMin, s.Clean > 0, 4), ETMax: event.OptFloat(s.ETMax, s.Clean > 0, 4),
+			RTMean: event.OptFloat(s.RTMean, s.RTN > 0, 4), RTSD: event.OptFloat(s.RTSD, s.RTN > 1, 4),
+			SixtySD: event.OptFloat(s.SixtySD, s.SixtyN > 1, 4), CorrectedSD: event.OptFloat(s.CorrectedSD, s.CorrectedN > 1, 4), Consistency: statsConsistency(s, corrected)})
+	}
+	return out
+}
+
+// writeStatsData writes the stats as JSON or, with --format csv, as CSV
+// with the JSON's names for columns (null is an empty cell), then returns
+// leftOut (the rows left out of the logbook) joined with any write error.
+func writeStatsData(o *logStatsOptions, out []statsJSON, leftOut error) error {
+	if o.Format != "csv" {
+		if err := writeJSON(o.s.Out, out); err != nil {
+			return err
+		}
+		return leftOut
+	}
+	opt := func(v *float64) string {
+		if v == nil {
+			return ""
+		}
+		return fmt.Sprint(*v)
+	}
+	rows := [][]string{{"day", "sessions", "passes", "clean", "finish_ft", "et_mean", "et_sd", "et_min", "et_max", "rt_mean", "rt_sd", "et60_sd", "et_sd_corrected", "consistency"}} // the JSON's names
+	for _, x := range out {
+		rows = append(rows, []string{x.Day, x.Sessions, fmt.Sprint(x.Passes), fmt.Sprint(x.Clean), fmt.Sprint(x.FinishFt), opt(x.ETMean), opt(x.ETSD),
+			opt(x.ETMin), opt(x.ETMax), opt(x.RTMean), opt(x.RTSD), opt(x.SixtySD), opt(x.CorrectedSD), x.Consistency})
+	}
+	return errors.Join(writeCSV(o.s.Out, rows), leftOut)
+}
+
+// renderStatsTable prints the stats as a text or markdown table. The day
+// and its sessions share a column (the day's date on the row of all its
+// passes): the table fits an 80-column terminal. It prints no notes.
+func renderStatsTable(o *logStatsOptions, stats []logbook.GroupStats, corrected bool) {
 	t := newTable(o.s, "Consistency by day and session")
-	// The day and its sessions share a column (the day's date on the row of
-	// all its passes):
-	// the table fits an 80-column terminal.
 	t.AppendHeader(table.Row{"Day,\nsessions", "Passes", "ET\nmean", "ET\nspread", "spread\ncorrected", "RT\nmean", "RT\nspread", "60 ft\nspread", "Consistency"})
 	f3 := func(v float64, ok bool) string {
 		if !ok {
@@ -632,11 +699,17 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 			passes = fmt.Sprintf("%d (%d out)", s.Passes, s.Passes-s.Clean)
 		}
 		t.AppendRow(table.Row{day, passes, f3(s.ETMean, s.Clean > 0), f3(s.ETSD, s.Clean > 1), f3(s.CorrectedSD, s.CorrectedN > 1),
-			f3(s.RTMean, s.RTN > 0), f3(s.RTSD, s.RTN > 1), f3(s.SixtySD, s.SixtyN > 1), judge(s)})
+			f3(s.RTMean, s.RTN > 0), f3(s.RTSD, s.RTN > 1), f3(s.SixtySD, s.SixtyN > 1), statsConsistency(s, corrected)})
 	}
 	configs := alignRight(3, 8)
 	compact(t)
 	render(o.s, t, o.Format, configs...)
+}
+
+// printStatsNotes prints what the table's figures mean under it, and on
+// the error stream a hint to bound the days when more than 30 are shown
+// unbounded.
+func printStatsNotes(o *logStatsOptions, stats []logbook.GroupStats, corrected bool) {
 	note := "Spreads are one standard deviation, as run (no car.yaml or no weather in the logbook): the air moving through a day counts as scatter."
 	if corrected {
 		note = "Spreads are one standard deviation. Corrected: the ET spread once the air and track of each pass are taken out (each ET less the calibrated model's for its conditions); consistency is judged on it."
@@ -646,7 +719,6 @@ func logStatsRun(cmd *cobra.Command, o *logStatsOptions) error {
 	if days := countDays(stats); days > 30 && o.Since == "" && o.Last == 0 {
 		fmt.Fprintf(o.s.Err, "pitcard: %d days shown: bound them with --since DATE, --last N or --track NAME\n", days)
 	}
-	return leftOut
 }
 
 func countDays(stats []logbook.GroupStats) int {

@@ -1,8 +1,11 @@
-// Command pitcard is a race-day prep assistant for bracket drag racers: the
+// Command pitcard is the command line of a race-day prep assistant for
+// bracket drag racers: it wires flags, the event folder and output for the
 // air, the car's logbook, the prediction, the dial-in and the prep card.
 //
-// This package wires flags, files and output; the work is done in the
-// packages below it.
+// It does not compute any figure, and it never writes the event folder
+// itself: the formulas are in weather and engine, the card in prep, and
+// every change to the folder goes through package event, as the pit page's
+// do (the only files it writes are the --out and --write-map files named).
 package main
 
 import (

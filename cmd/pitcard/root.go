@@ -12,6 +12,7 @@ import (
 	"github.com/spf13/pflag"
 
 	"pitcard/event"
+	"pitcard/logbook"
 	"pitcard/weather"
 )
 
@@ -98,6 +99,24 @@ func (g *globalOptions) open(cmd *cobra.Command) (*eventFolder, error) {
 		}
 	}
 	return event.Open(o)
+}
+
+// openLogbook opens the event folder and reads its whole logbook. Rows left
+// out (bad lines, named in leftOut) do not stop it: the good passes are
+// returned, and the caller returns leftOut after its output so the rows are
+// still named and the exit code still says so. Any other trouble (no
+// folder, an unreadable file) is err, and nothing else is returned with it.
+// It does not filter the passes (--since, --last, --track are the caller's).
+func (g *globalOptions) openLogbook(cmd *cobra.Command) (e *eventFolder, passes []logbook.Pass, leftOut, err error) {
+	e, err = g.open(cmd)
+	if err != nil {
+		return nil, nil, nil, err
+	}
+	passes, leftOut = e.Logbook()
+	if !event.OnlyLeftOut(leftOut) {
+		return nil, nil, nil, leftOut
+	}
+	return e, passes, leftOut, nil
 }
 
 // checkFormat refuses a --format the command does not print.

@@ -4,10 +4,12 @@ import (
 	"encoding/json"
 	"errors"
 	"fmt"
+	"io"
 	"math"
 	"strings"
 
 	"github.com/jedib0t/go-pretty/v6/table"
+	"github.com/shopspring/decimal"
 	"github.com/spf13/cobra"
 
 	"pitcard/event"
@@ -220,54 +222,82 @@ func rulesTryRun(cmd *cobra.Command, o *rulesTryOptions) error {
 	in.Settings.RuleLimits.MaxText = math.MaxInt
 	c := prep.Gather(in)
 	if o.Format == "json" {
-		type check struct {
-			Label  string `json:"label"`
-			Status string `json:"status"`
-			Note   string `json:"note"`
-		}
-		type result struct {
-			File    string   `json:"file"`
-			Defines []string `json:"defines"`
-			Adjust  string   `json:"adjust,omitempty"`
-			Reason  string   `json:"reason,omitempty"`
-			Checks  []check  `json:"checks"`
-			Notes   []string `json:"notes"`
-			Log     []string `json:"log"`
-			Errors  []string `json:"errors"`
-			TookMS  float64  `json:"took_ms"`
-		}
-		out := []result{}
-		for _, r := range c.Rules {
-			x := result{File: r.File, Defines: r.Defines, Checks: []check{}, Notes: r.Notes, Log: r.Log, Errors: []string{}, TookMS: round(float64(r.Took.Microseconds())/1000, 2)}
-			if r.HasAdjust {
-				x.Adjust, x.Reason = prep.DialText(r.Adjust, in.Settings.DialStep), r.Reason
-			}
-			for _, ch := range r.Checks {
-				x.Checks = append(x.Checks, check{ch.Label, ch.Status, ch.Note})
-			}
-			for _, e := range r.Errors {
-				x.Errors = append(x.Errors, e.Error())
-			}
-			if x.Notes == nil {
-				x.Notes = []string{}
-			}
-			if x.Log == nil {
-				x.Log = []string{}
-			}
-			out = append(out, x)
-		}
-		j := map[string]any{"round": c.Title, "session": in.Session.String(), "lane": string(in.Lane), "rules": out,
-			"rule_total": json.Number(prep.DialText(c.TotalAdjust, in.Settings.DialStep)), "flag": c.AdjustFlag,
-			"recommended_dial": nil, "final_dial": nil, "checks_failed": append([]string{}, c.Failed...)}
-		if c.PlanErr == nil && len(c.Plan.Options) > 0 { // numbers with the dial's digits, null when there is none
-			j["recommended_dial"] = json.Number(recommendedText(c))
-		}
-		if c.HasFinal {
-			j["final_dial"] = json.Number(finalText(c))
-		}
-		return errors.Join(writeJSON(o.s.Out, j), failedChecks(c.Failed))
+		return errors.Join(writeJSON(o.s.Out, rulesTryJSON(in, c)), failedChecks(c.Failed))
 	}
-	w := o.s.Out
+	printRulesTry(o.s.Out, in, c)
+	// A failed check stops the dial here as on the card (exit 3).
+	return failedChecks(c.Failed)
+}
+
+// ruleCheckJSON is one check of a rule as 'rules try --format json' writes it.
+type ruleCheckJSON struct {
+	Label  string `json:"label"`
+	Status string `json:"status"`
+	Note   string `json:"note"`
+}
+
+// ruleResultJSON is one rule's run as 'rules try --format json' writes it:
+// lists are [] rather than null when empty.
+type ruleResultJSON struct {
+	File    string          `json:"file"`
+	Defines []string        `json:"defines"`
+	Adjust  string          `json:"adjust,omitempty"`
+	Reason  string          `json:"reason,omitempty"`
+	Checks  []ruleCheckJSON `json:"checks"`
+	Notes   []string        `json:"notes"`
+	Log     []string        `json:"log"`
+	Errors  []string        `json:"errors"`
+	TookMS  float64         `json:"took_ms"`
+}
+
+// ruleAsJSON is one rule's run for the JSON, its adjustment in the dial's
+// digits.
+func ruleAsJSON(r scripts.Result, step decimal.Decimal) ruleResultJSON {
+	x := ruleResultJSON{File: r.File, Defines: r.Defines, Checks: []ruleCheckJSON{}, Notes: r.Notes, Log: r.Log, Errors: []string{}, TookMS: round(float64(r.Took.Microseconds())/1000, 2)}
+	if r.HasAdjust {
+		x.Adjust, x.Reason = prep.DialText(r.Adjust, step), r.Reason
+	}
+	for _, ch := range r.Checks {
+		x.Checks = append(x.Checks, ruleCheckJSON{ch.Label, ch.Status, ch.Note})
+	}
+	for _, e := range r.Errors {
+		x.Errors = append(x.Errors, e.Error())
+	}
+	if x.Notes == nil {
+		x.Notes = []string{}
+	}
+	if x.Log == nil {
+		x.Log = []string{}
+	}
+	return x
+}
+
+// rulesTryJSON is the whole 'rules try --format json' answer: the round,
+// every rule's run, the rules' total and the dials before and after them
+// (numbers with the dial's digits, null when there is none). It writes
+// nothing.
+func rulesTryJSON(in prep.Input, c prep.Card) map[string]any {
+	out := []ruleResultJSON{}
+	for _, r := range c.Rules {
+		out = append(out, ruleAsJSON(r, in.Settings.DialStep))
+	}
+	j := map[string]any{"round": c.Title, "session": in.Session.String(), "lane": string(in.Lane), "rules": out,
+		"rule_total": json.Number(prep.DialText(c.TotalAdjust, in.Settings.DialStep)), "flag": c.AdjustFlag,
+		"recommended_dial": nil, "final_dial": nil, "checks_failed": append([]string{}, c.Failed...)}
+	if c.PlanErr == nil && len(c.Plan.Options) > 0 { // numbers with the dial's digits, null when there is none
+		j["recommended_dial"] = json.Number(recommendedText(c))
+	}
+	if c.HasFinal {
+		j["final_dial"] = json.Number(finalText(c))
+	}
+	return j
+}
+
+// printRulesTry prints 'rules try' as text: the recommended dial, then
+// each rule's adjustment, checks, notes and log lines, then the final dial
+// and the flag. It does not print a rule's errors (the card names them) and
+// does not decide the exit code.
+func printRulesTry(w io.Writer, in prep.Input, c prep.Card) {
 	fmt.Fprintf(w, "%s, called %s. Recommended dial before the rules: %s.\n", c.Title, in.Call.Format("15:04"), recommendedText(c))
 	for _, r := range c.Rules {
 		fmt.Fprintf(w, "\n%s (%s) took %.1f ms\n", r.File, strings.Join(r.Defines, ", "), float64(r.Took.Microseconds())/1000)
@@ -294,8 +324,6 @@ func rulesTryRun(cmd *cobra.Command, o *rulesTryOptions) error {
 	if c.AdjustFlag != "" {
 		fmt.Fprintln(w, "Flag: "+c.AdjustFlag)
 	}
-	// A failed check stops the dial here as on the card (exit 3).
-	return failedChecks(c.Failed)
 }
 
 func recommendedText(c prep.Card) string {

@@ -68,14 +68,8 @@ func serveRun(cmd *cobra.Command, o *serveOptions) error {
 	if _, err := e.Track(); err != nil {
 		return err
 	}
-	var tokens pitpage.Tokens
-	made := true
-	if e.Demo {
-		// The demo folder is read-only: its links last while the server runs.
-		if tokens, err = pitpage.NewTokens(); err != nil {
-			return err
-		}
-	} else if tokens, made, err = pitpage.LoadTokens(e.Dir, o.NewTokens); err != nil {
+	tokens, made, err := serveTokens(e, o.NewTokens)
+	if err != nil {
 		return err
 	}
 	ln, err := net.Listen("tcp", o.Addr)
@@ -94,6 +88,27 @@ func serveRun(cmd *cobra.Command, o *serveOptions) error {
 		ln.Close()
 		return err
 	}
+	printServeLinks(o, e, ln.Addr(), hosts, port, tokens, made)
+	return serveUntilStopped(o.s, srv, ln)
+}
+
+// serveTokens is the crew and view tokens of the links, and whether they
+// were just made. The demo folder is read-only: its links are new and last
+// while the server runs. Any other folder keeps them in its tokens file,
+// made anew when it has none or with --new-tokens.
+func serveTokens(e *eventFolder, newTokens bool) (tokens pitpage.Tokens, made bool, err error) {
+	if e.Demo {
+		tokens, err = pitpage.NewTokens()
+		return tokens, true, err
+	}
+	return pitpage.LoadTokens(e.Dir, newTokens)
+}
+
+// printServeLinks says what is served and where: the folder, every address
+// on this network, the crew and view links (and where they are kept), the
+// crew link's QR code unless --no-qr, and a word on the page's security. It
+// starts nothing.
+func printServeLinks(o *serveOptions, e *eventFolder, addr net.Addr, hosts []string, port string, tokens pitpage.Tokens, made bool) {
 	base := "http://" + net.JoinHostPort(hosts[0], port)
 	crew, view := base+"/join/"+tokens.Crew, base+"/join/"+tokens.View
 	where := "the demo event (read-only)"
@@ -103,7 +118,7 @@ func serveRun(cmd *cobra.Command, o *serveOptions) error {
 			where = abs
 		}
 	}
-	fmt.Fprintf(o.s.Out, "Serving the pit page of %s on %s.\n", where, ln.Addr())
+	fmt.Fprintf(o.s.Out, "Serving the pit page of %s on %s.\n", where, addr)
 	fmt.Fprintln(o.s.Out, "Open on this network:")
 	for _, h := range hosts {
 		fmt.Fprintf(o.s.Out, "  http://%s\n", net.JoinHostPort(h, port))
@@ -124,13 +139,19 @@ func serveRun(cmd *cobra.Command, o *serveOptions) error {
 		}
 	}
 	fmt.Fprintln(o.s.Out, "A LAN page without encryption: keep the links to the crew. Ctrl-C stops it.")
+}
 
+// serveUntilStopped serves the pit page on ln until Ctrl-C, SIGTERM or the
+// streams' Stop (the tests'), then shuts it down, letting requests under
+// way finish for up to 5 seconds. A server that fails on its own returns
+// its error.
+func serveUntilStopped(s *IOStreams, srv *pitpage.Server, ln net.Listener) error {
 	hs, gl := pitpage.HTTPServer(srv, ln, pitpage.DefaultLimits)
 	errc := make(chan error, 1)
 	go func() { errc <- hs.Serve(gl) }()
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
 	defer stop()
-	stopped := o.s.Stop
+	stopped := s.Stop
 	select {
 	case err := <-errc:
 		return err
@@ -142,7 +163,7 @@ func serveRun(cmd *cobra.Command, o *serveOptions) error {
 	if err := hs.Shutdown(shut); err != nil && !errors.Is(err, http.ErrServerClosed) {
 		return err
 	}
-	fmt.Fprintln(o.s.Out, "Stopped the pit page.")
+	fmt.Fprintln(s.Out, "Stopped the pit page.")
 	return nil
 }
 
