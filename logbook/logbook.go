@@ -650,118 +650,158 @@ func (r *rowReader) pass(rec []string, loc *time.Location) (Pass, error) {
 // ParsePass builds a pass from its fields and validates it.
 func ParsePass(f SlipFields, loc *time.Location) (Pass, error) {
 	var p Pass
-	get := func(c string) string { return f.Values[c] }
-	name := func(c string) string {
-		if n := f.Names[c]; n != "" {
-			return n
-		}
-		return c
+	if err := f.parseWhen(&p, loc); err != nil {
+		return p, err
 	}
-	named := func(err error, c string) error {
+	if err := f.parseTimes(&p); err != nil {
+		return p, err
+	}
+	if err := f.parseTraps(&p); err != nil {
+		return p, err
+	}
+	if err := parseConditions(&p, f, f.named); err != nil {
+		return p, err
+	}
+	if v := f.value("weight_lb"); v != "" {
+		bare := weather.UnitLb
+		if f.Metric["weight_lb"] {
+			bare = weather.UnitKg
+		}
+		w, err := ParseWeightLb(f.name("weight_lb"), v, bare)
+		if err != nil {
+			return p, err
+		}
+		p.WeightLb = w
+	}
+	p.Notes = f.value("notes")
+	var err error
+	if p.Change, err = ParseChange(f.name("change"), f.value("change")); err != nil {
+		return p, err
+	}
+	return p, nil
+}
+
+// value is column c's text, "" when absent.
+func (f SlipFields) value(c string) string { return f.Values[c] }
+
+// name is how column c is called in messages: its name in the file, or c.
+func (f SlipFields) name(c string) string {
+	if n := f.Names[c]; n != "" {
+		return n
+	}
+	return c
+}
+
+// named gives an input error about column c the column's name in messages;
+// any other error is returned as it is.
+func (f SlipFields) named(err error, c string) error {
+	var ie *weather.InputError
+	if errors.As(err, &ie) {
+		return ie.Named(f.name(c))
+	}
+	return err
+}
+
+// optSeconds reads column c as a time in seconds within lo..hi; a blank
+// cell is no value, not an error.
+func (f SlipFields) optSeconds(c string, lo, hi float64) (decimal.NullDecimal, error) {
+	v := f.value(c)
+	if v == "" {
+		return decimal.NullDecimal{}, nil
+	}
+	d, err := ParseSlipTime(f.name(c), v, [2]float64{lo, hi})
+	if err != nil {
+		return decimal.NullDecimal{}, err
+	}
+	return decimal.NewNullDecimal(d), nil
+}
+
+// parseWhen reads where and when the pass was run: its date and time,
+// track, session and lane. It checks no time slip figure.
+func (f SlipFields) parseWhen(p *Pass, loc *time.Location) error {
+	var err error
+	if p.Time, err = weather.ParseDateTime(f.value("date"), f.value("time"), loc); err != nil {
 		var ie *weather.InputError
 		if errors.As(err, &ie) {
-			return ie.Named(name(c))
+			return ie.Named(f.name(ie.Field))
 		}
 		return err
 	}
+	if p.Track = TrackName(f.value("track")); p.Track == "" {
+		return &weather.InputError{Field: "track", Reason: "is blank (the track's name as in its track.yaml)"}
+	}
+	if p.Session, err = ParseSession(f.value("session")); err != nil {
+		return f.named(err, "session")
+	}
+	if p.Lane, err = ParseLane(f.value("lane")); err != nil {
+		return f.named(err, "lane")
+	}
+	return nil
+}
+
+// parseTimes reads the slip's times: dial, reaction time and the elapsed
+// time at each timer, which must increase with distance, at least one
+// given. It does not read the trap speeds.
+func (f SlipFields) parseTimes(p *Pass) error {
 	var err error
-	if p.Time, err = weather.ParseDateTime(get("date"), get("time"), loc); err != nil {
-		var ie *weather.InputError
-		if errors.As(err, &ie) {
-			return p, ie.Named(name(ie.Field))
-		}
-		return p, err
+	if p.Dial, err = f.optSeconds("dial", DialRange[0], DialRange[1]); err != nil {
+		return err
 	}
-	if p.Track = TrackName(get("track")); p.Track == "" {
-		return p, &weather.InputError{Field: "track", Reason: "is blank (the track's name as in its track.yaml)"}
-	}
-	if p.Session, err = ParseSession(get("session")); err != nil {
-		return p, named(err, "session")
-	}
-	if p.Lane, err = ParseLane(get("lane")); err != nil {
-		return p, named(err, "lane")
-	}
-	optSeconds := func(c string, lo, hi float64) (decimal.NullDecimal, error) {
-		v := get(c)
-		if v == "" {
-			return decimal.NullDecimal{}, nil
-		}
-		d, err := ParseSlipTime(name(c), v, [2]float64{lo, hi})
-		if err != nil {
-			return decimal.NullDecimal{}, err
-		}
-		return decimal.NewNullDecimal(d), nil
-	}
-	if p.Dial, err = optSeconds("dial", DialRange[0], DialRange[1]); err != nil {
-		return p, err
-	}
-	if p.RT, err = optSeconds("rt", RTRange[0], RTRange[1]); err != nil {
-		return p, err
+	if p.RT, err = f.optSeconds("rt", RTRange[0], RTRange[1]); err != nil {
+		return err
 	}
 	var last decimal.NullDecimal
 	lastName, any := "", false
 	for i := range Timers {
 		c := timerColumns[i]
-		if p.ET[i], err = optSeconds(c, ETRanges[i][0], ETRanges[i][1]); err != nil {
-			return p, err
+		if p.ET[i], err = f.optSeconds(c, ETRanges[i][0], ETRanges[i][1]); err != nil {
+			return err
 		}
 		if p.ET[i].Valid {
 			any = true
 			if last.Valid && !p.ET[i].Decimal.GreaterThan(last.Decimal) {
-				return p, &weather.InputError{Field: name(c), Value: get(c),
+				return &weather.InputError{Field: f.name(c), Value: f.value(c),
 					Reason: fmt.Sprintf("is not after %s %s: elapsed times must increase with distance", lastName, last.Decimal)}
 			}
-			last, lastName = p.ET[i], name(c)
+			last, lastName = p.ET[i], f.name(c)
 		}
 	}
 	if !any {
-		return p, &weather.InputError{Field: "et1320", Reason: "is blank, and so is every other timer (a pass needs at least one elapsed time)"}
+		return &weather.InputError{Field: "et1320", Reason: "is blank, and so is every other timer (a pass needs at least one elapsed time)"}
 	}
+	return nil
+}
+
+// parseTraps reads the trap speeds at 660 and 1320 ft, each in its range
+// and plausible with the elapsed time to its trap (p's times read first).
+func (f SlipFields) parseTraps(p *Pass) error {
 	for _, trap := range []struct {
 		c   string
 		ft  float64
 		dst *decimal.NullDecimal
 	}{{"mph660", 660, &p.MPH660}, {"mph1320", 1320, &p.MPH1320}} {
-		v := get(trap.c)
+		v := f.value(trap.c)
 		if v == "" {
 			continue
 		}
-		d, err := ParseSeconds(name(trap.c), v) // a plain decimal, like a time
+		d, err := ParseSeconds(f.name(trap.c), v) // a plain decimal, like a time
 		if err != nil {
-			return p, &weather.InputError{Field: name(trap.c), Value: v, Reason: "is not a speed in mph (e.g. 123.45)"}
+			return &weather.InputError{Field: f.name(trap.c), Value: v, Reason: "is not a speed in mph (e.g. 123.45)"}
 		}
-		if err := rangeCheck(name(trap.c), d, MPHRange[0], MPHRange[1], "mph"); err != nil {
-			return p, err
+		if err := rangeCheck(f.name(trap.c), d, MPHRange[0], MPHRange[1], "mph"); err != nil {
+			return err
 		}
 		if et, ok := p.ETAt(trap.ft); ok {
 			avg := trap.ft / et / weather.MpsPerMph * weather.MetrePerFt // mph
 			if ratio := d.InexactFloat64() / avg; ratio < TrapRatioRange[0] || ratio > TrapRatioRange[1] {
-				return p, &weather.InputError{Field: name(trap.c), Value: v,
+				return &weather.InputError{Field: f.name(trap.c), Value: v,
 					Reason: fmt.Sprintf("is not plausible with et%.0f %s: the average speed to %.0f ft is %.1f mph, and a trap speed is %.2f..%.1f times that",
 						trap.ft, FormatSeconds(p.ET[TimerIndex(trap.ft)].Decimal, 3), trap.ft, avg, TrapRatioRange[0], TrapRatioRange[1])}
 			}
 		}
 		*trap.dst = decimal.NewNullDecimal(d)
 	}
-	if err := parseConditions(&p, f, named); err != nil {
-		return p, err
-	}
-	if v := get("weight_lb"); v != "" {
-		bare := weather.UnitLb
-		if f.Metric["weight_lb"] {
-			bare = weather.UnitKg
-		}
-		w, err := ParseWeightLb(name("weight_lb"), v, bare)
-		if err != nil {
-			return p, err
-		}
-		p.WeightLb = w
-	}
-	p.Notes = get("notes")
-	if p.Change, err = ParseChange(name("change"), get("change")); err != nil {
-		return p, err
-	}
-	return p, nil
+	return nil
 }
 
 // parseConditions reads the weather columns: all of temp, baro and humidity,
