@@ -286,7 +286,7 @@ func (e *Folder) AddPass(np NewPass, now time.Time) (LoggedPass, error) {
 	if err != nil {
 		return out, err
 	}
-	n, kept, err := e.SaveLogbook([]logbook.Pass{p}, setupCols...)
+	saved, err := e.SaveLogbook([]logbook.Pass{p}, setupCols...)
 	if err != nil {
 		return out, err
 	}
@@ -303,13 +303,13 @@ func (e *Folder) AddPass(np NewPass, now time.Time) (LoggedPass, error) {
 	if w := logbook.DialWarning(p); w != "" {
 		out.Warnings = append(out.Warnings, w)
 	}
-	if kept != nil {
-		out.Warnings = append(out.Warnings, kept.Error())
+	if saved.Kept != nil {
+		out.Warnings = append(out.Warnings, saved.Kept.Error())
 	}
 	if !p.HasAir {
 		out.Warnings = append(out.Warnings, "no weather reading within an hour of the pass and no reading given: the pass is logged without its conditions, and the model cannot learn from its air")
 	}
-	out.Pass, out.Count, out.Source, out.Elevation = p, n, source, elev
+	out.Pass, out.Count, out.Source, out.Elevation = p, saved.Count, source, elev
 	return out, nil
 }
 

@@ -298,7 +298,8 @@ day and round a conflict.`,
 			if w := altimeterLooking(e, passes, args[0]); w != "" {
 				o.s.warn(w)
 			}
-			n, kept, err := e.SaveLogbook(passes, src.Extra...)
+			saved, err := e.SaveLogbook(passes, src.Extra...)
+			n, kept := saved.Count, saved.Kept
 			if err != nil {
 				return err
 			}
