@@ -1,8 +1,12 @@
-// Package colmap reads CSV files in other layouts than pitcard's own: a
-// handheld meter's export, a spreadsheet saved on a European laptop. A
-// column map (a small YAML file) says which source column is which pitcard
-// field, in which unit or date layout, which fields are constants and which
-// columns to leave out; the separator and the decimal mark are detected or
+// Package colmap reads and writes CSV files in other layouts than pitcard's
+// own, as a column map describes them.
+// It does not judge the values it carries: pitcard's own readers check every
+// translated row, and it opens no file itself.
+//
+// Such a file is a handheld meter's export, or a spreadsheet saved on a
+// European laptop. A column map (a small YAML file) says which source column
+// is which pitcard field, in which unit or date layout, which fields are
+// constants and which columns to leave out; the separator and the decimal mark are detected or
 // set. Translate turns such a file into pitcard's own CSV, row for row, so
 // the usual readers check every row exactly as they check pitcard's files;
 // Export writes pitcard's CSV in the map's layout.
