@@ -1,8 +1,12 @@
-// Package colmap reads CSV files in other layouts than pitcard's own: a
-// handheld meter's export, a spreadsheet saved on a European laptop. A
-// column map (a small YAML file) says which source column is which pitcard
-// field, in which unit or date layout, which fields are constants and which
-// columns to leave out; the separator and the decimal mark are detected or
+// Package colmap reads and writes CSV files in other layouts than pitcard's
+// own, as a column map describes them.
+// It does not judge the values it carries: pitcard's own readers check every
+// translated row, and it opens no file itself.
+//
+// Such a file is a handheld meter's export, or a spreadsheet saved on a
+// European laptop. A column map (a small YAML file) says which source column
+// is which pitcard field, in which unit or date layout, which fields are
+// constants and which columns to leave out; the separator and the decimal mark are detected or
 // set. Translate turns such a file into pitcard's own CSV, row for row, so
 // the usual readers check every row exactly as they check pitcard's files;
 // Export writes pitcard's CSV in the map's layout.
@@ -772,23 +776,11 @@ func (m *Map) Export(w io.Writer, canonical []byte) error {
 	for _, f := range fieldsOf(m.Kind) {
 		known[f.name] = f
 	}
-	sep, dec := m.Separator, m.Decimal
-	if sep == 0 {
-		sep = ','
+	sep, dec, err := m.exportMarks()
+	if err != nil {
+		return err
 	}
-	if dec == 0 {
-		dec = '.'
-	}
-	if sep == ',' && dec == ',' {
-		return m.errAt(0, "decimal", ",", "cannot go with a comma separator")
-	}
-	var names []string
-	var fields []string
-	for _, f := range m.Order {
-		if s := m.Fields[f]; s.Column != "" {
-			names, fields = append(names, s.Column), append(fields, f)
-		}
-	}
+	names, fields := m.exportColumns()
 	cw := csv.NewWriter(w)
 	cw.Comma = sep
 	if err := cw.Write(names); err != nil {
@@ -810,34 +802,7 @@ func (m *Map) Export(w io.Writer, canonical []byte) error {
 			return ""
 		}
 		for i, f := range fields {
-			s := m.Fields[f]
-			fd, isKnown := known[f]
-			if !isKnown { // a crew column: a plain number takes the map's decimal mark
-				row[i] = get(f)
-				if dec == ',' && pointNumber.MatchString(row[i]) {
-					row[i] = strings.Replace(row[i], ".", ",", 1)
-				}
-				continue
-			}
-			v := get(fd.column)
-			switch fd.typ {
-			case date, clock:
-				if s.Format != "" && v != "" {
-					t, err := parseCanonicalTime(get("date"), get("time"))
-					if err == nil {
-						v = t.Format(s.Format)
-					}
-				}
-			case text, seconds, percent, degrees, trapSpeed:
-			default:
-				if v != "" && s.Unit != "" {
-					v = inUnit(v, s.Unit, fd.typ)
-				}
-			}
-			if dec == ',' && fd.typ != text && fd.typ != date && fd.typ != clock {
-				v = strings.Replace(v, ".", ",", 1)
-			}
-			row[i] = v
+			row[i] = m.exportValue(f, known, get, dec)
 		}
 		if err := cw.Write(row); err != nil {
 			return err
@@ -845,6 +810,71 @@ func (m *Map) Export(w io.Writer, canonical []byte) error {
 	}
 	cw.Flush()
 	return cw.Error()
+}
+
+// exportMarks is the separator and decimal mark an export writes: the
+// map's, or a comma and a point when it leaves them to detection. A comma
+// for both is an error.
+func (m *Map) exportMarks() (sep rune, dec byte, err error) {
+	sep, dec = m.Separator, m.Decimal
+	if sep == 0 {
+		sep = ','
+	}
+	if dec == 0 {
+		dec = '.'
+	}
+	if sep == ',' && dec == ',' {
+		return 0, 0, m.errAt(0, "decimal", ",", "cannot go with a comma separator")
+	}
+	return sep, dec, nil
+}
+
+// exportColumns is the header an export writes and the field of each of
+// its columns, in the map's order; constants and skipped columns are left
+// out.
+func (m *Map) exportColumns() (names, fields []string) {
+	for _, f := range m.Order {
+		if s := m.Fields[f]; s.Column != "" {
+			names, fields = append(names, s.Column), append(fields, f)
+		}
+	}
+	return names, fields
+}
+
+// exportValue is field f of one of pitcard's rows (get reads its columns)
+// as the map writes it: dates and times in the map's layout, quantities in
+// its unit, numbers with its decimal mark dec. A field pitcard does not know
+// (a crew column) is copied, a plain number given the map's decimal mark.
+// known holds the fields of the map's kind by name.
+func (m *Map) exportValue(f string, known map[string]field, get func(string) string, dec byte) string {
+	s := m.Fields[f]
+	fd, isKnown := known[f]
+	if !isKnown { // a crew column: a plain number takes the map's decimal mark
+		v := get(f)
+		if dec == ',' && pointNumber.MatchString(v) {
+			v = strings.Replace(v, ".", ",", 1)
+		}
+		return v
+	}
+	v := get(fd.column)
+	switch fd.typ {
+	case date, clock:
+		if s.Format != "" && v != "" {
+			t, err := parseCanonicalTime(get("date"), get("time"))
+			if err == nil {
+				v = t.Format(s.Format)
+			}
+		}
+	case text, seconds, percent, degrees, trapSpeed:
+	default:
+		if v != "" && s.Unit != "" {
+			v = inUnit(v, s.Unit, fd.typ)
+		}
+	}
+	if dec == ',' && fd.typ != text && fd.typ != date && fd.typ != clock {
+		v = strings.Replace(v, ".", ",", 1)
+	}
+	return v
 }
 
 func parseCanonicalTime(d, c string) (time.Time, error) {

@@ -147,15 +147,66 @@ func (e *Folder) AddPass(np NewPass, now time.Time) (LoggedPass, error) {
 		return out, err
 	}
 	trk, trkErr := e.Track()
-	date, clock := np.Date, np.Time
+	f, err := e.slipFields(np, now, trk, trkErr)
+	if err != nil {
+		return out, err
+	}
+	p, err := logbook.ParsePass(f, e.Zone())
+	if err != nil {
+		return out, err
+	}
+	if w := e.unknownTrack(p.Track, trk, trkErr); w != "" {
+		out.Warnings = append(out.Warnings, w)
+	}
+	// A slip is logged after its pass: a date past tomorrow is a typo
+	// (2500 for 2025), and would borrow another day's weather.
+	if limit := now.Add(36 * time.Hour); p.Time.After(limit) {
+		return out, &weather.InputError{Field: "--date", Value: np.Date,
+			Reason: fmt.Sprintf("is in the future (today is %s): a slip is logged after its pass", now.Format("2006-01-02"))}
+	}
+	elev, source, err := e.passConditions(&p, np, trk, &out)
+	if err != nil {
+		return out, err
+	}
+	oppPass, err := e.opponentSlip(p, np, &out)
+	if err != nil {
+		return out, err
+	}
+	setupCols, err := e.passSetup(&p, np.Set)
+	if err != nil {
+		return out, err
+	}
+	saved, err := e.SaveLogbook([]logbook.Pass{p}, setupCols...)
+	if err != nil {
+		return out, err
+	}
+	if oppPass != nil {
+		e.keepOpponent(*oppPass, &out)
+	}
+	if w := logbook.DialWarning(p); w != "" {
+		out.Warnings = append(out.Warnings, w)
+	}
+	if saved.Kept != nil {
+		out.Warnings = append(out.Warnings, saved.Kept.Error())
+	}
+	if !p.HasAir {
+		out.Warnings = append(out.Warnings, "no weather reading within an hour of the pass and no reading given: the pass is logged without its conditions, and the model cannot learn from its air")
+	}
+	out.Pass, out.Count, out.Source, out.Elevation = p, saved.Count, source, elev
+	return out, nil
+}
+
+// slipWhen is the slip's date and time as typed, a blank one filled from
+// now: a time without a date is on today's race day ("23:50" typed at
+// 00:24 is the evening's, not tonight's). It does not check them.
+func (e *Folder) slipWhen(np NewPass, now time.Time) (date, clock string, err error) {
+	date, clock = np.Date, np.Time
 	start := e.Settings.DayStart
 	switch {
 	case date == "" && clock != "":
-		// A time without a date is on today's race day: "23:50" typed at
-		// 00:24 is the evening's, not tonight's.
 		when, err := ParseWhen(clock, start.Day(now.In(e.Zone())), start)
 		if err != nil {
-			return out, err
+			return "", "", err
 		}
 		date = when.Format(weather.DateLayout)
 	case date == "":
@@ -164,10 +215,24 @@ func (e *Folder) AddPass(np NewPass, now time.Time) (LoggedPass, error) {
 	if clock == "" {
 		clock = now.In(e.Zone()).Format(weather.TimeLayout)
 	}
+	return date, clock, nil
+}
+
+// slipFields turns the flags of a slip into the logbook's fields, each
+// named by its flag in messages: a blank date, time, track or weight taken
+// from now, track.yaml and car.yaml, trap speeds in the logbook's mph. It
+// checks that --round and --lane are given, and leaves every other check to
+// logbook.ParsePass.
+func (e *Folder) slipFields(np NewPass, now time.Time, trk engine.Track, trkErr error) (logbook.SlipFields, error) {
+	var f logbook.SlipFields
+	date, clock, err := e.slipWhen(np, now)
+	if err != nil {
+		return f, err
+	}
 	track := np.Track
 	if track == "" {
 		if trkErr != nil {
-			return out, trkErr
+			return f, trkErr
 		}
 		track = trk.Name
 	}
@@ -186,13 +251,13 @@ func (e *Folder) AddPass(np NewPass, now time.Time) (LoggedPass, error) {
 	}
 	mph660, err := trap("--mph660", np.MPH660)
 	if err != nil {
-		return out, err
+		return f, err
 	}
 	mph1320, err := trap("--mph1320", np.MPH1320)
 	if err != nil {
-		return out, err
+		return f, err
 	}
-	f := logbook.SlipFields{Values: map[string]string{
+	f = logbook.SlipFields{Values: map[string]string{
 		"date": date, "time": clock, "track": track, "session": np.Session, "lane": np.Lane,
 		"dial": np.Dial, "rt": np.RT, "et60": np.ET60, "et330": np.ET330, "et660": np.ET660, "et1000": np.ET1000, "et1320": np.ET1,
 		"mph660": mph660, "mph1320": mph1320, "weight_lb": weight, "notes": np.Notes,
@@ -203,40 +268,36 @@ func (e *Folder) AddPass(np NewPass, now time.Time) (LoggedPass, error) {
 	}
 	f.Names["session"] = "--round" // the logbook's session column is the flag --round
 	if np.Session == "" || np.Lane == "" {
-		return out, userErrf("--round and --lane are required (e.g. --round E1 --lane left)")
+		return f, userErrf("--round and --lane are required (e.g. --round E1 --lane left)")
 	}
-	p, err := logbook.ParsePass(f, e.Zone())
-	if err != nil {
-		return out, err
-	}
-	if w := e.unknownTrack(p.Track, trk, trkErr); w != "" {
-		out.Warnings = append(out.Warnings, w)
-	}
-	// A slip is logged after its pass: a date past tomorrow is a typo
-	// (2500 for 2025), and would borrow another day's weather.
-	if limit := now.Add(36 * time.Hour); p.Time.After(limit) {
-		return out, &weather.InputError{Field: "--date", Value: np.Date,
-			Reason: fmt.Sprintf("is in the future (today is %s): a slip is logged after its pass", now.Format("2006-01-02"))}
-	}
-	// The conditions: the nearest weather reading, with any field given replacing its own.
+	return f, nil
+}
+
+// passConditions gives p its air: the nearest weather reading within an
+// hour (or the day's trend when it reaches the pass), with any field given
+// replacing its own, at the track's elevation or the one given. It returns
+// the elevation and where the air came from ("" when p has none); rows of
+// the weather log that do not read are a warning in out. It writes nothing.
+func (e *Folder) passConditions(p *logbook.Pass, np NewPass, trk engine.Track, out *LoggedPass) (weather.Length, string, error) {
 	elev := trk.Elevation()
+	var err error
 	if np.Reading.Elevation != "" {
 		if elev, err = np.Reading.SiteElevation(e.Settings.Units, 0, false); err != nil {
-			return out, err
+			return elev, "", err
 		}
 	}
 	var base *weather.Reading
 	source := ""
 	log, bad, err := e.ReadableWeather(elev)
 	if err != nil {
-		return out, err
+		return elev, "", err
 	}
 	if bad != nil { // the pass is logged all the same, its air from the rows that read
 		out.Warnings = append(out.Warnings, bad.Error())
 	}
 	if r, ok := nearestReading(log, p.Time, time.Hour); ok {
 		base, source = &r, "the weather log's "+r.Time.Format("15:04")+" reading"
-	} else if len(log) > 0 && start.Same(log[len(log)-1].Time, p.Time) {
+	} else if len(log) > 0 && e.Settings.DayStart.Same(log[len(log)-1].Time, p.Time) {
 		// No reading within the hour, but the day's trend reaches the pass.
 		if f, err := weather.ForecastAt(log, p.Time, elev); err == nil && f.Trusted {
 			base, source = &f.Reading, "the weather log's trend ("+strings.Join(f.Notes, "; ")+")"
@@ -245,10 +306,10 @@ func (e *Folder) AddPass(np NewPass, now time.Time) (LoggedPass, error) {
 	if base != nil || np.Reading.Given() {
 		r, err := np.Reading.ReadingAt(e.Settings.Units, p.Time, base)
 		if err != nil {
-			return out, err
+			return elev, "", err
 		}
 		if err := ValidateFields(r, elev, e.Settings.Units); err != nil {
-			return out, err
+			return elev, "", err
 		}
 		a := r.Derive(elev)
 		r.Baro, r.BaroKind, r.RH, r.DewPointSet, r.Time = a.Station, weather.StationPressure, a.RH, false, p.Time
@@ -259,58 +320,49 @@ func (e *Folder) AddPass(np NewPass, now time.Time) (LoggedPass, error) {
 			source += ", with the values given"
 		}
 	}
+	return elev, source, nil
+}
+
+// opponentSlip checks the other lane's slip: what decided the round (put
+// in out.Decided) and, when its car is named, the slip for the opponent
+// book, checked before anything is written so a bad one stops the pass too
+// (nil: none to keep). It writes nothing.
+func (e *Folder) opponentSlip(p logbook.Pass, np NewPass, out *LoggedPass) (*OpponentPass, error) {
+	var err error
 	if np.OppDial != "" || np.OppRT != "" || np.OppET != "" {
 		if out.Decided, err = DecidedBy(p, np.OppDial, np.OppRT, np.OppET, e.Settings); err != nil {
-			return out, err
+			return nil, err
 		}
 	}
-	// The other lane's slip for the opponent book, checked before anything
-	// is written so a bad one stops the pass too.
-	var oppPass *OpponentPass
 	switch {
 	case np.OppCar != "" && out.Decided == "":
-		return out, userErrf("--opponent %s: give the other lane's slip with it (--opponent-dial, --opponent-rt, --opponent-et) to keep it in %s", np.OppCar, OpponentsFile)
+		return nil, userErrf("--opponent %s: give the other lane's slip with it (--opponent-dial, --opponent-rt, --opponent-et) to keep it in %s", np.OppCar, OpponentsFile)
 	case np.OppCar != "":
 		op, err := NewOpponentPass(np.OppCar, p.Time.Format(weather.DateLayout), p.Session, np.OppDial, np.OppRT, np.OppET, "")
 		if err != nil {
-			return out, err
+			return nil, err
 		}
-		oppPass = &op
 		if err := e.opponentBookWritable(op); err != nil {
-			return out, err
+			return nil, err
 		}
+		return &op, nil
 	case out.Decided != "":
 		out.Warnings = append(out.Warnings, fmt.Sprintf("the other lane's slip is not kept: name its car with --opponent (its number) and %s remembers it for the next time you race it", OpponentsFile))
 	}
-	setupCols, err := e.passSetup(&p, np.Set)
-	if err != nil {
-		return out, err
+	return nil, nil
+}
+
+// keepOpponent adds the other lane's slip to the opponent book after the
+// pass is logged. Two files cannot change in one atomic step: the pass is
+// logged first (it is what the model learns from); a failure here is said
+// in out.OpponentErr, not returned, and the slip can be added again with
+// the next pass's or by hand.
+func (e *Folder) keepOpponent(op OpponentPass, out *LoggedPass) {
+	if _, _, err := e.AddOpponentPasses([]OpponentPass{op}, "this slip"); err != nil {
+		out.OpponentErr = fmt.Errorf("the pass is logged, but the other lane's slip was not kept in %s: %w", e.Name(OpponentsFile), err)
+	} else {
+		out.Opponent = &op
 	}
-	n, kept, err := e.SaveLogbook([]logbook.Pass{p}, setupCols...)
-	if err != nil {
-		return out, err
-	}
-	if oppPass != nil {
-		// Two files cannot change in one atomic step: the pass is logged
-		// first (it is what the model learns from); a failure here is said,
-		// and the slip can be added again with the next pass's or by hand.
-		if _, _, err := e.AddOpponentPasses([]OpponentPass{*oppPass}, "this slip"); err != nil {
-			out.OpponentErr = fmt.Errorf("the pass is logged, but the other lane's slip was not kept in %s: %w", e.Name(OpponentsFile), err)
-		} else {
-			out.Opponent = oppPass
-		}
-	}
-	if w := logbook.DialWarning(p); w != "" {
-		out.Warnings = append(out.Warnings, w)
-	}
-	if kept != nil {
-		out.Warnings = append(out.Warnings, kept.Error())
-	}
-	if !p.HasAir {
-		out.Warnings = append(out.Warnings, "no weather reading within an hour of the pass and no reading given: the pass is logged without its conditions, and the model cannot learn from its air")
-	}
-	out.Pass, out.Count, out.Source, out.Elevation = p, n, source, elev
-	return out, nil
 }
 
 // passSetup puts the pass's setup in its columns: the items of set

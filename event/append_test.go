@@ -54,7 +54,8 @@ func TestSaveLogbookAppends(t *testing.T) {
 	day := time.Date(2026, 3, 1, 12, 0, 0, 0, time.UTC)
 	mustSave := func(p logbook.Pass, wantN int) {
 		t.Helper()
-		n, kept, err := e.SaveLogbook([]logbook.Pass{p})
+		saved, err := e.SaveLogbook([]logbook.Pass{p})
+		n, kept := saved.Count, saved.Kept
 		if err != nil || kept != nil || n != wantN {
 			t.Fatalf("SaveLogbook: n %d kept %v err %v, want n %d", n, kept, err, wantN)
 		}
@@ -72,7 +73,7 @@ func TestSaveLogbookAppends(t *testing.T) {
 	}
 	// the same pass again: refused with the file's line, nothing written
 	before, _ := os.ReadFile(path)
-	_, _, err := e.SaveLogbook([]logbook.Pass{slipAt(day.Add(time.Hour), logbook.Right)})
+	_, err := e.SaveLogbook([]logbook.Pass{slipAt(day.Add(time.Hour), logbook.Right)})
 	if err == nil || !strings.Contains(err.Error(), "at line 33") || !strings.Contains(err.Error(), "entered twice") {
 		t.Fatalf("a duplicate appended: %v", err)
 	}
@@ -118,7 +119,7 @@ func TestTornLastLine(t *testing.T) {
 	if len(passes) != 5 || !errors.As(err, &lo) || !strings.Contains(err.Error(), "line 7") || !strings.Contains(err.Error(), "no line end") {
 		t.Fatalf("torn line: %d passes, %v", len(passes), err)
 	}
-	if _, _, err := e.SaveLogbook([]logbook.Pass{slipAt(time.Date(2026, 3, 1, 9, 0, 0, 0, time.UTC), logbook.Left)}); err != nil {
+	if _, err := e.SaveLogbook([]logbook.Pass{slipAt(time.Date(2026, 3, 1, 9, 0, 0, 0, time.UTC), logbook.Left)}); err != nil {
 		t.Fatal(err)
 	}
 	after, _ := os.ReadFile(path)
@@ -148,7 +149,7 @@ func TestAppendSurvivesAKill(t *testing.T) {
 	for _, tc := range cases {
 		t.Run(tc.at, func(t *testing.T) {
 			e, path := appendFolder(t, 20)
-			if _, _, err := e.SaveLogbook([]logbook.Pass{slipAt(time.Date(2026, 3, 1, 9, 0, 0, 0, time.UTC), logbook.Left)}); err != nil {
+			if _, err := e.SaveLogbook([]logbook.Pass{slipAt(time.Date(2026, 3, 1, 9, 0, 0, 0, time.UTC), logbook.Left)}); err != nil {
 				t.Fatal(err) // the rewrite that sets the count
 			}
 			child := exec.Command(os.Args[0], "-test.run=^TestAppendCrashChild$")
@@ -192,7 +193,7 @@ func TestAppendSurvivesAKill(t *testing.T) {
 				t.Fatalf("killed at %s: the read said %v", tc.at, err)
 			}
 			// the next slip is whole, on a line of its own
-			if _, _, err := e.SaveLogbook([]logbook.Pass{slipAt(time.Date(2026, 3, 3, 9, 0, 0, 0, time.UTC), logbook.Left)}); err != nil {
+			if _, err := e.SaveLogbook([]logbook.Pass{slipAt(time.Date(2026, 3, 3, 9, 0, 0, 0, time.UTC), logbook.Left)}); err != nil {
 				t.Fatal(err)
 			}
 			data, _ := os.ReadFile(path)
@@ -219,7 +220,7 @@ func TestAppendCrashChild(t *testing.T) {
 		}
 	}
 	e := &Folder{Dir: dir, FS: os.DirFS(dir), Loc: time.UTC}
-	_, _, err := e.SaveLogbook([]logbook.Pass{slipAt(time.Date(2026, 3, 2, 9, 0, 0, 0, time.UTC), logbook.Right)})
+	_, err := e.SaveLogbook([]logbook.Pass{slipAt(time.Date(2026, 3, 2, 9, 0, 0, 0, time.UTC), logbook.Right)})
 	t.Fatalf("the append was not stopped at %s: %v", at, err)
 }
 

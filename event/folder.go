@@ -476,37 +476,47 @@ func SortReadings(log []weather.Reading) {
 	}
 }
 
+// Saved is what SaveLogbook did.
+type Saved struct {
+	// Count is how many passes the logbook holds after the save.
+	Count int
+	// Kept names the rows of the logbook pitcard cannot read, written back
+	// as they were, to be said (nil: none).
+	Kept error
+}
+
 // SaveLogbook merges passes into the folder's logbook under its lock: all or
 // nothing, duplicates refused. Rows of the logbook pitcard cannot read are
-// written back as they were (and returned as kept, to be said); the crew's
+// written back as they were (and returned in Saved.Kept, to be said); the crew's
 // own columns, the logbook's and those of extra, keep their values.
 //
 // One pass later than every logged pass, whose columns the file has, is
 // appended (appendPass: constant time in the logbook's size); anything else
 // reads and rewrites the whole file, keeping the old one as .bak.
-func (e *Folder) SaveLogbook(add []logbook.Pass, extra ...string) (n int, kept error, err error) {
+func (e *Folder) SaveLogbook(add []logbook.Pass, extra ...string) (Saved, error) {
+	var kept error
 	path := e.Path(LogbookFile)
 	unlock, err := safefile.Lock(path)
 	if err != nil {
-		return 0, nil, err
+		return Saved{}, err
 	}
 	defer unlock()
 	if len(add) == 1 && !e.Demo {
 		if target, rerr := safefile.Resolve(path); rerr == nil {
 			n, done, err := e.appendPass(target, e.Name(LogbookFile), add[0], extra)
 			if done {
-				return n, nil, err
+				return Saved{Count: n}, err
 			}
 		}
 	}
 	lb, name, err := e.readLogbookHeld(0, true)
 	if err != nil {
-		return 0, nil, err
+		return Saved{}, err
 	}
 	if len(lb.Bad) > 0 {
 		kept = &LeftOutRows{file: name, bak: e.BackupOf(name), rows: lb.Bad, read: len(lb.Passes)}
 		if !lb.Kept() {
-			return 0, nil, userErrf("%v\nNothing was written: a row that is not even valid CSV (an unmatched quote) could not be kept through a rewrite; fix it first", kept)
+			return Saved{}, userErrf("%v\nNothing was written: a row that is not even valid CSV (an unmatched quote) could not be kept through a rewrite; fix it first", kept)
 		}
 	}
 	seen := map[string]logbook.Pass{}
@@ -520,7 +530,7 @@ func (e *Folder) SaveLogbook(add []logbook.Pass, extra ...string) (n int, kept e
 		}
 	}
 	if len(dups) > 0 {
-		return 0, nil, dups
+		return Saved{}, dups
 	}
 	lb.Passes = append(lb.Passes, add...)
 	logbook.SortPasses(lb.Passes)
@@ -530,12 +540,12 @@ func (e *Folder) SaveLogbook(add []logbook.Pass, extra ...string) (n int, kept e
 		}
 	}
 	if err := safefile.Write(path, lb.Write); err != nil {
-		return 0, nil, err
+		return Saved{}, err
 	}
 	if target, err := safefile.Resolve(path); err == nil {
 		writeCount(target, len(lb.Passes), len(lb.Bad))
 	}
-	return len(lb.Passes), kept, nil
+	return Saved{Count: len(lb.Passes), Kept: kept}, nil
 }
 
 // DuplicateOf says that p is already in the logbook file named file as o.

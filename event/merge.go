@@ -287,38 +287,45 @@ func MergeReadings(ours, other []weather.Reading) ReadingMerge {
 	return m
 }
 
+// Imported is what ImportReadings did.
+type Imported struct {
+	Added   int // readings added to the weather log
+	Skipped int // readings the log had already, left out (--skip-existing)
+	Total   int // readings the log holds after the import
+}
+
 // ImportReadings adds readings to the weather log under its lock, all or
 // nothing: a reading in a minute the log has is refused (with skipExisting,
 // skipped when equal and a conflict when not). It returns how many were
 // added and skipped, and how many the log holds.
-func (e *Folder) ImportReadings(add []weather.Reading, from string, elev weather.Length, skipExisting bool) (added, skipped, total int, err error) {
+func (e *Folder) ImportReadings(add []weather.Reading, from string, elev weather.Length, skipExisting bool) (Imported, error) {
 	if err := e.Writable(); err != nil {
-		return 0, 0, 0, err
+		return Imported{}, err
 	}
 	path := e.Path(WeatherFile)
 	unlock, err := safefile.Lock(path)
 	if err != nil {
-		return 0, 0, 0, err
+		return Imported{}, err
 	}
 	defer unlock()
 	log, err := e.WeatherLog(elev)
 	if err != nil {
-		return 0, 0, 0, err
+		return Imported{}, err
 	}
 	m := MergeReadings(log, add)
 	if len(m.Conflicts) > 0 {
-		return 0, 0, 0, &Conflicts{List: m.Conflicts, Ours: e.Name(WeatherFile), TheirsIn: from}
+		return Imported{}, &Conflicts{List: m.Conflicts, Ours: e.Name(WeatherFile), TheirsIn: from}
 	}
 	if m.Same > 0 && !skipExisting {
-		return 0, 0, 0, userErrf("%s has %s already in %s (the same minute): give --skip-existing to leave them out; nothing was written",
+		return Imported{}, userErrf("%s has %s already in %s (the same minute): give --skip-existing to leave them out; nothing was written",
 			from, text.Plural(m.Same, "reading"), e.Name(WeatherFile))
 	}
 	log = append(log, m.New...)
 	SortReadings(log)
 	if err := safefile.Write(path, func(w io.Writer) error { return weather.WriteLog(w, log) }); err != nil {
-		return 0, 0, 0, err
+		return Imported{}, err
 	}
-	return len(m.New), m.Same, len(log), nil
+	return Imported{Added: len(m.New), Skipped: m.Same, Total: len(log)}, nil
 }
 
 // differs lists the columns where two rows differ, with both values.

@@ -171,22 +171,9 @@ func ReadRecent(r io.Reader, name string, loc *time.Location, keep int) (*Logboo
 // choices (kept as the logbook writes it: "15.5 psi" as 15.5, a choice as
 // car.yaml spells it); a bad cell sets its row aside as any bad row is.
 func ReadSetup(r io.Reader, name string, loc *time.Location, keep int, setup Setup) (*Logbook, error) {
-	lines := -1 // the file's lines when known: room for its passes at once
-	if st, ok := r.(interface{ Stat() (fs.FileInfo, error) }); ok {
-		// A file on disk is read whole, in one buffer of its size (a
-		// passing cost: ~140 bytes a pass), to count its lines, so the
-		// passes' slice is made once, at its size, and never copied.
-		if fi, err := st.Stat(); err == nil && fi.Mode().IsRegular() && fi.Size() < 1<<31 {
-			buf := make([]byte, fi.Size())
-			n, err := io.ReadFull(r, buf)
-			if err != nil && !errors.Is(err, io.ErrUnexpectedEOF) {
-				return nil, fmt.Errorf("%s: %w", name, err)
-			}
-			lines = bytes.Count(buf[:n], []byte{'\n'}) + 1
-			r = bytes.NewReader(buf[:n])
-		}
-	} else if lr, ok := r.(interface{ Len() int }); ok {
-		lines = lr.Len()/minRowBytes + 1
+	r, lines, err := sizeInput(r, name)
+	if err != nil {
+		return nil, err
 	}
 	end := &endReader{r: r}
 	cr, header, err := weather.OpenCSV(end, name)
@@ -201,143 +188,218 @@ func ReadSetup(r io.Reader, name string, loc *time.Location, keep int, setup Set
 	if err != nil {
 		return nil, err
 	}
-	lb.Header = make([]string, len(header))
-	for i, h := range header {
-		lb.Header[i] = strings.TrimSpace(strings.TrimPrefix(h, "\ufeff"))
-	}
-	var typed []setupColumn
-	for _, x := range extra {
-		lb.Extra = append(lb.Extra, x.Name)
-		if it, ok := setup.Item(x.Name); ok {
-			typed = append(typed, setupColumn{it, x.Index})
-		}
-	}
-	lastBad := -1 // the last row read, when it was bad: its place in Bad
-	bad := func(ie *weather.InputError, raw []string) {
-		lastBad = len(lb.Bad)
-		lb.Bad = append(lb.Bad, ie)
-		lb.BadRows = append(lb.BadRows, raw)
-	}
-	// the same pass entered twice: its minute, track and lane
-	type passKey struct {
-		minute      int64
-		track, lane string
-	}
-	seen := map[passKey]int{}
-	lower := map[string]string{}
-	rows := newRowReader(col)
-	if lines >= 0 && keep == 0 {
-		// Room for the file's rows at once, not a copy of every pass on
-		// each doubling.
-		lb.Passes = make([]Pass, 0, lines)
-	}
-	if keep > 0 {
-		// Room for the window and as many again before it is trimmed, but
-		// never more than the file has rows (a 65-pass logbook takes 65,
-		// not 2×keep: the card used to zero 4.6 MB for nothing).
-		n := 2 * keep
-		if lines >= 0 && lines < n {
-			n = lines
-		}
-		lb.Passes = make([]Pass, 0, n)
-	}
-	trim := func(keep int) { // keep the latest keep, in place
-		if keep > 0 && len(lb.Passes) > keep {
-			SortPasses(lb.Passes)
-			n := copy(lb.Passes, lb.Passes[len(lb.Passes)-keep:])
-			clear(lb.Passes[n:])
-			lb.Passes = lb.Passes[:n]
-		}
-	}
+	rd := newSetupRead(lb, name, header, extra, setup, keep)
+	rd.rows = newRowReader(col)
+	rd.reserve(lines)
 	cr.ReuseRecord = true
-	var last []string // the last row read (for a torn last line), nil if not a pass
-	lastLine := 0
 	for {
 		rec, err := cr.Read()
 		if errors.Is(err, io.EOF) {
 			break
 		}
-		last, lastBad = nil, -1
+		rd.last, rd.lastBad = nil, -1
 		if err != nil {
 			var ie *weather.InputError
 			if err = weather.CSVError(name, err); !errors.As(err, &ie) {
 				return nil, err
 			}
-			bad(ie, nil)
+			rd.bad(ie, nil)
 			continue
 		}
 		line, _ := cr.FieldPos(0)
-		if ie := weather.RepeatedHeader(rec, header, name, line); ie != nil {
-			bad(ie, append([]string(nil), rec...))
-			continue
-		}
-		if len(rec) != len(header) {
-			bad(&weather.InputError{File: name, Line: line, Field: "row",
-				Reason: fmt.Sprintf("has %d fields, the header has %d (a row cut short, or a comma too many)", len(rec), len(header))}, append([]string(nil), rec...))
-			continue
-		}
-		p, err := rows.pass(rec, loc)
-		if err != nil {
-			var ie *weather.InputError
-			if !errors.As(err, &ie) {
-				return nil, err
-			}
-			bad(ie.At(name, line), append([]string(nil), rec...))
-			continue
-		}
-		p.Line = line
-		trk, ok := lower[p.Track]
-		if !ok {
-			trk = strings.ToLower(p.Track)
-			lower[p.Track] = trk
-		}
-		key := passKey{p.Time.Unix() / 60, trk, string(p.Lane)}
-		if first, dup := seen[key]; dup {
-			bad(&weather.InputError{File: name, Line: line, Field: "row",
-				Reason: fmt.Sprintf("is the same pass as line %d (%s, %s lane): entered twice", first, p.Time.Format("2006-01-02 15:04"), p.Lane)}, append([]string(nil), rec...))
-			continue
-		}
-		if len(typed) > 0 {
-			raw := append([]string(nil), rec...)
-			if ie := checkSetup(typed, rec); ie != nil {
-				bad(ie.At(name, line), raw)
-				continue
-			}
-		}
-		seen[key] = line
-		if len(extra) > 0 {
-			p.Extra = map[string]string{}
-			for _, x := range extra {
-				p.Extra[x.Name] = csvtext.Text(rec[x.Index])
-			}
-		}
-		lb.Passes = append(lb.Passes, p)
-		last, lastLine = rec, line
-		if keep > 0 && len(lb.Passes) >= 2*keep {
-			trim(keep + 1) // one more: the last row may yet be found torn
+		if err := rd.row(rec, line, loc); err != nil {
+			return nil, err
 		}
 	}
-	torn := end.n > 0 && end.last != '\n' && end.last != '\r'
-	if torn && lastBad >= 0 { // cut short: say why
-		lb.Bad[lastBad].Reason = TornReason
+	rd.setTornAside(end.n > 0 && end.last != '\n' && end.last != '\r')
+	SortPasses(lb.Passes)
+	rd.trim(keep)
+	return lb, nil
+}
+
+// sizeInput counts the lines of r when it can be told cheaply, so the
+// passes' slice is made once: a file on disk is read whole, in one buffer of
+// its size (a passing cost: ~140 bytes a pass), and counted, and a reader
+// with a length gives an upper bound. It returns the reader to read from
+// (the buffer, for a file) and the lines, -1 when unknown. It does not parse
+// anything.
+func sizeInput(r io.Reader, name string) (io.Reader, int, error) {
+	lines := -1 // the file's lines when known: room for its passes at once
+	if st, ok := r.(interface{ Stat() (fs.FileInfo, error) }); ok {
+		if fi, err := st.Stat(); err == nil && fi.Mode().IsRegular() && fi.Size() < 1<<31 {
+			buf := make([]byte, fi.Size())
+			n, err := io.ReadFull(r, buf)
+			if err != nil && !errors.Is(err, io.ErrUnexpectedEOF) {
+				return nil, 0, fmt.Errorf("%s: %w", name, err)
+			}
+			lines = bytes.Count(buf[:n], []byte{'\n'}) + 1
+			r = bytes.NewReader(buf[:n])
+		}
+	} else if lr, ok := r.(interface{ Len() int }); ok {
+		lines = lr.Len()/minRowBytes + 1
 	}
-	if torn && last != nil {
-		// A last line without its line end is a row a crash cut short (an
-		// append torn by kill -9 or a power cut): its last field may be
-		// cut too, so it is set aside, not read as a pass. The rows an
-		// append adds always end with one.
+	return r, lines, nil
+}
+
+// passKey is the same pass entered twice: its minute, track and lane.
+type passKey struct {
+	minute      int64
+	track, lane string
+}
+
+// setupRead is the state of one ReadSetup: the logbook being filled, the
+// passes seen (to catch a pass entered twice) and the last row read (to set
+// a torn last line aside).
+type setupRead struct {
+	lb       *Logbook
+	name     string
+	header   []string
+	extra    []weather.Column
+	typed    []setupColumn
+	rows     *rowReader
+	keep     int
+	seen     map[passKey]int
+	lower    map[string]string // a track's name in lower case
+	lastBad  int               // the last row read, when it was bad: its place in Bad
+	last     []string          // the last row read (for a torn last line), nil if not a pass
+	lastLine int
+}
+
+// newSetupRead fills lb's Header and Extra from the file's header and types
+// the extra columns that name one of setup's items. It reads no rows.
+func newSetupRead(lb *Logbook, name string, header []string, extra []weather.Column, setup Setup, keep int) *setupRead {
+	lb.Header = make([]string, len(header))
+	for i, h := range header {
+		lb.Header[i] = strings.TrimSpace(strings.TrimPrefix(h, "\ufeff"))
+	}
+	rd := &setupRead{lb: lb, name: name, header: header, extra: extra, keep: keep,
+		seen: map[passKey]int{}, lower: map[string]string{}, lastBad: -1}
+	for _, x := range extra {
+		lb.Extra = append(lb.Extra, x.Name)
+		if it, ok := setup.Item(x.Name); ok {
+			rd.typed = append(rd.typed, setupColumn{it, x.Index})
+		}
+	}
+	return rd
+}
+
+// reserve makes room for the passes: for the file's rows at once when all
+// are kept (not a copy of every pass on each doubling), or for the window and
+// as many again before it is trimmed, but never more than the file has rows
+// (a 65-pass logbook takes 65, not 2×keep: the card used to zero 4.6 MB for
+// nothing). lines is -1 when unknown.
+func (rd *setupRead) reserve(lines int) {
+	if lines >= 0 && rd.keep == 0 {
+		rd.lb.Passes = make([]Pass, 0, lines)
+	}
+	if rd.keep > 0 {
+		n := 2 * rd.keep
+		if lines >= 0 && lines < n {
+			n = lines
+		}
+		rd.lb.Passes = make([]Pass, 0, n)
+	}
+}
+
+// bad sets a row aside with why; raw is the row, nil when it could not be
+// split into fields.
+func (rd *setupRead) bad(ie *weather.InputError, raw []string) {
+	rd.lastBad = len(rd.lb.Bad)
+	rd.lb.Bad = append(rd.lb.Bad, ie)
+	rd.lb.BadRows = append(rd.lb.BadRows, raw)
+}
+
+// trim keeps the latest keep passes, in place (0: all).
+func (rd *setupRead) trim(keep int) {
+	lb := rd.lb
+	if keep > 0 && len(lb.Passes) > keep {
+		SortPasses(lb.Passes)
+		n := copy(lb.Passes, lb.Passes[len(lb.Passes)-keep:])
+		clear(lb.Passes[n:])
+		lb.Passes = lb.Passes[:n]
+	}
+}
+
+// row checks one record at line and adds it as a pass, or sets it aside
+// in Bad: a repeated header, a wrong field count, a bad cell, a pass entered
+// twice or a bad setup cell. Only an error that is not about the row (a
+// failing reader) is returned.
+func (rd *setupRead) row(rec []string, line int, loc *time.Location) error {
+	name, lb := rd.name, rd.lb
+	if ie := weather.RepeatedHeader(rec, rd.header, name, line); ie != nil {
+		rd.bad(ie, append([]string(nil), rec...))
+		return nil
+	}
+	if len(rec) != len(rd.header) {
+		rd.bad(&weather.InputError{File: name, Line: line, Field: "row",
+			Reason: fmt.Sprintf("has %d fields, the header has %d (a row cut short, or a comma too many)", len(rec), len(rd.header))}, append([]string(nil), rec...))
+		return nil
+	}
+	p, err := rd.rows.pass(rec, loc)
+	if err != nil {
+		var ie *weather.InputError
+		if !errors.As(err, &ie) {
+			return err
+		}
+		rd.bad(ie.At(name, line), append([]string(nil), rec...))
+		return nil
+	}
+	p.Line = line
+	trk, ok := rd.lower[p.Track]
+	if !ok {
+		trk = strings.ToLower(p.Track)
+		rd.lower[p.Track] = trk
+	}
+	key := passKey{p.Time.Unix() / 60, trk, string(p.Lane)}
+	if first, dup := rd.seen[key]; dup {
+		rd.bad(&weather.InputError{File: name, Line: line, Field: "row",
+			Reason: fmt.Sprintf("is the same pass as line %d (%s, %s lane): entered twice", first, p.Time.Format("2006-01-02 15:04"), p.Lane)}, append([]string(nil), rec...))
+		return nil
+	}
+	if len(rd.typed) > 0 {
+		raw := append([]string(nil), rec...)
+		if ie := checkSetup(rd.typed, rec); ie != nil {
+			rd.bad(ie.At(name, line), raw)
+			return nil
+		}
+	}
+	rd.seen[key] = line
+	if len(rd.extra) > 0 {
+		p.Extra = map[string]string{}
+		for _, x := range rd.extra {
+			p.Extra[x.Name] = csvtext.Text(rec[x.Index])
+		}
+	}
+	lb.Passes = append(lb.Passes, p)
+	rd.last, rd.lastLine = rec, line
+	if rd.keep > 0 && len(lb.Passes) >= 2*rd.keep {
+		rd.trim(rd.keep + 1) // one more: the last row may yet be found torn
+	}
+	return nil
+}
+
+// setTornAside handles a file whose last line has no line end (torn): a
+// last row set aside already gets TornReason as its reason, and a last row
+// read as a pass is taken out of Passes and set aside. A last line without
+// its line end is a row a crash cut short (an append torn by kill -9 or a
+// power cut): its last field may be cut too, so it is not read as a pass.
+// The rows an append adds always end with one. It does nothing when not
+// torn.
+func (rd *setupRead) setTornAside(torn bool) {
+	lb := rd.lb
+	if torn && rd.lastBad >= 0 { // cut short: say why
+		lb.Bad[rd.lastBad].Reason = TornReason
+	}
+	if torn && rd.last != nil {
 		for i := len(lb.Passes) - 1; i >= 0; i-- {
-			if lb.Passes[i].Line == lastLine {
+			if lb.Passes[i].Line == rd.lastLine {
 				lb.Passes = slices.Delete(lb.Passes, i, i+1)
 				break
 			}
 		}
-		bad(&weather.InputError{File: name, Line: lastLine, Field: "row",
-			Reason: TornReason}, append([]string(nil), last...))
+		rd.bad(&weather.InputError{File: rd.name, Line: rd.lastLine, Field: "row",
+			Reason: TornReason}, append([]string(nil), rd.last...))
 	}
-	SortPasses(lb.Passes)
-	trim(keep)
-	return lb, nil
 }
 
 // TornReason is why a last line without its line end is set aside.
@@ -588,118 +650,158 @@ func (r *rowReader) pass(rec []string, loc *time.Location) (Pass, error) {
 // ParsePass builds a pass from its fields and validates it.
 func ParsePass(f SlipFields, loc *time.Location) (Pass, error) {
 	var p Pass
-	get := func(c string) string { return f.Values[c] }
-	name := func(c string) string {
-		if n := f.Names[c]; n != "" {
-			return n
-		}
-		return c
+	if err := f.parseWhen(&p, loc); err != nil {
+		return p, err
 	}
-	named := func(err error, c string) error {
+	if err := f.parseTimes(&p); err != nil {
+		return p, err
+	}
+	if err := f.parseTraps(&p); err != nil {
+		return p, err
+	}
+	if err := parseConditions(&p, f, f.named); err != nil {
+		return p, err
+	}
+	if v := f.value("weight_lb"); v != "" {
+		bare := weather.UnitLb
+		if f.Metric["weight_lb"] {
+			bare = weather.UnitKg
+		}
+		w, err := ParseWeightLb(f.name("weight_lb"), v, bare)
+		if err != nil {
+			return p, err
+		}
+		p.WeightLb = w
+	}
+	p.Notes = f.value("notes")
+	var err error
+	if p.Change, err = ParseChange(f.name("change"), f.value("change")); err != nil {
+		return p, err
+	}
+	return p, nil
+}
+
+// value is column c's text, "" when absent.
+func (f SlipFields) value(c string) string { return f.Values[c] }
+
+// name is how column c is called in messages: its name in the file, or c.
+func (f SlipFields) name(c string) string {
+	if n := f.Names[c]; n != "" {
+		return n
+	}
+	return c
+}
+
+// named gives an input error about column c the column's name in messages;
+// any other error is returned as it is.
+func (f SlipFields) named(err error, c string) error {
+	var ie *weather.InputError
+	if errors.As(err, &ie) {
+		return ie.Named(f.name(c))
+	}
+	return err
+}
+
+// optSeconds reads column c as a time in seconds within lo..hi; a blank
+// cell is no value, not an error.
+func (f SlipFields) optSeconds(c string, lo, hi float64) (decimal.NullDecimal, error) {
+	v := f.value(c)
+	if v == "" {
+		return decimal.NullDecimal{}, nil
+	}
+	d, err := ParseSlipTime(f.name(c), v, [2]float64{lo, hi})
+	if err != nil {
+		return decimal.NullDecimal{}, err
+	}
+	return decimal.NewNullDecimal(d), nil
+}
+
+// parseWhen reads where and when the pass was run: its date and time,
+// track, session and lane. It checks no time slip figure.
+func (f SlipFields) parseWhen(p *Pass, loc *time.Location) error {
+	var err error
+	if p.Time, err = weather.ParseDateTime(f.value("date"), f.value("time"), loc); err != nil {
 		var ie *weather.InputError
 		if errors.As(err, &ie) {
-			return ie.Named(name(c))
+			return ie.Named(f.name(ie.Field))
 		}
 		return err
 	}
+	if p.Track = TrackName(f.value("track")); p.Track == "" {
+		return &weather.InputError{Field: "track", Reason: "is blank (the track's name as in its track.yaml)"}
+	}
+	if p.Session, err = ParseSession(f.value("session")); err != nil {
+		return f.named(err, "session")
+	}
+	if p.Lane, err = ParseLane(f.value("lane")); err != nil {
+		return f.named(err, "lane")
+	}
+	return nil
+}
+
+// parseTimes reads the slip's times: dial, reaction time and the elapsed
+// time at each timer, which must increase with distance, at least one
+// given. It does not read the trap speeds.
+func (f SlipFields) parseTimes(p *Pass) error {
 	var err error
-	if p.Time, err = weather.ParseDateTime(get("date"), get("time"), loc); err != nil {
-		var ie *weather.InputError
-		if errors.As(err, &ie) {
-			return p, ie.Named(name(ie.Field))
-		}
-		return p, err
+	if p.Dial, err = f.optSeconds("dial", DialRange[0], DialRange[1]); err != nil {
+		return err
 	}
-	if p.Track = TrackName(get("track")); p.Track == "" {
-		return p, &weather.InputError{Field: "track", Reason: "is blank (the track's name as in its track.yaml)"}
-	}
-	if p.Session, err = ParseSession(get("session")); err != nil {
-		return p, named(err, "session")
-	}
-	if p.Lane, err = ParseLane(get("lane")); err != nil {
-		return p, named(err, "lane")
-	}
-	optSeconds := func(c string, lo, hi float64) (decimal.NullDecimal, error) {
-		v := get(c)
-		if v == "" {
-			return decimal.NullDecimal{}, nil
-		}
-		d, err := ParseSlipTime(name(c), v, [2]float64{lo, hi})
-		if err != nil {
-			return decimal.NullDecimal{}, err
-		}
-		return decimal.NewNullDecimal(d), nil
-	}
-	if p.Dial, err = optSeconds("dial", DialRange[0], DialRange[1]); err != nil {
-		return p, err
-	}
-	if p.RT, err = optSeconds("rt", RTRange[0], RTRange[1]); err != nil {
-		return p, err
+	if p.RT, err = f.optSeconds("rt", RTRange[0], RTRange[1]); err != nil {
+		return err
 	}
 	var last decimal.NullDecimal
 	lastName, any := "", false
 	for i := range Timers {
 		c := timerColumns[i]
-		if p.ET[i], err = optSeconds(c, ETRanges[i][0], ETRanges[i][1]); err != nil {
-			return p, err
+		if p.ET[i], err = f.optSeconds(c, ETRanges[i][0], ETRanges[i][1]); err != nil {
+			return err
 		}
 		if p.ET[i].Valid {
 			any = true
 			if last.Valid && !p.ET[i].Decimal.GreaterThan(last.Decimal) {
-				return p, &weather.InputError{Field: name(c), Value: get(c),
+				return &weather.InputError{Field: f.name(c), Value: f.value(c),
 					Reason: fmt.Sprintf("is not after %s %s: elapsed times must increase with distance", lastName, last.Decimal)}
 			}
-			last, lastName = p.ET[i], name(c)
+			last, lastName = p.ET[i], f.name(c)
 		}
 	}
 	if !any {
-		return p, &weather.InputError{Field: "et1320", Reason: "is blank, and so is every other timer (a pass needs at least one elapsed time)"}
+		return &weather.InputError{Field: "et1320", Reason: "is blank, and so is every other timer (a pass needs at least one elapsed time)"}
 	}
+	return nil
+}
+
+// parseTraps reads the trap speeds at 660 and 1320 ft, each in its range
+// and plausible with the elapsed time to its trap (p's times read first).
+func (f SlipFields) parseTraps(p *Pass) error {
 	for _, trap := range []struct {
 		c   string
 		ft  float64
 		dst *decimal.NullDecimal
 	}{{"mph660", 660, &p.MPH660}, {"mph1320", 1320, &p.MPH1320}} {
-		v := get(trap.c)
+		v := f.value(trap.c)
 		if v == "" {
 			continue
 		}
-		d, err := ParseSeconds(name(trap.c), v) // a plain decimal, like a time
+		d, err := ParseSeconds(f.name(trap.c), v) // a plain decimal, like a time
 		if err != nil {
-			return p, &weather.InputError{Field: name(trap.c), Value: v, Reason: "is not a speed in mph (e.g. 123.45)"}
+			return &weather.InputError{Field: f.name(trap.c), Value: v, Reason: "is not a speed in mph (e.g. 123.45)"}
 		}
-		if err := rangeCheck(name(trap.c), d, MPHRange[0], MPHRange[1], "mph"); err != nil {
-			return p, err
+		if err := rangeCheck(f.name(trap.c), d, MPHRange[0], MPHRange[1], "mph"); err != nil {
+			return err
 		}
 		if et, ok := p.ETAt(trap.ft); ok {
 			avg := trap.ft / et / weather.MpsPerMph * weather.MetrePerFt // mph
 			if ratio := d.InexactFloat64() / avg; ratio < TrapRatioRange[0] || ratio > TrapRatioRange[1] {
-				return p, &weather.InputError{Field: name(trap.c), Value: v,
+				return &weather.InputError{Field: f.name(trap.c), Value: v,
 					Reason: fmt.Sprintf("is not plausible with et%.0f %s: the average speed to %.0f ft is %.1f mph, and a trap speed is %.2f..%.1f times that",
 						trap.ft, FormatSeconds(p.ET[TimerIndex(trap.ft)].Decimal, 3), trap.ft, avg, TrapRatioRange[0], TrapRatioRange[1])}
 			}
 		}
 		*trap.dst = decimal.NewNullDecimal(d)
 	}
-	if err := parseConditions(&p, f, named); err != nil {
-		return p, err
-	}
-	if v := get("weight_lb"); v != "" {
-		bare := weather.UnitLb
-		if f.Metric["weight_lb"] {
-			bare = weather.UnitKg
-		}
-		w, err := ParseWeightLb(name("weight_lb"), v, bare)
-		if err != nil {
-			return p, err
-		}
-		p.WeightLb = w
-	}
-	p.Notes = get("notes")
-	if p.Change, err = ParseChange(name("change"), get("change")); err != nil {
-		return p, err
-	}
-	return p, nil
+	return nil
 }
 
 // parseConditions reads the weather columns: all of temp, baro and humidity,

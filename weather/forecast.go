@@ -80,16 +80,31 @@ func ForecastAt(log []Reading, at time.Time, elev Length) (Forecast, error) {
 	win := log[start:]
 	f.Used, f.Span = len(win), last.Time.Sub(win[0].Time)
 	if f.Used < MinTrendReadings || f.Span < MinTrendSpan {
-		f.Reading = last
-		f.Reading.Time = at
-		f.Air = f.Reading.Derive(elev)
-		f.Used = 1
-		f.Notes = append(f.Notes, fmt.Sprintf("too short to trend: %d reading%s over %s in the last %s; "+
-			"the %s reading is carried forward unchanged (a trend needs %d readings over %s)",
-			len(win), map[bool]string{true: "", false: "s"}[len(win) == 1], roundMin(f.Span), roundMin(TrendWindow), last.Time.Format("15:04"), MinTrendReadings, roundMin(MinTrendSpan)))
-		return f, nil
+		return carryForward(f, len(win), last, elev), nil
 	}
+	return trendAhead(f, win, elev), nil
+}
 
+// carryForward is the forecast from a window of n readings too few or too
+// short to trend: the last reading carried forward unchanged to f.At, and
+// untrusted, with a note saying why.
+func carryForward(f Forecast, n int, last Reading, elev Length) Forecast {
+	f.Reading = last
+	f.Reading.Time = f.At
+	f.Air = f.Reading.Derive(elev)
+	f.Used = 1
+	f.Notes = append(f.Notes, fmt.Sprintf("too short to trend: %d reading%s over %s in the last %s; "+
+		"the %s reading is carried forward unchanged (a trend needs %d readings over %s)",
+		n, map[bool]string{true: "", false: "s"}[n == 1], roundMin(f.Span), roundMin(TrendWindow), last.Time.Format("15:04"), MinTrendReadings, roundMin(MinTrendSpan)))
+	return f
+}
+
+// trendAhead is the forecast f.Ahead past the window win's last reading: a
+// straight line fitted to each of temperature, station pressure and dew
+// point (never above the temperature), the window's mean wind, the track's
+// own trend (trackTrend), and how far to trust it (judgeTrend).
+func trendAhead(f Forecast, win []Reading, elev Length) Forecast {
+	last := win[len(win)-1]
 	x := make([]float64, len(win)) // minutes from the last reading
 	temp, stn, dew, da := make([]float64, len(win)), make([]float64, len(win)), make([]float64, len(win)), make([]float64, len(win))
 	var track, trackX []float64
@@ -107,10 +122,21 @@ func ForecastAt(log []Reading, at time.Time, elev Length) (Forecast, error) {
 	tF := fitLine(x, temp).at(x0)
 	dF := math.Min(fitLine(x, dew).at(x0), tF)
 	f.Reading = Reading{
-		Time: at, Temp: Fahrenheit(tF), Baro: InHg(fitLine(x, stn).at(x0)), BaroKind: StationPressure,
+		Time: f.At, Temp: Fahrenheit(tF), Baro: InHg(fitLine(x, stn).at(x0)), BaroKind: StationPressure,
 		DewPointSet: true, DewPoint: Fahrenheit(dF),
 		Wind: MPH(windSum / float64(len(win))), WindFrom: last.WindFrom, WindDirUnknown: last.WindDirUnknown, WindUnknown: last.WindUnknown,
 	}
+	f = trackTrend(f, trackX, track, last, x0)
+	f.Air = f.Reading.Derive(elev)
+	daFit := fitLine(x, da)
+	f.DAError = Feet(math.Max(daFit.predictionError(x0), MeterDAFeet))
+	return judgeTrend(f, win[0].Time, last.Time)
+}
+
+// trackTrend sets the forecast's track temperature: the trend of the
+// track readings (°F at minutes trackX from the last reading) at x0 when
+// there are enough, else the last reading's, else none.
+func trackTrend(f Forecast, trackX, track []float64, last Reading, x0 float64) Forecast {
 	switch {
 	case len(track) >= MinTrendReadings:
 		t := fitLine(trackX, track).at(x0)
@@ -125,12 +151,17 @@ func ForecastAt(log []Reading, at time.Time, elev Length) (Forecast, error) {
 	case last.HasTrack:
 		f.Reading.HasTrack, f.Reading.TrackTemp = true, last.TrackTemp
 	}
-	f.Air = f.Reading.Derive(elev)
-	daFit := fitLine(x, da)
-	f.DAError = Feet(math.Max(daFit.predictionError(x0), MeterDAFeet))
+	return f
+}
+
+// judgeTrend notes the trend a forecast rests on (from to to) and says
+// whether to trust it: not when its density altitude scatters more than
+// NoisyDAFeet, nor when it reaches further ahead than the trend reaches
+// back. It changes no figure of the forecast.
+func judgeTrend(f Forecast, from, to time.Time) Forecast {
 	f.Trusted = true
 	f.Notes = append(f.Notes, fmt.Sprintf("trend of %d readings over %s (%s–%s), %s ahead of the last",
-		f.Used, roundMin(f.Span), win[0].Time.Format("15:04"), last.Time.Format("15:04"), roundMin(f.Ahead)))
+		f.Used, roundMin(f.Span), from.Format("15:04"), to.Format("15:04"), roundMin(f.Ahead)))
 	if f.DAError.Feet() > NoisyDAFeet {
 		f.Trusted = false
 		f.Notes = append(f.Notes, fmt.Sprintf("too noisy to trust: the readings scatter ±%.0f ft of density altitude around their trend "+
@@ -142,7 +173,7 @@ func ForecastAt(log []Reading, at time.Time, elev Length) (Forecast, error) {
 		f.Notes = append(f.Notes, fmt.Sprintf("not to be trusted: forecasting %s ahead on %s of trend (a forecast is trusted only as far ahead as its trend reaches back); take a fresh reading nearer the call",
 			roundMin(f.Ahead), roundMin(f.Span)))
 	}
-	return f, nil
+	return f
 }
 
 // interpolate gives the air at a time inside the log, between its neighbours.

@@ -159,7 +159,8 @@ conflict: both versions are listed and nothing is written.`,
 			if len(log) == 0 {
 				return userErrf("%s has no readings to import", args[0])
 			}
-			added, skipped, total, err := e.ImportReadings(log, args[0], elev, o.SkipExisting)
+			im, err := e.ImportReadings(log, args[0], elev, o.SkipExisting)
+			added, skipped, total := im.Added, im.Skipped, im.Total
 			if err != nil {
 				return err
 			}

@@ -286,7 +286,8 @@ func logImportRun(cmd *cobra.Command, o *logImportOptions, file string) error {
 	if w := altimeterLooking(e, passes, file); w != "" {
 		o.s.warn(w)
 	}
-	n, kept, err := e.SaveLogbook(passes, src.Extra...)
+	saved, err := e.SaveLogbook(passes, src.Extra...)
+	n, kept := saved.Count, saved.Kept
 	if err != nil {
 		return err
 	}

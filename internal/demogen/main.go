@@ -66,8 +66,33 @@ func main() {
 // generate writes the demo event into out and returns how many passes and
 // readings it wrote.
 func generate(outDir string) (int, int, error) {
-	out := &outDir
 	rng := rand.New(rand.NewPCG(1971, 613))
+	v := engine.NewVehicle(car, 0)
+	passes := pastSeason(rng, &v)
+	// A lifted run with its note, and a pedaled one nobody wrote down.
+	lift(&passes[12], 0.42, 6.1, "lifted at 1000 ft: tire shake")
+	lift(&passes[35], 0.38, 4.0, "")
+
+	// The demo day at home: readings from 13:30 to 20:30, passes up to round 2.
+	log := demoWeather(rng)
+	passes = append(passes, demoDayPasses(rng, &v, log, demoSchedule[:5])...)
+	writeDemo(outDir, passes, log)
+	return len(passes), len(log), firstErr
+}
+
+// slot is one session of the demo day's schedule: when it is called to the
+// lanes, and the lane when it is drawn ahead ("": not yet).
+type slot struct{ session, call, lane string }
+
+// demoSchedule is the demo race day's sessions.
+var demoSchedule = []slot{
+	{"T1", "15:10", ""}, {"T2", "16:40", ""}, {"T3", "18:05", ""}, {"E1", "19:15", ""}, {"E2", "20:05", ""},
+	{"E3", "20:45", "left"}, {"E4", "21:30", ""}, {"E5", "22:10", ""},
+}
+
+// pastSeason runs the season before the demo day: nine race days at the
+// three invented tracks, each pass in its day's air drawn from rng.
+func pastSeason(rng *rand.Rand, v *engine.Vehicle) []logbook.Pass {
 	stn := func(t engine.Track, alt float64) float64 { // a station pressure for an altimeter setting
 		return weather.StationFromAltimeter(weather.InHg(alt), t.Elevation()).InHg()
 	}
@@ -83,7 +108,6 @@ func generate(outDir string) (int, int, error) {
 		{time.Date(2026, 6, 6, 0, 0, 0, 0, time.Local), home, 93, 17, stn(home, 29.97), 0.22, 0.38, 139, []string{"T1", "T2", "T3", "E1", "E2", "E3", "E4"}, "14:00", 55},
 	}
 	var passes []logbook.Pass
-	v := engine.NewVehicle(car, 0)
 	for _, d := range days {
 		first, _ := weather.ParseClock(d.firstPass, d.date, time.Local)
 		n := len(d.sessions)
@@ -99,20 +123,17 @@ func generate(outDir string) (int, int, error) {
 				TrackTemp: weather.Fahrenheit(d.track0 - 1.7*d.tempDrop*frac + rng.NormFloat64()),
 				HasTrack:  true,
 			}
-			passes = append(passes, pass(rng, &v, d.track, r, s, k))
+			passes = append(passes, pass(rng, v, d.track, r, s, k))
 		}
 	}
-	// A lifted run with its note, and a pedaled one nobody wrote down.
-	lift(&passes[12], 0.42, 6.1, "lifted at 1000 ft: tire shake")
-	lift(&passes[35], 0.38, 4.0, "")
+	return passes
+}
 
-	// The demo day at home: readings from 13:30 to 20:30, passes up to round 2.
-	log := demoWeather(rng)
-	schedule := []struct{ session, call, lane string }{
-		{"T1", "15:10", ""}, {"T2", "16:40", ""}, {"T3", "18:05", ""}, {"E1", "19:15", ""}, {"E2", "20:05", ""},
-		{"E3", "20:45", "left"}, {"E4", "21:30", ""}, {"E5", "22:10", ""},
-	}
-	for k, sc := range schedule[:5] {
+// demoDayPasses runs the demo day's sessions run so far at home, each
+// eight minutes after its call, in the air the day's weather log forecasts.
+func demoDayPasses(rng *rand.Rand, v *engine.Vehicle, log []weather.Reading, run []slot) []logbook.Pass {
+	var passes []logbook.Pass
+	for k, sc := range run {
 		call, _ := weather.ParseClock(sc.call, demoDay, time.Local)
 		when := call.Add(8 * time.Minute)
 		f, err := weather.ForecastAt(log, when, home.Elevation())
@@ -122,31 +143,36 @@ func generate(outDir string) (int, int, error) {
 		r := f.Reading
 		r.Baro, r.BaroKind = f.Air.Station, weather.StationPressure
 		r.RH, r.DewPointSet = f.Air.RH, false
-		passes = append(passes, pass(rng, &v, home, r, sc.session, k))
+		passes = append(passes, pass(rng, v, home, r, sc.session, k))
 	}
+	return passes
+}
 
-	must(os.MkdirAll(filepath.Join(*out, "tracks"), 0o755))
+// writeDemo writes the demo folder into outDir: logbook, weather log,
+// track files, car.yaml and the day's schedule. A failure is kept in
+// firstErr, not returned.
+func writeDemo(outDir string, passes []logbook.Pass, log []weather.Reading) {
+	must(os.MkdirAll(filepath.Join(outDir, "tracks"), 0o755))
 	var lb bytes.Buffer
 	must(logbook.Write(&lb, passes))
-	must(os.WriteFile(filepath.Join(*out, "logbook.csv"), lb.Bytes(), 0o644))
+	must(os.WriteFile(filepath.Join(outDir, "logbook.csv"), lb.Bytes(), 0o644))
 	var wb bytes.Buffer
 	must(weather.WriteLog(&wb, log))
-	must(os.WriteFile(filepath.Join(*out, "weather.csv"), wb.Bytes(), 0o644))
-	must(os.WriteFile(filepath.Join(*out, "track.yaml"), trackYAML(home, "the demo's home strip, a quarter mile on a high desert mesa"), 0o644))
-	must(os.WriteFile(filepath.Join(*out, "tracks", "salt-creek.yaml"), trackYAML(low, "a low, humid river-valley strip"), 0o644))
-	must(os.WriteFile(filepath.Join(*out, "tracks", "granite-pass.yaml"), trackYAML(high, "a mountain strip with thin air and light prep"), 0o644))
-	must(os.WriteFile(filepath.Join(*out, "car.yaml"), []byte(carYAML), 0o644))
+	must(os.WriteFile(filepath.Join(outDir, "weather.csv"), wb.Bytes(), 0o644))
+	must(os.WriteFile(filepath.Join(outDir, "track.yaml"), trackYAML(home, "the demo's home strip, a quarter mile on a high desert mesa"), 0o644))
+	must(os.WriteFile(filepath.Join(outDir, "tracks", "salt-creek.yaml"), trackYAML(low, "a low, humid river-valley strip"), 0o644))
+	must(os.WriteFile(filepath.Join(outDir, "tracks", "granite-pass.yaml"), trackYAML(high, "a mountain strip with thin air and light prep"), 0o644))
+	must(os.WriteFile(filepath.Join(outDir, "car.yaml"), []byte(carYAML), 0o644))
 	var sb bytes.Buffer
 	fmt.Fprintf(&sb, "# The demo race day's schedule: when each session is called to the lanes.\ndate: %s\nsessions:\n", demoDay.Format("2006-01-02"))
-	for _, sc := range schedule {
+	for _, sc := range demoSchedule {
 		if sc.lane != "" {
 			fmt.Fprintf(&sb, "  - {session: %s, call: \"%s\", lane: %s}\n", sc.session, sc.call, sc.lane)
 			continue
 		}
 		fmt.Fprintf(&sb, "  - {session: %s, call: \"%s\"}\n", sc.session, sc.call)
 	}
-	must(os.WriteFile(filepath.Join(*out, "schedule.yaml"), sb.Bytes(), 0o644))
-	return len(passes), len(log), firstErr
+	must(os.WriteFile(filepath.Join(outDir, "schedule.yaml"), sb.Bytes(), 0o644))
 }
 
 // pass is the model's run in r with a driver's scatter: 60 ft ±0.008 s

@@ -223,22 +223,7 @@ func (w World) Season() []Pass {
 		trk := w.TrackOf(dp.Track)
 		date := start.AddDate(0, 0, 7*d)
 		season := math.Sin(math.Pi * float64(d) / float64(max(len(plan)-1, 1))) // spring → summer → autumn
-		dy := day{
-			trk:    trk,
-			date:   date,
-			tune:   1 + L.TuneSD*r.NormFloat64(),
-			prep:   1 + L.PrepSD*r.NormFloat64(),
-			bottle: 1 + 0.03*r.NormFloat64(),
-			tBase:  58 + 22*season + 6*r.NormFloat64(),
-			tAmp:   10 + 6*r.Float64(),
-			baro:   29.92*math.Pow(1-6.8753e-6*trk.ElevationFt, 5.2559) + 0.25*r.NormFloat64(),
-			drift:  0.012 * r.NormFloat64(),
-			wind:   math.Abs(4 + 4*r.NormFloat64()),
-			windD:  360 * r.Float64(),
-			clouds: r.Float64() * 0.6,
-			start:  date.Add(time.Duration(12*60+r.IntN(180)) * time.Minute),
-		}
-		dy.dew = dy.tBase - 8 - 18*r.Float64()
+		dy := raceDay(trk, date, season, L, r)
 		fuel := 0.0
 		t := dy.start
 		soak := 0.0
@@ -251,42 +236,8 @@ func (w World) Season() []Pass {
 			ww.Car, ww.Track = car, trk
 			c := w.conditions(dy, t, r)
 			c.soakMin = soak
-			mass := car.WeightLb - fuel
-			abort := r.Float64() < 0.04
-			noise := noiseOf(r)
-			ran := ww.simulate(dy, c, mass, noise, abort)
-			oracle := ww.simulate(dy, c, mass, quiet, false)
-			usual := dy
-			usual.tune, usual.prep, usual.bottle = 1, 1, 1
-			typical := ww.simulate(usual, c, mass, quiet, false)
-			// the crew's reading: taken minutes before the pass in a drawn world
-			read, readAt := c, t
-			if L.LagMin[1] > 0 {
-				lag := L.LagMin[0] + (L.LagMin[1]-L.LagMin[0])*r2.Float64()
-				readAt = t.Add(-time.Duration(lag * float64(time.Minute)))
-				read = w.conditions(dy, readAt, r2)
-			}
-			p := ww.logged(read, readAt, t, k, mass, ran, r, r2)
-			// the same from the conditions as the crew's meters read them
-			measured := c
-			a := p.Air.Derive(weather.Feet(trk.ElevationFt))
-			measured.tempF, measured.dewF, measured.stationInHg = p.Air.Temp.Fahrenheit(), a.DewPoint.Fahrenheit(), a.Station.InHg()
-			measured.windMPH, measured.windFrom = p.Air.Wind.MPH(), p.Air.WindFrom
-			// a surface not read is one a predictor cannot know: the floor
-			// takes the truth's (a floor a shade lower than can be reached)
-			if p.Air.HasTrack {
-				measured.trackF = p.Air.TrackTemp.Fahrenheit()
-			}
-			typicalMeasured := ww.simulate(usual, measured, mass, quiet, false)
-			if abort && r.Float64() < 0.5 {
-				p.Notes = "lifted"
-			}
-			if change != nil {
-				p.Notes = strings.TrimPrefix(change.Words+"; "+p.Notes, "; ")
-				p.Notes = strings.TrimSuffix(p.Notes, "; ")
-			}
-			out = append(out, Pass{Logged: p, Oracle: oracle.et, Typical: typical.et, TypicalMeasured: typicalMeasured.et,
-				Aborted: abort, Day: d, InDay: k, ChangedHere: change != nil, Track: trk, dy: dy, c: c, mass: mass, car: car})
+			p := w.seasonPass(ww, L, dy, c, t, car.WeightLb-fuel, d, k, change, r, r2)
+			out = append(out, p)
 			fuel = math.Min(fuel+car.BurnLb, car.FuelLb)
 			gap := time.Duration(40+r.IntN(50)) * time.Minute
 			if L.ShortTurn > 0 && r2.Float64() < L.ShortTurn {
@@ -297,6 +248,76 @@ func (w World) Season() []Pass {
 		}
 	}
 	return out
+}
+
+// raceDay draws one race day at trk on date (season: 0 in spring and
+// autumn, 1 in high summer): the car's tune and prep that day, the day's
+// air and when the first pass runs. It draws from r in a fixed order, which
+// a change here would alter for every world.
+func raceDay(trk Track, date time.Time, season float64, L *Laws, r *rand.Rand) day {
+	dy := day{
+		trk:    trk,
+		date:   date,
+		tune:   1 + L.TuneSD*r.NormFloat64(),
+		prep:   1 + L.PrepSD*r.NormFloat64(),
+		bottle: 1 + 0.03*r.NormFloat64(),
+		tBase:  58 + 22*season + 6*r.NormFloat64(),
+		tAmp:   10 + 6*r.Float64(),
+		baro:   29.92*math.Pow(1-6.8753e-6*trk.ElevationFt, 5.2559) + 0.25*r.NormFloat64(),
+		drift:  0.012 * r.NormFloat64(),
+		wind:   math.Abs(4 + 4*r.NormFloat64()),
+		windD:  360 * r.Float64(),
+		clouds: r.Float64() * 0.6,
+		start:  date.Add(time.Duration(12*60+r.IntN(180)) * time.Minute),
+	}
+	dy.dew = dy.tBase - 8 - 18*r.Float64()
+	return dy
+}
+
+// seasonPass runs the k-th pass of day d at time t in conditions c, with
+// the car and track of ww at mass lb: the pass as run, the oracle's and a
+// typical day's elapsed times, and the pass as the crew logs it (their
+// reading and slip). It does not move the clock or burn fuel.
+func (w World) seasonPass(ww World, L *Laws, dy day, c cond, t time.Time, mass float64, d, k int, change *Change, r, r2 *rand.Rand) Pass {
+	abort := r.Float64() < 0.04
+	noise := noiseOf(r)
+	ran := ww.simulate(dy, c, mass, noise, abort)
+	oracle := ww.simulate(dy, c, mass, quiet, false)
+	usual := dy
+	usual.tune, usual.prep, usual.bottle = 1, 1, 1
+	typical := ww.simulate(usual, c, mass, quiet, false)
+	// the crew's reading: taken minutes before the pass in a drawn world
+	read, readAt := c, t
+	if L.LagMin[1] > 0 {
+		lag := L.LagMin[0] + (L.LagMin[1]-L.LagMin[0])*r2.Float64()
+		readAt = t.Add(-time.Duration(lag * float64(time.Minute)))
+		read = w.conditions(dy, readAt, r2)
+	}
+	p := ww.logged(read, readAt, t, k, mass, ran, r, r2)
+	typicalMeasured := ww.simulate(usual, measuredConditions(c, p, dy.trk), mass, quiet, false)
+	if abort && r.Float64() < 0.5 {
+		p.Notes = "lifted"
+	}
+	if change != nil {
+		p.Notes = strings.TrimPrefix(change.Words+"; "+p.Notes, "; ")
+		p.Notes = strings.TrimSuffix(p.Notes, "; ")
+	}
+	return Pass{Logged: p, Oracle: oracle.et, Typical: typical.et, TypicalMeasured: typicalMeasured.et,
+		Aborted: abort, Day: d, InDay: k, ChangedHere: change != nil, Track: dy.trk, dy: dy, c: c, mass: mass, car: ww.Car}
+}
+
+// measuredConditions is c as the crew's meters read it in the logged pass
+// p at trk. A surface not read is one a predictor cannot know: the floor
+// takes the truth's (a floor a shade lower than can be reached).
+func measuredConditions(c cond, p logbook.Pass, trk Track) cond {
+	measured := c
+	a := p.Air.Derive(weather.Feet(trk.ElevationFt))
+	measured.tempF, measured.dewF, measured.stationInHg = p.Air.Temp.Fahrenheit(), a.DewPoint.Fahrenheit(), a.Station.InHg()
+	measured.windMPH, measured.windFrom = p.Air.Wind.MPH(), p.Air.WindFrom
+	if p.Air.HasTrack {
+		measured.trackF = p.Air.TrackTemp.Fahrenheit()
+	}
+	return measured
 }
 
 // Passes is the number of passes in the season.
@@ -391,6 +412,7 @@ type run struct {
 }
 
 // simulate steps one pass in time.
+// It stays long: an integration loop whose state each step carries to the next reads best whole.
 func (w World) simulate(dy day, c cond, massLb float64, n noise, abort bool) run {
 	car := w.Car
 	const dt = 0.0005
