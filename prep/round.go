@@ -1,9 +1,11 @@
-// Package prep is the per-round prep card: it gathers everything a crew
-// needs for one round (the air now and at the call, the prediction, the dial
-// options, what the crew's rules say, the checklist, today's record and the
+// Package prep is the per-round prep card: it gathers what a crew needs for
+// one round (the air now and at the call, the prediction, the dial options,
+// what the crew's rules say, the checklist, today's record and the
 // cautions) and renders it for the terminal, Markdown, HTML and JSON.
 //
-// It reads no files or flags: the caller hands it the event's data.
+// It reads no files or flags and models nothing itself: the caller hands it
+// the event's data, and engine, bracket and weather compute the figures it
+// lays out.
 package prep
 
 import (
