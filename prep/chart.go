@@ -65,11 +65,47 @@ func textBox(s string, x, y, font, pad float64, anchor string) box {
 // nothing to draw. No label overlaps another label or a marker: a today's
 // pass whose label finds no free place is drawn unlabelled.
 func ChartFor(c Card, lay ChartLayout) string {
-	in := c.Input
-	dist := in.Car.DistanceFt
+	dist := c.Input.Car.DistanceFt
 	if dist == 0 || len(c.Prediction.Timers) == 0 {
 		return ""
 	}
+	pts, earlier, earlierOut := splitEarlier(chartPasses(c))
+	f := c.Prediction.Finish()
+	predX := c.AirCall.DensityAltitude.Feet()
+	ms := lay.Font / 7 // markers grow with the text
+	legend := chartLegend(lay, ms, len(earlier), earlierOut)
+	fr := newChartFrame(lay, legend.height, pts, earlier, predX, f)
+	var b strings.Builder
+	fr.drawAxes(&b, lay.Name, dist)
+	b.WriteString(fr.modelLine(c, predX, f))
+	b.WriteString(shadeCells(earlier, fr.plot, fr.sx, fr.sy))
+	labels := chartLabels{b: &b, fr: fr}
+	todays := labels.drawMarkers(pts)
+	px := labels.drawPrediction(predX, f)
+	// The labels: the prediction's first, then today's passes, each at the
+	// first free place around its marker. The prediction's label may also
+	// go above or below its interval, or, among a crowd of passes, to a
+	// corner of the plot.
+	gap := fr.fs * 0.4
+	L, R, T, B, W, H, fs := fr.L, fr.R, fr.T, fr.B, fr.W, fr.H, fr.fs
+	labels.place(fmt.Sprintf("next %.3f", f.ET), px, fr.sy(f.ET), 4*ms, true,
+		labelAt{px, fr.sy(f.High) - gap, "middle"}, labelAt{px, fr.sy(f.Low) + gap + fs, "middle"},
+		labelAt{L + gap, T + gap + fs, "start"}, labelAt{W - R - gap, T + gap + fs, "end"},
+		labelAt{W - R - gap, H - B - gap - fs*0.3, "end"}, labelAt{L + gap, H - B - gap - fs*0.3, "start"})
+	for _, p := range todays {
+		labels.place(p.label, fr.sx(p.x), fr.sy(p.y), 2.6*ms, false)
+	}
+	b.WriteString(legend.svg)
+	b.WriteString(`</svg>`)
+	return b.String()
+}
+
+// chartPasses is the logbook's passes with their air and a time at the
+// distance raced, as the chart's points: left out when the prediction left
+// them out or their notes say aborted.
+func chartPasses(c Card) []pt {
+	in := c.Input
+	dist := in.Car.DistanceFt
 	left := map[string]bool{}
 	for _, o := range c.Prediction.Outliers {
 		left[o.Pass.Key()] = true
@@ -83,27 +119,46 @@ func ChartFor(c Card, lay ChartLayout) string {
 		pts = append(pts, pt{x: p.Air.Derive(0).DensityAltitude.Feet(), y: et, today: in.Settings.DayStart.Same(p.Time, in.Call),
 			out: left[p.Key()] || logbook.Aborted(p.Notes), label: p.Session.String()})
 	}
-	// A long logbook: its latest passes (and all of today's) are drawn,
-	// the earlier ones summarised as shaded cells, so the chart's size does
-	// not grow with the logbook.
-	var earlier []pt
-	earlierOut := 0
-	if len(pts) > ChartMarks {
-		recent := make([]pt, 0, ChartMarks)
-		for i, p := range pts {
-			switch {
-			case i >= len(pts)-ChartMarks || p.today:
-				recent = append(recent, p)
-			case p.out:
-				earlierOut++
-			default:
-				earlier = append(earlier, p)
-			}
-		}
-		pts = recent
+	return pts
+}
+
+// splitEarlier keeps a long logbook's latest ChartMarks passes (and all of
+// today's) to be drawn one by one; the earlier ones are returned apart, to
+// be summarised as shaded cells, so the chart's size does not grow with
+// the logbook, and the earlier left-out ones only counted. A logbook of
+// ChartMarks or fewer is returned whole.
+func splitEarlier(pts []pt) (recent, earlier []pt, earlierOut int) {
+	if len(pts) <= ChartMarks {
+		return pts, nil, 0
 	}
-	f := c.Prediction.Finish()
-	predX := c.AirCall.DensityAltitude.Feet()
+	recent = make([]pt, 0, ChartMarks)
+	for i, p := range pts {
+		switch {
+		case i >= len(pts)-ChartMarks || p.today:
+			recent = append(recent, p)
+		case p.out:
+			earlierOut++
+		default:
+			earlier = append(earlier, p)
+		}
+	}
+	return recent, earlier, earlierOut
+}
+
+// chartFrame is a chart's geometry: the ranges it shows (density altitude
+// in ft across, ET in s up), the drawing's size, its labels' and markers'
+// sizes and the margins around the plot.
+type chartFrame struct {
+	xlo, xhi, ylo, yhi float64
+	W, H, fs, ms       float64
+	L, R, T, B         float64 // the margins: left, right, top (the legend), bottom
+	plot               box
+}
+
+// newChartFrame fits the frame to the drawn passes that are not left out,
+// the earlier ones and the prediction's interval, with the legend's
+// height (legendH) above the plot.
+func newChartFrame(lay ChartLayout, legendH float64, pts, earlier []pt, predX float64, f engine.Timer) *chartFrame {
 	xs, ys := []float64{predX}, []float64{f.Low, f.High}
 	for _, p := range pts {
 		if !p.out {
@@ -113,144 +168,172 @@ func ChartFor(c Card, lay ChartLayout) string {
 	for _, p := range earlier {
 		xs, ys = append(xs, p.x), append(ys, p.y)
 	}
+	fr := &chartFrame{W: lay.Width, H: lay.Height, fs: lay.Font, ms: lay.Font / 7}
 	xlo, xhi := minmax(xs)
 	ylo, yhi := minmax(ys)
-	xlo, xhi = math.Floor((xlo-250)/500)*500, math.Ceil((xhi+250)/500)*500
+	fr.xlo, fr.xhi = math.Floor((xlo-250)/500)*500, math.Ceil((xhi+250)/500)*500
 	pad := math.Max((yhi-ylo)*0.08, 0.02)
-	ylo, yhi = ylo-pad, yhi+pad
-
-	W, H, fs := lay.Width, lay.Height, lay.Font
-	ms := fs / 7 // markers grow with the text
-	legend := chartLegend(lay, ms, len(earlier), earlierOut)
+	fr.ylo, fr.yhi = ylo-pad, yhi+pad
 	// The margins hold the ticks' labels and the axes' titles.
-	L := fs*(1.4+charWidth*5) + 3
-	R, T, B := charWidth*fs*2.5, legend.height, fs*2.9 // R: half the last tick's label
-	sx := func(x float64) float64 { return L + (x-xlo)/(xhi-xlo)*(W-L-R) }
-	sy := func(y float64) float64 { return T + (yhi-y)/(yhi-ylo)*(H-T-B) }
-	plot := box{L, T, W - R, H - B}
-	var b strings.Builder
-	fmt.Fprintf(&b, `<svg xmlns="http://www.w3.org/2000/svg" class="%s" viewBox="0 0 %.0f %.0f" role="img" aria-label="ET against density altitude">`, lay.Name, W, H)
-	fmt.Fprintf(&b, `<title>%s ET against density altitude</title>`, TimerName(dist))
-	fmt.Fprintf(&b, `<rect x="%.1f" y="%.1f" width="%.1f" height="%.1f" fill="none" stroke="#999" stroke-width="0.6"/>`, L, T, W-L-R, H-T-B)
-	// The ticks: as many as their labels leave room for.
-	xstep := tickStep(xhi-xlo, (W-L-R)/(charWidth*fs*6))
-	for x := xlo; x <= xhi+1; x += xstep {
-		fmt.Fprintf(&b, `<line x1="%.1f" y1="%.1f" x2="%.1f" y2="%.1f" stroke="#ddd" stroke-width="0.5"/>`, sx(x), T, sx(x), H-B)
-		fmt.Fprintf(&b, `<text x="%.1f" y="%.1f" font-size="%g" text-anchor="middle">%.0f</text>`, sx(x), H-B+fs*1.1, fs, x)
+	fs := fr.fs
+	fr.L = fs*(1.4+charWidth*5) + 3
+	fr.R, fr.T, fr.B = charWidth*fs*2.5, legendH, fs*2.9 // R: half the last tick's label
+	fr.plot = box{fr.L, fr.T, fr.W - fr.R, fr.H - fr.B}
+	return fr
+}
+
+// sx is where density altitude x is drawn across.
+func (fr *chartFrame) sx(x float64) float64 {
+	return fr.L + (x-fr.xlo)/(fr.xhi-fr.xlo)*(fr.W-fr.L-fr.R)
+}
+
+// sy is where ET y is drawn down.
+func (fr *chartFrame) sy(y float64) float64 {
+	return fr.T + (fr.yhi-y)/(fr.yhi-fr.ylo)*(fr.H-fr.T-fr.B)
+}
+
+// drawAxes opens the svg (class name) and draws the plot's border, the
+// ticks, as many as their labels leave room for, and the axes' titles.
+func (fr *chartFrame) drawAxes(b *strings.Builder, name string, dist float64) {
+	W, H, fs, L, R, T, B := fr.W, fr.H, fr.fs, fr.L, fr.R, fr.T, fr.B
+	fmt.Fprintf(b, `<svg xmlns="http://www.w3.org/2000/svg" class="%s" viewBox="0 0 %.0f %.0f" role="img" aria-label="ET against density altitude">`, name, W, H)
+	fmt.Fprintf(b, `<title>%s ET against density altitude</title>`, TimerName(dist))
+	fmt.Fprintf(b, `<rect x="%.1f" y="%.1f" width="%.1f" height="%.1f" fill="none" stroke="#999" stroke-width="0.6"/>`, L, T, W-L-R, H-T-B)
+	xstep := tickStep(fr.xhi-fr.xlo, (W-L-R)/(charWidth*fs*6))
+	for x := fr.xlo; x <= fr.xhi+1; x += xstep {
+		fmt.Fprintf(b, `<line x1="%.1f" y1="%.1f" x2="%.1f" y2="%.1f" stroke="#ddd" stroke-width="0.5"/>`, fr.sx(x), T, fr.sx(x), H-B)
+		fmt.Fprintf(b, `<text x="%.1f" y="%.1f" font-size="%g" text-anchor="middle">%.0f</text>`, fr.sx(x), H-B+fs*1.1, fs, x)
 	}
-	ystep := niceStep((yhi - ylo) / math.Max(2, math.Min(5, (H-T-B)/(fs*2.2))))
-	for y := math.Ceil(ylo/ystep) * ystep; y <= yhi; y += ystep {
-		fmt.Fprintf(&b, `<line x1="%.1f" y1="%.1f" x2="%.1f" y2="%.1f" stroke="#ddd" stroke-width="0.5"/>`, L, sy(y), W-R, sy(y))
-		fmt.Fprintf(&b, `<text x="%.1f" y="%.1f" font-size="%g" text-anchor="end">%.2f</text>`, L-3, sy(y)+fs*0.35, fs, y)
+	ystep := niceStep((fr.yhi - fr.ylo) / math.Max(2, math.Min(5, (H-T-B)/(fs*2.2))))
+	for y := math.Ceil(fr.ylo/ystep) * ystep; y <= fr.yhi; y += ystep {
+		fmt.Fprintf(b, `<line x1="%.1f" y1="%.1f" x2="%.1f" y2="%.1f" stroke="#ddd" stroke-width="0.5"/>`, L, fr.sy(y), W-R, fr.sy(y))
+		fmt.Fprintf(b, `<text x="%.1f" y="%.1f" font-size="%g" text-anchor="end">%.2f</text>`, L-3, fr.sy(y)+fs*0.35, fs, y)
 	}
-	fmt.Fprintf(&b, `<text x="%.1f" y="%.1f" font-size="%g" text-anchor="middle">Density altitude (ft)</text>`, (L+W-R)/2, H-fs*0.35, fs)
-	fmt.Fprintf(&b, `<text x="%.1f" y="%.1f" font-size="%g" text-anchor="middle" transform="rotate(-90 %.1f %.1f)">%s ET (s)</text>`,
+	fmt.Fprintf(b, `<text x="%.1f" y="%.1f" font-size="%g" text-anchor="middle">Density altitude (ft)</text>`, (L+W-R)/2, H-fs*0.35, fs)
+	fmt.Fprintf(b, `<text x="%.1f" y="%.1f" font-size="%g" text-anchor="middle" transform="rotate(-90 %.1f %.1f)">%s ET (s)</text>`,
 		fs*1.05, (T+H-B)/2, fs, fs*1.05, (T+H-B)/2, TimerName(dist))
-	// the model's line: today's track and wind, corrected as today's prediction is
+}
+
+// modelLine is the model's line across the plot: today's track and wind,
+// corrected as today's prediction f is, simulated at 17 density altitudes
+// (predX is today's). "" when fewer than two of its points fall inside.
+func (fr *chartFrame) modelLine(c Card, predX float64, f engine.Timer) string {
+	in := c.Input
+	dist := in.Car.DistanceFt
 	bias := f.ET - c.Prediction.Model.ETAt(dist)
 	var line []string
 	for i := 0; i <= 16; i++ {
-		x := xlo + (xhi-xlo)*float64(i)/16
+		x := fr.xlo + (fr.xhi-fr.xlo)*float64(i)/16
 		r := engine.ThinnerAir(in.Air, x-predX)
 		env := engine.NewEnv(r, in.Track.HeadingDeg, in.Prep, c.Prediction.Env.MassKg)
 		y := engine.Simulate(&c.Fit.Vehicle, c.Fit.Params, env, dist).ETAt(dist) + bias
-		if y >= ylo && y <= yhi {
-			line = append(line, fmt.Sprintf("%.1f,%.1f", sx(x), sy(y)))
+		if y >= fr.ylo && y <= fr.yhi {
+			line = append(line, fmt.Sprintf("%.1f,%.1f", fr.sx(x), fr.sy(y)))
 		}
 	}
-	if len(line) > 1 {
-		fmt.Fprintf(&b, `<polyline points="%s" fill="none" stroke="#1f5fa8" stroke-width="%.1f"/>`, strings.Join(line, " "), 1.4*math.Sqrt(ms))
+	if len(line) <= 1 {
+		return ""
 	}
-	b.WriteString(shadeCells(earlier, plot, sx, sy))
-	// The markers, each taking its place from the labels.
-	taken := []box{}
-	// labelAt is a place for a label: its anchor is by the side of the
-	// marker it is on, unless given.
-	type labelAt struct {
-		x, y   float64
-		anchor string
-	}
-	var todays []pt
+	return fmt.Sprintf(`<polyline points="%s" fill="none" stroke="#1f5fa8" stroke-width="%.1f"/>`, strings.Join(line, " "), 1.4*math.Sqrt(fr.ms))
+}
+
+// chartLabels draws the markers and places the labels on a chart,
+// keeping the boxes already taken so that nothing is drawn over them.
+type chartLabels struct {
+	b     *strings.Builder
+	fr    *chartFrame
+	taken []box
+}
+
+// labelAt is a place for a label: its anchor is by the side of the
+// marker it is on, unless given.
+type labelAt struct {
+	x, y   float64
+	anchor string
+}
+
+// drawMarkers draws the passes inside the plot, each taking its place
+// from the labels, and returns today's, to be labelled.
+func (l *chartLabels) drawMarkers(pts []pt) (todays []pt) {
+	fr, ms := l.fr, l.fr.ms
 	for _, p := range pts {
-		if p.y < ylo || p.y > yhi || p.x < xlo || p.x > xhi {
+		if p.y < fr.ylo || p.y > fr.yhi || p.x < fr.xlo || p.x > fr.xhi {
 			continue
 		}
-		x, y := sx(p.x), sy(p.y)
+		x, y := fr.sx(p.x), fr.sy(p.y)
 		switch {
 		case p.out:
-			fmt.Fprintf(&b, `<path d="M%.1f %.1fl%.1f %.1fm0 %.1fl%.1f %.1f" stroke="#b00" stroke-width="1"/>`, x-2*ms, y-2*ms, 4*ms, 4*ms, -4*ms, -4*ms, 4*ms)
-			taken = append(taken, box{x - 2*ms, y - 2*ms, x + 2*ms, y + 2*ms})
+			fmt.Fprintf(l.b, `<path d="M%.1f %.1fl%.1f %.1fm0 %.1fl%.1f %.1f" stroke="#b00" stroke-width="1"/>`, x-2*ms, y-2*ms, 4*ms, 4*ms, -4*ms, -4*ms, 4*ms)
+			l.taken = append(l.taken, box{x - 2*ms, y - 2*ms, x + 2*ms, y + 2*ms})
 		case p.today:
-			fmt.Fprintf(&b, `<circle cx="%.1f" cy="%.1f" r="%.1f" fill="#e07b00"/>`, x, y, 2.6*ms)
-			taken = append(taken, box{x - 2.6*ms, y - 2.6*ms, x + 2.6*ms, y + 2.6*ms})
+			fmt.Fprintf(l.b, `<circle cx="%.1f" cy="%.1f" r="%.1f" fill="#e07b00"/>`, x, y, 2.6*ms)
+			l.taken = append(l.taken, box{x - 2.6*ms, y - 2.6*ms, x + 2.6*ms, y + 2.6*ms})
 			todays = append(todays, p)
 		default:
-			fmt.Fprintf(&b, `<circle cx="%.1f" cy="%.1f" r="%.1f" fill="#888"/>`, x, y, 1.8*ms)
-			taken = append(taken, box{x - 1.8*ms, y - 1.8*ms, x + 1.8*ms, y + 1.8*ms})
+			fmt.Fprintf(l.b, `<circle cx="%.1f" cy="%.1f" r="%.1f" fill="#888"/>`, x, y, 1.8*ms)
+			l.taken = append(l.taken, box{x - 1.8*ms, y - 1.8*ms, x + 1.8*ms, y + 1.8*ms})
 		}
 	}
-	// the prediction with its interval
-	px := sx(predX)
-	fmt.Fprintf(&b, `<line x1="%.1f" y1="%.1f" x2="%.1f" y2="%.1f" stroke="#111" stroke-width="%.1f"/>`, px, sy(f.Low), px, sy(f.High), 1.4*math.Sqrt(ms))
-	fmt.Fprintf(&b, `<path d="M%.1f %.1fl%.1f %.1fl%.1f %.1fl%.1f %.1fz" fill="#111"/>`, px, sy(f.ET)-4*ms, 4*ms, 4*ms, -4*ms, 4*ms, -4*ms, -4*ms)
-	taken = append(taken, box{px - 4*ms, sy(f.ET) - 4*ms, px + 4*ms, sy(f.ET) + 4*ms}, box{px - ms, sy(f.High), px + ms, sy(f.Low)})
-	// The labels: the prediction's first, then today's passes, each at the
-	// first free place around its marker.
-	place := func(text string, x, y, reach float64, bold bool, more ...labelAt) {
-		var spots []labelAt
-		for _, ring := range []float64{1, 2.5} {
-			gap := reach*ring + fs*0.3
-			spots = append(spots, labelAt{x + gap, y + fs*0.35, ""}, labelAt{x + gap, y - gap*0.3, ""}, labelAt{x + gap, y + fs*0.9, ""},
-				labelAt{x - gap, y + fs*0.35, ""}, labelAt{x - gap, y - gap*0.3, ""}, labelAt{x - gap, y + fs*0.9, ""},
-				labelAt{x, y - gap, ""}, labelAt{x, y + gap + fs*0.8, ""})
+	return todays
+}
+
+// drawPrediction draws the prediction f at density altitude predX with
+// its interval, taking their place from the labels, and returns where it
+// is drawn across. It draws no label: place does.
+func (l *chartLabels) drawPrediction(predX float64, f engine.Timer) (px float64) {
+	fr, ms := l.fr, l.fr.ms
+	px = fr.sx(predX)
+	fmt.Fprintf(l.b, `<line x1="%.1f" y1="%.1f" x2="%.1f" y2="%.1f" stroke="#111" stroke-width="%.1f"/>`, px, fr.sy(f.Low), px, fr.sy(f.High), 1.4*math.Sqrt(ms))
+	fmt.Fprintf(l.b, `<path d="M%.1f %.1fl%.1f %.1fl%.1f %.1fl%.1f %.1fz" fill="#111"/>`, px, fr.sy(f.ET)-4*ms, 4*ms, 4*ms, -4*ms, 4*ms, -4*ms, -4*ms)
+	l.taken = append(l.taken, box{px - 4*ms, fr.sy(f.ET) - 4*ms, px + 4*ms, fr.sy(f.ET) + 4*ms}, box{px - ms, fr.sy(f.High), px + ms, fr.sy(f.Low)})
+	return px
+}
+
+// place draws text at the first free place around the marker at (x, y),
+// reach from its centre: to either side, above and below, then further
+// out, then at the places more. A label with no free place is not drawn.
+func (l *chartLabels) place(text string, x, y, reach float64, bold bool, more ...labelAt) {
+	fs := l.fr.fs
+	var spots []labelAt
+	for _, ring := range []float64{1, 2.5} {
+		gap := reach*ring + fs*0.3
+		spots = append(spots, labelAt{x + gap, y + fs*0.35, ""}, labelAt{x + gap, y - gap*0.3, ""}, labelAt{x + gap, y + fs*0.9, ""},
+			labelAt{x - gap, y + fs*0.35, ""}, labelAt{x - gap, y - gap*0.3, ""}, labelAt{x - gap, y + fs*0.9, ""},
+			labelAt{x, y - gap, ""}, labelAt{x, y + gap + fs*0.8, ""})
+	}
+	for _, at := range append(spots, more...) {
+		anchor := at.anchor
+		switch {
+		case anchor != "":
+		case at.x < x:
+			anchor = "end"
+		case at.x == x:
+			anchor = "middle"
+		default:
+			anchor = "start"
 		}
-		for _, at := range append(spots, more...) {
-			anchor := at.anchor
-			switch {
-			case anchor != "":
-			case at.x < x:
-				anchor = "end"
-			case at.x == x:
-				anchor = "middle"
-			default:
-				anchor = "start"
-			}
-			tb := textBox(text, at.x, at.y, fs, fs*0.15, anchor)
-			if !tb.inside(plot) {
-				continue
-			}
-			free := true
-			for _, o := range taken {
-				if tb.meets(o) {
-					free = false
-					break
-				}
-			}
-			if !free {
-				continue
-			}
-			weight := ""
-			if bold {
-				weight = ` font-weight="bold"`
-			}
-			fmt.Fprintf(&b, `<text x="%.1f" y="%.1f" font-size="%g"%s text-anchor="%s">%s</text>`, at.x, at.y, fs, weight, anchor, text)
-			taken = append(taken, tb)
-			return
+		tb := textBox(text, at.x, at.y, fs, fs*0.15, anchor)
+		if !tb.inside(l.fr.plot) || l.isTaken(tb) {
+			continue
+		}
+		weight := ""
+		if bold {
+			weight = ` font-weight="bold"`
+		}
+		fmt.Fprintf(l.b, `<text x="%.1f" y="%.1f" font-size="%g"%s text-anchor="%s">%s</text>`, at.x, at.y, fs, weight, anchor, text)
+		l.taken = append(l.taken, tb)
+		return
+	}
+}
+
+// isTaken reports whether tb meets a box already taken.
+func (l *chartLabels) isTaken(tb box) bool {
+	for _, o := range l.taken {
+		if tb.meets(o) {
+			return true
 		}
 	}
-	// The prediction's label may also go above or below its interval, or,
-	// among a crowd of passes, to a corner of the plot.
-	gap := fs * 0.4
-	place(fmt.Sprintf("next %.3f", f.ET), px, sy(f.ET), 4*ms, true,
-		labelAt{px, sy(f.High) - gap, "middle"}, labelAt{px, sy(f.Low) + gap + fs, "middle"},
-		labelAt{L + gap, T + gap + fs, "start"}, labelAt{W - R - gap, T + gap + fs, "end"},
-		labelAt{W - R - gap, H - B - gap - fs*0.3, "end"}, labelAt{L + gap, H - B - gap - fs*0.3, "start"})
-	for _, p := range todays {
-		place(p.label, sx(p.x), sy(p.y), 2.6*ms, false)
-	}
-	b.WriteString(legend.svg)
-	b.WriteString(`</svg>`)
-	return b.String()
+	return false
 }
 
 // legendPart is one entry of the chart's legend: its marker as SVG drawn

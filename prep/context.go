@@ -45,74 +45,22 @@ const RecentPasses = 10
 //	                choice's name for a choice; an item never recorded absent
 func RuleContext(c Card) map[string]any {
 	in := c.Input
-	air := scripts.AirFigures(c.AirCall, in.Air)
-	if in.Track.Name != "" {
-		air["headwind_mph"] = in.Air.HeadwindComponent(in.Track.HeadingDeg).MPH()
-	}
-	car := map[string]any{}
-	for k, v := range in.Car.Extra {
-		car[k] = plain(v)
-	}
-	for k, v := range map[string]any{"name": in.Car.Name, "weight_lb": in.Car.WeightLb, "power_hp": in.Car.PowerHP,
-		"induction": string(in.Car.Induction), "distance_ft": in.Car.DistanceFt, "tire": in.Car.Tire, "nitrous_hp": in.Car.NitrousHP} {
-		car[k] = v
-	}
-	kind := map[logbook.SessionKind]string{logbook.TimeTrial: "time trial", logbook.Elimination: "elimination", logbook.Test: "test"}[in.Session.Kind]
-	round := map[string]any{
-		"session": in.Session.String(), "kind": kind, "number": in.Session.N,
-		"date": in.Call.Format("2006-01-02"), "call_time": in.Call.Format("15:04"),
-		"call_hour":       float64(in.Call.Hour()) + float64(in.Call.Minute())/60,
-		"minutes_to_call": math.Round(c.MinutesToGo),
-	}
-	if in.Lane != "" {
-		round["lane"] = string(in.Lane)
-	}
-	if in.OpponentDial.Valid {
-		round["opponent_dial"] = in.OpponentDial.Decimal.InexactFloat64()
-	}
 	units := "imperial"
 	if in.Settings.Units.Temp == weather.DegC {
 		units = "metric"
 	}
 	ctx := map[string]any{
 		"units": units,
-		"air":   air,
+		"air":   ctxAir(c),
 		"track": map[string]any{"name": in.Track.Name, "elevation_ft": in.Track.ElevationFt, "heading_deg": in.Track.HeadingDeg, "prep": engine.PrepName(in.Prep)},
-		"car":   car,
-		"round": round,
+		"car":   ctxCar(in),
+		"round": ctxRound(c),
 	}
 	if p := c.Prediction; len(p.Timers) > 0 {
-		f := p.Finish()
-		pred := map[string]any{"et": f.ET, "sd": f.SD, "low": f.Low, "high": f.High, "physics_only": p.PhysicsOnly,
-			"et_per_1000ft_da": p.Sensitivity.PerKDA}
-		var timers, traps []any
-		for _, t := range p.Timers {
-			timers = append(timers, map[string]any{"distance_ft": t.DistanceFt, "et": t.ET, "low": t.Low, "high": t.High})
-		}
-		for _, t := range p.Traps {
-			traps = append(traps, map[string]any{"distance_ft": t.DistanceFt, "mph": t.MPH, "low": t.Low, "high": t.High})
-			pred["mph"], pred["mph_low"], pred["mph_high"] = t.MPH, t.Low, t.High // the finish trap is last
-		}
-		pred["timers"], pred["traps"] = timers, traps
-		ctx["prediction"] = pred
+		ctx["prediction"] = ctxPrediction(p)
 	}
 	if c.PlanErr == nil && len(c.Plan.Options) > 0 {
-		dial := map[string]any{"recommended": c.Plan.Recommended.InexactFloat64(), "recommended_text": dialText(c.Plan.Recommended, c.Plan.Step),
-			"step": c.Plan.Step.String(), "breakout_risk": c.Plan.Risk,
-			"breakout_chance": bracket.BreakoutChance(c.Plan.Estimate, c.Plan.Recommended)}
-		if len(c.Win) > 0 {
-			if w, ok := winOf(c, c.Plan.Recommended); ok {
-				dial["win_chance"] = w
-			}
-			dial["best_for_win"] = map[string]any{"dial": c.BestForWin.Dial.InexactFloat64(), "win_chance": c.BestForWin.Win,
-				"breakout_chance": bracket.BreakoutChance(c.Plan.Estimate, c.BestForWin.Dial)}
-			var opts []any
-			for _, o := range c.Win {
-				opts = append(opts, map[string]any{"dial": o.Dial.InexactFloat64(), "win_chance": o.Win, "breakout_chance": bracket.BreakoutChance(c.Plan.Estimate, o.Dial)})
-			}
-			dial["options"] = opts
-		}
-		ctx["dial"] = dial
+		ctx["dial"] = ctxDial(c)
 	}
 	if o := in.Opponent; o != nil {
 		ctx["opponent"] = map[string]any{"dial": o.Dial.InexactFloat64(), "margin": o.Margin, "margin_sd": o.MarginSD,
@@ -128,6 +76,90 @@ func RuleContext(c Card) map[string]any {
 		ctx["setup"] = map[string]any{"planned": setupValues(in.Car.Setup, planned), "last": setupValues(in.Car.Setup, last)}
 	}
 	return tidy(ctx).(map[string]any)
+}
+
+// ctxAir is ctx.air: the air at the call, with the headwind when the
+// track (and so its heading) is known.
+func ctxAir(c Card) map[string]any {
+	in := c.Input
+	air := scripts.AirFigures(c.AirCall, in.Air)
+	if in.Track.Name != "" {
+		air["headwind_mph"] = in.Air.HeadwindComponent(in.Track.HeadingDeg).MPH()
+	}
+	return air
+}
+
+// ctxCar is ctx.car: car.yaml's own keys, then the fields pitcard reads,
+// which win over an extra key of the same name.
+func ctxCar(in Input) map[string]any {
+	car := map[string]any{}
+	for k, v := range in.Car.Extra {
+		car[k] = plain(v)
+	}
+	for k, v := range map[string]any{"name": in.Car.Name, "weight_lb": in.Car.WeightLb, "power_hp": in.Car.PowerHP,
+		"induction": string(in.Car.Induction), "distance_ft": in.Car.DistanceFt, "tire": in.Car.Tire, "nitrous_hp": in.Car.NitrousHP} {
+		car[k] = v
+	}
+	return car
+}
+
+// ctxRound is ctx.round: the session, the call and how far off it is, the
+// lane and the other lane's dial.
+func ctxRound(c Card) map[string]any {
+	in := c.Input
+	kind := map[logbook.SessionKind]string{logbook.TimeTrial: "time trial", logbook.Elimination: "elimination", logbook.Test: "test"}[in.Session.Kind]
+	r := map[string]any{
+		"session": in.Session.String(), "kind": kind, "number": in.Session.N,
+		"date": in.Call.Format("2006-01-02"), "call_time": in.Call.Format("15:04"),
+		"call_hour":       float64(in.Call.Hour()) + float64(in.Call.Minute())/60,
+		"minutes_to_call": math.Round(c.MinutesToGo),
+	}
+	if in.Lane != "" {
+		r["lane"] = string(in.Lane)
+	}
+	if in.OpponentDial.Valid {
+		r["opponent_dial"] = in.OpponentDial.Decimal.InexactFloat64()
+	}
+	return r
+}
+
+// ctxPrediction is ctx.prediction: the finish and each timer and trap
+// with its interval.
+func ctxPrediction(p engine.Prediction) map[string]any {
+	f := p.Finish()
+	pred := map[string]any{"et": f.ET, "sd": f.SD, "low": f.Low, "high": f.High, "physics_only": p.PhysicsOnly,
+		"et_per_1000ft_da": p.Sensitivity.PerKDA}
+	var timers, traps []any
+	for _, t := range p.Timers {
+		timers = append(timers, map[string]any{"distance_ft": t.DistanceFt, "et": t.ET, "low": t.Low, "high": t.High})
+	}
+	for _, t := range p.Traps {
+		traps = append(traps, map[string]any{"distance_ft": t.DistanceFt, "mph": t.MPH, "low": t.Low, "high": t.High})
+		pred["mph"], pred["mph_low"], pred["mph_high"] = t.MPH, t.Low, t.High // the finish trap is last
+	}
+	pred["timers"], pred["traps"] = timers, traps
+	return pred
+}
+
+// ctxDial is ctx.dial: the breakout rule's dial before the rules and,
+// against another lane, the chances to win.
+func ctxDial(c Card) map[string]any {
+	dial := map[string]any{"recommended": c.Plan.Recommended.InexactFloat64(), "recommended_text": dialText(c.Plan.Recommended, c.Plan.Step),
+		"step": c.Plan.Step.String(), "breakout_risk": c.Plan.Risk,
+		"breakout_chance": bracket.BreakoutChance(c.Plan.Estimate, c.Plan.Recommended)}
+	if len(c.Win) > 0 {
+		if w, ok := winOf(c, c.Plan.Recommended); ok {
+			dial["win_chance"] = w
+		}
+		dial["best_for_win"] = map[string]any{"dial": c.BestForWin.Dial.InexactFloat64(), "win_chance": c.BestForWin.Win,
+			"breakout_chance": bracket.BreakoutChance(c.Plan.Estimate, c.BestForWin.Dial)}
+		var opts []any
+		for _, o := range c.Win {
+			opts = append(opts, map[string]any{"dial": o.Dial.InexactFloat64(), "win_chance": o.Win, "breakout_chance": bracket.BreakoutChance(c.Plan.Estimate, o.Dial)})
+		}
+		dial["options"] = opts
+	}
+	return dial
 }
 
 // tidy rounds every number handed to the rules to 10 significant digits:

@@ -15,8 +15,39 @@ import (
 
 // RenderJSON writes every number on the card as JSON.
 func RenderJSON(w io.Writer, c Card) error {
+	j := headJSON(c)
+	addContextJSON(j, c)
+	if len(c.Prediction.Timers) > 0 {
+		j["prediction"] = PredictionJSON(c.Prediction, c.Fit)
+	}
+	if c.HasCross {
+		j["cross_check"] = crossCheckJSON(c)
+	}
+	if c.NoDial != "" {
+		j["no_dial"] = c.NoDial
+	}
+	if c.FewPasses != "" {
+		j["few_passes"] = c.FewPasses
+	}
+	if c.PlanErr == nil && len(c.Plan.Options) > 0 {
+		addDialJSON(j, c)
+	}
+	j["rules"] = rulesJSON(c)
+	j["checklist"] = checklistJSON(c)
+	j["today"] = todayJSON(c)
+	if !math.IsNaN(c.RecordMAE) && len(c.Record) > 0 {
+		j["today_mean_miss_s"] = round(c.RecordMAE, 4)
+	}
+	enc := json.NewEncoder(w)
+	enc.SetIndent("", "  ")
+	return enc.Encode(j)
+}
+
+// headJSON is the card's keys that are always there: the round, the air,
+// the problems, cautions and notes.
+func headJSON(c Card) map[string]any {
 	in := c.Input
-	j := map[string]any{
+	return map[string]any{
 		"title":           c.Title,
 		"session":         in.Session.String(),
 		"lane":            string(in.Lane),
@@ -35,6 +66,13 @@ func RenderJSON(w io.Writer, c Card) error {
 		"cautions":      c.Cautions,
 		"notes":         nonNil(c.Notes),
 	}
+}
+
+// addContextJSON adds to j what the round was given beyond the air: the
+// other lane's dial and figures, and the forecast the call's air came
+// from, each when there is one.
+func addContextJSON(j map[string]any, c Card) {
+	in := c.Input
 	if in.OpponentDial.Valid {
 		j["opponent_dial"] = json.Number(dialText(in.OpponentDial.Decimal, in.Settings.DialStep))
 	}
@@ -48,65 +86,73 @@ func RenderJSON(w io.Writer, c Card) error {
 			"ahead_minutes": round(in.Forecast.Ahead.Minutes(), 1), "trusted": in.Forecast.Trusted, "notes": in.Forecast.Notes,
 			"density_altitude_error_ft": weather.RoundDensityAltitude(in.Forecast.DAError.Feet(), weather.UnitFt)}
 	}
+}
+
+// crossCheckJSON is the cross-check and, with a prediction, how far the
+// model is from it.
+func crossCheckJSON(c Card) map[string]any {
+	cc := map[string]any{"et": round(c.Cross.ET, 3), "passes": len(c.Cross.Passes), "basis": c.Cross.Basis, "limit_s": crossLimit(c.Input.Settings), "flag": c.CrossFlag}
 	if len(c.Prediction.Timers) > 0 {
-		j["prediction"] = PredictionJSON(c.Prediction, c.Fit)
+		cc["model_minus_cross_s"] = round(c.Prediction.Finish().ET-c.Cross.ET, 3)
 	}
-	if c.HasCross {
-		cc := map[string]any{"et": round(c.Cross.ET, 3), "passes": len(c.Cross.Passes), "basis": c.Cross.Basis, "limit_s": crossLimit(in.Settings), "flag": c.CrossFlag}
-		if len(c.Prediction.Timers) > 0 {
-			cc["model_minus_cross_s"] = round(c.Prediction.Finish().ET-c.Cross.ET, 3)
+	return cc
+}
+
+// addDialJSON adds to j the dial: its options, its flags, the race
+// against the other lane and the final dial, each when there is one.
+func addDialJSON(j map[string]any, c Card) {
+	var opts []map[string]any
+	for _, o := range c.Plan.Options {
+		m := map[string]any{"dial": json.Number(dialText(o.Dial, c.Plan.Step)), "breakout_chance": round(o.BreakoutChance, 4),
+			"expected_giveaway_s": round(o.Giveaway, 4), "recommended": o.Recommended,
+			"post": c.HasFinal && o.Dial.Equal(c.FinalDial)} // recommended: the breakout rule's, before the crew's rules
+		if w, ok := winOf(c, o.Dial); ok {
+			m["win_chance"] = round(w, 4)
 		}
-		j["cross_check"] = cc
+		opts = append(opts, m)
 	}
-	if c.NoDial != "" {
-		j["no_dial"] = c.NoDial
-	}
-	if c.FewPasses != "" {
-		j["few_passes"] = c.FewPasses
-	}
-	if c.PlanErr == nil && len(c.Plan.Options) > 0 {
-		var opts []map[string]any
-		for _, o := range c.Plan.Options {
-			m := map[string]any{"dial": json.Number(dialText(o.Dial, c.Plan.Step)), "breakout_chance": round(o.BreakoutChance, 4),
-				"expected_giveaway_s": round(o.Giveaway, 4), "recommended": o.Recommended,
-				"post": c.HasFinal && o.Dial.Equal(c.FinalDial)} // recommended: the breakout rule's, before the crew's rules
-			if w, ok := winOf(c, o.Dial); ok {
-				m["win_chance"] = round(w, 4)
-			}
-			opts = append(opts, m)
-		}
-		flags := []string{}
-		if len(c.Failed) > 0 {
-			flags = append(flags, failedWords(c.Failed))
-		}
-		if c.AdjustFlag != "" {
-			flags = append(flags, c.AdjustFlag)
-		}
-		if c.CrossFlag != "" {
-			flags = append(flags, c.CrossFlag)
-		}
-		j["dial"] = map[string]any{"recommended": json.Number(dialText(c.Plan.Recommended, c.Plan.Step)), "step": json.Number(c.Plan.Step.String()), "breakout_risk": c.Plan.Risk,
-			"options": opts, "rule_total": json.Number(dialText(c.TotalAdjust, c.Plan.Step)), "flag": strings.Join(flags, "; "),
-			"post": c.HasFinal && len(c.Failed) == 0}
-		if len(c.Win) > 0 {
-			j["best_for_win"] = map[string]any{"dial": json.Number(dialText(c.BestForWin.Dial, c.Plan.Step)), "win_chance": round(c.BestForWin.Win, 4),
-				"breakout_chance": round(bracket.BreakoutChance(c.Plan.Estimate, c.BestForWin.Dial), 4)}
-			j["head_start_s"] = bracket.HeadStart(c.Plan.Recommended, in.Opponent.Dial).InexactFloat64()
-			j["win_draws"] = bracket.WinDraws
-			if c.WinTrade != "" {
-				j["win_trade"] = c.WinTrade
-			}
-		}
-		if c.HasFinal {
-			j["final_dial"] = json.Number(dialText(c.FinalDial, c.Plan.Step))
-			j["final_breakout_chance"] = round(bracket.BreakoutChance(c.Plan.Estimate, c.FinalDial), 4)
+	j["dial"] = map[string]any{"recommended": json.Number(dialText(c.Plan.Recommended, c.Plan.Step)), "step": json.Number(c.Plan.Step.String()), "breakout_risk": c.Plan.Risk,
+		"options": opts, "rule_total": json.Number(dialText(c.TotalAdjust, c.Plan.Step)), "flag": strings.Join(dialFlags(c), "; "),
+		"post": c.HasFinal && len(c.Failed) == 0}
+	if len(c.Win) > 0 {
+		j["best_for_win"] = map[string]any{"dial": json.Number(dialText(c.BestForWin.Dial, c.Plan.Step)), "win_chance": round(c.BestForWin.Win, 4),
+			"breakout_chance": round(bracket.BreakoutChance(c.Plan.Estimate, c.BestForWin.Dial), 4)}
+		j["head_start_s"] = bracket.HeadStart(c.Plan.Recommended, c.Input.Opponent.Dial).InexactFloat64()
+		j["win_draws"] = bracket.WinDraws
+		if c.WinTrade != "" {
+			j["win_trade"] = c.WinTrade
 		}
 	}
+	if c.HasFinal {
+		j["final_dial"] = json.Number(dialText(c.FinalDial, c.Plan.Step))
+		j["final_breakout_chance"] = round(bracket.BreakoutChance(c.Plan.Estimate, c.FinalDial), 4)
+	}
+}
+
+// dialFlags is what stands against posting the dial: the failed checks,
+// the rules' total and the cross-check, in that order.
+func dialFlags(c Card) []string {
+	flags := []string{}
+	if len(c.Failed) > 0 {
+		flags = append(flags, failedWords(c.Failed))
+	}
+	if c.AdjustFlag != "" {
+		flags = append(flags, c.AdjustFlag)
+	}
+	if c.CrossFlag != "" {
+		flags = append(flags, c.CrossFlag)
+	}
+	return flags
+}
+
+// rulesJSON is each rule file's run: what it defines, its log, its
+// adjustment and its errors.
+func rulesJSON(c Card) []map[string]any {
 	var rules []map[string]any
 	for _, r := range c.Rules {
 		m := map[string]any{"file": r.File, "defines": nonNil(r.Defines), "log": nonNil(r.Log), "took_ms": round(float64(r.Took.Microseconds())/1000, 2)}
 		if r.HasAdjust {
-			m["adjust"], m["reason"] = json.Number(dialText(r.Adjust, in.Settings.DialStep)), r.Reason
+			m["adjust"], m["reason"] = json.Number(dialText(r.Adjust, c.Input.Settings.DialStep)), r.Reason
 		}
 		var errs []string
 		for _, e := range r.Errors {
@@ -115,12 +161,20 @@ func RenderJSON(w io.Writer, c Card) error {
 		m["errors"] = nonNil(errs)
 		rules = append(rules, m)
 	}
-	j["rules"] = nonNilMaps(rules)
+	return nonNilMaps(rules)
+}
+
+// checklistJSON is the checklist's items with their status.
+func checklistJSON(c Card) []map[string]any {
 	var checks []map[string]any
 	for _, ch := range c.Checks {
 		checks = append(checks, map[string]any{"label": ch.Label, "status": ch.Status, "note": ch.Note, "rule": ch.File})
 	}
-	j["checklist"] = nonNilMaps(checks)
+	return nonNilMaps(checks)
+}
+
+// todayJSON is today's passes, predicted against actual.
+func todayJSON(c Card) []map[string]any {
 	var rec []map[string]any
 	for _, r := range c.Record {
 		m := map[string]any{"session": r.Pass.Session.String(), "time": r.Pass.Time.Format(time.RFC3339), "lane": string(r.Pass.Lane), "actual": r.Actual, "notes": passNotes(r.Pass.Notes)}
@@ -129,13 +183,7 @@ func RenderJSON(w io.Writer, c Card) error {
 		}
 		rec = append(rec, m)
 	}
-	j["today"] = nonNilMaps(rec)
-	if !math.IsNaN(c.RecordMAE) && len(c.Record) > 0 {
-		j["today_mean_miss_s"] = round(c.RecordMAE, 4)
-	}
-	enc := json.NewEncoder(w)
-	enc.SetIndent("", "  ")
-	return enc.Encode(j)
+	return nonNilMaps(rec)
 }
 
 // airJSON is the air with the keys of `pitcard air`.

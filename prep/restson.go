@@ -60,20 +60,55 @@ func restsOnRest(p engine.Prediction, f engine.Fit, u weather.Units) []string {
 	return out
 }
 
-// said reports whether a note of the prediction is one RestsOnLine says in
-// its own words (the blend's, the cold start's, the change's, the outside
-// one), so the card and predict do not say it twice.
-func said(p engine.Prediction, f engine.Fit, note string) bool {
+// noteKind is what a note of the prediction is about, so the card can
+// leave out the notes it says in its own words without each caller reading
+// the note's wording.
+type noteKind int
+
+const (
+	noteOther       noteKind = iota // a note printed as it is
+	noteCalibration                 // what the model was calibrated to: Explain says it
+	noteBlend                       // what the blend leaned on: RestsOnLine says it
+	noteOutside                     // today outside the logbook's conditions: RestsOnLine says it
+	noteColdStart                   // too few passes to fit anything: RestsOnLine says it
+	noteChange                      // the change of the car (f.Change): RestsOnLine says it
+)
+
+// kindOf says what a note of the prediction made with f is about. The
+// engine hands its notes over as sentences (engine.Prediction.Notes is a
+// []string), so this is the one place in prep that reads their wording:
+// the change's note is recognized by its value (f.Change.Text()), the
+// others by their opening words. When the engine gives its notes a kind,
+// this function is what changes; its callers do not.
+func kindOf(f engine.Fit, note string) noteKind {
+	switch {
+	case f.Change != nil && note == f.Change.Text():
+		return noteChange
+	case strings.HasPrefix(note, "calibrated to"):
+		return noteCalibration
+	case strings.HasPrefix(note, "leaned on "):
+		return noteBlend
+	case strings.HasPrefix(note, "today lies outside the conditions"):
+		return noteOutside
+	case strings.HasPrefix(note, "only ") && strings.HasSuffix(note, "nothing is fitted yet"):
+		return noteColdStart
+	}
+	return noteOther
+}
+
+// said reports whether a note of kind k is one RestsOnLine says in its own
+// words (the blend's, the cold start's, the change's, the outside one), so
+// the card and predict do not say it twice. It says nothing of the
+// calibration's note, which Explain says.
+func said(p engine.Prediction, k noteKind) bool {
 	if !hasBlend(p) {
 		return false
 	}
-	switch {
-	case f.Change != nil && note == f.Change.Text():
+	switch k {
+	case noteChange, noteBlend, noteOutside:
 		return true
-	case strings.HasPrefix(note, "leaned on "), strings.HasPrefix(note, "today lies outside the conditions"):
-		return true
-	case p.Blend.ColdStart && strings.HasPrefix(note, "only ") && strings.HasSuffix(note, "nothing is fitted yet"):
-		return true
+	case noteColdStart:
+		return p.Blend.ColdStart
 	}
 	return false
 }

@@ -68,3 +68,70 @@ func TestBlendJSONNullsWhatAMemberLacks(t *testing.T) {
 		t.Errorf("cold start line %q", got)
 	}
 }
+
+// The engine's own notes are recognized for what they are, so the card
+// leaves out those it says in its own words: a pass model on 60 passes
+// notes its calibration and its blend, two passes the cold start, and a
+// note of any other kind is printed (the engine's wording, engine/predict.go
+// and engine/blend.go; no outside source).
+func TestNoteKindsOfTheEnginesNotes(t *testing.T) {
+	for _, tc := range []struct {
+		name   string
+		passes int
+		want   []noteKind // kinds the prediction's notes must include
+		not    []noteKind // kinds they must not
+	}{
+		{"fitted", 60, []noteKind{noteCalibration, noteBlend}, []noteKind{noteColdStart}},
+		{"cold start", 2, []noteKind{noteColdStart}, []noteKind{noteCalibration, noteBlend}},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			c := Gather(input(modelLogbook(tc.passes), nil, nil))
+			got := map[noteKind]bool{}
+			for _, n := range c.Prediction.Notes {
+				got[kindOf(c.Fit, n)] = true
+			}
+			for _, k := range tc.want {
+				if !got[k] {
+					t.Errorf("no note of kind %d in %q", k, c.Prediction.Notes)
+				}
+			}
+			for _, k := range tc.not {
+				if got[k] {
+					t.Errorf("a note of kind %d in %q", k, c.Prediction.Notes)
+				}
+			}
+			for _, n := range c.Prediction.Notes {
+				k := kindOf(c.Fit, n)
+				if left := k == noteCalibration || said(c.Prediction, k); left == (k == noteOther) {
+					t.Errorf("note %q (kind %d): left out %v", n, k, left)
+				}
+			}
+		})
+	}
+}
+
+// A note's kind is read once, from its opening words or, for the change of
+// the car, from the change itself; a note of another kind is printed even
+// when the prediction was blended (the engine's wording; no outside source).
+func TestKindOf(t *testing.T) {
+	change := &engine.Change{What: "new converter", Since: 2, Before: 30}
+	f := engine.Fit{Change: change}
+	for _, tc := range []struct {
+		name, note string
+		want       noteKind
+	}{
+		{"calibration", "calibrated to 30 clean passes (2020-04-01 to 2020-04-03); the correction leans mostly on the latest 4", noteCalibration},
+		{"blend", "leaned on the pass model 95 % (by the last 30 passes); interval ×1.09 from their misses", noteBlend},
+		{"outside", "today lies outside the conditions of the passes leaned on (x): the interval is widened by 0.010 s", noteOutside},
+		{"cold start", "only 2 clean passes at 1320 ft: the prediction carries them to this air by the SAE J1349 factor alone; nothing is fitted yet", noteColdStart},
+		{"change", change.Text(), noteChange},
+		{"other", "track temperature not read: taken as the air plus 10 °F", noteOther},
+		{"only, not the cold start", "only the air was read", noteOther},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			if got := kindOf(f, tc.note); got != tc.want {
+				t.Errorf("kindOf(%q) = %d, want %d", tc.note, got, tc.want)
+			}
+		})
+	}
+}

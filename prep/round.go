@@ -1,9 +1,11 @@
-// Package prep is the per-round prep card: it gathers everything a crew
-// needs for one round (the air now and at the call, the prediction, the dial
-// options, what the crew's rules say, the checklist, today's record and the
+// Package prep is the per-round prep card: it gathers what a crew needs for
+// one round (the air now and at the call, the prediction, the dial options,
+// what the crew's rules say, the checklist, today's record and the
 // cautions) and renders it for the terminal, Markdown, HTML and JSON.
 //
-// It reads no files or flags: the caller hands it the event's data.
+// It reads no files or flags and models nothing itself: the caller hands it
+// the event's data, and engine, bracket and weather compute the figures it
+// lays out.
 package prep
 
 import (
@@ -189,78 +191,135 @@ type Card struct {
 func Gather(in Input) Card {
 	start := time.Now()
 	c := Card{Input: in, Cautions: Cautions, Problems: append([]string(nil), in.Problems...)}
-	c.Title = strings.ToUpper(in.Session.Long()[:1]) + in.Session.Long()[1:]
-	if in.Lane != "" {
-		c.Title += ", " + string(in.Lane) + " lane"
-	} else {
-		c.Title += " (lane not set)"
-	}
+	c.Title = roundTitle(in)
 	c.MinutesToGo = in.Call.Sub(in.Now).Minutes()
+	c.gatherAir()
+	cal := calibrateInput(in)
+	var fit engine.Fit
+	carErr := in.Car.Validate("car.yaml")
+	err := carErr
+	if err == nil {
+		fit, err = c.predict(cal)
+	}
+	c.planDial(cal, fit, err)
+	if in.Opponent != nil && c.PlanErr == nil && len(c.Plan.Options) > 0 {
+		c.Win, c.BestForWin, c.WinTrade = winChances(c, in)
+	}
+	c.runRules(carErr)
+	if c.PlanErr == nil && err == nil {
+		base := c.Plan.Recommended
+		if in.PostBestForWin && len(c.Win) > 0 {
+			base = c.BestForWin.Dial
+		}
+		c.FinalDial = bracket.RoundToStep(base.Add(c.TotalAdjust), in.Settings.DialStep)
+		c.HasFinal = true
+	}
+	c.Failed = Failed(c.Checks)
+	c.GatheredTook = time.Since(start)
+	return c
+}
+
+// roundTitle is the card's title: the session and the lane, "Round 3,
+// left lane".
+func roundTitle(in Input) string {
+	title := strings.ToUpper(in.Session.Long()[:1]) + in.Session.Long()[1:]
+	if in.Lane != "" {
+		return title + ", " + string(in.Lane) + " lane"
+	}
+	return title + " (lane not set)"
+}
+
+// gatherAir derives the air at the call and now, and says when the latest
+// reading is too old to trust (a problem).
+func (c *Card) gatherAir() {
+	in := c.Input
 	c.AirCall = in.Air.Derive(in.Elevation)
 	c.AirNowRead = in.Air
 	if in.AirNow != nil {
 		c.AirNowRead = *in.AirNow
 	}
 	c.AirNow = c.AirNowRead.Derive(in.Elevation)
-	if in.AirNow != nil {
-		c.ReadingAge = in.Now.Sub(in.AirNow.Time)
-		limit := in.Settings.MaxReadingAge
-		if limit <= 0 {
-			limit = DefaultMaxReadingAge
-		}
-		if c.ReadingAge > limit {
-			c.StaleReading = fmt.Sprintf("the latest weather reading is %s old (%s; the limit is %s, setting reading_max_age_min): the air has moved since; take a fresh reading",
-				Minutes(c.ReadingAge), in.AirNow.Time.Format("15:04"), Minutes(limit))
-			if ahead := in.Call.Sub(in.AirNow.Time); ahead > limit {
-				c.StaleReading += fmt.Sprintf(", the air at the call is carried %s past it", Minutes(ahead))
-			}
-			c.Problems = append(c.Problems, c.StaleReading)
-		}
+	if in.AirNow == nil {
+		return
 	}
+	c.ReadingAge = in.Now.Sub(in.AirNow.Time)
+	limit := in.Settings.MaxReadingAge
+	if limit <= 0 {
+		limit = DefaultMaxReadingAge
+	}
+	if c.ReadingAge > limit {
+		c.StaleReading = fmt.Sprintf("the latest weather reading is %s old (%s; the limit is %s, setting reading_max_age_min): the air has moved since; take a fresh reading",
+			Minutes(c.ReadingAge), in.AirNow.Time.Format("15:04"), Minutes(limit))
+		if ahead := in.Call.Sub(in.AirNow.Time); ahead > limit {
+			c.StaleReading += fmt.Sprintf(", the air at the call is carried %s past it", Minutes(ahead))
+		}
+		c.Problems = append(c.Problems, c.StaleReading)
+	}
+}
 
-	cal := engine.CalibrateInput{Car: in.Car, Track: in.Track, Tracks: in.Tracks, Passes: in.Passes, Now: latest(in.Now, in.Call, in.Passes),
+// calibrateInput is what the model is calibrated from: the car, the
+// tracks and the logbook up to the latest of now, the call and the passes.
+func calibrateInput(in Input) engine.CalibrateInput {
+	return engine.CalibrateInput{Car: in.Car, Track: in.Track, Tracks: in.Tracks, Passes: in.Passes, Now: latest(in.Now, in.Call, in.Passes),
 		DayStart: in.Settings.DayStart, Aborts: in.Settings.Aborts, Changes: in.Settings.Changes}
-	var fit engine.Fit
-	carErr := in.Car.Validate("car.yaml")
-	err := carErr
-	if err == nil {
-		planned, last := plannedSetup(in)
-		change := in.Change
-		if cc := engine.ChoiceChanges(in.Car.Setup, planned, last); cc != "" { // a changed choice is a change of the car
-			change = strings.TrimPrefix(change+"; "+cc, "; ")
-		}
-		c.Prediction, fit, err = engine.Forecast(cal, engine.PredictInput{Air: in.Air, Prep: in.Prep, WeightLb: in.WeightLb, Time: in.Call, Change: change}, in.HeldOut)
-		if err == nil {
-			engine.ApplySetup(&c.Prediction, engine.PlannedSetup(engine.SetupEffects(fit), planned, last))
-		}
+}
+
+// predict forecasts the round, a changed setup choice counting as a change
+// of the car, and applies the planned setup's effects. It sets
+// c.Prediction and returns the fit it was made with.
+func (c *Card) predict(cal engine.CalibrateInput) (engine.Fit, error) {
+	in := c.Input
+	planned, last := plannedSetup(in)
+	change := in.Change
+	if cc := engine.ChoiceChanges(in.Car.Setup, planned, last); cc != "" { // a changed choice is a change of the car
+		change = strings.TrimPrefix(change+"; "+cc, "; ")
 	}
+	var fit engine.Fit
+	var err error
+	c.Prediction, fit, err = engine.Forecast(cal, engine.PredictInput{Air: in.Air, Prep: in.Prep, WeightLb: in.WeightLb, Time: in.Call, Change: change}, in.HeldOut)
+	if err == nil {
+		engine.ApplySetup(&c.Prediction, engine.PlannedSetup(engine.SetupEffects(fit), planned, last))
+	}
+	return fit, err
+}
+
+// planDial turns the prediction made with fit into the dial table, or
+// says why there is none (err is why there is no prediction), and adds
+// today's record and the cross-check. It applies no rule: runRules does.
+func (c *Card) planDial(cal engine.CalibrateInput, fit engine.Fit, err error) {
+	in := c.Input
 	switch {
 	case err != nil && len(in.Problems) > 0:
 		c.Problems = append(c.Problems, "no prediction until that is fixed")
+		return
 	case err != nil:
 		c.Problems = append(c.Problems, "no prediction: "+err.Error())
-	default:
-		c.Fit = fit
-		if ok, why := c.Prediction.DialReady(); !ok {
-			c.NoDial = why
-			c.PlanErr = errors.New(why)
-		} else {
-			c.Plan, c.PlanErr = bracket.PlanDial(c.Prediction.Estimate(), in.Settings.DialStep, in.Settings.BreakoutRisk, 4)
-			if c.PlanErr != nil {
-				c.Problems = append(c.Problems, "no dial table: "+c.PlanErr.Error())
-			}
-			if n := c.Prediction.Passes; n < engine.FewPassesForDial {
-				c.FewPasses = fmt.Sprintf("this dial rests on %d passes of the car at this distance: the breakout chances are measured on few runs", n)
-			}
+		return
+	}
+	c.Fit = fit
+	if ok, why := c.Prediction.DialReady(); !ok {
+		c.NoDial = why
+		c.PlanErr = errors.New(why)
+	} else {
+		c.Plan, c.PlanErr = bracket.PlanDial(c.Prediction.Estimate(), in.Settings.DialStep, in.Settings.BreakoutRisk, 4)
+		if c.PlanErr != nil {
+			c.Problems = append(c.Problems, "no dial table: "+c.PlanErr.Error())
 		}
-		c.Record, c.RecordMAE = todaysRecord(fit, cal, in)
-		c.Cross, c.HasCross, c.CrossFlag = crossCheck(c.Prediction, in)
+		if n := c.Prediction.Passes; n < engine.FewPassesForDial {
+			c.FewPasses = fmt.Sprintf("this dial rests on %d passes of the car at this distance: the breakout chances are measured on few runs", n)
+		}
 	}
+	c.Record, c.RecordMAE = todaysRecord(fit, cal, in)
+	c.Cross, c.HasCross, c.CrossFlag = crossCheck(c.Prediction, in)
+}
 
-	if in.Opponent != nil && c.PlanErr == nil && len(c.Plan.Options) > 0 {
-		c.Win, c.BestForWin, c.WinTrade = winChances(c, in)
-	}
-	c.RuleContext = RuleContext(c)
+// runRules runs the crew's rules on the card so far, with the car's own
+// safety checks (carErr: car.yaml could not be read), and sums the rules'
+// adjustments, flagging a total beyond the settings' allowance. It does
+// not apply the total to the dial: Gather does.
+func (c *Card) runRules(carErr error) {
+	in := c.Input
+	c.RuleContext = RuleContext(*c)
 	c.Rules = scripts.Run(in.Rules, in.RulesFS, c.RuleContext, in.Settings.RuleLimits)
 	safety := SafetyFor(in.Car, c.Prediction, in.Call, in.Settings.Units)
 	safety.CarUnread = carErr != nil || len(in.Problems) > 0 && in.Car.DistanceFt == 0
@@ -278,17 +337,6 @@ func Gather(in Input) Card {
 			SignedDialText(c.TotalAdjust, in.Settings.DialStep), lim.String())
 		c.Checks = append([]scripts.Check{{Label: "Rule adjustments", Status: scripts.Warn, Note: c.AdjustFlag, File: "pitcard"}}, c.Checks...)
 	}
-	if c.PlanErr == nil && err == nil {
-		base := c.Plan.Recommended
-		if in.PostBestForWin && len(c.Win) > 0 {
-			base = c.BestForWin.Dial
-		}
-		c.FinalDial = bracket.RoundToStep(base.Add(c.TotalAdjust), in.Settings.DialStep)
-		c.HasFinal = true
-	}
-	c.Failed = Failed(c.Checks)
-	c.GatheredTook = time.Since(start)
-	return c
 }
 
 // crossCheck carries the latest clean passes to the call's air by the air

@@ -25,23 +25,47 @@ func RenderText(w io.Writer, c Card, color bool) error {
 // RenderTextWidth is RenderText for a terminal width columns wide (at
 // least 60).
 func RenderTextWidth(w io.Writer, c Card, color bool, width int) error {
-	Width := max(width, 60)
 	v := newView(c)
-	var b strings.Builder
-	paint := func(s string, colors ...text.Color) string {
-		if !color {
-			return s
-		}
-		return text.Colors(colors).Sprint(s)
+	t := &termCard{color: color, width: max(width, 60)}
+	t.head(v)
+	t.dialBox(v)
+	t.problems(v)
+	t.tables(v)
+	t.checklist(v)
+	t.notes(v)
+	t.record(v)
+	t.cautions(v)
+	_, err := io.WriteString(w, t.b.String())
+	return err
+}
+
+// termCard is the terminal card being written: its text so far, whether
+// it is in color and how wide a line may be.
+type termCard struct {
+	b     strings.Builder
+	color bool
+	width int
+}
+
+// paint is s in colors when the card is in color, else s as it is.
+func (t *termCard) paint(s string, colors ...text.Color) string {
+	if !t.color {
+		return s
 	}
-	b.WriteString(paint("PITCARD  "+v.Title, text.Bold) + "\n")
-	// The subtitle breaks between its parts, never inside one.
+	return text.Colors(colors).Sprint(s)
+}
+
+// head writes the title and the subtitle, which breaks between its parts,
+// never inside one.
+func (t *termCard) head(v view) {
+	b := &t.b
+	b.WriteString(t.paint("PITCARD  "+v.Title, text.Bold) + "\n")
 	line := ""
 	for _, part := range v.Subtitle {
 		switch {
 		case line == "":
 			line = part
-		case text.RuneWidthWithoutEscSequences(line+" · "+part) > Width:
+		case text.RuneWidthWithoutEscSequences(line+" · "+part) > t.width:
 			b.WriteString(line + "\n")
 			line = part
 		default:
@@ -49,100 +73,137 @@ func RenderTextWidth(w io.Writer, c Card, color bool, width int) error {
 		}
 	}
 	b.WriteString(line + "\n\n")
-	// The dial box: bold in the terminal's own foreground (or reversed),
-	// never a fixed color that a light or dark background can swallow.
+}
+
+// dialBox writes the dial box: STOP when a check failed, the dial in
+// block digits with how it was reached, or why there is no dial. Bold in
+// the terminal's own foreground (or reversed), never a fixed color that a
+// light or dark background can swallow.
+func (t *termCard) dialBox(v view) {
+	b, paint, width := &t.b, t.paint, t.width
 	if v.Stop != "" {
-		writeBlock(&b, blockDigits("STOP"), [5]string{1: "  DO NOT    ", 2: "  POST THE  ", 3: "  DIAL      "}, paint, text.Bold, text.ReverseVideo)
-		b.WriteString(paint(wrap("  "+v.Stop, Width, "    "), text.Bold) + "\n\n")
+		writeBlock(b, blockDigits("STOP"), [5]string{1: "  DO NOT    ", 2: "  POST THE  ", 3: "  DIAL      "}, paint, text.Bold, text.ReverseVideo)
+		b.WriteString(paint(wrap("  "+v.Stop, width, "    "), text.Bold) + "\n\n")
 	}
 	if v.Dial != "" {
 		labels := [5]string{1: "  POST THIS ", 2: "  DIAL-IN   "}
 		if v.Stop != "" {
 			labels = [5]string{1: "  THE DIAL  ", 2: "  ONCE      ", 3: "  CLEARED   "}
 		}
-		writeBlock(&b, blockDigits(v.Dial), labels, paint, text.Bold)
+		writeBlock(b, blockDigits(v.Dial), labels, paint, text.Bold)
 		b.WriteString("\n")
 		for _, l := range v.DialLines {
-			b.WriteString(wrap("  "+l, Width, "    ") + "\n")
+			b.WriteString(wrap("  "+l, width, "    ") + "\n")
 		}
 		if v.DialAlert != "" {
-			b.WriteString(paint(wrap("  CHECK: "+v.DialAlert, Width, "    "), text.Bold) + "\n")
+			b.WriteString(paint(wrap("  CHECK: "+v.DialAlert, width, "    "), text.Bold) + "\n")
 		}
 		b.WriteString("\n")
 	} else if v.NoDial != "" {
 		b.WriteString(paint("  NO DIAL YET", text.Bold, text.ReverseVideo) + "\n")
-		b.WriteString(wrap("  "+v.NoDial, Width, "  ") + "\n")
+		b.WriteString(wrap("  "+v.NoDial, width, "  ") + "\n")
 		if v.Guide != "" {
-			b.WriteString(wrap("  "+v.Guide, Width, "  ") + "\n")
+			b.WriteString(wrap("  "+v.Guide, width, "  ") + "\n")
 		}
 		b.WriteString("\n")
 	} else {
 		b.WriteString(paint("  NO DIAL: see the problems below", text.Bold, text.ReverseVideo) + "\n\n")
 	}
+}
+
+// problems writes the problems, in red, each on its own.
+func (t *termCard) problems(v view) {
 	for _, p := range v.Problems {
-		b.WriteString(paint(wrap("  PROBLEM: "+p, Width, "    "), text.FgRed) + "\n")
+		t.b.WriteString(t.paint(wrap("  PROBLEM: "+p, t.width, "    "), text.FgRed) + "\n")
 	}
 	if len(v.Problems) > 0 {
-		b.WriteString("\n")
+		t.b.WriteString("\n")
 	}
-	writeTable(&b, v.Air, color, Width)
-	b.WriteString(wrap(v.AirNote, Width, "") + "\n\n")
+}
+
+// tables writes the air, the prediction, the dial options and the rules,
+// each with its notes; a table without rows is left out (the air's never
+// is).
+func (t *termCard) tables(v view) {
+	b, width := &t.b, t.width
+	writeTable(b, v.Air, t.color, width)
+	b.WriteString(wrap(v.AirNote, width, "") + "\n\n")
 	if len(v.Prediction.Rows) > 0 {
-		writeTable(&b, v.Prediction, color, Width)
+		writeTable(b, v.Prediction, t.color, width)
 		for _, l := range v.Basis {
-			b.WriteString(wrap(l, Width, "  ") + "\n")
+			b.WriteString(wrap(l, width, "  ") + "\n")
 		}
 		b.WriteString("\n")
 	}
 	if len(v.Options.Rows) > 0 {
-		writeTable(&b, v.Options, color, Width)
+		writeTable(b, v.Options, t.color, width)
 		if v.OptionsNote != "" {
-			b.WriteString(wrap(v.OptionsNote, Width, "  ") + "\n")
+			b.WriteString(wrap(v.OptionsNote, width, "  ") + "\n")
 		}
 		b.WriteString("\n")
 	}
 	if len(v.Rules.Rows) > 0 {
-		writeTable(&b, v.Rules, color, Width)
+		writeTable(b, v.Rules, t.color, width)
 		b.WriteString("\n")
 	}
-	if len(v.Checks) > 0 {
-		b.WriteString(paint("Checklist", text.Bold) + "\n")
-		for _, ch := range v.Checks {
-			word := ch.word()
-			switch ch.Status {
-			case scripts.Fail:
-				word = paint(word, text.FgRed, text.Bold)
-			case scripts.Warn:
-				word = paint(word, text.FgYellow, text.Bold)
-			case scripts.Pass:
-				word = paint(word, text.FgGreen)
-			}
-			b.WriteString(fmt.Sprintf("  %s %s\n", word, wrap(ch.line(), Width-8, "       ")))
+}
+
+// checklist writes the checklist, each item's status colored by what it
+// says.
+func (t *termCard) checklist(v view) {
+	if len(v.Checks) == 0 {
+		return
+	}
+	b, paint := &t.b, t.paint
+	b.WriteString(paint("Checklist", text.Bold) + "\n")
+	for _, ch := range v.Checks {
+		word := ch.word()
+		switch ch.Status {
+		case scripts.Fail:
+			word = paint(word, text.FgRed, text.Bold)
+		case scripts.Warn:
+			word = paint(word, text.FgYellow, text.Bold)
+		case scripts.Pass:
+			word = paint(word, text.FgGreen)
 		}
-		b.WriteString("\n")
+		b.WriteString(fmt.Sprintf("  %s %s\n", word, wrap(ch.line(), t.width-8, "       ")))
 	}
-	if len(v.Notes) > 0 {
-		b.WriteString(paint("Setup notes", text.Bold) + "\n")
-		for _, n := range v.Notes {
-			b.WriteString(wrap("  - "+n, Width, "    ") + "\n")
+	b.WriteString("\n")
+}
+
+// notes writes the rules' setup notes.
+func (t *termCard) notes(v view) {
+	if len(v.Notes) == 0 {
+		return
+	}
+	t.b.WriteString(t.paint("Setup notes", text.Bold) + "\n")
+	for _, n := range v.Notes {
+		t.b.WriteString(wrap("  - "+n, t.width, "    ") + "\n")
+	}
+	t.b.WriteString("\n")
+}
+
+// record writes today's record with its mean miss and the pointer to the
+// segment comparison.
+func (t *termCard) record(v view) {
+	if len(v.Record.Rows) == 0 {
+		return
+	}
+	writeTable(&t.b, v.Record, t.color, t.width)
+	for _, n := range []string{v.RecordNote, v.RecordHint} {
+		if n != "" {
+			t.b.WriteString(n + "\n")
 		}
-		b.WriteString("\n")
 	}
-	if len(v.Record.Rows) > 0 {
-		writeTable(&b, v.Record, color, Width)
-		for _, n := range []string{v.RecordNote, v.RecordHint} {
-			if n != "" {
-				b.WriteString(n + "\n")
-			}
-		}
-		b.WriteString("\n")
-	}
-	b.WriteString(paint("Cautions", text.Bold) + "\n")
+	t.b.WriteString("\n")
+}
+
+// cautions writes the cautions, the card's last section.
+func (t *termCard) cautions(v view) {
+	t.b.WriteString(t.paint("Cautions", text.Bold) + "\n")
 	for _, c := range v.Cautions {
-		b.WriteString(wrap("  ! "+c, Width, "    ") + "\n")
+		t.b.WriteString(wrap("  ! "+c, t.width, "    ") + "\n")
 	}
-	_, err := io.WriteString(w, b.String())
-	return err
 }
 
 func writeTable(b *strings.Builder, t table, color bool, width int) {

@@ -108,12 +108,28 @@ func (ch checkRow) line() string {
 	return l
 }
 
+// newView lays the card out in words and figures, a section at a time, in
+// the card's order. It computes nothing: Gather did.
 func newView(c Card) view {
-	in := c.Input
-	u := in.Settings.Units
 	v := view{Title: c.Title, Cautions: c.Cautions}
+	v.Subtitle = subtitleLines(c)
+	v.dialBox(c)
+	v.airTable(c)
+	v.predictionTable(c)
+	v.optionsTable(c)
+	v.rulesAndChecks(c)
+	v.Notes = c.Notes
+	v.recordTable(c)
+	v.Problems = c.Problems
+	return v
+}
+
+// subtitleLines is the card's subtitle: the track and day, the call time
+// and how far off it is, the car and the other lane's dial.
+func subtitleLines(c Card) []string {
+	in := c.Input
 	day := in.Call.Format("Mon 2006-01-02")
-	v.Subtitle = append(v.Subtitle, fmt.Sprintf("%s · %s", text.OrDash(in.Track.Name), day))
+	out := []string{fmt.Sprintf("%s · %s", text.OrDash(in.Track.Name), day)}
 	call := "called " + in.Call.Format("15:04")
 	switch m := math.Round(c.MinutesToGo); {
 	case m > 0:
@@ -123,50 +139,21 @@ func newView(c Card) view {
 	default:
 		call += " (" + Minutes(time.Duration(-m)*time.Minute) + " ago)"
 	}
-	v.Subtitle = append(v.Subtitle, call)
+	out = append(out, call)
 	car := text.OrDash(in.Car.Name)
 	if in.OpponentDial.Valid {
 		car += " · the other lane dials " + DialText(in.OpponentDial.Decimal, in.Settings.DialStep)
 	}
-	v.Subtitle = append(v.Subtitle, car)
+	return append(out, car)
+}
 
-	// The dial.
-	step := in.Settings.DialStep
+// dialBox fills the dial's box: the dial and how it was reached, the
+// rules' alert, the failed checks, or why there is no dial and the guide
+// shown instead. It does not decide the dial: Gather did.
+func (v *view) dialBox(c Card) {
 	if c.HasFinal {
-		v.Dial = dialText(c.FinalDial, step)
-		rec := fmt.Sprintf("before the rules %s: %.1f %% chance of breaking out (risk accepted %.0f %%)",
-			dialText(c.Plan.Recommended, step), 100*bracket.BreakoutChance(c.Plan.Estimate, c.Plan.Recommended), 100*c.Plan.Risk)
-		v.DialLines = append(v.DialLines, rec)
-		if c.FewPasses != "" {
-			v.DialLines = append(v.DialLines, "NOTE: "+c.FewPasses)
-		}
-		if len(c.Win) > 0 {
-			v.DialLines = append(v.DialLines, HeadStartWords(c.Plan.Recommended, in.Opponent.Dial))
-			if w, ok := winOf(c, c.Plan.Recommended); ok {
-				v.DialLines = append(v.DialLines, fmt.Sprintf("against the other lane: %.1f %% to win on %s; the dial that wins most is %s (%.1f %% to win, %.1f %% breakout)%s",
-					100*w, dialText(c.Plan.Recommended, step), dialText(c.BestForWin.Dial, step), 100*c.BestForWin.Win,
-					100*bracket.BreakoutChance(c.Plan.Estimate, c.BestForWin.Dial), postedWords(in.PostBestForWin)))
-			}
-			if c.WinTrade != "" {
-				v.DialLines = append(v.DialLines, "CHOICE: "+c.WinTrade)
-			}
-		}
-		for _, a := range c.Adjustments {
-			v.DialLines = append(v.DialLines, fmt.Sprintf("%s s %s (%s)", SignedDialText(a.Adjust, step), a.Reason, a.File))
-		}
-
-		if len(c.Adjustments) > 0 {
-			chance := bracket.BreakoutChance(c.Plan.Estimate, c.FinalDial)
-			line := fmt.Sprintf("final %s: %.1f %% chance of breaking out", v.Dial, 100*chance)
-			if chance > c.Plan.Risk {
-				line += fmt.Sprintf(", more than the %.0f %% you accept: the rules dialed past the recommendation", 100*c.Plan.Risk)
-			}
-			v.DialLines = append(v.DialLines, line)
-		}
-		if c.HasCross && c.CrossFlag == "" {
-			v.DialLines = append(v.DialLines, fmt.Sprintf("cross-check %.3f s, the latest %s carried by the air alone: the model agrees within %.2f s",
-				c.Cross.ET, text.Plural(len(c.Cross.Passes), "pass"), crossLimit(in.Settings)))
-		}
+		v.Dial = dialText(c.FinalDial, c.Input.Settings.DialStep)
+		v.DialLines = dialLines(c, v.Dial)
 	}
 	v.DialAlert = c.AdjustFlag
 	if c.CrossFlag != "" {
@@ -182,19 +169,65 @@ func newView(c Card) view {
 			v.Guide = fmt.Sprintf("Guide from %s: %s %.2f s, 95 %% interval %.2f–%.2f s. Not a dial-in.", GuideFrom(f), TimerName(t.DistanceFt), t.ET, t.Low, t.High)
 		}
 	}
+}
 
-	// The air now and at the call.
-	nowHead := "now " + c.AirNowRead.Time.Format("15:04")
-	if in.AirNow != nil {
-		nowHead = "read " + c.AirNowRead.Time.Format("15:04") + ", " + Minutes(c.ReadingAge) + " ago"
-		if c.ReadingAge < time.Minute {
-			nowHead = "read " + c.AirNowRead.Time.Format("15:04") + ", just now"
-		}
-		if c.StaleReading != "" {
-			nowHead += " (OLD)"
-		}
+// dialLines says how the final dial (dial, as printed) was reached: the
+// breakout rule's pick and its chance, the race against the other lane,
+// each rule's adjustment, the final chance and the cross-check.
+func dialLines(c Card, dial string) []string {
+	in := c.Input
+	step := in.Settings.DialStep
+	rec := fmt.Sprintf("before the rules %s: %.1f %% chance of breaking out (risk accepted %.0f %%)",
+		dialText(c.Plan.Recommended, step), 100*bracket.BreakoutChance(c.Plan.Estimate, c.Plan.Recommended), 100*c.Plan.Risk)
+	out := []string{rec}
+	if c.FewPasses != "" {
+		out = append(out, "NOTE: "+c.FewPasses)
 	}
-	v.Air = table{Title: "Air", Header: []string{"", nowHead, "at the call " + in.Call.Format("15:04")}, Marked: -1}
+	if len(c.Win) > 0 {
+		out = append(out, winLines(c)...)
+	}
+	for _, a := range c.Adjustments {
+		out = append(out, fmt.Sprintf("%s s %s (%s)", SignedDialText(a.Adjust, step), a.Reason, a.File))
+	}
+	if len(c.Adjustments) > 0 {
+		chance := bracket.BreakoutChance(c.Plan.Estimate, c.FinalDial)
+		line := fmt.Sprintf("final %s: %.1f %% chance of breaking out", dial, 100*chance)
+		if chance > c.Plan.Risk {
+			line += fmt.Sprintf(", more than the %.0f %% you accept: the rules dialed past the recommendation", 100*c.Plan.Risk)
+		}
+		out = append(out, line)
+	}
+	if c.HasCross && c.CrossFlag == "" {
+		out = append(out, fmt.Sprintf("cross-check %.3f s, the latest %s carried by the air alone: the model agrees within %.2f s",
+			c.Cross.ET, text.Plural(len(c.Cross.Passes), "pass"), crossLimit(in.Settings)))
+	}
+	return out
+}
+
+// winLines is the race against the other lane, for the dial's box: who
+// leaves first, the chance to win on the recommended dial and the dial
+// that wins most, and the trade between them.
+func winLines(c Card) []string {
+	in := c.Input
+	step := in.Settings.DialStep
+	out := []string{HeadStartWords(c.Plan.Recommended, in.Opponent.Dial)}
+	if w, ok := winOf(c, c.Plan.Recommended); ok {
+		out = append(out, fmt.Sprintf("against the other lane: %.1f %% to win on %s; the dial that wins most is %s (%.1f %% to win, %.1f %% breakout)%s",
+			100*w, dialText(c.Plan.Recommended, step), dialText(c.BestForWin.Dial, step), 100*c.BestForWin.Win,
+			100*bracket.BreakoutChance(c.Plan.Estimate, c.BestForWin.Dial), postedWords(in.PostBestForWin)))
+	}
+	if c.WinTrade != "" {
+		out = append(out, "CHOICE: "+c.WinTrade)
+	}
+	return out
+}
+
+// airTable fills the air now and at the call, a row per figure, and the
+// note saying where the call's air came from.
+func (v *view) airTable(c Card) {
+	in := c.Input
+	u := in.Settings.Units
+	v.Air = table{Title: "Air", Header: []string{"", airNowHead(c), "at the call " + in.Call.Format("15:04")}, Marked: -1}
 	row := func(name string, f func(weather.Air, weather.Reading) string) {
 		v.Air.Rows = append(v.Air.Rows, []string{name, f(c.AirNow, c.AirNowRead), f(c.AirCall, in.Air)})
 	}
@@ -222,71 +255,112 @@ func newView(c Card) view {
 	if in.Forecast != nil && !in.Forecast.Trusted {
 		v.AirNote += " (NOT trusted)"
 	}
+}
 
-	// The prediction.
+// airNowHead heads the air-now column: when the reading was taken and how
+// old it is, or the time now when nothing was read.
+func airNowHead(c Card) string {
+	nowHead := "now " + c.AirNowRead.Time.Format("15:04")
+	if c.Input.AirNow != nil {
+		nowHead = "read " + c.AirNowRead.Time.Format("15:04") + ", " + Minutes(c.ReadingAge) + " ago"
+		if c.ReadingAge < time.Minute {
+			nowHead = "read " + c.AirNowRead.Time.Format("15:04") + ", just now"
+		}
+		if c.StaleReading != "" {
+			nowHead += " (OLD)"
+		}
+	}
+	return nowHead
+}
+
+// predictionTable fills the prediction, a row per timer with its trap
+// speed, and the lines saying what it rests on. Nothing when there is no
+// prediction.
+func (v *view) predictionTable(c Card) {
+	u := c.Input.Settings.Units
 	p := c.Prediction
-	if len(p.Timers) > 0 {
-		v.Prediction = table{Title: "Prediction (95 % interval)", Header: []string{"Timer", "ET", "interval", "Trap", "interval"}, Marked: len(p.Timers) - 1}
-		for _, t := range p.Timers {
-			r := []string{TimerName(t.DistanceFt), fmt.Sprintf("%.3f", t.ET), fmt.Sprintf("%.3f–%.3f", t.Low, t.High), "", ""}
-			for _, tr := range p.Traps {
-				if tr.DistanceFt == t.DistanceFt {
-					r[3] = weather.MPH(tr.MPH).Format(u.Speed, 2)
-					lo, hi := weather.MPH(tr.Low).In(u.Speed), weather.MPH(tr.High).In(u.Speed)
-					r[4] = fmt.Sprintf("%.2f–%.2f", lo, hi)
-				}
+	if len(p.Timers) == 0 {
+		return
+	}
+	v.Prediction = table{Title: "Prediction (95 % interval)", Header: []string{"Timer", "ET", "interval", "Trap", "interval"}, Marked: len(p.Timers) - 1}
+	for _, t := range p.Timers {
+		r := []string{TimerName(t.DistanceFt), fmt.Sprintf("%.3f", t.ET), fmt.Sprintf("%.3f–%.3f", t.Low, t.High), "", ""}
+		for _, tr := range p.Traps {
+			if tr.DistanceFt == t.DistanceFt {
+				r[3] = weather.MPH(tr.MPH).Format(u.Speed, 2)
+				lo, hi := weather.MPH(tr.Low).In(u.Speed), weather.MPH(tr.High).In(u.Speed)
+				r[4] = fmt.Sprintf("%.2f–%.2f", lo, hi)
 			}
-			v.Prediction.Rows = append(v.Prediction.Rows, r)
 		}
-		v.Basis = Explain(p, c.Fit, u)
-		if l := RestsOnLine(p, c.Fit, u); l != "" {
-			// One line, as the blend's note was: the card is at its page limit.
-			v.Basis = append(v.Basis, "Leaned on "+l+".")
+		v.Prediction.Rows = append(v.Prediction.Rows, r)
+	}
+	v.Basis = Explain(p, c.Fit, u)
+	if l := RestsOnLine(p, c.Fit, u); l != "" {
+		// One line, as the blend's note was: the card is at its page limit.
+		v.Basis = append(v.Basis, "Leaned on "+l+".")
+	}
+}
+
+// optionsTable fills the dial options, a row per dial with its marks
+// (the one to post, the breakout rule's, the one that wins most), and the
+// note on the other lane's figures. Nothing when there is no plan.
+func (v *view) optionsTable(c Card) {
+	in := c.Input
+	step := in.Settings.DialStep
+	if c.PlanErr != nil || len(c.Plan.Options) == 0 {
+		return
+	}
+	v.Options = table{Title: "Dial options", Header: []string{"Dial", "Breakout", "Over dial (exp.)", ""}, Marked: -1}
+	if len(c.Win) > 0 {
+		v.Options.Header = []string{"Dial", "Breakout", "Over dial (exp.)", "To win", ""}
+	}
+	for i, o := range c.Plan.Options {
+		row := []string{dialText(o.Dial, step), fmt.Sprintf("%.1f %%", 100*o.BreakoutChance), fmt.Sprintf("%.3f s", o.Giveaway)}
+		if len(c.Win) > 0 {
+			w, _ := winOf(c, o.Dial)
+			row = append(row, fmt.Sprintf("%.1f %%", 100*w))
+		}
+		v.Options.Rows = append(v.Options.Rows, append(row, strings.Join(v.optionMarks(c, i, o), ", ")))
+	}
+	if len(c.Win) > 0 {
+		v.OptionsNote = fmt.Sprintf("To win: against the other lane's %s dial, its car %+.3f s over its dial (± %.3f) and its driver's reaction %.3f ± %.3f s; %d races drawn per dial (good to ±0.5 points).",
+			dialText(in.Opponent.Dial, step), in.Opponent.Margin, in.Opponent.MarginSD, in.Opponent.RT.Mean, in.Opponent.RT.SD, bracket.WinDraws)
+		if in.Opponent.From != "" { // a named car: where its figures came from
+			v.OptionsNote += " Its figures: " + in.Opponent.From + "."
 		}
 	}
+}
 
-	// The dial options.
-	if c.PlanErr == nil && len(c.Plan.Options) > 0 {
-		v.Options = table{Title: "Dial options", Header: []string{"Dial", "Breakout", "Over dial (exp.)", ""}, Marked: -1}
-		if len(c.Win) > 0 {
-			v.Options.Header = []string{"Dial", "Breakout", "Over dial (exp.)", "To win", ""}
-		}
-		for i, o := range c.Plan.Options {
-			// The row to post is the final dial, after the rules; the
-			// breakout rule's pick is labeled as what it is.
-			var marks []string
-			final := c.HasFinal && o.Dial.Equal(c.FinalDial)
-			switch {
-			case final && len(c.Failed) > 0:
-				marks, v.Options.Marked = append(marks, "final (a check failed)"), i
-			case final:
-				marks, v.Options.Marked = append(marks, "post this"), i
-			case o.Recommended:
-				marks = append(marks, "before the rules")
-				if !c.HasFinal {
-					v.Options.Marked = i
-				}
-			}
-			if len(c.Win) > 0 && o.Dial.Equal(c.BestForWin.Dial) {
-				marks = append(marks, "wins most")
-			}
-			row := []string{dialText(o.Dial, step), fmt.Sprintf("%.1f %%", 100*o.BreakoutChance), fmt.Sprintf("%.3f s", o.Giveaway)}
-			if len(c.Win) > 0 {
-				w, _ := winOf(c, o.Dial)
-				row = append(row, fmt.Sprintf("%.1f %%", 100*w))
-			}
-			v.Options.Rows = append(v.Options.Rows, append(row, strings.Join(marks, ", ")))
-		}
-		if len(c.Win) > 0 {
-			v.OptionsNote = fmt.Sprintf("To win: against the other lane's %s dial, its car %+.3f s over its dial (± %.3f) and its driver's reaction %.3f ± %.3f s; %d races drawn per dial (good to ±0.5 points).",
-				dialText(in.Opponent.Dial, step), in.Opponent.Margin, in.Opponent.MarginSD, in.Opponent.RT.Mean, in.Opponent.RT.SD, bracket.WinDraws)
-			if in.Opponent.From != "" { // a named car: where its figures came from
-				v.OptionsNote += " Its figures: " + in.Opponent.From + "."
-			}
+// optionMarks is the marks of option i, o, and marks its row as the one
+// to emphasize when it is the dial to post (or, without a final dial, the
+// breakout rule's pick).
+func (v *view) optionMarks(c Card, i int, o bracket.DialOption) []string {
+	// The row to post is the final dial, after the rules; the
+	// breakout rule's pick is labeled as what it is.
+	var marks []string
+	final := c.HasFinal && o.Dial.Equal(c.FinalDial)
+	switch {
+	case final && len(c.Failed) > 0:
+		marks, v.Options.Marked = append(marks, "final (a check failed)"), i
+	case final:
+		marks, v.Options.Marked = append(marks, "post this"), i
+	case o.Recommended:
+		marks = append(marks, "before the rules")
+		if !c.HasFinal {
+			v.Options.Marked = i
 		}
 	}
+	if len(c.Win) > 0 && o.Dial.Equal(c.BestForWin.Dial) {
+		marks = append(marks, "wins most")
+	}
+	return marks
+}
 
-	// The rules.
+// rulesAndChecks fills the rules' table, a row per rule file with its
+// adjustment or its first error, and the checklist with when each item
+// was ticked.
+func (v *view) rulesAndChecks(c Card) {
+	in := c.Input
 	v.Rules = table{Title: "Rules", Header: []string{"Rule", "Defines", "Dial", "Result"}, Marked: -1}
 	for _, r := range c.Rules {
 		adj, result := "", "ok"
@@ -305,26 +379,27 @@ func newView(c Card) view {
 		}
 		v.Checks = append(v.Checks, row)
 	}
-	v.Notes = c.Notes
+}
 
-	// Today's record.
-	if len(c.Record) > 0 {
-		v.Record = table{Title: "Today so far: predicted against actual", Header: []string{"Round", "Time", "Lane", "Predicted", "Ran", "Off by", "Notes"}, Marked: -1}
-		for _, r := range c.Record {
-			pred, off := "–", ""
-			if !math.IsNaN(r.Predicted) {
-				pred, off = fmt.Sprintf("%.3f", r.Predicted), fmt.Sprintf("%+.3f", r.Error)
-			}
-			v.Record.Rows = append(v.Record.Rows, []string{r.Pass.Session.String(), r.Pass.Time.Format("15:04"), string(r.Pass.Lane), pred,
-				fmt.Sprintf("%.3f", r.Actual), off, passNotes(r.Pass.Notes)})
-		}
-		if !math.IsNaN(c.RecordMAE) {
-			v.RecordNote = fmt.Sprintf("Mean miss today: %.3f s (each predicted from the passes before it).", c.RecordMAE)
-		}
-		v.RecordHint = compareHint
+// recordTable fills today's record, predicted against actual, with the
+// day's mean miss. Nothing before today's first pass.
+func (v *view) recordTable(c Card) {
+	if len(c.Record) == 0 {
+		return
 	}
-	v.Problems = c.Problems
-	return v
+	v.Record = table{Title: "Today so far: predicted against actual", Header: []string{"Round", "Time", "Lane", "Predicted", "Ran", "Off by", "Notes"}, Marked: -1}
+	for _, r := range c.Record {
+		pred, off := "–", ""
+		if !math.IsNaN(r.Predicted) {
+			pred, off = fmt.Sprintf("%.3f", r.Predicted), fmt.Sprintf("%+.3f", r.Error)
+		}
+		v.Record.Rows = append(v.Record.Rows, []string{r.Pass.Session.String(), r.Pass.Time.Format("15:04"), string(r.Pass.Lane), pred,
+			fmt.Sprintf("%.3f", r.Actual), off, passNotes(r.Pass.Notes)})
+	}
+	if !math.IsNaN(c.RecordMAE) {
+		v.RecordNote = fmt.Sprintf("Mean miss today: %.3f s (each predicted from the passes before it).", c.RecordMAE)
+	}
+	v.RecordHint = compareHint
 }
 
 // compareHint points from today's record to the segment comparison.
@@ -388,7 +463,7 @@ func Explain(p engine.Prediction, f engine.Fit, u weather.Units) []string {
 		out = append(out, fmt.Sprintf("Left out %s %s: %s%s.", o.Pass.Time.Format("01-02"), o.Pass.Session.Long(), passNotes(o.Reason), more))
 	}
 	for _, n := range p.Notes {
-		if strings.HasPrefix(n, "calibrated to") || said(p, f, n) {
+		if k := kindOf(f, n); k == noteCalibration || said(p, k) {
 			continue // said above, or by RestsOn
 		}
 		out = append(out, text.UpperFirst(n)+".")
