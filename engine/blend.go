@@ -644,92 +644,115 @@ func baseKey(cal CalibrateInput) string {
 // of the ScoredPasses targets cost more than their calibrations.
 // TestHeldOutKeySeesEveryField finds the fields by reflection.
 func heldOutKey(base string, c CalibrateInput, next PredictInput) string {
-	var b []byte
-	num := func(v int64) { b = binary.AppendVarint(b, v) }
-	float := func(v float64) { b = binary.LittleEndian.AppendUint64(b, math.Float64bits(v)) }
-	str := func(v string) { num(int64(len(v))); b = append(b, v...) }
-	flag := func(v bool) {
-		if v {
-			b = append(b, 1)
-		} else {
-			b = append(b, 0)
-		}
-	}
-	clock := func(t time.Time) {
-		zone, offset := t.Zone()
-		num(t.Unix())
-		num(int64(t.Nanosecond()))
-		str(zone)
-		num(int64(offset))
-	}
-	dec := func(d decimal.NullDecimal) {
-		flag(d.Valid)
-		num(int64(d.Decimal.Exponent()))
-		if d.Decimal.NumDigits() <= 18 { // the coefficient fits an int64
-			num(d.Decimal.CoefficientInt64())
-			return
-		}
-		str(d.Decimal.Coefficient().String())
-	}
-	reading := func(r weather.Reading) {
-		clock(r.Time)
-		float(float64(r.Temp))
-		float(float64(r.Baro))
-		num(int64(r.BaroKind))
-		float(r.RH)
-		flag(r.DewPointSet)
-		float(float64(r.DewPoint))
-		float(float64(r.Wind))
-		float(r.WindFrom)
-		flag(r.WindDirUnknown)
-		flag(r.WindUnknown)
-		float(float64(r.TrackTemp))
-		flag(r.HasTrack)
-		str(r.Note)
-	}
 	h := sha256.New()
-	var keys []string // the sorted keys of the last pass's Extra
 	fmt.Fprintf(h, "v2|%s|%+v|", base, c.Track)
-	reading(next.Air)
-	float(next.Prep)
-	float(next.WeightLb)
-	clock(next.Time)
-	str(next.Change)
-	flag(next.Quick)
+	var k keyWriter
+	k.reading(next.Air)
+	k.float(next.Prep)
+	k.float(next.WeightLb)
+	k.clock(next.Time)
+	k.str(next.Change)
+	k.flag(next.Quick)
 	for i := range c.Passes {
-		p := &c.Passes[i]
-		num(int64(p.Line))
-		clock(p.Time)
-		str(p.Track)
-		num(int64(p.Session.Kind))
-		num(int64(p.Session.N))
-		str(string(p.Lane))
-		dec(p.Dial)
-		dec(p.RT)
-		for _, et := range p.ET {
-			dec(et)
-		}
-		dec(p.MPH660)
-		dec(p.MPH1320)
-		reading(p.Air)
-		flag(p.HasAir)
-		float(p.WeightLb)
-		str(p.Notes)
-		str(p.Change)
-		num(int64(len(p.Extra)))
-		if !sameKeys(keys, p.Extra) { // the crew's columns: sorted once for a run of passes with the same ones
-			keys = slices.AppendSeq(keys[:0], maps.Keys(p.Extra))
-			slices.Sort(keys)
-		}
-		for _, k := range keys {
-			str(k)
-			str(p.Extra[k])
-		}
-		h.Write(b)
-		b = b[:0]
+		k.pass(&c.Passes[i])
+		h.Write(k.b)
+		k.b = k.b[:0]
 	}
-	h.Write(b)
+	h.Write(k.b)
 	return hex.EncodeToString(h.Sum(nil))
+}
+
+// keyWriter writes the values heldOutKey digests into b, each in a form
+// that cannot run into the next (lengths before strings, fixed widths for
+// floats).
+type keyWriter struct {
+	b    []byte
+	keys []string // the sorted keys of the last pass's Extra
+}
+
+func (k *keyWriter) num(v int64) { k.b = binary.AppendVarint(k.b, v) }
+func (k *keyWriter) float(v float64) {
+	k.b = binary.LittleEndian.AppendUint64(k.b, math.Float64bits(v))
+}
+func (k *keyWriter) str(v string) { k.num(int64(len(v))); k.b = append(k.b, v...) }
+
+func (k *keyWriter) flag(v bool) {
+	if v {
+		k.b = append(k.b, 1)
+	} else {
+		k.b = append(k.b, 0)
+	}
+}
+
+// clock writes an instant with its zone: the same instant in another zone
+// is another day.
+func (k *keyWriter) clock(t time.Time) {
+	zone, offset := t.Zone()
+	k.num(t.Unix())
+	k.num(int64(t.Nanosecond()))
+	k.str(zone)
+	k.num(int64(offset))
+}
+
+// dec writes a slip's decimal exactly, as typed (11.40 is not 11.4).
+func (k *keyWriter) dec(d decimal.NullDecimal) {
+	k.flag(d.Valid)
+	k.num(int64(d.Decimal.Exponent()))
+	if d.Decimal.NumDigits() <= 18 { // the coefficient fits an int64
+		k.num(d.Decimal.CoefficientInt64())
+		return
+	}
+	k.str(d.Decimal.Coefficient().String())
+}
+
+// reading writes every field of a weather reading.
+func (k *keyWriter) reading(r weather.Reading) {
+	k.clock(r.Time)
+	k.float(float64(r.Temp))
+	k.float(float64(r.Baro))
+	k.num(int64(r.BaroKind))
+	k.float(r.RH)
+	k.flag(r.DewPointSet)
+	k.float(float64(r.DewPoint))
+	k.float(float64(r.Wind))
+	k.float(r.WindFrom)
+	k.flag(r.WindDirUnknown)
+	k.flag(r.WindUnknown)
+	k.float(float64(r.TrackTemp))
+	k.flag(r.HasTrack)
+	k.str(r.Note)
+}
+
+// pass writes every field of a logged pass, the crew's columns by sorted
+// name (sorted once for a run of passes with the same ones).
+func (k *keyWriter) pass(p *logbook.Pass) {
+	k.num(int64(p.Line))
+	k.clock(p.Time)
+	k.str(p.Track)
+	k.num(int64(p.Session.Kind))
+	k.num(int64(p.Session.N))
+	k.str(string(p.Lane))
+	k.dec(p.Dial)
+	k.dec(p.RT)
+	for _, et := range p.ET {
+		k.dec(et)
+	}
+	k.dec(p.MPH660)
+	k.dec(p.MPH1320)
+	k.reading(p.Air)
+	k.flag(p.HasAir)
+	k.float(p.WeightLb)
+	k.str(p.Notes)
+	k.str(p.Change)
+	k.num(int64(len(p.Extra)))
+	if !sameKeys(k.keys, p.Extra) {
+		k.keys = slices.AppendSeq(k.keys[:0], maps.Keys(p.Extra))
+		slices.Sort(k.keys)
+	}
+	for _, key := range k.keys {
+		k.str(key)
+		k.str(p.Extra[key])
+	}
 }
 
 // calibration is what the scored passes say of the blend: the members'
