@@ -316,87 +316,111 @@ func Forecast(cal CalibrateInput, next PredictInput, cache *HeldOutCache) (Predi
 	if pr.PhysicsOnly || pr.Raw || len(pr.Timers) == 0 || cal.Ablation.NoBlend {
 		return pr, fit, nil
 	}
-	dist := cal.Car.DistanceFt
 	fin := pr.Finish()
 	now := [nMembers]estimate{physicsMember: {ET: fin.ET, SD: fin.SD, OK: true}}
-	elev := cal.Track.Elevation()
-	now[airMember], now[todayMember], now[similarMember], now[latestMember] = carriedMembers(cal, cal.Passes, next, elev)
-
-	b := Blend{Scale: 1}
+	now[airMember], now[todayMember], now[similarMember], now[latestMember] = carriedMembers(cal, cal.Passes, next, cal.Track.Elevation())
 	var blendET, blendSD float64
 	if len(fit.Samples) < ColdStartPasses {
-		// Cold start: too few passes to fit anything; carry them by the air.
-		b.ColdStart = true
-		w := [nMembers]float64{airMember: 1}
-		blendET, _ = mix(now, w)
-		blendSD = fin.SD // the model's spread, which carries the day-to-day prior
-		if math.IsNaN(blendET) {
-			blendET, w = fin.ET, [nMembers]float64{physicsMember: 1}
-		}
-		var none [nMembers]float64
-		for m := range none {
-			none[m] = math.NaN()
-		}
-		b.Members = shares(now, w, none)
+		pr.Blend, blendET, blendSD = coldStart(now, fin)
 	} else {
-		hist := scoreMembers(cal, fit, cache)
-		prior := memberPrior
-		for m := range prior {
-			if cal.Ablation.NoMember == member(m).Name() {
-				prior[m] = 0
-			}
-		}
-		calib := online(hist, prior)
-		if cal.Ablation.NoConformal {
-			calib.Scale, calib.DialScale = 1, 1
-		}
-		if cal.Ablation.NoDialScale {
-			calib.DialScale = calib.Scale
-		}
-		w := calib.weights
-		blendET, blendSD = mix(now, w)
-		b.Scale = calib.Scale
-		pr.DialSD = blendSD * calib.DialScale
-		b.Scored = len(hist)
-		blendSD *= b.Scale
-		b.Members = shares(now, w, memberMAE(hist))
+		pr.Blend, blendET, blendSD = scoredBlend(cal, fit, cache, now, &pr)
 	}
-	pr.Blend = b
-	if next.Change != "" {
-		// a change no pass has shown yet: its size is unknown
-		extra := ChangePriorShare * blendET
-		blendSD = math.Hypot(blendSD, extra)
-		if pr.DialSD > 0 {
-			pr.DialSD = math.Hypot(pr.DialSD, extra)
-		}
-		pr.Notes = append(pr.Notes, fmt.Sprintf("the car was changed since its last pass (%q): the interval carries a change of unknown size (±%.3f s) until a pass shows it",
-			next.Change, extra))
+	blendSD = carryChange(&pr, next.Change, blendET, blendSD)
+	moveTimers(&pr, fin, blendET, blendSD)
+	blendNotes(&pr, len(fit.Samples), cal.Car.DistanceFt)
+	return pr, fit, nil
+}
+
+// coldStart is the blend of a car with too few passes to fit anything:
+// the passes carried by the air, with the model's spread (which carries the
+// day-to-day prior); the model alone when none can be carried.
+func coldStart(now [nMembers]estimate, fin Timer) (b Blend, et, sd float64) {
+	b = Blend{Scale: 1, ColdStart: true}
+	w := [nMembers]float64{airMember: 1}
+	et, _ = mix(now, w)
+	sd = fin.SD
+	if math.IsNaN(et) {
+		et, w = fin.ET, [nMembers]float64{physicsMember: 1}
 	}
-	shift := blendET - fin.ET
-	ratio := blendSD / fin.SD
+	var none [nMembers]float64
+	for m := range none {
+		none[m] = math.NaN()
+	}
+	b.Members = shares(now, w, none)
+	return b, et, sd
+}
+
+// scoredBlend is the blend of the members weighted by how each did on the
+// latest scored passes, its spread scaled by their misses (conformal), the
+// dial's spread by its own tail (pr.DialSD); the ablations switch parts off.
+func scoredBlend(cal CalibrateInput, fit Fit, cache *HeldOutCache, now [nMembers]estimate, pr *Prediction) (b Blend, et, sd float64) {
+	hist := scoreMembers(cal, fit, cache)
+	prior := memberPrior
+	for m := range prior {
+		if cal.Ablation.NoMember == member(m).Name() {
+			prior[m] = 0
+		}
+	}
+	calib := online(hist, prior)
+	if cal.Ablation.NoConformal {
+		calib.Scale, calib.DialScale = 1, 1
+	}
+	if cal.Ablation.NoDialScale {
+		calib.DialScale = calib.Scale
+	}
+	w := calib.weights
+	et, sd = mix(now, w)
+	pr.DialSD = sd * calib.DialScale
+	b = Blend{Scale: calib.Scale, Scored: len(hist), Members: shares(now, w, memberMAE(hist))}
+	return b, et, sd * b.Scale
+}
+
+// carryChange widens the spread for a change to the car no pass has shown
+// yet (change, in the crew's words; "" none): its size is unknown.
+func carryChange(pr *Prediction, change string, et, sd float64) float64 {
+	if change == "" {
+		return sd
+	}
+	extra := ChangePriorShare * et
+	if pr.DialSD > 0 {
+		pr.DialSD = math.Hypot(pr.DialSD, extra)
+	}
+	pr.Notes = append(pr.Notes, fmt.Sprintf("the car was changed since its last pass (%q): the interval carries a change of unknown size (±%.3f s) until a pass shows it",
+		change, extra))
+	return math.Hypot(sd, extra)
+}
+
+// moveTimers moves every timer by the blend's finish shift in proportion to
+// its time and scales every spread by the blend's over the model's (a trap
+// speed's never narrower than the model's).
+func moveTimers(pr *Prediction, fin Timer, et, sd float64) {
+	shift, ratio := et-fin.ET, sd/fin.SD
 	for i := range pr.Timers {
 		t := &pr.Timers[i]
 		scale := t.ET / fin.ET
 		t.ET += shift * scale
 		t.SD *= ratio
-		t.Low, t.High = t.ET-IntervalZ*t.SD, t.ET+IntervalZ*t.SD
+		t.Low, t.High = interval(t.ET, t.SD)
 	}
 	for i := range pr.Traps {
 		t := &pr.Traps[i]
 		t.SD *= math.Max(ratio, 1)
-		t.Low, t.High = t.MPH-IntervalZ*t.SD, t.MPH+IntervalZ*t.SD
+		t.Low, t.High = interval(t.MPH, t.SD)
 	}
-	if b.ColdStart {
-		// nothing is fitted: the model's own account of its calibration
-		// would contradict the cold start
-		pr.Notes = slices.DeleteFunc(pr.Notes, func(n string) bool { return strings.HasPrefix(n, "calibrated to ") })
-		pr.Notes = append(pr.Notes, fmt.Sprintf("only %s at %.0f ft: the prediction carries them to this air by the SAE J1349 factor alone; nothing is fitted yet",
-			text.Plural(len(fit.Samples), "clean pass"), dist))
-	} else {
+}
+
+// blendNotes says what the blend leaned on; a cold start drops the model's
+// account of its calibration, which would contradict it.
+func blendNotes(pr *Prediction, samples int, distFt float64) {
+	b := pr.Blend
+	if !b.ColdStart {
 		pr.Notes = append(pr.Notes, fmt.Sprintf("leaned on %s (by the last %s); interval ×%.2f from their misses",
 			b.Text(), text.Plural(b.Scored, "pass"), b.Scale))
+		return
 	}
-	return pr, fit, nil
+	pr.Notes = slices.DeleteFunc(pr.Notes, func(n string) bool { return strings.HasPrefix(n, "calibrated to ") })
+	pr.Notes = append(pr.Notes, fmt.Sprintf("only %s at %.0f ft: the prediction carries them to this air by the SAE J1349 factor alone; nothing is fitted yet",
+		text.Plural(samples, "clean pass"), distFt))
 }
 
 // carriedPass is one clean pass carried to the next pass's air by the SAE

@@ -393,7 +393,7 @@ func ApplySetup(pr *Prediction, changes []SetupChange) {
 		}
 		t.ET += sh
 		t.SD = math.Hypot(t.SD, sd)
-		t.Low, t.High = t.ET-IntervalZ*t.SD, t.ET+IntervalZ*t.SD
+		t.Low, t.High = interval(t.ET, t.SD)
 	}
 	if pr.DialSD > 0 {
 		pr.DialSD = math.Hypot(pr.DialSD, math.Sqrt(v[1]))
