@@ -52,6 +52,7 @@ func Run(rules []*Rule, fsys fs.FS, ctx map[string]any, limits Limits) []Result 
 	lib := newLibrary(limits)
 	defer lib.b.L.Close()
 	arg := lib.b.readOnly(ctx, "ctx")
+	lib.share(arg)
 	for _, r := range rules {
 		out = append(out, runOne(r, fsys, arg, lib, limits))
 	}
