@@ -49,13 +49,17 @@ type weighCtx struct {
 	context.Context
 	s      *sandbox
 	cancel context.CancelFunc
+	steps  uint32 // instructions run, to look at the heap every 4096 of them
 }
 
 // Done is the VM's check before each instruction. When the watchdog has
 // asked for a weighing it weighs the rule's values here, in the VM's own
 // goroutine, and cancels the call when they are over the budget.
 func (c *weighCtx) Done() <-chan struct{} {
-	if c.s.weighDue.Load() {
+	c.steps++
+	// The watchdog's tick can come late on a busy machine: the VM looks at
+	// the heap itself now and then.
+	if c.s.weighDue.Load() || (c.steps%4096 == 0 && c.s.heapGrown()) {
 		c.s.weighDue.Store(false)
 		n := c.s.weigh()
 		c.s.ruleBytes.Store(n)
@@ -67,6 +71,19 @@ func (c *weighCtx) Done() <-chan struct{} {
 		}
 	}
 	return c.Context.Done()
+}
+
+// heapGrown says whether the process heap has grown by weighAfter over its
+// lowest since the last weighing was asked for, and if so starts the count
+// afresh. The watchdog and the VM both ask; one of them gets the yes.
+func (s *sandbox) heapGrown() bool {
+	h := heapBytes()
+	base := s.heapBase.Load()
+	if h < base { // a collection: growth counts from the lowest heap seen
+		s.heapBase.CompareAndSwap(base, h)
+		return false
+	}
+	return h-base >= s.weighAfter() && s.heapBase.CompareAndSwap(base, h)
 }
 
 // weighAfter is how much the process heap must grow before the rule's

@@ -262,6 +262,7 @@ type sandbox struct {
 	// ruleBytes: what they weighed last; w: the walk's reusable maps.
 	weighDue  atomic.Bool
 	ruleBytes atomic.Int64
+	heapBase  atomic.Int64 // the process heap when the last weighing was asked for, or lower
 	w         *weigher
 }
 
@@ -758,7 +759,7 @@ func (s *sandbox) callWithin(f func() error, budget time.Duration) *Error {
 	defer cancel()
 	s.L.SetContext(&weighCtx{Context: ctx, s: s, cancel: cancel})
 	done := make(chan error, 1)
-	start := heapBytes()
+	s.heapBase.Store(heapBytes())
 	go func() {
 		defer func() {
 			if p := recover(); p != nil {
@@ -781,14 +782,10 @@ func (s *sandbox) callWithin(f func() error, budget time.Duration) *Error {
 			}
 			return s.locate(err, ctx)
 		case <-tick.C:
-			// growth over the lowest heap seen: a collection of earlier garbage
-			// during the call must not hide what the rule allocates. The
-			// growth is anyone's: it only says the rule's own values are due
-			// to be weighed (weighCtx does it, and stops the rule).
-			h := heapBytes()
-			start = min(start, h)
-			if h-start >= s.weighAfter() {
-				start = h
+			// The heap's growth is anyone's: it only says the rule's own
+			// values are due to be weighed (weighCtx does it, and stops the
+			// rule).
+			if s.heapGrown() {
 				s.weighDue.Store(true)
 			}
 		case <-grace.C:
