@@ -1,15 +1,37 @@
-// Package scripts is the host for a crew's rules: small Lua files in the
-// event folder's rules/ that tweak the dial, check the car and the limits,
-// and add setup notes to the card. Rules run sandboxed: only Lua's base,
-// string, table and math libraries and os.time, os.date and os.clock; no
-// files, processes, network or loading of code from outside rules/; every
-// call under a time, memory and call-depth budget. A rule that fails, hangs
-// or misbehaves becomes a failed check naming its file and line, and the
-// other rules go on.
+// Package scripts is the host that runs a crew's rules: small Lua files in
+// the event folder's rules/ that tweak the dial, check the car and the
+// limits, and add setup notes to the card. It does not read the event
+// folder, compute the dial or print the card: it sees the rest of pitcard
+// only through the plain data it is handed (a map of maps, lists, strings,
+// numbers and booleans) and returns plain results.
 //
-// The package sees the rest of pitcard only through the plain data it is
-// handed (a map of maps, lists, strings, numbers and booleans) and returns
-// plain results.
+// Rules run sandboxed: only Lua's base, string, table and math libraries and
+// os.time, os.date and os.clock; no files, processes, network or loading of
+// code from outside rules/; every call under a time, memory and call-depth
+// budget. A rule that fails, hangs or misbehaves becomes a failed check
+// naming its file and line, and the other rules go on.
+//
+// The memory budget (Limits.Memory, the setting rule_memory_mib) bounds the
+// estimated bytes of the values one rule's Lua state holds during a call:
+// its globals, the locals, temporaries and upvalues of the calls under way,
+// the modules it required, and all they reach (a table by its array's room
+// and its maps' entries, a string by its bytes, a long string held in many
+// places once). What pitcard hands every rule (ctx, the libraries) is not
+// charged to it, nor is anything other goroutines allocate: under `serve`,
+// the cards other phones ask for do not count against a rule. The state is
+// weighed between two instructions, when the process heap has grown enough
+// that the rule could be near its budget (budget.go), so a rule is stopped
+// soon after its values pass the budget, not at the byte.
+//
+// The budget does not catch garbage: a rule that builds and drops strings in
+// a loop holds little and is left to the collector and the time budget; the
+// process heap may grow to about twice a rule's values before the collector
+// runs. Nor does it catch what one instruction builds before the next
+// weighing (one concatenation can pass the budget by the size of its
+// result; string.rep and string.format are held to MaxString, searches to
+// 1 MiB of text, unpack to 10000 values, before they start), values passed
+// only as a vararg function's ..., or the Go heap's own room beyond the
+// estimates.
 package scripts
 
 import (
@@ -26,8 +48,10 @@ import (
 	"strconv"
 	"strings"
 	"sync"
+	"sync/atomic"
 	"time"
 	"unicode/utf8"
+	"unsafe"
 
 	"github.com/shopspring/decimal"
 	lua "github.com/yuin/gopher-lua"
@@ -37,7 +61,7 @@ import (
 // Limits of one rule call.
 type Limits struct {
 	Time      time.Duration // wall time of one call (default 200 ms)
-	Memory    int64         // bytes the heap may grow during one call (default 64 MiB)
+	Memory    int64         // estimated bytes of the values a rule holds during one call (default 64 MiB; see the package doc)
 	CallDepth int           // Lua call-stack frames (default 200)
 	// MaxString is the largest string a library function may build in one
 	// go (string.rep, string.format): one call that allocates gigabytes
@@ -231,6 +255,15 @@ type sandbox struct {
 	loaded  map[string]lua.LValue
 	// abandoned: a call is still stuck in the state; it must not be touched.
 	abandoned bool
+	// shared: the values of the run's library and ctx, which every rule
+	// sees and none is charged for (see budget.go).
+	shared map[uintptr]struct{}
+	// weighDue: the watchdog asks for the rule's values to be weighed;
+	// ruleBytes: what they weighed last; w: the walk's reusable maps.
+	weighDue  atomic.Bool
+	ruleBytes atomic.Int64
+	heapBase  atomic.Int64 // the process heap when the last weighing was asked for, or lower
+	w         *weigher
 }
 
 // library is the standard library a run's rules share: opened once, made
@@ -242,9 +275,35 @@ type library struct {
 	stringMT *lua.LTable
 }
 
+// share marks v and everything it holds as shared by the run's rules: no
+// rule's memory budget is charged for it. It keeps their addresses, which
+// stay theirs while the run holds the library and ctx.
+func (lib *library) share(v lua.LValue) {
+	var p uintptr
+	switch x := v.(type) {
+	case *lua.LTable:
+		p = uintptr(unsafe.Pointer(x))
+	case *lua.LFunction:
+		p = uintptr(unsafe.Pointer(x))
+	default:
+		return
+	}
+	if _, ok := lib.b.shared[p]; ok {
+		return
+	}
+	lib.b.shared[p] = struct{}{}
+	if t, ok := v.(*lua.LTable); ok {
+		lib.share(t.Metatable)
+		t.ForEach(func(k, e lua.LValue) {
+			lib.share(k)
+			lib.share(e)
+		})
+	}
+}
+
 func newLibrary(limits Limits) *library {
 	L := lua.NewState(lua.Options{SkipOpenLibs: true})
-	b := &sandbox{L: L, limits: limits, proxies: map[*lua.LTable]*lua.LTable{}}
+	b := &sandbox{L: L, limits: limits, proxies: map[*lua.LTable]*lua.LTable{}, shared: map[uintptr]struct{}{}}
 	for _, lib := range []struct {
 		name string
 		open lua.LGFunction
@@ -302,6 +361,10 @@ func newLibrary(limits Limits) *library {
 	// answers "locked" instead of the table, so no rule can change string
 	// methods for the rules after it.
 	lib.stringMT.RawSetString("__metatable", lua.LString("locked"))
+	lib.share(lib.stringMT)
+	for _, v := range lib.globals {
+		lib.share(v)
+	}
 	return lib
 }
 
@@ -316,7 +379,8 @@ func newSandbox(r *Rule, fsys fs.FS, limits Limits, log *[]string, lib *library)
 	if lib == nil {
 		lib = newLibrary(limits)
 	}
-	s := &sandbox{L: L, rule: r, limits: limits, log: log, proxies: lib.b.proxies, fsys: fsys, loaded: map[string]lua.LValue{}}
+	s := &sandbox{L: L, rule: r, limits: limits, log: log, proxies: lib.b.proxies, fsys: fsys, loaded: map[string]lua.LValue{},
+		shared: lib.b.shared}
 	for name, v := range lib.globals {
 		L.SetGlobal(name, v)
 	}
@@ -693,9 +757,9 @@ const RetryBudget = 3
 func (s *sandbox) callWithin(f func() error, budget time.Duration) *Error {
 	ctx, cancel := context.WithTimeout(context.Background(), budget)
 	defer cancel()
-	s.L.SetContext(ctx)
+	s.L.SetContext(&weighCtx{Context: ctx, s: s, cancel: cancel})
 	done := make(chan error, 1)
-	start := heapBytes()
+	s.heapBase.Store(heapBytes())
 	go func() {
 		defer func() {
 			if p := recover(); p != nil {
@@ -718,15 +782,11 @@ func (s *sandbox) callWithin(f func() error, budget time.Duration) *Error {
 			}
 			return s.locate(err, ctx)
 		case <-tick.C:
-			// growth over the lowest heap seen: a collection of earlier garbage
-			// during the call must not hide what the rule allocates
-			h := heapBytes()
-			start = min(start, h)
-			if h-start > s.limits.Memory {
-				s.mu.Lock()
-				s.memOut = true
-				s.mu.Unlock()
-				cancel()
+			// The heap's growth is anyone's: it only says the rule's own
+			// values are due to be weighed (weighCtx does it, and stops the
+			// rule).
+			if s.heapGrown() {
+				s.weighDue.Store(true)
 			}
 		case <-grace.C:
 			s.abandoned = true

@@ -52,6 +52,7 @@ func Run(rules []*Rule, fsys fs.FS, ctx map[string]any, limits Limits) []Result 
 	lib := newLibrary(limits)
 	defer lib.b.L.Close()
 	arg := lib.b.readOnly(ctx, "ctx")
+	lib.share(arg)
 	for _, r := range rules {
 		out = append(out, runOne(r, fsys, arg, lib, limits))
 	}
@@ -117,92 +118,125 @@ func collect(res *Result, hook string, fn *lua.LFunction, rets []lua.LValue, fil
 	if fn.Proto != nil {
 		line = fn.Proto.LineDefined
 	}
-	clip := s.limits.clip
-	bad := func(format string, a ...any) *Error {
+	c := collector{res: res, file: file, s: s, clip: s.limits.clip, bad: func(format string, a ...any) *Error {
 		return &Error{File: file, Line: line, Msg: hook + "(ctx) " + fmt.Sprintf(format, a...)}
-	}
-	v := rets[0]
+	}}
 	switch hook {
 	case "dial":
-		var adj decimal.Decimal
-		switch x := v.(type) {
-		case *lua.LNilType:
-			return nil
-		case lua.LNumber:
-			f := float64(x)
-			if math.IsNaN(f) || math.IsInf(f, 0) {
-				return bad("returned %v, not an adjustment in seconds", f)
-			}
-			adj = decimal.NewFromFloat(f)
-		case lua.LString:
-			d, err := decimal.NewFromString(strings.TrimSpace(string(x)))
-			if err != nil {
-				return bad("returned %q, not an adjustment in seconds", string(x))
-			}
-			adj = d
-		default:
-			return bad("returned a %s; it must return an adjustment in seconds (a number) and a reason", v.Type())
-		}
-		if adj.Abs().GreaterThan(decimal.NewFromFloat(MaxAdjust)) {
-			return bad("returned %s s; an adjustment beyond ±%.0f s is surely a mistake (seconds, not hundredths?)", adj, MaxAdjust)
-		}
-		reason, ok := rets[1].(lua.LString)
-		if !adj.IsZero() && (!ok || strings.TrimSpace(string(reason)) == "") {
-			return bad("returned %s s without a reason (return the adjustment and a reason string)", adj)
-		}
-		if adj.IsZero() {
-			return nil
-		}
-		res.HasAdjust, res.Adjust, res.Reason = true, res.Adjust.Add(adj), clip(string(reason))
+		return c.dial(rets[0], rets[1])
 	case "checks":
-		items, err := list(v, s)
-		if err != nil {
-			return bad("%s", err)
-		}
-		for i, it := range items {
-			t, ok := it.(*lua.LTable)
-			if !ok {
-				return bad("item %d is a %s; each item is a table {label=..., status=..., note=...}", i+1, it.Type())
-			}
-			label, lok := t.RawGetString("label").(lua.LString)
-			status, sok := t.RawGetString("status").(lua.LString)
-			if !lok || strings.TrimSpace(string(label)) == "" {
-				return bad("item %d has no label", i+1)
-			}
-			st := strings.ToLower(string(status))
-			if !sok || (st != Pass && st != Warn && st != Fail && st != Confirm) {
-				return bad("item %d (%s) has status %q; use pass, warn, fail or confirm", i+1, clip(string(label)), clip(t.RawGetString("status").String()))
-			}
-			note := ""
-			switch n := t.RawGetString("note").(type) {
-			case *lua.LNilType:
-			case lua.LString, lua.LNumber:
-				note = n.String()
-			default: // a table's String is its address: "table: 0x…" on the card
-				return bad("item %d (%s) has a note that is a %s, not text", i+1, clip(string(label)), n.Type())
-			}
-			res.Checks = append(res.Checks, Check{Label: clip(string(label)), Status: st, Note: clip(note), File: file})
-		}
+		return c.checks(rets[0])
 	case "notes":
-		if str, ok := v.(lua.LString); ok {
-			res.Notes = append(res.Notes, clip(string(str)))
-			return nil
+		return c.notes(rets[0])
+	}
+	return nil
+}
+
+// collector stores one hook's results in res; bad makes the error of a
+// wrong result, at the line where the hook is defined.
+type collector struct {
+	res  *Result
+	file string
+	s    *sandbox
+	clip func(string) string
+	bad  func(format string, a ...any) *Error
+}
+
+// dial checks the adjustment v and its reason and adds it to the result. It
+// does not round the adjustment: the card rounds the total.
+func (c collector) dial(v, why lua.LValue) *Error {
+	bad := c.bad
+	var adj decimal.Decimal
+	switch x := v.(type) {
+	case *lua.LNilType:
+		return nil
+	case lua.LNumber:
+		f := float64(x)
+		if math.IsNaN(f) || math.IsInf(f, 0) {
+			return bad("returned %v, not an adjustment in seconds", f)
 		}
-		items, err := list(v, s)
+		adj = decimal.NewFromFloat(f)
+	case lua.LString:
+		d, err := decimal.NewFromString(strings.TrimSpace(string(x)))
 		if err != nil {
-			return bad("%s", err)
+			return bad("returned %q, not an adjustment in seconds", string(x))
 		}
-		for i, it := range items {
-			str, ok := it.(lua.LString)
-			if !ok {
-				if n, isNum := it.(lua.LNumber); isNum {
-					str = lua.LString(n.String())
-				} else {
-					return bad("line %d is a %s, not a string", i+1, it.Type())
-				}
+		adj = d
+	default:
+		return bad("returned a %s; it must return an adjustment in seconds (a number) and a reason", v.Type())
+	}
+	if adj.Abs().GreaterThan(decimal.NewFromFloat(MaxAdjust)) {
+		return bad("returned %s s; an adjustment beyond ±%.0f s is surely a mistake (seconds, not hundredths?)", adj, MaxAdjust)
+	}
+	reason, ok := why.(lua.LString)
+	if !adj.IsZero() && (!ok || strings.TrimSpace(string(reason)) == "") {
+		return bad("returned %s s without a reason (return the adjustment and a reason string)", adj)
+	}
+	if adj.IsZero() {
+		return nil
+	}
+	res := c.res
+	res.HasAdjust, res.Adjust, res.Reason = true, res.Adjust.Add(adj), c.clip(string(reason))
+	return nil
+}
+
+// checks checks each item of the list v and adds it to the result's
+// checks. A wrong item stops the list there: the items before it are kept.
+func (c collector) checks(v lua.LValue) *Error {
+	bad, clip := c.bad, c.clip
+	items, err := list(v, c.s)
+	if err != nil {
+		return bad("%s", err)
+	}
+	for i, it := range items {
+		t, ok := it.(*lua.LTable)
+		if !ok {
+			return bad("item %d is a %s; each item is a table {label=..., status=..., note=...}", i+1, it.Type())
+		}
+		label, lok := t.RawGetString("label").(lua.LString)
+		status, sok := t.RawGetString("status").(lua.LString)
+		if !lok || strings.TrimSpace(string(label)) == "" {
+			return bad("item %d has no label", i+1)
+		}
+		st := strings.ToLower(string(status))
+		if !sok || (st != Pass && st != Warn && st != Fail && st != Confirm) {
+			return bad("item %d (%s) has status %q; use pass, warn, fail or confirm", i+1, clip(string(label)), clip(t.RawGetString("status").String()))
+		}
+		note := ""
+		switch n := t.RawGetString("note").(type) {
+		case *lua.LNilType:
+		case lua.LString, lua.LNumber:
+			note = n.String()
+		default: // a table's String is its address: "table: 0x…" on the card
+			return bad("item %d (%s) has a note that is a %s, not text", i+1, clip(string(label)), n.Type())
+		}
+		c.res.Checks = append(c.res.Checks, Check{Label: clip(string(label)), Status: st, Note: clip(note), File: c.file})
+	}
+	return nil
+}
+
+// notes adds the note v (one string, or a list of strings and numbers) to
+// the result. A wrong line stops the list there: the lines before it are kept.
+func (c collector) notes(v lua.LValue) *Error {
+	res := c.res
+	if str, ok := v.(lua.LString); ok {
+		res.Notes = append(res.Notes, c.clip(string(str)))
+		return nil
+	}
+	items, err := list(v, c.s)
+	if err != nil {
+		return c.bad("%s", err)
+	}
+	for i, it := range items {
+		str, ok := it.(lua.LString)
+		if !ok {
+			if n, isNum := it.(lua.LNumber); isNum {
+				str = lua.LString(n.String())
+			} else {
+				return c.bad("line %d is a %s, not a string", i+1, it.Type())
 			}
-			res.Notes = append(res.Notes, clip(string(str)))
 		}
+		res.Notes = append(res.Notes, c.clip(string(str)))
 	}
 	return nil
 }
