@@ -128,13 +128,11 @@ func TestMemoryBudget(t *testing.T) {
 	lim.Time = 10 * time.Second
 	src := "function checks(ctx)\n local t = {}\n for i = 1, 1e9 do t[i] = {i, i, i, i} end\nend"
 	r := Compile("rules/t.lua", src, nil, lim)
-	start := time.Now()
+	// The memory, not the 10 s clock, must be what stops it: the error
+	// says which (no timed assertion: a loaded machine is slow, not wrong).
 	res := Run([]*Rule{r}, nil, ctxFor("left", 20, 100), lim)[0]
 	if len(res.Errors) == 0 || !strings.Contains(res.Errors[0].Error(), "64 MiB of memory") {
 		t.Fatalf("errors %v", res.Errors)
-	}
-	if took := time.Since(start); took > 5*time.Second {
-		t.Errorf("took %v", took)
 	}
 }
 

@@ -10,12 +10,14 @@ import (
 )
 
 // The memory budget is measured, not read back from the setting: while a
-// rule grows a table without end, the heap is sampled beside it. The rule
-// must be stopped after it has grown the heap by the budget (64 MiB, the
-// documented default) and before 1.5 × the budget: the watchdog samples
-// every millisecond, so the overshoot is what a rule allocates in a few
-// milliseconds. The lower bound is 0.9 × the budget, as the test's own
-// samples may miss the sandbox's last one by a fraction of a millisecond.
+// rule grows a table without end, the heap is sampled beside it. The budget
+// weighs the rule's own Lua values (budget.go), so the heap they take is
+// the budget and Go's overhead on it: the rule must be stopped after it has
+// grown the heap by at least 0.9 × the budget (64 MiB, the documented
+// default; the test's own samples may miss the last by a fraction of a
+// millisecond) and before 2 × the budget (the package doc: the heap can
+// reach about twice a rule's values before a collection; measured 76–100
+// MiB over 27 runs).
 func TestMemoryBudgetMeasured(t *testing.T) {
 	if DefaultLimits.Memory != 64<<20 {
 		t.Fatalf("the default memory budget is %d MiB; the README and the card say 64", DefaultLimits.Memory>>20)
@@ -51,7 +53,7 @@ func TestMemoryBudgetMeasured(t *testing.T) {
 	if len(res.Errors) == 0 || !strings.Contains(res.Errors[0].Error(), "64 MiB of memory") {
 		t.Fatalf("errors %v", res.Errors)
 	}
-	lo, hi := lim.Memory*9/10, lim.Memory*3/2
+	lo, hi := lim.Memory*9/10, lim.Memory*2
 	t.Logf("heap grew %.1f MiB before the rule was stopped (budget %d MiB)", float64(peak)/(1<<20), lim.Memory>>20)
 	if peak < lo || peak > hi {
 		t.Errorf("the rule was stopped after growing the heap by %.1f MiB; the %d MiB budget means between %.1f and %.1f",
