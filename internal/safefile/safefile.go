@@ -166,8 +166,9 @@ func landed(before fs.FileInfo, tmp, path string) bool {
 	return err == nil && os.SameFile(before, now)
 }
 
-// FailWrites, when set, is asked before every write and its error returned
-// with nothing written: tests use it to stand for a full or failing disk.
+// FailWrites is asked before every write when it is set, and its error
+// returned with nothing written: tests use it to stand for a full or
+// failing disk (and reset it when they end).
 var FailWrites func(path string) error
 
 // LockTimeout is how long Lock waits for another pitcard process to finish.
