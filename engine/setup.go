@@ -9,6 +9,7 @@ import (
 
 	"pitcard/internal/text"
 	"pitcard/logbook"
+	"pitcard/weather"
 )
 
 // What the crew's setup items are worth for this car: the effect of each
@@ -63,17 +64,22 @@ type SetupEffect struct {
 const launchGripStep = 0.03
 
 // launchCarry is how many seconds at the finish one second at the 60 ft
-// is worth for the fitted car: its latest fitted pass simulated again with
-// the tire's grip launchGripStep lower, the finish's change over the 60
-// ft's. A car that leaves softer is also slower where the grip still
-// limits it past 60 ft and carries a lower speed on, so it is above 1
-// (1.40 for the engine tests' car, 1.34 for the demo's, measured). ok is false without a fitted pass or
-// when the grip does not limit the launch (no 60-ft change to scale).
+// is worth for the fitted car: its latest fitted pass (without one, a pass
+// in standard air, standardEnv) simulated again with the tire's grip
+// launchGripStep lower, the finish's change over the 60 ft's. A car that
+// leaves softer is also slower where the grip still limits it past 60 ft
+// and carries a lower speed on, so it is above 1 (1.40 for the engine
+// tests' car, 1.34 for the demo's, measured). Where the model's grip does
+// not limit the launch, 1 (a later start at the same pull). ok is false
+// without the car's power.
 func launchCarry(f Fit) (carry float64, ok bool) {
-	if len(f.Samples) == 0 {
+	if f.PowerHP <= 0 {
 		return 0, false
 	}
-	env, dist := f.Samples[0].Env, f.Car.DistanceFt
+	env, dist := standardEnv(f), f.Car.DistanceFt
+	if len(f.Samples) > 0 {
+		env = f.Samples[0].Env
+	}
 	fin := logbook.TimerIndex(dist)
 	if fin < 0 {
 		return 0, false
@@ -85,10 +91,31 @@ func launchCarry(f Fit) (carry float64, ok bool) {
 	v = f.Vehicle
 	slow := Simulate(&v, soft, env, dist)
 	d60, dFin := slow.ET[0]-base.ET[0], slow.ET[fin]-base.ET[fin]
-	if !(d60 > 1e-4) || math.IsNaN(dFin) {
+	switch {
+	case math.IsNaN(dFin) || math.IsNaN(d60):
 		return 0, false
+	case d60 <= 1e-4:
+		// The model's launch is not grip-limited: a setup that moves the
+		// 60 ft moves when the car gets going, not how hard it pulls after,
+		// so it is carried one for one.
+		return 1, true
 	}
 	return dFin / d60, true
+}
+
+// standardEnv is the conditions launchCarry runs a car without a fitted
+// pass in: the U.S. Standard Atmosphere 1976 at the track's elevation, half
+// humidity, the surface at the tire's best, the track's usual prep (full
+// when it says none), the car's weight.
+func standardEnv(f Fit) Env {
+	std := weather.StandardAtmosphere(f.Track.Elevation())
+	r := weather.Reading{Temp: std.Temp, Baro: std.Pressure, BaroKind: weather.StationPressure, RH: 0.5,
+		TrackTemp: weather.Fahrenheit(TireBestF(f.Car.Tire)), HasTrack: true}
+	prep, err := ParsePrep(f.Track.Prep)
+	if err != nil || f.Track.Prep == "" {
+		prep = 1
+	}
+	return NewEnv(r, f.Track.HeadingDeg, prep, f.Car.WeightLb*weather.KgPerLb)
 }
 
 // SetupEffects fits each numeric setup item of the car's setup to the

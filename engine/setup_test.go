@@ -177,3 +177,23 @@ func TestPlannedSetupMovesThePrediction(t *testing.T) {
 		t.Error("a planned choice is a change of the car")
 	}
 }
+
+// Before the first pass, a crew's 60-ft belief is still carried to the
+// finish: car.yaml's physics in the U.S. Standard Atmosphere 1976 at the
+// track's elevation (standardEnv), above one for one (a softer launch is
+// also slower past 60 ft; common practice, no source).
+func TestLaunchCarryWithoutPasses(t *testing.T) {
+	car := testCar
+	car.Setup = logbook.Setup{{Name: "rear_psi", Unit: "psi", Range: []float64{6, 40}, Expect: map[string]float64{"et60": 0.010}}}
+	fit, err := Calibrate(CalibrateInput{Car: car, Track: testTrack})
+	if err != nil || len(fit.Samples) != 0 {
+		t.Fatalf("%v, %d samples", err, len(fit.Samples))
+	}
+	e := SetupEffects(fit)[0]
+	if carry := e.Prior[1] / e.Prior[0]; !e.CarriedPrior || carry < 1.2 || carry > 2.5 {
+		t.Errorf("carried %.2f× before any pass: %s", carry, e.Text())
+	}
+	if _, ok := launchCarry(Fit{Car: car}); ok {
+		t.Error("a carry without the car's power")
+	}
+}

@@ -179,10 +179,16 @@ func setupEffects(e *event.Folder, car engine.Car, passes []logbook.Pass) ([]eng
 			changes[name] = append(changes[name], marked[i].Time.Format("2006-01-02 15:04")+" ("+strings.TrimSpace(strings.TrimPrefix(marked[i].Change, name+":"))+")")
 		}
 	}
-	if len(passes) == 0 {
-		return engine.SetupEffects(engine.Fit{Car: car}), changes, nil
-	}
 	trk, _ := e.Track()
+	if len(passes) == 0 {
+		// No pass: the crew's beliefs alone, the 60 ft's carried to the
+		// finish by car.yaml's physics when it gives the power.
+		fit, err := engine.Calibrate(engine.CalibrateInput{Car: car, Track: trk, DayStart: e.Settings.DayStart})
+		if err != nil {
+			fit = engine.Fit{Car: car}
+		}
+		return engine.SetupEffects(fit), changes, nil
+	}
 	tracks, _ := e.OtherTracks()
 	fit, err := engine.Calibrate(engine.CalibrateInput{Car: car, Track: trk, Tracks: tracks, Passes: passes, Now: passes[len(passes)-1].Time,
 		DayStart: e.Settings.DayStart, Aborts: e.Settings.AbortWords, Changes: e.Settings.ChangeWords})
