@@ -421,7 +421,7 @@ func (e *Folder) AppendReading(r weather.Reading, elev weather.Length, replace b
 		}
 	}
 	log = append(log, r)
-	SortReadings(log)
+	sortReadings(log)
 	if err := safefile.Write(path, func(w io.Writer) error { return weather.WriteLog(w, log) }); err != nil {
 		return 0, err
 	}
@@ -466,9 +466,9 @@ func (e *Folder) weatherLog(elev weather.Length, held bool) ([]weather.Reading, 
 	return weather.ReadLog(bytes.NewReader(data), e.Name(WeatherFile), elev, e.Zone())
 }
 
-// SortReadings sorts readings in time order, stably (a log is nearly in
+// sortReadings sorts readings in time order, stably (a log is nearly in
 // order: an insertion sort).
-func SortReadings(log []weather.Reading) {
+func sortReadings(log []weather.Reading) {
 	for i := 1; i < len(log); i++ {
 		for j := i; j > 0 && log[j].Time.Before(log[j-1].Time); j-- {
 			log[j], log[j-1] = log[j-1], log[j]

@@ -321,7 +321,7 @@ func (e *Folder) ImportReadings(add []weather.Reading, from string, elev weather
 			from, text.Plural(m.Same, "reading"), e.Name(WeatherFile))
 	}
 	log = append(log, m.New...)
-	SortReadings(log)
+	sortReadings(log)
 	if err := safefile.Write(path, func(w io.Writer) error { return weather.WriteLog(w, log) }); err != nil {
 		return Imported{}, err
 	}

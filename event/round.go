@@ -268,8 +268,8 @@ func ParseWhen(s string, day time.Time, start weather.DayStart) (time.Time, erro
 	return t, FlagErr(err, "--time")
 }
 
-// Seconds reads the time v given for flag, in seconds within lo..hi.
-func Seconds(flag, v string, lo, hi float64) (float64, error) {
+// seconds reads the time v given for flag, in seconds within lo..hi.
+func seconds(flag, v string, lo, hi float64) (float64, error) {
 	x, err := strconv.ParseFloat(strings.TrimSpace(v), 64)
 	if err != nil || !(x >= lo && x <= hi) {
 		return 0, &weather.InputError{Field: flag, Value: v, Reason: fmt.Sprintf("is not a time in seconds within %g..%g", lo, hi)}
@@ -315,12 +315,12 @@ func (o *OpponentFields) ourRT(s Settings, passes []logbook.Pass) (bracket.RTMod
 	us := bracket.RTModel{Mean: s.RTMean, SD: s.RTSD}
 	var err error
 	if o.OurRTMean != "" {
-		if us.Mean, err = Seconds("--rt-mean", o.OurRTMean, -1, 2); err != nil {
+		if us.Mean, err = seconds("--rt-mean", o.OurRTMean, -1, 2); err != nil {
 			return us, err
 		}
 	}
 	if o.OurRTSD != "" {
-		if us.SD, err = Seconds("--rt-sd", o.OurRTSD, 0.001, 1); err != nil {
+		if us.SD, err = seconds("--rt-sd", o.OurRTSD, 0.001, 1); err != nil {
 			return us, err
 		}
 	}
@@ -351,7 +351,7 @@ func (o *OpponentFields) fromBook(opp *bracket.Opponent, s Settings, book *Oppon
 func secondsList(flag string, vs []string, lo, hi float64) ([]float64, error) {
 	var out []float64
 	for _, v := range vs {
-		x, err := Seconds(flag, v, lo, hi)
+		x, err := seconds(flag, v, lo, hi)
 		if err != nil {
 			return nil, err
 		}
@@ -406,7 +406,7 @@ func (o *OpponentFields) fromFlags(opp *bracket.Opponent) error {
 		if f.v == "" {
 			continue
 		}
-		x, err := Seconds(f.flag, f.v, f.lo, f.hi)
+		x, err := seconds(f.flag, f.v, f.lo, f.hi)
 		if err != nil {
 			return err
 		}
@@ -542,7 +542,7 @@ func (g *gathering) readWeather() error {
 	g.now, g.sched, g.warnings = e.ClockFor(g.sched, g.haveSched, log, g.now)
 	if r.Unsaved != nil { // a reading the disk refused: the card still uses it
 		log = append(log, *r.Unsaved)
-		SortReadings(log)
+		sortReadings(log)
 	}
 	g.log = log
 	return nil

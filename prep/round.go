@@ -249,9 +249,9 @@ func (c *Card) gatherAir() {
 	}
 	if c.ReadingAge > limit {
 		c.StaleReading = fmt.Sprintf("the latest weather reading is %s old (%s; the limit is %s, setting reading_max_age_min): the air has moved since; take a fresh reading",
-			Minutes(c.ReadingAge), in.AirNow.Time.Format("15:04"), Minutes(limit))
+			minutes(c.ReadingAge), in.AirNow.Time.Format("15:04"), minutes(limit))
 		if ahead := in.Call.Sub(in.AirNow.Time); ahead > limit {
-			c.StaleReading += fmt.Sprintf(", the air at the call is carried %s past it", Minutes(ahead))
+			c.StaleReading += fmt.Sprintf(", the air at the call is carried %s past it", minutes(ahead))
 		}
 		c.Problems = append(c.Problems, c.StaleReading)
 	}
@@ -368,8 +368,8 @@ func crossCheck(p engine.Prediction, in Input) (engine.CrossCheck, bool, string)
 	return cc, true, ""
 }
 
-// Minutes prints a duration as a racer says it: "25 min", "6 h 39 min".
-func Minutes(d time.Duration) string {
+// minutes prints a duration as a racer says it: "25 min", "6 h 39 min".
+func minutes(d time.Duration) string {
 	m := int(d.Round(time.Minute) / time.Minute)
 	if m < 0 {
 		m = -m

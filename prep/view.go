@@ -133,11 +133,11 @@ func subtitleLines(c Card) []string {
 	call := "called " + in.Call.Format("15:04")
 	switch m := math.Round(c.MinutesToGo); {
 	case m > 0:
-		call += " (in " + Minutes(time.Duration(m)*time.Minute) + ")"
+		call += " (in " + minutes(time.Duration(m)*time.Minute) + ")"
 	case m == 0:
 		call += " (now)"
 	default:
-		call += " (" + Minutes(time.Duration(-m)*time.Minute) + " ago)"
+		call += " (" + minutes(time.Duration(-m)*time.Minute) + " ago)"
 	}
 	out = append(out, call)
 	car := text.OrDash(in.Car.Name)
@@ -262,7 +262,7 @@ func (v *view) airTable(c Card) {
 func airNowHead(c Card) string {
 	nowHead := "now " + c.AirNowRead.Time.Format("15:04")
 	if c.Input.AirNow != nil {
-		nowHead = "read " + c.AirNowRead.Time.Format("15:04") + ", " + Minutes(c.ReadingAge) + " ago"
+		nowHead = "read " + c.AirNowRead.Time.Format("15:04") + ", " + minutes(c.ReadingAge) + " ago"
 		if c.ReadingAge < time.Minute {
 			nowHead = "read " + c.AirNowRead.Time.Format("15:04") + ", just now"
 		}
