@@ -2,6 +2,8 @@
 // own rows, and copies of them shifted back in time until it holds n
 // passes, as a team's archive of many seasons would. Only benchmarks use
 // it; the passes are the demo's invented car's.
+//
+// It does not check the rows it copies: the readers under benchmark do.
 package biglog
 
 import (

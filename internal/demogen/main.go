@@ -6,6 +6,9 @@
 // physics agrees with. The output is deterministic.
 //
 //	go run ./internal/demogen -out event/demo
+//
+// It is not run by pitcard or its tests: TestDemoIsUpToDate only compares
+// its output with the committed demo.
 package main
 
 import (
