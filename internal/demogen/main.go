@@ -7,8 +7,8 @@
 //
 //	go run ./internal/demogen -out event/demo
 //
-// It is not run by pitcard or its tests: TestDemoIsUpToDate only compares
-// its output with the committed demo.
+// It is not part of the pitcard command: TestDemoIsUpToDate runs it to
+// check that the committed demo is what it writes.
 package main
 
 import (
