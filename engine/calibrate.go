@@ -73,12 +73,12 @@ func priorSD(ind Induction) theta {
 
 // Sample is one logged pass prepared for the fit.
 type Sample struct {
-	Pass   logbook.Pass
-	Env    Env
-	Obs    [5]float64 // logged ET at each timer, NaN where not timed
-	Trap   [2]float64 // logged trap speeds at 660 and 1320, NaN where not timed
-	Weight float64    // recency × track weight
-	Sim    Run        // the calibrated model's run in this pass's conditions
+	Pass     logbook.Pass
+	Env      Env
+	Obs      [5]float64 // logged ET at each timer, NaN where not timed
+	Trap     [2]float64 // logged trap speeds at 660 and 1320, NaN where not timed
+	FitShare float64    // its share in the fit: recency × track (not the car's weight)
+	Sim      Run        // the calibrated model's run in this pass's conditions
 	// Nuisance is what the fit takes out of the logged times before it
 	// compares them with the physics: this pass's day offset and the drift
 	// through its day, at each timer and trap (see nuisance).
@@ -391,10 +391,10 @@ func (f *Fit) sample(p logbook.Pass, in CalibrateInput, rank int) Sample {
 	}
 	age := in.Now.Sub(p.Time).Hours() / 24
 	weight *= math.Max(math.Pow(0.5, age/FitHalfLifeDays), FitAgeFloor) * math.Pow(0.5, float64(rank)/FitHalfLifePasses)
-	s := Sample{Pass: p, Env: NewEnv(p.Air, trk.HeadingDeg, prep, mass), Weight: weight}
-	for i := range logbook.Timers {
+	s := Sample{Pass: p, Env: NewEnv(p.Air, trk.HeadingDeg, prep, mass), FitShare: weight}
+	for i := range logbook.TimerDistancesFt {
 		s.Obs[i] = math.NaN()
-		if et, ok := p.ETAt(logbook.Timers[i]); ok && logbook.Timers[i] <= in.Car.DistanceFt {
+		if et, ok := p.ETAt(logbook.TimerDistancesFt[i]); ok && logbook.TimerDistancesFt[i] <= in.Car.DistanceFt {
 			s.Obs[i] = et
 		}
 	}
@@ -495,7 +495,7 @@ const costMargin = 1e-9
 func (f *Fit) residualsOf(th theta, run func(int) Run, limit float64) ([]float64, bool) {
 	prior := DefaultParamsFor(f.Car).theta()
 	sd := priorSD(f.Car.Induction)
-	r := make([]float64, 0, len(f.Samples)*(len(logbook.Timers)+2)+NP)
+	r := make([]float64, 0, len(f.Samples)*(len(logbook.TimerDistancesFt)+2)+NP)
 	stop := limit * (1 + costMargin)
 	var sum float64
 	for i := range f.Samples {
@@ -505,8 +505,8 @@ func (f *Fit) residualsOf(th theta, run func(int) Run, limit float64) ([]float64
 		rows := len(r)
 		s := &f.Samples[i]
 		run := run(i)
-		w := math.Sqrt(s.Weight)
-		for j := range logbook.Timers {
+		w := math.Sqrt(s.FitShare)
+		for j := range logbook.TimerDistancesFt {
 			if !math.IsNaN(s.Obs[j]) {
 				r = append(r, w*huber((run.ET[j]-(s.Obs[j]-s.Nuisance[j]))/timerSigma[j]))
 			}

@@ -50,7 +50,7 @@ func (g gen) day(date time.Time, n int, baro float64) []logbook.Pass {
 		gain := [5]float64{1, 1.3, 1.4, 1.5, 1.5}
 		sd := [5]float64{0, 0.005, 0.007, 0.008, 0.009}
 		p := logbook.Pass{Time: r.Time, Track: testTrack.Name, Session: logbook.Session{Kind: logbook.TimeTrial, N: k + 1}, Lane: logbook.Left, Air: r, HasAir: true}
-		for j := range logbook.Timers {
+		for j := range logbook.TimerDistancesFt {
 			et := run.ET[j] + e0*gain[j] + g.rng.NormFloat64()*sd[j]
 			p.ET[j] = decimal.NewNullDecimal(decimal.NewFromFloat(et).Round(3))
 		}

@@ -87,7 +87,7 @@ func (f *Fit) carryAcrossChange(words logbook.ChangeWords) bool {
 				s.Obs[j] += offset * s.Obs[j] / s.Obs[fin]
 			}
 		}
-		s.Weight *= ChangeCarryWeight
+		s.FitShare *= ChangeCarryWeight
 	}
 	f.Change = &Change{What: what, First: f.Samples[k].Pass, Since: k + 1, Before: len(f.Samples) - k - 1, Offset: offset, OffsetSD: sd}
 	return true

@@ -369,7 +369,7 @@ func (f *Fit) nuisance() {
 			set(&f.Samples[i], d.offset(f.Samples[i]))
 		}
 	}
-	for j := range logbook.Timers {
+	for j := range logbook.TimerDistancesFt {
 		if j > fin {
 			break
 		}

@@ -392,7 +392,7 @@ func simulate(v *Vehicle, p Params, env Env, distanceFt float64, pieces []piece)
 	t0, u0 := timeAt(pieces, Rollout)
 	run.ClockStart, run.StartSpeed = t0, u0
 	var clock [len(run.ET)]float64 // time from first motion at each timer, for the traps
-	for i, ft := range logbook.Timers {
+	for i, ft := range logbook.TimerDistancesFt {
 		if ft > distanceFt {
 			run.ET[i], run.MPH[i] = math.NaN(), math.NaN()
 			continue

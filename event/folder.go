@@ -161,10 +161,6 @@ func (e *Folder) Car() (engine.Car, error) {
 	return engine.ReadCar(f, name)
 }
 
-// LogbookFile reads the folder's logbook.csv (none yet: an empty logbook),
-// keeping its bad rows aside. Its name is how messages call it.
-func (e *Folder) LogbookFile() (*logbook.Logbook, string, error) { return e.readLogbook(0) }
-
 // readLogbook reads the logbook keeping its latest keep passes (0: all).
 // A last line without its line end that a writer is appending right now is
 // taken as not there yet; one no writer holds is torn, and set aside.

@@ -88,7 +88,7 @@ func PassAsJSON(p logbook.Pass, trk engine.Track) PassJSON {
 	j := PassJSON{Time: p.Time.Format(time.RFC3339), Track: p.Track, Session: p.Session.String(), Lane: string(p.Lane),
 		Dial: optSec(p.Dial), RT: optSec(p.RT), Timers: []PassTimerJSON{}, Traps: []PassTrapJSON{},
 		ET: map[string]string{}, MPH: map[string]string{}, Notes: p.Notes, Change: p.Change}
-	for i, ft := range logbook.Timers {
+	for i, ft := range logbook.TimerDistancesFt {
 		if p.ET[i].Valid {
 			et := logbook.FormatSeconds(p.ET[i].Decimal, 0)
 			j.Timers = append(j.Timers, PassTimerJSON{ft, json.Number(et)})

@@ -761,7 +761,7 @@ func (g *gathering) input() (prep.Input, error) {
 			DayStart:      e.Settings.DayStart, Aborts: e.Settings.AbortWords, Changes: e.Settings.ChangeWords},
 		Session: g.slot.Session, Lane: g.lane, OpponentDial: g.opp, Opponent: g.opponent, UsRT: g.usRT, PostBestForWin: e.Settings.PostBestForWin,
 		Call: g.call, Now: g.now,
-		Air: g.air, AirSource: g.source, AirNow: g.airNow, Forecast: g.forecast, Elevation: g.elev, Prep: g.prepLvl, WeightLb: g.weight,
+		Air: g.air, AirSource: g.source, LatestReading: g.airNow, Forecast: g.forecast, Elevation: g.elev, TrackPrep: g.prepLvl, WeightLb: g.weight,
 		Change: g.change, Setup: g.planned,
 		Rules: rules, RulesFS: e.FS, Ticked: g.notes.Ticked, HeldOut: e.HeldOut(),
 	}

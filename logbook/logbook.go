@@ -61,9 +61,9 @@ func (p Pass) ETAt(ft float64) (float64, bool) {
 // Finish is the elapsed time at the last timer recorded, its distance, and
 // whether the pass has any.
 func (p Pass) Finish() (decimal.Decimal, float64, bool) {
-	for i := len(Timers) - 1; i >= 0; i-- {
+	for i := len(TimerDistancesFt) - 1; i >= 0; i-- {
 		if p.ET[i].Valid {
-			return p.ET[i].Decimal, Timers[i], true
+			return p.ET[i].Decimal, TimerDistancesFt[i], true
 		}
 	}
 	return decimal.Decimal{}, 0, false
@@ -551,7 +551,7 @@ func logbookHeader(header []string, name string) (map[string]weather.Column, []w
 	if err != nil {
 		return nil, nil, err
 	}
-	for _, t := range Timers {
+	for _, t := range TimerDistancesFt {
 		if _, ok := col[fmt.Sprintf("et%.0f", t)]; ok {
 			return col, extra, nil
 		}
@@ -752,7 +752,7 @@ func (f SlipFields) parseTimes(p *Pass) error {
 	}
 	var last decimal.NullDecimal
 	lastName, any := "", false
-	for i := range Timers {
+	for i := range TimerDistancesFt {
 		c := timerColumns[i]
 		if p.ET[i], err = f.optSeconds(c, ETRanges[i][0], ETRanges[i][1]); err != nil {
 			return err
@@ -970,7 +970,7 @@ func passValues(p Pass) []string {
 	set("mph1320", sec(p.MPH1320))
 	set("notes", p.Notes)
 	set("change", p.Change)
-	for i := range Timers {
+	for i := range TimerDistancesFt {
 		set(timerColumns[i], sec(p.ET[i]))
 	}
 	if p.HasAir {
@@ -1021,7 +1021,7 @@ func CheckSlipField(col, name, v string) error {
 		return err
 	default:
 		i := -1
-		for j, t := range Timers {
+		for j, t := range TimerDistancesFt {
 			if col == fmt.Sprintf("et%.0f", t) {
 				i = j
 			}

@@ -16,14 +16,14 @@ import (
 // track as "Café" typed with é.
 func TrackName(s string) string { return norm.NFC.String(strings.TrimSpace(s)) }
 
-// Timers are the distances, in feet, a drag strip times: 60 ft, 330 ft, the
+// TimerDistancesFt are the distances, in feet, a drag strip times: 60 ft, 330 ft, the
 // eighth mile (660), 1000 ft and the quarter mile (1320).
-var Timers = []float64{60, 330, 660, 1000, 1320}
+var TimerDistancesFt = []float64{60, 330, 660, 1000, 1320}
 
 // TimersFor are the timers of a race of distance ft (660, 1000 or 1320).
 func TimersFor(distance float64) []float64 {
 	var out []float64
-	for _, t := range Timers {
+	for _, t := range TimerDistancesFt {
 		if t <= distance {
 			out = append(out, t)
 		}
@@ -33,7 +33,7 @@ func TimersFor(distance float64) []float64 {
 
 // TimerIndex is the index in Timers (and in Pass.ET) of distance ft, or -1.
 func TimerIndex(ft float64) int {
-	for i, t := range Timers {
+	for i, t := range TimerDistancesFt {
 		if t == ft {
 			return i
 		}

@@ -38,7 +38,7 @@ func modelLogbook(n int) []logbook.Pass {
 			RH: 0.2 + 0.5*rng.Float64(), TrackTemp: weather.Fahrenheit(80 + 50*rng.Float64()), HasTrack: true}
 		run := engine.Simulate(&v, engine.DefaultParams(engine.Natural), engine.NewEnv(r, 90, 1, v.MassKg), 1320)
 		p := logbook.Pass{Time: tm, Track: testTrack.Name, Session: logbook.Session{Kind: logbook.TimeTrial, N: i%10 + 1}, Lane: logbook.Left, Air: r, HasAir: true}
-		for j := range logbook.Timers {
+		for j := range logbook.TimerDistancesFt {
 			p.ET[j] = decimal.NewNullDecimal(decimal.NewFromFloat(run.ET[j] + rng.NormFloat64()*0.01).Round(3))
 		}
 		p.MPH1320 = decimal.NewNullDecimal(decimal.NewFromFloat(run.MPH1320).Round(2))
@@ -54,7 +54,7 @@ func input(passes []logbook.Pass, rules []*scripts.Rule, fsys fs.FS) Input {
 	return Input{Car: testCar, Track: testTrack, Passes: passes,
 		Settings: Settings{Units: weather.Imperial, DialStep: decimal.New(1, -2), BreakoutRisk: 0.1, MaxRuleAdjust: decimal.New(5, -2), RuleLimits: scripts.DefaultLimits},
 		Session:  logbook.Session{Kind: logbook.Elimination, N: 2}, Lane: logbook.Left, Call: air.Time, Now: air.Time.Add(-10 * time.Minute),
-		Air: air, AirSource: "the test reading", Elevation: testTrack.Elevation(), Prep: 1, Rules: rules, RulesFS: fsys}
+		Air: air, AirSource: "the test reading", Elevation: testTrack.Elevation(), TrackPrep: 1, Rules: rules, RulesFS: fsys}
 }
 
 func rulesFS(srcs map[string]string) (fs.FS, []*scripts.Rule) {

@@ -225,7 +225,7 @@ func (fr *chartFrame) modelLine(c Card, predX float64, f engine.Timer) string {
 	for i := 0; i <= 16; i++ {
 		x := fr.xlo + (fr.xhi-fr.xlo)*float64(i)/16
 		r := engine.ThinnerAir(in.Air, x-predX)
-		env := engine.NewEnv(r, in.Track.HeadingDeg, in.Prep, c.Prediction.Env.MassKg)
+		env := engine.NewEnv(r, in.Track.HeadingDeg, in.TrackPrep, c.Prediction.Env.MassKg)
 		y := engine.Simulate(&c.Fit.Vehicle, c.Fit.Params, env, dist).ETAt(dist) + bias
 		if y >= fr.ylo && y <= fr.yhi {
 			line = append(line, fmt.Sprintf("%.1f,%.1f", fr.sx(x), fr.sy(y)))

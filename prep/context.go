@@ -52,7 +52,7 @@ func RuleContext(c Card) map[string]any {
 	ctx := map[string]any{
 		"units": units,
 		"air":   ctxAir(c),
-		"track": map[string]any{"name": in.Track.Name, "elevation_ft": in.Track.ElevationFt, "heading_deg": in.Track.HeadingDeg, "prep": engine.PrepName(in.Prep)},
+		"track": map[string]any{"name": in.Track.Name, "elevation_ft": in.Track.ElevationFt, "heading_deg": in.Track.HeadingDeg, "prep": engine.PrepName(in.TrackPrep)},
 		"car":   ctxCar(in),
 		"round": ctxRound(c),
 	}
@@ -198,7 +198,7 @@ func passMap(p logbook.Pass) map[string]any {
 	if p.RT.Valid {
 		m["rt"] = p.RT.Decimal.InexactFloat64()
 	}
-	for i, ft := range logbook.Timers {
+	for i, ft := range logbook.TimerDistancesFt {
 		if p.ET[i].Valid {
 			m["et"+itoa(ft)] = p.ET[i].Decimal.InexactFloat64()
 		}

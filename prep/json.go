@@ -55,10 +55,10 @@ func headJSON(c Card) map[string]any {
 		"minutes_to_call": round(c.MinutesToGo, 1),
 		"track":           in.Track.Name,
 		"car":             in.Car.Name,
-		"air_now":         airJSON(c.AirNow, c.AirNowRead, in),
+		"air_now":         airJSON(c.LatestAir, c.LatestReading, in),
 		"air_at_call":     airJSON(c.AirCall, in.Air, in),
 		"air_source":      in.AirSource,
-		"prep":            engine.PrepName(in.Prep),
+		"prep":            engine.PrepName(in.TrackPrep),
 		// A failed check is a problem too: a script that reads only
 		// "problems" must not post a dial the car's own limits forbid.
 		"problems":      nonNil(append(append([]string(nil), c.Problems...), c.Failed...)),

@@ -86,13 +86,13 @@ type Input struct {
 	Call           time.Time // when the round is called
 	Now            time.Time // the crew's clock
 
-	Air       weather.Reading // the air of the pass (forecast for the call, or a reading)
-	AirSource string
-	AirNow    *weather.Reading // the latest reading, when the air is a forecast
-	Forecast  *weather.Forecast
-	Elevation weather.Length
-	Prep      float64
-	WeightLb  float64
+	Air           weather.Reading // the air of the pass (forecast for the call, or a reading)
+	AirSource     string
+	LatestReading *weather.Reading // the latest reading, when the air is a forecast
+	Forecast      *weather.Forecast
+	Elevation     weather.Length
+	TrackPrep     float64
+	WeightLb      float64
 	// Change is the crew's words for a change made to the car since its
 	// last pass (empty: none): the prediction widens for it.
 	Change string
@@ -136,18 +136,18 @@ type RecordLine struct {
 
 // Card is one round's prep card, every figure computed.
 type Card struct {
-	Input        Input
-	Title        string
-	MinutesToGo  float64       // minutes from Now to Call (negative: already called)
-	ReadingAge   time.Duration // from the latest reading to Now (0 when the air is the flags)
-	StaleReading string        // set when ReadingAge is past the setting, in words
-	AirNow       weather.Air
-	AirNowRead   weather.Reading
-	AirCall      weather.Air
-	Prediction   engine.Prediction
-	Fit          engine.Fit
-	Plan         bracket.DialPlan
-	PlanErr      error
+	Input         Input
+	Title         string
+	MinutesToGo   float64       // minutes from Now to Call (negative: already called)
+	ReadingAge    time.Duration // from the latest reading to Now (0 when the air is the flags)
+	StaleReading  string        // set when ReadingAge is past the setting, in words
+	LatestAir     weather.Air
+	LatestReading weather.Reading
+	AirCall       weather.Air
+	Prediction    engine.Prediction
+	Fit           engine.Fit
+	Plan          bracket.DialPlan
+	PlanErr       error
 	// Win: the chance to win against the opponent for each dial considered
 	// (the plan's options and those around them), the one that wins most,
 	// and what choosing it over the breakout rule's trades. Empty without an
@@ -234,23 +234,23 @@ func roundTitle(in Input) string {
 func (c *Card) gatherAir() {
 	in := c.Input
 	c.AirCall = in.Air.Derive(in.Elevation)
-	c.AirNowRead = in.Air
-	if in.AirNow != nil {
-		c.AirNowRead = *in.AirNow
+	c.LatestReading = in.Air
+	if in.LatestReading != nil {
+		c.LatestReading = *in.LatestReading
 	}
-	c.AirNow = c.AirNowRead.Derive(in.Elevation)
-	if in.AirNow == nil {
+	c.LatestAir = c.LatestReading.Derive(in.Elevation)
+	if in.LatestReading == nil {
 		return
 	}
-	c.ReadingAge = in.Now.Sub(in.AirNow.Time)
+	c.ReadingAge = in.Now.Sub(in.LatestReading.Time)
 	limit := in.Settings.MaxReadingAge
 	if limit <= 0 {
 		limit = DefaultMaxReadingAge
 	}
 	if c.ReadingAge > limit {
 		c.StaleReading = fmt.Sprintf("the latest weather reading is %s old (%s; the limit is %s, setting reading_max_age_min): the air has moved since; take a fresh reading",
-			minutes(c.ReadingAge), in.AirNow.Time.Format("15:04"), minutes(limit))
-		if ahead := in.Call.Sub(in.AirNow.Time); ahead > limit {
+			minutes(c.ReadingAge), in.LatestReading.Time.Format("15:04"), minutes(limit))
+		if ahead := in.Call.Sub(in.LatestReading.Time); ahead > limit {
 			c.StaleReading += fmt.Sprintf(", the air at the call is carried %s past it", minutes(ahead))
 		}
 		c.Problems = append(c.Problems, c.StaleReading)
@@ -276,7 +276,7 @@ func (c *Card) predict(cal engine.CalibrateInput) (engine.Fit, error) {
 	}
 	var fit engine.Fit
 	var err error
-	c.Prediction, fit, err = engine.Forecast(cal, engine.PredictInput{Air: in.Air, Prep: in.Prep, WeightLb: in.WeightLb, Time: in.Call, Change: change}, in.HeldOut)
+	c.Prediction, fit, err = engine.Forecast(cal, engine.PredictInput{Air: in.Air, Prep: in.TrackPrep, WeightLb: in.WeightLb, Time: in.Call, Change: change}, in.HeldOut)
 	if err == nil {
 		engine.ApplySetup(&c.Prediction, engine.PlannedSetup(engine.SetupEffects(fit), planned, last))
 	}

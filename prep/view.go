@@ -229,7 +229,7 @@ func (v *view) airTable(c Card) {
 	u := in.Settings.Units
 	v.Air = table{Title: "Air", Header: []string{"", airNowHead(c), "at the call " + in.Call.Format("15:04")}, Marked: -1}
 	row := func(name string, f func(weather.Air, weather.Reading) string) {
-		v.Air.Rows = append(v.Air.Rows, []string{name, f(c.AirNow, c.AirNowRead), f(c.AirCall, in.Air)})
+		v.Air.Rows = append(v.Air.Rows, []string{name, f(c.LatestAir, c.LatestReading), f(c.AirCall, in.Air)})
 	}
 	row("Density altitude", func(a weather.Air, _ weather.Reading) string {
 		return a.DensityAltitude.FormatDensityAltitude(u.Length)
@@ -260,11 +260,11 @@ func (v *view) airTable(c Card) {
 // airNowHead heads the air-now column: when the reading was taken and how
 // old it is, or the time now when nothing was read.
 func airNowHead(c Card) string {
-	nowHead := "now " + c.AirNowRead.Time.Format("15:04")
-	if c.Input.AirNow != nil {
-		nowHead = "read " + c.AirNowRead.Time.Format("15:04") + ", " + minutes(c.ReadingAge) + " ago"
+	nowHead := "now " + c.LatestReading.Time.Format("15:04")
+	if c.Input.LatestReading != nil {
+		nowHead = "read " + c.LatestReading.Time.Format("15:04") + ", " + minutes(c.ReadingAge) + " ago"
 		if c.ReadingAge < time.Minute {
-			nowHead = "read " + c.AirNowRead.Time.Format("15:04") + ", just now"
+			nowHead = "read " + c.LatestReading.Time.Format("15:04") + ", just now"
 		}
 		if c.StaleReading != "" {
 			nowHead += " (OLD)"

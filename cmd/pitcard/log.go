@@ -441,7 +441,7 @@ func (l listColumns) row(p logbook.Pass, trk engine.Track) table.Row {
 		da = p.Air.Derive(event.ElevationFor(p, trk)).DensityAltitude.FormatDensityAltitude(l.u.Length)
 	}
 	row := table.Row{p.Time.Format("2006-01-02"), p.Time.Format("15:04"), p.Session.String(), p.Lane, sec(p.Dial, 2), sec(p.RT, 3)}
-	for i, ft := range logbook.Timers {
+	for i, ft := range logbook.TimerDistancesFt {
 		if !l.wide && (ft == 330 || ft == 1000) {
 			continue
 		}

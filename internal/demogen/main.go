@@ -189,7 +189,7 @@ func pass(rng *rand.Rand, v *engine.Vehicle, t engine.Track, r weather.Reading, 
 	e0 := rng.NormFloat64() * 0.008
 	gain := [5]float64{1, 1.3, 1.4, 1.5, 1.5}
 	sd := [5]float64{0, 0.005, 0.007, 0.008, 0.009}
-	for j := range logbook.Timers {
+	for j := range logbook.TimerDistancesFt {
 		p.ET[j] = dec(run.ET[j]+e0*gain[j]+rng.NormFloat64()*sd[j], 3)
 	}
 	p.MPH660 = dec(run.MPH660+rng.NormFloat64()*0.25, 2)
@@ -206,7 +206,7 @@ func pass(rng *rand.Rand, v *engine.Vehicle, t engine.Track, r weather.Reading, 
 
 // lift turns a pass into one the driver got out of: slower from 660 ft on.
 func lift(p *logbook.Pass, lost, mph float64, note string) {
-	for j, ft := range logbook.Timers {
+	for j, ft := range logbook.TimerDistancesFt {
 		if ft > 660 {
 			et := p.ET[j].Decimal.InexactFloat64() + lost*(ft-660)/660
 			p.ET[j] = dec(et, 3)

@@ -554,7 +554,7 @@ func (w World) logged(c cond, readAt, t time.Time, k int, massLb float64, ran ru
 		ses = logbook.Session{Kind: logbook.Elimination, N: k - 2}
 	}
 	p := logbook.Pass{Time: t, Track: trk.Name, Session: ses, Lane: []logbook.Lane{logbook.Left, logbook.Right}[r.IntN(2)]}
-	for i, ft := range logbook.Timers {
+	for i, ft := range logbook.TimerDistancesFt {
 		if ft <= w.Car.DistanceFt && !math.IsNaN(et[i]) {
 			p.ET[i] = decimal.NewNullDecimal(decimal.NewFromFloat(et[i]).Round(3))
 		}
@@ -677,10 +677,10 @@ func Worlds() []World {
 
 // FinishIndex is the index in logbook.Timers of a distance's finish line.
 func FinishIndex(ft float64) int {
-	for i, t := range logbook.Timers {
+	for i, t := range logbook.TimerDistancesFt {
 		if t == ft {
 			return i
 		}
 	}
-	return len(logbook.Timers) - 1
+	return len(logbook.TimerDistancesFt) - 1
 }
