@@ -101,7 +101,7 @@ end`
 				if len(res.Errors) > 0 {
 					t.Fatalf("a modest rule was stopped while others allocated: %v", res.Errors)
 				}
-				if want := fmt.Sprint(60 * 20000 * 20001 / 2); len(res.Notes) != 1 || res.Notes[0] != want {
+				if want := fmt.Sprint(int64(60 * 20000 * 20001 / 2)); len(res.Notes) != 1 || res.Notes[0] != want {
 					t.Errorf("notes %v, want [%s]", res.Notes, want)
 				}
 				return
