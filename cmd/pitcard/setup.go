@@ -159,6 +159,9 @@ func logSetupRun(cmd *cobra.Command, o *logSetupOptions) error {
 			continue
 		}
 		line := "  " + it.Name + ": a choice; never changed among the passes"
+		if logbook.LastSetup(passes, logbook.Setup{it})[it.Name] == "" {
+			line = "  " + it.Name + ": a choice; no pass recorded it yet"
+		}
 		if c := changes[it.Name]; len(c) > 0 {
 			line = fmt.Sprintf("  %s: a choice, changed on %s (each a change of the car: the model carries the passes before it across)", it.Name, strings.Join(c, "; "))
 		}
