@@ -92,7 +92,7 @@ func (e *Folder) diffLogbook(src Source, block int) (*PassDiff, error) {
 	var leftOut error
 	if len(oursBad) > 0 {
 		slices.SortStableFunc(oursBad, func(a, b *weather.InputError) int { return a.Line - b.Line })
-		leftOut = &LeftOutRows{file: name, bak: e.BackupOf(name), rows: oursBad, read: good}
+		leftOut = e.RowsLeftOut(name, oursBad, good)
 	}
 	// Theirs, against them.
 	d := &PassDiff{}
@@ -138,7 +138,7 @@ func (e *Folder) diffLogbook(src Source, block int) (*PassDiff, error) {
 				c := &d.Conflicts[i]
 				ours := logbook.PassRecord(p)
 				c.Ours = strings.Join(ours, ",")
-				c.Differs = differs(logbook.Columns, ours, theirRows[i])
+				c.Differs = Differs(logbook.Columns, ours, theirRows[i])
 			}
 		}
 	}
@@ -197,7 +197,7 @@ func (e *Folder) eachOurs(block int, fn func(*logbook.Logbook)) (string, error) 
 	}
 	defer f.Close()
 	return name, eachBlock(f, block, func(data []byte, offset int) error {
-		lb, err := logbook.ReadSetup(bytes.NewReader(data), name, e.Zone(), 0, e.setup())
+		lb, err := logbook.ReadSetup(bytes.NewReader(data), name, e.Zone(), 0, e.Setup())
 		if err != nil {
 			return err
 		}
@@ -218,7 +218,7 @@ func (e *Folder) oursAt(wanted func(line int) bool) ([]logbook.Pass, error) {
 	if err != nil {
 		return nil, err
 	}
-	lb, err := logbook.ReadSetup(bytes.NewReader(data), name, e.Zone(), 0, e.setup())
+	lb, err := logbook.ReadSetup(bytes.NewReader(data), name, e.Zone(), 0, e.Setup())
 	if err != nil {
 		return nil, err
 	}

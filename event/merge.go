@@ -244,7 +244,7 @@ func MergePasses(ours, other []logbook.Pass) PassMerge {
 		}
 		m.Conflicts = append(m.Conflicts, Conflict{
 			What:    fmt.Sprintf("pass %s %s lane", p.Time.Format("2006-01-02 15:04"), p.Lane),
-			Differs: differs(logbook.Columns, logbook.PassRecord(*o), logbook.PassRecord(p)),
+			Differs: Differs(logbook.Columns, logbook.PassRecord(*o), logbook.PassRecord(p)),
 			Ours:    strings.Join(logbook.PassRecord(*o), ","), Theirs: strings.Join(logbook.PassRecord(p), ","),
 			OursLine: o.Line, TheirsLine: p.Line})
 	}
@@ -279,7 +279,7 @@ func MergeReadings(ours, other []weather.Reading) ReadingMerge {
 			m.Same++
 		default:
 			m.Conflicts = append(m.Conflicts, Conflict{What: "reading " + key(r),
-				Differs: differs(weather.LogColumns, weather.Record(ours[j]), weather.Record(r)),
+				Differs: Differs(weather.LogColumns, weather.Record(ours[j]), weather.Record(r)),
 				Ours:    strings.Join(weather.Record(ours[j]), ","), Theirs: strings.Join(weather.Record(r), ","),
 				OursLine: j + 2, TheirsLine: i + 2})
 		}
@@ -328,8 +328,9 @@ func (e *Folder) ImportReadings(add []weather.Reading, from string, elev weather
 	return Imported{Added: len(m.New), Skipped: m.Same, Total: len(log)}, nil
 }
 
-// differs lists the columns where two rows differ, with both values.
-func differs(cols, a, b []string) [][3]string {
+// Differs lists the columns cols where two rows, ours a and theirs b,
+// differ: each column's name and both values (a Conflict's Differs).
+func Differs(cols, a, b []string) [][3]string {
 	var out [][3]string
 	for i, c := range cols {
 		if i < len(a) && i < len(b) && a[i] != b[i] {
