@@ -94,7 +94,7 @@ func (e *Folder) appendPass(path, name string, p logbook.Pass, extra []string) (
 	if _, err := f.ReadAt(end[:], c.size-1); err != nil || end[0] != '\n' {
 		return 0, false, nil // torn or empty: the rewrite
 	}
-	tail, err := logbook.ReadTail(f, c.size, name, e.Zone(), e.setup(), p.Time)
+	tail, err := logbook.ReadTail(f, c.size, name, e.Zone(), e.Setup(), p.Time)
 	if err != nil || tail == nil || !tail.EndsLine || len(tail.Bad) > 0 || !tail.InOrder {
 		return 0, false, nil
 	}

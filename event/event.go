@@ -1,8 +1,9 @@
 // Package event is pitcard's event folder and what is done to it: its
 // files and their names, the settings (pitcard.yaml, the PITCARD_
 // variables, the flags), the locks and safe writes, and the steps every
-// front end shares, from typed input to a logged pass or reading, a
-// gathered round (GatherRound) and an import or merge. The command line
+// front end shares, from typed input to a logged pass or reading and a
+// gathered round (GatherRound); files brought in from elsewhere (imports,
+// a crewmate's copy compared) are package bringin's. The command line
 // and the pit page are thin over it. It does not predict (engine), settle a
 // race (bracket) or lay out a card (prep): it hands them what the folder
 // holds.

@@ -190,7 +190,7 @@ func (e *Folder) readLogbookHeld(keep int, held bool) (*logbook.Logbook, string,
 		return nil, name, err
 	}
 	defer f.Close()
-	setup := e.setup()
+	setup := e.Setup()
 	if ra, ok := f.(io.ReaderAt); ok && keep > 0 {
 		// The recent window, read from the end of the file (see
 		// logbook.ReadLast for what that leaves unchecked).
@@ -205,10 +205,10 @@ func (e *Folder) readLogbookHeld(keep int, held bool) (*logbook.Logbook, string,
 	return lb, name, err
 }
 
-// setup is car.yaml's setup items, which type the logbook's columns of
+// Setup is car.yaml's setup items, which type the logbook's columns of
 // their names; a car.yaml that cannot be read types none (the command that
 // needs the car says why).
-func (e *Folder) setup() logbook.Setup {
+func (e *Folder) Setup() logbook.Setup {
 	car, err := e.Car()
 	if err != nil {
 		return nil
@@ -239,7 +239,7 @@ func (e *Folder) readPasses(keep int) ([]logbook.Pass, error) {
 		return nil, err
 	}
 	if len(lb.Bad) > 0 {
-		return lb.Passes, &LeftOutRows{file: name, bak: e.BackupOf(name), rows: lb.Bad, read: len(lb.Passes)}
+		return lb.Passes, e.RowsLeftOut(name, lb.Bad, len(lb.Passes))
 	}
 	return lb.Passes, nil
 }
@@ -257,6 +257,13 @@ func (e *Folder) BackupOf(name string) string {
 		return bak
 	}
 	return ""
+}
+
+// RowsLeftOut is the error for the rows of the logbook file name that
+// could not be read, beside the read good passes, naming its .bak when
+// there is one. It does not read the file.
+func (e *Folder) RowsLeftOut(name string, rows logbook.RowErrors, read int) *LeftOutRows {
+	return &LeftOutRows{file: name, bak: e.BackupOf(name), rows: rows, read: read}
 }
 
 // LeftOutRows are the rows of a logbook that could not be read: the rest of

@@ -349,7 +349,7 @@ func MergeOpponents(ours, other []OpponentPass) OpponentMerge {
 		default:
 			m.Conflicts = append(m.Conflicts, Conflict{
 				What:    fmt.Sprintf("car %s %s %s", p.Car, p.Date, p.Round),
-				Differs: differs(OpponentColumns, o.Record(), p.Record()),
+				Differs: Differs(OpponentColumns, o.Record(), p.Record()),
 				Ours:    strings.Join(o.Record(), ","), Theirs: strings.Join(p.Record(), ","),
 				OursLine: o.Line, TheirsLine: p.Line})
 		}

@@ -11,6 +11,7 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"pitcard/bringin"
 	"pitcard/colmap"
 	"pitcard/event"
 	"pitcard/internal/safefile"
@@ -44,12 +45,12 @@ func readMap(path string, kind colmap.Kind) (*colmap.Map, error) {
 
 // source is how to read FILE: pitcard's own columns, --map, or a guess the
 // crew has confirmed with --yes.
-func (f *mapFlags) source(s *IOStreams, e *eventFolder, path string, kind colmap.Kind) (event.Source, error) {
-	data, err := event.ReadSourceFile(path)
+func (f *mapFlags) source(s *IOStreams, e *eventFolder, path string, kind colmap.Kind) (bringin.Source, error) {
+	data, err := bringin.ReadSourceFile(path)
 	if err != nil {
-		return event.Source{}, err
+		return bringin.Source{}, err
 	}
-	src := event.Source{Path: path, Data: data}
+	src := bringin.Source{Path: path, Data: data}
 	if f.Map != "" {
 		m, err := readMap(f.Map, kind)
 		if err != nil {
@@ -59,7 +60,7 @@ func (f *mapFlags) source(s *IOStreams, e *eventFolder, path string, kind colmap
 		src.Map = m
 		return src, nil
 	}
-	if event.OwnLayout(data, kind) {
+	if bringin.OwnLayout(data, kind) {
 		return src, nil
 	}
 	defaults := map[string]string{}
@@ -159,7 +160,7 @@ conflict: both versions are listed and nothing is written.`,
 			if len(log) == 0 {
 				return userErrf("%s has no readings to import", args[0])
 			}
-			im, err := e.ImportReadings(log, args[0], elev, o.SkipExisting)
+			im, err := bringin.ImportReadings(e, log, args[0], elev, o.SkipExisting)
 			added, skipped, total := im.Added, im.Skipped, im.Total
 			if err != nil {
 				return err
@@ -202,14 +203,14 @@ value in some field, both versions shown. It writes nothing.`,
 			if err != nil {
 				return err
 			}
-			src := event.Source{Path: args[0]}
+			src := bringin.Source{Path: args[0]}
 			if o.maps.Map != "" {
 				if src.Map, err = readMap(o.maps.Map, colmap.Logbook); err != nil {
 					return err
 				}
 			}
 			// Compared a block of rows at a time: counts and lines are kept, not the passes.
-			m, leftOut := e.DiffLogbook(src)
+			m, leftOut := bringin.DiffLogbook(e, src)
 			if !event.OnlyLeftOut(leftOut) {
 				return leftOut
 			}

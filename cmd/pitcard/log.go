@@ -11,6 +11,7 @@ import (
 	"github.com/shopspring/decimal"
 	"github.com/spf13/cobra"
 
+	"pitcard/bringin"
 	"pitcard/colmap"
 	"pitcard/engine"
 	"pitcard/event"
@@ -271,7 +272,7 @@ func logImportRun(cmd *cobra.Command, o *logImportOptions, file string) error {
 		return err
 	}
 	cur, _ := e.Logbook()
-	merge := event.MergePasses(cur, src.Passes)
+	merge := bringin.MergePasses(cur, src.Passes)
 	if err := importRefused(e, src, merge, file, o.SkipExisting); err != nil {
 		return err
 	}
@@ -307,7 +308,7 @@ func logImportRun(cmd *cobra.Command, o *logImportOptions, file string) error {
 // logged without --skip-existing (every one listed, the duplicates past
 // shownDuplicates counted), or a pass logged with another value (a
 // conflict). It writes nothing.
-func importRefused(e *eventFolder, src *logbook.Logbook, merge event.PassMerge, file string, skipExisting bool) error {
+func importRefused(e *eventFolder, src *logbook.Logbook, merge bringin.PassMerge, file string, skipExisting bool) error {
 	if len(src.Bad) == 0 && len(src.Passes) > 0 && merge.Same == len(src.Passes) && !skipExisting {
 		// A file already imported: said in one line, not a line per pass.
 		return userErrf("nothing new in %s: its %s are already in %s, alike (the same pass entered twice); nothing was imported (give --skip-existing to leave out the passes already logged)",

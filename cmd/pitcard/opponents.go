@@ -7,6 +7,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"pitcard/bracket"
+	"pitcard/bringin"
 	"pitcard/event"
 	"pitcard/internal/text"
 	"pitcard/prep"
@@ -105,7 +106,7 @@ func logOpponentsRun(cmd *cobra.Command, o *logOpponentsOptions) error {
 // importOpponents imports FILE into the opponent book when it is one (its
 // header is opponents.csv's): done says it was, and err how it went.
 func importOpponents(s *IOStreams, e *eventFolder, path string, skipExisting bool) (done bool, err error) {
-	data, err := event.ReadSourceFile(path)
+	data, err := bringin.ReadSourceFile(path)
 	if err != nil || !event.IsOpponentBook(data) {
 		return false, nil // the logbook's import reads it and says what is wrong
 	}

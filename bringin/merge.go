@@ -1,4 +1,4 @@
-package event
+package bringin
 
 import (
 	"bytes"
@@ -11,6 +11,7 @@ import (
 	"time"
 
 	"pitcard/colmap"
+	"pitcard/event"
 	"pitcard/internal/safefile"
 	"pitcard/internal/text"
 	"pitcard/logbook"
@@ -31,7 +32,7 @@ type Source struct {
 	Setup logbook.Setup
 }
 
-// SourceData reads a source file: its bytes, translated through its map
+// read reads a source file: its bytes, translated through its map
 // when it has one (Translation is then set, to point errors at the file's
 // own lines).
 func (s Source) read() ([]byte, *colmap.Translation, error) {
@@ -135,52 +136,11 @@ func (s Source) Readings(elev weather.Length) ([]weather.Reading, error) {
 	return log, err
 }
 
-// Conflict is one entry both copies have (the same pass, or a reading in
-// the same minute) with different values.
-type Conflict struct {
-	What                 string      // "pass 2026-06-13 20:47 left" or "reading 2026-06-13 14:30"
-	Differs              [][3]string // the columns that differ: name, our value, theirs
-	Ours, Theirs         string      // the two rows as pitcard writes them
-	OursLine, TheirsLine int
-}
-
-// Conflicts are every conflict between two copies; nothing is written
-// while there are any.
-type Conflicts struct {
-	List           []Conflict
-	Ours, TheirsIn string // the two files
-}
-
-// Error names the two files and lists the entries they disagree on.
-func (c *Conflicts) Error() string {
-	return fmt.Sprintf("%s and %s disagree on %s (nothing was written; fix one copy, or leave the entry out of the import):\n%s",
-		c.Ours, c.TheirsIn, text.Plural(len(c.List), "entry"), c.Entries())
-}
-
-// Entries are the conflicts, each with the columns that differ and both rows.
-func (c *Conflicts) Entries() string {
-	var b strings.Builder
-	for i, x := range c.List {
-		if i > 0 {
-			b.WriteString("\n")
-		}
-		var d []string
-		for _, f := range x.Differs {
-			d = append(d, fmt.Sprintf("%s %q in %s, %q in %s", f[0], f[1], c.Ours, f[2], c.TheirsIn))
-		}
-		fmt.Fprintf(&b, "  %s: %s\n    %s line %d: %s\n    %s line %d: %s", x.What, strings.Join(d, "; "), c.Ours, x.OursLine, x.Ours, c.TheirsIn, x.TheirsLine, x.Theirs)
-	}
-	return b.String()
-}
-
-// BadInput marks the conflicts as the crew's to settle.
-func (c *Conflicts) BadInput() bool { return true }
-
 // PassMerge is what another copy's passes hold against ours.
 type PassMerge struct {
-	New       []logbook.Pass // theirs, not in ours
-	Same      int            // theirs, already in ours exactly
-	Conflicts []Conflict     // theirs, in ours with another value in some field
+	New       []logbook.Pass   // theirs, not in ours
+	Same      int              // theirs, already in ours exactly
+	Conflicts []event.Conflict // theirs, in ours with another value in some field
 	// Logged are theirs that ours has (alike or not): where each is in
 	// both, not the passes (a crewmate's copy of ten seasons shares them
 	// all).
@@ -242,9 +202,9 @@ func MergePasses(ours, other []logbook.Pass) PassMerge {
 			m.Same++
 			continue
 		}
-		m.Conflicts = append(m.Conflicts, Conflict{
+		m.Conflicts = append(m.Conflicts, event.Conflict{
 			What:    fmt.Sprintf("pass %s %s lane", p.Time.Format("2006-01-02 15:04"), p.Lane),
-			Differs: differs(logbook.Columns, logbook.PassRecord(*o), logbook.PassRecord(p)),
+			Differs: event.Differs(logbook.Columns, logbook.PassRecord(*o), logbook.PassRecord(p)),
 			Ours:    strings.Join(logbook.PassRecord(*o), ","), Theirs: strings.Join(logbook.PassRecord(p), ","),
 			OursLine: o.Line, TheirsLine: p.Line})
 	}
@@ -255,7 +215,7 @@ func MergePasses(ours, other []logbook.Pass) PassMerge {
 type ReadingMerge struct {
 	New       []weather.Reading
 	Same      int
-	Conflicts []Conflict
+	Conflicts []event.Conflict
 }
 
 // MergeReadings compares other's readings with ours, by minute and then by
@@ -278,8 +238,8 @@ func MergeReadings(ours, other []weather.Reading) ReadingMerge {
 		case slices.Equal(weather.Record(ours[j]), weather.Record(r)):
 			m.Same++
 		default:
-			m.Conflicts = append(m.Conflicts, Conflict{What: "reading " + key(r),
-				Differs: differs(weather.LogColumns, weather.Record(ours[j]), weather.Record(r)),
+			m.Conflicts = append(m.Conflicts, event.Conflict{What: "reading " + key(r),
+				Differs: event.Differs(weather.LogColumns, weather.Record(ours[j]), weather.Record(r)),
 				Ours:    strings.Join(weather.Record(ours[j]), ","), Theirs: strings.Join(weather.Record(r), ","),
 				OursLine: j + 2, TheirsLine: i + 2})
 		}
@@ -298,11 +258,11 @@ type Imported struct {
 // nothing: a reading in a minute the log has is refused (with skipExisting,
 // skipped when equal and a conflict when not). It returns how many were
 // added and skipped, and how many the log holds.
-func (e *Folder) ImportReadings(add []weather.Reading, from string, elev weather.Length, skipExisting bool) (Imported, error) {
+func ImportReadings(e *event.Folder, add []weather.Reading, from string, elev weather.Length, skipExisting bool) (Imported, error) {
 	if err := e.Writable(); err != nil {
 		return Imported{}, err
 	}
-	path := e.Path(WeatherFile)
+	path := e.Path(event.WeatherFile)
 	unlock, err := safefile.Lock(path)
 	if err != nil {
 		return Imported{}, err
@@ -314,27 +274,16 @@ func (e *Folder) ImportReadings(add []weather.Reading, from string, elev weather
 	}
 	m := MergeReadings(log, add)
 	if len(m.Conflicts) > 0 {
-		return Imported{}, &Conflicts{List: m.Conflicts, Ours: e.Name(WeatherFile), TheirsIn: from}
+		return Imported{}, &event.Conflicts{List: m.Conflicts, Ours: e.Name(event.WeatherFile), TheirsIn: from}
 	}
 	if m.Same > 0 && !skipExisting {
 		return Imported{}, userErrf("%s has %s already in %s (the same minute): give --skip-existing to leave them out; nothing was written",
-			from, text.Plural(m.Same, "reading"), e.Name(WeatherFile))
+			from, text.Plural(m.Same, "reading"), e.Name(event.WeatherFile))
 	}
 	log = append(log, m.New...)
-	sortReadings(log)
+	slices.SortStableFunc(log, func(a, b weather.Reading) int { return a.Time.Compare(b.Time) }) // in time order, stably
 	if err := safefile.Write(path, func(w io.Writer) error { return weather.WriteLog(w, log) }); err != nil {
 		return Imported{}, err
 	}
 	return Imported{Added: len(m.New), Skipped: m.Same, Total: len(log)}, nil
-}
-
-// differs lists the columns where two rows differ, with both values.
-func differs(cols, a, b []string) [][3]string {
-	var out [][3]string
-	for i, c := range cols {
-		if i < len(a) && i < len(b) && a[i] != b[i] {
-			out = append(out, [3]string{c, a[i], b[i]})
-		}
-	}
-	return out
 }

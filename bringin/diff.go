@@ -1,4 +1,4 @@
-package event
+package bringin
 
 import (
 	"bufio"
@@ -14,6 +14,7 @@ import (
 	"time"
 
 	"pitcard/colmap"
+	"pitcard/event"
 	"pitcard/logbook"
 	"pitcard/weather"
 )
@@ -29,9 +30,9 @@ const diffBlock = 4096
 // PassDiff is how another copy's passes compare with our logbook's, kept as
 // counts and line numbers (and the passes only it has).
 type PassDiff struct {
-	New       []logbook.Pass // theirs, not in ours, in time order
-	Same      int            // theirs, in ours with the same values
-	Conflicts []Conflict     // theirs, in ours with another value in some field
+	New       []logbook.Pass   // theirs, not in ours, in time order
+	Same      int              // theirs, in ours with the same values
+	Conflicts []event.Conflict // theirs, in ours with another value in some field
 	// TheirBad are the rows of the other copy pitcard cannot read (or that
 	// repeat a pass of it), left out of the comparison.
 	TheirBad logbook.RowErrors
@@ -62,23 +63,24 @@ func digest(p logbook.Pass) [16]byte {
 // through a map) with the folder's logbook, by pass (minute, track, lane)
 // and then by every field, as MergePasses does, holding neither. The error
 // beside the result is the folder's rows that could not be read
-// (*LeftOutRows), as Logbook's is; any other error stops it.
-func (e *Folder) DiffLogbook(src Source) (*PassDiff, error) {
-	return e.diffLogbook(src, diffBlock)
+// (*event.LeftOutRows), as event.Folder.Logbook's is; any other error stops
+// it.
+func DiffLogbook(e *event.Folder, src Source) (*PassDiff, error) {
+	return diffLogbook(e, src, diffBlock)
 }
 
-func (e *Folder) diffLogbook(src Source, block int) (*PassDiff, error) {
+func diffLogbook(e *event.Folder, src Source, block int) (*PassDiff, error) {
 	keys := newPassKeys()
 	seen := map[diffKey]seenPass{}
 	// Ours: where each pass is, and its digest.
 	var oursBad logbook.RowErrors
 	good := 0
-	name, err := e.eachOurs(block, func(lb *logbook.Logbook) {
+	name, err := eachOurs(e, block, func(lb *logbook.Logbook) {
 		oursBad = append(oursBad, lb.Bad...)
 		for _, p := range lb.Passes {
 			k := keys.of(p)
 			if first, dup := seen[k]; dup { // the same pass in two blocks: the reader's words
-				oursBad = append(oursBad, &weather.InputError{File: e.Name(LogbookFile), Line: p.Line, Field: "row",
+				oursBad = append(oursBad, &weather.InputError{File: e.Name(event.LogbookFile), Line: p.Line, Field: "row",
 					Reason: fmt.Sprintf(repeatedPass+"%d (%s, %s lane): entered twice", first.ours, p.Time.Format("2006-01-02 15:04"), p.Lane)})
 				continue
 			}
@@ -92,7 +94,7 @@ func (e *Folder) diffLogbook(src Source, block int) (*PassDiff, error) {
 	var leftOut error
 	if len(oursBad) > 0 {
 		slices.SortStableFunc(oursBad, func(a, b *weather.InputError) int { return a.Line - b.Line })
-		leftOut = &LeftOutRows{file: name, bak: e.BackupOf(name), rows: oursBad, read: good}
+		leftOut = e.RowsLeftOut(name, oursBad, good)
 	}
 	// Theirs, against them.
 	d := &PassDiff{}
@@ -120,7 +122,7 @@ func (e *Folder) diffLogbook(src Source, block int) (*PassDiff, error) {
 				wanted[s.ours] = append(wanted[s.ours], len(d.Conflicts))
 				row := logbook.PassRecord(p)
 				theirRows = append(theirRows, row)
-				d.Conflicts = append(d.Conflicts, Conflict{What: fmt.Sprintf("pass %s %s lane", p.Time.Format("2006-01-02 15:04"), p.Lane),
+				d.Conflicts = append(d.Conflicts, event.Conflict{What: fmt.Sprintf("pass %s %s lane", p.Time.Format("2006-01-02 15:04"), p.Lane),
 					Theirs: strings.Join(row, ","), OursLine: int(s.ours), TheirsLine: p.Line})
 			}
 		}
@@ -129,7 +131,7 @@ func (e *Folder) diffLogbook(src Source, block int) (*PassDiff, error) {
 		return nil, err
 	}
 	if len(wanted) > 0 { // the rows of ours the conflicts show
-		passes, err := e.oursAt(func(line int) bool { return len(wanted[int32(line)]) > 0 })
+		passes, err := oursAt(e, func(line int) bool { return len(wanted[int32(line)]) > 0 })
 		if err != nil {
 			return nil, err
 		}
@@ -138,12 +140,12 @@ func (e *Folder) diffLogbook(src Source, block int) (*PassDiff, error) {
 				c := &d.Conflicts[i]
 				ours := logbook.PassRecord(p)
 				c.Ours = strings.Join(ours, ",")
-				c.Differs = differs(logbook.Columns, ours, theirRows[i])
+				c.Differs = event.Differs(logbook.Columns, ours, theirRows[i])
 			}
 		}
 	}
 	logbook.SortPasses(d.New)
-	slices.SortStableFunc(d.Conflicts, func(a, b Conflict) int { return a.TheirsLine - b.TheirsLine })
+	slices.SortStableFunc(d.Conflicts, func(a, b event.Conflict) int { return a.TheirsLine - b.TheirsLine })
 	slices.SortStableFunc(d.TheirBad, func(a, b *weather.InputError) int { return a.Line - b.Line })
 	return d, leftOut
 }
@@ -187,8 +189,8 @@ func number(names map[string]uint32, name string, fold bool) uint32 {
 
 // eachOurs reads the folder's logbook a block of rows at a time (none yet:
 // no block), and returns its name.
-func (e *Folder) eachOurs(block int, fn func(*logbook.Logbook)) (string, error) {
-	f, name, err := e.OpenFile(LogbookFile, e.LogbookPath)
+func eachOurs(e *event.Folder, block int, fn func(*logbook.Logbook)) (string, error) {
+	f, name, err := e.OpenFile(event.LogbookFile, e.LogbookPath)
 	if errors.Is(err, fs.ErrNotExist) {
 		return name, nil
 	}
@@ -197,7 +199,7 @@ func (e *Folder) eachOurs(block int, fn func(*logbook.Logbook)) (string, error) 
 	}
 	defer f.Close()
 	return name, eachBlock(f, block, func(data []byte, offset int) error {
-		lb, err := logbook.ReadSetup(bytes.NewReader(data), name, e.Zone(), 0, e.setup())
+		lb, err := logbook.ReadSetup(bytes.NewReader(data), name, e.Zone(), 0, e.Setup())
 		if err != nil {
 			return err
 		}
@@ -208,8 +210,8 @@ func (e *Folder) eachOurs(block int, fn func(*logbook.Logbook)) (string, error) 
 }
 
 // oursAt is the passes of the folder's logbook starting at the lines wanted.
-func (e *Folder) oursAt(wanted func(line int) bool) ([]logbook.Pass, error) {
-	f, name, err := e.OpenFile(LogbookFile, e.LogbookPath)
+func oursAt(e *event.Folder, wanted func(line int) bool) ([]logbook.Pass, error) {
+	f, name, err := e.OpenFile(event.LogbookFile, e.LogbookPath)
 	if err != nil {
 		return nil, err
 	}
@@ -218,7 +220,7 @@ func (e *Folder) oursAt(wanted func(line int) bool) ([]logbook.Pass, error) {
 	if err != nil {
 		return nil, err
 	}
-	lb, err := logbook.ReadSetup(bytes.NewReader(data), name, e.Zone(), 0, e.setup())
+	lb, err := logbook.ReadSetup(bytes.NewReader(data), name, e.Zone(), 0, e.Setup())
 	if err != nil {
 		return nil, err
 	}

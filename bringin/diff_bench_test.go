@@ -1,4 +1,4 @@
-package event
+package bringin
 
 import (
 	"bytes"
@@ -7,6 +7,7 @@ import (
 	"testing"
 	"time"
 
+	"pitcard/event"
 	"pitcard/internal/biglog"
 )
 
@@ -16,10 +17,10 @@ import (
 // ms; target: under 200 MB for the whole process).
 func BenchmarkDiffLogbook300000(b *testing.B) {
 	dir := b.TempDir()
-	if _, err := Create(dir, true, time.Date(2026, 6, 13, 20, 31, 0, 0, time.Local)); err != nil {
+	if _, err := event.Create(dir, true, time.Date(2026, 6, 13, 20, 31, 0, 0, time.Local)); err != nil {
 		b.Fatal(err)
 	}
-	path := filepath.Join(dir, LogbookFile)
+	path := filepath.Join(dir, event.LogbookFile)
 	if err := biglog.Grow(path, 300000); err != nil {
 		b.Fatal(err)
 	}
@@ -38,7 +39,7 @@ func BenchmarkDiffLogbook300000(b *testing.B) {
 	if err := os.WriteFile(theirs, bytes.Join(lines, []byte("\n")), 0o644); err != nil {
 		b.Fatal(err)
 	}
-	e, err := Open(OpenOptions{Dir: dir})
+	e, err := event.Open(event.OpenOptions{Dir: dir})
 	if err != nil {
 		b.Fatal(err)
 	}
@@ -46,7 +47,7 @@ func BenchmarkDiffLogbook300000(b *testing.B) {
 	var peak uint64
 	for b.Loop() {
 		stop := biglog.WatchHeap()
-		d, err := e.DiffLogbook(Source{Path: theirs})
+		d, err := DiffLogbook(e, Source{Path: theirs})
 		peak = max(peak, stop())
 		if err != nil || len(d.Conflicts) != 10 || d.Same != 300000-10 {
 			b.Fatalf("%v: %d conflicts, %d alike", err, len(d.Conflicts), d.Same)

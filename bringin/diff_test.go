@@ -1,4 +1,4 @@
-package event
+package bringin
 
 import (
 	"os"
@@ -8,6 +8,7 @@ import (
 	"testing"
 	"time"
 
+	"pitcard/event"
 	"pitcard/logbook"
 )
 
@@ -18,10 +19,10 @@ import (
 // own comparison rules, no source).
 func TestDiffLogbookInBlocksIsTheWholeComparison(t *testing.T) {
 	dir := t.TempDir()
-	if _, err := Create(dir, true, time.Date(2026, 6, 13, 20, 31, 0, 0, time.Local)); err != nil {
+	if _, err := event.Create(dir, true, time.Date(2026, 6, 13, 20, 31, 0, 0, time.Local)); err != nil {
 		t.Fatal(err)
 	}
-	path := filepath.Join(dir, LogbookFile)
+	path := filepath.Join(dir, event.LogbookFile)
 	data, err := os.ReadFile(path)
 	if err != nil {
 		t.Fatal(err)
@@ -54,7 +55,7 @@ func TestDiffLogbookInBlocksIsTheWholeComparison(t *testing.T) {
 	other := filepath.Join(t.TempDir(), "theirs.csv")
 	write(other, theirs)
 
-	e, err := Open(OpenOptions{Dir: dir})
+	e, err := event.Open(event.OpenOptions{Dir: dir})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -86,7 +87,7 @@ func TestDiffLogbookInBlocksIsTheWholeComparison(t *testing.T) {
 		return out
 	}
 	for _, block := range []int{1, 2, 3, 7, 64, diffBlock} {
-		got, err := e.diffLogbook(src, block)
+		got, err := diffLogbook(e, src, block)
 		if err != nil {
 			t.Fatalf("block %d: %v", block, err)
 		}

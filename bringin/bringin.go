@@ -1,0 +1,18 @@
+// Package bringin brings files in from outside an event folder: another
+// layout's CSV through a column map, a crewmate's copy of the logbook or
+// weather log compared with the folder's (what is new, alike, in conflict)
+// and readings imported into the weather log. It does not own the folder's
+// files, settings, locks or safe writes (event), nor read a column map
+// (colmap): it takes them from there.
+package bringin
+
+import "fmt"
+
+// inputErr marks an error as the crew's to fix (a front end maps it to its
+// "bad input" answer: exit code 2 on the command line), as event's do.
+type inputErr struct{ error }
+
+func (e inputErr) BadInput() bool { return true }
+func (e inputErr) Unwrap() error  { return e.error }
+
+func userErrf(f string, a ...any) error { return inputErr{fmt.Errorf(f, a...)} }
