@@ -342,7 +342,7 @@ func (e *Folder) opponentSlip(p logbook.Pass, np NewPass, out *LoggedPass) (*Opp
 		if err != nil {
 			return nil, err
 		}
-		if err := e.opponentBookWritable(op); err != nil {
+		if err := e.OpponentBookWritable(op); err != nil {
 			return nil, err
 		}
 		return &op, nil
@@ -381,27 +381,9 @@ func (e *Folder) passSetup(p *logbook.Pass, set []string) ([]string, error) {
 	if err != nil || len(setup) == 0 {
 		return nil, err
 	}
-	// The last passes, from the end of the file, most often hold every
-	// item's last value; when not (an item unrecorded for long, a pass
-	// earlier than them), the whole logbook is read.
-	const window = 200
-	var last map[string]string
-	for _, keep := range []int{window, 0} {
-		lb, _, err := e.readLogbook(keep)
-		if err != nil {
-			return nil, err
-		}
-		before := lb.Passes
-		for i, q := range before {
-			if !q.Time.Before(p.Time) {
-				before = before[:i]
-				break
-			}
-		}
-		last = logbook.LastSetup(before, setup)
-		if len(last) == len(setup) || len(lb.Passes) < window {
-			break
-		}
+	last, err := e.LastSetup(p.Time, setup)
+	if err != nil {
+		return nil, err
 	}
 	var cols []string
 	for _, it := range setup {

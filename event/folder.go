@@ -179,6 +179,36 @@ func (e *Folder) readLogbook(keep int) (*logbook.Logbook, string, error) {
 	return lb, name, err
 }
 
+// LastSetup is the value each item of setup had on the logbook's last pass
+// before t that recorded it (logbook.LastSetup). It reads the last passes,
+// from the end of the file, and the whole logbook only when they do not
+// hold every item's value.
+func (e *Folder) LastSetup(t time.Time, setup logbook.Setup) (map[string]string, error) {
+	// The last passes, from the end of the file, most often hold every
+	// item's last value; when not (an item unrecorded for long, a pass
+	// earlier than them), the whole logbook is read.
+	const window = 200
+	var last map[string]string
+	for _, keep := range []int{window, 0} {
+		lb, _, err := e.readLogbook(keep)
+		if err != nil {
+			return nil, err
+		}
+		before := lb.Passes
+		for i, q := range before {
+			if !q.Time.Before(t) {
+				before = before[:i]
+				break
+			}
+		}
+		last = logbook.LastSetup(before, setup)
+		if len(last) == len(setup) || len(lb.Passes) < window {
+			break
+		}
+	}
+	return last, nil
+}
+
 // readLogbookHeld is readLogbook for a caller that holds the logbook's lock
 // (held: a last line without its line end is torn).
 func (e *Folder) readLogbookHeld(keep int, held bool) (*logbook.Logbook, string, error) {

@@ -411,10 +411,10 @@ func (b *OpponentBook) Cars(aborts logbook.AbortWords) []OpponentHistory {
 	return out
 }
 
-// opponentBookWritable checks, before a pass is logged, that the book can
+// OpponentBookWritable checks, before a pass is logged, that the book can
 // take its slip: readable, without a row a rewrite would lose, and
 // without another slip of the same car, day and round.
-func (e *Folder) opponentBookWritable(p OpponentPass) error {
+func (e *Folder) OpponentBookWritable(p OpponentPass) error {
 	book, err := e.OpponentBook()
 	if err != nil {
 		return err

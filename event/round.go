@@ -61,13 +61,6 @@ type RoundRequest struct {
 	Set []string
 }
 
-// IsBadInput reports whether err is the crew's to fix: a front end answers
-// it as bad input (the command line's exit 2, the page's form message).
-func IsBadInput(err error) bool {
-	var b interface{ BadInput() bool }
-	return errors.As(err, &b) && b.BadInput()
-}
-
 // Given reports whether any reading field (flag or form field) was set.
 func (f *ReadingFields) Given() bool {
 	return f.Temp != "" || f.Baro != "" || f.BaroKind != "" || f.Humidity != "" || f.DewPoint != "" ||
@@ -217,16 +210,6 @@ func (m *MissingField) Error() string { return m.What + " is required" }
 
 // BadInput marks the error as the crew's to fix.
 func (m *MissingField) BadInput() bool { return true }
-
-// FlagErr names the flag in an InputError from a parser; any other error
-// (and nil) passes unchanged.
-func FlagErr(err error, flag string) error {
-	var ie *weather.InputError
-	if errors.As(err, &ie) {
-		return ie.Named(flag)
-	}
-	return err
-}
 
 // ValidateFields checks a reading and names the flags in its error, with
 // the value and its range in the crew's units u.
@@ -433,7 +416,7 @@ func (e *Folder) GatherRound(r RoundRequest, now time.Time) (prep.Input, []strin
 		return prep.Input{}, nil, err
 	}
 	if len(g.broken) > 0 {
-		return in, g.warnings, BrokenInput{g.broken}
+		return in, g.warnings, BrokenInput{Errs: g.broken}
 	}
 	return in, g.warnings, nil
 }
@@ -770,42 +753,6 @@ func (g *gathering) input() (prep.Input, error) {
 	}
 	in.Problems = append(in.Problems, g.car.Warnings...)
 	return in, nil
-}
-
-// BrokenInput is bad input the card could print around: the input is
-// usable, and the errors are reported after the card.
-type BrokenInput struct{ errs []error }
-
-// Error lists the errors, one a line.
-func (b BrokenInput) Error() string {
-	msgs := make([]string, len(b.errs))
-	for i, e := range b.errs {
-		msgs[i] = e.Error()
-	}
-	return strings.Join(msgs, "\n")
-}
-
-// BadInput marks the errors as the crew's to fix.
-func (b BrokenInput) BadInput() bool { return true }
-
-// Unwrap gives the errors collected, so errors.Is and errors.As reach each
-// of them (an InputError among them, say).
-func (b BrokenInput) Unwrap() []error { return b.errs }
-
-// Usable reports whether GatherRound's error err still left an input to
-// print a card from: none, or a BrokenInput.
-func Usable(err error) bool {
-	var b BrokenInput
-	return err == nil || errors.As(err, &b)
-}
-
-// RangeErr is an InputError for field when the seconds d lie outside r,
-// and nil when they lie within it.
-func RangeErr(field string, d decimal.Decimal, r [2]float64) error {
-	if f := d.InexactFloat64(); f < r[0] || f > r[1] {
-		return &weather.InputError{Field: field, Value: d.String(), Reason: fmt.Sprintf("is outside %g..%g s", r[0], r[1])}
-	}
-	return nil
 }
 
 // plannedSetup is the round's planned setup: what was noted for it in
