@@ -1,4 +1,4 @@
-package event
+package event_test
 
 import (
 	"bytes"
@@ -9,6 +9,8 @@ import (
 	"time"
 
 	"pitcard/engine"
+	"pitcard/entry"
+	"pitcard/event"
 	"pitcard/prep"
 )
 
@@ -29,28 +31,28 @@ func heldOutEntries(t *testing.T, data []byte) map[string][3]float64 {
 // the process made (their keys digest everything a prediction is made
 // from), and keeps them in its own cache file for the next process.
 func TestFoldersShareTheProcessHeldOut(t *testing.T) {
-	saved := processHeldOut
-	t.Cleanup(func() { processHeldOut = saved })
-	processHeldOut = engine.NewHeldOutCache()
+	saved := event.ProcessHeldOut()
+	t.Cleanup(func() { event.SetProcessHeldOut(saved) })
+	event.SetProcessHeldOut(engine.NewHeldOutCache())
 	now := time.Date(2026, 6, 13, 20, 30, 0, 0, time.Local) // the demo day's last reading
 	card := func(dir string) map[string][3]float64 {
 		t.Helper()
-		if _, err := Create(dir, true, now); err != nil {
+		if _, err := event.Create(dir, true, now); err != nil {
 			t.Fatal(err)
 		}
-		e, err := Open(OpenOptions{Dir: dir})
+		e, err := event.Open(event.OpenOptions{Dir: dir})
 		if err != nil {
 			t.Fatal(err)
 		}
-		in, _, err := e.GatherRound(RoundRequest{Round: "E3"}, now)
-		if !Usable(err) {
+		in, _, err := entry.GatherRound(e, entry.RoundRequest{Round: "E3"}, now)
+		if !event.Usable(err) {
 			t.Fatal(err)
 		}
 		prep.Gather(in)
 		if err := e.KeepHeldOut(); err != nil {
 			t.Fatal(err)
 		}
-		data, err := os.ReadFile(filepath.Join(dir, CacheDir, heldOutFile))
+		data, err := os.ReadFile(filepath.Join(dir, event.CacheDir, event.HeldOutFile))
 		if err != nil {
 			t.Fatalf("the card's held-out predictions were not kept: %v", err)
 		}
@@ -61,7 +63,7 @@ func TestFoldersShareTheProcessHeldOut(t *testing.T) {
 		t.Fatalf("the demo's card kept %d held-out predictions, want at least %d", len(first), engine.ScoredPasses)
 	}
 	var buf bytes.Buffer
-	if _, err := processHeldOut.WriteTo(&buf); err != nil {
+	if _, err := event.ProcessHeldOut().WriteTo(&buf); err != nil {
 		t.Fatal(err)
 	}
 	if shared := heldOutEntries(t, buf.Bytes()); len(shared) != len(first) {
@@ -78,7 +80,7 @@ func TestFoldersShareTheProcessHeldOut(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	processHeldOut = engine.ReadHeldOutCache(bytes.NewReader(data))
+	event.SetProcessHeldOut(engine.ReadHeldOutCache(bytes.NewReader(data)))
 	second := card(filepath.Join(t.TempDir(), "b"))
 	for k, v := range moved {
 		if second[k] != v {

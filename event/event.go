@@ -1,12 +1,10 @@
-// Package event is pitcard's event folder and what is done to it: its
-// files and their names, the settings (pitcard.yaml, the PITCARD_
-// variables, the flags), the locks and safe writes, and the steps every
-// front end shares, from typed input to a logged pass or reading and a
-// gathered round (GatherRound); files brought in from elsewhere (imports,
-// a crewmate's copy compared) are package bringin's. The command line
-// and the pit page are thin over it. It does not predict (engine), settle a
-// race (bracket) or lay out a card (prep): it hands them what the folder
-// holds.
+// Package event is pitcard's event folder: its files and their names, the
+// settings (pitcard.yaml, the PITCARD_ variables, the flags), the locks and
+// safe writes, and the folder's files read and written. What a crew typed
+// (a reading, a slip, a round) is package entry's, and files brought in
+// from elsewhere (imports, a crewmate's copy compared) are package
+// bringin's; both import event, never the reverse. It does not predict
+// (engine), settle a race (bracket) or lay out a card (prep).
 //
 // The commented starter folder that `pitcard init` writes and the built-in
 // demo event (an invented track, car and race day) that `--demo` reads are

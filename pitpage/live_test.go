@@ -16,6 +16,7 @@ import (
 	"testing"
 	"time"
 
+	"pitcard/entry"
 	"pitcard/event"
 )
 
@@ -196,10 +197,10 @@ func TestManyPhonesAtOnceLoseNothing(t *testing.T) {
 				return
 			}
 			d, c, _ := strings.Cut(when(m), " ")
-			if _, err := e.AddReading(event.NewReading{Fields: event.ReadingFields{Temp: "75", Baro: "27.6", Humidity: "40"}, Time: when(m)}, demoNow); err != nil {
+			if _, err := entry.AddReading(e, entry.NewReading{Fields: entry.ReadingFields{Temp: "75", Baro: "27.6", Humidity: "40"}, Time: when(m)}, demoNow); err != nil {
 				fail("laptop reading %d: %v", m, err)
 			}
-			if _, err := e.AddPass(event.NewPass{Date: d, Time: c, Session: "test", Lane: "right", ET60: "1.610", ET1: "11.45", MPH1320: "117.5",
+			if _, err := entry.AddPass(e, entry.NewPass{Date: d, Time: c, Session: "test", Lane: "right", ET60: "1.610", ET1: "11.45", MPH1320: "117.5",
 				Notes: fmt.Sprintf("load %d", m)}, demoNow); err != nil {
 				fail("laptop slip %d: %v", m, err)
 			}

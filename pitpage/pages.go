@@ -13,6 +13,7 @@ import (
 	"time"
 
 	"pitcard/engine"
+	"pitcard/entry"
 	"pitcard/event"
 	words "pitcard/internal/text"
 	"pitcard/logbook"
@@ -271,11 +272,11 @@ func (s *Server) postReading(q *request) {
 	v := values(q.r.PostForm)
 	p := q.readingPage(v("round"))
 	fill(p.Form, q.r.PostForm)
-	nr := event.NewReading{Fields: event.ReadingFields{
+	nr := entry.NewReading{Fields: entry.ReadingFields{
 		Temp: v("temp"), Baro: v("baro"), BaroKind: v("baro-kind"), Humidity: v("humidity"), DewPoint: v("dewpoint"),
 		Wind: v("wind"), WindFrom: v("wind-from"), TrackTemp: v("track-temp"),
 	}, Time: v("time"), Notes: v("notes"), Replace: v("replace") == "yes"}
-	added, err := q.folder.AddReading(nr, q.now)
+	added, err := entry.AddReading(q.folder, nr, q.now)
 	if err != nil {
 		var same *event.SameMinute
 		if errors.As(err, &same) {
@@ -389,13 +390,13 @@ func (s *Server) postSlip(q *request) {
 	}
 	p.Form = append(slipForm(dist, q.folder.Settings.Units.Weight), setupFields(setup, nil, nil)...)
 	fill(p.Form, q.r.PostForm)
-	np := event.NewPass{Session: v("session"), Lane: v("lane"), Dial: v("dial"), RT: v("rt"), Weight: v("weight"), Notes: v("notes"), Change: v("change"),
+	np := entry.NewPass{Session: v("session"), Lane: v("lane"), Dial: v("dial"), RT: v("rt"), Weight: v("weight"), Notes: v("notes"), Change: v("change"),
 		ET60: v("et60"), ET330: v("et330"), ET660: v("et660"), ET1000: v("et1000"), ET1: v("et1320"),
 		MPH660: v("mph660"), MPH1320: v("mph1320"), OppDial: v("opponent-dial"), OppRT: v("opponent-rt"), OppET: v("opponent-et"),
 		OppCar: v("opponent"), Set: setupValues(setup, q.r.PostForm)}
 	if t := v("time"); t != "" {
 		start := q.folder.Settings.DayStart
-		when, err := event.ParseWhen(t, start.Day(q.now), start)
+		when, err := entry.ParseWhen(t, start.Day(q.now), start)
 		if err != nil {
 			p.Error = attach(p.Form, err)
 			s.render(q, "form", p, http.StatusUnprocessableEntity)
@@ -410,7 +411,7 @@ func (s *Server) postSlip(q *request) {
 		s.render(q, "form", p, http.StatusUnprocessableEntity)
 		return
 	}
-	lp, err := q.folder.AddPass(np, q.now)
+	lp, err := entry.AddPass(q.folder, np, q.now)
 	if err != nil {
 		p.Error = attach(p.Form, err)
 		s.render(q, "form", p, http.StatusUnprocessableEntity)

@@ -35,6 +35,7 @@ import (
 	"time"
 
 	"pitcard/engine"
+	"pitcard/entry"
 	"pitcard/event"
 	"pitcard/internal/printable"
 	"pitcard/prep"
@@ -551,7 +552,7 @@ func (s *Server) gathered(q *request, round string) gathered {
 	}
 	defer func() { <-s.making }()
 	c := s.cards.get(key, func() gathered {
-		in, warnings, err := q.folder.GatherRound(event.RoundRequest{Round: round}, q.now)
+		in, warnings, err := entry.GatherRound(q.folder, entry.RoundRequest{Round: round}, q.now)
 		if !event.Usable(err) {
 			return gathered{warnings: warnings, err: err, stamp: now}
 		}

@@ -16,6 +16,7 @@ import (
 	"testing"
 	"time"
 
+	"pitcard/entry"
 	"pitcard/event"
 	"pitcard/prep"
 )
@@ -159,7 +160,7 @@ func TestThePageCardIsTheCommandLinesCard(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	in, _, err := e.GatherRound(event.RoundRequest{}, demoNow)
+	in, _, err := entry.GatherRound(e, entry.RoundRequest{}, demoNow)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -9,6 +9,7 @@ import (
 	"github.com/jedib0t/go-pretty/v6/table"
 	"github.com/spf13/cobra"
 
+	"pitcard/entry"
 	"pitcard/event"
 	"pitcard/prep"
 	"pitcard/weather"
@@ -94,7 +95,7 @@ func airRun(cmd *cobra.Command, o *airOptions) error {
 	if err != nil {
 		return orLatest(err)
 	}
-	if err := event.ValidateFields(r, elev, e.Settings.Units); err != nil {
+	if err := entry.ValidateFields(r, elev, e.Settings.Units); err != nil {
 		return err
 	}
 	if w := r.PressureWarning(elev); w != "" && elevKnown {

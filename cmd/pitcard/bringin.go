@@ -13,6 +13,7 @@ import (
 
 	"pitcard/bringin"
 	"pitcard/colmap"
+	"pitcard/entry"
 	"pitcard/event"
 	"pitcard/internal/safefile"
 	"pitcard/internal/text"
@@ -142,7 +143,7 @@ conflict: both versions are listed and nothing is written.`,
 			if err := e.Writable(); err != nil {
 				return err
 			}
-			elev, _, err := e.SiteElevation(event.ReadingFields{Elevation: o.Elevation})
+			elev, _, err := entry.SiteElevation(e, entry.ReadingFields{Elevation: o.Elevation})
 			if err != nil {
 				return err
 			}

@@ -7,6 +7,7 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"pitcard/entry"
 	"pitcard/event"
 	"pitcard/internal/safefile"
 	"pitcard/prep"
@@ -56,7 +57,7 @@ func cardRun(cmd *cobra.Command, o *cardOptions) error {
 	}
 	now := o.s.Now()
 	now = e.DemoClock(now)
-	in, warnings, err := e.GatherRound(o.round.request(), now)
+	in, warnings, err := entry.GatherRound(e, o.round.request(), now)
 	if !event.Usable(err) {
 		return err
 	}

@@ -8,6 +8,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"pitcard/engine"
+	"pitcard/entry"
 	"pitcard/event"
 	"pitcard/weather"
 )
@@ -100,7 +101,7 @@ func (c *conditionFlags) resolve(e *eventFolder, now time.Time) (conditions, err
 	} else if c.Given() {
 		out.Source += ", with the flags given"
 	}
-	if err := event.ValidateFields(r, out.Elevation, e.Settings.Units); err != nil {
+	if err := entry.ValidateFields(r, out.Elevation, e.Settings.Units); err != nil {
 		return out, err
 	}
 	if w := r.PressureWarning(out.Elevation); w != "" {
@@ -113,7 +114,7 @@ func (c *conditionFlags) resolve(e *eventFolder, now time.Time) (conditions, err
 // orLatest adds, to a reading's missing field, that --latest takes the
 // weather log's last reading instead (the commands with --latest say so).
 func orLatest(err error) error {
-	var m *event.MissingField
+	var m *entry.MissingField
 	if errors.As(err, &m) {
 		return userErrf("%v (or use --latest for the weather log's last reading)", err)
 	}

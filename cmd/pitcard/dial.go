@@ -15,6 +15,7 @@ import (
 
 	"pitcard/bracket"
 	"pitcard/engine"
+	"pitcard/entry"
 	"pitcard/event"
 	"pitcard/logbook"
 	"pitcard/prep"
@@ -262,7 +263,7 @@ func (o *dialOptions) useModel(e *eventFolder) bool {
 	if o.cond.Given() || o.cond.Latest || o.cond.At != "" || e.Demo {
 		return true
 	}
-	if elev, _, err := e.SiteElevation(o.cond.ReadingFields); err == nil {
+	if elev, _, err := entry.SiteElevation(e, o.cond.ReadingFields); err == nil {
 		if log, _, err := e.ReadableWeather(elev); err == nil && len(log) > 0 {
 			o.cond.Latest = true
 			return true
@@ -514,7 +515,7 @@ func (o *dialOptions) card(e *eventFolder, latest bool, change string) (prep.Car
 		}
 		return prep.Card{}, false, nil
 	}
-	in, _, err := e.GatherRound(event.RoundRequest{Reading: o.cond.ReadingFields, At: o.cond.At, Prep: o.Prep, Round: o.Round, Lane: o.Lane,
+	in, _, err := entry.GatherRound(e, entry.RoundRequest{Reading: o.cond.ReadingFields, At: o.cond.At, Prep: o.Prep, Round: o.Round, Lane: o.Lane,
 		OpponentDial: o.OppDial, Opponent: o.opp.OpponentFields, Change: change, Set: o.Set}, e.DemoClock(o.s.Now()))
 	if err != nil && !event.Usable(err) || err != nil && asked {
 		if asked {

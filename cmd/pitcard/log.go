@@ -14,6 +14,7 @@ import (
 	"pitcard/bringin"
 	"pitcard/colmap"
 	"pitcard/engine"
+	"pitcard/entry"
 	"pitcard/event"
 	"pitcard/internal/printable"
 	"pitcard/internal/text"
@@ -122,7 +123,7 @@ func logAddRun(cmd *cobra.Command, o *logAddOptions) error {
 	if err != nil {
 		return err
 	}
-	lp, err := e.AddPass(event.NewPass{
+	lp, err := entry.AddPass(e, entry.NewPass{
 		Date: o.Date, Time: o.Time, Track: o.Track, Session: o.Session, Lane: o.Lane, Dial: o.Dial, RT: o.RT,
 		Weight: o.Weight, Notes: o.Notes, ET60: o.ET60, ET330: o.ET330, ET660: o.ET660, ET1000: o.ET1000, ET1: o.ET1,
 		MPH660: o.MPH660, MPH1320: o.MPH1320, Change: o.Change, Reading: o.reading.ReadingFields,

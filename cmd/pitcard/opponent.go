@@ -1,7 +1,7 @@
 package main
 
 import (
-	"pitcard/event"
+	"pitcard/entry"
 
 	"github.com/spf13/cobra"
 )
@@ -12,7 +12,7 @@ const roundFlagHelp = "the round: T1, T2 ... time trials, E1, E2 ... elimination
 
 // opponentFlags describe the other lane, and our driver's reaction times,
 // for the chance to win. Each default is a setting (pitcard.yaml).
-type opponentFlags struct{ event.OpponentFields }
+type opponentFlags struct{ entry.OpponentFields }
 
 func (o *opponentFlags) bind(cmd *cobra.Command) {
 	fl := cmd.Flags()

@@ -10,6 +10,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"pitcard/engine"
+	"pitcard/entry"
 	"pitcard/event"
 	"pitcard/logbook"
 	"pitcard/prep"
@@ -100,7 +101,7 @@ func forecastNext(e *eventFolder, cond conditionFlags, prepFlag, weightFlag, cha
 	if err != nil {
 		return n, err
 	}
-	prepLvl, err := event.PrepLevel(prepFlag, c.Track)
+	prepLvl, err := entry.PrepLevel(prepFlag, c.Track)
 	if err != nil {
 		return n, err
 	}

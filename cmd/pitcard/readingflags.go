@@ -1,14 +1,14 @@
 package main
 
 import (
-	"pitcard/event"
+	"pitcard/entry"
 
 	"github.com/spf13/cobra"
 )
 
 // readingFlags are the flags of one weather reading, shared by every command
 // that takes the air: the same names and unit handling everywhere.
-type readingFlags struct{ event.ReadingFields }
+type readingFlags struct{ entry.ReadingFields }
 
 func (f *readingFlags) bind(cmd *cobra.Command) {
 	fl := cmd.Flags()

@@ -3,7 +3,7 @@ package main
 import (
 	"github.com/spf13/cobra"
 
-	"pitcard/event"
+	"pitcard/entry"
 	"pitcard/weather"
 )
 
@@ -25,8 +25,8 @@ type roundFlags struct {
 }
 
 // request is the round as the event folder takes it.
-func (r roundFlags) request() event.RoundRequest {
-	return event.RoundRequest{Reading: r.cond.ReadingFields, At: r.cond.At, Round: r.Round, Lane: r.Lane, OpponentDial: r.OpponentDial,
+func (r roundFlags) request() entry.RoundRequest {
+	return entry.RoundRequest{Reading: r.cond.ReadingFields, At: r.cond.At, Round: r.Round, Lane: r.Lane, OpponentDial: r.OpponentDial,
 		Prep: r.Prep, Weight: r.Weight, Change: r.Change, Unsaved: r.Unsaved, Opponent: r.opp.OpponentFields, Set: r.Set}
 }
 

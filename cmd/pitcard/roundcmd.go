@@ -12,6 +12,7 @@ import (
 
 	"pitcard/bracket"
 	"pitcard/engine"
+	"pitcard/entry"
 	"pitcard/event"
 	"pitcard/logbook"
 	"pitcard/prep"
@@ -213,7 +214,7 @@ func (g *guidedRound) chooseRound() error {
 type readingPrompt struct {
 	question string
 	def      func(g *guidedRound, last weather.Reading) string
-	set      func(f *event.ReadingFields, answer string)
+	set      func(f *entry.ReadingFields, answer string)
 	// required: Enter with no default is asked again.
 	required bool
 }
@@ -221,31 +222,31 @@ type readingPrompt struct {
 // readingPrompts are the guided round's questions of the air, in order.
 var readingPrompts = []readingPrompt{
 	{"Air temperature", func(g *guidedRound, l weather.Reading) string { return l.Temp.Format(g.u.Temp, 1) },
-		func(f *event.ReadingFields, a string) { f.Temp = a }, true},
+		func(f *entry.ReadingFields, a string) { f.Temp = a }, true},
 	{"Barometer, station (uncorrected)", func(g *guidedRound, l weather.Reading) string { return l.Derive(g.elev).Station.Format(g.u.Pressure) },
-		func(f *event.ReadingFields, a string) { f.Baro, f.BaroKind = a, "station" }, true},
+		func(f *entry.ReadingFields, a string) { f.Baro, f.BaroKind = a, "station" }, true},
 	{"Humidity % (or a dew point with its unit, 52F)", func(g *guidedRound, l weather.Reading) string {
 		return fmt.Sprintf("%.0f%%", l.Derive(g.elev).RH*100)
 	}, setHumidity, true},
 	{"Wind speed", func(g *guidedRound, l weather.Reading) string { return l.Wind.Format(g.u.Speed, 0) },
-		func(f *event.ReadingFields, a string) {
+		func(f *entry.ReadingFields, a string) {
 			if f.Wind = a; a == "" || strings.EqualFold(a, "calm") {
 				f.Wind = "0" // Enter with nothing logged: calm, as the prompt has always read it
 			}
 		}, false},
 	{"Wind from (degrees or N, SW ...)", func(g *guidedRound, l weather.Reading) string { return fmt.Sprintf("%.0f", l.WindFrom) },
-		func(f *event.ReadingFields, a string) { f.WindFrom = a }, false},
+		func(f *entry.ReadingFields, a string) { f.WindFrom = a }, false},
 	{"Track temperature (Enter to skip)", func(g *guidedRound, l weather.Reading) string {
 		if !l.HasTrack {
 			return ""
 		}
 		return l.TrackTemp.Format(g.u.Temp, 0)
-	}, func(f *event.ReadingFields, a string) { f.TrackTemp = a }, false},
+	}, func(f *entry.ReadingFields, a string) { f.TrackTemp = a }, false},
 }
 
 // setHumidity reads the humidity answer: a temperature with its unit is a
 // dew point, anything else a relative humidity.
-func setHumidity(f *event.ReadingFields, a string) {
+func setHumidity(f *entry.ReadingFields, a string) {
 	f.Humidity, f.DewPoint = a, ""
 	if _, err := weather.ParseTemperature(a, weather.DegF); err == nil && strings.ContainsAny(strings.ToLower(a), "fc") {
 		f.Humidity, f.DewPoint = "", a
@@ -253,7 +254,7 @@ func setHumidity(f *event.ReadingFields, a string) {
 }
 
 // askReading asks the air, field by field, each defaulting to the last
-// reading's. Each answer is checked as its flag is (event.ReadingFields,
+// reading's. Each answer is checked as its flag is (entry.ReadingFields,
 // the one parser of a typed reading) within a reading whose other fields
 // are known good, so a refusal is about the field just typed and asks it
 // again.
@@ -264,7 +265,7 @@ func (g *guidedRound) askReading() (weather.Reading, error) {
 		last = g.log[len(g.log)-1]
 	}
 	base := g.goodBase(last, has)
-	var fields event.ReadingFields
+	var fields entry.ReadingFields
 	for _, q := range readingPrompts {
 		def := ""
 		if has {
@@ -278,7 +279,7 @@ func (g *guidedRound) askReading() (weather.Reading, error) {
 			q.set(&f, a)
 			r, err := f.ReadingAt(g.u, g.now, &base)
 			if err == nil {
-				err = event.ValidateFields(r, g.elev, g.u)
+				err = entry.ValidateFields(r, g.elev, g.u)
 			}
 			if err != nil {
 				return promptWords(err)
@@ -326,7 +327,7 @@ func promptWords(err error) error {
 // is not refused for an old dew point), or the standard atmosphere at the
 // track's elevation.
 func (g *guidedRound) goodBase(last weather.Reading, has bool) weather.Reading {
-	if has && event.ValidateFields(last, g.elev, g.u) == nil {
+	if has && entry.ValidateFields(last, g.elev, g.u) == nil {
 		b := last
 		b.RH, b.DewPointSet = last.Derive(g.elev).RH, false
 		return b
@@ -371,7 +372,7 @@ func (g *guidedRound) saveReading(r weather.Reading) (unsaved error, err error) 
 // printed around (rows left out, a failed check: a failed check stops the
 // dial, and the command ends with exit 3, while the round goes on).
 func (g *guidedRound) printCard() (c prep.Card, broken error, err error) {
-	in, warnings, err := g.e.GatherRound(g.rf.request(), g.now)
+	in, warnings, err := entry.GatherRound(g.e, g.rf.request(), g.now)
 	if !event.Usable(err) {
 		return c, nil, err
 	}
@@ -460,7 +461,7 @@ func (g *guidedRound) askSlip(questions []slipQuestion, in prep.Input) (logbook.
 		if key != "mph660" && key != "mph1320" {
 			return a, nil
 		}
-		return event.TrapMPH(a, g.u)
+		return entry.TrapMPH(a, g.u)
 	}
 	askField := func(key, question, def string) error {
 		v, err := g.p.until(question, def, func(a string) error {

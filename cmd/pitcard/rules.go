@@ -12,6 +12,7 @@ import (
 	"github.com/shopspring/decimal"
 	"github.com/spf13/cobra"
 
+	"pitcard/entry"
 	"pitcard/event"
 	"pitcard/internal/text"
 	"pitcard/prep"
@@ -141,12 +142,12 @@ func newRulesCheckCmd(s *IOStreams, g *globalOptions) *cobra.Command {
 			// Run the hooks too, on the folder's next round, when it can be gathered.
 			ran := map[string][]*scripts.Error{}
 			hooks := "loaded only"
-			if in, _, err := e.GatherRound(event.RoundRequest{}, s.Now()); err == nil {
+			if in, _, err := entry.GatherRound(e, entry.RoundRequest{}, s.Now()); err == nil {
 				for _, r := range prep.Gather(in).Rules {
 					ran[r.File] = r.Errors
 				}
 				hooks = "loaded and run on " + in.Session.Long()
-			} else if in, _, err := e.GatherRound(event.RoundRequest{Round: "1"}, s.Now()); err == nil {
+			} else if in, _, err := entry.GatherRound(e, entry.RoundRequest{Round: "1"}, s.Now()); err == nil {
 				for _, r := range prep.Gather(in).Rules {
 					ran[r.File] = r.Errors
 				}
@@ -211,7 +212,7 @@ func rulesTryRun(cmd *cobra.Command, o *rulesTryOptions) error {
 	if err != nil {
 		return err
 	}
-	in, warnings, err := e.GatherRound(o.round.request(), o.s.Now())
+	in, warnings, err := entry.GatherRound(e, o.round.request(), o.s.Now())
 	if err != nil {
 		return err
 	}

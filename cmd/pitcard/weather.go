@@ -10,6 +10,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"pitcard/colmap"
+	"pitcard/entry"
 	"pitcard/event"
 	"pitcard/internal/text"
 	"pitcard/prep"
@@ -41,7 +42,7 @@ func openWeather(cmd *cobra.Command, g *globalOptions, elevFlag string) (*eventF
 	if err != nil {
 		return nil, 0, "", nil, err
 	}
-	elev, trackName, err := e.SiteElevation(event.ReadingFields{Elevation: elevFlag})
+	elev, trackName, err := entry.SiteElevation(e, entry.ReadingFields{Elevation: elevFlag})
 	if err != nil {
 		return nil, 0, "", nil, err
 	}
@@ -106,7 +107,7 @@ func weatherAddRun(cmd *cobra.Command, o *weatherAddOptions) error {
 	if err != nil {
 		return err
 	}
-	added, err := e.AddReading(event.NewReading{Fields: o.reading.ReadingFields, Time: o.Time, Notes: o.Note, Replace: o.Replace}, o.s.Now())
+	added, err := entry.AddReading(e, entry.NewReading{Fields: o.reading.ReadingFields, Time: o.Time, Notes: o.Note, Replace: o.Replace}, o.s.Now())
 	if err != nil {
 		return err
 	}
@@ -135,7 +136,7 @@ func weatherStreamRun(cmd *cobra.Command, o *weatherAddOptions) error {
 	}
 	u := e.Settings.Units
 	added := 0
-	bad, err := e.StreamReadings(o.s.In, o.s.Now, o.Replace, func(l event.StreamLine) {
+	bad, err := entry.StreamReadings(e, o.s.In, o.s.Now, o.Replace, func(l entry.StreamLine) {
 		if l.Err != nil {
 			fmt.Fprintf(o.s.Err, "pitcard: %v (skipped)\n", l.Err)
 			return
@@ -362,6 +363,6 @@ func weatherForecastPrint(o *weatherForecastOptions, e *eventFolder, elev weathe
 // callTime reads a time of day for a forecast: on the race day of the last
 // reading (a time before day_starts is the night after midnight).
 func callTime(s string, last time.Time, start weather.DayStart) (time.Time, error) {
-	t, err := event.ParseWhen(s, start.Day(last), start)
+	t, err := entry.ParseWhen(s, start.Day(last), start)
 	return t, event.FlagErr(err, "--at")
 }

@@ -98,7 +98,7 @@ func lengths(path, rel string) ([]fn, error) {
 }
 
 // funcName is a function's name, a method's with its receiver's type:
-// "Folder.GatherRound".
+// "Folder.SaveLogbook".
 func funcName(fd *ast.FuncDecl) string {
 	if fd.Recv == nil || len(fd.Recv.List) == 0 {
 		return fd.Name.Name

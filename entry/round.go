@@ -1,9 +1,10 @@
-package event
+package entry
 
 import (
 	"errors"
 	"fmt"
 	"maps"
+	"slices"
 	"strconv"
 	"strings"
 	"time"
@@ -12,6 +13,7 @@ import (
 
 	"pitcard/bracket"
 	"pitcard/engine"
+	"pitcard/event"
 	"pitcard/internal/stats"
 	"pitcard/logbook"
 	"pitcard/prep"
@@ -77,7 +79,7 @@ func (f *ReadingFields) SiteElevation(u weather.Units, track weather.Length, hav
 		return track, nil
 	}
 	h, err := weather.ParseLength(f.Elevation, u.Length)
-	return h, FlagErr(err, "--elevation")
+	return h, event.FlagErr(err, "--elevation")
 }
 
 // ReadingAt builds a reading from the fields at time now. With base (the latest
@@ -125,7 +127,7 @@ func (f *ReadingFields) parseOnto(r weather.Reading, u weather.Units, fresh bool
 	}
 	if f.BaroKind != "" {
 		if r.BaroKind, err = weather.ParsePressureKind(f.BaroKind); err != nil {
-			return r, FlagErr(err, "--baro-kind")
+			return r, event.FlagErr(err, "--baro-kind")
 		}
 	}
 	if f.Humidity != "" && f.DewPoint != "" {
@@ -139,7 +141,7 @@ func (f *ReadingFields) parseOnto(r weather.Reading, u weather.Units, fresh bool
 	}
 	if f.DewPoint != "" {
 		if r.DewPoint, err = weather.ParseTemperature(f.DewPoint, u.Temp); err != nil {
-			return r, FlagErr(err, "--dewpoint")
+			return r, event.FlagErr(err, "--dewpoint")
 		}
 		r.DewPointSet = true
 	}
@@ -153,7 +155,7 @@ func (f *ReadingFields) parseOnto(r weather.Reading, u weather.Units, fresh bool
 	}
 	if f.WindFrom != "" {
 		if r.WindFrom, err = weather.ParseDirection(f.WindFrom); err != nil {
-			return r, FlagErr(err, "--wind-from")
+			return r, event.FlagErr(err, "--wind-from")
 		}
 		r.WindDirUnknown = false
 	} else if f.Wind != "" && fresh && r.Wind > 0 {
@@ -179,7 +181,7 @@ func (f *ReadingFields) parseOnto(r weather.Reading, u weather.Units, fresh bool
 			continue
 		}
 		if err := weather.CheckTemp(c.field, c.t, c.lim, u); err != nil {
-			return r, FlagErr(err, "--"+c.field)
+			return r, event.FlagErr(err, "--"+c.field)
 		}
 	}
 	return r, nil
@@ -227,7 +229,7 @@ func ValidateFields(r weather.Reading, h weather.Length, u weather.Units) error 
 func PrepLevel(flag string, trk engine.Track) (float64, error) {
 	if flag != "" {
 		p, err := engine.ParsePrep(flag)
-		return p, FlagErr(err, "--prep")
+		return p, event.FlagErr(err, "--prep")
 	}
 	p, err := engine.ParsePrep(trk.Prep)
 	if err != nil {
@@ -245,10 +247,10 @@ func ParseWhen(s string, day time.Time, start weather.DayStart) (time.Time, erro
 	s = strings.TrimSpace(s)
 	if d, c, ok := strings.Cut(s, " "); ok {
 		t, err := weather.ParseDateTime(d, c, day.Location())
-		return t, FlagErr(err, "--time")
+		return t, event.FlagErr(err, "--time")
 	}
 	t, err := start.Clock(s, day, day.Location())
-	return t, FlagErr(err, "--time")
+	return t, event.FlagErr(err, "--time")
 }
 
 // seconds reads the time v given for flag, in seconds within lo..hi.
@@ -265,7 +267,7 @@ func seconds(flag, v string, lo, hi float64) (float64, error) {
 // the other lane's dial is unknown. A named car's history replaces the
 // settings' defaults (shrunk toward them, Shrunk); the day's slips and the
 // flags given replace both.
-func (o *OpponentFields) Build(s Settings, dial decimal.NullDecimal, passes []logbook.Pass, book *OpponentBook) (*bracket.Opponent, bracket.RTModel, error) {
+func (o *OpponentFields) Build(s event.Settings, dial decimal.NullDecimal, passes []logbook.Pass, book *event.OpponentBook) (*bracket.Opponent, bracket.RTModel, error) {
 	us, err := o.ourRT(s, passes)
 	if err != nil || !dial.Valid {
 		return nil, us, err
@@ -285,7 +287,7 @@ func (o *OpponentFields) Build(s Settings, dial decimal.NullDecimal, passes []lo
 
 // ourRT is our driver's reaction times: the logbook's (aborted passes left
 // out), shrunk to the settings' (NewRTModel), or --rt-mean and --rt-sd.
-func (o *OpponentFields) ourRT(s Settings, passes []logbook.Pass) (bracket.RTModel, error) {
+func (o *OpponentFields) ourRT(s event.Settings, passes []logbook.Pass) (bracket.RTModel, error) {
 	var logged []float64 // most recent first
 	for i := len(passes) - 1; i >= 0; i-- {
 		if p := passes[i]; p.RT.Valid && !s.AbortWords.Aborted(p.Notes) {
@@ -312,16 +314,16 @@ func (o *OpponentFields) ourRT(s Settings, passes []logbook.Pass) (bracket.RTMod
 
 // fromBook puts the named car's history in the opponent book (nil: none)
 // over the settings' figures, shrunk toward them (bracket.Shrunk).
-func (o *OpponentFields) fromBook(opp *bracket.Opponent, s Settings, book *OpponentBook) error {
+func (o *OpponentFields) fromBook(opp *bracket.Opponent, s event.Settings, book *event.OpponentBook) error {
 	if o.Car == "" {
 		return nil
 	}
-	car, err := ParseCar("--opponent", o.Car)
+	car, err := event.ParseCar("--opponent", o.Car)
 	if err != nil {
 		return err
 	}
 	if book == nil {
-		book = &OpponentBook{}
+		book = &event.OpponentBook{}
 	}
 	h := book.History(car, s.AbortWords)
 	opp.Margin, opp.MarginSD = bracket.Shrunk(h.Margins, s.OppMargin, s.OppMarginSD, bracket.PriorPasses)
@@ -404,7 +406,7 @@ func (o *OpponentFields) fromFlags(opp *bracket.Opponent) error {
 // GatherRound gathers everything a round's card is made from. Problems that
 // leave part of the card blank (no weather log, a forecast too far ahead)
 // come back as warnings, not errors: the card still prints what it can.
-func (e *Folder) GatherRound(r RoundRequest, now time.Time) (prep.Input, []string, error) {
+func GatherRound(e *event.Folder, r RoundRequest, now time.Time) (prep.Input, []string, error) {
 	g := &gathering{e: e, r: r, now: now}
 	for _, step := range []func() error{g.readFolder, g.readWeather, g.chooseSlot, g.chooseCall, g.readNotes, g.airAtCall, g.roundOptions, g.otherLane} {
 		if err := step(); err != nil {
@@ -416,7 +418,7 @@ func (e *Folder) GatherRound(r RoundRequest, now time.Time) (prep.Input, []strin
 		return prep.Input{}, nil, err
 	}
 	if len(g.broken) > 0 {
-		return in, g.warnings, BrokenInput{Errs: g.broken}
+		return in, g.warnings, event.BrokenInput{Errs: g.broken}
 	}
 	return in, g.warnings, nil
 }
@@ -428,7 +430,7 @@ func (e *Folder) GatherRound(r RoundRequest, now time.Time) (prep.Input, []strin
 // can, the air, the rules, the checklist, the cautions, and says what is
 // wrong; the command then exits 2).
 type gathering struct {
-	e        *Folder
+	e        *event.Folder
 	r        RoundRequest
 	now      time.Time
 	broken   []error
@@ -447,7 +449,7 @@ type gathering struct {
 	haveSlot bool
 	call     time.Time
 	lane     logbook.Lane
-	notes    RoundNotes
+	notes    event.RoundNotes
 	opp      decimal.NullDecimal // the other lane's dial
 
 	air      weather.Reading
@@ -468,7 +470,7 @@ func (g *gathering) readFolder() error {
 	e, r := g.e, g.r
 	var err error
 	if g.car, err = e.Car(); err != nil {
-		if !IsBadInput(err) {
+		if !event.IsBadInput(err) {
 			return err
 		}
 		g.broken = append(g.broken, err)
@@ -478,9 +480,9 @@ func (g *gathering) readFolder() error {
 	}
 	g.passes, err = e.RecentLogbook()
 	switch {
-	case OnlyLeftOut(err) && err != nil: // the good rows are used, the bad ones named
+	case event.OnlyLeftOut(err) && err != nil: // the good rows are used, the bad ones named
 		g.broken = append(g.broken, err)
-	case err != nil && !IsBadInput(err):
+	case err != nil && !event.IsBadInput(err):
 		return err
 	case err != nil: // a header pitcard cannot read: no passes at all
 		g.broken = append(g.broken, err)
@@ -491,7 +493,7 @@ func (g *gathering) readFolder() error {
 	}
 	g.sched, g.haveSched, err = e.Schedule()
 	switch {
-	case err != nil && r.Round != "" && IsBadInput(err):
+	case err != nil && r.Round != "" && event.IsBadInput(err):
 		// the round is given: a broken schedule costs only its call time
 		g.broken = append(g.broken, err)
 		g.sched, g.haveSched = prep.Schedule{}, false
@@ -516,7 +518,7 @@ func (g *gathering) readWeather() error {
 		// A corrupt weather.csv costs the card nothing when the flags give
 		// a whole reading: the card prints from them and names the bad
 		// row, and the command exits 2 as for a bad logbook row.
-		if _, ferr := r.Reading.ReadingAt(e.Settings.Units, g.now, nil); !IsBadInput(err) || ferr != nil {
+		if _, ferr := r.Reading.ReadingAt(e.Settings.Units, g.now, nil); !event.IsBadInput(err) || ferr != nil {
 			return err
 		}
 		g.broken = append(g.broken, fmt.Errorf("%w (the weather log could not be read: the card's air is the reading flags)", err))
@@ -525,7 +527,7 @@ func (g *gathering) readWeather() error {
 	g.now, g.sched, g.warnings = e.ClockFor(g.sched, g.haveSched, log, g.now)
 	if r.Unsaved != nil { // a reading the disk refused: the card still uses it
 		log = append(log, *r.Unsaved)
-		sortReadings(log)
+		slices.SortStableFunc(log, func(a, b weather.Reading) int { return a.Time.Compare(b.Time) })
 	}
 	g.log = log
 	return nil
@@ -538,7 +540,7 @@ func (g *gathering) chooseSlot() error {
 	case g.r.Round != "":
 		ses, err := logbook.ParseSession(g.r.Round)
 		if err != nil {
-			return FlagErr(err, "--round")
+			return event.FlagErr(err, "--round")
 		}
 		g.slot.Session = ses
 		if s, ok := g.sched.Find(ses); ok {
@@ -547,11 +549,11 @@ func (g *gathering) chooseSlot() error {
 	case g.haveSched:
 		s, ok := g.sched.Next(g.passes)
 		if !ok {
-			return userErrf("every round of %s has a pass in the logbook: give --round for another", g.e.Name(ScheduleFile))
+			return userErrf("every round of %s has a pass in the logbook: give --round for another", g.e.Name(event.ScheduleFile))
 		}
 		g.slot, g.haveSlot = s, true
 	default:
-		return userErrf("which round? give --round (3, E3, T2 ...), or write %s with the day's call times", ScheduleFile)
+		return userErrf("which round? give --round (3, E3, T2 ...), or write %s with the day's call times", event.ScheduleFile)
 	}
 	return nil
 }
@@ -572,7 +574,7 @@ func (g *gathering) chooseCall() error {
 	case g.r.At != "":
 		t, err := ParseWhen(g.r.At, day, start)
 		if err != nil {
-			return FlagErr(err, "--at")
+			return event.FlagErr(err, "--at")
 		}
 		g.call = t
 	case g.haveSlot:
@@ -582,7 +584,7 @@ func (g *gathering) chooseCall() error {
 	if g.r.Lane != "" {
 		lane, err := logbook.ParseLane(g.r.Lane)
 		if err != nil {
-			return FlagErr(err, "--lane")
+			return event.FlagErr(err, "--lane")
 		}
 		g.lane = lane
 	}
@@ -596,7 +598,7 @@ func (g *gathering) readNotes() error {
 	r := &g.r
 	notes, err := g.e.RoundNotes(g.call.Format(weather.DateLayout), g.slot.Session)
 	if err != nil {
-		if !IsBadInput(err) {
+		if !event.IsBadInput(err) {
 			return err
 		}
 		g.broken = append(g.broken, err)
@@ -604,7 +606,7 @@ func (g *gathering) readNotes() error {
 	g.notes, g.opp = notes, notes.OpponentDial
 	if g.opp.Valid && r.OpponentDial == "" {
 		g.warnings = append(g.warnings, fmt.Sprintf("the other lane's dial %s is the one noted for %s in %s (from the pit page); --opponent-dial replaces it",
-			logbook.FormatSeconds(g.opp.Decimal, 2), g.slot.Session, RoundsFile))
+			logbook.FormatSeconds(g.opp.Decimal, 2), g.slot.Session, event.RoundsFile))
 	}
 	if notes.OpponentCar != "" && r.Opponent.Car == "" { // named on the pit page
 		r.Opponent.Car = notes.OpponentCar
@@ -614,7 +616,7 @@ func (g *gathering) readNotes() error {
 		if err != nil {
 			return err
 		}
-		if err := RangeErr("--opponent-dial", d, logbook.DialRange); err != nil {
+		if err := event.RangeErr("--opponent-dial", d, logbook.DialRange); err != nil {
 			return err
 		}
 		g.opp = decimal.NewNullDecimal(d)
@@ -669,7 +671,7 @@ func (g *gathering) airAtCall() error {
 		g.source = "the reading flags"
 	default:
 		return userErrf("no air for the round: %s has no readings; add one with 'pitcard weather add' or give --temp, --baro and --humidity",
-			e.Name(WeatherFile))
+			e.Name(event.WeatherFile))
 	}
 	if err := ValidateFields(g.air, g.elev, e.Settings.Units); err != nil {
 		return err
@@ -697,7 +699,7 @@ func (g *gathering) roundOptions() error {
 	if g.change, err = logbook.ParseChange("--change", r.Change); err != nil {
 		return err
 	}
-	planned, noted, err := plannedSetup(r.Set, g.notes.Setup, g.car.Setup, e.Name(RoundsFile))
+	planned, noted, err := plannedSetup(r.Set, g.notes.Setup, g.car.Setup, e.Name(event.RoundsFile))
 	if err != nil {
 		return err
 	}
@@ -713,7 +715,7 @@ func (g *gathering) roundOptions() error {
 func (g *gathering) otherLane() error {
 	r := g.r
 	book, err := g.e.OpponentBook()
-	if err != nil && !IsBadInput(err) {
+	if err != nil && !event.IsBadInput(err) {
 		return err
 	}
 	if err != nil { // a wrong header: the car's history is unknown, the card prints

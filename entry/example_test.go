@@ -1,10 +1,11 @@
-package event_test
+package entry_test
 
 import (
 	"fmt"
 	"os"
 	"time"
 
+	"pitcard/entry"
 	"pitcard/event"
 )
 
@@ -12,7 +13,7 @@ import (
 // event (an invented car at an invented track), opened in a fixed zone, and
 // everything the card of its third elimination round is made from, gathered
 // at 20:30 on the demo's race day.
-func ExampleFolder_GatherRound() {
+func ExampleGatherRound() {
 	dir, err := os.MkdirTemp("", "pitcard-example-")
 	if err != nil {
 		fmt.Println(err)
@@ -29,7 +30,7 @@ func ExampleFolder_GatherRound() {
 		return
 	}
 	now := time.Date(2026, 6, 13, 20, 30, 0, 0, time.UTC)
-	in, warnings, err := e.GatherRound(event.RoundRequest{Round: "E3"}, now)
+	in, warnings, err := entry.GatherRound(e, entry.RoundRequest{Round: "E3"}, now)
 	if !event.Usable(err) {
 		fmt.Println(err)
 		return

@@ -1,4 +1,4 @@
-package event
+package entry
 
 import (
 	"bufio"
@@ -8,6 +8,7 @@ import (
 	"strings"
 	"time"
 
+	"pitcard/event"
 	"pitcard/weather"
 )
 
@@ -80,7 +81,7 @@ type StreamLine struct {
 // returns how many lines were bad. now is the clock of a line without time=;
 // with replace, a reading in a minute already logged takes its place (a
 // logger reading every few seconds keeps the minute's latest).
-func (e *Folder) StreamReadings(r io.Reader, now func() time.Time, replace bool, report func(StreamLine)) (bad int, err error) {
+func StreamReadings(e *event.Folder, r io.Reader, now func() time.Time, replace bool, report func(StreamLine)) (bad int, err error) {
 	lr := lineReader{br: bufio.NewReader(r)}
 	var header string
 	var elev weather.Length // the track's, once rows come as CSV
@@ -111,7 +112,7 @@ func (e *Folder) StreamReadings(r io.Reader, now func() time.Time, replace bool,
 		switch {
 		case header == "" && !strings.Contains(line, "=") && strings.Contains(line, ","):
 			header = line // CSV rows follow, in weather.csv's columns
-			if elev, _, err = e.SiteElevation(ReadingFields{}); err != nil {
+			if elev, _, err = SiteElevation(e, ReadingFields{}); err != nil {
 				return bad, err
 			}
 			if _, err := weather.ReadLog(strings.NewReader(header+"\n"), "standard input", 0, e.Zone()); err != nil {
@@ -136,7 +137,7 @@ func (e *Folder) StreamReadings(r io.Reader, now func() time.Time, replace bool,
 			nr.Replace = replace
 			if perr == nil {
 				var a AddedReading
-				if a, perr = e.AddReading(nr, now()); perr == nil {
+				if a, perr = AddReading(e, nr, now()); perr == nil {
 					out.Added = &a
 				}
 			}
@@ -148,7 +149,7 @@ func (e *Folder) StreamReadings(r io.Reader, now func() time.Time, replace bool,
 				ie.File, ie.Line = "standard input", n
 				ie.Field = strings.TrimPrefix(ie.Field, "--") // the line's key, not a flag
 			}
-			if !IsBadInput(out.Err) {
+			if !event.IsBadInput(out.Err) {
 				return bad, out.Err // a failing disk: stop, the rest would fail too
 			}
 			bad++

@@ -1,4 +1,4 @@
-package event
+package entry
 
 import (
 	"fmt"
@@ -12,6 +12,7 @@ import (
 
 	"pitcard/bracket"
 	"pitcard/engine"
+	"pitcard/event"
 	"pitcard/logbook"
 	"pitcard/weather"
 )
@@ -38,7 +39,7 @@ type AddedReading struct {
 
 // SiteElevation is the elevation of the folder's weather: the fields'
 // elevation, or track.yaml's; and the track's name.
-func (e *Folder) SiteElevation(f ReadingFields) (weather.Length, string, error) {
+func SiteElevation(e *event.Folder, f ReadingFields) (weather.Length, string, error) {
 	trk, err := e.Track()
 	if err != nil && f.Elevation == "" {
 		return 0, "", err
@@ -49,12 +50,12 @@ func (e *Folder) SiteElevation(f ReadingFields) (weather.Length, string, error) 
 
 // AddReading checks one reading and appends it to the weather log; nothing
 // is written when anything is wrong with it.
-func (e *Folder) AddReading(nr NewReading, now time.Time) (AddedReading, error) {
+func AddReading(e *event.Folder, nr NewReading, now time.Time) (AddedReading, error) {
 	var out AddedReading
 	if err := e.Writable(); err != nil {
 		return out, err
 	}
-	elev, _, err := e.SiteElevation(nr.Fields)
+	elev, _, err := SiteElevation(e, nr.Fields)
 	if err != nil {
 		return out, err
 	}
@@ -87,7 +88,7 @@ func (e *Folder) AddReading(nr NewReading, now time.Time) (AddedReading, error) 
 // unknownTrack is a warning when a pass's track is neither track.yaml's nor
 // one of tracks/*.yaml (a typo, or a track not yet described): the model
 // then knows neither its elevation nor its prep.
-func (e *Folder) unknownTrack(name string, trk engine.Track, trkErr error) string {
+func unknownTrack(e *event.Folder, name string, trk engine.Track, trkErr error) string {
 	if trkErr == nil && strings.EqualFold(name, trk.Name) {
 		return ""
 	}
@@ -99,7 +100,7 @@ func (e *Folder) unknownTrack(name string, trk engine.Track, trkErr error) strin
 		return ""
 	}
 	return fmt.Sprintf("--track %q is neither %s's name (%q) nor in tracks/*.yaml: check its spelling, or describe it in tracks/ (the model does not know its elevation)",
-		name, TrackFile, trk.Name)
+		name, event.TrackFile, trk.Name)
 }
 
 // NewPass is one pass from its time slip, as typed. Blank date and time
@@ -116,7 +117,7 @@ type NewPass struct {
 	// The other lane's slip, when it is entered too: what decided the round.
 	OppDial, OppRT, OppET string
 	// OppCar is the other car's number or name: with its slip, a row of
-	// the opponent book (OpponentsFile).
+	// the opponent book (event.OpponentsFile).
 	OppCar string
 	// Set are the pass's setup, "name=value" (the --set flags): each an
 	// item of car.yaml's setup; an item not given keeps the last pass's value.
@@ -133,7 +134,7 @@ type LoggedPass struct {
 	Warnings  []string // worth saying, none stopping the write
 	// Opponent is the other lane's slip kept in the opponent book (nil:
 	// none); OpponentErr why it could not be kept after the pass was.
-	Opponent    *OpponentPass
+	Opponent    *event.OpponentPass
 	OpponentErr error
 }
 
@@ -141,13 +142,13 @@ type LoggedPass struct {
 // reading nearest the pass within an hour, or the day's trend; the fields
 // given replace the reading's) and appends it to the logbook. Nothing is
 // written when anything is wrong with it.
-func (e *Folder) AddPass(np NewPass, now time.Time) (LoggedPass, error) {
+func AddPass(e *event.Folder, np NewPass, now time.Time) (LoggedPass, error) {
 	var out LoggedPass
 	if err := e.Writable(); err != nil {
 		return out, err
 	}
 	trk, trkErr := e.Track()
-	f, err := e.slipFields(np, now, trk, trkErr)
+	f, err := slipFields(e, np, now, trk, trkErr)
 	if err != nil {
 		return out, err
 	}
@@ -155,7 +156,7 @@ func (e *Folder) AddPass(np NewPass, now time.Time) (LoggedPass, error) {
 	if err != nil {
 		return out, err
 	}
-	if w := e.unknownTrack(p.Track, trk, trkErr); w != "" {
+	if w := unknownTrack(e, p.Track, trk, trkErr); w != "" {
 		out.Warnings = append(out.Warnings, w)
 	}
 	// A slip is logged after its pass: a date past tomorrow is a typo
@@ -164,15 +165,15 @@ func (e *Folder) AddPass(np NewPass, now time.Time) (LoggedPass, error) {
 		return out, &weather.InputError{Field: "--date", Value: np.Date,
 			Reason: fmt.Sprintf("is in the future (today is %s): a slip is logged after its pass", now.Format("2006-01-02"))}
 	}
-	elev, source, err := e.passConditions(&p, np, trk, &out)
+	elev, source, err := passConditions(e, &p, np, trk, &out)
 	if err != nil {
 		return out, err
 	}
-	oppPass, err := e.opponentSlip(p, np, &out)
+	oppPass, err := opponentSlip(e, p, np, &out)
 	if err != nil {
 		return out, err
 	}
-	setupCols, err := e.passSetup(&p, np.Set)
+	setupCols, err := passSetup(e, &p, np.Set)
 	if err != nil {
 		return out, err
 	}
@@ -181,7 +182,7 @@ func (e *Folder) AddPass(np NewPass, now time.Time) (LoggedPass, error) {
 		return out, err
 	}
 	if oppPass != nil {
-		e.keepOpponent(*oppPass, &out)
+		keepOpponent(e, *oppPass, &out)
 	}
 	if w := logbook.DialWarning(p); w != "" {
 		out.Warnings = append(out.Warnings, w)
@@ -199,7 +200,7 @@ func (e *Folder) AddPass(np NewPass, now time.Time) (LoggedPass, error) {
 // slipWhen is the slip's date and time as typed, a blank one filled from
 // now: a time without a date is on today's race day ("23:50" typed at
 // 00:24 is the evening's, not tonight's). It does not check them.
-func (e *Folder) slipWhen(np NewPass, now time.Time) (date, clock string, err error) {
+func slipWhen(e *event.Folder, np NewPass, now time.Time) (date, clock string, err error) {
 	date, clock = np.Date, np.Time
 	start := e.Settings.DayStart
 	switch {
@@ -223,9 +224,9 @@ func (e *Folder) slipWhen(np NewPass, now time.Time) (date, clock string, err er
 // from now, track.yaml and car.yaml, trap speeds in the logbook's mph. It
 // checks that --round and --lane are given, and leaves every other check to
 // logbook.ParsePass.
-func (e *Folder) slipFields(np NewPass, now time.Time, trk engine.Track, trkErr error) (logbook.SlipFields, error) {
+func slipFields(e *event.Folder, np NewPass, now time.Time, trk engine.Track, trkErr error) (logbook.SlipFields, error) {
 	var f logbook.SlipFields
-	date, clock, err := e.slipWhen(np, now)
+	date, clock, err := slipWhen(e, np, now)
 	if err != nil {
 		return f, err
 	}
@@ -247,7 +248,7 @@ func (e *Folder) slipFields(np NewPass, now time.Time, trk engine.Track, trkErr 
 	// the logbook's mph (to the hundredth, as a slip prints it).
 	trap := func(flag, v string) (string, error) {
 		m, err := TrapMPH(v, e.Settings.Units)
-		return m, FlagErr(err, flag)
+		return m, event.FlagErr(err, flag)
 	}
 	mph660, err := trap("--mph660", np.MPH660)
 	if err != nil {
@@ -278,7 +279,7 @@ func (e *Folder) slipFields(np NewPass, now time.Time, trk engine.Track, trkErr 
 // replacing its own, at the track's elevation or the one given. It returns
 // the elevation and where the air came from ("" when p has none); rows of
 // the weather log that do not read are a warning in out. It writes nothing.
-func (e *Folder) passConditions(p *logbook.Pass, np NewPass, trk engine.Track, out *LoggedPass) (weather.Length, string, error) {
+func passConditions(e *event.Folder, p *logbook.Pass, np NewPass, trk engine.Track, out *LoggedPass) (weather.Length, string, error) {
 	elev := trk.Elevation()
 	var err error
 	if np.Reading.Elevation != "" {
@@ -327,7 +328,7 @@ func (e *Folder) passConditions(p *logbook.Pass, np NewPass, trk engine.Track, o
 // in out.Decided) and, when its car is named, the slip for the opponent
 // book, checked before anything is written so a bad one stops the pass too
 // (nil: none to keep). It writes nothing.
-func (e *Folder) opponentSlip(p logbook.Pass, np NewPass, out *LoggedPass) (*OpponentPass, error) {
+func opponentSlip(e *event.Folder, p logbook.Pass, np NewPass, out *LoggedPass) (*event.OpponentPass, error) {
 	var err error
 	if np.OppDial != "" || np.OppRT != "" || np.OppET != "" {
 		if out.Decided, err = DecidedBy(p, np.OppDial, np.OppRT, np.OppET, e.Settings); err != nil {
@@ -336,9 +337,9 @@ func (e *Folder) opponentSlip(p logbook.Pass, np NewPass, out *LoggedPass) (*Opp
 	}
 	switch {
 	case np.OppCar != "" && out.Decided == "":
-		return nil, userErrf("--opponent %s: give the other lane's slip with it (--opponent-dial, --opponent-rt, --opponent-et) to keep it in %s", np.OppCar, OpponentsFile)
+		return nil, userErrf("--opponent %s: give the other lane's slip with it (--opponent-dial, --opponent-rt, --opponent-et) to keep it in %s", np.OppCar, event.OpponentsFile)
 	case np.OppCar != "":
-		op, err := NewOpponentPass(np.OppCar, p.Time.Format(weather.DateLayout), p.Session, np.OppDial, np.OppRT, np.OppET, "")
+		op, err := event.NewOpponentPass(np.OppCar, p.Time.Format(weather.DateLayout), p.Session, np.OppDial, np.OppRT, np.OppET, "")
 		if err != nil {
 			return nil, err
 		}
@@ -347,7 +348,7 @@ func (e *Folder) opponentSlip(p logbook.Pass, np NewPass, out *LoggedPass) (*Opp
 		}
 		return &op, nil
 	case out.Decided != "":
-		out.Warnings = append(out.Warnings, fmt.Sprintf("the other lane's slip is not kept: name its car with --opponent (its number) and %s remembers it for the next time you race it", OpponentsFile))
+		out.Warnings = append(out.Warnings, fmt.Sprintf("the other lane's slip is not kept: name its car with --opponent (its number) and %s remembers it for the next time you race it", event.OpponentsFile))
 	}
 	return nil, nil
 }
@@ -357,9 +358,9 @@ func (e *Folder) opponentSlip(p logbook.Pass, np NewPass, out *LoggedPass) (*Opp
 // logged first (it is what the model learns from); a failure here is said
 // in out.OpponentErr, not returned, and the slip can be added again with
 // the next pass's or by hand.
-func (e *Folder) keepOpponent(op OpponentPass, out *LoggedPass) {
-	if _, _, err := e.AddOpponentPasses([]OpponentPass{op}, "this slip"); err != nil {
-		out.OpponentErr = fmt.Errorf("the pass is logged, but the other lane's slip was not kept in %s: %w", e.Name(OpponentsFile), err)
+func keepOpponent(e *event.Folder, op event.OpponentPass, out *LoggedPass) {
+	if _, _, err := e.AddOpponentPasses([]event.OpponentPass{op}, "this slip"); err != nil {
+		out.OpponentErr = fmt.Errorf("the pass is logged, but the other lane's slip was not kept in %s: %w", e.Name(event.OpponentsFile), err)
 	} else {
 		out.Opponent = &op
 	}
@@ -368,7 +369,7 @@ func (e *Folder) keepOpponent(op OpponentPass, out *LoggedPass) {
 // passSetup puts the pass's setup in its columns: the items of set
 // ("name=value", checked against car.yaml's setup), every other item the
 // last pass's value. It returns the columns the logbook must have.
-func (e *Folder) passSetup(p *logbook.Pass, set []string) ([]string, error) {
+func passSetup(e *event.Folder, p *logbook.Pass, set []string) ([]string, error) {
 	var setup logbook.Setup
 	car, carErr := e.Car()
 	if carErr == nil {
@@ -422,7 +423,7 @@ func nearestReading(log []weather.Reading, t time.Time, tol time.Duration) (weat
 // slip: the reason (a red light, a breakout, the finish) and where the
 // margin came from, the package of reaction time and time over the dial in
 // each lane. The rules are Settle's.
-func DecidedBy(p logbook.Pass, dial, rt, et string, s Settings) (string, error) {
+func DecidedBy(p logbook.Pass, dial, rt, et string, s event.Settings) (string, error) {
 	if dial == "" || rt == "" || et == "" {
 		return "", userErrf("give the other lane's slip whole: --opponent-dial, --opponent-rt and --opponent-et")
 	}
