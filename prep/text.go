@@ -8,6 +8,7 @@ import (
 	ptable "github.com/jedib0t/go-pretty/v6/table"
 	"github.com/jedib0t/go-pretty/v6/text"
 
+	words "pitcard/internal/text"
 	"pitcard/scripts"
 )
 
@@ -83,7 +84,7 @@ func (t *termCard) dialBox(v view) {
 	b, paint, width := &t.b, t.paint, t.width
 	if v.Stop != "" {
 		writeBlock(b, blockDigits("STOP"), [5]string{1: "  DO NOT    ", 2: "  POST THE  ", 3: "  DIAL      "}, paint, text.Bold, text.ReverseVideo)
-		b.WriteString(paint(wrap("  "+v.Stop, width, "    "), text.Bold) + "\n\n")
+		b.WriteString(paint(words.Wrap("  "+v.Stop, width, "    "), text.Bold) + "\n\n")
 	}
 	if v.Dial != "" {
 		labels := [5]string{1: "  POST THIS ", 2: "  DIAL-IN   "}
@@ -93,17 +94,17 @@ func (t *termCard) dialBox(v view) {
 		writeBlock(b, blockDigits(v.Dial), labels, paint, text.Bold)
 		b.WriteString("\n")
 		for _, l := range v.DialLines {
-			b.WriteString(wrap("  "+l, width, "    ") + "\n")
+			b.WriteString(words.Wrap("  "+l, width, "    ") + "\n")
 		}
 		if v.DialAlert != "" {
-			b.WriteString(paint(wrap("  CHECK: "+v.DialAlert, width, "    "), text.Bold) + "\n")
+			b.WriteString(paint(words.Wrap("  CHECK: "+v.DialAlert, width, "    "), text.Bold) + "\n")
 		}
 		b.WriteString("\n")
 	} else if v.NoDial != "" {
 		b.WriteString(paint("  NO DIAL YET", text.Bold, text.ReverseVideo) + "\n")
-		b.WriteString(wrap("  "+v.NoDial, width, "  ") + "\n")
+		b.WriteString(words.Wrap("  "+v.NoDial, width, "  ") + "\n")
 		if v.Guide != "" {
-			b.WriteString(wrap("  "+v.Guide, width, "  ") + "\n")
+			b.WriteString(words.Wrap("  "+v.Guide, width, "  ") + "\n")
 		}
 		b.WriteString("\n")
 	} else {
@@ -114,7 +115,7 @@ func (t *termCard) dialBox(v view) {
 // problems writes the problems, in red, each on its own.
 func (t *termCard) problems(v view) {
 	for _, p := range v.Problems {
-		t.b.WriteString(t.paint(wrap("  PROBLEM: "+p, t.width, "    "), text.FgRed) + "\n")
+		t.b.WriteString(t.paint(words.Wrap("  PROBLEM: "+p, t.width, "    "), text.FgRed) + "\n")
 	}
 	if len(v.Problems) > 0 {
 		t.b.WriteString("\n")
@@ -127,18 +128,18 @@ func (t *termCard) problems(v view) {
 func (t *termCard) tables(v view) {
 	b, width := &t.b, t.width
 	writeTable(b, v.Air, t.color, width)
-	b.WriteString(wrap(v.AirNote, width, "") + "\n\n")
+	b.WriteString(words.Wrap(v.AirNote, width, "") + "\n\n")
 	if len(v.Prediction.Rows) > 0 {
 		writeTable(b, v.Prediction, t.color, width)
 		for _, l := range v.Basis {
-			b.WriteString(wrap(l, width, "  ") + "\n")
+			b.WriteString(words.Wrap(l, width, "  ") + "\n")
 		}
 		b.WriteString("\n")
 	}
 	if len(v.Options.Rows) > 0 {
 		writeTable(b, v.Options, t.color, width)
 		if v.OptionsNote != "" {
-			b.WriteString(wrap(v.OptionsNote, width, "  ") + "\n")
+			b.WriteString(words.Wrap(v.OptionsNote, width, "  ") + "\n")
 		}
 		b.WriteString("\n")
 	}
@@ -166,7 +167,7 @@ func (t *termCard) checklist(v view) {
 		case scripts.Pass:
 			word = paint(word, text.FgGreen)
 		}
-		b.WriteString(fmt.Sprintf("  %s %s\n", word, wrap(ch.line(), t.width-8, "       ")))
+		b.WriteString(fmt.Sprintf("  %s %s\n", word, words.Wrap(ch.line(), t.width-8, "       ")))
 	}
 	b.WriteString("\n")
 }
@@ -178,7 +179,7 @@ func (t *termCard) notes(v view) {
 	}
 	t.b.WriteString(t.paint("Setup notes", text.Bold) + "\n")
 	for _, n := range v.Notes {
-		t.b.WriteString(wrap("  - "+n, t.width, "    ") + "\n")
+		t.b.WriteString(words.Wrap("  - "+n, t.width, "    ") + "\n")
 	}
 	t.b.WriteString("\n")
 }
@@ -202,7 +203,7 @@ func (t *termCard) record(v view) {
 func (t *termCard) cautions(v view) {
 	t.b.WriteString(t.paint("Cautions", text.Bold) + "\n")
 	for _, c := range v.Cautions {
-		t.b.WriteString(wrap("  ! "+c, t.width, "    ") + "\n")
+		t.b.WriteString(words.Wrap("  ! "+c, t.width, "    ") + "\n")
 	}
 }
 
@@ -240,78 +241,6 @@ func writeTable(b *strings.Builder, t table, color bool, width int) {
 	b.WriteString(FitRender(tw, width, nil) + "\n")
 }
 
-// Wrap breaks s into lines of at most width, continuing with indent: the
-// card's wrapping, for the command line's prose.
-func Wrap(s string, width int, indent string) string { return wrap(s, width, indent) }
-
-// wrap breaks s into lines of at most width, continuing with indent.
-func wrap(s string, width int, indent string) string {
-	if strings.Contains(s, "\n") { // each line of a message wrapped on its own
-		parts := strings.Split(s, "\n")
-		for i, p := range parts {
-			if i > 0 {
-				p = indent + strings.TrimLeft(p, " ")
-			}
-			parts[i] = wrap(p, width, indent+"  ")
-		}
-		return strings.Join(parts, "\n")
-	}
-	words := keepUnits(strings.Fields(s))
-	if len(words) == 0 {
-		return s
-	}
-	lead := s[:len(s)-len(strings.TrimLeft(s, " "))]
-	words = splitLong(words, width-max(len(indent), len(lead)))
-	var lines []string
-	cur := lead + words[0]
-	for _, wd := range words[1:] {
-		if text.RuneWidthWithoutEscSequences(cur)+1+text.RuneWidthWithoutEscSequences(wd) > width {
-			lines = append(lines, cur)
-			cur = indent + wd
-			continue
-		}
-		cur += " " + wd
-	}
-	return strings.Join(append(lines, cur), "\n")
-}
-
-// units are the words a figure is never parted from at a line's end (with
-// any punctuation that follows them: "s;", "%)").
-var units = map[string]bool{"%": true, "s": true, "°F": true, "°C": true, "mph": true, "ft": true, "lb": true, "inHg": true}
-
-// keepUnits makes a unit and the figure before it ("22 %", "0.018 s") one
-// word to the wrapping, so a wrapped line never ends on a bare number.
-func keepUnits(words []string) []string {
-	out := words[:0:0]
-	for _, w := range words {
-		if n := len(out); n > 0 && units[strings.TrimRight(w, ",;.)")] && endsInDigit(out[n-1]) {
-			out[n-1] += " " + w
-			continue
-		}
-		out = append(out, w)
-	}
-	return out
-}
-
-func endsInDigit(w string) bool { return w != "" && w[len(w)-1] >= '0' && w[len(w)-1] <= '9' }
-
-// splitLong breaks a word wider than room (a pasted note with no spaces)
-// into pieces that fit, so no line runs past the width.
-func splitLong(words []string, room int) []string {
-	room = max(room, 20)
-	var out []string
-	for _, w := range words {
-		for text.RuneWidthWithoutEscSequences(w) > room {
-			r := []rune(w)
-			n := min(room, len(r))
-			out, w = append(out, string(r[:n])), string(r[n:])
-		}
-		out = append(out, w)
-	}
-	return out
-}
-
-// blockDigits draws a dial in digits five lines tall.
 // writeBlock writes block-type lines with a label beside each.
 func writeBlock(b *strings.Builder, big []string, labels [5]string, paint func(string, ...text.Color) string, colors ...text.Color) {
 	for i, line := range big {
@@ -323,6 +252,7 @@ func writeBlock(b *strings.Builder, big []string, labels [5]string, paint func(s
 	}
 }
 
+// blockDigits draws a dial in digits five lines tall.
 func blockDigits(s string) []string {
 	font := map[rune][5]string{
 		'0': {"███", "█ █", "█ █", "█ █", "███"}, '1': {" █ ", "██ ", " █ ", " █ ", "███"},

@@ -3,6 +3,7 @@ package main
 import (
 	"fmt"
 	"math"
+	"pitcard/internal/text"
 	"strings"
 
 	"github.com/jedib0t/go-pretty/v6/table"
@@ -10,7 +11,6 @@ import (
 
 	"pitcard/event"
 	"pitcard/logbook"
-	"pitcard/prep"
 	"pitcard/weather"
 )
 
@@ -97,7 +97,7 @@ func logCompareRun(cmd *cobra.Command, o *logCompareOptions, name string) error 
 	c.table(o.s, o.Format, e.Settings.Units.Speed)
 	for _, line := range append(c.lines(), distNote, compareNote) {
 		if line != "" {
-			fmt.Fprintln(o.s.Out, prep.Wrap(line, o.s.width(), ""))
+			fmt.Fprintln(o.s.Out, text.Wrap(line, o.s.width(), ""))
 		}
 	}
 	return leftOut
@@ -127,7 +127,7 @@ func (c comparison) withWords() string {
 
 func (c comparison) table(s *IOStreams, format string, speed weather.SpeedUnit) {
 	if format == "text" {
-		fmt.Fprintln(s.Out, prep.Wrap(fmt.Sprintf("%s against %s, to %.0f ft (+ slower, - quicker):", event.PassLabel(c.this), c.withWords(), c.distance), s.width(), ""))
+		fmt.Fprintln(s.Out, text.Wrap(fmt.Sprintf("%s against %s, to %.0f ft (+ slower, - quicker):", event.PassLabel(c.this), c.withWords(), c.distance), s.width(), ""))
 	}
 	t := newTable(s, "Segment by segment: "+event.PassLabel(c.this)+" against "+event.PassLabel(c.other))
 	spd := speed.String()

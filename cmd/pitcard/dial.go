@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	words "pitcard/internal/text"
 	"strconv"
 	"strings"
 
@@ -397,7 +398,7 @@ func writeDialCSV(w io.Writer, j dialJSON) error {
 // post marked, the post line and the other lane's chances in words.
 func (o *dialOptions) writeText(b dialBasis, plan bracket.DialPlan, vs dialAgainst, j dialJSON) {
 	est, post := b.est, b.post
-	fmt.Fprintln(o.s.Out, prep.Wrap(fmt.Sprintf("Predicted ET %.3f s ± %.3f (one standard deviation): %s.", est.ET, est.SD, est.Basis), o.s.width(), "  "))
+	fmt.Fprintln(o.s.Out, words.Wrap(fmt.Sprintf("Predicted ET %.3f s ± %.3f (one standard deviation): %s.", est.ET, est.SD, est.Basis), o.s.width(), "  "))
 	b.rests.write(o.s)
 	t := newTable(o.s, fmt.Sprintf("Dial-ins (step %s s, risk ≤ %.0f %%)", plan.Step, plan.Risk*100))
 	header := table.Row{"Dial", "Breakout chance", "Over dial (exp.)", ""}
@@ -432,17 +433,17 @@ func (o *dialOptions) writeText(b dialBasis, plan bracket.DialPlan, vs dialAgain
 	if vs.opp == nil {
 		return
 	}
-	fmt.Fprintln(o.s.Out, prep.Wrap(fmt.Sprintf("Against the other lane's %s: %s; the dial that wins most is %s (%.1f %% to win). Chances from %d races drawn per dial, good to ±0.5 points.",
+	fmt.Fprintln(o.s.Out, words.Wrap(fmt.Sprintf("Against the other lane's %s: %s; the dial that wins most is %s (%.1f %% to win). Chances from %d races drawn per dial, good to ±0.5 points.",
 		prep.DialText(vs.opp.Dial, plan.Step), prep.HeadStartWords(plan.Recommended, vs.opp.Dial), j.BestForWin.Dial, 100*j.BestForWin.WinChance, bracket.WinDraws), o.s.width(), "  "))
 	if vs.opp.From != "" { // a named car (--opponent): where its figures came from
-		fmt.Fprintln(o.s.Out, prep.Wrap("The other lane's figures: "+vs.opp.From+".", o.s.width(), "  "))
+		fmt.Fprintln(o.s.Out, words.Wrap("The other lane's figures: "+vs.opp.From+".", o.s.width(), "  "))
 	}
 	if vs.trade != "" {
 		posted := "Posted stays your rule's unless post_dial: best-for-win."
 		if post.bestForWin {
 			posted = "Posted is the dial that wins most (post_dial: best-for-win)."
 		}
-		fmt.Fprintln(o.s.Out, prep.Wrap("The choice: "+vs.trade+". "+posted, o.s.width(), "  "))
+		fmt.Fprintln(o.s.Out, words.Wrap("The choice: "+vs.trade+". "+posted, o.s.width(), "  "))
 	}
 }
 
@@ -493,12 +494,12 @@ func (p dialPost) write(s *IOStreams, j dialJSON, plan bracket.DialPlan) {
 		if p.bestForWin {
 			rule = "but the dial that wins most against the other lane is posted (post_dial: best-for-win)"
 		}
-		fmt.Fprintln(s.Out, prep.Wrap(fmt.Sprintf("%s for %s: %s (the breakout rule's %s, %s; %s), as the card gives it.", lead, strings.ToLower(p.round[:1])+p.round[1:], j.Post, j.Recommended, rule, how), s.width(), "  "))
+		fmt.Fprintln(s.Out, words.Wrap(fmt.Sprintf("%s for %s: %s (the breakout rule's %s, %s; %s), as the card gives it.", lead, strings.ToLower(p.round[:1])+p.round[1:], j.Post, j.Recommended, rule, how), s.width(), "  "))
 	default:
-		fmt.Fprintln(s.Out, prep.Wrap(fmt.Sprintf("Before the rules: %s (%s). The crew's rules run on the card: 'pitcard card' posts the final dial.", j.Recommended, rule), s.width(), "  "))
+		fmt.Fprintln(s.Out, words.Wrap(fmt.Sprintf("Before the rules: %s (%s). The crew's rules run on the card: 'pitcard card' posts the final dial.", j.Recommended, rule), s.width(), "  "))
 	}
 	if len(p.failed) > 0 {
-		fmt.Fprintln(s.Out, prep.Wrap("STOP: "+checksFailed{p.failed}.Error()+".", s.width(), "  "))
+		fmt.Fprintln(s.Out, words.Wrap("STOP: "+checksFailed{p.failed}.Error()+".", s.width(), "  "))
 	}
 }
 
@@ -545,8 +546,8 @@ func noDial(o *dialOptions, est bracket.Estimate, why string, rests restsOn, lef
 		return leftOut
 	}
 	w := o.s.width()
-	fmt.Fprintln(o.s.Out, prep.Wrap(fmt.Sprintf("No dial yet: %s.", why), w, "  "))
-	fmt.Fprintln(o.s.Out, prep.Wrap(fmt.Sprintf("Guide from %s: %.2f s ± %.2f (one standard deviation).", est.Basis, est.ET, est.SD), w, "  "))
+	fmt.Fprintln(o.s.Out, words.Wrap(fmt.Sprintf("No dial yet: %s.", why), w, "  "))
+	fmt.Fprintln(o.s.Out, words.Wrap(fmt.Sprintf("Guide from %s: %.2f s ± %.2f (one standard deviation).", est.Basis, est.ET, est.SD), w, "  "))
 	rests.write(o.s)
 	fmt.Fprintln(o.s.Out, "For a table anyway, give your own estimate: --et and --sd.")
 	return leftOut
@@ -567,6 +568,6 @@ func restsOnOf(p engine.Prediction, f engine.Fit, u weather.Units) restsOn {
 // write prints the line, if there is one.
 func (r restsOn) write(s *IOStreams) {
 	if r.line != "" {
-		fmt.Fprintln(s.Out, prep.Wrap("Rests on "+r.line+".", s.width(), "  "))
+		fmt.Fprintln(s.Out, words.Wrap("Rests on "+r.line+".", s.width(), "  "))
 	}
 }

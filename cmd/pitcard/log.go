@@ -144,10 +144,10 @@ func logAddRun(cmd *cobra.Command, o *logAddOptions) error {
 			p.Air.Temp.Format(e.Settings.Units.Temp, 1), p.Air.Derive(lp.Elevation).DensityAltitude.FormatDensityAltitude(e.Settings.Units.Length))
 	}
 	if line := setupLine(e, p, o.Set); line != "" {
-		fmt.Fprintln(o.s.Out, prep.Wrap(line, o.s.width(), "  "))
+		fmt.Fprintln(o.s.Out, text.Wrap(line, o.s.width(), "  "))
 	}
 	if lp.Decided != "" {
-		fmt.Fprintln(o.s.Out, prep.Wrap(lp.Decided, o.s.width(), "  "))
+		fmt.Fprintln(o.s.Out, text.Wrap(lp.Decided, o.s.width(), "  "))
 	}
 	if lp.Opponent != nil {
 		fmt.Fprintf(o.s.Out, "The other lane's slip is kept in %s as car %s's.\n", e.Name(event.OpponentsFile), lp.Opponent.Car)
@@ -470,7 +470,7 @@ func renderLogList(o *logListOptions, e *eventFolder, passes []logbook.Pass, trk
 	var below []string
 	for _, p := range passes {
 		if notes := passNotes(p); l.notesBelow && notes != "" {
-			below = append(below, prep.Wrap(fmt.Sprintf("%s %s: %s", p.Time.Format("2006-01-02 15:04"), p.Session, printable.Line(notes)), o.s.width(), "  "))
+			below = append(below, text.Wrap(fmt.Sprintf("%s %s: %s", p.Time.Format("2006-01-02 15:04"), p.Session, printable.Line(notes)), o.s.width(), "  "))
 		}
 		t.AppendRow(l.row(p, trk))
 	}
@@ -717,7 +717,7 @@ func printStatsNotes(o *logStatsOptions, stats []logbook.GroupStats, corrected b
 	if corrected {
 		note = "Spreads are one standard deviation. Corrected: the ET spread once the air and track of each pass are taken out (each ET less the calibrated model's for its conditions); consistency is judged on it."
 	}
-	fmt.Fprintln(o.s.Out, prep.Wrap(note+` Passes "7 (1 out)": 7 logged, 1 left out of the figures because its notes say it was not a full run (lifted, spun ...; see 'pitcard log list').`, o.s.width(), ""))
+	fmt.Fprintln(o.s.Out, text.Wrap(note+` Passes "7 (1 out)": 7 logged, 1 left out of the figures because its notes say it was not a full run (lifted, spun ...; see 'pitcard log list').`, o.s.width(), ""))
 	fmt.Fprintln(o.s.Out, "Very consistent (≤ 0.015 s): dial it with confidence. Consistent (≤ 0.030).\nSome scatter (≤ 0.060): check the notes, tires, routine.\nInconsistent: look for lifted or spinning runs.")
 	if days := countDays(stats); days > 30 && o.Since == "" && o.Last == 0 {
 		fmt.Fprintf(o.s.Err, "pitcard: %d days shown: bound them with --since DATE, --last N or --track NAME\n", days)

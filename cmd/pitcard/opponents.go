@@ -10,7 +10,6 @@ import (
 	"pitcard/bringin"
 	"pitcard/event"
 	"pitcard/internal/text"
-	"pitcard/prep"
 )
 
 type logOpponentsOptions struct {
@@ -98,7 +97,7 @@ func logOpponentsRun(cmd *cobra.Command, o *logOpponentsOptions) error {
 	}
 	compact(t)
 	render(o.s, t, o.Format, alignRight(2, 5)...)
-	fmt.Fprintln(o.s.Out, prep.Wrap(fmt.Sprintf("As the card races them: each car's own figures shrunk toward the settings' (%+.3f ± %.3f over the dial, reaction %.3f ± %.3f s) as if those were %d more passes, so a car seen once stays near them. Name one with 'pitcard card --opponent CAR'.",
+	fmt.Fprintln(o.s.Out, text.Wrap(fmt.Sprintf("As the card races them: each car's own figures shrunk toward the settings' (%+.3f ± %.3f over the dial, reaction %.3f ± %.3f s) as if those were %d more passes, so a car seen once stays near them. Name one with 'pitcard card --opponent CAR'.",
 		st.OppMargin, st.OppMarginSD, st.OppRTMean, st.OppRTSD, bracket.PriorPasses), o.s.width(), ""))
 	return bad
 }

@@ -7,6 +7,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	words "pitcard/internal/text"
 
 	"github.com/jedib0t/go-pretty/v6/table"
 	"github.com/jedib0t/go-pretty/v6/text"
@@ -128,5 +129,5 @@ func withOut(cmd *cobra.Command, s *IOStreams) {
 // warn writes a warning to standard error, wrapped to the screen's width
 // like everything else pitcard prints.
 func (s *IOStreams) warn(msg string) {
-	fmt.Fprintln(s.Err, prep.Wrap("pitcard: warning: "+msg, s.width(), "  "))
+	fmt.Fprintln(s.Err, words.Wrap("pitcard: warning: "+msg, s.width(), "  "))
 }

@@ -3,6 +3,7 @@ package main
 import (
 	"errors"
 	"fmt"
+	"pitcard/internal/text"
 	"strings"
 	"time"
 
@@ -295,7 +296,7 @@ func printPrediction(s *IOStreams, n nextPass, format string) {
 	if n.Cond.Reading.HasTrack {
 		track = "track " + n.Cond.Reading.TrackTemp.Format(u.Temp, 0)
 	}
-	fmt.Fprintln(s.Out, prep.Wrap(fmt.Sprintf("Air: density altitude %s, %s, %s, prep %s (%s).", a.DensityAltitude.FormatDensityAltitude(u.Length),
+	fmt.Fprintln(s.Out, text.Wrap(fmt.Sprintf("Air: density altitude %s, %s, %s, prep %s (%s).", a.DensityAltitude.FormatDensityAltitude(u.Length),
 		n.Cond.Reading.Temp.Format(u.Temp, 1), track, engine.PrepName(n.Prep), n.Cond.Source), s.width(), "  "))
 	if rests := prep.RestsOn(p, n.Fit, u); len(rests) > 0 {
 		fmt.Fprintln(s.Out, "Rests on:")
@@ -304,11 +305,11 @@ func printPrediction(s *IOStreams, n nextPass, format string) {
 			lead = "- "
 		}
 		for _, l := range rests {
-			fmt.Fprintln(s.Out, prep.Wrap(lead+l, s.width(), "    "))
+			fmt.Fprintln(s.Out, text.Wrap(lead+l, s.width(), "    "))
 		}
 	}
 	for _, l := range prep.Explain(p, n.Fit, n.Units) {
-		fmt.Fprintln(s.Out, prep.Wrap("- "+l, s.width(), "  "))
+		fmt.Fprintln(s.Out, text.Wrap("- "+l, s.width(), "  "))
 	}
 }
 

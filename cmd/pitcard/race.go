@@ -3,6 +3,7 @@ package main
 import (
 	"encoding/json"
 	"fmt"
+	"pitcard/internal/text"
 
 	"github.com/jedib0t/go-pretty/v6/table"
 	"github.com/shopspring/decimal"
@@ -157,7 +158,7 @@ func raceRun(cmd *cobra.Command, o *raceOptions) error {
 	if j.MarginFt != nil {
 		margin += fmt.Sprintf(" (%.1f ft)", *j.MarginFt)
 	}
-	fmt.Fprintln(o.s.Out, prep.Wrap(fmt.Sprintf("%s (%s): %s.", headline, out.Reason, out.Explanation), o.s.width(), "  "))
+	fmt.Fprintln(o.s.Out, text.Wrap(fmt.Sprintf("%s (%s): %s.", headline, out.Reason, out.Explanation), o.s.width(), "  "))
 	fmt.Fprintf(o.s.Out, "At the finish: %s apart.\n", margin)
 	t := newTable(o.s, "")
 	// Two-line headers over figures of five or six characters: the table
@@ -181,6 +182,6 @@ func raceRun(cmd *cobra.Command, o *raceOptions) error {
 	configs := alignRight(2, 9)
 	compact(t)
 	render(o.s, t, "text", configs...)
-	fmt.Fprintln(o.s.Out, prep.Wrap(fmt.Sprintf("Tree %s; reaction times count from the %s. Times in seconds after the first green.", rules.Tree, rules.RTZero), o.s.width(), "  "))
+	fmt.Fprintln(o.s.Out, text.Wrap(fmt.Sprintf("Tree %s; reaction times count from the %s. Times in seconds after the first green.", rules.Tree, rules.RTZero), o.s.width(), "  "))
 	return nil
 }

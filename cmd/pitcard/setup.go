@@ -2,6 +2,7 @@ package main
 
 import (
 	"fmt"
+	"pitcard/internal/text"
 	"strings"
 
 	"github.com/spf13/cobra"
@@ -9,7 +10,6 @@ import (
 	"pitcard/engine"
 	"pitcard/event"
 	"pitcard/logbook"
-	"pitcard/prep"
 )
 
 // setupLine says the setup a pass was logged with, each item given by
@@ -152,7 +152,7 @@ func logSetupRun(cmd *cobra.Command, o *logSetupOptions) error {
 	}
 	fmt.Fprintf(o.s.Out, "Setup of %s: what one unit of each item is worth (the air and track taken out; ± one standard error)\n", car.Name)
 	for _, x := range effs {
-		fmt.Fprintln(o.s.Out, prep.Wrap("  "+x.Text(), o.s.width(), "    "))
+		fmt.Fprintln(o.s.Out, text.Wrap("  "+x.Text(), o.s.width(), "    "))
 	}
 	for _, it := range car.Setup {
 		if it.Numeric() {
@@ -165,9 +165,9 @@ func logSetupRun(cmd *cobra.Command, o *logSetupOptions) error {
 		if c := changes[it.Name]; len(c) > 0 {
 			line = fmt.Sprintf("  %s: a choice, changed on %s (each a change of the car: the model carries the passes before it across)", it.Name, strings.Join(c, "; "))
 		}
-		fmt.Fprintln(o.s.Out, prep.Wrap(line, o.s.width(), "    "))
+		fmt.Fprintln(o.s.Out, text.Wrap(line, o.s.width(), "    "))
 	}
-	fmt.Fprintln(o.s.Out, prep.Wrap(fmt.Sprintf("Effects are in s per unit (+: slower as the value rises), from the calibrated model's latest %d clean passes, shrunk toward the crew's expect in car.yaml (or none); an item changed together with another is credited with both.", engine.FitWindow), o.s.width(), ""))
+	fmt.Fprintln(o.s.Out, text.Wrap(fmt.Sprintf("Effects are in s per unit (+: slower as the value rises), from the calibrated model's latest %d clean passes, shrunk toward the crew's expect in car.yaml (or none); an item changed together with another is credited with both.", engine.FitWindow), o.s.width(), ""))
 	return leftOut
 }
 

@@ -13,7 +13,6 @@ import (
 	"pitcard/entry"
 	"pitcard/event"
 	"pitcard/internal/text"
-	"pitcard/prep"
 	"pitcard/weather"
 )
 
@@ -355,7 +354,7 @@ func weatherForecastPrint(o *weatherForecastOptions, e *eventFolder, elev weathe
 		fmt.Fprintf(o.s.Out, "Density altitude ± %s (one standard error).\n", f.DAError.FormatDensityAltitude(e.Settings.Units.Length))
 	}
 	for _, n := range f.Notes {
-		fmt.Fprintln(o.s.Out, prep.Wrap("- "+n, o.s.width(), "  "))
+		fmt.Fprintln(o.s.Out, text.Wrap("- "+n, o.s.width(), "  "))
 	}
 	return nil
 }

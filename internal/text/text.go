@@ -1,6 +1,6 @@
 // Package text is pitcard's few helpers for words in messages that know
 // nothing of racing: a count with its noun, a phrase made a sentence, a
-// blank shown as a dash.
+// blank shown as a dash, prose wrapped to a width.
 //
 // It holds no racing words: those stay with their packages.
 package text

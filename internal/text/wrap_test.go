@@ -1,4 +1,4 @@
-package prep
+package text
 
 import (
 	"strings"
@@ -14,7 +14,7 @@ func TestWrapKeepsUnits(t *testing.T) {
 		{"mean miss on the car's own passes, each predicted from those before it: the pass model 0.018 s, today's", "0.018 s"},
 	} {
 		for width := 20; width <= 100; width++ {
-			out := wrap(tc.in, width, "  ")
+			out := Wrap(tc.in, width, "  ")
 			if !strings.Contains(strings.ReplaceAll(out, "\n  ", "\n"), tc.keep) {
 				t.Errorf("width %d parts %q:\n%s", width, tc.keep, out)
 				break
