@@ -59,10 +59,10 @@ func (s Source) read() ([]byte, *colmap.Translation, error) {
 func ReadSourceFile(path string) ([]byte, error) {
 	data, err := os.ReadFile(path)
 	if err != nil {
-		return nil, userErrf("cannot read %s: %v", path, errors.Unwrap(err))
+		return nil, event.BadInputf("cannot read %s: %v", path, errors.Unwrap(err))
 	}
 	if at := binaryAt(data); at >= 0 {
-		return nil, userErrf("%s is not a text (CSV) file: byte %d is binary data; save it from the spreadsheet as CSV", path, at+1)
+		return nil, event.BadInputf("%s is not a text (CSV) file: byte %d is binary data; save it from the spreadsheet as CSV", path, at+1)
 	}
 	return weather.LineEnds(data), nil
 }
@@ -277,7 +277,7 @@ func ImportReadings(e *event.Folder, add []weather.Reading, from string, elev we
 		return Imported{}, &event.Conflicts{List: m.Conflicts, Ours: e.Name(event.WeatherFile), TheirsIn: from}
 	}
 	if m.Same > 0 && !skipExisting {
-		return Imported{}, userErrf("%s has %s already in %s (the same minute): give --skip-existing to leave them out; nothing was written",
+		return Imported{}, event.BadInputf("%s has %s already in %s (the same minute): give --skip-existing to leave them out; nothing was written",
 			from, text.Plural(m.Same, "reading"), e.Name(event.WeatherFile))
 	}
 	log = append(log, m.New...)

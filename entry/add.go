@@ -269,7 +269,7 @@ func slipFields(e *event.Folder, np NewPass, now time.Time, trk engine.Track, tr
 	}
 	f.Names["session"] = "--round" // the logbook's session column is the flag --round
 	if np.Session == "" || np.Lane == "" {
-		return f, userErrf("--round and --lane are required (e.g. --round E1 --lane left)")
+		return f, event.BadInputf("--round and --lane are required (e.g. --round E1 --lane left)")
 	}
 	return f, nil
 }
@@ -337,7 +337,7 @@ func opponentSlip(e *event.Folder, p logbook.Pass, np NewPass, out *LoggedPass) 
 	}
 	switch {
 	case np.OppCar != "" && out.Decided == "":
-		return nil, userErrf("--opponent %s: give the other lane's slip with it (--opponent-dial, --opponent-rt, --opponent-et) to keep it in %s", np.OppCar, event.OpponentsFile)
+		return nil, event.BadInputf("--opponent %s: give the other lane's slip with it (--opponent-dial, --opponent-rt, --opponent-et) to keep it in %s", np.OppCar, event.OpponentsFile)
 	case np.OppCar != "":
 		op, err := event.NewOpponentPass(np.OppCar, p.Time.Format(weather.DateLayout), p.Session, np.OppDial, np.OppRT, np.OppET, "")
 		if err != nil {
@@ -425,11 +425,11 @@ func nearestReading(log []weather.Reading, t time.Time, tol time.Duration) (weat
 // each lane. The rules are Settle's.
 func DecidedBy(p logbook.Pass, dial, rt, et string, s event.Settings) (string, error) {
 	if dial == "" || rt == "" || et == "" {
-		return "", userErrf("give the other lane's slip whole: --opponent-dial, --opponent-rt and --opponent-et")
+		return "", event.BadInputf("give the other lane's slip whole: --opponent-dial, --opponent-rt and --opponent-et")
 	}
 	fin, _, ok := p.Finish()
 	if !p.Dial.Valid || !p.RT.Valid || !ok {
-		return "", userErrf("what decided the round needs our dial, reaction time and ET too (--dial, --rt, --et1320)")
+		return "", event.BadInputf("what decided the round needs our dial, reaction time and ET too (--dial, --rt, --et1320)")
 	}
 	var them bracket.LaneRun
 	var err error

@@ -5,14 +5,3 @@
 // safe writes (event), nor bring in files from elsewhere (bringin): it
 // reads and writes the folder through event.
 package entry
-
-import "fmt"
-
-// inputErr marks an error as the crew's to fix (a front end maps it to its
-// "bad input" answer: exit code 2 on the command line), as event's do.
-type inputErr struct{ error }
-
-func (e inputErr) BadInput() bool { return true }
-func (e inputErr) Unwrap() error  { return e.error }
-
-func userErrf(f string, a ...any) error { return inputErr{fmt.Errorf(f, a...)} }

@@ -74,7 +74,7 @@ func (f *ReadingFields) Given() bool {
 func (f *ReadingFields) SiteElevation(u weather.Units, track weather.Length, haveTrack bool) (weather.Length, error) {
 	if f.Elevation == "" {
 		if !haveTrack {
-			return 0, userErrf("the track elevation is unknown: give --elevation (e.g. --elevation 2240ft) or write track.yaml")
+			return 0, event.BadInputf("the track elevation is unknown: give --elevation (e.g. --elevation 2240ft) or write track.yaml")
 		}
 		return track, nil
 	}
@@ -131,7 +131,7 @@ func (f *ReadingFields) parseOnto(r weather.Reading, u weather.Units, fresh bool
 		}
 	}
 	if f.Humidity != "" && f.DewPoint != "" {
-		return r, userErrf("give --humidity or --dewpoint, not both")
+		return r, event.BadInputf("give --humidity or --dewpoint, not both")
 	}
 	if f.Humidity != "" {
 		if r.RH, err = weather.ParsePercent(f.Humidity); err != nil {
@@ -549,11 +549,11 @@ func (g *gathering) chooseSlot() error {
 	case g.haveSched:
 		s, ok := g.sched.Next(g.passes)
 		if !ok {
-			return userErrf("every round of %s has a pass in the logbook: give --round for another", g.e.Name(event.ScheduleFile))
+			return event.BadInputf("every round of %s has a pass in the logbook: give --round for another", g.e.Name(event.ScheduleFile))
 		}
 		g.slot, g.haveSlot = s, true
 	default:
-		return userErrf("which round? give --round (3, E3, T2 ...), or write %s with the day's call times", event.ScheduleFile)
+		return event.BadInputf("which round? give --round (3, E3, T2 ...), or write %s with the day's call times", event.ScheduleFile)
 	}
 	return nil
 }
@@ -670,7 +670,7 @@ func (g *gathering) airAtCall() error {
 		}
 		g.source = "the reading flags"
 	default:
-		return userErrf("no air for the round: %s has no readings; add one with 'pitcard weather add' or give --temp, --baro and --humidity",
+		return event.BadInputf("no air for the round: %s has no readings; add one with 'pitcard weather add' or give --temp, --baro and --humidity",
 			e.Name(event.WeatherFile))
 	}
 	if err := ValidateFields(g.air, g.elev, e.Settings.Units); err != nil {
@@ -767,7 +767,7 @@ func plannedSetup(flags, noted []string, setup logbook.Setup, file string) (plan
 	planned, bad = logbook.ParseSetAssignments("the setup noted in "+file, noted, setup)
 	if bad != nil {
 		planned = map[string]string{}
-		bad = userErrf("%v; the card plans the last pass's setup (set it again on the pit page's setup form)", bad)
+		bad = event.BadInputf("%v; the card plans the last pass's setup (set it again on the pit page's setup form)", bad)
 	}
 	given, err := logbook.ParseSetAssignments("--set", flags, setup)
 	if err != nil {

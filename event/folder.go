@@ -39,6 +39,12 @@ func (e inputErr) Unwrap() error  { return e.error }
 
 func userErrf(f string, a ...any) error { return inputErr{fmt.Errorf(f, a...)} }
 
+// BadInputf is an error the crew is to fix, formatted as fmt.Errorf
+// formats (%w keeps the wrapped error reachable): IsBadInput reports it,
+// and a front end gives its "bad input" answer (exit code 2 on the command
+// line). Package entry and bringin make theirs with it.
+func BadInputf(format string, a ...any) error { return userErrf(format, a...) }
+
 // Settings are pitcard.yaml's values after flags and environment.
 type Settings struct {
 	Units         weather.Units
