@@ -57,18 +57,18 @@ func newWeightModel(car Car, passes []logbook.Pass, day weather.DayStart) *weigh
 	sort.Strings(days)
 	var sxy, sxx float64
 	for _, k := range days {
-		os := byDay[k]
-		if len(os) < 2 {
+		obs := byDay[k]
+		if len(obs) < 2 {
 			continue
 		}
 		var mi, mw float64
-		for _, o := range os {
+		for _, o := range obs {
 			mi += o.idx
 			mw += o.lb
 		}
-		mi /= float64(len(os))
-		mw /= float64(len(os))
-		for _, o := range os {
+		mi /= float64(len(obs))
+		mw /= float64(len(obs))
+		for _, o := range obs {
 			sxy += (o.idx - mi) * (o.lb - mw)
 			sxx += sq(o.idx - mi)
 		}
@@ -78,12 +78,12 @@ func newWeightModel(car Car, passes []logbook.Pass, day weather.DayStart) *weigh
 		m.burn = math.Max(-40, math.Min(5, sxy/(sxx+2)))
 	}
 	for _, k := range days {
-		os := byDay[k]
+		obs := byDay[k]
 		var s float64
-		for _, o := range os {
+		for _, o := range obs {
 			s += o.lb - m.burn*o.idx
 		}
-		m.start[k] = s / float64(len(os))
+		m.start[k] = s / float64(len(obs))
 	}
 	if len(days) > 5 {
 		days = days[len(days)-5:]

@@ -751,14 +751,14 @@ func (f SlipFields) parseTimes(p *Pass) error {
 		return err
 	}
 	var last decimal.NullDecimal
-	lastName, any := "", false
+	lastName, timed := "", false
 	for i := range TimerDistancesFt {
 		c := timerColumns[i]
 		if p.ET[i], err = f.optSeconds(c, ETRanges[i][0], ETRanges[i][1]); err != nil {
 			return err
 		}
 		if p.ET[i].Valid {
-			any = true
+			timed = true
 			if last.Valid && !p.ET[i].Decimal.GreaterThan(last.Decimal) {
 				return &weather.InputError{Field: f.name(c), Value: f.value(c),
 					Reason: fmt.Sprintf("is not after %s %s: elapsed times must increase with distance", lastName, last.Decimal)}
@@ -766,7 +766,7 @@ func (f SlipFields) parseTimes(p *Pass) error {
 			last, lastName = p.ET[i], f.name(c)
 		}
 	}
-	if !any {
+	if !timed {
 		return &weather.InputError{Field: "et1320", Reason: "is blank, and so is every other timer (a pass needs at least one elapsed time)"}
 	}
 	return nil
