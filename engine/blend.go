@@ -414,13 +414,18 @@ func moveTimers(pr *Prediction, fin Timer, et, sd float64) {
 func blendNotes(pr *Prediction, samples int, distFt float64) {
 	b := pr.Blend
 	if !b.ColdStart {
-		pr.Notes = append(pr.Notes, fmt.Sprintf("leaned on %s (by the last %s); interval ×%.2f from their misses",
-			b.Text(), text.Plural(b.Scored, "pass"), b.Scale))
+		pr.BlendNote = fmt.Sprintf("leaned on %s (by the last %s); interval ×%.2f from their misses",
+			b.Text(), text.Plural(b.Scored, "pass"), b.Scale)
+		pr.Notes = append(pr.Notes, pr.BlendNote)
 		return
 	}
-	pr.Notes = slices.DeleteFunc(pr.Notes, func(n string) bool { return strings.HasPrefix(n, "calibrated to ") })
-	pr.Notes = append(pr.Notes, fmt.Sprintf("only %s at %.0f ft: the prediction carries them to this air by the SAE J1349 factor alone; nothing is fitted yet",
-		text.Plural(samples, "clean pass"), distFt))
+	if pr.CalibrationNote != "" {
+		pr.Notes = slices.DeleteFunc(pr.Notes, func(n string) bool { return n == pr.CalibrationNote })
+		pr.CalibrationNote = ""
+	}
+	pr.ColdStartNote = fmt.Sprintf("only %s at %.0f ft: the prediction carries them to this air by the SAE J1349 factor alone; nothing is fitted yet",
+		text.Plural(samples, "clean pass"), distFt)
+	pr.Notes = append(pr.Notes, pr.ColdStartNote)
 }
 
 // carriedPass is one clean pass carried to the next pass's air by the SAE

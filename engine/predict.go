@@ -105,6 +105,11 @@ type Prediction struct {
 	// finish's SD).
 	DialSD float64
 	Notes  []string
+	// The notes a reader tells apart, each as it stands in Notes ("" when
+	// not made): the calibration's account, today outside the logbook's
+	// conditions, what the blend leaned on, and the cold start's. A reader
+	// compares a note with these, never with its wording.
+	CalibrationNote, OutsideNote, BlendNote, ColdStartNote string
 }
 
 // Finish is the prediction at the finish line.
@@ -245,11 +250,13 @@ func Predict(f Fit, in PredictInput) Prediction {
 		pr.Leaned = append(pr.Leaned, Leaned{Pass: s.Pass, Share: w[i], ET: logged, Carried: s.Obs[fj] + model.ET[fj] - s.Sim.ET[fj]})
 	}
 	sort.SliceStable(pr.Leaned, func(a, b int) bool { return pr.Leaned[a].Share > pr.Leaned[b].Share })
-	pr.Notes = append(pr.Notes, fmt.Sprintf("calibrated to %s (%s to %s); the correction leans mostly on the latest %d",
-		text.Plural(len(f.Samples), "clean pass"), f.Samples[len(f.Samples)-1].Pass.Time.Format("2006-01-02"), f.Samples[0].Pass.Time.Format("2006-01-02"), max(1, int(math.Round(kEff)))))
+	pr.CalibrationNote = fmt.Sprintf("calibrated to %s (%s to %s); the correction leans mostly on the latest %d",
+		text.Plural(len(f.Samples), "clean pass"), f.Samples[len(f.Samples)-1].Pass.Time.Format("2006-01-02"), f.Samples[0].Pass.Time.Format("2006-01-02"), max(1, int(math.Round(kEff))))
+	pr.Notes = append(pr.Notes, pr.CalibrationNote)
 	if u.extra > 0.0005 {
-		pr.Notes = append(pr.Notes, fmt.Sprintf("today lies outside the conditions of the passes leaned on (%s): the interval is widened by %.3f s",
-			outsideText(pr.Sensitivity), u.extra))
+		pr.OutsideNote = fmt.Sprintf("today lies outside the conditions of the passes leaned on (%s): the interval is widened by %.3f s",
+			outsideText(pr.Sensitivity), u.extra)
+		pr.Notes = append(pr.Notes, pr.OutsideNote)
 	}
 	return pr
 }

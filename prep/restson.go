@@ -74,23 +74,23 @@ const (
 	noteChange                      // the change of the car (f.Change): RestsOnLine says it
 )
 
-// kindOf says what a note of the prediction made with f is about. The
-// engine hands its notes over as sentences (engine.Prediction.Notes is a
-// []string), so this is the one place in prep that reads their wording:
-// the change's note is recognized by its value (f.Change.Text()), the
-// others by their opening words. When the engine gives its notes a kind,
-// this function is what changes; its callers do not.
-func kindOf(f engine.Fit, note string) noteKind {
+// kindOf says what a note of prediction p, made with fit f, is about: the
+// engine names its notes (Prediction.CalibrationNote and the others) and
+// the change's is its own text (f.Change.Text()), so a note is told apart by
+// what it is, never by its wording.
+func kindOf(p engine.Prediction, f engine.Fit, note string) noteKind {
 	switch {
+	case note == "":
+		return noteOther
 	case f.Change != nil && note == f.Change.Text():
 		return noteChange
-	case strings.HasPrefix(note, "calibrated to"):
+	case note == p.CalibrationNote:
 		return noteCalibration
-	case strings.HasPrefix(note, "leaned on "):
+	case note == p.BlendNote:
 		return noteBlend
-	case strings.HasPrefix(note, "today lies outside the conditions"):
+	case note == p.OutsideNote:
 		return noteOutside
-	case strings.HasPrefix(note, "only ") && strings.HasSuffix(note, "nothing is fitted yet"):
+	case note == p.ColdStartNote:
 		return noteColdStart
 	}
 	return noteOther

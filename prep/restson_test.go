@@ -88,7 +88,7 @@ func TestNoteKindsOfTheEnginesNotes(t *testing.T) {
 			c := Gather(input(modelLogbook(tc.passes), nil, nil))
 			got := map[noteKind]bool{}
 			for _, n := range c.Prediction.Notes {
-				got[kindOf(c.Fit, n)] = true
+				got[kindOf(c.Prediction, c.Fit, n)] = true
 			}
 			for _, k := range tc.want {
 				if !got[k] {
@@ -101,7 +101,7 @@ func TestNoteKindsOfTheEnginesNotes(t *testing.T) {
 				}
 			}
 			for _, n := range c.Prediction.Notes {
-				k := kindOf(c.Fit, n)
+				k := kindOf(c.Prediction, c.Fit, n)
 				if left := k == noteCalibration || said(c.Prediction, k); left == (k == noteOther) {
 					t.Errorf("note %q (kind %d): left out %v", n, k, left)
 				}
@@ -110,26 +110,33 @@ func TestNoteKindsOfTheEnginesNotes(t *testing.T) {
 	}
 }
 
-// A note's kind is read once, from its opening words or, for the change of
-// the car, from the change itself; a note of another kind is printed even
-// when the prediction was blended (the engine's wording; no outside source).
+// A note's kind is what the engine named it (Prediction.CalibrationNote
+// and the others) or, for the change of the car, the change itself; a note
+// of the same opening words that the engine did not name is another kind
+// (pitcard's own rule; no outside source).
 func TestKindOf(t *testing.T) {
 	change := &engine.Change{What: "new converter", Since: 2, Before: 30}
 	f := engine.Fit{Change: change}
+	p := engine.Prediction{
+		CalibrationNote: "calibrated to 30 clean passes (2020-04-01 to 2020-04-03); the correction leans mostly on the latest 4",
+		BlendNote:       "leaned on the pass model 95 % (by the last 30 passes); interval ×1.09 from their misses",
+		OutsideNote:     "today lies outside the conditions of the passes leaned on (x): the interval is widened by 0.010 s",
+		ColdStartNote:   "only 2 clean passes at 1320 ft: the prediction carries them to this air by the SAE J1349 factor alone; nothing is fitted yet",
+	}
 	for _, tc := range []struct {
 		name, note string
 		want       noteKind
 	}{
-		{"calibration", "calibrated to 30 clean passes (2020-04-01 to 2020-04-03); the correction leans mostly on the latest 4", noteCalibration},
-		{"blend", "leaned on the pass model 95 % (by the last 30 passes); interval ×1.09 from their misses", noteBlend},
-		{"outside", "today lies outside the conditions of the passes leaned on (x): the interval is widened by 0.010 s", noteOutside},
-		{"cold start", "only 2 clean passes at 1320 ft: the prediction carries them to this air by the SAE J1349 factor alone; nothing is fitted yet", noteColdStart},
+		{"calibration", p.CalibrationNote, noteCalibration},
+		{"blend", p.BlendNote, noteBlend},
+		{"outside", p.OutsideNote, noteOutside},
+		{"cold start", p.ColdStartNote, noteColdStart},
 		{"change", change.Text(), noteChange},
 		{"other", "track temperature not read: taken as the air plus 10 °F", noteOther},
-		{"only, not the cold start", "only the air was read", noteOther},
+		{"the same opening words, not named", "calibrated to a rule of thumb", noteOther},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
-			if got := kindOf(f, tc.note); got != tc.want {
+			if got := kindOf(p, f, tc.note); got != tc.want {
 				t.Errorf("kindOf(%q) = %d, want %d", tc.note, got, tc.want)
 			}
 		})

@@ -463,7 +463,7 @@ func Explain(p engine.Prediction, f engine.Fit, u weather.Units) []string {
 		out = append(out, fmt.Sprintf("Left out %s %s: %s%s.", o.Pass.Time.Format("01-02"), o.Pass.Session.Long(), passNotes(o.Reason), more))
 	}
 	for _, n := range p.Notes {
-		if k := kindOf(f, n); k == noteCalibration || said(p, k) {
+		if k := kindOf(p, f, n); k == noteCalibration || said(p, k) {
 			continue // said above, or by RestsOn
 		}
 		out = append(out, text.UpperFirst(n)+".")
