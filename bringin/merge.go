@@ -281,7 +281,7 @@ func ImportReadings(e *event.Folder, add []weather.Reading, from string, elev we
 			from, text.Plural(m.Same, "reading"), e.Name(event.WeatherFile))
 	}
 	log = append(log, m.New...)
-	slices.SortStableFunc(log, func(a, b weather.Reading) int { return a.Time.Compare(b.Time) }) // in time order, stably
+	weather.SortLog(log)
 	if err := safefile.Write(path, func(w io.Writer) error { return weather.WriteLog(w, log) }); err != nil {
 		return Imported{}, err
 	}

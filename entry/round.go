@@ -4,7 +4,6 @@ import (
 	"errors"
 	"fmt"
 	"maps"
-	"slices"
 	"strconv"
 	"strings"
 	"time"
@@ -527,7 +526,7 @@ func (g *gathering) readWeather() error {
 	g.now, g.sched, g.warnings = e.ClockFor(g.sched, g.haveSched, log, g.now)
 	if r.Unsaved != nil { // a reading the disk refused: the card still uses it
 		log = append(log, *r.Unsaved)
-		slices.SortStableFunc(log, func(a, b weather.Reading) int { return a.Time.Compare(b.Time) })
+		weather.SortLog(log)
 	}
 	g.log = log
 	return nil

@@ -460,7 +460,7 @@ func (e *Folder) AppendReading(r weather.Reading, elev weather.Length, replace b
 		}
 	}
 	log = append(log, r)
-	sortReadings(log)
+	weather.SortLog(log)
 	if err := safefile.Write(path, func(w io.Writer) error { return weather.WriteLog(w, log) }); err != nil {
 		return 0, err
 	}
@@ -503,16 +503,6 @@ func (e *Folder) weatherLog(elev weather.Length, held bool) ([]weather.Reading, 
 		data = data[:bytes.LastIndexByte(data, '\n')+1] // being appended: not there yet
 	}
 	return weather.ReadLog(bytes.NewReader(data), e.Name(WeatherFile), elev, e.Zone())
-}
-
-// sortReadings sorts readings in time order, stably (a log is nearly in
-// order: an insertion sort).
-func sortReadings(log []weather.Reading) {
-	for i := 1; i < len(log); i++ {
-		for j := i; j > 0 && log[j].Time.Before(log[j-1].Time); j-- {
-			log[j], log[j-1] = log[j-1], log[j]
-		}
-	}
 }
 
 // Saved is what SaveLogbook did.

@@ -57,9 +57,9 @@ func ForecastAt(log []Reading, at time.Time, elev Length) (Forecast, error) {
 	if len(log) == 0 {
 		return Forecast{}, inputErr("weather log", "", "has no readings (add one with `pitcard weather add`)")
 	}
-	if !sort.SliceIsSorted(log, func(i, j int) bool { return log[i].Time.Before(log[j].Time) }) {
-		log = append([]Reading(nil), log...)
-		sort.SliceStable(log, func(i, j int) bool { return log[i].Time.Before(log[j].Time) })
+	if !slices.IsSortedFunc(log, func(a, b Reading) int { return a.Time.Compare(b.Time) }) {
+		log = slices.Clone(log)
+		SortLog(log)
 	}
 	first, last := log[0], log[len(log)-1]
 	f := Forecast{At: at, Ahead: at.Sub(last.Time)}

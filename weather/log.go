@@ -67,6 +67,12 @@ func ParseDateTime(date, clock string, loc *time.Location) (time.Time, error) {
 	return ParseClock(clock, d, loc)
 }
 
+// SortLog puts a weather log in time order, stably: readings of the same
+// time keep their order. The one way pitcard orders readings.
+func SortLog(log []Reading) {
+	slices.SortStableFunc(log, func(a, b Reading) int { return a.Time.Compare(b.Time) })
+}
+
 // ReadLog reads a weather log from r. name is the file's name for messages,
 // elev the track's elevation (to check altimeter settings), loc the zone its
 // times are in. Every row is validated; the first bad row is an *InputError

@@ -372,3 +372,20 @@ func TestReadLogLineEndsAndRepeatedHeader(t *testing.T) {
 		t.Errorf("repeated header: %v", err)
 	}
 }
+
+// SortLog puts readings in time order and keeps the order of readings of
+// the same time (pitcard's own rule: a log's row order breaks a tie).
+func TestSortLog(t *testing.T) {
+	at := func(h int, note string) Reading {
+		return Reading{Time: time.Date(2026, 6, 13, h, 0, 0, 0, time.UTC), Note: note}
+	}
+	log := []Reading{at(20, "c"), at(18, "a"), at(20, "d"), at(19, "b")}
+	SortLog(log)
+	var got string
+	for _, r := range log {
+		got += r.Note
+	}
+	if got != "abcd" {
+		t.Errorf("sorted %q, want abcd", got)
+	}
+}
