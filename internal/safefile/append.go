@@ -23,22 +23,13 @@ const (
 // it (it checks the line end). No .bak is kept (the old content is not
 // changed) and the folder is not touched, so it needs no flush.
 func Append(path string, data []byte, opts ...Option) (err error) {
-	var o options
-	for _, opt := range opts {
-		opt(&o)
-	}
-	stage := func(s string) {
-		if o.pause != nil {
-			o.pause(s)
-		}
-	}
+	o := optionsOf(opts)
+	stage := o.stage
 	if path, err = Resolve(path); err != nil {
 		return err
 	}
-	if FailWrites != nil {
-		if err := FailWrites(path); err != nil {
-			return fmt.Errorf("writing %s: %w", path, err)
-		}
+	if err := failed(path); err != nil {
+		return err
 	}
 	f, err := os.OpenFile(path, os.O_WRONLY|os.O_APPEND, 0)
 	if err != nil {

@@ -202,6 +202,34 @@ type Option func(*options)
 
 type options struct{ pause func(stage string) }
 
+// optionsOf gathers a write's options.
+func optionsOf(opts []Option) options {
+	var o options
+	for _, opt := range opts {
+		opt(&o)
+	}
+	return o
+}
+
+// stage tells the crash test the write has reached stage s (nothing
+// without PauseAt).
+func (o options) stage(s string) {
+	if o.pause != nil {
+		o.pause(s)
+	}
+}
+
+// failed is FailWrites's word on a write of path (nil: go ahead).
+func failed(path string) error {
+	if FailWrites == nil {
+		return nil
+	}
+	if err := FailWrites(path); err != nil {
+		return fmt.Errorf("writing %s: %w", path, err)
+	}
+	return nil
+}
+
 // Stages of a Write, in order, as PauseAt names them.
 const (
 	StageWritten  = "written"   // the new content is in the temporary file
@@ -218,22 +246,13 @@ func PauseAt(f func(stage string)) Option { return func(o *options) { o.pause = 
 // old content or the new, never a mix. The old file, if any, is kept as
 // path+".bak". The caller should hold Lock(path) when it read the old content.
 func Write(path string, write func(io.Writer) error, opts ...Option) (err error) {
-	var o options
-	for _, opt := range opts {
-		opt(&o)
-	}
-	stage := func(s string) {
-		if o.pause != nil {
-			o.pause(s)
-		}
-	}
+	o := optionsOf(opts)
+	stage := o.stage
 	if path, err = Resolve(path); err != nil {
 		return err
 	}
-	if FailWrites != nil {
-		if err := FailWrites(path); err != nil {
-			return fmt.Errorf("writing %s: %w", path, err)
-		}
+	if err := failed(path); err != nil {
+		return err
 	}
 	removeStale(path)
 	dir := filepath.Dir(path)
