@@ -166,7 +166,8 @@ func (s *Server) cardPage(q *request) {
 	p.Elimination = in.Session.Kind == logbook.Elimination
 	p.Title = c.Title
 	if len(in.Car.Setup) > 0 {
-		p.Setup = setupLine(in.Car.Setup, in.Setup, logbook.LastSetup(in.Passes, in.Car.Setup))
+		planned, last := prep.PlannedSetup(in)
+		p.Setup = setupLine(in.Car.Setup, planned, last)
 		if p.Setup == "" {
 			p.Setup = "none logged yet"
 		}
@@ -356,8 +357,8 @@ func (s *Server) slipDefaults(q *request, round string) ([]field, string) {
 		set["opponent-dial"] = prep.DialText(in.OpponentDial.Decimal, in.Settings.DialStep)
 	}
 	// The setup the car runs: the round's planned, else the last pass's.
-	last := logbook.LastSetup(in.Passes, in.Car.Setup)
-	form = append(form, setupFields(in.Car.Setup, plannedOrLast(in.Setup, last), last)...)
+	planned, last := prep.PlannedSetup(in)
+	form = append(form, setupFields(in.Car.Setup, planned, last)...)
 	for i := range form {
 		if v, ok := set[form[i].Name]; ok {
 			form[i].Value = v

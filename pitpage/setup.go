@@ -2,12 +2,12 @@ package pitpage
 
 import (
 	"fmt"
-	"maps"
 	"net/http"
 	"net/url"
 	"strings"
 
 	"pitcard/logbook"
+	"pitcard/prep"
 	"pitcard/weather"
 )
 
@@ -55,23 +55,13 @@ func setupValues(setup logbook.Setup, form url.Values) []string {
 	return sets
 }
 
-// plannedOrLast is each item's planned value for the round, else the last
-// pass's.
-func plannedOrLast(planned, last map[string]string) map[string]string {
-	out := maps.Clone(last)
-	maps.Copy(out, planned)
-	return out
-}
-
-// setupLine says the round's planned setup against the last pass, for the
-// card page: "rear psi 15 psi (last 16), converter stock".
+// setupLine says the round's planned setup (prep.PlannedSetup: the last
+// pass's where nothing is planned) against the last pass, for the card
+// page: "rear psi 15 psi (last 16), converter stock".
 func setupLine(setup logbook.Setup, planned, last map[string]string) string {
 	var parts []string
 	for _, it := range setup {
 		v := planned[it.Name]
-		if v == "" {
-			v = last[it.Name]
-		}
 		if v == "" {
 			continue
 		}
@@ -100,8 +90,8 @@ func (s *Server) setupPage(q *request) {
 	if len(in.Car.Setup) == 0 {
 		p.Intro = "car.yaml names no setup items: list them under setup: (see the README) and they are asked here."
 	}
-	last := logbook.LastSetup(in.Passes, in.Car.Setup)
-	p.Form = setupFields(in.Car.Setup, in.Setup, last)
+	_, last := prep.PlannedSetup(in)
+	p.Form = setupFields(in.Car.Setup, in.Setup, last) // the planned items only: blank keeps the last pass's
 	s.render(q, "form", p, http.StatusOK)
 }
 

@@ -72,7 +72,7 @@ func RuleContext(c Card) map[string]any {
 	}
 	ctx["passes"] = passes
 	if len(in.Car.Setup) > 0 {
-		planned, last := plannedSetup(in)
+		planned, last := PlannedSetup(in)
 		ctx["setup"] = map[string]any{"planned": setupValues(in.Car.Setup, planned), "last": setupValues(in.Car.Setup, last)}
 	}
 	return tidy(ctx).(map[string]any)

@@ -269,7 +269,7 @@ func calibrateInput(in Input) engine.CalibrateInput {
 // c.Prediction and returns the fit it was made with.
 func (c *Card) predict(cal engine.CalibrateInput) (engine.Fit, error) {
 	in := c.Input
-	planned, last := plannedSetup(in)
+	planned, last := PlannedSetup(in)
 	change := in.Change
 	if cc := engine.ChoiceChanges(in.Car.Setup, planned, last); cc != "" { // a changed choice is a change of the car
 		change = strings.TrimPrefix(change+"; "+cc, "; ")
@@ -482,9 +482,10 @@ func winOf(c Card, d decimal.Decimal) (float64, bool) {
 	return 0, false
 }
 
-// plannedSetup is the round's planned setup (the last pass's, each item
-// given replacing its value) and the last pass's, item name to cell.
-func plannedSetup(in Input) (planned, last map[string]string) {
+// PlannedSetup is the round's planned setup (the last pass's, each item
+// given replacing its value) and the last pass's, item name to cell: what
+// the card predicts with, and what the pit page's forms show.
+func PlannedSetup(in Input) (planned, last map[string]string) {
 	last = logbook.LastSetup(in.Passes, in.Car.Setup)
 	planned = maps.Clone(last)
 	maps.Copy(planned, in.Setup)
