@@ -1,14 +1,12 @@
 package event
 
 import (
-	"bufio"
 	"errors"
 	"fmt"
 	"os"
-	"os/exec"
 	"path/filepath"
+	"pitcard/internal/crashtest"
 	"strings"
-	"syscall"
 	"testing"
 	"time"
 
@@ -152,39 +150,7 @@ func TestAppendSurvivesAKill(t *testing.T) {
 			if _, err := e.SaveLogbook([]logbook.Pass{slipAt(time.Date(2026, 3, 1, 9, 0, 0, 0, time.UTC), logbook.Left)}); err != nil {
 				t.Fatal(err) // the rewrite that sets the count
 			}
-			child := exec.Command(os.Args[0], "-test.run=^TestAppendCrashChild$")
-			child.Env = append(os.Environ(), "PITCARD_APPEND_CHILD="+e.Dir, "PITCARD_APPEND_AT="+tc.at)
-			out, err := child.StdoutPipe()
-			if err != nil {
-				t.Fatal(err)
-			}
-			if err := child.Start(); err != nil {
-				t.Fatal(err)
-			}
-			paused := make(chan bool, 1)
-			go func() {
-				sc := bufio.NewScanner(out)
-				for sc.Scan() {
-					if sc.Text() == "PAUSED "+tc.at {
-						paused <- true
-						return
-					}
-				}
-				paused <- false
-			}()
-			select {
-			case ok := <-paused:
-				if !ok {
-					_ = child.Wait()
-					t.Fatalf("the writer ended without pausing at %s", tc.at)
-				}
-			case <-time.After(60 * time.Second):
-				_ = child.Process.Kill()
-				_ = child.Wait()
-				t.Fatalf("the writer did not reach %s in 60 s", tc.at)
-			}
-			_ = child.Process.Signal(syscall.SIGKILL)
-			_ = child.Wait()
+			crashtest.KillAt(t, "^TestAppendCrashChild$", []string{"PITCARD_APPEND_CHILD=" + e.Dir, "PITCARD_APPEND_AT=" + tc.at}, tc.at)
 			passes, err := e.Logbook()
 			if len(passes) != tc.passes {
 				t.Fatalf("killed at %s: %d passes read back, want %d (%v)", tc.at, len(passes), tc.passes, err)
@@ -212,13 +178,7 @@ func TestAppendCrashChild(t *testing.T) {
 		t.Skip("run by TestAppendSurvivesAKill")
 	}
 	at := os.Getenv("PITCARD_APPEND_AT")
-	appendPause = func(stage string) {
-		if stage == at {
-			fmt.Fprintln(os.Stdout, "PAUSED "+stage)
-			_ = os.Stdout.Sync()
-			time.Sleep(time.Hour) // until killed
-		}
-	}
+	appendPause = crashtest.PauseAt(at)
 	e := &Folder{Dir: dir, FS: os.DirFS(dir), Loc: time.UTC}
 	_, err := e.SaveLogbook([]logbook.Pass{slipAt(time.Date(2026, 3, 2, 9, 0, 0, 0, time.UTC), logbook.Right)})
 	t.Fatalf("the append was not stopped at %s: %v", at, err)

@@ -1,7 +1,6 @@
 package main
 
 import (
-	"bufio"
 	"bytes"
 	"encoding/json"
 	"fmt"
@@ -9,8 +8,8 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
+	"pitcard/internal/crashtest"
 	"strings"
-	"syscall"
 	"testing"
 	"time"
 
@@ -214,39 +213,7 @@ func TestLogbookSurvivesAKilledWriter(t *testing.T) {
 		t.Run(tc.at, func(t *testing.T) {
 			writeFile(t, path, oldData)
 			_ = os.Remove(path + ".bak")
-			child := exec.Command(os.Args[0], "-test.run=^TestCrashChild$")
-			child.Env = append(os.Environ(), "PITCARD_CRASH_CHILD="+path, "PITCARD_CRASH_AT="+tc.at)
-			out, err := child.StdoutPipe()
-			if err != nil {
-				t.Fatal(err)
-			}
-			if err := child.Start(); err != nil {
-				t.Fatal(err)
-			}
-			paused := make(chan bool, 1)
-			go func() {
-				sc := bufio.NewScanner(out)
-				for sc.Scan() {
-					if sc.Text() == "PAUSED "+tc.at {
-						paused <- true
-						return
-					}
-				}
-				paused <- false
-			}()
-			select {
-			case ok := <-paused:
-				if !ok {
-					_ = child.Wait()
-					t.Fatalf("the writer ended without pausing at %s", tc.at)
-				}
-			case <-time.After(60 * time.Second):
-				_ = child.Process.Kill()
-				_ = child.Wait()
-				t.Fatalf("the writer did not reach %s in 60 s", tc.at)
-			}
-			_ = child.Process.Signal(syscall.SIGKILL)
-			_ = child.Wait()
+			crashtest.KillAt(t, "^TestCrashChild$", []string{"PITCARD_CRASH_CHILD=" + path, "PITCARD_CRASH_AT=" + tc.at}, tc.at)
 			got, err := os.ReadFile(path)
 			if err != nil {
 				t.Fatal(err)
@@ -293,13 +260,7 @@ func TestCrashChild(t *testing.T) {
 		t.Skip("run by TestLogbookSurvivesAKilledWriter")
 	}
 	at := os.Getenv("PITCARD_CRASH_AT")
-	pause := func(point string) {
-		if point == at {
-			fmt.Fprintln(os.Stdout, "PAUSED "+point)
-			_ = os.Stdout.Sync()
-			time.Sleep(time.Hour) // until killed
-		}
-	}
+	pause := crashtest.PauseAt(at)
 	passes, _ := logbook.Read(strings.NewReader(season(400)), "new", time.Local)
 	var all bytes.Buffer
 	_ = logbook.Write(&all, passes)
