@@ -8,6 +8,25 @@ import (
 	"testing"
 )
 
+// demoWithSetup is a copy of the demo whose car.yaml names the setup items
+// items (YAML list lines) and whose logbook has the columns header, the
+// i-th row's cells cells(i) ("16,stock"); it returns the folder and the
+// logbook's lines as written.
+func demoWithSetup(t *testing.T, items, header string, cells func(i int) string) (string, []string) {
+	t.Helper()
+	dir := demoCopy(t)
+	car, _ := os.ReadFile(filepath.Join(dir, "car.yaml"))
+	writeFile(t, filepath.Join(dir, "car.yaml"), string(car)+"\nsetup:\n"+items)
+	book, _ := os.ReadFile(filepath.Join(dir, "logbook.csv"))
+	lines := strings.Split(strings.TrimSpace(string(book)), "\n")
+	lines[0] += "," + header
+	for i := 1; i < len(lines); i++ {
+		lines[i] += "," + cells(i)
+	}
+	writeFile(t, filepath.Join(dir, "logbook.csv"), strings.Join(lines, "\n")+"\n")
+	return dir, lines
+}
+
 // setupFolder is a new folder whose car.yaml names two setup items.
 func setupFolder(t *testing.T) string {
 	t.Helper()
@@ -91,16 +110,7 @@ func TestLogSetupCommand(t *testing.T) {
 // card --set: the prediction carries a line per changed item, the finish
 // moves, and a rule sees ctx.setup's planned and last values.
 func TestCardSetAndRules(t *testing.T) {
-	dir := demoCopy(t)
-	car, _ := os.ReadFile(filepath.Join(dir, "car.yaml"))
-	writeFile(t, filepath.Join(dir, "car.yaml"), string(car)+"\nsetup:\n  - {name: rear_psi, unit: psi, range: [6, 40], expect: {et60: 0.010}}\n")
-	book, _ := os.ReadFile(filepath.Join(dir, "logbook.csv"))
-	lines := strings.Split(strings.TrimSpace(string(book)), "\n")
-	lines[0] += ",rear_psi"
-	for i := 1; i < len(lines); i++ {
-		lines[i] += "," + []string{"15", "16", "17", "16.5", "15.5"}[i%5]
-	}
-	writeFile(t, filepath.Join(dir, "logbook.csv"), strings.Join(lines, "\n")+"\n")
+	dir, lines := demoWithSetup(t, "  - {name: rear_psi, unit: psi, range: [6, 40], expect: {et60: 0.010}}\n", "rear_psi", func(i int) string { return []string{"15", "16", "17", "16.5", "15.5"}[i%5] })
 	writeFile(t, filepath.Join(dir, "rules", "70-psi.lua"), `function dial(ctx)
   local s = ctx.setup
   if s and s.planned.rear_psi < s.last.rear_psi then
@@ -133,16 +143,7 @@ end
 // The guided round asks each setup item, Enter keeping the last pass's
 // value; the card plans the typed one and the slip logs it.
 func TestGuidedRoundSetup(t *testing.T) {
-	dir := demoCopy(t)
-	car, _ := os.ReadFile(filepath.Join(dir, "car.yaml"))
-	writeFile(t, filepath.Join(dir, "car.yaml"), string(car)+"\nsetup:\n  - {name: rear_psi, unit: psi, range: [6, 40], expect: {et60: 0.010}}\n  - {name: converter, choices: [stock, 5400-stall]}\n")
-	book, _ := os.ReadFile(filepath.Join(dir, "logbook.csv"))
-	lines := strings.Split(strings.TrimSpace(string(book)), "\n")
-	lines[0] += ",rear_psi,converter"
-	for i := 1; i < len(lines); i++ {
-		lines[i] += "," + []string{"15", "16", "17", "16.5", "15.5"}[i%5] + ",stock"
-	}
-	writeFile(t, filepath.Join(dir, "logbook.csv"), strings.Join(lines, "\n")+"\n")
+	dir, lines := demoWithSetup(t, "  - {name: rear_psi, unit: psi, range: [6, 40], expect: {et60: 0.010}}\n  - {name: converter, choices: [stock, 5400-stall]}\n", "rear_psi,converter", func(i int) string { return []string{"15", "16", "17", "16.5", "15.5"}[i%5] + ",stock" })
 	last := strings.Split(lines[len(lines)-1], ",")
 	lastPSI := last[len(last)-2]
 	answers := strings.Join([]string{
@@ -174,16 +175,7 @@ func TestGuidedRoundSetup(t *testing.T) {
 // dial --set posts the card's dial with the planned setup: the same number
 // as card --set, and a refused value names the item and its range.
 func TestDialSet(t *testing.T) {
-	dir := demoCopy(t)
-	car, _ := os.ReadFile(filepath.Join(dir, "car.yaml"))
-	writeFile(t, filepath.Join(dir, "car.yaml"), string(car)+"\nsetup:\n  - {name: ballast_lb, unit: lb, range: [0, 300]}\n")
-	book, _ := os.ReadFile(filepath.Join(dir, "logbook.csv"))
-	lines := strings.Split(strings.TrimSpace(string(book)), "\n")
-	lines[0] += ",ballast_lb"
-	for i := 1; i < len(lines); i++ {
-		lines[i] += "," + []string{"0", "50", "100", "150", "200"}[i%5]
-	}
-	writeFile(t, filepath.Join(dir, "logbook.csv"), strings.Join(lines, "\n")+"\n")
+	dir, _ := demoWithSetup(t, "  - {name: ballast_lb, unit: lb, range: [0, 300]}\n", "ballast_lb", func(i int) string { return []string{"0", "50", "100", "150", "200"}[i%5] })
 	at := []string{"--dir", dir, "--round", "3", "--lane", "left", "--at", "20:45", "--format", "json"}
 	var d struct {
 		Post json.Number `json:"post_dial"`
