@@ -36,12 +36,23 @@ func allocate(n int, stop chan struct{}) func() int64 {
 			}
 		}()
 	}
+	grew := heapGrowth(200*time.Microsecond, stop)
+	return func() int64 {
+		wg.Wait()
+		return grew()
+	}
+}
+
+// heapGrowth samples the heap every interval until stop is closed; the
+// function it returns waits for the sampler and gives the most the heap
+// grew over its lowest sample.
+func heapGrowth(every time.Duration, stop chan struct{}) func() int64 {
 	var grew int64
-	wg.Add(1)
+	done := make(chan struct{})
 	go func() {
-		defer wg.Done()
+		defer close(done)
 		low := heapBytes()
-		tick := time.NewTicker(200 * time.Microsecond)
+		tick := time.NewTicker(every)
 		defer tick.Stop()
 		for {
 			select {
@@ -55,7 +66,7 @@ func allocate(n int, stop chan struct{}) func() int64 {
 		}
 	}()
 	return func() int64 {
-		wg.Wait()
+		<-done
 		return grew
 	}
 }

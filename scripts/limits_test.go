@@ -4,7 +4,6 @@ import (
 	"fmt"
 	"runtime"
 	"strings"
-	"sync"
 	"testing"
 	"time"
 )
@@ -27,29 +26,11 @@ func TestMemoryBudgetMeasured(t *testing.T) {
 	src := "function checks(ctx)\n local t = {}\n for i = 1, 1e9 do t[i] = {i, i, i, i} end\nend"
 	r := Compile("rules/t.lua", src, nil, lim)
 	runtime.GC()
-	base := heapBytes()
-	var peak int64
 	stop := make(chan struct{})
-	var wg sync.WaitGroup
-	wg.Add(1)
-	go func() {
-		defer wg.Done()
-		tick := time.NewTicker(100 * time.Microsecond)
-		defer tick.Stop()
-		for {
-			select {
-			case <-stop:
-				return
-			case <-tick.C:
-				h := heapBytes()
-				base = min(base, h)
-				peak = max(peak, h-base)
-			}
-		}
-	}()
+	growth := heapGrowth(100*time.Microsecond, stop)
 	res := Run([]*Rule{r}, nil, ctxFor("left", 20, 100), lim)[0]
 	close(stop)
-	wg.Wait()
+	peak := growth()
 	if len(res.Errors) == 0 || !strings.Contains(res.Errors[0].Error(), "64 MiB of memory") {
 		t.Fatalf("errors %v", res.Errors)
 	}
